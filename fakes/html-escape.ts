@@ -1,0 +1,12 @@
+const replacements: Record<string, string> = {
+  '&': '&amp;',
+  '<': '&lt;',
+  '>': '&gt;',
+  '"': '&quot;',
+  "'": '&#39;',
+};
+
+/** Escapes text for HTML element content and quoted attribute values (HTML Living Standard §13.1). */
+export function escapeHtml(text: string): string {
+  return text.replace(/[&<>"']/g, (character) => replacements[character] ?? character);
+}

@@ -1,0 +1,78 @@
+import { createServer, type Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import express from 'express';
+import { demoAccounts, type FakeAccount } from './demo-accounts.js';
+import { createInteractionRoutes } from './interaction-routes.js';
+import { allowLoopbackRedirects } from './loopback-redirects.js';
+import { buildProviderConfiguration, type FakeClient } from './provider-configuration.js';
+import { createQuietProvider } from './quiet-provider.js';
+import { loadSigningKey } from './signing-key.js';
+
+/** How to start the local identity provider. */
+export interface OidcFakeOptions {
+  /** The port on 127.0.0.1; 0 picks a free one. Defaults to 4310. */
+  port?: number;
+  /** The accounts that can sign in. Defaults to {@link demoAccounts}. */
+  accounts?: FakeAccount[];
+  /** The registered clients. Defaults to the one `tuttiboard` client. */
+  clients?: { clientId: string; clientSecret: string }[];
+  /** Where to keep the RSA signing key (a JWK), so restarts keep ID tokens verifiable. */
+  keyFile?: string;
+}
+
+/** A running local identity provider. */
+export interface OidcFake {
+  /** The issuer identifier, such as `http://127.0.0.1:4310`. */
+  issuer: string;
+  /** Stops the server and drops its open connections. */
+  close(): Promise<void>;
+}
+
+/** The client the application is registered as when no clients are given. */
+export const defaultClients: FakeClient[] = [
+  { clientId: 'tuttiboard', clientSecret: 'tuttiboard-local-secret' },
+];
+
+function listen(server: Server, port: number): Promise<number> {
+  return new Promise((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(port, '127.0.0.1', () => {
+      server.off('error', reject);
+      resolve((server.address() as AddressInfo).port);
+    });
+  });
+}
+
+/**
+ * Starts an OpenID Connect identity provider on 127.0.0.1 that stands in for the district's
+ * hosted one: authorization code flow with PKCE, our own sign-in page, invented accounts.
+ */
+export async function startOidcFake(options: OidcFakeOptions = {}): Promise<OidcFake> {
+  const accounts = options.accounts ?? demoAccounts;
+  const clients = options.clients ?? defaultClients;
+  const signingKey = loadSigningKey(options.keyFile);
+  const server = createServer();
+  const port = await listen(server, options.port ?? 4310);
+  const issuer = `http://127.0.0.1:${port}`;
+
+  const provider = await createQuietProvider(
+    issuer,
+    buildProviderConfiguration({ accounts, clients, signingKey }),
+  );
+  allowLoopbackRedirects(provider);
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.use(createInteractionRoutes(provider, accounts));
+  app.use(provider.callback());
+  server.on('request', app);
+
+  return {
+    issuer,
+    close: () =>
+      new Promise<void>((resolve, reject) => {
+        server.close((error) => (error ? reject(error) : resolve()));
+        server.closeAllConnections();
+      }),
+  };
+}

@@ -1,0 +1,109 @@
+import express, { Router, type Express } from 'express';
+import session from 'express-session';
+import helmet from 'helmet';
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { Config } from './config';
+import type { DatabaseHandle } from './db/client';
+import { createLogger, type Logger } from './logger';
+import type { Services } from './services';
+import { DatabaseSessionStore } from './auth/session-store';
+import { createSignIn, sessionCookieName } from './auth/oidc-sign-in';
+import { authenticate } from './auth/authenticate';
+import { sameOriginWrites } from './core/same-origin';
+import { errorHandler, unknownApiRoute } from './core/error-handler';
+import { sessionSecret } from './core/settings';
+import { meRoutes } from './me/me-routes';
+import { schoolsRoutes } from './schools/schools-routes';
+import { tokensRoutes } from './tokens/tokens-routes';
+
+/** Where the production build of the Angular app lands. */
+export const webRoot = fileURLToPath(new URL('../dist/web/browser', import.meta.url));
+
+/** What createApp needs besides the configuration. */
+export interface AppOptions {
+  database: DatabaseHandle;
+  logger?: Logger;
+  /** Serve the built web app (default true when it has been built). */
+  serveWeb?: boolean;
+}
+
+/** The feature routers, each mounted under /api. */
+const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes];
+
+/** Builds the Express app: security headers, sessions, sign-in, the API and the web app. */
+export async function createApp(config: Config, options: AppOptions): Promise<Express> {
+  const logger = options.logger ?? createLogger(config.logLevel);
+  const { db } = options.database;
+  const services: Services = { config, db, database: options.database, logger };
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', config.trustProxy);
+  app.locals['services'] = services;
+
+  const issuerOrigin = new URL(config.oidcIssuer).origin;
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          // Angular's component styles and the grid's theme are injected as <style> elements.
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          fontSrc: ["'self'"],
+          connectSrc: ["'self'"],
+          mediaSrc: ["'self'", 'blob:'],
+          workerSrc: ["'self'", 'blob:'],
+          objectSrc: ["'none'"],
+          baseUri: ["'self'"],
+          frameAncestors: ["'none'"],
+          // Sign-out posts here and is redirected on to the identity provider.
+          formAction: ["'self'", issuerOrigin],
+        },
+      },
+      strictTransportSecurity: config.appUrl.startsWith('https:'),
+    }),
+  );
+
+  const secure = config.appUrl.startsWith('https:');
+  app.use(
+    session({
+      name: sessionCookieName,
+      secret: await sessionSecret(db, config.sessionSecret),
+      store: new DatabaseSessionStore(db),
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: { httpOnly: true, sameSite: 'lax', secure, maxAge: 8 * 60 * 60 * 1000 },
+    }),
+  );
+  const signIn = createSignIn(config, db, logger);
+  app.use(signIn.initialize, signIn.session);
+  app.use(sameOriginWrites(() => [new URL(config.appUrl).origin]));
+  app.use(signIn.router);
+
+  const api = Router();
+  api.use(express.json({ limit: '2mb' }));
+  api.use(authenticate(db));
+  api.use((_request, response, next) => {
+    response.set('Cache-Control', 'no-store');
+    next();
+  });
+  for (const routes of featureRoutes) api.use(routes(services));
+  api.use(unknownApiRoute);
+  app.use('/api', api);
+
+  if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'))) {
+    app.use(express.static(webRoot, { index: false, maxAge: '1h' }));
+    // HTML5 routing: every other GET is the app's index page.
+    app.get('/{*splat}', (_request, response) => {
+      response.set('Cache-Control', 'no-cache');
+      response.sendFile(path.join(webRoot, 'index.html'));
+    });
+  }
+  app.use(errorHandler(logger));
+  return app;
+}

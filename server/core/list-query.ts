@@ -1,0 +1,44 @@
+import { asc, desc, type AnyColumn, type SQL } from 'drizzle-orm';
+import type { z } from 'zod';
+import { listQuerySchema, type ListQuery } from '../../shared/api/list';
+import { badRequest } from './errors';
+import { parseInput } from './validate';
+
+/** What a list route can sort on: API field name → column or SQL expression. */
+export type SortableFields = Record<string, AnyColumn | SQL>;
+
+/** Parses `q`, `sort`, `offset`, `limit` plus the resource's own field filters. */
+export function parseListQuery<Filters extends z.ZodObject>(
+  query: unknown,
+  filters: Filters,
+): ListQuery & z.infer<Filters> {
+  return parseInput(listQuerySchema.extend(filters.shape), query, 'The list query') as ListQuery &
+    z.infer<Filters>;
+}
+
+/**
+ * The ORDER BY for a list: the requested field, then the id so pages never repeat or skip a
+ * row between two requests.
+ */
+export function orderFor(
+  sort: string | undefined,
+  sortable: SortableFields,
+  fallback: string,
+  id: AnyColumn,
+): SQL[] {
+  const [field, direction] = (sort ?? fallback).split(':') as [string, 'asc' | 'desc'];
+  const column = sortable[field];
+  if (!column) {
+    throw badRequest(`Cannot sort by '${field}'. Sort by one of: ${Object.keys(sortable).join(', ')}.`, [
+      { field: 'sort', message: `Unknown field '${field}'.` },
+    ]);
+  }
+  const order = direction === 'desc' ? desc : asc;
+  return [order(column), order(id)];
+}
+
+/** Escapes LIKE wildcards in a user's search text. */
+export function likePattern(text: string, where: 'prefix' | 'anywhere' = 'anywhere'): string {
+  const escaped = text.toLowerCase().replace(/[\\%_]/g, (character) => `\\${character}`);
+  return where === 'prefix' ? `${escaped}%` : `%${escaped}%`;
+}

@@ -1,0 +1,78 @@
+import { PGlite } from '@electric-sql/pglite';
+import { drizzle as drizzlePglite } from 'drizzle-orm/pglite';
+import { drizzle as drizzleNodePostgres } from 'drizzle-orm/node-postgres';
+import { migrate as migratePglite } from 'drizzle-orm/pglite/migrator';
+import { migrate as migrateNodePostgres } from 'drizzle-orm/node-postgres/migrator';
+import type { PgDatabase, PgQueryResultHKT } from 'drizzle-orm/pg-core';
+import { fileURLToPath } from 'node:url';
+import fs from 'node:fs';
+import path from 'node:path';
+import pg from 'pg';
+import * as schema from './schema/index';
+
+/** The Drizzle database, whichever PostgreSQL is behind it. */
+export type Database = PgDatabase<PgQueryResultHKT, typeof schema>;
+
+/** A transaction handle; inside `db.transaction` use only this, never `db`. */
+export type Transaction = Parameters<Parameters<Database['transaction']>[0]>[0];
+
+/** An open database and how to close it. */
+export interface DatabaseHandle {
+  db: Database;
+  kind: 'pglite' | 'postgres';
+  /** The embedded engine, for COPY and dumps; absent in server mode. */
+  pglite?: PGlite;
+  pool?: pg.Pool;
+  close(): Promise<void>;
+}
+
+/** Where to find the database: a data folder, a template image in memory, or a server. */
+export type DatabaseLocation =
+  | { kind: 'pglite'; dataDir: string }
+  | { kind: 'pglite-image'; image: Blob }
+  | { kind: 'pglite-memory' }
+  | { kind: 'postgres'; url: string };
+
+export const migrationsFolder = fileURLToPath(new URL('./migrations', import.meta.url));
+
+/** Opens the database without migrating it. */
+export async function openDatabase(location: DatabaseLocation): Promise<DatabaseHandle> {
+  if (location.kind === 'postgres') {
+    const pool = new pg.Pool({ connectionString: location.url, max: 10 });
+    const db = drizzleNodePostgres({ client: pool, schema }) as unknown as Database;
+    return { db, kind: 'postgres', pool, close: () => pool.end() };
+  }
+  let pglite: PGlite;
+  if (location.kind === 'pglite') {
+    const folder = path.join(location.dataDir, 'pg');
+    fs.mkdirSync(folder, { recursive: true });
+    pglite = await PGlite.create(folder);
+  } else if (location.kind === 'pglite-image') {
+    pglite = await PGlite.create({ loadDataDir: location.image });
+  } else {
+    pglite = await PGlite.create();
+  }
+  const db = drizzlePglite({ client: pglite, schema }) as unknown as Database;
+  return {
+    db,
+    kind: 'pglite',
+    pglite,
+    close: async () => {
+      if (!pglite.closed) await pglite.close();
+    },
+  };
+}
+
+/** Applies every committed migration that has not run yet. */
+export async function migrateDatabase(handle: DatabaseHandle): Promise<void> {
+  if (handle.kind === 'postgres') {
+    await migrateNodePostgres(handle.db as never, { migrationsFolder });
+  } else {
+    await migratePglite(handle.db as never, { migrationsFolder });
+  }
+}
+
+/** The rows of a raw `db.execute` result, for both drivers. */
+export function rowsOf<Row>(result: unknown): Row[] {
+  return (result as { rows: Row[] }).rows;
+}

@@ -1,0 +1,5 @@
+export * from './columns';
+export * from './schools';
+export * from './people';
+export * from './roster';
+export * from './audit';

@@ -1,0 +1,88 @@
+import {
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  uniqueIndex,
+  boolean,
+} from 'drizzle-orm/pg-core';
+import { timestamps, version } from './columns';
+import { schools } from './schools';
+
+/** Someone who signs in: coordinator, director, technician, viewer or student. */
+export const users = pgTable(
+  'users',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    email: text('email').notNull(),
+    name: text('name').notNull(),
+    role: text('role', {
+      enum: ['coordinator', 'director', 'technician', 'viewer', 'student'],
+    }).notNull(),
+    active: boolean('active').notNull().default(true),
+    /** For a student account: the roster row it belongs to. */
+    studentId: integer('student_id'),
+    lastSignInAt: timestamp('last_sign_in_at', { withTimezone: true, mode: 'date' }),
+    ...version,
+    ...timestamps,
+  },
+  (table) => [uniqueIndex('users_email_unique').on(table.email)],
+);
+
+/** The schools a director or viewer acts for. */
+export const userSchools = pgTable(
+  'user_schools',
+  {
+    userId: integer('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    schoolId: integer('school_id')
+      .notNull()
+      .references(() => schools.id, { onDelete: 'cascade' }),
+  },
+  (table) => [
+    primaryKey({ columns: [table.userId, table.schoolId] }),
+    index('user_schools_school_idx').on(table.schoolId),
+  ],
+);
+
+/** A script's key: only a SHA-256 hash of the token is kept. */
+export const apiTokens = pgTable(
+  'api_tokens',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    userId: integer('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    label: text('label').notNull().default(''),
+    tokenHash: text('token_hash').notNull(),
+    lastUsedAt: timestamp('last_used_at', { withTimezone: true, mode: 'date' }),
+    revokedAt: timestamp('revoked_at', { withTimezone: true, mode: 'date' }),
+    ...timestamps,
+  },
+  (table) => [
+    uniqueIndex('api_tokens_hash_unique').on(table.tokenHash),
+    index('api_tokens_user_idx').on(table.userId),
+  ],
+);
+
+/** Browser sessions, kept in the database so several app instances can share them. */
+export const sessions = pgTable(
+  'sessions',
+  {
+    sid: text('sid').primaryKey(),
+    data: jsonb('data').notNull(),
+    expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }).notNull(),
+  },
+  (table) => [index('sessions_expires_idx').on(table.expiresAt)],
+);
+
+/** Small district-wide settings kept in the database, shared by every app instance. */
+export const appSettings = pgTable('app_settings', {
+  key: text('key').primaryKey(),
+  value: jsonb('value').notNull(),
+  ...timestamps,
+});

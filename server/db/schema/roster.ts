@@ -1,0 +1,172 @@
+import {
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  smallint,
+  text,
+  timestamp,
+  uniqueIndex,
+  boolean,
+} from 'drizzle-orm/pg-core';
+import { sql } from 'drizzle-orm';
+import { timestamps, version } from './columns';
+import { schoolYears, schools } from './schools';
+import { users } from './people';
+
+/** A music student, keyed by the district's student id from the student information system. */
+export const students = pgTable(
+  'students',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    studentNumber: text('student_number').notNull(),
+    firstName: text('first_name').notNull(),
+    lastName: text('last_name').notNull(),
+    preferredName: text('preferred_name'),
+    /** 0 is kindergarten. */
+    grade: smallint('grade').notNull(),
+    schoolId: integer('school_id')
+      .notNull()
+      .references(() => schools.id),
+    status: text('status', { enum: ['active', 'withdrawn'] })
+      .notNull()
+      .default('active'),
+    guardianName: text('guardian_name'),
+    guardianEmail: text('guardian_email'),
+    ...version,
+    ...timestamps,
+  },
+  (table) => [
+    uniqueIndex('students_student_number_unique').on(table.studentNumber),
+    index('students_school_idx').on(table.schoolId, table.lastName, table.firstName, table.id),
+    index('students_name_idx').on(table.lastName, table.firstName, table.id),
+    index('students_grade_idx').on(table.grade, table.lastName, table.id),
+    index('students_last_name_search_idx').using('btree', sql`lower(${table.lastName}) text_pattern_ops`),
+  ],
+);
+
+/** A band, orchestra or other group that meets at one school. */
+export const ensembles = pgTable(
+  'ensembles',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    schoolId: integer('school_id')
+      .notNull()
+      .references(() => schools.id),
+    name: text('name').notNull(),
+    kind: text('kind', {
+      enum: [
+        'concert-band',
+        'symphonic-band',
+        'jazz-band',
+        'marching-band',
+        'string-orchestra',
+        'full-orchestra',
+        'percussion-ensemble',
+        'beginning-band',
+        'beginning-strings',
+      ],
+    }).notNull(),
+    level: text('level').notNull().default(''),
+    directorUserId: integer('director_user_id').references(() => users.id, { onDelete: 'set null' }),
+    meetingPeriod: text('meeting_period').notNull().default(''),
+    ...version,
+    ...timestamps,
+  },
+  (table) => [
+    uniqueIndex('ensembles_school_name_unique').on(table.schoolId, table.name),
+  ],
+);
+
+/** A student's seat in one ensemble for one school year, on one instrument. */
+export const enrollments = pgTable(
+  'enrollments',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    studentId: integer('student_id')
+      .notNull()
+      .references(() => students.id, { onDelete: 'cascade' }),
+    ensembleId: integer('ensemble_id')
+      .notNull()
+      .references(() => ensembles.id, { onDelete: 'cascade' }),
+    schoolYearId: integer('school_year_id')
+      .notNull()
+      .references(() => schoolYears.id),
+    instrumentId: text('instrument_id'),
+    part: text('part').notNull().default(''),
+    chair: smallint('chair'),
+    active: boolean('active').notNull().default(true),
+    ...version,
+    ...timestamps,
+  },
+  (table) => [
+    uniqueIndex('enrollments_seat_unique').on(table.studentId, table.ensembleId, table.schoolYearId),
+    index('enrollments_ensemble_idx').on(table.ensembleId),
+  ],
+);
+
+/** A move of a student from one school to another; the student keeps their history. */
+export const schoolMoves = pgTable(
+  'school_moves',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    studentId: integer('student_id')
+      .notNull()
+      .references(() => students.id, { onDelete: 'cascade' }),
+    fromSchoolId: integer('from_school_id').references(() => schools.id),
+    toSchoolId: integer('to_school_id')
+      .notNull()
+      .references(() => schools.id),
+    movedAt: timestamp('moved_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
+    movedBy: integer('moved_by').references(() => users.id, { onDelete: 'set null' }),
+  },
+  (table) => [index('school_moves_student_idx').on(table.studentId)],
+);
+
+/** One roster upload: what it did, and the errors it found. */
+export const rosterImports = pgTable(
+  'roster_imports',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    userId: integer('user_id').references(() => users.id, { onDelete: 'set null' }),
+    fileName: text('file_name').notNull(),
+    source: text('source').notNull(),
+    via: text('via', { enum: ['wizard', 'cli', 'api'] }).notNull(),
+    committed: boolean('committed').notNull(),
+    rows: integer('rows').notNull(),
+    created: integer('created').notNull(),
+    updated: integer('updated').notNull(),
+    unchanged: integer('unchanged').notNull(),
+    withdrawn: integer('withdrawn').notNull(),
+    errors: jsonb('errors').notNull().default([]),
+    ...timestamps,
+  },
+  (table) => [index('roster_imports_created_idx').on(table.createdAt)],
+);
+
+/** A saved column mapping for one source system's export. */
+export const importPresets = pgTable(
+  'import_presets',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    name: text('name').notNull(),
+    kind: text('kind').notNull().default('roster'),
+    mapping: jsonb('mapping').notNull(),
+    ...timestamps,
+  },
+  (table) => [uniqueIndex('import_presets_name_unique').on(table.kind, table.name)],
+);
+
+/** A user's remembered grid layout (columns shown, order, widths). */
+export const gridPreferences = pgTable(
+  'grid_preferences',
+  {
+    userId: integer('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    grid: text('grid').notNull(),
+    state: jsonb('state').notNull(),
+    ...timestamps,
+  },
+  (table) => [uniqueIndex('grid_preferences_unique').on(table.userId, table.grid)],
+);

@@ -1,0 +1,31 @@
+import { boolean, date, index, integer, pgTable, text, uniqueIndex } from 'drizzle-orm/pg-core';
+import { timestamps, version } from './columns';
+
+/** A school of the district, known everywhere by its short code (HPMS, TRHS…). */
+export const schools = pgTable(
+  'schools',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    code: text('code').notNull(),
+    name: text('name').notNull(),
+    level: text('level').notNull(),
+    address: text('address').notNull().default(''),
+    ...version,
+    ...timestamps,
+  },
+  (table) => [uniqueIndex('schools_code_unique').on(table.code), index('schools_name_idx').on(table.name)],
+);
+
+/** A school year such as 2026–27, with the dates loans fall due and benchmarks are read against. */
+export const schoolYears = pgTable(
+  'school_years',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    name: text('name').notNull(),
+    startsOn: date('starts_on', { mode: 'string' }).notNull(),
+    endsOn: date('ends_on', { mode: 'string' }).notNull(),
+    current: boolean('current').notNull().default(false),
+    ...timestamps,
+  },
+  (table) => [uniqueIndex('school_years_name_unique').on(table.name)],
+);

@@ -1,0 +1,118 @@
+import {
+  quoteValue,
+  rosterFieldLabels,
+  rosterFields,
+  rosterRowSchema,
+  type RosterField,
+  type RosterRow,
+} from '../../../shared/roster';
+import type { ParsedRoster, RowError } from './parsed-roster';
+
+/** A would-be roster row and where each of its values came from, for the errors. */
+export interface RosterCandidate {
+  /** The line the row is reported on. */
+  line: number;
+  /** The cells, by roster field; a missing field is an empty cell. */
+  values: Partial<Record<RosterField, string>>;
+  /** The column (header, or `file.csv:column`) each field came from. */
+  columns: Readonly<Partial<Record<RosterField, string>>>;
+  /** The line a field came from when it is not `line` (a bundle joins several files). */
+  fieldLines?: Partial<Record<RosterField, number>>;
+  /** Where to report a problem with the row as a whole, such as a student listed twice. */
+  rowColumn: string;
+  /** How a message names the row's place when `line N` alone is unclear, e.g. `users.csv line 4`. */
+  place?: string;
+}
+
+/** Checks beyond the row itself. */
+export interface RosterChecks {
+  /** The district's school codes; a row at any other school is an error. */
+  knownSchoolCodes?: ReadonlySet<string>;
+}
+
+// Fields that describe the student rather than the enrolment: every row of one student must agree.
+const studentFields = ['firstName', 'lastName', 'grade', 'schoolCode'] as const;
+
+function ensembleKey(row: RosterRow): string {
+  return `${row.studentId}\u0000${(row.ensemble ?? '').toLowerCase()}`;
+}
+
+function withoutEmptyFields(row: RosterRow): RosterRow {
+  const clean: Record<string, unknown> = {};
+  for (const field of rosterFields) if (row[field] !== undefined) clean[field] = row[field];
+  return clean as RosterRow;
+}
+
+function schoolList(codes: ReadonlySet<string>): string {
+  const sorted = [...codes].sort();
+  return sorted.length > 12 ? `${sorted.slice(0, 12).join(', ')}, …` : sorted.join(', ');
+}
+
+function describe(field: RosterField, row: RosterRow): string {
+  return field === 'grade' && row.grade === 0 ? "'K'" : quoteValue(String(row[field]));
+}
+
+/**
+ * Validates would-be roster rows. A roster row is one student in one ensemble: the same student
+ * in two ensembles is two rows, but the same student twice in one ensemble (or twice with no
+ * ensemble) is a duplicate, and every row of one student must agree on name, grade and school.
+ * A row with any problem is left out of the rows and its problems are reported.
+ */
+export function validateRosterCandidates(
+  candidates: readonly RosterCandidate[],
+  checks: RosterChecks = {},
+): Pick<ParsedRoster, 'rows' | 'errors'> {
+  const rows: ParsedRoster['rows'] = [];
+  const errors: RowError[] = [];
+  const placeByEnsemble = new Map<string, string>();
+  const firstRowOfStudent = new Map<string, { place: string; row: RosterRow }>();
+  for (const candidate of candidates) {
+    const where = (field: RosterField) => ({
+      line: candidate.fieldLines?.[field] ?? candidate.line,
+      column: candidate.columns[field] ?? field,
+    });
+    const parsed = rosterRowSchema.safeParse(candidate.values);
+    if (!parsed.success) {
+      for (const issue of parsed.error.issues) {
+        const field = issue.path[0] as RosterField;
+        errors.push({ ...where(field), message: issue.message });
+      }
+      continue;
+    }
+    const row = withoutEmptyFields(parsed.data);
+    const { knownSchoolCodes } = checks;
+    if (knownSchoolCodes && !knownSchoolCodes.has(row.schoolCode)) {
+      errors.push({
+        ...where('schoolCode'),
+        message: `School code ${quoteValue(row.schoolCode)} is not one of the district's schools (${schoolList(knownSchoolCodes)}).`,
+      });
+      continue;
+    }
+    const key = ensembleKey(row);
+    const place = candidate.place ?? `line ${candidate.line}`;
+    const earlierPlace = placeByEnsemble.get(key);
+    if (earlierPlace !== undefined) {
+      const inEnsemble = row.ensemble ? ` in ${quoteValue(row.ensemble)}` : ' with no ensemble';
+      errors.push({
+        line: candidate.line,
+        column: candidate.rowColumn,
+        message: `Student ${quoteValue(row.studentId)} is listed twice${inEnsemble}; the first is on ${earlierPlace}.`,
+      });
+      continue;
+    }
+    const first = firstRowOfStudent.get(row.studentId);
+    const differing = first && studentFields.find((field) => first.row[field] !== row[field]);
+    if (first && differing) {
+      const label = rosterFieldLabels[differing];
+      errors.push({
+        ...where(differing),
+        message: `Student ${quoteValue(row.studentId)} has ${label.toLowerCase()} ${describe(differing, row)} here but ${describe(differing, first.row)} on ${first.place}; one student has one ${label.toLowerCase()}.`,
+      });
+      continue;
+    }
+    placeByEnsemble.set(key, place);
+    if (!first) firstRowOfStudent.set(row.studentId, { place, row });
+    rows.push({ line: candidate.line, row });
+  }
+  return { rows, errors };
+}

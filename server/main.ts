@@ -1,0 +1,99 @@
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { fileURLToPath } from 'node:url';
+import { loadConfig, type Config } from './config';
+import { createApp } from './app';
+import { migrateDatabase, openDatabase, type DatabaseHandle } from './db/client';
+import { acquireLock } from './db/data-lock';
+import { createLogger, type Logger } from './logger';
+
+/** A listening Tuttiboard server. */
+export interface RunningServer {
+  url: string;
+  port: number;
+  database: DatabaseHandle;
+  close(): Promise<void>;
+}
+
+/** Opens (and locks) the database for a server: PGlite in the data folder, or DATABASE_URL. */
+export async function openServerDatabase(config: Config, purpose: string) {
+  if (config.databaseUrl) {
+    return { database: await openDatabase({ kind: 'postgres', url: config.databaseUrl }), release: () => {} };
+  }
+  const release = acquireLock(config.dataDir, purpose, config.appUrl);
+  try {
+    return { database: await openDatabase({ kind: 'pglite', dataDir: config.dataDir }), release };
+  } catch (error) {
+    release();
+    throw error;
+  }
+}
+
+/**
+ * Migrates, then listens. `prepare` runs after migration and before the first request (the
+ * start script seeds the demo district there).
+ */
+export async function startServer(
+  config: Config,
+  options: { logger?: Logger; host?: string; prepare?: (database: DatabaseHandle) => Promise<void> } = {},
+): Promise<RunningServer> {
+  const logger = options.logger ?? createLogger(config.logLevel);
+  const { database, release } = await openServerDatabase(config, 'the Tuttiboard server');
+  try {
+    await migrateDatabase(database);
+    await options.prepare?.(database);
+    const app = await createApp(config, { database, logger });
+    const server = http.createServer(app);
+    await new Promise<void>((resolve, reject) => {
+      server.once('error', reject);
+      server.listen(config.port, options.host, () => resolve());
+    });
+    const port = (server.address() as AddressInfo).port;
+    let closing: Promise<void> | undefined;
+    return {
+      url: config.appUrlIsFixed ? config.appUrl : `http://localhost:${port}`,
+      port,
+      database,
+      close: () =>
+        (closing ??= (async () => {
+          await new Promise<void>((resolve) => {
+            server.close(() => resolve());
+            server.closeIdleConnections();
+            setTimeout(() => server.closeAllConnections(), 2000).unref();
+          });
+          await database.close();
+          release();
+        })()),
+    };
+  } catch (error) {
+    await database.close();
+    release();
+    throw error;
+  }
+}
+
+/** Stops cleanly on Ctrl-C or a service manager's TERM, closing the database first. */
+export function closeOnSignals(close: () => Promise<void>, logger: Logger) {
+  let stopping = false;
+  const stop = (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    logger.info({ signal }, 'stopping');
+    close()
+      .then(() => process.exit(0))
+      .catch((error: unknown) => {
+        logger.error({ err: error }, 'error while stopping');
+        process.exit(1);
+      });
+  };
+  process.on('SIGINT', () => stop('SIGINT'));
+  process.on('SIGTERM', () => stop('SIGTERM'));
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  const config = loadConfig();
+  const logger = createLogger(config.logLevel);
+  const server = await startServer(config, { logger });
+  logger.info({ url: server.url }, 'Tuttiboard is listening');
+  closeOnSignals(server.close, logger);
+}

@@ -1,0 +1,52 @@
+/**
+ * The invented Merrow Basin Unified district: its schools and staff accounts. Every name here
+ * is made up for the demonstration.
+ */
+export const demoSchools = [
+  { code: 'HPMS', name: 'Heron Point Middle', level: 'middle', address: '410 Heron Point Road, Merrow Basin', students: 330 },
+  { code: 'QHMS', name: 'Quarry Hill Middle', level: 'middle', address: '92 Quarry Hill Lane, Merrow Basin', students: 300 },
+  { code: 'TRHS', name: 'Tamsin Ridge High', level: 'high', address: '1 Ridgeline Drive, Tamsin', students: 400 },
+  { code: 'FBES', name: 'Fernbank Elementary', level: 'elementary', address: '18 Fernbank Court, Merrow Basin', students: 200 },
+  { code: 'OMMS', name: 'Orchard Mill Middle', level: 'middle', address: '77 Millrace Way, Orchard', students: 260 },
+  { code: 'CWES', name: 'Cedarwash Elementary', level: 'elementary', address: '5 Cedarwash Road, Tamsin', students: 180 },
+] as const;
+
+export type DemoSchoolCode = (typeof demoSchools)[number]['code'];
+
+/** Staff and student accounts; all e-mail addresses are @merrowbasin.example. */
+export const demoUsers: {
+  email: string;
+  name: string;
+  role: 'coordinator' | 'director' | 'technician' | 'viewer' | 'student';
+  schools: DemoSchoolCode[];
+}[] = [
+  { email: 'coordinator@merrowbasin.example', name: 'Rosalind Achterberg', role: 'coordinator', schools: [] },
+  { email: 'director.hpms@merrowbasin.example', name: 'Marcus Feldhaven', role: 'director', schools: ['HPMS'] },
+  { email: 'director.qhms@merrowbasin.example', name: 'Ingrid Solvang', role: 'director', schools: ['QHMS'] },
+  { email: 'director.trhs@merrowbasin.example', name: 'Tobias Wrenfield', role: 'director', schools: ['TRHS'] },
+  { email: 'director.fbes@merrowbasin.example', name: 'Priya Castellane', role: 'director', schools: ['FBES', 'CWES'] },
+  { email: 'director.omms@merrowbasin.example', name: 'Dario Quillfeather', role: 'director', schools: ['OMMS'] },
+  { email: 'technician@merrowbasin.example', name: 'Benedikt Oyelaran', role: 'technician', schools: [] },
+  { email: 'viewer.trhs@merrowbasin.example', name: 'Helena Marchbank', role: 'viewer', schools: ['TRHS'] },
+  { email: 'student.hpms@merrowbasin.example', name: 'Juniper Ashcombe', role: 'student', schools: ['HPMS'] },
+];
+
+export const firstNames = [
+  'Ada', 'Amir', 'Aria', 'Bea', 'Caleb', 'Celia', 'Dev', 'Dina', 'Eli', 'Elena', 'Emeka', 'Fern',
+  'Felix', 'Gia', 'Hana', 'Hugo', 'Ines', 'Isaac', 'Jonah', 'Juno', 'Kai', 'Kira', 'Leo', 'Lina',
+  'Mateo', 'Maya', 'Milo', 'Nadia', 'Nico', 'Noor', 'Omar', 'Orla', 'Pax', 'Pilar', 'Quinn', 'Rafe',
+  'Rhea', 'Sami', 'Sana', 'Theo', 'Tova', 'Uma', 'Vik', 'Wren', 'Xavi', 'Yara', 'Zane', 'Zoë',
+  'Anouk', 'Bram', 'Cosmo', 'Dalia', 'Ezra', 'Freya', 'Gideon', 'Hollis', 'Ivo', 'Jessa', 'Kofi',
+  'Lupe', 'Marlo', 'Nell', 'Otto', 'Petra', 'Rosa', 'Silas', 'Tamsin', 'Vera', 'Wim', 'Yusuf',
+];
+
+export const lastNames = [
+  'Abernathy', 'Balogun', 'Castellanos', 'Delacroix', 'Eriksen', 'Fairweather', 'Galloway',
+  'Hargrove', 'Ibarra', 'Jablonski', 'Kowalczyk', 'Lindqvist', 'Marchetti', 'Nakamura', 'Okafor',
+  'Pemberton', 'Quintero', 'Rasmussen', 'Sandoval', 'Thistlewood', 'Underhill', 'Valdivia',
+  'Whitcombe', 'Yilmaz', 'Zielinski', 'Ashdown', 'Birchall', 'Coldwater', 'Dunmore', 'Everly',
+  'Foxworth', 'Greenhalgh', 'Holloway', 'Ironside', 'Kettering', 'Larkspur', 'Merriweather',
+  'Northcott', 'Oakhurst', 'Penrose', 'Redfern', 'Stonebridge', 'Tennant', 'Vossberg', 'Wexley',
+  'Achebe', 'Brandvold', 'Cruz-Medina', 'Duchesne', 'Fitzgerald-Oduya', 'Haddad', 'Muñoz', 'Ng',
+  "O'Rourke", 'Park', 'Santos', 'Tran', 'Varga', 'Weiss', 'Xu',
+];

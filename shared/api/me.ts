@@ -1,0 +1,23 @@
+import { z } from 'zod';
+import { roleSchema } from './roles';
+
+export const schoolSummarySchema = z.object({
+  id: z.number().int(),
+  code: z.string(),
+  name: z.string(),
+});
+export type SchoolSummary = z.infer<typeof schoolSummarySchema>;
+
+/** Who is signed in, their role, and the schools they act for. */
+export const meSchema = z.object({
+  id: z.number().int(),
+  email: z.string(),
+  name: z.string(),
+  role: roleSchema,
+  /** Whether the user sees every school (coordinator, technician). */
+  allSchools: z.boolean(),
+  schools: z.array(schoolSummarySchema),
+  studentId: z.number().int().nullable(),
+  capabilities: z.array(z.string()),
+});
+export type Me = z.infer<typeof meSchema>;

@@ -1,0 +1,53 @@
+/**
+ * The music engine: scales, key signatures, transposing instruments, practice patterns,
+ * MusicXML practice sheets and practice plans. Runs in the browser and in Node alike.
+ */
+export {
+  frequency,
+  midi,
+  parseNote,
+  formatNote,
+  pitchClass,
+  type Letter,
+  type SpelledPitch,
+} from './pitch';
+export {
+  intervalSize,
+  transposeNote,
+  transposeBySize,
+  type Interval,
+  type IntervalSize,
+} from './interval';
+export {
+  checkKey,
+  isMinor,
+  isStandardKey,
+  keyName,
+  keySignature,
+  majorTonics,
+  minorTonics,
+  modes,
+  type Key,
+  type Mode,
+} from './keys';
+export { arpeggio, scale, type Direction } from './scales';
+export {
+  instrumentFamilies,
+  instruments,
+  type InstrumentFamily,
+  type InstrumentSpec,
+  type NoteRange,
+} from './instrument-data';
+export { findInstrument, instrumentById, transpositionSize } from './instruments';
+export { simplestSpelling, toConcert, toWritten, writtenKey } from './transposition';
+export { patternIds, type PatternId } from './pattern-shapes';
+export {
+  articulations,
+  durationSeconds,
+  pattern,
+  PatternRangeError,
+  type Articulation,
+  type PatternNote,
+  type PatternOptions,
+  type PatternPitch,
+} from './patterns';

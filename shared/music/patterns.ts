@@ -1,0 +1,154 @@
+import { findInstrument, transpositionSize } from './instruments';
+import type { InstrumentSpec, NoteRange } from './instrument-data';
+import { checkKey, keyName, type Key } from './keys';
+import { patternIds, patternOutline, type OutlineNote, type PatternId } from './pattern-shapes';
+import { midi, spellAtMidi } from './pitch';
+import { writtenKey } from './transposition';
+
+/** How the notes of a pattern are started: each tongued, slurred, or tongued up and slurred down. */
+export type Articulation = 'tongued' | 'slurred' | 'tongue-up-slur-down';
+
+/** Every articulation, simplest first. */
+export const articulations: readonly Articulation[] = [
+  'tongued',
+  'slurred',
+  'tongue-up-slur-down',
+];
+
+/** Whether notes are given as they sound (concert) or as the player reads them (written). */
+export type PatternPitch = 'concert' | 'written';
+
+/** How to build a pattern. */
+export interface PatternOptions {
+  /** Instrument id (or usual name); default 'flute'. The pattern is placed in its range. */
+  instrument?: string;
+  /** Default 'concert'. */
+  pitch?: PatternPitch;
+  /** Default 1. */
+  octaves?: 1 | 2;
+  /** Default 'tongued'. */
+  articulation?: Articulation;
+}
+
+/** One note of a pattern. */
+export interface PatternNote {
+  /** Note with octave, e.g. 'C#5'. */
+  note: string;
+  /** Length in quarter notes (a whole note is 4). */
+  beats: number;
+  /** Whether the note is slurred to the note before it. */
+  slurred: boolean;
+}
+
+/** Thrown when no octave of a pattern fits inside an instrument's written range. */
+export class PatternRangeError extends Error {
+  constructor(
+    readonly patternId: PatternId,
+    readonly key: Key,
+    readonly instrument: InstrumentSpec,
+    readonly octaves: 1 | 2,
+  ) {
+    const { lowest, highest } = instrument.range;
+    const written = writtenKey(key, instrument.id);
+    super(
+      `No octave of the ${patternId} pattern in concert ${keyName(key)} ` +
+        `(${octaves === 1 ? 'one octave' : 'two octaves'}, written ${keyName(written)}) ` +
+        `fits the ${instrument.name} range of written ${lowest} to ${highest}.`,
+    );
+    this.name = 'PatternRangeError';
+  }
+}
+
+/**
+ * The notes of a practice pattern for one instrument.
+ *
+ * Octave placement happens in written pitch. Every octave of the written tonic whose whole
+ * pattern lies inside the instrument's `range` is a candidate; the lowest candidate that also
+ * lies inside its `beginnerRange` is chosen, and when none does, the lowest candidate. When
+ * there is no candidate a PatternRangeError is thrown. With pitch 'concert' the notes are the
+ * sounding notes of that same placement, spelled in the concert key (a tuba's concert Bb
+ * scale starts on Bb1).
+ *
+ * Articulation: 'tongued' slurs nothing; 'slurred' tongues the first note of each run (up,
+ * down) and slurs the rest of the run to it; 'tongue-up-slur-down' tongues every note of a
+ * rising run and slurs every note of a falling run to the note before it.
+ */
+export function pattern(id: PatternId, key: Key, options: PatternOptions = {}): PatternNote[] {
+  checkKey(key);
+  if (!patternIds.includes(id)) {
+    throw new Error(`Unknown pattern "${id}": expected one of ${patternIds.join(', ')}.`);
+  }
+  const instrument = resolveInstrument(options.instrument ?? 'flute');
+  const pitch = options.pitch ?? 'concert';
+  const octaves = options.octaves ?? 1;
+  const articulation = options.articulation ?? 'tongued';
+  checkOptions(pitch, octaves, articulation);
+
+  const written = writtenKey(key, instrument.id);
+  const placements: { tonic: string; outline: OutlineNote[] }[] = [];
+  for (let octave = 0; octave <= 8; octave += 1) {
+    const tonic = `${written.tonic}${octave}`;
+    const outline = patternOutline(id, written, tonic, octaves);
+    if (fitsIn(outline, instrument.range)) placements.push({ tonic, outline });
+  }
+  if (placements.length === 0) {
+    throw new PatternRangeError(id, key, instrument, octaves);
+  }
+  const chosen =
+    placements.find(({ outline }) => fitsIn(outline, instrument.beginnerRange)) ?? placements[0];
+
+  let outline = chosen.outline;
+  if (pitch === 'concert') {
+    const sounding = midi(chosen.tonic) + transpositionSize(instrument.id).semitones;
+    outline = patternOutline(id, key, spellAtMidi(key.tonic, sounding), octaves);
+  }
+  return articulate(outline, articulation);
+}
+
+/** How long a pattern lasts in seconds with the quarter note at `bpm` beats per minute. */
+export function durationSeconds(notes: PatternNote[], bpm: number): number {
+  if (!(bpm > 0)) {
+    throw new Error(`A tempo must be a positive number of beats per minute, not ${bpm}.`);
+  }
+  const beats = notes.reduce((total, note) => total + note.beats, 0);
+  return (beats * 60) / bpm;
+}
+
+function resolveInstrument(nameOrId: string): InstrumentSpec {
+  const instrument = findInstrument(nameOrId);
+  if (!instrument) {
+    throw new Error(`Unknown instrument "${nameOrId}".`);
+  }
+  return instrument;
+}
+
+function checkOptions(pitch: PatternPitch, octaves: number, articulation: Articulation): void {
+  if (pitch !== 'concert' && pitch !== 'written') {
+    throw new Error(`Unknown pitch "${pitch}": expected 'concert' or 'written'.`);
+  }
+  if (octaves !== 1 && octaves !== 2) {
+    throw new Error(`A pattern spans 1 or 2 octaves, not ${octaves}.`);
+  }
+  if (!articulations.includes(articulation)) {
+    throw new Error(
+      `Unknown articulation "${articulation}": expected one of ${articulations.join(', ')}.`,
+    );
+  }
+}
+
+function fitsIn(outline: OutlineNote[], range: NoteRange): boolean {
+  const lowest = midi(range.lowest);
+  const highest = midi(range.highest);
+  return outline.every(({ note }) => midi(note) >= lowest && midi(note) <= highest);
+}
+
+function articulate(outline: OutlineNote[], articulation: Articulation): PatternNote[] {
+  return outline.map(({ note, beats, group, direction }, index) => {
+    const startsRun = index === 0 || outline[index - 1].group !== group;
+    const slurred =
+      articulation === 'slurred'
+        ? !startsRun
+        : articulation === 'tongue-up-slur-down' && direction === 'down';
+    return { note, beats, slurred };
+  });
+}
