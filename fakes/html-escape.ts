@@ -6,7 +6,7 @@ const replacements: Record<string, string> = {
   "'": '&#39;',
 };
 
-/** Escapes text for HTML element content and quoted attribute values (HTML Living Standard §13.1). */
+/** Escapes text for HTML element content and quoted attribute values (HTML Living Standard). */
 export function escapeHtml(text: string): string {
   return text.replace(/[&<>"']/g, (character) => replacements[character] ?? character);
 }

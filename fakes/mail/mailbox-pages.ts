@@ -29,6 +29,7 @@ const style = `
   nav.tabs span { color: #9aa19d; }
   iframe { width: 100%; height: 70vh; border: 1px solid #c9c4b8; border-top: 0; background: #fff; }
   pre { margin: 0; padding: 1rem; background: #fff; border: 1px solid #c9c4b8; border-top: 0; white-space: pre-wrap; overflow-wrap: anywhere; }
+  ul.inline { margin: 0; padding-left: 1.1rem; }
   ul.files { margin: 0; padding: 1rem 1rem 1rem 2rem; background: #fff; border: 1px solid #c9c4b8; border-top: 0; }
 `;
 
@@ -116,19 +117,23 @@ function renderTabs(message: CaughtMessage, view: MessageView): string {
     .join('')}</nav>`;
 }
 
+function renderAttachmentLinks(message: CaughtMessage): string {
+  return message.attachments
+    .map(
+      (attachment, index) =>
+        `<li><a href="/api/messages/${message.id}/attachments/${index}">${escapeHtml(
+          attachment.filename,
+        )}</a> — ${escapeHtml(attachment.contentType)}, ${formatBytes(attachment.size)}</li>`,
+    )
+    .join('');
+}
+
 function renderView(message: CaughtMessage, view: MessageView): string {
   if (view === 'html' && message.html !== null) {
     return `<iframe sandbox src="/messages/${message.id}/html" title="HTML part of the message" referrerpolicy="no-referrer"></iframe>`;
   }
   if (view === 'attachments') {
-    return `<ul class="files">${message.attachments
-      .map(
-        (attachment, index) =>
-          `<li><a href="/api/messages/${message.id}/attachments/${index}">${escapeHtml(
-            attachment.filename,
-          )}</a> — ${escapeHtml(attachment.contentType)}, ${formatBytes(attachment.size)}</li>`,
-      )
-      .join('')}</ul>`;
+    return `<ul class="files">${renderAttachmentLinks(message)}</ul>`;
   }
   return `<pre>${escapeHtml(message.text)}</pre>`;
 }
@@ -140,6 +145,9 @@ export function renderMessagePage(
   smtpUrl: string,
 ): string {
   const cc = message.cc.length ? `<dt>Cc</dt><dd>${escapeHtml(message.cc.join(', '))}</dd>` : '';
+  const attachments = message.attachments.length
+    ? `<dt>Attachments</dt><dd><ul class="inline">${renderAttachmentLinks(message)}</ul></dd>`
+    : '';
   return renderLayout(
     `${message.subject || '(no subject)'} — Merrow Basin Unified mailbox`,
     smtpUrl,
@@ -151,6 +159,7 @@ export function renderMessagePage(
 ${cc}
 <dt>Received</dt><dd>${renderTime(message.receivedAt)}</dd>
 <dt>Message-ID</dt><dd>${escapeHtml(message.messageId ?? '—')}</dd>
+${attachments}
 </dl>
 ${renderTabs(message, view)}
 ${renderView(message, view)}`,

@@ -23,7 +23,7 @@ export function createSmtpCatcher(store: MailboxStore): SMTPServer {
       simpleParser(stream).then(
         (parsed) => {
           if (stream.sizeExceeded) {
-            // RFC 5321 §4.5.3.1.10 / RFC 1870 §6.3: 552 for a message over the size limit.
+            // RFC 1870 (SMTP SIZE extension): 552 for a message over the fixed maximum size.
             callback(
               Object.assign(new Error('Message exceeds the fixed maximum message size'), {
                 responseCode: 552,

@@ -162,6 +162,15 @@ describe('startOidcFake', () => {
     expect(new URL(callbackUrl).searchParams.get('code')).toBeTruthy();
   });
 
+  it('should show an error page when the interaction is unknown to the browser', async () => {
+    const response = await fetch(`${fake.issuer}/interaction/not-a-real-interaction`);
+    const html = await response.text();
+
+    expect(response.status).toBe(400);
+    expect(html).toContain('This sign-in cannot go on');
+    expect(html).not.toContain('id="sign-in-form"');
+  });
+
   it('should refuse to redirect when the redirect_uri is not on a loopback host', async () => {
     const { url } = await authorizationUrl({
       redirect_uri: 'http://tuttiboard.example/auth/callback',
