@@ -51,3 +51,5 @@ export {
   type PatternOptions,
   type PatternPitch,
 } from './patterns';
+export { toMusicXml, type MusicXmlOptions } from './musicxml';
+export { practicePlan, type PracticeRequirement, type PracticeStep } from './practice-plan';

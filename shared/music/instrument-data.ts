@@ -51,7 +51,7 @@ export const instruments: InstrumentSpec[] = [
     clef: 'treble',
     transposition: '8P',
     range: { lowest: 'D4', highest: 'C7' },
-    beginnerRange: { lowest: 'E4', highest: 'A6' },
+    beginnerRange: { lowest: 'D4', highest: 'A6' },
   },
   // Adler: flute C4–C7, B3 with a B foot (from memory).
   {
@@ -112,7 +112,7 @@ export const instruments: InstrumentSpec[] = [
     clef: 'treble',
     transposition: '-2M',
     range: { lowest: 'Bb3', highest: 'F6' },
-    beginnerRange: { lowest: 'D4', highest: 'C6' },
+    beginnerRange: { lowest: 'C4', highest: 'C6' },
   },
   {
     id: 'alto-sax',
@@ -121,7 +121,7 @@ export const instruments: InstrumentSpec[] = [
     clef: 'treble',
     transposition: '-6M',
     range: { lowest: 'Bb3', highest: 'F6' },
-    beginnerRange: { lowest: 'D4', highest: 'C6' },
+    beginnerRange: { lowest: 'C4', highest: 'C6' },
   },
   {
     id: 'tenor-sax',
@@ -130,7 +130,7 @@ export const instruments: InstrumentSpec[] = [
     clef: 'treble',
     transposition: '-9M',
     range: { lowest: 'Bb3', highest: 'F6' },
-    beginnerRange: { lowest: 'D4', highest: 'C6' },
+    beginnerRange: { lowest: 'C4', highest: 'C6' },
   },
   {
     id: 'bari-sax',
@@ -139,7 +139,7 @@ export const instruments: InstrumentSpec[] = [
     clef: 'treble',
     transposition: '-13M',
     range: { lowest: 'Bb3', highest: 'F6' },
-    beginnerRange: { lowest: 'D4', highest: 'C6' },
+    beginnerRange: { lowest: 'C4', highest: 'C6' },
   },
   // Adler: Bb trumpet written F#3–D6 (from memory); top narrowed to C6 (common practice).
   {

@@ -74,7 +74,12 @@ export function patternOutline(
 function figureNames(figure: Figure, key: Key, octaves: 1 | 2): [string[], string[]] {
   const up = figure === 'scale' ? scale(key, 'up') : arpeggio(key);
   const down = figure === 'scale' ? scale(key, 'down') : [...arpeggio(key)].reverse();
-  return octaves === 1 ? [up, down] : [[...up, ...up.slice(1)], [...down, ...down.slice(1)]];
+  return octaves === 1
+    ? [up, down]
+    : [
+        [...up, ...up.slice(1)],
+        [...down, ...down.slice(1)],
+      ];
 }
 
 /**
@@ -82,24 +87,20 @@ function figureNames(figure: Figure, key: Key, octaves: 1 | 2): [string[], strin
  * up) or below (going down) the note before it.
  */
 function stack(names: string[], start: number, direction: Direction): string[] {
-  const placed: string[] = [];
   let previous = start;
-  names.forEach((name, index) => {
-    const candidate = spellAtMidi(name, nearestMidi(name, previous));
-    let value = midi(candidate);
+  return names.map((name, index) => {
+    let value = nearestMidi(name, previous);
     if (index > 0 && direction === 'up' && value <= previous) value += 12;
     if (index > 0 && direction === 'down' && value >= previous) value -= 12;
-    placed.push(spellAtMidi(name, value));
     previous = value;
+    return spellAtMidi(name, value);
   });
-  return placed;
 }
 
-/** The MIDI number of `name` closest to `target` (an octave of it at or below target + 6). */
+/** The MIDI number of the octave of `name` closest to `target`. */
 function nearestMidi(name: string, target: number): number {
-  const pitch = midi(`${name}4`);
-  const octaveShift = Math.round((target - pitch) / 12);
-  return pitch + 12 * octaveShift;
+  const inOctaveFour = midi(`${name}4`);
+  return inOctaveFour + 12 * Math.round((target - inOctaveFour) / 12);
 }
 
 function sameLetterAndAccidental(note: string, tonic: string): boolean {

@@ -9,11 +9,7 @@ import { writtenKey } from './transposition';
 export type Articulation = 'tongued' | 'slurred' | 'tongue-up-slur-down';
 
 /** Every articulation, simplest first. */
-export const articulations: readonly Articulation[] = [
-  'tongued',
-  'slurred',
-  'tongue-up-slur-down',
-];
+export const articulations: readonly Articulation[] = ['tongued', 'slurred', 'tongue-up-slur-down'];
 
 /** Whether notes are given as they sound (concert) or as the player reads them (written). */
 export type PatternPitch = 'concert' | 'written';
