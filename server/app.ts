@@ -17,6 +17,7 @@ import { sessionSecret } from './core/settings';
 import { meRoutes } from './me/me-routes';
 import { schoolsRoutes } from './schools/schools-routes';
 import { tokensRoutes } from './tokens/tokens-routes';
+import { localCommandRoutes } from './cli/local-command-routes';
 
 /** Where the production build of the Angular app lands. */
 export const webRoot = fileURLToPath(new URL('../dist/web/browser', import.meta.url));
@@ -27,6 +28,8 @@ export interface AppOptions {
   logger?: Logger;
   /** Serve the built web app (default true when it has been built). */
   serveWeb?: boolean;
+  /** The data-folder lock's key that lets local `tutti` commands work through this server. */
+  localKey?: string;
 }
 
 /** The feature routers, each mounted under /api. */
@@ -65,6 +68,8 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
         },
       },
       strictTransportSecurity: config.appUrl.startsWith('https:'),
+      // With no-referrer, browsers send "Origin: null" on form posts and the CSRF check fails.
+      referrerPolicy: { policy: 'same-origin' },
     }),
   );
 
@@ -82,10 +87,11 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   );
   const signIn = createSignIn(config, db, logger);
   app.use(signIn.initialize, signIn.session);
-  app.use(sameOriginWrites(() => [new URL(config.appUrl).origin]));
+  app.use(sameOriginWrites(() => [new URL(config.appUrl).origin], sessionCookieName));
   app.use(signIn.router);
 
   const api = Router();
+  if (options.localKey) api.use('/local', localCommandRoutes(services, options.localKey));
   api.use(express.json({ limit: '2mb' }));
   api.use(authenticate(db));
   api.use((_request, response, next) => {

@@ -4,7 +4,8 @@ import { fileURLToPath } from 'node:url';
 import { loadConfig, type Config } from './config';
 import { createApp } from './app';
 import { migrateDatabase, openDatabase, type DatabaseHandle } from './db/client';
-import { acquireLock } from './db/data-lock';
+import { randomBytes } from 'node:crypto';
+import { acquireLock, updateLock } from './db/data-lock';
 import { createLogger, type Logger } from './logger';
 
 /** A listening Tuttiboard server. */
@@ -16,11 +17,11 @@ export interface RunningServer {
 }
 
 /** Opens (and locks) the database for a server: PGlite in the data folder, or DATABASE_URL. */
-export async function openServerDatabase(config: Config, purpose: string) {
+export async function openServerDatabase(config: Config, purpose: string, localKey?: string) {
   if (config.databaseUrl) {
     return { database: await openDatabase({ kind: 'postgres', url: config.databaseUrl }), release: () => {} };
   }
-  const release = acquireLock(config.dataDir, purpose, config.appUrl);
+  const release = acquireLock(config.dataDir, purpose, config.appUrl, localKey);
   try {
     return { database: await openDatabase({ kind: 'pglite', dataDir: config.dataDir }), release };
   } catch (error) {
@@ -38,17 +39,21 @@ export async function startServer(
   options: { logger?: Logger; host?: string; prepare?: (database: DatabaseHandle) => Promise<void> } = {},
 ): Promise<RunningServer> {
   const logger = options.logger ?? createLogger(config.logLevel);
-  const { database, release } = await openServerDatabase(config, 'the Tuttiboard server');
+  const localKey = config.databaseUrl ? undefined : randomBytes(24).toString('base64url');
+  const { database, release } = await openServerDatabase(config, 'the Tuttiboard server', localKey);
   try {
     await migrateDatabase(database);
     await options.prepare?.(database);
-    const app = await createApp(config, { database, logger });
+    const app = await createApp(config, { database, logger, localKey });
     const server = http.createServer(app);
     await new Promise<void>((resolve, reject) => {
       server.once('error', reject);
       server.listen(config.port, options.host, () => resolve());
     });
     const port = (server.address() as AddressInfo).port;
+    if (!config.databaseUrl) {
+      updateLock(config.dataDir, { url: `http://127.0.0.1:${port}` });
+    }
     let closing: Promise<void> | undefined;
     return {
       url: config.appUrlIsFixed ? config.appUrl : `http://localhost:${port}`,

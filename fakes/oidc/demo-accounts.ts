@@ -29,6 +29,21 @@ export const demoAccounts: FakeAccount[] = [
     role: 'Orchestra and band director, Quarry Hill Middle',
   },
   {
+    email: 'director.trhs@merrowbasin.example',
+    name: 'Tobias Wrenfield',
+    role: 'Band and orchestra director, Tamsin Ridge High',
+  },
+  {
+    email: 'director.fbes@merrowbasin.example',
+    name: 'Odalys Brennquist',
+    role: 'Elementary music, Fernbank and Cedarwash',
+  },
+  {
+    email: 'director.omms@merrowbasin.example',
+    name: 'Dario Quillfeather',
+    role: 'Band director, Orchard Mill Middle',
+  },
+  {
     email: 'technician@merrowbasin.example',
     name: 'Dale Pemberthy',
     role: 'Instrument technician',

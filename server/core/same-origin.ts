@@ -5,13 +5,15 @@ const safeMethods = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 /**
  * Cross-site request forgery guard for cookie-authenticated writes: the browser's Origin header
- * (or Sec-Fetch-Site) must say the request came from this site. Bearer-token requests carry no
- * ambient credential, so they pass. OWASP "Cross-Site Request Forgery Prevention Cheat Sheet",
+ * (or Sec-Fetch-Site) must say the request came from this site. Bearer-token and cookie-less
+ * requests carry no ambient credential, so they pass. OWASP "Cross-Site Request Forgery Prevention Cheat Sheet",
  * "Verifying Origin With Standard Headers".
  */
-export function sameOriginWrites(allowedOrigins: () => string[]) {
+export function sameOriginWrites(allowedOrigins: () => string[], cookieName: string) {
   return (request: Request, _response: Response, next: NextFunction) => {
-    if (safeMethods.has(request.method) || request.get('authorization')) return next();
+    // Only a request carrying the session cookie holds an ambient credential worth forging.
+    const carriesSession = (request.get('cookie') ?? '').includes(`${cookieName}=`);
+    if (safeMethods.has(request.method) || request.get('authorization') || !carriesSession) return next();
     const origin = request.get('origin');
     const own = `${request.protocol}://${request.host}`;
     if (origin) {

@@ -7,6 +7,11 @@ export interface LockHolder {
   purpose: string;
   url?: string;
   since: string;
+  /**
+   * A key that lets `tutti` commands on this machine ask the running server to do their work.
+   * Anyone who can read the data folder can read the database itself, so it grants no more.
+   */
+  localKey?: string;
 }
 
 /** Thrown when another live process holds the data folder. */
@@ -51,13 +56,18 @@ export function readLock(dataDir: string): LockHolder | undefined {
  * over; a live holder makes this throw. The lock file is created exclusively so two starting
  * processes cannot both win.
  */
-export function acquireLock(dataDir: string, purpose: string, url?: string): () => void {
+export function acquireLock(
+  dataDir: string,
+  purpose: string,
+  url?: string,
+  localKey?: string,
+): () => void {
   fs.mkdirSync(dataDir, { recursive: true });
   const file = path.join(dataDir, lockFileName);
-  const holder: LockHolder = { pid: process.pid, purpose, url, since: new Date().toISOString() };
+  const holder: LockHolder = { pid: process.pid, purpose, url, since: new Date().toISOString(), localKey };
   for (let attempt = 0; attempt < 2; attempt += 1) {
     try {
-      fs.writeFileSync(file, JSON.stringify(holder), { flag: 'wx' });
+      fs.writeFileSync(file, JSON.stringify(holder), { flag: 'wx', mode: 0o600 });
       let released = false;
       return () => {
         if (released) return;
@@ -77,4 +87,12 @@ export function acquireLock(dataDir: string, purpose: string, url?: string): () 
     }
   }
   throw new Error(`Could not take the lock on ${dataDir}.`);
+}
+
+/** Rewrites this process's own lock, e.g. once the server knows the port it listens on. */
+export function updateLock(dataDir: string, changes: Partial<LockHolder>): void {
+  const file = path.join(dataDir, lockFileName);
+  const current = JSON.parse(fs.readFileSync(file, 'utf8')) as LockHolder;
+  if (current.pid !== process.pid) return;
+  fs.writeFileSync(file, JSON.stringify({ ...current, ...changes }), { mode: 0o600 });
 }

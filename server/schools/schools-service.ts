@@ -1,7 +1,7 @@
 import { and, count, eq, ilike, inArray, or, sql, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Database } from '../db/client';
-import { ensembles, schools, students } from '../db/schema/index';
+import { schools, students } from '../db/schema/index';
 import type { ListResponse } from '../../shared/api/list';
 import type { School, SchoolInput } from '../../shared/api/school';
 import { schoolLevels, schoolPatchSchema } from '../../shared/api/school';
@@ -13,8 +13,9 @@ import { updateVersioned } from '../core/versioned-update';
 
 const schoolFilters = z.object({ level: z.enum(schoolLevels).optional(), code: z.string().optional() });
 
-const studentCount = sql<number>`(select count(*)::int from ${students} where ${students.schoolId} = ${schools.id} and ${students.status} = 'active')`;
-const ensembleCount = sql<number>`(select count(*)::int from ${ensembles} where ${ensembles.schoolId} = ${schools.id})`;
+// Written out with table names: Drizzle leaves columns unqualified in a one-table select.
+const studentCount = sql<number>`(select count(*)::int from students s where s.school_id = "schools"."id" and s.status = 'active')`;
+const ensembleCount = sql<number>`(select count(*)::int from ensembles e where e.school_id = "schools"."id")`;
 
 const sortable = { code: schools.code, name: schools.name, level: schools.level, studentCount, ensembleCount };
 

@@ -20,15 +20,15 @@ export const demoUsers: {
   role: 'coordinator' | 'director' | 'technician' | 'viewer' | 'student';
   schools: DemoSchoolCode[];
 }[] = [
-  { email: 'coordinator@merrowbasin.example', name: 'Rosalind Achterberg', role: 'coordinator', schools: [] },
-  { email: 'director.hpms@merrowbasin.example', name: 'Marcus Feldhaven', role: 'director', schools: ['HPMS'] },
-  { email: 'director.qhms@merrowbasin.example', name: 'Ingrid Solvang', role: 'director', schools: ['QHMS'] },
+  { email: 'coordinator@merrowbasin.example', name: 'Renata Okonkwo-Hale', role: 'coordinator', schools: [] },
+  { email: 'director.hpms@merrowbasin.example', name: 'Marcus Feldqvist', role: 'director', schools: ['HPMS'] },
+  { email: 'director.qhms@merrowbasin.example', name: 'Ines Tallowbrook', role: 'director', schools: ['QHMS'] },
   { email: 'director.trhs@merrowbasin.example', name: 'Tobias Wrenfield', role: 'director', schools: ['TRHS'] },
-  { email: 'director.fbes@merrowbasin.example', name: 'Priya Castellane', role: 'director', schools: ['FBES', 'CWES'] },
+  { email: 'director.fbes@merrowbasin.example', name: 'Odalys Brennquist', role: 'director', schools: ['FBES', 'CWES'] },
   { email: 'director.omms@merrowbasin.example', name: 'Dario Quillfeather', role: 'director', schools: ['OMMS'] },
-  { email: 'technician@merrowbasin.example', name: 'Benedikt Oyelaran', role: 'technician', schools: [] },
-  { email: 'viewer.trhs@merrowbasin.example', name: 'Helena Marchbank', role: 'viewer', schools: ['TRHS'] },
-  { email: 'student.hpms@merrowbasin.example', name: 'Juniper Ashcombe', role: 'student', schools: ['HPMS'] },
+  { email: 'technician@merrowbasin.example', name: 'Dale Pemberthy', role: 'technician', schools: [] },
+  { email: 'viewer.trhs@merrowbasin.example', name: 'Priya Castellane', role: 'viewer', schools: ['TRHS'] },
+  { email: 'student.hpms@merrowbasin.example', name: 'Toby Arkwright-Lund', role: 'student', schools: ['HPMS'] },
 ];
 
 export const firstNames = [

@@ -78,14 +78,14 @@ export async function seedDemoRoster(
     for (let index = 0; index < school.students; index += 1) {
       const grade = random.pick(gradesByLevel[school.level]!);
       const lastName = random.pick(lastNames);
-      const firstName = school.code === 'HPMS' && index === 0 ? 'Juniper' : random.pick(firstNames);
+      const firstName = school.code === 'HPMS' && index === 0 ? 'Toby' : random.pick(firstNames);
       const strings = random.chance(0.32);
       const instrument = strings ? random.weighted(stringInstruments) : random.weighted(bandInstruments);
       const guardian = `${random.pick(guardianFirstNames)} ${lastName}`;
       studentRows.push({
         studentNumber: String((studentNumber += 1)),
         firstName,
-        lastName: school.code === 'HPMS' && index === 0 ? 'Ashcombe' : lastName,
+        lastName: school.code === 'HPMS' && index === 0 ? 'Arkwright-Lund' : lastName,
         preferredName: random.chance(0.06) ? random.pick(firstNames) : null,
         grade,
         schoolId,

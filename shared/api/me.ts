@@ -1,5 +1,7 @@
 import { z } from 'zod';
-import { roleSchema } from './roles';
+import { roles } from './roles';
+
+export const roleSchema = z.enum(roles);
 
 export const schoolSummarySchema = z.object({
   id: z.number().int(),

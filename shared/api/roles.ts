@@ -1,9 +1,6 @@
-import { z } from 'zod';
-
-/** Everyone who signs in has exactly one of these roles. */
+/** Everyone who signs in has exactly one of these roles. Kept free of zod: the app shell imports it. */
 export const roles = ['coordinator', 'director', 'technician', 'viewer', 'student'] as const;
-export const roleSchema = z.enum(roles);
-export type Role = z.infer<typeof roleSchema>;
+export type Role = (typeof roles)[number];
 
 /** How each role is named on screen. */
 export const roleLabels: Record<Role, string> = {

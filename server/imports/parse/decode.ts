@@ -39,11 +39,11 @@ function decodeWindows1252(bytes: Uint8Array): string {
 }
 
 /**
- * The text of an uploaded roster. Following the WHATWG Encoding Standard's "decode" algorithm, a
- * byte order mark decides first (UTF-8 EF BB BF, UTF-16LE FF FE) and is dropped; without one the
- * bytes are read as UTF-8 when they are valid UTF-8, and otherwise as windows-1252, the encoding
- * spreadsheet programs on Windows save "CSV" in (and the one WHATWG gives the labels latin1,
- * iso-8859-1 and ascii). Never throws.
+ * The text of an uploaded roster. As in the WHATWG Encoding Standard's "decode" algorithm, a byte
+ * order mark decides first (UTF-8 EF BB BF, UTF-16LE FF FE) and is dropped. Without one the
+ * fallback is a guess of our own: UTF-8 when the bytes are valid UTF-8, otherwise windows-1252,
+ * the encoding spreadsheet programs on Windows save "CSV" in (and the one WHATWG gives the labels
+ * latin1, iso-8859-1 and ascii). Never throws.
  */
 export function decodeText(bytes: Uint8Array): DecodedText {
   if (hasUtf8ByteOrderMark(bytes)) {

@@ -17,7 +17,6 @@ export interface ParsedCsv {
 }
 
 const lineFeed = 10;
-const carriageReturn = 13;
 
 /** Counts physical line breaks: CRLF, a lone LF and a lone CR are one each (RFC 4180 uses CRLF). */
 function lineBreaksIn(text: string): number {
@@ -27,36 +26,6 @@ function lineBreaksIn(text: string): number {
     if (text.charCodeAt(index + 1) !== lineFeed) count++;
   }
   return count;
-}
-
-/** Tells the line of a position in the text, for positions that only move forward. */
-function lineCounter(text: string): (position: number) => number {
-  let scanned = 0;
-  let line = 1;
-  return (position) => {
-    for (; scanned < position; scanned++) {
-      const code = text.charCodeAt(scanned);
-      if (code === lineFeed) line++;
-      else if (code === carriageReturn && text.charCodeAt(scanned + 1) !== lineFeed) line++;
-    }
-    return line;
-  };
-}
-
-/**
- * Where a record's text ends, before the line break that closes it. A last cell that itself ends
- * in a line break, outside closing quotes, has swallowed that line break (broken quoting at the
- * end of the file).
- */
-function contentEnd(text: string, cursor: number, cells: string[]): number {
-  const last = text.charCodeAt(cursor - 1);
-  let end = cursor;
-  if (last === lineFeed)
-    end = text.charCodeAt(cursor - 2) === carriageReturn ? cursor - 2 : cursor - 1;
-  else if (last === carriageReturn) end = cursor - 1;
-  const lastCell = cells[cells.length - 1] ?? '';
-  const cellEndsInBreak = lastCell.endsWith('\n') || lastCell.endsWith('\r');
-  return cellEndsInBreak && text[end - 1] !== '"' ? cursor : end;
 }
 
 function embeddedLineBreaks(cells: string[]): number {
@@ -91,6 +60,11 @@ function quoteProblem(error: Papa.ParseError): string {
     : 'A quoted cell has text after its closing double quote (").';
 }
 
+// Papaparse's "greedy" rule: a line whose cells are all white space is an empty line.
+function isEmptyLine(cells: string[]): boolean {
+  return cells.every((cell) => cell.trim() === '');
+}
+
 /**
  * Splits CSV text into headers and records with papaparse: the delimiter is detected among
  * comma, semicolon and tab; CRLF, LF or CR line breaks; quoted fields may hold delimiters, double
@@ -102,46 +76,56 @@ function quoteProblem(error: Papa.ParseError): string {
 export function parseCsv(text: string): ParsedCsv {
   const problems: RowError[] = [];
   const records: CsvRecord[] = [];
-  let headers: string[] | undefined;
-  let readable: { header: string; index: number }[] = [];
-  let delimiter = ',';
-  const lineOf = lineCounter(text);
-  Papa.parse<string[]>(text, {
+  // Empty lines are kept while parsing so that every parsed line follows the one before it in
+  // the text: a line starts one line break, plus those inside its quoted cells, after the last.
+  // Papaparse guesses from the first ten lines; it must skip empty ones while guessing, or a
+  // trailing line break counts against the true delimiter.
+  const guess = Papa.parse<string[]>(text, {
     delimitersToGuess: [',', ';', '\t'],
     skipEmptyLines: 'greedy',
-    step(step) {
-      const cells = step.data;
-      delimiter = step.meta.delimiter;
-      const line = lineOf(contentEnd(text, step.meta.cursor, cells)) - embeddedLineBreaks(cells);
-      for (const error of step.errors) {
-        if (error.type !== 'Quotes') continue;
-        const place = Math.max(0, Math.min(cells.length, headers?.length ?? cells.length) - 1);
-        problems.push({ line, column: headers?.[place] ?? '', message: quoteProblem(error) });
-      }
-      if (!headers) {
-        headers = headerNames(cells, line, problems);
-        const seen = new Set<string>();
-        readable = headers.flatMap((header, index) => {
-          if (seen.has(header)) return [];
-          seen.add(header);
-          return [{ header, index }];
-        });
-        return;
-      }
-      const record: Record<string, string> = {};
-      for (const { header, index } of readable) record[header] = cells[index] ?? '';
-      if (
-        cells.length > headers.length &&
-        cells.slice(headers.length).some((cell) => cell.trim())
-      ) {
-        problems.push({
-          line,
-          column: `Column ${headers.length + 1}`,
-          message: `This line has ${cells.length} cells but the header has ${headers.length}; the cells beyond column ${headers.length} were not read.`,
-        });
-      }
-      records.push({ line, cells: record });
-    },
+    preview: 10,
   });
-  return { headers: headers ?? [], records, problems, delimiter };
+  const parsed = Papa.parse<string[]>(text, { delimiter: guess.meta.delimiter });
+  const quoteErrors = new Map<number, Papa.ParseError[]>();
+  for (const error of parsed.errors) {
+    if (error.type !== 'Quotes' || error.row === undefined) continue;
+    quoteErrors.set(error.row, [...(quoteErrors.get(error.row) ?? []), error]);
+  }
+  let headers: string[] | undefined;
+  let readable: { header: string; index: number }[] = [];
+  let line = 1;
+  parsed.data.forEach((cells, row) => {
+    const lineOfRow = line;
+    line += 1 + embeddedLineBreaks(cells);
+    for (const error of quoteErrors.get(row) ?? []) {
+      const place = Math.max(0, Math.min(cells.length, headers?.length ?? cells.length) - 1);
+      problems.push({
+        line: lineOfRow,
+        column: headers?.[place] ?? '',
+        message: quoteProblem(error),
+      });
+    }
+    if (isEmptyLine(cells)) return;
+    if (!headers) {
+      headers = headerNames(cells, lineOfRow, problems);
+      const seen = new Set<string>();
+      readable = headers.flatMap((header, index) => {
+        if (seen.has(header)) return [];
+        seen.add(header);
+        return [{ header, index }];
+      });
+      return;
+    }
+    const record: Record<string, string> = {};
+    for (const { header, index } of readable) record[header] = cells[index] ?? '';
+    if (cells.length > headers.length && !isEmptyLine(cells.slice(headers.length))) {
+      problems.push({
+        line: lineOfRow,
+        column: `Column ${headers.length + 1}`,
+        message: `This line has ${cells.length} cells but the header has ${headers.length}; the cells beyond column ${headers.length} were not read.`,
+      });
+    }
+    records.push({ line: lineOfRow, cells: record });
+  });
+  return { headers: headers ?? [], records, problems, delimiter: parsed.meta.delimiter };
 }

@@ -66,7 +66,9 @@ export function parseRosterCsv(bytes: Uint8Array, options: RosterCsvOptions = {}
   }
   const { text } = decodeText(bytes);
   if (text.includes('\u0000')) {
-    return unreadable('This file is not a text (CSV) file; export the roster as CSV and try again.');
+    return unreadable(
+      'This file is not a text (CSV) file; export the roster as CSV and try again.',
+    );
   }
   if (text.trim() === '') return unreadable('The file is empty.');
 
@@ -83,7 +85,10 @@ export function parseRosterCsv(bytes: Uint8Array, options: RosterCsvOptions = {}
     return { ...base, rows: [], errors, totalRows: csv.records.length };
   }
   if (csv.records.length === 0) {
-    const errors = [...csv.problems, { line: 1, column: '', message: 'The file has headers but no roster rows.' }];
+    const errors = [
+      ...csv.problems,
+      { line: 1, column: '', message: 'The file has headers but no roster rows.' },
+    ];
     return { ...base, rows: [], errors: errors.sort(byLine), totalRows: 0 };
   }
 

@@ -1,7 +1,6 @@
 import {
   quoteValue,
   rosterFieldLabels,
-  rosterFields,
   rosterRowSchema,
   type RosterField,
   type RosterRow,
@@ -37,10 +36,15 @@ function ensembleKey(row: RosterRow): string {
   return `${row.studentId}\u0000${(row.ensemble ?? '').toLowerCase()}`;
 }
 
-function withoutEmptyFields(row: RosterRow): RosterRow {
-  const clean: Record<string, unknown> = {};
-  for (const field of rosterFields) if (row[field] !== undefined) clean[field] = row[field];
-  return clean as RosterRow;
+function sourceOf(candidate: RosterCandidate, field: RosterField): Omit<RowError, 'message'> {
+  return {
+    line: candidate.fieldLines?.[field] ?? candidate.line,
+    column: candidate.columns[field] ?? field,
+  };
+}
+
+function placeOf(candidate: RosterCandidate): string {
+  return candidate.place ?? `line ${candidate.line}`;
 }
 
 function schoolList(codes: ReadonlySet<string>): string {
@@ -64,39 +68,34 @@ export function validateRosterCandidates(
 ): Pick<ParsedRoster, 'rows' | 'errors'> {
   const rows: ParsedRoster['rows'] = [];
   const errors: RowError[] = [];
-  const placeByEnsemble = new Map<string, string>();
-  const firstRowOfStudent = new Map<string, { place: string; row: RosterRow }>();
+  const firstInEnsemble = new Map<string, RosterCandidate>();
+  const firstRowOfStudent = new Map<string, { candidate: RosterCandidate; row: RosterRow }>();
   for (const candidate of candidates) {
-    const where = (field: RosterField) => ({
-      line: candidate.fieldLines?.[field] ?? candidate.line,
-      column: candidate.columns[field] ?? field,
-    });
     const parsed = rosterRowSchema.safeParse(candidate.values);
     if (!parsed.success) {
       for (const issue of parsed.error.issues) {
         const field = issue.path[0] as RosterField;
-        errors.push({ ...where(field), message: issue.message });
+        errors.push({ ...sourceOf(candidate, field), message: issue.message });
       }
       continue;
     }
-    const row = withoutEmptyFields(parsed.data);
+    const row = parsed.data;
     const { knownSchoolCodes } = checks;
     if (knownSchoolCodes && !knownSchoolCodes.has(row.schoolCode)) {
       errors.push({
-        ...where('schoolCode'),
+        ...sourceOf(candidate, 'schoolCode'),
         message: `School code ${quoteValue(row.schoolCode)} is not one of the district's schools (${schoolList(knownSchoolCodes)}).`,
       });
       continue;
     }
     const key = ensembleKey(row);
-    const place = candidate.place ?? `line ${candidate.line}`;
-    const earlierPlace = placeByEnsemble.get(key);
-    if (earlierPlace !== undefined) {
+    const earlier = firstInEnsemble.get(key);
+    if (earlier !== undefined) {
       const inEnsemble = row.ensemble ? ` in ${quoteValue(row.ensemble)}` : ' with no ensemble';
       errors.push({
         line: candidate.line,
         column: candidate.rowColumn,
-        message: `Student ${quoteValue(row.studentId)} is listed twice${inEnsemble}; the first is on ${earlierPlace}.`,
+        message: `Student ${quoteValue(row.studentId)} is listed twice${inEnsemble}; the first is on ${placeOf(earlier)}.`,
       });
       continue;
     }
@@ -105,13 +104,13 @@ export function validateRosterCandidates(
     if (first && differing) {
       const label = rosterFieldLabels[differing];
       errors.push({
-        ...where(differing),
-        message: `Student ${quoteValue(row.studentId)} has ${label.toLowerCase()} ${describe(differing, row)} here but ${describe(differing, first.row)} on ${first.place}; one student has one ${label.toLowerCase()}.`,
+        ...sourceOf(candidate, differing),
+        message: `Student ${quoteValue(row.studentId)} has ${label.toLowerCase()} ${describe(differing, row)} here but ${describe(differing, first.row)} on ${placeOf(first.candidate)}; one student has one ${label.toLowerCase()}.`,
       });
       continue;
     }
-    placeByEnsemble.set(key, place);
-    if (!first) firstRowOfStudent.set(row.studentId, { place, row });
+    firstInEnsemble.set(key, candidate);
+    if (!first) firstRowOfStudent.set(row.studentId, { candidate, row });
     rows.push({ line: candidate.line, row });
   }
   return { rows, errors };

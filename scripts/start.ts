@@ -1,0 +1,61 @@
+import { loadConfig } from '../server/config';
+import { createLogger } from '../server/logger';
+import { closeOnSignals, startServer } from '../server/main';
+import { seedDemoWhenEmpty } from '../server/seed/demo';
+import { demoAccounts, startOidcFake, type OidcFake } from '../fakes/oidc/index';
+import { startMailFake, type MailFake } from '../fakes/mail/index';
+import { buildWebIfMissing } from './build-if-missing';
+
+/**
+ * `npm start`: builds the web app when missing, starts the local identity provider and mail
+ * catcher (unless OIDC_ISSUER or SMTP_URL point elsewhere), migrates, seeds the demo district
+ * into an empty database, and serves the app. Ctrl-C stops all of it.
+ */
+async function start() {
+  const config = loadConfig();
+  const logger = createLogger(config.logLevel);
+  buildWebIfMissing();
+
+  const usesLocalIdentity = !process.env['OIDC_ISSUER'];
+  const usesLocalMail = !process.env['SMTP_URL'];
+  const oidc: OidcFake | undefined = usesLocalIdentity ? await startOidcFake({ port: 4310 }) : undefined;
+  const mail: MailFake | undefined = usesLocalMail
+    ? await startMailFake({ smtpPort: 2525, httpPort: 4311, storeFile: `${config.dataDir}/mailbox.jsonl` })
+    : undefined;
+
+  let seeded = false;
+  const server = await startServer(config, {
+    logger,
+    prepare: async ({ db }) => {
+      seeded = await seedDemoWhenEmpty(db);
+    },
+  });
+
+  const lines = [
+    '',
+    '  Tuttiboard is running.',
+    '',
+    `  App                 ${server.url}`,
+    oidc ? `  Sign-in (local)     ${oidc.issuer}` : `  Sign-in             ${config.oidcIssuer}`,
+    mail ? `  Mailbox (local)     ${mail.httpUrl}` : `  Mail relay          ${config.smtpUrl}`,
+    `  Database            ${config.databaseUrl ? 'PostgreSQL server (DATABASE_URL)' : `PGlite in ${config.dataDir}`}`,
+    seeded ? '  Seeded the demo district, Merrow Basin Unified.' : '',
+    '',
+    oidc ? '  Demo accounts (choose one on the sign-in page):' : '',
+    ...(oidc ? demoAccounts.map((account) => `    ${account.email.padEnd(38)} ${account.role}`) : []),
+    '',
+    '  Press Ctrl-C to stop.',
+    '',
+  ];
+  process.stdout.write(lines.filter((line, index, all) => line !== '' || all[index - 1] !== '').join('\n') + '\n');
+
+  closeOnSignals(async () => {
+    await server.close();
+    await Promise.all([oidc?.close(), mail?.close()]);
+  }, logger);
+}
+
+start().catch((error: unknown) => {
+  process.stderr.write(`Tuttiboard could not start: ${error instanceof Error ? error.message : String(error)}\n`);
+  process.exit(1);
+});

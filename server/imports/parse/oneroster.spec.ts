@@ -1,0 +1,274 @@
+import { readdirSync, readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { strToU8, zipSync } from 'fflate';
+import { describe, expect, it } from 'vitest';
+import { readOneRosterBundle } from './oneroster';
+
+const bundleFolder = fileURLToPath(
+  new URL('../../../tests/fixtures/rosters/oneroster-bundle/', import.meta.url),
+);
+const bundleFiles = () =>
+  new Map(
+    readdirSync(bundleFolder).map((name) => [
+      name,
+      readFileSync(`${bundleFolder}/${name}`, 'utf8'),
+    ]),
+  );
+
+/** The fixture bundle with one file's text changed. */
+function bundleWith(name: string, change: (text: string) => string): Map<string, string> {
+  const files = bundleFiles();
+  files.set(name, change(files.get(name) ?? ''));
+  return files;
+}
+
+const vanTongeren = {
+  studentId: 'HP-8001',
+  firstName: 'Imre',
+  lastName: 'Van Tongeren',
+  grade: 7,
+  schoolCode: 'HPMS',
+  guardianName: 'Beatrix Van Tongeren',
+  guardianEmail: 'beatrix.vantongeren@merrowbasin.example',
+};
+
+const expectedRows = [
+  { line: 2, row: { ...vanTongeren, ensemble: 'Concert Band' } },
+  {
+    line: 6,
+    row: { ...vanTongeren, ensemble: 'Beginning Band - Clarinet', instrument: 'clarinet' },
+  },
+  {
+    line: 3,
+    row: {
+      studentId: 'HP-8002',
+      firstName: 'Callum',
+      lastName: 'Ashdown',
+      grade: 6,
+      schoolCode: 'HPMS',
+      ensemble: 'Beginning Band - Clarinet',
+      instrument: 'clarinet',
+      guardianName: 'Hollis Ashdown',
+      guardianEmail: 'hollis.ashdown@merrowbasin.example',
+    },
+  },
+  {
+    line: 5,
+    row: {
+      studentId: 'TR-8003',
+      firstName: 'Odalys',
+      lastName: 'Ferreira',
+      grade: 11,
+      schoolCode: 'TRHS',
+      ensemble: 'Chamber Orchestra',
+      guardianName: 'Marisol Ferreira',
+      guardianEmail: 'marisol.ferreira@merrowbasin.example',
+    },
+  },
+  {
+    line: 5,
+    row: {
+      studentId: 'u-s4',
+      firstName: 'Pim',
+      lastName: 'Ravensworth',
+      grade: 0,
+      schoolCode: 'FBES',
+    },
+  },
+  {
+    line: 7,
+    row: {
+      studentId: 'QH-8005',
+      firstName: 'Saoirse',
+      lastName: 'Delacroix',
+      grade: 7,
+      schoolCode: 'QHMS',
+      ensemble: 'Strings 7',
+      instrument: 'violin',
+    },
+  },
+];
+
+describe('readOneRosterBundle', () => {
+  it('should make one row per student and class when reading the fixture folder', async () => {
+    const parsed = await readOneRosterBundle(bundleFolder);
+    expect(parsed.errors).toEqual([]);
+    expect(parsed.source).toBe('oneroster');
+    expect(parsed.totalRows).toBe(6);
+    expect(parsed.rows).toStrictEqual(expectedRows);
+    expect(parsed.headers).toContain('users.csv:agentSourcedIds');
+    expect(parsed.mapping.grade).toBe('users.csv:grades');
+  });
+
+  it('should read the same rows when the folder is zipped, even inside a sub-folder', async () => {
+    const entries = Object.fromEntries(
+      [...bundleFiles()].map(([name, text]) => [`export-2026/${name}`, strToU8(text)]),
+    );
+    const parsed = await readOneRosterBundle(zipSync(entries));
+    expect(parsed.errors).toEqual([]);
+    expect(parsed.rows).toStrictEqual(expectedRows);
+  });
+
+  it('should read the same rows when given the files as a map', async () => {
+    expect((await readOneRosterBundle(bundleFiles())).rows).toStrictEqual(expectedRows);
+  });
+
+  it('should name the file, line and column once when a student has a grade outside K to 12', async () => {
+    const files = bundleWith('users.csv', (text) =>
+      text.replace(
+        'Imre,Van Tongeren,,HP-8001,,,,u-g1,07',
+        'Imre,Van Tongeren,,HP-8001,,,,u-g1,PK',
+      ),
+    );
+    const parsed = await readOneRosterBundle(files);
+    expect(parsed.errors).toEqual([
+      { line: 2, column: 'users.csv:grades', message: "Grade must be K or 1 to 12; got 'PK'." },
+    ]);
+    expect(parsed.rows.map(({ row }) => row.studentId)).not.toContain('HP-8001');
+  });
+
+  it('should report a bad guardian e-mail on the guardian line when the parent record is wrong', async () => {
+    const files = bundleWith('users.csv', (text) =>
+      text.replace('beatrix.vantongeren@merrowbasin.example', 'beatrix@'),
+    );
+    expect((await readOneRosterBundle(files)).errors).toEqual([
+      {
+        line: 7,
+        column: 'users.csv:email',
+        message: "Guardian e-mail 'beatrix@' is not a valid e-mail address.",
+      },
+    ]);
+  });
+
+  it('should report a school with no identifier on its orgs.csv line when the school code is blank', async () => {
+    const files = bundleWith('orgs.csv', (text) => text.replace('school,TRHS,', 'school,,'));
+    const parsed = await readOneRosterBundle(files);
+    expect(parsed.errors).toEqual([
+      {
+        line: 5,
+        column: 'orgs.csv:identifier',
+        message:
+          "School 'Tamsin Ridge High' has no identifier; the roster needs its school code there.",
+      },
+    ]);
+    expect(parsed.rows).toHaveLength(5);
+  });
+
+  it('should report enrolments in unknown classes and of unknown students when references break', async () => {
+    const files = bundleWith('enrollments.csv', (text) =>
+      text
+        .replace('e-4,,,class-tr-chamber', 'e-4,,,class-gone')
+        .replace('e-6,,,class-qh-strings,,u-s5', 'e-6,,,class-qh-strings,,u-s9'),
+    );
+    expect((await readOneRosterBundle(files)).errors).toEqual([
+      {
+        line: 5,
+        column: 'enrollments.csv:classSourcedId',
+        message: "Class 'class-gone' is not in classes.csv.",
+      },
+      {
+        line: 7,
+        column: 'enrollments.csv:userSourcedId',
+        message: "Student 'u-s9' is not in users.csv (as a user with role student).",
+      },
+    ]);
+  });
+
+  it('should report a school not in the district when known school codes are given', async () => {
+    const parsed = await readOneRosterBundle(bundleFolder, {
+      knownSchoolCodes: new Set(['HPMS', 'QHMS', 'TRHS']),
+    });
+    expect(parsed.errors).toEqual([
+      {
+        line: 6,
+        column: 'orgs.csv:identifier',
+        message: "School code 'FBES' is not one of the district's schools (HPMS, QHMS, TRHS).",
+      },
+    ]);
+  });
+
+  it('should report two students with one identifier when users.csv repeats it', async () => {
+    const files = bundleWith('users.csv', (text) => text.replace(',QH-8005,', ',HP-8002,'));
+    expect((await readOneRosterBundle(files)).errors).toEqual([
+      {
+        line: 6,
+        column: 'users.csv:givenName',
+        message:
+          "Student 'HP-8002' has first name 'Saoirse' here but 'Callum' on enrollments.csv line 3; one student has one first name.",
+      },
+    ]);
+  });
+
+  // OneRoster 1.1 CSV manifest: file.<name> is absent, bulk or delta; oneroster.version is 1.1.
+  it.each([
+    [
+      'file.users,bulk',
+      'file.users,delta',
+      16,
+      'manifest.csv says users.csv is a delta (changes only); export a bulk bundle so that every student is listed.',
+    ],
+    [
+      'file.enrollments,bulk',
+      'file.enrollments,absent',
+      11,
+      'manifest.csv says enrollments.csv is absent; a roster import needs it.',
+    ],
+    [
+      'oneroster.version,1.1',
+      'oneroster.version,1.2',
+      3,
+      "The bundle is OneRoster version '1.2'; this import reads OneRoster 1.1 CSV bundles.",
+    ],
+  ])(
+    'should refuse the bundle when the manifest line %s becomes %s',
+    async (from, to, line, message) => {
+      const parsed = await readOneRosterBundle(
+        bundleWith('manifest.csv', (text) => text.replace(from, to)),
+      );
+      expect(parsed.rows).toEqual([]);
+      expect(parsed.errors).toEqual([{ line, column: 'manifest.csv:value', message }]);
+    },
+  );
+
+  it('should name each missing file and column when the bundle is incomplete', async () => {
+    const files = bundleWith('users.csv', (text) => text.replace(',grades,', ',grade,'));
+    files.delete('classes.csv');
+    files.delete('manifest.csv');
+    const parsed = await readOneRosterBundle(files);
+    expect(parsed.rows).toEqual([]);
+    expect(parsed.errors).toEqual([
+      {
+        line: 0,
+        column: 'manifest.csv',
+        message: 'The bundle has no manifest.csv; a OneRoster 1.1 CSV bundle starts with one.',
+      },
+      { line: 1, column: 'users.csv:grades', message: "users.csv has no 'grades' column." },
+      { line: 0, column: 'classes.csv', message: 'The bundle has no classes.csv.' },
+    ]);
+  });
+
+  it('should say the zip could not be read when the bytes are not a zip', async () => {
+    const parsed = await readOneRosterBundle(new Uint8Array([0x50, 0x4b, 0x03, 0x04, 1, 2, 3]));
+    expect(parsed.rows).toEqual([]);
+    expect(parsed.errors[0]).toMatchObject({ line: 0, column: '' });
+    expect(parsed.errors[0].message).toMatch(/^The zip file could not be read/);
+  });
+
+  it('should say a workbook is not a bundle when the zip is an Excel file', async () => {
+    const workbook = zipSync({
+      '[Content_Types].xml': strToU8('<Types/>'),
+      'xl/workbook.xml': strToU8('<workbook/>'),
+    });
+    const parsed = await readOneRosterBundle(workbook);
+    expect(parsed.errors[0]).toEqual({
+      line: 0,
+      column: '',
+      message: 'This is an Excel workbook, not a OneRoster bundle; save the sheet as CSV.',
+    });
+  });
+
+  it('should say the folder could not be read when the path does not exist', async () => {
+    const parsed = await readOneRosterBundle(`${bundleFolder}/missing`);
+    expect(parsed.errors[0].message).toMatch(/^The folder '.*missing' could not be read/);
+  });
+});

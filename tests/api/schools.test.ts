@@ -1,0 +1,88 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+
+let app: TestApp;
+let coordinator: SignedInClient;
+let director: SignedInClient;
+let viewer: SignedInClient;
+let schoolIds: Record<string, number>;
+
+beforeAll(async () => {
+  app = await startTestApp();
+  [coordinator, director, viewer] = await Promise.all([
+    app.signIn(demoEmail('coordinator')),
+    app.signIn(demoEmail('director.hpms')),
+    app.signIn(demoEmail('viewer.trhs')),
+  ]);
+  const all = await coordinator.get('/api/schools?limit=100');
+  schoolIds = Object.fromEntries(all.body.rows.map((row: { code: string; id: number }) => [row.code, row.id]));
+});
+afterAll(() => app?.close());
+
+describe('Schools', () => {
+  it('should list only the director’s own schools when a director asks', async () => {
+    const response = await director.get('/api/schools');
+    expect(response.status).toBe(200);
+    expect(response.body.total).toBe(1);
+    expect(response.body.rows[0].code).toBe('HPMS');
+    expect(response.body.rows[0].studentCount).toBeGreaterThan(100);
+  });
+
+  it('should answer 404 when a director opens another school', async () => {
+    expect((await director.get(`/api/schools/${schoolIds['QHMS']}`)).status).toBe(404);
+    expect((await director.get(`/api/schools/${schoolIds['HPMS']}`)).status).toBe(200);
+  });
+
+  it('should answer 403 when a director or viewer tries to change a school', async () => {
+    const hpms = await director.get(`/api/schools/${schoolIds['HPMS']}`);
+    const patch = { name: 'Renamed', version: hpms.body.version };
+    expect((await director.patch(`/api/schools/${schoolIds['HPMS']}`, patch)).status).toBe(403);
+    expect((await viewer.patch(`/api/schools/${schoolIds['TRHS']}`, patch)).status).toBe(403);
+    expect((await director.post('/api/schools', { code: 'NEW1', name: 'New School', level: 'middle' })).status).toBe(403);
+    const after = await coordinator.get(`/api/schools/${schoolIds['HPMS']}`);
+    expect(after.body.name).toBe('Heron Point Middle');
+  });
+
+  it('should sort, filter and page with the list contract', async () => {
+    const page = await coordinator.get('/api/schools?sort=code:desc&limit=2&offset=1');
+    expect(page.body.total).toBeGreaterThanOrEqual(4);
+    expect(page.body.rows).toHaveLength(2);
+    const codes = (await coordinator.get('/api/schools?sort=code:desc&limit=100')).body.rows.map((row: { code: string }) => row.code);
+    expect(page.body.rows.map((row: { code: string }) => row.code)).toEqual(codes.slice(1, 3));
+    const middle = await coordinator.get('/api/schools?level=middle&q=quarry');
+    expect(middle.body.rows.map((row: { code: string }) => row.code)).toEqual(['QHMS']);
+    const bad = await coordinator.get('/api/schools?sort=password:asc');
+    expect(bad.status).toBe(400);
+    expect(bad.body.error.fieldErrors[0].field).toBe('sort');
+  });
+
+  it('should answer 400 with field errors and change nothing when the input is bad', async () => {
+    const response = await coordinator.post('/api/schools', { code: 'x', name: '', level: 'university' });
+    expect(response.status).toBe(400);
+    const fields = response.body.error.fieldErrors.map((error: { field: string }) => error.field);
+    expect(fields).toEqual(expect.arrayContaining(['code', 'name', 'level']));
+    expect((await coordinator.get('/api/schools?code=X')).body.total).toBe(0);
+  });
+
+  it('should answer 409 when an edit starts from a stale version', async () => {
+    const created = await coordinator.post('/api/schools', { code: 'LKES', name: 'Larkmoor Elementary', level: 'elementary' });
+    expect(created.status).toBe(201);
+    const id = created.body.id;
+    const first = await coordinator.patch(`/api/schools/${id}`, { address: '3 Larkmoor Way', version: created.body.version });
+    expect(first.status).toBe(200);
+    expect(first.body.version).toBe(created.body.version + 1);
+    const stale = await coordinator.patch(`/api/schools/${id}`, { address: 'Overwritten', version: created.body.version });
+    expect(stale.status).toBe(409);
+    expect((await coordinator.get(`/api/schools/${id}`)).body.address).toBe('3 Larkmoor Way');
+    expect((await coordinator.delete(`/api/schools/${id}`)).status).toBe(204);
+    expect((await coordinator.get(`/api/schools/${id}`)).status).toBe(404);
+  });
+
+  it('should record who changed a school in the audit log', async () => {
+    const created = await coordinator.post('/api/schools', { code: 'AUDT', name: 'Audit Test School', level: 'other' });
+    const result = await app.database.db.execute(
+      `select a.action, u.email from audit_log a join users u on u.id = a.user_id where a.entity = 'school' and a.entity_id = '${Number(created.body.id)}'` as never,
+    );
+    expect((result as unknown as { rows: unknown[] }).rows).toEqual([{ action: 'create', email: 'coordinator@merrowbasin.example' }]);
+  });
+});

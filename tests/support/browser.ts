@@ -1,0 +1,59 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+
+export const chromiumPath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
+
+/** Where the browser suite saves what a user sees; the README shows some of these. */
+export const screenshotFolder = path.resolve('docs/screenshots');
+
+/** Debian's Chromium, headless, with the flags that keep it from calling out. */
+export async function launchBrowser(): Promise<Browser> {
+  if (!fs.existsSync(chromiumPath)) {
+    throw new Error(`Chromium is not installed at ${chromiumPath}. Install it with: apt-get install -y chromium`);
+  }
+  return chromium.launch({
+    executablePath: chromiumPath,
+    args: [
+      '--headless',
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--no-first-run',
+      '--disable-sync',
+      '--disable-quic',
+    ],
+  });
+}
+
+/**
+ * A browser context that lets requests reach only this machine and records any that tried to
+ * go elsewhere, so a test can prove nothing leaves the machine.
+ */
+export async function localOnlyContext(browser: Browser): Promise<{ context: BrowserContext; outside: string[] }> {
+  const context = await browser.newContext({ viewport: { width: 1360, height: 860 }, locale: 'en-US', timezoneId: 'America/Los_Angeles' });
+  const outside: string[] = [];
+  await context.route('**/*', (route) => {
+    const url = new URL(route.request().url());
+    if (['127.0.0.1', 'localhost', '[::1]'].includes(url.hostname) || url.protocol === 'data:' || url.protocol === 'blob:') {
+      return route.continue();
+    }
+    outside.push(url.href);
+    return route.abort();
+  });
+  return { context, outside };
+}
+
+/** Signs in through the identity provider's page by choosing the demo account. */
+export async function signInAs(page: Page, appUrl: string, email: string, path = '/') {
+  await page.goto(`${appUrl}${path}`);
+  await page.locator(`button.account[value="${email}"]`).click();
+  await page.waitForURL((url) => url.origin === appUrl && !url.pathname.startsWith('/auth'));
+}
+
+/** Saves a full-page screenshot under docs/screenshots. */
+export async function saveScreenshot(page: Page, name: string) {
+  fs.mkdirSync(screenshotFolder, { recursive: true });
+  await page.screenshot({ path: path.join(screenshotFolder, `${name}.png`), fullPage: false });
+}

@@ -1,0 +1,109 @@
+import http from 'node:http';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import type { AddressInfo } from 'node:net';
+import { inject } from 'vitest';
+import request from 'supertest';
+import { createApp } from '../../server/app';
+import { loadConfig, type Config } from '../../server/config';
+import type { DatabaseHandle } from '../../server/db/client';
+import { createLogger } from '../../server/logger';
+import { findUserByEmail } from '../../server/people/people-queries';
+import { issueToken } from '../../server/tokens/token-service';
+import { CookieJar, startOidcFake, walkSignIn, type OidcFake } from '../../fakes/oidc/index';
+import { startMailFake, type MailFake } from '../../fakes/mail/index';
+import { openFromTemplate, type TemplateName } from './database-templates';
+
+/** A signed-in browser: its cookies, and requests that carry them with a same-site Origin. */
+export interface SignedInClient {
+  jar: CookieJar;
+  cookie: string;
+  get(path: string): request.Test;
+  post(path: string, body?: object): request.Test;
+  patch(path: string, body?: object): request.Test;
+  delete(path: string): request.Test;
+}
+
+/** A running app on an ephemeral port with its own database, identity provider and mail catcher. */
+export interface TestApp {
+  url: string;
+  config: Config;
+  database: DatabaseHandle;
+  oidc: OidcFake;
+  mail: MailFake;
+  /** A plain client with no credentials. */
+  anonymous: ReturnType<typeof request>;
+  /** Signs in through the real identity provider over HTTP, as a browser would. */
+  signIn(email: string): Promise<SignedInClient>;
+  /** A fresh API token for the user. */
+  token(email: string): Promise<string>;
+  /** Requests with `Authorization: Bearer <token>`. */
+  bearer(token: string): { get(path: string): request.Test; post(path: string, body?: object): request.Test; patch(path: string, body?: object): request.Test; delete(path: string): request.Test };
+  close(): Promise<void>;
+}
+
+export const demoEmail = (local: string) => `${local}@merrowbasin.example`;
+
+/** Starts the whole app for a test file, from the demo district unless told otherwise. */
+export async function startTestApp(options: { template?: TemplateName; serveWeb?: boolean; environment?: NodeJS.ProcessEnv } = {}): Promise<TestApp> {
+  const templates = inject('templates');
+  const [oidc, mail, database] = await Promise.all([
+    startOidcFake({ port: 0 }),
+    startMailFake({ smtpPort: 0, httpPort: 0 }),
+    openFromTemplate(templates, options.template ?? 'demo'),
+  ]);
+  const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'tutti-test-data-'));
+  const config = loadConfig({
+    TUTTI_DATA_DIR: dataDir,
+    OIDC_ISSUER: oidc.issuer,
+    SMTP_URL: mail.smtpUrl,
+    LOG_LEVEL: 'silent',
+    ...options.environment,
+  });
+  const app = await createApp(config, { database, logger: createLogger('silent'), serveWeb: options.serveWeb ?? false });
+  const server = http.createServer(app);
+  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+  const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+
+  const withHeaders = (headers: Record<string, string>) => {
+    const agent = request(url);
+    return {
+      get: (target: string) => agent.get(target).set(headers),
+      post: (target: string, body?: object) => agent.post(target).set(headers).send(body ?? {}),
+      patch: (target: string, body?: object) => agent.patch(target).set(headers).send(body ?? {}),
+      delete: (target: string) => agent.delete(target).set(headers),
+    };
+  };
+
+  return {
+    url,
+    config,
+    database,
+    oidc,
+    mail,
+    anonymous: request(url),
+    async signIn(email) {
+      const jar = new CookieJar();
+      const { callbackUrl } = await walkSignIn(`${url}/auth/sign-in`, email, jar);
+      const landing = await jar.fetch(callbackUrl);
+      if (landing.status !== 302) throw new Error(`Sign-in callback answered ${landing.status}: ${await landing.text()}`);
+      const cookie = jar.header(url) ?? '';
+      return { jar, cookie, ...withHeaders({ Cookie: cookie, Origin: url }) };
+    },
+    async token(email) {
+      const user = await findUserByEmail(database.db, email);
+      if (!user) throw new Error(`No user ${email} in the test database.`);
+      return (await issueToken(database.db, user.id, 'test')).token;
+    },
+    bearer: (token) => withHeaders({ Authorization: `Bearer ${token}` }),
+    async close() {
+      await new Promise<void>((resolve) => {
+        server.close(() => resolve());
+        server.closeAllConnections();
+      });
+      await Promise.all([oidc.close(), mail.close(), database.close()]);
+      fs.rmSync(dataDir, { recursive: true, force: true });
+    },
+  };
+}

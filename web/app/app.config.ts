@@ -1,0 +1,22 @@
+import {
+  provideBrowserGlobalErrorListeners,
+  provideZonelessChangeDetection,
+  type ApplicationConfig,
+  inject,
+  provideAppInitializer,
+} from '@angular/core';
+import { provideHttpClient, withInterceptors, withXsrfConfiguration } from '@angular/common/http';
+import { provideRouter, withComponentInputBinding, withInMemoryScrolling } from '@angular/router';
+import { routes } from './app.routes';
+import { sessionExpiredInterceptor } from './core/auth/session-expired-interceptor';
+import { Icons } from './core/icons';
+
+export const appConfig: ApplicationConfig = {
+  providers: [
+    provideBrowserGlobalErrorListeners(),
+    provideZonelessChangeDetection(),
+    provideHttpClient(withInterceptors([sessionExpiredInterceptor]), withXsrfConfiguration({})),
+    provideRouter(routes, withComponentInputBinding(), withInMemoryScrolling({ scrollPositionRestoration: 'top' })),
+    provideAppInitializer(() => inject(Icons).register()),
+  ],
+};

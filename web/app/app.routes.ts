@@ -1,0 +1,33 @@
+import type { Routes } from '@angular/router';
+import { Shell } from './core/layout/shell';
+import { capabilityGuard, signedInGuard } from './core/auth/signed-in-guard';
+import { NotFound } from './core/not-found';
+import { startPage } from './core/start-page';
+
+export const routes: Routes = [
+  {
+    path: 'signed-out',
+    loadComponent: () => import('./signed-out/signed-out').then((m) => m.SignedOut),
+    title: 'Signed out · Tuttiboard',
+  },
+  {
+    path: '',
+    component: Shell,
+    canActivate: [signedInGuard],
+    children: [
+      { path: '', pathMatch: 'full', canActivate: [startPage], children: [] },
+      {
+        path: 'overview',
+        loadComponent: () => import('./overview/overview').then((m) => m.Overview),
+        title: 'Overview · Tuttiboard',
+      },
+      {
+        path: 'schools',
+        canActivate: [capabilityGuard],
+        data: { capability: 'schools:read' },
+        loadChildren: () => import('./schools/schools.routes').then((m) => m.schoolsRoutes),
+      },
+      { path: '**', component: NotFound, title: 'Not found · Tuttiboard' },
+    ],
+  },
+];

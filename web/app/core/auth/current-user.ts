@@ -1,0 +1,46 @@
+import { HttpClient, HttpErrorResponse } from '@angular/common/http';
+import { Injectable, computed, inject, signal } from '@angular/core';
+import { firstValueFrom } from 'rxjs';
+import type { Me } from '../../../../shared/api/me';
+
+/** The signed-in user, loaded once from `/api/me` and shared by the whole app. */
+@Injectable({ providedIn: 'root' })
+export class CurrentUser {
+  private readonly http = inject(HttpClient);
+  private readonly state = signal<Me | null>(null);
+  private loading: Promise<Me | null> | null = null;
+
+  /** The user, or null before sign-in. */
+  readonly me = this.state.asReadonly();
+  readonly capabilities = computed(() => new Set(this.state()?.capabilities ?? []));
+
+  /** Whether the user's role grants a capability. */
+  can(capability: string): boolean {
+    return this.capabilities().has(capability);
+  }
+
+  /** Loads the user; null when nobody is signed in. */
+  load(): Promise<Me | null> {
+    // The schema is imported lazily so zod stays out of the initial bundle.
+    this.loading ??= Promise.all([
+      firstValueFrom(this.http.get('/api/me')),
+      import('../../../../shared/api/me'),
+    ])
+      .then(([body, { meSchema }]) => {
+        const me = meSchema.parse(body);
+        this.state.set(me);
+        return me;
+      })
+      .catch((error: unknown) => {
+        this.loading = null;
+        if (error instanceof HttpErrorResponse && error.status === 401) return null;
+        throw error;
+      });
+    return this.loading;
+  }
+
+  /** Sends the browser to sign in, coming back to the given path. */
+  signIn(returnTo = location.pathname + location.search): void {
+    location.assign(`/auth/sign-in?returnTo=${encodeURIComponent(returnTo)}`);
+  }
+}

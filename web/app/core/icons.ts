@@ -1,0 +1,93 @@
+import { Injectable, inject } from '@angular/core';
+import { MatIconRegistry } from '@angular/material/icon';
+import { DomSanitizer } from '@angular/platform-browser';
+import spaceDashboard from '@material-symbols/svg-400/outlined/space_dashboard.svg';
+import school from '@material-symbols/svg-400/outlined/school.svg';
+import groups from '@material-symbols/svg-400/outlined/groups.svg';
+import person from '@material-symbols/svg-400/outlined/person.svg';
+import uploadFile from '@material-symbols/svg-400/outlined/upload_file.svg';
+import stairs from '@material-symbols/svg-400/outlined/stairs.svg';
+import factCheck from '@material-symbols/svg-400/outlined/fact_check.svg';
+import musicNote from '@material-symbols/svg-400/outlined/music_note.svg';
+import piano from '@material-symbols/svg-400/outlined/piano.svg';
+import inventory2 from '@material-symbols/svg-400/outlined/inventory_2.svg';
+import handshake from '@material-symbols/svg-400/outlined/handshake.svg';
+import build from '@material-symbols/svg-400/outlined/build.svg';
+import outgoingMail from '@material-symbols/svg-400/outlined/outgoing_mail.svg';
+import manageAccounts from '@material-symbols/svg-400/outlined/manage_accounts.svg';
+import logout from '@material-symbols/svg-400/outlined/logout.svg';
+import menu from '@material-symbols/svg-400/outlined/menu.svg';
+import search from '@material-symbols/svg-400/outlined/search.svg';
+import add from '@material-symbols/svg-400/outlined/add.svg';
+import edit from '@material-symbols/svg-400/outlined/edit.svg';
+import deleteIcon from '@material-symbols/svg-400/outlined/delete.svg';
+import download from '@material-symbols/svg-400/outlined/download.svg';
+import print from '@material-symbols/svg-400/outlined/print.svg';
+import playArrow from '@material-symbols/svg-400/outlined/play_arrow.svg';
+import pause from '@material-symbols/svg-400/outlined/pause.svg';
+import stop from '@material-symbols/svg-400/outlined/stop.svg';
+import error from '@material-symbols/svg-400/outlined/error.svg';
+import info from '@material-symbols/svg-400/outlined/info.svg';
+import warning from '@material-symbols/svg-400/outlined/warning.svg';
+import check from '@material-symbols/svg-400/outlined/check.svg';
+import close from '@material-symbols/svg-400/outlined/close.svg';
+import chevronRight from '@material-symbols/svg-400/outlined/chevron_right.svg';
+import refresh from '@material-symbols/svg-400/outlined/refresh.svg';
+import key from '@material-symbols/svg-400/outlined/key.svg';
+import cloudOff from '@material-symbols/svg-400/outlined/cloud_off.svg';
+import schedule from '@material-symbols/svg-400/outlined/schedule.svg';
+import libraryMusic from '@material-symbols/svg-400/outlined/library_music.svg';
+
+/** The icons the app uses, shipped in the bundle from the Material Symbols package. */
+const icons: Record<string, string> = {
+  space_dashboard: spaceDashboard,
+  school: school,
+  groups: groups,
+  person: person,
+  upload_file: uploadFile,
+  stairs: stairs,
+  fact_check: factCheck,
+  music_note: musicNote,
+  piano: piano,
+  inventory_2: inventory2,
+  handshake: handshake,
+  build: build,
+  outgoing_mail: outgoingMail,
+  manage_accounts: manageAccounts,
+  logout: logout,
+  menu: menu,
+  search: search,
+  add: add,
+  edit: edit,
+  delete: deleteIcon,
+  download: download,
+  print: print,
+  play_arrow: playArrow,
+  pause: pause,
+  stop: stop,
+  error: error,
+  info: info,
+  warning: warning,
+  check: check,
+  close: close,
+  chevron_right: chevronRight,
+  refresh: refresh,
+  key: key,
+  cloud_off: cloudOff,
+  schedule: schedule,
+  library_music: libraryMusic,
+};
+
+/** Registers the icons as inline SVGs, so no icon font or request leaves the app. */
+@Injectable({ providedIn: 'root' })
+export class Icons {
+  private readonly registry = inject(MatIconRegistry);
+  private readonly sanitizer = inject(DomSanitizer);
+
+  register(): void {
+    for (const [name, svg] of Object.entries(icons)) {
+      // The SVGs come from our own bundle, never from user input.
+      this.registry.addSvgIconLiteral(name, this.sanitizer.bypassSecurityTrustHtml(svg));
+    }
+  }
+}

@@ -1,0 +1,35 @@
+/** One entry of the left navigation rail. */
+export interface NavigationItem {
+  path: string;
+  label: string;
+  icon: string;
+  /** The capability the role needs to see the entry (the server enforces it as well). */
+  capability?: string;
+  /** Roles that see this entry regardless of capability. */
+  roles?: string[];
+  /** Roles that never see it (a student has their own page instead of the district overview). */
+  hiddenFor?: string[];
+  group: 'district' | 'music' | 'fleet' | 'admin';
+}
+
+/** The screens of the app, in rail order. */
+export const navigationItems: NavigationItem[] = [
+  { path: '/overview', label: 'Overview', icon: 'space_dashboard', group: 'district', hiddenFor: ['student'] },
+  { path: '/schools', label: 'Schools', icon: 'school', capability: 'schools:read', group: 'district' },
+];
+
+export const navigationGroups: { id: NavigationItem['group']; label: string }[] = [
+  { id: 'district', label: 'District' },
+  { id: 'music', label: 'Music' },
+  { id: 'fleet', label: 'Instruments' },
+  { id: 'admin', label: 'Administration' },
+];
+
+/** The entries a user with these capabilities and role sees. */
+export function visibleItems(role: string, capabilities: Set<string>): NavigationItem[] {
+  return navigationItems.filter(
+    (item) =>
+      !item.hiddenFor?.includes(role) &&
+      (item.roles?.includes(role) || !item.capability || capabilities.has(item.capability)),
+  );
+}

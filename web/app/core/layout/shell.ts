@@ -1,0 +1,47 @@
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
+import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
+import { MatIconModule } from '@angular/material/icon';
+import { MatButtonModule } from '@angular/material/button';
+import { MatTooltipModule } from '@angular/material/tooltip';
+import { roleLabels } from '../../../../shared/api/roles';
+import { CurrentUser } from '../auth/current-user';
+import { navigationGroups, visibleItems } from './navigation';
+
+/** The frame of every signed-in page: the left navigation rail and the top bar. */
+@Component({
+  selector: 'tb-shell',
+  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatIconModule, MatButtonModule, MatTooltipModule],
+  templateUrl: './shell.html',
+  styleUrl: './shell.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class Shell {
+  private readonly currentUser = inject(CurrentUser);
+
+  protected readonly me = this.currentUser.me;
+  protected readonly roleLabel = computed(() => {
+    const me = this.me();
+    return me ? roleLabels[me.role] : '';
+  });
+  protected readonly schoolLine = computed(() => {
+    const me = this.me();
+    if (!me) return '';
+    if (me.allSchools) return 'All schools';
+    return me.schools.map((school) => school.name).join(', ') || 'No school assigned yet';
+  });
+  protected readonly groups = computed(() => {
+    const me = this.me();
+    if (!me) return [];
+    const items = visibleItems(me.role, this.currentUser.capabilities());
+    return navigationGroups
+      .map((group) => ({ ...group, items: items.filter((item) => item.group === group.id) }))
+      .filter((group) => group.items.length > 0);
+  });
+  protected readonly initials = computed(() =>
+    (this.me()?.name ?? '')
+      .split(/\s+/)
+      .map((part) => part[0])
+      .slice(0, 2)
+      .join(''),
+  );
+}

@@ -1,0 +1,32 @@
+import { HttpClient, HttpParams } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import type { Observable } from 'rxjs';
+import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import { schoolSchema, type School, type SchoolInput } from '../../../shared/api/school';
+import { parsedWith } from '../core/parse';
+
+const schoolListSchema = listResponseSchema(schoolSchema);
+
+/** Reads and writes schools through the API. */
+@Injectable({ providedIn: 'root' })
+export class SchoolData {
+  private readonly http = inject(HttpClient);
+
+  list(query: Record<string, string | number> = {}): Observable<ListResponse<School>> {
+    return this.http
+      .get('/api/schools', { params: new HttpParams({ fromObject: query }) })
+      .pipe(parsedWith(schoolListSchema));
+  }
+
+  get(id: number): Observable<School> {
+    return this.http.get(`/api/schools/${id}`).pipe(parsedWith(schoolSchema));
+  }
+
+  create(input: SchoolInput): Observable<School> {
+    return this.http.post('/api/schools', input).pipe(parsedWith(schoolSchema));
+  }
+
+  update(id: number, patch: Partial<SchoolInput> & { version: number }): Observable<School> {
+    return this.http.patch(`/api/schools/${id}`, patch).pipe(parsedWith(schoolSchema));
+  }
+}
