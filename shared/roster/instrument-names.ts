@@ -86,6 +86,8 @@ function comparable(name: string): string {
 }
 
 const idByName = new Map<string, InstrumentId>();
+const recentCells = new Map<string, InstrumentId | null>();
+const rememberedCells = 1000;
 for (const id of instrumentIds) {
   idByName.set(comparable(id), id);
   for (const name of usualNames[id]) idByName.set(comparable(name), id);
@@ -97,8 +99,14 @@ for (const id of instrumentIds) {
  * punctuation; null when the cell names no instrument we know (or is empty).
  */
 export function resolveInstrument(cell: string): InstrumentId | null {
+  const remembered = recentCells.get(cell);
+  if (remembered !== undefined) return remembered;
   const key = comparable(cell);
-  return key === '' ? null : (idByName.get(key) ?? null);
+  const id = key === '' ? null : (idByName.get(key) ?? null);
+  // A roster repeats a handful of instrument spellings thousands of times.
+  if (recentCells.size >= rememberedCells) recentCells.clear();
+  recentCells.set(cell, id);
+  return id;
 }
 
 const wordSplit = /[^a-z0-9]+/;

@@ -177,7 +177,10 @@ export function guessMapping(headers: string[]): ColumnMapping {
       }
     }
   }
-  return mapping;
+  const ordered: ColumnMapping = {};
+  for (const field of rosterFields)
+    if (mapping[field] !== undefined) ordered[field] = mapping[field];
+  return ordered;
 }
 
 /** Something about a column mapping that stops an import. */

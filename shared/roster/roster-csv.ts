@@ -9,6 +9,7 @@ const neutralisedStart = /^'+[=+\-@\t\r]/;
 // RFC 4180 section 2: a field holding a comma, a double quote or a line break is quoted.
 const needsQuotes = /[",\r\n]/;
 const doubleQuote = /"/g;
+const singleQuote = 0x27;
 
 /**
  * A cell made safe to open in a spreadsheet, per OWASP "CSV Injection": a cell that starts with
@@ -24,7 +25,7 @@ export function neutraliseFormula(cell: string): string {
  * formula character. Importers apply it so that an exported roster reads back unchanged.
  */
 export function restoreNeutralisedCell(cell: string): string {
-  return neutralisedStart.test(cell) ? cell.slice(1) : cell;
+  return cell.charCodeAt(0) === singleQuote && neutralisedStart.test(cell) ? cell.slice(1) : cell;
 }
 
 /** One CSV field per RFC 4180, neutralised against formulas first. */

@@ -10,7 +10,7 @@ import {
 import { decodeText } from './decode';
 import { parseCsv } from './parse-csv';
 import type { ParsedRoster, RowError } from './parsed-roster';
-import { validateRosterCandidates, type RosterCandidate } from './validate-rows';
+import { RosterValidator } from './validate-rows';
 
 export type { ParsedRoster, RowError } from './parsed-roster';
 
@@ -56,7 +56,7 @@ function byLine(first: RowError, second: RowError): number {
  * semicolon or tab. Headers are matched to roster fields by `options.mapping`, or else by
  * {@link guessMapping}; when a required field has no column, that is reported on line 1 and no
  * row is read. Every row goes through the roster row schema and the checks of
- * {@link validateRosterCandidates}. Problems come back as errors, never as exceptions.
+ * {@link RosterValidator}. Problems come back as errors, never as exceptions.
  */
 export function parseRosterCsv(bytes: Uint8Array, options: RosterCsvOptions = {}): ParsedRoster {
   if (isZip(bytes)) {
@@ -94,14 +94,15 @@ export function parseRosterCsv(bytes: Uint8Array, options: RosterCsvOptions = {}
 
   const mapped = rosterFields.filter((field) => mapping[field]);
   const rowColumn = mapping.studentId ?? rosterColumnNames.studentId;
-  const candidates = csv.records.map((record): RosterCandidate => {
+  const validator = new RosterValidator(options);
+  for (const record of csv.records) {
     const values: Partial<Record<RosterField, string>> = {};
     for (const field of mapped) {
       values[field] = restoreNeutralisedCell(record.cells[mapping[field] as string] ?? '');
     }
-    return { line: record.line, values, columns: mapping, rowColumn };
-  });
-  const { rows, errors } = validateRosterCandidates(candidates, options);
+    validator.add({ line: record.line, values, columns: mapping, rowColumn });
+  }
+  const { rows, errors } = validator;
   return {
     ...base,
     rows,

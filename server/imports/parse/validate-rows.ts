@@ -57,39 +57,45 @@ function describe(field: RosterField, row: RosterRow): string {
 }
 
 /**
- * Validates would-be roster rows. A roster row is one student in one ensemble: the same student
- * in two ensembles is two rows, but the same student twice in one ensemble (or twice with no
+ * Validates would-be roster rows one at a time, so that a large upload's rows need not all be
+ * held before they are checked. A roster row is one student in one ensemble: the same student in
+ * two ensembles is two rows, but the same student twice in one ensemble (or twice with no
  * ensemble) is a duplicate, and every row of one student must agree on name, grade and school.
  * A row with any problem is left out of the rows and its problems are reported.
  */
-export function validateRosterCandidates(
-  candidates: readonly RosterCandidate[],
-  checks: RosterChecks = {},
-): Pick<ParsedRoster, 'rows' | 'errors'> {
-  const rows: ParsedRoster['rows'] = [];
-  const errors: RowError[] = [];
-  const firstInEnsemble = new Map<string, RosterCandidate>();
-  const firstRowOfStudent = new Map<string, { candidate: RosterCandidate; row: RosterRow }>();
-  for (const candidate of candidates) {
+export class RosterValidator {
+  readonly rows: ParsedRoster['rows'] = [];
+  readonly errors: RowError[] = [];
+  private readonly firstInEnsemble = new Map<string, RosterCandidate>();
+  private readonly firstRowOfStudent = new Map<
+    string,
+    { candidate: RosterCandidate; row: RosterRow }
+  >();
+
+  constructor(private readonly checks: RosterChecks = {}) {}
+
+  /** Checks one would-be row, keeping it when it passes and its problems when it does not. */
+  add(candidate: RosterCandidate): void {
+    const { errors } = this;
     const parsed = rosterRowSchema.safeParse(candidate.values);
     if (!parsed.success) {
       for (const issue of parsed.error.issues) {
         const field = issue.path[0] as RosterField;
         errors.push({ ...sourceOf(candidate, field), message: issue.message });
       }
-      continue;
+      return;
     }
     const row = parsed.data;
-    const { knownSchoolCodes } = checks;
+    const { knownSchoolCodes } = this.checks;
     if (knownSchoolCodes && !knownSchoolCodes.has(row.schoolCode)) {
       errors.push({
         ...sourceOf(candidate, 'schoolCode'),
         message: `School code ${quoteValue(row.schoolCode)} is not one of the district's schools (${schoolList(knownSchoolCodes)}).`,
       });
-      continue;
+      return;
     }
     const key = ensembleKey(row);
-    const earlier = firstInEnsemble.get(key);
+    const earlier = this.firstInEnsemble.get(key);
     if (earlier !== undefined) {
       const inEnsemble = row.ensemble ? ` in ${quoteValue(row.ensemble)}` : ' with no ensemble';
       errors.push({
@@ -97,21 +103,30 @@ export function validateRosterCandidates(
         column: candidate.rowColumn,
         message: `Student ${quoteValue(row.studentId)} is listed twice${inEnsemble}; the first is on ${placeOf(earlier)}.`,
       });
-      continue;
+      return;
     }
-    const first = firstRowOfStudent.get(row.studentId);
+    const first = this.firstRowOfStudent.get(row.studentId);
     const differing = first && studentFields.find((field) => first.row[field] !== row[field]);
     if (first && differing) {
-      const label = rosterFieldLabels[differing];
+      const label = rosterFieldLabels[differing].toLowerCase();
       errors.push({
         ...sourceOf(candidate, differing),
-        message: `Student ${quoteValue(row.studentId)} has ${label.toLowerCase()} ${describe(differing, row)} here but ${describe(differing, first.row)} on ${placeOf(first.candidate)}; one student has one ${label.toLowerCase()}.`,
+        message: `Student ${quoteValue(row.studentId)} has ${label} ${describe(differing, row)} here but ${describe(differing, first.row)} on ${placeOf(first.candidate)}; one student has one ${label}.`,
       });
-      continue;
+      return;
     }
-    firstInEnsemble.set(key, candidate);
-    if (!first) firstRowOfStudent.set(row.studentId, { candidate, row });
-    rows.push({ line: candidate.line, row });
+    this.firstInEnsemble.set(key, candidate);
+    if (!first) this.firstRowOfStudent.set(row.studentId, { candidate, row });
+    this.rows.push({ line: candidate.line, row });
   }
-  return { rows, errors };
+}
+
+/** Validates would-be roster rows with a {@link RosterValidator}. */
+export function validateRosterCandidates(
+  candidates: Iterable<RosterCandidate>,
+  checks: RosterChecks = {},
+): Pick<ParsedRoster, 'rows' | 'errors'> {
+  const validator = new RosterValidator(checks);
+  for (const candidate of candidates) validator.add(candidate);
+  return { rows: validator.rows, errors: validator.errors };
 }
