@@ -3,3 +3,8 @@ export * from './list';
 export * from './me';
 export * from './school';
 export * from './token';
+export * from './student';
+export * from './ensemble';
+export * from './enrollment';
+export * from './grid-preference';
+export * from './outbox';

@@ -1,0 +1,89 @@
+import { z } from 'zod';
+import { instruments } from '../music/index';
+
+const instrumentIds = new Set(instruments.map((instrument) => instrument.id));
+
+const instrumentId = z
+  .string({ message: 'Choose the instrument.' })
+  .trim()
+  .refine((id) => instrumentIds.has(id), {
+    message: `Instrument is one of: ${[...instrumentIds].join(', ')}.`,
+  });
+
+const chair = z
+  .number()
+  .int('A chair is a whole number.')
+  .min(1, 'Chairs count from 1.')
+  .max(99, 'Chairs go up to 99.')
+  .nullable();
+
+/** The fields `GET /api/enrollments?sort=<field>:asc|desc` accepts. */
+export const enrollmentSortFields = [
+  'lastName',
+  'ensemble',
+  'instrument',
+  'chair',
+  'updatedAt',
+] as const;
+
+/** A student's seat in one ensemble for one school year. */
+export const enrollmentSchema = z.object({
+  id: z.number().int(),
+  studentId: z.number().int(),
+  studentNumber: z.string(),
+  firstName: z.string(),
+  lastName: z.string(),
+  preferredName: z.string().nullable(),
+  ensembleId: z.number().int(),
+  ensembleName: z.string(),
+  schoolId: z.number().int(),
+  schoolCode: z.string(),
+  schoolYearId: z.number().int(),
+  schoolYearName: z.string(),
+  instrumentId: z.string().nullable(),
+  instrumentName: z.string().nullable(),
+  part: z.string(),
+  chair: z.number().int().nullable(),
+  active: z.boolean(),
+  version: z.number().int(),
+  /** ISO 8601 time of the last change. */
+  updatedAt: z.string(),
+});
+export type Enrollment = z.infer<typeof enrollmentSchema>;
+
+/**
+ * `POST /api/enrollments`: seats a student in an ensemble of the same school for the current
+ * school year. `instrumentId` is one of the music engine's instrument ids.
+ */
+export const enrollmentInputSchema = z.object({
+  studentId: z.number({ message: 'Choose the student.' }).int().positive(),
+  ensembleId: z.number({ message: 'Choose the ensemble.' }).int().positive(),
+  instrumentId,
+  part: z.string().trim().max(40).default(''),
+  chair: chair.default(null),
+});
+export type EnrollmentInput = z.infer<typeof enrollmentInputSchema>;
+
+/** `PATCH /api/enrollments/:id`: instrument, part, chair or active, plus the version. */
+export const enrollmentPatchSchema = z
+  .object({
+    instrumentId,
+    part: z.string().trim().max(40),
+    chair,
+    active: z.boolean(),
+  })
+  .partial()
+  .extend({ version: z.number().int() });
+export type EnrollmentPatch = z.infer<typeof enrollmentPatchSchema>;
+
+/** The field filters of `GET /api/enrollments`; `active` is 'true' or 'false'. */
+export const enrollmentFiltersSchema = z.object({
+  studentId: z.coerce.number().int().positive().optional(),
+  ensembleId: z.coerce.number().int().positive().optional(),
+  schoolYearId: z.coerce.number().int().positive().optional(),
+  active: z
+    .enum(['true', 'false'], { message: "active is 'true' or 'false'." })
+    .transform((value) => value === 'true')
+    .optional(),
+});
+export type EnrollmentFilters = z.infer<typeof enrollmentFiltersSchema>;

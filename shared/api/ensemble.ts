@@ -1,0 +1,118 @@
+import { z } from 'zod';
+import { schoolSummarySchema } from './me';
+
+/** The kinds of ensemble a school runs. */
+export const ensembleKinds = [
+  'concert-band',
+  'symphonic-band',
+  'jazz-band',
+  'marching-band',
+  'string-orchestra',
+  'full-orchestra',
+  'percussion-ensemble',
+  'beginning-band',
+  'beginning-strings',
+] as const;
+export type EnsembleKind = (typeof ensembleKinds)[number];
+
+/** How each kind of ensemble is named on screen. */
+export const ensembleKindLabels: Record<EnsembleKind, string> = {
+  'concert-band': 'Concert band',
+  'symphonic-band': 'Symphonic band',
+  'jazz-band': 'Jazz band',
+  'marching-band': 'Marching band',
+  'string-orchestra': 'String orchestra',
+  'full-orchestra': 'Full orchestra',
+  'percussion-ensemble': 'Percussion ensemble',
+  'beginning-band': 'Beginning band',
+  'beginning-strings': 'Beginning strings',
+};
+
+/** The fields `GET /api/ensembles?sort=<field>:asc|desc` accepts. */
+export const ensembleSortFields = ['name', 'school', 'kind', 'memberCount'] as const;
+
+/** One ensemble as the list and the detail answer it. */
+export const ensembleSchema = z.object({
+  id: z.number().int(),
+  schoolId: z.number().int(),
+  schoolCode: z.string(),
+  schoolName: z.string(),
+  name: z.string(),
+  kind: z.enum(ensembleKinds),
+  kindLabel: z.string(),
+  /** Free text such as 'beginning', 'intermediate', 'advanced'. */
+  level: z.string(),
+  meetingPeriod: z.string(),
+  directorUserId: z.number().int().nullable(),
+  directorName: z.string().nullable(),
+  /** Active seats in the current school year. */
+  memberCount: z.number().int(),
+  version: z.number().int(),
+  /** ISO 8601 time of the last change. */
+  updatedAt: z.string(),
+});
+export type Ensemble = z.infer<typeof ensembleSchema>;
+
+/** One seat of the ensemble in the current school year, with its student. */
+export const ensembleMemberSchema = z.object({
+  enrollmentId: z.number().int(),
+  /** The enrollment's version, for `PATCH /api/enrollments/:enrollmentId`. */
+  enrollmentVersion: z.number().int(),
+  studentId: z.number().int(),
+  studentNumber: z.string(),
+  firstName: z.string(),
+  lastName: z.string(),
+  preferredName: z.string().nullable(),
+  grade: z.number().int(),
+  gradeLabel: z.string(),
+  instrumentId: z.string().nullable(),
+  instrumentName: z.string().nullable(),
+  part: z.string(),
+  chair: z.number().int().nullable(),
+  active: z.boolean(),
+});
+export type EnsembleMember = z.infer<typeof ensembleMemberSchema>;
+
+/**
+ * `GET /api/ensembles/:id`: the ensemble, its school and its active seats of the current school
+ * year in score order (instrument, then chair, then name).
+ */
+export const ensembleDetailSchema = ensembleSchema.extend({
+  school: schoolSummarySchema,
+  members: z.array(ensembleMemberSchema),
+});
+export type EnsembleDetail = z.infer<typeof ensembleDetailSchema>;
+
+/** What a form sends to add an ensemble (`POST /api/ensembles`). */
+export const ensembleInputSchema = z.object({
+  schoolId: z.number({ message: 'Choose the school.' }).int().positive(),
+  name: z.string().trim().min(2, 'Give the ensemble its name.').max(80),
+  kind: z.enum(ensembleKinds, { message: 'Choose the kind of ensemble.' }),
+  level: z.string().trim().max(40).default(''),
+  meetingPeriod: z.string().trim().max(60).default(''),
+  directorUserId: z.number().int().positive().nullable().default(null),
+});
+export type EnsembleInput = z.infer<typeof ensembleInputSchema>;
+
+/**
+ * What `PATCH /api/ensembles/:id` sends: any fields but the school, plus the version the editor
+ * started from.
+ */
+export const ensemblePatchSchema = z
+  .object({
+    name: ensembleInputSchema.shape.name,
+    kind: ensembleInputSchema.shape.kind,
+    level: z.string().trim().max(40),
+    meetingPeriod: z.string().trim().max(60),
+    directorUserId: z.number().int().positive().nullable(),
+  })
+  .partial()
+  .extend({ version: z.number().int() });
+export type EnsemblePatch = z.infer<typeof ensemblePatchSchema>;
+
+/** The field filters of `GET /api/ensembles` (besides q, sort, offset, limit). */
+export const ensembleFiltersSchema = z.object({
+  schoolId: z.coerce.number().int().positive().optional(),
+  kind: z.enum(ensembleKinds).optional(),
+});
+export type EnsembleFilters = z.infer<typeof ensembleFiltersSchema>;

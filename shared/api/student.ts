@@ -1,0 +1,162 @@
+import { z } from 'zod';
+import { schoolSummarySchema } from './me';
+
+/** Whether a student is on the roster now, or has left the program. */
+export const studentStatuses = ['active', 'withdrawn'] as const;
+export type StudentStatus = (typeof studentStatuses)[number];
+
+/** The fields `GET /api/students?sort=<field>:asc|desc` accepts. */
+export const studentSortFields = [
+  'lastName',
+  'firstName',
+  'studentNumber',
+  'grade',
+  'school',
+  'status',
+  'updatedAt',
+] as const;
+
+/** A grade as a form or roster writes it: 0 or "K" is kindergarten, then 1 to 12. */
+const gradeInput = z.preprocess(
+  (value) => {
+    if (typeof value !== 'string') return value;
+    const text = value.trim();
+    if (/^k$/i.test(text)) return 0;
+    return /^\d{1,2}$/.test(text) ? Number(text) : value;
+  },
+  z
+    .number({ message: 'Grade is K or 1 to 12.' })
+    .int('Grade is K or 1 to 12.')
+    .min(0, 'Grade is K or 1 to 12.')
+    .max(12, 'Grade is K or 1 to 12.'),
+);
+
+const optionalText = (max: number) =>
+  z
+    .string()
+    .trim()
+    .max(max)
+    .nullish()
+    .transform((value) => (value ? value : null));
+
+/** One student as the list and the detail answer it. */
+export const studentSchema = z.object({
+  id: z.number().int(),
+  /** The district's student id from the student information system. */
+  studentNumber: z.string(),
+  firstName: z.string(),
+  lastName: z.string(),
+  preferredName: z.string().nullable(),
+  /** 0 is kindergarten. */
+  grade: z.number().int(),
+  /** 'K', '1' … '12'. */
+  gradeLabel: z.string(),
+  schoolId: z.number().int(),
+  schoolCode: z.string(),
+  schoolName: z.string(),
+  status: z.enum(studentStatuses),
+  /** Only for the coordinator and directors; absent for everyone else. */
+  guardianName: z.string().nullable().optional(),
+  /** Only for the coordinator and directors; absent for everyone else. */
+  guardianEmail: z.string().nullable().optional(),
+  /** The student's current ensembles, names joined with ', '. */
+  ensembles: z.string(),
+  ensembleIds: z.array(z.number().int()),
+  /** The instruments of the current seats, names joined with ', '. */
+  instruments: z.string(),
+  instrumentIds: z.array(z.string()),
+  version: z.number().int(),
+  /** ISO 8601 time of the last change. */
+  updatedAt: z.string(),
+});
+export type Student = z.infer<typeof studentSchema>;
+
+/** A seat of the student in one ensemble, as the student detail shows it. */
+export const studentEnrollmentSchema = z.object({
+  id: z.number().int(),
+  ensembleId: z.number().int(),
+  ensembleName: z.string(),
+  schoolYearId: z.number().int(),
+  schoolYearName: z.string(),
+  instrumentId: z.string().nullable(),
+  instrumentName: z.string().nullable(),
+  part: z.string(),
+  chair: z.number().int().nullable(),
+  active: z.boolean(),
+  version: z.number().int(),
+});
+export type StudentEnrollment = z.infer<typeof studentEnrollmentSchema>;
+
+/** One move of the student from one school to another. */
+export const schoolMoveSchema = z.object({
+  id: z.number().int(),
+  fromSchool: schoolSummarySchema.nullable(),
+  toSchool: schoolSummarySchema,
+  /** ISO 8601 time of the move. */
+  movedAt: z.string(),
+  movedByName: z.string().nullable(),
+});
+export type SchoolMove = z.infer<typeof schoolMoveSchema>;
+
+/** `GET /api/students/:id`: the row plus its school, current seats and moves (newest first). */
+export const studentDetailSchema = studentSchema.extend({
+  school: schoolSummarySchema,
+  enrollments: z.array(studentEnrollmentSchema),
+  moves: z.array(schoolMoveSchema),
+});
+export type StudentDetail = z.infer<typeof studentDetailSchema>;
+
+/** What a form sends to add a student (`POST /api/students`). */
+export const studentInputSchema = z.object({
+  studentNumber: z
+    .string()
+    .trim()
+    .regex(/^[A-Za-z0-9-]{1,20}$/, 'A student id is 1 to 20 letters, digits or dashes.'),
+  firstName: z.string().trim().min(1, 'Give the first name.').max(80),
+  lastName: z.string().trim().min(1, 'Give the last name.').max(80),
+  preferredName: optionalText(80),
+  grade: gradeInput,
+  schoolId: z.number({ message: 'Choose the school.' }).int().positive(),
+  /** Absent means 'active'. */
+  status: z.enum(studentStatuses).optional(),
+  guardianName: optionalText(120),
+  guardianEmail: z
+    .string()
+    .trim()
+    .max(200)
+    .refine((value) => value === '' || z.email().safeParse(value).success, {
+      message: 'Give a valid e-mail address, or leave it empty.',
+    })
+    .nullish()
+    .transform((value) => (value ? value.toLowerCase() : null)),
+});
+export type StudentInput = z.infer<typeof studentInputSchema>;
+
+/**
+ * What `PATCH /api/students/:id` sends: any fields but the school (a move is
+ * `POST /api/students/:id/move`), plus the version the editor started from. Withdrawing is
+ * `{ status: 'withdrawn', version }`.
+ */
+export const studentPatchSchema = studentInputSchema
+  .omit({ schoolId: true })
+  .partial()
+  .extend({ version: z.number().int() });
+export type StudentPatch = z.infer<typeof studentPatchSchema>;
+
+/** `POST /api/students/:id/move`: the school the student moves to. */
+export const studentMoveSchema = z.object({
+  toSchoolId: z.number({ message: 'Choose the school the student moves to.' }).int().positive(),
+  version: z.number().int(),
+});
+export type StudentMove = z.infer<typeof studentMoveSchema>;
+
+/** The field filters of `GET /api/students` (besides q, sort, offset, limit). */
+export const studentFiltersSchema = z.object({
+  schoolId: z.coerce.number().int().positive().optional(),
+  schoolCode: z.string().trim().max(10).optional(),
+  grade: gradeInput.optional(),
+  status: z.enum(studentStatuses).optional(),
+  ensembleId: z.coerce.number().int().positive().optional(),
+  instrumentId: z.string().trim().max(40).optional(),
+});
+export type StudentFilters = z.infer<typeof studentFiltersSchema>;
