@@ -8,3 +8,6 @@ export * from './ensemble';
 export * from './enrollment';
 export * from './grid-preference';
 export * from './outbox';
+export * from './ladder';
+export * from './pass-off';
+export * from './analytics';

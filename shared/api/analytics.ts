@@ -1,0 +1,212 @@
+import { z } from 'zod';
+import { requirementSchema } from './ladder';
+import { passOffSchema, recordingSchema } from './pass-off';
+
+/** Where a figure's rows are: the list route and the filters that select them. */
+export const drillSchema = z.object({
+  path: z.enum(['/api/analytics/students', '/api/pass-offs']),
+  query: z.record(z.string(), z.union([z.string(), z.number(), z.boolean()])),
+});
+export type Drill = z.infer<typeof drillSchema>;
+
+/** `GET /api/analytics/students/:id/progress`: where a student stands on the active ladder. */
+export const studentProgressSchema = z.object({
+  studentId: z.number().int(),
+  studentName: z.string(),
+  grade: z.number().int(),
+  schoolId: z.number().int(),
+  /** The instrument the ladder is read for (the student's current seat), and its family. */
+  instrumentId: z.string().nullable(),
+  family: z.string().nullable(),
+  ladderVersionId: z.number().int(),
+  ladderVersionName: z.string(),
+  rungCount: z.number().int(),
+  /** 0 = none yet. */
+  rung: z.number().int(),
+  rungTitle: z.string().nullable(),
+  /** Codes of the requirements met under the active ladder (optional ones included). */
+  metRequirementCodes: z.array(z.string()),
+  /** The lowest unfinished rung and its requirements for the student's family still unmet. */
+  next: z.object({
+    rung: z.number().int().nullable(),
+    title: z.string().nullable(),
+    requirements: z.array(requirementSchema),
+  }),
+  /** The benchmark for the student's grade today, when the ladder has one. */
+  benchmark: z
+    .object({ rung: z.number().int(), byDate: z.string(), atOrAbove: z.boolean() })
+    .nullable(),
+  /** Every pass-off, newest first, each with how it stands under the active ladder. */
+  history: z.array(passOffSchema),
+  recordings: z.array(recordingSchema.extend({ passOffId: z.number().int() })),
+  /** Plain-language notes on the pass-offs that no longer count. */
+  notes: z.array(z.object({ passOffId: z.number().int(), message: z.string() })),
+});
+export type StudentProgress = z.infer<typeof studentProgressSchema>;
+
+const countsByRung = z.array(z.number().int());
+
+/** `GET /api/analytics/overview`: the ladder figures of the Overview, each with its drill. */
+export const overviewSchema = z.object({
+  /** The day the figures are read on (ISO date) and the filters applied. */
+  asOf: z.string(),
+  filters: z.object({
+    schoolId: z.number().int().nullable(),
+    grade: z.number().int().nullable(),
+    ensembleId: z.number().int().nullable(),
+  }),
+  ladderVersionId: z.number().int().nullable(),
+  rungCount: z.number().int(),
+  /** Active students in scope. */
+  studentCount: z.number().int(),
+  /** Students on each rung (index 0 = none yet … rungCount). */
+  studentsByRung: z.object({
+    rungs: z.array(z.object({ rung: z.number().int(), students: z.number().int(), drill: drillSchema })),
+    bySchool: z.array(
+      z.object({
+        schoolId: z.number().int(),
+        code: z.string(),
+        name: z.string(),
+        counts: countsByRung,
+        drill: drillSchema,
+      }),
+    ),
+    byGrade: z.array(z.object({ grade: z.number().int(), counts: countsByRung, drill: drillSchema })),
+  }),
+  /** Share of students at or above the benchmark in force today for their grade. */
+  benchmark: z.object({
+    byGrade: z.array(
+      z.object({
+        grade: z.number().int(),
+        /** The benchmark rung and its date: the latest date not after today, else the first. */
+        rung: z.number().int(),
+        byDate: z.string(),
+        atOrAbove: z.number().int(),
+        students: z.number().int(),
+        /** 0–1; null when the grade has no students. */
+        share: z.number().nullable(),
+        drill: drillSchema,
+      }),
+    ),
+    bySchool: z.array(
+      z.object({
+        schoolId: z.number().int(),
+        code: z.string(),
+        name: z.string(),
+        atOrAbove: z.number().int(),
+        students: z.number().int(),
+        share: z.number().nullable(),
+        drill: drillSchema,
+      }),
+    ),
+  }),
+  medianRungByGrade: z.array(
+    z.object({ grade: z.number().int(), median: z.number(), students: z.number().int(), drill: drillSchema }),
+  ),
+  /** Pass-offs heard each week (weeks start on Monday) of the current school year. */
+  passOffsPerWeek: z.array(
+    z.object({
+      weekStart: z.string(),
+      heard: z.number().int(),
+      passed: z.number().int(),
+      drill: drillSchema,
+    }),
+  ),
+  /** Active students with no pass-off for `days` days (none at all counts as stalled). */
+  stalled: z.object({ days: z.number().int(), students: z.number().int(), drill: drillSchema }),
+  /** Directors of the schools in scope who entered no pass-off for `days` days. */
+  quietDirectors: z.object({
+    days: z.number().int(),
+    directors: z.array(
+      z.object({
+        userId: z.number().int(),
+        name: z.string(),
+        email: z.string(),
+        lastEntryOn: z.string().nullable(),
+        schoolCodes: z.array(z.string()),
+      }),
+    ),
+  }),
+});
+export type Overview = z.infer<typeof overviewSchema>;
+
+const booleanQuery = z.preprocess(
+  (value) => (value === 'true' ? true : value === 'false' ? false : value),
+  z.boolean({ message: 'Use true or false.' }),
+);
+
+/** Filters of `GET /api/analytics/overview`. */
+export const overviewQuerySchema = z.object({
+  schoolId: z.coerce.number().int().positive().optional(),
+  grade: z.coerce.number().int().min(0).max(12).optional(),
+  ensembleId: z.coerce.number().int().positive().optional(),
+  /** Days without a pass-off before a student counts as stalled (default 30). */
+  stalledDays: z.coerce.number().int().min(1).max(365).default(30),
+  /** Read the figures as on this day (ISO date); default today. */
+  asOf: z.iso.date().optional(),
+});
+export type OverviewQuery = z.infer<typeof overviewQuerySchema>;
+
+/** The fields `GET /api/analytics/students?sort=<field>:asc|desc` accepts. */
+export const attainmentSortFields = [
+  'lastName',
+  'grade',
+  'school',
+  'rung',
+  'metCount',
+  'lastPassedOn',
+  'lastPassOffOn',
+] as const;
+
+/** The field filters of `GET /api/analytics/students` (besides q, sort, offset, limit). */
+export const attainmentFiltersSchema = z.object({
+  rung: z.coerce.number().int().min(0).max(50).optional(),
+  schoolId: z.coerce.number().int().positive().optional(),
+  grade: z.coerce.number().int().min(0).max(12).optional(),
+  ensembleId: z.coerce.number().int().positive().optional(),
+  belowBenchmark: booleanQuery.optional(),
+  atOrAboveBenchmark: booleanQuery.optional(),
+  /** Only students with no pass-off for this many days. */
+  stalledDays: z.coerce.number().int().min(1).max(365).optional(),
+  asOf: z.iso.date().optional(),
+});
+export type AttainmentFilters = z.infer<typeof attainmentFiltersSchema>;
+
+/** One student's standing on the active ladder, as the drill-down lists answer it. */
+export const attainmentRowSchema = z.object({
+  /** The student's id. */
+  id: z.number().int(),
+  studentNumber: z.string(),
+  firstName: z.string(),
+  lastName: z.string(),
+  grade: z.number().int(),
+  schoolId: z.number().int(),
+  schoolCode: z.string(),
+  rung: z.number().int(),
+  metCount: z.number().int(),
+  /** ISO dates, or null when never. */
+  lastPassedOn: z.string().nullable(),
+  lastPassOffOn: z.string().nullable(),
+  /** The benchmark rung for the student's grade today, or null when there is none. */
+  benchmarkRung: z.number().int().nullable(),
+});
+export type AttainmentRow = z.infer<typeof attainmentRowSchema>;
+
+/** The field filters of `GET /api/analytics/audition-ready`. */
+export const auditionReadyFiltersSchema = z.object({
+  requirementCodes: z.preprocess(
+    (value) => (typeof value === 'string' ? value.split(',').map((code) => code.trim()).filter(Boolean) : value),
+    z.array(z.string().max(60)).min(1, 'Choose at least one requirement.').max(60),
+  ),
+  /** Each of them passed at this tempo or faster (default: each requirement's own tempo). */
+  minTempo: z.coerce.number().int().min(20).max(300).optional(),
+  schoolId: z.coerce.number().int().positive().optional(),
+  grade: z.coerce.number().int().min(0).max(12).optional(),
+});
+export type AuditionReadyFilters = z.infer<typeof auditionReadyFiltersSchema>;
+
+/** One student ready for an audition: their best tempo on each chosen requirement. */
+export const auditionReadyRowSchema = attainmentRowSchema
+  .pick({ id: true, studentNumber: true, firstName: true, lastName: true, grade: true, schoolId: true, schoolCode: true, rung: true })
+  .extend({ bestTempos: z.record(z.string(), z.number().int()) });
+export type AuditionReadyRow = z.infer<typeof auditionReadyRowSchema>;
