@@ -11,3 +11,8 @@ export * from './outbox';
 export * from './ladder';
 export * from './pass-off';
 export * from './analytics';
+export * from './instrument';
+export * from './loan';
+export * from './repair';
+export * from './count';
+export * from './planning';
