@@ -14,10 +14,13 @@ import { authenticate } from './auth/authenticate';
 import { sameOriginWrites } from './core/same-origin';
 import { errorHandler, unknownApiRoute } from './core/error-handler';
 import { sessionSecret } from './core/settings';
+import { signInLimit, tokenLimits } from './core/rate-limits';
 import { meRoutes } from './me/me-routes';
 import { schoolsRoutes } from './schools/schools-routes';
 import { tokensRoutes } from './tokens/tokens-routes';
 import { localCommandRoutes } from './cli/local-command-routes';
+import { outboxRoutes } from './mail/outbox-routes';
+import { startBackgroundWork } from './reports/background-work';
 
 /** Where the production build of the Angular app lands. */
 export const webRoot = fileURLToPath(new URL('../dist/web/browser', import.meta.url));
@@ -33,7 +36,7 @@ export interface AppOptions {
 }
 
 /** The feature routers, each mounted under /api. */
-const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes];
+const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes];
 
 /** Builds the Express app: security headers, sessions, sign-in, the API and the web app. */
 export async function createApp(config: Config, options: AppOptions): Promise<Express> {
@@ -88,11 +91,13 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   const signIn = createSignIn(config, db, logger);
   app.use(signIn.initialize, signIn.session);
   app.use(sameOriginWrites(() => [new URL(config.appUrl).origin], sessionCookieName));
+  app.use(['/auth/sign-in', '/auth/callback'], signInLimit());
   app.use(signIn.router);
 
   const api = Router();
   if (options.localKey) api.use('/local', localCommandRoutes(services, options.localKey));
   api.use(express.json({ limit: '2mb' }));
+  api.use(tokenLimits());
   api.use(authenticate(db));
   api.use((_request, response, next) => {
     response.set('Cache-Control', 'no-store');
@@ -111,5 +116,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
     });
   }
   app.use(errorHandler(logger));
+  // The mail worker and report scheduler; server/main.ts and the test harness call it on close.
+  app.locals['stop'] = startBackgroundWork(services);
   return app;
 }

@@ -102,7 +102,9 @@ export async function startTestApp(options: { template?: TemplateName; serveWeb?
         server.close(() => resolve());
         server.closeAllConnections();
       });
-      await Promise.all([oidc.close(), mail.close(), database.close()]);
+      await (app.locals['stop'] as () => Promise<void>)();
+      // A test may have stopped a fake on purpose already.
+      await Promise.all([oidc.close().catch(() => undefined), mail.close().catch(() => undefined), database.close()]);
       fs.rmSync(dataDir, { recursive: true, force: true });
     },
   };
