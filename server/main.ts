@@ -66,6 +66,7 @@ export async function startServer(
             server.closeIdleConnections();
             setTimeout(() => server.closeAllConnections(), 2000).unref();
           });
+          await (app.locals['stop'] as () => Promise<void>)();
           await database.close();
           release();
         })()),

@@ -37,6 +37,7 @@ export type Capability =
   | 'counts:run'
   | 'reports:read'
   | 'reports:send'
+  | 'outbox:read'
   | 'people:manage'
   | 'tokens:own'
   | 'practice:read'
@@ -64,6 +65,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'counts:run',
     'reports:read',
     'reports:send',
+    'outbox:read',
     'people:manage',
     'tokens:own',
     'practice:read',
@@ -82,6 +84,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'loans:see-waivers',
     'counts:run',
     'reports:read',
+    'outbox:read',
     'tokens:own',
     'practice:read',
   ],

@@ -3,3 +3,5 @@ export * from './schools';
 export * from './people';
 export * from './roster';
 export * from './audit';
+export * from './mail';
+export * from './reports';

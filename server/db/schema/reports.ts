@@ -1,0 +1,70 @@
+import {
+  boolean,
+  date,
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  smallint,
+  text,
+  timestamp,
+} from 'drizzle-orm/pg-core';
+import { timestamps, version } from './columns';
+import { users } from './people';
+import { schools } from './schools';
+
+/** The reports Tuttiboard writes: one school's director report, or the district summary. */
+export const reportKinds = ['director', 'district'] as const;
+
+/** Who a report goes to: chosen schools' directors, every director, or named addresses. */
+export type ReportTarget =
+  { schoolIds: number[] } | { allDirectors: true } | { recipients: string[]; schoolIds?: number[] };
+
+/**
+ * One report that went out (or was queued), with the figures it carried, so the next one can
+ * show the change since.
+ */
+export const reportRuns = pgTable(
+  'report_runs',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    kind: text('kind', { enum: reportKinds }).notNull(),
+    /** The school of a director report; null for the district summary. */
+    schoolId: integer('school_id').references(() => schools.id, { onDelete: 'set null' }),
+    periodFrom: date('period_from', { mode: 'string' }).notNull(),
+    periodTo: date('period_to', { mode: 'string' }).notNull(),
+    figures: jsonb('figures').notNull(),
+    recipients: text('recipients').array().notNull().default([]),
+    outboxMessageIds: integer('outbox_message_ids').array().notNull().default([]),
+    scheduleId: integer('schedule_id'),
+    sentBy: integer('sent_by').references(() => users.id, { onDelete: 'set null' }),
+    ...timestamps,
+  },
+  (table) => [
+    index('report_runs_kind_school_idx').on(table.kind, table.schoolId, table.createdAt),
+    index('report_runs_created_idx').on(table.createdAt),
+  ],
+);
+
+/** A report that goes out by itself on a cron schedule in a time zone. */
+export const reportSchedules = pgTable(
+  'report_schedules',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    kind: text('kind', { enum: reportKinds }).notNull(),
+    /** Five-field cron expression, such as `0 7 * * 1` (Mondays at 07:00). */
+    cron: text('cron').notNull(),
+    /** IANA time zone the cron expression is read in, such as America/Los_Angeles. */
+    timeZone: text('time_zone').notNull(),
+    target: jsonb('target').$type<ReportTarget>().notNull(),
+    /** How many days before the run the report's period starts. */
+    periodDays: smallint('period_days').notNull().default(7),
+    active: boolean('active').notNull().default(true),
+    lastRunAt: timestamp('last_run_at', { withTimezone: true, mode: 'date' }),
+    nextRunAt: timestamp('next_run_at', { withTimezone: true, mode: 'date' }),
+    createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+    ...version,
+    ...timestamps,
+  },
+  (table) => [index('report_schedules_due_idx').on(table.active, table.nextRunAt)],
+);
