@@ -35,11 +35,20 @@ export type DatabaseLocation =
 
 export const migrationsFolder = fileURLToPath(new URL('./migrations', import.meta.url));
 
+/** Options for opening: a query logger lets benchmarks replay the exact SQL a route ran. */
+export interface OpenOptions {
+  logQuery?: (query: string, params: unknown[]) => void;
+}
+
 /** Opens the database without migrating it. */
-export async function openDatabase(location: DatabaseLocation): Promise<DatabaseHandle> {
+export async function openDatabase(
+  location: DatabaseLocation,
+  options: OpenOptions = {},
+): Promise<DatabaseHandle> {
+  const logger = options.logQuery ? { logQuery: options.logQuery } : undefined;
   if (location.kind === 'postgres') {
     const pool = new pg.Pool({ connectionString: location.url, max: 10 });
-    const db = drizzleNodePostgres({ client: pool, schema }) as unknown as Database;
+    const db = drizzleNodePostgres({ client: pool, schema, logger }) as unknown as Database;
     return { db, kind: 'postgres', pool, close: () => pool.end() };
   }
   let pglite: PGlite;
@@ -52,7 +61,7 @@ export async function openDatabase(location: DatabaseLocation): Promise<Database
   } else {
     pglite = await PGlite.create();
   }
-  const db = drizzlePglite({ client: pglite, schema }) as unknown as Database;
+  const db = drizzlePglite({ client: pglite, schema, logger }) as unknown as Database;
   return {
     db,
     kind: 'pglite',

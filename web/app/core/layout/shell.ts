@@ -2,7 +2,6 @@ import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/c
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { MatIconModule } from '@angular/material/icon';
 import { MatButtonModule } from '@angular/material/button';
-import { MatTooltipModule } from '@angular/material/tooltip';
 import { roleLabels } from '../../../../shared/api/roles';
 import { CurrentUser } from '../auth/current-user';
 import { navigationGroups, visibleItems } from './navigation';
@@ -10,7 +9,7 @@ import { navigationGroups, visibleItems } from './navigation';
 /** The frame of every signed-in page: the left navigation rail and the top bar. */
 @Component({
   selector: 'tb-shell',
-  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatIconModule, MatButtonModule, MatTooltipModule],
+  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatIconModule, MatButtonModule],
   templateUrl: './shell.html',
   styleUrl: './shell.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

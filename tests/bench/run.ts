@@ -1,0 +1,81 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import { execSync } from 'node:child_process';
+import { printFigures, type BenchFigure } from './bench-figure';
+import { benchGridPages } from './grid-pages';
+import { benchStartup } from './startup';
+import { benchBundle } from './bundle';
+
+/**
+ * `npm run bench`: every figure against the limit measured in the same run, printed as ratios.
+ * `--smoke` runs small sizes (part of `npm test`, so the benchmarks cannot rot);
+ * `--write-results` records the run in tests/bench/RESULTS.md.
+ */
+const smoke = process.argv.includes('--smoke');
+const writeResults = process.argv.includes('--write-results');
+
+type Section = { title: string; run: () => Promise<BenchFigure[]> | BenchFigure[] };
+
+async function optionalModule<Module>(path: string): Promise<Module | undefined> {
+  return fs.existsSync(new URL(path, import.meta.url)) ? ((await import(path)) as Module) : undefined;
+}
+
+async function sections(): Promise<Section[]> {
+  const rosterImport = await optionalModule<{ benchRosterImport(options: { rows: number }): Promise<BenchFigure[]> }>('./roster-import.ts');
+  const analytics = await optionalModule<{ benchAnalytics(options: { students: number; passOffs: number }): Promise<BenchFigure[]> }>('./analytics.ts');
+  const concurrency = await optionalModule<{ benchConcurrency(options: { students: number; rows: number }): Promise<BenchFigure[]> }>('./concurrency.ts');
+  const list: Section[] = [];
+  if (rosterImport) {
+    list.push({ title: '1. Roster import, end to end, against COPY into PGlite', run: () => rosterImport.benchRosterImport({ rows: smoke ? 500 : 20_000 }) });
+  }
+  list.push({ title: '2. Grid pages through HTTP, against the same SQL run directly', run: () => benchGridPages({ students: smoke ? 3_000 : 50_000, runs: smoke ? 5 : 40 }) });
+  if (analytics) {
+    list.push({ title: '3. Overview analytics, against the same SQL run directly', run: () => analytics.benchAnalytics(smoke ? { students: 2_000, passOffs: 10_000 } : { students: 50_000, passOffs: 500_000 }) });
+  }
+  if (concurrency) {
+    list.push({ title: '4. Grid pages during an import, against without it', run: () => concurrency.benchConcurrency(smoke ? { students: 3_000, rows: 500 } : { students: 50_000, rows: 20_000 }) });
+  }
+  list.push({ title: '5. Start-up on an existing data folder', run: () => benchStartup({ students: smoke ? 2_000 : 50_000 }) });
+  if (!smoke) list.push({ title: '6. Initial JavaScript and CSS against an empty Material app', run: () => benchBundle({ rebuild: true }) });
+  if (!smoke && rosterImport) {
+    list.push({
+      title: '7. Growth: import and a grid page at 5,000 / 20,000 / 50,000 students',
+      run: async () => {
+        const figures: BenchFigure[] = [];
+        for (const size of [5_000, 20_000, 50_000]) {
+          const [importFigure] = await rosterImport.benchRosterImport({ rows: size });
+          const [pageFigure] = await benchGridPages({ students: size, runs: 20 });
+          figures.push({ ...importFigure!, name: `import ${size.toLocaleString('en-US')} rows` }, { ...pageFigure!, name: `default page at ${size.toLocaleString('en-US')} students` });
+        }
+        return figures;
+      },
+    });
+  }
+  return list;
+}
+
+const results: { title: string; figures: BenchFigure[] }[] = [];
+for (const section of await sections()) {
+  const figures = await section.run();
+  printFigures(section.title, figures);
+  results.push({ title: section.title, figures });
+}
+
+if (writeResults) {
+  const commit = execSync('git rev-parse --short HEAD').toString().trim();
+  const lines = [
+    '# Benchmark results',
+    '',
+    `Run on ${new Date().toISOString().slice(0, 10)}, commit ${commit}, ${os.cpus().length} × ${os.cpus()[0]?.model ?? 'CPU'}, ${Math.round(os.totalmem() / 2 ** 30)} GiB, Node ${process.version}.`,
+    'Each figure is the product against the limit measured in the same run; the ratio is product ÷ limit.',
+    '',
+  ];
+  for (const { title, figures } of results) {
+    lines.push(`## ${title}`, '', '| figure | product | limit | ratio | note |', '| --- | ---: | ---: | ---: | --- |');
+    for (const f of figures) lines.push(`| ${f.name} | ${f.product_ms} ${f.unit ?? 'ms'} | ${f.limit_ms} ${f.unit ?? 'ms'} | ${f.ratio}× | ${f.note ?? ''} |`);
+    lines.push('');
+  }
+  const notes = fs.existsSync('tests/bench/NOTES.md') ? fs.readFileSync('tests/bench/NOTES.md', 'utf8') : '';
+  fs.writeFileSync('tests/bench/RESULTS.md', `${lines.join('\n')}\n${notes}`);
+}
+process.exit(0);
