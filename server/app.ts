@@ -19,6 +19,7 @@ import { meRoutes } from './me/me-routes';
 import { schoolsRoutes } from './schools/schools-routes';
 import { tokensRoutes } from './tokens/tokens-routes';
 import { localCommandRoutes } from './cli/local-command-routes';
+import { importsRoutes } from './imports/imports-routes';
 import { outboxRoutes } from './mail/outbox-routes';
 import { startBackgroundWork } from './reports/background-work';
 
@@ -36,7 +37,7 @@ export interface AppOptions {
 }
 
 /** The feature routers, each mounted under /api. */
-const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes];
+const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes, importsRoutes];
 
 /** Builds the Express app: security headers, sessions, sign-in, the API and the web app. */
 export async function createApp(config: Config, options: AppOptions): Promise<Express> {

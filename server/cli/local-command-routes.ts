@@ -6,6 +6,7 @@ import { HttpError } from '../core/errors';
 import { parseInput } from '../core/validate';
 import { findUserByEmail } from '../people/people-queries';
 import { issueToken } from '../tokens/token-service';
+import { localImportHandlers } from '../imports/local-import';
 
 /** The header a local `tutti` command sends with the key from the data folder's lock file. */
 export const localKeyHeader = 'x-tutti-local-key';
@@ -20,7 +21,7 @@ function sameKey(given: string, expected: string): boolean {
  * Routes for `tutti` commands run on the server's own machine while the server holds the data
  * folder: instead of opening the folder beside it (which would corrupt it), they ask the server.
  */
-export function localCommandRoutes({ db }: Services, localKey: string): Router {
+export function localCommandRoutes({ db, database }: Services, localKey: string): Router {
   const router = Router();
   router.use((request: Request, _response: Response, next: NextFunction) => {
     const given = request.get(localKeyHeader);
@@ -37,5 +38,6 @@ export function localCommandRoutes({ db }: Services, localKey: string): Router {
     const { token } = await issueToken(db, user.id, 'tutti token');
     response.status(201).json({ token, name: user.name, role: user.role });
   });
+  router.post('/imports', ...localImportHandlers(database));
   return router;
 }

@@ -16,3 +16,4 @@ export * from './loan';
 export * from './repair';
 export * from './count';
 export * from './planning';
+export * from './import';

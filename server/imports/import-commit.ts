@@ -1,0 +1,365 @@
+import type { ImportResult } from '../../shared/api/import';
+import type { Actor } from '../core/policy';
+import type { DatabaseHandle } from '../db/client';
+import { guessEnsembleKind } from './ensemble-kind';
+import { firstRowOfEachStudent, writtenStudentColumns, type ImportPlan } from './import-plan';
+import { inSqlTransaction, queryJson, type SqlSession, type StagedValue } from './sql-session';
+
+/** Where an import came from, for its history row. */
+export interface ImportMeta {
+  fileName: string;
+  via: 'wizard' | 'cli' | 'api';
+}
+
+/** What {@link commitImport} answers: the import's result and its history row. */
+export type CommittedImport = ImportResult & { importId: number };
+
+const stagedStudentColumns = [
+  'student_number',
+  'first_name',
+  'last_name',
+  'preferred_name',
+  'grade',
+  'school_id',
+  'guardian_name',
+  'guardian_email',
+] as const;
+
+async function createStagingTables(session: SqlSession) {
+  await session.query(`create temp table import_students (
+    student_number text not null, first_name text not null, last_name text not null,
+    preferred_name text, grade smallint not null, school_id integer not null,
+    guardian_name text, guardian_email text) on commit drop`);
+  await session.query(`create temp table import_seats (
+    student_number text not null, ensemble_id integer not null, instrument_id text) on commit drop`);
+  await session.query(
+    `create temp table import_listed (student_number text not null) on commit drop`,
+  );
+}
+
+const writtenTables = [
+  'students',
+  'enrollments',
+  'ensembles',
+  'school_moves',
+  'audit_log',
+  'roster_imports',
+];
+
+/**
+ * In PGlite, where this transaction is the only one running, skips the per-row foreign-key
+ * triggers for the rest of the transaction (PostgreSQL's `session_replication_role = replica`
+ * fires no ordinary trigger): every school, ensemble, year and student id written was read in
+ * this same transaction, and the per-row checks would otherwise cost more than the writes. Left
+ * on when the tables have triggers of their own, which must fire.
+ */
+async function skipReferenceTriggers(session: SqlSession) {
+  const [own] = await session.query<{ count: number }>(
+    `select count(*)::int as count from pg_trigger
+     where not tgisinternal and tgrelid = any(array[${writtenTables.map((name) => `'${name}'::regclass`).join(', ')}])`,
+  );
+  if (own!.count === 0) await session.query(`set local session_replication_role = replica`);
+}
+
+/** Creates the ensembles the file names that its schools lack; answers school → name → id. */
+async function ensureEnsembles(
+  session: SqlSession,
+  plan: ImportPlan,
+  schoolIdByCode: Map<string, number>,
+) {
+  const schoolIds = [...new Set(plan.schoolCodes.map((code) => schoolIdByCode.get(code)!))];
+  const rows = await session.query<{ id: number; school_id: number; name: string }>(
+    'select id, school_id, name from ensembles where school_id = any($1::int[]) order by id',
+    [schoolIds],
+  );
+  const byKey = new Map<string, number>();
+  const keyOf = (schoolId: number, name: string) => `${schoolId}\u0000${name.toLowerCase()}`;
+  for (const row of rows)
+    if (!byKey.has(keyOf(row.school_id, row.name)))
+      byKey.set(keyOf(row.school_id, row.name), row.id);
+  const missing = new Map<string, { schoolId: number; name: string }>();
+  for (const { row } of plan.parsed.rows) {
+    if (!row.ensemble) continue;
+    const schoolId = schoolIdByCode.get(row.schoolCode)!;
+    const key = keyOf(schoolId, row.ensemble);
+    if (!byKey.has(key) && !missing.has(key)) missing.set(key, { schoolId, name: row.ensemble });
+  }
+  const created: { id: number; school_id: number; name: string }[] = [];
+  if (missing.size > 0) {
+    const list = [...missing.values()];
+    created.push(
+      ...(await session.query<{ id: number; school_id: number; name: string }>(
+        `insert into ensembles (school_id, name, kind)
+         select * from unnest($1::int[], $2::text[], $3::text[])
+         returning id, school_id, name`,
+        [
+          list.map((entry) => entry.schoolId),
+          list.map((entry) => entry.name),
+          list.map((entry) => guessEnsembleKind(entry.name)),
+        ],
+      )),
+    );
+    for (const row of created) byKey.set(keyOf(row.school_id, row.name), row.id);
+  }
+  return {
+    ensembleId: (schoolId: number, name: string) => byKey.get(keyOf(schoolId, name))!,
+    created,
+  };
+}
+
+async function stage(
+  session: SqlSession,
+  plan: ImportPlan,
+  schoolIdByCode: Map<string, number>,
+  ensembleId: (schoolId: number, name: string) => number,
+) {
+  const students: StagedValue[][] = firstRowOfEachStudent(plan.parsed).map((row) => [
+    row.studentId,
+    row.firstName,
+    row.lastName,
+    row.preferredName ?? null,
+    row.grade,
+    schoolIdByCode.get(row.schoolCode)!,
+    row.guardianName ?? null,
+    row.guardianEmail ?? null,
+  ]);
+  const seats: StagedValue[][] = [];
+  for (const { row } of plan.parsed.rows) {
+    if (!row.ensemble) continue;
+    seats.push([
+      row.studentId,
+      ensembleId(schoolIdByCode.get(row.schoolCode)!, row.ensemble),
+      row.instrument ?? null,
+    ]);
+  }
+  await session.load('import_students', stagedStudentColumns, students);
+  await session.load('import_seats', ['student_number', 'ensemble_id', 'instrument_id'], seats);
+  if (plan.options.withdrawMissing) {
+    const listed = new Set(plan.options.listedStudentIds ?? []);
+    for (const row of students) listed.add(row[0] as string);
+    await session.load(
+      'import_listed',
+      ['student_number'],
+      [...listed].map((number) => [number]),
+    );
+  }
+}
+
+/** Updates students whose columns differ, with one audit entry each; answers their ids. */
+async function updateStudents(session: SqlSession, plan: ImportPlan, userId: number | null) {
+  const columns = writtenStudentColumns(plan.parsed.mapping).map((entry) => entry.column);
+  const assignments = columns.map((column) => `${column} = i.${column}`).join(', ');
+  const current = columns.map((column) => `s.${column}`).join(', ');
+  const incoming = columns.map((column) => `i.${column}`).join(', ');
+  const numbers = await queryJson<string>(
+    session,
+    `with prior as (
+       select s.* from students s join import_students i on i.student_number = s.student_number
+       where (${current}, s.status) is distinct from (${incoming}, 'active')
+     ), changed as (
+       update students s set ${assignments}, status = 'active', version = s.version + 1, updated_at = now()
+       from prior p join import_students i on i.student_number = p.student_number
+       where s.id = p.id
+       returning s.*
+     ), moved as (
+       insert into school_moves (student_id, from_school_id, to_school_id, moved_by)
+       select p.id, p.school_id, c.school_id, $1::int from prior p join changed c on c.id = p.id
+       where p.school_id <> c.school_id
+     )
+     , audited as (
+       insert into audit_log (user_id, action, entity, entity_id, before, after)
+       select $1::int, 'update', 'student', c.id::text, to_jsonb(p), to_jsonb(c)
+       from changed c join prior p on p.id = c.id
+     )
+     select json_agg(student_number)::text as json from changed`,
+    [userId],
+  );
+  return new Set(numbers);
+}
+
+async function insertStudents(session: SqlSession) {
+  const numbers = await queryJson<string>(
+    session,
+    `with inserted as (
+       insert into students (${stagedStudentColumns.join(', ')})
+       select ${stagedStudentColumns.map((column) => `i.${column}`).join(', ')} from import_students i
+       where not exists (select 1 from students s where s.student_number = i.student_number)
+       returning student_number
+     )
+     select json_agg(student_number)::text as json from inserted`,
+  );
+  return new Set(numbers);
+}
+
+/** Seats each row's student in its ensemble for the year; answers the seats that changed. */
+async function seatStudents(session: SqlSession, schoolYearId: number) {
+  const seats = await queryJson<string>(
+    session,
+    `with seated as (
+       insert into enrollments (student_id, ensemble_id, school_year_id, instrument_id)
+       select s.id, a.ensemble_id, $1::int, a.instrument_id
+       from import_seats a join students s on s.student_number = a.student_number
+       on conflict (student_id, ensemble_id, school_year_id) do update
+         set instrument_id = coalesce(excluded.instrument_id, enrollments.instrument_id), active = true,
+           version = enrollments.version + 1, updated_at = now()
+         where (enrollments.instrument_id, enrollments.active)
+           is distinct from (coalesce(excluded.instrument_id, enrollments.instrument_id), true)
+       returning student_id, ensemble_id
+     )
+     select json_agg(s.student_number || ' ' || seated.ensemble_id)::text as json
+     from seated join students s on s.id = seated.student_id`,
+    [schoolYearId],
+  );
+  return new Set(seats);
+}
+
+/** Withdraws active students of the file's schools the file does not list; answers how many. */
+async function withdrawMissing(
+  session: SqlSession,
+  schoolIds: number[],
+  schoolYearId: number | null,
+  userId: number | null,
+) {
+  const [row] = await session.query<{ count: number }>(
+    `with gone as (
+       update students s set status = 'withdrawn', version = s.version + 1, updated_at = now()
+       where s.school_id = any($2::int[]) and s.status = 'active'
+         and not exists (select 1 from import_listed l where l.student_number = s.student_number)
+       returning s.id, s.student_number
+     ), unseated as (
+       update enrollments en set active = false, version = en.version + 1, updated_at = now()
+       from gone where en.student_id = gone.id and en.school_year_id = $3::int and en.active
+       returning en.id
+     )
+     , audited as (
+       insert into audit_log (user_id, action, entity, entity_id, before, after)
+       select $1::int, 'withdraw', 'student', gone.id::text, jsonb_build_object('status', 'active'),
+         jsonb_build_object('status', 'withdrawn', 'student_number', gone.student_number)
+       from gone
+     )
+     select count(*)::int as count from gone`,
+    [userId, schoolIds, schoolYearId],
+  );
+  return row!.count;
+}
+
+async function recordHistory(
+  session: SqlSession,
+  plan: ImportPlan,
+  result: ImportResult,
+  userId: number | null,
+  meta: ImportMeta,
+) {
+  const [row] = await session.query<{ id: number }>(
+    `insert into roster_imports (user_id, file_name, source, via, committed, rows, created, updated, unchanged, withdrawn, errors)
+     values ($1::int, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11::jsonb) returning id`,
+    [
+      userId,
+      meta.fileName,
+      plan.parsed.source,
+      meta.via,
+      result.committed,
+      result.rows,
+      result.created,
+      result.updated,
+      result.unchanged,
+      result.withdrawn,
+      JSON.stringify(result.errors),
+    ],
+  );
+  return row!.id;
+}
+
+/**
+ * Carries out a plan in ONE transaction, set-based: the rows are staged in temporary tables
+ * (COPY in PGlite, multi-row INSERTs on a server), then ensembles, students, seats and
+ * withdrawals are written with a handful of INSERT … SELECT and UPDATE … FROM statements that
+ * touch only rows that differ. The counts come from what the statements did, so a file imported
+ * twice reports every row unchanged the second time. A plan that cannot commit (errors without
+ * skip-invalid) writes only its history row. Also writes one summarising audit entry, plus one
+ * per updated or withdrawn student.
+ */
+export async function commitImport(
+  database: DatabaseHandle,
+  plan: ImportPlan,
+  actor: Actor | null,
+  meta: ImportMeta,
+): Promise<CommittedImport> {
+  const userId = actor?.userId ?? null;
+  return inSqlTransaction(database, async (session) => {
+    if (!plan.canCommit) {
+      const { rows, created, updated, unchanged, withdrawn } = plan.counts;
+      const result: ImportResult = {
+        rows,
+        created,
+        updated,
+        unchanged,
+        withdrawn,
+        errors: plan.errors,
+        committed: false,
+      };
+      return { ...result, importId: await recordHistory(session, plan, result, userId, meta) };
+    }
+    if (database.kind === 'postgres')
+      await session.query(`select pg_advisory_xact_lock(hashtext('tutti roster import'))`);
+    const schools = await session.query<{ id: number; code: string }>(
+      'select id, code from schools',
+    );
+    const schoolIdByCode = new Map(schools.map((school) => [school.code, school.id]));
+    const [year] = await session.query<{ id: number }>(
+      'select id from school_years where current order by starts_on desc limit 1',
+    );
+    const ensembles = await ensureEnsembles(session, plan, schoolIdByCode);
+    if (database.kind === 'pglite') await skipReferenceTriggers(session);
+    await createStagingTables(session);
+    await stage(session, plan, schoolIdByCode, ensembles.ensembleId);
+    const updated = await updateStudents(session, plan, userId);
+    const created = await insertStudents(session);
+    const seatChanges = year ? await seatStudents(session, year.id) : new Set<string>();
+    const schoolIds = plan.schoolCodes.map((code) => schoolIdByCode.get(code)!);
+    const withdrawn = plan.options.withdrawMissing
+      ? await withdrawMissing(session, schoolIds, year?.id ?? null, userId)
+      : 0;
+
+    const counts = { created: 0, updated: 0, unchanged: 0 };
+    for (const { row } of plan.parsed.rows) {
+      if (created.has(row.studentId)) counts.created += 1;
+      else if (updated.has(row.studentId)) counts.updated += 1;
+      else if (
+        row.ensemble &&
+        seatChanges.has(
+          `${row.studentId} ${ensembles.ensembleId(schoolIdByCode.get(row.schoolCode)!, row.ensemble)}`,
+        )
+      )
+        counts.updated += 1;
+      else counts.unchanged += 1;
+    }
+    const result: ImportResult = {
+      rows: plan.counts.rows,
+      ...counts,
+      withdrawn,
+      errors: plan.errors,
+      committed: true,
+    };
+    const importId = await recordHistory(session, plan, result, userId, meta);
+    await session.query(
+      `insert into audit_log (user_id, action, entity, entity_id, before, after) values ($1::int, 'import', 'roster_import', $2, null, $3::jsonb)`,
+      [
+        userId,
+        String(importId),
+        JSON.stringify({
+          fileName: meta.fileName,
+          via: meta.via,
+          rows: result.rows,
+          created: result.created,
+          updated: result.updated,
+          unchanged: result.unchanged,
+          withdrawn,
+          errors: result.errors.length,
+          newEnsembles: ensembles.created.map((row) => row.name),
+        }),
+      ],
+    );
+    return { ...result, importId };
+  });
+}

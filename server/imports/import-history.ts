@@ -1,0 +1,111 @@
+import { and, count, desc, eq, ilike, sql, type SQL } from 'drizzle-orm';
+import { z } from 'zod';
+import {
+  planListLimit,
+  type ImportDetail,
+  type ImportHistoryEntry,
+  type ImportRowError,
+} from '../../shared/api/import';
+import type { ListResponse } from '../../shared/api/list';
+import { csvField } from '../../shared/roster';
+import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { notFound } from '../core/errors';
+import type { Database } from '../db/client';
+import { rosterImports, users } from '../db/schema/index';
+
+const historyFilters = z.object({
+  committed: z.enum(['true', 'false']).optional(),
+  via: z.enum(['wizard', 'cli', 'api']).optional(),
+});
+
+const errorCount = sql<number>`jsonb_array_length(${rosterImports.errors})::int`;
+
+const historyColumns = {
+  id: rosterImports.id,
+  fileName: rosterImports.fileName,
+  source: rosterImports.source,
+  via: rosterImports.via,
+  committed: rosterImports.committed,
+  rows: rosterImports.rows,
+  created: rosterImports.created,
+  updated: rosterImports.updated,
+  unchanged: rosterImports.unchanged,
+  withdrawn: rosterImports.withdrawn,
+  errorCount,
+  userName: users.name,
+  createdAt: rosterImports.createdAt,
+};
+
+const sortable = {
+  createdAt: rosterImports.createdAt,
+  fileName: rosterImports.fileName,
+  rows: rosterImports.rows,
+  created: rosterImports.created,
+  updated: rosterImports.updated,
+  withdrawn: rosterImports.withdrawn,
+  errorCount,
+};
+
+type HistoryRow = Omit<ImportHistoryEntry, 'createdAt'> & { createdAt: Date };
+
+function toEntry(row: HistoryRow): ImportHistoryEntry {
+  return { ...row, createdAt: row.createdAt.toISOString() };
+}
+
+/** Past imports, newest first unless sorted otherwise, with the list contract. */
+export async function listImports(
+  db: Database,
+  query: unknown,
+): Promise<ListResponse<ImportHistoryEntry>> {
+  const list = parseListQuery(query, historyFilters);
+  const conditions: (SQL | undefined)[] = [];
+  if (list.q) conditions.push(ilike(rosterImports.fileName, likePattern(list.q)));
+  if (list.committed) conditions.push(eq(rosterImports.committed, list.committed === 'true'));
+  if (list.via) conditions.push(eq(rosterImports.via, list.via));
+  const where = and(...conditions);
+  const [rows, [total]] = await Promise.all([
+    db
+      .select(historyColumns)
+      .from(rosterImports)
+      .leftJoin(users, eq(users.id, rosterImports.userId))
+      .where(where)
+      .orderBy(...orderFor(list.sort, sortable, 'createdAt:desc', rosterImports.id))
+      .limit(list.limit)
+      .offset(list.offset),
+    db.select({ total: count() }).from(rosterImports).where(where),
+  ]);
+  return { rows: (rows as HistoryRow[]).map(toEntry), total: total!.total };
+}
+
+async function importRow(db: Database, id: number) {
+  const [row] = await db
+    .select({ ...historyColumns, errors: rosterImports.errors })
+    .from(rosterImports)
+    .leftJoin(users, eq(users.id, rosterImports.userId))
+    .where(eq(rosterImports.id, id))
+    .orderBy(desc(rosterImports.id));
+  if (!row) throw notFound('That import');
+  return row as HistoryRow & { errors: ImportRowError[] };
+}
+
+/** One past import with its first errors. */
+export async function getImport(db: Database, id: number): Promise<ImportDetail> {
+  const { errors, ...row } = await importRow(db, id);
+  return { ...toEntry(row), errors: errors.slice(0, planListLimit) };
+}
+
+/**
+ * An import's errors as CSV (line, column, message), every cell neutralised against
+ * spreadsheet formulas, CRLF line breaks per RFC 4180.
+ */
+export async function importErrorsCsv(
+  db: Database,
+  id: number,
+): Promise<{ fileName: string; csv: string }> {
+  const { errors } = await importRow(db, id);
+  const lines = ['line,column,message'];
+  for (const error of errors) {
+    lines.push([String(error.line), error.column, error.message].map(csvField).join(','));
+  }
+  return { fileName: `roster-import-${id}-errors.csv`, csv: `${lines.join('\r\n')}\r\n` };
+}

@@ -1,0 +1,271 @@
+import { formatGradeLevel, type ColumnMapping, type RosterRow } from '../../shared/roster';
+import type {
+  FieldChange,
+  PlannedEnsemble,
+  PlannedStudent,
+  PlannedUpdate,
+} from '../../shared/api/import';
+import type { Database } from '../db/client';
+import type { ParsedRoster, RowError } from './parse/parsed-roster';
+import { guessEnsembleKind } from './ensemble-kind';
+import { readRosterSnapshot, type ExistingStudent, type RosterSnapshot } from './roster-snapshot';
+
+/** How an import treats what the file leaves out and what it gets wrong. */
+export interface ImportOptions {
+  /** Mark active students of the file's schools who are not in the file as withdrawn. */
+  withdrawMissing: boolean;
+  /** Commit the valid rows when some rows have errors (otherwise nothing is committed). */
+  skipInvalid: boolean;
+  /** Every student id the file lists, valid row or not: none of them is ever withdrawn. */
+  listedStudentIds?: ReadonlySet<string>;
+}
+
+/** What an import would do, worked out against the database; {@link commitImport} carries it out. */
+export interface ImportPlan {
+  parsed: ParsedRoster;
+  options: ImportOptions;
+  /** The file's errors and any that stop the import as a whole. */
+  errors: RowError[];
+  /** Row counts: every valid row is created, updated or unchanged. */
+  counts: {
+    rows: number;
+    validRows: number;
+    created: number;
+    updated: number;
+    unchanged: number;
+    withdrawn: number;
+  };
+  createdStudents: PlannedStudent[];
+  updatedStudents: PlannedUpdate[];
+  withdrawnStudents: PlannedStudent[];
+  newEnsembles: PlannedEnsemble[];
+  /** The schools the valid rows are at. */
+  schoolCodes: string[];
+  /** Whether committing would write anything: no errors, or skip-invalid with valid rows left. */
+  canCommit: boolean;
+}
+
+/** A student field the import writes, and the column it lands in. */
+export interface StudentColumn {
+  field:
+    | 'firstName'
+    | 'lastName'
+    | 'preferredName'
+    | 'grade'
+    | 'schoolCode'
+    | 'guardianName'
+    | 'guardianEmail';
+  column: string;
+}
+
+const everyStudentColumn: readonly StudentColumn[] = [
+  { field: 'firstName', column: 'first_name' },
+  { field: 'lastName', column: 'last_name' },
+  { field: 'preferredName', column: 'preferred_name' },
+  { field: 'grade', column: 'grade' },
+  { field: 'schoolCode', column: 'school_id' },
+  { field: 'guardianName', column: 'guardian_name' },
+  { field: 'guardianEmail', column: 'guardian_email' },
+];
+
+/**
+ * The student columns an import compares and writes: the required ones always, an optional one
+ * only when the file has a column for it, so a file without guardians never erases them.
+ */
+export function writtenStudentColumns(mapping: ColumnMapping): StudentColumn[] {
+  const required = new Set(['firstName', 'lastName', 'grade', 'schoolCode']);
+  return everyStudentColumn.filter(({ field }) => required.has(field) || Boolean(mapping[field]));
+}
+
+/** The first valid row of each student: the one its student fields are taken from. */
+export function firstRowOfEachStudent(parsed: ParsedRoster): RosterRow[] {
+  const seen = new Map<string, RosterRow>();
+  for (const { row } of parsed.rows) if (!seen.has(row.studentId)) seen.set(row.studentId, row);
+  return [...seen.values()];
+}
+
+function plannedStudent(row: RosterRow): PlannedStudent {
+  const { studentId, firstName, lastName, schoolCode, grade } = row;
+  return { studentId, firstName, lastName, schoolCode, grade };
+}
+
+function existingAsPlanned(student: ExistingStudent, snapshot: RosterSnapshot): PlannedStudent {
+  return {
+    studentId: student.studentNumber,
+    firstName: student.firstName,
+    lastName: student.lastName,
+    schoolCode: snapshot.schoolCodeById.get(student.schoolId) ?? '',
+    grade: student.grade,
+  };
+}
+
+function studentChanges(
+  row: RosterRow,
+  existing: ExistingStudent,
+  columns: StudentColumn[],
+  snapshot: RosterSnapshot,
+): FieldChange[] {
+  const changes: FieldChange[] = [];
+  for (const { field } of columns) {
+    let before: string | null;
+    let after: string | null;
+    if (field === 'grade') {
+      before = formatGradeLevel(existing.grade);
+      after = formatGradeLevel(row.grade);
+    } else if (field === 'schoolCode') {
+      before = snapshot.schoolCodeById.get(existing.schoolId) ?? null;
+      after = row.schoolCode;
+    } else {
+      before = existing[field] ?? null;
+      after = row[field] ?? null;
+    }
+    if (before !== after) changes.push({ field, before, after });
+  }
+  if (existing.status !== 'active')
+    changes.push({ field: 'status', before: existing.status, after: 'active' });
+  return changes;
+}
+
+/**
+ * Works out what importing the parsed rows would do, diffing by the district's student id:
+ * which rows create students, which change them (field by field, seats included), which change
+ * nothing, which ensembles would be created, and (with `withdrawMissing`) which active students
+ * of the file's schools the file leaves out. Reads the database in a few set-based queries and
+ * writes nothing.
+ */
+export async function planImport(
+  db: Database,
+  parsed: ParsedRoster,
+  options: ImportOptions,
+): Promise<ImportPlan> {
+  const students = firstRowOfEachStudent(parsed);
+  const schoolCodes = [...new Set(students.map((row) => row.schoolCode))].sort();
+  const snapshot = await readRosterSnapshot(
+    db,
+    students.map((row) => row.studentId),
+    schoolCodes,
+    options.withdrawMissing,
+  );
+  const errors = [...parsed.errors];
+  const unknownSchools = schoolCodes.filter((code) => !snapshot.schoolIdByCode.has(code));
+  for (const code of unknownSchools) {
+    errors.unshift({
+      line: 0,
+      column: '',
+      message: `School code '${code}' is not one of the district's schools.`,
+    });
+  }
+  const withSeats = Boolean(parsed.mapping.ensemble) && parsed.rows.some(({ row }) => row.ensemble);
+  if (withSeats && !snapshot.schoolYear) {
+    errors.unshift({
+      line: 0,
+      column: '',
+      message:
+        'No school year is marked current, so the rows’ ensembles have no year to be seated in; set the current school year first.',
+    });
+  }
+
+  const columns = writtenStudentColumns(parsed.mapping);
+  const createdStudents: PlannedStudent[] = [];
+  const updatedStudents: PlannedUpdate[] = [];
+  const changesOf = new Map<string, FieldChange[]>();
+  for (const row of students) {
+    const existing = snapshot.students.get(row.studentId);
+    if (!existing) {
+      createdStudents.push(plannedStudent(row));
+      continue;
+    }
+    changesOf.set(row.studentId, studentChanges(row, existing, columns, snapshot));
+  }
+
+  const newEnsembles = new Map<string, PlannedEnsemble>();
+  const rowClass: ('created' | 'updated' | 'unchanged')[] = [];
+  for (const { row } of parsed.rows) {
+    const changes = changesOf.get(row.studentId);
+    if (!changes) {
+      rowClass.push('created');
+    }
+    let seatChanged = false;
+    if (row.ensemble) {
+      const schoolId = snapshot.schoolIdByCode.get(row.schoolCode);
+      const ensemble =
+        schoolId === undefined
+          ? undefined
+          : snapshot.ensembles.get(schoolId)?.get(row.ensemble.toLowerCase());
+      if (!ensemble) {
+        const key = `${row.schoolCode}\u0000${row.ensemble.toLowerCase()}`;
+        if (!newEnsembles.has(key)) {
+          newEnsembles.set(key, {
+            schoolCode: row.schoolCode,
+            name: row.ensemble,
+            kind: guessEnsembleKind(row.ensemble),
+          });
+        }
+        seatChanged = true;
+        changes?.push({ field: 'ensemble', before: null, after: row.ensemble });
+      } else {
+        const seat = snapshot.seats.get(row.studentId)?.get(ensemble.id);
+        if (!seat || !seat.active) {
+          seatChanged = true;
+          changes?.push({ field: 'ensemble', before: null, after: ensemble.name });
+        } else if (row.instrument && row.instrument !== seat.instrumentId) {
+          seatChanged = true;
+          changes?.push({
+            field: 'instrument',
+            ensemble: ensemble.name,
+            before: seat.instrumentId,
+            after: row.instrument,
+          });
+        }
+      }
+    }
+    if (changes) rowClass.push(seatChanged || hasStudentChange(changes) ? 'updated' : 'unchanged');
+  }
+  for (const row of students) {
+    const changes = changesOf.get(row.studentId);
+    if (changes && changes.length > 0) updatedStudents.push({ ...plannedStudent(row), changes });
+  }
+
+  const withdrawnStudents: PlannedStudent[] = [];
+  if (options.withdrawMissing) {
+    const inFile = new Set(students.map((row) => row.studentId));
+    const schoolIds = new Set(schoolCodes.map((code) => snapshot.schoolIdByCode.get(code)));
+    for (const student of snapshot.students.values()) {
+      if (student.status !== 'active' || !schoolIds.has(student.schoolId)) continue;
+      if (inFile.has(student.studentNumber) || options.listedStudentIds?.has(student.studentNumber))
+        continue;
+      withdrawnStudents.push(existingAsPlanned(student, snapshot));
+    }
+    withdrawnStudents.sort((first, second) => first.studentId.localeCompare(second.studentId));
+  }
+
+  const count = (kind: (typeof rowClass)[number]) =>
+    rowClass.filter((entry) => entry === kind).length;
+  const blocking = errors.some((error) => error.line === 0);
+  const canCommit =
+    !blocking && parsed.rows.length > 0 && (errors.length === 0 || options.skipInvalid);
+  return {
+    parsed,
+    options,
+    errors,
+    counts: {
+      rows: parsed.totalRows,
+      validRows: parsed.rows.length,
+      created: count('created'),
+      updated: count('updated'),
+      unchanged: count('unchanged'),
+      withdrawn: withdrawnStudents.length,
+    },
+    createdStudents,
+    updatedStudents,
+    withdrawnStudents,
+    newEnsembles: [...newEnsembles.values()],
+    schoolCodes,
+    canCommit,
+  };
+}
+
+// A row of a student whose own fields change is an updated row, whichever ensemble it is for.
+function hasStudentChange(changes: FieldChange[]): boolean {
+  return changes.some((change) => change.field !== 'ensemble' && change.field !== 'instrument');
+}

@@ -1,0 +1,142 @@
+import { Router, type RequestHandler } from 'express';
+import multer from 'multer';
+import path from 'node:path';
+import {
+  commitRequestSchema,
+  importPresetInputSchema,
+  largestRosterUpload,
+  previewFieldsSchema,
+} from '../../shared/api/import';
+import { HttpError, badRequest } from '../core/errors';
+import { actorOf, requires } from '../core/policy';
+import { parseId, parseInput } from '../core/validate';
+import type { Services } from '../services';
+import { getImport, importErrorsCsv, listImports } from './import-history';
+import { importPreview } from './import-preview';
+import { deletePreset, listPresets, savePreset } from './import-presets';
+import { importRoster, planUpload } from './import-service';
+import { UploadStore } from './upload-store';
+
+const megabytes = largestRosterUpload / (1024 * 1024);
+
+/** multer, with its refusals (too large, wrong field, broken multipart) answered as 4xx. */
+function rosterUpload(): RequestHandler {
+  const single = multer({
+    storage: multer.memoryStorage(),
+    limits: { fileSize: largestRosterUpload, files: 1, fields: 10, fieldSize: 100_000 },
+  }).single('file');
+  return (request, response, next) => {
+    single(request, response, (error: unknown) => {
+      if (!error) return next();
+      if (error instanceof multer.MulterError && error.code === 'LIMIT_FILE_SIZE') {
+        return next(
+          new HttpError(
+            413,
+            'too_large',
+            `The file is larger than ${megabytes} MB; a roster upload can be at most ${megabytes} MB.`,
+          ),
+        );
+      }
+      const reason = error instanceof Error ? error.message : String(error);
+      next(
+        badRequest(
+          `The upload could not be read (${reason}); send the roster as the form field 'file'.`,
+        ),
+      );
+    });
+  };
+}
+
+/** The name an upload is shown under: its base name, cut to a sensible length. */
+function cleanFileName(name: string | undefined): string {
+  const base = path
+    .basename((name ?? '').replaceAll('\\', '/'))
+    .replace(/[\u0000-\u001f\u007f]/g, '');
+  return base.slice(0, 200) || 'roster.csv';
+}
+
+/**
+ * `/api/imports`: the coordinator previews a roster upload (kept 30 minutes under a token),
+ * commits it, reads the history and its error reports, and keeps named column mappings.
+ */
+export function importsRoutes({ config, db, database }: Services): Router {
+  const router = Router();
+  const uploads = new UploadStore(path.join(config.dataDir, 'imports'));
+  const runs = requires('imports:run');
+
+  router.post('/imports/preview', runs, rosterUpload(), async (request, response) => {
+    const actor = actorOf(request);
+    if (!request.file)
+      throw badRequest("Choose a roster file to upload (the form field 'file').", [
+        { field: 'file', message: 'Choose a file.' },
+      ]);
+    const fields = parseInput(previewFieldsSchema, request.body ?? {}, 'The upload');
+    const bytes = new Uint8Array(
+      request.file.buffer.buffer,
+      request.file.buffer.byteOffset,
+      request.file.buffer.byteLength,
+    );
+    const fileName = cleanFileName(request.file.originalname);
+    const token = await uploads.save({ fileName, userId: actor.userId }, bytes);
+    const plan = await planUpload(database, {
+      upload: { fileName, bytes },
+      mapping: fields.mapping,
+      withdrawMissing: fields.withdrawMissing,
+      skipInvalid: false,
+    });
+    response.json(importPreview({ token, fileName, bytes }, plan));
+  });
+
+  router.post('/imports/commit', runs, async (request, response) => {
+    const actor = actorOf(request);
+    const input = parseInput(commitRequestSchema, request.body, 'The commit');
+    const stored = await uploads.open(input.importToken, actor.userId);
+    if (!stored) {
+      throw new HttpError(
+        410,
+        'expired',
+        'This upload is no longer kept (uploads wait 30 minutes for their commit); upload the file again.',
+      );
+    }
+    const { result } = await importRoster(
+      database,
+      {
+        upload: { fileName: stored.fileName, bytes: stored.bytes },
+        mapping: input.mapping,
+        withdrawMissing: input.withdrawMissing,
+        skipInvalid: input.skipInvalid,
+      },
+      actor,
+      { fileName: stored.fileName, via: actor.via === 'token' ? 'api' : 'wizard' },
+    );
+    if (result.committed) await uploads.remove(input.importToken);
+    response.json(result);
+  });
+
+  router.get('/imports', runs, async (request, response) => {
+    response.json(await listImports(db, request.query));
+  });
+
+  router.get('/imports/presets', runs, async (_request, response) => {
+    response.json(await listPresets(db));
+  });
+  router.post('/imports/presets', runs, async (request, response) => {
+    const input = parseInput(importPresetInputSchema, request.body, 'The preset');
+    response.status(201).json(await savePreset(db, actorOf(request), input));
+  });
+  router.delete('/imports/presets/:id', runs, async (request, response) => {
+    await deletePreset(db, actorOf(request), parseId(request.params['id']));
+    response.status(204).end();
+  });
+
+  router.get('/imports/:id', runs, async (request, response) => {
+    response.json(await getImport(db, parseId(request.params['id'])));
+  });
+  router.get('/imports/:id/errors.csv', runs, async (request, response) => {
+    const { fileName, csv } = await importErrorsCsv(db, parseId(request.params['id']));
+    response.type('text/csv; charset=utf-8');
+    response.attachment(fileName);
+    response.send(`\uFEFF${csv}`);
+  });
+  return router;
+}

@@ -1,0 +1,125 @@
+import { sql, type SQL } from 'drizzle-orm';
+import { rowsOf, type Database } from '../db/client';
+
+/** A student as the database holds it, with the fields an import compares. */
+export interface ExistingStudent {
+  id: number;
+  studentNumber: string;
+  firstName: string;
+  lastName: string;
+  preferredName: string | null;
+  grade: number;
+  schoolId: number;
+  status: 'active' | 'withdrawn';
+  guardianName: string | null;
+  guardianEmail: string | null;
+}
+
+/** A seat of the current school year. */
+export interface ExistingSeat {
+  instrumentId: string | null;
+  active: boolean;
+}
+
+/** The part of the database an import is compared against, read in a few set-based queries. */
+export interface RosterSnapshot {
+  schoolYear: { id: number; name: string } | null;
+  schoolIdByCode: Map<string, number>;
+  schoolCodeById: Map<number, string>;
+  /** The file's students and, when asked, every student of the file's schools; by student id. */
+  students: Map<string, ExistingStudent>;
+  /** Each school's ensembles by name in lower case. */
+  ensembles: Map<number, Map<string, { id: number; name: string }>>;
+  /** Current-year seats of the file's students: student id → ensemble id → seat. */
+  seats: Map<string, Map<number, ExistingSeat>>;
+}
+
+/**
+ * The rows of a query, fetched as one JSON text: PGlite decodes a result row by row in
+ * JavaScript, which for tens of thousands of rows costs far more than the query itself.
+ */
+export async function jsonRows<Row>(db: Database, query: SQL): Promise<Row[]> {
+  const [row] = rowsOf<{ json: string }>(
+    await db.execute(sql`select coalesce(json_agg(q), '[]')::text as json from (${query}) q`),
+  );
+  return JSON.parse(row!.json) as Row[];
+}
+
+/** The district's school codes, which a roster's rows must name. */
+export async function districtSchoolCodes(db: Database): Promise<Set<string>> {
+  const rows = rowsOf<{ code: string }>(await db.execute(sql`select code from schools`));
+  return new Set(rows.map((row) => row.code));
+}
+
+/** Reads what an import of these students at these schools is compared against. */
+export async function readRosterSnapshot(
+  db: Database,
+  studentNumbers: string[],
+  schoolCodes: string[],
+  withSchoolsStudents: boolean,
+): Promise<RosterSnapshot> {
+  const schools = rowsOf<{ id: number; code: string }>(
+    await db.execute(sql`select id, code from schools`),
+  );
+  const schoolIdByCode = new Map(schools.map((school) => [school.code, school.id]));
+  const schoolCodeById = new Map(schools.map((school) => [school.id, school.code]));
+  const schoolIds = schoolCodes.flatMap((code) => schoolIdByCode.get(code) ?? []);
+  const [year] = rowsOf<{ id: number; name: string }>(
+    await db.execute(
+      sql`select id, name from school_years where current order by starts_on desc limit 1`,
+    ),
+  );
+  const numbers = sql.param(studentNumbers);
+  const atSchools = sql.param(withSchoolsStudents ? schoolIds : []);
+  const studentRows = await jsonRows<ExistingStudent>(
+    db,
+    sql`
+      select s.id, s.student_number as "studentNumber", s.first_name as "firstName",
+        s.last_name as "lastName", s.preferred_name as "preferredName", s.grade,
+        s.school_id as "schoolId", s.status, s.guardian_name as "guardianName",
+        s.guardian_email as "guardianEmail"
+      from students s join unnest(${numbers}::text[]) as listed (number) on listed.number = s.student_number
+      union all
+      select s.id, s.student_number, s.first_name, s.last_name, s.preferred_name, s.grade,
+        s.school_id, s.status, s.guardian_name, s.guardian_email
+      from students s where s.school_id = any(${atSchools}::int[])`,
+  );
+  const ensembleRows = rowsOf<{ id: number; schoolId: number; name: string }>(
+    await db.execute(sql`
+      select id, school_id as "schoolId", name from ensembles
+      where school_id = any(${sql.param(schoolIds)}::int[]) order by id`),
+  );
+  const seatRows = year
+    ? await jsonRows<ExistingSeat & { studentNumber: string; ensembleId: number }>(
+        db,
+        sql`
+          select s.student_number as "studentNumber", en.ensemble_id as "ensembleId",
+            en.instrument_id as "instrumentId", en.active
+          from enrollments en join students s on s.id = en.student_id
+            join unnest(${numbers}::text[]) as listed (number) on listed.number = s.student_number
+          where en.school_year_id = ${year.id}`,
+      )
+    : [];
+
+  const ensembles = new Map<number, Map<string, { id: number; name: string }>>();
+  for (const row of ensembleRows) {
+    const byName = ensembles.get(row.schoolId) ?? new Map();
+    const key = row.name.toLowerCase();
+    if (!byName.has(key)) byName.set(key, { id: row.id, name: row.name });
+    ensembles.set(row.schoolId, byName);
+  }
+  const seats = new Map<string, Map<number, ExistingSeat>>();
+  for (const row of seatRows) {
+    const byEnsemble = seats.get(row.studentNumber) ?? new Map<number, ExistingSeat>();
+    byEnsemble.set(row.ensembleId, { instrumentId: row.instrumentId, active: row.active });
+    seats.set(row.studentNumber, byEnsemble);
+  }
+  return {
+    schoolYear: year ?? null,
+    schoolIdByCode,
+    schoolCodeById,
+    students: new Map(studentRows.map((row) => [row.studentNumber, row])),
+    ensembles,
+    seats,
+  };
+}
