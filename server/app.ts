@@ -18,6 +18,10 @@ import { signInLimit, tokenLimits } from './core/rate-limits';
 import { meRoutes } from './me/me-routes';
 import { schoolsRoutes } from './schools/schools-routes';
 import { tokensRoutes } from './tokens/tokens-routes';
+import { studentsRoutes } from './students/students-routes';
+import { ensemblesRoutes } from './ensembles/ensembles-routes';
+import { enrollmentsRoutes } from './enrollments/enrollments-routes';
+import { gridPreferencesRoutes } from './grid-preferences/grid-preferences-routes';
 import { localCommandRoutes } from './cli/local-command-routes';
 import { importsRoutes } from './imports/imports-routes';
 import { outboxRoutes } from './mail/outbox-routes';
@@ -37,7 +41,7 @@ export interface AppOptions {
 }
 
 /** The feature routers, each mounted under /api. */
-const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes, importsRoutes];
+const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes, importsRoutes, studentsRoutes, ensemblesRoutes, enrollmentsRoutes, gridPreferencesRoutes];
 
 /** Builds the Express app: security headers, sessions, sign-in, the API and the web app. */
 export async function createApp(config: Config, options: AppOptions): Promise<Express> {

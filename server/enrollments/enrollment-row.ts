@@ -1,0 +1,39 @@
+import type { Enrollment } from '../../shared/api/enrollment';
+import { enrollments, ensembles, schoolYears, schools, students } from '../db/schema/index';
+import { instrumentName } from './instrument-order';
+
+/** The columns every enrollment answer selects: the seat, its student, ensemble and year. */
+export const enrollmentColumns = {
+  id: enrollments.id,
+  studentId: enrollments.studentId,
+  studentNumber: students.studentNumber,
+  firstName: students.firstName,
+  lastName: students.lastName,
+  preferredName: students.preferredName,
+  ensembleId: enrollments.ensembleId,
+  ensembleName: ensembles.name,
+  schoolId: ensembles.schoolId,
+  schoolCode: schools.code,
+  schoolYearId: enrollments.schoolYearId,
+  schoolYearName: schoolYears.name,
+  instrumentId: enrollments.instrumentId,
+  part: enrollments.part,
+  chair: enrollments.chair,
+  active: enrollments.active,
+  version: enrollments.version,
+  updatedAt: enrollments.updatedAt,
+};
+
+/** One selected enrollment row. */
+export type EnrollmentRecord = Omit<Enrollment, 'instrumentName' | 'updatedAt'> & {
+  updatedAt: Date;
+};
+
+/** An enrollment as the API answers it. */
+export function toEnrollment(record: EnrollmentRecord): Enrollment {
+  return {
+    ...record,
+    instrumentName: instrumentName(record.instrumentId),
+    updatedAt: record.updatedAt.toISOString(),
+  };
+}

@@ -1,0 +1,75 @@
+import { and, asc, count, desc, eq, ilike, or, type AnyColumn, type SQL } from 'drizzle-orm';
+import { enrollmentFiltersSchema, type Enrollment } from '../../shared/api/enrollment';
+import type { ListResponse } from '../../shared/api/list';
+import type { Database } from '../db/client';
+import { enrollments, ensembles, schoolYears, schools, students } from '../db/schema/index';
+import { badRequest } from '../core/errors';
+import { likePattern, parseListQuery } from '../core/list-query';
+import type { Actor } from '../core/policy';
+import { ensembleScope } from '../ensembles/ensembles-list';
+import { enrollmentColumns, toEnrollment } from './enrollment-row';
+
+const sortOrders: Record<string, AnyColumn[]> = {
+  lastName: [students.lastName, students.firstName, enrollments.id],
+  ensemble: [ensembles.name, students.lastName, students.firstName, enrollments.id],
+  instrument: [enrollments.instrumentId, enrollments.chair, students.lastName, enrollments.id],
+  chair: [enrollments.chair, students.lastName, enrollments.id],
+  updatedAt: [enrollments.updatedAt, enrollments.id],
+};
+
+function orderBy(sort: string | undefined): SQL[] {
+  const [field, direction] = (sort ?? 'lastName:asc').split(':') as [string, 'asc' | 'desc'];
+  const columns = sortOrders[field];
+  if (!columns) {
+    throw badRequest(
+      `Cannot sort by '${field}'. Sort by one of: ${Object.keys(sortOrders).join(', ')}.`,
+      [{ field: 'sort', message: `Unknown field '${field}'.` }],
+    );
+  }
+  return columns.map((column) => (direction === 'desc' ? desc(column) : asc(column)));
+}
+
+/** The seats in the actor's schools' ensembles, filtered, searched by student name, paged. */
+export async function listEnrollments(
+  db: Database,
+  actor: Actor,
+  query: unknown,
+): Promise<ListResponse<Enrollment>> {
+  const list = parseListQuery(query, enrollmentFiltersSchema);
+  const pattern = list.q ? likePattern(list.q) : undefined;
+  const where = and(
+    ensembleScope(actor),
+    pattern
+      ? or(
+          ilike(students.lastName, pattern),
+          ilike(students.firstName, pattern),
+          ilike(students.preferredName, pattern),
+          ilike(students.studentNumber, pattern),
+        )
+      : undefined,
+    list.studentId !== undefined ? eq(enrollments.studentId, list.studentId) : undefined,
+    list.ensembleId !== undefined ? eq(enrollments.ensembleId, list.ensembleId) : undefined,
+    list.schoolYearId !== undefined ? eq(enrollments.schoolYearId, list.schoolYearId) : undefined,
+    list.active !== undefined ? eq(enrollments.active, list.active) : undefined,
+  );
+  const [records, [total]] = await Promise.all([
+    db
+      .select(enrollmentColumns)
+      .from(enrollments)
+      .innerJoin(students, eq(students.id, enrollments.studentId))
+      .innerJoin(ensembles, eq(ensembles.id, enrollments.ensembleId))
+      .innerJoin(schools, eq(schools.id, ensembles.schoolId))
+      .innerJoin(schoolYears, eq(schoolYears.id, enrollments.schoolYearId))
+      .where(where)
+      .orderBy(...orderBy(list.sort))
+      .limit(list.limit)
+      .offset(list.offset),
+    db
+      .select({ total: count() })
+      .from(enrollments)
+      .innerJoin(students, eq(students.id, enrollments.studentId))
+      .innerJoin(ensembles, eq(ensembles.id, enrollments.ensembleId))
+      .where(where),
+  ]);
+  return { rows: records.map(toEnrollment), total: total!.total };
+}

@@ -1,0 +1,28 @@
+import { eq } from 'drizzle-orm';
+import type { Database, Transaction } from '../db/client';
+import { schoolYears } from '../db/schema/index';
+import { badRequest } from '../core/errors';
+
+/** The school year marked current, or undefined before one is set up. */
+export async function findCurrentSchoolYear(
+  db: Database | Transaction,
+): Promise<{ id: number; name: string } | undefined> {
+  const [year] = await db
+    .select({ id: schoolYears.id, name: schoolYears.name })
+    .from(schoolYears)
+    .where(eq(schoolYears.current, true))
+    .orderBy(schoolYears.startsOn)
+    .limit(1);
+  return year;
+}
+
+/** The current school year; a 400 when the district has none marked current. */
+export async function currentSchoolYear(
+  db: Database | Transaction,
+): Promise<{ id: number; name: string }> {
+  const year = await findCurrentSchoolYear(db);
+  if (!year) {
+    throw badRequest('No school year is marked current; the coordinator sets one up first.');
+  }
+  return year;
+}

@@ -1,0 +1,74 @@
+import {
+  and,
+  asc,
+  count,
+  desc,
+  eq,
+  ilike,
+  inArray,
+  sql,
+  type AnyColumn,
+  type SQL,
+} from 'drizzle-orm';
+import { ensembleFiltersSchema, type Ensemble } from '../../shared/api/ensemble';
+import type { ListResponse } from '../../shared/api/list';
+import type { Database } from '../db/client';
+import { ensembles, schools, users } from '../db/schema/index';
+import { badRequest } from '../core/errors';
+import { likePattern, parseListQuery } from '../core/list-query';
+import { schoolScope, type Actor } from '../core/policy';
+import { ensembleColumns, memberCount, toEnsemble, type EnsembleRecord } from './ensemble-row';
+
+const sortOrders: Record<string, (AnyColumn | SQL)[]> = {
+  name: [ensembles.name, schools.code, ensembles.id],
+  school: [schools.code, ensembles.name, ensembles.id],
+  kind: [ensembles.kind, ensembles.name, ensembles.id],
+  memberCount: [memberCount, ensembles.name, ensembles.id],
+};
+
+function orderBy(sort: string | undefined): SQL[] {
+  const [field, direction] = (sort ?? 'name:asc').split(':') as [string, 'asc' | 'desc'];
+  const columns = sortOrders[field];
+  if (!columns) {
+    throw badRequest(
+      `Cannot sort by '${field}'. Sort by one of: ${Object.keys(sortOrders).join(', ')}.`,
+      [{ field: 'sort', message: `Unknown field '${field}'.` }],
+    );
+  }
+  return columns.map((column) => (direction === 'desc' ? desc(column) : asc(column)));
+}
+
+/** The scope condition on ensembles: their school is one of the actor's. */
+export function ensembleScope(actor: Actor): SQL | undefined {
+  const scope = schoolScope(actor);
+  if (scope === 'all') return undefined;
+  return scope.length ? inArray(ensembles.schoolId, scope) : sql`false`;
+}
+
+/** The ensembles the actor may see, searched by name, filtered, sorted and paged. */
+export async function listEnsembles(
+  db: Database,
+  actor: Actor,
+  query: unknown,
+): Promise<ListResponse<Ensemble>> {
+  const list = parseListQuery(query, ensembleFiltersSchema);
+  const where = and(
+    ensembleScope(actor),
+    list.q ? ilike(ensembles.name, likePattern(list.q)) : undefined,
+    list.schoolId !== undefined ? eq(ensembles.schoolId, list.schoolId) : undefined,
+    list.kind ? eq(ensembles.kind, list.kind) : undefined,
+  );
+  const [records, [total]] = await Promise.all([
+    db
+      .select(ensembleColumns)
+      .from(ensembles)
+      .innerJoin(schools, eq(schools.id, ensembles.schoolId))
+      .leftJoin(users, eq(users.id, ensembles.directorUserId))
+      .where(where)
+      .orderBy(...orderBy(list.sort))
+      .limit(list.limit)
+      .offset(list.offset),
+    db.select({ total: count() }).from(ensembles).where(where),
+  ]);
+  return { rows: (records as EnsembleRecord[]).map(toEnsemble), total: total!.total };
+}

@@ -1,0 +1,212 @@
+import { and, desc, eq, sql } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/pg-core';
+import type {
+  StudentDetail,
+  StudentEnrollment,
+  StudentInput,
+  StudentPatch,
+} from '../../shared/api/student';
+import type { Database, Transaction } from '../db/client';
+import {
+  enrollments,
+  ensembles,
+  schoolMoves,
+  schoolYears,
+  schools,
+  students,
+  users,
+} from '../db/schema/index';
+import { recordAudit } from '../core/audit';
+import { badRequest, notFound } from '../core/errors';
+import { assertInScope, type Actor } from '../core/policy';
+import { updateVersioned } from '../core/versioned-update';
+import { instrumentName } from '../enrollments/instrument-order';
+import { findCurrentSchoolYear } from '../enrollments/school-year';
+import { seatSummaries } from './student-seats';
+import { studentColumns, toStudent, type StudentRecord } from './student-row';
+
+const what = 'That student';
+
+/**
+ * The student row, when the actor may see it: staff within their schools, a student only
+ * their own row. Anything else is a 404, as if the row did not exist.
+ */
+export async function findVisibleStudent(
+  db: Database | Transaction,
+  actor: Actor,
+  id: number,
+): Promise<StudentRecord> {
+  if (actor.role === 'student' && actor.studentId !== id) throw notFound(what);
+  const [record] = await db
+    .select(studentColumns)
+    .from(students)
+    .innerJoin(schools, eq(schools.id, students.schoolId))
+    .where(eq(students.id, id));
+  if (!record) throw notFound(what);
+  if (actor.role !== 'student') assertInScope(actor, record.schoolId, what);
+  return record;
+}
+
+const fromSchool = alias(schools, 'from_school');
+const toSchool = alias(schools, 'to_school');
+
+async function currentSeats(
+  db: Database,
+  studentId: number,
+  schoolYearId: number | undefined,
+): Promise<StudentEnrollment[]> {
+  if (schoolYearId === undefined) return [];
+  const rows = await db
+    .select({
+      id: enrollments.id,
+      ensembleId: enrollments.ensembleId,
+      ensembleName: ensembles.name,
+      schoolYearId: enrollments.schoolYearId,
+      schoolYearName: schoolYears.name,
+      instrumentId: enrollments.instrumentId,
+      part: enrollments.part,
+      chair: enrollments.chair,
+      active: enrollments.active,
+      version: enrollments.version,
+    })
+    .from(enrollments)
+    .innerJoin(ensembles, eq(ensembles.id, enrollments.ensembleId))
+    .innerJoin(schoolYears, eq(schoolYears.id, enrollments.schoolYearId))
+    .where(
+      and(
+        eq(enrollments.studentId, studentId),
+        eq(enrollments.schoolYearId, schoolYearId),
+        eq(enrollments.active, true),
+      ),
+    )
+    .orderBy(ensembles.name);
+  return rows.map((row) => ({ ...row, instrumentName: instrumentName(row.instrumentId) }));
+}
+
+async function movesOf(db: Database, studentId: number): Promise<StudentDetail['moves']> {
+  const rows = await db
+    .select({
+      id: schoolMoves.id,
+      fromId: fromSchool.id,
+      fromCode: fromSchool.code,
+      fromName: fromSchool.name,
+      toId: toSchool.id,
+      toCode: toSchool.code,
+      toName: toSchool.name,
+      movedAt: schoolMoves.movedAt,
+      movedByName: users.name,
+    })
+    .from(schoolMoves)
+    .leftJoin(fromSchool, eq(fromSchool.id, schoolMoves.fromSchoolId))
+    .innerJoin(toSchool, eq(toSchool.id, schoolMoves.toSchoolId))
+    .leftJoin(users, eq(users.id, schoolMoves.movedBy))
+    .where(eq(schoolMoves.studentId, studentId))
+    .orderBy(desc(schoolMoves.movedAt), desc(schoolMoves.id));
+  return rows.map((row) => ({
+    id: row.id,
+    fromSchool:
+      row.fromId === null ? null : { id: row.fromId, code: row.fromCode!, name: row.fromName! },
+    toSchool: { id: row.toId, code: row.toCode, name: row.toName },
+    movedAt: row.movedAt.toISOString(),
+    movedByName: row.movedByName,
+  }));
+}
+
+/** One student with their school, current seats and moves between schools. */
+export async function getStudent(db: Database, actor: Actor, id: number): Promise<StudentDetail> {
+  const record = await findVisibleStudent(db, actor, id);
+  const year = await findCurrentSchoolYear(db);
+  const [seats, enrollmentRows, moves] = await Promise.all([
+    seatSummaries(db, [id], year?.id),
+    currentSeats(db, id, year?.id),
+    movesOf(db, id),
+  ]);
+  return {
+    ...toStudent(record, seats(id), actor),
+    school: { id: record.schoolId, code: record.schoolCode, name: record.schoolName },
+    enrollments: enrollmentRows,
+    moves,
+  };
+}
+
+async function assertStudentNumberFree(
+  db: Database | Transaction,
+  studentNumber: string,
+  exceptId?: number,
+) {
+  const [clash] = await db
+    .select({ id: students.id })
+    .from(students)
+    .where(sql`lower(${students.studentNumber}) = ${studentNumber.toLowerCase()}`);
+  if (clash && clash.id !== exceptId) {
+    throw badRequest(`The student id ${studentNumber} is already on the roster.`, [
+      { field: 'studentNumber', message: `${studentNumber} is already another student's id.` },
+    ]);
+  }
+}
+
+/** Adds a student to a school the actor works with. */
+export async function createStudent(
+  db: Database,
+  actor: Actor,
+  input: StudentInput,
+): Promise<StudentDetail> {
+  assertInScope(actor, input.schoolId, 'That school');
+  const [school] = await db
+    .select({ id: schools.id })
+    .from(schools)
+    .where(eq(schools.id, input.schoolId));
+  if (!school) {
+    throw badRequest('There is no such school.', [
+      { field: 'schoolId', message: 'Choose one of the district’s schools.' },
+    ]);
+  }
+  const id = await db.transaction(async (tx) => {
+    await assertStudentNumberFree(tx, input.studentNumber);
+    const [row] = await tx
+      .insert(students)
+      .values({ ...input, status: input.status ?? 'active' })
+      .returning();
+    await recordAudit(tx, actor, {
+      action: 'create',
+      entity: 'student',
+      entityId: row!.id,
+      after: row,
+    });
+    return row!.id;
+  });
+  return getStudent(db, actor, id);
+}
+
+/**
+ * Changes a student's details (or withdraws them), refusing a stale version. A school other
+ * than the current one is refused: changing school is a move, which keeps the history.
+ */
+export async function updateStudent(
+  db: Database,
+  actor: Actor,
+  id: number,
+  patch: StudentPatch,
+  requestedSchoolId?: unknown,
+): Promise<StudentDetail> {
+  const { version, ...changes } = patch;
+  await db.transaction(async (tx) => {
+    const record = await findVisibleStudent(tx, actor, id);
+    if (requestedSchoolId !== undefined && requestedSchoolId !== record.schoolId) {
+      throw badRequest('A change of school is a move: POST /api/students/:id/move.', [
+        { field: 'schoolId', message: 'Move the student to change their school.' },
+      ]);
+    }
+    if (changes.studentNumber) await assertStudentNumberFree(tx, changes.studentNumber, id);
+    const [before] = await tx.select().from(students).where(eq(students.id, id));
+    const after = await updateVersioned(tx, students, id, version, changes, what);
+    await recordAudit(tx, actor, {
+      action: 'update',
+      entity: 'student',
+      entityId: id,
+      before,
+      after,
+    });
+  });
+  return getStudent(db, actor, id);
+}
