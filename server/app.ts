@@ -25,6 +25,7 @@ import { gridPreferencesRoutes } from './grid-preferences/grid-preferences-route
 import { localCommandRoutes } from './cli/local-command-routes';
 import { importsRoutes } from './imports/imports-routes';
 import { outboxRoutes } from './mail/outbox-routes';
+import { reportsRoutes } from './reports/reports-routes';
 import { startBackgroundWork } from './reports/background-work';
 
 /** Where the production build of the Angular app lands. */
@@ -41,7 +42,7 @@ export interface AppOptions {
 }
 
 /** The feature routers, each mounted under /api. */
-const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes, importsRoutes, studentsRoutes, ensemblesRoutes, enrollmentsRoutes, gridPreferencesRoutes];
+const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes, reportsRoutes, importsRoutes, studentsRoutes, ensemblesRoutes, enrollmentsRoutes, gridPreferencesRoutes];
 
 /** Builds the Express app: security headers, sessions, sign-in, the API and the web app. */
 export async function createApp(config: Config, options: AppOptions): Promise<Express> {

@@ -1,5 +1,6 @@
 import type { Services } from '../services';
 import { startMailWorker } from '../mail/mail-worker';
+import { startReportScheduler } from './report-scheduler';
 
 /**
  * Starts what runs beside the requests: the mail worker that sends the outbox, and the report
@@ -7,6 +8,11 @@ import { startMailWorker } from '../mail/mail-worker';
  */
 export function startBackgroundWork(services: Services): () => Promise<void> {
   const mailWorker = startMailWorker(services);
+  const scheduler = startReportScheduler(services);
   let stopping: Promise<void> | undefined;
-  return () => (stopping ??= mailWorker.stop());
+  return () =>
+    (stopping ??= (async () => {
+      await scheduler.stop();
+      await mailWorker.stop();
+    })());
 }

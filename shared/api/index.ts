@@ -16,4 +16,5 @@ export * from './loan';
 export * from './repair';
 export * from './count';
 export * from './planning';
+export * from './report';
 export * from './import';

@@ -1,13 +1,8 @@
 import { index, integer, jsonb, pgTable, smallint, text, timestamp } from 'drizzle-orm/pg-core';
+import { outboxKinds, outboxStates } from '../../../shared/api/outbox';
 import { timestamps } from './columns';
 import { users } from './people';
 import { schools } from './schools';
-
-/** What a queued message is for. */
-export const outboxKinds = ['report', 'loan-agreement', 'overdue-reminder', 'other'] as const;
-
-/** Where a queued message is on its way out. */
-export const outboxStates = ['queued', 'sending', 'sent', 'failed'] as const;
 
 /** A file attached to a queued message, its bytes in base64. */
 export interface OutboxAttachment {

@@ -10,15 +10,9 @@ import {
   timestamp,
 } from 'drizzle-orm/pg-core';
 import { timestamps, version } from './columns';
+import { reportKinds, type ReportTarget } from '../../../shared/api/report';
 import { users } from './people';
 import { schools } from './schools';
-
-/** The reports Tuttiboard writes: one school's director report, or the district summary. */
-export const reportKinds = ['director', 'district'] as const;
-
-/** Who a report goes to: chosen schools' directors, every director, or named addresses. */
-export type ReportTarget =
-  { schoolIds: number[] } | { allDirectors: true } | { recipients: string[]; schoolIds?: number[] };
 
 /**
  * One report that went out (or was queued), with the figures it carried, so the next one can

@@ -1,0 +1,159 @@
+import { reportRuns } from '../db/schema/index';
+import type { Queryable } from './report-tables';
+import type { ReportKind, ReportTarget } from '../../shared/api/report';
+import { badRequest } from '../core/errors';
+import { enqueueMail } from '../mail/outbox';
+import { assembleDirectorReport, assembleDistrictReport, figuresOf } from './report-data';
+import { reportSubject } from './report-format';
+import { renderReport } from './report-render';
+import { reportAttachments } from './report-attachments';
+import { directorsOf } from './report-recipients';
+
+/** A report to queue: what, for when, to whom, and on whose behalf. */
+export interface ReportRequest {
+  kind: ReportKind;
+  from: string;
+  to: string;
+  target: ReportTarget;
+  /** The user who sent it; null for the scheduler. */
+  createdBy: number | null;
+  scheduleId?: number | null;
+}
+
+/** The messages queued and the report runs recorded. */
+export interface QueuedReports {
+  outboxIds: number[];
+  runIds: number[];
+}
+
+const unique = (addresses: string[]) => [
+  ...new Set(addresses.map((address) => address.toLowerCase())),
+];
+
+async function queueDirectorReports(db: Queryable, request: ReportRequest): Promise<QueuedReports> {
+  const { target } = request;
+  if (target.schoolIds === undefined) {
+    throw badRequest('A director report needs schools.', [
+      { field: 'schoolIds', message: "Choose schools, or 'all-directors'." },
+    ]);
+  }
+  const directors = await directorsOf(
+    db,
+    target.schoolIds === 'all-directors' ? 'all' : target.schoolIds,
+  );
+  const schoolIds =
+    target.schoolIds === 'all-directors'
+      ? [...new Set(directors.map((director) => director.schoolId))]
+      : target.schoolIds;
+  const queued: QueuedReports = { outboxIds: [], runIds: [] };
+  for (const schoolId of schoolIds) {
+    const recipients = unique(
+      target.recipients ??
+        directors
+          .filter((director) => director.schoolId === schoolId)
+          .map((director) => director.email),
+    );
+    if (recipients.length === 0) continue;
+    const data = await assembleDirectorReport(db, schoolId, request.from, request.to);
+    const rendered = renderReport(data);
+    const attachments = await reportAttachments(
+      `${data.school.code}-report-${data.from}-to-${data.to}`,
+      rendered.csvFiles,
+    );
+    await db.transaction(async (tx) => {
+      const outboxIds: number[] = [];
+      for (const recipient of recipients) {
+        outboxIds.push(
+          await enqueueMail(tx, {
+            kind: 'report',
+            to: [recipient],
+            subject: reportSubject(data),
+            text: rendered.text,
+            html: rendered.html,
+            attachments,
+            createdBy: request.createdBy,
+            schoolId,
+          }),
+        );
+      }
+      const [run] = await tx
+        .insert(reportRuns)
+        .values({
+          kind: 'director',
+          schoolId,
+          periodFrom: data.from,
+          periodTo: data.to,
+          figures: figuresOf(data),
+          recipients,
+          outboxMessageIds: outboxIds,
+          scheduleId: request.scheduleId ?? null,
+          sentBy: request.createdBy,
+        })
+        .returning({ id: reportRuns.id });
+      queued.outboxIds.push(...outboxIds);
+      queued.runIds.push(run!.id);
+    });
+  }
+  return queued;
+}
+
+async function queueDistrictSummary(db: Queryable, request: ReportRequest): Promise<QueuedReports> {
+  const { target } = request;
+  const recipients = unique(
+    target.recipients ??
+      (
+        await directorsOf(
+          db,
+          target.schoolIds === 'all-directors' ? 'all' : (target.schoolIds ?? []),
+        )
+      ).map((director) => director.email),
+  );
+  if (recipients.length === 0) return { outboxIds: [], runIds: [] };
+  const data = await assembleDistrictReport(db, request.from, request.to);
+  const rendered = renderReport(data);
+  const attachments = await reportAttachments(
+    `district-summary-${data.from}-to-${data.to}`,
+    rendered.csvFiles,
+  );
+  return db.transaction(async (tx) => {
+    const outboxIds: number[] = [];
+    for (const recipient of recipients) {
+      outboxIds.push(
+        await enqueueMail(tx, {
+          kind: 'report',
+          to: [recipient],
+          subject: reportSubject(data),
+          text: rendered.text,
+          html: rendered.html,
+          attachments,
+          createdBy: request.createdBy,
+        }),
+      );
+    }
+    const [run] = await tx
+      .insert(reportRuns)
+      .values({
+        kind: 'district',
+        periodFrom: data.from,
+        periodTo: data.to,
+        figures: { totals: data.totals, schools: data.schools },
+        recipients,
+        outboxMessageIds: outboxIds,
+        scheduleId: request.scheduleId ?? null,
+        sentBy: request.createdBy,
+      })
+      .returning({ id: reportRuns.id });
+    return { outboxIds, runIds: [run!.id] };
+  });
+}
+
+/**
+ * Builds the reports and queues one message per recipient, each school's messages and its
+ * report run in one transaction (a savepoint when `db` is already a transaction). Access checks
+ * belong to the caller.
+ */
+export function queueReports(db: Queryable, request: ReportRequest): Promise<QueuedReports> {
+  return request.kind === 'director'
+    ? queueDirectorReports(db, request)
+    : queueDistrictSummary(db, request);
+}
