@@ -24,6 +24,9 @@ import { enrollmentsRoutes } from './enrollments/enrollments-routes';
 import { gridPreferencesRoutes } from './grid-preferences/grid-preferences-routes';
 import { localCommandRoutes } from './cli/local-command-routes';
 import { importsRoutes } from './imports/imports-routes';
+import { ladderRoutes } from './ladder/ladder-routes';
+import { passOffsRoutes } from './pass-offs/pass-offs-routes';
+import { analyticsRoutes } from './analytics/analytics-routes';
 import { outboxRoutes } from './mail/outbox-routes';
 import { reportsRoutes } from './reports/reports-routes';
 import { startBackgroundWork } from './reports/background-work';
@@ -42,7 +45,7 @@ export interface AppOptions {
 }
 
 /** The feature routers, each mounted under /api. */
-const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes, reportsRoutes, importsRoutes, studentsRoutes, ensemblesRoutes, enrollmentsRoutes, gridPreferencesRoutes];
+const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes, reportsRoutes, importsRoutes, studentsRoutes, ensemblesRoutes, enrollmentsRoutes, gridPreferencesRoutes, ladderRoutes, passOffsRoutes, analyticsRoutes];
 
 /** Builds the Express app: security headers, sessions, sign-in, the API and the web app. */
 export async function createApp(config: Config, options: AppOptions): Promise<Express> {

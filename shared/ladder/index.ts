@@ -13,3 +13,4 @@ export {
   type Requirement,
   type Rung,
 } from './rules';
+export { benchmarksInForce, type Benchmark } from './benchmarks';

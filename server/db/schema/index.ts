@@ -5,3 +5,4 @@ export * from './roster';
 export * from './audit';
 export * from './mail';
 export * from './reports';
+export * from './ladder';

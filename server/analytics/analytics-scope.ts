@@ -1,0 +1,67 @@
+import { sql, type SQL } from 'drizzle-orm';
+import { schoolScope, assertInScope, type Actor } from '../core/policy';
+import type { Drill } from '../../shared/api/analytics';
+
+/** The filters every analytics figure takes. */
+export interface StudentFilters {
+  schoolId?: number | undefined;
+  grade?: number | undefined;
+  ensembleId?: number | undefined;
+}
+
+/** A Postgres array literal of whole numbers, sent as one parameter. */
+export const intArray = (ids: readonly number[]) => `{${ids.join(',')}}`;
+
+/**
+ * The condition on `students s` for the active students of the actor's schools that match the
+ * filters. A school filter outside the actor's schools is a 404, as the school itself would be.
+ */
+export function studentCondition(actor: Actor, filters: StudentFilters): SQL {
+  const parts: SQL[] = [sql`s.status = 'active'`];
+  const scope = schoolScope(actor);
+  if (scope !== 'all') parts.push(sql`s.school_id = any(${intArray(scope)}::int[])`);
+  if (filters.schoolId !== undefined) {
+    assertInScope(actor, filters.schoolId, 'That school');
+    parts.push(sql`s.school_id = ${filters.schoolId}`);
+  }
+  if (filters.grade !== undefined) parts.push(sql`s.grade = ${filters.grade}`);
+  if (filters.ensembleId !== undefined) {
+    parts.push(sql`exists (select 1 from enrollments e where e.student_id = s.id and e.ensemble_id = ${filters.ensembleId} and e.active)`);
+  }
+  return sql.join(parts, sql` and `);
+}
+
+/** The school filter on a table with a `school_id` column, for the weekly counts. */
+export function schoolCondition(actor: Actor, column: SQL, filters: StudentFilters): SQL {
+  const parts: SQL[] = [sql`true`];
+  const scope = schoolScope(actor);
+  if (scope !== 'all') parts.push(sql`${column} = any(${intArray(scope)}::int[])`);
+  if (filters.schoolId !== undefined) parts.push(sql`${column} = ${filters.schoolId}`);
+  return sql.join(parts, sql` and `);
+}
+
+/** A drill to the students list with the figure's own filters added to the page's. */
+export function studentsDrill(filters: StudentFilters & { asOf?: string | undefined }, extra: Drill['query']): Drill {
+  const query: Drill['query'] = {};
+  for (const [name, value] of Object.entries(filters)) if (value !== undefined) query[name] = value;
+  return { path: '/api/analytics/students', query: { ...query, ...extra } };
+}
+
+/** The ISO date a number of days before a day. */
+export function daysBefore(isoDate: string, days: number): string {
+  const date = new Date(`${isoDate}T00:00:00Z`);
+  date.setUTCDate(date.getUTCDate() - days);
+  return date.toISOString().slice(0, 10);
+}
+
+/** The Monday of the ISO week (ISO 8601 weeks start on Monday) a day falls in. */
+export function mondayOf(isoDate: string): string {
+  const date = new Date(`${isoDate}T00:00:00Z`);
+  date.setUTCDate(date.getUTCDate() - ((date.getUTCDay() + 6) % 7));
+  return date.toISOString().slice(0, 10);
+}
+
+/** Today as an ISO date (UTC). */
+export function today(): string {
+  return new Date().toISOString().slice(0, 10);
+}

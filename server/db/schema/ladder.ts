@@ -1,0 +1,222 @@
+import { sql } from 'drizzle-orm';
+import {
+  boolean,
+  date,
+  index,
+  integer,
+  pgTable,
+  primaryKey,
+  smallint,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from 'drizzle-orm/pg-core';
+import { timestamps, version } from './columns';
+import { users } from './people';
+import { students } from './roster';
+import { schools } from './schools';
+
+/**
+ * One version of the district's scale ladder. Drafts are edited; publishing makes a version the
+ * active one, the version every student's rung is computed against.
+ */
+export const ladderVersions = pgTable(
+  'ladder_versions',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    name: text('name').notNull(),
+    status: text('status', { enum: ['draft', 'published', 'archived'] })
+      .notNull()
+      .default('draft'),
+    active: boolean('active').notNull().default(false),
+    publishedAt: timestamp('published_at', { withTimezone: true, mode: 'date' }),
+    createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+    ...version,
+    ...timestamps,
+  },
+  (table) => [uniqueIndex('ladder_versions_one_active').on(table.active).where(sql`active`)],
+);
+
+/** A rung of one ladder version, numbered 1, 2, 3… */
+export const ladderRungs = pgTable(
+  'ladder_rungs',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ladderVersionId: integer('ladder_version_id')
+      .notNull()
+      .references(() => ladderVersions.id, { onDelete: 'cascade' }),
+    number: smallint('number').notNull(),
+    title: text('title').notNull(),
+  },
+  (table) => [uniqueIndex('ladder_rungs_number_unique').on(table.ladderVersionId, table.number)],
+);
+
+/** A scale a rung asks for, in concert pitch; `code` stays the same across versions. */
+export const ladderRequirements = pgTable(
+  'ladder_requirements',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ladderVersionId: integer('ladder_version_id')
+      .notNull()
+      .references(() => ladderVersions.id, { onDelete: 'cascade' }),
+    rungId: integer('rung_id')
+      .notNull()
+      .references(() => ladderRungs.id, { onDelete: 'cascade' }),
+    position: smallint('position').notNull().default(0),
+    code: text('code').notNull(),
+    tonic: text('tonic').notNull(),
+    mode: text('mode').notNull(),
+    pattern: text('pattern').notNull(),
+    tempo: smallint('tempo').notNull(),
+    articulation: text('articulation').notNull(),
+    octaves: smallint('octaves').notNull().default(1),
+    optional: boolean('optional').notNull().default(false),
+    /** Null: every family. */
+    families: text('families').array(),
+  },
+  (table) => [
+    uniqueIndex('ladder_requirements_code_unique').on(table.ladderVersionId, table.code),
+    index('ladder_requirements_rung_idx').on(table.rungId, table.position),
+  ],
+);
+
+/** The rung a grade should have reached by a date, in one ladder version. */
+export const ladderBenchmarks = pgTable(
+  'ladder_benchmarks',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ladderVersionId: integer('ladder_version_id')
+      .notNull()
+      .references(() => ladderVersions.id, { onDelete: 'cascade' }),
+    grade: smallint('grade').notNull(),
+    rung: smallint('rung').notNull(),
+    byDate: date('by_date', { mode: 'string' }).notNull(),
+  },
+  (table) => [
+    uniqueIndex('ladder_benchmarks_unique').on(table.ladderVersionId, table.grade, table.byDate),
+  ],
+);
+
+/** One hearing of one requirement by a director: the tempo played and whether it passed. */
+export const passOffs = pgTable(
+  'pass_offs',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    studentId: integer('student_id')
+      .notNull()
+      .references(() => students.id, { onDelete: 'cascade' }),
+    /** The school the student was at when heard (the Overview's weekly counts group by it). */
+    schoolId: integer('school_id')
+      .notNull()
+      .references(() => schools.id),
+    /** The grade the student was in when heard. */
+    grade: smallint('grade').notNull(),
+    ladderVersionId: integer('ladder_version_id')
+      .notNull()
+      .references(() => ladderVersions.id),
+    requirementId: integer('requirement_id').references(() => ladderRequirements.id, {
+      onDelete: 'set null',
+    }),
+    requirementCode: text('requirement_code').notNull(),
+    heardOn: date('heard_on', { mode: 'string' }).notNull(),
+    tempo: smallint('tempo').notNull(),
+    passed: boolean('passed').notNull(),
+    heardBy: integer('heard_by').references(() => users.id, { onDelete: 'set null' }),
+    note: text('note').notNull().default(''),
+    recordingId: integer('recording_id'),
+    /** The client's own key for the pass-off, so a retried request never records it twice. */
+    clientKey: uuid('client_key'),
+    ...version,
+    ...timestamps,
+  },
+  (table) => [
+    uniqueIndex('pass_offs_client_key_unique').on(table.clientKey),
+    index('pass_offs_student_idx').on(table.studentId, table.heardOn),
+    index('pass_offs_heard_on_idx').on(table.heardOn),
+    index('pass_offs_school_heard_on_idx').on(table.schoolId, table.heardOn),
+    index('pass_offs_heard_by_idx').on(table.heardBy, table.heardOn),
+    index('pass_offs_requirement_idx').on(table.requirementCode, table.heardOn),
+  ],
+);
+
+/** An audio recording of a pass-off; the file lives under the data folder by a random name. */
+export const passOffRecordings = pgTable(
+  'pass_off_recordings',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    passOffId: integer('pass_off_id')
+      .notNull()
+      .references(() => passOffs.id, { onDelete: 'cascade' }),
+    storedName: text('stored_name').notNull(),
+    originalName: text('original_name').notNull(),
+    contentType: text('content_type').notNull(),
+    size: integer('size').notNull(),
+    sha256: text('sha256').notNull(),
+    createdAt: timestamp('created_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
+  },
+  (table) => [
+    index('pass_off_recordings_pass_off_idx').on(table.passOffId),
+    uniqueIndex('pass_off_recordings_stored_unique').on(table.storedName),
+  ],
+);
+
+/**
+ * Each student's rung on the active ladder, kept current on every pass-off write, so the
+ * Overview reads one indexed row per student instead of every pass-off.
+ */
+export const studentAttainment = pgTable(
+  'student_attainment',
+  {
+    studentId: integer('student_id')
+      .primaryKey()
+      .references(() => students.id, { onDelete: 'cascade' }),
+    ladderVersionId: integer('ladder_version_id').references(() => ladderVersions.id, {
+      onDelete: 'set null',
+    }),
+    /** The instrument family the rung was read for ('' when the student has no seat). */
+    family: text('family').notNull().default(''),
+    rung: smallint('rung').notNull().default(0),
+    metCount: smallint('met_count').notNull().default(0),
+    lastPassedOn: date('last_passed_on', { mode: 'string' }),
+    lastPassOffOn: date('last_pass_off_on', { mode: 'string' }),
+    updatedAt: timestamp('updated_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
+  },
+  (table) => [
+    index('student_attainment_rung_idx').on(table.rung),
+    index('student_attainment_last_pass_off_idx').on(table.lastPassOffOn),
+  ],
+);
+
+/** Each student's fastest passed tempo per requirement code, for the audition-ready list. */
+export const passedRequirements = pgTable(
+  'passed_requirements',
+  {
+    studentId: integer('student_id')
+      .notNull()
+      .references(() => students.id, { onDelete: 'cascade' }),
+    requirementCode: text('requirement_code').notNull(),
+    bestTempo: smallint('best_tempo').notNull(),
+    firstPassedOn: date('first_passed_on', { mode: 'string' }).notNull(),
+  },
+  (table) => [
+    primaryKey({ columns: [table.studentId, table.requirementCode] }),
+    index('passed_requirements_code_idx').on(table.requirementCode, table.bestTempo),
+  ],
+);
+
+/** Pass-offs heard per week (Monday) by school and grade, kept current on every write. */
+export const passOffWeeks = pgTable(
+  'pass_off_weeks',
+  {
+    weekStart: date('week_start', { mode: 'string' }).notNull(),
+    schoolId: integer('school_id')
+      .notNull()
+      .references(() => schools.id, { onDelete: 'cascade' }),
+    grade: smallint('grade').notNull(),
+    heard: integer('heard').notNull().default(0),
+    passed: integer('passed').notNull().default(0),
+  },
+  (table) => [primaryKey({ columns: [table.weekStart, table.schoolId, table.grade] })],
+);
+

@@ -1,0 +1,55 @@
+import { Router } from 'express';
+import { ladderDraftInputSchema, ladderPatchSchema } from '../../shared/api/ladder';
+import { actorOf, requires } from '../core/policy';
+import { parseId, parseInput } from '../core/validate';
+import type { Services } from '../services';
+import { rebuildAttainment } from './attainment';
+import { recordAudit } from '../core/audit';
+import {
+  createDraft,
+  deleteDraft,
+  getActiveLadder,
+  getVersion,
+  listVersions,
+  publishVersion,
+  updateDraft,
+} from './ladder-service';
+
+/** `/api/ladder`: everyone reads the active ladder; the coordinator drafts and publishes versions. */
+export function ladderRoutes({ db }: Services): Router {
+  const router = Router();
+  router.get('/ladder', requires('ladder:read'), async (_request, response) => {
+    response.json(await getActiveLadder(db));
+  });
+  router.get('/ladder/versions', requires('ladder:read'), async (request, response) => {
+    response.json(await listVersions(db, actorOf(request)));
+  });
+  router.get('/ladder/versions/:id', requires('ladder:read'), async (request, response) => {
+    response.json(await getVersion(db, actorOf(request), parseId(request.params['id'])));
+  });
+  router.post('/ladder/versions', requires('ladder:write'), async (request, response) => {
+    const input = parseInput(ladderDraftInputSchema, request.body ?? {}, 'The draft');
+    response.status(201).json(await createDraft(db, actorOf(request), input));
+  });
+  router.patch('/ladder/versions/:id', requires('ladder:write'), async (request, response) => {
+    const id = parseId(request.params['id']);
+    const patch = parseInput(ladderPatchSchema, request.body, 'The ladder');
+    response.json(await updateDraft(db, actorOf(request), id, patch));
+  });
+  router.delete('/ladder/versions/:id', requires('ladder:write'), async (request, response) => {
+    await deleteDraft(db, actorOf(request), parseId(request.params['id']));
+    response.status(204).end();
+  });
+  router.post('/ladder/versions/:id/publish', requires('ladder:write'), async (request, response) => {
+    response.json(await publishVersion(db, actorOf(request), parseId(request.params['id'])));
+  });
+  // Seats and instruments change through the roster; this brings every rung up to date with them.
+  router.post('/ladder/attainment/rebuild', requires('ladder:write'), async (request, response) => {
+    await db.transaction(async (tx) => {
+      await rebuildAttainment(tx);
+      await recordAudit(tx, actorOf(request), { action: 'rebuild', entity: 'student-attainment', entityId: 'all' });
+    });
+    response.status(204).end();
+  });
+  return router;
+}

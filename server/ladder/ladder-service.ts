@@ -1,0 +1,139 @@
+import { and, desc, eq, ne } from 'drizzle-orm';
+import type { Database } from '../db/client';
+import { ladderVersions, users } from '../db/schema/index';
+import type { Ladder, LadderDraftInput, LadderPatch, LadderVersionSummary } from '../../shared/api/ladder';
+import { can, type Actor } from '../core/policy';
+import { recordAudit } from '../core/audit';
+import { conflict, notFound } from '../core/errors';
+import { updateVersioned } from '../core/versioned-update';
+import { rebuildAttainment } from './attainment';
+import {
+  activeVersionId,
+  loadLadder,
+  toVersionSummary,
+  versionSummaryColumns,
+  writeLadderContent,
+} from './ladder-queries';
+
+/** The active ladder with its rungs, requirements and benchmarks; 404 when none is published. */
+export async function getActiveLadder(db: Database): Promise<Ladder> {
+  const id = await activeVersionId(db);
+  if (id === null) throw notFound('A published scale ladder');
+  return loadLadder(db, id);
+}
+
+/** Every version, newest first; drafts only for those who may edit the ladder. */
+export async function listVersions(
+  db: Database,
+  actor: Actor,
+): Promise<{ rows: LadderVersionSummary[]; total: number }> {
+  const rows = await db
+    .select(versionSummaryColumns)
+    .from(ladderVersions)
+    .leftJoin(users, eq(users.id, ladderVersions.createdBy))
+    .where(can(actor, 'ladder:write') ? undefined : ne(ladderVersions.status, 'draft'))
+    .orderBy(desc(ladderVersions.id));
+  return { rows: rows.map(toVersionSummary), total: rows.length };
+}
+
+/** One version; a draft is 404 for those who may not edit the ladder. */
+export async function getVersion(db: Database, actor: Actor, id: number): Promise<Ladder> {
+  const ladder = await loadLadder(db, id);
+  if (ladder.status === 'draft' && !can(actor, 'ladder:write')) throw notFound('That ladder version');
+  return ladder;
+}
+
+/** A new draft, copied from the active version (or empty when there is none yet). */
+export async function createDraft(db: Database, actor: Actor, input: LadderDraftInput): Promise<Ladder> {
+  const sourceId = await activeVersionId(db);
+  const source = sourceId === null ? null : await loadLadder(db, sourceId);
+  const id = await db.transaction(async (tx) => {
+    const [row] = await tx
+      .insert(ladderVersions)
+      .values({
+        name: input.name ?? (source ? `${source.name} (draft)` : 'Scale ladder'),
+        status: 'draft',
+        createdBy: actor.userId,
+      })
+      .returning();
+    if (source) await writeLadderContent(tx, row!.id, source);
+    await recordAudit(tx, actor, {
+      action: 'create',
+      entity: 'ladder-version',
+      entityId: row!.id,
+      after: { ...row, copiedFrom: sourceId },
+    });
+    return row!.id;
+  });
+  return loadLadder(db, id);
+}
+
+/** Changes a draft: its name, and its rungs and benchmarks replaced whole. */
+export async function updateDraft(db: Database, actor: Actor, id: number, patch: LadderPatch): Promise<Ladder> {
+  const before = await loadLadder(db, id);
+  if (before.status !== 'draft') {
+    throw conflict(
+      'A published ladder version does not change: make a new draft from it, edit that, and publish it.',
+    );
+  }
+  await db.transaction(async (tx) => {
+    await updateVersioned(
+      tx,
+      ladderVersions,
+      id,
+      patch.version,
+      patch.name === undefined ? {} : { name: patch.name },
+      'That ladder version',
+    );
+    await writeLadderContent(tx, id, patch);
+    await recordAudit(tx, actor, {
+      action: 'update',
+      entity: 'ladder-version',
+      entityId: id,
+      before,
+      after: { name: patch.name, rungs: patch.rungs, benchmarks: patch.benchmarks },
+    });
+  });
+  return loadLadder(db, id);
+}
+
+/** Throws a draft away; published and archived versions stay, since pass-offs name them. */
+export async function deleteDraft(db: Database, actor: Actor, id: number): Promise<void> {
+  const before = await loadLadder(db, id);
+  if (before.status !== 'draft') throw conflict('Only a draft can be deleted; published versions are kept for the pass-offs heard under them.');
+  await db.transaction(async (tx) => {
+    await tx.delete(ladderVersions).where(and(eq(ladderVersions.id, id), eq(ladderVersions.status, 'draft')));
+    await recordAudit(tx, actor, { action: 'delete', entity: 'ladder-version', entityId: id, before });
+  });
+}
+
+/**
+ * Publishes a draft: it becomes the active version, the one it replaces is archived, and every
+ * student's rung is recomputed against it in the same transaction.
+ */
+export async function publishVersion(db: Database, actor: Actor, id: number): Promise<Ladder> {
+  const draft = await loadLadder(db, id);
+  if (draft.status !== 'draft') throw conflict('Only a draft can be published; this version already was.');
+  await db.transaction(async (tx) => {
+    const replaced = await tx
+      .update(ladderVersions)
+      .set({ active: false, status: 'archived', updatedAt: new Date() })
+      .where(and(eq(ladderVersions.active, true), ne(ladderVersions.id, id)))
+      .returning({ id: ladderVersions.id });
+    const published = await tx
+      .update(ladderVersions)
+      .set({ status: 'published', active: true, publishedAt: new Date(), updatedAt: new Date() })
+      .where(and(eq(ladderVersions.id, id), eq(ladderVersions.status, 'draft')))
+      .returning({ id: ladderVersions.id });
+    if (published.length === 0) throw conflict('Someone else published or changed this version first.');
+    await rebuildAttainment(tx);
+    await recordAudit(tx, actor, {
+      action: 'publish',
+      entity: 'ladder-version',
+      entityId: id,
+      before: { archived: replaced.map((row) => row.id) },
+      after: { active: id },
+    });
+  });
+  return loadLadder(db, id);
+}
