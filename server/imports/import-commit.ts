@@ -145,8 +145,16 @@ async function stage(
   }
 }
 
-/** Updates students whose columns differ, with one audit entry each; answers their ids. */
-async function updateStudents(session: SqlSession, plan: ImportPlan, userId: number | null) {
+/**
+ * Updates students whose columns differ, with one audit entry each; a student who changes school
+ * gets a school move and leaves the old school's ensembles for the year. Answers their ids.
+ */
+async function updateStudents(
+  session: SqlSession,
+  plan: ImportPlan,
+  userId: number | null,
+  schoolYearId: number | null,
+) {
   const columns = writtenStudentColumns(plan.parsed.mapping).map((entry) => entry.column);
   const assignments = columns.map((column) => `${column} = i.${column}`).join(', ');
   const current = columns.map((column) => `s.${column}`).join(', ');
@@ -165,6 +173,11 @@ async function updateStudents(session: SqlSession, plan: ImportPlan, userId: num
        insert into school_moves (student_id, from_school_id, to_school_id, moved_by)
        select p.id, p.school_id, c.school_id, $1::int from prior p join changed c on c.id = p.id
        where p.school_id <> c.school_id
+     ), unseated as (
+       update enrollments en set active = false, version = en.version + 1, updated_at = now()
+       from prior p join changed c on c.id = p.id, ensembles e
+       where p.school_id <> c.school_id and en.student_id = c.id and e.id = en.ensemble_id
+         and e.school_id = p.school_id and en.school_year_id = $2::int and en.active
      )
      , audited as (
        insert into audit_log (user_id, action, entity, entity_id, before, after)
@@ -172,7 +185,7 @@ async function updateStudents(session: SqlSession, plan: ImportPlan, userId: num
        from changed c join prior p on p.id = c.id
      )
      select json_agg(student_number)::text as json from changed`,
-    [userId],
+    [userId, schoolYearId],
   );
   return new Set(numbers);
 }
@@ -313,7 +326,7 @@ export async function commitImport(
     if (database.kind === 'pglite') await skipReferenceTriggers(session);
     await createStagingTables(session);
     await stage(session, plan, schoolIdByCode, ensembles.ensembleId);
-    const updated = await updateStudents(session, plan, userId);
+    const updated = await updateStudents(session, plan, userId, year?.id ?? null);
     const created = await insertStudents(session);
     const seatChanges = year ? await seatStudents(session, year.id) : new Set<string>();
     const schoolIds = plan.schoolCodes.map((code) => schoolIdByCode.get(code)!);
