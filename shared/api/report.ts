@@ -127,7 +127,12 @@ export const districtReportDataSchema = z.object({
   from: isoDate,
   to: isoDate,
   schools: z.array(
-    z.object({ id: z.number().int(), code: z.string(), name: z.string(), figures: reportFiguresSchema }),
+    z.object({
+      id: z.number().int(),
+      code: z.string(),
+      name: z.string(),
+      figures: reportFiguresSchema,
+    }),
   ),
   totals: reportFiguresSchema,
   /** The totals of the last district summary sent, to show the change since. */
@@ -151,7 +156,10 @@ export const reportPreviewQuerySchema = z
     message: 'A director report needs a schoolId.',
     path: ['schoolId'],
   })
-  .refine((query) => query.from <= query.to, { message: 'from must not be after to.', path: ['to'] });
+  .refine((query) => query.from <= query.to, {
+    message: 'from must not be after to.',
+    path: ['to'],
+  });
 export type ReportPreviewQuery = z.infer<typeof reportPreviewQuerySchema>;
 
 /** What a preview answers. */
@@ -187,7 +195,10 @@ export const reportSendInputSchema = z
     schoolIds: reportTargetSchema.shape.schoolIds,
     recipients: reportTargetSchema.shape.recipients,
   })
-  .refine((input) => input.from <= input.to, { message: 'from must not be after to.', path: ['to'] });
+  .refine((input) => input.from <= input.to, {
+    message: 'from must not be after to.',
+    path: ['to'],
+  });
 export type ReportSendInput = z.infer<typeof reportSendInputSchema>;
 
 /** What a send answers: the queued messages and the report runs recorded. */
@@ -248,5 +259,7 @@ export const reportScheduleInputSchema = scheduleFields.extend({
 export type ReportScheduleInput = z.infer<typeof reportScheduleInputSchema>;
 
 /** A schedule PATCH: any fields, plus the version the editor started from. */
-export const reportSchedulePatchSchema = scheduleFields.partial().extend({ version: z.number().int() });
+export const reportSchedulePatchSchema = scheduleFields
+  .partial()
+  .extend({ version: z.number().int() });
 export type ReportSchedulePatch = z.infer<typeof reportSchedulePatchSchema>;
