@@ -23,6 +23,7 @@ import { ensemblesRoutes } from './ensembles/ensembles-routes';
 import { enrollmentsRoutes } from './enrollments/enrollments-routes';
 import { gridPreferencesRoutes } from './grid-preferences/grid-preferences-routes';
 import { localCommandRoutes } from './cli/local-command-routes';
+import { fleetRoutes, agreementPages } from './instruments/fleet-routes';
 import { importsRoutes } from './imports/imports-routes';
 import { ladderRoutes } from './ladder/ladder-routes';
 import { passOffsRoutes } from './pass-offs/pass-offs-routes';
@@ -45,7 +46,7 @@ export interface AppOptions {
 }
 
 /** The feature routers, each mounted under /api. */
-const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes, reportsRoutes, importsRoutes, studentsRoutes, ensemblesRoutes, enrollmentsRoutes, gridPreferencesRoutes, ladderRoutes, passOffsRoutes, analyticsRoutes];
+const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes, reportsRoutes, importsRoutes, studentsRoutes, ensemblesRoutes, enrollmentsRoutes, gridPreferencesRoutes, ladderRoutes, passOffsRoutes, analyticsRoutes, ...fleetRoutes];
 
 /** Builds the Express app: security headers, sessions, sign-in, the API and the web app. */
 export async function createApp(config: Config, options: AppOptions): Promise<Express> {
@@ -115,6 +116,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   for (const routes of featureRoutes) api.use(routes(services));
   api.use(unknownApiRoute);
   app.use('/api', api);
+  app.use(agreementPages(services));
 
   if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'))) {
     app.use(express.static(webRoot, { index: false, maxAge: '1h' }));

@@ -33,6 +33,7 @@ export type Capability =
   | 'loans:write'
   | 'loans:return'
   | 'loans:see-waivers'
+  | 'loans:agreement'
   | 'repairs:write'
   | 'counts:run'
   | 'reports:read'
@@ -61,6 +62,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'loans:write',
     'loans:return',
     'loans:see-waivers',
+    'loans:agreement',
     'repairs:write',
     'counts:run',
     'reports:read',

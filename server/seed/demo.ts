@@ -3,6 +3,7 @@ import type { Database } from '../db/client';
 import { schoolYears, schools, userSchools, users } from '../db/schema/index';
 import { demoSchools, demoUsers } from './demo-people';
 import { seedDemoRoster } from './demo-roster';
+import { seedDemoFleet } from './demo-fleet';
 import { seedDemoLadder } from './demo-ladder';
 import { SeededRandom } from './random';
 
@@ -44,6 +45,7 @@ export async function seedDemo(db: Database): Promise<void> {
       if (account.role === 'student') studentUserId = user!.id;
     }
     await seedDemoRoster(tx, random, { schoolIds, directorOf, schoolYearId: year!.id, studentUserId });
+    await seedDemoFleet(tx, { schoolYearEndsOn: demoSchoolYear.endsOn });
     await seedDemoLadder(tx, { directorOf });
   });
 }

@@ -61,9 +61,13 @@ export const checkoutInputSchema = z.object({
 });
 export type CheckoutInput = z.infer<typeof checkoutInputSchema>;
 
-/** What a return sends: the condition it came back in, and damage or loss when there is some. */
+/**
+ * What a return sends: the condition it came back in, and damage or loss when there is some. A
+ * lost instrument needs no condition.
+ */
 export const returnInputSchema = z.object({
-  conditionIn: z.enum(instrumentConditions),
+  /** Required unless the instrument is lost. */
+  conditionIn: z.enum(instrumentConditions).optional(),
   damaged: z.object({ problem: z.string().trim().min(3).max(2000) }).optional(),
   lost: z.boolean().optional(),
   notes: z.string().trim().max(2000).optional(),

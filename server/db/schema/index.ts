@@ -6,3 +6,4 @@ export * from './audit';
 export * from './mail';
 export * from './reports';
 export * from './ladder';
+export * from './fleet';

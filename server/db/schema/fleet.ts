@@ -1,0 +1,210 @@
+import { sql } from 'drizzle-orm';
+import {
+  boolean,
+  date,
+  index,
+  integer,
+  pgTable,
+  text,
+  timestamp,
+  uniqueIndex,
+} from 'drizzle-orm/pg-core';
+import {
+  instrumentConditions,
+  instrumentEventKinds,
+  instrumentStatuses,
+} from '../../../shared/api/instrument';
+import { loanStates } from '../../../shared/api/loan';
+import { repairStatuses } from '../../../shared/api/repair';
+import { countStates, scanOutcomes } from '../../../shared/api/count';
+import { timestamps, version } from './columns';
+import { users } from './people';
+import { students } from './roster';
+import { schools } from './schools';
+
+const day = (name: string) => date(name, { mode: 'string' });
+const moment = (name: string) => timestamp(name, { withTimezone: true, mode: 'date' });
+
+/** A district-owned instrument, known everywhere by its asset tag. */
+export const instruments = pgTable(
+  'instruments',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    assetTag: text('asset_tag').notNull(),
+    /** The music engine's instrument id ('tuba', 'alto-sax'…). */
+    instrumentId: text('instrument_id').notNull(),
+    maker: text('maker').notNull().default(''),
+    model: text('model').notNull().default(''),
+    serial: text('serial').notNull().default(''),
+    purchasedOn: day('purchased_on'),
+    purchaseCostCents: integer('purchase_cost_cents'),
+    fundingSource: text('funding_source').notNull().default(''),
+    condition: text('condition', { enum: instrumentConditions }).notNull().default('good'),
+    status: text('status', { enum: instrumentStatuses }).notNull().default('available'),
+    homeSchoolId: integer('home_school_id')
+      .notNull()
+      .references(() => schools.id),
+    location: text('location').notNull().default(''),
+    notes: text('notes').notNull().default(''),
+    ...version,
+    ...timestamps,
+  },
+  (table) => [
+    uniqueIndex('instruments_asset_tag_unique').on(table.assetTag),
+    index('instruments_school_idx').on(table.homeSchoolId, table.assetTag),
+    index('instruments_status_idx').on(table.status, table.assetTag),
+    index('instruments_kind_idx').on(table.instrumentId, table.assetTag),
+    index('instruments_condition_idx').on(table.condition, table.assetTag),
+    index('instruments_purchased_idx').on(table.purchasedOn, table.id),
+  ],
+);
+
+/** A photo of an instrument; the bytes live on disk under the data folder. */
+export const instrumentPhotos = pgTable(
+  'instrument_photos',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    instrumentId: integer('instrument_id')
+      .notNull()
+      .references(() => instruments.id, { onDelete: 'cascade' }),
+    /** The random file name under `<data dir>/photos/`. */
+    fileName: text('file_name').notNull(),
+    contentType: text('content_type').notNull(),
+    sizeBytes: integer('size_bytes').notNull(),
+    uploadedBy: integer('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
+    ...timestamps,
+  },
+  (table) => [index('instrument_photos_instrument_idx').on(table.instrumentId)],
+);
+
+/** One entry of an instrument's timeline. */
+export const instrumentEvents = pgTable(
+  'instrument_events',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    instrumentId: integer('instrument_id')
+      .notNull()
+      .references(() => instruments.id, { onDelete: 'cascade' }),
+    kind: text('kind', { enum: instrumentEventKinds }).notNull(),
+    at: moment('at').notNull().defaultNow(),
+    note: text('note').notNull().default(''),
+    userId: integer('user_id').references(() => users.id, { onDelete: 'set null' }),
+    loanId: integer('loan_id'),
+    repairId: integer('repair_id'),
+    countId: integer('count_id'),
+  },
+  (table) => [index('instrument_events_instrument_idx').on(table.instrumentId, table.at)],
+);
+
+/** A loan of an instrument to a student, with the guardian's signed agreement. */
+export const loans = pgTable(
+  'loans',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    instrumentId: integer('instrument_id')
+      .notNull()
+      .references(() => instruments.id),
+    studentId: integer('student_id')
+      .notNull()
+      .references(() => students.id),
+    schoolId: integer('school_id')
+      .notNull()
+      .references(() => schools.id),
+    checkedOutOn: day('checked_out_on').notNull(),
+    dueOn: day('due_on').notNull(),
+    accessories: text('accessories').array().notNull().default([]),
+    conditionOut: text('condition_out', { enum: instrumentConditions }).notNull(),
+    conditionIn: text('condition_in', { enum: instrumentConditions }),
+    returnedOn: day('returned_on'),
+    usageFeeCents: integer('usage_fee_cents').notNull().default(0),
+    waiver: boolean('waiver').notNull().default(false),
+    waiverReason: text('waiver_reason'),
+    state: text('state', { enum: loanStates }).notNull().default('active'),
+    checkedOutBy: integer('checked_out_by').references(() => users.id, { onDelete: 'set null' }),
+    /** SHA-256 of the one-time signing link's token; the token itself is never stored. */
+    agreementTokenHash: text('agreement_token_hash'),
+    agreementExpiresAt: moment('agreement_expires_at'),
+    signedName: text('signed_name'),
+    signedAt: moment('signed_at'),
+    /** The exact text the guardian signed, and its SHA-256 (hex). */
+    signedText: text('signed_text'),
+    agreementTextHash: text('agreement_text_hash'),
+    agreementTextVersion: integer('agreement_text_version'),
+    ...version,
+    ...timestamps,
+  },
+  (table) => [
+    // At most one active loan per instrument: two checkouts racing for it cannot both commit.
+    uniqueIndex('loans_one_active_per_instrument')
+      .on(table.instrumentId)
+      .where(sql`state = 'active'`),
+    uniqueIndex('loans_agreement_token_unique').on(table.agreementTokenHash),
+    index('loans_school_idx').on(table.schoolId, table.state, table.dueOn),
+    index('loans_student_idx').on(table.studentId),
+    index('loans_due_idx').on(table.state, table.dueOn),
+  ],
+);
+
+/** A repair ticket: in-house work or a vendor's. */
+export const repairTickets = pgTable(
+  'repair_tickets',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    instrumentId: integer('instrument_id')
+      .notNull()
+      .references(() => instruments.id),
+    problem: text('problem').notNull(),
+    reportedBy: integer('reported_by').references(() => users.id, { onDelete: 'set null' }),
+    /** The repair shop; null for in-house work. */
+    vendor: text('vendor'),
+    inHouse: boolean('in_house').notNull().default(true),
+    estimateCents: integer('estimate_cents'),
+    finalCostCents: integer('final_cost_cents'),
+    sentOn: day('sent_on'),
+    returnedOn: day('returned_on'),
+    status: text('status', { enum: repairStatuses }).notNull().default('open'),
+    notes: text('notes').notNull().default(''),
+    loanId: integer('loan_id'),
+    ...version,
+    ...timestamps,
+  },
+  (table) => [
+    index('repair_tickets_instrument_idx').on(table.instrumentId, table.status),
+    index('repair_tickets_status_idx').on(table.status, table.createdAt),
+  ],
+);
+
+/** An inventory count at one school. */
+export const counts = pgTable(
+  'counts',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    schoolId: integer('school_id')
+      .notNull()
+      .references(() => schools.id),
+    startedBy: integer('started_by').references(() => users.id, { onDelete: 'set null' }),
+    startedAt: moment('started_at').notNull().defaultNow(),
+    closedAt: moment('closed_at'),
+    state: text('state', { enum: countStates }).notNull().default('open'),
+    ...timestamps,
+  },
+  (table) => [index('counts_school_idx').on(table.schoolId, table.startedAt)],
+);
+
+/** One asset tag scanned or typed during a count. */
+export const countScans = pgTable(
+  'count_scans',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    countId: integer('count_id')
+      .notNull()
+      .references(() => counts.id, { onDelete: 'cascade' }),
+    /** The tag as typed, before matching. */
+    assetTag: text('asset_tag').notNull(),
+    instrumentId: integer('instrument_id').references(() => instruments.id),
+    outcome: text('outcome', { enum: scanOutcomes }).notNull(),
+    scannedBy: integer('scanned_by').references(() => users.id, { onDelete: 'set null' }),
+    scannedAt: moment('scanned_at').notNull().defaultNow(),
+  },
+  (table) => [index('count_scans_count_idx').on(table.countId, table.instrumentId)],
+);

@@ -1,0 +1,91 @@
+import QRCode from 'qrcode';
+import { and, asc, eq } from 'drizzle-orm';
+import type { Database } from '../db/client';
+import { instruments, schools } from '../db/schema/index';
+import { assertInScope, type Actor } from '../core/policy';
+import { instrumentScope } from './instruments-queries';
+import { instrumentNameOf } from './instrument-cautions';
+import { renderPdf } from './pdf-document';
+
+const labelsAcross = 3;
+const labelLimit = 3000;
+
+/**
+ * A printable sheet of asset-tag labels, three across, each with a QR code of the tag (so a
+ * count can scan it), the tag in large type, the instrument and its home school.
+ */
+export async function assetLabelsPdf(
+  db: Database,
+  actor: Actor,
+  schoolId?: number,
+): Promise<Buffer> {
+  if (schoolId !== undefined) assertInScope(actor, schoolId, 'That school');
+  const rows = await db
+    .select({
+      assetTag: instruments.assetTag,
+      instrumentId: instruments.instrumentId,
+      schoolCode: schools.code,
+    })
+    .from(instruments)
+    .innerJoin(schools, eq(schools.id, instruments.homeSchoolId))
+    .where(
+      and(
+        instrumentScope(actor),
+        schoolId === undefined ? undefined : eq(instruments.homeSchoolId, schoolId),
+      ),
+    )
+    .orderBy(asc(schools.code), asc(instruments.assetTag))
+    .limit(labelLimit);
+  const labels = await Promise.all(
+    rows.map(async (row) => ({
+      columns: [
+        {
+          image: await QRCode.toDataURL(row.assetTag, {
+            errorCorrectionLevel: 'M',
+            margin: 1,
+            width: 180,
+          }),
+          fit: [58, 58],
+          width: 62,
+        },
+        {
+          stack: [
+            { text: row.assetTag, bold: true, fontSize: 13 },
+            { text: instrumentNameOf(row.instrumentId), fontSize: 9, margin: [0, 2, 0, 0] },
+            {
+              text: `${row.schoolCode} · Merrow Basin Unified property`,
+              fontSize: 7,
+              color: '#555555',
+            },
+          ],
+          margin: [4, 6, 0, 0],
+        },
+      ],
+      margin: [4, 4, 4, 4],
+    })),
+  );
+  const body: unknown[][] = [];
+  for (let start = 0; start < labels.length; start += labelsAcross) {
+    const line: unknown[] = labels.slice(start, start + labelsAcross);
+    while (line.length < labelsAcross) line.push({ text: '' });
+    body.push(line);
+  }
+  return renderPdf({
+    info: { title: 'Asset-tag labels', creator: 'Tuttiboard' },
+    pageSize: 'LETTER',
+    pageMargins: [24, 30, 24, 30],
+    content: body.length
+      ? [
+          {
+            table: { widths: ['*', '*', '*'], body, dontBreakRows: true },
+            layout: {
+              hLineColor: () => '#bbbbbb',
+              vLineColor: () => '#bbbbbb',
+              hLineWidth: () => 0.5,
+              vLineWidth: () => 0.5,
+            },
+          },
+        ]
+      : [{ text: 'No instruments to label.', italics: true }],
+  });
+}

@@ -1,0 +1,98 @@
+import { and, desc, eq, inArray } from 'drizzle-orm';
+import type { Database } from '../db/client';
+import {
+  instrumentEvents,
+  instrumentPhotos,
+  loans,
+  repairTickets,
+  students,
+  users,
+} from '../db/schema/index';
+import type { InstrumentDetail } from '../../shared/api/instrument';
+import type { Actor } from '../core/policy';
+import { findInstrument } from './instruments-queries';
+import { todayIso } from '../loans/school-calendar';
+
+/** One instrument with its timeline, photos, active loan and open repair tickets. */
+export async function instrumentDetail(
+  db: Database,
+  actor: Actor,
+  id: number,
+): Promise<InstrumentDetail> {
+  const instrument = await findInstrument(db, actor, id);
+  const [timeline, photos, [activeLoan], openRepairs] = await Promise.all([
+    db
+      .select({
+        id: instrumentEvents.id,
+        kind: instrumentEvents.kind,
+        at: instrumentEvents.at,
+        note: instrumentEvents.note,
+        userName: users.name,
+        loanId: instrumentEvents.loanId,
+        repairId: instrumentEvents.repairId,
+        countId: instrumentEvents.countId,
+      })
+      .from(instrumentEvents)
+      .leftJoin(users, eq(users.id, instrumentEvents.userId))
+      .where(eq(instrumentEvents.instrumentId, id))
+      .orderBy(desc(instrumentEvents.at), desc(instrumentEvents.id))
+      .limit(200),
+    db
+      .select()
+      .from(instrumentPhotos)
+      .where(eq(instrumentPhotos.instrumentId, id))
+      .orderBy(instrumentPhotos.id),
+    db
+      .select({
+        id: loans.id,
+        studentId: loans.studentId,
+        firstName: students.firstName,
+        lastName: students.lastName,
+        preferredName: students.preferredName,
+        schoolId: loans.schoolId,
+        checkedOutOn: loans.checkedOutOn,
+        dueOn: loans.dueOn,
+        signedAt: loans.signedAt,
+      })
+      .from(loans)
+      .innerJoin(students, eq(students.id, loans.studentId))
+      .where(and(eq(loans.instrumentId, id), eq(loans.state, 'active'))),
+    db
+      .select({
+        id: repairTickets.id,
+        problem: repairTickets.problem,
+        status: repairTickets.status,
+        vendor: repairTickets.vendor,
+        sentOn: repairTickets.sentOn,
+      })
+      .from(repairTickets)
+      .where(
+        and(eq(repairTickets.instrumentId, id), inArray(repairTickets.status, ['open', 'sent'])),
+      )
+      .orderBy(repairTickets.id),
+  ]);
+  return {
+    ...instrument,
+    timeline: timeline.map((event) => ({ ...event, at: event.at.toISOString() })),
+    photos: photos.map((photo) => ({
+      id: photo.id,
+      contentType: photo.contentType,
+      sizeBytes: photo.sizeBytes,
+      url: `/api/instruments/${id}/photos/${photo.id}`,
+      createdAt: photo.createdAt.toISOString(),
+    })),
+    activeLoan: activeLoan
+      ? {
+          id: activeLoan.id,
+          studentId: activeLoan.studentId,
+          studentName: `${activeLoan.preferredName ?? activeLoan.firstName} ${activeLoan.lastName}`,
+          schoolId: activeLoan.schoolId,
+          checkedOutOn: activeLoan.checkedOutOn,
+          dueOn: activeLoan.dueOn,
+          overdue: activeLoan.dueOn < todayIso(),
+          signed: activeLoan.signedAt !== null,
+        }
+      : null,
+    openRepairs,
+  };
+}
