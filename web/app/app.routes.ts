@@ -27,6 +27,14 @@ export const routes: Routes = [
         data: { capability: 'schools:read' },
         loadChildren: () => import('./schools/schools.routes').then((m) => m.schoolsRoutes),
       },
+      {
+        path: 'practice',
+        canActivate: [capabilityGuard],
+        data: { capability: 'practice:read' },
+        loadComponent: () =>
+          import('./practice/practice-sheets/practice-sheets').then((m) => m.PracticeSheets),
+        title: 'Practice sheets · Tuttiboard',
+      },
       { path: '**', component: NotFound, title: 'Not found · Tuttiboard' },
     ],
   },

@@ -37,6 +37,7 @@ import key from '@material-symbols/svg-400/outlined/key.svg';
 import cloudOff from '@material-symbols/svg-400/outlined/cloud_off.svg';
 import schedule from '@material-symbols/svg-400/outlined/schedule.svg';
 import libraryMusic from '@material-symbols/svg-400/outlined/library_music.svg';
+import checklist from '@material-symbols/svg-400/outlined/checklist.svg';
 
 /** The icons the app uses, shipped in the bundle from the Material Symbols package. */
 const icons: Record<string, string> = {
@@ -76,6 +77,7 @@ const icons: Record<string, string> = {
   cloud_off: cloudOff,
   schedule: schedule,
   library_music: libraryMusic,
+  checklist: checklist,
 };
 
 /** Registers the icons as inline SVGs, so no icon font or request leaves the app. */

@@ -1,0 +1,175 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  computed,
+  inject,
+  input,
+} from '@angular/core';
+import { Router } from '@angular/router';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatIconModule } from '@angular/material/icon';
+import { practicePlan } from '../../../../shared/music';
+import { PageState } from '../../core/state/page-state';
+import { BandSet, type Ensemble } from '../band-set/band-set';
+import { downloadMusicXml } from '../musicxml-download';
+import { SheetPlayback } from '../playback/sheet-playback';
+import { PlanPanel } from '../practice-plan/plan-panel';
+import { PlanPrint } from '../practice-plan/plan-print';
+import { buildSheet, type ReadySheet } from '../sheet';
+import { SheetForm } from '../sheet-form/sheet-form';
+import { parseSheetRequest, toSheetQuery, type SheetRequest } from '../sheet-request';
+import { Staff } from '../staff/staff';
+
+/** What the page shows below the form: the sheet, the band set or the printable plan. */
+export type PracticeView = 'sheet' | 'band-set' | 'plan';
+
+/**
+ * Practice sheets: any scale for any instrument in written pitch, printable, downloadable as
+ * MusicXML and playable at concert pitch. Every choice lives in the query string, so a link
+ * such as /practice?tonic=Bb&mode=major&pattern=cycle-broad&tempo=100&instrument=clarinet
+ * opens that sheet.
+ */
+@Component({
+  selector: 'tb-practice-sheets',
+  imports: [
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatIconModule,
+    PageState,
+    SheetForm,
+    Staff,
+    BandSet,
+    PlanPanel,
+    PlanPrint,
+  ],
+  templateUrl: './practice-sheets.html',
+  styleUrl: './practice-sheets.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class PracticeSheets {
+  private readonly router = inject(Router);
+  protected readonly playback = inject(SheetPlayback);
+
+  constructor() {
+    inject(DestroyRef).onDestroy(() => this.playback.stop());
+  }
+
+  readonly tonic = input<string>();
+  readonly mode = input<string>();
+  readonly pattern = input<string>();
+  readonly tempo = input<string>();
+  readonly articulation = input<string>();
+  readonly octaves = input<string>();
+  readonly instrument = input<string>();
+  readonly pitch = input<string>();
+  /** 'band-set' or 'plan' for the print layouts; the sheet otherwise. */
+  readonly view = input<string>();
+  /** 'orchestra' for a string orchestra's set; a band's otherwise. */
+  readonly ensemble = input<string>();
+  /** The practice-plan step on the sheet, if any. */
+  readonly step = input<string>();
+
+  /** The requirement the form shows and the plan leads to. */
+  protected readonly requirement = computed(() =>
+    parseSheetRequest({
+      tonic: this.tonic(),
+      mode: this.mode(),
+      pattern: this.pattern(),
+      tempo: this.tempo(),
+      articulation: this.articulation(),
+      octaves: this.octaves(),
+      instrument: this.instrument(),
+      pitch: this.pitch(),
+    }),
+  );
+  protected readonly shownView = computed<PracticeView>(() => {
+    const view = this.view();
+    return view === 'band-set' || view === 'plan' ? view : 'sheet';
+  });
+  protected readonly shownEnsemble = computed<Ensemble>(() =>
+    this.ensemble() === 'orchestra' ? 'orchestra' : 'band',
+  );
+  protected readonly plan = computed(() => {
+    const requirement = this.requirement();
+    return practicePlan(
+      {
+        key: { tonic: requirement.tonic, mode: requirement.mode },
+        pattern: requirement.pattern,
+        tempo: requirement.tempo,
+        articulation: requirement.articulation,
+        octaves: requirement.octaves,
+      },
+      { instrument: requirement.instrument },
+    );
+  });
+  protected readonly shownStep = computed(() => {
+    const id = this.step();
+    const index = this.plan().findIndex((step) => step.id === id);
+    return index < 0 ? undefined : { ...this.plan()[index], number: index + 1 };
+  });
+  /** The request on the sheet: the requirement, or the step of the plan being practised. */
+  protected readonly shownRequest = computed<SheetRequest>(() => {
+    const step = this.shownStep();
+    const requirement = this.requirement();
+    return step
+      ? {
+          ...requirement,
+          pattern: step.pattern,
+          tempo: step.tempo,
+          articulation: step.articulation,
+          octaves: step.octaves,
+        }
+      : requirement;
+  });
+  protected readonly sheet = computed(() => buildSheet(this.shownRequest()));
+
+  /** Opens another requirement from the form; a step being practised is left. */
+  protected choose(request: SheetRequest): void {
+    this.playback.stop();
+    this.go({ ...toSheetQuery(request), step: null });
+  }
+
+  protected tryOneOctave(): void {
+    this.choose({ ...this.requirement(), octaves: 1 });
+  }
+
+  protected showStep(id: string | null): void {
+    this.playback.stop();
+    this.go({ step: id, view: null });
+  }
+
+  protected showView(view: PracticeView): void {
+    this.playback.stop();
+    this.go({ view: view === 'sheet' ? null : view });
+  }
+
+  protected chooseEnsemble(ensemble: Ensemble): void {
+    this.go({ ensemble: ensemble === 'band' ? null : ensemble });
+  }
+
+  protected download(sheet: ReadySheet): void {
+    downloadMusicXml(sheet);
+  }
+
+  protected print(): void {
+    window.print();
+  }
+
+  protected togglePlayback(sheet: ReadySheet): void {
+    if (this.playback.playing()) {
+      this.playback.stop();
+    } else {
+      void this.playback.play(sheet.concertNotes, sheet.request.tempo);
+    }
+  }
+
+  private go(queryParams: Record<string, string | null>): void {
+    void this.router.navigate([], {
+      queryParams,
+      queryParamsHandling: 'merge',
+      replaceUrl: true,
+    });
+  }
+}

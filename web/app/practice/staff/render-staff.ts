@@ -1,0 +1,210 @@
+import {
+  Accidental,
+  BarlineType,
+  Beam,
+  Dot,
+  Formatter,
+  Renderer,
+  Stave,
+  StaveNote,
+  StaveTie,
+  VexFlow,
+  Voice,
+  type RenderContext,
+} from 'vexflow/core';
+import { parseNote } from '../../../../shared/music';
+import { beamOf, layOutMeasures, type NotatedPiece } from '../../../../shared/music/measure-layout';
+import type { StaffMusic } from '../sheet';
+import { loadNotationFont, notationFontFamily } from './notation-font';
+import { drawSlur, slurBelow, type PlacedNote } from './slurs';
+import {
+  keySpecFor,
+  lineSpacing,
+  measureWidth,
+  openingWidth,
+  planSystems,
+  signatureAlteration,
+  staffWidth,
+  verticalRoom,
+} from './staff-layout';
+
+/** One drawn piece and where it sits. */
+interface DrawnPiece extends PlacedNote {
+  piece: NotatedPiece;
+  system: number;
+}
+
+const durations: Record<string, string> = {
+  whole: 'w',
+  half: 'h',
+  quarter: 'q',
+  eighth: '8',
+  '16th': '16',
+  '32nd': '32',
+};
+
+const accidentalSigns: Record<number, string> = { [-2]: 'bb', [-1]: 'b', 0: 'n', 1: '#', 2: '##' };
+
+/** The key VexFlow places a rest on: the middle line of each clef. */
+const restKeys: Record<StaffMusic['clef'], string> = { treble: 'b/4', bass: 'd/3', alto: 'c/4' };
+
+/**
+ * Draws a pattern as SVG into `host`: 4/4 measures from the engine's measure layout (so the
+ * page and the MusicXML file agree), the clef, key signature and time signature, the metronome
+ * mark above the first measure (left to the heading on a compact staff), accidentals only where the key signature and earlier notes of
+ * the measure do not already give the pitch, ties, beams and slurs. Returns the number of notes
+ * and rests drawn.
+ */
+export async function renderStaff(
+  host: HTMLElement,
+  music: StaffMusic,
+  options: { compact: boolean },
+): Promise<number> {
+  await loadNotationFont();
+  VexFlow.setFonts(notationFontFamily, 'Public Sans');
+  host.replaceChildren();
+
+  const measures = layOutMeasures(music.notes);
+  const { systems } = planSystems(measures, music.fifths, options.compact);
+  const renderer = new Renderer(host as HTMLDivElement, Renderer.Backends.SVG);
+  const context = renderer.getContext();
+  const drawn: DrawnPiece[] = [];
+  const gap = options.compact ? 0 : lineSpacing;
+  let cursor = 0;
+  let previousStretch = Infinity;
+
+  systems.forEach((measureIndexes, system) => {
+    const pieces = measureIndexes.flatMap((index) => measures[index]);
+    const room = verticalRoom(pieces, music.clef, options.compact);
+    const above = room.above + (system === 0 && !options.compact ? 3 * lineSpacing : 0);
+    const topLine = cursor + above;
+    const first = system === 0;
+    const opening = openingWidth(music.fifths, first);
+    const natural = measureIndexes.map((index) => measureWidth(measures[index], options.compact));
+    const justified = (staffWidth - 2 - opening) / natural.reduce((sum, width) => sum + width, 0);
+    // A short last line keeps the spacing of the line above instead of spreading its notes apart.
+    const stretch =
+      system === systems.length - 1 ? Math.min(justified, previousStretch * 1.35) : justified;
+    previousStretch = justified;
+    let x = 1;
+    measureIndexes.forEach((measureIndex, position) => {
+      const width = natural[position] * stretch + (position === 0 ? opening : 0);
+      const stave = new Stave(x, topLine - 4 * lineSpacing, width);
+      if (position === 0) {
+        stave.setBegBarType(BarlineType.NONE);
+        stave.addClef(music.clef).addKeySignature(keySpecFor(music.fifths));
+        // Room between the time signature and the first note, as engravers leave it.
+        if (first) stave.addTimeSignature('4/4', 26);
+        // A compact staff sits under a heading that already names the tempo.
+        if (first && !options.compact) {
+          stave.setTempo({ duration: 'q', bpm: music.tempo }, -lineSpacing);
+        }
+      }
+      if (measureIndex === measures.length - 1) stave.setEndBarType(BarlineType.END);
+      stave.setContext(context).draw();
+      const notes = drawMeasure(context, stave, measures[measureIndex], music);
+      notes.forEach((note, index) =>
+        drawn.push({ piece: measures[measureIndex][index], note, stave, system }),
+      );
+      x += width;
+    });
+    cursor = topLine + 4 * lineSpacing + room.below + gap;
+  });
+
+  drawTies(context, drawn);
+  drawSlurs(context, drawn);
+  renderer.resize(staffWidth, Math.ceil(cursor));
+  const svg = host.querySelector('svg');
+  if (svg) {
+    svg.setAttribute('viewBox', `0 0 ${staffWidth} ${Math.ceil(cursor)}`);
+    svg.removeAttribute('width');
+    svg.removeAttribute('height');
+    svg.setAttribute('aria-hidden', 'true');
+  }
+  return drawn.length;
+}
+
+function drawMeasure(
+  context: RenderContext,
+  stave: Stave,
+  pieces: NotatedPiece[],
+  music: StaffMusic,
+): StaveNote[] {
+  const shown = new Map<string, number>();
+  const notes = pieces.map((piece) => {
+    const rest = piece.note === null;
+    const note = new StaveNote({
+      clef: music.clef,
+      keys: [rest ? restKeys[music.clef] : vexKey(piece.note as string)],
+      duration: `${durations[piece.type]}${rest ? 'r' : ''}`,
+      dots: piece.dotted ? 1 : 0,
+      autoStem: !rest,
+      alignCenter: rest && piece.beats === 4,
+    });
+    if (piece.dotted) Dot.buildAndAttach([note], { all: true });
+    if (!rest) {
+      const pitch = parseNote(piece.note as string, true);
+      const place = `${pitch.letter}${pitch.octave}`;
+      const current = shown.get(place) ?? signatureAlteration(pitch.letter, music.fifths);
+      // A note tied over the bar line keeps its pitch without a new sign.
+      if (current !== pitch.alteration && !piece.tieStop) {
+        note.addModifier(new Accidental(accidentalSigns[pitch.alteration]), 0);
+      }
+      shown.set(place, pitch.alteration);
+    }
+    return note;
+  });
+  const beams = pieces.flatMap((_, index) =>
+    beamOf(pieces, index) === 'begin' ? [new Beam([notes[index], notes[index + 1]], true)] : [],
+  );
+  const voice = new Voice({ numBeats: 4, beatValue: 4 }).addTickables(notes);
+  new Formatter().joinVoices([voice]).formatToStave([voice], stave);
+  voice.draw(context, stave);
+  beams.forEach((beam) => beam.setContext(context).draw());
+  return notes;
+}
+
+function vexKey(note: string): string {
+  const pitch = parseNote(note, true);
+  const sign = pitch.alteration > 0 ? '#'.repeat(pitch.alteration) : 'b'.repeat(-pitch.alteration);
+  return `${pitch.letter.toLowerCase()}${sign}/${pitch.octave}`;
+}
+
+function drawTies(context: RenderContext, drawn: DrawnPiece[]): void {
+  drawn.forEach(({ piece, note, system }, index) => {
+    const next = drawn[index + 1];
+    if (!piece.tieStart || !next) return;
+    const ends = (firstNote: StaveNote | null, lastNote: StaveNote | null) =>
+      new StaveTie({ firstNote, lastNote, firstIndexes: [0], lastIndexes: [0] })
+        .setContext(context)
+        .draw();
+    if (next.system === system) {
+      ends(note, next.note);
+    } else {
+      ends(note, null);
+      ends(null, next.note);
+    }
+  });
+}
+
+/** Slurs from each slurred group's first piece to its last, broken where a line of music ends. */
+function drawSlurs(context: RenderContext, drawn: DrawnPiece[]): void {
+  let start: number | undefined;
+  drawn.forEach(({ piece }, index) => {
+    if (piece.slurStart) start = index;
+    if (piece.slurStop && start !== undefined) {
+      const group = drawn.slice(start, index + 1);
+      const systems = [...new Set(group.map(({ system }) => system))];
+      const below = slurBelow(group);
+      systems.forEach((system, position) => {
+        const segment = group.filter((entry) => entry.system === system);
+        drawSlur(context, segment, {
+          below,
+          opensBefore: position > 0,
+          continuesAfter: position < systems.length - 1,
+        });
+      });
+      start = undefined;
+    }
+  });
+}
