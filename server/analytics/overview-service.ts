@@ -40,7 +40,7 @@ export async function overview(db: Database, actor: Actor, query: unknown): Prom
     rungHistogram(db, actor, filters),
     passOffsPerWeek(db, actor, filters, asOf),
     stalledStudents(db, actor, drillFilters, asOf, options.stalledDays),
-    quietDirectors(db, actor, filters, asOf, options.stalledDays),
+    quietDirectors(db, actor, filters, asOf, options.quietDays),
   ]);
   const figures = await rungFigures(db, cells, ladder.rungCount, ladder.benchmarks, drillFilters, asOf);
   return {

@@ -142,6 +142,8 @@ export const overviewQuerySchema = z.object({
   ensembleId: z.coerce.number().int().positive().optional(),
   /** Days without a pass-off before a student counts as stalled (default 30). */
   stalledDays: z.coerce.number().int().min(1).max(365).default(30),
+  /** Days without an entry before a director counts as quiet (default 30). */
+  quietDays: z.coerce.number().int().min(1).max(365).default(30),
   /** Read the figures as on this day (ISO date); default today. */
   asOf: z.iso.date().optional(),
 });
