@@ -90,15 +90,6 @@ export function toSheetQuery(request: SheetRequest): Record<keyof SheetRequest, 
   };
 }
 
-/** Whether two requests pick the same sheet. */
-export function sameRequest(a: SheetRequest, b: SheetRequest): boolean {
-  const first = toSheetQuery(a);
-  const second = toSheetQuery(b);
-  return (Object.keys(first) as (keyof SheetRequest)[]).every(
-    (name) => first[name] === second[name],
-  );
-}
-
 /**
  * The tonic offered for `mode` that names `tonic` or sounds the same, else the default. Used
  * when the mode changes under a chosen tonic (Gb major → F# minor).
