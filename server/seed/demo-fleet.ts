@@ -186,6 +186,7 @@ export async function seedDemoFleet(tx: Transaction, context: { schoolYearEndsOn
     .innerJoin(students, eq(students.id, enrollments.studentId))
     .where(and(eq(students.status, 'active'), eq(enrollments.active, true)));
   const borrowed = new Set<number>();
+  const lentBySchool = new Map<number, number>();
   const statusOf = new Map<number, InstrumentStatus>();
   const loanRows: (typeof loans.$inferInsert)[] = [];
   const loanEvents: { instrumentId: number; at: Date; note: string }[] = [];
@@ -211,7 +212,10 @@ export async function seedDemoFleet(tx: Transaction, context: { schoolYearEndsOn
     if (candidates.length === 0) continue;
     const student = forDemo ? demoPlayer : random.pick(candidates);
     borrowed.add(student.studentId);
-    const overdue = !forDemo && random.chance(0.12);
+    const lentHere = (lentBySchool.get(student.schoolId) ?? 0) + 1;
+    lentBySchool.set(student.schoolId, lentHere);
+    // Every eighth loan of a school is overdue, so every school's overdue list has some.
+    const overdue = !forDemo && lentHere % 8 === 3;
     const signed = forDemo || random.chance(0.8);
     const checkedOutOn = dayBetween(random, '2026-08-24', '2026-11-20');
     const dueOn = overdue
