@@ -17,6 +17,13 @@ import { deletePreset, listPresets, savePreset } from './import-presets';
 import { importRoster, planUpload } from './import-service';
 import { UploadStore } from './upload-store';
 
+const expired = () =>
+  new HttpError(
+    410,
+    'expired',
+    'This upload is no longer kept (uploads wait 30 minutes for their commit); upload the file again.',
+  );
+
 const megabytes = largestRosterUpload / (1024 * 1024);
 
 /** multer, with its refusals (too large, wrong field, broken multipart) answered as 4xx. */
@@ -66,18 +73,26 @@ export function importsRoutes({ config, db, database }: Services): Router {
 
   router.post('/imports/preview', runs, rosterUpload(), async (request, response) => {
     const actor = actorOf(request);
-    if (!request.file)
+    const fields = parseInput(previewFieldsSchema, request.body ?? {}, 'The upload');
+    let bytes: Uint8Array;
+    let fileName: string;
+    let token: string;
+    if (request.file) {
+      const { buffer } = request.file;
+      bytes = new Uint8Array(buffer.buffer, buffer.byteOffset, buffer.byteLength);
+      fileName = cleanFileName(request.file.originalname);
+      token = await uploads.save({ fileName, userId: actor.userId }, bytes);
+    } else if (fields.importToken) {
+      // A new mapping for a file already uploaded: read the kept bytes, not a second upload.
+      const stored = await uploads.open(fields.importToken, actor.userId);
+      if (!stored) throw expired();
+      ({ bytes, fileName } = stored);
+      token = fields.importToken;
+    } else {
       throw badRequest("Choose a roster file to upload (the form field 'file').", [
         { field: 'file', message: 'Choose a file.' },
       ]);
-    const fields = parseInput(previewFieldsSchema, request.body ?? {}, 'The upload');
-    const bytes = new Uint8Array(
-      request.file.buffer.buffer,
-      request.file.buffer.byteOffset,
-      request.file.buffer.byteLength,
-    );
-    const fileName = cleanFileName(request.file.originalname);
-    const token = await uploads.save({ fileName, userId: actor.userId }, bytes);
+    }
     const plan = await planUpload(database, {
       upload: { fileName, bytes },
       mapping: fields.mapping,
@@ -91,13 +106,7 @@ export function importsRoutes({ config, db, database }: Services): Router {
     const actor = actorOf(request);
     const input = parseInput(commitRequestSchema, request.body, 'The commit');
     const stored = await uploads.open(input.importToken, actor.userId);
-    if (!stored) {
-      throw new HttpError(
-        410,
-        'expired',
-        'This upload is no longer kept (uploads wait 30 minutes for their commit); upload the file again.',
-      );
-    }
+    if (!stored) throw expired();
     const { result } = await importRoster(
       database,
       {

@@ -132,6 +132,11 @@ export const previewFieldsSchema = z.object({
       return z.NEVER;
     }),
   withdrawMissing: flag,
+  /** Instead of a file: the token of an upload kept from an earlier preview. */
+  importToken: z
+    .string()
+    .regex(/^[A-Za-z0-9_-]{16,64}$/, 'The import token is not one this server gave.')
+    .optional(),
 });
 
 /** What `POST /api/imports/commit` takes. */

@@ -331,6 +331,17 @@ describe('Roster imports API', () => {
     );
     expect(guessed.body.plan.validRows).toBe(0);
     const mapping = { ...guessed.body.guessedMapping, studentId: 'Pupil Number' };
+    const remapped = await request(app.url)
+      .post('/api/imports/preview')
+      .set({ Cookie: coordinator.cookie, Origin: app.url })
+      .field('importToken', guessed.body.importToken)
+      .field('mapping', JSON.stringify(mapping));
+    expect(remapped.status).toBe(200);
+    expect(remapped.body).toMatchObject({
+      importToken: guessed.body.importToken,
+      mappingProblems: [],
+    });
+    expect(remapped.body.plan.validRows).toBe(1);
     const { previewed, committed } = await previewAndCommit(file, { mapping });
     expect(previewed.mappingProblems).toEqual([]);
     expect(previewed.rows[0].cells).toMatchObject({ studentId: 'IM-6001', grade: '5' });

@@ -35,6 +35,12 @@ export const routes: Routes = [
           import('./practice/practice-sheets/practice-sheets').then((m) => m.PracticeSheets),
         title: 'Practice sheets · Tuttiboard',
       },
+      {
+        path: 'imports',
+        canActivate: [capabilityGuard],
+        data: { capability: 'imports:run' },
+        loadChildren: () => import('./imports/imports.routes').then((m) => m.importsRoutes),
+      },
       { path: '**', component: NotFound, title: 'Not found · Tuttiboard' },
     ],
   },

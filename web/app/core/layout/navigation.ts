@@ -16,6 +16,7 @@ export interface NavigationItem {
 export const navigationItems: NavigationItem[] = [
   { path: '/overview', label: 'Overview', icon: 'space_dashboard', group: 'district', hiddenFor: ['student'] },
   { path: '/schools', label: 'Schools', icon: 'school', capability: 'schools:read', group: 'district' },
+  { path: '/imports', label: 'Imports', icon: 'upload_file', capability: 'imports:run', group: 'district' },
   { path: '/practice', label: 'Practice sheets', icon: 'music_note', capability: 'practice:read', group: 'music' },
 ];
 

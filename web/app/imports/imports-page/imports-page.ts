@@ -1,0 +1,42 @@
+import { ChangeDetectionStrategy, Component, signal } from '@angular/core';
+import { MatTabsModule } from '@angular/material/tabs';
+import { ImportHistory } from '../import-history/import-history';
+import { ImportWizard } from '../import-wizard/import-wizard';
+
+/** The Imports screen: a new roster import, and the history of past ones. */
+@Component({
+  selector: 'tb-imports-page',
+  imports: [MatTabsModule, ImportHistory, ImportWizard],
+  template: `
+    <div class="tb-page">
+      <header class="tb-page-header">
+        <div>
+          <h1>Imports</h1>
+          <p>
+            Bring the roster in from the student information system: upload, check every row, then
+            commit in one step.
+          </p>
+        </div>
+      </header>
+      <mat-tab-group animationDuration="0ms" mat-stretch-tabs="false">
+        <mat-tab label="New import">
+          <div class="tab"><tb-import-wizard (committed)="imported.set(imported() + 1)" /></div>
+        </mat-tab>
+        <mat-tab label="History">
+          <ng-template matTabContent>
+            <div class="tab"><tb-import-history [refresh]="imported()" /></div>
+          </ng-template>
+        </mat-tab>
+      </mat-tab-group>
+    </div>
+  `,
+  styles: `
+    .tab {
+      padding-top: 16px;
+    }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ImportsPage {
+  protected readonly imported = signal(0);
+}

@@ -1,0 +1,100 @@
+import { HttpClient, HttpEventType, HttpParams, type HttpEvent } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { filter, map, type Observable } from 'rxjs';
+import {
+  importDetailSchema,
+  importHistoryEntrySchema,
+  importPresetSchema,
+  importPreviewSchema,
+  importResultSchema,
+  type CommitRequest,
+  type ImportDetail,
+  type ImportHistoryEntry,
+  type ImportPreset,
+  type ImportPreview,
+  type ImportResult,
+} from '../../../shared/api/import';
+import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import type { ColumnMapping } from '../../../shared/roster/roster-columns';
+import { parsedWith } from '../core/parse';
+
+const historySchema = listResponseSchema(importHistoryEntrySchema);
+const presetListSchema = listResponseSchema(importPresetSchema);
+
+/** A preview on its way: upload progress (0 to 1), then the answer. */
+export type PreviewProgress =
+  { kind: 'progress'; share: number } | { kind: 'done'; preview: ImportPreview };
+
+/** What a preview is asked for: a new file, or a kept upload with another mapping. */
+export interface PreviewRequest {
+  file?: File;
+  importToken?: string;
+  mapping?: ColumnMapping;
+  withdrawMissing: boolean;
+}
+
+/** Roster uploads, commits, the import history and saved mappings, through `/api/imports`. */
+@Injectable({ providedIn: 'root' })
+export class RosterImports {
+  private readonly http = inject(HttpClient);
+
+  preview(request: PreviewRequest): Observable<PreviewProgress> {
+    const form = new FormData();
+    if (request.file) form.append('file', request.file, request.file.name);
+    if (request.importToken) form.append('importToken', request.importToken);
+    if (request.mapping) form.append('mapping', JSON.stringify(request.mapping));
+    form.append('withdrawMissing', String(request.withdrawMissing));
+    return this.http
+      .post('/api/imports/preview', form, { reportProgress: true, observe: 'events' })
+      .pipe(
+        filter(
+          (event: HttpEvent<unknown>) =>
+            event.type === HttpEventType.UploadProgress || event.type === HttpEventType.Response,
+        ),
+        map((event): PreviewProgress => {
+          if (event.type === HttpEventType.UploadProgress) {
+            return { kind: 'progress', share: event.total ? event.loaded / event.total : 0 };
+          }
+          return {
+            kind: 'done',
+            preview: importPreviewSchema.parse((event as { body: unknown }).body),
+          };
+        }),
+      );
+  }
+
+  commit(request: CommitRequest): Observable<ImportResult> {
+    return this.http.post('/api/imports/commit', request).pipe(parsedWith(importResultSchema));
+  }
+
+  history(
+    query: Record<string, string | number> = {},
+  ): Observable<ListResponse<ImportHistoryEntry>> {
+    return this.http
+      .get('/api/imports', { params: new HttpParams({ fromObject: query }) })
+      .pipe(parsedWith(historySchema));
+  }
+
+  detail(id: number): Observable<ImportDetail> {
+    return this.http.get(`/api/imports/${id}`).pipe(parsedWith(importDetailSchema));
+  }
+
+  /** Where an import's error report downloads from. */
+  errorReportUrl(id: number): string {
+    return `/api/imports/${id}/errors.csv`;
+  }
+
+  presets(): Observable<ListResponse<ImportPreset>> {
+    return this.http.get('/api/imports/presets').pipe(parsedWith(presetListSchema));
+  }
+
+  savePreset(name: string, mapping: ColumnMapping): Observable<ImportPreset> {
+    return this.http
+      .post('/api/imports/presets', { name, mapping })
+      .pipe(parsedWith(importPresetSchema));
+  }
+
+  deletePreset(id: number): Observable<unknown> {
+    return this.http.delete(`/api/imports/presets/${id}`);
+  }
+}
