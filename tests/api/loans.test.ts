@@ -59,16 +59,6 @@ function checkout(
   });
 }
 
-async function tokenOfLoan(loanId: number): Promise<string> {
-  const [message] = await query<{ text: string; kind: string; to: string[] }>(
-    sql`select text, kind, "to" from outbox_messages where related_type = 'loan' and related_id = ${loanId} and kind = 'loan-agreement' order by id desc limit 1`,
-  );
-  expect(message, 'the agreement e-mail is in the outbox').toBeDefined();
-  const token = /\/agreements\/([A-Za-z0-9_-]+)/.exec(message!.text)?.[1];
-  expect(token).toBeDefined();
-  return token!;
-}
-
 beforeAll(async () => {
   app = await startTestApp();
   [coordinator, director, technician, viewer, student] = await Promise.all([
@@ -256,5 +246,20 @@ describe('Loans', () => {
     const unsigned = await coordinator.get('/api/loans?unsigned=true&state=active&limit=1000');
     expect(unsigned.body.total).toBeGreaterThan(0);
     expect(unsigned.body.rows.every((row: { signed: boolean }) => !row.signed)).toBe(true);
+  });
+
+  it('should e-mail one guardian a reminder of an overdue loan and refuse one for an ended loan', async () => {
+    const overdue = (await director.get('/api/loans?overdue=true&limit=1')).body.rows[0];
+    const reminded = await director.post(`/api/loans/${overdue.id}/reminder`);
+    expect(reminded.status).toBe(200);
+    expect(reminded.body.queued).toBe(1);
+    const [message] = await query<{ kind: string; subject: string }>(
+      sql`select kind, subject from outbox_messages where related_type = 'loan' and related_id = ${overdue.id} order by id desc limit 1`,
+    );
+    expect(message).toMatchObject({ kind: 'overdue-reminder' });
+    expect(message!.subject).toMatch(/^Overdue/);
+    const ended = (await director.get('/api/loans?state=returned&limit=1')).body.rows[0];
+    expect((await director.post(`/api/loans/${ended.id}/reminder`)).status).toBe(409);
+    expect((await technician.post(`/api/loans/${overdue.id}/reminder`)).status).toBe(403);
   });
 });
