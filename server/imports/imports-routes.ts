@@ -56,10 +56,13 @@ function rosterUpload(): RequestHandler {
 
 /** The name an upload is shown under: its base name, cut to a sensible length. */
 function cleanFileName(name: string | undefined): string {
-  const base = path
-    .basename((name ?? '').replaceAll('\\', '/'))
-    .replace(/[\u0000-\u001f\u007f]/g, '');
-  return base.slice(0, 200) || 'roster.csv';
+  const base = path.basename((name ?? '').replaceAll('\\', '/'));
+  // Control characters (C0 and DEL) have no place in a name shown on screen and in the history.
+  const printable = [...base].filter((character) => {
+    const code = character.charCodeAt(0);
+    return code >= 0x20 && code !== 0x7f;
+  });
+  return printable.join('').slice(0, 200) || 'roster.csv';
 }
 
 /**

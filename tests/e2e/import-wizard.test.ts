@@ -34,13 +34,11 @@ describe('Roster import wizard', () => {
       'Imports',
     );
 
-    await page
-      .getByTestId('roster-file')
-      .setInputFiles({
-        name: 'spring-roster.csv',
-        mimeType: 'text/csv',
-        buffer: Buffer.from(roster),
-      });
+    await page.getByTestId('roster-file').setInputFiles({
+      name: 'spring-roster.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from(roster),
+    });
     const studentIdSelect = page.getByTestId('map-studentId');
     await studentIdSelect.waitFor();
     await expect.poll(() => studentIdSelect.innerText()).toContain('not in this file');
