@@ -31,7 +31,11 @@ function demoFolder(): string {
 }
 
 async function tutti(dataDir: string, ...args: string[]) {
-  const environment = { ...process.env, TUTTI_DATA_DIR: dataDir, LOG_LEVEL: 'silent' };
+  const environment: NodeJS.ProcessEnv = {
+    ...process.env,
+    TUTTI_DATA_DIR: dataDir,
+    LOG_LEVEL: 'silent',
+  };
   delete environment['DATABASE_URL'];
   try {
     const { stdout, stderr } = await run('node', ['bin/tutti.js', ...args], {
