@@ -10,11 +10,18 @@ import { today } from './analytics-scope';
 import { passOffsPerWeek, quietDirectors, stalledStudents } from './activity-figures';
 import { rungFigures, rungHistogram } from './rung-histogram';
 
+const lastTopUp = new WeakMap<Database, number>();
+const topUpIntervalMs = 15_000;
+
 /**
  * Gives students added since the last rebuild (by a roster import, say) their summary row, so
- * every figure counts them. With every row present this is one anti-join on primary keys.
+ * every figure counts them. One anti-join on primary keys, run at most every 15 seconds per
+ * database: the figures may lag a roster import by that long.
  */
 export async function topUpAttainment(db: Database): Promise<void> {
+  const last = lastTopUp.get(db);
+  if (last !== undefined && Date.now() - last < topUpIntervalMs) return;
+  lastTopUp.set(db, Date.now());
   const missing = rowsOf<{ id: number }>(
     await db.execute(sql`select s.id from students s where not exists (select 1 from student_attainment a where a.student_id = s.id)`),
   );

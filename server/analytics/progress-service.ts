@@ -2,7 +2,8 @@ import { eq } from 'drizzle-orm';
 import type { StudentProgress } from '../../shared/api/analytics';
 import { benchmarksInForce, currentRung, metRequirements, nextRequirements, type PassOffRecord } from '../../shared/ladder/index';
 import type { Database } from '../db/client';
-import { students } from '../db/schema/index';
+import { studentAttainment, students } from '../db/schema/index';
+import { recomputeAttainment } from '../ladder/attainment';
 import { notFound } from '../core/errors';
 import type { Actor } from '../core/policy';
 import { activeRuleLadder } from '../ladder/ladder-queries';
@@ -10,6 +11,16 @@ import { familyOf, studentInstruments } from '../ladder/student-families';
 import { maySeeStudent } from '../pass-offs/pass-off-rows';
 import { passOffsOfStudent } from '../pass-offs/pass-offs-service';
 import { today } from './analytics-scope';
+
+/**
+ * Brings the student's summary row up to date when it no longer matches what the rules say now
+ * (a seat on another instrument changes the family, and seats change through the roster).
+ */
+async function healSummary(db: Database, studentId: number, now: { rung: number; family: string; versionId: number }) {
+  const [summary] = await db.select().from(studentAttainment).where(eq(studentAttainment.studentId, studentId));
+  if (summary && summary.rung === now.rung && summary.family === now.family && summary.ladderVersionId === now.versionId) return;
+  await db.transaction((tx) => recomputeAttainment(tx, [studentId]));
+}
 
 /**
  * `GET /api/analytics/students/:id/progress`: the student's rung on the active ladder, what
@@ -34,6 +45,7 @@ export async function studentProgress(db: Database, actor: Actor, studentId: num
   const nextCodes = new Set(next.requirements.map((requirement) => requirement.id));
   const nextRung = ladder.apiRungs.find((candidate) => candidate.number === next.rung);
   const benchmark = benchmarksInForce(ladder.benchmarks, asOf).get(student.grade);
+  await healSummary(db, studentId, { rung, family, versionId: ladder.versionId });
   return {
     studentId,
     studentName: `${student.preferredName ?? student.firstName} ${student.lastName}`,

@@ -22,7 +22,7 @@ export function ladderRoutes({ db }: Services): Router {
     response.json(await getActiveLadder(db));
   });
   router.get('/ladder/versions', requires('ladder:read'), async (request, response) => {
-    response.json(await listVersions(db, actorOf(request)));
+    response.json(await listVersions(db, actorOf(request), request.query));
   });
   router.get('/ladder/versions/:id', requires('ladder:read'), async (request, response) => {
     response.json(await getVersion(db, actorOf(request), parseId(request.params['id'])));

@@ -1,7 +1,10 @@
-import { and, desc, eq, ne } from 'drizzle-orm';
+import { and, count, eq, ilike, ne } from 'drizzle-orm';
+import { z } from 'zod';
 import type { Database } from '../db/client';
 import { ladderVersions, users } from '../db/schema/index';
-import type { Ladder, LadderDraftInput, LadderPatch, LadderVersionSummary } from '../../shared/api/ladder';
+import { ladderVersionStatuses, type Ladder, type LadderDraftInput, type LadderPatch, type LadderVersionSummary } from '../../shared/api/ladder';
+import type { ListResponse } from '../../shared/api/list';
+import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { can, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { conflict, notFound } from '../core/errors';
@@ -22,18 +25,38 @@ export async function getActiveLadder(db: Database): Promise<Ladder> {
   return loadLadder(db, id);
 }
 
-/** Every version, newest first; drafts only for those who may edit the ladder. */
+const versionFilters = z.object({ status: z.enum(ladderVersionStatuses).optional() });
+const versionSortable = {
+  name: ladderVersions.name,
+  status: ladderVersions.status,
+  createdAt: ladderVersions.createdAt,
+  publishedAt: ladderVersions.publishedAt,
+};
+
+/** The versions, newest first unless sorted; drafts only for those who may edit the ladder. */
 export async function listVersions(
   db: Database,
   actor: Actor,
-): Promise<{ rows: LadderVersionSummary[]; total: number }> {
-  const rows = await db
-    .select(versionSummaryColumns)
-    .from(ladderVersions)
-    .leftJoin(users, eq(users.id, ladderVersions.createdBy))
-    .where(can(actor, 'ladder:write') ? undefined : ne(ladderVersions.status, 'draft'))
-    .orderBy(desc(ladderVersions.id));
-  return { rows: rows.map(toVersionSummary), total: rows.length };
+  query: unknown,
+): Promise<ListResponse<LadderVersionSummary>> {
+  const list = parseListQuery(query, versionFilters);
+  const where = and(
+    can(actor, 'ladder:write') ? undefined : ne(ladderVersions.status, 'draft'),
+    list.status ? eq(ladderVersions.status, list.status) : undefined,
+    list.q ? ilike(ladderVersions.name, likePattern(list.q)) : undefined,
+  );
+  const [rows, [total]] = await Promise.all([
+    db
+      .select(versionSummaryColumns)
+      .from(ladderVersions)
+      .leftJoin(users, eq(users.id, ladderVersions.createdBy))
+      .where(where)
+      .orderBy(...orderFor(list.sort, versionSortable, 'createdAt:desc', ladderVersions.id))
+      .limit(list.limit)
+      .offset(list.offset),
+    db.select({ total: count() }).from(ladderVersions).where(where),
+  ]);
+  return { rows: rows.map(toVersionSummary), total: total!.total };
 }
 
 /** One version; a draft is 404 for those who may not edit the ladder. */

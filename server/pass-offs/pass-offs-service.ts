@@ -111,7 +111,11 @@ export async function recordPassOffs(db: Database, actor: Actor, inputs: PassOff
     .from(students)
     .where(inArray(students.id, studentIds));
   const studentsById = new Map(studentRows.map((row) => [row.id, row]));
-  for (const studentId of studentIds) assertInScope(actor, studentsById.get(studentId)?.schoolId, 'That student');
+  for (const studentId of studentIds) {
+    const student = studentsById.get(studentId);
+    if (!student) throw notFound('That student');
+    assertInScope(actor, student.schoolId, 'That student');
+  }
 
   return db.transaction(async (tx) => {
     const keys = inputs.flatMap((input) => (input.clientKey ? [input.clientKey] : []));
