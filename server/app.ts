@@ -18,6 +18,7 @@ import { signInLimit, tokenLimits } from './core/rate-limits';
 import { meRoutes } from './me/me-routes';
 import { schoolsRoutes } from './schools/schools-routes';
 import { tokensRoutes } from './tokens/tokens-routes';
+import { peopleRoutes } from './people/people-routes';
 import { studentsRoutes } from './students/students-routes';
 import { ensemblesRoutes } from './ensembles/ensembles-routes';
 import { enrollmentsRoutes } from './enrollments/enrollments-routes';
@@ -46,7 +47,7 @@ export interface AppOptions {
 }
 
 /** The feature routers, each mounted under /api. */
-const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, outboxRoutes, reportsRoutes, importsRoutes, studentsRoutes, ensemblesRoutes, enrollmentsRoutes, gridPreferencesRoutes, ladderRoutes, passOffsRoutes, analyticsRoutes, ...fleetRoutes];
+const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, peopleRoutes, outboxRoutes, reportsRoutes, importsRoutes, studentsRoutes, ensemblesRoutes, enrollmentsRoutes, gridPreferencesRoutes, ladderRoutes, passOffsRoutes, analyticsRoutes, ...fleetRoutes];
 
 /** Builds the Express app: security headers, sessions, sign-in, the API and the web app. */
 export async function createApp(config: Config, options: AppOptions): Promise<Express> {
@@ -101,13 +102,13 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   const signIn = createSignIn(config, db, logger);
   app.use(signIn.initialize, signIn.session);
   app.use(sameOriginWrites(() => [new URL(config.appUrl).origin], sessionCookieName));
-  app.use(['/auth/sign-in', '/auth/callback'], signInLimit());
+  app.use(['/auth/sign-in', '/auth/callback'], signInLimit(config.rateLimits.signIn));
   app.use(signIn.router);
 
   const api = Router();
   if (options.localKey) api.use('/local', localCommandRoutes(services, options.localKey));
   api.use(express.json({ limit: '2mb' }));
-  api.use(tokenLimits());
+  api.use(tokenLimits(config.rateLimits.token, config.rateLimits.tokenFailures));
   api.use(authenticate(db));
   api.use((_request, response, next) => {
     response.set('Cache-Control', 'no-store');

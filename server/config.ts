@@ -19,6 +19,9 @@ const environmentSchema = z.object({
   APP_URL: z.url().optional(),
   SESSION_SECRET: z.string().min(16).optional(),
   TRUST_PROXY: z.enum(['true', 'false']).default('false'),
+  RATE_LIMIT_SIGN_IN: z.coerce.number().int().min(1).default(40),
+  RATE_LIMIT_TOKEN: z.coerce.number().int().min(1).default(1200),
+  RATE_LIMIT_TOKEN_FAILURES: z.coerce.number().int().min(1).default(30),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -39,6 +42,8 @@ export interface Config {
   sessionSecret?: string;
   trustProxy: boolean;
   logLevel: z.infer<typeof environmentSchema>['LOG_LEVEL'];
+  /** Requests per minute: sign-ins per address, uses per token, failed tokens per address. */
+  rateLimits: { signIn: number; token: number; tokenFailures: number };
 }
 
 /** Reads and checks the environment; throws with every problem listed when a value is wrong. */
@@ -63,5 +68,10 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): Config
     sessionSecret: values.SESSION_SECRET,
     trustProxy: values.TRUST_PROXY === 'true',
     logLevel: values.LOG_LEVEL,
+    rateLimits: {
+      signIn: values.RATE_LIMIT_SIGN_IN,
+      token: values.RATE_LIMIT_TOKEN,
+      tokenFailures: values.RATE_LIMIT_TOKEN_FAILURES,
+    },
   };
 }
