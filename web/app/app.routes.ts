@@ -28,6 +28,18 @@ export const routes: Routes = [
         loadChildren: () => import('./schools/schools.routes').then((m) => m.schoolsRoutes),
       },
       {
+        path: 'ensembles',
+        canActivate: [capabilityGuard],
+        data: { capability: 'roster:read' },
+        loadChildren: () => import('./ensembles/ensembles.routes').then((m) => m.ensemblesRoutes),
+      },
+      {
+        path: 'students',
+        canActivate: [capabilityGuard],
+        data: { capability: 'roster:read' },
+        loadChildren: () => import('./students/students.routes').then((m) => m.studentsRoutes),
+      },
+      {
         path: 'practice',
         canActivate: [capabilityGuard],
         data: { capability: 'practice:read' },

@@ -32,6 +32,10 @@ import warning from '@material-symbols/svg-400/outlined/warning.svg';
 import check from '@material-symbols/svg-400/outlined/check.svg';
 import close from '@material-symbols/svg-400/outlined/close.svg';
 import chevronRight from '@material-symbols/svg-400/outlined/chevron_right.svg';
+import arrowBack from '@material-symbols/svg-400/outlined/arrow_back.svg';
+import checkBox from '@material-symbols/svg-400/outlined/check_box.svg';
+import checkBoxOutlineBlank from '@material-symbols/svg-400/outlined/check_box_outline_blank.svg';
+import viewColumn from '@material-symbols/svg-400/outlined/view_column.svg';
 import refresh from '@material-symbols/svg-400/outlined/refresh.svg';
 import key from '@material-symbols/svg-400/outlined/key.svg';
 import cloudOff from '@material-symbols/svg-400/outlined/cloud_off.svg';
@@ -72,6 +76,10 @@ const icons: Record<string, string> = {
   check: check,
   close: close,
   chevron_right: chevronRight,
+  arrow_back: arrowBack,
+  check_box: checkBox,
+  check_box_outline_blank: checkBoxOutlineBlank,
+  view_column: viewColumn,
   refresh: refresh,
   key: key,
   cloud_off: cloudOff,

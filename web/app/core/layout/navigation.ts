@@ -16,6 +16,8 @@ export interface NavigationItem {
 export const navigationItems: NavigationItem[] = [
   { path: '/overview', label: 'Overview', icon: 'space_dashboard', group: 'district', hiddenFor: ['student'] },
   { path: '/schools', label: 'Schools', icon: 'school', capability: 'schools:read', group: 'district' },
+  { path: '/ensembles', label: 'Ensembles', icon: 'groups', capability: 'roster:read', group: 'district' },
+  { path: '/students', label: 'Students', icon: 'person', capability: 'roster:read', group: 'district' },
   { path: '/imports', label: 'Imports', icon: 'upload_file', capability: 'imports:run', group: 'district' },
   { path: '/practice', label: 'Practice sheets', icon: 'music_note', capability: 'practice:read', group: 'music' },
 ];

@@ -1,46 +1,96 @@
-import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
-import { toSignal } from '@angular/core/rxjs-interop';
-import { catchError, map, of, startWith } from 'rxjs';
-import { PageState } from '../../core/state/page-state';
-import { SchoolData } from '../school-data';
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { Router, RouterLink } from '@angular/router';
+import type { ColDef } from 'ag-grid-community';
 import type { School } from '../../../../shared/api/school';
+import { CurrentUser } from '../../core/auth/current-user';
+import { ServerGrid } from '../../core/grid/server-grid';
+import { schoolLevelLabels, schoolSortFields } from '../school-labels';
 
-type State = { kind: 'loading' } | { kind: 'error' } | { kind: 'ready'; rows: School[] };
-
-/** Every school the user may see. */
+/** Every school the user may see, in a server-paged grid. */
 @Component({
   selector: 'tb-school-list',
-  imports: [PageState],
+  imports: [
+    ServerGrid,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    RouterLink,
+  ],
   template: `
     <div class="tb-page">
-      <header class="tb-page-header"><div><h1>Schools</h1><p>Schools, their music students and ensembles.</p></div></header>
-      @switch (state().kind) {
-        @case ('loading') { <tb-page-state kind="loading" title="Loading schools…" /> }
-        @case ('error') { <tb-page-state kind="error" title="The schools could not be loaded" message="Reload the page to try again." /> }
-        @case ('ready') {
-          <table class="tb-card">
-            <thead><tr><th scope="col">Code</th><th scope="col">School</th><th scope="col">Level</th><th scope="col">Students</th><th scope="col">Ensembles</th></tr></thead>
-            <tbody>
-              @for (school of $any(state()).rows; track school.id) {
-                <tr><td>{{ school.code }}</td><td>{{ school.name }}</td><td>{{ school.level }}</td><td>{{ school.studentCount }}</td><td>{{ school.ensembleCount }}</td></tr>
-              }
-            </tbody>
-          </table>
+      <header class="tb-page-header">
+        <div>
+          <h1>Schools</h1>
+          <p>Schools, their music students and ensembles. Open a school to see its details.</p>
+        </div>
+        @if (canWrite) {
+          <a mat-flat-button routerLink="/schools/new"><mat-icon svgIcon="add" />Add school</a>
         }
-      }
+      </header>
+      <tb-server-grid
+        endpoint="/api/schools"
+        gridId="schools"
+        label="Schools"
+        itemName="school"
+        [columns]="columns"
+        [sortFields]="sortFields"
+        [quickSearch]="search()"
+        emptyTitle="No schools match"
+        emptyMessage="Clear the search to see every school."
+        (rowOpened)="open($event)"
+      >
+        <div tbGridFilters class="filters">
+          <mat-form-field appearance="outline" subscriptSizing="dynamic" class="search">
+            <mat-label>Search schools</mat-label>
+            <mat-icon matPrefix svgIcon="search" />
+            <input
+              matInput
+              type="search"
+              [value]="search()"
+              (input)="search.set($any($event.target).value)"
+              placeholder="Name or code"
+            />
+          </mat-form-field>
+        </div>
+      </tb-server-grid>
     </div>
   `,
-  styles: `table { width: 100%; border-collapse: collapse; } th, td { text-align: left; padding: 8px 12px; border-bottom: 1px solid var(--tb-line); }`,
+  styles: `
+    .filters {
+      display: flex;
+      gap: 12px;
+    }
+    .search {
+      width: 320px;
+    }
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SchoolList {
-  private readonly schoolData = inject(SchoolData);
-  protected readonly state = toSignal(
-    this.schoolData.list({ limit: 500 }).pipe(
-      map((list): State => ({ kind: 'ready', rows: list.rows })),
-      catchError(() => of<State>({ kind: 'error' })),
-      startWith<State>({ kind: 'loading' }),
-    ),
-    { requireSync: true },
-  );
+  private readonly router = inject(Router);
+  protected readonly canWrite = inject(CurrentUser).can('schools:write');
+  protected readonly search = signal('');
+  protected readonly sortFields = schoolSortFields;
+  protected readonly columns: ColDef<School>[] = [
+    { field: 'code', headerName: 'Code', width: 110 },
+    { field: 'name', headerName: 'School', flex: 2, minWidth: 220, sort: 'asc' },
+    {
+      field: 'level',
+      headerName: 'Level',
+      width: 140,
+      valueFormatter: ({ value }) =>
+        schoolLevelLabels[value as School['level']] ?? String(value ?? ''),
+    },
+    { field: 'studentCount', headerName: 'Students', width: 130, type: 'rightAligned' },
+    { field: 'ensembleCount', headerName: 'Ensembles', width: 130, type: 'rightAligned' },
+  ];
+
+  protected open(school: School): void {
+    void this.router.navigate(['/schools', school.id]);
+  }
 }

@@ -1,0 +1,314 @@
+import { HttpClient } from '@angular/common/http';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  computed,
+  effect,
+  inject,
+  input,
+  output,
+  signal,
+  untracked,
+} from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatMenuModule } from '@angular/material/menu';
+import { AgGridAngular } from 'ag-grid-angular';
+import type {
+  CellKeyDownEvent,
+  FullWidthCellKeyDownEvent,
+  ColDef,
+  GridApi,
+  GridReadyEvent,
+  IDatasource,
+  RowClickedEvent,
+} from 'ag-grid-community';
+import { z } from 'zod';
+import { listResponseSchema } from '../../../../shared/api/list';
+import { parsedWith, errorMessage } from '../parse';
+import { columnCsv } from './column-csv';
+import { GridExport } from './grid-export';
+import { GridLayouts } from './grid-layouts';
+import { columnStateOf, layoutOf } from './grid-layout';
+import { serverGridModules } from './grid-modules';
+import { listParameters, sortParameter, type GridFilters } from './grid-query';
+import { gridHeaderHeight, gridRowHeight, gridTheme } from './grid-theme';
+
+const pageSchema = listResponseSchema(z.record(z.string(), z.unknown()));
+
+/** The rows of one request; the list routes answer pages of this size as the user scrolls. */
+export const gridPageSize = 100;
+
+const searchPause = 250;
+const emptyHeight = 340;
+const layoutSavePause = 800;
+const counting = new Intl.NumberFormat('en-US');
+
+interface ColumnChoice {
+  colId: string;
+  header: string;
+}
+
+/**
+ * A grid over one of the API's list routes: pages of 100 rows fetched as the user scrolls, the
+ * sort and filters applied by the server, a row count, designed loading and empty states, a
+ * column chooser, the layout remembered per user, and "Export CSV" of the current view.
+ */
+@Component({
+  selector: 'tb-server-grid',
+  imports: [AgGridAngular, MatButtonModule, MatIconModule, MatProgressBarModule, MatMenuModule],
+  templateUrl: './server-grid.html',
+  styleUrl: './server-grid.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ServerGrid<Row extends { id: number } = { id: number }> {
+  private readonly http = inject(HttpClient);
+  private readonly layouts = inject(GridLayouts);
+  private readonly exporter = inject(GridExport);
+
+  /** The list route, such as '/api/students'. */
+  readonly endpoint = input.required<string>();
+  /** The columns; each `colId` (or `field`) is the name the API sorts by. */
+  readonly columns = input.required<ColDef<Row>[]>();
+  /** The API's sort names; only these columns get a sortable header. */
+  readonly sortFields = input<readonly string[]>([]);
+  /** Names the remembered layout (`/api/grid-preferences/<gridId>`) and the exported file. */
+  readonly gridId = input.required<string>();
+  /** Extra query parameters: the screen's field filters. */
+  readonly filters = input<GridFilters>({});
+  /** The search box's text, sent as `q`. */
+  readonly quickSearch = input('');
+  /** What one row is, for the count: 'student'. */
+  readonly itemName = input('row');
+  /** The plural, when it is not the name plus s. */
+  readonly itemNamePlural = input('');
+  readonly emptyTitle = input('Nothing matches');
+  readonly emptyMessage = input('');
+  /** The label of the grid's region for assistive technology. */
+  readonly label = input('Results');
+
+  /** A row was clicked, or Enter was pressed on it. */
+  readonly rowOpened = output<Row>();
+
+  protected readonly theme = gridTheme;
+  protected readonly modules = serverGridModules;
+  protected readonly pageSize = gridPageSize;
+  protected readonly total = signal<number | null>(null);
+  protected readonly requests = signal(0);
+  protected readonly failure = signal<string | null>(null);
+  protected readonly exportStatus = signal('');
+  protected readonly exporting = signal(false);
+  protected readonly choices = signal<ColumnChoice[]>([]);
+  protected readonly visibleColumns = signal<string[]>([]);
+
+  protected readonly columnDefs = computed(() => {
+    const sortable = new Set(this.sortFields());
+    return this.columns().map((column) => ({
+      ...column,
+      sortable: sortable.has(column.colId ?? column.field ?? ''),
+    }));
+  });
+  // The server always sorts by something, so a header toggles between the two directions.
+  protected readonly defaultColDef: ColDef<Row> = {
+    resizable: true,
+    minWidth: 70,
+    sortingOrder: ['asc', 'desc'],
+  };
+  protected readonly countText = computed(() => {
+    const total = this.total();
+    if (total === null) return 'Counting…';
+    const plural = this.itemNamePlural() || `${this.itemName()}s`;
+    return `${counting.format(total)} ${total === 1 ? this.itemName() : plural}`;
+  });
+  /** A short list gets a grid just tall enough for it; a long one fills the page. */
+  protected readonly fittedHeight = computed(() => {
+    const total = this.total();
+    if (total === 0) return emptyHeight;
+    if (total === null || total > 12) return null;
+    // Room below the rows for a horizontal scroll bar on narrow screens.
+    return gridHeaderHeight + total * gridRowHeight + 18;
+  });
+  protected readonly firstLoad = computed(() => this.total() === null && this.requests() > 0);
+
+  private api: GridApi<Row> | null = null;
+  private generation = 0;
+  private restoring = true;
+  private lastSavedLayout = '';
+  private searchTimer: ReturnType<typeof setTimeout> | undefined;
+  private saveTimer: ReturnType<typeof setTimeout> | undefined;
+
+  constructor() {
+    effect(() => {
+      this.endpoint();
+      this.filters();
+      this.quickSearch();
+      untracked(() => this.scheduleRefresh());
+    });
+    inject(DestroyRef).onDestroy(() => {
+      clearTimeout(this.searchTimer);
+      clearTimeout(this.saveTimer);
+      this.generation++;
+    });
+  }
+
+  protected getRowId = (params: { data: Row }) => String(params.data.id);
+
+  protected onGridReady(event: GridReadyEvent<Row>): void {
+    this.api = event.api;
+    this.refreshChoices();
+    this.layouts.load(this.gridId()).subscribe((layout) => {
+      if (layout && this.api) {
+        const known = new Set(this.choices().map((choice) => choice.colId));
+        const sortable = new Set(this.sortFields());
+        this.api.applyColumnState({
+          state: columnStateOf(layout, known, sortable),
+          applyOrder: true,
+        });
+        this.lastSavedLayout = JSON.stringify(layoutOf(this.api.getColumnState()));
+        this.refreshChoices();
+      }
+      this.restoring = false;
+      this.refresh();
+    });
+  }
+
+  protected onRowClicked(event: RowClickedEvent<Row>): void {
+    if (event.data) this.rowOpened.emit(event.data);
+  }
+
+  protected onCellKeyDown(event: CellKeyDownEvent<Row> | FullWidthCellKeyDownEvent<Row>): void {
+    const key = (event.event as KeyboardEvent | undefined)?.key;
+    if (key === 'Enter' && event.data) this.rowOpened.emit(event.data);
+  }
+
+  /** Any change of columns or sort: remember the layout a moment later. */
+  protected onLayoutChanged(): void {
+    this.refreshChoices();
+    if (this.restoring) return;
+    clearTimeout(this.saveTimer);
+    this.saveTimer = setTimeout(() => this.saveLayout(), layoutSavePause);
+  }
+
+  protected toggleColumn(colId: string): void {
+    if (!this.api) return;
+    const shown = this.visibleColumns().includes(colId);
+    // An empty grid helps nobody: the last visible column stays.
+    if (shown && this.visibleColumns().length === 1) return;
+    this.api.setColumnsVisible([colId], !shown);
+    this.onLayoutChanged();
+  }
+
+  /** Downloads every row of the current search, filters and sort, in the visible columns. */
+  protected async exportCsv(): Promise<void> {
+    if (!this.api || this.exporting()) return;
+    this.exporting.set(true);
+    this.exportStatus.set('Preparing the export…');
+    try {
+      const columns = this.api
+        .getAllDisplayedColumns()
+        .map((column) => columnCsv<Row>(column.getColDef()));
+      const date = new Date().toISOString().slice(0, 10);
+      const count = await this.exporter.download(
+        {
+          endpoint: this.endpoint(),
+          quickSearch: this.quickSearch(),
+          filters: this.filters(),
+          sort: sortParameter(this.sortModel()),
+          columns: columns as never,
+          progress: (fetched, total) =>
+            this.exportStatus.set(
+              `Exporting ${counting.format(fetched)} of ${counting.format(total)}…`,
+            ),
+        },
+        `${this.gridId()}-${date}.csv`,
+      );
+      const plural = this.itemNamePlural() || `${this.itemName()}s`;
+      this.exportStatus.set(
+        `Exported ${counting.format(count)} ${count === 1 ? this.itemName() : plural}.`,
+      );
+    } catch (error) {
+      this.exportStatus.set(errorMessage(error, 'The export failed. Try again.'));
+    } finally {
+      this.exporting.set(false);
+    }
+  }
+
+  /** Fetches the rows again from the top, for instance after a row was changed elsewhere. */
+  refresh(): void {
+    if (!this.api || this.restoring) return;
+    // The count and the rows shown stay until the new answer arrives, so typing does not flicker.
+    this.failure.set(null);
+    this.api.setGridOption('datasource', this.datasource());
+  }
+
+  private scheduleRefresh(): void {
+    clearTimeout(this.searchTimer);
+    this.searchTimer = setTimeout(() => this.refresh(), searchPause);
+  }
+
+  private sortModel() {
+    return (this.api?.getColumnState() ?? [])
+      .filter((column) => column.sort)
+      .map((column) => ({ colId: column.colId, sort: column.sort! }));
+  }
+
+  private datasource(): IDatasource {
+    const generation = ++this.generation;
+    return {
+      getRows: (params) => {
+        const query = listParameters({
+          quickSearch: this.quickSearch(),
+          filters: this.filters(),
+          sort: sortParameter(params.sortModel),
+          offset: params.startRow,
+          limit: params.endRow - params.startRow,
+        });
+        this.requests.update((count) => count + 1);
+        this.http
+          .get(this.endpoint(), { params: query })
+          .pipe(parsedWith(pageSchema))
+          .subscribe({
+            next: (page) => {
+              this.requests.update((count) => count - 1);
+              if (generation !== this.generation) return;
+              this.total.set(page.total);
+              params.successCallback(page.rows, page.total);
+            },
+            error: (error: unknown) => {
+              this.requests.update((count) => count - 1);
+              if (generation !== this.generation) return;
+              this.failure.set(errorMessage(error, 'The list could not be loaded.'));
+              params.failCallback();
+            },
+          });
+      },
+    };
+  }
+
+  private refreshChoices(): void {
+    const columns = this.api?.getColumns() ?? [];
+    this.choices.set(
+      columns.map((column) => ({
+        colId: column.getColId(),
+        header: column.getColDef().headerName ?? column.getColId(),
+      })),
+    );
+    this.visibleColumns.set(
+      columns.filter((column) => column.isVisible()).map((column) => column.getColId()),
+    );
+  }
+
+  private saveLayout(): void {
+    if (!this.api) return;
+    const layout = layoutOf(this.api.getColumnState());
+    const text = JSON.stringify(layout);
+    if (text === this.lastSavedLayout) return;
+    this.lastSavedLayout = text;
+    // A layout that cannot be saved is not worth interrupting the user for.
+    this.layouts
+      .save(this.gridId(), layout)
+      .subscribe({ error: () => (this.lastSavedLayout = '') });
+  }
+}

@@ -1,0 +1,37 @@
+import { HttpClient } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import type { Observable } from 'rxjs';
+import {
+  studentDetailSchema,
+  studentSchema,
+  type Student,
+  type StudentDetail,
+  type StudentInput,
+  type StudentMove,
+  type StudentPatch,
+} from '../../../../shared/api/student';
+import { parsedWith } from '../../core/parse';
+
+/** Reads and writes student records through `/api/students`. */
+@Injectable({ providedIn: 'root' })
+export class StudentData {
+  private readonly http = inject(HttpClient);
+
+  /** The record with its school, current seats and school moves. */
+  get(id: number): Observable<StudentDetail> {
+    return this.http.get(`/api/students/${id}`).pipe(parsedWith(studentDetailSchema));
+  }
+
+  create(input: StudentInput): Observable<Student> {
+    return this.http.post('/api/students', input).pipe(parsedWith(studentSchema));
+  }
+
+  update(id: number, patch: StudentPatch): Observable<Student> {
+    return this.http.patch(`/api/students/${id}`, patch).pipe(parsedWith(studentSchema));
+  }
+
+  /** Moves the student to another school; the move is kept in their history. */
+  move(id: number, move: StudentMove): Observable<unknown> {
+    return this.http.post(`/api/students/${id}/move`, move);
+  }
+}

@@ -1,0 +1,158 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  inject,
+  input,
+  output,
+  signal,
+  untracked,
+} from '@angular/core';
+import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import type { SchoolSummary } from '../../../../shared/api/me';
+import {
+  studentInputSchema,
+  studentPatchSchema,
+  type Student,
+  type StudentDetail,
+  type StudentStatus,
+} from '../../../../shared/api/student';
+import {
+  fieldMessage,
+  isConflict,
+  schemaValidator,
+  showFieldErrors,
+} from '../../core/grid/record-form';
+import { errorMessage } from '../../core/parse';
+import { StudentData } from '../student-detail/student-data';
+import { gradeChoices, statusLabels } from './student-choices';
+
+const fields = studentInputSchema.shape;
+
+/** A student's record as a form: names, grade, status and guardian; school and id when adding. */
+@Component({
+  selector: 'tb-student-form',
+  imports: [
+    ReactiveFormsModule,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatSelectModule,
+  ],
+  templateUrl: './student-form.html',
+  styleUrl: './student-form.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class StudentForm {
+  private readonly studentData = inject(StudentData);
+
+  /** The record being edited; null to add a student. */
+  readonly student = input<StudentDetail | null>(null);
+  /** The schools a new student can join. */
+  readonly schools = input<SchoolSummary[]>([]);
+  /** Whether the user may change the record. */
+  readonly editable = input(false);
+
+  /** The record was saved; the answer is the row as the API now has it. */
+  readonly saved = output<Student>();
+  /** The user asked to load the record again after a conflict. */
+  readonly reloadRequested = output<void>();
+
+  protected readonly grades = gradeChoices;
+  protected readonly statusLabels = statusLabels;
+  protected readonly adding = computed(() => this.student() === null);
+  /** Guardian fields are absent from the answer for roles that may not see them. */
+  protected readonly showsGuardian = computed(
+    () => this.adding() || this.student()?.guardianName !== undefined,
+  );
+  protected readonly saving = signal(false);
+  protected readonly savedNote = signal(false);
+  protected readonly conflict = signal(false);
+  protected readonly saveError = signal('');
+  protected readonly fieldMessage = fieldMessage;
+
+  protected readonly form = inject(NonNullableFormBuilder).group({
+    schoolId: [null as number | null, schemaValidator(fields.schoolId)],
+    studentNumber: ['', schemaValidator(fields.studentNumber)],
+    firstName: ['', schemaValidator(fields.firstName)],
+    lastName: ['', schemaValidator(fields.lastName)],
+    preferredName: ['', schemaValidator(fields.preferredName)],
+    grade: [6, schemaValidator(fields.grade)],
+    status: ['active' as StudentStatus, schemaValidator(fields.status)],
+    guardianName: ['', schemaValidator(fields.guardianName)],
+    guardianEmail: ['', schemaValidator(fields.guardianEmail)],
+  });
+
+  constructor() {
+    // Form methods read the controls' own signals: untracked, so typing never re-runs the reset.
+    effect(() => {
+      const student = this.student();
+      const editable = this.editable();
+      untracked(() => this.showRecord(student, editable));
+    });
+    effect(() => {
+      const schools = this.schools();
+      if (this.adding() && schools.length === 1) {
+        untracked(() => this.form.controls.schoolId.setValue(schools[0]!.id));
+      }
+    });
+  }
+
+  private showRecord(student: StudentDetail | null, editable: boolean): void {
+    this.conflict.set(false);
+    if (student) {
+      this.form.reset({
+        schoolId: student.schoolId,
+        studentNumber: student.studentNumber,
+        firstName: student.firstName,
+        lastName: student.lastName,
+        preferredName: student.preferredName ?? '',
+        grade: student.grade,
+        status: student.status,
+        guardianName: student.guardianName ?? '',
+        guardianEmail: student.guardianEmail ?? '',
+      });
+    }
+    if (editable) this.form.enable({ emitEvent: false });
+    else this.form.disable({ emitEvent: false });
+    if (student) this.form.controls.schoolId.disable({ emitEvent: false });
+  }
+
+  protected save(): void {
+    this.form.markAllAsTouched();
+    if (this.form.invalid || this.saving()) return;
+    const student = this.student();
+    const { schoolId, ...values } = this.form.getRawValue();
+    const guardian = this.showsGuardian()
+      ? {}
+      : { guardianName: undefined, guardianEmail: undefined };
+    this.saving.set(true);
+    this.savedNote.set(false);
+    this.saveError.set('');
+    const request = student
+      ? this.studentData.update(
+          student.id,
+          studentPatchSchema.parse({ ...values, ...guardian, version: student.version }),
+        )
+      : this.studentData.create(studentInputSchema.parse({ ...values, schoolId }));
+    request.subscribe({
+      next: (saved) => {
+        this.saving.set(false);
+        this.savedNote.set(true);
+        this.saved.emit(saved);
+      },
+      error: (error: unknown) => {
+        this.saving.set(false);
+        if (isConflict(error)) this.conflict.set(true);
+        else if (!showFieldErrors(this.form, error)) this.saveError.set(errorMessage(error));
+      },
+    });
+  }
+}

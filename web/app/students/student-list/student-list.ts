@@ -1,0 +1,139 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  input,
+  linkedSignal,
+  signal,
+} from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { Router, RouterLink } from '@angular/router';
+import type { ColDef } from 'ag-grid-community';
+import { catchError, map, of } from 'rxjs';
+import { instruments } from '../../../../shared/music/instrument-data';
+import {
+  studentSortFields,
+  type Student,
+  type StudentStatus,
+} from '../../../../shared/api/student';
+import { CurrentUser } from '../../core/auth/current-user';
+import { ServerGrid } from '../../core/grid/server-grid';
+import { SchoolData } from '../../schools/school-data';
+import { gradeChoices, statusLabels } from '../student-form/student-choices';
+
+/** The students of the user's schools: search, filters, and a way into each record. */
+@Component({
+  selector: 'tb-student-list',
+  imports: [
+    ServerGrid,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatSelectModule,
+    RouterLink,
+  ],
+  templateUrl: './student-list.html',
+  styles: `
+    .filters {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 12px;
+    }
+    .search {
+      width: 300px;
+    }
+    .narrow {
+      width: 130px;
+    }
+    .wide {
+      width: 210px;
+    }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class StudentList {
+  private readonly router = inject(Router);
+
+  /** `?schoolId=` from a school's page. */
+  readonly schoolId = input<string | undefined>(undefined);
+
+  protected readonly canWrite = inject(CurrentUser).can('roster:write');
+  protected readonly schools = toSignal(
+    inject(SchoolData)
+      .list({ limit: 200, sort: 'name:asc' })
+      .pipe(
+        map((list) => list.rows),
+        catchError(() => of([])),
+      ),
+    { initialValue: [] },
+  );
+  protected readonly grades = gradeChoices;
+  protected readonly statusLabels = statusLabels;
+  protected readonly instruments = instruments;
+  protected readonly search = signal('');
+  protected readonly school = linkedSignal<number | null>(() => {
+    const parameter = Number(this.schoolId());
+    return Number.isInteger(parameter) && parameter > 0 ? parameter : null;
+  });
+  protected readonly grade = signal<number | null>(null);
+  protected readonly status = signal<StudentStatus | null>('active');
+  protected readonly instrumentId = signal<string | null>(null);
+  protected readonly filters = computed(() => ({
+    schoolId: this.school(),
+    grade: this.grade(),
+    status: this.status(),
+    instrumentId: this.instrumentId(),
+  }));
+  protected readonly sortFields = studentSortFields;
+  protected readonly columns: ColDef<Student>[] = [
+    { field: 'studentNumber', headerName: 'Student ID', width: 115 },
+    { field: 'lastName', headerName: 'Last name', width: 135, sort: 'asc' },
+    { field: 'firstName', headerName: 'First name', width: 125 },
+    {
+      field: 'preferredName',
+      headerName: 'Preferred',
+      width: 110,
+      valueFormatter: ({ value }) => value ?? '',
+    },
+    {
+      field: 'grade',
+      headerName: 'Grade',
+      width: 85,
+      type: 'rightAligned',
+      valueFormatter: ({ data }) => data?.gradeLabel ?? '',
+    },
+    {
+      colId: 'school',
+      headerName: 'School',
+      width: 95,
+      valueGetter: ({ data }) => data?.schoolCode,
+    },
+    { field: 'ensembles', headerName: 'Ensembles', flex: 2, minWidth: 150 },
+    { field: 'instruments', headerName: 'Instruments', flex: 1, minWidth: 120 },
+    {
+      field: 'status',
+      headerName: 'Status',
+      width: 105,
+      valueFormatter: ({ value }) => statusLabels[value as StudentStatus] ?? '',
+    },
+  ];
+
+  protected clearFilters(): void {
+    this.search.set('');
+    this.school.set(null);
+    this.grade.set(null);
+    this.status.set(null);
+    this.instrumentId.set(null);
+  }
+
+  protected open(student: Student): void {
+    void this.router.navigate(['/students', student.id, 'edit']);
+  }
+}
