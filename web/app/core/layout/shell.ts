@@ -1,7 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { MatIconModule } from '@angular/material/icon';
-import { MatButtonModule } from '@angular/material/button';
 import { roleLabels } from '../../../../shared/api/roles';
 import { CurrentUser } from '../auth/current-user';
 import { navigationGroups, visibleItems } from './navigation';
@@ -9,7 +8,7 @@ import { navigationGroups, visibleItems } from './navigation';
 /** The frame of every signed-in page: the left navigation rail and the top bar. */
 @Component({
   selector: 'tb-shell',
-  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatIconModule, MatButtonModule],
+  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatIconModule],
   templateUrl: './shell.html',
   styleUrl: './shell.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
