@@ -1,7 +1,12 @@
-import { and, eq } from 'drizzle-orm';
+import { and, count, eq, ilike, or, sql, type SQL } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/pg-core';
+import { z } from 'zod';
 import type { Database } from '../db/client';
-import { schools, userSchools, users } from '../db/schema/index';
+import { auditLog, schools, userSchools, users } from '../db/schema/index';
 import type { Actor } from '../core/policy';
+import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import type { ListResponse } from '../../shared/api/list';
+import type { AuditEntryRow } from '../../shared/api/person';
 
 /** Loads an active user as an actor, with their school assignments; undefined when unknown. */
 export async function loadActor(
@@ -43,4 +48,80 @@ export async function schoolsOf(db: Database, actor: Actor) {
     .orderBy(schools.name);
   if (actor.role === 'coordinator' || actor.role === 'technician') return all;
   return all.filter((school) => actor.schoolIds.includes(school.id));
+}
+
+// The person an entry is about, so a sign-in (which has no acting user yet) names who it was.
+const subject = alias(users, 'subject');
+const aboutSubject = and(
+  eq(auditLog.entity, 'user'),
+  eq(auditLog.entityId, sql`cast(${subject.id} as text)`),
+);
+
+const auditFilters = z.object({
+  entity: z.string().trim().max(60).optional(),
+  entityId: z.string().trim().max(60).optional(),
+  userId: z.coerce.number().int().positive().optional(),
+});
+
+/** The audit log, newest first unless sorted otherwise, filtered by entity, row and who. */
+export async function listAudit(
+  db: Database,
+  query: unknown,
+): Promise<ListResponse<AuditEntryRow>> {
+  const list = parseListQuery(query, auditFilters);
+  const conditions: (SQL | undefined)[] = [];
+  if (list.entity) conditions.push(eq(auditLog.entity, list.entity));
+  if (list.entityId) conditions.push(eq(auditLog.entityId, list.entityId));
+  if (list.userId !== undefined) conditions.push(eq(auditLog.userId, list.userId));
+  if (list.q) {
+    const pattern = likePattern(list.q);
+    conditions.push(
+      or(
+        ilike(auditLog.action, pattern),
+        ilike(auditLog.entity, pattern),
+        ilike(users.name, pattern),
+        ilike(users.email, pattern),
+        ilike(subject.name, pattern),
+      ),
+    );
+  }
+  const where = and(...conditions);
+  const [rows, [total]] = await Promise.all([
+    db
+      .select({
+        entry: auditLog,
+        userName: users.name,
+        userEmail: users.email,
+        entityName: subject.name,
+      })
+      .from(auditLog)
+      .leftJoin(users, eq(users.id, auditLog.userId))
+      .leftJoin(subject, aboutSubject)
+      .where(where)
+      .orderBy(...orderFor(list.sort, { at: auditLog.at }, 'at:desc', auditLog.id))
+      .limit(list.limit)
+      .offset(list.offset),
+    db
+      .select({ total: count() })
+      .from(auditLog)
+      .leftJoin(users, eq(users.id, auditLog.userId))
+      .leftJoin(subject, aboutSubject)
+      .where(where),
+  ]);
+  return {
+    rows: rows.map(({ entry, userName, userEmail, entityName }) => ({
+      id: entry.id,
+      at: entry.at.toISOString(),
+      userId: entry.userId,
+      userName,
+      userEmail,
+      action: entry.action,
+      entity: entry.entity,
+      entityId: entry.entityId,
+      entityName,
+      before: entry.before,
+      after: entry.after,
+    })),
+    total: total!.total,
+  };
 }

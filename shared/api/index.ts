@@ -3,6 +3,7 @@ export * from './list';
 export * from './me';
 export * from './school';
 export * from './token';
+export * from './person';
 export * from './student';
 export * from './ensemble';
 export * from './enrollment';

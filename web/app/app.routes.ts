@@ -53,6 +53,20 @@ export const routes: Routes = [
         data: { capability: 'imports:run' },
         loadChildren: () => import('./imports/imports.routes').then((m) => m.importsRoutes),
       },
+      {
+        path: 'people',
+        canActivate: [capabilityGuard],
+        data: { capability: 'people:manage' },
+        loadChildren: () => import('./people/people.routes').then((m) => m.peopleRoutes),
+      },
+      {
+        path: 'account/tokens',
+        canActivate: [capabilityGuard],
+        data: { capability: 'tokens:own' },
+        loadComponent: () =>
+          import('./people/account-tokens/account-tokens').then((m) => m.AccountTokens),
+        title: 'API tokens · Tuttiboard',
+      },
       { path: '**', component: NotFound, title: 'Not found · Tuttiboard' },
     ],
   },

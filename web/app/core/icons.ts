@@ -42,6 +42,14 @@ import cloudOff from '@material-symbols/svg-400/outlined/cloud_off.svg';
 import schedule from '@material-symbols/svg-400/outlined/schedule.svg';
 import libraryMusic from '@material-symbols/svg-400/outlined/library_music.svg';
 import checklist from '@material-symbols/svg-400/outlined/checklist.svg';
+// People and API tokens.
+import block from '@material-symbols/svg-400/outlined/block.svg';
+import history from '@material-symbols/svg-400/outlined/history.svg';
+import personAdd from '@material-symbols/svg-400/outlined/person_add.svg';
+import personOff from '@material-symbols/svg-400/outlined/person_off.svg';
+import howToReg from '@material-symbols/svg-400/outlined/how_to_reg.svg';
+import contentCopy from '@material-symbols/svg-400/outlined/content_copy.svg';
+import keyboardArrowDown from '@material-symbols/svg-400/outlined/keyboard_arrow_down.svg';
 
 /** The icons the app uses, shipped in the bundle from the Material Symbols package. */
 const icons: Record<string, string> = {
@@ -86,6 +94,13 @@ const icons: Record<string, string> = {
   schedule: schedule,
   library_music: libraryMusic,
   checklist: checklist,
+  block: block,
+  history: history,
+  person_add: personAdd,
+  person_off: personOff,
+  how_to_reg: howToReg,
+  content_copy: contentCopy,
+  keyboard_arrow_down: keyboardArrowDown,
 };
 
 /** Registers the icons as inline SVGs, so no icon font or request leaves the app. */

@@ -20,6 +20,9 @@ export const navigationItems: NavigationItem[] = [
   { path: '/students', label: 'Students', icon: 'person', capability: 'roster:read', group: 'district' },
   { path: '/imports', label: 'Imports', icon: 'upload_file', capability: 'imports:run', group: 'district' },
   { path: '/practice', label: 'Practice sheets', icon: 'music_note', capability: 'practice:read', group: 'music' },
+  { path: '/people', label: 'People', icon: 'manage_accounts', capability: 'people:manage', group: 'admin' },
+  // The coordinator reaches every token from People; other roles with tokens:own get their own page.
+  { path: '/account/tokens', label: 'API tokens', icon: 'key', capability: 'tokens:own', hiddenFor: ['coordinator'], group: 'admin' },
 ];
 
 export const navigationGroups: { id: NavigationItem['group']; label: string }[] = [

@@ -1,0 +1,123 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser } from 'playwright-core';
+import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
+import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+
+let app: TestApp;
+let browser: Browser;
+
+beforeAll(async () => {
+  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
+});
+afterAll(async () => {
+  await browser?.close();
+  await app?.close();
+});
+
+const newDirector = 'cosima.reedholt@merrowbasin.example';
+
+describe('People screen', () => {
+  it('should let the coordinator add a director for QHMS and make an API token shown once', async () => {
+    const { context, outside } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('coordinator'), '/people');
+    await page.waitForURL(`${app.url}/people`);
+    await expect.poll(() => page.locator('h1').innerText()).toBe('People');
+    const table = page.getByTestId('people-table');
+    await expect.poll(() => table.innerText()).toContain('Ines Tallowbrook');
+
+    await page.getByTestId('add-person').click();
+    await page.getByTestId('person-name').fill('Cosima Reedholt');
+    await page.getByTestId('person-email').fill(newDirector);
+    await page.getByTestId('person-schools').click();
+    await page.getByRole('option', { name: 'Quarry Hill Middle (QHMS)' }).click();
+    await page.keyboard.press('Escape');
+    await page.getByRole('listbox').waitFor({ state: 'detached' });
+    await saveScreenshot(page, 'person-add-dialog');
+    await page.getByTestId('save-person').click();
+    await expect
+      .poll(() => page.getByTestId('people-notice').innerText())
+      .toContain('Cosima Reedholt is added');
+
+    const row = page.locator(`tr[data-email="${newDirector}"]`);
+    await expect.poll(() => row.innerText()).toContain('Director');
+    expect(await row.innerText()).toContain('QHMS');
+    expect(await row.innerText()).toContain('Never');
+    const stored = await app.database.db.execute(
+      `select u.role, s.code from users u join user_schools us on us.user_id = u.id join schools s on s.id = us.school_id where u.email = '${newDirector}'` as never,
+    );
+    expect((stored as unknown as { rows: unknown[] }).rows).toEqual([
+      { role: 'director', code: 'QHMS' },
+    ]);
+    await page.evaluate(() => document.fonts.ready);
+    await saveScreenshot(page, 'people-list');
+
+    await page.getByRole('tab', { name: 'API tokens' }).click();
+    await page.getByTestId('token-label').fill('Nightly roster export');
+    await page.getByTestId('create-token').click();
+    const shown = page.getByTestId('new-token');
+    await expect.poll(() => shown.innerText()).toMatch(/^tutti_\S{20,}$/);
+    const token = (await shown.innerText()).trim();
+    expect(await page.getByRole('dialog').innerText()).toContain('only time it is shown');
+    await saveScreenshot(page, 'token-shown-once');
+
+    const me = await page.evaluate(async (bearer) => {
+      const response = await fetch('/api/me', { headers: { Authorization: `Bearer ${bearer}` } });
+      return {
+        status: response.status,
+        email: ((await response.json()) as { email: string }).email,
+      };
+    }, token);
+    expect(me).toEqual({ status: 200, email: demoEmail('coordinator') });
+
+    await page.getByTestId('token-done').click();
+    await page.getByRole('dialog').waitFor({ state: 'detached' });
+    const tokens = page.getByTestId('token-table');
+    await expect.poll(() => tokens.innerText()).toContain('Nightly roster export');
+    expect(await page.locator('body').innerText()).not.toContain(token);
+    await page.reload();
+    await page.getByRole('tab', { name: 'API tokens' }).click();
+    const listed = page.locator('[data-testid="token-table"] tbody tr', {
+      hasText: 'Nightly roster export',
+    });
+    await expect.poll(() => listed.innerText()).toContain('Live');
+    // The script's call above is the token's last use, so it no longer reads "Never".
+    expect(await listed.innerText()).not.toContain('Never');
+    expect(await page.content()).not.toContain(token);
+
+    await page.getByRole('tab', { name: 'Audit log' }).click();
+    const audit = page.getByTestId('audit-table');
+    const created = audit.locator('tr.entry', { hasText: 'Cosima Reedholt' });
+    await expect.poll(() => created.innerText()).toContain('create');
+    await created.getByRole('button', { name: 'Show before and after' }).click();
+    const detail = audit.locator('tr.detail');
+    await expect.poll(() => detail.innerText()).toContain(newDirector);
+    expect(await detail.innerText()).toContain('QHMS');
+    const signIn = audit.locator('tr.entry', { hasText: 'sign-in' }).first();
+    expect(await signIn.innerText()).toContain('Renata Okonkwo-Hale');
+    await saveScreenshot(page, 'people-audit');
+    expect(outside).toEqual([]);
+    await context.close();
+  });
+
+  it('should give a director their own API tokens page and no People screen', async () => {
+    const { context } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('director.qhms'), '/account/tokens');
+    await page.waitForURL(`${app.url}/account/tokens`);
+    const rail = page.locator('nav[aria-label="Main"] a.item');
+    await expect.poll(() => rail.allInnerTexts()).toContain('API tokens');
+    expect(await rail.allInnerTexts()).not.toContain('People');
+    await page.getByTestId('create-token').click();
+    await expect.poll(() => page.getByTestId('new-token').innerText()).toMatch(/^tutti_/);
+    await page.getByTestId('token-done').click();
+    await page.getByRole('dialog').waitFor({ state: 'detached' });
+    const tokens = page.getByTestId('token-table');
+    await expect.poll(() => tokens.innerText()).toContain('Live');
+    expect(await tokens.innerText()).not.toContain('Nightly roster export');
+    await page.getByRole('button', { name: /^Revoke the token/ }).click();
+    await page.getByTestId('confirm-revoke').click();
+    await expect.poll(() => tokens.innerText()).toContain('Revoked');
+    await context.close();
+  });
+});

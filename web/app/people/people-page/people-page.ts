@@ -1,0 +1,46 @@
+import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { MatTabsModule } from '@angular/material/tabs';
+import { AuditLog } from '../audit-log/audit-log';
+import { PersonList } from '../person-list/person-list';
+import { TokenList } from '../token-list/token-list';
+
+/** The coordinator's People screen: who signs in, every API token, and the audit log. */
+@Component({
+  selector: 'tb-people-page',
+  imports: [MatTabsModule, AuditLog, PersonList, TokenList],
+  template: `
+    <div class="tb-page">
+      <header class="tb-page-header">
+        <div>
+          <h1>People</h1>
+          <p>
+            Who signs in to Tuttiboard, their roles and schools, the API tokens scripts use, and who
+            changed what.
+          </p>
+        </div>
+      </header>
+      <mat-tab-group animationDuration="0ms" mat-stretch-tabs="false">
+        <mat-tab label="People">
+          <div class="tab"><tb-person-list /></div>
+        </mat-tab>
+        <mat-tab label="API tokens">
+          <ng-template matTabContent>
+            <div class="tab"><tb-token-list [everyone]="true" /></div>
+          </ng-template>
+        </mat-tab>
+        <mat-tab label="Audit log">
+          <ng-template matTabContent>
+            <div class="tab"><tb-audit-log /></div>
+          </ng-template>
+        </mat-tab>
+      </mat-tab-group>
+    </div>
+  `,
+  styles: `
+    .tab {
+      padding-top: 16px;
+    }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class PeoplePage {}

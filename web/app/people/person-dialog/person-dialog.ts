@@ -1,0 +1,190 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  computed,
+  inject,
+  signal,
+} from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
+import { MatAutocompleteModule } from '@angular/material/autocomplete';
+import { MatButtonModule } from '@angular/material/button';
+import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { Subject, catchError, debounceTime, map, of, startWith, switchMap } from 'rxjs';
+import {
+  assignmentProblems,
+  needsSchools,
+  personInputSchema,
+  type Person,
+  type PersonDetail,
+} from '../../../../shared/api/person';
+import { roleLabels, roles, type Role } from '../../../../shared/api/roles';
+import type { Student } from '../../../../shared/api/student';
+import { CurrentUser } from '../../core/auth/current-user';
+import {
+  fieldMessage,
+  isConflict,
+  schemaValidator,
+  showFieldErrors,
+} from '../../core/grid/record-form';
+import { errorMessage } from '../../core/parse';
+import { SchoolData } from '../../schools/school-data';
+import { PeopleData } from '../people-data';
+
+/** What the person dialog edits: a person, or null to add one. */
+export interface PersonDialogData {
+  person: Person | null;
+}
+
+/** What each role may do, in a line, so the coordinator picks the right one. */
+const roleHints: Record<Role, string> = {
+  coordinator: 'Sees and changes the whole district, including the ladder and people.',
+  director: 'Works with the students, ensembles, pass-offs and loans of their schools.',
+  technician: 'Looks after the district’s instruments, repairs and returns.',
+  viewer: 'Reads their schools’ figures and rosters; changes nothing.',
+  student: 'Sees their own progress, practice sheets and loans.',
+};
+
+/** Adds or edits a person: name, e-mail, role, and the schools or student the role needs. */
+@Component({
+  selector: 'tb-person-dialog',
+  imports: [
+    ReactiveFormsModule,
+    MatAutocompleteModule,
+    MatButtonModule,
+    MatDialogModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatSelectModule,
+  ],
+  templateUrl: './person-dialog.html',
+  styleUrl: './person-dialog.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class PersonDialog {
+  private readonly people = inject(PeopleData);
+  private readonly dialog = inject<MatDialogRef<PersonDialog, PersonDetail>>(MatDialogRef);
+  private readonly studentSearches = new Subject<string>();
+
+  protected readonly person = inject<PersonDialogData>(MAT_DIALOG_DATA).person;
+  protected readonly isSelf = this.person?.id === inject(CurrentUser).me()?.id;
+  protected readonly roles = roles;
+  protected readonly roleLabels = roleLabels;
+  protected readonly roleHints = roleHints;
+  protected readonly fieldMessage = fieldMessage;
+  protected readonly schools = toSignal(
+    inject(SchoolData)
+      .list({ limit: 500, sort: 'name:asc' })
+      .pipe(
+        map((list) => list.rows),
+        catchError(() => of([])),
+      ),
+    { initialValue: [] },
+  );
+
+  protected readonly form = inject(NonNullableFormBuilder).group({
+    email: [this.person?.email ?? '', schemaValidator(personInputSchema.shape.email)],
+    name: [this.person?.name ?? '', schemaValidator(personInputSchema.shape.name)],
+    role: [this.person?.role ?? ('director' as Role)],
+    schoolIds: [
+      this.person && needsSchools(this.person.role)
+        ? this.person.schools.map((school) => school.id)
+        : ([] as number[]),
+    ],
+    studentId: [this.person?.student?.id ?? (null as number | null)],
+  });
+  protected readonly role = toSignal(
+    this.form.controls.role.valueChanges.pipe(startWith(this.form.controls.role.value)),
+    {
+      requireSync: true,
+    },
+  );
+  protected readonly showsSchools = computed(() => needsSchools(this.role()));
+  protected readonly linkedStudent = signal<{ name: string; studentNumber: string } | null>(
+    this.person?.student ?? null,
+  );
+  protected readonly foundStudents = signal<Student[]>([]);
+  protected readonly searchedStudents = signal(false);
+  protected readonly saving = signal(false);
+  protected readonly conflict = signal(false);
+  protected readonly failure = signal('');
+
+  constructor() {
+    if (this.person) this.form.controls.email.disable();
+    if (this.isSelf) this.form.controls.role.disable();
+    const subscription = this.studentSearches
+      .pipe(
+        debounceTime(200),
+        switchMap((text) => this.people.findStudents(text).pipe(catchError(() => of([])))),
+      )
+      .subscribe((found) => {
+        this.foundStudents.set(found);
+        this.searchedStudents.set(true);
+      });
+    inject(DestroyRef).onDestroy(() => subscription.unsubscribe());
+  }
+
+  protected studentTyped(text: string): void {
+    if (text.trim()) this.studentSearches.next(text.trim());
+    else {
+      this.foundStudents.set([]);
+      this.searchedStudents.set(false);
+    }
+  }
+
+  protected studentPicked(student: Student): void {
+    this.form.controls.studentId.setValue(student.id);
+    this.form.controls.studentId.markAsTouched();
+    this.linkedStudent.set({
+      name: `${student.preferredName ?? student.firstName} ${student.lastName}`,
+      studentNumber: student.studentNumber,
+    });
+  }
+
+  protected readonly describeStudent = (student: Student | string | null) =>
+    typeof student === 'string' || !student
+      ? (student ?? '')
+      : `${student.firstName} ${student.lastName}`;
+
+  protected save(): void {
+    this.form.markAllAsTouched();
+    if (this.form.invalid || this.saving()) return;
+    const value = this.form.getRawValue();
+    const assignments = {
+      role: value.role,
+      schoolIds: needsSchools(value.role) ? value.schoolIds : [],
+      studentId: value.role === 'student' ? value.studentId : null,
+    };
+    const problems = assignmentProblems(assignments);
+    for (const problem of problems) {
+      this.form.controls[problem.field].setErrors({ server: problem.message });
+    }
+    if (problems.length) return;
+    this.saving.set(true);
+    this.failure.set('');
+    const request = this.person
+      ? this.people.update(this.person.id, {
+          name: value.name,
+          ...assignments,
+          version: this.person.version,
+        })
+      : this.people.create({ email: value.email, name: value.name, ...assignments });
+    request.subscribe({
+      next: (saved) => this.dialog.close(saved),
+      error: (error: unknown) => {
+        this.saving.set(false);
+        if (isConflict(error)) {
+          this.conflict.set(true);
+          return;
+        }
+        if (!showFieldErrors(this.form, error)) this.failure.set(errorMessage(error));
+      },
+    });
+  }
+}
