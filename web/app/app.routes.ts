@@ -67,6 +67,35 @@ export const routes: Routes = [
           import('./people/account-tokens/account-tokens').then((m) => m.AccountTokens),
         title: 'API tokens · Tuttiboard',
       },
+      {
+        path: 'instruments',
+        canActivate: [capabilityGuard],
+        data: { capability: 'fleet:read' },
+        loadChildren: () =>
+          import('./instruments/instruments.routes').then((m) => m.instrumentsRoutes),
+      },
+      {
+        path: 'loans',
+        loadChildren: () => import('./loans/loans.routes').then((m) => m.loansRoutes),
+      },
+      {
+        path: 'repairs',
+        canActivate: [capabilityGuard],
+        data: { capability: 'fleet:read' },
+        loadChildren: () => import('./repairs/repairs.routes').then((m) => m.repairsRoutes),
+      },
+      {
+        path: 'counts',
+        canActivate: [capabilityGuard],
+        data: { capability: 'counts:run' },
+        loadChildren: () => import('./counts/counts.routes').then((m) => m.countsRoutes),
+      },
+      {
+        path: 'planning',
+        canActivate: [capabilityGuard],
+        data: { capability: 'fleet:read' },
+        loadChildren: () => import('./planning/planning.routes').then((m) => m.planningRoutes),
+      },
       { path: '**', component: NotFound, title: 'Not found · Tuttiboard' },
     ],
   },

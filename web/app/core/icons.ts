@@ -42,6 +42,25 @@ import cloudOff from '@material-symbols/svg-400/outlined/cloud_off.svg';
 import schedule from '@material-symbols/svg-400/outlined/schedule.svg';
 import libraryMusic from '@material-symbols/svg-400/outlined/library_music.svg';
 import checklist from '@material-symbols/svg-400/outlined/checklist.svg';
+// The instrument fleet's screens.
+import checkCircle from '@material-symbols/svg-400/outlined/check_circle.svg';
+import sanitizer from '@material-symbols/svg-400/outlined/sanitizer.svg';
+import help from '@material-symbols/svg-400/outlined/help.svg';
+import block from '@material-symbols/svg-400/outlined/block.svg';
+import bookmarkAdd from '@material-symbols/svg-400/outlined/bookmark_add.svg';
+import shoppingCart from '@material-symbols/svg-400/outlined/shopping_cart.svg';
+import keyboardReturn from '@material-symbols/svg-400/outlined/keyboard_return.svg';
+import taskAlt from '@material-symbols/svg-400/outlined/task_alt.svg';
+import barcodeScanner from '@material-symbols/svg-400/outlined/barcode_scanner.svg';
+import weight from '@material-symbols/svg-400/outlined/weight.svg';
+import eventBusy from '@material-symbols/svg-400/outlined/event_busy.svg';
+import draw from '@material-symbols/svg-400/outlined/draw.svg';
+import pending from '@material-symbols/svg-400/outlined/pending.svg';
+import addAPhoto from '@material-symbols/svg-400/outlined/add_a_photo.svg';
+import send from '@material-symbols/svg-400/outlined/send.svg';
+import mail from '@material-symbols/svg-400/outlined/mail.svg';
+import swapHoriz from '@material-symbols/svg-400/outlined/swap_horiz.svg';
+import localShipping from '@material-symbols/svg-400/outlined/local_shipping.svg';
 // People and API tokens.
 import block from '@material-symbols/svg-400/outlined/block.svg';
 import history from '@material-symbols/svg-400/outlined/history.svg';
@@ -94,6 +113,24 @@ const icons: Record<string, string> = {
   schedule: schedule,
   library_music: libraryMusic,
   checklist: checklist,
+  check_circle: checkCircle,
+  sanitizer: sanitizer,
+  help: help,
+  block: block,
+  bookmark_add: bookmarkAdd,
+  shopping_cart: shoppingCart,
+  keyboard_return: keyboardReturn,
+  task_alt: taskAlt,
+  barcode_scanner: barcodeScanner,
+  weight: weight,
+  event_busy: eventBusy,
+  draw: draw,
+  pending: pending,
+  add_a_photo: addAPhoto,
+  send: send,
+  mail: mail,
+  swap_horiz: swapHoriz,
+  local_shipping: localShipping,
   block: block,
   history: history,
   person_add: personAdd,

@@ -20,6 +20,11 @@ export const navigationItems: NavigationItem[] = [
   { path: '/students', label: 'Students', icon: 'person', capability: 'roster:read', group: 'district' },
   { path: '/imports', label: 'Imports', icon: 'upload_file', capability: 'imports:run', group: 'district' },
   { path: '/practice', label: 'Practice sheets', icon: 'music_note', capability: 'practice:read', group: 'music' },
+  { path: '/instruments', label: 'Instruments', icon: 'piano', capability: 'fleet:read', group: 'fleet' },
+  { path: '/loans', label: 'Loans', icon: 'handshake', capability: 'loans:read', roles: ['student'], group: 'fleet' },
+  { path: '/repairs', label: 'Repairs', icon: 'build', capability: 'fleet:read', group: 'fleet' },
+  { path: '/counts', label: 'Annual count', icon: 'barcode_scanner', capability: 'counts:run', group: 'fleet' },
+  { path: '/planning', label: 'Replacement plan', icon: 'inventory_2', capability: 'fleet:read', group: 'fleet' },
   { path: '/people', label: 'People', icon: 'manage_accounts', capability: 'people:manage', group: 'admin' },
   // The coordinator reaches every token from People; other roles with tokens:own get their own page.
   { path: '/account/tokens', label: 'API tokens', icon: 'key', capability: 'tokens:own', hiddenFor: ['coordinator'], group: 'admin' },

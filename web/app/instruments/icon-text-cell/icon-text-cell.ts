@@ -1,0 +1,84 @@
+import { ChangeDetectionStrategy, Component, signal } from '@angular/core';
+import { MatIconModule } from '@angular/material/icon';
+import type { ICellRendererAngularComp } from 'ag-grid-angular';
+import type { ICellRendererParams } from 'ag-grid-community';
+
+/** The icon a cell shows before its text, and the icon's tone. */
+export interface CellIcon {
+  icon: string;
+  tone: 'ok' | 'info' | 'warn' | 'danger' | 'muted';
+}
+
+/** What a column gives the cell: the icon for a row, or null for text alone. */
+export interface IconTextCellParams<Row> {
+  iconOf: (row: Row) => CellIcon | null;
+}
+
+/**
+ * A grid cell with an icon and words (a status, a signed agreement): the words carry the meaning,
+ * so the cell never relies on colour alone. The text is the column's formatted value.
+ */
+@Component({
+  selector: 'tb-icon-text-cell',
+  imports: [MatIconModule],
+  template: `
+    @if (icon(); as look) {
+      <mat-icon [svgIcon]="look.icon" [class]="look.tone" aria-hidden="true" />
+    }
+    <span>{{ text() }}</span>
+  `,
+  styles: `
+    :host {
+      display: inline-flex;
+      align-items: center;
+      gap: 6px;
+      line-height: 1.2;
+      vertical-align: middle;
+      max-width: 100%;
+    }
+    span {
+      overflow: hidden;
+      text-overflow: ellipsis;
+    }
+    mat-icon {
+      display: block;
+      width: 18px;
+      height: 18px;
+      flex: none;
+    }
+    .ok {
+      fill: var(--tb-ok);
+    }
+    .info {
+      fill: var(--tb-teal);
+    }
+    .warn {
+      fill: var(--tb-warn);
+    }
+    .danger {
+      fill: var(--tb-danger);
+    }
+    .muted {
+      fill: var(--tb-text-muted);
+    }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class IconTextCell<Row = unknown> implements ICellRendererAngularComp {
+  protected readonly icon = signal<CellIcon | null>(null);
+  protected readonly text = signal('');
+
+  agInit(params: ICellRendererParams<Row> & IconTextCellParams<Row>): void {
+    this.show(params);
+  }
+
+  refresh(params: ICellRendererParams<Row> & IconTextCellParams<Row>): boolean {
+    this.show(params);
+    return true;
+  }
+
+  private show(params: ICellRendererParams<Row> & IconTextCellParams<Row>): void {
+    this.icon.set(params.data ? params.iconOf(params.data) : null);
+    this.text.set(String(params.valueFormatted ?? params.value ?? ''));
+  }
+}

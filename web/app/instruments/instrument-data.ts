@@ -1,0 +1,75 @@
+import { HttpClient, HttpParams } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import type { Observable } from 'rxjs';
+import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import {
+  fleetImportResultSchema,
+  instrumentDetailSchema,
+  instrumentPhotoSchema,
+  instrumentSchema,
+  type FleetImportResult,
+  type Instrument,
+  type InstrumentDetail,
+  type InstrumentInput,
+  type InstrumentPatch,
+  type InstrumentPhoto,
+} from '../../../shared/api/instrument';
+import { parsedWith } from '../core/parse';
+
+const instrumentListSchema = listResponseSchema(instrumentSchema);
+
+/** Reads and writes the district's instruments through `/api/instruments`. */
+@Injectable({ providedIn: 'root' })
+export class FleetInstruments {
+  private readonly http = inject(HttpClient);
+
+  /** A page of the fleet, for pickers: `q` searches asset tag, serial, maker and model. */
+  list(query: Record<string, string | number>): Observable<ListResponse<Instrument>> {
+    return this.http
+      .get('/api/instruments', { params: new HttpParams({ fromObject: query }) })
+      .pipe(parsedWith(instrumentListSchema));
+  }
+
+  /** One instrument with its timeline, photos, current loan and open repairs. */
+  get(id: number): Observable<InstrumentDetail> {
+    return this.http.get(`/api/instruments/${id}`).pipe(parsedWith(instrumentDetailSchema));
+  }
+
+  create(input: InstrumentInput): Observable<Instrument> {
+    return this.http.post('/api/instruments', input).pipe(parsedWith(instrumentSchema));
+  }
+
+  update(id: number, patch: InstrumentPatch): Observable<Instrument> {
+    return this.http.patch(`/api/instruments/${id}`, patch).pipe(parsedWith(instrumentSchema));
+  }
+
+  /** Records that an instrument back from a loan was cleaned and sanitised; it is lendable again. */
+  markCleaned(id: number, note = ''): Observable<Instrument> {
+    return this.http
+      .post(`/api/instruments/${id}/cleaned`, { note })
+      .pipe(parsedWith(instrumentSchema));
+  }
+
+  /** Uploads one photo; the server checks what the bytes are. */
+  addPhoto(id: number, file: File): Observable<InstrumentPhoto> {
+    const form = new FormData();
+    form.append('photo', file);
+    return this.http
+      .post(`/api/instruments/${id}/photos`, form)
+      .pipe(parsedWith(instrumentPhotoSchema));
+  }
+
+  /** Checks a fleet CSV (`dryRun`) or commits it; a commit is all or nothing. */
+  importCsv(file: File, dryRun: boolean): Observable<FleetImportResult> {
+    return this.http
+      .post(`/api/instruments/import?dryRun=${dryRun}`, file, {
+        headers: { 'Content-Type': 'text/csv' },
+      })
+      .pipe(parsedWith(fleetImportResultSchema));
+  }
+
+  /** The address of the printable asset-tag labels of one school. */
+  labelsUrl(schoolId: number): string {
+    return `/api/instruments/labels.pdf?schoolId=${schoolId}`;
+  }
+}

@@ -1,0 +1,129 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  inject,
+  input,
+  signal,
+  untracked,
+} from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { RouterLink } from '@angular/router';
+import { catchError, map, of } from 'rxjs';
+import type { InstrumentDetail as Detail } from '../../../../shared/api/instrument';
+import { CurrentUser } from '../../core/auth/current-user';
+import { errorMessage } from '../../core/parse';
+import { PageState } from '../../core/state/page-state';
+import { SchoolData } from '../../schools/school-data';
+import { FleetInstruments } from '../instrument-data';
+import { InstrumentForm } from '../instrument-form/instrument-form';
+import {
+  cleaningCaution,
+  conditionLabels,
+  dayText,
+  handlingCaution,
+  instrumentKindName,
+  statusLooks,
+} from '../instrument-labels';
+import { InstrumentPhotos } from '../instrument-photos/instrument-photos';
+import { InstrumentTimeline } from '../instrument-timeline/instrument-timeline';
+
+type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready' };
+
+/** One instrument: its record, cautions, current loan, open repairs, photos and timeline. */
+@Component({
+  selector: 'tb-instrument-detail',
+  imports: [
+    RouterLink,
+    MatButtonModule,
+    MatIconModule,
+    PageState,
+    InstrumentForm,
+    InstrumentPhotos,
+    InstrumentTimeline,
+  ],
+  templateUrl: './instrument-detail.html',
+  styleUrl: './instrument-detail.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class InstrumentDetail {
+  private readonly fleet = inject(FleetInstruments);
+
+  /** The route's `:id`. */
+  readonly id = input.required<string>();
+
+  protected readonly canWrite = inject(CurrentUser).can('fleet:write');
+  protected readonly schools = toSignal(
+    inject(SchoolData)
+      .list({ limit: 200, sort: 'name:asc' })
+      .pipe(
+        map((list) => list.rows.map(({ id, code, name }) => ({ id, code, name }))),
+        catchError(() => of([])),
+      ),
+    { initialValue: [] },
+  );
+  protected readonly load = signal<Load>({ kind: 'loading' });
+  protected readonly instrument = signal<Detail | null>(null);
+  protected readonly kindName = computed(() => {
+    const instrument = this.instrument();
+    return instrument ? instrumentKindName(instrument.instrumentId, instrument.instrumentName) : '';
+  });
+  protected readonly look = computed(() => {
+    const instrument = this.instrument();
+    return instrument ? statusLooks[instrument.status] : null;
+  });
+  protected readonly conditionLabels = conditionLabels;
+  protected readonly cleaningCaution = cleaningCaution;
+  protected readonly handlingCaution = handlingCaution;
+  protected readonly day = dayText;
+  protected readonly cleaning = signal(false);
+  protected readonly cleanError = signal('');
+  protected readonly cleanedNote = signal(false);
+
+  constructor() {
+    effect(() => {
+      const id = Number(this.id());
+      untracked(() => this.fetch(id));
+    });
+  }
+
+  protected reload(): void {
+    this.fetch(Number(this.id()));
+  }
+
+  protected recordCleaned(): void {
+    const instrument = this.instrument();
+    if (!instrument || this.cleaning()) return;
+    this.cleaning.set(true);
+    this.cleanError.set('');
+    this.fleet.markCleaned(instrument.id).subscribe({
+      next: () => {
+        this.cleaning.set(false);
+        this.cleanedNote.set(true);
+        this.reload();
+      },
+      error: (error: unknown) => {
+        this.cleaning.set(false);
+        this.cleanError.set(errorMessage(error, 'The cleaning could not be recorded.'));
+      },
+    });
+  }
+
+  private fetch(id: number): void {
+    if (!this.instrument()) this.load.set({ kind: 'loading' });
+    this.fleet.get(id).subscribe({
+      next: (instrument) => {
+        this.instrument.set(instrument);
+        this.load.set({ kind: 'ready' });
+      },
+      error: (error: unknown) =>
+        this.load.set({
+          kind: 'error',
+          message: errorMessage(error, 'The instrument could not be loaded.'),
+        }),
+    });
+  }
+}

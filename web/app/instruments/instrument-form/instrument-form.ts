@@ -1,0 +1,186 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  inject,
+  input,
+  output,
+  signal,
+  untracked,
+} from '@angular/core';
+import { NonNullableFormBuilder, ReactiveFormsModule, type AbstractControl } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import type { SchoolSummary } from '../../../../shared/api/me';
+import {
+  instrumentConditions,
+  instrumentInputSchema,
+  manualInstrumentStatuses,
+  type Instrument,
+  type InstrumentCondition,
+} from '../../../../shared/api/instrument';
+import { instrumentFamilies, instruments } from '../../../../shared/music/instrument-data';
+import {
+  fieldMessage,
+  isConflict,
+  schemaValidator,
+  showFieldErrors,
+} from '../../core/grid/record-form';
+import { errorMessage } from '../../core/parse';
+import { FleetInstruments } from '../instrument-data';
+import { centsOf, conditionLabels, familyLabels, statusLooks } from '../instrument-labels';
+
+const fields = instrumentInputSchema.shape;
+type ManualStatus = (typeof manualInstrumentStatuses)[number];
+
+function costValidator(control: AbstractControl) {
+  const cents = centsOf(String(control.value ?? ''));
+  return Number.isNaN(cents)
+    ? { schema: 'Write the cost in dollars, e.g. 1250 or 1250.00.' }
+    : null;
+}
+
+/** An instrument's record as a form; adds an instrument when given none. */
+@Component({
+  selector: 'tb-instrument-form',
+  imports: [
+    ReactiveFormsModule,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatSelectModule,
+  ],
+  templateUrl: './instrument-form.html',
+  styleUrl: './instrument-form.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class InstrumentForm {
+  private readonly fleet = inject(FleetInstruments);
+
+  /** The instrument being edited; null to add one. */
+  readonly instrument = input<Instrument | null>(null);
+  readonly schools = input<SchoolSummary[]>([]);
+  /** Whether the user may change the record. */
+  readonly editable = input(false);
+
+  /** Saved; the answer is the row as the API now has it. */
+  readonly saved = output<Instrument>();
+  /** The user asked to load the record again after a conflict. */
+  readonly reloadRequested = output<void>();
+
+  protected readonly families = instrumentFamilies.map((family) => ({
+    label: familyLabels[family],
+    kinds: instruments.filter((kind) => kind.family === family),
+  }));
+  protected readonly conditions = instrumentConditions;
+  protected readonly conditionLabels = conditionLabels;
+  protected readonly manualStatuses = manualInstrumentStatuses;
+  protected readonly statusLooks = statusLooks;
+  protected readonly adding = computed(() => this.instrument() === null);
+  /** Loans, repairs and counts set the other statuses; a person may set only these. */
+  protected readonly statusSettable = computed(() => {
+    const status = this.instrument()?.status;
+    return status !== undefined && (manualInstrumentStatuses as readonly string[]).includes(status);
+  });
+  protected readonly saving = signal(false);
+  protected readonly savedNote = signal(false);
+  protected readonly conflict = signal(false);
+  protected readonly saveError = signal('');
+  protected readonly fieldMessage = fieldMessage;
+
+  protected readonly form = inject(NonNullableFormBuilder).group({
+    assetTag: ['', schemaValidator(fields.assetTag)],
+    instrumentId: ['', schemaValidator(fields.instrumentId)],
+    maker: [''],
+    model: [''],
+    serial: [''],
+    purchasedOn: [''],
+    purchaseCost: ['', costValidator],
+    fundingSource: [''],
+    condition: ['good' as InstrumentCondition],
+    status: ['available' as ManualStatus],
+    homeSchoolId: [null as number | null, schemaValidator(fields.homeSchoolId)],
+    location: [''],
+    notes: [''],
+  });
+
+  constructor() {
+    effect(() => {
+      const instrument = this.instrument();
+      const editable = this.editable();
+      untracked(() => this.show(instrument, editable));
+    });
+    effect(() => {
+      const schools = this.schools();
+      if (this.adding() && schools.length === 1) {
+        untracked(() => this.form.controls.homeSchoolId.setValue(schools[0]!.id));
+      }
+    });
+  }
+
+  private show(instrument: Instrument | null, editable: boolean): void {
+    this.conflict.set(false);
+    if (instrument) {
+      this.form.reset({
+        assetTag: instrument.assetTag,
+        instrumentId: instrument.instrumentId,
+        maker: instrument.maker,
+        model: instrument.model,
+        serial: instrument.serial,
+        purchasedOn: instrument.purchasedOn ?? '',
+        purchaseCost:
+          instrument.purchaseCostCents === null
+            ? ''
+            : (instrument.purchaseCostCents / 100).toFixed(2),
+        fundingSource: instrument.fundingSource,
+        condition: instrument.condition,
+        status: this.statusSettable() ? (instrument.status as ManualStatus) : 'available',
+        homeSchoolId: instrument.homeSchoolId,
+        location: instrument.location,
+        notes: instrument.notes,
+      });
+    }
+    if (editable) this.form.enable({ emitEvent: false });
+    else this.form.disable({ emitEvent: false });
+  }
+
+  protected save(): void {
+    this.form.markAllAsTouched();
+    if (this.form.invalid || this.saving()) return;
+    const { purchaseCost, purchasedOn, status, homeSchoolId, ...values } = this.form.getRawValue();
+    const record = {
+      ...values,
+      homeSchoolId: homeSchoolId ?? 0,
+      purchasedOn: purchasedOn || null,
+      purchaseCostCents: centsOf(purchaseCost),
+    };
+    const instrument = this.instrument();
+    this.saving.set(true);
+    this.savedNote.set(false);
+    this.saveError.set('');
+    const request = instrument
+      ? this.fleet.update(instrument.id, {
+          ...record,
+          ...(this.statusSettable() ? { status } : {}),
+          version: instrument.version,
+        })
+      : this.fleet.create(instrumentInputSchema.parse(record));
+    request.subscribe({
+      next: (saved) => {
+        this.saving.set(false);
+        this.savedNote.set(true);
+        this.saved.emit(saved);
+      },
+      error: (error: unknown) => {
+        this.saving.set(false);
+        if (isConflict(error) && instrument) this.conflict.set(true);
+        else if (!showFieldErrors(this.form, error)) this.saveError.set(errorMessage(error));
+      },
+    });
+  }
+}

@@ -1,0 +1,123 @@
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { FormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCheckboxModule } from '@angular/material/checkbox';
+import { MatChipsModule } from '@angular/material/chips';
+import { MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import {
+  instrumentConditions,
+  type Instrument,
+  type InstrumentCondition,
+} from '../../../../shared/api/instrument';
+import type { CheckoutInput, Loan } from '../../../../shared/api/loan';
+import type { Student } from '../../../../shared/api/student';
+import { CurrentUser } from '../../core/auth/current-user';
+import { errorMessage } from '../../core/parse';
+import { InstrumentPicker } from '../../instruments/instrument-picker/instrument-picker';
+import { centsOf, conditionLabels, dayText } from '../../instruments/instrument-labels';
+import { FleetLoans } from '../loan-data';
+import { accessoriesFor } from './accessories';
+import { StudentPicker } from './student-picker';
+
+/**
+ * Lends an available instrument to a student: due date, accessories, condition, fee or waiver.
+ * The server e-mails the guardian a one-time link to read and sign the agreement.
+ */
+@Component({
+  selector: 'tb-checkout-dialog',
+  imports: [
+    FormsModule,
+    InstrumentPicker,
+    MatButtonModule,
+    MatCheckboxModule,
+    MatChipsModule,
+    MatDialogModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatSelectModule,
+    StudentPicker,
+  ],
+  templateUrl: './checkout-dialog.html',
+  styleUrl: './checkout-dialog.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class CheckoutDialog {
+  private readonly loans = inject(FleetLoans);
+  protected readonly dialog = inject<MatDialogRef<CheckoutDialog, Loan>>(MatDialogRef);
+
+  /** Coordinator and directors may waive the fee; the server hides waivers from other roles. */
+  protected readonly canWaive = inject(CurrentUser).can('loans:see-waivers');
+  protected readonly conditions = instrumentConditions;
+  protected readonly conditionLabels = conditionLabels;
+  protected readonly day = dayText;
+  protected readonly instrument = signal<Instrument | null>(null);
+  protected readonly student = signal<Student | null>(null);
+  protected readonly dueOn = signal('');
+  protected readonly accessories = signal<string[]>([]);
+  protected readonly condition = signal<InstrumentCondition>('good');
+  protected readonly fee = signal('');
+  protected readonly waiver = signal(false);
+  protected readonly waiverReason = signal('');
+  protected readonly saving = signal(false);
+  protected readonly failure = signal('');
+  protected readonly lent = signal<Loan | null>(null);
+  protected readonly today = new Date().toISOString().slice(0, 10);
+
+  protected readonly accessoryChoices = computed(() =>
+    accessoriesFor(this.instrument()?.instrumentId ?? null),
+  );
+  protected readonly feeCents = computed(() => centsOf(this.fee()));
+  protected readonly feeInvalid = computed(() => Number.isNaN(this.feeCents()));
+  protected readonly ready = computed(
+    () => this.instrument() !== null && this.student() !== null && !this.feeInvalid(),
+  );
+  /** Whom the agreement went to, as the confirmation says it. */
+  protected readonly guardianLine = computed(() => {
+    const student = this.student();
+    if (!student?.guardianEmail) return null;
+    return student.guardianName
+      ? `${student.guardianName} (${student.guardianEmail})`
+      : student.guardianEmail;
+  });
+
+  protected pickInstrument(instrument: Instrument | null): void {
+    this.instrument.set(instrument);
+    if (!instrument) return;
+    this.condition.set(instrument.condition);
+    this.accessories.set(accessoriesFor(instrument.instrumentId).filter((name) => name === 'case'));
+  }
+
+  protected lend(): void {
+    const instrument = this.instrument();
+    const student = this.student();
+    if (!instrument || !student || !this.ready() || this.saving()) return;
+    const waived = this.canWaive && this.waiver();
+    const input: CheckoutInput = {
+      instrumentId: instrument.id,
+      studentId: student.id,
+      dueOn: this.dueOn() || undefined,
+      accessories: this.accessories(),
+      conditionOut: this.condition(),
+      usageFeeCents: waived ? 0 : (this.feeCents() ?? 0),
+      waiver: waived,
+      waiverReason: waived ? this.waiverReason().trim() || undefined : undefined,
+    };
+    this.saving.set(true);
+    this.failure.set('');
+    this.loans.checkOut(input).subscribe({
+      next: (loan) => {
+        this.saving.set(false);
+        this.lent.set(loan);
+      },
+      error: (error: unknown) => {
+        this.saving.set(false);
+        this.failure.set(errorMessage(error, 'The instrument could not be checked out.'));
+      },
+    });
+  }
+}

@@ -1,0 +1,106 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  inject,
+  output,
+  signal,
+} from '@angular/core';
+import { HttpClient } from '@angular/common/http';
+import { MatAutocompleteModule } from '@angular/material/autocomplete';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { Subject, catchError, debounceTime, map, of, switchMap } from 'rxjs';
+import { listResponseSchema } from '../../../../shared/api/list';
+import { studentSchema, type Student } from '../../../../shared/api/student';
+import { parsedWith } from '../../core/parse';
+
+const studentListSchema = listResponseSchema(studentSchema);
+
+/** Finds an active student of the user's schools by name or student ID as the user types. */
+@Component({
+  selector: 'tb-student-picker',
+  imports: [MatAutocompleteModule, MatFormFieldModule, MatIconModule, MatInputModule],
+  template: `
+    <mat-form-field appearance="outline" class="picker">
+      <mat-label>Student</mat-label>
+      <mat-icon matPrefix svgIcon="search" />
+      <input
+        matInput
+        type="search"
+        [matAutocomplete]="choices"
+        (input)="typed($any($event.target).value)"
+        placeholder="Last name, first name or student ID"
+        autocomplete="off"
+        data-testid="student-picker"
+      />
+      <mat-autocomplete
+        #choices="matAutocomplete"
+        [displayWith]="describe"
+        (optionSelected)="picked.emit($event.option.value)"
+      >
+        @for (student of found(); track student.id) {
+          <mat-option [value]="student">
+            <strong>{{ student.preferredName ?? student.firstName }} {{ student.lastName }}</strong>
+            · grade {{ student.gradeLabel }} · {{ student.schoolCode }} ·
+            {{ student.studentNumber }}
+          </mat-option>
+        }
+        @if (searched() && found().length === 0) {
+          <mat-option disabled>No active student of your schools matches.</mat-option>
+        }
+      </mat-autocomplete>
+    </mat-form-field>
+  `,
+  styles: `
+    .picker {
+      width: 100%;
+    }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class StudentPicker {
+  private readonly http = inject(HttpClient);
+  private readonly searches = new Subject<string>();
+
+  readonly picked = output<Student | null>();
+
+  protected readonly found = signal<Student[]>([]);
+  protected readonly searched = signal(false);
+  protected readonly describe = (student: Student | string | null) =>
+    typeof student === 'string'
+      ? student
+      : student
+        ? `${student.preferredName ?? student.firstName} ${student.lastName} (${student.studentNumber})`
+        : '';
+
+  constructor() {
+    // The API answers only the user's own schools' students.
+    const subscription = this.searches
+      .pipe(
+        debounceTime(200),
+        switchMap((q) =>
+          this.http.get('/api/students', { params: { q, status: 'active', limit: 12 } }).pipe(
+            parsedWith(studentListSchema),
+            map((page) => page.rows),
+            catchError(() => of([])),
+          ),
+        ),
+      )
+      .subscribe((rows) => {
+        this.found.set(rows);
+        this.searched.set(true);
+      });
+    inject(DestroyRef).onDestroy(() => subscription.unsubscribe());
+  }
+
+  protected typed(text: string): void {
+    this.picked.emit(null);
+    if (text.trim()) this.searches.next(text.trim());
+    else {
+      this.found.set([]);
+      this.searched.set(false);
+    }
+  }
+}

@@ -1,0 +1,62 @@
+import { HttpClient, HttpParams } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import type { Observable } from 'rxjs';
+import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import {
+  loanSchema,
+  reminderResultSchema,
+  type CheckoutInput,
+  type Loan,
+  type ReminderResult,
+  type ReturnInput,
+} from '../../../shared/api/loan';
+import { parsedWith } from '../core/parse';
+
+const loanListSchema = listResponseSchema(loanSchema);
+
+/** Loans of the fleet through `/api/loans`: check-out, return, reminders, agreements. */
+@Injectable({ providedIn: 'root' })
+export class FleetLoans {
+  private readonly http = inject(HttpClient);
+
+  list(query: Record<string, string | number>): Observable<ListResponse<Loan>> {
+    return this.http
+      .get('/api/loans', { params: new HttpParams({ fromObject: query }) })
+      .pipe(parsedWith(loanListSchema));
+  }
+
+  get(id: number): Observable<Loan> {
+    return this.http.get(`/api/loans/${id}`).pipe(parsedWith(loanSchema));
+  }
+
+  /** Lends an instrument; the server e-mails the guardian a one-time agreement link. */
+  checkOut(input: CheckoutInput): Observable<Loan> {
+    return this.http.post('/api/loans', input).pipe(parsedWith(loanSchema));
+  }
+
+  /** Takes a loan back: damage opens a repair ticket, a loss marks the instrument missing. */
+  returnLoan(id: number, input: ReturnInput): Observable<Loan> {
+    return this.http.post(`/api/loans/${id}/return`, input).pipe(parsedWith(loanSchema));
+  }
+
+  remind(id: number): Observable<ReminderResult> {
+    return this.http.post(`/api/loans/${id}/reminder`, {}).pipe(parsedWith(reminderResultSchema));
+  }
+
+  /** Reminds the guardians of every overdue loan the user may see. */
+  remindOverdue(): Observable<ReminderResult> {
+    return this.http
+      .post('/api/loans/overdue-reminders', {})
+      .pipe(parsedWith(reminderResultSchema));
+  }
+
+  /** Sends the guardian a new agreement link (the old one stops working). */
+  resendAgreement(id: number): Observable<unknown> {
+    return this.http.post(`/api/loans/${id}/agreement-link`, {});
+  }
+
+  /** The address of the agreement PDF (signed, with the guardian's typed name and the time). */
+  agreementPdfUrl(id: number): string {
+    return `/api/loans/${id}/agreement.pdf`;
+  }
+}

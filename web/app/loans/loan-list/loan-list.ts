@@ -1,0 +1,166 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  input,
+  linkedSignal,
+  signal,
+  viewChild,
+} from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatTabsModule } from '@angular/material/tabs';
+import { Router } from '@angular/router';
+import type { ColDef } from 'ag-grid-community';
+import { loanSortFields, type Loan } from '../../../../shared/api/loan';
+import { CurrentUser } from '../../core/auth/current-user';
+import { ServerGrid } from '../../core/grid/server-grid';
+import { errorMessage } from '../../core/parse';
+import { FleetConfirmDialog } from '../../instruments/fleet-confirm-dialog/fleet-confirm-dialog';
+import {
+  IconTextCell,
+  type IconTextCellParams,
+} from '../../instruments/icon-text-cell/icon-text-cell';
+import { dayText } from '../../instruments/instrument-labels';
+import { CheckoutDialog } from '../checkout-dialog/checkout-dialog';
+import { FleetLoans } from '../loan-data';
+import { LoanPanel } from '../loan-panel/loan-panel';
+import { loanTabs, type LoanTab } from './loan-tabs';
+
+/** The loans of the user's schools, by tab, with check-out, returns and reminders. */
+@Component({
+  selector: 'tb-loan-list',
+  imports: [
+    ServerGrid,
+    LoanPanel,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatTabsModule,
+  ],
+  templateUrl: './loan-list.html',
+  styleUrl: './loan-list.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class LoanList {
+  private readonly dialog = inject(MatDialog);
+  private readonly loans = inject(FleetLoans);
+  private readonly router = inject(Router);
+  private readonly grid = viewChild(ServerGrid);
+  private readonly currentUser = inject(CurrentUser);
+
+  /** The tab named in the address. */
+  readonly tab = input<string | undefined>(undefined);
+  readonly initialSearch = input('');
+
+  protected readonly canLend = this.currentUser.can('loans:write');
+  protected readonly tabs = loanTabs;
+  protected readonly current = computed<LoanTab>(
+    () => loanTabs.find((tab) => tab.id === this.tab()) ?? loanTabs[0]!,
+  );
+  protected readonly search = linkedSignal(() => this.initialSearch());
+  protected readonly selected = signal<Loan | null>(null);
+  protected readonly notice = signal('');
+  protected readonly sortFields = loanSortFields;
+  protected readonly columns: ColDef<Loan>[] = [
+    { field: 'assetTag', headerName: 'Asset tag', width: 125 },
+    { field: 'instrumentName', headerName: 'Instrument', width: 150 },
+    { field: 'studentName', headerName: 'Student', flex: 1, minWidth: 160 },
+    { field: 'schoolCode', headerName: 'School', width: 100 },
+    {
+      field: 'checkedOutOn',
+      headerName: 'Out since',
+      width: 130,
+      sort: 'desc',
+      valueFormatter: ({ value }) => dayText(value as string),
+    },
+    {
+      field: 'dueOn',
+      headerName: 'Due',
+      width: 205,
+      valueFormatter: ({ value, data }) =>
+        `${dayText(value as string)}${data?.overdue ? ' (overdue)' : ''}`,
+      cellRenderer: IconTextCell,
+      cellRendererParams: {
+        iconOf: (loan) => (loan.overdue ? { icon: 'event_busy', tone: 'danger' } : null),
+      } satisfies IconTextCellParams<Loan>,
+    },
+    {
+      colId: 'agreement',
+      headerName: 'Agreement',
+      width: 150,
+      valueGetter: ({ data }) => (data ? (data.signed ? 'Signed' : 'Not signed') : ''),
+      cellRenderer: IconTextCell,
+      cellRendererParams: {
+        iconOf: (loan) =>
+          loan.signed ? { icon: 'draw', tone: 'ok' } : { icon: 'pending', tone: 'warn' },
+      } satisfies IconTextCellParams<Loan>,
+    },
+    {
+      field: 'returnedOn',
+      headerName: 'Returned',
+      width: 130,
+      hide: true,
+      valueFormatter: ({ value }) => dayText(value as string | null),
+    },
+  ];
+
+  protected showTab(tab: LoanTab): void {
+    this.selected.set(null);
+    void this.router.navigate([], { queryParams: { tab: tab.id }, queryParamsHandling: 'merge' });
+  }
+
+  protected open(loan: Loan): void {
+    this.selected.set(loan);
+  }
+
+  /** A loan changed in the panel: show it as it is now and fetch the list again. */
+  protected changed(loan: Loan | null): void {
+    this.selected.set(loan);
+    this.grid()?.refresh();
+  }
+
+  protected checkOut(): void {
+    this.dialog
+      .open(CheckoutDialog, { width: '720px', maxWidth: '94vw', maxHeight: '92vh' })
+      .afterClosed()
+      .subscribe((loan?: Loan) => {
+        if (!loan) return;
+        this.selected.set(loan);
+        this.grid()?.refresh();
+      });
+  }
+
+  protected remindAllOverdue(): void {
+    this.dialog
+      .open(FleetConfirmDialog, {
+        data: {
+          title: 'Remind every overdue loan?',
+          paragraphs: [
+            'Each guardian of an overdue loan in your schools gets an e-mail asking for the instrument back. Loans reminded in the last day are skipped.',
+          ],
+          confirm: 'Send reminders',
+        },
+      })
+      .afterClosed()
+      .subscribe((confirmed?: boolean) => {
+        if (!confirmed) return;
+        this.notice.set('Sending reminders…');
+        this.loans.remindOverdue().subscribe({
+          next: ({ queued }) =>
+            this.notice.set(
+              queued === 0
+                ? 'No reminders were needed.'
+                : `${queued} ${queued === 1 ? 'reminder was' : 'reminders were'} queued for e-mail.`,
+            ),
+          error: (error: unknown) =>
+            this.notice.set(errorMessage(error, 'The reminders could not be sent.')),
+        });
+      });
+  }
+}

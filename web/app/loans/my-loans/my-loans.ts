@@ -1,0 +1,124 @@
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { MatIconModule } from '@angular/material/icon';
+import type { Loan } from '../../../../shared/api/loan';
+import { errorMessage } from '../../core/parse';
+import { PageState } from '../../core/state/page-state';
+import { dayText } from '../../instruments/instrument-labels';
+import { FleetLoans } from '../loan-data';
+
+type Load =
+  { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready'; loans: Loan[] };
+
+/** A student's own loans: what they have out, when it is due, and their cautions. */
+@Component({
+  selector: 'tb-my-loans',
+  imports: [MatIconModule, PageState],
+  template: `
+    <div class="tb-page">
+      <header class="tb-page-header">
+        <div>
+          <h1>My instruments</h1>
+          <p>The school instruments lent to you.</p>
+        </div>
+      </header>
+      @switch (load().kind) {
+        @case ('loading') {
+          <tb-page-state kind="loading" title="Loading your loans…" />
+        }
+        @case ('error') {
+          <tb-page-state
+            kind="error"
+            title="Your loans could not be loaded"
+            [message]="$any(load()).message"
+          />
+        }
+        @case ('ready') {
+          @let loans = $any(load()).loans;
+          @for (loan of loans; track loan.id) {
+            <article class="tb-card loan" data-testid="my-loan">
+              <h2>{{ loan.instrumentName }} · {{ loan.assetTag }}</h2>
+              <p>
+                @if (loan.state === 'active') {
+                  Due back {{ day(loan.dueOn) }}
+                  @if (loan.overdue) {
+                    <span class="late"
+                      ><mat-icon svgIcon="event_busy" aria-hidden="true" />Overdue: please bring it
+                      back</span
+                    >
+                  }
+                } @else if (loan.state === 'returned') {
+                  Returned {{ day(loan.returnedOn) }}
+                } @else {
+                  Reported lost
+                }
+              </p>
+              @if (loan.accessories.length > 0) {
+                <p class="tb-muted">With: {{ loan.accessories.join(', ') }}</p>
+              }
+              @for (caution of loan.cautions; track $index) {
+                <p class="caution" role="note">{{ caution }}</p>
+              }
+            </article>
+          } @empty {
+            <tb-page-state
+              kind="empty"
+              icon="piano"
+              title="No instruments are lent to you"
+              message="Your music director lends school instruments; ask them if you need one."
+            />
+          }
+        }
+      }
+    </div>
+  `,
+  styles: `
+    .loan {
+      margin-bottom: 12px;
+      max-width: 44rem;
+      h2 {
+        margin: 0 0 6px;
+        font-size: 1.05rem;
+        font-weight: 600;
+      }
+      p {
+        margin: 4px 0;
+      }
+    }
+    .late {
+      display: inline-flex;
+      align-items: center;
+      gap: 4px;
+      margin-left: 8px;
+      font-weight: 600;
+      color: var(--tb-danger);
+      mat-icon {
+        width: 18px;
+        height: 18px;
+        fill: var(--tb-danger);
+      }
+    }
+    .caution {
+      padding: 8px 10px;
+      border-left: 4px solid var(--tb-brass);
+      background: #fbf3e4;
+      border-radius: 4px;
+      font-size: 0.9rem;
+    }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class MyLoans {
+  protected readonly load = signal<Load>({ kind: 'loading' });
+  protected readonly day = dayText;
+
+  constructor() {
+    // The server answers a student only their own loans.
+    inject(FleetLoans)
+      .list({ limit: 50, sort: 'checkedOutOn:desc' })
+      .subscribe({
+        next: (page) => this.load.set({ kind: 'ready', loans: page.rows }),
+        error: (error: unknown) =>
+          this.load.set({ kind: 'error', message: errorMessage(error, 'Try again later.') }),
+      });
+  }
+}

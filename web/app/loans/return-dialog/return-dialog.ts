@@ -1,0 +1,88 @@
+import { LowerCasePipe } from '@angular/common';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { FormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCheckboxModule } from '@angular/material/checkbox';
+import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { instrumentConditions, type InstrumentCondition } from '../../../../shared/api/instrument';
+import type { Loan, ReturnInput } from '../../../../shared/api/loan';
+import { instruments } from '../../../../shared/music/instrument-data';
+import { errorMessage } from '../../core/parse';
+import { cleaningCaution, conditionLabels } from '../../instruments/instrument-labels';
+import { FleetLoans } from '../loan-data';
+
+/** What the return dialog needs. */
+export interface ReturnDialogData {
+  loan: Loan;
+}
+
+/**
+ * Takes a loan back: the condition it came back in; damage opens a repair ticket; a loss marks
+ * the instrument missing. A wind instrument waits to be cleaned before it is lent again.
+ */
+@Component({
+  selector: 'tb-return-dialog',
+  imports: [
+    FormsModule,
+    LowerCasePipe,
+    MatButtonModule,
+    MatCheckboxModule,
+    MatDialogModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatSelectModule,
+  ],
+  templateUrl: './return-dialog.html',
+  styleUrl: './return-dialog.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ReturnDialog {
+  private readonly loans = inject(FleetLoans);
+  private readonly dialog = inject<MatDialogRef<ReturnDialog, Loan>>(MatDialogRef);
+  protected readonly loan = inject<ReturnDialogData>(MAT_DIALOG_DATA).loan;
+
+  protected readonly conditions = instrumentConditions;
+  protected readonly conditionLabels = conditionLabels;
+  protected readonly cleaningCaution = cleaningCaution;
+  protected readonly condition = signal<InstrumentCondition | null>(this.loan.conditionOut);
+  protected readonly damaged = signal(false);
+  protected readonly problem = signal('');
+  protected readonly lost = signal(false);
+  protected readonly notes = signal('');
+  protected readonly saving = signal(false);
+  protected readonly failure = signal('');
+  /** Woodwind and brass go to "to clean" when they come back (common practice, no source). */
+  protected readonly isWind = ['woodwind', 'brass'].includes(
+    instruments.find((kind) => kind.id === this.loan.instrumentType)?.family ?? '',
+  );
+  protected readonly ready = computed(
+    () =>
+      this.lost() ||
+      (this.condition() !== null && (!this.damaged() || this.problem().trim().length >= 3)),
+  );
+
+  protected save(): void {
+    if (!this.ready() || this.saving()) return;
+    const input: ReturnInput = this.lost()
+      ? { lost: true, notes: this.notes().trim() || undefined }
+      : {
+          conditionIn: this.condition() ?? undefined,
+          damaged: this.damaged() ? { problem: this.problem().trim() } : undefined,
+          notes: this.notes().trim() || undefined,
+        };
+    this.saving.set(true);
+    this.failure.set('');
+    this.loans.returnLoan(this.loan.id, input).subscribe({
+      next: (loan) => this.dialog.close(loan),
+      error: (error: unknown) => {
+        this.saving.set(false);
+        this.failure.set(errorMessage(error, 'The return could not be recorded.'));
+      },
+    });
+  }
+}

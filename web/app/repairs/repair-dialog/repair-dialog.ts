@@ -1,0 +1,142 @@
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { FormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatRadioModule } from '@angular/material/radio';
+import { MatSelectModule } from '@angular/material/select';
+import { RouterLink } from '@angular/router';
+import type { Instrument } from '../../../../shared/api/instrument';
+import {
+  repairCaution,
+  repairStatuses,
+  type Repair,
+  type RepairStatus,
+} from '../../../../shared/api/repair';
+import { isConflict } from '../../core/grid/record-form';
+import { errorMessage } from '../../core/parse';
+import { InstrumentPicker } from '../../instruments/instrument-picker/instrument-picker';
+import { centsOf } from '../../instruments/instrument-labels';
+import { FleetRepairs } from '../repair-data';
+import { repairStatusLooks } from '../repair-looks';
+
+/** What the repair dialog needs: the ticket (null to open one) and whether it may change. */
+export interface RepairDialogData {
+  repair: Repair | null;
+  editable: boolean;
+}
+
+const dollarsOf = (cents: number | null) => (cents === null ? '' : (cents / 100).toFixed(2));
+
+/** Opens a repair ticket, or shows one and moves it along: sent, back, closed. */
+@Component({
+  selector: 'tb-repair-dialog',
+  imports: [
+    FormsModule,
+    InstrumentPicker,
+    MatButtonModule,
+    MatDialogModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatRadioModule,
+    MatSelectModule,
+    RouterLink,
+  ],
+  templateUrl: './repair-dialog.html',
+  styleUrl: './repair-dialog.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class RepairDialog {
+  private readonly repairs = inject(FleetRepairs);
+  protected readonly dialog = inject<MatDialogRef<RepairDialog, Repair>>(MatDialogRef);
+  protected readonly data = inject<RepairDialogData>(MAT_DIALOG_DATA);
+  private readonly ticket = signal<Repair | null>(this.data.repair);
+
+  protected readonly caution = repairCaution;
+  protected readonly statuses = repairStatuses;
+  protected readonly looks = repairStatusLooks;
+  protected readonly creating = this.data.repair === null;
+  protected readonly instrument = signal<Instrument | null>(null);
+  protected readonly problem = signal(this.data.repair?.problem ?? '');
+  protected readonly inHouse = signal(this.data.repair?.inHouse ?? true);
+  protected readonly vendor = signal(this.data.repair?.vendor ?? '');
+  protected readonly estimate = signal(dollarsOf(this.data.repair?.estimateCents ?? null));
+  protected readonly finalCost = signal(dollarsOf(this.data.repair?.finalCostCents ?? null));
+  protected readonly status = signal<RepairStatus>(this.data.repair?.status ?? 'open');
+  protected readonly sentOn = signal(this.data.repair?.sentOn ?? '');
+  protected readonly returnedOn = signal(this.data.repair?.returnedOn ?? '');
+  protected readonly notes = signal(this.data.repair?.notes ?? '');
+  protected readonly saving = signal(false);
+  protected readonly failure = signal('');
+  protected readonly conflict = signal(false);
+
+  protected readonly amountsValid = computed(
+    () => !Number.isNaN(centsOf(this.estimate())) && !Number.isNaN(centsOf(this.finalCost())),
+  );
+  protected readonly ready = computed(
+    () =>
+      this.problem().trim().length >= 3 &&
+      this.amountsValid() &&
+      (this.inHouse() || this.vendor().trim().length > 0) &&
+      (!this.creating || this.instrument() !== null),
+  );
+
+  protected save(): void {
+    if (!this.ready() || this.saving()) return;
+    const vendor = this.inHouse() ? null : this.vendor().trim();
+    this.saving.set(true);
+    this.failure.set('');
+    const ticket = this.ticket();
+    const request = ticket
+      ? this.repairs.update(ticket.id, {
+          problem: this.problem().trim(),
+          inHouse: this.inHouse(),
+          vendor,
+          estimateCents: centsOf(this.estimate()),
+          finalCostCents: centsOf(this.finalCost()),
+          status: this.status(),
+          sentOn: this.sentOn() || null,
+          returnedOn: this.returnedOn() || null,
+          notes: this.notes().trim(),
+          version: ticket.version,
+        })
+      : this.repairs.create({
+          instrumentId: this.instrument()!.id,
+          problem: this.problem().trim(),
+          inHouse: this.inHouse(),
+          vendor,
+          estimateCents: centsOf(this.estimate()),
+          notes: this.notes().trim(),
+        });
+    request.subscribe({
+      next: (saved) => this.dialog.close(saved),
+      error: (error: unknown) => {
+        this.saving.set(false);
+        if (isConflict(error) && ticket) this.conflict.set(true);
+        else this.failure.set(errorMessage(error, 'The ticket could not be saved.'));
+      },
+    });
+  }
+
+  /** After a conflict: load the ticket as it is now, losing this dialog's changes. */
+  protected reload(): void {
+    const ticket = this.ticket();
+    if (!ticket) return;
+    this.repairs.get(ticket.id).subscribe((fresh) => {
+      this.ticket.set(fresh);
+      this.problem.set(fresh.problem);
+      this.inHouse.set(fresh.inHouse);
+      this.vendor.set(fresh.vendor ?? '');
+      this.estimate.set(dollarsOf(fresh.estimateCents));
+      this.finalCost.set(dollarsOf(fresh.finalCostCents));
+      this.status.set(fresh.status);
+      this.sentOn.set(fresh.sentOn ?? '');
+      this.returnedOn.set(fresh.returnedOn ?? '');
+      this.notes.set(fresh.notes);
+      this.conflict.set(false);
+    });
+  }
+}
