@@ -3,6 +3,7 @@ import { Shell } from './core/layout/shell';
 import { capabilityGuard, signedInGuard } from './core/auth/signed-in-guard';
 import { NotFound } from './core/not-found';
 import { startPage } from './core/start-page';
+import { studentPageGuard, studentPageMatcher } from './students/student-progress/student-page-route';
 
 export const routes: Routes = [
   {
@@ -32,6 +33,27 @@ export const routes: Routes = [
         canActivate: [capabilityGuard],
         data: { capability: 'roster:read' },
         loadChildren: () => import('./ensembles/ensembles.routes').then((m) => m.ensemblesRoutes),
+      },
+      {
+        matcher: studentPageMatcher,
+        canActivate: [studentPageGuard],
+        loadComponent: () =>
+          import('./students/student-progress/student-progress').then((m) => m.StudentProgress),
+        title: 'Progress · Tuttiboard',
+      },
+      {
+        path: 'ladder',
+        canActivate: [capabilityGuard],
+        data: { capability: 'ladder:read' },
+        loadChildren: () => import('./ladder/ladder.routes').then((m) => m.ladderRoutes),
+      },
+      {
+        path: 'pass-offs',
+        canActivate: [capabilityGuard],
+        data: { capability: 'pass-offs:write' },
+        loadComponent: () =>
+          import('./pass-offs/pass-off-entry/pass-off-entry').then((m) => m.PassOffEntry),
+        title: 'Pass-offs · Tuttiboard',
       },
       {
         path: 'students',

@@ -42,6 +42,11 @@ import cloudOff from '@material-symbols/svg-400/outlined/cloud_off.svg';
 import schedule from '@material-symbols/svg-400/outlined/schedule.svg';
 import libraryMusic from '@material-symbols/svg-400/outlined/library_music.svg';
 import checklist from '@material-symbols/svg-400/outlined/checklist.svg';
+import arrowUpward from '@material-symbols/svg-400/outlined/arrow_upward.svg';
+import arrowDownward from '@material-symbols/svg-400/outlined/arrow_downward.svg';
+import publish from '@material-symbols/svg-400/outlined/publish.svg';
+import attachFile from '@material-symbols/svg-400/outlined/attach_file.svg';
+import history from '@material-symbols/svg-400/outlined/history.svg';
 // The instrument fleet's screens.
 import checkCircle from '@material-symbols/svg-400/outlined/check_circle.svg';
 import sanitizer from '@material-symbols/svg-400/outlined/sanitizer.svg';
@@ -113,6 +118,11 @@ const icons: Record<string, string> = {
   schedule: schedule,
   library_music: libraryMusic,
   checklist: checklist,
+  arrow_upward: arrowUpward,
+  arrow_downward: arrowDownward,
+  publish: publish,
+  attach_file: attachFile,
+  history: history,
   check_circle: checkCircle,
   sanitizer: sanitizer,
   help: help,

@@ -19,6 +19,8 @@ export const navigationItems: NavigationItem[] = [
   { path: '/ensembles', label: 'Ensembles', icon: 'groups', capability: 'roster:read', group: 'district' },
   { path: '/students', label: 'Students', icon: 'person', capability: 'roster:read', group: 'district' },
   { path: '/imports', label: 'Imports', icon: 'upload_file', capability: 'imports:run', group: 'district' },
+  { path: '/ladder', label: 'Scale ladder', icon: 'stairs', capability: 'ladder:read', group: 'music' },
+  { path: '/pass-offs', label: 'Pass-offs', icon: 'fact_check', capability: 'pass-offs:write', group: 'music' },
   { path: '/practice', label: 'Practice sheets', icon: 'music_note', capability: 'practice:read', group: 'music' },
   { path: '/instruments', label: 'Instruments', icon: 'piano', capability: 'fleet:read', group: 'fleet' },
   { path: '/loans', label: 'Loans', icon: 'handshake', capability: 'loans:read', roles: ['student'], group: 'fleet' },

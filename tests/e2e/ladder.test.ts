@@ -1,0 +1,201 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser } from 'playwright-core';
+import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
+import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import type { Ladder, LadderRequirement } from '../../shared/api/ladder';
+import { instrumentById } from '../../shared/music/index';
+
+let app: TestApp;
+let browser: Browser;
+
+beforeAll(async () => {
+  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
+});
+afterAll(async () => {
+  await browser?.close();
+  await app?.close();
+});
+
+const patient = { timeout: 15_000 };
+
+function appliesTo(requirement: LadderRequirement, family: string): boolean {
+  return !requirement.families || (requirement.families as string[]).includes(family);
+}
+
+/** The path and query a requirement's practice-sheet link should carry for an instrument. */
+function practicePath(requirement: LadderRequirement, instrument: string): string {
+  const query = new URLSearchParams({
+    tonic: requirement.tonic,
+    mode: requirement.mode,
+    pattern: requirement.pattern,
+    tempo: String(requirement.tempo),
+    articulation: requirement.articulation,
+    octaves: String(requirement.octaves),
+    instrument,
+  });
+  return `/practice?${query}`;
+}
+
+describe('Scale ladder screen', () => {
+  it('should show the demo ladder with its rungs and link each scale to its practice sheet', async () => {
+    const director = await app.signIn(demoEmail('director.hpms'));
+    const ladder = (await director.get('/api/ladder')).body as Ladder;
+    expect(ladder.rungs).toHaveLength(7);
+
+    const { context, outside } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('director.hpms'), '/ladder');
+    await page.waitForURL(`${app.url}/ladder`);
+    await expect.poll(() => page.getByTestId('rung').count(), patient).toBe(7);
+    expect(await page.locator('nav[aria-label="Main"] a.item').allInnerTexts()).toEqual(
+      expect.arrayContaining(['Scale ladder', 'Pass-offs']),
+    );
+
+    // Staff read the ladder for a clarinet until they pick another instrument.
+    const firstForWinds = ladder.rungs[0]!.requirements.find((requirement) =>
+      appliesTo(requirement, 'woodwind'),
+    )!;
+    const firstLink = page.getByTestId('rung').first().getByTestId('requirement-link').first();
+    expect(await firstLink.getAttribute('href')).toBe(practicePath(firstForWinds, 'clarinet'));
+    const shownInRungOne = await page
+      .getByTestId('rung')
+      .first()
+      .getByTestId('requirement')
+      .count();
+    expect(shownInRungOne).toBe(
+      ladder.rungs[0]!.requirements.filter((requirement) => appliesTo(requirement, 'woodwind'))
+        .length,
+    );
+
+    // The benchmark table has one row per grade the ladder sets a benchmark for.
+    const grades = new Set(ladder.benchmarks.map((benchmark) => benchmark.grade));
+    expect(await page.getByTestId('benchmark-table').locator('tbody tr').count()).toBe(grades.size);
+
+    await page.evaluate(() => document.fonts.ready);
+    await saveScreenshot(page, 'ladder');
+
+    await page.getByTestId('instrument-picker').click();
+    await page.getByRole('option', { name: 'Cello', exact: true }).click();
+    const firstForStrings = ladder.rungs[0]!.requirements.find((requirement) =>
+      appliesTo(requirement, 'strings'),
+    )!;
+    await expect
+      .poll(() => firstLink.getAttribute('href'), patient)
+      .toBe(practicePath(firstForStrings, 'cello'));
+
+    await firstLink.click();
+    await page.waitForURL((url) => url.pathname === '/practice');
+    expect(new URL(page.url()).searchParams.get('instrument')).toBe('cello');
+    expect(new URL(page.url()).searchParams.get('tonic')).toBe(firstForStrings.tonic);
+    expect(outside).toEqual([]);
+    await context.close();
+  });
+
+  it("should show a student their own rung and practice links for their instrument, and nobody else's page", async () => {
+    const student = await app.signIn(demoEmail('student.hpms'));
+    const me = (await student.get('/api/me')).body as { studentId: number };
+    const progress = (await student.get(`/api/analytics/students/${me.studentId}/progress`)).body;
+    expect(progress.rungCount).toBe(7);
+
+    const { context } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('student.hpms'));
+    await page.waitForURL(`${app.url}/students/${me.studentId}`);
+    const expected =
+      progress.rung === 0 ? /^Not on a rung yet/ : new RegExp(`^Rung ${progress.rung} of 7`);
+    await expect
+      .poll(() => page.getByTestId('progress-rung').innerText(), patient)
+      .toMatch(expected);
+    expect(await page.getByTestId('progress-student').innerText()).toBe('My progress');
+    expect(await page.locator('.tb-page-header p').innerText()).toContain(progress.studentName);
+    // A student has no roster access, so no link to the record.
+    expect(await page.getByTestId('student-record').count()).toBe(0);
+
+    const nextLinks = page.getByTestId('next-requirement').locator('a');
+    expect(await nextLinks.count()).toBe(progress.next.requirements.length);
+    if (progress.next.requirements.length > 0) {
+      expect(await nextLinks.first().getAttribute('href')).toBe(
+        practicePath(progress.next.requirements[0], progress.instrumentId),
+      );
+    }
+    expect(await page.getByTestId('progress-history').locator('tbody tr').count()).toBe(
+      progress.history.length,
+    );
+    await page.evaluate(() => document.fonts.ready);
+    await saveScreenshot(page, 'student-progress');
+
+    // The rail's ladder reads for the student's own instrument.
+    await page.locator('nav[aria-label="Main"] a.item', { hasText: 'Scale ladder' }).click();
+    await expect.poll(() => page.getByTestId('rung').count(), patient).toBe(7);
+    const instrumentName = instrumentById(progress.instrumentId).name.toLowerCase();
+    expect(await page.locator('.for-me').innerText()).toContain(instrumentName);
+
+    await page.goto(`${app.url}/students/${me.studentId + 1}`);
+    await expect.poll(() => page.getByTestId('progress-not-found').isVisible(), patient).toBe(true);
+    expect(await page.getByTestId('progress-not-found').innerText()).toContain(
+      'only your own progress page',
+    );
+    await context.close();
+  });
+
+  it('should let the coordinator edit a draft, show the server’s field messages, and publish it', async () => {
+    const { context } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('coordinator'), '/ladder');
+    await page.getByTestId('start-draft').click();
+    await page.waitForURL(/\/ladder\/versions\/\d+\/edit$/);
+    await expect.poll(() => page.getByTestId('rung-editor').count(), patient).toBe(7);
+
+    const tempo = page.getByTestId('rung-editor').first().locator('input[type=number]').first();
+    await tempo.fill('10');
+    await tempo.dispatchEvent('change');
+    await page.getByTestId('save-draft').click();
+    // The message is the server's own (requirementTempoRange in shared/api/ladder.ts).
+    await expect
+      .poll(
+        () => page.getByTestId('rung-editor').first().locator('.field-error').first().innerText(),
+        patient,
+      )
+      .toContain('Tempo is at least 30.');
+    expect(await page.getByTestId('draft-problem').innerText()).toContain('marked ⚠');
+
+    await tempo.fill('66');
+    await tempo.dispatchEvent('change');
+    await page.getByTestId('save-draft').click();
+    await expect
+      .poll(() => page.locator('.actions-bar .state').innerText(), patient)
+      .toContain('Saved');
+
+    await page.getByTestId('publish').click();
+    const dialog = page.getByRole('dialog');
+    await expect.poll(() => dialog.innerText(), patient).toContain('recomputed');
+    expect(await dialog.innerText()).toContain('no longer exists');
+    await dialog.getByTestId('confirm').click();
+    await page.waitForURL(`${app.url}/ladder`);
+
+    const coordinator = await app.signIn(demoEmail('coordinator'));
+    const ladder = (await coordinator.get('/api/ladder')).body as Ladder;
+    expect(ladder.rungs[0]!.requirements[0]!.tempo).toBe(66);
+    await expect
+      .poll(() => page.getByTestId('rung').first().locator('.tempo').first().innerText(), patient)
+      .toBe('♩ = 66');
+
+    // A pass at ♩ = 60 heard under the old version no longer counts, and the student's page says so.
+    const code = ladder.rungs[0]!.requirements[0]!.code;
+    const slow = (
+      await coordinator.get(
+        `/api/pass-offs?requirementCode=${code}&passed=true&sort=tempo:asc&limit=1`,
+      )
+    ).body.rows[0];
+    expect(slow.tempo).toBeLessThan(66);
+    expect(slow.standing).toBe('below-tempo');
+    await page.goto(`${app.url}/students/${slow.studentId}`);
+    await expect
+      .poll(() => page.locator('.notes').innerText(), patient)
+      .toContain(slow.standingNote);
+    expect(await page.getByTestId('progress-history').locator('tr.stale').count()).toBeGreaterThan(
+      0,
+    );
+    await context.close();
+  });
+});

@@ -1,0 +1,330 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  inject,
+  input,
+  signal,
+} from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { Router, RouterLink } from '@angular/router';
+import { firstValueFrom, type Observable } from 'rxjs';
+import type { Ladder, LadderRequirement, LadderRung } from '../../../../shared/api/ladder';
+import { isConflict } from '../../core/grid/record-form';
+import { errorMessage } from '../../core/parse';
+import { PageState } from '../../core/state/page-state';
+import { BenchmarkEditor } from '../benchmark-editor/benchmark-editor';
+import { ConfirmDialog, type ConfirmDialogData } from '../confirm-dialog/confirm-dialog';
+import { LadderData } from '../ladder-data';
+import { RungEditor, type RequirementEdit } from '../rung-editor/rung-editor';
+import {
+  derivedCode,
+  editorErrors,
+  freeCode,
+  newRequirement,
+  renumbered,
+  toModel,
+  toPatch,
+  tonicsForMode,
+  type BenchmarkGrid,
+  type DraftModel,
+} from './draft-model';
+
+type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready' };
+
+/**
+ * The coordinator's editor for a draft ladder version: rungs (added, removed, reordered,
+ * retitled), their requirements and the benchmarks; saved as a whole, then published.
+ */
+@Component({
+  selector: 'tb-ladder-editor',
+  imports: [
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    RouterLink,
+    PageState,
+    RungEditor,
+    BenchmarkEditor,
+  ],
+  templateUrl: './ladder-editor.html',
+  styleUrl: './ladder-editor.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class LadderEditor {
+  private readonly ladderData = inject(LadderData);
+  private readonly dialog = inject(MatDialog);
+  private readonly snackBar = inject(MatSnackBar);
+  private readonly router = inject(Router);
+
+  /** The route's `:id`: the draft's version id. */
+  readonly id = input.required<string>();
+
+  protected readonly load = signal<Load>({ kind: 'loading' });
+  protected readonly draft = signal<Ladder | null>(null);
+  protected readonly activeName = signal<string | null>(null);
+  protected readonly model = signal<DraftModel | null>(null);
+  protected readonly dirty = signal(false);
+  protected readonly busy = signal<'saving' | 'publishing' | 'deleting' | null>(null);
+  protected readonly errors = signal<ReadonlyMap<string, string>>(new Map());
+  protected readonly problem = signal('');
+  protected readonly conflict = signal(false);
+  protected readonly savedAt = signal<Date | null>(null);
+  protected readonly requirementCount = computed(() =>
+    (this.model()?.rungs ?? []).reduce((sum, rung) => sum + rung.requirements.length, 0),
+  );
+
+  constructor() {
+    effect(() => this.fetch(Number(this.id())));
+    this.ladderData.active().subscribe({
+      next: (ladder) => this.activeName.set(ladder.name),
+      error: () => this.activeName.set(null),
+    });
+  }
+
+  protected fetch(id = Number(this.id())): void {
+    this.load.set({ kind: 'loading' });
+    this.conflict.set(false);
+    this.ladderData.version(id).subscribe({
+      next: (ladder) => {
+        if (ladder.status !== 'draft') {
+          this.load.set({
+            kind: 'error',
+            message:
+              'This version is published; published versions do not change. Start a new draft from the ladder page.',
+          });
+          return;
+        }
+        this.show(ladder);
+        this.load.set({ kind: 'ready' });
+      },
+      error: (error: unknown) =>
+        this.load.set({
+          kind: 'error',
+          message: errorMessage(error, 'The draft could not be loaded.'),
+        }),
+    });
+  }
+
+  protected setName(event: Event): void {
+    const name = (event.target as HTMLInputElement).value;
+    this.change((model) => ({ ...model, name }));
+  }
+
+  protected setTitle(rungIndex: number, title: string): void {
+    this.changeRung(rungIndex, (rung) => ({ ...rung, title }));
+  }
+
+  protected editRequirement(rungIndex: number, { index, patch }: RequirementEdit): void {
+    this.change((model) => {
+      const rung = model.rungs[rungIndex]!;
+      const before = rung.requirements[index]!;
+      const after: LadderRequirement = { ...before, ...patch };
+      if (patch.mode && !tonicsForMode(after.mode).includes(after.tonic)) {
+        after.tonic = tonicsForMode(after.mode).includes('C') ? 'C' : tonicsForMode(after.mode)[0]!;
+      }
+      // A code that was only ever derived from the key follows the key; a code typed by hand stays.
+      const derivedBefore = derivedCode(rung.number, before);
+      if ((patch.tonic || patch.mode) && before.code.startsWith(derivedBefore)) {
+        const suffix = before.code.slice(derivedBefore.length);
+        after.code = freeCode(model, derivedCode(rung.number, after) + suffix, before);
+      }
+      const requirements = rung.requirements.map((requirement, at) =>
+        at === index ? after : requirement,
+      );
+      return {
+        ...model,
+        rungs: model.rungs.map((each, at) => (at === rungIndex ? { ...each, requirements } : each)),
+      };
+    });
+  }
+
+  protected addRequirement(rungIndex: number): void {
+    this.change((model) => {
+      const requirement = newRequirement(model, rungIndex);
+      return {
+        ...model,
+        rungs: model.rungs.map((rung, at) =>
+          at === rungIndex ? { ...rung, requirements: [...rung.requirements, requirement] } : rung,
+        ),
+      };
+    });
+  }
+
+  protected removeRequirement(rungIndex: number, index: number): void {
+    this.changeRung(rungIndex, (rung) => ({
+      ...rung,
+      requirements: rung.requirements.filter((_requirement, at) => at !== index),
+    }));
+  }
+
+  protected moveRung(rungIndex: number, delta: -1 | 1): void {
+    this.change((model) => {
+      const rungs = [...model.rungs];
+      const target = rungIndex + delta;
+      if (target < 0 || target >= rungs.length) return model;
+      [rungs[rungIndex], rungs[target]] = [rungs[target]!, rungs[rungIndex]!];
+      return { ...model, rungs: renumbered(rungs) };
+    });
+  }
+
+  protected removeRung(rungIndex: number): void {
+    this.change((model) => ({
+      ...model,
+      rungs: renumbered(model.rungs.filter((_rung, at) => at !== rungIndex)),
+    }));
+  }
+
+  protected addRung(): void {
+    this.change((model) => ({
+      ...model,
+      rungs: [
+        ...model.rungs,
+        {
+          number: model.rungs.length + 1,
+          title: `Rung ${model.rungs.length + 1}`,
+          requirements: [],
+        },
+      ],
+    }));
+  }
+
+  protected setBenchmarks(grid: BenchmarkGrid): void {
+    this.change((model) => ({ ...model, benchmarks: grid }));
+  }
+
+  protected save(): void {
+    void this.saved();
+  }
+
+  protected async publish(): Promise<void> {
+    if (this.dirty() && !(await this.saved())) return;
+    const draft = this.draft();
+    if (!draft) return;
+    const replaced = this.activeName();
+    const confirmed = await this.confirm({
+      title: `Publish “${draft.name}”?`,
+      paragraphs: [
+        replaced
+          ? `It replaces “${replaced}” as the ladder every school works to, from now on.`
+          : 'It becomes the ladder every school works to, from now on.',
+        "Every student's rung is recomputed against the new version straight away, so the Overview, reports and students' own pages may change.",
+        'A pass-off counts toward the requirement with the same code. Pass-offs whose requirement no longer exists, or that were slower than a raised tempo, stop counting; they stay in each student’s history, marked.',
+      ],
+      confirm: 'Publish for every school',
+    });
+    if (!confirmed) return;
+    this.busy.set('publishing');
+    this.ladderData.publish(draft.id).subscribe({
+      next: (ladder) => {
+        this.busy.set(null);
+        this.snackBar.open(`“${ladder.name}” is now the ladder in force.`, 'Close', {
+          duration: 6000,
+        });
+        void this.router.navigate(['/ladder']);
+      },
+      error: (error: unknown) => {
+        this.busy.set(null);
+        this.problem.set(errorMessage(error, 'The draft could not be published.'));
+      },
+    });
+  }
+
+  protected async discard(): Promise<void> {
+    const draft = this.draft();
+    if (!draft) return;
+    const confirmed = await this.confirm({
+      title: `Delete the draft “${draft.name}”?`,
+      paragraphs: [
+        'The ladder in force does not change. The draft and every change in it are thrown away.',
+      ],
+      confirm: 'Delete the draft',
+      destructive: true,
+    });
+    if (!confirmed) return;
+    this.busy.set('deleting');
+    this.ladderData.deleteDraft(draft.id).subscribe({
+      next: () => void this.router.navigate(['/ladder']),
+      error: (error: unknown) => {
+        this.busy.set(null);
+        this.problem.set(errorMessage(error, 'The draft could not be deleted.'));
+      },
+    });
+  }
+
+  /** Saves the model; answers whether it was saved. */
+  private saved(): Promise<boolean> {
+    const draft = this.draft();
+    const model = this.model();
+    if (!draft || !model || this.busy()) return Promise.resolve(false);
+    this.busy.set('saving');
+    this.problem.set('');
+    return this.attempt(
+      this.ladderData.updateDraft(draft.id, toPatch(model, draft.version)),
+      model,
+    );
+  }
+
+  private async attempt(request: Observable<Ladder>, model: DraftModel): Promise<boolean> {
+    try {
+      const ladder = await firstValueFrom(request);
+      this.show(ladder);
+      this.savedAt.set(new Date());
+      return true;
+    } catch (error: unknown) {
+      if (isConflict(error)) {
+        this.conflict.set(true);
+        return false;
+      }
+      const fieldErrors =
+        (error as { error?: { error?: { fieldErrors?: { field: string; message: string }[] } } })
+          ?.error?.error?.fieldErrors ?? [];
+      this.errors.set(editorErrors(fieldErrors, model));
+      this.problem.set(
+        fieldErrors.length
+          ? `The draft was not saved: ${fieldErrors.length === 1 ? 'one field needs' : `${fieldErrors.length} fields need`} a change, marked ⚠ below.`
+          : errorMessage(error, 'The draft could not be saved.'),
+      );
+      return false;
+    } finally {
+      this.busy.set(null);
+    }
+  }
+
+  private confirm(data: ConfirmDialogData): Promise<boolean> {
+    return firstValueFrom(
+      this.dialog.open(ConfirmDialog, { data, width: '560px' }).afterClosed(),
+    ).then(Boolean);
+  }
+
+  private change(update: (model: DraftModel) => DraftModel): void {
+    const model = this.model();
+    if (!model) return;
+    this.model.set(update(model));
+    this.dirty.set(true);
+    this.savedAt.set(null);
+  }
+
+  private changeRung(rungIndex: number, update: (rung: LadderRung) => LadderRung): void {
+    this.change((model) => ({
+      ...model,
+      rungs: model.rungs.map((rung, at) => (at === rungIndex ? update(rung) : rung)),
+    }));
+  }
+
+  private show(ladder: Ladder): void {
+    this.draft.set(ladder);
+    this.model.set(toModel(ladder));
+    this.dirty.set(false);
+    this.errors.set(new Map());
+    this.problem.set('');
+    this.conflict.set(false);
+  }
+}

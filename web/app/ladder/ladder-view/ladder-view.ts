@@ -1,0 +1,155 @@
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatCheckboxModule } from '@angular/material/checkbox';
+import { MatIconModule } from '@angular/material/icon';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { Router, RouterLink } from '@angular/router';
+import type {
+  Ladder,
+  LadderRequirement,
+  LadderVersionSummary,
+} from '../../../../shared/api/ladder';
+import type { StudentProgress } from '../../../../shared/api/analytics';
+import { instrumentById } from '../../../../shared/music';
+import { CurrentUser } from '../../core/auth/current-user';
+import { errorMessage } from '../../core/parse';
+import { PageState } from '../../core/state/page-state';
+import { StudentProgressData } from '../../students/student-progress/student-progress-data';
+import { benchmarkTable } from '../benchmark-table';
+import { dateText, gradeText } from '../date-text';
+import { InstrumentPicker } from '../instrument-picker/instrument-picker';
+import { LadderData } from '../ladder-data';
+import {
+  appliesToFamily,
+  articulationText,
+  familiesText,
+  keyText,
+  patternText,
+  practiceQuery,
+  rungTitleText,
+  tempoText,
+} from '../requirement-text';
+
+type Load =
+  { kind: 'loading' } | { kind: 'error'; message: string; missing: boolean } | { kind: 'ready' };
+
+/** The instrument staff see practice-sheet links for until they pick another. */
+const defaultInstrument = 'clarinet';
+
+/**
+ * The scale ladder in force: its rungs and their requirements, each linked to its practice
+ * sheet for the reader's instrument, and the benchmarks by grade. The coordinator starts or
+ * continues a draft from here.
+ */
+@Component({
+  selector: 'tb-ladder-view',
+  imports: [
+    MatButtonModule,
+    MatCheckboxModule,
+    MatIconModule,
+    RouterLink,
+    PageState,
+    InstrumentPicker,
+  ],
+  templateUrl: './ladder-view.html',
+  styleUrl: './ladder-view.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class LadderView {
+  private readonly ladderData = inject(LadderData);
+  private readonly progressData = inject(StudentProgressData);
+  private readonly currentUser = inject(CurrentUser);
+  private readonly router = inject(Router);
+  private readonly snackBar = inject(MatSnackBar);
+
+  protected readonly canEdit = this.currentUser.can('ladder:write');
+  protected readonly isStudent = this.currentUser.me()?.role === 'student';
+  protected readonly studentId = this.currentUser.me()?.studentId ?? null;
+  protected readonly load = signal<Load>({ kind: 'loading' });
+  protected readonly ladder = signal<Ladder | null>(null);
+  protected readonly progress = signal<StudentProgress | null>(null);
+  protected readonly drafts = signal<LadderVersionSummary[]>([]);
+  protected readonly instrumentId = signal(defaultInstrument);
+  protected readonly onlyMine = signal(true);
+  protected readonly startingDraft = signal(false);
+
+  protected readonly instrument = computed(() => instrumentById(this.instrumentId()));
+  protected readonly met = computed(() => new Set(this.progress()?.metRequirementCodes ?? []));
+  protected readonly benchmarks = computed(() => benchmarkTable(this.ladder()?.benchmarks ?? []));
+  protected readonly rungs = computed(() => {
+    const family = this.instrument().family;
+    return (this.ladder()?.rungs ?? []).map((rung) => ({
+      ...rung,
+      heading: rungTitleText(rung),
+      shown: rung.requirements.filter(
+        (requirement) => !this.onlyMine() || appliesToFamily(requirement, family),
+      ),
+      hidden: rung.requirements.filter((requirement) => !appliesToFamily(requirement, family))
+        .length,
+    }));
+  });
+
+  protected readonly keyText = keyText;
+  protected readonly patternText = patternText;
+  protected readonly articulationText = articulationText;
+  protected readonly tempoText = tempoText;
+  protected readonly familiesText = familiesText;
+  protected readonly dateText = dateText;
+  protected readonly gradeText = gradeText;
+
+  constructor() {
+    this.fetch();
+  }
+
+  protected practiceLink(requirement: LadderRequirement): Record<string, string> {
+    return practiceQuery(requirement, this.instrumentId());
+  }
+
+  protected appliesToMe(requirement: LadderRequirement): boolean {
+    return appliesToFamily(requirement, this.instrument().family);
+  }
+
+  protected startDraft(): void {
+    this.startingDraft.set(true);
+    this.ladderData.createDraft().subscribe({
+      next: (draft) => void this.router.navigate(['/ladder/versions', draft.id, 'edit']),
+      error: (error: unknown) => {
+        this.startingDraft.set(false);
+        this.snackBar.open(errorMessage(error, 'The draft could not be started.'), 'Close');
+      },
+    });
+  }
+
+  protected fetch(): void {
+    this.load.set({ kind: 'loading' });
+    this.ladderData.active().subscribe({
+      next: (ladder) => {
+        this.ladder.set(ladder);
+        this.load.set({ kind: 'ready' });
+      },
+      error: (error: unknown) =>
+        this.load.set({
+          kind: 'error',
+          missing: (error as { status?: number }).status === 404,
+          message: errorMessage(error, 'The scale ladder could not be loaded.'),
+        }),
+    });
+    const studentId = this.currentUser.me()?.studentId;
+    if (this.isStudent && studentId) {
+      this.progressData.get(studentId).subscribe({
+        next: (progress) => {
+          this.progress.set(progress);
+          if (progress.instrumentId) this.instrumentId.set(progress.instrumentId);
+        },
+        error: () => this.progress.set(null),
+      });
+    }
+    if (this.canEdit) {
+      this.ladderData.versions().subscribe({
+        next: (versions) =>
+          this.drafts.set(versions.filter((version) => version.status === 'draft')),
+        error: () => this.drafts.set([]),
+      });
+    }
+  }
+}

@@ -1,0 +1,97 @@
+import type { LadderRequirement } from '../../../shared/api/ladder';
+import type { PassOff } from '../../../shared/api/pass-off';
+import type { EntryStatus } from './pass-off-queue';
+
+/** A pass-off being typed into a cell, before it joins the queue. */
+export interface CellDraft {
+  clientKey: string;
+  /** null until P or N is pressed. */
+  passed: boolean | null;
+  /** The digits typed; empty means the requirement's own tempo. */
+  typedTempo: string;
+  note: string;
+  /** Why the draft cannot be sent yet. */
+  problem: string;
+}
+
+/** What one cell of the entry grid shows. */
+export type CellView =
+  | { kind: 'not-asked' }
+  | { kind: 'empty' }
+  | { kind: 'draft'; passed: boolean | null; tempo: number; problem: string }
+  | { kind: 'entry'; status: EntryStatus; passed: boolean; tempo: number; message: string }
+  | { kind: 'heard'; passOff: PassOff; earlierLadder: boolean };
+
+/** The grid key of one student's cell for one requirement. */
+export function cellKey(studentId: number, requirementCode: string): string {
+  return `${studentId}|${requirementCode}`;
+}
+
+/** The tempo a draft stands for: the digits typed, else the requirement's own. */
+export function draftTempo(draft: CellDraft, requirement: LadderRequirement): number {
+  return draft.typedTempo === '' ? requirement.tempo : Number(draft.typedTempo);
+}
+
+/**
+ * The pass-off a cell shows from the record: one that counts (the fastest), else a pass that
+ * no longer counts, else the latest "not yet".
+ */
+export function standingPassOff(passOffs: readonly PassOff[]): PassOff | null {
+  const counting = passOffs.filter((passOff) => passOff.standing === 'counts');
+  if (counting.length)
+    return counting.reduce((best, passOff) => (passOff.tempo > best.tempo ? passOff : best));
+  const stale = passOffs.find((passOff) => passOff.passed);
+  if (stale) return stale;
+  return passOffs[0] ?? null;
+}
+
+const statusText: Record<EntryStatus, string> = {
+  waiting: 'waiting to send…',
+  saving: 'saving…',
+  saved: 'saved ✓',
+  failed: '⚠ failed',
+};
+
+function escape(text: string): string {
+  return text.replace(/[&<>"']/g, (character) => `&#${character.charCodeAt(0)};`);
+}
+
+function result(passed: boolean, tempo: number): string {
+  return passed
+    ? `<span class="result passed">✓ Passed ♩${tempo}</span>`
+    : `<span class="result not-yet">✕ Not yet ♩${tempo}</span>`;
+}
+
+/** The cell's HTML: a result line that never relies on colour alone, and a status line. */
+export function cellHtml(view: CellView, requirement: LadderRequirement): string {
+  switch (view.kind) {
+    case 'not-asked':
+      return '<span class="not-asked" title="Not asked of this section">—</span>';
+    case 'empty':
+      return '';
+    case 'draft': {
+      const line =
+        view.passed === null
+          ? `<span class="result typing">♩${view.tempo || '…'}</span>`
+          : result(view.passed, view.tempo);
+      const status = view.problem
+        ? `⚠ ${escape(view.problem)}`
+        : view.passed === null
+          ? 'P passed · N not yet'
+          : 'entering…';
+      return `<span class="cell draft">${line}<span class="status">${status}</span></span>`;
+    }
+    case 'entry':
+      return `<span class="cell entry ${view.status}" title="${escape(view.message)}">${result(view.passed, view.tempo)}<span class="status">${statusText[view.status]}</span></span>`;
+    case 'heard': {
+      const { passOff } = view;
+      if (passOff.standing === 'counts' || passOff.standing === 'not-yet') {
+        return `<span class="cell heard">${result(passOff.passed, passOff.tempo)}</span>`;
+      }
+      const why = view.earlierLadder
+        ? 'earlier ladder · no longer counts'
+        : `below ♩${requirement.tempo} · does not count`;
+      return `<span class="cell heard stale" title="${escape(passOff.standingNote ?? why)}"><span class="result stale">✓ ♩${passOff.tempo}</span><span class="status">${why}</span></span>`;
+    }
+  }
+}

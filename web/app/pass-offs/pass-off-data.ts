@@ -1,0 +1,79 @@
+import { HttpClient, HttpParams } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { EMPTY, expand, map, reduce, type Observable } from 'rxjs';
+import { attainmentRowSchema, type AttainmentRow } from '../../../shared/api/analytics';
+import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import {
+  passOffBatchResultSchema,
+  passOffSchema,
+  recordingSchema,
+  type PassOff,
+  type PassOffBatchResult,
+  type PassOffInput,
+  type PassOffPatch,
+  type Recording,
+} from '../../../shared/api/pass-off';
+import { parsedWith } from '../core/parse';
+
+const passOffListSchema = listResponseSchema(passOffSchema);
+const attainmentListSchema = listResponseSchema(attainmentRowSchema);
+const pageSize = 1000;
+
+/** Reads and records pass-offs, and their recordings, through `/api/pass-offs`. */
+@Injectable({ providedIn: 'root' })
+export class PassOffData {
+  private readonly http = inject(HttpClient);
+
+  list(query: Record<string, string | number | boolean>): Observable<ListResponse<PassOff>> {
+    return this.http
+      .get('/api/pass-offs', { params: new HttpParams({ fromObject: query }) })
+      .pipe(parsedWith(passOffListSchema));
+  }
+
+  /** Every pass-off the query selects, page after page. */
+  all(query: Record<string, string | number | boolean>): Observable<PassOff[]> {
+    const page = (offset: number) =>
+      this.list({ ...query, limit: pageSize, offset }).pipe(map((list) => ({ offset, list })));
+    return page(0).pipe(
+      expand(({ offset, list }) =>
+        offset + pageSize < list.total ? page(offset + pageSize) : EMPTY,
+      ),
+      reduce((rows: PassOff[], { list }) => rows.concat(list.rows), []),
+    );
+  }
+
+  /** Each active student of the ensemble with their rung on the ladder in force. */
+  rungsOfEnsemble(ensembleId: number): Observable<AttainmentRow[]> {
+    return this.http.get('/api/analytics/students', { params: { ensembleId, limit: 1000 } }).pipe(
+      parsedWith(attainmentListSchema),
+      map((list) => list.rows),
+    );
+  }
+
+  /** Records a batch; pass-offs whose client key the server has seen come back as they stand. */
+  record(passOffs: PassOffInput[]): Observable<PassOffBatchResult> {
+    return this.http
+      .post('/api/pass-offs', { passOffs })
+      .pipe(parsedWith(passOffBatchResultSchema));
+  }
+
+  update(id: number, patch: PassOffPatch): Observable<PassOff> {
+    return this.http.patch(`/api/pass-offs/${id}`, patch).pipe(parsedWith(passOffSchema));
+  }
+
+  remove(id: number): Observable<unknown> {
+    return this.http.delete(`/api/pass-offs/${id}`);
+  }
+
+  /** Attaches (or replaces) the pass-off's recording; the server checks the file's own bytes. */
+  attachRecording(id: number, file: File): Observable<Recording> {
+    const form = new FormData();
+    form.append('recording', file, file.name);
+    return this.http.post(`/api/pass-offs/${id}/recording`, form).pipe(parsedWith(recordingSchema));
+  }
+}
+
+/** Where a pass-off's recording plays from. */
+export function recordingUrl(passOffId: number): string {
+  return `/api/pass-offs/${passOffId}/recording`;
+}

@@ -1,0 +1,360 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  computed,
+  effect,
+  inject,
+  input,
+  signal,
+  untracked,
+} from '@angular/core';
+import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSelectModule } from '@angular/material/select';
+import { Router, RouterLink } from '@angular/router';
+import { AgGridAngular } from 'ag-grid-angular';
+import type {
+  CellClickedEvent,
+  CellFocusedEvent,
+  CellKeyDownEvent,
+  FullWidthCellKeyDownEvent,
+  GetRowIdParams,
+  GridApi,
+  GridReadyEvent,
+} from 'ag-grid-community';
+import { firstValueFrom, forkJoin } from 'rxjs';
+import type { Ensemble } from '../../../../shared/api/ensemble';
+import type { Ladder, LadderRequirement } from '../../../../shared/api/ladder';
+import type { PassOff } from '../../../../shared/api/pass-off';
+import { CurrentUser } from '../../core/auth/current-user';
+import { gridTheme } from '../../core/grid/grid-theme';
+import { errorMessage } from '../../core/parse';
+import { PageState } from '../../core/state/page-state';
+import { EnsembleData } from '../../ensembles/ensemble-data';
+import { ConfirmDialog } from '../../ladder/confirm-dialog/confirm-dialog';
+import { localToday } from '../../ladder/date-text';
+import { LadderData } from '../../ladder/ladder-data';
+import { appliesToFamily, keyText, rungTitleText } from '../../ladder/requirement-text';
+import { CellPanel, type NoteChange } from '../cell-panel/cell-panel';
+import { entryColumns, studentColumn, type EntryRow } from '../entry-columns';
+import { cellKey, draftTempo, standingPassOff, type CellView } from '../entry-cells';
+import { EntryDrafts } from '../entry-drafts';
+import { PassOffData } from '../pass-off-data';
+import { PassOffQueue } from '../pass-off-queue';
+import { StudentHistory } from '../student-history/student-history';
+import { entryGridModules } from './entry-grid-modules';
+import { EnsembleSheet } from './ensemble-sheet';
+import { queueBanner } from './entry-sheet';
+
+/**
+ * Pass-offs: a director's entry grid, the students of one ensemble against the requirements of
+ * one rung, keyboard first and saved as it goes, with each student's history beside it.
+ */
+@Component({
+  selector: 'tb-pass-off-entry',
+  imports: [
+    AgGridAngular,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressBarModule,
+    MatSelectModule,
+    RouterLink,
+    PageState,
+    CellPanel,
+    StudentHistory,
+  ],
+  providers: [EntryDrafts, EnsembleSheet],
+  templateUrl: './pass-off-entry.html',
+  styleUrl: './pass-off-entry.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class PassOffEntry {
+  private readonly ensembleData = inject(EnsembleData);
+  protected readonly sheet = inject(EnsembleSheet);
+  private readonly ladderData = inject(LadderData);
+  private readonly passOffData = inject(PassOffData);
+  private readonly router = inject(Router);
+  private readonly dialog = inject(MatDialog);
+  private readonly destroyRef = inject(DestroyRef);
+  protected readonly queue = inject(PassOffQueue);
+  protected readonly drafts = inject(EntryDrafts);
+  private api: GridApi<EntryRow> | null = null;
+
+  /** The `ensemble` query parameter: the ensemble's id. */
+  readonly ensemble = input<string>();
+  /** The `rung` query parameter: the rung's number. */
+  readonly rung = input<string>();
+
+  protected readonly modules = entryGridModules;
+  protected readonly rowId = (params: GetRowIdParams<EntryRow>) => String(params.data.studentId);
+  protected readonly theme = gridTheme;
+  protected readonly today = localToday();
+  protected readonly ensembles = signal<Ensemble[] | null>(null);
+  protected readonly ladder = signal<Ladder | null>(null);
+  protected readonly setupError = signal('');
+  protected readonly focused = signal<{ studentId: number; code: string } | null>(null);
+  protected readonly historyStudent = signal<number | null>(null);
+  protected readonly historyToken = signal(0);
+  protected readonly announcement = signal('');
+  protected readonly canWrite = inject(CurrentUser).can('pass-offs:write');
+
+  protected readonly ensembleId = computed(() => Number(this.ensemble()) || null);
+  protected readonly rungNumber = computed(() => Number(this.rung()) || null);
+  protected readonly chosenEnsemble = computed(
+    () => this.ensembles()?.find((each) => each.id === this.ensembleId()) ?? null,
+  );
+  protected readonly chosenRung = computed(
+    () => this.ladder()?.rungs.find((rung) => rung.number === this.rungNumber()) ?? null,
+  );
+  protected readonly rungTitle = rungTitleText;
+  protected readonly keyText = keyText;
+  protected readonly ensembleGroups = computed(() => {
+    const groups = new Map<string, Ensemble[]>();
+    for (const ensemble of this.ensembles() ?? []) {
+      groups.set(ensemble.schoolName, [...(groups.get(ensemble.schoolName) ?? []), ensemble]);
+    }
+    return [...groups].map(([school, ensembles]) => ({ school, ensembles }));
+  });
+  /** The rung's requirements that apply to at least one student of the ensemble. */
+  protected readonly requirements = computed(() => {
+    const families = new Set((this.sheet.rows() ?? []).map((row) => row.family));
+    return (this.chosenRung()?.requirements ?? []).filter((requirement) =>
+      [...families].some((family) => appliesToFamily(requirement, family)),
+    );
+  });
+  protected readonly columns = computed(() =>
+    entryColumns(this.requirements(), (row, requirement) => this.cellView(row, requirement)),
+  );
+  protected readonly banner = computed(() => queueBanner(this.queue));
+  protected readonly failedEntries = computed(() =>
+    [...this.queue.entries().values()].filter((entry) => entry.status === 'failed'),
+  );
+  protected readonly focusedCell = computed(() => {
+    const focused = this.focused();
+    const row = this.sheet.rows()?.find((each) => each.studentId === focused?.studentId);
+    const requirement = this.requirements().find((each) => each.code === focused?.code);
+    if (!focused || !row || !requirement || !appliesToFamily(requirement, row.family)) return null;
+    const key = cellKey(row.studentId, requirement.code);
+    const heard = this.sheet.existing().get(key) ?? [];
+    return {
+      row,
+      requirement,
+      draft: this.drafts.drafts().get(key) ?? null,
+      entry: this.drafts.entriesByCell().get(key) ?? null,
+      heard,
+      latest: heard[0] ?? null,
+      instrumentId: this.sheet.instruments().get(row.studentId) ?? null,
+    };
+  });
+  protected readonly historyRow = computed(
+    () => this.sheet.rows()?.find((row) => row.studentId === this.historyStudent()) ?? null,
+  );
+
+  constructor() {
+    this.queue.start(inject(CurrentUser).me()?.id ?? 0);
+    this.drafts.heardOn.set(this.today);
+    forkJoin([
+      this.ensembleData.list({ sort: 'name:asc', limit: 500 }),
+      this.ladderData.active(),
+    ]).subscribe({
+      next: ([ensembles, ladder]) => {
+        this.ensembles.set(ensembles.rows);
+        this.ladder.set(ladder);
+      },
+      error: (error: unknown) =>
+        this.setupError.set(
+          errorMessage(error, 'The ensembles and the ladder could not be loaded.'),
+        ),
+    });
+    effect(() => {
+      const id = this.ensembleId();
+      untracked(() => {
+        this.historyStudent.set(null);
+        this.sheet.load(id);
+      });
+    });
+    effect(() => {
+      this.drafts.drafts();
+      this.drafts.entriesByCell();
+      this.sheet.existing();
+      this.api?.refreshCells({ force: true });
+    });
+    this.queue.saved.pipe(takeUntilDestroyed()).subscribe((rows) => this.merge(rows));
+    const leave = () => this.drafts.commitAll();
+    window.addEventListener('pagehide', leave);
+    this.destroyRef.onDestroy(() => {
+      window.removeEventListener('pagehide', leave);
+      this.drafts.commitAll();
+    });
+  }
+
+  protected choose(ensemble: number | null, rung: number | null): void {
+    this.drafts.commitAll();
+    this.focused.set(null);
+    void this.router.navigate([], {
+      queryParams: { ensemble: ensemble ?? undefined, rung: rung ?? undefined },
+      replaceUrl: true,
+    });
+  }
+
+  protected setHeardOn(event: Event): void {
+    const value = (event.target as HTMLInputElement).value;
+    if (value) this.drafts.heardOn.set(value);
+  }
+
+  protected gridReady(event: GridReadyEvent<EntryRow>): void {
+    this.api = event.api;
+  }
+
+  protected cellFocused(event: CellFocusedEvent<EntryRow>): void {
+    const column = event.column;
+    const colId = typeof column === 'string' ? column : column?.getColId();
+    const row =
+      event.rowIndex === null ? undefined : this.api?.getDisplayedRowAtIndex(event.rowIndex)?.data;
+    const before = this.focused();
+    const next = row && colId ? { studentId: row.studentId, code: colId } : null;
+    if (before && (before.studentId !== next?.studentId || before.code !== next?.code)) {
+      this.drafts.left(cellKey(before.studentId, before.code));
+    }
+    this.focused.set(next);
+    if (
+      next &&
+      colId !== studentColumn &&
+      this.historyStudent() !== null &&
+      this.requirements().some((each) => each.code === colId)
+    ) {
+      this.historyStudent.set(null);
+    }
+  }
+
+  protected cellClicked(event: CellClickedEvent<EntryRow>): void {
+    if (event.column.getColId() === studentColumn && event.data)
+      this.historyStudent.set(event.data.studentId);
+  }
+
+  protected cellKeyDown(
+    event: CellKeyDownEvent<EntryRow> | FullWidthCellKeyDownEvent<EntryRow>,
+  ): void {
+    const keyboard = event.event as KeyboardEvent | null | undefined;
+    if (
+      !keyboard ||
+      keyboard.ctrlKey ||
+      keyboard.metaKey ||
+      keyboard.altKey ||
+      !event.data ||
+      !('column' in event)
+    )
+      return;
+    const row = event.data;
+    const colId = event.column.getColId();
+    if (colId === studentColumn && keyboard.key === 'Enter') {
+      this.historyStudent.set(row.studentId);
+      return;
+    }
+    const requirement = this.requirements().find((each) => each.code === colId);
+    if (!requirement || !this.canWrite) return;
+    if (!appliesToFamily(requirement, row.family)) {
+      if (/^[pPnN0-9]$|^Enter$/.test(keyboard.key))
+        this.announce(
+          `${keyText(requirement)} is not asked of ${row.instrumentName || 'this student'}.`,
+        );
+      return;
+    }
+    const result = this.drafts.keystroke({ studentId: row.studentId, requirement }, keyboard.key);
+    if (!result.handled) return;
+    keyboard.preventDefault();
+    if (result.announce) this.announce(result.announce);
+  }
+
+  protected noteInput(note: string): void {
+    const cell = this.focusedCell();
+    if (cell)
+      this.drafts.setNote({ studentId: cell.row.studentId, requirement: cell.requirement }, note);
+  }
+
+  protected saveNote({ passOff, note }: NoteChange): void {
+    this.passOffData.update(passOff.id, { note, version: passOff.version }).subscribe({
+      next: (updated) => {
+        this.merge([updated]);
+        this.announce('Note saved.');
+      },
+      error: (error: unknown) => this.announce(errorMessage(error, 'The note could not be saved.')),
+    });
+  }
+
+  protected async removePassOff(passOff: PassOff): Promise<void> {
+    const confirmed = await firstValueFrom(
+      this.dialog
+        .open(ConfirmDialog, {
+          data: {
+            title: 'Remove this pass-off?',
+            paragraphs: [
+              `${passOff.studentName}, heard on ${passOff.heardOn} at ♩ = ${passOff.tempo}. Their rung is recomputed without it.`,
+            ],
+            confirm: 'Remove the pass-off',
+            destructive: true,
+          },
+        })
+        .afterClosed(),
+    );
+    if (!confirmed) return;
+    this.passOffData.remove(passOff.id).subscribe({
+      next: () => {
+        this.sheet.removed(passOff);
+        if (passOff.clientKey) this.queue.forget(passOff.clientKey);
+        this.announce('Pass-off removed.');
+      },
+      error: (error: unknown) =>
+        this.announce(errorMessage(error, 'The pass-off could not be removed.')),
+    });
+  }
+
+  private cellView(row: EntryRow, requirement: LadderRequirement): CellView {
+    if (!appliesToFamily(requirement, row.family)) return { kind: 'not-asked' };
+    const key = cellKey(row.studentId, requirement.code);
+    const draft = this.drafts.drafts().get(key);
+    if (draft)
+      return {
+        kind: 'draft',
+        passed: draft.passed,
+        tempo: draftTempo(draft, requirement),
+        problem: draft.problem,
+      };
+    const entry = this.drafts.entriesByCell().get(key);
+    if (entry) {
+      return {
+        kind: 'entry',
+        status: entry.status,
+        passed: entry.passOff.passed,
+        tempo: entry.passOff.tempo,
+        message: entry.message,
+      };
+    }
+    const heard = standingPassOff(this.sheet.existing().get(key) ?? []);
+    if (!heard) return { kind: 'empty' };
+    return {
+      kind: 'heard',
+      passOff: heard,
+      earlierLadder: heard.ladderVersionId !== this.ladder()?.id,
+    };
+  }
+
+  private merge(saved: readonly PassOff[]): void {
+    const students = this.sheet.merge(saved);
+    const history = this.historyStudent();
+    if (history !== null && students.has(history)) this.historyToken.update((token) => token + 1);
+  }
+
+  private announce(message: string): void {
+    this.announcement.set('');
+    queueMicrotask(() => this.announcement.set(message));
+  }
+}
