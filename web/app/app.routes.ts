@@ -19,8 +19,7 @@ export const routes: Routes = [
       { path: '', pathMatch: 'full', canActivate: [startPage], children: [] },
       {
         path: 'overview',
-        loadComponent: () => import('./overview/overview').then((m) => m.Overview),
-        title: 'Overview · Tuttiboard',
+        loadChildren: () => import('./overview/overview.routes').then((m) => m.overviewRoutes),
       },
       {
         path: 'schools',
@@ -117,6 +116,12 @@ export const routes: Routes = [
         canActivate: [capabilityGuard],
         data: { capability: 'fleet:read' },
         loadChildren: () => import('./planning/planning.routes').then((m) => m.planningRoutes),
+      },
+      {
+        path: 'reports',
+        canActivate: [capabilityGuard],
+        data: { capability: 'reports:read' },
+        loadChildren: () => import('./reports/reports.routes').then((m) => m.reportsRoutes),
       },
       { path: '**', component: NotFound, title: 'Not found · Tuttiboard' },
     ],

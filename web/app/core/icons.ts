@@ -74,6 +74,13 @@ import personOff from '@material-symbols/svg-400/outlined/person_off.svg';
 import howToReg from '@material-symbols/svg-400/outlined/how_to_reg.svg';
 import contentCopy from '@material-symbols/svg-400/outlined/content_copy.svg';
 import keyboardArrowDown from '@material-symbols/svg-400/outlined/keyboard_arrow_down.svg';
+// The Overview's charts and the Reports screens.
+import table from '@material-symbols/svg-400/outlined/table.svg';
+import barChart from '@material-symbols/svg-400/outlined/bar_chart.svg';
+import hourglassEmpty from '@material-symbols/svg-400/outlined/hourglass_empty.svg';
+import markEmailRead from '@material-symbols/svg-400/outlined/mark_email_read.svg';
+import scheduleSend from '@material-symbols/svg-400/outlined/schedule_send.svg';
+import eventRepeat from '@material-symbols/svg-400/outlined/event_repeat.svg';
 
 /** The icons the app uses, shipped in the bundle from the Material Symbols package. */
 const icons: Record<string, string> = {
@@ -148,6 +155,12 @@ const icons: Record<string, string> = {
   how_to_reg: howToReg,
   content_copy: contentCopy,
   keyboard_arrow_down: keyboardArrowDown,
+  table: table,
+  bar_chart: barChart,
+  hourglass_empty: hourglassEmpty,
+  mark_email_read: markEmailRead,
+  schedule_send: scheduleSend,
+  event_repeat: eventRepeat,
 };
 
 /** Registers the icons as inline SVGs, so no icon font or request leaves the app. */

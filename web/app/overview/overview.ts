@@ -1,38 +1,173 @@
-import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
-import { toSignal } from '@angular/core/rxjs-interop';
-import { RouterLink } from '@angular/router';
-import { DecimalPipe } from '@angular/common';
-import { catchError, map, of, startWith } from 'rxjs';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  input,
+  linkedSignal,
+} from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { Router } from '@angular/router';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatSelectModule } from '@angular/material/select';
 import { MatIconModule } from '@angular/material/icon';
+import { MatButtonModule } from '@angular/material/button';
+import { of } from 'rxjs';
+import type { Overview as OverviewFigures } from '../../../shared/api/analytics';
 import { CurrentUser } from '../core/auth/current-user';
+import { ChartCard } from '../core/charts/chart-card/chart-card';
+import type { DrillTarget } from '../core/charts/chart-figure';
 import { PageState } from '../core/state/page-state';
 import { SchoolData } from '../schools/school-data';
-import type { School } from '../../../shared/api/school';
+import { AuditionReady } from './audition-ready/audition-ready';
+import { DrillPanel } from './drill-panel/drill-panel';
+import { FigureTiles, fleetTiles, ladderTiles } from './figure-tiles/figure-tiles';
+import { OverviewData, type OverviewFilters } from './overview-data';
+import { benchmarkByGradeFigure, benchmarkBySchoolFigure } from './overview-charts/benchmark-share';
+import { gradeLabel } from './overview-charts/figure-words';
+import { medianRungFigure } from './overview-charts/median-rung';
+import { passOffsPerWeekFigure } from './overview-charts/pass-offs-per-week';
+import { studentsByRungFigure } from './overview-charts/students-by-rung';
+import { QuietDirectors } from './quiet-directors/quiet-directors';
+import { OverviewSchoolList } from './school-list/school-list';
 
-type SchoolsState = { kind: 'loading' } | { kind: 'error' } | { kind: 'ready'; schools: School[] };
+const wholeNumber = (text: string | undefined) =>
+  text && /^\d+$/.test(text) ? Number(text) : undefined;
+const gradesIn = (figures: OverviewFigures) =>
+  figures.studentsByRung.byGrade.map((entry) => entry.grade);
 
-/** The district (or a director's school) at a glance. */
+/**
+ * The district (or a director's schools) at a glance: headline figures, the ladder charts with a
+ * table alternative each, the fleet, and the schools. Every figure opens the rows behind it.
+ */
 @Component({
   selector: 'tb-overview',
-  imports: [PageState, RouterLink, MatIconModule, DecimalPipe],
+  imports: [
+    PageState,
+    MatIconModule,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatSelectModule,
+    ChartCard,
+    FigureTiles,
+    AuditionReady,
+    QuietDirectors,
+    OverviewSchoolList,
+  ],
   templateUrl: './overview.html',
   styleUrl: './overview.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class Overview {
+  private readonly data = inject(OverviewData);
   private readonly schoolData = inject(SchoolData);
-  protected readonly me = inject(CurrentUser).me;
+  private readonly currentUser = inject(CurrentUser);
+  private readonly dialog = inject(MatDialog);
+  private readonly router = inject(Router);
 
-  protected readonly schools = toSignal(
-    this.schoolData.list({ limit: 200, sort: 'name:asc' }).pipe(
-      map((list): SchoolsState => ({ kind: 'ready', schools: list.rows })),
-      catchError(() => of<SchoolsState>({ kind: 'error' })),
-      startWith<SchoolsState>({ kind: 'loading' }),
-    ),
-    { requireSync: true },
+  /** Query parameters `?schoolId=&grade=`, bound by the router. */
+  readonly schoolId = input<string>();
+  readonly grade = input<string>();
+
+  protected readonly me = this.currentUser.me;
+  /** Whether the role reads the ladder figures (a technician sees the fleet only). */
+  protected readonly readsLadder = computed(() => this.currentUser.can('pass-offs:read'));
+  protected readonly filters = computed<OverviewFilters>(() => {
+    const filters: OverviewFilters = {};
+    const school = wholeNumber(this.schoolId());
+    const grade = wholeNumber(this.grade());
+    if (school !== undefined) filters.schoolId = school;
+    if (grade !== undefined) filters.grade = grade;
+    return filters;
+  });
+
+  protected readonly schools = rxResource({
+    stream: () => this.schoolData.list({ limit: 200, sort: 'name:asc' }),
+  });
+  protected readonly figures = rxResource({
+    params: () => ({ filters: this.filters(), reads: this.readsLadder() }),
+    stream: ({ params }) => (params.reads ? this.data.overview(params.filters) : of(null)),
+  });
+  protected readonly fleet = rxResource({
+    params: () => this.filters(),
+    stream: ({ params }) => this.data.fleet(params),
+  });
+
+  /** Whether the school filter is worth offering: more than one school in reach. */
+  protected readonly offersSchools = computed(() => (this.schools.value()?.rows.length ?? 0) > 1);
+  /** The grades seen without a grade filter, kept while one grade is chosen. */
+  protected readonly grades = linkedSignal<OverviewFigures | null | undefined, number[]>({
+    source: () => this.figures.value(),
+    computation: (figures, previous) => {
+      if (!figures) return previous?.value ?? [];
+      return figures.filters.grade === null
+        ? gradesIn(figures)
+        : (previous?.value ?? gradesIn(figures));
+    },
+  });
+  protected readonly gradeLabel = gradeLabel;
+
+  protected readonly tiles = computed(() => {
+    const figures = this.figures.value();
+    const fleet = this.fleet.value();
+    return [
+      ...(figures ? ladderTiles(figures, this.filters()) : []),
+      ...(fleet ? fleetTiles(fleet, this.filters()) : []),
+    ];
+  });
+  /** Stacked by school while several schools are shown, by grade within one. */
+  protected readonly stackBy = computed(() =>
+    (this.figures.value()?.studentsByRung.bySchool.length ?? 0) > 1
+      ? ('school' as const)
+      : ('grade' as const),
   );
+  protected readonly charts = computed(() => {
+    const figures = this.figures.value();
+    if (!figures) return null;
+    return {
+      byRung: studentsByRungFigure(figures, this.stackBy()),
+      benchmarkByGrade: benchmarkByGradeFigure(figures),
+      benchmarkBySchool:
+        figures.benchmark.bySchool.length > 1 ? benchmarkBySchoolFigure(figures) : null,
+      medianRung: medianRungFigure(figures),
+      passOffs: passOffsPerWeekFigure(figures),
+    };
+  });
+  protected readonly scopeLine = computed(() => {
+    const me = this.me();
+    const rows = this.schools.value()?.rows ?? [];
+    const school =
+      rows.length === 1 ? rows[0] : rows.find((row) => row.id === this.filters().schoolId);
+    const grade = this.filters().grade;
+    const where = school ? school.name : me?.allSchools ? 'The whole district' : 'Your schools';
+    return grade === undefined
+      ? `${where}, every grade.`
+      : `${where}, ${gradeLabel(grade).toLowerCase()} only.`;
+  });
 
-  protected totalStudents(schools: School[]): number {
-    return schools.reduce((sum, school) => sum + (school.studentCount ?? 0), 0);
+  protected setFilter(name: 'schoolId' | 'grade', value: number | null): void {
+    void this.router.navigate([], {
+      queryParams: { [name]: value },
+      queryParamsHandling: 'merge',
+      replaceUrl: true,
+    });
+  }
+
+  protected openDrill(target: DrillTarget): void {
+    this.dialog.open(DrillPanel, {
+      data: target,
+      position: { right: '0', top: '0' },
+      height: '100vh',
+      width: 'min(720px, 100vw)',
+      maxWidth: '100vw',
+      autoFocus: 'dialog',
+      ariaLabel: target.title,
+    });
+  }
+
+  protected reload(): void {
+    this.figures.reload();
+    this.fleet.reload();
   }
 }

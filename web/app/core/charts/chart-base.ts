@@ -1,0 +1,55 @@
+import { chartPalette, chartText } from './chart-palette';
+import type { ChartOption } from './chart-figure';
+
+/** The settings every chart starts from: our type and greys, a described chart for screen readers. */
+export function chartBase(): ChartOption {
+  return {
+    color: [...chartPalette.series],
+    textStyle: { ...chartText },
+    animationDuration: 300,
+    // ECharts' aria component writes a plain-language description onto the chart's element.
+    aria: { enabled: true, label: { enabled: true } },
+    grid: { left: 8, right: 16, top: 56, bottom: 8, containLabel: true },
+    tooltip: {
+      confine: true,
+      backgroundColor: '#fffbf7',
+      borderColor: chartPalette.line,
+      textStyle: { ...chartText, fontSize: 13 },
+    },
+    legend: {
+      top: 0,
+      left: 0,
+      icon: 'roundRect',
+      itemWidth: 14,
+      itemHeight: 10,
+      textStyle: { ...chartText },
+    },
+  };
+}
+
+/** A category axis with readable labels. */
+export function categoryAxis(labels: string[], name?: string) {
+  return {
+    type: 'category' as const,
+    data: labels,
+    name,
+    nameLocation: 'middle' as const,
+    nameGap: 36,
+    nameTextStyle: { ...chartText, color: chartPalette.muted },
+    axisTick: { show: false },
+    axisLine: { lineStyle: { color: chartPalette.line } },
+    axisLabel: { ...chartText, interval: 0, hideOverlap: true },
+  };
+}
+
+/** A value axis with faint grid lines. */
+export function valueAxis(name?: string, format?: string) {
+  return {
+    type: 'value' as const,
+    name,
+    nameTextStyle: { ...chartText, color: chartPalette.muted, align: 'left' as const },
+    minInterval: 1,
+    splitLine: { lineStyle: { color: chartPalette.faint } },
+    axisLabel: { ...chartText, color: chartPalette.muted, formatter: format },
+  };
+}

@@ -1,0 +1,85 @@
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { FormsModule } from '@angular/forms';
+import { KeyValuePipe } from '@angular/common';
+import { RouterLink } from '@angular/router';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import type { AuditionReadyRow } from '../../../../shared/api/analytics';
+import type { LadderRequirement } from '../../../../shared/api/ladder';
+import type { ListResponse } from '../../../../shared/api/list';
+import { errorMessage } from '../../core/parse';
+import { OverviewData, type OverviewFilters } from '../overview-data';
+import { gradeLabel, rungLabel } from '../overview-charts/figure-words';
+
+/** A requirement as a director reads it: "r3-bb-major · B♭ major, ♩ = 100". */
+export function requirementLabel(requirement: LadderRequirement): string {
+  const tonic = requirement.tonic
+    .replace(/(?<=^[A-G])bb$/, '𝄫')
+    .replace(/(?<=^[A-G])b$/, '♭')
+    .replace(/##$/, '𝄪')
+    .replace(/#$/, '♯');
+  return `${requirement.code} · ${tonic} ${requirement.mode.replaceAll('-', ' ')}, ♩ = ${requirement.tempo}`;
+}
+
+/**
+ * Who is ready for an audition: the students who passed every chosen requirement, at the
+ * requirement's own tempo or at a minimum tempo the coordinator sets.
+ */
+@Component({
+  selector: 'tb-audition-ready',
+  imports: [
+    FormsModule,
+    KeyValuePipe,
+    RouterLink,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatInputModule,
+    MatSelectModule,
+    MatProgressBarModule,
+  ],
+  templateUrl: './audition-ready.html',
+  styleUrl: './audition-ready.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class AuditionReady {
+  private readonly data = inject(OverviewData);
+  readonly filters = input<OverviewFilters>({});
+
+  protected readonly ladder = rxResource({ stream: () => this.data.ladder() });
+  protected readonly rungs = computed(() => this.ladder.value()?.rungs ?? []);
+  protected readonly chosen = signal<string[]>([]);
+  protected readonly minTempo = signal<number | null>(null);
+  protected readonly result = signal<ListResponse<AuditionReadyRow> | null>(null);
+  protected readonly searching = signal(false);
+  protected readonly error = signal<string | null>(null);
+  protected readonly requirementLabel = requirementLabel;
+  protected readonly gradeLabel = gradeLabel;
+  protected readonly rungLabel = rungLabel;
+
+  protected find(): void {
+    if (this.chosen().length === 0) return;
+    this.searching.set(true);
+    this.error.set(null);
+    const tempo = this.minTempo();
+    this.data
+      .auditionReady(
+        this.chosen(),
+        typeof tempo === 'number' && tempo > 0 ? tempo : null,
+        this.filters(),
+      )
+      .subscribe({
+        next: (list) => {
+          this.result.set(list);
+          this.searching.set(false);
+        },
+        error: (failure: unknown) => {
+          this.error.set(errorMessage(failure, 'The list could not be loaded. Try again.'));
+          this.searching.set(false);
+        },
+      });
+  }
+}

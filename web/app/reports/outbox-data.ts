@@ -1,0 +1,46 @@
+import { HttpClient, HttpParams } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import type { Observable } from 'rxjs';
+import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import {
+  outboxMessageDetailSchema,
+  outboxMessageSchema,
+  type OutboxMessage,
+  type OutboxMessageDetail,
+} from '../../../shared/api/outbox';
+import { parsedWith } from '../core/parse';
+
+/** The outbox's filters and page. */
+export interface OutboxQuery {
+  state: OutboxMessage['state'] | null;
+  offset: number;
+  limit: number;
+}
+
+/** Reads the outbox and sends a failed message again. */
+@Injectable({ providedIn: 'root' })
+export class OutboxData {
+  private readonly http = inject(HttpClient);
+
+  list(query: OutboxQuery): Observable<ListResponse<OutboxMessage>> {
+    const params: Record<string, string | number> = {
+      sort: 'createdAt:desc',
+      offset: query.offset,
+      limit: query.limit,
+    };
+    if (query.state) params['state'] = query.state;
+    return this.http
+      .get('/api/outbox', { params: new HttpParams({ fromObject: params }) })
+      .pipe(parsedWith(listResponseSchema(outboxMessageSchema)));
+  }
+
+  get(id: number): Observable<OutboxMessageDetail> {
+    return this.http.get(`/api/outbox/${id}`).pipe(parsedWith(outboxMessageDetailSchema));
+  }
+
+  resend(id: number): Observable<OutboxMessageDetail> {
+    return this.http
+      .post(`/api/outbox/${id}/resend`, {})
+      .pipe(parsedWith(outboxMessageDetailSchema));
+  }
+}

@@ -1,0 +1,156 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  effect,
+  inject,
+  signal,
+} from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { FormsModule } from '@angular/forms';
+import { RouterLink } from '@angular/router';
+import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSelectModule } from '@angular/material/select';
+import { MatTabsModule } from '@angular/material/tabs';
+import type { ReportKind, ReportSendInput } from '../../../../shared/api/report';
+import { CurrentUser } from '../../core/auth/current-user';
+import { errorMessage } from '../../core/parse';
+import { PageState } from '../../core/state/page-state';
+import { SchoolData } from '../../schools/school-data';
+import { MailFrame } from '../mail-frame/mail-frame';
+import { ReportData, type PreviewRequest } from '../report-data';
+import { lastDays } from '../report-period';
+import { SendDialog, type SendDialogData } from '../send-dialog/send-dialog';
+
+const isoDate = /^\d{4}-\d{2}-\d{2}$/;
+
+/** Choose a report and its period, read the preview as the mail will look, and send it. */
+@Component({
+  selector: 'tb-report-composer',
+  imports: [
+    FormsModule,
+    RouterLink,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatProgressBarModule,
+    MatSelectModule,
+    MatTabsModule,
+    MailFrame,
+    PageState,
+  ],
+  templateUrl: './report-composer.html',
+  styleUrl: './report-composer.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class ReportComposer {
+  private readonly reports = inject(ReportData);
+  private readonly schoolData = inject(SchoolData);
+  private readonly dialog = inject(MatDialog);
+  private readonly currentUser = inject(CurrentUser);
+
+  protected readonly me = this.currentUser.me;
+  /** Whether the district summary is offered (the coordinator's report). */
+  protected readonly offersDistrict = computed(() => this.me()?.role === 'coordinator');
+  /** Whether the user may send at all: the coordinator, or a director to themselves. */
+  protected readonly sends = computed(() =>
+    ['coordinator', 'director'].includes(this.me()?.role ?? ''),
+  );
+
+  protected readonly kind = signal<ReportKind>('director');
+  protected readonly schoolId = signal<number | null>(null);
+  protected readonly from = signal(lastDays(7).from);
+  protected readonly to = signal(lastDays(7).to);
+
+  protected readonly schools = rxResource({
+    stream: () => this.schoolData.list({ limit: 200, sort: 'name:asc' }),
+  });
+  protected readonly school = computed(
+    () => this.schools.value()?.rows.find((row) => row.id === this.schoolId()) ?? null,
+  );
+  protected readonly periodProblem = computed(() => {
+    if (!isoDate.test(this.from()) || !isoDate.test(this.to())) return 'Choose both dates.';
+    return this.from() > this.to() ? 'The period ends before it starts.' : null;
+  });
+  protected readonly request = computed<PreviewRequest | undefined>(() => {
+    if (this.periodProblem()) return undefined;
+    if (this.kind() === 'director' && this.schoolId() === null) return undefined;
+    return { kind: this.kind(), schoolId: this.schoolId(), from: this.from(), to: this.to() };
+  });
+  protected readonly preview = rxResource({
+    params: () => this.request(),
+    stream: ({ params }) => this.reports.preview(params),
+  });
+
+  protected readonly previewProblem = computed(() =>
+    errorMessage(
+      this.preview.error(),
+      'The server did not answer. Check your connection and try again.',
+    ),
+  );
+
+  protected readonly sending = signal(false);
+  protected readonly sent = signal<{ messages: number } | null>(null);
+  protected readonly sendError = signal<string | null>(null);
+
+  constructor() {
+    // Start on the user's first school once the list arrives.
+    effect(() => {
+      const first = this.schools.value()?.rows[0];
+      if (first && this.schoolId() === null) this.schoolId.set(first.id);
+    });
+  }
+
+  protected setKind(kind: ReportKind): void {
+    this.kind.set(kind);
+    this.sent.set(null);
+  }
+
+  protected openSend(): void {
+    const me = this.me();
+    if (!me) return;
+    const school = this.school();
+    const data: SendDialogData = {
+      kind: this.kind(),
+      school: school ? { id: school.id, name: school.name } : null,
+      from: this.from(),
+      to: this.to(),
+      choosesRecipients: me.role === 'coordinator',
+      ownEmail: me.email,
+    };
+    this.dialog
+      .open<SendDialog, SendDialogData, ReportSendInput>(SendDialog, {
+        data,
+        width: '520px',
+        autoFocus: 'first-tabbable',
+      })
+      .afterClosed()
+      .subscribe((input) => {
+        if (input) this.send(input);
+      });
+  }
+
+  private send(input: ReportSendInput): void {
+    this.sending.set(true);
+    this.sent.set(null);
+    this.sendError.set(null);
+    this.reports.send(input).subscribe({
+      next: (result) => {
+        this.sending.set(false);
+        this.sent.set({ messages: result.outboxIds.length });
+      },
+      error: (failure: unknown) => {
+        this.sending.set(false);
+        this.sendError.set(errorMessage(failure, 'The report could not be queued. Try again.'));
+      },
+    });
+  }
+}
