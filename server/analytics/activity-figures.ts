@@ -3,13 +3,26 @@ import type { Overview } from '../../shared/api/analytics';
 import { rowsOf } from '../db/client';
 import type { Queryable } from '../ladder/ladder-queries';
 import type { Actor } from '../core/policy';
-import { daysBefore, intArray, mondayOf, schoolCondition, studentCondition, studentsDrill, type StudentFilters } from './analytics-scope';
+import {
+  daysBefore,
+  intArray,
+  mondayOf,
+  schoolCondition,
+  studentCondition,
+  studentsDrill,
+  type StudentFilters,
+} from './analytics-scope';
 import { schoolScope } from '../core/policy';
 
 /** The first and last Monday the weekly chart covers: the current school year up to today. */
-export async function weekRange(db: Queryable, asOf: string): Promise<{ from: string; to: string }> {
+export async function weekRange(
+  db: Queryable,
+  asOf: string,
+): Promise<{ from: string; to: string }> {
   const [year] = rowsOf<{ starts_on: string; ends_on: string }>(
-    await db.execute(sql`select to_char(starts_on, 'YYYY-MM-DD') as starts_on, to_char(ends_on, 'YYYY-MM-DD') as ends_on from school_years where current limit 1`),
+    await db.execute(
+      sql`select to_char(starts_on, 'YYYY-MM-DD') as starts_on, to_char(ends_on, 'YYYY-MM-DD') as ends_on from school_years where current limit 1`,
+    ),
   );
   const last = year && year.ends_on < asOf ? year.ends_on : asOf;
   const first = year && year.starts_on <= last ? year.starts_on : daysBefore(last, 52 * 7 - 1);
@@ -20,13 +33,21 @@ export async function weekRange(db: Queryable, asOf: string): Promise<{ from: st
  * The weekly counts: from the `pass_off_weeks` summary, or, for one ensemble (which the summary
  * does not know), from that ensemble's students' pass-offs through the heard-on index.
  */
-export function weeklySql(actor: Actor, filters: StudentFilters, range: { from: string; to: string }) {
+export function weeklySql(
+  actor: Actor,
+  filters: StudentFilters,
+  range: { from: string; to: string },
+) {
   if (filters.ensembleId !== undefined) {
+    // Driven from the ensemble's seats, then each member's pass-offs by (student, heard_on).
     return sql`
       select to_char(date_trunc('week', p.heard_on), 'YYYY-MM-DD') as "weekStart", count(*)::int as heard,
         count(*) filter (where p.passed)::int as passed
-      from pass_offs p join students s on s.id = p.student_id
-      where p.heard_on >= ${range.from}::date and p.heard_on < ${range.to}::date + 7 and ${studentCondition(actor, filters)}
+      from (select distinct e.student_id from enrollments e where e.ensemble_id = ${filters.ensembleId} and e.active) m
+      join student_attainment a on a.student_id = m.student_id
+      join pass_offs p on p.student_id = m.student_id
+      where p.heard_on >= ${range.from}::date and p.heard_on < ${range.to}::date + 7
+        and ${studentCondition(actor, { ...filters, ensembleId: undefined })}
       group by 1`;
   }
   const grade = filters.grade === undefined ? sql`` : sql`and w.grade = ${filters.grade}`;
@@ -46,7 +67,9 @@ export async function passOffsPerWeek(
   asOf: string,
 ): Promise<Overview['passOffsPerWeek']> {
   const range = await weekRange(db, asOf);
-  const rows = rowsOf<{ weekStart: string; heard: number; passed: number }>(await db.execute(weeklySql(actor, filters, range)));
+  const rows = rowsOf<{ weekStart: string; heard: number; passed: number }>(
+    await db.execute(weeklySql(actor, filters, range)),
+  );
   const byWeek = new Map(rows.map((row) => [row.weekStart, row]));
   const weeks: Overview['passOffsPerWeek'] = [];
   const drillFilters: Record<string, number> = {};
@@ -58,7 +81,10 @@ export async function passOffsPerWeek(
       weekStart: week,
       heard: row?.heard ?? 0,
       passed: row?.passed ?? 0,
-      drill: { path: '/api/pass-offs', query: { ...drillFilters, from: week, to: daysBefore(week, -6) } },
+      drill: {
+        path: '/api/pass-offs',
+        query: { ...drillFilters, from: week, to: daysBefore(week, -6) },
+      },
     });
   }
   return weeks;
@@ -68,7 +94,7 @@ export async function passOffsPerWeek(
 export function stalledSql(actor: Actor, filters: StudentFilters, cutoff: string) {
   return sql`
     select count(*)::int as students
-    from students s left join student_attainment a on a.student_id = s.id
+    from student_attainment a
     where ${studentCondition(actor, filters)} and (a.last_pass_off_on is null or a.last_pass_off_on < ${cutoff}::date)`;
 }
 
@@ -80,7 +106,9 @@ export async function stalledStudents(
   asOf: string,
   days: number,
 ): Promise<Overview['stalled']> {
-  const [row] = rowsOf<{ students: number }>(await db.execute(stalledSql(actor, filters, daysBefore(asOf, days))));
+  const [row] = rowsOf<{ students: number }>(
+    await db.execute(stalledSql(actor, filters, daysBefore(asOf, days))),
+  );
   return { days, students: row!.students, drill: studentsDrill(filters, { stalledDays: days }) };
 }
 
@@ -88,7 +116,8 @@ export async function stalledStudents(
 export function quietDirectorsSql(actor: Actor, filters: StudentFilters, cutoff: string) {
   const scope = schoolScope(actor);
   const inScope = scope === 'all' ? sql`` : sql`and us.school_id = any(${intArray(scope)}::int[])`;
-  const school = filters.schoolId === undefined ? sql`` : sql`and us.school_id = ${filters.schoolId}`;
+  const school =
+    filters.schoolId === undefined ? sql`` : sql`and us.school_id = ${filters.schoolId}`;
   return sql`
     select d.* from (
       select u.id as "userId", u.name, u.email,

@@ -18,8 +18,12 @@ export function analyticsRoutes({ db }: Services): Router {
   router.get('/analytics/audition-ready', requires('pass-offs:read'), async (request, response) => {
     response.json(await auditionReady(db, actorOf(request), request.query));
   });
-  router.get('/analytics/students/:id/progress', requiresAny('pass-offs:read', 'self:read'), async (request, response) => {
-    response.json(await studentProgress(db, actorOf(request), parseId(request.params['id'])));
-  });
+  router.get(
+    '/analytics/students/:id/progress',
+    requiresAny('pass-offs:read', 'self:read'),
+    async (request, response) => {
+      response.json(await studentProgress(db, actorOf(request), parseId(request.params['id'])));
+    },
+  );
   return router;
 }

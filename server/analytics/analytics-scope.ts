@@ -13,20 +13,23 @@ export interface StudentFilters {
 export const intArray = (ids: readonly number[]) => `{${ids.join(',')}}`;
 
 /**
- * The condition on `students s` for the active students of the actor's schools that match the
- * filters. A school filter outside the actor's schools is a 404, as the school itself would be.
+ * The condition on `student_attainment a` for the active students of the actor's schools that
+ * match the filters (the summary row carries each student's school, grade and status). A school
+ * filter outside the actor's schools is a 404, as the school itself would be.
  */
 export function studentCondition(actor: Actor, filters: StudentFilters): SQL {
-  const parts: SQL[] = [sql`s.status = 'active'`];
+  const parts: SQL[] = [sql`a.active`];
   const scope = schoolScope(actor);
-  if (scope !== 'all') parts.push(sql`s.school_id = any(${intArray(scope)}::int[])`);
+  if (scope !== 'all') parts.push(sql`a.school_id = any(${intArray(scope)}::int[])`);
   if (filters.schoolId !== undefined) {
     assertInScope(actor, filters.schoolId, 'That school');
-    parts.push(sql`s.school_id = ${filters.schoolId}`);
+    parts.push(sql`a.school_id = ${filters.schoolId}`);
   }
-  if (filters.grade !== undefined) parts.push(sql`s.grade = ${filters.grade}`);
+  if (filters.grade !== undefined) parts.push(sql`a.grade = ${filters.grade}`);
   if (filters.ensembleId !== undefined) {
-    parts.push(sql`exists (select 1 from enrollments e where e.student_id = s.id and e.ensemble_id = ${filters.ensembleId} and e.active)`);
+    parts.push(
+      sql`exists (select 1 from enrollments e where e.student_id = a.student_id and e.ensemble_id = ${filters.ensembleId} and e.active)`,
+    );
   }
   return sql.join(parts, sql` and `);
 }
@@ -41,7 +44,10 @@ export function schoolCondition(actor: Actor, column: SQL, filters: StudentFilte
 }
 
 /** A drill to the students list with the figure's own filters added to the page's. */
-export function studentsDrill(filters: StudentFilters & { asOf?: string | undefined }, extra: Drill['query']): Drill {
+export function studentsDrill(
+  filters: StudentFilters & { asOf?: string | undefined },
+  extra: Drill['query'],
+): Drill {
   const query: Drill['query'] = {};
   for (const [name, value] of Object.entries(filters)) if (value !== undefined) query[name] = value;
   return { path: '/api/analytics/students', query: { ...query, ...extra } };

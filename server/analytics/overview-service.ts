@@ -10,35 +10,41 @@ import { today } from './analytics-scope';
 import { passOffsPerWeek, quietDirectors, stalledStudents } from './activity-figures';
 import { rungFigures, rungHistogram } from './rung-histogram';
 
-const lastTopUp = new WeakMap<Database, number>();
-const topUpIntervalMs = 15_000;
-
 /**
- * Gives students added since the last rebuild (by a roster import, say) their summary row, so
- * every figure counts them. One anti-join on primary keys, run at most every 15 seconds per
- * database: the figures may lag a roster import by that long.
+ * Recomputes the summary rows marked stale (new students, changed seats) before a read, so
+ * every figure counts them under the rules. With none stale this is one partial-index lookup.
  */
 export async function topUpAttainment(db: Database): Promise<void> {
-  const last = lastTopUp.get(db);
-  if (last !== undefined && Date.now() - last < topUpIntervalMs) return;
-  lastTopUp.set(db, Date.now());
-  const missing = rowsOf<{ id: number }>(
-    await db.execute(sql`select s.id from students s where not exists (select 1 from student_attainment a where a.student_id = s.id)`),
+  const stale = rowsOf<{ student_id: number }>(
+    await db.execute(sql`select student_id from student_attainment where stale`),
   );
-  if (missing.length === 0) return;
-  await db.transaction((tx) => recomputeAttainment(tx, missing.map((row) => row.id)));
+  if (stale.length === 0) return;
+  await db.transaction((tx) =>
+    recomputeAttainment(
+      tx,
+      stale.map((row) => row.student_id),
+    ),
+  );
 }
 
 /** The ladder context the figures read: the active version's rungs and benchmarks. */
 export async function overviewLadder(db: Queryable) {
   const ladder = await activeRuleLadder(db);
-  return { versionId: ladder?.versionId ?? null, rungCount: ladder?.rungs.length ?? 0, benchmarks: ladder?.benchmarks ?? [] };
+  return {
+    versionId: ladder?.versionId ?? null,
+    rungCount: ladder?.rungs.length ?? 0,
+    benchmarks: ladder?.benchmarks ?? [],
+  };
 }
 
 /** `GET /api/analytics/overview`: every ladder figure of the Overview for the actor's schools. */
 export async function overview(db: Database, actor: Actor, query: unknown): Promise<Overview> {
   const options = parseInput(overviewQuerySchema, query, 'The overview query');
-  const filters = { schoolId: options.schoolId, grade: options.grade, ensembleId: options.ensembleId };
+  const filters = {
+    schoolId: options.schoolId,
+    grade: options.grade,
+    ensembleId: options.ensembleId,
+  };
   const drillFilters = { ...filters, asOf: options.asOf };
   const asOf = options.asOf ?? today();
   await topUpAttainment(db);
@@ -49,10 +55,21 @@ export async function overview(db: Database, actor: Actor, query: unknown): Prom
     stalledStudents(db, actor, drillFilters, asOf, options.stalledDays),
     quietDirectors(db, actor, filters, asOf, options.quietDays),
   ]);
-  const figures = await rungFigures(db, cells, ladder.rungCount, ladder.benchmarks, drillFilters, asOf);
+  const figures = await rungFigures(
+    db,
+    cells,
+    ladder.rungCount,
+    ladder.benchmarks,
+    drillFilters,
+    asOf,
+  );
   return {
     asOf,
-    filters: { schoolId: filters.schoolId ?? null, grade: filters.grade ?? null, ensembleId: filters.ensembleId ?? null },
+    filters: {
+      schoolId: filters.schoolId ?? null,
+      grade: filters.grade ?? null,
+      ensembleId: filters.ensembleId ?? null,
+    },
     ladderVersionId: ladder.versionId,
     rungCount: ladder.rungCount,
     ...figures,

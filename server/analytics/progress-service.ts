@@ -1,6 +1,12 @@
 import { eq } from 'drizzle-orm';
 import type { StudentProgress } from '../../shared/api/analytics';
-import { benchmarksInForce, currentRung, metRequirements, nextRequirements, type PassOffRecord } from '../../shared/ladder/index';
+import {
+  benchmarksInForce,
+  currentRung,
+  metRequirements,
+  nextRequirements,
+  type PassOffRecord,
+} from '../../shared/ladder/index';
 import type { Database } from '../db/client';
 import { studentAttainment, students } from '../db/schema/index';
 import { recomputeAttainment } from '../ladder/attainment';
@@ -16,9 +22,22 @@ import { today } from './analytics-scope';
  * Brings the student's summary row up to date when it no longer matches what the rules say now
  * (a seat on another instrument changes the family, and seats change through the roster).
  */
-async function healSummary(db: Database, studentId: number, now: { rung: number; family: string; versionId: number }) {
-  const [summary] = await db.select().from(studentAttainment).where(eq(studentAttainment.studentId, studentId));
-  if (summary && summary.rung === now.rung && summary.family === now.family && summary.ladderVersionId === now.versionId) return;
+async function healSummary(
+  db: Database,
+  studentId: number,
+  now: { rung: number; family: string; versionId: number },
+) {
+  const [summary] = await db
+    .select()
+    .from(studentAttainment)
+    .where(eq(studentAttainment.studentId, studentId));
+  if (
+    summary &&
+    summary.rung === now.rung &&
+    summary.family === now.family &&
+    summary.ladderVersionId === now.versionId
+  )
+    return;
   await db.transaction((tx) => recomputeAttainment(tx, [studentId]));
 }
 
@@ -26,12 +45,20 @@ async function healSummary(db: Database, studentId: number, now: { rung: number;
  * `GET /api/analytics/students/:id/progress`: the student's rung on the active ladder, what
  * they have met, what comes next, their pass-offs and recordings, and which no longer count.
  */
-export async function studentProgress(db: Database, actor: Actor, studentId: number, asOf = today()): Promise<StudentProgress> {
+export async function studentProgress(
+  db: Database,
+  actor: Actor,
+  studentId: number,
+  asOf = today(),
+): Promise<StudentProgress> {
   const [student] = await db.select().from(students).where(eq(students.id, studentId));
   if (!student || !maySeeStudent(actor, student)) throw notFound('That student');
   const ladder = await activeRuleLadder(db);
   if (!ladder) throw notFound('A published scale ladder');
-  const [instrumentsByStudent, history] = await Promise.all([studentInstruments(db, [studentId]), passOffsOfStudent(db, studentId)]);
+  const [instrumentsByStudent, history] = await Promise.all([
+    studentInstruments(db, [studentId]),
+    passOffsOfStudent(db, studentId),
+  ]);
   const instrumentId = instrumentsByStudent.get(studentId) ?? null;
   const family = familyOf(instrumentId);
   const records: PassOffRecord[] = history.map((passOff) => ({
@@ -62,11 +89,16 @@ export async function studentProgress(db: Database, actor: Actor, studentId: num
     next: {
       rung: next.rung,
       title: nextRung?.title ?? null,
-      requirements: nextRung?.requirements.filter((requirement) => nextCodes.has(requirement.code)) ?? [],
+      requirements:
+        nextRung?.requirements.filter((requirement) => nextCodes.has(requirement.code)) ?? [],
     },
-    benchmark: benchmark ? { rung: benchmark.rung, byDate: benchmark.byDate, atOrAbove: rung >= benchmark.rung } : null,
+    benchmark: benchmark
+      ? { rung: benchmark.rung, byDate: benchmark.byDate, atOrAbove: rung >= benchmark.rung }
+      : null,
     history,
-    recordings: history.flatMap((passOff) => (passOff.recording ? [{ ...passOff.recording, passOffId: passOff.id }] : [])),
+    recordings: history.flatMap((passOff) =>
+      passOff.recording ? [{ ...passOff.recording, passOffId: passOff.id }] : [],
+    ),
     notes: history.flatMap((passOff) =>
       passOff.standing === 'below-tempo' || passOff.standing === 'requirement-gone'
         ? [{ passOffId: passOff.id, message: passOff.standingNote! }]

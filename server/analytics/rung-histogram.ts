@@ -20,14 +20,18 @@ export interface HistogramCell {
  */
 export function histogramSql(actor: Actor, filters: StudentFilters) {
   return sql`
-    select s.school_id as "schoolId", s.grade::int as grade, coalesce(a.rung, 0)::int as rung, count(*)::int as students
-    from students s left join student_attainment a on a.student_id = s.id
+    select a.school_id as "schoolId", a.grade::int as grade, a.rung::int as rung, count(*)::int as students
+    from student_attainment a
     where ${studentCondition(actor, filters)}
     group by 1, 2, 3`;
 }
 
 /** Runs the histogram query. */
-export async function rungHistogram(db: Queryable, actor: Actor, filters: StudentFilters): Promise<HistogramCell[]> {
+export async function rungHistogram(
+  db: Queryable,
+  actor: Actor,
+  filters: StudentFilters,
+): Promise<HistogramCell[]> {
   return rowsOf<HistogramCell>(await db.execute(histogramSql(actor, filters)));
 }
 
@@ -42,7 +46,9 @@ function median(counts: readonly number[]): number {
     return counts.length - 1;
   };
   // The middle value, or the mean of the two middle values (as percentile_cont(0.5)).
-  return total % 2 === 1 ? valueAt((total - 1) / 2) : (valueAt(total / 2 - 1) + valueAt(total / 2)) / 2;
+  return total % 2 === 1
+    ? valueAt((total - 1) / 2)
+    : (valueAt(total / 2 - 1) + valueAt(total / 2)) / 2;
 }
 
 const share = (part: number, whole: number) => (whole === 0 ? null : part / whole);
@@ -73,7 +79,9 @@ export async function rungFigures(
   const schoolIds = [...bySchool.keys()];
   const schoolRows = schoolIds.length
     ? rowsOf<{ id: number; code: string; name: string }>(
-        await db.execute(sql`select id, code, name from schools where id = any(${intArray(schoolIds)}::int[]) order by code`),
+        await db.execute(
+          sql`select id, code, name from schools where id = any(${intArray(schoolIds)}::int[]) order by code`,
+        ),
       )
     : [];
   const inForce = benchmarksInForce(benchmarks, asOf);
@@ -85,15 +93,17 @@ export async function rungFigures(
     const counts = byGrade.get(grade)!;
     const students = counts.reduce((sum, value) => sum + value, 0);
     const atOrAbove = counts.slice(benchmark.rung).reduce((sum, value) => sum + value, 0);
-    return [{
-      grade,
-      rung: benchmark.rung,
-      byDate: benchmark.byDate,
-      atOrAbove,
-      students,
-      share: share(atOrAbove, students),
-      drill: studentsDrill({ ...filters, grade }, { belowBenchmark: true }),
-    }];
+    return [
+      {
+        grade,
+        rung: benchmark.rung,
+        byDate: benchmark.byDate,
+        atOrAbove,
+        students,
+        share: share(atOrAbove, students),
+        drill: studentsDrill({ ...filters, grade }, { belowBenchmark: true }),
+      },
+    ];
   });
   const benchmarkBySchool = schoolRows.map((school) => {
     let atOrAbove = 0;
@@ -119,7 +129,11 @@ export async function rungFigures(
   return {
     studentCount: byRung.reduce((sum, value) => sum + value, 0),
     studentsByRung: {
-      rungs: byRung.map((students, rung) => ({ rung, students, drill: studentsDrill(filters, { rung }) })),
+      rungs: byRung.map((students, rung) => ({
+        rung,
+        students,
+        drill: studentsDrill(filters, { rung }),
+      })),
       bySchool: schoolRows.map((school) => ({
         schoolId: school.id,
         code: school.code,
@@ -127,7 +141,11 @@ export async function rungFigures(
         counts: bySchool.get(school.id)!,
         drill: studentsDrill({ ...filters, schoolId: school.id }, {}),
       })),
-      byGrade: grades.map((grade) => ({ grade, counts: byGrade.get(grade)!, drill: studentsDrill({ ...filters, grade }, {}) })),
+      byGrade: grades.map((grade) => ({
+        grade,
+        counts: byGrade.get(grade)!,
+        drill: studentsDrill({ ...filters, grade }, {}),
+      })),
     },
     benchmark: { byGrade: benchmarkByGrade, bySchool: benchmarkBySchool },
     medianRungByGrade: grades.map((grade) => {

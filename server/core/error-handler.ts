@@ -26,6 +26,13 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
           ? 'The request is too large.'
           : 'The request body is not valid JSON.',
       );
+    } else if (storageRefusal(error)) {
+      logger.error({ err: error, method: request.method, path: request.path }, 'database refused');
+      httpError = new HttpError(
+        503,
+        'database_unavailable',
+        "The database cannot take changes right now (disk full or read-only). Nothing was changed; tell the district's IT.",
+      );
     } else {
       logger.error({ err: error, method: request.method, path: request.path }, 'unexpected error');
       httpError = new HttpError(500, 'internal', 'Something went wrong on the server; nothing was changed by the failed step. Try again, and tell the coordinator if it goes on.');
@@ -41,6 +48,23 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
     };
     response.status(httpError.status).json(body);
   };
+}
+
+/**
+ * Whether a PostgreSQL error (PGlite's or a server's, possibly wrapped by Drizzle in `cause`)
+ * says the storage refused: class 53 "insufficient resources" (53100 disk_full), 25006
+ * read_only_sql_transaction, or 42501, which PostgreSQL reports when the data folder's files
+ * cannot be opened for permission or read-only file system reasons.
+ */
+function storageRefusal(error: unknown): boolean {
+  // PostgreSQL 18 documentation, Appendix A "PostgreSQL Error Codes"; the file-access mapping of
+  // EACCES and EROFS to 42501 is errcode_for_file_access() in src/backend/utils/error/elog.c.
+  for (let cause = error, depth = 0; cause && depth < 5; depth += 1) {
+    const code = (cause as { code?: unknown }).code;
+    if (typeof code === 'string' && /^(53...|25006|42501)$/.test(code)) return true;
+    cause = (cause as { cause?: unknown }).cause;
+  }
+  return false;
 }
 
 function isBodyParserError(error: unknown): error is { status: number; type: string } {

@@ -7,7 +7,12 @@ import {
   ladderVersions,
   users,
 } from '../db/schema/index';
-import type { Ladder, LadderBenchmark, LadderRung, LadderVersionSummary } from '../../shared/api/ladder';
+import type {
+  Ladder,
+  LadderBenchmark,
+  LadderRung,
+  LadderVersionSummary,
+} from '../../shared/api/ladder';
 import type { Requirement, Rung } from '../../shared/ladder/index';
 import type { Articulation, Mode, PatternId } from '../../shared/music/index';
 import { notFound } from '../core/errors';
@@ -103,7 +108,11 @@ export async function loadRungs(db: Queryable, versionId: number): Promise<Ladde
 /** A version's benchmarks, by grade then date. */
 export async function loadBenchmarks(db: Queryable, versionId: number): Promise<LadderBenchmark[]> {
   return db
-    .select({ grade: ladderBenchmarks.grade, rung: ladderBenchmarks.rung, byDate: ladderBenchmarks.byDate })
+    .select({
+      grade: ladderBenchmarks.grade,
+      rung: ladderBenchmarks.rung,
+      byDate: ladderBenchmarks.byDate,
+    })
     .from(ladderBenchmarks)
     .where(eq(ladderBenchmarks.ladderVersionId, versionId))
     .orderBy(asc(ladderBenchmarks.grade), asc(ladderBenchmarks.byDate));
@@ -114,18 +123,16 @@ export function toRuleRungs(rungs: readonly LadderRung[]): Rung[] {
   return rungs.map((rung) => ({
     number: rung.number,
     title: rung.title,
-    requirements: rung.requirements.map(
-      (requirement): Requirement => ({
-        id: requirement.code,
-        key: { tonic: requirement.tonic, mode: requirement.mode },
-        pattern: requirement.pattern,
-        tempo: requirement.tempo,
-        articulation: requirement.articulation,
-        octaves: requirement.octaves,
-        optional: requirement.optional,
-        ...(requirement.families ? { families: [...requirement.families] } : {}),
-      }),
-    ),
+    requirements: rung.requirements.map((requirement): Requirement => ({
+      id: requirement.code,
+      key: { tonic: requirement.tonic, mode: requirement.mode },
+      pattern: requirement.pattern,
+      tempo: requirement.tempo,
+      articulation: requirement.articulation,
+      octaves: requirement.octaves,
+      optional: requirement.optional,
+      ...(requirement.families ? { families: [...requirement.families] } : {}),
+    })),
   }));
 }
 
@@ -145,15 +152,22 @@ export async function loadLadder(db: Queryable, versionId: number): Promise<Ladd
 }
 
 /** The active ladder in the rules' form, with its id; null when none is published. */
-export async function activeRuleLadder(
-  db: Queryable,
-): Promise<{ versionId: number; name: string; rungs: Rung[]; apiRungs: LadderRung[]; benchmarks: LadderBenchmark[] } | null> {
+export async function activeRuleLadder(db: Queryable): Promise<{
+  versionId: number;
+  name: string;
+  rungs: Rung[];
+  apiRungs: LadderRung[];
+  benchmarks: LadderBenchmark[];
+} | null> {
   const [row] = await db
     .select({ id: ladderVersions.id, name: ladderVersions.name })
     .from(ladderVersions)
     .where(eq(ladderVersions.active, true));
   if (!row) return null;
-  const [apiRungs, benchmarks] = await Promise.all([loadRungs(db, row.id), loadBenchmarks(db, row.id)]);
+  const [apiRungs, benchmarks] = await Promise.all([
+    loadRungs(db, row.id),
+    loadBenchmarks(db, row.id),
+  ]);
   return { versionId: row.id, name: row.name, rungs: toRuleRungs(apiRungs), apiRungs, benchmarks };
 }
 
@@ -168,7 +182,13 @@ export async function writeLadderContent(
     if (content.rungs.length) {
       const inserted = await tx
         .insert(ladderRungs)
-        .values(content.rungs.map((rung) => ({ ladderVersionId: versionId, number: rung.number, title: rung.title })))
+        .values(
+          content.rungs.map((rung) => ({
+            ladderVersionId: versionId,
+            number: rung.number,
+            title: rung.title,
+          })),
+        )
         .returning({ id: ladderRungs.id, number: ladderRungs.number });
       const rungIds = new Map(inserted.map((row) => [row.number, row.id]));
       const requirements = content.rungs.flatMap((rung) =>
@@ -195,7 +215,9 @@ export async function writeLadderContent(
     if (content.benchmarks.length) {
       await tx
         .insert(ladderBenchmarks)
-        .values(content.benchmarks.map((benchmark) => ({ ladderVersionId: versionId, ...benchmark })));
+        .values(
+          content.benchmarks.map((benchmark) => ({ ladderVersionId: versionId, ...benchmark })),
+        );
     }
   }
 }

@@ -40,14 +40,22 @@ export function ladderRoutes({ db }: Services): Router {
     await deleteDraft(db, actorOf(request), parseId(request.params['id']));
     response.status(204).end();
   });
-  router.post('/ladder/versions/:id/publish', requires('ladder:write'), async (request, response) => {
-    response.json(await publishVersion(db, actorOf(request), parseId(request.params['id'])));
-  });
+  router.post(
+    '/ladder/versions/:id/publish',
+    requires('ladder:write'),
+    async (request, response) => {
+      response.json(await publishVersion(db, actorOf(request), parseId(request.params['id'])));
+    },
+  );
   // Seats and instruments change through the roster; this brings every rung up to date with them.
   router.post('/ladder/attainment/rebuild', requires('ladder:write'), async (request, response) => {
     await db.transaction(async (tx) => {
       await rebuildAttainment(tx);
-      await recordAudit(tx, actorOf(request), { action: 'rebuild', entity: 'student-attainment', entityId: 'all' });
+      await recordAudit(tx, actorOf(request), {
+        action: 'rebuild',
+        entity: 'student-attainment',
+        entityId: 'all',
+      });
     });
     response.status(204).end();
   });

@@ -2,7 +2,13 @@ import { and, count, eq, ilike, ne } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Database } from '../db/client';
 import { ladderVersions, users } from '../db/schema/index';
-import { ladderVersionStatuses, type Ladder, type LadderDraftInput, type LadderPatch, type LadderVersionSummary } from '../../shared/api/ladder';
+import {
+  ladderVersionStatuses,
+  type Ladder,
+  type LadderDraftInput,
+  type LadderPatch,
+  type LadderVersionSummary,
+} from '../../shared/api/ladder';
 import type { ListResponse } from '../../shared/api/list';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { can, type Actor } from '../core/policy';
@@ -62,12 +68,17 @@ export async function listVersions(
 /** One version; a draft is 404 for those who may not edit the ladder. */
 export async function getVersion(db: Database, actor: Actor, id: number): Promise<Ladder> {
   const ladder = await loadLadder(db, id);
-  if (ladder.status === 'draft' && !can(actor, 'ladder:write')) throw notFound('That ladder version');
+  if (ladder.status === 'draft' && !can(actor, 'ladder:write'))
+    throw notFound('That ladder version');
   return ladder;
 }
 
 /** A new draft, copied from the active version (or empty when there is none yet). */
-export async function createDraft(db: Database, actor: Actor, input: LadderDraftInput): Promise<Ladder> {
+export async function createDraft(
+  db: Database,
+  actor: Actor,
+  input: LadderDraftInput,
+): Promise<Ladder> {
   const sourceId = await activeVersionId(db);
   const source = sourceId === null ? null : await loadLadder(db, sourceId);
   const id = await db.transaction(async (tx) => {
@@ -92,7 +103,12 @@ export async function createDraft(db: Database, actor: Actor, input: LadderDraft
 }
 
 /** Changes a draft: its name, and its rungs and benchmarks replaced whole. */
-export async function updateDraft(db: Database, actor: Actor, id: number, patch: LadderPatch): Promise<Ladder> {
+export async function updateDraft(
+  db: Database,
+  actor: Actor,
+  id: number,
+  patch: LadderPatch,
+): Promise<Ladder> {
   const before = await loadLadder(db, id);
   if (before.status !== 'draft') {
     throw conflict(
@@ -123,10 +139,20 @@ export async function updateDraft(db: Database, actor: Actor, id: number, patch:
 /** Throws a draft away; published and archived versions stay, since pass-offs name them. */
 export async function deleteDraft(db: Database, actor: Actor, id: number): Promise<void> {
   const before = await loadLadder(db, id);
-  if (before.status !== 'draft') throw conflict('Only a draft can be deleted; published versions are kept for the pass-offs heard under them.');
+  if (before.status !== 'draft')
+    throw conflict(
+      'Only a draft can be deleted; published versions are kept for the pass-offs heard under them.',
+    );
   await db.transaction(async (tx) => {
-    await tx.delete(ladderVersions).where(and(eq(ladderVersions.id, id), eq(ladderVersions.status, 'draft')));
-    await recordAudit(tx, actor, { action: 'delete', entity: 'ladder-version', entityId: id, before });
+    await tx
+      .delete(ladderVersions)
+      .where(and(eq(ladderVersions.id, id), eq(ladderVersions.status, 'draft')));
+    await recordAudit(tx, actor, {
+      action: 'delete',
+      entity: 'ladder-version',
+      entityId: id,
+      before,
+    });
   });
 }
 
@@ -136,7 +162,8 @@ export async function deleteDraft(db: Database, actor: Actor, id: number): Promi
  */
 export async function publishVersion(db: Database, actor: Actor, id: number): Promise<Ladder> {
   const draft = await loadLadder(db, id);
-  if (draft.status !== 'draft') throw conflict('Only a draft can be published; this version already was.');
+  if (draft.status !== 'draft')
+    throw conflict('Only a draft can be published; this version already was.');
   await db.transaction(async (tx) => {
     const replaced = await tx
       .update(ladderVersions)
@@ -148,8 +175,9 @@ export async function publishVersion(db: Database, actor: Actor, id: number): Pr
       .set({ status: 'published', active: true, publishedAt: new Date(), updatedAt: new Date() })
       .where(and(eq(ladderVersions.id, id), eq(ladderVersions.status, 'draft')))
       .returning({ id: ladderVersions.id });
-    if (published.length === 0) throw conflict('Someone else published or changed this version first.');
-    await rebuildAttainment(tx);
+    if (published.length === 0)
+      throw conflict('Someone else published or changed this version first.');
+    await rebuildAttainment(tx, { from: 'summaries' });
     await recordAudit(tx, actor, {
       action: 'publish',
       entity: 'ladder-version',

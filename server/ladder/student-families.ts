@@ -3,7 +3,9 @@ import { instruments } from '../../shared/music/index';
 import { rowsOf } from '../db/client';
 import type { Queryable } from './ladder-queries';
 
-const familyOfInstrument = new Map(instruments.map((instrument) => [instrument.id, instrument.family]));
+const familyOfInstrument = new Map(
+  instruments.map((instrument) => [instrument.id, instrument.family]),
+);
 
 /** The instrument family of an instrument id; '' when the id is unknown or missing. */
 export function familyOf(instrumentId: string | null | undefined): string {

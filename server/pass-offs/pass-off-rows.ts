@@ -1,7 +1,14 @@
 import { eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { PassOff, PassOffStanding, Recording } from '../../shared/api/pass-off';
-import { ladderRequirements, ladderVersions, passOffRecordings, passOffs, students, users } from '../db/schema/index';
+import {
+  ladderRequirements,
+  ladderVersions,
+  passOffRecordings,
+  passOffs,
+  students,
+  users,
+} from '../db/schema/index';
 import type { Actor } from '../core/policy';
 import type { Queryable } from '../ladder/ladder-queries';
 
@@ -57,7 +64,9 @@ export interface LadderContext {
 
 /** Loads what a pass-off's standing is judged against. */
 export async function ladderContext(db: Queryable): Promise<LadderContext> {
-  const versions = await db.select({ id: ladderVersions.id, name: ladderVersions.name, active: ladderVersions.active }).from(ladderVersions);
+  const versions = await db
+    .select({ id: ladderVersions.id, name: ladderVersions.name, active: ladderVersions.active })
+    .from(ladderVersions);
   const active = versions.find((version) => version.active);
   const requirements = active
     ? await db
@@ -137,7 +146,8 @@ export function toPassOff(row: PassOffRow, context: LadderContext): PassOff {
 
 /** The students whose pass-offs the actor may read: their schools, or (a student) their own. */
 export function studentScopeCondition(actor: Actor): SQL | undefined {
-  if (actor.role === 'student') return actor.studentId === null ? sql`false` : eq(students.id, actor.studentId);
+  if (actor.role === 'student')
+    return actor.studentId === null ? sql`false` : eq(students.id, actor.studentId);
   if (actor.role === 'coordinator') return undefined;
   return actor.schoolIds.length ? inArray(students.schoolId, actor.schoolIds) : sql`false`;
 }

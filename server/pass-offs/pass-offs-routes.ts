@@ -1,15 +1,24 @@
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import multer from 'multer';
-import { passOffBatchSchema, passOffInputSchema, passOffPatchSchema, recordingSizeLimit } from '../../shared/api/pass-off';
+import {
+  passOffBatchSchema,
+  passOffInputSchema,
+  passOffPatchSchema,
+  recordingSizeLimit,
+} from '../../shared/api/pass-off';
 import { HttpError } from '../core/errors';
 import { actorOf, requires, requiresAny } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
-import { deletePassOff, getPassOff, listPassOffs, recordPassOffs, updatePassOff } from './pass-offs-service';
+import { deletePassOff, getPassOff, listPassOffs, updatePassOff } from './pass-offs-service';
+import { recordPassOffs } from './record-pass-offs';
 import { attachRecording, openRecording } from './recordings-service';
 import { recordingExtensions } from './recording-type';
 
-const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: recordingSizeLimit, files: 1, fields: 5 } });
+const upload = multer({
+  storage: multer.memoryStorage(),
+  limits: { fileSize: recordingSizeLimit, files: 1, fields: 5 },
+});
 
 /** multer's own errors (too large, unexpected field) answer with our error shape. */
 function receiveRecording(request: Request, response: Response, next: NextFunction) {
@@ -18,9 +27,19 @@ function receiveRecording(request: Request, response: Response, next: NextFuncti
     if (error instanceof multer.MulterError) {
       const tooLarge = error.code === 'LIMIT_FILE_SIZE';
       return next(
-        new HttpError(tooLarge ? 413 : 400, tooLarge ? 'too_large' : 'bad_request', tooLarge ? 'A recording may be at most 10 MB.' : `The upload was not understood: ${error.message}.`, [
-          { field: 'recording', message: tooLarge ? 'The file is larger than 10 MB.' : error.message },
-        ]),
+        new HttpError(
+          tooLarge ? 413 : 400,
+          tooLarge ? 'too_large' : 'bad_request',
+          tooLarge
+            ? 'A recording may be at most 10 MB.'
+            : `The upload was not understood: ${error.message}.`,
+          [
+            {
+              field: 'recording',
+              message: tooLarge ? 'The file is larger than 10 MB.' : error.message,
+            },
+          ],
+        ),
       );
     }
     next(error);
@@ -58,14 +77,22 @@ export function passOffsRoutes({ db, config }: Services): Router {
     await deletePassOff(db, actorOf(request), parseId(request.params['id']), config.dataDir);
     response.status(204).end();
   });
-  router.post('/pass-offs/:id/recording', requires('pass-offs:write'), receiveRecording, async (request, response) => {
-    const id = parseId(request.params['id']);
-    response.status(201).json(await attachRecording(db, actorOf(request), config.dataDir, id, request.file));
-  });
+  router.post(
+    '/pass-offs/:id/recording',
+    requires('pass-offs:write'),
+    receiveRecording,
+    async (request, response) => {
+      const id = parseId(request.params['id']);
+      response
+        .status(201)
+        .json(await attachRecording(db, actorOf(request), config.dataDir, id, request.file));
+    },
+  );
   router.get('/pass-offs/:id/recording', readers, async (request, response) => {
     const id = parseId(request.params['id']);
     const { file, recording } = await openRecording(db, actorOf(request), config.dataDir, id);
-    const extension = recordingExtensions[recording.contentType as keyof typeof recordingExtensions];
+    const extension =
+      recordingExtensions[recording.contentType as keyof typeof recordingExtensions];
     response.set('Content-Type', recording.contentType);
     response.set('Content-Disposition', `inline; filename="pass-off-${id}.${extension}"`);
     response.set('Cache-Control', 'private, no-store');

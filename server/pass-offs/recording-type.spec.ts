@@ -2,13 +2,23 @@ import { describe, expect, it } from 'vitest';
 import { recordingTypeOf } from './recording-type';
 
 const bytes = (...parts: (string | number[])[]) =>
-  new Uint8Array(parts.flatMap((part) => (typeof part === 'string' ? [...part].map((character) => character.charCodeAt(0)) : part)));
+  new Uint8Array(
+    parts.flatMap((part) =>
+      typeof part === 'string' ? [...part].map((character) => character.charCodeAt(0)) : part,
+    ),
+  );
 
 describe('recordingTypeOf', () => {
   it('should recognise WebM when the EBML header names the webm DocType', () => {
     // EBML magic 1A 45 DF A3 and DocType element 42 82 (RFC 9559, Matroska).
-    expect(recordingTypeOf(bytes([0x1a, 0x45, 0xdf, 0xa3, 0x9f, 0x42, 0x86, 0x81, 0x01, 0x42, 0x82, 0x84], 'webm'))).toBe('audio/webm');
-    expect(recordingTypeOf(bytes([0x1a, 0x45, 0xdf, 0xa3, 0x9f, 0x42, 0x82, 0x88], 'matroska'))).toBeUndefined();
+    expect(
+      recordingTypeOf(
+        bytes([0x1a, 0x45, 0xdf, 0xa3, 0x9f, 0x42, 0x86, 0x81, 0x01, 0x42, 0x82, 0x84], 'webm'),
+      ),
+    ).toBe('audio/webm');
+    expect(
+      recordingTypeOf(bytes([0x1a, 0x45, 0xdf, 0xa3, 0x9f, 0x42, 0x82, 0x88], 'matroska')),
+    ).toBeUndefined();
   });
 
   it('should recognise Ogg, WAVE and MP4 by their signatures', () => {
@@ -31,7 +41,9 @@ describe('recordingTypeOf', () => {
   });
 
   it('should refuse text, images and empty files whatever their name says', () => {
-    expect(recordingTypeOf(bytes('This is not audio, only a note renamed to .webm'))).toBeUndefined();
+    expect(
+      recordingTypeOf(bytes('This is not audio, only a note renamed to .webm')),
+    ).toBeUndefined();
     // PNG signature (ISO/IEC 15948 section 5.2).
     expect(recordingTypeOf(bytes([0x89], 'PNG', [0x0d, 0x0a, 0x1a, 0x0a]))).toBeUndefined();
     expect(recordingTypeOf(new Uint8Array())).toBeUndefined();

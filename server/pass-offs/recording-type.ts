@@ -23,7 +23,12 @@ export function recordingTypeOf(bytes: Uint8Array): RecordingContentType | undef
   // MP3: an ID3v2 tag ("ID3", id3.org ID3v2.3.0 section 3.1) or an MPEG audio frame sync:
   // eleven set bits, and a layer that is not the reserved 00 (ISO/IEC 11172-3, 2.4.1.3).
   if (ascii(bytes, 0, 'ID3')) return 'audio/mpeg';
-  if (bytes.length >= 2 && bytes[0] === 0xff && (bytes[1]! & 0xe0) === 0xe0 && (bytes[1]! & 0x06) !== 0) {
+  if (
+    bytes.length >= 2 &&
+    bytes[0] === 0xff &&
+    (bytes[1]! & 0xe0) === 0xe0 &&
+    (bytes[1]! & 0x06) !== 0
+  ) {
     return 'audio/mpeg';
   }
   return undefined;

@@ -61,7 +61,9 @@ export const overviewSchema = z.object({
   studentCount: z.number().int(),
   /** Students on each rung (index 0 = none yet … rungCount). */
   studentsByRung: z.object({
-    rungs: z.array(z.object({ rung: z.number().int(), students: z.number().int(), drill: drillSchema })),
+    rungs: z.array(
+      z.object({ rung: z.number().int(), students: z.number().int(), drill: drillSchema }),
+    ),
     bySchool: z.array(
       z.object({
         schoolId: z.number().int(),
@@ -71,7 +73,9 @@ export const overviewSchema = z.object({
         drill: drillSchema,
       }),
     ),
-    byGrade: z.array(z.object({ grade: z.number().int(), counts: countsByRung, drill: drillSchema })),
+    byGrade: z.array(
+      z.object({ grade: z.number().int(), counts: countsByRung, drill: drillSchema }),
+    ),
   }),
   /** Share of students at or above the benchmark in force today for their grade. */
   benchmark: z.object({
@@ -101,7 +105,12 @@ export const overviewSchema = z.object({
     ),
   }),
   medianRungByGrade: z.array(
-    z.object({ grade: z.number().int(), median: z.number(), students: z.number().int(), drill: drillSchema }),
+    z.object({
+      grade: z.number().int(),
+      median: z.number(),
+      students: z.number().int(),
+      drill: drillSchema,
+    }),
   ),
   /** Pass-offs heard each week (weeks start on Monday) of the current school year. */
   passOffsPerWeek: z.array(
@@ -197,7 +206,13 @@ export type AttainmentRow = z.infer<typeof attainmentRowSchema>;
 /** The field filters of `GET /api/analytics/audition-ready`. */
 export const auditionReadyFiltersSchema = z.object({
   requirementCodes: z.preprocess(
-    (value) => (typeof value === 'string' ? value.split(',').map((code) => code.trim()).filter(Boolean) : value),
+    (value) =>
+      typeof value === 'string'
+        ? value
+            .split(',')
+            .map((code) => code.trim())
+            .filter(Boolean)
+        : value,
     z.array(z.string().max(60)).min(1, 'Choose at least one requirement.').max(60),
   ),
   /** Each of them passed at this tempo or faster (default: each requirement's own tempo). */
@@ -209,6 +224,15 @@ export type AuditionReadyFilters = z.infer<typeof auditionReadyFiltersSchema>;
 
 /** One student ready for an audition: their best tempo on each chosen requirement. */
 export const auditionReadyRowSchema = attainmentRowSchema
-  .pick({ id: true, studentNumber: true, firstName: true, lastName: true, grade: true, schoolId: true, schoolCode: true, rung: true })
+  .pick({
+    id: true,
+    studentNumber: true,
+    firstName: true,
+    lastName: true,
+    grade: true,
+    schoolId: true,
+    schoolCode: true,
+    rung: true,
+  })
   .extend({ bestTempos: z.record(z.string(), z.number().int()) });
 export type AuditionReadyRow = z.infer<typeof auditionReadyRowSchema>;

@@ -33,7 +33,10 @@ export const requirementSchema = z
     code: z
       .string()
       .trim()
-      .regex(requirementCodePattern, 'A code is lower-case letters, digits and dashes, e.g. r1-bb-major.'),
+      .regex(
+        requirementCodePattern,
+        'A code is lower-case letters, digits and dashes, e.g. r1-bb-major.',
+      ),
     tonic: tonicSchema,
     mode: z.enum(modes as [Mode, ...Mode[]], { message: `Mode is one of ${modes.join(', ')}.` }),
     pattern: z.enum(patternIds as [PatternId, ...PatternId[]], {

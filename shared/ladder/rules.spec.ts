@@ -1,6 +1,13 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { currentRung, metRequirements, nextRequirements, type PassOffRecord, type Requirement, type Rung } from './index';
+import {
+  currentRung,
+  metRequirements,
+  nextRequirements,
+  type PassOffRecord,
+  type Requirement,
+  type Rung,
+} from './index';
 
 const requirement = (id: string, tempo: number, extra: Partial<Requirement> = {}): Requirement => ({
   id,
@@ -12,7 +19,12 @@ const requirement = (id: string, tempo: number, extra: Partial<Requirement> = {}
   ...extra,
 });
 
-const pass = (requirementId: string, tempo: number, heardOn = '2026-09-01', passed = true): PassOffRecord => ({
+const pass = (
+  requirementId: string,
+  tempo: number,
+  heardOn = '2026-09-01',
+  passed = true,
+): PassOffRecord => ({
   requirementId,
   tempo,
   passed,
@@ -29,8 +41,16 @@ const ladder: Rung[] = [
       requirement('r1-chromatic', 60, { optional: true }),
     ],
   },
-  { number: 2, title: 'Scales in motion', requirements: [requirement('r2-eb', 72), requirement('r2-f', 72)] },
-  { number: 3, title: 'Winds only', requirements: [requirement('r3-ab', 80, { families: ['woodwind', 'brass'] })] },
+  {
+    number: 2,
+    title: 'Scales in motion',
+    requirements: [requirement('r2-eb', 72), requirement('r2-f', 72)],
+  },
+  {
+    number: 3,
+    title: 'Winds only',
+    requirements: [requirement('r3-ab', 80, { families: ['woodwind', 'brass'] })],
+  },
   { number: 4, title: 'All twelve', requirements: [requirement('r4-c', 120)] },
 ];
 
@@ -42,7 +62,9 @@ describe('currentRung', () => {
   it('should climb a rung when every required scale of it is passed at tempo', () => {
     expect(currentRung(ladder, [pass('r1-bb', 60)], 'woodwind')).toBe(1);
     expect(currentRung(ladder, [pass('r1-bb', 60), pass('r2-eb', 72)], 'woodwind')).toBe(1);
-    expect(currentRung(ladder, [pass('r1-bb', 60), pass('r2-eb', 72), pass('r2-f', 80)], 'woodwind')).toBe(2);
+    expect(
+      currentRung(ladder, [pass('r1-bb', 60), pass('r2-eb', 72), pass('r2-f', 80)], 'woodwind'),
+    ).toBe(2);
   });
 
   it('should never let an optional requirement block a rung when it is unmet', () => {
@@ -65,15 +87,26 @@ describe('currentRung', () => {
     const passes = [pass('r1-d', 60), pass('r2-eb', 72), pass('r2-f', 72)];
     expect(currentRung(ladder, passes, 'strings')).toBe(3);
     expect(currentRung(ladder, [...passes, pass('r4-c', 120)], 'strings')).toBe(4);
-    const windPasses = passes.map((record) => (record.requirementId === 'r1-d' ? pass('r1-bb', 60) : record));
+    const windPasses = passes.map((record) =>
+      record.requirementId === 'r1-d' ? pass('r1-bb', 60) : record,
+    );
     expect(currentRung(ladder, windPasses, 'woodwind')).toBe(2);
   });
 
   it('should climb through empty rungs at the top once every rung below is complete', () => {
-    const withEmptyTop: Rung[] = [...ladder, { number: 5, title: 'Winds showcase', requirements: [requirement('r5-db', 132, { families: ['woodwind'] })] }];
+    const withEmptyTop: Rung[] = [
+      ...ladder,
+      {
+        number: 5,
+        title: 'Winds showcase',
+        requirements: [requirement('r5-db', 132, { families: ['woodwind'] })],
+      },
+    ];
     const passes = [pass('r1-d', 60), pass('r2-eb', 72), pass('r2-f', 72), pass('r4-c', 120)];
     expect(currentRung(withEmptyTop, passes, 'strings')).toBe(5);
-    expect(currentRung(withEmptyTop, [...passes, pass('r3-ab', 80), pass('r1-bb', 60)], 'woodwind')).toBe(4);
+    expect(
+      currentRung(withEmptyTop, [...passes, pass('r3-ab', 80), pass('r1-bb', 60)], 'woodwind'),
+    ).toBe(4);
   });
 
   it('should keep a pass when a later pass-off of the same scale is "not yet"', () => {
@@ -83,7 +116,9 @@ describe('currentRung', () => {
 
   it('should not count a pass played slower than the requirement asks', () => {
     expect(currentRung(ladder, [pass('r1-bb', 56)], 'woodwind')).toBe(0);
-    expect(currentRung(ladder, [pass('r1-bb', 56), pass('r1-bb', 60, '2026-09-20')], 'woodwind')).toBe(1);
+    expect(
+      currentRung(ladder, [pass('r1-bb', 56), pass('r1-bb', 60, '2026-09-20')], 'woodwind'),
+    ).toBe(1);
   });
 
   it('should not count a "not yet" even at tempo', () => {
@@ -94,11 +129,15 @@ describe('currentRung', () => {
     const passes = [pass('r1-bb', 60), pass('r2-eb', 72), pass('r2-f', 72)];
     expect(currentRung(ladder, passes, 'brass')).toBe(2);
     const renamed: Rung[] = ladder.map((rung) =>
-      rung.number === 2 ? { ...rung, requirements: [requirement('r2-eb-v2', 72), requirement('r2-f', 72)] } : rung,
+      rung.number === 2
+        ? { ...rung, requirements: [requirement('r2-eb-v2', 72), requirement('r2-f', 72)] }
+        : rung,
     );
     expect(currentRung(renamed, passes, 'brass')).toBe(1);
     const faster: Rung[] = ladder.map((rung) =>
-      rung.number === 2 ? { ...rung, requirements: [requirement('r2-eb', 80), requirement('r2-f', 72)] } : rung,
+      rung.number === 2
+        ? { ...rung, requirements: [requirement('r2-eb', 80), requirement('r2-f', 72)] }
+        : rung,
     );
     expect(currentRung(faster, passes, 'brass')).toBe(1);
     expect(metRequirements(faster, passes, 'brass').has('r2-eb')).toBe(false);
@@ -133,7 +172,9 @@ const rungsArbitrary = fc
         id: fc.constantFrom(...codes),
         tempo: fc.integer({ min: 30, max: 240 }),
         optional: fc.boolean(),
-        families: fc.option(fc.subarray(families.slice(0, 4), { minLength: 1 }), { nil: undefined }),
+        families: fc.option(fc.subarray(families.slice(0, 4), { minLength: 1 }), {
+          nil: undefined,
+        }),
       }),
       { maxLength: 4 },
     ),
@@ -150,7 +191,9 @@ const rungsArbitrary = fc
   );
 
 const passOffArbitrary = fc.record({
-  requirementId: fc.constantFrom(...codes.flatMap((code) => [0, 1, 2, 3, 4, 5].map((index) => `${code}${index}`))),
+  requirementId: fc.constantFrom(
+    ...codes.flatMap((code) => [0, 1, 2, 3, 4, 5].map((index) => `${code}${index}`)),
+  ),
   tempo: fc.integer({ min: 30, max: 240 }),
   passed: fc.boolean(),
   heardOn: fc.constantFrom('2026-09-01', '2026-10-01', '2026-11-01'),
@@ -159,45 +202,79 @@ const passOffArbitrary = fc.record({
 describe('currentRung properties', () => {
   it('should never lower the rung when a passed pass-off is added', () => {
     fc.assert(
-      fc.property(rungsArbitrary, fc.array(passOffArbitrary, { maxLength: 30 }), passOffArbitrary, fc.constantFrom(...families), (rungs, passOffs, added, family) => {
-        const before = currentRung(rungs, passOffs, family);
-        expect(currentRung(rungs, [...passOffs, { ...added, passed: true }], family)).toBeGreaterThanOrEqual(before);
-      }),
+      fc.property(
+        rungsArbitrary,
+        fc.array(passOffArbitrary, { maxLength: 30 }),
+        passOffArbitrary,
+        fc.constantFrom(...families),
+        (rungs, passOffs, added, family) => {
+          const before = currentRung(rungs, passOffs, family);
+          expect(
+            currentRung(rungs, [...passOffs, { ...added, passed: true }], family),
+          ).toBeGreaterThanOrEqual(before);
+        },
+      ),
     );
   });
 
   it('should never exceed the number of rungs, nor fall below 0', () => {
     fc.assert(
-      fc.property(rungsArbitrary, fc.array(passOffArbitrary, { maxLength: 40 }), fc.constantFrom(...families), (rungs, passOffs, family) => {
-        const rung = currentRung(rungs, passOffs, family);
-        expect(rung).toBeGreaterThanOrEqual(0);
-        expect(rung).toBeLessThanOrEqual(rungs.length);
-      }),
+      fc.property(
+        rungsArbitrary,
+        fc.array(passOffArbitrary, { maxLength: 40 }),
+        fc.constantFrom(...families),
+        (rungs, passOffs, family) => {
+          const rung = currentRung(rungs, passOffs, family);
+          expect(rung).toBeGreaterThanOrEqual(0);
+          expect(rung).toBeLessThanOrEqual(rungs.length);
+        },
+      ),
     );
   });
 
   it('should not change the rung when "not yet" pass-offs are added', () => {
     fc.assert(
-      fc.property(rungsArbitrary, fc.array(passOffArbitrary, { maxLength: 30 }), fc.array(passOffArbitrary, { maxLength: 10 }), fc.constantFrom(...families), (rungs, passOffs, notYets, family) => {
-        const before = currentRung(rungs, passOffs, family);
-        expect(currentRung(rungs, [...passOffs, ...notYets.map((record) => ({ ...record, passed: false }))], family)).toBe(before);
-      }),
+      fc.property(
+        rungsArbitrary,
+        fc.array(passOffArbitrary, { maxLength: 30 }),
+        fc.array(passOffArbitrary, { maxLength: 10 }),
+        fc.constantFrom(...families),
+        (rungs, passOffs, notYets, family) => {
+          const before = currentRung(rungs, passOffs, family);
+          expect(
+            currentRung(
+              rungs,
+              [...passOffs, ...notYets.map((record) => ({ ...record, passed: false }))],
+              family,
+            ),
+          ).toBe(before);
+        },
+      ),
     );
   });
 
   it('should agree with a plain reading of the rule: every rung up to it is complete, the next is not', () => {
     fc.assert(
-      fc.property(rungsArbitrary, fc.array(passOffArbitrary, { maxLength: 40 }), fc.constantFrom(...families), (rungs, passOffs, family) => {
-        const rung = currentRung(rungs, passOffs, family);
-        const complete = (number: number) =>
-          rungs[number - 1]!.requirements.every(
-            (item) =>
-              item.optional || (item.families !== undefined && !item.families.includes(family)) ||
-              passOffs.some((record) => record.passed && record.requirementId === item.id && record.tempo >= item.tempo),
-          );
-        for (let number = 1; number <= rung; number += 1) expect(complete(number)).toBe(true);
-        if (rung < rungs.length) expect(complete(rung + 1)).toBe(false);
-      }),
+      fc.property(
+        rungsArbitrary,
+        fc.array(passOffArbitrary, { maxLength: 40 }),
+        fc.constantFrom(...families),
+        (rungs, passOffs, family) => {
+          const rung = currentRung(rungs, passOffs, family);
+          const complete = (number: number) =>
+            rungs[number - 1]!.requirements.every(
+              (item) =>
+                item.optional ||
+                (item.families !== undefined && !item.families.includes(family)) ||
+                passOffs.some(
+                  (record) =>
+                    record.passed && record.requirementId === item.id && record.tempo >= item.tempo,
+                ),
+            );
+          for (let number = 1; number <= rung; number += 1) expect(complete(number)).toBe(true);
+          if (rung < rungs.length) expect(complete(rung + 1)).toBe(false);
+        },
+      ),
     );
   });
 });

@@ -57,7 +57,8 @@ function bestPassedTempos(passOffs: readonly PassOffRecord[]): Map<string, numbe
   for (const passOff of passOffs) {
     if (!passOff.passed) continue;
     const known = best.get(passOff.requirementId);
-    if (known === undefined || passOff.tempo > known) best.set(passOff.requirementId, passOff.tempo);
+    if (known === undefined || passOff.tempo > known)
+      best.set(passOff.requirementId, passOff.tempo);
   }
   return best;
 }

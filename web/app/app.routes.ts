@@ -1,7 +1,6 @@
 import type { Routes } from '@angular/router';
 import { Shell } from './core/layout/shell';
 import { capabilityGuard, signedInGuard } from './core/auth/signed-in-guard';
-import { NotFound } from './core/not-found';
 import { startPage } from './core/start-page';
 import { studentPageGuard, studentPageMatcher } from './students/student-progress/student-page-route';
 
@@ -75,20 +74,6 @@ export const routes: Routes = [
         loadChildren: () => import('./imports/imports.routes').then((m) => m.importsRoutes),
       },
       {
-        path: 'people',
-        canActivate: [capabilityGuard],
-        data: { capability: 'people:manage' },
-        loadChildren: () => import('./people/people.routes').then((m) => m.peopleRoutes),
-      },
-      {
-        path: 'account/tokens',
-        canActivate: [capabilityGuard],
-        data: { capability: 'tokens:own' },
-        loadComponent: () =>
-          import('./people/account-tokens/account-tokens').then((m) => m.AccountTokens),
-        title: 'API tokens · Tuttiboard',
-      },
-      {
         path: 'instruments',
         canActivate: [capabilityGuard],
         data: { capability: 'fleet:read' },
@@ -123,7 +108,25 @@ export const routes: Routes = [
         data: { capability: 'reports:read' },
         loadChildren: () => import('./reports/reports.routes').then((m) => m.reportsRoutes),
       },
-      { path: '**', component: NotFound, title: 'Not found · Tuttiboard' },
+      {
+        path: 'people',
+        canActivate: [capabilityGuard],
+        data: { capability: 'people:manage' },
+        loadChildren: () => import('./people/people.routes').then((m) => m.peopleRoutes),
+      },
+      {
+        path: 'account/tokens',
+        canActivate: [capabilityGuard],
+        data: { capability: 'tokens:own' },
+        loadComponent: () =>
+          import('./people/account-tokens/account-tokens').then((m) => m.AccountTokens),
+        title: 'API tokens · Tuttiboard',
+      },
+      {
+        path: '**',
+        loadComponent: () => import('./core/not-found').then((m) => m.NotFound),
+        title: 'Not found · Tuttiboard',
+      },
     ],
   },
 ];

@@ -35,7 +35,11 @@ export const ladderVersions = pgTable(
     ...version,
     ...timestamps,
   },
-  (table) => [uniqueIndex('ladder_versions_one_active').on(table.active).where(sql`active`)],
+  (table) => [
+    uniqueIndex('ladder_versions_one_active')
+      .on(table.active)
+      .where(sql`active`),
+  ],
 );
 
 /** A rung of one ladder version, numbered 1, 2, 3… */
@@ -171,6 +175,13 @@ export const studentAttainment = pgTable(
     studentId: integer('student_id')
       .primaryKey()
       .references(() => students.id, { onDelete: 'cascade' }),
+    // School, grade and status copied from the student (kept by triggers on students), so the
+    // Overview counts from this one table.
+    schoolId: integer('school_id'),
+    grade: smallint('grade'),
+    active: boolean('active').notNull().default(true),
+    /** Set when the student's seats changed: the rung is recomputed before the next read. */
+    stale: boolean('stale').notNull().default(false),
     ladderVersionId: integer('ladder_version_id').references(() => ladderVersions.id, {
       onDelete: 'set null',
     }),
@@ -183,8 +194,15 @@ export const studentAttainment = pgTable(
     updatedAt: timestamp('updated_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
   },
   (table) => [
+    index('student_attainment_school_grade_rung_idx').on(
+      table.schoolId,
+      table.grade,
+      table.rung,
+      table.active,
+    ),
     index('student_attainment_rung_idx').on(table.rung),
     index('student_attainment_last_pass_off_idx').on(table.lastPassOffOn),
+    index('student_attainment_stale_idx').on(table.studentId).where(sql`stale`),
   ],
 );
 
@@ -219,4 +237,3 @@ export const passOffWeeks = pgTable(
   },
   (table) => [primaryKey({ columns: [table.weekStart, table.schoolId, table.grade] })],
 );
-

@@ -42,11 +42,6 @@ import cloudOff from '@material-symbols/svg-400/outlined/cloud_off.svg';
 import schedule from '@material-symbols/svg-400/outlined/schedule.svg';
 import libraryMusic from '@material-symbols/svg-400/outlined/library_music.svg';
 import checklist from '@material-symbols/svg-400/outlined/checklist.svg';
-import arrowUpward from '@material-symbols/svg-400/outlined/arrow_upward.svg';
-import arrowDownward from '@material-symbols/svg-400/outlined/arrow_downward.svg';
-import publish from '@material-symbols/svg-400/outlined/publish.svg';
-import attachFile from '@material-symbols/svg-400/outlined/attach_file.svg';
-import history from '@material-symbols/svg-400/outlined/history.svg';
 // The instrument fleet's screens.
 import checkCircle from '@material-symbols/svg-400/outlined/check_circle.svg';
 import sanitizer from '@material-symbols/svg-400/outlined/sanitizer.svg';
@@ -66,9 +61,12 @@ import send from '@material-symbols/svg-400/outlined/send.svg';
 import mail from '@material-symbols/svg-400/outlined/mail.svg';
 import swapHoriz from '@material-symbols/svg-400/outlined/swap_horiz.svg';
 import localShipping from '@material-symbols/svg-400/outlined/local_shipping.svg';
-// People and API tokens.
-import block from '@material-symbols/svg-400/outlined/block.svg';
+import arrowUpward from '@material-symbols/svg-400/outlined/arrow_upward.svg';
+import arrowDownward from '@material-symbols/svg-400/outlined/arrow_downward.svg';
+import publish from '@material-symbols/svg-400/outlined/publish.svg';
+import attachFile from '@material-symbols/svg-400/outlined/attach_file.svg';
 import history from '@material-symbols/svg-400/outlined/history.svg';
+// People and API tokens.
 import personAdd from '@material-symbols/svg-400/outlined/person_add.svg';
 import personOff from '@material-symbols/svg-400/outlined/person_off.svg';
 import howToReg from '@material-symbols/svg-400/outlined/how_to_reg.svg';
@@ -125,11 +123,6 @@ const icons: Record<string, string> = {
   schedule: schedule,
   library_music: libraryMusic,
   checklist: checklist,
-  arrow_upward: arrowUpward,
-  arrow_downward: arrowDownward,
-  publish: publish,
-  attach_file: attachFile,
-  history: history,
   check_circle: checkCircle,
   sanitizer: sanitizer,
   help: help,
@@ -148,7 +141,10 @@ const icons: Record<string, string> = {
   mail: mail,
   swap_horiz: swapHoriz,
   local_shipping: localShipping,
-  block: block,
+  arrow_upward: arrowUpward,
+  arrow_downward: arrowDownward,
+  publish: publish,
+  attach_file: attachFile,
   history: history,
   person_add: personAdd,
   person_off: personOff,

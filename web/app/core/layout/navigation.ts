@@ -16,8 +16,6 @@ export interface NavigationItem {
 export const navigationItems: NavigationItem[] = [
   { path: '/overview', label: 'Overview', icon: 'space_dashboard', group: 'district', hiddenFor: ['student'] },
   { path: '/schools', label: 'Schools', icon: 'school', capability: 'schools:read', group: 'district' },
-  { path: '/ensembles', label: 'Ensembles', icon: 'groups', capability: 'roster:read', group: 'district' },
-  { path: '/students', label: 'Students', icon: 'person', capability: 'roster:read', group: 'district' },
   { path: '/imports', label: 'Imports', icon: 'upload_file', capability: 'imports:run', group: 'district' },
   { path: '/ladder', label: 'Scale ladder', icon: 'stairs', capability: 'ladder:read', group: 'music' },
   { path: '/pass-offs', label: 'Pass-offs', icon: 'fact_check', capability: 'pass-offs:write', group: 'music' },
@@ -27,6 +25,8 @@ export const navigationItems: NavigationItem[] = [
   { path: '/repairs', label: 'Repairs', icon: 'build', capability: 'fleet:read', group: 'fleet' },
   { path: '/counts', label: 'Annual count', icon: 'barcode_scanner', capability: 'counts:run', group: 'fleet' },
   { path: '/planning', label: 'Replacement plan', icon: 'inventory_2', capability: 'fleet:read', group: 'fleet' },
+  { path: '/ensembles', label: 'Ensembles', icon: 'groups', capability: 'roster:read', group: 'district' },
+  { path: '/students', label: 'Students', icon: 'person', capability: 'roster:read', group: 'district' },
   { path: '/people', label: 'People', icon: 'manage_accounts', capability: 'people:manage', group: 'admin' },
   // The coordinator reaches every token from People; other roles with tokens:own get their own page.
   { path: '/account/tokens', label: 'API tokens', icon: 'key', capability: 'tokens:own', hiddenFor: ['coordinator'], group: 'admin' },

@@ -1,4 +1,11 @@
-import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  viewChild,
+  type ElementRef,
+} from '@angular/core';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { MatIconModule } from '@angular/material/icon';
 import { roleLabels } from '../../../../shared/api/roles';
@@ -15,6 +22,7 @@ import { navigationGroups, visibleItems } from './navigation';
 })
 export class Shell {
   private readonly currentUser = inject(CurrentUser);
+  private readonly main = viewChild.required<ElementRef<HTMLElement>>('main');
 
   protected readonly me = this.currentUser.me;
   protected readonly roleLabel = computed(() => {
@@ -42,4 +50,13 @@ export class Shell {
       .slice(0, 2)
       .join(''),
   );
+
+  /**
+   * Moves focus into the content. Following a same-page link only moves the sequential focus
+   * starting point (HTML Living Standard, "scroll to the fragment"), so the link focuses it itself.
+   */
+  protected skipToMain(event: Event) {
+    event.preventDefault();
+    this.main().nativeElement.focus();
+  }
 }

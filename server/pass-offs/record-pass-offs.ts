@@ -1,0 +1,175 @@
+import { eq, inArray } from 'drizzle-orm';
+import type { Database, Transaction } from '../db/client';
+import { ladderRequirements, passOffs, students } from '../db/schema/index';
+import type { PassOff, PassOffBatchResult, PassOffInput } from '../../shared/api/pass-off';
+import { assertInScope, type Actor } from '../core/policy';
+import { recordAudit } from '../core/audit';
+import { badRequest, conflict, notFound } from '../core/errors';
+import { countWeeks, recomputeAttainment } from '../ladder/attainment';
+import { activeVersionId } from '../ladder/ladder-queries';
+import { ladderContext, selectPassOffs, toPassOff } from './pass-off-rows';
+
+async function passOffsByIds(db: Transaction, ids: number[]): Promise<PassOff[]> {
+  if (ids.length === 0) return [];
+  const [rows, context] = await Promise.all([
+    selectPassOffs(db).where(inArray(passOffs.id, ids)),
+    ladderContext(db),
+  ]);
+  const byId = new Map(rows.map((row) => [row.id, toPassOff(row, context)]));
+  return ids.map((id) => byId.get(id)!);
+}
+
+/** The latest day a pass-off may be dated: tomorrow (UTC), so no time zone refuses today. */
+export function latestHeardOn(): string {
+  return new Date(Date.now() + 24 * 60 * 60 * 1000).toISOString().slice(0, 10);
+}
+
+/**
+ * Records pass-offs for students of the actor's schools, against the active ladder. A pass-off
+ * whose client key was recorded before is answered as it stands, not recorded again.
+ */
+export async function recordPassOffs(
+  db: Database,
+  actor: Actor,
+  inputs: PassOffInput[],
+): Promise<PassOffBatchResult> {
+  const versionId = await activeVersionId(db);
+  if (versionId === null)
+    throw badRequest('No scale ladder has been published yet, so there is nothing to pass off.');
+  const latest = latestHeardOn();
+  const fieldErrors = inputs.flatMap((input, index) =>
+    input.heardOn > latest
+      ? [{ field: `passOffs.${index}.heardOn`, message: 'The date heard cannot be in the future.' }]
+      : [],
+  );
+  const requirementRows = await db
+    .select({ id: ladderRequirements.id, code: ladderRequirements.code })
+    .from(ladderRequirements)
+    .where(eq(ladderRequirements.ladderVersionId, versionId));
+  const requirementIds = new Map(requirementRows.map((row) => [row.code, row.id]));
+  inputs.forEach((input, index) => {
+    if (!requirementIds.has(input.requirementCode)) {
+      fieldErrors.push({
+        field: `passOffs.${index}.requirementCode`,
+        message: `The ladder in force has no requirement ${input.requirementCode}.`,
+      });
+    }
+  });
+  if (fieldErrors.length)
+    throw badRequest(
+      `The pass-offs have ${fieldErrors.length} problem${fieldErrors.length === 1 ? '' : 's'}: ${fieldErrors[0]!.message}`,
+      fieldErrors,
+    );
+
+  const studentIds = [...new Set(inputs.map((input) => input.studentId))];
+  const studentRows = await db
+    .select({ id: students.id, schoolId: students.schoolId, grade: students.grade })
+    .from(students)
+    .where(inArray(students.id, studentIds));
+  const studentsById = new Map(studentRows.map((row) => [row.id, row]));
+  for (const studentId of studentIds) {
+    const student = studentsById.get(studentId);
+    if (!student) throw notFound('That student');
+    assertInScope(actor, student.schoolId, 'That student');
+  }
+
+  return db.transaction(async (tx) => {
+    const keys = inputs.flatMap((input) => (input.clientKey ? [input.clientKey] : []));
+    const known = keys.length
+      ? await tx
+          .select({
+            id: passOffs.id,
+            clientKey: passOffs.clientKey,
+            studentId: passOffs.studentId,
+            requirementCode: passOffs.requirementCode,
+          })
+          .from(passOffs)
+          .where(inArray(passOffs.clientKey, keys))
+      : [];
+    const knownByKey = new Map(known.map((row) => [row.clientKey!, row]));
+    const fresh = new Map<string, PassOffInput>();
+    const unkeyed: PassOffInput[] = [];
+    for (const input of inputs) {
+      const previous = input.clientKey ? knownByKey.get(input.clientKey) : undefined;
+      if (
+        previous &&
+        (previous.studentId !== input.studentId ||
+          previous.requirementCode !== input.requirementCode)
+      ) {
+        throw conflict(
+          `The client key ${input.clientKey} was already used for another pass-off; make a new key for each pass-off.`,
+        );
+      }
+      if (previous) continue;
+      if (input.clientKey) fresh.set(input.clientKey, input);
+      else unkeyed.push(input);
+    }
+    const toInsert = [...fresh.values(), ...unkeyed];
+    const inserted = toInsert.length
+      ? await tx
+          .insert(passOffs)
+          .values(
+            toInsert.map((input) => {
+              const student = studentsById.get(input.studentId)!;
+              return {
+                studentId: input.studentId,
+                schoolId: student.schoolId,
+                grade: student.grade,
+                ladderVersionId: versionId,
+                requirementId: requirementIds.get(input.requirementCode)!,
+                requirementCode: input.requirementCode,
+                heardOn: input.heardOn,
+                tempo: input.tempo,
+                passed: input.passed,
+                heardBy: actor.userId,
+                note: input.note,
+                clientKey: input.clientKey ?? null,
+              };
+            }),
+          )
+          // A retry racing its own first attempt on another connection lands here, not in a 500.
+          .onConflictDoNothing({ target: passOffs.clientKey })
+          .returning()
+      : [];
+    await countWeeks(
+      tx,
+      inserted.map((row) => ({
+        heardOn: row.heardOn,
+        schoolId: row.schoolId,
+        grade: row.grade,
+        passed: row.passed,
+        delta: 1 as const,
+      })),
+    );
+    await recomputeAttainment(
+      tx,
+      inserted.map((row) => row.studentId),
+    );
+    await recordAudit(
+      tx,
+      actor,
+      ...inserted.map((row) => ({
+        action: 'create',
+        entity: 'pass-off',
+        entityId: row.id,
+        after: row,
+      })),
+    );
+    const keyed = keys.length
+      ? await tx
+          .select({ id: passOffs.id, clientKey: passOffs.clientKey })
+          .from(passOffs)
+          .where(inArray(passOffs.clientKey, keys))
+      : [];
+    const insertedByKey = new Map(keyed.map((row) => [row.clientKey!, row.id]));
+    const unkeyedIds = inserted.filter((row) => !row.clientKey).map((row) => row.id);
+    let unkeyedIndex = 0;
+    const ids = inputs.map((input) =>
+      input.clientKey
+        ? (knownByKey.get(input.clientKey)?.id ?? insertedByKey.get(input.clientKey)!)
+        : unkeyedIds[unkeyedIndex++]!,
+    );
+    const rows = await passOffsByIds(tx, ids);
+    return { rows, created: inserted.length, repeated: inputs.length - inserted.length };
+  });
+}

@@ -1,0 +1,194 @@
+import { execFileSync } from 'node:child_process';
+import { randomUUID } from 'node:crypto';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { runTutti } from '../support/cli';
+import { startServerProcess, type ServerProcess } from '../support/server-process';
+
+// A data folder that turns read-only, and a disk that fills up, are made for real here: the
+// server is a separate process on a copy of a seeded demo folder. As root, chmod does not stop
+// writes, so the read-only server runs as the unprivileged user 65534 ("nobody"); the full disk
+// is a size-limited tmpfs, which needs the mount permission these tests run with.
+
+const root = fs.mkdtempSync(path.join(os.tmpdir(), 'tutti-faults-'));
+const seeded = path.join(root, 'seeded');
+const running = new Set<ServerProcess>();
+const mounts: string[] = [];
+const nobody = 65534;
+const asRoot = process.getuid?.() === 0;
+
+const refusal = {
+  status: 503,
+  code: 'database_unavailable',
+  message:
+    "The database cannot take changes right now (disk full or read-only). Nothing was changed; tell the district's IT.",
+  fieldErrors: [],
+};
+
+beforeAll(async () => {
+  // The server that drops to "nobody" must be able to walk down to its data folder.
+  fs.chmodSync(root, 0o755);
+  const seed = await runTutti(['seed', '--demo'], { TUTTI_DATA_DIR: seeded });
+  expect(seed.code, seed.stderr).toBe(0);
+}, 240_000);
+
+afterAll(async () => {
+  for (const server of running) await server.kill().catch(() => undefined);
+  for (const mount of mounts) execFileSync('umount', [mount]);
+  fs.rmSync(root, { recursive: true, force: true });
+});
+
+async function start(dataDir: string, environment: NodeJS.ProcessEnv = {}): Promise<ServerProcess> {
+  const server = await startServerProcess(dataDir, environment);
+  running.add(server);
+  return server;
+}
+
+async function stop(server: ServerProcess): Promise<void> {
+  await server.stop();
+  running.delete(server);
+}
+
+/** A director's API token, from the server's own local-command route. */
+async function directorHeaders(server: ServerProcess): Promise<Record<string, string>> {
+  const response = await fetch(`${server.url}/api/local/tokens`, {
+    method: 'POST',
+    headers: { 'x-tutti-local-key': server.localKey, 'content-type': 'application/json' },
+    body: JSON.stringify({ email: 'director.hpms@merrowbasin.example' }),
+  });
+  expect(response.status).toBe(201);
+  const { token } = (await response.json()) as { token: string };
+  return { authorization: `Bearer ${token}`, 'content-type': 'application/json' };
+}
+
+async function call(
+  server: ServerProcess,
+  headers: Record<string, string>,
+  target: string,
+  body?: object,
+) {
+  const response = await fetch(`${server.url}${target}`, {
+    method: body ? 'POST' : 'GET',
+    headers,
+    body: body ? JSON.stringify(body) : undefined,
+  });
+  return { status: response.status, body: (await response.json()) as Record<string, unknown> };
+}
+
+/** A batch of pass-offs for the director's students, each with a fresh client key. */
+async function passOffBatch(server: ServerProcess, headers: Record<string, string>, size: number) {
+  const students = await call(server, headers, '/api/students?limit=20&status=active');
+  const ladder = await call(server, headers, '/api/ladder');
+  const rows = students.body['rows'] as { id: number }[];
+  const requirements = (
+    ladder.body['rungs'] as { requirements: { code: string; tempo: number }[] }[]
+  ).flatMap((rung) => rung.requirements);
+  expect(rows.length).toBeGreaterThan(5);
+  return {
+    passOffs: Array.from({ length: size }, (_, index) => ({
+      studentId: rows[index % rows.length]!.id,
+      requirementCode: requirements[index % requirements.length]!.code,
+      heardOn: '2026-12-01',
+      tempo: requirements[index % requirements.length]!.tempo,
+      passed: true,
+      // Long notes, so the batch needs new pages in the table rather than fitting a free one.
+      note: `Steady tone through the top octave; ${'heard again after sectionals. '.repeat(30)}`.slice(
+        0,
+        1000,
+      ),
+      clientKey: randomUUID(),
+    })),
+  };
+}
+
+/** The reads a director's pages make, asked once before the fault so later reads repeat them. */
+const reads = ['/api/me', '/api/students?limit=20&status=active', '/api/pass-offs?limit=5'];
+
+describe('When the data folder turns read-only', () => {
+  it('should refuse pass-offs with a clear 503, keep serving reads and keep nothing of the batch', async () => {
+    const dataDir = path.join(root, 'read-only', 'data');
+    fs.cpSync(seeded, dataDir, { recursive: true });
+    const environment: NodeJS.ProcessEnv = {};
+    if (asRoot) {
+      execFileSync('chown', ['-R', `${nobody}:${nobody}`, path.dirname(dataDir)]);
+      // Node's process.setuid, before anything else loads (Node.js docs, "process.setuid").
+      const dropPrivileges = `process.setgroups([]);process.setgid(${nobody});process.setuid(${nobody})`;
+      environment['NODE_OPTIONS'] =
+        `${process.env['NODE_OPTIONS'] ?? ''} --import=data:text/javascript,${dropPrivileges}`;
+    }
+    let server = await start(dataDir, environment);
+    let headers = await directorHeaders(server);
+    const batch = await passOffBatch(server, headers, 20);
+    for (const target of reads)
+      expect((await call(server, headers, target)).status, target).toBe(200);
+    const before = (await call(server, headers, '/api/pass-offs?limit=1')).body['total'];
+
+    execFileSync('chmod', ['-R', 'a-w', path.join(dataDir, 'pg')]);
+    const refused = await call(server, headers, '/api/pass-offs', batch);
+    expect(refused).toEqual({ status: 503, body: { error: refusal } });
+    for (const target of reads)
+      expect((await call(server, headers, target)).status, target).toBe(200);
+    expect((await call(server, headers, '/api/pass-offs?limit=1')).body['total']).toBe(before);
+    await stop(server);
+
+    // Writable again: the same batch is recorded whole, none of it as a repeat.
+    execFileSync('chmod', ['-R', 'u+w', path.join(dataDir, 'pg')]);
+    server = await start(dataDir, environment);
+    headers = await directorHeaders(server);
+    const recorded = await call(server, headers, '/api/pass-offs', batch);
+    expect(recorded.status).toBe(201);
+    expect({ created: recorded.body['created'], repeated: recorded.body['repeated'] }).toEqual({
+      created: 20,
+      repeated: 0,
+    });
+    await stop(server);
+  }, 240_000);
+});
+
+describe('When the disk is full', () => {
+  it('should refuse pass-offs with a clear 503, keep serving reads, and take them once space is freed', async () => {
+    const mount = path.join(root, 'small-disk');
+    fs.mkdirSync(mount);
+    const seededBytes = Number(execFileSync('du', ['-sb', seeded]).toString().split('\t')[0]);
+    const megabytes = Math.ceil(seededBytes / 1024 / 1024) + 48;
+    execFileSync('mount', ['-t', 'tmpfs', '-o', `size=${megabytes}m`, 'tmpfs', mount]);
+    mounts.push(mount);
+    const dataDir = path.join(mount, 'data');
+    fs.cpSync(seeded, dataDir, { recursive: true });
+    const server = await start(dataDir);
+    const headers = await directorHeaders(server);
+    const batch = await passOffBatch(server, headers, 200);
+    for (const target of reads)
+      expect((await call(server, headers, target)).status, target).toBe(200);
+    const before = (await call(server, headers, '/api/pass-offs?limit=1')).body['total'];
+
+    const filler = path.join(mount, 'filler');
+    const descriptor = fs.openSync(filler, 'w');
+    const chunk = Buffer.alloc(1024 * 1024, 1);
+    try {
+      for (;;) fs.writeSync(descriptor, chunk);
+    } catch (error) {
+      expect((error as NodeJS.ErrnoException).code).toBe('ENOSPC');
+    } finally {
+      fs.closeSync(descriptor);
+    }
+
+    const refused = await call(server, headers, '/api/pass-offs', batch);
+    expect(refused).toEqual({ status: 503, body: { error: refusal } });
+    for (const target of reads)
+      expect((await call(server, headers, target)).status, target).toBe(200);
+    expect((await call(server, headers, '/api/pass-offs?limit=1')).body['total']).toBe(before);
+
+    // Space freed: the same server records the same batch whole, none of it as a repeat.
+    fs.rmSync(filler);
+    const recorded = await call(server, headers, '/api/pass-offs', batch);
+    expect(recorded.status).toBe(201);
+    expect({ created: recorded.body['created'], repeated: recorded.body['repeated'] }).toEqual({
+      created: 200,
+      repeated: 0,
+    });
+    await stop(server);
+  }, 240_000);
+});
