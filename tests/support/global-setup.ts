@@ -1,3 +1,5 @@
+import fs from 'node:fs';
+import path from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { buildTemplates, type TemplateLocations } from './database-templates';
 
@@ -14,4 +16,8 @@ declare module 'vitest' {
 export default async function setup(project: TestProject) {
   const templates = await buildTemplates(process.env['TEST_DATABASE_URL']);
   project.provide('templates', templates);
+  return () => {
+    const folder = templates.images ? path.dirname(templates.images.empty) : undefined;
+    if (folder) fs.rmSync(folder, { recursive: true, force: true });
+  };
 }
