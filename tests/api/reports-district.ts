@@ -1,3 +1,4 @@
+import { sql } from 'drizzle-orm';
 import { eq } from 'drizzle-orm';
 import type { Database } from '../../server/db/client';
 import {
@@ -137,7 +138,12 @@ export async function seedTinyDistrict(db: Database): Promise<TinyDistrict> {
       .insert(studentAttainment)
       .values(
         rungs.map(([key, rung]) => ({ studentId: id(key), ladderVersionId: ladder!.id, rung })),
-      );
+      )
+      // Adding a student may already create its summary row.
+      .onConflictDoUpdate({
+        target: studentAttainment.studentId,
+        set: { rung: sql`excluded.rung`, ladderVersionId: sql`excluded.ladder_version_id` },
+      });
     const heard = (
       key: string,
       school: number,
