@@ -305,18 +305,32 @@ describe('Analytics after roster changes', () => {
     const db = app.database.db;
     const { sql } = await import('drizzle-orm');
     // s1 (HPMS, rung 1) moves to Quarry Hill; s2 withdraws; s7 (horn) takes a violin seat instead.
-    await db.execute(sql`update students set school_id = ${district.schoolId.QHMS} where id = ${district.studentId['s1']!}`);
-    await db.execute(sql`update students set status = 'withdrawn' where id = ${district.studentId['s2']!}`);
-    await db.execute(sql`update enrollments set instrument_id = 'violin' where student_id = ${district.studentId['s7']!}`);
-    const overview = overviewSchema.parse((await coordinator.get(`/api/analytics/overview?asOf=${asOf}`)).body);
+    await db.execute(
+      sql`update students set school_id = ${district.schoolId.QHMS} where id = ${district.studentId['s1']!}`,
+    );
+    await db.execute(
+      sql`update students set status = 'withdrawn' where id = ${district.studentId['s2']!}`,
+    );
+    await db.execute(
+      sql`update enrollments set instrument_id = 'violin' where student_id = ${district.studentId['s7']!}`,
+    );
+    const overview = overviewSchema.parse(
+      (await coordinator.get(`/api/analytics/overview?asOf=${asOf}`)).body,
+    );
     expect(overview.studentCount).toBe(7);
     // Rung 0 now: s3, s7; rung 1: s1, s8; rung 2: s4, s6; rung 3: s5.
     expect(overview.studentsByRung.bySchool.map((school) => [school.code, school.counts])).toEqual([
       ['HPMS', [1, 0, 1, 1]],
       ['QHMS', [1, 2, 1, 0]],
     ]);
-    const s7 = studentProgressSchema.parse((await coordinator.get(`/api/analytics/students/${district.studentId['s7']}/progress`)).body);
+    const s7 = studentProgressSchema.parse(
+      (await coordinator.get(`/api/analytics/students/${district.studentId['s7']}/progress`)).body,
+    );
     expect(s7.family).toBe('strings');
-    expect(s7.next.requirements.map((item) => item.code)).toEqual(['r1-bb-major', 'r1-d-major-strings', 'r1-c-chromatic']);
+    expect(s7.next.requirements.map((item) => item.code)).toEqual([
+      'r1-bb-major',
+      'r1-d-major-strings',
+      'r1-c-chromatic',
+    ]);
   });
 });

@@ -28,14 +28,24 @@ const dayMs = 24 * 60 * 60 * 1000;
 export async function loadBenchPassOffs(database: DatabaseHandle, total: number): Promise<void> {
   const { db, pglite } = database;
   const random = new SeededRandom(total);
+  // Bands of 60, as a school's ensembles would seat them.
+  const unseated = sql`not exists (select 1 from enrollments x where x.student_id = s.id)`;
   await db.execute(sql`
+    insert into ensembles (school_id, name, kind)
+    select c.school_id, 'Bench Band ' || g, 'concert-band'
+    from (select s.school_id, count(*) as students from students s where ${unseated} group by 1) c,
+      generate_series(1, ceil(c.students / 60.0)::int) g`);
+  await db.execute(sql`
+    with pupils as (
+      select s.id, s.school_id, (row_number() over (partition by s.school_id order by s.id) - 1) / 60 as band
+      from students s where ${unseated}),
+    bands as (
+      select e.id, e.school_id, row_number() over (partition by e.school_id order by e.id) - 1 as band
+      from ensembles e where e.name like 'Bench Band %')
     insert into enrollments (student_id, ensemble_id, school_year_id, instrument_id)
-    select s.id, (select e.id from ensembles e where e.school_id = s.school_id order by e.id limit 1),
-      (select y.id from school_years y where y.current limit 1),
-      (${`{${benchInstruments.join(',')}}`}::text[])[1 + s.id % ${benchInstruments.length}]
-    from students s
-    where not exists (select 1 from enrollments x where x.student_id = s.id)
-      and exists (select 1 from ensembles e where e.school_id = s.school_id)`);
+    select p.id, b.id, (select y.id from school_years y where y.current limit 1),
+      (${`{${benchInstruments.join(',')}}`}::text[])[1 + p.id % ${benchInstruments.length}]
+    from pupils p join bands b on b.school_id = p.school_id and b.band = p.band`);
   const ladder = (await activeRuleLadder(db))!;
   const requirementIds = new Map(
     rowsOf<{ id: number; code: string }>(

@@ -202,7 +202,9 @@ export const studentAttainment = pgTable(
     ),
     index('student_attainment_rung_idx').on(table.rung),
     index('student_attainment_last_pass_off_idx').on(table.lastPassOffOn),
-    index('student_attainment_stale_idx').on(table.studentId).where(sql`stale`),
+    index('student_attainment_stale_idx')
+      .on(table.studentId)
+      .where(sql`stale`),
   ],
 );
 
