@@ -17,9 +17,11 @@ afterAll(async () => {
 
 /** Waits until a screen has its heading and has finished loading its data. */
 async function settled(page: Page) {
-  await page.locator('main h1').first().waitFor();
-  await page.waitForLoadState('networkidle');
-  await expect.poll(() => page.locator('main tb-page-state mat-spinner').count()).toBe(0);
+  await page.locator('main h1').first().waitFor({ timeout: 30_000 });
+  await page.waitForLoadState('networkidle', { timeout: 30_000 });
+  await expect
+    .poll(() => page.locator('main tb-page-state mat-spinner').count(), { timeout: 30_000 })
+    .toBe(0);
 }
 
 /**
@@ -54,9 +56,12 @@ describe('Accessibility', () => {
     expect(screens).toEqual(expect.arrayContaining(['/overview', '/schools', '/students', '/ensembles']));
     const found: string[] = [];
     for (const screen of screens) {
-      await page.goto(`${app.url}${screen}`);
+      console.log('SCREEN', screen, new Date().toISOString());
+      await page.goto(`${app.url}${screen}`, { timeout: 30_000 });
       await settled(page);
-      found.push(...(await seriousViolations(page)).map((line) => `${screen}: ${line}`));
+      const lines = (await seriousViolations(page)).map((line) => `${screen}: ${line}`);
+      console.log('AXE', screen, lines.join('\n'));
+      found.push(...lines);
     }
     expect(found, found.join('\n')).toEqual([]);
     await context.close();
