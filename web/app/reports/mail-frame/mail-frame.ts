@@ -19,6 +19,8 @@ import { DomSanitizer } from '@angular/platform-browser';
     }
     iframe {
       display: block;
+      /* The border inside the width: a full-width frame must not make its tab scroll sideways. */
+      box-sizing: border-box;
       width: 100%;
       height: var(--tb-mail-frame-height, 640px);
       border: 1px solid var(--tb-line);
