@@ -62,8 +62,10 @@ describe('Students grid', () => {
     const client = await app.signIn(demoEmail('director.hpms'));
     const all = await client.get('/api/students?status=active&limit=1');
     expect(await gridCount(page)).toBe(all.body.total);
-    const schools = await columnTexts(page, 'school', 10);
-    expect(new Set(schools)).toEqual(new Set(['HPMS']));
+    // The count arrives with the first page; the rows' cells fill in a frame later.
+    await expect
+      .poll(async () => [...new Set(await columnTexts(page, 'school', 10))], patient)
+      .toEqual(['HPMS']);
     // A director has one school, so the screen offers no school filter.
     expect(await page.getByTestId('filter-school').count()).toBe(0);
 
@@ -175,9 +177,9 @@ describe('Schools and ensembles grids', () => {
     const client = await app.signIn(demoEmail('coordinator'));
     const schools = await client.get('/api/schools?sort=name:asc&limit=100');
     expect(await gridCount(page)).toBe(schools.body.total);
-    expect(await columnTexts(page, 'name', 3)).toEqual(
-      schools.body.rows.slice(0, 3).map((school: { name: string }) => school.name),
-    );
+    await expect
+      .poll(() => columnTexts(page, 'name', 3), patient)
+      .toEqual(schools.body.rows.slice(0, 3).map((school: { name: string }) => school.name));
     await page.evaluate(() => document.fonts.ready);
     await saveScreenshot(page, 'schools-grid');
 
