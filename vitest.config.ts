@@ -11,7 +11,7 @@ export default defineConfig({
         test: {
           name: 'unit',
           environment: 'node',
-          include: ['{shared,server,fakes}/**/*.{spec,test}.ts'],
+          include: ['{shared,server,fakes}/**/*.{spec,test}.ts', 'web/**/*.spec.ts'],
         },
       },
       {

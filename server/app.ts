@@ -3,7 +3,6 @@ import session from 'express-session';
 import helmet from 'helmet';
 import fs from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
 import type { Config } from './config';
 import type { DatabaseHandle } from './db/client';
 import { createLogger, type Logger } from './logger';
@@ -32,9 +31,10 @@ import { analyticsRoutes } from './analytics/analytics-routes';
 import { outboxRoutes } from './mail/outbox-routes';
 import { reportsRoutes } from './reports/reports-routes';
 import { startBackgroundWork } from './reports/background-work';
+import { webRoot } from './project-paths';
 
-/** Where the production build of the Angular app lands. */
-export const webRoot = fileURLToPath(new URL('../dist/web/browser', import.meta.url));
+export { webRoot };
+
 
 /** What createApp needs besides the configuration. */
 export interface AppOptions {

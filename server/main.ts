@@ -2,7 +2,6 @@ import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { fileURLToPath } from 'node:url';
 import { loadConfig, type Config } from './config';
-import { createApp } from './app';
 import { migrateDatabase, openDatabase, type DatabaseHandle } from './db/client';
 import { randomBytes } from 'node:crypto';
 import { acquireLock, updateLock } from './db/data-lock';
@@ -40,10 +39,14 @@ export async function startServer(
 ): Promise<RunningServer> {
   const logger = options.logger ?? createLogger(config.logLevel);
   const localKey = config.databaseUrl ? undefined : randomBytes(24).toString('base64url');
+  // The routes (and the packages behind them) load while the database opens: start-up is
+  // the longer of the two, not their sum.
+  const appModule = import('./app');
   const { database, release } = await openServerDatabase(config, 'the Tuttiboard server', localKey);
   try {
     await migrateDatabase(database);
     await options.prepare?.(database);
+    const { createApp } = await appModule;
     const app = await createApp(config, { database, logger, localKey });
     const server = http.createServer(app);
     await new Promise<void>((resolve, reject) => {

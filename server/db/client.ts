@@ -4,11 +4,11 @@ import { drizzle as drizzleNodePostgres } from 'drizzle-orm/node-postgres';
 import { migrate as migratePglite } from 'drizzle-orm/pglite/migrator';
 import { migrate as migrateNodePostgres } from 'drizzle-orm/node-postgres/migrator';
 import type { PgDatabase, PgQueryResultHKT } from 'drizzle-orm/pg-core';
-import { fileURLToPath } from 'node:url';
 import fs from 'node:fs';
 import path from 'node:path';
 import pg from 'pg';
 import * as schema from './schema/index';
+import { migrationsFolder } from '../project-paths';
 
 /** The Drizzle database, whichever PostgreSQL is behind it. */
 export type Database = PgDatabase<PgQueryResultHKT, typeof schema>;
@@ -33,7 +33,7 @@ export type DatabaseLocation =
   | { kind: 'pglite-memory' }
   | { kind: 'postgres'; url: string };
 
-export const migrationsFolder = fileURLToPath(new URL('./migrations', import.meta.url));
+export { migrationsFolder };
 
 /** Options for opening: a query logger lets benchmarks replay the exact SQL a route ran. */
 export interface OpenOptions {

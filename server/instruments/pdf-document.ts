@@ -15,21 +15,26 @@ type PdfPrinterConstructor = new (fonts: Record<string, Record<string, string>>)
 };
 
 const require = createRequire(import.meta.url);
-const PdfPrinter = require('pdfmake') as PdfPrinterConstructor;
+let printer: InstanceType<PdfPrinterConstructor> | undefined;
 
-// PDF's standard Helvetica faces need no font files: nothing is read or downloaded.
-const printer = new PdfPrinter({
-  Helvetica: {
-    normal: 'Helvetica',
-    bold: 'Helvetica-Bold',
-    italics: 'Helvetica-Oblique',
-    bolditalics: 'Helvetica-BoldOblique',
-  },
-});
+/** pdfmake is loaded on the first PDF, not at start-up (it takes a fifth of a second to load). */
+function pdfPrinter() {
+  const PdfPrinter = require('pdfmake') as PdfPrinterConstructor;
+  // PDF's standard Helvetica faces need no font files: nothing is read or downloaded.
+  printer ??= new PdfPrinter({
+    Helvetica: {
+      normal: 'Helvetica',
+      bold: 'Helvetica-Bold',
+      italics: 'Helvetica-Oblique',
+      bolditalics: 'Helvetica-BoldOblique',
+    },
+  });
+  return printer;
+}
 
 /** Renders a pdfmake definition to PDF bytes in Helvetica. */
 export function renderPdf(definition: PdfDefinition): Promise<Buffer> {
-  const document = printer.createPdfKitDocument({
+  const document = pdfPrinter().createPdfKitDocument({
     ...definition,
     defaultStyle: { font: 'Helvetica', fontSize: 10, ...(definition['defaultStyle'] as object) },
   });
