@@ -7,7 +7,7 @@ import {
   type ElementRef,
 } from '@angular/core';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
-import { MatIconModule } from '@angular/material/icon';
+import { MatIcon } from '@angular/material/icon';
 import { roleLabels } from '../../../../shared/api/roles';
 import { CurrentUser } from '../auth/current-user';
 import { navigationGroups, visibleItems } from './navigation';
@@ -15,7 +15,7 @@ import { navigationGroups, visibleItems } from './navigation';
 /** The frame of every signed-in page: the left navigation rail and the top bar. */
 @Component({
   selector: 'tb-shell',
-  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatIconModule],
+  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatIcon],
   templateUrl: './shell.html',
   styleUrl: './shell.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

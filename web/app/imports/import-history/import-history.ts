@@ -1,4 +1,4 @@
-import { DatePipe } from '@angular/common';
+import { WhenPipe } from '../../core/format/formats';
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { MatIconModule } from '@angular/material/icon';
@@ -21,7 +21,7 @@ const viaLabels: Record<ImportHistoryEntry['via'], string> = {
 /** Past imports: who ran them and when, what they did, and their error reports. */
 @Component({
   selector: 'tb-import-history',
-  imports: [DatePipe, MatIconModule, PageState],
+  imports: [WhenPipe, MatIconModule, PageState],
   template: `
     @switch (state().kind) {
       @case ('loading') {
@@ -62,7 +62,7 @@ const viaLabels: Record<ImportHistoryEntry['via'], string> = {
             <tbody>
               @for (entry of list.rows; track entry.id) {
                 <tr>
-                  <td>{{ entry.createdAt | date: 'MMM d, y, h:mm a' }}</td>
+                  <td>{{ entry.createdAt | when: 'dateTime' }}</td>
                   <td>
                     {{ entry.fileName }}
                     <span class="tb-muted"

@@ -1,4 +1,3 @@
-import { LowerCasePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -28,7 +27,6 @@ export interface ReturnDialogData {
   selector: 'tb-return-dialog',
   imports: [
     FormsModule,
-    LowerCasePipe,
     MatButtonModule,
     MatCheckboxModule,
     MatDialogModule,

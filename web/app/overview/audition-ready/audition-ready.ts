@@ -1,7 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
-import { KeyValuePipe } from '@angular/common';
 import { RouterLink } from '@angular/router';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -33,7 +32,6 @@ export function requirementLabel(requirement: LadderRequirement): string {
   selector: 'tb-audition-ready',
   imports: [
     FormsModule,
-    KeyValuePipe,
     RouterLink,
     MatButtonModule,
     MatFormFieldModule,
@@ -58,6 +56,13 @@ export class AuditionReady {
   protected readonly error = signal<string | null>(null);
   protected readonly requirementLabel = requirementLabel;
   protected readonly gradeLabel = gradeLabel;
+
+  /** The best tempo heard per requirement, in the order of the requirement codes. */
+  protected tempoEntries(tempos: Record<string, number>) {
+    return Object.entries(tempos)
+      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
+      .map(([key, value]) => ({ key, value }));
+  }
   protected readonly rungLabel = rungLabel;
 
   protected find(): void {

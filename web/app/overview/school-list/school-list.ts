@@ -1,12 +1,12 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
-import { DecimalPipe } from '@angular/common';
+import { CountPipe } from '../../core/format/formats';
 import { RouterLink } from '@angular/router';
 import type { School } from '../../../../shared/api/school';
 
 /** The user's schools as a compact list, each linking to its page. */
 @Component({
   selector: 'tb-overview-school-list',
-  imports: [RouterLink, DecimalPipe],
+  imports: [RouterLink, CountPipe],
   template: `
     <ul class="schools" data-testid="overview-schools">
       @for (school of schools(); track school.id) {
@@ -15,7 +15,7 @@ import type { School } from '../../../../shared/api/school';
           <a class="name" [routerLink]="['/schools', school.id]">{{ school.name }}</a>
           <span class="tb-muted level">{{ school.level }}</span>
           <span class="count"
-            ><strong>{{ school.studentCount ?? 0 | number }}</strong> students</span
+            ><strong>{{ school.studentCount ?? 0 | count }}</strong> students</span
           >
           <span class="count"
             ><strong>{{ school.ensembleCount ?? 0 }}</strong> ensembles</span

@@ -1,4 +1,4 @@
-import { DatePipe } from '@angular/common';
+import { WhenPipe } from '../../core/format/formats';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -23,7 +23,7 @@ const pageSize = 50;
 @Component({
   selector: 'tb-audit-log',
   imports: [
-    DatePipe,
+    WhenPipe,
     MatButtonModule,
     MatFormFieldModule,
     MatIconModule,

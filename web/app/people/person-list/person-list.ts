@@ -1,4 +1,4 @@
-import { DatePipe } from '@angular/common';
+import { WhenPipe } from '../../core/format/formats';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource, toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
@@ -24,7 +24,7 @@ type SortField = 'name' | 'email' | 'role' | 'lastSignInAt';
 @Component({
   selector: 'tb-person-list',
   imports: [
-    DatePipe,
+    WhenPipe,
     MatButtonModule,
     MatFormFieldModule,
     MatIconModule,

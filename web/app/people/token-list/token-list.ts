@@ -1,4 +1,4 @@
-import { DatePipe } from '@angular/common';
+import { WhenPipe } from '../../core/format/formats';
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
@@ -24,7 +24,7 @@ import { TokenReveal } from '../token-reveal/token-reveal';
 @Component({
   selector: 'tb-token-list',
   imports: [
-    DatePipe,
+    WhenPipe,
     FormsModule,
     MatButtonModule,
     MatFormFieldModule,

@@ -1,4 +1,4 @@
-import { DatePipe } from '@angular/common';
+import { WhenPipe } from '../../core/format/formats';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -21,7 +21,7 @@ import { StudentData } from './student-data';
 /** The student's school, the "Move to another school" action, and the moves so far. */
 @Component({
   selector: 'tb-student-moves',
-  imports: [DatePipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatSelectModule],
+  imports: [WhenPipe, MatButtonModule, MatFormFieldModule, MatIconModule, MatSelectModule],
   template: `
     <section aria-labelledby="school-title">
       <h2 id="school-title">School</h2>
@@ -76,7 +76,7 @@ import { StudentData } from './student-data';
             <li>
               <span>{{ move.fromSchool?.code ?? 'New' }} → {{ move.toSchool.code }}</span>
               <span class="tb-muted"
-                >{{ move.movedAt | date: 'mediumDate'
+                >{{ move.movedAt | when
                 }}{{ move.movedByName ? ' · ' + move.movedByName : '' }}</span
               >
             </li>
