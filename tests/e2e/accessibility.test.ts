@@ -54,8 +54,17 @@ async function seriousViolations(page: Page): Promise<string[]> {
 }
 
 describe('Accessibility', () => {
-  it('should show the coordinator every main screen with no serious or critical axe violation', async () => {
+  it('should show the coordinator every main screen with no serious or critical axe violation and no blocked script or style', async () => {
     const { context } = await localOnlyContext(browser);
+    // The server's Content-Security-Policy has no inline-script exception; the browser reports
+    // anything it blocks as a securitypolicyviolation event (W3C Content Security Policy Level 3).
+    await context.addInitScript(() => {
+      const blocked: string[] = [];
+      (window as unknown as { blockedByPolicy: string[] }).blockedByPolicy = blocked;
+      document.addEventListener('securitypolicyviolation', (event) =>
+        blocked.push(`${event.effectiveDirective} blocked ${event.blockedURI || 'inline code'}`),
+      );
+    });
     const page = await context.newPage();
     await signInAs(page, app.url, demoEmail('coordinator'));
     await settled(page);
@@ -69,13 +78,19 @@ describe('Accessibility', () => {
       expect.arrayContaining(['/overview', '/schools', '/students', '/ensembles']),
     );
     const found: string[] = [];
+    const blockedByPolicy: string[] = [];
     for (const screen of screens) {
       await page.goto(`${app.url}${screen}`, { timeout: 30_000 });
       await settled(page);
       const lines = (await seriousViolations(page)).map((line) => `${screen}: ${line}`);
       found.push(...lines);
+      const blocked = await page.evaluate(
+        () => (window as unknown as { blockedByPolicy: string[] }).blockedByPolicy,
+      );
+      blockedByPolicy.push(...blocked.map((line) => `${screen}: ${line}`));
     }
     expect(found, found.join('\n')).toEqual([]);
+    expect(blockedByPolicy).toEqual([]);
     await context.close();
   }, 600_000);
 
