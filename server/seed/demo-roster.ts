@@ -74,7 +74,7 @@ export async function seedDemoRoster(
     const ensembleId = new Map(inserted.map((row) => [row.name, row.id]));
 
     const studentRows: (typeof students.$inferInsert)[] = [];
-    const seats: { index: number; ensemble: string; instrument: string }[] = [];
+    const seats: { index: number; ensemble: string; instrument: string; active: boolean }[] = [];
     for (let index = 0; index < school.students; index += 1) {
       const grade = random.pick(gradesByLevel[school.level]!);
       const lastName = random.pick(lastNames);
@@ -82,6 +82,8 @@ export async function seedDemoRoster(
       const strings = random.chance(0.32);
       const instrument = strings ? random.weighted(stringInstruments) : random.weighted(bandInstruments);
       const guardian = `${random.pick(guardianFirstNames)} ${lastName}`;
+      // A few students have dropped this year: they keep their old seats, inactive.
+      const status = random.chance(0.02) ? 'withdrawn' : 'active';
       studentRows.push({
         studentNumber: String((studentNumber += 1)),
         firstName,
@@ -89,7 +91,7 @@ export async function seedDemoRoster(
         preferredName: random.chance(0.06) ? random.pick(firstNames) : null,
         grade,
         schoolId,
-        status: random.chance(0.02) ? 'withdrawn' : 'active',
+        status,
         guardianName: guardian,
         guardianEmail: `${guardian.toLowerCase().replace(/[^a-z]+/g, '.')}.${studentNumber}@families.merrowbasin.example`,
       });
@@ -100,9 +102,9 @@ export async function seedDemoRoster(
       const primary = percussion && definitions.some((d) => d.kind === 'percussion-ensemble')
         ? definitions.find((d) => d.kind === 'percussion-ensemble')!
         : (eligible.length ? random.pick(eligible) : definitions.find((d) => d.strings === strings)!);
-      seats.push({ index, ensemble: primary.name, instrument });
+      seats.push({ index, ensemble: primary.name, instrument, active: status === 'active' });
       const marching = definitions.find((d) => d.kind === 'marching-band');
-      if (marching && !strings && random.chance(0.4)) seats.push({ index, ensemble: marching.name, instrument });
+      if (marching && !strings && random.chance(0.4)) seats.push({ index, ensemble: marching.name, instrument, active: status === 'active' });
     }
     const studentIds: number[] = [];
     await insertInBatches(studentRows, 500, async (batch) => {
@@ -121,6 +123,7 @@ export async function seedDemoRoster(
           instrumentId: seat.instrument,
           part: '',
           chair: (position % 6) + 1,
+          active: seat.active,
         })),
       ),
     );

@@ -207,6 +207,24 @@ export async function updateStudent(
       before,
       after,
     });
+    // A student who drops leaves their seats, as a roster import's withdrawal does; the
+    // enrollment rows stay, inactive, for the history.
+    if (before?.status === 'active' && changes.status === 'withdrawn') {
+      const unseated = await tx
+        .update(enrollments)
+        .set({ active: false, version: sql`${enrollments.version} + 1`, updatedAt: new Date() })
+        .where(and(eq(enrollments.studentId, id), eq(enrollments.active, true)))
+        .returning({ id: enrollments.id });
+      if (unseated.length) {
+        await recordAudit(tx, actor, {
+          action: 'withdraw',
+          entity: 'student',
+          entityId: id,
+          before: { activeEnrollments: unseated.map((seat) => seat.id) },
+          after: { activeEnrollments: [] },
+        });
+      }
+    }
   });
   return getStudent(db, actor, id);
 }

@@ -370,6 +370,27 @@ describe('Students changes', () => {
     expect([audit[0]!.before.grade, audit[0]!.after.grade]).toEqual([7, 8]);
   });
 
+  it('should end a student’s seats when they withdraw, keeping the rows for the history', async () => {
+    const seated = await director.get('/api/students?status=active&instrumentId=clarinet&limit=1');
+    const leaver = (await director.get(`/api/students/${seated.body.rows[0].id}`)).body;
+    const seatIds = leaver.enrollments.map((seat: { id: number }) => seat.id);
+    expect(seatIds.length).toBeGreaterThan(0);
+    const withdrawn = await director.patch(`/api/students/${leaver.id}`, {
+      status: 'withdrawn',
+      version: leaver.version,
+    });
+    expect(withdrawn.status).toBe(200);
+    expect(withdrawn.body.enrollments).toEqual([]);
+    const rows = rowsOf<{ id: number; active: boolean }>(
+      await app.database.db.execute(
+        sql`select id, active from enrollments where student_id = ${leaver.id} order by id`,
+      ),
+    );
+    expect(rows.filter((row) => seatIds.includes(row.id)).map((row) => row.active)).toEqual(
+      seatIds.map(() => false),
+    );
+  });
+
   it('should withdraw a student with a PATCH and offer no DELETE', async () => {
     const created = await coordinator.post('/api/students', newStudent());
     const withdrawn = await director.patch(`/api/students/${created.body.id}`, {
