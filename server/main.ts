@@ -1,4 +1,4 @@
-import http from 'node:http';
+import { createHttpServer } from './core/http-server';
 import type { AddressInfo } from 'node:net';
 import { fileURLToPath } from 'node:url';
 import { loadConfig, type Config } from './config';
@@ -48,7 +48,7 @@ export async function startServer(
     await options.prepare?.(database);
     const { createApp } = await appModule;
     const app = await createApp(config, { database, logger, localKey });
-    const server = http.createServer(app);
+    const server = createHttpServer(app);
     await new Promise<void>((resolve, reject) => {
       server.once('error', reject);
       server.listen(config.port, options.host, () => resolve());

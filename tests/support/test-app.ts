@@ -1,4 +1,4 @@
-import http from 'node:http';
+import { createHttpServer } from '../../server/core/http-server';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -62,7 +62,7 @@ export async function startTestApp(options: { template?: TemplateName; serveWeb?
     ...options.environment,
   });
   const app = await createApp(config, { database, logger: createLogger('silent'), serveWeb: options.serveWeb ?? false });
-  const server = http.createServer(app);
+  const server = createHttpServer(app);
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 
