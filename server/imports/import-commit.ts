@@ -50,13 +50,15 @@ const writtenTables = [
  * In PGlite, where this transaction is the only one running, skips the per-row foreign-key
  * triggers for the rest of the transaction (PostgreSQL's `session_replication_role = replica`
  * fires no ordinary trigger): every school, ensemble, year and student id written was read in
- * this same transaction, and the per-row checks would otherwise cost more than the writes. Left
- * on when the tables have triggers of their own, which must fire.
+ * this same transaction, and the per-row checks would otherwise cost more than the writes. Our
+ * own triggers are enabled ALWAYS (migration 0007), so they still fire; a table with any other
+ * trigger keeps the checks on.
  */
 async function skipReferenceTriggers(session: SqlSession) {
   const [own] = await session.query<{ count: number }>(
     `select count(*)::int as count from pg_trigger
-     where not tgisinternal and tgrelid = any(array[${writtenTables.map((name) => `'${name}'::regclass`).join(', ')}])`,
+     where not tgisinternal and tgenabled <> 'A'
+       and tgrelid = any(array[${writtenTables.map((name) => `'${name}'::regclass`).join(', ')}])`,
   );
   if (own!.count === 0) await session.query(`set local session_replication_role = replica`);
 }

@@ -259,6 +259,47 @@ describe('Roster imports API', () => {
     expect(audit.map((entry) => [entry.before.grade, entry.after.grade])).toEqual([[6, 7]]);
   });
 
+  it('should keep each student’s summary row in step through imports that add, move and withdraw', async () => {
+    const summary = async (number: string) => {
+      const [row] = await query<{ code: string; grade: number; active: boolean; stale: boolean }>(
+        `select sc.code, a.grade, a.active, a.stale from student_attainment a join students s on s.id = a.student_id
+         join schools sc on sc.id = a.school_id where s.student_number = '${number}'`,
+      );
+      return row;
+    };
+    await previewAndCommit(
+      csvOf('IM-4301,Orla,Penhallow,,6,HPMS,Concert Band,flute,Ada Penhallow,ada@merrowbasin.example'),
+    );
+    // A new student has a summary row at once, marked for the next recount of rungs.
+    expect(await summary('IM-4301')).toEqual({ code: 'HPMS', grade: 6, active: true, stale: true });
+    await app.database.db.execute(
+      `update student_attainment set stale = false where student_id = (select id from students where student_number = 'IM-4301')` as never,
+    );
+    await previewAndCommit(
+      csvOf('IM-4301,Orla,Penhallow,,7,QHMS,Concert Band,oboe,Ada Penhallow,ada@merrowbasin.example'),
+    );
+    // The move and the new seat reach the summary: new school and grade, and a recount due.
+    expect(await summary('IM-4301')).toEqual({ code: 'QHMS', grade: 7, active: true, stale: true });
+    const quarryHill = await query<{
+      student_number: string;
+      first_name: string;
+      last_name: string;
+      grade: number;
+    }>(
+      `select s.student_number, s.first_name, s.last_name, s.grade from students s join schools sc on sc.id = s.school_id
+       where sc.code = 'QHMS' and s.status = 'active' and s.student_number <> 'IM-4301' order by s.student_number`,
+    );
+    const lines = ['student_id,first_name,last_name,grade,school_code', 'IM-4301,Orla,Penhallow,7,QHMS'];
+    for (const entry of quarryHill.slice(1))
+      lines.push(
+        `${entry.student_number},${entry.first_name},${entry.last_name},${entry.grade === 0 ? 'K' : entry.grade},QHMS`,
+      );
+    const { committed } = await previewAndCommit(Buffer.from(lines.join('\n')), { withdrawMissing: true });
+    expect(committed).toMatchObject({ withdrawn: 1, committed: true });
+    const gone = quarryHill[0]!.student_number;
+    expect(await summary(gone)).toMatchObject({ code: 'QHMS', active: false });
+  });
+
   it('should create the ensembles a school lacks, with a kind guessed from the name', async () => {
     const { previewed, committed } = await previewAndCommit(
       csvOf(
