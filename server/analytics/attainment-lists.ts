@@ -101,6 +101,9 @@ export async function listAttainment(
   return { rows: rowsOf<AttainmentRow>(rows), total: total!.total };
 }
 
+/** From how many qualifying students on, a page is found by walking the students in order. */
+const denseAuditionResult = 1_000;
+
 /**
  * `GET /api/analytics/audition-ready`: students who passed every chosen requirement at the
  * tempo asked (each requirement's own, or `minTempo`), from the fastest-pass summary.
@@ -109,6 +112,7 @@ export async function auditionReady(
   db: Database,
   actor: Actor,
   query: unknown,
+  options: { denseFrom?: number } = {},
 ): Promise<ListResponse<AuditionReadyRow>> {
   const list = parseListQuery(query, auditionReadyFiltersSchema);
   const ladder = await activeRuleLadder(db);
@@ -124,47 +128,58 @@ export async function auditionReady(
       { field: 'requirementCodes', message: `Unknown requirement ${unknown.join(', ')}.` },
     ]);
   }
-  // Rarest first: a code from a higher rung is passed by fewer students, so the scan starts
-  // small and the other codes are primary-key probes.
+  const tempoOf = (code: string) => list.minTempo ?? tempoByCode.get(code)!;
+  const passedBy = (code: string, alias: string) =>
+    sql`exists (select 1 from passed_requirements ${sql.raw(alias)} where ${sql.raw(alias)}.student_id = s.id and ${sql.raw(alias)}.requirement_code = ${code} and ${sql.raw(alias)}.best_tempo >= ${tempoOf(code)})`;
+  const scoped = sql.join([studentCondition(actor, list), searchCondition(list.q)], sql` and `);
+  // How many: the students of each requirement's fast-enough passes, intersected (one index
+  // range per requirement and a hashed set operation), then the caller's scope and search.
+  const passedAll = sql.join(
+    codes.map(
+      (code) =>
+        sql`select student_id from passed_requirements where requirement_code = ${code} and best_tempo >= ${tempoOf(code)}`,
+    ),
+    sql` intersect `,
+  );
+  const [counted] = rowsOf<{ total: number }>(
+    await db.execute(sql`select count(*)::int as total from (${passedAll}) m
+      join student_attainment a on a.student_id = m.student_id
+      ${list.q ? sql`join students s on s.id = m.student_id` : sql``}
+      where ${scoped}`),
+  );
+  const total = counted!.total;
+  if (total === 0 || list.offset >= total) return { rows: [], total };
+  // Which page: when many students qualify, walk the students in the order asked and test each
+  // (the page fills after a few hundred); when few do, start from the passes of the rarest
+  // requirement (a higher rung is passed by fewer students) and sort that small set.
   const rungOfCode = new Map(
     ladder!.rungs.flatMap((rung) =>
       rung.requirements.map((requirement) => [requirement.id, rung.number] as const),
     ),
   );
-  const [first, ...others] = [...codes].sort(
-    (one, two) => rungOfCode.get(two)! - rungOfCode.get(one)!,
-  );
-  const tempoOf = (code: string) => list.minTempo ?? tempoByCode.get(code)!;
-  const alsoPassed = others.map(
-    (code) =>
-      sql`and exists (select 1 from passed_requirements o where o.student_id = r.student_id and o.requirement_code = ${code} and o.best_tempo >= ${tempoOf(code)})`,
-  );
-  const from = sql`
-    from passed_requirements r
-    join student_attainment a on a.student_id = r.student_id
-    join students s on s.id = r.student_id
-    join schools sc on sc.id = a.school_id`;
+  const [rarest] = [...codes].sort((one, two) => rungOfCode.get(two)! - rungOfCode.get(one)!);
+  const dense = total >= (options.denseFrom ?? denseAuditionResult);
+  const from = dense
+    ? sql`from students s join student_attainment a on a.student_id = s.id join schools sc on sc.id = a.school_id`
+    : sql`from passed_requirements r join students s on s.id = r.student_id
+        join student_attainment a on a.student_id = r.student_id join schools sc on sc.id = a.school_id`;
+  const passes = codes
+    .filter((code) => dense || code !== rarest)
+    .map((code, index) => passedBy(code, `p${index}`));
   const where = sql.join(
     [
-      sql`r.requirement_code = ${first!} and r.best_tempo >= ${tempoOf(first!)} ${sql.join(alsoPassed, sql` `)}`,
-      studentCondition(actor, list),
-      searchCondition(list.q),
+      ...(dense ? [] : [sql`r.requirement_code = ${rarest!} and r.best_tempo >= ${tempoOf(rarest!)}`]),
+      ...passes,
+      scoped,
     ],
     sql` and `,
   );
-  // One pass: the rows must all be found and sorted for the page anyway, so count them there.
-  const page = rowsOf<Omit<AuditionReadyRow, 'bestTempos'> & { total: number }>(
+  const page = rowsOf<Omit<AuditionReadyRow, 'bestTempos'>>(
     await db.execute(sql`select s.id, s.student_number as "studentNumber", s.first_name as "firstName", s.last_name as "lastName",
-      s.grade::int as grade, s.school_id as "schoolId", sc.code as "schoolCode", a.rung::int as rung,
-      count(*) over ()::int as total
+      s.grade::int as grade, s.school_id as "schoolId", sc.code as "schoolCode", a.rung::int as rung
       ${from} where ${where} order by ${orderOf(list.sort)} limit ${list.limit} offset ${list.offset}`),
   );
-  const total =
-    page[0]?.total ??
-    rowsOf<{ total: number }>(
-      await db.execute(sql`select count(*)::int as total ${from} where ${where}`),
-    )[0]!.total;
-  const pageRows = page.map(({ total: _total, ...row }) => row);
+  const pageRows = page;
   const best = pageRows.length
     ? rowsOf<{ student_id: number; tempos: Record<string, number> }>(
         await db.execute(sql`select p.student_id, json_object_agg(p.requirement_code, p.best_tempo) as tempos
