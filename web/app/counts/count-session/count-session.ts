@@ -19,7 +19,7 @@ import { Subject, catchError, concatMap, map, of } from 'rxjs';
 import type { CountDetail, CountScan, ScanOutcome } from '../../../../shared/api/count';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
-import { FleetConfirmDialog } from '../../instruments/fleet-confirm-dialog/fleet-confirm-dialog';
+import { ConfirmDialog } from '../../core/confirm-dialog/confirm-dialog';
 import { dayText } from '../../instruments/instrument-labels';
 import { InventoryCounts } from '../count-data';
 import { CountReconciliation } from './count-reconciliation';
@@ -146,12 +146,12 @@ export class CountSession {
             'Anything marked missing earlier that was scanned in this count becomes available again. No more tags can be added once the count is closed.',
           ];
     this.dialog
-      .open(FleetConfirmDialog, {
+      .open(ConfirmDialog, {
         data: {
           title: 'Close this count?',
           paragraphs,
           confirm: missing === 0 ? 'Close the count' : `Close and mark ${missing} missing`,
-          weighty: missing > 0,
+          destructive: missing > 0,
         },
       })
       .afterClosed()

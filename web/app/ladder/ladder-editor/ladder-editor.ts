@@ -20,7 +20,7 @@ import { isConflict } from '../../core/grid/record-form';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { BenchmarkEditor } from '../benchmark-editor/benchmark-editor';
-import { ConfirmDialog, type ConfirmDialogData } from '../confirm-dialog/confirm-dialog';
+import { ConfirmDialog, type ConfirmDialogData } from '../../core/confirm-dialog/confirm-dialog';
 import { LadderData } from '../ladder-data';
 import { RungEditor, type RequirementEdit } from '../rung-editor/rung-editor';
 import {

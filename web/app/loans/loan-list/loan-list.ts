@@ -20,7 +20,7 @@ import { loanSortFields, type Loan } from '../../../../shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { errorMessage } from '../../core/parse';
-import { FleetConfirmDialog } from '../../instruments/fleet-confirm-dialog/fleet-confirm-dialog';
+import { ConfirmDialog } from '../../core/confirm-dialog/confirm-dialog';
 import {
   IconTextCell,
   type IconTextCellParams,
@@ -138,7 +138,7 @@ export class LoanList {
 
   protected remindAllOverdue(): void {
     this.dialog
-      .open(FleetConfirmDialog, {
+      .open(ConfirmDialog, {
         data: {
           title: 'Remind every overdue loan?',
           paragraphs: [

@@ -37,7 +37,7 @@ import { gridTheme } from '../../core/grid/grid-theme';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { EnsembleData } from '../../ensembles/ensemble-data';
-import { ConfirmDialog } from '../../ladder/confirm-dialog/confirm-dialog';
+import { ConfirmDialog } from '../../core/confirm-dialog/confirm-dialog';
 import { localToday } from '../../ladder/date-text';
 import { LadderData } from '../../ladder/ladder-data';
 import { appliesToFamily, keyText, rungTitleText } from '../../ladder/requirement-text';

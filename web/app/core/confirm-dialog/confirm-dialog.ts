@@ -7,7 +7,10 @@ export interface ConfirmDialogData {
   title: string;
   paragraphs: string[];
   confirm: string;
-  /** Whether the action cannot be undone (the button reads as a warning). */
+  /**
+   * Whether the step cannot be taken back (it deletes, marks or sends something): the confirm
+   * button then reads as a warning.
+   */
   destructive?: boolean;
 }
 
