@@ -25,12 +25,8 @@ import {
   type EnsembleKind,
 } from '../../../../shared/api/ensemble';
 import { CurrentUser } from '../../core/auth/current-user';
-import {
-  fieldMessage,
-  isConflict,
-  schemaValidator,
-  showFieldErrors,
-} from '../../core/grid/record-form';
+import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
+import { chooseOnlySchool } from '../../core/forms/only-school';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { SchoolData } from '../../schools/school-data';
@@ -97,13 +93,7 @@ export class EnsembleDetail {
       const id = this.id();
       untracked(() => (id === 'new' ? this.load.set({ kind: 'ready' }) : this.fetch(Number(id))));
     });
-    // With one school there is nothing to choose.
-    effect(() => {
-      const schools = this.schools();
-      if (this.creating() && schools.length === 1) {
-        untracked(() => this.form.controls.schoolId.setValue(schools[0]!.id));
-      }
-    });
+    chooseOnlySchool(this.schools, this.creating, this.form.controls.schoolId);
   }
 
   protected reload(): void {
@@ -133,11 +123,7 @@ export class EnsembleDetail {
       },
       error: (error: unknown) => {
         this.saving.set(false);
-        if (isConflict(error)) {
-          this.conflict.set(true);
-          return;
-        }
-        if (!showFieldErrors(this.form, error)) this.saveError.set(errorMessage(error));
+        this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });
   }

@@ -24,13 +24,8 @@ import {
   type InstrumentCondition,
 } from '../../../../shared/api/instrument';
 import { instrumentFamilies, instruments } from '../../../../shared/music/instrument-data';
-import {
-  fieldMessage,
-  isConflict,
-  schemaValidator,
-  showFieldErrors,
-} from '../../core/grid/record-form';
-import { errorMessage } from '../../core/parse';
+import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
+import { chooseOnlySchool } from '../../core/forms/only-school';
 import { FleetInstruments } from '../instrument-data';
 import { centsOf, conditionLabels, familyLabels, statusLooks } from '../instrument-labels';
 
@@ -115,12 +110,7 @@ export class InstrumentForm {
       const editable = this.editable();
       untracked(() => this.show(instrument, editable));
     });
-    effect(() => {
-      const schools = this.schools();
-      if (this.adding() && schools.length === 1) {
-        untracked(() => this.form.controls.homeSchoolId.setValue(schools[0]!.id));
-      }
-    });
+    chooseOnlySchool(this.schools, this.adding, this.form.controls.homeSchoolId);
   }
 
   private show(instrument: Instrument | null, editable: boolean): void {
@@ -178,8 +168,10 @@ export class InstrumentForm {
       },
       error: (error: unknown) => {
         this.saving.set(false);
-        if (isConflict(error) && instrument) this.conflict.set(true);
-        else if (!showFieldErrors(this.form, error)) this.saveError.set(errorMessage(error));
+        // Only an edit can be stale; a 409 while adding says why in the message.
+        this.saveError.set(
+          saveFailureMessage(this.form, error, instrument ? this.conflict : undefined),
+        );
       },
     });
   }

@@ -16,7 +16,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import { firstValueFrom, type Observable } from 'rxjs';
 import type { Ladder, LadderRequirement, LadderRung } from '../../../../shared/api/ladder';
-import { isConflict } from '../../core/grid/record-form';
+import { isConflict } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { BenchmarkEditor } from '../benchmark-editor/benchmark-editor';

@@ -26,13 +26,7 @@ import {
 import { roleLabels, roles, type Role } from '../../../../shared/api/roles';
 import type { Student } from '../../../../shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
-import {
-  fieldMessage,
-  isConflict,
-  schemaValidator,
-  showFieldErrors,
-} from '../../core/grid/record-form';
-import { errorMessage } from '../../core/parse';
+import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { SchoolData } from '../../schools/school-data';
 import { PeopleData } from '../people-data';
 
@@ -179,11 +173,7 @@ export class PersonDialog {
       next: (saved) => this.dialog.close(saved),
       error: (error: unknown) => {
         this.saving.set(false);
-        if (isConflict(error)) {
-          this.conflict.set(true);
-          return;
-        }
-        if (!showFieldErrors(this.form, error)) this.failure.set(errorMessage(error));
+        this.failure.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });
   }

@@ -15,7 +15,7 @@ import {
   type Repair,
   type RepairStatus,
 } from '../../../../shared/api/repair';
-import { isConflict } from '../../core/grid/record-form';
+import { isConflict } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { InstrumentPicker } from '../../instruments/instrument-picker/instrument-picker';
 import { centsOf } from '../../instruments/instrument-labels';

@@ -18,12 +18,7 @@ import { Router, RouterLink } from '@angular/router';
 import type { Ensemble } from '../../../../shared/api/ensemble';
 import { schoolInputSchema, schoolLevels, type School } from '../../../../shared/api/school';
 import { CurrentUser } from '../../core/auth/current-user';
-import {
-  fieldMessage,
-  isConflict,
-  schemaValidator,
-  showFieldErrors,
-} from '../../core/grid/record-form';
+import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { EnsembleData } from '../../ensembles/ensemble-data';
@@ -111,11 +106,7 @@ export class SchoolDetail {
       },
       error: (error: unknown) => {
         this.saving.set(false);
-        if (isConflict(error)) {
-          this.conflict.set(true);
-          return;
-        }
-        if (!showFieldErrors(this.form, error)) this.saveError.set(errorMessage(error));
+        this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });
   }

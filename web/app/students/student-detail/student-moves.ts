@@ -14,7 +14,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatSelectModule } from '@angular/material/select';
 import type { SchoolSummary } from '../../../../shared/api/me';
 import type { StudentDetail } from '../../../../shared/api/student';
-import { isConflict } from '../../core/grid/record-form';
+import { isConflict } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { StudentData } from './student-data';
 

@@ -25,7 +25,7 @@ import {
   isConflict,
   schemaValidator,
   showFieldErrors,
-} from '../../core/grid/record-form';
+} from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { EnsembleData } from '../../ensembles/ensemble-data';
 import { EnrollmentData } from './enrollment-data';

@@ -23,13 +23,8 @@ import {
   type StudentDetail,
   type StudentStatus,
 } from '../../../../shared/api/student';
-import {
-  fieldMessage,
-  isConflict,
-  schemaValidator,
-  showFieldErrors,
-} from '../../core/grid/record-form';
-import { errorMessage } from '../../core/parse';
+import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
+import { chooseOnlySchool } from '../../core/forms/only-school';
 import { StudentData } from '../student-detail/student-data';
 import { gradeChoices, statusLabels } from './student-choices';
 
@@ -97,12 +92,7 @@ export class StudentForm {
       const editable = this.editable();
       untracked(() => this.showRecord(student, editable));
     });
-    effect(() => {
-      const schools = this.schools();
-      if (this.adding() && schools.length === 1) {
-        untracked(() => this.form.controls.schoolId.setValue(schools[0]!.id));
-      }
-    });
+    chooseOnlySchool(this.schools, this.adding, this.form.controls.schoolId);
   }
 
   private showRecord(student: StudentDetail | null, editable: boolean): void {
@@ -150,8 +140,7 @@ export class StudentForm {
       },
       error: (error: unknown) => {
         this.saving.set(false);
-        if (isConflict(error)) this.conflict.set(true);
-        else if (!showFieldErrors(this.form, error)) this.saveError.set(errorMessage(error));
+        this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });
   }

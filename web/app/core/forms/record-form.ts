@@ -1,6 +1,8 @@
 import { HttpErrorResponse } from '@angular/common/http';
 import type { AbstractControl, FormGroup, ValidationErrors, ValidatorFn } from '@angular/forms';
+import type { WritableSignal } from '@angular/core';
 import type { z } from 'zod';
+import { errorMessage } from '../parse';
 
 /**
  * A form control validator from one field of a shared zod schema, so a form shows the same
@@ -48,4 +50,21 @@ export function showFieldErrors(form: FormGroup, error: unknown): boolean {
     shown = true;
   }
   return shown;
+}
+
+/**
+ * Shows why the API refused to save a record form: a 409 turns `conflict` on (when given), a
+ * 400's field errors go under their fields. Answers the message for anything else, or '' when
+ * the failure is already shown.
+ */
+export function saveFailureMessage(
+  form: FormGroup,
+  error: unknown,
+  conflict?: WritableSignal<boolean>,
+): string {
+  if (conflict && isConflict(error)) {
+    conflict.set(true);
+    return '';
+  }
+  return showFieldErrors(form, error) ? '' : errorMessage(error);
 }
