@@ -56,7 +56,9 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   const services: Services = { config, db, database: options.database, logger };
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', config.trustProxy);
+  // One hop: the district's TLS-terminating proxy. Trusting every X-Forwarded-For hop would let
+  // a client pick its own address and step around the rate limits.
+  app.set('trust proxy', config.trustProxy ? 1 : false);
   app.locals['services'] = services;
 
   const issuerOrigin = new URL(config.oidcIssuer).origin;

@@ -48,6 +48,12 @@ export async function openDatabase(
   const logger = options.logQuery ? { logQuery: options.logQuery } : undefined;
   if (location.kind === 'postgres') {
     const pool = new pg.Pool({ connectionString: location.url, max: 10 });
+    // An idle pooled connection the server closes (a restart, a failover, an administrator)
+    // errors on the pool; node-postgres drops that client and the next query opens another.
+    // Unheard, the error would end the process.
+    pool.on('error', (error) => {
+      process.stderr.write(`A pooled PostgreSQL connection closed: ${error.message}\n`);
+    });
     const db = drizzleNodePostgres({ client: pool, schema, logger }) as unknown as Database;
     return { db, kind: 'postgres', pool, close: () => pool.end() };
   }

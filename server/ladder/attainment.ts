@@ -28,14 +28,14 @@ async function standings(
 ): Promise<StandingRow[]> {
   const only = (column: SQL) =>
     studentIds ? sql`where ${column} = any(${intArray(studentIds)}::int[])` : sql``;
-  const [ladder, passes, everyone, instruments] = await Promise.all([
-    activeRuleLadder(db),
-    db.execute(sql`
+  // One after another: inside a transaction these share one connection, which runs one
+  // query at a time (node-postgres deprecates overlapping queries on a client).
+  const ladder = await activeRuleLadder(db);
+  const passes = await db.execute(sql`
       select r.student_id, string_agg(r.requirement_code || ':' || r.best_tempo, ',') as passes
-      from passed_requirements r ${only(sql`r.student_id`)} group by r.student_id`),
-    studentIds ? Promise.resolve(null) : db.execute(sql`select id from students`),
-    studentInstruments(db, studentIds ?? undefined),
-  ]);
+      from passed_requirements r ${only(sql`r.student_id`)} group by r.student_id`);
+  const everyone = studentIds ? null : await db.execute(sql`select id from students`);
+  const instruments = await studentInstruments(db, studentIds ?? undefined);
   const passesByStudent = new Map(
     rowsOf<{ student_id: number; passes: string }>(passes).map((row) => [
       row.student_id,
