@@ -102,7 +102,14 @@ export function closeOnSignals(close: () => Promise<void>, logger: Logger) {
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
   const config = loadConfig();
   const logger = createLogger(config.logLevel);
-  const server = await startServer(config, { logger });
-  logger.info({ url: server.url }, 'Tuttiboard is listening');
-  closeOnSignals(server.close, logger);
+  try {
+    const server = await startServer(config, { logger });
+    logger.info({ url: server.url }, 'Tuttiboard is listening');
+    closeOnSignals(server.close, logger);
+  } catch (error) {
+    process.stderr.write(
+      `Tuttiboard could not start: ${error instanceof Error ? error.message : String(error)}\n`,
+    );
+    process.exit(1);
+  }
 }

@@ -80,7 +80,13 @@ export function acquireLock(
         }
       };
     } catch (error) {
-      if ((error as NodeJS.ErrnoException).code !== 'EEXIST') throw error;
+      const code = (error as NodeJS.ErrnoException).code;
+      if (code === 'EROFS' || code === 'EACCES' || code === 'EPERM') {
+        throw new Error(
+          `The data folder ${dataDir} cannot be written (${code}): the database lives there and needs to write. Nothing was changed. Make the folder writable, or point TUTTI_DATA_DIR at one that is.`,
+        );
+      }
+      if (code !== 'EEXIST') throw error;
       const existing = readLock(dataDir);
       if (existing) throw new DataFolderLockedError(existing, dataDir);
       fs.rmSync(file, { force: true });

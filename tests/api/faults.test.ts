@@ -1,5 +1,5 @@
 import { execFileSync } from 'node:child_process';
-import { randomUUID } from 'node:crypto';
+import { createHash, randomUUID } from 'node:crypto';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -143,6 +143,47 @@ describe('When the disk is full', () => {
       created: 200,
       repeated: 0,
     });
+    await stop(server);
+  }, 240_000);
+});
+
+/** Every file below a folder with its size and content hash, to show nothing was written. */
+function folderState(folder: string): Record<string, string> {
+  const state: Record<string, string> = {};
+  for (const entry of fs.readdirSync(folder, { recursive: true, withFileTypes: true })) {
+    if (!entry.isFile()) continue;
+    const file = path.join(entry.parentPath, entry.name);
+    const bytes = fs.readFileSync(file);
+    state[path.relative(folder, file)] =
+      `${bytes.length} ${createHash('sha256').update(bytes).digest('hex')}`;
+  }
+  return state;
+}
+
+describe('When the data folder is read-only', () => {
+  it('should refuse to start with a clear message and leave the folder as it was', async () => {
+    const mount = path.join(root, 'read-only-disk');
+    fs.mkdirSync(mount);
+    execFileSync('mount', ['-t', 'tmpfs', '-o', 'size=512m', 'tmpfs', mount]);
+    mounts.push(mount);
+    const dataDir = path.join(mount, 'data');
+    fs.cpSync(seeded, dataDir, { recursive: true });
+    execFileSync('mount', ['-o', 'remount,ro', mount]);
+    const before = folderState(dataDir);
+    const failed = await start(dataDir).then(
+      () => 'started',
+      (error: unknown) => String(error),
+    );
+    expect(failed).toContain('The server exited with 1');
+    expect(failed).toContain(
+      `Tuttiboard could not start: The data folder ${dataDir} cannot be written (EROFS)`,
+    );
+    expect(folderState(dataDir)).toEqual(before);
+    // Made writable again, the same folder opens with every row.
+    execFileSync('mount', ['-o', 'remount,rw', mount]);
+    const server = await start(dataDir);
+    const headers = await directorHeaders(server);
+    expect((await call(server, headers, '/api/students?limit=1')).status).toBe(200);
     await stop(server);
   }, 240_000);
 });

@@ -3,7 +3,6 @@ import { toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
@@ -15,6 +14,7 @@ import {
   type Ensemble,
 } from '../../../../shared/api/ensemble';
 import { CurrentUser } from '../../core/auth/current-user';
+import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { SchoolData } from '../../schools/school-data';
 
@@ -23,10 +23,10 @@ import { SchoolData } from '../../schools/school-data';
   selector: 'tb-ensemble-list',
   imports: [
     ServerGrid,
+    GridSearch,
     MatButtonModule,
     MatFormFieldModule,
     MatIconModule,
-    MatInputModule,
     MatSelectModule,
     RouterLink,
   ],

@@ -11,7 +11,6 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { MatMenuModule } from '@angular/material/menu';
 import { MatSelectModule } from '@angular/material/select';
 import { Router } from '@angular/router';
@@ -27,6 +26,7 @@ import {
 } from '../../../../shared/api/instrument';
 import { instrumentFamilies } from '../../../../shared/music/instrument-data';
 import { CurrentUser } from '../../core/auth/current-user';
+import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { SchoolData } from '../../schools/school-data';
 import { FleetInstruments } from '../instrument-data';
@@ -49,11 +49,11 @@ import type { InstrumentViewFilters } from '../instrument-views';
   selector: 'tb-instrument-list',
   imports: [
     ServerGrid,
+    GridSearch,
     InstrumentViewBar,
     MatButtonModule,
     MatFormFieldModule,
     MatIconModule,
-    MatInputModule,
     MatMenuModule,
     MatSelectModule,
   ],

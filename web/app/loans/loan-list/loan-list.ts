@@ -10,14 +10,13 @@ import {
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { MatTabsModule } from '@angular/material/tabs';
 import { Router } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import { loanSortFields, type Loan } from '../../../../shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
+import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { errorMessage } from '../../core/parse';
 import { ConfirmDialog } from '../../core/confirm-dialog/confirm-dialog';
@@ -34,15 +33,7 @@ import { loanTabs, type LoanTab } from './loan-tabs';
 /** The loans of the user's schools, by tab, with check-out, returns and reminders. */
 @Component({
   selector: 'tb-loan-list',
-  imports: [
-    ServerGrid,
-    LoanPanel,
-    MatButtonModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatInputModule,
-    MatTabsModule,
-  ],
+  imports: [ServerGrid, GridSearch, LoanPanel, MatButtonModule, MatIconModule, MatTabsModule],
   templateUrl: './loan-list.html',
   styleUrl: './loan-list.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -1,26 +1,18 @@
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import type { School } from '../../../../shared/api/school';
 import { CurrentUser } from '../../core/auth/current-user';
+import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { schoolLevelLabels, schoolSortFields } from '../school-labels';
 
 /** Every school the user may see, in a server-paged grid. */
 @Component({
   selector: 'tb-school-list',
-  imports: [
-    ServerGrid,
-    MatButtonModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatInputModule,
-    RouterLink,
-  ],
+  imports: [ServerGrid, GridSearch, MatButtonModule, MatIconModule, RouterLink],
   template: `
     <div class="tb-page">
       <header class="tb-page-header">
@@ -45,17 +37,12 @@ import { schoolLevelLabels, schoolSortFields } from '../school-labels';
         (rowOpened)="open($event)"
       >
         <div tbGridFilters class="filters">
-          <mat-form-field appearance="outline" subscriptSizing="dynamic" class="search">
-            <mat-label>Search schools</mat-label>
-            <mat-icon matPrefix svgIcon="search" />
-            <input
-              matInput
-              type="search"
-              [value]="search()"
-              (input)="search.set($any($event.target).value)"
-              placeholder="Name or code"
-            />
-          </mat-form-field>
+          <tb-grid-search
+            class="search"
+            label="Search schools"
+            placeholder="Name or code"
+            [(value)]="search"
+          />
         </div>
       </tb-server-grid>
     </div>

@@ -11,7 +11,6 @@ import { toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
@@ -23,6 +22,7 @@ import {
   type StudentStatus,
 } from '../../../../shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
+import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { SchoolData } from '../../schools/school-data';
 import { gradeChoices, statusLabels } from '../student-form/student-choices';
@@ -32,10 +32,10 @@ import { gradeChoices, statusLabels } from '../student-form/student-choices';
   selector: 'tb-student-list',
   imports: [
     ServerGrid,
+    GridSearch,
     MatButtonModule,
     MatFormFieldModule,
     MatIconModule,
-    MatInputModule,
     MatSelectModule,
     RouterLink,
   ],
