@@ -82,13 +82,15 @@ export async function seedDemoRoster(
       const strings = random.chance(0.32);
       const instrument = strings ? random.weighted(stringInstruments) : random.weighted(bandInstruments);
       const guardian = `${random.pick(guardianFirstNames)} ${lastName}`;
+      // Drawn in this order so the demo stays the same district it has always been.
+      const preferredName = random.chance(0.06) ? random.pick(firstNames) : null;
       // A few students have dropped this year: they keep their old seats, inactive.
       const status = random.chance(0.02) ? 'withdrawn' : 'active';
       studentRows.push({
         studentNumber: String((studentNumber += 1)),
         firstName,
         lastName: school.code === 'HPMS' && index === 0 ? 'Arkwright-Lund' : lastName,
-        preferredName: random.chance(0.06) ? random.pick(firstNames) : null,
+        preferredName,
         grade,
         schoolId,
         status,
