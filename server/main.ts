@@ -18,7 +18,10 @@ export interface RunningServer {
 /** Opens (and locks) the database for a server: PGlite in the data folder, or DATABASE_URL. */
 export async function openServerDatabase(config: Config, purpose: string, localKey?: string) {
   if (config.databaseUrl) {
-    return { database: await openDatabase({ kind: 'postgres', url: config.databaseUrl }), release: () => {} };
+    return {
+      database: await openDatabase({ kind: 'postgres', url: config.databaseUrl }),
+      release: () => {},
+    };
   }
   const release = acquireLock(config.dataDir, purpose, config.appUrl, localKey);
   try {
@@ -35,7 +38,11 @@ export async function openServerDatabase(config: Config, purpose: string, localK
  */
 export async function startServer(
   config: Config,
-  options: { logger?: Logger; host?: string; prepare?: (database: DatabaseHandle) => Promise<void> } = {},
+  options: {
+    logger?: Logger;
+    host?: string;
+    prepare?: (database: DatabaseHandle) => Promise<void>;
+  } = {},
 ): Promise<RunningServer> {
   const logger = options.logger ?? createLogger(config.logLevel);
   const localKey = config.databaseUrl ? undefined : randomBytes(24).toString('base64url');

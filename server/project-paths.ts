@@ -10,9 +10,13 @@ import { fileURLToPath } from 'node:url';
 function findProjectRoot(start: string): string {
   for (let folder = start; ; folder = path.dirname(folder)) {
     const manifest = path.join(folder, 'package.json');
-    if (fs.existsSync(manifest) && JSON.parse(fs.readFileSync(manifest, 'utf8')).name === 'tuttiboard')
+    if (
+      fs.existsSync(manifest) &&
+      JSON.parse(fs.readFileSync(manifest, 'utf8')).name === 'tuttiboard'
+    )
       return folder;
-    if (path.dirname(folder) === folder) throw new Error(`No Tuttiboard package.json above ${start}`);
+    if (path.dirname(folder) === folder)
+      throw new Error(`No Tuttiboard package.json above ${start}`);
   }
 }
 

@@ -168,7 +168,9 @@ export async function auditionReady(
     .map((code, index) => passedBy(code, `p${index}`));
   const where = sql.join(
     [
-      ...(dense ? [] : [sql`r.requirement_code = ${rarest!} and r.best_tempo >= ${tempoOf(rarest!)}`]),
+      ...(dense
+        ? []
+        : [sql`r.requirement_code = ${rarest!} and r.best_tempo >= ${tempoOf(rarest!)}`]),
       ...passes,
       scoped,
     ],

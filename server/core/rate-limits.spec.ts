@@ -22,7 +22,9 @@ describe('failedTokenLimit', () => {
   it('should never refuse good requests, however many are in flight together', async () => {
     const app = slowApp(3);
     const answers = await Promise.all(
-      Array.from({ length: 20 }, () => request(app).get('/thing').set('Authorization', 'Bearer good')),
+      Array.from({ length: 20 }, () =>
+        request(app).get('/thing').set('Authorization', 'Bearer good'),
+      ),
     );
     expect(answers.map((answer) => answer.status)).toEqual(answers.map(() => 200));
   });
@@ -30,7 +32,9 @@ describe('failedTokenLimit', () => {
   it('should refuse an address after its failures reach the limit, good token or not', async () => {
     const app = slowApp(3);
     const bad = () => request(app).get('/thing').set('Authorization', 'Bearer guess');
-    expect([(await bad()).status, (await bad()).status, (await bad()).status]).toEqual([401, 401, 401]);
+    expect([(await bad()).status, (await bad()).status, (await bad()).status]).toEqual([
+      401, 401, 401,
+    ]);
     const refused = await bad();
     expect(refused.status).toBe(429);
     expect(Number(refused.headers['retry-after'])).toBeGreaterThan(0);

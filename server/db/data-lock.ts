@@ -64,7 +64,13 @@ export function acquireLock(
 ): () => void {
   fs.mkdirSync(dataDir, { recursive: true });
   const file = path.join(dataDir, lockFileName);
-  const holder: LockHolder = { pid: process.pid, purpose, url, since: new Date().toISOString(), localKey };
+  const holder: LockHolder = {
+    pid: process.pid,
+    purpose,
+    url,
+    since: new Date().toISOString(),
+    localKey,
+  };
   for (let attempt = 0; attempt < 2; attempt += 1) {
     try {
       fs.writeFileSync(file, JSON.stringify(holder), { flag: 'wx', mode: 0o600 });

@@ -268,7 +268,9 @@ describe('Roster imports API', () => {
       return row;
     };
     await previewAndCommit(
-      csvOf('IM-4301,Orla,Penhallow,,6,HPMS,Concert Band,flute,Ada Penhallow,ada@merrowbasin.example'),
+      csvOf(
+        'IM-4301,Orla,Penhallow,,6,HPMS,Concert Band,flute,Ada Penhallow,ada@merrowbasin.example',
+      ),
     );
     // A new student has a summary row at once, marked for the next recount of rungs.
     expect(await summary('IM-4301')).toEqual({ code: 'HPMS', grade: 6, active: true, stale: true });
@@ -276,7 +278,9 @@ describe('Roster imports API', () => {
       `update student_attainment set stale = false where student_id = (select id from students where student_number = 'IM-4301')` as never,
     );
     await previewAndCommit(
-      csvOf('IM-4301,Orla,Penhallow,,7,QHMS,Concert Band,oboe,Ada Penhallow,ada@merrowbasin.example'),
+      csvOf(
+        'IM-4301,Orla,Penhallow,,7,QHMS,Concert Band,oboe,Ada Penhallow,ada@merrowbasin.example',
+      ),
     );
     // The move and the new seat reach the summary: new school and grade, and a recount due.
     expect(await summary('IM-4301')).toEqual({ code: 'QHMS', grade: 7, active: true, stale: true });
@@ -289,12 +293,17 @@ describe('Roster imports API', () => {
       `select s.student_number, s.first_name, s.last_name, s.grade from students s join schools sc on sc.id = s.school_id
        where sc.code = 'QHMS' and s.status = 'active' and s.student_number <> 'IM-4301' order by s.student_number`,
     );
-    const lines = ['student_id,first_name,last_name,grade,school_code', 'IM-4301,Orla,Penhallow,7,QHMS'];
+    const lines = [
+      'student_id,first_name,last_name,grade,school_code',
+      'IM-4301,Orla,Penhallow,7,QHMS',
+    ];
     for (const entry of quarryHill.slice(1))
       lines.push(
         `${entry.student_number},${entry.first_name},${entry.last_name},${entry.grade === 0 ? 'K' : entry.grade},QHMS`,
       );
-    const { committed } = await previewAndCommit(Buffer.from(lines.join('\n')), { withdrawMissing: true });
+    const { committed } = await previewAndCommit(Buffer.from(lines.join('\n')), {
+      withdrawMissing: true,
+    });
     expect(committed).toMatchObject({ withdrawn: 1, committed: true });
     const gone = quarryHill[0]!.student_number;
     expect(await summary(gone)).toMatchObject({ code: 'QHMS', active: false });

@@ -3,7 +3,12 @@ import { SeededRandom } from '../../server/seed/random';
 import { firstNames, lastNames } from '../../server/seed/demo-people';
 
 /** Loads N invented students spread over the given schools with COPY (fast, for benchmarks). */
-export async function loadBenchStudents(pglite: PGlite, schoolIds: number[], count: number, startNumber = 900_000): Promise<void> {
+export async function loadBenchStudents(
+  pglite: PGlite,
+  schoolIds: number[],
+  count: number,
+  startNumber = 900_000,
+): Promise<void> {
   const random = new SeededRandom(count);
   const lines: string[] = [];
   for (let index = 0; index < count; index += 1) {

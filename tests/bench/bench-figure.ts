@@ -11,8 +11,21 @@ export interface BenchFigure {
 }
 
 /** A figure from two timings. */
-export function figure(name: string, productMs: number, limitMs: number, note?: string, unit = 'ms'): BenchFigure {
-  return { name, product_ms: round(productMs), limit_ms: round(limitMs), ratio: round(productMs / Math.max(limitMs, 0.001)), unit, note };
+export function figure(
+  name: string,
+  productMs: number,
+  limitMs: number,
+  note?: string,
+  unit = 'ms',
+): BenchFigure {
+  return {
+    name,
+    product_ms: round(productMs),
+    limit_ms: round(limitMs),
+    ratio: round(productMs / Math.max(limitMs, 0.001)),
+    unit,
+    note,
+  };
 }
 
 export function round(value: number): number {
@@ -35,7 +48,11 @@ export async function time(work: () => Promise<unknown>): Promise<number> {
 }
 
 /** Times an async function several times (after warm-ups) and answers every timing. */
-export async function timings(work: () => Promise<unknown>, runs: number, warmups = 2): Promise<number[]> {
+export async function timings(
+  work: () => Promise<unknown>,
+  runs: number,
+  warmups = 2,
+): Promise<number[]> {
   for (let index = 0; index < warmups; index += 1) await work();
   const results: number[] = [];
   for (let index = 0; index < runs; index += 1) results.push(await time(work));
@@ -46,9 +63,24 @@ export async function timings(work: () => Promise<unknown>, runs: number, warmup
 export function printFigures(title: string, figures: BenchFigure[]): void {
   process.stdout.write(`\n${title}\n`);
   const header = ['figure', 'product', 'limit', 'ratio', 'note'];
-  const rows = figures.map((f) => [f.name, `${f.product_ms.toFixed(2)} ${f.unit ?? 'ms'}`, `${f.limit_ms.toFixed(2)} ${f.unit ?? 'ms'}`, `${f.ratio.toFixed(2)}×`, f.note ?? '']);
-  const widths = header.map((cell, column) => Math.max(cell.length, ...rows.map((row) => row[column]!.length)));
-  const line = (cells: string[]) => cells.map((cell, column) => (column === 0 || column === 4 ? cell.padEnd(widths[column]!) : cell.padStart(widths[column]!))).join('  ');
+  const rows = figures.map((f) => [
+    f.name,
+    `${f.product_ms.toFixed(2)} ${f.unit ?? 'ms'}`,
+    `${f.limit_ms.toFixed(2)} ${f.unit ?? 'ms'}`,
+    `${f.ratio.toFixed(2)}×`,
+    f.note ?? '',
+  ]);
+  const widths = header.map((cell, column) =>
+    Math.max(cell.length, ...rows.map((row) => row[column]!.length)),
+  );
+  const line = (cells: string[]) =>
+    cells
+      .map((cell, column) =>
+        column === 0 || column === 4
+          ? cell.padEnd(widths[column]!)
+          : cell.padStart(widths[column]!),
+      )
+      .join('  ');
   process.stdout.write(`${line(header)}\n${widths.map((width) => '-'.repeat(width)).join('  ')}\n`);
   for (const row of rows) process.stdout.write(`${line(row)}\n`);
 }

@@ -8,7 +8,8 @@ import { figure, type BenchFigure } from './bench-figure';
 export function initialFiles(browserFolder: string): string[] {
   const html = fs.readFileSync(path.join(browserFolder, 'index.html'), 'utf8');
   const names = new Set<string>();
-  for (const match of html.matchAll(/<(?:script|link)\b[^>]*?(?:src|href)="([^"]+\.(?:js|css))"/g)) names.add(match[1]!);
+  for (const match of html.matchAll(/<(?:script|link)\b[^>]*?(?:src|href)="([^"]+\.(?:js|css))"/g))
+    names.add(match[1]!);
   return [...names].map((name) => path.join(browserFolder, name));
 }
 
@@ -26,7 +27,8 @@ export function sizes(files: string[]): { raw: number; gzip: number } {
 
 function build(project: string) {
   const result = spawnSync('npx', ['ng', 'build', project], { encoding: 'utf8' });
-  if (result.status !== 0) throw new Error(`ng build ${project} failed:\n${result.stdout}\n${result.stderr}`);
+  if (result.status !== 0)
+    throw new Error(`ng build ${project} failed:\n${result.stdout}\n${result.stderr}`);
 }
 
 /**
@@ -40,7 +42,13 @@ export function benchBundle(options: { rebuild: boolean }): BenchFigure[] {
   const baseline = sizes(initialFiles('dist/bench-baseline/browser'));
   const kB = (bytes: number) => bytes / 1000;
   return [
-    figure('initial JS+CSS, raw', kB(app.raw), kB(baseline.raw), `target < 350 kB: ${app.raw < 350_000 ? 'met' : 'NOT met'}`, 'kB'),
+    figure(
+      'initial JS+CSS, raw',
+      kB(app.raw),
+      kB(baseline.raw),
+      `target < 350 kB: ${app.raw < 350_000 ? 'met' : 'NOT met'}`,
+      'kB',
+    ),
     figure('initial JS+CSS, gzip', kB(app.gzip), kB(baseline.gzip), 'transfer size', 'kB'),
   ];
 }

@@ -5,7 +5,12 @@ import { benchDistrict, gridPages, serveForBench } from './grid-pages';
 import { figure, percentile, type BenchFigure } from './bench-figure';
 
 /** `clients` loops of grid page requests until `done()`; answers every latency. */
-async function clientsUntil(clients: number, get: (path: string) => Promise<unknown>, paths: string[], done: () => boolean): Promise<number[]> {
+async function clientsUntil(
+  clients: number,
+  get: (path: string) => Promise<unknown>,
+  paths: string[],
+  done: () => boolean,
+): Promise<number[]> {
   const latencies: number[] = [];
   await Promise.all(
     Array.from({ length: clients }, async (_, client) => {
@@ -24,7 +29,10 @@ async function clientsUntil(clients: number, get: (path: string) => Promise<unkn
  * without an import. PGlite runs one query at a time, so long statements stall every page.
  * Target: p95 ratio under 3.
  */
-export async function benchConcurrency(options: { students: number; rows: number }): Promise<BenchFigure[]> {
+export async function benchConcurrency(options: {
+  students: number;
+  rows: number;
+}): Promise<BenchFigure[]> {
   const district = await benchDistrict(options.students);
   const server = await serveForBench(district.database);
   try {
@@ -38,11 +46,21 @@ export async function benchConcurrency(options: { students: number; rows: number
     const started = performance.now();
     const [busy] = await Promise.all([
       clientsUntil(20, server.get, paths, () => !importing),
-      importRoster(district.database, { upload: { fileName: 'bench.csv', bytes }, withdrawMissing: false, skipInvalid: false }, null, { fileName: 'bench.csv', via: 'cli' }).finally(() => (importing = false)),
+      importRoster(
+        district.database,
+        { upload: { fileName: 'bench.csv', bytes }, withdrawMissing: false, skipInvalid: false },
+        null,
+        { fileName: 'bench.csv', via: 'cli' },
+      ).finally(() => (importing = false)),
     ]);
     const importMs = performance.now() - started;
     return [
-      figure(`grid p95 with 20 clients during a ${options.rows.toLocaleString('en-US')}-row import (${Math.round(importMs)} ms)`, percentile(busy, 95), percentile(quiet, 95), `target ratio < 3: ${percentile(busy, 95) / percentile(quiet, 95) < 3 ? 'met' : 'NOT met'}; ${busy.length} pages during, ${quiet.length} in 3 s without`),
+      figure(
+        `grid p95 with 20 clients during a ${options.rows.toLocaleString('en-US')}-row import (${Math.round(importMs)} ms)`,
+        percentile(busy, 95),
+        percentile(quiet, 95),
+        `target ratio < 3: ${percentile(busy, 95) / percentile(quiet, 95) < 3 ? 'met' : 'NOT met'}; ${busy.length} pages during, ${quiet.length} in 3 s without`,
+      ),
     ];
   } finally {
     await server.close();

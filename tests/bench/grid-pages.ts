@@ -21,9 +21,12 @@ export async function benchDistrict(students: number) {
   );
   await migrateDatabase(database);
   await seedDemo(database.db);
-  const schoolIds = (await database.db.select({ id: schools.id }).from(schools)).map((row) => row.id);
+  const schoolIds = (await database.db.select({ id: schools.id }).from(schools)).map(
+    (row) => row.id,
+  );
   const demoStudents = 1_670;
-  if (students > demoStudents) await loadBenchStudents(database.pglite!, schoolIds, students - demoStudents);
+  if (students > demoStudents)
+    await loadBenchStudents(database.pglite!, schoolIds, students - demoStudents);
   const capture = async (work: () => Promise<unknown>) => {
     captured.length = 0;
     capturing = true;
@@ -36,29 +39,60 @@ export async function benchDistrict(students: number) {
 
 /** Serves the app for a database on a loopback port; answers its URL and a coordinator token. */
 export async function serveForBench(database: DatabaseHandle) {
-  const config = loadConfig({ LOG_LEVEL: 'silent', TUTTI_DATA_DIR: '/tmp/tutti-bench-unused', OIDC_ISSUER: 'http://127.0.0.1:9' });
-  const app = await createApp(config, { database, logger: createLogger('silent'), serveWeb: false });
+  const config = loadConfig({
+    LOG_LEVEL: 'silent',
+    TUTTI_DATA_DIR: '/tmp/tutti-bench-unused',
+    OIDC_ISSUER: 'http://127.0.0.1:9',
+  });
+  const app = await createApp(config, {
+    database,
+    logger: createLogger('silent'),
+    serveWeb: false,
+  });
   const server = createHttpServer(app);
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const [coordinator] = await database.db.select().from(users).where(eq(users.role, 'coordinator'));
   const { token } = await issueToken(database.db, coordinator!.id, 'bench');
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   const get = async (path: string) => {
-    const response = await fetch(`${url}${path}`, { headers: { authorization: `Bearer ${token}` } });
-    if (!response.ok) throw new Error(`${path} answered ${response.status}: ${await response.text()}`);
+    const response = await fetch(`${url}${path}`, {
+      headers: { authorization: `Bearer ${token}` },
+    });
+    if (!response.ok)
+      throw new Error(`${path} answered ${response.status}: ${await response.text()}`);
     return response.json();
   };
-  return { url, token, get, close: () => new Promise<void>((resolve) => server.close(() => resolve())) };
+  return {
+    url,
+    token,
+    get,
+    close: () => new Promise<void>((resolve) => server.close(() => resolve())),
+  };
 }
 
 /** The grid pages a director or coordinator opens most. */
-export function gridPages(schoolId: number, total: number): { name: string; path: string; indexedSort: boolean }[] {
+export function gridPages(
+  schoolId: number,
+  total: number,
+): { name: string; path: string; indexedSort: boolean }[] {
   return [
     { name: 'students: default order', path: '/api/students?limit=100', indexedSort: true },
-    { name: 'students: sort by grade', path: '/api/students?sort=grade:desc&limit=100', indexedSort: true },
-    { name: 'students: filter by school', path: `/api/students?schoolId=${schoolId}&limit=100`, indexedSort: true },
+    {
+      name: 'students: sort by grade',
+      path: '/api/students?sort=grade:desc&limit=100',
+      indexedSort: true,
+    },
+    {
+      name: 'students: filter by school',
+      path: `/api/students?schoolId=${schoolId}&limit=100`,
+      indexedSort: true,
+    },
     { name: 'students: text search', path: '/api/students?q=okaf&limit=100', indexedSort: false },
-    { name: 'students: deep page', path: `/api/students?offset=${Math.max(0, total - 2_000)}&limit=100`, indexedSort: true },
+    {
+      name: 'students: deep page',
+      path: `/api/students?offset=${Math.max(0, total - 2_000)}&limit=100`,
+      indexedSort: true,
+    },
     { name: 'schools: list with counts', path: '/api/schools?limit=100', indexedSort: false },
   ];
 }
@@ -68,7 +102,10 @@ export function gridPages(schoolId: number, total: number): { name: string; path
  * route) run directly on the database in the same process. Target: p95 within the direct p95
  * + 10 ms, and under 25 ms for indexed sorts.
  */
-export async function benchGridPages(options: { students: number; runs?: number }): Promise<BenchFigure[]> {
+export async function benchGridPages(options: {
+  students: number;
+  runs?: number;
+}): Promise<BenchFigure[]> {
   const runs = options.runs ?? 30;
   const district = await benchDistrict(options.students);
   const server = await serveForBench(district.database);
@@ -79,18 +116,27 @@ export async function benchGridPages(options: { students: number; runs?: number 
       // A few rounds of both first, so the timings are of compiled code and planned queries.
       for (let round = 0; round < 5; round += 1) {
         await server.get(page.path);
-        for (const statement of statements) await district.database.pglite!.query(statement.query, statement.params as never[]);
+        for (const statement of statements)
+          await district.database.pglite!.query(statement.query, statement.params as never[]);
       }
       const product = percentile(await timings(() => server.get(page.path), runs), 95);
       const direct = percentile(
         await timings(async () => {
-          for (const statement of statements) await district.database.pglite!.query(statement.query, statement.params as never[]);
+          for (const statement of statements)
+            await district.database.pglite!.query(statement.query, statement.params as never[]);
         }, runs),
         95,
       );
       const target = page.indexedSort ? 'p95 ≤ direct + 10 ms and < 25 ms' : 'p95 ≤ direct + 10 ms';
       const met = product <= direct + 10 && (!page.indexedSort || product < 25);
-      figures.push(figure(`${page.name} (p95, ${options.students.toLocaleString('en-US')} students)`, product, direct, `${target}: ${met ? 'met' : 'NOT met'}`));
+      figures.push(
+        figure(
+          `${page.name} (p95, ${options.students.toLocaleString('en-US')} students)`,
+          product,
+          direct,
+          `${target}: ${met ? 'met' : 'NOT met'}`,
+        ),
+      );
     }
   } finally {
     await server.close();

@@ -14,31 +14,67 @@ import { benchBundle } from './bundle';
 const smoke = process.argv.includes('--smoke');
 const writeResults = process.argv.includes('--write-results');
 /** `--only=4,5` runs just those sections (by their number), for working on one figure. */
-const only = process.argv.find((arg) => arg.startsWith('--only='))?.slice('--only='.length).split(',');
+const only = process.argv
+  .find((arg) => arg.startsWith('--only='))
+  ?.slice('--only='.length)
+  .split(',');
 
 type Section = { title: string; run: () => Promise<BenchFigure[]> | BenchFigure[] };
 
 async function optionalModule<Module>(path: string): Promise<Module | undefined> {
-  return fs.existsSync(new URL(path, import.meta.url)) ? ((await import(path)) as Module) : undefined;
+  return fs.existsSync(new URL(path, import.meta.url))
+    ? ((await import(path)) as Module)
+    : undefined;
 }
 
 async function sections(): Promise<Section[]> {
-  const rosterImport = await optionalModule<{ benchRosterImport(options: { rows: number }): Promise<BenchFigure[]> }>('./roster-import.ts');
-  const analytics = await optionalModule<{ benchAnalytics(options: { students: number; passOffs: number }): Promise<BenchFigure[]> }>('./analytics.ts');
-  const concurrency = await optionalModule<{ benchConcurrency(options: { students: number; rows: number }): Promise<BenchFigure[]> }>('./concurrency.ts');
+  const rosterImport = await optionalModule<{
+    benchRosterImport(options: { rows: number }): Promise<BenchFigure[]>;
+  }>('./roster-import.ts');
+  const analytics = await optionalModule<{
+    benchAnalytics(options: { students: number; passOffs: number }): Promise<BenchFigure[]>;
+  }>('./analytics.ts');
+  const concurrency = await optionalModule<{
+    benchConcurrency(options: { students: number; rows: number }): Promise<BenchFigure[]>;
+  }>('./concurrency.ts');
   const list: Section[] = [];
   if (rosterImport) {
-    list.push({ title: '1. Roster import, end to end, against COPY into PGlite', run: () => rosterImport.benchRosterImport({ rows: smoke ? 500 : 20_000 }) });
+    list.push({
+      title: '1. Roster import, end to end, against COPY into PGlite',
+      run: () => rosterImport.benchRosterImport({ rows: smoke ? 500 : 20_000 }),
+    });
   }
-  list.push({ title: '2. Grid pages through HTTP, against the same SQL run directly', run: () => benchGridPages({ students: smoke ? 3_000 : 50_000, runs: smoke ? 5 : 100 }) });
+  list.push({
+    title: '2. Grid pages through HTTP, against the same SQL run directly',
+    run: () => benchGridPages({ students: smoke ? 3_000 : 50_000, runs: smoke ? 5 : 100 }),
+  });
   if (analytics) {
-    list.push({ title: '3. Overview analytics, against the same SQL run directly', run: () => analytics.benchAnalytics(smoke ? { students: 2_000, passOffs: 10_000 } : { students: 50_000, passOffs: 500_000 }) });
+    list.push({
+      title: '3. Overview analytics, against the same SQL run directly',
+      run: () =>
+        analytics.benchAnalytics(
+          smoke ? { students: 2_000, passOffs: 10_000 } : { students: 50_000, passOffs: 500_000 },
+        ),
+    });
   }
   if (concurrency) {
-    list.push({ title: '4. Grid pages during an import, against without it', run: () => concurrency.benchConcurrency(smoke ? { students: 3_000, rows: 500 } : { students: 50_000, rows: 20_000 }) });
+    list.push({
+      title: '4. Grid pages during an import, against without it',
+      run: () =>
+        concurrency.benchConcurrency(
+          smoke ? { students: 3_000, rows: 500 } : { students: 50_000, rows: 20_000 },
+        ),
+    });
   }
-  list.push({ title: '5. Start-up on an existing data folder', run: () => benchStartup({ students: smoke ? 2_000 : 50_000 }) });
-  if (!smoke) list.push({ title: '6. Initial JavaScript and CSS against an empty Material app', run: () => benchBundle({ rebuild: true }) });
+  list.push({
+    title: '5. Start-up on an existing data folder',
+    run: () => benchStartup({ students: smoke ? 2_000 : 50_000 }),
+  });
+  if (!smoke)
+    list.push({
+      title: '6. Initial JavaScript and CSS against an empty Material app',
+      run: () => benchBundle({ rebuild: true }),
+    });
   if (!smoke && rosterImport) {
     list.push({
       title: '7. Growth: import and a grid page at 5,000 / 20,000 / 50,000 students',
@@ -47,7 +83,10 @@ async function sections(): Promise<Section[]> {
         for (const size of [5_000, 20_000, 50_000]) {
           const [importFigure] = await rosterImport.benchRosterImport({ rows: size });
           const [pageFigure] = await benchGridPages({ students: size, runs: 20 });
-          figures.push({ ...importFigure!, name: `import ${size.toLocaleString('en-US')} rows` }, { ...pageFigure!, name: `default page at ${size.toLocaleString('en-US')} students` });
+          figures.push(
+            { ...importFigure!, name: `import ${size.toLocaleString('en-US')} rows` },
+            { ...pageFigure!, name: `default page at ${size.toLocaleString('en-US')} students` },
+          );
         }
         return figures;
       },
@@ -57,7 +96,9 @@ async function sections(): Promise<Section[]> {
 }
 
 const results: { title: string; figures: BenchFigure[] }[] = [];
-const chosen = (await sections()).filter((section) => !only || only.includes(section.title.split('.')[0]!));
+const chosen = (await sections()).filter(
+  (section) => !only || only.includes(section.title.split('.')[0]!),
+);
 for (const section of chosen) {
   const figures = await section.run();
   printFigures(section.title, figures);
@@ -74,11 +115,21 @@ if (writeResults && !only) {
     '',
   ];
   for (const { title, figures } of results) {
-    lines.push(`## ${title}`, '', '| figure | product | limit | ratio | note |', '| --- | ---: | ---: | ---: | --- |');
-    for (const f of figures) lines.push(`| ${f.name} | ${f.product_ms} ${f.unit ?? 'ms'} | ${f.limit_ms} ${f.unit ?? 'ms'} | ${f.ratio}× | ${f.note ?? ''} |`);
+    lines.push(
+      `## ${title}`,
+      '',
+      '| figure | product | limit | ratio | note |',
+      '| --- | ---: | ---: | ---: | --- |',
+    );
+    for (const f of figures)
+      lines.push(
+        `| ${f.name} | ${f.product_ms} ${f.unit ?? 'ms'} | ${f.limit_ms} ${f.unit ?? 'ms'} | ${f.ratio}× | ${f.note ?? ''} |`,
+      );
     lines.push('');
   }
-  const notes = fs.existsSync('tests/bench/NOTES.md') ? fs.readFileSync('tests/bench/NOTES.md', 'utf8') : '';
+  const notes = fs.existsSync('tests/bench/NOTES.md')
+    ? fs.readFileSync('tests/bench/NOTES.md', 'utf8')
+    : '';
   fs.writeFileSync('tests/bench/RESULTS.md', `${lines.join('\n')}\n${notes}`);
 }
 process.exit(0);

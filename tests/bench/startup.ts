@@ -21,10 +21,18 @@ export async function buildDataFolder(students: number): Promise<string> {
   return dataDir;
 }
 
-function timeUntil(command: string, args: string[], environment: NodeJS.ProcessEnv, ready: (output: string) => Promise<boolean> | boolean): Promise<number> {
+function timeUntil(
+  command: string,
+  args: string[],
+  environment: NodeJS.ProcessEnv,
+  ready: (output: string) => Promise<boolean> | boolean,
+): Promise<number> {
   return new Promise((resolve, reject) => {
     const start = performance.now();
-    const child = spawn(command, args, { env: { ...process.env, ...environment }, stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = spawn(command, args, {
+      env: { ...process.env, ...environment },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
     let output = '';
     let done = false;
     const check = async () => {
@@ -55,11 +63,20 @@ export async function benchStartup(options: { students: number }): Promise<Bench
   try {
     const limit = await timeUntil(
       process.execPath,
-      ['--input-type=module', '-e', `import { PGlite } from '@electric-sql/pglite'; const db = await PGlite.create(${JSON.stringify(path.join(dataDir, 'pg'))}); await db.query('select 1'); console.log('open'); await db.close();`],
+      [
+        '--input-type=module',
+        '-e',
+        `import { PGlite } from '@electric-sql/pglite'; const db = await PGlite.create(${JSON.stringify(path.join(dataDir, 'pg'))}); await db.query('select 1'); console.log('open'); await db.close();`,
+      ],
       {},
       (output) => output.includes('open'),
     );
-    const environment = { TUTTI_DATA_DIR: dataDir, PORT: '0', LOG_LEVEL: 'info', OIDC_ISSUER: 'http://127.0.0.1:9' };
+    const environment = {
+      TUTTI_DATA_DIR: dataDir,
+      PORT: '0',
+      LOG_LEVEL: 'info',
+      OIDC_ISSUER: 'http://127.0.0.1:9',
+    };
     const answersMe = async (output: string) => {
       const url = /"url":"(http:\/\/[^"]+)"/.exec(output)?.[1];
       if (!url) return false;
@@ -70,11 +87,26 @@ export async function benchStartup(options: { students: number }): Promise<Bench
     const bundle = await buildServer();
     const product = await timeUntil(process.execPath, [bundle], environment, answersMe);
     // `npm start` runs the sources through tsx, which compiles each module as it loads.
-    const fromSources = await timeUntil(process.execPath, ['--import', 'tsx', 'server/main.ts'], environment, answersMe);
+    const fromSources = await timeUntil(
+      process.execPath,
+      ['--import', 'tsx', 'server/main.ts'],
+      environment,
+      answersMe,
+    );
     const students = options.students.toLocaleString('en-US');
     return [
-      figure(`cold start to first /api/me (${students} students)`, product, limit, `target < 1,500 ms: ${product < 1500 ? 'met' : 'NOT met'}; node dist/server/main.mjs; limit = a process opening PGlite alone`),
-      figure(`  the same from the sources through tsx (npm start)`, fromSources, limit, 'for comparison: tsx compiles every module as it loads'),
+      figure(
+        `cold start to first /api/me (${students} students)`,
+        product,
+        limit,
+        `target < 1,500 ms: ${product < 1500 ? 'met' : 'NOT met'}; node dist/server/main.mjs; limit = a process opening PGlite alone`,
+      ),
+      figure(
+        `  the same from the sources through tsx (npm start)`,
+        fromSources,
+        limit,
+        'for comparison: tsx compiles every module as it loads',
+      ),
     ];
   } finally {
     fs.rmSync(dataDir, { recursive: true, force: true });

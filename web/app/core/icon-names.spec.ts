@@ -38,7 +38,9 @@ describe('icons', () => {
   });
 
   it('should name only icons the package ships', () => {
-    const missing = iconNames.filter((name) => !fs.existsSync(path.join(packageFolder, `${name}.svg`)));
+    const missing = iconNames.filter(
+      (name) => !fs.existsSync(path.join(packageFolder, `${name}.svg`)),
+    );
     expect(missing).toEqual([]);
   });
 

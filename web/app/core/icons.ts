@@ -13,7 +13,9 @@ export class Icons {
     const known = new Set<string>(iconNames);
     this.registry.addSvgIconResolver((name, namespace) =>
       // Only our own names resolve, to files the build copied from the package.
-      !namespace && known.has(name) ? this.sanitizer.bypassSecurityTrustResourceUrl(iconUrl(name)) : null,
+      !namespace && known.has(name)
+        ? this.sanitizer.bypassSecurityTrustResourceUrl(iconUrl(name))
+        : null,
     );
   }
 }

@@ -30,11 +30,16 @@ const formats = {
 export type WhenFormat = keyof typeof formats;
 
 /** A date or time stamp in one of our formats; empty for a missing or unreadable value. */
-export function formatWhen(value: string | number | Date | null | undefined, format: WhenFormat = 'date'): string {
+export function formatWhen(
+  value: string | number | Date | null | undefined,
+  format: WhenFormat = 'date',
+): string {
   if (value === null || value === undefined || value === '') return '';
   // A bare calendar date (2026-12-02) is that day, not midnight UTC shifted to the day before.
   const date =
-    typeof value === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(value) ? new Date(`${value}T12:00:00`) : new Date(value);
+    typeof value === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(value)
+      ? new Date(`${value}T12:00:00`)
+      : new Date(value);
   return Number.isNaN(date.getTime()) ? '' : formats[format].format(date);
 }
 
