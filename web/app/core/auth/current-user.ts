@@ -39,6 +39,19 @@ export class CurrentUser {
     return this.loading;
   }
 
+  /** Set once the user asks to sign out: the answers still in flight then are 401s by design. */
+  private signingOut = false;
+
+  /** Notes that the user is signing out, so no 401 sends them back to sign in. */
+  markSigningOut(): void {
+    this.signingOut = true;
+  }
+
+  /** Whether a 401 now means the session ran out, rather than the user signing out. */
+  sessionExpired(): boolean {
+    return this.state() !== null && !this.signingOut;
+  }
+
   /** Sends the browser to sign in, coming back to the given path. */
   signIn(returnTo = location.pathname + location.search): void {
     location.assign(`/auth/sign-in?returnTo=${encodeURIComponent(returnTo)}`);

@@ -25,6 +25,11 @@ export class Shell {
   private readonly main = viewChild.required<ElementRef<HTMLElement>>('main');
 
   protected readonly me = this.currentUser.me;
+
+  /** The sign-out form is a plain POST; the app only notes it so no 401 signs the user back in. */
+  protected signingOut(): void {
+    this.currentUser.markSigningOut();
+  }
   protected readonly roleLabel = computed(() => {
     const me = this.me();
     return me ? roleLabels[me.role] : '';
