@@ -30,6 +30,10 @@ describe('Reports', () => {
     const page = await context.newPage();
     await signInAs(page, app.url, demoEmail('coordinator'), '/reports');
     await page.waitForURL(`${app.url}/reports`);
+    // A select with no options yet does not open: wait for the schools (the first is chosen).
+    await expect
+      .poll(() => page.getByTestId('report-school').innerText(), patient)
+      .toMatch(/ · /);
     await page.getByTestId('report-school').click();
     await page.getByRole('option', { name: /^HPMS/ }).click();
 
