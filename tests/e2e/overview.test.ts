@@ -2,7 +2,13 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Locator, Page } from 'playwright-core';
 import { overviewSchema, type Overview } from '../../shared/api/analytics';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import {
+  chooseOption,
+  launchBrowser,
+  localOnlyContext,
+  saveScreenshot,
+  signInAs,
+} from '../support/browser';
 
 let app: TestApp;
 let browser: Browser;
@@ -169,8 +175,7 @@ describe('Overview', () => {
     await signInAs(page, app.url, demoEmail('coordinator'));
     await page.waitForURL(`${app.url}/overview`);
     await chartDrawn(page.getByTestId('chart-students-by-rung'));
-    await page.getByTestId('filter-school').click();
-    await page.getByRole('option', { name: /^HPMS/ }).click();
+    await chooseOption(page, 'filter-school', /^HPMS/);
     await page.waitForURL(/schoolId=\d+/);
     const schoolId = new URL(page.url()).searchParams.get('schoolId');
     const hpms = await overviewFor(page, `?schoolId=${schoolId}`);

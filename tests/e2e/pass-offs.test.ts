@@ -1,7 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import {
+  chooseOption,
+  launchBrowser,
+  localOnlyContext,
+  saveScreenshot,
+  signInAs,
+} from '../support/browser';
 import type { EnsembleDetail } from '../../shared/api/ensemble';
 import type { Ladder, LadderRequirement } from '../../shared/api/ladder';
 import type { PassOff } from '../../shared/api/pass-off';
@@ -87,10 +93,8 @@ function cell(page: Page, rowIndex: number, colId: string) {
 /** Opens Pass-offs and picks the ensemble and rung 1 with the selects. */
 async function openSheet(page: Page, candidate: Candidate) {
   await page.goto(`${app.url}/pass-offs`);
-  await page.getByTestId('choose-ensemble').click();
-  await page.getByRole('option', { name: new RegExp(`^${candidate.ensembleName} ·`) }).click();
-  await page.getByTestId('choose-rung').click();
-  await page.getByRole('option', { name: /^Rung 1 —/ }).click();
+  await chooseOption(page, 'choose-ensemble', new RegExp(`^${candidate.ensembleName} ·`));
+  await chooseOption(page, 'choose-rung', /^Rung 1 —/);
   await expect
     .poll(() => page.locator('[role=row][row-index="0"]').count(), patient)
     .toBeGreaterThan(0);

@@ -1,7 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import {
+  chooseOption,
+  launchBrowser,
+  localOnlyContext,
+  saveScreenshot,
+  signInAs,
+} from '../support/browser';
 
 let app: TestApp;
 let browser: Browser;
@@ -29,8 +35,7 @@ describe('People screen', () => {
     await page.getByTestId('add-person').click();
     await page.getByTestId('person-name').fill('Cosima Reedholt');
     await page.getByTestId('person-email').fill(newDirector);
-    await page.getByTestId('person-schools').click();
-    await page.getByRole('option', { name: 'Quarry Hill Middle (QHMS)' }).click();
+    await chooseOption(page, 'person-schools', 'Quarry Hill Middle (QHMS)');
     await page.keyboard.press('Escape');
     await page.getByRole('listbox').waitFor({ state: 'detached' });
     await saveScreenshot(page, 'person-add-dialog');

@@ -31,9 +31,7 @@ describe('Reports', () => {
     await signInAs(page, app.url, demoEmail('coordinator'), '/reports');
     await page.waitForURL(`${app.url}/reports`);
     // A select with no options yet does not open: wait for the schools (the first is chosen).
-    await expect
-      .poll(() => page.getByTestId('report-school').innerText(), patient)
-      .toMatch(/ · /);
+    await expect.poll(() => page.getByTestId('report-school').innerText(), patient).toMatch(/ · /);
     await page.getByTestId('report-school').click();
     await page.getByRole('option', { name: /^HPMS/ }).click();
 

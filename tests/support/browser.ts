@@ -10,7 +10,9 @@ export const screenshotFolder = path.resolve('docs/screenshots');
 /** Debian's Chromium, headless, with the flags that keep it from calling out. */
 export async function launchBrowser(): Promise<Browser> {
   if (!fs.existsSync(chromiumPath)) {
-    throw new Error(`Chromium is not installed at ${chromiumPath}. Install it with: apt-get install -y chromium`);
+    throw new Error(
+      `Chromium is not installed at ${chromiumPath}. Install it with: apt-get install -y chromium`,
+    );
   }
   return chromium.launch({
     executablePath: chromiumPath,
@@ -31,12 +33,22 @@ export async function launchBrowser(): Promise<Browser> {
  * A browser context that lets requests reach only this machine and records any that tried to
  * go elsewhere, so a test can prove nothing leaves the machine.
  */
-export async function localOnlyContext(browser: Browser): Promise<{ context: BrowserContext; outside: string[] }> {
-  const context = await browser.newContext({ viewport: { width: 1360, height: 860 }, locale: 'en-US', timezoneId: 'America/Los_Angeles' });
+export async function localOnlyContext(
+  browser: Browser,
+): Promise<{ context: BrowserContext; outside: string[] }> {
+  const context = await browser.newContext({
+    viewport: { width: 1360, height: 860 },
+    locale: 'en-US',
+    timezoneId: 'America/Los_Angeles',
+  });
   const outside: string[] = [];
   await context.route('**/*', (route) => {
     const url = new URL(route.request().url());
-    if (['127.0.0.1', 'localhost', '[::1]'].includes(url.hostname) || url.protocol === 'data:' || url.protocol === 'blob:') {
+    if (
+      ['127.0.0.1', 'localhost', '[::1]'].includes(url.hostname) ||
+      url.protocol === 'data:' ||
+      url.protocol === 'blob:'
+    ) {
       return route.continue();
     }
     outside.push(url.href);
@@ -56,4 +68,24 @@ export async function signInAs(page: Page, appUrl: string, email: string, path =
 export async function saveScreenshot(page: Page, name: string) {
   fs.mkdirSync(screenshotFolder, { recursive: true });
   await page.screenshot({ path: path.join(screenshotFolder, `${name}.png`), fullPage: false });
+}
+
+/**
+ * Opens a Material select and picks an option. A select whose options have not arrived yet
+ * does not open on a click, so this tries again until the option shows (or 30 s pass).
+ */
+export async function chooseOption(page: Page, selectTestId: string, option: string | RegExp) {
+  const wanted = page.getByRole('option', { name: option });
+  const deadline = Date.now() + 30_000;
+  for (;;) {
+    await page.getByTestId(selectTestId).click();
+    try {
+      await wanted.first().waitFor({ state: 'visible', timeout: 1_500 });
+      break;
+    } catch (error) {
+      if (Date.now() > deadline) throw error;
+      await page.keyboard.press('Escape');
+    }
+  }
+  await wanted.first().click();
 }
