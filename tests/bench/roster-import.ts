@@ -7,15 +7,7 @@ import { copyText } from '../../server/imports/sql-session';
 import { demoSchoolYear } from '../../server/seed/demo';
 import { demoSchools, firstNames, lastNames } from '../../server/seed/demo-people';
 import { SeededRandom } from '../../server/seed/random';
-
-/** One benchmark figure: the product's time against the limit measured in the same run. */
-export interface BenchFigure {
-  name: string;
-  product_ms: number;
-  limit_ms: number;
-  ratio: number;
-  note?: string;
-}
+import { figure, type BenchFigure } from './bench-figure';
 
 const ensembleNames = [
   'Concert Band',
@@ -137,22 +129,17 @@ export async function benchRosterImport(options: { rows: number }): Promise<Benc
         );
       }),
     );
-    const figure = (name: string, productMs: number, note: string): BenchFigure => ({
-      name,
-      product_ms: Math.round(productMs),
-      limit_ms: Math.round(copyMs),
-      ratio: Math.round((productMs / copyMs) * 100) / 100,
-      note,
-    });
     return [
       figure(
         `roster import, ${options.rows} rows`,
         importMs,
+        copyMs,
         `parse, validate, plan and commit; target under 1500 ms for 20,000 rows; limit: plain COPY of ${students.length} students`,
       ),
       figure(
         `roster re-import, ${options.rows} rows unchanged`,
         reimportMs,
+        copyMs,
         'the same file again: nothing is written but the history row',
       ),
     ];

@@ -35,6 +35,7 @@ import { columnStateOf, layoutOf } from './grid-layout';
 import { serverGridModules } from './grid-modules';
 import { listParameters, sortParameter, type GridFilters } from './grid-query';
 import { gridHeaderHeight, gridRowHeight, gridTheme } from './grid-theme';
+import { formatCount } from '../format/formats';
 
 const pageSchema = listResponseSchema(z.record(z.string(), z.unknown()));
 
@@ -44,7 +45,6 @@ export const gridPageSize = 100;
 const searchPause = 250;
 const emptyHeight = 340;
 const layoutSavePause = 800;
-const counting = new Intl.NumberFormat('en-US');
 
 interface ColumnChoice {
   colId: string;
@@ -120,7 +120,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
     const total = this.total();
     if (total === null) return 'Counting…';
     const plural = this.itemNamePlural() || `${this.itemName()}s`;
-    return `${counting.format(total)} ${total === 1 ? this.itemName() : plural}`;
+    return `${formatCount(total)} ${total === 1 ? this.itemName() : plural}`;
   });
   /** A short list gets a grid just tall enough for it; a long one fills the page. */
   protected readonly fittedHeight = computed(() => {
@@ -218,15 +218,13 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
           sort: sortParameter(this.sortModel()),
           columns: columns as never,
           progress: (fetched, total) =>
-            this.exportStatus.set(
-              `Exporting ${counting.format(fetched)} of ${counting.format(total)}…`,
-            ),
+            this.exportStatus.set(`Exporting ${formatCount(fetched)} of ${formatCount(total)}…`),
         },
         `${this.gridId()}-${date}.csv`,
       );
       const plural = this.itemNamePlural() || `${this.itemName()}s`;
       this.exportStatus.set(
-        `Exported ${counting.format(count)} ${count === 1 ? this.itemName() : plural}.`,
+        `Exported ${formatCount(count)} ${count === 1 ? this.itemName() : plural}.`,
       );
     } catch (error) {
       this.exportStatus.set(errorMessage(error, 'The export failed. Try again.'));
