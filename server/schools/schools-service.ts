@@ -14,7 +14,8 @@ import { updateVersioned } from '../core/versioned-update';
 const schoolFilters = z.object({ level: z.enum(schoolLevels).optional(), code: z.string().optional() });
 
 // Written out with table names: Drizzle leaves columns unqualified in a one-table select.
-const studentCount = sql<number>`(select count(*)::int from students s where s.school_id = "schools"."id" and s.status = 'active')`;
+// Active students from the per-school counts the student triggers keep (migration 0009).
+const studentCount = sql<number>`(select coalesce(sum(c.students), 0)::int from student_counts c where c.school_id = "schools"."id" and c.status = 'active')`;
 const ensembleCount = sql<number>`(select count(*)::int from ensembles e where e.school_id = "schools"."id")`;
 
 const sortable = { code: schools.code, name: schools.name, level: schools.level, studentCount, ensembleCount };

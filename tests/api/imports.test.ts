@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
+import { studentCountDrift } from '../support/student-counts';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
@@ -307,6 +308,8 @@ describe('Roster imports API', () => {
     expect(committed).toMatchObject({ withdrawn: 1, committed: true });
     const gone = quarryHill[0]!.student_number;
     expect(await summary(gone)).toMatchObject({ code: 'QHMS', active: false });
+    // The per-school counts behind list totals follow the same adds, moves and withdrawals.
+    expect(await studentCountDrift(app.database.db)).toEqual([]);
   });
 
   it('should create the ensembles a school lacks, with a kind guessed from the name', async () => {

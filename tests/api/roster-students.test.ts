@@ -1,6 +1,7 @@
 import { sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
+import { studentCountDrift } from '../support/student-counts';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 interface Row {
@@ -287,6 +288,65 @@ describe('Students list', () => {
       whole.body.rows.slice(10, 20).map((row: Row) => row.id),
     );
     expect((await coordinator.get('/api/students?limit=5000')).status).toBe(400);
+  });
+
+  it('should answer the database order on pages past the middle, which are read from the far end', async () => {
+    const [{ total }] = await query<{ total: number }>('select count(*)::int as total from students');
+    const orders: Record<string, string> = {
+      'lastName:asc': 's.last_name, s.first_name, s.id',
+      'grade:desc': 's.grade desc, s.last_name desc, s.first_name desc, s.id desc',
+      'school:asc': 'c.code, s.last_name, s.first_name, s.id',
+    };
+    for (const [sort, order] of Object.entries(orders)) {
+      // Just before the middle, across it, just past it, and the last rows (a short page).
+      for (const offset of [Math.floor(total / 2) - 40, Math.floor(total / 2) - 10, total - 70, total - 13]) {
+        const page = await coordinator.get(`/api/students?sort=${sort}&limit=25&offset=${offset}`);
+        const expected = await query<{ id: number }>(
+          `select s.id from students s join schools c on c.id = s.school_id order by ${order} limit 25 offset ${offset}`,
+        );
+        expect(page.body.total).toBe(total);
+        expect(page.body.rows.map((row: Row) => row.id)).toEqual(expected.map((row) => row.id));
+      }
+    }
+    const beyond = await coordinator.get(`/api/students?offset=${total}&limit=10`);
+    expect(beyond.body).toEqual({ rows: [], total });
+  });
+
+  it('should answer a search page in the database order, whether the matches are few or many', async () => {
+    // 'a' matches most of the demo district; 'ro' a few dozen students.
+    for (const word of ['a', 'ro']) {
+      const condition = `lower(student_number) like '${word}%' or lower(last_name) like '${word}%' or lower(first_name) like '${word}%' or lower(preferred_name) like '${word}%'`;
+      const expected = await query<{ id: number }>(
+        `select id from students where ${condition} order by last_name, first_name, id limit 40 offset 5`,
+      );
+      const [{ total }] = await query<{ total: number }>(
+        `select count(*)::int as total from students where ${condition}`,
+      );
+      const page = await coordinator.get(`/api/students?q=${word}&limit=40&offset=5`);
+      expect(page.body.total).toBe(total);
+      expect(page.body.rows.map((row: Row) => row.id)).toEqual(expected.map((row) => row.id));
+    }
+  });
+
+  it('should keep the per-school counts behind list totals exact through adds, edits and moves', async () => {
+    const drift = () => studentCountDrift(app.database.db);
+    expect(await drift()).toEqual([]);
+    const created = await coordinator.post('/api/students', newStudent({ grade: 8 }));
+    expect(created.status).toBe(201);
+    const changed = await coordinator.patch(`/api/students/${created.body.id}`, {
+      version: created.body.version,
+      grade: 9,
+      status: 'withdrawn',
+    });
+    expect(changed.status).toBe(200);
+    expect(await drift()).toEqual([]);
+    const [{ total }] = await query<{ total: number }>(
+      `select count(*)::int as total from students where school_id = ${schoolIds['HPMS']} and grade = 9 and status = 'withdrawn'`,
+    );
+    const listed = await coordinator.get(
+      `/api/students?schoolId=${schoolIds['HPMS']}&grade=9&status=withdrawn&limit=1`,
+    );
+    expect(listed.body.total).toBe(total);
   });
 });
 

@@ -8,6 +8,7 @@ import {
   timestamp,
   uniqueIndex,
   boolean,
+  primaryKey,
 } from 'drizzle-orm/pg-core';
 import { sql } from 'drizzle-orm';
 import { timestamps, version } from './columns';
@@ -50,6 +51,22 @@ export const students = pgTable(
     index('students_preferred_name_search_idx').using('btree', sql`lower(${table.preferredName}) text_pattern_ops`),
     index('students_number_search_idx').using('btree', sql`lower(${table.studentNumber}) text_pattern_ops`),
   ],
+);
+
+/**
+ * How many students each school has in each grade and status, kept exact by statement-level
+ * triggers on `students` (migration 0009), so a list's total and a school's head count read a
+ * few dozen rows instead of counting the roster.
+ */
+export const studentCounts = pgTable(
+  'student_counts',
+  {
+    schoolId: integer('school_id').notNull(),
+    grade: smallint('grade').notNull(),
+    status: text('status').notNull(),
+    students: integer('students').notNull(),
+  },
+  (table) => [primaryKey({ columns: [table.schoolId, table.grade, table.status] })],
 );
 
 /** A band, orchestra or other group that meets at one school. */
