@@ -31,7 +31,8 @@ async function createStagingTables(session: SqlSession) {
     preferred_name text, grade smallint not null, school_id integer not null,
     guardian_name text, guardian_email text) on commit drop`);
   await session.query(`create temp table import_seats (
-    student_number text not null, ensemble_id integer not null, instrument_id text) on commit drop`);
+    student_number text not null, ensemble_id integer not null, instrument_id text,
+    new_student boolean not null) on commit drop`);
   await session.query(
     `create temp table import_listed (student_number text not null) on commit drop`,
   );
@@ -109,13 +110,13 @@ async function ensureEnsembles(
   };
 }
 
-async function stage(
+/** The file's students as staged rows (the first row of each), split by whether they exist. */
+async function studentRows(
   session: SqlSession,
   plan: ImportPlan,
   schoolIdByCode: Map<string, number>,
-  ensembleId: (schoolId: number, name: string) => number,
-) {
-  const students: StagedValue[][] = firstRowOfEachStudent(plan.parsed).map((row) => [
+): Promise<{ existing: StagedValue[][]; fresh: StagedValue[][] }> {
+  const rows: StagedValue[][] = firstRowOfEachStudent(plan.parsed).map((row) => [
     row.studentId,
     row.firstName,
     row.lastName,
@@ -125,6 +126,26 @@ async function stage(
     row.guardianName ?? null,
     row.guardianEmail ?? null,
   ]);
+  // Read inside the transaction (the plan was made before it): one index probe per student.
+  const [found] = await session.query<{ numbers: string[] | null }>(
+    `select array_agg(student_number) as numbers from students where student_number = any($1::text[])`,
+    [rows.map((row) => row[0])],
+  );
+  const known = new Set(found?.numbers ?? []);
+  const existing: StagedValue[][] = [];
+  const fresh: StagedValue[][] = [];
+  for (const row of rows) (known.has(row[0] as string) ? existing : fresh).push(row);
+  return { existing, fresh };
+}
+
+async function stage(
+  session: SqlSession,
+  plan: ImportPlan,
+  students: { existing: StagedValue[][]; fresh: StagedValue[][] },
+  schoolIdByCode: Map<string, number>,
+  ensembleId: (schoolId: number, name: string) => number,
+) {
+  const fresh = new Set(students.fresh.map((row) => row[0] as string));
   const seats: StagedValue[][] = [];
   for (const { row } of plan.parsed.rows) {
     if (!row.ensemble) continue;
@@ -132,13 +153,18 @@ async function stage(
       row.studentId,
       ensembleId(schoolIdByCode.get(row.schoolCode)!, row.ensemble),
       row.instrument ?? null,
+      fresh.has(row.studentId) ? 't' : 'f',
     ]);
   }
-  await session.load('import_students', stagedStudentColumns, students);
-  await session.load('import_seats', ['student_number', 'ensemble_id', 'instrument_id'], seats);
+  await session.load('import_students', stagedStudentColumns, students.existing);
+  await session.load(
+    'import_seats',
+    ['student_number', 'ensemble_id', 'instrument_id', 'new_student'],
+    seats,
+  );
   if (plan.options.withdrawMissing) {
     const listed = new Set(plan.options.listedStudentIds ?? []);
-    for (const row of students) listed.add(row[0] as string);
+    for (const { row } of plan.parsed.rows) listed.add(row.studentId);
     await session.load(
       'import_listed',
       ['student_number'],
@@ -192,37 +218,45 @@ async function updateStudents(
   return new Set(numbers);
 }
 
-async function insertStudents(session: SqlSession) {
-  const numbers = await queryJson<string>(
-    session,
-    `with inserted as (
-       insert into students (${stagedStudentColumns.join(', ')})
-       select ${stagedStudentColumns.map((column) => `i.${column}`).join(', ')} from import_students i
-       where not exists (select 1 from students s where s.student_number = i.student_number)
-       returning student_number
-     )
-     select json_agg(student_number)::text as json from inserted`,
-  );
-  return new Set(numbers);
+/**
+ * Adds the students no row of `students` has yet, loading them straight into the table (COPY in
+ * PGlite writes rows in batches, several times faster than INSERT … SELECT from a staging table);
+ * the unique student number still refuses a student added since the existence check.
+ */
+async function insertStudents(session: SqlSession, fresh: StagedValue[][]) {
+  await session.load('students', stagedStudentColumns, fresh);
+  return new Set(fresh.map((row) => row[0] as string));
 }
 
-/** Seats each row's student in its ensemble for the year; answers the seats that changed. */
+/**
+ * Seats each row's student in its ensemble for the year; answers the seats that changed. A new
+ * student has no seats yet, so theirs are plain inserts; the rest may meet a seat already held.
+ */
 async function seatStudents(session: SqlSession, schoolYearId: number) {
   const seats = await queryJson<string>(
     session,
-    `with seated as (
+    `with seated_new as (
        insert into enrollments (student_id, ensemble_id, school_year_id, instrument_id)
        select s.id, a.ensemble_id, $1::int, a.instrument_id
        from import_seats a join students s on s.student_number = a.student_number
+       where a.new_student
+       returning student_id, ensemble_id
+     ), seated as (
+       insert into enrollments (student_id, ensemble_id, school_year_id, instrument_id)
+       select s.id, a.ensemble_id, $1::int, a.instrument_id
+       from import_seats a join students s on s.student_number = a.student_number
+       where not a.new_student
        on conflict (student_id, ensemble_id, school_year_id) do update
          set instrument_id = coalesce(excluded.instrument_id, enrollments.instrument_id), active = true,
            version = enrollments.version + 1, updated_at = now()
          where (enrollments.instrument_id, enrollments.active)
            is distinct from (coalesce(excluded.instrument_id, enrollments.instrument_id), true)
        returning student_id, ensemble_id
+     ), changed as (
+       select student_id, ensemble_id from seated_new union all select student_id, ensemble_id from seated
      )
-     select json_agg(s.student_number || ' ' || seated.ensemble_id)::text as json
-     from seated join students s on s.id = seated.student_id`,
+     select json_agg(s.student_number || ' ' || changed.ensemble_id)::text as json
+     from changed join students s on s.id = changed.student_id`,
     [schoolYearId],
   );
   return new Set(seats);
@@ -286,10 +320,10 @@ async function recordHistory(
 }
 
 /**
- * Carries out a plan in ONE transaction, set-based: the rows are staged in temporary tables
- * (COPY in PGlite, multi-row INSERTs on a server), then ensembles, students, seats and
- * withdrawals are written with a handful of INSERT … SELECT and UPDATE … FROM statements that
- * touch only rows that differ. The counts come from what the statements did, so a file imported
+ * Carries out a plan in ONE transaction, set-based: new students are loaded straight into
+ * `students`, the rest of the rows are staged in temporary tables (COPY in PGlite, multi-row
+ * INSERTs on a server), then ensembles, students, seats and withdrawals are written with a
+ * handful of INSERT … SELECT and UPDATE … FROM statements that touch only rows that differ. The counts come from what the statements did, so a file imported
  * twice reports every row unchanged the second time. A plan that cannot commit (errors without
  * skip-invalid) writes only its history row. Also writes one summarising audit entry, plus one
  * per updated or withdrawn student.
@@ -327,9 +361,10 @@ export async function commitImport(
     const ensembles = await ensureEnsembles(session, plan, schoolIdByCode);
     if (database.kind === 'pglite') await skipReferenceTriggers(session);
     await createStagingTables(session);
-    await stage(session, plan, schoolIdByCode, ensembles.ensembleId);
+    const { existing, fresh } = await studentRows(session, plan, schoolIdByCode);
+    await stage(session, plan, { existing, fresh }, schoolIdByCode, ensembles.ensembleId);
     const updated = await updateStudents(session, plan, userId, year?.id ?? null);
-    const created = await insertStudents(session);
+    const created = await insertStudents(session, fresh);
     const seatChanges = year ? await seatStudents(session, year.id) : new Set<string>();
     const schoolIds = plan.schoolCodes.map((code) => schoolIdByCode.get(code)!);
     const withdrawn = plan.options.withdrawMissing

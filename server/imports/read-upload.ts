@@ -4,7 +4,7 @@ import { decodeText } from './parse/decode';
 import { readBundleFiles } from './parse/oneroster-files';
 import { readOneRosterBundle } from './parse/oneroster';
 import { parseCsv } from './parse/parse-csv';
-import { detectRosterKind, parseRosterCsv } from './parse/parse-roster';
+import { detectRosterKind, parseRosterCsvYielding } from './parse/parse-roster';
 import type { ParsedRoster } from './parse/parsed-roster';
 
 /** An uploaded roster: a CSV file or a zipped OneRoster bundle, as bytes, or a bundle folder. */
@@ -32,7 +32,7 @@ export async function readRosterUpload(
   if ('folder' in upload) return readOneRosterBundle(upload.folder, checks);
   if (detectRosterKind(upload.fileName, upload.bytes) === 'zip')
     return readOneRosterBundle(upload.bytes, checks);
-  return parseRosterCsv(upload.bytes, { ...checks, mapping: options.mapping });
+  return parseRosterCsvYielding(upload.bytes, { ...checks, mapping: options.mapping });
 }
 
 /**

@@ -18,7 +18,9 @@ import { figure, percentile, time, timings, type BenchFigure } from './bench-fig
 import { loadBenchPassOffs } from './analytics-load';
 
 const asOf = '2026-12-01';
-const target = 100;
+// The targets: every Overview figure under 50 ms, the whole Overview under 250 ms.
+const target = 50;
+const wholeTarget = 250;
 
 /**
  * The Overview's ladder figures over `students` students and `passOffs` pass-offs, each timed
@@ -199,7 +201,7 @@ export async function benchAnalytics(options: {
           'whole Overview through HTTP (p95)',
           product,
           direct,
-          `limit: the service called in-process; target < ${target} ms: ${product < target ? 'met' : 'NOT met'}`,
+          `limit: the service called in-process; target < ${wholeTarget} ms: ${product < wholeTarget ? 'met' : 'NOT met'}`,
         ),
       );
     } finally {

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { detectRosterKind, parseRosterCsv } from './parse-roster';
+import { detectRosterKind, parseRosterCsv, parseRosterCsvYielding } from './parse-roster';
 
 const fixtures = new URL('../../../tests/fixtures/rosters/', import.meta.url);
 const fixture = (name: string) => new Uint8Array(readFileSync(new URL(name, fixtures)));
@@ -321,5 +321,22 @@ describe('detectRosterKind', () => {
     expect(detectRosterKind('Bundle.ZIP', bytesOf('not really'))).toBe('zip');
     expect(detectRosterKind('roster.csv', bytesOf('student_id'))).toBe('csv');
     expect(detectRosterKind('roster.txt', new Uint8Array())).toBe('csv');
+  });
+});
+
+describe('parseRosterCsvYielding', () => {
+  it('should answer what parseRosterCsv answers, letting other work run while it validates', async () => {
+    const lines = ['student_id,first_name,last_name,grade,school_code,ensemble'];
+    for (let index = 0; index < 3_500; index += 1)
+      lines.push(`Y-${index},Ada,Penhallow,${(index % 12) + 1},${index % 7 ? 'HPMS' : 'NOPE'},Concert Band`);
+    const bytes = bytesOf(lines.join('\n'));
+    let ranBetween = 0;
+    const ticks = setInterval(() => (ranBetween += 1), 0);
+    const yielding = await parseRosterCsvYielding(bytes, { knownSchoolCodes: district }, 0);
+    clearInterval(ticks);
+    expect(yielding).toStrictEqual(parseRosterCsv(bytes, { knownSchoolCodes: district }));
+    expect(yielding.rows).toHaveLength(3_000);
+    expect(yielding.errors).toHaveLength(500);
+    expect(ranBetween).toBeGreaterThan(0);
   });
 });
