@@ -42,3 +42,14 @@ export function likePattern(text: string, where: 'prefix' | 'anywhere' = 'anywhe
   const escaped = text.toLowerCase().replace(/[\\%_]/g, (character) => `\\${character}`);
   return where === 'prefix' ? `${escaped}%` : `%${escaped}%`;
 }
+
+/**
+ * The `Link` header value (RFC 8288) pointing at the page after this one: the same request with
+ * `after` set to the cursor and no `offset`.
+ */
+export function nextPageLink(originalUrl: string, cursor: string): string {
+  const url = new URL(originalUrl, 'http://localhost');
+  url.searchParams.delete('offset');
+  url.searchParams.set('after', cursor);
+  return `<${url.pathname}${url.search}>; rel="next"`;
+}

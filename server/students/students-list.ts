@@ -1,3 +1,4 @@
+import { z } from 'zod';
 import { and, asc, count, desc, eq, inArray, or, sql, type AnyColumn, type SQL } from 'drizzle-orm';
 import type { ListResponse } from '../../shared/api/list';
 import { studentFiltersSchema, type Student } from '../../shared/api/student';
@@ -8,7 +9,7 @@ import { likePattern, parseListQuery } from '../core/list-query';
 import { schoolScope, type Actor } from '../core/policy';
 import { findCurrentSchoolYear } from '../enrollments/school-year';
 import { seatSummaries } from './student-seats';
-import { studentColumns, toStudent } from './student-row';
+import { studentColumns, toStudent, type StudentRecord } from './student-row';
 
 /**
  * Each sort field and the full ORDER BY it stands for. Every list ends in the id so pages never
@@ -25,12 +26,79 @@ const sortOrders: Record<string, AnyColumn[]> = {
   updatedAt: [students.updatedAt, students.id],
 };
 
+/** Each sort's key of a row, in the order of {@link sortOrders}: what a cursor carries. */
+const sortKeys: Record<string, (record: ListedRecord) => (string | number)[]> = {
+  lastName: (r) => [r.lastName, r.firstName, r.id],
+  firstName: (r) => [r.firstName, r.lastName, r.id],
+  studentNumber: (r) => [r.studentNumber, r.id],
+  grade: (r) => [r.grade, r.lastName, r.firstName, r.id],
+  school: (r) => [r.schoolCode, r.lastName, r.firstName, r.id],
+  status: (r) => [r.status, r.lastName, r.firstName, r.id],
+  updatedAt: (r) => [r.updatedAtText, r.id],
+};
+
+/**
+ * A listed row: the student, and its last change as PostgreSQL's own text, which keeps the
+ * microseconds a JavaScript Date would drop (a cursor must hold the exact key).
+ */
+type ListedRecord = StudentRecord & { updatedAtText: string };
+const listedColumns = {
+  ...studentColumns,
+  updatedAtText: sql<string>`${students.updatedAt}::text`,
+};
+
+/** A cursor: the sort it was made for and the last row's key in that sort. */
+const cursorSchema = z.object({
+  sort: z.string(),
+  key: z.array(z.union([z.string(), z.number()])),
+});
+
+/** The opaque `after` cursor for the row a page ended on (base64url JSON, RFC 4648 §5). */
+export function cursorAfter(sort: string, record: ListedRecord): string {
+  const key = sortKeys[sort.split(':')[0]!]!(record);
+  return Buffer.from(JSON.stringify({ sort, key })).toString('base64url');
+}
+
+const badCursor = (message: string) => badRequest(message, [{ field: 'after', message }]);
+
+/**
+ * The condition "after this key" for a sort, as one row comparison, which a B-tree index on the
+ * same columns answers as a range (PostgreSQL row constructor comparison): `>` ascending, `<`
+ * descending, every column of a sort running the same way.
+ */
+function afterCondition(after: string, sort: string): SQL {
+  let cursor: z.infer<typeof cursorSchema>;
+  try {
+    cursor = cursorSchema.parse(JSON.parse(Buffer.from(after, 'base64url').toString('utf8')));
+  } catch {
+    throw badCursor('The cursor is not one this server gave out.');
+  }
+  if (cursor.sort !== sort) {
+    throw badCursor(`The cursor was made for the sort ${cursor.sort}, not ${sort}.`);
+  }
+  const [field, direction] = sort.split(':') as [string, 'asc' | 'desc'];
+  const columns = sortOrders[field]!;
+  const key = cursor.key;
+  // Numbers for number columns; text, and ISO 8601 text for a timestamp, for the rest.
+  const expected = columns.map((column) => (column.dataType === 'number' ? 'number' : 'string'));
+  if (
+    key.length !== columns.length ||
+    key.some((value, index) => typeof value !== expected[index])
+  ) {
+    throw badCursor('The cursor is not one this server gave out.');
+  }
+  const values = key.map((value, index) =>
+    field === 'updatedAt' && index === 0 ? sql`${value}::timestamptz` : sql`${value}`,
+  );
+  return sql`(${sql.join(columns, sql`, `)}) ${sql.raw(direction === 'desc' ? '<' : '>')} (${sql.join(values, sql`, `)})`;
+}
+
 /**
  * The ORDER BY for a sort, or its exact reverse (each column's direction flipped, which also
  * flips PostgreSQL's default NULLS placement), for reading a page from the far end.
  */
-function orderBy(sort: string | undefined, reversed = false): SQL[] {
-  const [field, direction] = (sort ?? 'lastName:asc').split(':') as [string, 'asc' | 'desc'];
+function orderBy(sort: string, reversed = false): SQL[] {
+  const [field, direction] = sort.split(':') as [string, 'asc' | 'desc'];
   const columns = sortOrders[field];
   if (!columns) {
     throw badRequest(
@@ -96,13 +164,19 @@ export function pagePlan(
   return { offset: page.offset, limit, reversed: false, fenced };
 }
 
-/** The students the actor may see, searched, filtered, sorted and paged. */
+/**
+ * The students the actor may see, searched, filtered, sorted and paged; with `next`, the cursor
+ * for the page after this one when the page is full.
+ */
 export async function listStudents(
   db: Database,
   actor: Actor,
   query: unknown,
-): Promise<ListResponse<Student>> {
+): Promise<ListResponse<Student> & { next?: string }> {
   const list = parseListQuery(query, studentFiltersSchema);
+  const sort = list.sort ?? 'lastName:asc';
+  const order = orderBy(sort);
+  const after = list.after ? afterCondition(list.after, sort) : undefined;
   const scope = schoolScope(actor);
   const conditions: (SQL | undefined)[] = [];
   // The same filters on the per-school counts, while no filter needs the rows themselves.
@@ -150,21 +224,30 @@ export async function listStudents(
         .from(studentCounts)
         .where(and(...countConditions))) as [{ total: number }])
     : ((await db.select({ total: count() }).from(students).where(where)) as [{ total: number }]);
-  const plan = pagePlan(list, total, { search: Boolean(list.q) });
+  const plan = after
+    ? {
+        offset: 0,
+        limit: list.limit,
+        reversed: false,
+        fenced: Boolean(list.q) && total < sortMatchesBelow,
+      }
+    : pagePlan(list, total, { search: Boolean(list.q) });
   if (!plan) return { rows: [], total };
   const source = plan.fenced
     ? // The limit is the fence; it cuts nothing, as a fenced search has fewer matches.
       db.select().from(students).where(where).limit(sortMatchesBelow).as('students')
     : students;
   const records = await db
-    .select(studentColumns)
+    .select(listedColumns)
     .from(source)
     .innerJoin(schools, eq(schools.id, students.schoolId))
-    .where(plan.fenced ? undefined : where)
-    .orderBy(...orderBy(list.sort, plan.reversed))
+    .where(and(plan.fenced ? undefined : where, after))
+    .orderBy(...(plan.reversed ? orderBy(sort, true) : order))
     .limit(plan.limit)
     .offset(plan.offset);
   if (plan.reversed) records.reverse();
+  const last = records.at(-1);
+  const next = last && records.length === list.limit ? cursorAfter(sort, last) : undefined;
   const seats = await seatSummaries(
     db,
     records.map((record) => record.id),
@@ -173,5 +256,6 @@ export async function listStudents(
   return {
     rows: records.map((record) => toStudent(record, seats(record.id), actor)),
     total,
+    ...(next ? { next } : {}),
   };
 }

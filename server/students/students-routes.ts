@@ -5,6 +5,7 @@ import {
   studentPatchSchema,
 } from '../../shared/api/student';
 import { actorOf, requires, requiresAny } from '../core/policy';
+import { nextPageLink } from '../core/list-query';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
 import { listStudents } from './students-list';
@@ -19,7 +20,9 @@ import { createStudent, getStudent, updateStudent } from './students-service';
 export function studentsRoutes({ db }: Services): Router {
   const router = Router();
   router.get('/students', requires('roster:read'), async (request, response) => {
-    response.json(await listStudents(db, actorOf(request), request.query));
+    const { next, ...page } = await listStudents(db, actorOf(request), request.query);
+    if (next) response.set('Link', nextPageLink(request.originalUrl, next));
+    response.json(page);
   });
   router.get(
     '/students/:id',

@@ -158,5 +158,14 @@ export const studentFiltersSchema = z.object({
   status: z.enum(studentStatuses).optional(),
   ensembleId: z.coerce.number().int().positive().optional(),
   instrumentId: z.string().trim().max(40).optional(),
+  /**
+   * Keyset paging: the cursor in the `Link: <…>; rel="next"` header of the page before. The page
+   * starts right after that page's last row (in the same sort), and `offset` is not used.
+   */
+  after: z
+    .string()
+    .max(1000)
+    .regex(/^[A-Za-z0-9_-]+$/, 'The cursor is not one this server gave out.')
+    .optional(),
 });
 export type StudentFilters = z.infer<typeof studentFiltersSchema>;

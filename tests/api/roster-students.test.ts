@@ -291,7 +291,9 @@ describe('Students list', () => {
   });
 
   it('should answer the database order on pages past the middle, which are read from the far end', async () => {
-    const [{ total }] = await query<{ total: number }>('select count(*)::int as total from students');
+    const [{ total }] = await query<{ total: number }>(
+      'select count(*)::int as total from students',
+    );
     const orders: Record<string, string> = {
       'lastName:asc': 's.last_name, s.first_name, s.id',
       'grade:desc': 's.grade desc, s.last_name desc, s.first_name desc, s.id desc',
@@ -299,7 +301,12 @@ describe('Students list', () => {
     };
     for (const [sort, order] of Object.entries(orders)) {
       // Just before the middle, across it, just past it, and the last rows (a short page).
-      for (const offset of [Math.floor(total / 2) - 40, Math.floor(total / 2) - 10, total - 70, total - 13]) {
+      for (const offset of [
+        Math.floor(total / 2) - 40,
+        Math.floor(total / 2) - 10,
+        total - 70,
+        total - 13,
+      ]) {
         const page = await coordinator.get(`/api/students?sort=${sort}&limit=25&offset=${offset}`);
         const expected = await query<{ id: number }>(
           `select s.id from students s join schools c on c.id = s.school_id order by ${order} limit 25 offset ${offset}`,
@@ -310,6 +317,59 @@ describe('Students list', () => {
     }
     const beyond = await coordinator.get(`/api/students?offset=${total}&limit=10`);
     expect(beyond.body).toEqual({ rows: [], total });
+  });
+
+  it('should walk every student page by page with the cursor in the Link header, in the database order', async () => {
+    const orders: Record<string, string> = {
+      'lastName:asc': 's.last_name, s.first_name, s.id',
+      'grade:desc': 's.grade desc, s.last_name desc, s.first_name desc, s.id desc',
+      'school:asc': 'c.code, s.last_name, s.first_name, s.id',
+      'updatedAt:desc': 's.updated_at desc, s.id desc',
+    };
+    // Changes a tenth of a millisecond apart: the cursor must keep PostgreSQL's microseconds.
+    await query(
+      `update students set updated_at = timestamptz '2026-11-30 08:00:00.000100+00' + (id % 9) * interval '100 microseconds'`,
+    );
+    for (const [sort, order] of Object.entries(orders)) {
+      const expected = await query<{ id: number }>(
+        `select s.id from students s join schools c on c.id = s.school_id order by ${order}`,
+      );
+      const walked: number[] = [];
+      let path: string | undefined = `/api/students?sort=${sort}&limit=400`;
+      while (path) {
+        const page = await coordinator.get(path);
+        expect(page.status).toBe(200);
+        expect(page.body.total).toBe(expected.length);
+        walked.push(...page.body.rows.map((row: Row) => row.id));
+        // RFC 8288: <target>; rel="next", only while a page is full.
+        path = /^<([^>]+)>; rel="next"$/.exec(page.headers['link'] ?? '')?.[1];
+        if (path) expect(new URL(path, 'http://x').searchParams.get('sort')).toBe(sort);
+      }
+      expect(walked).toEqual(expected.map((row) => row.id));
+    }
+  });
+
+  it('should keep a director’s cursor pages within their school, and refuse a forged or foreign cursor with 400', async () => {
+    const first = await director.get('/api/students?limit=5');
+    const link = /^<([^>]+)>; rel="next"$/.exec(first.headers['link'])![1]!;
+    const after = new URL(link, 'http://x').searchParams.get('after')!;
+    const second = await director.get(link);
+    expect(second.body.rows.every((row: Row) => row.schoolCode === 'HPMS')).toBe(true);
+    const expected = await query<{ id: number }>(
+      `select id from students where school_id = ${schoolIds['HPMS']} order by last_name, first_name, id limit 5 offset 5`,
+    );
+    expect(second.body.rows.map((row: Row) => row.id)).toEqual(expected.map((row) => row.id));
+    const otherSort = await director.get(`/api/students?sort=grade:asc&after=${after}`);
+    expect(otherSort.status).toBe(400);
+    expect(otherSort.body.error.fieldErrors[0]).toMatchObject({ field: 'after' });
+    const forged = Buffer.from(JSON.stringify({ sort: 'lastName:asc', key: ['x', 1] })).toString(
+      'base64url',
+    );
+    for (const cursor of [forged, 'not-a-cursor', '%27%3B--']) {
+      const bad = await director.get(`/api/students?after=${cursor}`);
+      expect(bad.status).toBe(400);
+      expect(bad.body.error.fieldErrors[0].field).toBe('after');
+    }
   });
 
   it('should answer a search page in the database order, whether the matches are few or many', async () => {
