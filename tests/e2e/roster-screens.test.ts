@@ -110,6 +110,45 @@ describe('Students grid', () => {
     await context.close();
   });
 
+  it('should fetch the next block of students by cursor as the coordinator scrolls down', async () => {
+    const { context } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    const asked: URL[] = [];
+    page.on('request', (request) => {
+      const url = new URL(request.url());
+      if (url.pathname === '/api/students') asked.push(url);
+    });
+    await signInAs(page, app.url, demoEmail('coordinator'), '/students');
+    await expect
+      .poll(() => page.getByTestId('grid-count').innerText(), patient)
+      .toMatch(/^[\d,]+ students$/);
+    await expect.poll(() => cellText(page, 0, 'lastName'), patient).not.toBe('');
+    // Scrolling past row 100 makes the grid ask for its second block.
+    await cell(page, 0, 'lastName').hover();
+    for (
+      let turn = 0;
+      turn < 20 && !asked.some((url) => url.searchParams.get('offset') === '100');
+      turn++
+    ) {
+      await page.mouse.wheel(0, 1500);
+      await page.waitForTimeout(100);
+    }
+    await expect
+      .poll(
+        () =>
+          asked.find((url) => url.searchParams.get('offset') === '100')?.searchParams.get('after'),
+        patient,
+      )
+      .toBeTruthy();
+    const client = await app.signIn(demoEmail('coordinator'));
+    const second = await client.get('/api/students?status=active&offset=100&limit=1');
+    await cell(page, 100, 'lastName').scrollIntoViewIfNeeded();
+    await expect
+      .poll(() => cellText(page, 100, 'studentNumber'), patient)
+      .toBe(second.body.rows[0].studentNumber);
+    await context.close();
+  });
+
   it('should keep a changed preferred name after a reload of the student record', async () => {
     const { context, outside } = await localOnlyContext(browser);
     const page = await context.newPage();

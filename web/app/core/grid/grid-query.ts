@@ -32,3 +32,16 @@ export function listParameters(request: {
   parameters['limit'] = String(request.limit);
   return parameters;
 }
+
+/**
+ * The `after` cursor of the next page, from a list answer's `Link: <…>; rel="next"` header
+ * (RFC 8288); none when the header is absent or names no next page.
+ */
+export function nextCursor(link: string | null): string | undefined {
+  if (!link) return undefined;
+  for (const part of link.split(',')) {
+    const match = /^\s*<([^>]*)>\s*;\s*rel="?next"?\s*$/i.exec(part);
+    if (match) return new URL(match[1]!, 'http://localhost').searchParams.get('after') ?? undefined;
+  }
+  return undefined;
+}
