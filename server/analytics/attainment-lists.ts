@@ -11,7 +11,7 @@ import type { Database } from '../db/client';
 import { rowsOf } from '../db/client';
 import { badRequest } from '../core/errors';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
-import type { Actor } from '../core/policy';
+import { schoolScope, type Actor } from '../core/policy';
 import { activeRuleLadder } from '../ladder/ladder-queries';
 import { daysBefore, studentCondition, today } from './analytics-scope';
 import { topUpAttainment } from './overview-service';
@@ -101,6 +101,9 @@ export async function listAttainment(
   return { rows: rowsOf<AttainmentRow>(rows), total: total!.total };
 }
 
+/** The audition-ready query's fields that choose the requirements or the page, not students. */
+const notFilters = new Set(['requirementCodes', 'minTempo', 'offset', 'limit', 'sort']);
+
 /** From how many qualifying students on, a page is found by walking the students in order. */
 const denseAuditionResult = 1_000;
 
@@ -141,11 +144,23 @@ export async function auditionReady(
     ),
     sql` intersect `,
   );
+  // The whole district with no filter counts every qualifier less the few who have left (a
+  // small partial index), instead of matching every qualifier to its summary row.
+  // Any filter or search (one added later too) takes the general count.
+  const unfiltered = Object.entries(list).every(
+    ([name, value]) => value === undefined || notFilters.has(name),
+  );
+  const wholeDistrict = schoolScope(actor) === 'all' && unfiltered;
   const [counted] = rowsOf<{ total: number }>(
-    await db.execute(sql`select count(*)::int as total from (${passedAll}) m
-      join student_attainment a on a.student_id = m.student_id
-      ${list.q ? sql`join students s on s.id = m.student_id` : sql``}
-      where ${scoped}`),
+    await db.execute(
+      wholeDistrict
+        ? sql`select (count(*) - count(a.student_id))::int as total from (${passedAll}) m
+            left join student_attainment a on a.student_id = m.student_id and not a.active`
+        : sql`select count(*)::int as total from (${passedAll}) m
+            join student_attainment a on a.student_id = m.student_id
+            ${list.q ? sql`join students s on s.id = m.student_id` : sql``}
+            where ${scoped}`,
+    ),
   );
   const total = counted!.total;
   if (total === 0 || list.offset >= total) return { rows: [], total };

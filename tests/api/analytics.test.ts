@@ -298,6 +298,32 @@ describe('Audition-ready pages', () => {
     // The queries find students, so the two ways are compared on real rows.
     expect(found).toBeGreaterThan(5);
   });
+
+  it('should leave a withdrawn student out of the district-wide count as out of the filtered one', async () => {
+    const path = '/api/analytics/audition-ready?requirementCodes=r1-bb-major,r2-eb-major';
+    const before = await coordinator.get(path);
+    expect(keysOf(before.body.rows)).toEqual(['s4', 's5', 's6']);
+    const id = district.studentId['s6']!;
+    const student = await coordinator.get(`/api/students/${id}`);
+    const withdrawn = await coordinator.patch(`/api/students/${id}`, {
+      version: student.body.version,
+      status: 'withdrawn',
+    });
+    expect(withdrawn.status).toBe(200);
+    try {
+      // The unfiltered count subtracts those who left; a search takes the general count.
+      const after = await coordinator.get(path);
+      expect(after.body).toMatchObject({ total: 2 });
+      expect(keysOf(after.body.rows)).toEqual(['s4', 's5']);
+      expect((await coordinator.get(`${path}&q=s`)).body.total).toBe(2);
+    } finally {
+      await coordinator.patch(`/api/students/${id}`, {
+        version: withdrawn.body.version,
+        status: 'active',
+      });
+    }
+    expect((await coordinator.get(path)).body.total).toBe(3);
+  });
 });
 
 describe('Student progress', () => {

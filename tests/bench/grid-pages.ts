@@ -94,6 +94,11 @@ export function gridPages(
       path: `/api/students?offset=${Math.max(0, total - 2_000)}&limit=100`,
       indexedSort: true,
     },
+    {
+      name: 'students: middle page by offset',
+      path: `/api/students?offset=${Math.floor(total / 2)}&limit=100`,
+      indexedSort: true,
+    },
     { name: 'schools: list with counts', path: '/api/schools?limit=100', indexedSort: false },
   ];
 }
@@ -113,7 +118,21 @@ export async function benchGridPages(options: {
   const clients = httpClients(server.url, server.token);
   const figures: BenchFigure[] = [];
   try {
-    for (const page of gridPages(district.schoolIds[0]!, options.students)) {
+    // The page after the middle one, as a grid scrolling down asks for it: by the cursor the
+    // middle page's answer gave (its Link header).
+    const middle = await fetch(
+      `${server.url}/api/students?offset=${Math.floor(options.students / 2) - 100}&limit=100`,
+      {
+        headers: { authorization: `Bearer ${server.token}` },
+      },
+    );
+    const cursorPath = /^<([^>]+)>; rel="next"$/.exec(middle.headers.get('link') ?? '')?.[1];
+    if (!cursorPath) throw new Error('The middle page answered no next-page link.');
+    const pages = [
+      ...gridPages(district.schoolIds[0]!, options.students),
+      { name: 'students: middle page by cursor', path: cursorPath, indexedSort: true },
+    ];
+    for (const page of pages) {
       const statements = await district.capture(() => server.get(page.path));
       // A few rounds of both first, so the timings are of compiled code and planned queries.
       for (let round = 0; round < 5; round += 1) {

@@ -205,6 +205,10 @@ export const studentAttainment = pgTable(
     index('student_attainment_stale_idx')
       .on(table.studentId)
       .where(sql`stale`),
+    // The few students who have left: a district-wide count subtracts them from the qualifiers.
+    index('student_attainment_inactive_idx')
+      .on(table.studentId)
+      .where(sql`not active`),
   ],
 );
 

@@ -1,0 +1,1 @@
+CREATE INDEX "student_attainment_inactive_idx" ON "student_attainment" USING btree ("student_id") WHERE not active;
