@@ -132,8 +132,10 @@ export async function auditionReady(
     ]);
   }
   const tempoOf = (code: string) => list.minTempo ?? tempoByCode.get(code)!;
+  // OFFSET 0 keeps each test a per-student index probe instead of a semi-join the planner
+  // weighs in every join order (planning a six-table join had cost more than running it).
   const passedBy = (code: string, alias: string) =>
-    sql`exists (select 1 from passed_requirements ${sql.raw(alias)} where ${sql.raw(alias)}.student_id = s.id and ${sql.raw(alias)}.requirement_code = ${code} and ${sql.raw(alias)}.best_tempo >= ${tempoOf(code)})`;
+    sql`exists (select 1 from passed_requirements ${sql.raw(alias)} where ${sql.raw(alias)}.student_id = s.id and ${sql.raw(alias)}.requirement_code = ${code} and ${sql.raw(alias)}.best_tempo >= ${tempoOf(code)} offset 0)`;
   const scoped = sql.join([studentCondition(actor, list), searchCondition(list.q)], sql` and `);
   // How many: the students of each requirement's fast-enough passes, intersected (one index
   // range per requirement and a hashed set operation), then the caller's scope and search.
