@@ -40,10 +40,13 @@ export function httpClients(base: string, token: string): HttpClients {
   const worker = new Worker(workerSource, { eval: true });
   const next = () =>
     new Promise<number[]>((resolve, reject) => {
-      worker.once('message', (result: { latencies: number[]; failure?: string }) =>
-        result.failure ? reject(new Error(result.failure)) : resolve(result.latencies),
-      );
-      worker.once('error', reject);
+      const failed = (error: Error) => reject(error);
+      worker.once('error', failed);
+      worker.once('message', (result: { latencies: number[]; failure?: string }) => {
+        worker.off('error', failed);
+        if (result.failure) reject(new Error(result.failure));
+        else resolve(result.latencies);
+      });
     });
   return {
     sequential(path, runs) {
