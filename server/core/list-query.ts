@@ -29,9 +29,10 @@ export function orderFor(
   const [field, direction] = (sort ?? fallback).split(':') as [string, 'asc' | 'desc'];
   const column = sortable[field];
   if (!column) {
-    throw badRequest(`Cannot sort by '${field}'. Sort by one of: ${Object.keys(sortable).join(', ')}.`, [
-      { field: 'sort', message: `Unknown field '${field}'.` },
-    ]);
+    throw badRequest(
+      `Cannot sort by '${field}'. Sort by one of: ${Object.keys(sortable).join(', ')}.`,
+      [{ field: 'sort', message: `Unknown field '${field}'.` }],
+    );
   }
   const order = direction === 'desc' ? desc : asc;
   return [order(column), order(id)];

@@ -11,16 +11,27 @@ import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { updateVersioned } from '../core/versioned-update';
 
-const schoolFilters = z.object({ level: z.enum(schoolLevels).optional(), code: z.string().optional() });
+const schoolFilters = z.object({
+  level: z.enum(schoolLevels).optional(),
+  code: z.string().optional(),
+});
 
 // Written out with table names: Drizzle leaves columns unqualified in a one-table select.
 // Active students from the per-school counts the student triggers keep (migration 0009).
 const studentCount = sql<number>`(select coalesce(sum(c.students), 0)::int from student_counts c where c.school_id = "schools"."id" and c.status = 'active')`;
 const ensembleCount = sql<number>`(select count(*)::int from ensembles e where e.school_id = "schools"."id")`;
 
-const sortable = { code: schools.code, name: schools.name, level: schools.level, studentCount, ensembleCount };
+const sortable = {
+  code: schools.code,
+  name: schools.name,
+  level: schools.level,
+  studentCount,
+  ensembleCount,
+};
 
-function toSchool(row: typeof schools.$inferSelect & { studentCount?: number; ensembleCount?: number }): School {
+function toSchool(
+  row: typeof schools.$inferSelect & { studentCount?: number; ensembleCount?: number },
+): School {
   return {
     id: row.id,
     code: row.code,
@@ -40,7 +51,11 @@ function scopeCondition(actor: Actor): SQL | undefined {
 }
 
 /** The schools the actor may see, filtered, sorted and paged. */
-export async function listSchools(db: Database, actor: Actor, query: unknown): Promise<ListResponse<School>> {
+export async function listSchools(
+  db: Database,
+  actor: Actor,
+  query: unknown,
+): Promise<ListResponse<School>> {
   const list = parseListQuery(query, schoolFilters);
   const conditions = [scopeCondition(actor)];
   if (list.q) {
@@ -95,11 +110,20 @@ async function assertCodeFree(db: Database, code: string, exceptId?: number) {
 }
 
 /** Adds a school (coordinator only; the route checks the capability). */
-export async function createSchool(db: Database, actor: Actor, input: SchoolInput): Promise<School> {
+export async function createSchool(
+  db: Database,
+  actor: Actor,
+  input: SchoolInput,
+): Promise<School> {
   await assertCodeFree(db, input.code);
   return db.transaction(async (tx) => {
     const [row] = await tx.insert(schools).values(input).returning();
-    await recordAudit(tx, actor, { action: 'create', entity: 'school', entityId: row!.id, after: row });
+    await recordAudit(tx, actor, {
+      action: 'create',
+      entity: 'school',
+      entityId: row!.id,
+      after: row,
+    });
     return toSchool(row!);
   });
 }
@@ -116,7 +140,13 @@ export async function updateSchool(
   return db.transaction(async (tx) => {
     const [before] = await tx.select().from(schools).where(eq(schools.id, id));
     const after = await updateVersioned(tx, schools, id, version, changes, 'That school');
-    await recordAudit(tx, actor, { action: 'update', entity: 'school', entityId: id, before, after });
+    await recordAudit(tx, actor, {
+      action: 'update',
+      entity: 'school',
+      entityId: id,
+      before,
+      after,
+    });
     return toSchool(after);
   });
 }

@@ -6,7 +6,13 @@ import { rowsOf, type Database } from '../../server/db/client';
  * themselves: an empty list when the counts are exact.
  */
 export async function studentCountDrift(db: Database) {
-  return rowsOf<{ school_id: number; grade: number; status: string; kept: number; counted: number }>(
+  return rowsOf<{
+    school_id: number;
+    grade: number;
+    status: string;
+    kept: number;
+    counted: number;
+  }>(
     await db.execute(sql`
       select coalesce(k.school_id, r.school_id) as school_id, coalesce(k.grade, r.grade)::int as grade,
         coalesce(k.status, r.status) as status, coalesce(k.students, 0) as kept, coalesce(r.students, 0) as counted

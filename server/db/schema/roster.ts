@@ -42,14 +42,26 @@ export const students = pgTable(
     index('students_school_idx').on(table.schoolId, table.lastName, table.firstName, table.id),
     index('students_name_idx').on(table.lastName, table.firstName, table.id),
     index('students_grade_idx').on(table.grade, table.lastName, table.id),
-    index('students_last_name_search_idx').using('btree', sql`lower(${table.lastName}) text_pattern_ops`),
+    index('students_last_name_search_idx').using(
+      'btree',
+      sql`lower(${table.lastName}) text_pattern_ops`,
+    ),
     // The roster list's other sorts and its prefix search on ids and names.
     index('students_first_name_idx').on(table.firstName, table.lastName, table.id),
     index('students_status_idx').on(table.status, table.lastName, table.firstName, table.id),
     index('students_updated_idx').on(table.updatedAt, table.id),
-    index('students_first_name_search_idx').using('btree', sql`lower(${table.firstName}) text_pattern_ops`),
-    index('students_preferred_name_search_idx').using('btree', sql`lower(${table.preferredName}) text_pattern_ops`),
-    index('students_number_search_idx').using('btree', sql`lower(${table.studentNumber}) text_pattern_ops`),
+    index('students_first_name_search_idx').using(
+      'btree',
+      sql`lower(${table.firstName}) text_pattern_ops`,
+    ),
+    index('students_preferred_name_search_idx').using(
+      'btree',
+      sql`lower(${table.preferredName}) text_pattern_ops`,
+    ),
+    index('students_number_search_idx').using(
+      'btree',
+      sql`lower(${table.studentNumber}) text_pattern_ops`,
+    ),
   ],
 );
 
@@ -92,14 +104,14 @@ export const ensembles = pgTable(
       ],
     }).notNull(),
     level: text('level').notNull().default(''),
-    directorUserId: integer('director_user_id').references(() => users.id, { onDelete: 'set null' }),
+    directorUserId: integer('director_user_id').references(() => users.id, {
+      onDelete: 'set null',
+    }),
     meetingPeriod: text('meeting_period').notNull().default(''),
     ...version,
     ...timestamps,
   },
-  (table) => [
-    uniqueIndex('ensembles_school_name_unique').on(table.schoolId, table.name),
-  ],
+  (table) => [uniqueIndex('ensembles_school_name_unique').on(table.schoolId, table.name)],
 );
 
 /** A student's seat in one ensemble for one school year, on one instrument. */
@@ -124,7 +136,11 @@ export const enrollments = pgTable(
     ...timestamps,
   },
   (table) => [
-    uniqueIndex('enrollments_seat_unique').on(table.studentId, table.ensembleId, table.schoolYearId),
+    uniqueIndex('enrollments_seat_unique').on(
+      table.studentId,
+      table.ensembleId,
+      table.schoolYearId,
+    ),
     index('enrollments_ensemble_idx').on(table.ensembleId),
     index('enrollments_instrument_idx').on(table.instrumentId, table.schoolYearId),
   ],

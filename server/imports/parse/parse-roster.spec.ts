@@ -328,7 +328,9 @@ describe('parseRosterCsvYielding', () => {
   it('should answer what parseRosterCsv answers, letting other work run while it validates', async () => {
     const lines = ['student_id,first_name,last_name,grade,school_code,ensemble'];
     for (let index = 0; index < 3_500; index += 1)
-      lines.push(`Y-${index},Ada,Penhallow,${(index % 12) + 1},${index % 7 ? 'HPMS' : 'NOPE'},Concert Band`);
+      lines.push(
+        `Y-${index},Ada,Penhallow,${(index % 12) + 1},${index % 7 ? 'HPMS' : 'NOPE'},Concert Band`,
+      );
     const bytes = bytesOf(lines.join('\n'));
     let ranBetween = 0;
     const ticks = setInterval(() => (ranBetween += 1), 0);
