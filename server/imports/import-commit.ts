@@ -1,6 +1,7 @@
 import type { ImportResult } from '../../shared/api/import';
 import type { Actor } from '../core/policy';
 import type { DatabaseHandle } from '../db/client';
+import { refreshStatistics, rosterTables, statisticsStale } from '../db/statistics';
 import { guessEnsembleKind } from './ensemble-kind';
 import { firstRowOfEachStudent, writtenStudentColumns, type ImportPlan } from './import-plan';
 import { inSqlTransaction, queryJson, type SqlSession, type StagedValue } from './sql-session';
@@ -335,7 +336,7 @@ export async function commitImport(
   meta: ImportMeta,
 ): Promise<CommittedImport> {
   const userId = actor?.userId ?? null;
-  return inSqlTransaction(database, async (session) => {
+  const committed = await inSqlTransaction(database, async (session) => {
     if (!plan.canCommit) {
       const { rows, created, updated, unchanged, withdrawn } = plan.counts;
       const result: ImportResult = {
@@ -412,4 +413,10 @@ export async function commitImport(
     );
     return { ...result, importId };
   });
+  // A big change moves the planner's picture of the roster (see refreshStatistics).
+  const changed = committed.created + committed.updated + committed.withdrawn;
+  if (committed.committed && (await statisticsStale(database.db, 'students', changed))) {
+    await refreshStatistics(database.db, rosterTables);
+  }
+  return committed;
 }

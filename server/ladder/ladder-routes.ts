@@ -4,6 +4,7 @@ import { actorOf, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
 import { rebuildAttainment } from './attainment';
+import { refreshStatistics, summaryTables } from '../db/statistics';
 import { recordAudit } from '../core/audit';
 import {
   createDraft,
@@ -57,6 +58,7 @@ export function ladderRoutes({ db }: Services): Router {
         entityId: 'all',
       });
     });
+    await refreshStatistics(db, summaryTables);
     response.status(204).end();
   });
   return router;

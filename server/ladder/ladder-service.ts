@@ -16,6 +16,7 @@ import { recordAudit } from '../core/audit';
 import { conflict, notFound } from '../core/errors';
 import { updateVersioned } from '../core/versioned-update';
 import { rebuildAttainment } from './attainment';
+import { refreshStatistics, summaryTables } from '../db/statistics';
 import {
   activeVersionId,
   loadLadder,
@@ -186,5 +187,6 @@ export async function publishVersion(db: Database, actor: Actor, id: number): Pr
       after: { active: id },
     });
   });
+  await refreshStatistics(db, summaryTables);
   return loadLadder(db, id);
 }

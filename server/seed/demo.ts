@@ -5,6 +5,7 @@ import { demoSchools, demoUsers } from './demo-people';
 import { seedDemoRoster } from './demo-roster';
 import { seedDemoFleet } from './demo-fleet';
 import { seedDemoLadder } from './demo-ladder';
+import { refreshStatistics } from '../db/statistics';
 import { SeededRandom } from './random';
 
 /** The school year the demo runs in: 2026–27, August to June. */
@@ -39,12 +40,20 @@ export async function seedDemo(db: Database): Promise<void> {
       if (account.schools.length) {
         await tx
           .insert(userSchools)
-          .values(account.schools.map((code) => ({ userId: user!.id, schoolId: schoolIds.get(code)! })));
+          .values(
+            account.schools.map((code) => ({ userId: user!.id, schoolId: schoolIds.get(code)! })),
+          );
       }
-      if (account.role === 'director') for (const code of account.schools) directorOf.set(code, user!.id);
+      if (account.role === 'director')
+        for (const code of account.schools) directorOf.set(code, user!.id);
       if (account.role === 'student') studentUserId = user!.id;
     }
-    await seedDemoRoster(tx, random, { schoolIds, directorOf, schoolYearId: year!.id, studentUserId });
+    await seedDemoRoster(tx, random, {
+      schoolIds,
+      directorOf,
+      schoolYearId: year!.id,
+      studentUserId,
+    });
     await seedDemoFleet(tx, { schoolYearEndsOn: demoSchoolYear.endsOn });
     await seedDemoLadder(tx, { directorOf });
   });
@@ -54,5 +63,6 @@ export async function seedDemo(db: Database): Promise<void> {
 export async function seedDemoWhenEmpty(db: Database): Promise<boolean> {
   if (!(await isEmpty(db))) return false;
   await seedDemo(db);
+  await refreshStatistics(db);
   return true;
 }

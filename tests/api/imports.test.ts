@@ -1,6 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
+import { toRosterCsv } from '../../shared/roster';
+import { inventedRoster } from '../bench/roster-import';
 import { studentCountDrift } from '../support/student-counts';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
@@ -310,6 +312,33 @@ describe('Roster imports API', () => {
     expect(await summary(gone)).toMatchObject({ code: 'QHMS', active: false });
     // The per-school counts behind list totals follow the same adds, moves and withdrawals.
     expect(await studentCountDrift(app.database.db)).toEqual([]);
+  });
+
+  it('should gather the roster’s planner statistics again after a large import', async () => {
+    const reltuples = async () =>
+      (
+        await query<{ reltuples: number }>(
+          `select reltuples::int as reltuples from pg_class where oid = 'students'::regclass`,
+        )
+      )[0]!.reltuples;
+    const before = await reltuples();
+    const { committed } = await previewAndCommit(
+      Buffer.from(toRosterCsv(inventedRoster(1_200, 5, 610_000))),
+    );
+    expect(committed).toMatchObject({ committed: true, created: 1_200 });
+    const [{ count }] = await query<{ count: number }>(
+      'select count(*)::int as count from students',
+    );
+    // ANALYZE samples up to 30,000 rows (default_statistics_target 100), so it counts them all.
+    expect(await reltuples()).toBe(count);
+    expect(count).not.toBe(before);
+    // A few changed students stay under PostgreSQL's autovacuum rule (50 + 10 % of the rows).
+    await previewAndCommit(
+      csvOf(
+        'IM-7001,Tamsin,Oakridge,,7,HPMS,Concert Band,flute,Ada Oakridge,ada@merrowbasin.example',
+      ),
+    );
+    expect(await reltuples()).toBe(count);
   });
 
   it('should create the ensembles a school lacks, with a kind guessed from the name', async () => {

@@ -125,27 +125,28 @@ describe('Students grid', () => {
     await expect.poll(() => cellText(page, 0, 'lastName'), patient).not.toBe('');
     // Scrolling past row 100 makes the grid ask for its second block.
     await cell(page, 0, 'lastName').hover();
-    for (
-      let turn = 0;
-      turn < 20 && !asked.some((url) => url.searchParams.get('offset') === '100');
-      turn++
-    ) {
-      await page.mouse.wheel(0, 1500);
-      await page.waitForTimeout(100);
+    const secondBlock = () => asked.find((url) => url.searchParams.get('offset') === '100');
+    for (const deadline = Date.now() + 20_000; !secondBlock() && Date.now() < deadline;) {
+      await page.mouse.wheel(0, 800);
+      await page.waitForTimeout(250);
     }
-    await expect
-      .poll(
-        () =>
-          asked.find((url) => url.searchParams.get('offset') === '100')?.searchParams.get('after'),
-        patient,
+    await expect.poll(() => secondBlock()?.searchParams.get('after'), patient).toBeTruthy();
+    // A row the grid drew from the second block on, against the same row asked for by offset.
+    const drawnPast100 = async () =>
+      (
+        await page
+          .locator('[role=row][row-index]')
+          .evaluateAll((rows) => rows.map((row) => Number(row.getAttribute('row-index'))))
       )
-      .toBeTruthy();
+        .filter((index) => index >= 100)
+        .sort((first, second) => first - second)[0];
+    await expect.poll(drawnPast100, patient).toBeDefined();
+    const index = (await drawnPast100())!;
     const client = await app.signIn(demoEmail('coordinator'));
-    const second = await client.get('/api/students?status=active&offset=100&limit=1');
-    await cell(page, 100, 'lastName').scrollIntoViewIfNeeded();
+    const same = await client.get(`/api/students?status=active&offset=${index}&limit=1`);
     await expect
-      .poll(() => cellText(page, 100, 'studentNumber'), patient)
-      .toBe(second.body.rows[0].studentNumber);
+      .poll(() => cellText(page, index, 'studentNumber'), patient)
+      .toBe(same.body.rows[0].studentNumber);
     await context.close();
   });
 
