@@ -3,7 +3,7 @@ import type { AddressInfo } from 'node:net';
 import { fileURLToPath } from 'node:url';
 import { loadConfig, type Config } from './config';
 import { migrateDatabase, openDatabase, type DatabaseHandle } from './db/client';
-import { refreshStatistics, statisticsMissing } from './db/statistics';
+import { refreshStatistics, statisticsStale } from './db/statistics';
 import { randomBytes } from 'node:crypto';
 import { acquireLock, updateLock } from './db/data-lock';
 import { createLogger, type Logger } from './logger';
@@ -54,8 +54,8 @@ export async function startServer(
   try {
     await migrateDatabase(database);
     await options.prepare?.(database);
-    // Once, for a data folder filled before imports and seeds gathered statistics.
-    if (await statisticsMissing(database.db)) await refreshStatistics(database.db);
+    // Once, for a data folder never analyzed (filled before imports and seeds gathered statistics).
+    if (await statisticsStale(database.db, 'students', 0)) await refreshStatistics(database.db);
     const { createApp } = await appModule;
     const app = await createApp(config, { database, logger, localKey });
     const server = createHttpServer(app);

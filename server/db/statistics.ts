@@ -21,17 +21,6 @@ export async function refreshStatistics(
 }
 
 /**
- * Whether the roster has never had its statistics gathered (a data folder written before
- * imports and seeds did so): PostgreSQL keeps `reltuples` at -1 until the first ANALYZE.
- */
-export async function statisticsMissing(db: Database): Promise<boolean> {
-  const result = await db.execute(
-    sql`select exists (select 1 from pg_class where oid = 'students'::regclass and reltuples < 0 and relpages > 0) as missing`,
-  );
-  return rowsOf<{ missing: boolean }>(result)[0]?.missing === true;
-}
-
-/**
  * Whether `changed` rows call for new statistics on a table, by the rule PostgreSQL's
  * autovacuum applies (autovacuum_analyze_threshold 50 plus autovacuum_analyze_scale_factor 0.1
  * of the rows the table had when last analyzed), or when it has never been analyzed.

@@ -324,10 +324,11 @@ async function recordHistory(
  * Carries out a plan in ONE transaction, set-based: new students are loaded straight into
  * `students`, the rest of the rows are staged in temporary tables (COPY in PGlite, multi-row
  * INSERTs on a server), then ensembles, students, seats and withdrawals are written with a
- * handful of INSERT … SELECT and UPDATE … FROM statements that touch only rows that differ. The counts come from what the statements did, so a file imported
- * twice reports every row unchanged the second time. A plan that cannot commit (errors without
- * skip-invalid) writes only its history row. Also writes one summarising audit entry, plus one
- * per updated or withdrawn student.
+ * handful of INSERT … SELECT and UPDATE … FROM statements that touch only rows that differ.
+ * The counts come from what the statements did, so a file imported twice reports every row
+ * unchanged the second time. A plan that cannot commit (errors without skip-invalid) writes only
+ * its history row. Also writes one summarising audit entry, plus one per updated or withdrawn
+ * student.
  */
 export async function commitImport(
   database: DatabaseHandle,

@@ -12,32 +12,6 @@ import { seatSummaries } from './student-seats';
 import { studentColumns, toStudent, type StudentRecord } from './student-row';
 
 /**
- * Each sort field and the full ORDER BY it stands for. Every list ends in the id so pages never
- * repeat or skip a row, and each order matches an index of the students table (the school sort
- * walks the few schools by code and each school's name index).
- */
-const sortOrders: Record<string, AnyColumn[]> = {
-  lastName: [students.lastName, students.firstName, students.id],
-  firstName: [students.firstName, students.lastName, students.id],
-  studentNumber: [students.studentNumber, students.id],
-  grade: [students.grade, students.lastName, students.firstName, students.id],
-  school: [schools.code, students.lastName, students.firstName, students.id],
-  status: [students.status, students.lastName, students.firstName, students.id],
-  updatedAt: [students.updatedAt, students.id],
-};
-
-/** Each sort's key of a row, in the order of {@link sortOrders}: what a cursor carries. */
-const sortKeys: Record<string, (record: ListedRecord) => (string | number)[]> = {
-  lastName: (r) => [r.lastName, r.firstName, r.id],
-  firstName: (r) => [r.firstName, r.lastName, r.id],
-  studentNumber: (r) => [r.studentNumber, r.id],
-  grade: (r) => [r.grade, r.lastName, r.firstName, r.id],
-  school: (r) => [r.schoolCode, r.lastName, r.firstName, r.id],
-  status: (r) => [r.status, r.lastName, r.firstName, r.id],
-  updatedAt: (r) => [r.updatedAtText, r.id],
-};
-
-/**
  * A listed row: the student, and its last change as PostgreSQL's own text, which keeps the
  * microseconds a JavaScript Date would drop (a cursor must hold the exact key).
  */
@@ -47,6 +21,53 @@ const listedColumns = {
   updatedAtText: sql<string>`${students.updatedAt}::text`,
 };
 
+/** One column of a sort, and the field of a listed row that holds its value for a cursor. */
+type SortColumn = [column: AnyColumn, key: keyof ListedRecord];
+
+/**
+ * Each sort field and the full ORDER BY it stands for. Every list ends in the id so pages never
+ * repeat or skip a row, and each order matches an index of the students table (the school sort
+ * walks the few schools by code and each school's name index).
+ */
+const sortOrders: Record<string, SortColumn[]> = {
+  lastName: [
+    [students.lastName, 'lastName'],
+    [students.firstName, 'firstName'],
+    [students.id, 'id'],
+  ],
+  firstName: [
+    [students.firstName, 'firstName'],
+    [students.lastName, 'lastName'],
+    [students.id, 'id'],
+  ],
+  studentNumber: [
+    [students.studentNumber, 'studentNumber'],
+    [students.id, 'id'],
+  ],
+  grade: [
+    [students.grade, 'grade'],
+    [students.lastName, 'lastName'],
+    [students.firstName, 'firstName'],
+    [students.id, 'id'],
+  ],
+  school: [
+    [schools.code, 'schoolCode'],
+    [students.lastName, 'lastName'],
+    [students.firstName, 'firstName'],
+    [students.id, 'id'],
+  ],
+  status: [
+    [students.status, 'status'],
+    [students.lastName, 'lastName'],
+    [students.firstName, 'firstName'],
+    [students.id, 'id'],
+  ],
+  updatedAt: [
+    [students.updatedAt, 'updatedAtText'],
+    [students.id, 'id'],
+  ],
+};
+
 /** A cursor: the sort it was made for and the last row's key in that sort. */
 const cursorSchema = z.object({
   sort: z.string(),
@@ -54,8 +75,8 @@ const cursorSchema = z.object({
 });
 
 /** The opaque `after` cursor for the row a page ended on (base64url JSON, RFC 4648 §5). */
-export function cursorAfter(sort: string, record: ListedRecord): string {
-  const key = sortKeys[sort.split(':')[0]!]!(record);
+function cursorAfter(sort: string, record: ListedRecord): string {
+  const key = sortOrders[sort.split(':')[0]!]!.map(([, field]) => record[field]);
   return Buffer.from(JSON.stringify({ sort, key })).toString('base64url');
 }
 
@@ -77,9 +98,9 @@ function afterCondition(after: string, sort: string): SQL {
     throw badCursor(`The cursor was made for the sort ${cursor.sort}, not ${sort}.`);
   }
   const [field, direction] = sort.split(':') as [string, 'asc' | 'desc'];
-  const columns = sortOrders[field]!;
+  const columns = sortOrders[field]!.map(([column]) => column);
   const key = cursor.key;
-  // Numbers for number columns; text, and ISO 8601 text for a timestamp, for the rest.
+  // Numbers for number columns; text for the rest (a timestamp as PostgreSQL wrote it).
   const expected = columns.map((column) => (column.dataType === 'number' ? 'number' : 'string'));
   if (
     key.length !== columns.length ||
@@ -88,7 +109,7 @@ function afterCondition(after: string, sort: string): SQL {
     throw badCursor('The cursor is not one this server gave out.');
   }
   const values = key.map((value, index) =>
-    field === 'updatedAt' && index === 0 ? sql`${value}::timestamptz` : sql`${value}`,
+    columns[index]!.dataType === 'date' ? sql`${value}::timestamptz` : sql`${value}`,
   );
   return sql`(${sql.join(columns, sql`, `)}) ${sql.raw(direction === 'desc' ? '<' : '>')} (${sql.join(values, sql`, `)})`;
 }
@@ -99,7 +120,7 @@ function afterCondition(after: string, sort: string): SQL {
  */
 function orderBy(sort: string, reversed = false): SQL[] {
   const [field, direction] = sort.split(':') as [string, 'asc' | 'desc'];
-  const columns = sortOrders[field];
+  const columns = sortOrders[field]?.map(([column]) => column);
   if (!columns) {
     throw badRequest(
       `Cannot sort by '${field}'. Sort by one of: ${Object.keys(sortOrders).join(', ')}.`,
@@ -148,15 +169,17 @@ const sortMatchesBelow = 5_000;
  * in the reverse order (an index walks `total - offset` rows instead of `offset`), then turned
  * round; a search with few matches is fenced (a subquery with a LIMIT is not flattened into the
  * outer query by PostgreSQL's planner), so the planner gathers the matches through the prefix
- * indexes instead of filtering its way down the whole sort index.
+ * indexes instead of filtering its way down the whole sort index. A page after a cursor starts
+ * at the cursor and ignores the offset.
  */
 export function pagePlan(
   page: { offset: number; limit: number },
   total: number,
-  options: { search: boolean },
+  options: { search: boolean; afterCursor?: boolean },
 ): { offset: number; limit: number; reversed: boolean; fenced: boolean } | undefined {
-  if (page.offset >= total) return undefined;
   const fenced = options.search && total < sortMatchesBelow;
+  if (options.afterCursor) return { offset: 0, limit: page.limit, reversed: false, fenced };
+  if (page.offset >= total) return undefined;
   const limit = Math.min(page.limit, total - page.offset);
   if (!fenced && page.offset + limit / 2 > total / 2) {
     return { offset: total - page.offset - limit, limit, reversed: true, fenced };
@@ -224,14 +247,7 @@ export async function listStudents(
         .from(studentCounts)
         .where(and(...countConditions))) as [{ total: number }])
     : ((await db.select({ total: count() }).from(students).where(where)) as [{ total: number }]);
-  const plan = after
-    ? {
-        offset: 0,
-        limit: list.limit,
-        reversed: false,
-        fenced: Boolean(list.q) && total < sortMatchesBelow,
-      }
-    : pagePlan(list, total, { search: Boolean(list.q) });
+  const plan = pagePlan(list, total, { search: Boolean(list.q), afterCursor: Boolean(after) });
   if (!plan) return { rows: [], total };
   const source = plan.fenced
     ? // The limit is the fence; it cuts nothing, as a fenced search has fewer matches.
