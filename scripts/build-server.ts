@@ -1,17 +1,28 @@
 import { build } from 'esbuild';
+import fs from 'node:fs';
 import { projectRoot } from '../server/project-paths';
 
 /**
- * `npm run build:server`: bundles the server's own TypeScript into dist/server/main.mjs, so a
- * production start loads one plain JavaScript file instead of compiling every module on the
- * way (packages from node_modules stay outside the bundle). Paths to the web build and the
- * migrations are found from the project root, so the bundle runs from dist/server/.
+ * Packages left outside the bundle: PGlite reads its WebAssembly and file-system image from
+ * beside its own module, pdfmake and exceljs load on the first PDF or workbook (pdfmake through
+ * `require` at run time), and pg-native is node-postgres's optional native driver.
+ */
+const external = ['@electric-sql/pglite', 'pdfmake', 'exceljs', 'pg-native'];
+
+/**
+ * `npm run build:server`: bundles the server and the packages it uses into dist/server/, so a
+ * production start reads a few plain JavaScript files instead of compiling every module on the
+ * way and resolving hundreds of files in node_modules (start-up, tests/bench/NOTES.md). Paths
+ * to the web build and the migrations are found from the project root, so the bundle runs from
+ * dist/server/.
  */
 export async function buildServer(): Promise<string> {
   const outdir = `${projectRoot}/dist/server`;
+  // Chunk names carry a content hash: clear the last build's.
+  fs.rmSync(outdir, { recursive: true, force: true });
   await build({
     absWorkingDir: projectRoot,
-    entryPoints: ['server/main.ts'],
+    entryPoints: [{ in: 'server/serve.ts', out: 'main' }],
     outdir,
     outExtension: { '.js': '.mjs' },
     bundle: true,
@@ -20,7 +31,11 @@ export async function buildServer(): Promise<string> {
     platform: 'node',
     target: 'node20',
     format: 'esm',
-    packages: 'external',
+    external,
+    // Bundled CommonJS packages call require() for Node's own modules.
+    banner: {
+      js: "import { createRequire as createRequireForBundle } from 'node:module'; const require = createRequireForBundle(import.meta.url);",
+    },
     sourcemap: true,
     logLevel: 'warning',
   });

@@ -109,7 +109,8 @@ export function closeOnSignals(close: () => Promise<void>, logger: Logger) {
   process.on('SIGTERM', () => stop('SIGTERM'));
 }
 
-if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+/** Starts the server from the environment's configuration, as `npm run serve` does. */
+export async function serveFromEnvironment(): Promise<void> {
   const config = loadConfig();
   const logger = createLogger(config.logLevel);
   try {
@@ -123,3 +124,6 @@ if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
     process.exit(1);
   }
 }
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1])
+  await serveFromEnvironment();

@@ -1,14 +1,14 @@
 import { PGlite } from '@electric-sql/pglite';
 import { drizzle as drizzlePglite } from 'drizzle-orm/pglite';
-import { drizzle as drizzleNodePostgres } from 'drizzle-orm/node-postgres';
 import { migrate as migratePglite } from 'drizzle-orm/pglite/migrator';
 import { migrate as migrateNodePostgres } from 'drizzle-orm/node-postgres/migrator';
 import type { PgDatabase, PgQueryResultHKT } from 'drizzle-orm/pg-core';
 import fs from 'node:fs';
 import path from 'node:path';
-import pg from 'pg';
+import type pg from 'pg';
 import * as schema from './schema/index';
 import { migrationsFolder } from '../project-paths';
+import { preloadedPgliteArtifacts } from './pglite-preload';
 
 /** The Drizzle database, whichever PostgreSQL is behind it. */
 export type Database = PgDatabase<PgQueryResultHKT, typeof schema>;
@@ -40,6 +40,16 @@ export interface OpenOptions {
   logQuery?: (query: string, params: unknown[]) => void;
 }
 
+/**
+ * How the embedded engine starts: PGlite's own parameters plus a 32 MB buffer pool instead of
+ * PostgreSQL's default 128 MB. Setting up the pool is WebAssembly work that grows with its size
+ * (measured here: one function took 485 ms of the start at 128 MB, 99 ms at 16 MB). The pool
+ * caches pages of files the process reads back quickly (a local data folder, or memory), and the
+ * benchmarks' pages and Overview figures did not slow with the smaller pool (tests/bench/NOTES.md,
+ * start-up). PostgreSQL documentation, 19.4.1 "Memory": shared_buffers.
+ */
+export const pgliteStartParams = [...PGlite.defaultStartParams, '-c', 'shared_buffers=32MB'];
+
 /** Opens the database without migrating it. */
 export async function openDatabase(
   location: DatabaseLocation,
@@ -47,6 +57,11 @@ export async function openDatabase(
 ): Promise<DatabaseHandle> {
   const logger = options.logQuery ? { logQuery: options.logQuery } : undefined;
   if (location.kind === 'postgres') {
+    // Loaded only for a server: an embedded start does not pay for node-postgres.
+    const [{ default: pg }, { drizzle: drizzleNodePostgres }] = await Promise.all([
+      import('pg'),
+      import('drizzle-orm/node-postgres'),
+    ]);
     const pool = new pg.Pool({ connectionString: location.url, max: 10 });
     // An idle pooled connection the server closes (a restart, a failover, an administrator)
     // errors on the pool; node-postgres drops that client and the next query opens another.
@@ -61,11 +76,14 @@ export async function openDatabase(
   if (location.kind === 'pglite') {
     const folder = path.join(location.dataDir, 'pg');
     fs.mkdirSync(folder, { recursive: true });
-    pglite = await PGlite.create(folder);
+    pglite = await PGlite.create(folder, {
+      startParams: pgliteStartParams,
+      ...(await preloadedPgliteArtifacts()),
+    });
   } else if (location.kind === 'pglite-image') {
-    pglite = await PGlite.create({ loadDataDir: location.image });
+    pglite = await PGlite.create({ loadDataDir: location.image, startParams: pgliteStartParams });
   } else {
-    pglite = await PGlite.create();
+    pglite = await PGlite.create({ startParams: pgliteStartParams });
   }
   const db = drizzlePglite({ client: pglite, schema, logger }) as unknown as Database;
   return {
@@ -83,6 +101,8 @@ export async function migrateDatabase(handle: DatabaseHandle): Promise<void> {
   if (handle.kind === 'postgres') {
     await migrateNodePostgres(handle.db as never, { migrationsFolder });
   } else {
+    // Imported up front: right after PGlite opens, V8 compiles its hot WebAssembly on the
+    // background threads and a module read from disk then waited ~0.3 s (measured here).
     await migratePglite(handle.db as never, { migrationsFolder });
   }
 }

@@ -2,7 +2,7 @@ import { spawn } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { migrateDatabase, openDatabase } from '../../server/db/client';
+import { migrateDatabase, openDatabase, pgliteStartParams } from '../../server/db/client';
 import { seedDemo } from '../../server/seed/demo';
 import { schools } from '../../server/db/schema/index';
 import { loadBenchStudents } from './bench-district';
@@ -66,7 +66,7 @@ export async function benchStartup(options: { students: number }): Promise<Bench
       [
         '--input-type=module',
         '-e',
-        `import { PGlite } from '@electric-sql/pglite'; const db = await PGlite.create(${JSON.stringify(path.join(dataDir, 'pg'))}); await db.query('select 1'); console.log('open'); await db.close();`,
+        `import { PGlite } from '@electric-sql/pglite'; const db = await PGlite.create(${JSON.stringify(path.join(dataDir, 'pg'))}, { startParams: ${JSON.stringify(pgliteStartParams)} }); await db.query('select 1'); console.log('open'); await db.close();`,
       ],
       {},
       (output) => output.includes('open'),
