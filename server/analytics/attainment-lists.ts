@@ -11,8 +11,9 @@ import type { Database } from '../db/client';
 import { rowsOf } from '../db/client';
 import { badRequest } from '../core/errors';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
-import { schoolScope, type Actor } from '../core/policy';
+import type { Actor } from '../core/policy';
 import { activeRuleLadder } from '../ladder/ladder-queries';
+import { bestTempoCodes } from '../ladder/attainment';
 import { daysBefore, studentCondition, today } from './analytics-scope';
 import { topUpAttainment } from './overview-service';
 
@@ -101,15 +102,13 @@ export async function listAttainment(
   return { rows: rowsOf<AttainmentRow>(rows), total: total!.total };
 }
 
-/** The audition-ready query's fields that choose the requirements or the page, not students. */
-const notFilters = new Set(['requirementCodes', 'minTempo', 'offset', 'limit', 'sort']);
-
 /** From how many qualifying students on, a page is found by walking the students in order. */
 const denseAuditionResult = 1_000;
 
 /**
  * `GET /api/analytics/audition-ready`: students who passed every chosen requirement at the
- * tempo asked (each requirement's own, or `minTempo`), from the fastest-pass summary.
+ * tempo asked (each requirement's own, or `minTempo`), from each student's fastest tempos in
+ * their summary row (`student_attainment.best_tempos`, kept with the rung on every write).
  */
 export async function auditionReady(
   db: Database,
@@ -126,89 +125,56 @@ export async function auditionReady(
   );
   const codes = [...new Set(list.requirementCodes)];
   const unknown = codes.filter((code) => !tempoByCode.has(code));
-  if (unknown.length) {
+  if (!ladder || unknown.length) {
     throw badRequest(`The ladder in force has no requirement ${unknown.join(', ')}.`, [
       { field: 'requirementCodes', message: `Unknown requirement ${unknown.join(', ')}.` },
     ]);
   }
   const tempoOf = (code: string) => list.minTempo ?? tempoByCode.get(code)!;
-  // OFFSET 0 keeps each test a per-student index probe instead of a semi-join the planner
-  // weighs in every join order (planning a six-table join had cost more than running it).
-  const passedBy = (code: string, alias: string) =>
-    sql`exists (select 1 from passed_requirements ${sql.raw(alias)} where ${sql.raw(alias)}.student_id = s.id and ${sql.raw(alias)}.requirement_code = ${code} and ${sql.raw(alias)}.best_tempo >= ${tempoOf(code)} offset 0)`;
-  const scoped = sql.join([studentCondition(actor, list), searchCondition(list.q)], sql` and `);
-  // How many: the students of each requirement's fast-enough passes, intersected (one index
-  // range per requirement and a hashed set operation), then the caller's scope and search.
+  // PostgreSQL arrays count from 1.
+  const slots = new Map(bestTempoCodes(ladder.rungs).map((code, index) => [code, index + 1]));
+  const slotOf = (code: string) => sql.raw(String(slots.get(code)!));
+  // Every chosen requirement at its tempo, read from the student's one summary row. The row
+  // must be of the ladder in force (every row is rewritten when a version is published).
   const passedAll = sql.join(
-    codes.map(
-      (code) =>
-        sql`select student_id from passed_requirements where requirement_code = ${code} and best_tempo >= ${tempoOf(code)}`,
-    ),
-    sql` intersect `,
+    [
+      sql`a.ladder_version_id = ${ladder.versionId}`,
+      ...codes.map((code) => sql`a.best_tempos[${slotOf(code)}] >= ${tempoOf(code)}`),
+    ],
+    sql` and `,
   );
-  // The whole district with no filter counts every qualifier less the few who have left (a
-  // small partial index), instead of matching every qualifier to its summary row.
-  // Any filter or search (one added later too) takes the general count.
-  const unfiltered = Object.entries(list).every(
-    ([name, value]) => value === undefined || notFilters.has(name),
-  );
-  const wholeDistrict = schoolScope(actor) === 'all' && unfiltered;
+  const inScope = studentCondition(actor, list);
+  const search = searchCondition(list.q);
+  // How many: one pass over the summary rows (the students' names only to search them).
   const [counted] = rowsOf<{ total: number }>(
-    await db.execute(
-      wholeDistrict
-        ? sql`select (count(*) - count(a.student_id))::int as total from (${passedAll}) m
-            left join student_attainment a on a.student_id = m.student_id and not a.active`
-        : sql`select count(*)::int as total from (${passedAll}) m
-            join student_attainment a on a.student_id = m.student_id
-            ${list.q ? sql`join students s on s.id = m.student_id` : sql``}
-            where ${scoped}`,
-    ),
+    await db.execute(sql`select count(*)::int as total from student_attainment a
+      ${list.q ? sql`join students s on s.id = a.student_id` : sql``}
+      where ${passedAll} and ${inScope} and ${search}`),
   );
   const total = counted!.total;
   if (total === 0 || list.offset >= total) return { rows: [], total };
   // Which page: when many students qualify, walk the students in the order asked and test each
-  // (the page fills after a few hundred); when few do, start from the passes of the rarest
-  // requirement (a higher rung is passed by fewer students) and sort that small set.
-  const rungOfCode = new Map(
-    ladder!.rungs.flatMap((rung) =>
-      rung.requirements.map((requirement) => [requirement.id, rung.number] as const),
-    ),
-  );
-  const [rarest] = [...codes].sort((one, two) => rungOfCode.get(two)! - rungOfCode.get(one)!);
+  // (the page fills after a few hundred rows); when few do, find them first (the subquery,
+  // fenced by OFFSET 0, is planned on its own as one pass) and sort that small set.
   const dense = total >= (options.denseFrom ?? denseAuditionResult);
   const from = dense
-    ? sql`from students s join student_attainment a on a.student_id = s.id join schools sc on sc.id = a.school_id`
-    : sql`from passed_requirements r join students s on s.id = r.student_id
-        join student_attainment a on a.student_id = r.student_id join schools sc on sc.id = a.school_id`;
-  const passes = codes
-    .filter((code) => dense || code !== rarest)
-    .map((code, index) => passedBy(code, `p${index}`));
-  const where = sql.join(
-    [
-      ...(dense
-        ? []
-        : [sql`r.requirement_code = ${rarest!} and r.best_tempo >= ${tempoOf(rarest!)}`]),
-      ...passes,
-      scoped,
-    ],
-    sql` and `,
-  );
-  const page = rowsOf<Omit<AuditionReadyRow, 'bestTempos'>>(
+    ? sql`from students s join student_attainment a on a.student_id = s.id`
+    : sql`from (select * from student_attainment a where ${passedAll} and ${inScope} offset 0) a
+        join students s on s.id = a.student_id`;
+  const page = rowsOf<Omit<AuditionReadyRow, 'bestTempos'> & { tempos: number[] }>(
     await db.execute(sql`select s.id, s.student_number as "studentNumber", s.first_name as "firstName", s.last_name as "lastName",
-      s.grade::int as grade, s.school_id as "schoolId", sc.code as "schoolCode", a.rung::int as rung
-      ${from} where ${where} order by ${orderOf(list.sort)} limit ${list.limit} offset ${list.offset}`),
+      s.grade::int as grade, s.school_id as "schoolId", sc.code as "schoolCode", a.rung::int as rung,
+      array[${sql.join(
+        codes.map((code) => sql`a.best_tempos[${slotOf(code)}]`),
+        sql`, `,
+      )}]::int[] as tempos
+      ${from} join schools sc on sc.id = a.school_id
+      where ${dense ? sql`${passedAll} and ${inScope}` : sql`true`} and ${search}
+      order by ${orderOf(list.sort)} limit ${list.limit} offset ${list.offset}`),
   );
-  const pageRows = page;
-  const best = pageRows.length
-    ? rowsOf<{ student_id: number; tempos: Record<string, number> }>(
-        await db.execute(sql`select p.student_id, json_object_agg(p.requirement_code, p.best_tempo) as tempos
-          from passed_requirements p
-          where p.student_id = any(${`{${pageRows.map((row) => row.id).join(',')}}`}::int[])
-            and p.requirement_code = any(${`{${codes.join(',')}}`}::text[])
-          group by p.student_id`),
-      )
-    : [];
-  const tempos = new Map(best.map((row) => [row.student_id, row.tempos]));
-  const rows = pageRows.map((row) => ({ ...row, bestTempos: tempos.get(row.id) ?? {} }));
+  const rows = page.map(({ tempos, ...row }) => ({
+    ...row,
+    bestTempos: Object.fromEntries(codes.map((code, index) => [code, tempos[index]!])),
+  }));
   return { rows, total };
 }

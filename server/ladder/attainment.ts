@@ -1,5 +1,10 @@
 import { sql, type SQL } from 'drizzle-orm';
-import { currentRung, metRequirements, type PassOffRecord } from '../../shared/ladder/index';
+import {
+  currentRung,
+  metRequirements,
+  type PassOffRecord,
+  type Rung,
+} from '../../shared/ladder/index';
 import { rowsOf } from '../db/client';
 import { activeRuleLadder, type Queryable } from './ladder-queries';
 import { familyOf, studentInstruments } from './student-families';
@@ -12,6 +17,17 @@ interface StandingRow {
   family: string;
   rung: number;
   met_count: number;
+  best_tempos: (number | null)[] | null;
+}
+
+/**
+ * The requirement codes of a ladder in the order of `student_attainment.best_tempos`: sorted by
+ * code (as PostgreSQL's "C" collation sorts them, which migration 0012 relies on).
+ */
+export function bestTempoCodes(rungs: readonly Rung[]): string[] {
+  return [
+    ...new Set(rungs.flatMap((rung) => rung.requirements.map((requirement) => requirement.id))),
+  ].sort();
 }
 
 const intArray = (ids: readonly number[]) => `{${ids.join(',')}}`;
@@ -43,6 +59,7 @@ async function standings(
     ]),
   );
   const ids = studentIds ?? rowsOf<{ id: number }>(everyone).map((row) => row.id);
+  const codes = ladder ? bestTempoCodes(ladder.rungs) : [];
   return ids.map((id) => {
     const records: PassOffRecord[] = (passesByStudent.get(id)?.split(',') ?? []).map((pass) => {
       const [code, tempo] = pass.split(':');
@@ -50,12 +67,14 @@ async function standings(
     });
     const family = familyOf(instruments.get(id));
     const rungs = ladder?.rungs ?? [];
+    const fastest = new Map(records.map((record) => [record.requirementId, record.tempo]));
     return {
       student_id: id,
       ladder_version_id: ladder?.versionId ?? null,
       family,
       rung: currentRung(rungs, records, family),
       met_count: metRequirements(rungs, records, family).size,
+      best_tempos: ladder ? codes.map((code) => fastest.get(code) ?? null) : null,
     };
   });
 }
@@ -93,18 +112,20 @@ async function writeStandings(db: Queryable, rows: readonly StandingRow[], dates
     await db.execute(sql`
       insert into student_attainment
         (student_id, school_id, grade, active, stale, ladder_version_id, family, rung, met_count,
-         last_passed_on, last_pass_off_on, updated_at)
+         best_tempos, last_passed_on, last_pass_off_on, updated_at)
       select x.student_id, s.school_id, s.grade, s.status = 'active', false, x.ladder_version_id, x.family,
-        x.rung, x.met_count, d.last_passed_on, d.last_pass_off_on, now()
+        x.rung, x.met_count, x.best_tempos, d.last_passed_on, d.last_pass_off_on, now()
       from json_to_recordset(${JSON.stringify(batch)}::json) as x(
-        student_id int, ladder_version_id int, family text, rung smallint, met_count smallint)
+        student_id int, ladder_version_id int, family text, rung smallint, met_count smallint,
+        best_tempos smallint[])
       join students s on s.id = x.student_id
       left join ${lastDates} d on d.student_id = x.student_id
       order by x.student_id
       on conflict (student_id) do update set
         school_id = excluded.school_id, grade = excluded.grade, active = excluded.active, stale = false,
         ladder_version_id = excluded.ladder_version_id, family = excluded.family, rung = excluded.rung,
-        met_count = excluded.met_count, last_passed_on = excluded.last_passed_on,
+        met_count = excluded.met_count, best_tempos = excluded.best_tempos,
+        last_passed_on = excluded.last_passed_on,
         last_pass_off_on = excluded.last_pass_off_on, updated_at = excluded.updated_at`);
   }
 }

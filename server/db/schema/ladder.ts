@@ -191,6 +191,12 @@ export const studentAttainment = pgTable(
     metCount: smallint('met_count').notNull().default(0),
     lastPassedOn: date('last_passed_on', { mode: 'string' }),
     lastPassOffOn: date('last_pass_off_on', { mode: 'string' }),
+    /**
+     * The fastest passed tempo of each requirement of the ladder version above, in the ladder's
+     * order (rung by rung), null where never passed: the audition-ready list tests a student's
+     * requirements in this one row instead of probing `passed_requirements` for each.
+     */
+    bestTempos: smallint('best_tempos').array(),
     updatedAt: timestamp('updated_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
   },
   (table) => [
@@ -205,10 +211,6 @@ export const studentAttainment = pgTable(
     index('student_attainment_stale_idx')
       .on(table.studentId)
       .where(sql`stale`),
-    // The few students who have left: a district-wide count subtracts them from the qualifiers.
-    index('student_attainment_inactive_idx')
-      .on(table.studentId)
-      .where(sql`not active`),
   ],
 );
 
