@@ -14,7 +14,7 @@ import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import type { Actor } from '../core/policy';
 import { activeRuleLadder } from '../ladder/ladder-queries';
 import { bestTempoCodes } from '../ladder/attainment';
-import { daysBefore, studentCondition, today } from './analytics-scope';
+import { daysBefore, intArray, studentCondition, today } from './analytics-scope';
 import { topUpAttainment } from './overview-service';
 
 const sortable = {
@@ -145,22 +145,21 @@ export async function auditionReady(
   );
   const inScope = studentCondition(actor, list);
   const search = searchCondition(list.q);
-  // How many: one pass over the summary rows (the students' names only to search them).
-  const [counted] = rowsOf<{ total: number }>(
-    await db.execute(sql`select count(*)::int as total from student_attainment a
+  // How many, in one pass over the summary rows (the students' names only to search them);
+  // when they are few, also which: the page is then read by id instead of a second pass.
+  const denseFrom = Math.min(options.denseFrom ?? denseAuditionResult, 2 ** 31 - 1);
+  const [counted] = rowsOf<{ total: number; ids: number[] | null }>(
+    await db.execute(sql`select count(*)::int as total,
+        case when count(*) < ${denseFrom} then array_agg(a.student_id) end as ids
+      from student_attainment a
       ${list.q ? sql`join students s on s.id = a.student_id` : sql``}
       where ${passedAll} and ${inScope} and ${search}`),
   );
-  const total = counted!.total;
+  const { total, ids } = counted!;
   if (total === 0 || list.offset >= total) return { rows: [], total };
   // Which page: when many students qualify, walk the students in the order asked and test each
-  // (the page fills after a few hundred rows); when few do, find them first (the subquery,
-  // fenced by OFFSET 0, is planned on its own as one pass) and sort that small set.
-  const dense = total >= (options.denseFrom ?? denseAuditionResult);
-  const from = dense
-    ? sql`from students s join student_attainment a on a.student_id = s.id`
-    : sql`from (select * from student_attainment a where ${passedAll} and ${inScope} offset 0) a
-        join students s on s.id = a.student_id`;
+  // (the page fills after a few hundred rows); when few do, sort those the count found.
+  const found = ids ? sql`a.student_id = any(${intArray(ids)}::int[]) and ` : sql``;
   const page = rowsOf<Omit<AuditionReadyRow, 'bestTempos'> & { tempos: number[] }>(
     await db.execute(sql`select s.id, s.student_number as "studentNumber", s.first_name as "firstName", s.last_name as "lastName",
       s.grade::int as grade, s.school_id as "schoolId", sc.code as "schoolCode", a.rung::int as rung,
@@ -168,8 +167,9 @@ export async function auditionReady(
         codes.map((code) => sql`a.best_tempos[${slotOf(code)}]`),
         sql`, `,
       )}]::int[] as tempos
-      ${from} join schools sc on sc.id = a.school_id
-      where ${dense ? sql`${passedAll} and ${inScope}` : sql`true`} and ${search}
+      from students s join student_attainment a on a.student_id = s.id
+      join schools sc on sc.id = a.school_id
+      where ${found}${passedAll} and ${inScope} and ${search}
       order by ${orderOf(list.sort)} limit ${list.limit} offset ${list.offset}`),
   );
   const rows = page.map(({ tempos, ...row }) => ({
