@@ -84,23 +84,22 @@ async function expectOracleAgrees(extra: typeof questions = []) {
   expect(found).toBeGreaterThan(5);
 }
 
+/** The HPMS director records one passed pass-off; answers the status. */
+async function hearPass(student: string, requirementCode: string, heardOn: string, tempo: number) {
+  const response = await director.post('/api/pass-offs', {
+    passOffs: [
+      { studentId: district.studentId[student], requirementCode, heardOn, tempo, passed: true },
+    ],
+  });
+  return response.status;
+}
+
 describe('Audition-ready against the pass-offs themselves', () => {
   it('should agree at the start, after new pass-offs and after a version that moves every requirement', async () => {
     await expectOracleAgrees();
 
     // s1 passes r2 at 84: now ready on r1 and r2 at their own tempos.
-    const heard = await director.post('/api/pass-offs', {
-      passOffs: [
-        {
-          studentId: district.studentId['s1'],
-          requirementCode: 'r2-eb-major',
-          heardOn: '2026-11-30',
-          tempo: 84,
-          passed: true,
-        },
-      ],
-    });
-    expect(heard.status).toBe(201);
+    expect(await hearPass('s1', 'r2-eb-major', '2026-11-30', 84)).toBe(201);
     await expectOracleAgrees();
 
     // A version with a requirement whose code sorts first (every stored position moves by one)
@@ -123,18 +122,7 @@ describe('Audition-ready against the pass-offs themselves', () => {
     expect(edited.status, JSON.stringify(edited.body)).toBe(200);
     expect((await coordinator.post(`/api/ladder/versions/${draft.id}/publish`)).status).toBe(200);
     expect((await tempos()).get('r2-eb-major')).toBe(84);
-    const onNew = await director.post('/api/pass-offs', {
-      passOffs: [
-        {
-          studentId: district.studentId['s5'],
-          requirementCode: 'r1-a-major',
-          heardOn: '2026-12-01',
-          tempo: 60,
-          passed: true,
-        },
-      ],
-    });
-    expect(onNew.status).toBe(201);
+    expect(await hearPass('s5', 'r1-a-major', '2026-12-01', 60)).toBe(201);
     await expectOracleAgrees([[['r1-a-major', 'r2-eb-major']], [['r1-a-major']]]);
     expect(await listed(['r1-a-major', 'r2-eb-major'])).toEqual([district.studentId['s5']]);
   });
