@@ -1,11 +1,10 @@
 import { sql } from 'drizzle-orm';
 import type { Overview } from '../../shared/api/analytics';
-import { rowsOf } from '../db/client';
+import { intArray, rowsOf } from '../db/client';
 import type { Queryable } from '../ladder/ladder-queries';
 import type { Actor } from '../core/policy';
 import {
   daysBefore,
-  intArray,
   mondayOf,
   schoolCondition,
   studentCondition,

@@ -1,6 +1,7 @@
 import { sql, type SQL } from 'drizzle-orm';
 import { schoolScope, assertInScope, type Actor } from '../core/policy';
 import type { Drill } from '../../shared/api/analytics';
+import { intArray } from '../db/client';
 
 /** The filters every analytics figure takes. */
 export interface StudentFilters {
@@ -8,9 +9,6 @@ export interface StudentFilters {
   grade?: number | undefined;
   ensembleId?: number | undefined;
 }
-
-/** A Postgres array literal of whole numbers, sent as one parameter. */
-export const intArray = (ids: readonly number[]) => `{${ids.join(',')}}`;
 
 /**
  * The condition on `student_attainment a` for the active students of the actor's schools that

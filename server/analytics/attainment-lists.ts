@@ -8,13 +8,13 @@ import {
 import type { ListResponse } from '../../shared/api/list';
 import { benchmarksInForce } from '../../shared/ladder/index';
 import type { Database } from '../db/client';
-import { rowsOf } from '../db/client';
+import { intArray, rowsOf } from '../db/client';
 import { badRequest } from '../core/errors';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import type { Actor } from '../core/policy';
 import { activeRuleLadder } from '../ladder/ladder-queries';
 import { bestTempoCodes } from '../ladder/attainment';
-import { daysBefore, intArray, studentCondition, today } from './analytics-scope';
+import { daysBefore, studentCondition, today } from './analytics-scope';
 import { topUpAttainment } from './overview-service';
 
 const sortable = {

@@ -1,10 +1,10 @@
 import { sql } from 'drizzle-orm';
 import type { Overview } from '../../shared/api/analytics';
 import { benchmarksInForce, type Benchmark } from '../../shared/ladder/index';
-import { rowsOf } from '../db/client';
+import { intArray, rowsOf } from '../db/client';
 import type { Queryable } from '../ladder/ladder-queries';
 import type { Actor } from '../core/policy';
-import { intArray, studentCondition, studentsDrill, type StudentFilters } from './analytics-scope';
+import { studentCondition, studentsDrill, type StudentFilters } from './analytics-scope';
 
 /** How many active students of one school and grade stand on one rung. */
 export interface HistogramCell {

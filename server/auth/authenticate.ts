@@ -20,8 +20,7 @@ export function authenticate(db: Database) {
       if (!match) {
         throw new HttpError(401, 'bad_token', "The Authorization header must be 'Bearer <token>'.");
       }
-      const userId = await resolveToken(db, match[1]!);
-      const actor = userId === undefined ? undefined : await loadActor(db, userId, 'token');
+      const actor = await resolveToken(db, match[1]!);
       if (!actor) throw badToken();
       request.actor = actor;
       return next();

@@ -12,9 +12,16 @@ export function parseListQuery<Filters extends z.ZodObject>(
   query: unknown,
   filters: Filters,
 ): ListQuery & z.infer<Filters> {
-  return parseInput(listQuerySchema.extend(filters.shape), query, 'The list query') as ListQuery &
-    z.infer<Filters>;
+  let schema = listSchemas.get(filters);
+  if (!schema) listSchemas.set(filters, (schema = listQuerySchema.extend(filters.shape)));
+  return parseInput(schema, query, 'The list query') as ListQuery & z.infer<Filters>;
 }
+
+/**
+ * Each resource's list query schema, built once: zod compiles a schema's parser on its first
+ * use, which had been happening on every request.
+ */
+const listSchemas = new WeakMap<z.ZodObject, z.ZodObject>();
 
 /**
  * The ORDER BY for a list: the requested field, then the id so pages never repeat or skip a

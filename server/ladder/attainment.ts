@@ -5,7 +5,7 @@ import {
   type PassOffRecord,
   type Rung,
 } from '../../shared/ladder/index';
-import { rowsOf } from '../db/client';
+import { intArray, rowsOf } from '../db/client';
 import { activeRuleLadder, type Queryable } from './ladder-queries';
 import { familyOf, studentInstruments } from './student-families';
 
@@ -29,8 +29,6 @@ export function bestTempoCodes(rungs: readonly Rung[]): string[] {
     ...new Set(rungs.flatMap((rung) => rung.requirements.map((requirement) => requirement.id))),
   ].sort();
 }
-
-const intArray = (ids: readonly number[]) => `{${ids.join(',')}}`;
 
 /**
  * Each student's rung and met count against the active ladder, computed by the ladder rules

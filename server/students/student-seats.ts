@@ -1,5 +1,5 @@
-import { and, eq, inArray } from 'drizzle-orm';
-import type { Database, Transaction } from '../db/client';
+import { and, eq, sql } from 'drizzle-orm';
+import { intArray, type Database, type Transaction } from '../db/client';
 import { enrollments, ensembles } from '../db/schema/index';
 import { instrumentName, scorePosition } from '../enrollments/instrument-order';
 
@@ -34,7 +34,8 @@ export async function seatSummaries(
     .innerJoin(ensembles, eq(ensembles.id, enrollments.ensembleId))
     .where(
       and(
-        inArray(enrollments.studentId, studentIds),
+        // One array parameter, not one per student: building a statement costs per parameter.
+        sql`${enrollments.studentId} = any(${intArray(studentIds)}::int[])`,
         eq(enrollments.schoolYearId, schoolYearId),
         eq(enrollments.active, true),
       ),

@@ -1,6 +1,8 @@
 import { createHash, randomBytes } from 'node:crypto';
-import { and, eq, isNull } from 'drizzle-orm';
-import type { Database } from '../db/client';
+import { eq, sql } from 'drizzle-orm';
+import { rowsOf, type Database } from '../db/client';
+import type { Actor } from '../core/policy';
+import { actorColumns, actorFromRow } from '../people/people-queries';
 import { apiTokens } from '../db/schema/index';
 
 const tokenPrefix = 'tutti_';
@@ -21,17 +23,26 @@ export async function issueToken(db: Database, userId: number, label = '') {
   return { id: row!.id, token };
 }
 
-/** The user a live token belongs to, noting when it was last used; undefined when unknown or revoked. */
-export async function resolveToken(db: Database, token: string): Promise<number | undefined> {
+/**
+ * The actor a live token belongs to (an active user), noting when the token was last used (at
+ * most once a minute); undefined when the token is unknown or revoked. One statement reads the
+ * token, its user and their schools.
+ */
+export async function resolveToken(db: Database, token: string): Promise<Actor | undefined> {
   if (!token.startsWith(tokenPrefix) || token.length > 200) return undefined;
-  const [row] = await db
-    .select()
-    .from(apiTokens)
-    .where(and(eq(apiTokens.tokenHash, hashToken(token)), isNull(apiTokens.revokedAt)));
+  const [row] = rowsOf<
+    Parameters<typeof actorFromRow>[0] & { token_id: number; last_used_at: Date | null }
+  >(
+    await db.execute(sql`
+      select t.id as token_id, t.last_used_at, ${actorColumns}
+      from api_tokens t join users u on u.id = t.user_id
+      where t.token_hash = ${hashToken(token)} and t.revoked_at is null and u.active`),
+  );
   if (!row) return undefined;
   const now = new Date();
-  if (!row.lastUsedAt || now.getTime() - row.lastUsedAt.getTime() > lastUsedResolutionMs) {
-    await db.update(apiTokens).set({ lastUsedAt: now }).where(eq(apiTokens.id, row.id));
+  const lastUsed = row.last_used_at ? new Date(row.last_used_at) : undefined;
+  if (!lastUsed || now.getTime() - lastUsed.getTime() > lastUsedResolutionMs) {
+    await db.update(apiTokens).set({ lastUsedAt: now }).where(eq(apiTokens.id, row.token_id));
   }
-  return row.userId;
+  return actorFromRow(row, 'token');
 }

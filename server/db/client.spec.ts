@@ -1,0 +1,35 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { sql } from 'drizzle-orm';
+import { openDatabase, rowsOf, type DatabaseHandle } from './client';
+
+describe('the embedded engine as opened', () => {
+  let handle: DatabaseHandle;
+  beforeAll(async () => {
+    handle = await openDatabase({ kind: 'pglite-memory' });
+  });
+  afterAll(() => handle.close());
+
+  it('keeps no parsers for arrays of composite types, and keeps those of base types', async () => {
+    const pglite = handle.pglite!;
+    const { rows } = await pglite.query<{ oid: number }>(
+      `select typarray::int as oid from pg_type where typtype = 'c' and typarray <> 0`,
+    );
+    // PostgreSQL gives each catalog a row type (pg_class among them), each with an array type.
+    expect(rows.length).toBeGreaterThan(100);
+    for (const { oid } of rows) expect(pglite.parsers[oid]).toBeUndefined();
+    // Fixed OIDs from PostgreSQL's pg_type.dat: int4[] 1007, text[] 1009, timestamptz 1184.
+    for (const oid of [1007, 1009, 1184]) expect(pglite.parsers[oid]).toBeTypeOf('function');
+  });
+
+  it('still reads arrays of base types and timestamps', async () => {
+    const [row] = rowsOf<{ ids: number[]; names: string[]; at: string | Date }>(
+      await handle.db.execute(
+        sql`select array[3, 1]::int[] as ids, array['a', 'b c']::text[] as names, timestamptz '2026-12-03 07:00:00+00' as at`,
+      ),
+    );
+    expect(row!.ids).toEqual([3, 1]);
+    expect(row!.names).toEqual(['a', 'b c']);
+    // Drizzle has PGlite hand timestamps over as PostgreSQL's text (node-postgres gives a Date).
+    expect(new Date(row!.at).toISOString()).toBe('2026-12-03T07:00:00.000Z');
+  });
+});
