@@ -2,7 +2,7 @@ import { and, count, eq, ilike, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import { z } from 'zod';
 import { rowsOf, type Database } from '../db/client';
-import { auditLog, schools, userSchools, users } from '../db/schema/index';
+import { auditLog, schools, users } from '../db/schema/index';
 import type { Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import type { ListResponse } from '../../shared/api/list';
