@@ -108,10 +108,53 @@ function afterCondition(after: string, sort: string): SQL {
   ) {
     throw badCursor('The cursor is not one this server gave out.');
   }
+  return keyCondition(sort, key, direction === 'desc' ? '<' : '>');
+}
+
+/** A sort's columns compared, as one row, with a key of values in that sort (see above). */
+function keyCondition(sort: string, key: (string | number)[], operator: '<' | '>' | '<=' | '>=') {
+  const columns = sortOrders[sort.split(':')[0]!]!.map(([column]) => column);
   const values = key.map((value, index) =>
     columns[index]!.dataType === 'date' ? sql`${value}::timestamptz` : sql`${value}`,
   );
-  return sql`(${sql.join(columns, sql`, `)}) ${sql.raw(direction === 'desc' ? '<' : '>')} (${sql.join(values, sql`, `)})`;
+  return sql`(${sql.join(columns, sql`, `)}) ${sql.raw(operator)} (${sql.join(values, sql`, `)})`;
+}
+
+/**
+ * From this offset on, a page first finds the key of its first row, selecting only the sort's
+ * columns, and then reads its rows from that key. Walking the offset over the sort's index alone
+ * is an index-only scan where the table's visibility map is current (the import and the seed
+ * vacuum the roster: server/db/statistics.ts); walking it with every column visits each row.
+ * The school sort joins the schools, so it keeps the plain offset.
+ */
+export const keyFirstFrom = 500;
+
+/**
+ * The key, in `sort`, of the row `offset` rows into the students matching `where` (read in the
+ * reverse order when `reversed`); undefined past the end.
+ */
+async function keyAt(
+  db: Database,
+  sort: string,
+  where: SQL | undefined,
+  offset: number,
+  reversed: boolean,
+): Promise<(string | number)[] | undefined> {
+  const columns = sortOrders[sort.split(':')[0]!]!.map(([column]) => column);
+  const fields = Object.fromEntries(
+    columns.map((column, index) => [
+      `k${index}`,
+      column.dataType === 'date' ? sql<string>`${column}::text` : sql<string | number>`${column}`,
+    ]),
+  );
+  const [row] = await db
+    .select(fields)
+    .from(students)
+    .where(where)
+    .orderBy(...orderBy(sort, reversed))
+    .limit(1)
+    .offset(offset);
+  return row ? columns.map((_, index) => row[`k${index}`] as string | number) : undefined;
 }
 
 /**
@@ -249,6 +292,15 @@ export async function listStudents(
     : ((await db.select({ total: count() }).from(students).where(where)) as [{ total: number }]);
   const plan = pagePlan(list, total, { search: Boolean(list.q), afterCursor: Boolean(after) });
   if (!plan) return { rows: [], total };
+  // A deep page starts at its first row's key (see keyFirstFrom).
+  let from: SQL | undefined;
+  if (!plan.fenced && !after && plan.offset >= keyFirstFrom && !sort.startsWith('school:')) {
+    const key = await keyAt(db, sort, where, plan.offset, plan.reversed);
+    if (!key) return { rows: [], total };
+    const descending = sort.endsWith(':desc') !== plan.reversed;
+    from = keyCondition(sort, key, descending ? '<=' : '>=');
+    plan.offset = 0;
+  }
   const source = plan.fenced
     ? // The limit is the fence; it cuts nothing, as a fenced search has fewer matches.
       db.select().from(students).where(where).limit(sortMatchesBelow).as('students')
@@ -257,7 +309,7 @@ export async function listStudents(
     .select(listedColumns)
     .from(source)
     .innerJoin(schools, eq(schools.id, students.schoolId))
-    .where(and(plan.fenced ? undefined : where, after))
+    .where(and(plan.fenced ? undefined : where, after, from))
     .orderBy(...(plan.reversed ? orderBy(sort, true) : order))
     .limit(plan.limit)
     .offset(plan.offset);
