@@ -20,7 +20,14 @@ export async function refreshStatistics(
   db: Database,
   tables: readonly string[] = [],
 ): Promise<void> {
-  await db.execute(sql.raw(`vacuum (analyze) ${tables.map((table) => `"${table}"`).join(', ')}`));
+  if (tables.length === 0) {
+    await db.execute(sql.raw('vacuum (analyze)'));
+    return;
+  }
+  // One statement per table: the embedded engine runs one statement at a time, and everyone
+  // else's pages wait behind each (the three roster tables of a 70,000-student district in one
+  // statement: ~420 ms).
+  for (const table of tables) await db.execute(sql.raw(`vacuum (analyze) "${table}"`));
 }
 
 /**
