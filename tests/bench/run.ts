@@ -82,7 +82,7 @@ async function sections(): Promise<Section[]> {
         const figures: BenchFigure[] = [];
         for (const size of [5_000, 20_000, 50_000]) {
           const [importFigure] = await rosterImport.benchRosterImport({ rows: size });
-          const [pageFigure] = await benchGridPages({ students: size, runs: 20 });
+          const [pageFigure] = await benchGridPages({ students: size, runs: 100 });
           figures.push(
             { ...importFigure!, name: `import ${size.toLocaleString('en-US')} rows` },
             { ...pageFigure!, name: `default page at ${size.toLocaleString('en-US')} students` },
