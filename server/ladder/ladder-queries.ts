@@ -86,18 +86,18 @@ function toApiRequirement(row: RequirementRow) {
 
 /** A version's rungs with their requirements (API shape), in ladder order. */
 export async function loadRungs(db: Queryable, versionId: number): Promise<LadderRung[]> {
-  const [rungRows, requirementRows] = await Promise.all([
-    db
-      .select()
-      .from(ladderRungs)
-      .where(eq(ladderRungs.ladderVersionId, versionId))
-      .orderBy(asc(ladderRungs.number)),
-    db
-      .select()
-      .from(ladderRequirements)
-      .where(eq(ladderRequirements.ladderVersionId, versionId))
-      .orderBy(asc(ladderRequirements.position), asc(ladderRequirements.id)),
-  ]);
+  // One after the other: `db` may be a transaction, one connection that runs one query at a
+  // time (node-postgres deprecates queuing a second query on a busy client).
+  const rungRows = await db
+    .select()
+    .from(ladderRungs)
+    .where(eq(ladderRungs.ladderVersionId, versionId))
+    .orderBy(asc(ladderRungs.number));
+  const requirementRows = await db
+    .select()
+    .from(ladderRequirements)
+    .where(eq(ladderRequirements.ladderVersionId, versionId))
+    .orderBy(asc(ladderRequirements.position), asc(ladderRequirements.id));
   return rungRows.map((rung) => ({
     number: rung.number,
     title: rung.title,
@@ -144,10 +144,8 @@ export async function loadLadder(db: Queryable, versionId: number): Promise<Ladd
     .leftJoin(users, eq(users.id, ladderVersions.createdBy))
     .where(eq(ladderVersions.id, versionId));
   if (!summary) throw notFound('That ladder version');
-  const [rungs, benchmarks] = await Promise.all([
-    loadRungs(db, versionId),
-    loadBenchmarks(db, versionId),
-  ]);
+  const rungs = await loadRungs(db, versionId);
+  const benchmarks = await loadBenchmarks(db, versionId);
   return { ...toVersionSummary(summary as SummaryRow), rungs, benchmarks };
 }
 
@@ -164,10 +162,8 @@ export async function activeRuleLadder(db: Queryable): Promise<{
     .from(ladderVersions)
     .where(eq(ladderVersions.active, true));
   if (!row) return null;
-  const [apiRungs, benchmarks] = await Promise.all([
-    loadRungs(db, row.id),
-    loadBenchmarks(db, row.id),
-  ]);
+  const apiRungs = await loadRungs(db, row.id);
+  const benchmarks = await loadBenchmarks(db, row.id);
   return { versionId: row.id, name: row.name, rungs: toRuleRungs(apiRungs), apiRungs, benchmarks };
 }
 
