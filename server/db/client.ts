@@ -129,6 +129,19 @@ export async function migrateDatabase(handle: DatabaseHandle): Promise<void> {
 /** A PostgreSQL array literal of whole numbers, sent as one parameter (`= any($1::int[])`). */
 export const intArray = (ids: readonly number[]) => `{${ids.join(',')}}`;
 
+/**
+ * Runs queries one after the other and answers their results in order, as `Promise.all` would:
+ * for work given a `Queryable` that may be a transaction, which is one connection running one
+ * query at a time (node-postgres deprecates starting a query on a busy client).
+ */
+export async function oneByOne<const Work extends readonly (() => Promise<unknown>)[]>(
+  ...work: Work
+): Promise<{ -readonly [K in keyof Work]: Awaited<ReturnType<Work[K]>> }> {
+  const results: unknown[] = [];
+  for (const step of work) results.push(await step());
+  return results as { -readonly [K in keyof Work]: Awaited<ReturnType<Work[K]>> };
+}
+
 /** The rows of a raw `db.execute` result, for both drivers. */
 export function rowsOf<Row>(result: unknown): Row[] {
   return (result as { rows: Row[] }).rows;

@@ -11,10 +11,9 @@ import { ladderContext, selectPassOffs, toPassOff } from './pass-off-rows';
 
 async function passOffsByIds(db: Transaction, ids: number[]): Promise<PassOff[]> {
   if (ids.length === 0) return [];
-  const [rows, context] = await Promise.all([
-    selectPassOffs(db).where(inArray(passOffs.id, ids)),
-    ladderContext(db),
-  ]);
+  // One after the other: a transaction is one connection, which runs one query at a time.
+  const rows = await selectPassOffs(db).where(inArray(passOffs.id, ids));
+  const context = await ladderContext(db);
   const byId = new Map(rows.map((row) => [row.id, toPassOff(row, context)]));
   return ids.map((id) => byId.get(id)!);
 }

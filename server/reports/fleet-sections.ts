@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { rowsOf } from '../db/client';
+import { rowsOf, oneByOne } from '../db/client';
 import type { DirectorReportData } from '../../shared/api/report';
 import { notAvailable, tablesExist, type Queryable } from './report-tables';
 import { instrumentName } from './roster-sections';
@@ -14,8 +14,9 @@ export async function fleetSection(
   to: string,
 ): Promise<DirectorReportData['fleet']> {
   if (!(await tablesExist(db, 'instruments', 'loans'))) return notAvailable('Instrument loans');
-  const [loanRows, repairRows] = await Promise.all([
-    db.execute(sql`
+  const [loanRows, repairRows] = await oneByOne(
+    () =>
+      db.execute(sql`
       select i.asset_tag as "assetTag", i.instrument_id as "instrumentType",
         s.student_number as "studentNumber",
         coalesce(nullif(s.preferred_name, ''), s.first_name) || ' ' || s.last_name as student,
@@ -27,9 +28,10 @@ export async function fleetSection(
       join students s on s.id = l.student_id
       where l.school_id = ${schoolId} and l.state = 'active'
       order by l.due_on, i.asset_tag`),
-    db.execute(sql`select count(*)::int as count from instruments i
+    () =>
+      db.execute(sql`select count(*)::int as count from instruments i
       where i.home_school_id = ${schoolId} and i.status = 'in-repair'`),
-  ]);
+  );
   const loans = rowsOf<{
     assetTag: string;
     instrumentType: string;

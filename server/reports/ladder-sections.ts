@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { rowsOf } from '../db/client';
+import { rowsOf, oneByOne } from '../db/client';
 import { benchmarksInForce, type Benchmark } from '../../shared/ladder/benchmarks';
 import type { DirectorReportData, ReportStudent } from '../../shared/api/report';
 import { notAvailable, tablesExist, type Queryable } from './report-tables';
@@ -32,11 +32,13 @@ export async function studentStandings(
   ) {
     return null;
   }
-  const [benchmarkRows, studentRows] = await Promise.all([
-    db.execute(sql`
+  const [benchmarkRows, studentRows] = await oneByOne(
+    () =>
+      db.execute(sql`
       select b.grade::int as grade, b.rung::int as rung, to_char(b.by_date, 'YYYY-MM-DD') as "byDate"
       from ladder_benchmarks b join ladder_versions v on v.id = b.ladder_version_id and v.active`),
-    db.execute(sql`
+    () =>
+      db.execute(sql`
       select s.id, s.student_number as "studentNumber",
         coalesce(nullif(s.preferred_name, ''), s.first_name) || ' ' || s.last_name as name,
         s.grade::int as grade, coalesce(a.rung, 0)::int as rung,
@@ -47,7 +49,7 @@ export async function studentStandings(
       from students s left join student_attainment a on a.student_id = s.id
       where s.school_id = ${schoolId} and s.status = 'active'
       order by s.last_name, s.first_name, s.id`),
-  ]);
+  );
   const inForce = benchmarksInForce(rowsOf<Benchmark>(benchmarkRows), to);
   return rowsOf<Omit<StudentStanding, 'benchmarkRung'>>(studentRows).map((student) => ({
     ...student,

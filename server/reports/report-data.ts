@@ -1,3 +1,4 @@
+import { oneByOne } from '../db/client';
 import { asc, desc, eq } from 'drizzle-orm';
 import { reportRuns, schools } from '../db/schema/index';
 import type {
@@ -29,12 +30,12 @@ export async function assembleDirectorReport(
     .from(schools)
     .where(eq(schools.id, schoolId));
   if (!school) throw notFound('That school');
-  const [enrolment, standings, passOffs, fleet] = await Promise.all([
-    enrolmentSection(db, schoolId),
-    studentStandings(db, schoolId, to),
-    passOffSection(db, schoolId, from, to),
-    fleetSection(db, schoolId, to),
-  ]);
+  const [enrolment, standings, passOffs, fleet] = await oneByOne(
+    () => enrolmentSection(db, schoolId),
+    () => studentStandings(db, schoolId, to),
+    () => passOffSection(db, schoolId, from, to),
+    () => fleetSection(db, schoolId, to),
+  );
   return {
     kind: 'director',
     school,

@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { rowsOf } from '../db/client';
+import { rowsOf, oneByOne } from '../db/client';
 import { instruments } from '../../shared/music/index';
 import type { DirectorReportData } from '../../shared/api/report';
 import type { Queryable } from './report-tables';
@@ -19,24 +19,27 @@ export async function enrolmentSection(
   db: Queryable,
   schoolId: number,
 ): Promise<DirectorReportData['enrolment']> {
-  const [totals, byEnsemble, byInstrument] = await Promise.all([
-    db.execute(sql`select count(*)::int as students from students s
+  const [totals, byEnsemble, byInstrument] = await oneByOne(
+    () =>
+      db.execute(sql`select count(*)::int as students from students s
       where s.school_id = ${schoolId} and s.status = 'active'`),
-    db.execute(sql`
+    () =>
+      db.execute(sql`
       select e.name as label,
         (select count(distinct en.student_id)::int from enrollments en
           join students s on s.id = en.student_id and s.status = 'active'
           where en.ensemble_id = e.id and en.active and en.school_year_id = ${currentYear}) as students
       from ensembles e where e.school_id = ${schoolId}
       order by e.name`),
-    db.execute(sql`
+    () =>
+      db.execute(sql`
       select en.instrument_id as instrument, count(distinct en.student_id)::int as students
       from enrollments en
       join ensembles e on e.id = en.ensemble_id
       join students s on s.id = en.student_id and s.status = 'active'
       where e.school_id = ${schoolId} and en.active and en.school_year_id = ${currentYear}
       group by en.instrument_id`),
-  ]);
+  );
   return {
     students: rowsOf<{ students: number }>(totals)[0]?.students ?? 0,
     byEnsemble: rowsOf<{ label: string; students: number }>(byEnsemble),
