@@ -1,5 +1,5 @@
 import { and, count, desc, eq, exists, gte, ilike, lte, or, sql, type SQL } from 'drizzle-orm';
-import type { Database, Transaction } from '../db/client';
+import { oneByOne, type Database, type Transaction } from '../db/client';
 import { enrollments, passOffs, students } from '../db/schema/index';
 import type { ListResponse } from '../../shared/api/list';
 import { passOffFiltersSchema, type PassOff, type PassOffPatch } from '../../shared/api/pass-off';
@@ -90,10 +90,11 @@ export async function getPassOff(
   actor: Actor,
   id: number,
 ): Promise<PassOff> {
-  const [[row], context] = await Promise.all([
-    selectPassOffs(db).where(eq(passOffs.id, id)),
-    ladderContext(db),
-  ]);
+  // One after the other: `db` may be a transaction (see oneByOne).
+  const [[row], context] = await oneByOne(
+    () => selectPassOffs(db).where(eq(passOffs.id, id)),
+    () => ladderContext(db),
+  );
   if (!row || !maySeeStudent(actor, { id: row.studentId, schoolId: row.schoolId }))
     throw notFound('That pass-off');
   return toPassOff(row, context);

@@ -1,6 +1,6 @@
 import { and, asc, count, eq, ilike, inArray, ne, or, sql, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
-import type { Database, Transaction } from '../db/client';
+import { oneByOne, type Database, type Transaction } from '../db/client';
 import { apiTokens, schools, students, userSchools, users } from '../db/schema/index';
 import type { ListResponse } from '../../shared/api/list';
 import { roles, type Role } from '../../shared/api/roles';
@@ -43,22 +43,25 @@ async function peopleOf(db: Database | Transaction, rows: UserRow[]): Promise<Pe
   if (rows.length === 0) return [];
   const ids = rows.map((row) => row.id);
   const studentIds = rows.flatMap((row) => (row.studentId === null ? [] : [row.studentId]));
-  const [assignments, linked] = await Promise.all([
-    db
-      .select({
-        userId: userSchools.userId,
-        id: schools.id,
-        code: schools.code,
-        name: schools.name,
-      })
-      .from(userSchools)
-      .innerJoin(schools, eq(schools.id, userSchools.schoolId))
-      .where(inArray(userSchools.userId, ids))
-      .orderBy(asc(schools.name)),
-    studentIds.length
-      ? db.select().from(students).where(inArray(students.id, studentIds))
-      : Promise.resolve([]),
-  ]);
+  // One after the other: `db` may be a transaction (see oneByOne).
+  const [assignments, linked] = await oneByOne(
+    () =>
+      db
+        .select({
+          userId: userSchools.userId,
+          id: schools.id,
+          code: schools.code,
+          name: schools.name,
+        })
+        .from(userSchools)
+        .innerJoin(schools, eq(schools.id, userSchools.schoolId))
+        .where(inArray(userSchools.userId, ids))
+        .orderBy(asc(schools.name)),
+    () =>
+      studentIds.length
+        ? db.select().from(students).where(inArray(students.id, studentIds))
+        : Promise.resolve([]),
+  );
   return rows.map((row) => {
     const student = linked.find((candidate) => candidate.id === row.studentId);
     return {
@@ -118,17 +121,18 @@ export async function listPeople(db: Database, query: unknown): Promise<ListResp
 export async function getPerson(db: Database | Transaction, id: number): Promise<PersonDetail> {
   const [row] = await db.select().from(users).where(eq(users.id, id));
   if (!row) throw notFound('That person');
-  const [[person], [tokens]] = await Promise.all([
-    peopleOf(db, [row]),
-    db
-      .select({
-        live: sql<number>`(count(*) filter (where ${apiTokens.revokedAt} is null))::int`,
-        revoked: sql<number>`(count(*) filter (where ${apiTokens.revokedAt} is not null))::int`,
-        lastUsedAt: sql<Date | string | null>`max(${apiTokens.lastUsedAt})`,
-      })
-      .from(apiTokens)
-      .where(eq(apiTokens.userId, id)),
-  ]);
+  const [[person], [tokens]] = await oneByOne(
+    () => peopleOf(db, [row]),
+    () =>
+      db
+        .select({
+          live: sql<number>`(count(*) filter (where ${apiTokens.revokedAt} is null))::int`,
+          revoked: sql<number>`(count(*) filter (where ${apiTokens.revokedAt} is not null))::int`,
+          lastUsedAt: sql<Date | string | null>`max(${apiTokens.lastUsedAt})`,
+        })
+        .from(apiTokens)
+        .where(eq(apiTokens.userId, id)),
+  );
   const lastUsedAt = tokens?.lastUsedAt ? new Date(tokens.lastUsedAt).toISOString() : null;
   return {
     ...person!,
