@@ -8,8 +8,8 @@ import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import type { ListResponse } from '../../shared/api/list';
 import type { AuditEntryRow } from '../../shared/api/person';
 
-/** An actor's row as the one-statement lookups below answer it. */
-interface ActorRow {
+/** An actor's row as the one-statement lookups with `actorColumns` answer it. */
+export interface ActorRow {
   id: number;
   email: string;
   name: string;

@@ -97,8 +97,7 @@ function afterCondition(after: string, sort: string): SQL {
   if (cursor.sort !== sort) {
     throw badCursor(`The cursor was made for the sort ${cursor.sort}, not ${sort}.`);
   }
-  const [field, direction] = sort.split(':') as [string, 'asc' | 'desc'];
-  const columns = sortOrders[field]!.map(([column]) => column);
+  const columns = sortColumns(sort);
   const key = cursor.key;
   // Numbers for number columns; text for the rest (a timestamp as PostgreSQL wrote it).
   const expected = columns.map((column) => (column.dataType === 'number' ? 'number' : 'string'));
@@ -108,12 +107,17 @@ function afterCondition(after: string, sort: string): SQL {
   ) {
     throw badCursor('The cursor is not one this server gave out.');
   }
-  return keyCondition(sort, key, direction === 'desc' ? '<' : '>');
+  return keyCondition(sort, key, sort.endsWith(':desc') ? '<' : '>');
+}
+
+/** The columns of a known sort (`field:direction`), in order. */
+function sortColumns(sort: string): AnyColumn[] {
+  return sortOrders[sort.split(':')[0]!]!.map(([column]) => column);
 }
 
 /** A sort's columns compared, as one row, with a key of values in that sort (see above). */
 function keyCondition(sort: string, key: (string | number)[], operator: '<' | '>' | '<=' | '>=') {
-  const columns = sortOrders[sort.split(':')[0]!]!.map(([column]) => column);
+  const columns = sortColumns(sort);
   const values = key.map((value, index) =>
     columns[index]!.dataType === 'date' ? sql`${value}::timestamptz` : sql`${value}`,
   );
@@ -140,7 +144,7 @@ async function keyAt(
   offset: number,
   reversed: boolean,
 ): Promise<(string | number)[] | undefined> {
-  const columns = sortOrders[sort.split(':')[0]!]!.map(([column]) => column);
+  const columns = sortColumns(sort);
   const fields = Object.fromEntries(
     columns.map((column, index) => [
       `k${index}`,

@@ -2,7 +2,7 @@ import { createHash, randomBytes } from 'node:crypto';
 import { eq, sql } from 'drizzle-orm';
 import { rowsOf, type Database } from '../db/client';
 import type { Actor } from '../core/policy';
-import { actorColumns, actorFromRow } from '../people/people-queries';
+import { actorColumns, actorFromRow, type ActorRow } from '../people/people-queries';
 import { apiTokens } from '../db/schema/index';
 
 const tokenPrefix = 'tutti_';
@@ -30,9 +30,7 @@ export async function issueToken(db: Database, userId: number, label = '') {
  */
 export async function resolveToken(db: Database, token: string): Promise<Actor | undefined> {
   if (!token.startsWith(tokenPrefix) || token.length > 200) return undefined;
-  const [row] = rowsOf<
-    Parameters<typeof actorFromRow>[0] & { token_id: number; last_used_at: Date | null }
-  >(
+  const [row] = rowsOf<ActorRow & { token_id: number; last_used_at: string | Date | null }>(
     await db.execute(sql`
       select t.id as token_id, t.last_used_at, ${actorColumns}
       from api_tokens t join users u on u.id = t.user_id
