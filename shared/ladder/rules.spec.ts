@@ -165,9 +165,11 @@ describe('nextRequirements', () => {
 const families = ['woodwind', 'brass', 'percussion', 'strings', ''];
 const codes = ['a', 'b', 'c', 'd', 'e', 'f', 'g', 'h'];
 
+// A ladder's requirement codes are unique (the ladder editor refuses a code used twice), so a
+// rung's generated requirements are unique by code; the rung's number makes them unique across.
 const rungsArbitrary = fc
   .array(
-    fc.array(
+    fc.uniqueArray(
       fc.record({
         id: fc.constantFrom(...codes),
         tempo: fc.integer({ min: 30, max: 240 }),
@@ -176,7 +178,7 @@ const rungsArbitrary = fc
           nil: undefined,
         }),
       }),
-      { maxLength: 4 },
+      { maxLength: 4, selector: (generated) => generated.id },
     ),
     { minLength: 0, maxLength: 6 },
   )
