@@ -4,6 +4,7 @@ import type { DatabaseHandle } from '../db/client';
 import { refreshStatistics, rosterTables, statisticsStale } from '../db/statistics';
 import { guessEnsembleKind } from './ensemble-kind';
 import { firstRowOfEachStudent, writtenStudentColumns, type ImportPlan } from './import-plan';
+import { rosterGeneration } from './roster-snapshot';
 import { inSqlTransaction, queryJson, type SqlSession, type StagedValue } from './sql-session';
 
 /** Where an import came from, for its history row. */
@@ -111,13 +112,37 @@ async function ensureEnsembles(
   };
 }
 
-/** The file's students as staged rows (the first row of each), split by whether they exist. */
+/**
+ * Whether this transaction may write only what the plan found different from the database.
+ * In PGlite, where transactions run one at a time, that holds when the roster generation
+ * (migration 0013) is where the plan's reads saw it: nothing the plan compared was written
+ * since. On a PostgreSQL server the sequence moves before a concurrent writer commits, so a
+ * plan could miss a change that lands after its reads; there every row is compared again.
+ */
+async function planStillHolds(
+  database: DatabaseHandle,
+  session: SqlSession,
+  plan: ImportPlan,
+): Promise<boolean> {
+  const { generation } = plan.differences;
+  if (database.kind !== 'pglite' || generation === null) return false;
+  return (await rosterGeneration((text) => session.query(text))) === generation;
+}
+
+/**
+ * The students to write as staged rows (the first row of each), split by whether they exist:
+ * every student of the file, or only those the plan found different when it still holds.
+ */
 async function studentRows(
   session: SqlSession,
   plan: ImportPlan,
   schoolIdByCode: Map<string, number>,
+  onlyDifferences: boolean,
 ): Promise<{ existing: StagedValue[][]; fresh: StagedValue[][] }> {
-  const rows: StagedValue[][] = firstRowOfEachStudent(plan.parsed).map((row) => [
+  const students = firstRowOfEachStudent(plan.parsed).filter(
+    (row) => !onlyDifferences || plan.differences.students.has(row.studentId),
+  );
+  const rows: StagedValue[][] = students.map((row) => [
     row.studentId,
     row.firstName,
     row.lastName,
@@ -145,11 +170,13 @@ async function stage(
   students: { existing: StagedValue[][]; fresh: StagedValue[][] },
   schoolIdByCode: Map<string, number>,
   ensembleId: (schoolId: number, name: string) => number,
+  onlyDifferences: boolean,
 ) {
   const fresh = new Set(students.fresh.map((row) => row[0] as string));
   const seats: StagedValue[][] = [];
-  for (const { row } of plan.parsed.rows) {
+  for (const [index, { row }] of plan.parsed.rows.entries()) {
     if (!row.ensemble) continue;
+    if (onlyDifferences && !plan.differences.seatRows.has(index)) continue;
     seats.push([
       row.studentId,
       ensembleId(schoolIdByCode.get(row.schoolCode)!, row.ensemble),
@@ -326,8 +353,11 @@ async function recordHistory(
  * INSERTs on a server), then ensembles, students, seats and withdrawals are written with a
  * handful of INSERT … SELECT and UPDATE … FROM statements that touch only rows that differ.
  * The counts come from what the statements did, so a file imported twice reports every row
- * unchanged the second time. A plan that cannot commit (errors without skip-invalid) writes only
- * its history row. Also writes one summarising audit entry, plus one per updated or withdrawn
+ * unchanged the second time. When nothing the plan read has been written since (see
+ * {@link planStillHolds}), only the students and seats the plan found different are staged, so
+ * a nightly file of 20,000 rows with a few hundred changes holds the database for a fraction
+ * of the time. A plan that cannot commit (errors without skip-invalid) writes only its history
+ * row. Also writes one summarising audit entry, plus one per updated or withdrawn
  * student.
  */
 export async function commitImport(
@@ -353,6 +383,8 @@ export async function commitImport(
     }
     if (database.kind === 'postgres')
       await session.query(`select pg_advisory_xact_lock(hashtext('tutti roster import'))`);
+    // First, before this transaction's own writes move the generation.
+    const onlyDifferences = await planStillHolds(database, session, plan);
     const schools = await session.query<{ id: number; code: string }>(
       'select id, code from schools',
     );
@@ -363,8 +395,15 @@ export async function commitImport(
     const ensembles = await ensureEnsembles(session, plan, schoolIdByCode);
     if (database.kind === 'pglite') await skipReferenceTriggers(session);
     await createStagingTables(session);
-    const { existing, fresh } = await studentRows(session, plan, schoolIdByCode);
-    await stage(session, plan, { existing, fresh }, schoolIdByCode, ensembles.ensembleId);
+    const { existing, fresh } = await studentRows(session, plan, schoolIdByCode, onlyDifferences);
+    await stage(
+      session,
+      plan,
+      { existing, fresh },
+      schoolIdByCode,
+      ensembles.ensembleId,
+      onlyDifferences,
+    );
     const updated = await updateStudents(session, plan, userId, year?.id ?? null);
     const created = await insertStudents(session, fresh);
     const seatChanges = year ? await seatStudents(session, year.id) : new Set<string>();

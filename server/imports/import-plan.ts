@@ -43,6 +43,13 @@ export interface ImportPlan {
   schoolCodes: string[];
   /** Whether committing would write anything: no errors, or skip-invalid with valid rows left. */
   canCommit: boolean;
+  /**
+   * What differs from the database as the plan read it: the students to create or change (their
+   * own fields or status) and the indexes into `parsed.rows` of the rows whose seat is new or
+   * changes. `generation` is the roster generation the plan's reads saw (null when it moved
+   * while they ran); the commit writes only these rows while the generation has not moved.
+   */
+  differences: { generation: string | null; students: Set<string>; seatRows: Set<number> };
 }
 
 /** A student field the import writes, and the column it lands in. */
@@ -180,7 +187,8 @@ export async function planImport(
 
   const newEnsembles = new Map<string, PlannedEnsemble>();
   const rowClass: ('created' | 'updated' | 'unchanged')[] = [];
-  for (const { row } of parsed.rows) {
+  const seatRows = new Set<number>();
+  for (const [index, { row }] of parsed.rows.entries()) {
     const changes = changesOf.get(row.studentId);
     if (!changes) {
       rowClass.push('created');
@@ -219,11 +227,14 @@ export async function planImport(
         }
       }
     }
+    if (seatChanged) seatRows.add(index);
     if (changes) rowClass.push(seatChanged || hasStudentChange(changes) ? 'updated' : 'unchanged');
   }
+  const differentStudents = new Set(createdStudents.map((student) => student.studentId));
   for (const row of students) {
     const changes = changesOf.get(row.studentId);
     if (changes && changes.length > 0) updatedStudents.push({ ...plannedStudent(row), changes });
+    if (changes && hasStudentChange(changes)) differentStudents.add(row.studentId);
   }
 
   const withdrawnStudents: PlannedStudent[] = [];
@@ -262,6 +273,11 @@ export async function planImport(
     newEnsembles: [...newEnsembles.values()],
     schoolCodes,
     canCommit,
+    differences: {
+      generation: snapshot.generation,
+      students: differentStudents,
+      seatRows,
+    },
   };
 }
 

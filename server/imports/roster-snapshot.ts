@@ -32,6 +32,19 @@ export interface RosterSnapshot {
   ensembles: Map<number, Map<string, { id: number; name: string }>>;
   /** Current-year seats of the file's students: student id → ensemble id → seat. */
   seats: Map<string, Map<number, ExistingSeat>>;
+  /**
+   * The roster generation (migration 0013) the reads saw from first to last; null when a write
+   * moved it while they ran, so the snapshot may mix before and after.
+   */
+  generation: string | null;
+}
+
+/** The roster generation: it moves with every statement that writes what an import compares. */
+export async function rosterGeneration(
+  query: (text: string) => Promise<{ last_value: string | number; is_called: boolean }[]>,
+): Promise<string> {
+  const [row] = await query('select last_value, is_called from roster_generation');
+  return row!.is_called ? String(row!.last_value) : '0';
 }
 
 /**
@@ -70,6 +83,11 @@ export async function readRosterSnapshot(
   schoolCodes: string[],
   withSchoolsStudents: boolean,
 ): Promise<RosterSnapshot> {
+  const generationNow = () =>
+    rosterGeneration(async (text) =>
+      rowsOf<{ last_value: string | number; is_called: boolean }>(await db.execute(sql.raw(text))),
+    );
+  const generationBefore = await generationNow();
   const schools = rowsOf<{ id: number; code: string }>(
     await db.execute(sql`select id, code from schools`),
   );
@@ -133,6 +151,7 @@ export async function readRosterSnapshot(
     if (!byName.has(key)) byName.set(key, { id: row.id, name: row.name });
     ensembles.set(row.schoolId, byName);
   }
+  const generationAfter = await generationNow();
   const seats = new Map<string, Map<number, ExistingSeat>>();
   for (const row of seatRows) {
     const byEnsemble = seats.get(row.studentNumber) ?? new Map<number, ExistingSeat>();
@@ -146,5 +165,6 @@ export async function readRosterSnapshot(
     students: new Map(studentRows.map((row) => [row.studentNumber, row])),
     ensembles,
     seats,
+    generation: generationBefore === generationAfter ? generationBefore : null,
   };
 }

@@ -1,0 +1,242 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { rowsOf } from '../../server/db/client';
+import { commitImport, planUpload } from '../../server/imports/import-service';
+import { rosterGeneration } from '../../server/imports/roster-snapshot';
+import { demoSchools } from '../../server/seed/demo-people';
+import { toRosterCsv, type RosterRow } from '../../shared/roster';
+import { inventedRoster } from '../bench/roster-import';
+import { startTestApp, type TestApp } from '../support/test-app';
+
+// Two districts from the same template: the same imports run in both, one committing with the
+// short cut (only the rows the plan found different) and one comparing every row again.
+let shortCut: TestApp;
+let everyRow: TestApp;
+
+beforeAll(async () => {
+  [shortCut, everyRow] = await Promise.all([startTestApp(), startTestApp()]);
+});
+afterAll(async () => {
+  await shortCut?.close();
+  await everyRow?.close();
+});
+
+async function query<Row = Record<string, unknown>>(app: TestApp, text: string): Promise<Row[]> {
+  return rowsOf<Row>(await app.database.db.execute(text as never));
+}
+
+const generationOf = (app: TestApp) => rosterGeneration((text) => query(app, text));
+
+/**
+ * The existing students a commit stages for comparison: the lines of its `COPY import_students`
+ * (PGlite only; on a server they go in as INSERTs, and the short cut is off there).
+ */
+function stagedExistingStudents(app: TestApp): {
+  count: () => Promise<number | null>;
+  stop: () => void;
+} {
+  const pglite = app.database.pglite;
+  if (!pglite) return { count: async () => null, stop: () => undefined };
+  let staged: number | null = null;
+  const pending: Promise<void>[] = [];
+  const transaction = pglite.transaction.bind(pglite);
+  pglite.transaction = ((work: Parameters<typeof transaction>[0]) =>
+    transaction((tx) => {
+      const txQuery = tx.query.bind(tx);
+      tx.query = ((text: string, params?: unknown[], options?: { blob?: Blob }) => {
+        if (text.startsWith('copy import_students') && options?.blob)
+          pending.push(
+            options.blob.text().then((body) => {
+              staged = body.split('\n').filter(Boolean).length;
+            }),
+          );
+        return txQuery(text, params, options);
+      }) as typeof tx.query;
+      return work(tx);
+    })) as typeof pglite.transaction;
+  return {
+    count: async () => {
+      await Promise.all(pending);
+      return staged ?? 0;
+    },
+    stop: () => {
+      pglite.transaction = transaction;
+    },
+  };
+}
+
+/** Plans an import, runs `between`, then commits the plan; answers the result and what was staged. */
+async function importInSteps(app: TestApp, rows: RosterRow[], between?: () => Promise<unknown>) {
+  const bytes = new TextEncoder().encode(toRosterCsv(rows));
+  const plan = await planUpload(app.database, {
+    upload: { fileName: 'roster.csv', bytes },
+    withdrawMissing: false,
+    skipInvalid: false,
+  });
+  await between?.();
+  const watch = stagedExistingStudents(app);
+  try {
+    const result = await commitImport(app.database, plan, null, {
+      fileName: 'roster.csv',
+      via: 'cli',
+    });
+    return { plan, result, staged: await watch.count() };
+  } finally {
+    watch.stop();
+  }
+}
+
+/** What an import leaves in the roster, by natural keys (ids and times left out). */
+async function rosterState(app: TestApp) {
+  return {
+    students: await query(
+      app,
+      `select s.student_number, s.first_name, s.last_name, s.preferred_name, s.grade, c.code, s.status,
+         s.guardian_name, s.guardian_email, s.version
+       from students s join schools c on c.id = s.school_id order by s.student_number`,
+    ),
+    seats: await query(
+      app,
+      `select s.student_number, c.code, e.name, en.instrument_id, en.active, en.version
+       from enrollments en join students s on s.id = en.student_id
+         join ensembles e on e.id = en.ensemble_id join schools c on c.id = e.school_id
+       order by 1, 2, 3`,
+    ),
+    moves: await query(
+      app,
+      `select s.student_number, f.code as from_code, t.code as to_code from school_moves m
+       join students s on s.id = m.student_id join schools f on f.id = m.from_school_id
+       join schools t on t.id = m.to_school_id order by 1`,
+    ),
+    audited: await query(
+      app,
+      `select action, entity, count(*)::int as entries from audit_log group by 1, 2 order by 1, 2`,
+    ),
+    counts: await query(
+      app,
+      `select c.code, n.grade, n.status, n.students from student_counts n
+       join schools c on c.id = n.school_id where n.students <> 0 order by 1, 2, 3`,
+    ),
+    attainment: await query(
+      app,
+      `select s.student_number, c.code, a.grade, a.active from student_attainment a
+       join students s on s.id = a.student_id join schools c on c.id = a.school_id order by 1`,
+    ),
+  };
+}
+
+const first = inventedRoster(240, 5, 810_000);
+const firstStudents = [...new Set(first.map((row) => row.studentId))];
+const withdrawnBefore = firstStudents.filter((_, index) => index % 50 === 7);
+
+/** The next file: a few of every kind of change, most rows as they were, and new students. */
+function nextFile(): RosterRow[] {
+  const otherSchool = (code: string) => demoSchools.find((school) => school.code !== code)!.code;
+  // Student fields change on every row of the student (a file's rows must agree on them);
+  // seats change row by row.
+  const rows = first.map((row, index): RosterRow => {
+    const student = firstStudents.indexOf(row.studentId);
+    if (student % 40 === 1) return { ...row, firstName: `${row.firstName}a` };
+    if (student % 40 === 2) return { ...row, grade: row.grade === 12 ? 11 : row.grade + 1 };
+    if (student % 40 === 3) return { ...row, schoolCode: otherSchool(row.schoolCode) };
+    if (student % 40 === 6)
+      return { ...row, guardianEmail: `changed.${student}@families.merrowbasin.example` };
+    if (index % 40 === 4)
+      return { ...row, instrument: row.instrument === 'violin' ? 'cello' : 'violin' };
+    if (index % 40 === 5) return { ...row, ensemble: 'Differences Winds' };
+    return row;
+  });
+  // A second seat for one student whose first row is unchanged.
+  rows.push({ ...first[10]!, ensemble: 'Differences Strings', instrument: 'cello' });
+  return [...rows, ...inventedRoster(20, 6, 820_000)];
+}
+
+describe('A roster import whose plan still holds', () => {
+  it('should write only the rows the plan found different, and leave what comparing every row leaves', async () => {
+    for (const app of [shortCut, everyRow]) {
+      const base = await importInSteps(app, first);
+      expect(base.result.created).toBe(first.length);
+      await query(
+        app,
+        `update students set status = 'withdrawn'
+         where student_number in (${withdrawnBefore.map((number) => `'${number}'`).join(', ')})`,
+      );
+    }
+    const file = nextFile();
+    const fast = await importInSteps(shortCut, file);
+    expect(fast.plan.errors).toEqual([]);
+    // Any write between the plan and the commit (here only the sequence itself) makes the
+    // commit compare every row again.
+    const slow = await importInSteps(everyRow, file, () =>
+      query(everyRow, `select nextval('roster_generation')`),
+    );
+
+    const { created, updated, unchanged } = fast.plan.counts;
+    expect(fast.result).toMatchObject({ committed: true, created, updated, unchanged });
+    expect(updated).toBeGreaterThan(withdrawnBefore.length);
+    expect(slow.result).toEqual({ ...fast.result, importId: slow.result.importId });
+    expect(await rosterState(shortCut)).toEqual(await rosterState(everyRow));
+
+    if (shortCut.database.kind === 'pglite') {
+      // The short cut staged only the existing students whose own fields or status differ.
+      const changedStudents = new Set(
+        fast.plan.updatedStudents
+          .filter((student) =>
+            student.changes.some(
+              (change) => change.field !== 'ensemble' && change.field !== 'instrument',
+            ),
+          )
+          .map((student) => student.studentId),
+      );
+      expect(changedStudents.size).toBeGreaterThan(withdrawnBefore.length);
+      expect(fast.staged).toBe(changedStudents.size);
+      expect(slow.staged).toBe(firstStudents.length);
+    } else {
+      // On a PostgreSQL server every row is compared again.
+      expect(fast.staged).toBeNull();
+    }
+  });
+
+  it('should compare every row again when the roster changed after the plan read it', async () => {
+    const file = nextFile();
+    const [student] = firstStudents;
+    const inFile = file.find((row) => row.studentId === student)!;
+    const again = await importInSteps(shortCut, file, () =>
+      // A director's edit lands between the plan's reads and the commit.
+      query(
+        shortCut,
+        `update students set first_name = 'Edited' where student_number = '${student}'`,
+      ),
+    );
+    // The plan saw nothing to do; the commit put the file's name back all the same.
+    expect(again.plan.counts.updated).toBe(0);
+    expect(again.result).toMatchObject({ committed: true, created: 0, updated: 1 });
+    const [row] = await query<{ first_name: string }>(
+      shortCut,
+      `select first_name from students where student_number = '${student}'`,
+    );
+    expect(row!.first_name).toBe(inFile.firstName);
+  });
+
+  it('should move the roster generation with every write to what an import compares, and only then', async () => {
+    const app = shortCut;
+    const writes = [
+      `update students set guardian_name = guardian_name where student_number = '${firstStudents[1]}'`,
+      `update enrollments set active = active where id = (select min(id) from enrollments)`,
+      `update ensembles set name = name where id = (select min(id) from ensembles)`,
+      `update schools set name = name where id = (select min(id) from schools)`,
+      `update school_years set name = name where id = (select min(id) from school_years)`,
+    ];
+    for (const write of writes) {
+      const before = await generationOf(app);
+      await query(app, write);
+      expect(await generationOf(app), write).not.toBe(before);
+    }
+    const before = await generationOf(app);
+    await query(
+      app,
+      `insert into audit_log (user_id, action, entity, entity_id) values (null, 'note', 'test', '1')`,
+    );
+    await query(app, `select count(*) from students`);
+    expect(await generationOf(app)).toBe(before);
+  });
+});
