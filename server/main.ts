@@ -4,6 +4,7 @@ import { fileURLToPath } from 'node:url';
 import { loadConfig, type Config } from './config';
 import { migrateDatabase, openDatabase, type DatabaseHandle } from './db/client';
 import { refreshStatistics, statisticsStale } from './db/statistics';
+import { settleUnfinishedImports } from './imports/landed-students';
 import { randomBytes } from 'node:crypto';
 import { acquireLock, updateLock } from './db/data-lock';
 import { createLogger, type Logger } from './logger';
@@ -53,6 +54,12 @@ export async function startServer(
   const { database, release } = await openServerDatabase(config, 'the Tuttiboard server', localKey);
   try {
     await migrateDatabase(database);
+    const takenBack = await settleUnfinishedImports(database);
+    if (takenBack > 0)
+      logger.warn(
+        { students: takenBack },
+        'Took back the students of a roster import that did not finish before the last stop.',
+      );
     await options.prepare?.(database);
     // Once, for a data folder never analyzed (filled before imports and seeds gathered statistics).
     if (await statisticsStale(database.db, 'students', 0)) await refreshStatistics(database.db);

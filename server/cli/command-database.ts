@@ -1,5 +1,6 @@
 import type { Config } from '../config';
 import { migrateDatabase, type DatabaseHandle } from '../db/client';
+import { settleUnfinishedImports } from '../imports/landed-students';
 import { openServerDatabase } from '../main';
 
 /**
@@ -14,6 +15,7 @@ export async function withCommandDatabase<Result>(
   const { database, release } = await openServerDatabase(config, purpose);
   try {
     await migrateDatabase(database);
+    await settleUnfinishedImports(database);
     return await work(database);
   } finally {
     await database.close();

@@ -142,6 +142,16 @@ export async function oneByOne<const Work extends readonly (() => Promise<unknow
   return results as { -readonly [K in keyof Work]: Awaited<ReturnType<Work[K]>> };
 }
 
+/**
+ * Waits for one turn of the event loop. A loop of statements that only awaits the embedded
+ * engine never lets the HTTP server read a new request (each await resumes from the microtask
+ * queue), so requests that arrive during the loop wait for its end however it is sliced;
+ * between slices, call this. Node.js documentation: "The Node.js Event Loop".
+ */
+export function yieldToRequests(): Promise<void> {
+  return new Promise((resolve) => setImmediate(resolve));
+}
+
 /** The rows of a raw `db.execute` result, for both drivers. */
 export function rowsOf<Row>(result: unknown): Row[] {
   return (result as { rows: Row[] }).rows;

@@ -1,5 +1,5 @@
 import { sql, type SQL } from 'drizzle-orm';
-import { rowsOf, type Database } from '../db/client';
+import { rowsOf, yieldToRequests, type Database } from '../db/client';
 
 /** A student as the database holds it, with the fields an import compares. */
 export interface ExistingStudent {
@@ -104,6 +104,7 @@ export async function readRosterSnapshot(
   // In slices of the file, each its own statement: the embedded engine runs one statement at a
   // time, and pages waiting behind a 20,000-student read had waited ~140 ms (see snapshotSlice).
   for (let from = 0; from < studentNumbers.length; from += snapshotSlice) {
+    if (from > 0) await yieldToRequests();
     const numbers = sql.param(studentNumbers.slice(from, from + snapshotSlice));
     studentRows.push(
       ...(await jsonRows<ExistingStudent>(
@@ -137,6 +138,7 @@ export async function readRosterSnapshot(
     studentRows.push(...slice);
     if (slice.length < snapshotSlice) break;
     after = slice.at(-1)!.id;
+    await yieldToRequests();
   }
   const ensembleRows = rowsOf<{ id: number; schoolId: number; name: string }>(
     await db.execute(sql`

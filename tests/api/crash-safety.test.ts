@@ -52,6 +52,15 @@ describe('Crash safety', () => {
       await server.kill();
       server = undefined;
       await upload;
+      // The next start takes back what a large import had added ahead of its final
+      // transaction (landed-students.ts); what the district sees from then on is counted.
+      server = await startServerProcess(dataDir);
+      await server.stop();
+      server = undefined;
+      const [left] = await query<{ count: number }>(
+        'select count(*)::int as count from roster_import_landings',
+      );
+      expect(left!.count).toBe(0);
       const added = (await studentCount()) - before;
       expect([0, newStudents]).toContain(added);
       outcomes.push(added === 0 ? 'out' : 'in');

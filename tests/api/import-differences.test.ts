@@ -1,6 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
+import { landingSlice } from '../../server/imports/import-commit';
 import { commitImport, planUpload } from '../../server/imports/import-service';
+import { settleUnfinishedImports } from '../../server/imports/landed-students';
 import { rosterGeneration } from '../../server/imports/roster-snapshot';
 import { demoSchools } from '../../server/seed/demo-people';
 import { toRosterCsv, type RosterRow } from '../../shared/roster';
@@ -27,26 +29,26 @@ async function query<Row = Record<string, unknown>>(app: TestApp, text: string):
 const generationOf = (app: TestApp) => rosterGeneration((text) => query(app, text));
 
 /**
- * The existing students a commit stages for comparison: the lines of its `COPY import_students`
- * (PGlite only; on a server they go in as INSERTs, and the short cut is off there).
+ * Watches a commit's transactions in PGlite: how many it ran, and the existing students it
+ * staged for comparison (the lines of its `COPY import_students`). `failOn` makes the statement
+ * that starts with it throw. On a server there is nothing to watch (and no short cuts).
  */
-function stagedExistingStudents(app: TestApp): {
-  count: () => Promise<number | null>;
-  stop: () => void;
-} {
+function watchCommit(app: TestApp, failOn?: string) {
   const pglite = app.database.pglite;
-  if (!pglite) return { count: async () => null, stop: () => undefined };
-  let staged: number | null = null;
+  const seen = { transactions: 0, staged: 0 };
+  if (!pglite) return { seen: async () => null, stop: () => undefined };
   const pending: Promise<void>[] = [];
   const transaction = pglite.transaction.bind(pglite);
   pglite.transaction = ((work: Parameters<typeof transaction>[0]) =>
     transaction((tx) => {
+      seen.transactions += 1;
       const txQuery = tx.query.bind(tx);
       tx.query = ((text: string, params?: unknown[], options?: { blob?: Blob }) => {
+        if (failOn && text.startsWith(failOn)) throw new Error('The test stops this statement.');
         if (text.startsWith('copy import_students') && options?.blob)
           pending.push(
             options.blob.text().then((body) => {
-              staged = body.split('\n').filter(Boolean).length;
+              seen.staged += body.split('\n').filter(Boolean).length;
             }),
           );
         return txQuery(text, params, options);
@@ -54,9 +56,9 @@ function stagedExistingStudents(app: TestApp): {
       return work(tx);
     })) as typeof pglite.transaction;
   return {
-    count: async () => {
+    seen: async () => {
       await Promise.all(pending);
-      return staged ?? 0;
+      return seen;
     },
     stop: () => {
       pglite.transaction = transaction;
@@ -64,8 +66,13 @@ function stagedExistingStudents(app: TestApp): {
   };
 }
 
-/** Plans an import, runs `between`, then commits the plan; answers the result and what was staged. */
-async function importInSteps(app: TestApp, rows: RosterRow[], between?: () => Promise<unknown>) {
+/** Plans an import, runs `between`, then commits the plan; answers the result and what was seen. */
+async function importInSteps(
+  app: TestApp,
+  rows: RosterRow[],
+  between?: () => Promise<unknown>,
+  failOn?: string,
+) {
   const bytes = new TextEncoder().encode(toRosterCsv(rows));
   const plan = await planUpload(app.database, {
     upload: { fileName: 'roster.csv', bytes },
@@ -73,13 +80,14 @@ async function importInSteps(app: TestApp, rows: RosterRow[], between?: () => Pr
     skipInvalid: false,
   });
   await between?.();
-  const watch = stagedExistingStudents(app);
+  const watch = watchCommit(app, failOn);
   try {
     const result = await commitImport(app.database, plan, null, {
       fileName: 'roster.csv',
       via: 'cli',
     });
-    return { plan, result, staged: await watch.count() };
+    const seen = await watch.seen();
+    return { plan, result, staged: seen?.staged ?? null, transactions: seen?.transactions ?? null };
   } finally {
     watch.stop();
   }
@@ -121,6 +129,17 @@ async function rosterState(app: TestApp) {
       `select s.student_number, c.code, a.grade, a.active from student_attainment a
        join students s on s.id = a.student_id join schools c on c.id = a.school_id order by 1`,
     ),
+  };
+}
+
+/** The part of {@link rosterState} about the students whose numbers start with `prefix`. */
+async function studentsState(app: TestApp, prefix: string) {
+  const full = await rosterState(app);
+  const mine = (row: Record<string, unknown>) => String(row['student_number']).startsWith(prefix);
+  return {
+    students: full.students.filter(mine),
+    seats: full.seats.filter(mine),
+    attainment: full.attainment.filter(mine),
   };
 }
 
@@ -238,5 +257,110 @@ describe('A roster import whose plan still holds', () => {
     );
     await query(app, `select count(*) from students`);
     expect(await generationOf(app)).toBe(before);
+  });
+});
+
+describe('A large roster import', () => {
+  const landingFile = inventedRoster(Math.round(landingSlice * 2.4), 9, 830_000);
+  const landingStudents = new Set(landingFile.map((row) => row.studentId)).size;
+  const studentsOfFile = async (app: TestApp, rows: RosterRow[]) =>
+    (
+      await query<{ count: number }>(
+        app,
+        `select count(*)::int as count from students
+         where student_number in (${[...new Set(rows.map((row) => `'${row.studentId}'`))].join(', ')})`,
+      )
+    )[0]!.count;
+  const landingRows = async (app: TestApp) =>
+    (
+      await query<{ count: number }>(
+        app,
+        'select count(*)::int as count from roster_import_landings',
+      )
+    )[0]!.count;
+
+  it('should add its new students a slice per transaction, and end where one transaction ends', async () => {
+    expect(landingStudents).toBeGreaterThan(2 * landingSlice);
+    const counts = (app: TestApp) =>
+      query<{ code: string; grade: number; status: string; students: number }>(
+        app,
+        `select c.code, n.grade, n.status, n.students from student_counts n
+         join schools c on c.id = n.school_id order by 1, 2, 3`,
+      );
+    const countsBefore = await Promise.all([counts(shortCut), counts(everyRow)]);
+    const sliced = await importInSteps(shortCut, landingFile);
+    const whole = await importInSteps(everyRow, landingFile, () =>
+      query(everyRow, `select nextval('roster_generation')`),
+    );
+    expect(sliced.result).toMatchObject({ committed: true, created: landingFile.length });
+    expect(whole.result).toEqual({ ...sliced.result, importId: whole.result.importId });
+    expect(await studentsState(shortCut, 'S83')).toEqual(await studentsState(everyRow, 'S83'));
+    // The per-school counts moved by the same amounts in both.
+    const added = async (app: TestApp, before: Awaited<ReturnType<typeof counts>>) =>
+      (await counts(app)).map((row) => ({
+        ...row,
+        students:
+          row.students -
+          (before.find(
+            (old) => old.code === row.code && old.grade === row.grade && old.status === row.status,
+          )?.students ?? 0),
+      }));
+    expect(await added(shortCut, countsBefore[0])).toEqual(await added(everyRow, countsBefore[1]));
+    expect(await landingRows(shortCut)).toBe(0);
+    if (shortCut.database.kind === 'pglite') {
+      // Three slices and the final transaction; the other commit found the roster changed
+      // before its first slice, landed nothing and wrote everything in its final transaction.
+      expect(sliced.transactions).toBe(Math.ceil(landingStudents / landingSlice) + 1);
+      expect(whole.transactions).toBe(2);
+    }
+  });
+
+  it('should take its landed students and new ensembles back out when its final transaction fails', async () => {
+    const file = inventedRoster(Math.round(landingSlice * 1.2), 10, 840_000).map((row) => ({
+      ...row,
+      ensemble: row.ensemble ? `${row.ensemble} Taken Back` : row.ensemble,
+    }));
+    const ensemblesBefore = await query(shortCut, 'select id from ensembles order by id');
+    const countsBefore = await query(
+      shortCut,
+      'select school_id, grade, status, students from student_counts order by 1, 2, 3',
+    );
+    await expect(
+      importInSteps(shortCut, file, undefined, 'insert into roster_imports'),
+    ).rejects.toThrow('The test stops this statement.');
+    expect(await studentsOfFile(shortCut, file)).toBe(0);
+    expect(await query(shortCut, 'select id from ensembles order by id')).toEqual(ensemblesBefore);
+    expect(
+      await query(
+        shortCut,
+        'select school_id, grade, status, students from student_counts order by 1, 2, 3',
+      ),
+    ).toEqual(countsBefore);
+    expect(await landingRows(shortCut)).toBe(0);
+  });
+
+  it('should take back at the next start what a crash left landed, keeping students someone has worked with', async () => {
+    const app = everyRow;
+    const [kept, gone] = await query<{ id: number; school_id: number; grade: number }>(
+      app,
+      `select id, school_id, grade from students where student_number in ('S830000', 'S830001') order by student_number`,
+    );
+    await query(
+      app,
+      `insert into pass_offs (student_id, school_id, grade, ladder_version_id, requirement_code, heard_on, tempo, passed)
+       select ${kept!.id}, ${kept!.school_id}, ${kept!.grade}, min(id), 'bb-major', '2026-11-02', 72, true from ladder_versions`,
+    );
+    await query(
+      app,
+      `insert into roster_import_landings (run, student_id) values ('crashed', ${kept!.id}), ('crashed', ${gone!.id})`,
+    );
+    expect(await settleUnfinishedImports(app.database)).toBe(1);
+    const left = await query<{ id: number }>(
+      app,
+      `select id from students where id in (${kept!.id}, ${gone!.id})`,
+    );
+    expect(left).toEqual([{ id: kept!.id }]);
+    expect(await landingRows(app)).toBe(0);
+    expect(await settleUnfinishedImports(app.database)).toBe(0);
   });
 });

@@ -185,6 +185,22 @@ export const rosterImports = pgTable(
   (table) => [index('roster_imports_created_idx').on(table.createdAt)],
 );
 
+/**
+ * Students and ensembles a large roster import has added ahead of its final transaction, by
+ * the import's run (one of the two per row). The final transaction deletes its run's rows; rows
+ * found at the next start belong to an import that never finished, and what they name is taken
+ * back out (see landed-students.ts).
+ */
+export const rosterImportLandings = pgTable(
+  'roster_import_landings',
+  {
+    run: text('run').notNull(),
+    studentId: integer('student_id').references(() => students.id, { onDelete: 'cascade' }),
+    ensembleId: integer('ensemble_id').references(() => ensembles.id, { onDelete: 'cascade' }),
+  },
+  (table) => [index('roster_import_landings_run_idx').on(table.run)],
+);
+
 /** A saved column mapping for one source system's export. */
 export const importPresets = pgTable(
   'import_presets',
