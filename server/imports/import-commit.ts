@@ -419,38 +419,56 @@ async function landNewStudents(database: DatabaseHandle, plan: ImportPlan): Prom
         // The file's new ensembles come with the first slice, so its seats can too.
         const ensembles = await ensureEnsembles(session, plan, schoolIdByCode);
         await skipReferenceTriggers(session);
-        await createStagingTables(session);
-        const numbers = slice.map((row) => row.studentId);
         await session.load(
           'students',
           stagedStudentColumns,
           slice.map((row) => stagedStudent(row, schoolIdByCode)),
         );
-        await session.query(
-          `insert into roster_import_landings (run, student_id, ensemble_id)
-           select $1::text, id, null::int from students where student_number = any($2::text[])
-           union all select $1::text, null::int, ensemble from unnest($3::int[]) as ensemble`,
-          [landed.run, numbers, ensembles.created.map((row) => row.id)],
+        // Their ids by one index probe each, recorded as landed in the same statement.
+        const ids = await session.query<{ id: number; student_number: string }>(
+          `with landed as (
+             select id, student_number from students where student_number = any($2::text[])
+           ), recorded as (
+             insert into roster_import_landings (run, student_id) select $1::text, id from landed
+           )
+           select id, student_number from landed`,
+          [landed.run, slice.map((row) => row.studentId)],
         );
-        const inSlice = new Set(numbers);
+        if (ensembles.created.length > 0)
+          await session.query(
+            `insert into roster_import_landings (run, ensemble_id)
+             select $1::text, unnest($2::int[])`,
+            [landed.run, ensembles.created.map((row) => row.id)],
+          );
+        // Their seats straight from arrays: a join of a staged table with every student cost
+        // about as much as the seats themselves, once per slice.
+        const idOf = new Map(ids.map((row) => [row.student_number, row.id]));
         const seatRows: number[] = [];
-        const seats: StagedValue[][] = [];
+        const seats = {
+          students: [] as number[],
+          ensembles: [] as number[],
+          instruments: [] as (string | null)[],
+        };
         for (const [index, { row }] of plan.parsed.rows.entries()) {
-          if (!year || !row.ensemble || !inSlice.has(row.studentId)) continue;
+          const studentId = idOf.get(row.studentId);
+          if (!year || !row.ensemble || studentId === undefined) continue;
           const ensembleId = ensembles.ensembleId(
             schoolIdByCode.get(row.schoolCode)!,
             row.ensemble,
           );
           if (ensembleId === undefined) continue;
           seatRows.push(index);
-          seats.push([row.studentId, ensembleId, row.instrument ?? null, 't']);
+          seats.students.push(studentId);
+          seats.ensembles.push(ensembleId);
+          seats.instruments.push(row.instrument ?? null);
         }
-        await session.load(
-          'import_seats',
-          ['student_number', 'ensemble_id', 'instrument_id', 'new_student'],
-          seats,
-        );
-        if (year) await seatStudents(session, year.id);
+        if (year && seatRows.length > 0)
+          await session.query(
+            `insert into enrollments (student_id, ensemble_id, school_year_id, instrument_id)
+             select student, ensemble, $4::int, instrument
+             from unnest($1::int[], $2::int[], $3::text[]) as seat (student, ensemble, instrument)`,
+            [seats.students, seats.ensembles, seats.instruments, year.id],
+          );
         return { seatRows, generation: await rosterGeneration((text) => session.query(text)) };
       });
       if (!done) {
