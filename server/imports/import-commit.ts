@@ -488,7 +488,8 @@ async function landNewStudents(database: DatabaseHandle, plan: ImportPlan): Prom
 }
 
 /**
- * Carries out a plan in ONE transaction, set-based: new students are loaded straight into
+ * Carries out a plan in one final transaction (after any landing slices of a large import, see
+ * {@link landNewStudents}), set-based: new students are loaded straight into
  * `students`, the rest of the rows are staged in temporary tables (COPY in PGlite, multi-row
  * INSERTs on a server), then ensembles, students, seats and withdrawals are written with a
  * handful of INSERT … SELECT and UPDATE … FROM statements that touch only rows that differ.
