@@ -364,6 +364,18 @@ async function recordHistory(
   return row!.id;
 }
 
+/** The district's school ids by code, and the current school year, read in the transaction. */
+async function schoolsAndYear(session: SqlSession) {
+  const schools = await session.query<{ id: number; code: string }>('select id, code from schools');
+  const [year] = await session.query<{ id: number }>(
+    'select id from school_years where current order by starts_on desc limit 1',
+  );
+  return {
+    schoolIdByCode: new Map(schools.map((school) => [school.code, school.id])),
+    year: year as { id: number } | undefined,
+  };
+}
+
 /** What an import added ahead of its final transaction (see {@link landNewStudents}). */
 interface Landed {
   run: string;
@@ -409,13 +421,7 @@ async function landNewStudents(database: DatabaseHandle, plan: ImportPlan): Prom
       const expected = landed.generation;
       const done = await inSqlTransaction(database, async (session) => {
         if (!(await planStillHolds(database, session, expected))) return null;
-        const schools = await session.query<{ id: number; code: string }>(
-          'select id, code from schools',
-        );
-        const schoolIdByCode = new Map(schools.map((school) => [school.code, school.id]));
-        const [year] = await session.query<{ id: number }>(
-          'select id from school_years where current order by starts_on desc limit 1',
-        );
+        const { schoolIdByCode, year } = await schoolsAndYear(session);
         // The file's new ensembles come with the first slice, so its seats can too.
         const ensembles = await ensureEnsembles(session, plan, schoolIdByCode);
         await skipReferenceTriggers(session);
@@ -527,13 +533,7 @@ export async function commitImport(
       await session.query(`select pg_advisory_xact_lock(hashtext('tutti roster import'))`);
     // First, before this transaction's own writes move the generation.
     const onlyDifferences = await planStillHolds(database, session, landed.generation);
-    const schools = await session.query<{ id: number; code: string }>(
-      'select id, code from schools',
-    );
-    const schoolIdByCode = new Map(schools.map((school) => [school.code, school.id]));
-    const [year] = await session.query<{ id: number }>(
-      'select id from school_years where current order by starts_on desc limit 1',
-    );
+    const { schoolIdByCode, year } = await schoolsAndYear(session);
     const ensembles = await ensureEnsembles(session, plan, schoolIdByCode);
     if (database.kind === 'pglite') await skipReferenceTriggers(session);
     await createStagingTables(session);
