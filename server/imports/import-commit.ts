@@ -383,6 +383,8 @@ interface Landed {
   students: Set<string>;
   /** Indexes into `parsed.rows` of the rows whose seats were added with them. */
   seatRows: Set<number>;
+  /** The names of the ensembles created with the first slice. */
+  ensembles: string[];
   /** The roster generation after the last slice: the plan still holds while it is there. */
   generation: string | null;
 }
@@ -396,8 +398,8 @@ export const landingSlice = 2_000;
 
 /**
  * In PGlite, when the plan still holds and adds at least a slice of new students, adds them
- * (with their seats in ensembles that exist) a slice per transaction, so pages answer between
- * slices; the final transaction then writes the rest. Each slice is recorded in
+ * with their seats a slice per transaction (the file's new ensembles with the first), so pages
+ * answer between slices; the final transaction then writes the rest. Each slice is recorded in
  * `roster_import_landings`, which the final transaction clears: a failure takes the slices
  * back out at once, a crash at the next start (landed-students.ts). Readers may see new
  * students arrive during those seconds. Stops landing, and leaves the rest to the final
@@ -408,6 +410,7 @@ async function landNewStudents(database: DatabaseHandle, plan: ImportPlan): Prom
     run: randomUUID(),
     students: new Set(),
     seatRows: new Set(),
+    ensembles: [],
     generation: plan.differences.generation,
   };
   const created = new Set(plan.createdStudents.map((student) => student.studentId));
@@ -475,7 +478,11 @@ async function landNewStudents(database: DatabaseHandle, plan: ImportPlan): Prom
              from unnest($1::int[], $2::int[], $3::text[]) as seat (student, ensemble, instrument)`,
             [seats.students, seats.ensembles, seats.instruments, year.id],
           );
-        return { seatRows, generation: await rosterGeneration((text) => session.query(text)) };
+        return {
+          seatRows,
+          ensembles: ensembles.created.map((row) => row.name),
+          generation: await rosterGeneration((text) => session.query(text)),
+        };
       });
       if (!done) {
         landed.generation = null;
@@ -484,6 +491,7 @@ async function landNewStudents(database: DatabaseHandle, plan: ImportPlan): Prom
       await yieldToRequests();
       for (const number of slice) landed.students.add(number.studentId);
       for (const index of done.seatRows) landed.seatRows.add(index);
+      landed.ensembles.push(...done.ensembles);
       landed.generation = done.generation;
     }
   } catch (error) {
@@ -598,7 +606,7 @@ export async function commitImport(
           unchanged: result.unchanged,
           withdrawn,
           errors: result.errors.length,
-          newEnsembles: ensembles.created.map((row) => row.name),
+          newEnsembles: [...landed.ensembles, ...ensembles.created.map((row) => row.name)],
         }),
       ],
     );
