@@ -70,15 +70,11 @@ async function skipReferenceTriggers(session: SqlSession) {
   if (own!.count === 0) await session.query(`set local session_replication_role = replica`);
 }
 
-/**
- * Creates the ensembles the file names that its schools lack (unless `create` is false);
- * answers school → name → id.
- */
+/** Creates the ensembles the file names that its schools lack; answers school → name → id. */
 async function ensureEnsembles(
   session: SqlSession,
   plan: ImportPlan,
   schoolIdByCode: Map<string, number>,
-  create = true,
 ) {
   const schoolIds = [...new Set(plan.schoolCodes.map((code) => schoolIdByCode.get(code)!))];
   const rows = await session.query<{ id: number; school_id: number; name: string }>(
@@ -98,7 +94,7 @@ async function ensureEnsembles(
     if (!byKey.has(key) && !missing.has(key)) missing.set(key, { schoolId, name: row.ensemble });
   }
   const created: { id: number; school_id: number; name: string }[] = [];
-  if (create && missing.size > 0) {
+  if (missing.size > 0) {
     const list = [...missing.values()];
     created.push(
       ...(await session.query<{ id: number; school_id: number; name: string }>(
@@ -115,8 +111,7 @@ async function ensureEnsembles(
     for (const row of created) byKey.set(keyOf(row.school_id, row.name), row.id);
   }
   return {
-    ensembleId: (schoolId: number, name: string): number | undefined =>
-      byKey.get(keyOf(schoolId, name)),
+    ensembleId: (schoolId: number, name: string) => byKey.get(keyOf(schoolId, name))!,
     created,
   };
 }
@@ -185,7 +180,7 @@ async function stage(
   plan: ImportPlan,
   students: { existing: StagedValue[][]; fresh: StagedValue[][] },
   schoolIdByCode: Map<string, number>,
-  ensembleId: (schoolId: number, name: string) => number | undefined,
+  ensembleId: (schoolId: number, name: string) => number,
   onlyDifferences: boolean,
   landed: Landed,
 ) {
@@ -196,7 +191,7 @@ async function stage(
     if (onlyDifferences && !plan.differences.seatRows.has(index)) continue;
     seats.push([
       row.studentId,
-      ensembleId(schoolIdByCode.get(row.schoolCode)!, row.ensemble)!,
+      ensembleId(schoolIdByCode.get(row.schoolCode)!, row.ensemble),
       row.instrument ?? null,
       fresh.has(row.studentId) ? 't' : 'f',
     ]);
@@ -398,6 +393,7 @@ export const landingSlice = 2_000;
 
 /**
  * In PGlite, when the plan still holds and adds at least a slice of new students, adds them
+ * (noting each slice in `landed`, which the caller takes back out if anything fails)
  * with their seats a slice per transaction (the file's new ensembles with the first), so pages
  * answer between slices; the final transaction then writes the rest. Each slice is recorded in
  * `roster_import_landings`, which the final transaction clears: a failure takes the slices
@@ -405,100 +401,87 @@ export const landingSlice = 2_000;
  * students arrive during those seconds. Stops landing, and leaves the rest to the final
  * transaction, when anything else writes the roster between two slices.
  */
-async function landNewStudents(database: DatabaseHandle, plan: ImportPlan): Promise<Landed> {
-  const landed: Landed = {
-    run: randomUUID(),
-    students: new Set(),
-    seatRows: new Set(),
-    ensembles: [],
-    generation: plan.differences.generation,
-  };
+async function landNewStudents(
+  database: DatabaseHandle,
+  plan: ImportPlan,
+  landed: Landed,
+): Promise<void> {
   const created = new Set(plan.createdStudents.map((student) => student.studentId));
-  if (database.kind !== 'pglite' || !plan.canCommit || created.size < landingSlice) return landed;
+  if (database.kind !== 'pglite' || !plan.canCommit || created.size < landingSlice) return;
   const newStudents = firstRowOfEachStudent(plan.parsed).filter((row) =>
     created.has(row.studentId),
   );
-  try {
-    for (let from = 0; from < newStudents.length; from += landingSlice) {
-      const slice = newStudents.slice(from, from + landingSlice);
-      const expected = landed.generation;
-      const done = await inSqlTransaction(database, async (session) => {
-        if (!(await planStillHolds(database, session, expected))) return null;
-        const { schoolIdByCode, year } = await schoolsAndYear(session);
-        // The file's new ensembles come with the first slice, so its seats can too.
-        const ensembles = await ensureEnsembles(session, plan, schoolIdByCode);
-        await skipReferenceTriggers(session);
-        await session.load(
-          'students',
-          stagedStudentColumns,
-          slice.map((row) => stagedStudent(row, schoolIdByCode)),
+  // The rows (seats) of each new student, found once for every slice.
+  const rowsOfStudent = new Map<string, number[]>();
+  for (const [index, { row }] of plan.parsed.rows.entries())
+    if (row.ensemble && created.has(row.studentId))
+      rowsOfStudent.set(row.studentId, [...(rowsOfStudent.get(row.studentId) ?? []), index]);
+  for (let from = 0; from < newStudents.length; from += landingSlice) {
+    const slice = newStudents.slice(from, from + landingSlice);
+    const expected = landed.generation;
+    const done = await inSqlTransaction(database, async (session) => {
+      if (!(await planStillHolds(database, session, expected))) return null;
+      const { schoolIdByCode, year } = await schoolsAndYear(session);
+      // The file's new ensembles come with the first slice, so its seats can too.
+      const ensembles = await ensureEnsembles(session, plan, schoolIdByCode);
+      await skipReferenceTriggers(session);
+      await session.load(
+        'students',
+        stagedStudentColumns,
+        slice.map((row) => stagedStudent(row, schoolIdByCode)),
+      );
+      // Their ids by one index probe each, recorded as landed in the same statement.
+      const ids = await session.query<{ id: number; student_number: string }>(
+        `with landed as (
+           select id, student_number from students where student_number = any($2::text[])
+         ), recorded as (
+           insert into roster_import_landings (run, student_id) select $1::text, id from landed
+         )
+         select id, student_number from landed`,
+        [landed.run, slice.map((row) => row.studentId)],
+      );
+      if (ensembles.created.length > 0)
+        await session.query(
+          `insert into roster_import_landings (run, ensemble_id)
+           select $1::text, unnest($2::int[])`,
+          [landed.run, ensembles.created.map((row) => row.id)],
         );
-        // Their ids by one index probe each, recorded as landed in the same statement.
-        const ids = await session.query<{ id: number; student_number: string }>(
-          `with landed as (
-             select id, student_number from students where student_number = any($2::text[])
-           ), recorded as (
-             insert into roster_import_landings (run, student_id) select $1::text, id from landed
-           )
-           select id, student_number from landed`,
-          [landed.run, slice.map((row) => row.studentId)],
-        );
-        if (ensembles.created.length > 0)
-          await session.query(
-            `insert into roster_import_landings (run, ensemble_id)
-             select $1::text, unnest($2::int[])`,
-            [landed.run, ensembles.created.map((row) => row.id)],
-          );
-        // Their seats straight from arrays: a join of a staged table with every student cost
-        // about as much as the seats themselves, once per slice.
+      // Their seats straight from arrays: a join of a staged table with every student cost
+      // about as much as the seats themselves, once per slice.
+      const seatRows = year ? ids.flatMap((id) => rowsOfStudent.get(id.student_number) ?? []) : [];
+      if (year && seatRows.length > 0) {
         const idOf = new Map(ids.map((row) => [row.student_number, row.id]));
-        const seatRows: number[] = [];
-        const seats = {
-          students: [] as number[],
-          ensembles: [] as number[],
-          instruments: [] as (string | null)[],
-        };
-        for (const [index, { row }] of plan.parsed.rows.entries()) {
-          const studentId = idOf.get(row.studentId);
-          if (!year || !row.ensemble || studentId === undefined) continue;
-          const ensembleId = ensembles.ensembleId(
-            schoolIdByCode.get(row.schoolCode)!,
-            row.ensemble,
-          );
-          if (ensembleId === undefined) continue;
-          seatRows.push(index);
-          seats.students.push(studentId);
-          seats.ensembles.push(ensembleId);
-          seats.instruments.push(row.instrument ?? null);
-        }
-        if (year && seatRows.length > 0)
-          await session.query(
-            `insert into enrollments (student_id, ensemble_id, school_year_id, instrument_id)
-             select student, ensemble, $4::int, instrument
-             from unnest($1::int[], $2::int[], $3::text[]) as seat (student, ensemble, instrument)`,
-            [seats.students, seats.ensembles, seats.instruments, year.id],
-          );
-        return {
-          seatRows,
-          ensembles: ensembles.created.map((row) => row.name),
-          generation: await rosterGeneration((text) => session.query(text)),
-        };
-      });
-      if (!done) {
-        landed.generation = null;
-        break;
+        const rows = seatRows.map((index) => plan.parsed.rows[index]!.row);
+        await session.query(
+          `insert into enrollments (student_id, ensemble_id, school_year_id, instrument_id)
+           select student, ensemble, $4::int, instrument
+           from unnest($1::int[], $2::int[], $3::text[]) as seat (student, ensemble, instrument)`,
+          [
+            rows.map((row) => idOf.get(row.studentId)!),
+            rows.map((row) =>
+              ensembles.ensembleId(schoolIdByCode.get(row.schoolCode)!, row.ensemble!),
+            ),
+            rows.map((row) => row.instrument ?? null),
+            year.id,
+          ],
+        );
       }
-      await yieldToRequests();
-      for (const number of slice) landed.students.add(number.studentId);
-      for (const index of done.seatRows) landed.seatRows.add(index);
-      landed.ensembles.push(...done.ensembles);
-      landed.generation = done.generation;
+      return {
+        seatRows,
+        ensembles: ensembles.created.map((row) => row.name),
+        generation: await rosterGeneration((text) => session.query(text)),
+      };
+    });
+    if (!done) {
+      landed.generation = null;
+      return;
     }
-  } catch (error) {
-    if (landed.students.size > 0) await takeBackLanded(database, landed.run);
-    throw error;
+    for (const row of slice) landed.students.add(row.studentId);
+    for (const index of done.seatRows) landed.seatRows.add(index);
+    landed.ensembles.push(...done.ensembles);
+    landed.generation = done.generation;
+    await yieldToRequests();
   }
-  return landed;
 }
 
 /**
@@ -522,99 +505,112 @@ export async function commitImport(
   meta: ImportMeta,
 ): Promise<CommittedImport> {
   const userId = actor?.userId ?? null;
-  const landed = await landNewStudents(database, plan);
-  const committed = await inSqlTransaction(database, async (session) => {
-    if (!plan.canCommit) {
-      const { rows, created, updated, unchanged, withdrawn } = plan.counts;
+  const landed: Landed = {
+    run: randomUUID(),
+    students: new Set(),
+    seatRows: new Set(),
+    ensembles: [],
+    generation: plan.differences.generation,
+  };
+  let committed: CommittedImport;
+  try {
+    await landNewStudents(database, plan, landed);
+    committed = await inSqlTransaction(database, async (session) => {
+      if (!plan.canCommit) {
+        const { rows, created, updated, unchanged, withdrawn } = plan.counts;
+        const result: ImportResult = {
+          rows,
+          created,
+          updated,
+          unchanged,
+          withdrawn,
+          errors: plan.errors,
+          committed: false,
+        };
+        return { ...result, importId: await recordHistory(session, plan, result, userId, meta) };
+      }
+      if (database.kind === 'postgres')
+        await session.query(`select pg_advisory_xact_lock(hashtext('tutti roster import'))`);
+      // First, before this transaction's own writes move the generation.
+      const onlyDifferences = await planStillHolds(database, session, landed.generation);
+      const { schoolIdByCode, year } = await schoolsAndYear(session);
+      const ensembles = await ensureEnsembles(session, plan, schoolIdByCode);
+      if (database.kind === 'pglite') await skipReferenceTriggers(session);
+      await createStagingTables(session);
+      const { existing, fresh } = await studentRows(
+        session,
+        plan,
+        schoolIdByCode,
+        onlyDifferences,
+        landed,
+      );
+      await stage(
+        session,
+        plan,
+        { existing, fresh },
+        schoolIdByCode,
+        ensembles.ensembleId,
+        onlyDifferences,
+        landed,
+      );
+      const updated = await updateStudents(session, plan, userId, year?.id ?? null);
+      const created = new Set([...landed.students, ...(await insertStudents(session, fresh))]);
+      if (landed.students.size > 0)
+        await session.query('delete from roster_import_landings where run = $1::text', [
+          landed.run,
+        ]);
+      const seatChanges = year ? await seatStudents(session, year.id) : new Set<string>();
+      const schoolIds = plan.schoolCodes.map((code) => schoolIdByCode.get(code)!);
+      const withdrawn = plan.options.withdrawMissing
+        ? await withdrawMissing(session, schoolIds, year?.id ?? null, userId)
+        : 0;
+
+      const counts = { created: 0, updated: 0, unchanged: 0 };
+      for (const { row } of plan.parsed.rows) {
+        if (created.has(row.studentId)) counts.created += 1;
+        else if (updated.has(row.studentId)) counts.updated += 1;
+        else if (
+          row.ensemble &&
+          seatChanges.has(
+            `${row.studentId} ${ensembles.ensembleId(schoolIdByCode.get(row.schoolCode)!, row.ensemble)}`,
+          )
+        )
+          counts.updated += 1;
+        else counts.unchanged += 1;
+      }
       const result: ImportResult = {
-        rows,
-        created,
-        updated,
-        unchanged,
+        rows: plan.counts.rows,
+        ...counts,
         withdrawn,
         errors: plan.errors,
-        committed: false,
+        committed: true,
       };
-      return { ...result, importId: await recordHistory(session, plan, result, userId, meta) };
-    }
-    if (database.kind === 'postgres')
-      await session.query(`select pg_advisory_xact_lock(hashtext('tutti roster import'))`);
-    // First, before this transaction's own writes move the generation.
-    const onlyDifferences = await planStillHolds(database, session, landed.generation);
-    const { schoolIdByCode, year } = await schoolsAndYear(session);
-    const ensembles = await ensureEnsembles(session, plan, schoolIdByCode);
-    if (database.kind === 'pglite') await skipReferenceTriggers(session);
-    await createStagingTables(session);
-    const { existing, fresh } = await studentRows(
-      session,
-      plan,
-      schoolIdByCode,
-      onlyDifferences,
-      landed,
-    );
-    await stage(
-      session,
-      plan,
-      { existing, fresh },
-      schoolIdByCode,
-      ensembles.ensembleId,
-      onlyDifferences,
-      landed,
-    );
-    const updated = await updateStudents(session, plan, userId, year?.id ?? null);
-    const created = new Set([...landed.students, ...(await insertStudents(session, fresh))]);
-    if (landed.students.size > 0)
-      await session.query('delete from roster_import_landings where run = $1::text', [landed.run]);
-    const seatChanges = year ? await seatStudents(session, year.id) : new Set<string>();
-    const schoolIds = plan.schoolCodes.map((code) => schoolIdByCode.get(code)!);
-    const withdrawn = plan.options.withdrawMissing
-      ? await withdrawMissing(session, schoolIds, year?.id ?? null, userId)
-      : 0;
-
-    const counts = { created: 0, updated: 0, unchanged: 0 };
-    for (const { row } of plan.parsed.rows) {
-      if (created.has(row.studentId)) counts.created += 1;
-      else if (updated.has(row.studentId)) counts.updated += 1;
-      else if (
-        row.ensemble &&
-        seatChanges.has(
-          `${row.studentId} ${ensembles.ensembleId(schoolIdByCode.get(row.schoolCode)!, row.ensemble)}`,
-        )
-      )
-        counts.updated += 1;
-      else counts.unchanged += 1;
-    }
-    const result: ImportResult = {
-      rows: plan.counts.rows,
-      ...counts,
-      withdrawn,
-      errors: plan.errors,
-      committed: true,
-    };
-    const importId = await recordHistory(session, plan, result, userId, meta);
-    await session.query(
-      `insert into audit_log (user_id, action, entity, entity_id, before, after) values ($1::int, 'import', 'roster_import', $2, null, $3::jsonb)`,
-      [
-        userId,
-        String(importId),
-        JSON.stringify({
-          fileName: meta.fileName,
-          via: meta.via,
-          rows: result.rows,
-          created: result.created,
-          updated: result.updated,
-          unchanged: result.unchanged,
-          withdrawn,
-          errors: result.errors.length,
-          newEnsembles: [...landed.ensembles, ...ensembles.created.map((row) => row.name)],
-        }),
-      ],
-    );
-    return { ...result, importId };
-  }).catch(async (error: unknown) => {
+      const importId = await recordHistory(session, plan, result, userId, meta);
+      await session.query(
+        `insert into audit_log (user_id, action, entity, entity_id, before, after) values ($1::int, 'import', 'roster_import', $2, null, $3::jsonb)`,
+        [
+          userId,
+          String(importId),
+          JSON.stringify({
+            fileName: meta.fileName,
+            via: meta.via,
+            rows: result.rows,
+            created: result.created,
+            updated: result.updated,
+            unchanged: result.unchanged,
+            withdrawn,
+            errors: result.errors.length,
+            newEnsembles: [...landed.ensembles, ...ensembles.created.map((row) => row.name)],
+          }),
+        ],
+      );
+      return { ...result, importId };
+    });
+  } catch (error) {
+    // A failed slice or final transaction rolls itself back; the slices before it go here.
     if (landed.students.size > 0) await takeBackLanded(database, landed.run);
     throw error;
-  });
+  }
   // A big change moves the planner's picture of the roster (see refreshStatistics).
   const changed = committed.created + committed.updated + committed.withdrawn;
   if (committed.committed && (await statisticsStale(database.db, 'students', changed))) {
