@@ -1,6 +1,12 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { sql } from 'drizzle-orm';
-import { openDatabase, rowsOf, type DatabaseHandle } from './client';
+import {
+  afterAnswering,
+  housekeepingDone,
+  openDatabase,
+  rowsOf,
+  type DatabaseHandle,
+} from './client';
 
 describe('the embedded engine as opened', () => {
   let handle: DatabaseHandle;
@@ -31,5 +37,52 @@ describe('the embedded engine as opened', () => {
     expect(row!.names).toEqual(['a', 'b c']);
     // Drizzle has PGlite hand timestamps over as PostgreSQL's text (node-postgres gives a Date).
     expect(new Date(row!.at).toISOString()).toBe('2026-12-03T07:00:00.000Z');
+  });
+});
+
+describe('housekeeping after an answer', () => {
+  it('runs after the caller goes on, in order, and close() waits for it', async () => {
+    const handle = await openDatabase({ kind: 'pglite-memory' });
+    const ran: string[] = [];
+    afterAnswering(handle, 'first', async () => {
+      await handle.db.execute(sql`create table noted (what text)`);
+      ran.push('first');
+    });
+    afterAnswering(handle, 'second', async () => {
+      await handle.db.execute(sql`insert into noted values ('second')`);
+      ran.push('second');
+    });
+    // Nothing has run while the caller still holds the turn (it is answering).
+    expect(ran).toEqual([]);
+    await housekeepingDone(handle);
+    expect(ran).toEqual(['first', 'second']);
+    afterAnswering(handle, 'third', async () => {
+      await handle.db.execute(sql`insert into noted values ('third')`);
+      ran.push('third');
+    });
+    await handle.close();
+    expect(ran).toEqual(['first', 'second', 'third']);
+  });
+
+  it('logs a failure, throws it to no one, and goes on with the next piece', async () => {
+    const handle = await openDatabase({ kind: 'pglite-memory' });
+    const log = vi.spyOn(process.stderr, 'write').mockImplementation(() => true);
+    try {
+      const ran: string[] = [];
+      afterAnswering(handle, 'Counting the missing table', async () => {
+        await handle.db.execute(sql`select count(*) from no_such_table`);
+      });
+      afterAnswering(handle, 'next', async () => {
+        ran.push('next');
+      });
+      await housekeepingDone(handle);
+      expect(ran).toEqual(['next']);
+      expect(log).toHaveBeenCalledWith(
+        expect.stringMatching(/^Counting the missing table failed: .*no_such_table/),
+      );
+    } finally {
+      log.mockRestore();
+      await handle.close();
+    }
   });
 });

@@ -70,7 +70,16 @@ export async function openDatabase(
       process.stderr.write(`A pooled PostgreSQL connection closed: ${error.message}\n`);
     });
     const db = drizzleNodePostgres({ client: pool, schema, logger }) as unknown as Database;
-    return { db, kind: 'postgres', pool, close: () => pool.end() };
+    const handle: DatabaseHandle = {
+      db,
+      kind: 'postgres',
+      pool,
+      close: async () => {
+        await housekeepingDone(handle);
+        await pool.end();
+      },
+    };
+    return handle;
   }
   let pglite: PGlite;
   if (location.kind === 'pglite') {
@@ -87,14 +96,16 @@ export async function openDatabase(
   }
   await dropCompositeArrayParsers(pglite);
   const db = drizzlePglite({ client: pglite, schema, logger }) as unknown as Database;
-  return {
+  const handle: DatabaseHandle = {
     db,
     kind: 'pglite',
     pglite,
     close: async () => {
+      await housekeepingDone(handle);
       if (!pglite.closed) await pglite.close();
     },
   };
+  return handle;
 }
 
 /**
@@ -150,6 +161,39 @@ export async function oneByOne<const Work extends readonly (() => Promise<unknow
  */
 export function yieldToRequests(): Promise<void> {
   return new Promise((resolve) => setImmediate(resolve));
+}
+
+/** Each database's housekeeping still to run (see {@link afterAnswering}). */
+const housekeeping = new WeakMap<DatabaseHandle, Promise<void>>();
+
+/**
+ * Runs `work` once the caller has answered (after one turn of the event loop), each database's
+ * pieces one after another: upkeep a person need not wait for, such as gathering the planner's
+ * statistics after a large import. A failure is written to the log and thrown to no one, since
+ * the answer has gone; `close()` waits for everything queued. The work must leave nothing a
+ * reader depends on half done (it is derived data, or it runs in one transaction).
+ */
+export function afterAnswering(
+  database: DatabaseHandle,
+  what: string,
+  work: () => Promise<void>,
+): void {
+  const queued = housekeepingDone(database)
+    .then(async () => {
+      await yieldToRequests();
+      await work();
+    })
+    .catch((error: unknown) => {
+      process.stderr.write(
+        `${what} failed: ${error instanceof Error ? error.message : String(error)}\n`,
+      );
+    });
+  housekeeping.set(database, queued);
+}
+
+/** Settles when the housekeeping queued so far on `database` has run. */
+export function housekeepingDone(database: DatabaseHandle): Promise<void> {
+  return housekeeping.get(database) ?? Promise.resolve();
 }
 
 /** The rows of a raw `db.execute` result, for both drivers. */

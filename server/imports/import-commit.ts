@@ -1,6 +1,6 @@
 import type { ImportResult } from '../../shared/api/import';
 import type { Actor } from '../core/policy';
-import { yieldToRequests, type DatabaseHandle } from '../db/client';
+import { afterAnswering, yieldToRequests, type DatabaseHandle } from '../db/client';
 import { randomUUID } from 'node:crypto';
 import type { RosterRow } from '../../shared/roster';
 import { refreshStatistics, rosterTables, statisticsStale } from '../db/statistics';
@@ -611,10 +611,15 @@ export async function commitImport(
     if (landed.students.size > 0) await takeBackLanded(database, landed.run);
     throw error;
   }
-  // A big change moves the planner's picture of the roster (see refreshStatistics).
+  // A big change moves the planner's picture of the roster (see refreshStatistics): gathered
+  // again once the import has answered, so no one waits for it (about 0.15 s for 18,000 new
+  // students here); pages asked for meanwhile are planned with the old picture.
   const changed = committed.created + committed.updated + committed.withdrawn;
-  if (committed.committed && (await statisticsStale(database.db, 'students', changed))) {
-    await refreshStatistics(database.db, rosterTables);
+  if (committed.committed && changed > 0) {
+    afterAnswering(database, 'Gathering the roster statistics after an import', async () => {
+      if (await statisticsStale(database.db, 'students', changed))
+        await refreshStatistics(database.db, rosterTables);
+    });
   }
   return committed;
 }

@@ -143,20 +143,26 @@ export async function benchGridPages(options: {
       // write the pages that follow do not make.
       await server.get(page.path);
       const statements = await district.capture(() => server.get(page.path));
+      const runDirect = async () => {
+        for (const statement of statements)
+          await district.database.pglite!.query(statement.query, statement.params as never[]);
+      };
       // A few rounds of both first, so the timings are of compiled code and planned queries.
       for (let round = 0; round < 5; round += 1) {
         await clients.sequential(page.path, 1);
-        for (const statement of statements)
-          await district.database.pglite!.query(statement.query, statement.params as never[]);
+        await runDirect();
       }
-      const product = percentile(await clients.sequential(page.path, runs), 95);
-      const direct = percentile(
-        await timings(async () => {
-          for (const statement of statements)
-            await district.database.pglite!.query(statement.query, statement.params as never[]);
-        }, runs),
-        95,
-      );
+      // Then both in alternating rounds of ten, so a burst of noise on a shared machine lands
+      // on both sides rather than on whichever ran through it.
+      const productTimes: number[] = [];
+      const directTimes: number[] = [];
+      for (let done = 0; done < runs; done += 10) {
+        const size = Math.min(10, runs - done);
+        productTimes.push(...(await clients.sequential(page.path, size)));
+        directTimes.push(...(await timings(runDirect, size, 0)));
+      }
+      const product = percentile(productTimes, 95);
+      const direct = percentile(directTimes, 95);
       const target = page.indexedSort ? 'p95 ≤ direct + 10 ms and < 25 ms' : 'p95 ≤ direct + 10 ms';
       const met = product <= direct + 10 && (!page.indexedSort || product < 25);
       figures.push(

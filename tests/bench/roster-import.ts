@@ -1,6 +1,11 @@
 import { performance } from 'node:perf_hooks';
 import { toRosterCsv, type RosterRow } from '../../shared/roster';
-import { migrateDatabase, openDatabase, type DatabaseHandle } from '../../server/db/client';
+import {
+  housekeepingDone,
+  migrateDatabase,
+  openDatabase,
+  type DatabaseHandle,
+} from '../../server/db/client';
 import { schoolYears, schools } from '../../server/db/schema/index';
 import { importRoster } from '../../server/imports/import-service';
 import { copyText } from '../../server/imports/sql-session';
@@ -102,8 +107,11 @@ export async function benchRosterImport(options: { rows: number }): Promise<Benc
       throw new Error(
         `The bench import did not commit: ${JSON.stringify(firstResult?.result.errors.slice(0, 3))}`,
       );
+    // The planner's statistics, gathered once the import has answered (not in its time).
+    const statisticsMs = await timed(() => housekeepingDone(database));
     let again: Awaited<ReturnType<typeof run>> | undefined;
     const reimportMs = await timed(async () => (again = await run(bytes)));
+    await housekeepingDone(database);
     if (again?.result.unchanged !== options.rows) throw new Error('The re-import changed rows.');
 
     const students = [
@@ -134,7 +142,7 @@ export async function benchRosterImport(options: { rows: number }): Promise<Benc
         `roster import, ${options.rows} rows`,
         importMs,
         copyMs,
-        `parse, validate, plan and commit; target under 1500 ms for 20,000 rows; limit: plain COPY of ${students.length} students`,
+        `parse, validate, plan and commit; target under 1500 ms for 20,000 rows; limit: plain COPY of ${students.length} students; then ${Math.round(statisticsMs)} ms of statistics after the answer`,
       ),
       figure(
         `roster re-import, ${options.rows} rows unchanged`,
