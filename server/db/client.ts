@@ -70,16 +70,7 @@ export async function openDatabase(
       process.stderr.write(`A pooled PostgreSQL connection closed: ${error.message}\n`);
     });
     const db = drizzleNodePostgres({ client: pool, schema, logger }) as unknown as Database;
-    const handle: DatabaseHandle = {
-      db,
-      kind: 'postgres',
-      pool,
-      close: async () => {
-        await housekeepingDone(handle);
-        await pool.end();
-      },
-    };
-    return handle;
+    return closingAfterHousekeeping({ db, kind: 'postgres', pool }, () => pool.end());
   }
   let pglite: PGlite;
   if (location.kind === 'pglite') {
@@ -96,13 +87,21 @@ export async function openDatabase(
   }
   await dropCompositeArrayParsers(pglite);
   const db = drizzlePglite({ client: pglite, schema, logger }) as unknown as Database;
+  return closingAfterHousekeeping({ db, kind: 'pglite', pglite }, async () => {
+    if (!pglite.closed) await pglite.close();
+  });
+}
+
+/** A handle whose `close()` first waits for its housekeeping (see {@link afterAnswering}). */
+function closingAfterHousekeeping(
+  opened: Omit<DatabaseHandle, 'close'>,
+  closeEngine: () => Promise<void>,
+): DatabaseHandle {
   const handle: DatabaseHandle = {
-    db,
-    kind: 'pglite',
-    pglite,
+    ...opened,
     close: async () => {
       await housekeepingDone(handle);
-      if (!pglite.closed) await pglite.close();
+      await closeEngine();
     },
   };
   return handle;
