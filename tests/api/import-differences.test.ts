@@ -4,6 +4,8 @@ import { landingSlice } from '../../server/imports/import-commit';
 import { commitImport, planUpload } from '../../server/imports/import-service';
 import { settleUnfinishedImports } from '../../server/imports/landed-students';
 import { rosterGeneration } from '../../server/imports/roster-snapshot';
+import { schoolYears, schools } from '../../server/db/schema/index';
+import { demoSchoolYear } from '../../server/seed/demo';
 import { demoSchools } from '../../server/seed/demo-people';
 import { toRosterCsv, type RosterRow } from '../../shared/roster';
 import { inventedRoster } from '../bench/roster-import';
@@ -29,13 +31,13 @@ async function query<Row = Record<string, unknown>>(app: TestApp, text: string):
 const generationOf = (app: TestApp) => rosterGeneration((text) => query(app, text));
 
 /**
- * Watches a commit's transactions in PGlite: how many it ran, and the existing students it
- * staged for comparison (the lines of its `COPY import_students`). On a server there is nothing
+ * Watches a commit's transactions in PGlite: how many it ran, the existing students it staged
+ * for comparison (the lines of its `COPY import_students`) and the indexes it dropped. On a server there is nothing
  * to watch (and no short cuts).
  */
 function watchCommit(app: TestApp) {
   const pglite = app.database.pglite;
-  const seen = { transactions: 0, staged: 0 };
+  const seen = { transactions: 0, staged: 0, droppedIndexes: 0 };
   if (!pglite) return { seen: async () => null, stop: () => undefined };
   const pending: Promise<void>[] = [];
   const transaction = pglite.transaction.bind(pglite);
@@ -44,6 +46,7 @@ function watchCommit(app: TestApp) {
       seen.transactions += 1;
       const txQuery = tx.query.bind(tx);
       tx.query = ((text: string, params?: unknown[], options?: { blob?: Blob }) => {
+        if (text.startsWith('drop index')) seen.droppedIndexes += 1;
         if (text.startsWith('copy import_students') && options?.blob)
           pending.push(
             options.blob.text().then((body) => {
@@ -81,7 +84,13 @@ async function importInSteps(app: TestApp, rows: RosterRow[], between?: () => Pr
       via: 'cli',
     });
     const seen = await watch.seen();
-    return { plan, result, staged: seen?.staged ?? null, transactions: seen?.transactions ?? null };
+    return {
+      plan,
+      result,
+      staged: seen?.staged ?? null,
+      transactions: seen?.transactions ?? null,
+      droppedIndexes: seen?.droppedIndexes ?? null,
+    };
   } finally {
     watch.stop();
   }
@@ -141,6 +150,30 @@ async function studentsState(app: TestApp, prefix: string) {
     seats: full.seats.filter(mine),
     attainment: full.attainment.filter(mine),
   };
+}
+
+/**
+ * Runs an import while its history row, written last in the final transaction, fails (a
+ * trigger that fires whatever the session's replication role), and expects it to be refused.
+ */
+async function expectHistoryToFail(app: TestApp, run: () => Promise<unknown>) {
+  await query(
+    app,
+    `create function stop_import() returns trigger language plpgsql as $$
+     begin raise exception 'The test stops this import.'; end $$`,
+  );
+  await query(
+    app,
+    `create trigger stop_import before insert on roster_imports
+     for each row execute function stop_import()`,
+  );
+  await query(app, 'alter table roster_imports enable always trigger stop_import');
+  try {
+    await expect(run()).rejects.toThrow('The test stops this import.');
+  } finally {
+    await query(app, 'drop trigger stop_import on roster_imports');
+    await query(app, 'drop function stop_import()');
+  }
 }
 
 const first = inventedRoster(240, 5, 810_000);
@@ -333,25 +366,7 @@ describe('A large roster import', () => {
       shortCut,
       'select school_id, grade, status, students from student_counts order by 1, 2, 3',
     );
-    // The history row, written last in the final transaction, fails (a trigger that fires
-    // whatever the session's replication role).
-    await query(
-      shortCut,
-      `create function stop_import() returns trigger language plpgsql as $$
-       begin raise exception 'The test stops this import.'; end $$`,
-    );
-    await query(
-      shortCut,
-      `create trigger stop_import before insert on roster_imports
-       for each row execute function stop_import()`,
-    );
-    await query(shortCut, 'alter table roster_imports enable always trigger stop_import');
-    try {
-      await expect(importInSteps(shortCut, file)).rejects.toThrow('The test stops this import.');
-    } finally {
-      await query(shortCut, 'drop trigger stop_import on roster_imports');
-      await query(shortCut, 'drop function stop_import()');
-    }
+    await expectHistoryToFail(shortCut, () => importInSteps(shortCut, file));
     expect(await studentsOfFile(shortCut, file)).toBe(0);
     expect(await query(shortCut, 'select id from ensembles order by id')).toEqual(ensemblesBefore);
     expect(
@@ -386,5 +401,117 @@ describe('A large roster import', () => {
     expect(left).toEqual([{ id: kept!.id }]);
     expect(await landingRows(app)).toBe(0);
     expect(await settleUnfinishedImports(app.database)).toBe(0);
+  });
+});
+
+describe("A district's first import", () => {
+  // Two districts with schools and a year but no students yet.
+  let bulk: TestApp;
+  let stepwise: TestApp;
+  beforeAll(async () => {
+    [bulk, stepwise] = await Promise.all([
+      startTestApp({ template: 'empty' }),
+      startTestApp({ template: 'empty' }),
+    ]);
+    for (const app of [bulk, stepwise]) {
+      await app.database.db
+        .insert(schools)
+        .values(
+          demoSchools.map(({ code, name, level, address }) => ({ code, name, level, address })),
+        );
+      await app.database.db.insert(schoolYears).values({ ...demoSchoolYear, current: true });
+    }
+  });
+  afterAll(async () => {
+    await bulk?.close();
+    await stepwise?.close();
+  });
+
+  const file = inventedRoster(2_400, 12, 860_000).map((row, index) =>
+    index % 9 === 0 ? { ...row, ensemble: 'First Import Winds' } : row,
+  );
+  const indexes = (app: TestApp) =>
+    query(
+      app,
+      `select tablename, indexname, indexdef from pg_indexes
+       where tablename in ('students', 'student_attainment', 'enrollments') order by 2`,
+    );
+  const unusable = (app: TestApp) =>
+    query(
+      app,
+      `select c.relname from pg_index i join pg_class c on c.oid = i.indexrelid
+       where i.indrelid in ('students'::regclass, 'student_attainment'::regclass, 'enrollments'::regclass)
+         and not (i.indisvalid and i.indisready)`,
+    );
+
+  it('should leave the indexes and the empty roster as they were when its final transaction fails', async () => {
+    const before = await indexes(bulk);
+    const watch = watchCommit(bulk);
+    try {
+      await expectHistoryToFail(bulk, () => importInSteps(bulk, file));
+    } finally {
+      watch.stop();
+    }
+    // It had dropped them (in PGlite) before its history row failed.
+    const seen = await watch.seen();
+    if (seen) expect(seen.droppedIndexes).toBeGreaterThan(10);
+    expect(await indexes(bulk)).toEqual(before);
+    expect(await unusable(bulk)).toEqual([]);
+    expect(await query(bulk, 'select count(*)::int as count from students')).toEqual([
+      { count: 0 },
+    ]);
+    expect(await query(bulk, 'select count(*)::int as count from student_attainment')).toEqual([
+      { count: 0 },
+    ]);
+  });
+
+  it('should add its students with the indexes built after, and end where two smaller imports end', async () => {
+    expect(new Set(file.map((row) => row.studentId)).size).toBeGreaterThan(2_000);
+    const before = await indexes(bulk);
+    const whole = await importInSteps(bulk, file);
+    expect(whole.result).toMatchObject({ committed: true, created: file.length });
+    // The same students in two imports, each adding fewer than a bulk load's least.
+    const part = await importInSteps(stepwise, file.slice(0, 400));
+    const rest = await importInSteps(stepwise, file);
+    expect(rest.result).toMatchObject({ committed: true });
+    if (bulk.database.kind === 'pglite') {
+      // One transaction, no landing slices; every index that enforces nothing was dropped.
+      expect(whole.transactions).toBe(1);
+      const secondary = await query(
+        bulk,
+        `select 1 from pg_index i where i.indrelid in ('students'::regclass, 'student_attainment'::regclass, 'enrollments'::regclass)
+           and not i.indisunique`,
+      );
+      expect(whole.droppedIndexes).toBe(secondary.length);
+      expect(secondary.length).toBeGreaterThan(10);
+      expect(part.droppedIndexes).toBe(0);
+      expect(rest.droppedIndexes).toBe(0);
+    }
+    expect(await indexes(bulk)).toEqual(before);
+    expect(await unusable(bulk)).toEqual([]);
+    const end = async (app: TestApp) => {
+      const { students, seats, counts, attainment } = await rosterState(app);
+      return { students, seats, counts, attainment };
+    };
+    expect(await end(bulk)).toEqual(await end(stepwise));
+    // The rebuilt indexes answer: a prefix search and a sort walk them.
+    const [someone] = await query<{ last_name: string }>(
+      bulk,
+      'select last_name from students order by id desc limit 1',
+    );
+    await query(bulk, 'set enable_seqscan = off');
+    const searched = await query<{ count: number }>(
+      bulk,
+      `select count(*)::int as count from students
+       where lower(last_name) like '${someone!.last_name.toLowerCase()}%'`,
+    );
+    await query(bulk, 'reset enable_seqscan');
+    const scanned = await query<{ count: number }>(
+      bulk,
+      `select count(*)::int as count from students
+       where starts_with(lower(last_name), '${someone!.last_name.toLowerCase()}')`,
+    );
+    expect(searched[0]!.count).toBeGreaterThan(0);
+    expect(searched).toEqual(scanned);
   });
 });
