@@ -1,6 +1,8 @@
 import fs from 'node:fs';
 import os from 'node:os';
-import { execSync } from 'node:child_process';
+import { execSync, spawn } from 'node:child_process';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { printFigures, type BenchFigure } from './bench-figure';
 import { benchGridPages } from './grid-pages';
 import { benchStartup } from './startup';
@@ -9,7 +11,8 @@ import { benchBundle } from './bundle';
 /**
  * `npm run bench`: every figure against the limit measured in the same run, printed as ratios.
  * `--smoke` runs small sizes (part of `npm test`, so the benchmarks cannot rot);
- * `--write-results` records the run in tests/bench/RESULTS.md.
+ * `--write-results` records the run in tests/bench/RESULTS.md. Each section runs in a process
+ * of its own (see `inOwnProcess`).
  */
 const smoke = process.argv.includes('--smoke');
 const writeResults = process.argv.includes('--write-results');
@@ -95,14 +98,54 @@ async function sections(): Promise<Section[]> {
   return list;
 }
 
+/**
+ * Runs one section in a Node process of its own (this script with `--only=N`), so what one
+ * section leaves behind (a heap grown by an import, engines' memory) does not weigh on the next:
+ * run in one process, the grid pages' overhead grew section by section (about 5–8 ms at p95
+ * alone, 8–13 ms after the sections before them). Answers the figures the child wrote.
+ */
+async function inOwnProcess(section: Section): Promise<BenchFigure[]> {
+  const number = section.title.split('.')[0]!;
+  const figuresFile = path.join(os.tmpdir(), `tutti-bench-${process.pid}-${number}.json`);
+  const args = [
+    ...process.execArgv,
+    fileURLToPath(import.meta.url),
+    `--only=${number}`,
+    `--figures-to=${figuresFile}`,
+    ...(smoke ? ['--smoke'] : []),
+  ];
+  const code = await new Promise<number | null>((resolve, reject) => {
+    const child = spawn(process.execPath, args, { stdio: 'inherit' });
+    child.on('error', reject);
+    child.on('exit', resolve);
+  });
+  if (code !== 0) throw new Error(`Section ${section.title} ended with exit code ${code}.`);
+  try {
+    return JSON.parse(fs.readFileSync(figuresFile, 'utf8')) as BenchFigure[];
+  } finally {
+    fs.rmSync(figuresFile, { force: true });
+  }
+}
+
+/** `--figures-to=FILE` (set by {@link inOwnProcess}): where a section's figures go as JSON. */
+const figuresTo = process.argv
+  .find((arg) => arg.startsWith('--figures-to='))
+  ?.slice('--figures-to='.length);
+
 const results: { title: string; figures: BenchFigure[] }[] = [];
 const chosen = (await sections()).filter(
   (section) => !only || only.includes(section.title.split('.')[0]!),
 );
 for (const section of chosen) {
+  if (chosen.length > 1) {
+    // The child prints its own table.
+    results.push({ title: section.title, figures: await inOwnProcess(section) });
+    continue;
+  }
   const figures = await section.run();
   printFigures(section.title, figures);
   results.push({ title: section.title, figures });
+  if (figuresTo) fs.writeFileSync(figuresTo, JSON.stringify(figures));
 }
 
 if (writeResults && !only) {
