@@ -1,7 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import {
+  dialogReady,
+  launchBrowser,
+  localOnlyContext,
+  saveScreenshot,
+  signInAs,
+} from '../support/browser';
 
 let app: TestApp;
 let browser: Browser;
@@ -68,6 +74,7 @@ describe('Instrument fleet screens', () => {
     // Check out from the Loans screen.
     await page.goto(`${app.url}/loans`);
     await page.getByTestId('check-out').click();
+    await dialogReady(page);
     await page.getByTestId('instrument-picker').fill(instrument.assetTag);
     await page.getByRole('option', { name: new RegExp(instrument.assetTag) }).click();
     await page.getByTestId('student-picker').fill(student.studentNumber);
@@ -199,6 +206,7 @@ describe('Instrument fleet screens', () => {
       .poll(() => page.getByRole('note').first().innerText())
       .toContain('go to a qualified repair technician');
     await page.getByTestId('new-repair').click();
+    await dialogReady(page);
     await page.getByTestId('instrument-picker').fill(trumpet.assetTag);
     await page.getByRole('option', { name: new RegExp(trumpet.assetTag) }).click();
     await page.getByTestId('repair-problem').fill('Third valve sticks after oiling');

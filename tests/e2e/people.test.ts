@@ -3,6 +3,7 @@ import type { Browser } from 'playwright-core';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 import {
   chooseOption,
+  dialogReady,
   launchBrowser,
   localOnlyContext,
   saveScreenshot,
@@ -33,6 +34,7 @@ describe('People screen', () => {
     await expect.poll(() => table.innerText()).toContain('Ines Tallowbrook');
 
     await page.getByTestId('add-person').click();
+    await dialogReady(page);
     await page.getByTestId('person-name').fill('Cosima Reedholt');
     await page.getByTestId('person-email').fill(newDirector);
     await chooseOption(page, 'person-schools', 'Quarry Hill Middle (QHMS)');

@@ -71,6 +71,18 @@ export async function saveScreenshot(page: Page, name: string) {
 }
 
 /**
+ * Waits for a dialog that was just opened to take the focus. Angular Material moves the focus
+ * into a dialog (its `autoFocus`, by default the first field) only once the opening animation
+ * has ended, so text typed before then can end up in the first field instead of the one meant
+ * (seen once on a slow machine: the e-mail address typed into the name field).
+ */
+export async function dialogReady(page: Page) {
+  await page.waitForFunction(() =>
+    Boolean(document.activeElement?.closest('mat-dialog-container')),
+  );
+}
+
+/**
  * Opens a Material select and picks an option. A select whose options have not arrived yet
  * does not open on a click, so this tries again until the option shows (or 30 s pass).
  */
