@@ -1,4 +1,4 @@
-import express, { Router, type Express } from 'express';
+import express, { Router, type Express, type RequestHandler } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
 import fs from 'node:fs';
@@ -35,7 +35,6 @@ import { webRoot } from './project-paths';
 
 export { webRoot };
 
-
 /** What createApp needs besides the configuration. */
 export interface AppOptions {
   database: DatabaseHandle;
@@ -47,7 +46,36 @@ export interface AppOptions {
 }
 
 /** The feature routers, each mounted under /api. */
-const featureRoutes: ((services: Services) => Router)[] = [meRoutes, schoolsRoutes, tokensRoutes, peopleRoutes, outboxRoutes, reportsRoutes, importsRoutes, studentsRoutes, ensemblesRoutes, enrollmentsRoutes, gridPreferencesRoutes, ladderRoutes, passOffsRoutes, analyticsRoutes, ...fleetRoutes];
+const featureRoutes: ((services: Services) => Router)[] = [
+  meRoutes,
+  schoolsRoutes,
+  tokensRoutes,
+  peopleRoutes,
+  outboxRoutes,
+  reportsRoutes,
+  importsRoutes,
+  studentsRoutes,
+  ensemblesRoutes,
+  enrollmentsRoutes,
+  gridPreferencesRoutes,
+  ladderRoutes,
+  passOffsRoutes,
+  analyticsRoutes,
+  ...fleetRoutes,
+];
+
+/**
+ * Runs a session middleware except for API requests that carry an Authorization header: those
+ * authenticate by the header alone (server/auth/authenticate.ts answers 401 rather than fall back
+ * to a cookie), so loading, starting or refreshing a session for them is wasted work on every
+ * scripted or benchmarked call.
+ */
+function withoutBearerApiRequests(middleware: RequestHandler): RequestHandler {
+  return (request, response, next) =>
+    request.headers.authorization !== undefined && request.path.startsWith('/api/')
+      ? next()
+      : middleware(request, response, next);
+}
 
 /** Builds the Express app: security headers, sessions, sign-in, the API and the web app. */
 export async function createApp(config: Config, options: AppOptions): Promise<Express> {
@@ -56,6 +84,9 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   const services: Services = { config, db, database: options.database, logger };
   const app = express();
   app.disable('x-powered-by');
+  // API answers are sent with Cache-Control: no-store, so nothing revalidates them; an ETag
+  // would hash every answer's body for no one. Static files keep theirs (express.static).
+  app.set('etag', false);
   // One hop: the district's TLS-terminating proxy. Trusting every X-Forwarded-For hop would let
   // a client pick its own address and step around the rate limits.
   app.set('trust proxy', config.trustProxy ? 1 : false);
@@ -91,18 +122,20 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
 
   const secure = config.appUrl.startsWith('https:');
   app.use(
-    session({
-      name: sessionCookieName,
-      secret: await sessionSecret(db, config.sessionSecret),
-      store: new DatabaseSessionStore(db),
-      resave: false,
-      saveUninitialized: false,
-      rolling: true,
-      cookie: { httpOnly: true, sameSite: 'lax', secure, maxAge: 8 * 60 * 60 * 1000 },
-    }),
+    withoutBearerApiRequests(
+      session({
+        name: sessionCookieName,
+        secret: await sessionSecret(db, config.sessionSecret),
+        store: new DatabaseSessionStore(db),
+        resave: false,
+        saveUninitialized: false,
+        rolling: true,
+        cookie: { httpOnly: true, sameSite: 'lax', secure, maxAge: 8 * 60 * 60 * 1000 },
+      }),
+    ),
   );
   const signIn = createSignIn(config, db, logger);
-  app.use(signIn.initialize, signIn.session);
+  app.use(withoutBearerApiRequests(signIn.initialize), withoutBearerApiRequests(signIn.session));
   app.use(sameOriginWrites(() => [new URL(config.appUrl).origin], sessionCookieName));
   app.use(['/auth/sign-in', '/auth/callback'], signInLimit(config.rateLimits.signIn));
   app.use(signIn.router);

@@ -1,4 +1,4 @@
-import { eq } from 'drizzle-orm';
+import { eq, sql, type SQL } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
 import { schoolYears } from '../db/schema/index';
 import { badRequest } from '../core/errors';
@@ -15,6 +15,14 @@ export async function findCurrentSchoolYear(
     .limit(1);
   return year;
 }
+
+/**
+ * The current school year's id as a scalar subquery (NULL before one is set up, which no seat
+ * matches), for a statement that needs it only as a condition: one statement fewer than reading
+ * the year first, on a path as hot as a grid page.
+ */
+export const currentSchoolYearId: SQL<number | null> =
+  sql`(select ${schoolYears.id} from ${schoolYears} where ${schoolYears.current} order by ${schoolYears.startsOn} limit 1)`;
 
 /** The current school year; a 400 when the district has none marked current. */
 export async function currentSchoolYear(

@@ -1,4 +1,4 @@
-import { and, eq, sql } from 'drizzle-orm';
+import { and, eq, sql, type SQL } from 'drizzle-orm';
 import { intArray, type Database, type Transaction } from '../db/client';
 import { enrollments, ensembles } from '../db/schema/index';
 import { instrumentName, scorePosition } from '../enrollments/instrument-order';
@@ -15,12 +15,13 @@ const noSeats: SeatSummary = { ensembles: '', ensembleIds: [], instruments: '', 
 
 /**
  * The current ensembles and instruments of just these students, in one query over their ids
- * (the page's rows), so a page never joins the whole enrollment table.
+ * (the page's rows), so a page never joins the whole enrollment table. The school year is an id,
+ * or a subquery that answers one (`currentSchoolYearId`).
  */
 export async function seatSummaries(
   db: Database | Transaction,
   studentIds: number[],
-  schoolYearId: number | undefined,
+  schoolYearId: number | SQL<number | null> | undefined,
 ): Promise<(studentId: number) => SeatSummary> {
   if (studentIds.length === 0 || schoolYearId === undefined) return () => noSeats;
   const seats = await db
@@ -36,7 +37,9 @@ export async function seatSummaries(
       and(
         // One array parameter, not one per student: building a statement costs per parameter.
         sql`${enrollments.studentId} = any(${intArray(studentIds)}::int[])`,
-        eq(enrollments.schoolYearId, schoolYearId),
+        typeof schoolYearId === 'number'
+          ? eq(enrollments.schoolYearId, schoolYearId)
+          : sql`${enrollments.schoolYearId} = ${schoolYearId}`,
         eq(enrollments.active, true),
       ),
     )

@@ -7,7 +7,7 @@ import { schools, studentCounts, students } from '../db/schema/index';
 import { badRequest } from '../core/errors';
 import { likePattern, parseListQuery } from '../core/list-query';
 import { schoolScope, type Actor } from '../core/policy';
-import { findCurrentSchoolYear } from '../enrollments/school-year';
+import { currentSchoolYearId } from '../enrollments/school-year';
 import { seatSummaries } from './student-seats';
 import { studentColumns, toStudent, type StudentRecord } from './student-row';
 
@@ -201,8 +201,9 @@ function searchCondition(q: string): SQL | undefined {
 }
 
 // Raw SQL with the table named: Drizzle leaves columns unqualified in a one-table select.
-function seatedCondition(schoolYearId: number, seat: SQL): SQL {
-  return sql`exists (select 1 from enrollments seat where seat.student_id = "students"."id" and seat.active and seat.school_year_id = ${schoolYearId} and ${seat})`;
+// A seat in the current school year; none before a year is set up.
+function seatedCondition(seat: SQL): SQL {
+  return sql`exists (select 1 from enrollments seat where seat.student_id = "students"."id" and seat.active and seat.school_year_id = ${currentSchoolYearId} and ${seat})`;
 }
 
 /**
@@ -276,15 +277,11 @@ export async function listStudents(
     conditions.push(eq(students.status, list.status));
     countConditions.push(eq(studentCounts.status, list.status));
   }
-  const year = await findCurrentSchoolYear(db);
-  if (list.ensembleId !== undefined || list.instrumentId) {
-    if (!year) conditions.push(sql`false`);
-    if (year && list.ensembleId !== undefined) {
-      conditions.push(seatedCondition(year.id, sql`seat.ensemble_id = ${list.ensembleId}`));
-    }
-    if (year && list.instrumentId) {
-      conditions.push(seatedCondition(year.id, sql`seat.instrument_id = ${list.instrumentId}`));
-    }
+  if (list.ensembleId !== undefined) {
+    conditions.push(seatedCondition(sql`seat.ensemble_id = ${list.ensembleId}`));
+  }
+  if (list.instrumentId) {
+    conditions.push(seatedCondition(sql`seat.instrument_id = ${list.instrumentId}`));
   }
   const where = and(...conditions);
   const countsSuffice = !list.q && list.ensembleId === undefined && !list.instrumentId;
@@ -323,7 +320,7 @@ export async function listStudents(
   const seats = await seatSummaries(
     db,
     records.map((record) => record.id),
-    year?.id,
+    currentSchoolYearId,
   );
   return {
     rows: records.map((record) => toStudent(record, seats(record.id), actor)),
