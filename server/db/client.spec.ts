@@ -38,6 +38,24 @@ describe('the embedded engine as opened', () => {
     // Drizzle has PGlite hand timestamps over as PostgreSQL's text (node-postgres gives a Date).
     expect(new Date(row!.at).toISOString()).toBe('2026-12-03T07:00:00.000Z');
   });
+
+  it('decodes text fields from the message itself, not from a copy of each (patches/)', async () => {
+    const slice = vi.spyOn(ArrayBuffer.prototype, 'slice');
+    try {
+      const { rows } = await handle.pglite!.query<string[]>(
+        `select 'Zoë ' || n, 'Ōkafor', n::text, repeat('x', n) from generate_series(1, 200) n`,
+        [],
+        { rowMode: 'array' },
+      );
+      // Every field read right, multi-byte UTF-8 included (RFC 3629).
+      expect(rows).toHaveLength(200);
+      expect(rows[199]).toEqual(['Zoë 200', 'Ōkafor', '200', 'x'.repeat(200)]);
+      // 800 fields; unpatched, PGlite copied each into its own ArrayBuffer before decoding it.
+      expect(slice.mock.calls.length).toBeLessThan(50);
+    } finally {
+      slice.mockRestore();
+    }
+  });
 });
 
 describe('housekeeping after an answer', () => {
