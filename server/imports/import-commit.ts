@@ -6,7 +6,12 @@ import { randomUUID } from 'node:crypto';
 import type { RosterRow } from '../../shared/roster';
 import { refreshStatistics, rosterTables, statisticsStale } from '../db/statistics';
 import { guessEnsembleKind } from './ensemble-kind';
-import { firstRowOfEachStudent, writtenStudentColumns, type ImportPlan } from './import-plan';
+import {
+  firstRowOfEachStudent,
+  uncommittedResult,
+  writtenStudentColumns,
+  type ImportPlan,
+} from './import-plan';
 import { takeBackLanded } from './landed-students';
 import { rosterGeneration } from './roster-snapshot';
 import { inSqlTransaction, queryJson, type SqlSession, type StagedValue } from './sql-session';
@@ -573,16 +578,7 @@ export async function commitImport(
     if (!bulk) await landNewStudents(database, plan, landed);
     committed = await inSqlTransaction(database, async (session) => {
       if (!plan.canCommit) {
-        const { rows, created, updated, unchanged, withdrawn } = plan.counts;
-        const result: ImportResult = {
-          rows,
-          created,
-          updated,
-          unchanged,
-          withdrawn,
-          errors: plan.errors,
-          committed: false,
-        };
+        const result = uncommittedResult(plan);
         return { ...result, importId: await recordHistory(session, plan, result, userId, meta) };
       }
       if (database.kind === 'postgres')

@@ -1,6 +1,7 @@
 import { formatGradeLevel, type ColumnMapping, type RosterRow } from '../../shared/roster';
 import type {
   FieldChange,
+  ImportResult,
   PlannedEnsemble,
   PlannedStudent,
   PlannedUpdate,
@@ -50,6 +51,12 @@ export interface ImportPlan {
    * while they ran); the commit writes only these rows while the generation has not moved.
    */
   differences: { generation: string | null; students: Set<string>; seatRows: Set<number> };
+}
+
+/** The result of a plan that writes nothing: a dry run, an unreadable file, or one with errors. */
+export function uncommittedResult(plan: ImportPlan): ImportResult {
+  const { rows, created, updated, unchanged, withdrawn } = plan.counts;
+  return { rows, created, updated, unchanged, withdrawn, errors: plan.errors, committed: false };
 }
 
 /** A student field the import writes, and the column it lands in. */

@@ -3,7 +3,7 @@ import type { ColumnMapping } from '../../shared/roster';
 import type { Actor } from '../core/policy';
 import type { DatabaseHandle } from '../db/client';
 import { commitImport, type ImportMeta } from './import-commit';
-import { planImport, type ImportPlan } from './import-plan';
+import { planImport, uncommittedResult, type ImportPlan } from './import-plan';
 import type { ParsedRoster } from './parse/parsed-roster';
 import { listedStudentIds, readRosterUpload, type RosterUpload } from './read-upload';
 import { districtSchoolCodes } from './roster-snapshot';
@@ -73,22 +73,7 @@ export async function importRoster(
 ): Promise<ImportOutcome> {
   const plan = await planUpload(database, request);
   const unreadable = isUnreadable(plan.parsed);
-  if (request.dryRun || unreadable) {
-    const { rows, created, updated, unchanged, withdrawn } = plan.counts;
-    return {
-      plan,
-      unreadable,
-      result: {
-        rows,
-        created,
-        updated,
-        unchanged,
-        withdrawn,
-        errors: plan.errors,
-        committed: false,
-      },
-    };
-  }
+  if (request.dryRun || unreadable) return { plan, unreadable, result: uncommittedResult(plan) };
   const { importId, ...result } = await commitImport(database, plan, actor, meta);
   return { plan, result, importId, unreadable };
 }
