@@ -37,9 +37,7 @@ export async function seatSummaries(
       and(
         // One array parameter, not one per student: building a statement costs per parameter.
         sql`${enrollments.studentId} = any(${intArray(studentIds)}::int[])`,
-        typeof schoolYearId === 'number'
-          ? eq(enrollments.schoolYearId, schoolYearId)
-          : sql`${enrollments.schoolYearId} = ${schoolYearId}`,
+        eq(enrollments.schoolYearId, schoolYearId),
         eq(enrollments.active, true),
       ),
     )
