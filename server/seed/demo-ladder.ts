@@ -81,9 +81,30 @@ const notes = [
 
 const dayMs = 24 * 60 * 60 * 1000;
 const isoDay = (time: number) => new Date(time).toISOString().slice(0, 10);
-function weekday(time: number): number {
+/**
+ * A school day near `time`: Saturday goes back to Friday, Sunday on to Monday (or, when that is
+ * past `last`, back to Friday).
+ */
+function weekday(time: number, last: number): number {
   const day = new Date(time).getUTCDay();
-  return day === 6 ? time - dayMs : day === 0 ? time + dayMs : time;
+  if (day === 6) return time - dayMs;
+  if (day === 0) return time + dayMs > last ? time - 2 * dayMs : time + dayMs;
+  return time;
+}
+
+/** The demo was first seeded on 1 December 2026; its pass-offs never end before 30 November. */
+const firstLastDay = Date.parse('2026-11-30T00:00:00Z');
+
+/**
+ * The last day the demo's pass-offs fall on: the day before the demo is seeded, but not before
+ * 30 November 2026 nor after the school year's last day. The pass-offs end there, so the demo
+ * reads as a year in progress (pass-offs this week, few students stalled) on whatever day it
+ * is tried, and the same day seeds the same district.
+ */
+export function lastDemoPassOffDay(seededOn: Date, schoolYearEndsOn: string): number {
+  const dayBefore =
+    Date.UTC(seededOn.getUTCFullYear(), seededOn.getUTCMonth(), seededOn.getUTCDate()) - dayMs;
+  return Math.min(Math.max(dayBefore, firstLastDay), Date.parse(`${schoolYearEndsOn}T00:00:00Z`));
 }
 
 interface DemoStudent {
@@ -95,11 +116,14 @@ interface DemoStudent {
 
 /**
  * Seeds the demo ladder (published and active) and a school year of pass-offs for every active
- * demo student, heard by their school's director, then builds the attainment summary.
+ * demo student, heard by their school's director on school days, then builds the attainment
+ * summary. Each student's pass-offs are spread evenly from late August to their last one: within
+ * the 24 days up to {@link lastDemoPassOffDay} for students who are moving, 38 to 66 days before
+ * it for stalled ones (all of one school and about one in eight elsewhere).
  */
 export async function seedDemoLadder(
   tx: Transaction,
-  context: { directorOf: Map<string, number> },
+  context: { directorOf: Map<string, number>; schoolYearEndsOn: string; seededOn: Date },
 ) {
   // Its own sequence, so the roster and the other seeders come out the same with or without it.
   const random = new SeededRandom(20260824);
@@ -135,6 +159,7 @@ export async function seedDemoLadder(
   const instruments = await studentInstruments(tx);
   const rows: (typeof passOffs.$inferInsert)[] = [];
   const yearStart = Date.parse('2026-08-24T00:00:00Z');
+  const lastDay = lastDemoPassOffDay(context.seededOn, context.schoolYearEndsOn);
   for (const pupil of pupils) {
     const family = familyOf(instruments.get(pupil.id));
     const own = pupil.id === studentAccountStudentId;
@@ -174,13 +199,13 @@ export async function seedDemoLadder(
     const stalled = pupil.code === 'OMMS' || random.chance(0.12);
     const start = yearStart + random.integer(0, 12) * dayMs;
     const end =
-      Date.parse(stalled ? '2026-09-25T00:00:00Z' : '2026-11-06T00:00:00Z') +
-      random.integer(0, stalled ? 28 : 24) * dayMs;
+      lastDay - (stalled ? 66 : 24) * dayMs + random.integer(0, stalled ? 28 : 24) * dayMs;
     const directorId = context.directorOf.get(pupil.code) ?? null;
     events.forEach((event, index) => {
       const heardOn = isoDay(
         weekday(
-          start + Math.round(((end - start) * (index + 1)) / (events.length + 1) / dayMs) * dayMs,
+          start + Math.round(((end - start) * (index + 1)) / events.length / dayMs) * dayMs,
+          lastDay,
         ),
       );
       rows.push({

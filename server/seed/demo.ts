@@ -17,8 +17,12 @@ export async function isEmpty(db: Database): Promise<boolean> {
   return row!.value === 0;
 }
 
-/** Seeds the invented Merrow Basin Unified district in one transaction. */
-export async function seedDemo(db: Database): Promise<void> {
+/**
+ * Seeds the invented Merrow Basin Unified district in one transaction. Its pass-offs end the day
+ * before `seededOn` (see `lastDemoPassOffDay` in demo-ladder.ts); everything else is the same
+ * whatever the day.
+ */
+export async function seedDemo(db: Database, seededOn = new Date()): Promise<void> {
   const random = new SeededRandom(20261201);
   await db.transaction(async (tx) => {
     const schoolRows = await tx
@@ -55,7 +59,11 @@ export async function seedDemo(db: Database): Promise<void> {
       studentUserId,
     });
     await seedDemoFleet(tx, { schoolYearEndsOn: demoSchoolYear.endsOn });
-    await seedDemoLadder(tx, { directorOf });
+    await seedDemoLadder(tx, {
+      directorOf,
+      schoolYearEndsOn: demoSchoolYear.endsOn,
+      seededOn,
+    });
   });
 }
 
