@@ -1,9 +1,12 @@
-import { eq, sql, type SQL } from 'drizzle-orm';
+import { desc, eq, sql, type SQL } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
 import { schoolYears } from '../db/schema/index';
 import { badRequest } from '../core/errors';
 
-/** The school year marked current, or undefined before one is set up. */
+/**
+ * The school year marked current, or undefined before one is set up. Should two be marked, the
+ * later-starting one is current, as the roster import and the reports take it.
+ */
 export async function findCurrentSchoolYear(
   db: Database | Transaction,
 ): Promise<{ id: number; name: string } | undefined> {
@@ -11,7 +14,7 @@ export async function findCurrentSchoolYear(
     .select({ id: schoolYears.id, name: schoolYears.name })
     .from(schoolYears)
     .where(eq(schoolYears.current, true))
-    .orderBy(schoolYears.startsOn)
+    .orderBy(desc(schoolYears.startsOn))
     .limit(1);
   return year;
 }
@@ -22,7 +25,7 @@ export async function findCurrentSchoolYear(
  * the year first, on a path as hot as a grid page.
  */
 export const currentSchoolYearId: SQL<number | null> =
-  sql`(select ${schoolYears.id} from ${schoolYears} where ${schoolYears.current} order by ${schoolYears.startsOn} limit 1)`;
+  sql`(select ${schoolYears.id} from ${schoolYears} where ${schoolYears.current} order by ${schoolYears.startsOn} desc limit 1)`;
 
 /** The current school year; a 400 when the district has none marked current. */
 export async function currentSchoolYear(
