@@ -46,7 +46,7 @@ export interface AppOptions {
 }
 
 /** The feature routers, each mounted under /api. */
-const featureRoutes: ((services: Services) => Router)[] = [
+export const featureRoutes: ((services: Services) => Router)[] = [
   meRoutes,
   schoolsRoutes,
   tokensRoutes,

@@ -26,6 +26,14 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
           ? 'The request is too large.'
           : 'The request body is not valid JSON.',
       );
+    } else if (dataException(error)) {
+      // The shared input rules should have refused this value; log the gap and answer 400.
+      logger.warn({ err: error, method: request.method, path: request.path }, 'value the database refused');
+      httpError = new HttpError(
+        400,
+        'bad_request',
+        'A value in the request is outside what can be stored (a number too large, a date out of range or a control character in text). Nothing was changed.',
+      );
     } else if (storageRefusal(error)) {
       logger.error({ err: error, method: request.method, path: request.path }, 'database refused');
       httpError = new HttpError(
@@ -62,6 +70,20 @@ function storageRefusal(error: unknown): boolean {
   for (let cause = error, depth = 0; cause && depth < 5; depth += 1) {
     const code = (cause as { code?: unknown }).code;
     if (typeof code === 'string' && /^(53...|25006|42501)$/.test(code)) return true;
+    cause = (cause as { cause?: unknown }).cause;
+  }
+  return false;
+}
+
+/**
+ * Whether a PostgreSQL error is class 22 "data exception" (22003 numeric value out of range,
+ * 22008 datetime field overflow, 22021 character not in repertoire, …): a value, not the server,
+ * is at fault (PostgreSQL 18 documentation, Appendix A).
+ */
+function dataException(error: unknown): boolean {
+  for (let cause = error, depth = 0; cause && depth < 5; depth += 1) {
+    const code = (cause as { code?: unknown }).code;
+    if (typeof code === 'string' && /^22...$/.test(code)) return true;
     cause = (cause as { cause?: unknown }).cause;
   }
   return false;

@@ -47,6 +47,7 @@ export async function listEnrollments(
           ilike(students.studentNumber, pattern),
         )
       : undefined,
+    list.schoolId !== undefined ? eq(ensembles.schoolId, list.schoolId) : undefined,
     list.studentId !== undefined ? eq(enrollments.studentId, list.studentId) : undefined,
     list.ensembleId !== undefined ? eq(enrollments.ensembleId, list.ensembleId) : undefined,
     list.schoolYearId !== undefined ? eq(enrollments.schoolYearId, list.schoolYearId) : undefined,

@@ -2,7 +2,7 @@ import { Router, type Request } from 'express';
 import { gridNamePattern, gridPreferenceInputSchema } from '../../shared/api/grid-preference';
 import { badRequest } from '../core/errors';
 import { actorOf } from '../core/policy';
-import { parseInput } from '../core/validate';
+import { nothing, parseInput } from '../core/validate';
 import type { Services } from '../services';
 import {
   clearGridPreference,
@@ -27,6 +27,7 @@ function gridOf(request: Request): string {
 export function gridPreferencesRoutes({ db }: Services): Router {
   const router = Router();
   router.get('/grid-preferences/:grid', async (request, response) => {
+    parseInput(nothing, request.query, 'The query');
     response.json(await getGridPreference(db, actorOf(request), gridOf(request)));
   });
   router.put('/grid-preferences/:grid', async (request, response) => {

@@ -9,7 +9,7 @@ import {
 } from '../../shared/api/import';
 import { HttpError, badRequest } from '../core/errors';
 import { actorOf, requires } from '../core/policy';
-import { parseId, parseInput } from '../core/validate';
+import { nothing, parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
 import { getImport, importErrorsCsv, listImports } from './import-history';
 import { importPreview } from './import-preview';
@@ -129,7 +129,8 @@ export function importsRoutes({ config, db, database }: Services): Router {
     response.json(await listImports(db, request.query));
   });
 
-  router.get('/imports/presets', runs, async (_request, response) => {
+  router.get('/imports/presets', runs, async (request, response) => {
+    parseInput(nothing, request.query, 'The query');
     response.json(await listPresets(db));
   });
   router.post('/imports/presets', runs, async (request, response) => {

@@ -1,3 +1,4 @@
+import { idParameter } from '../../shared/api/input-rules';
 import express, { Router, type NextFunction, type Request, type Response } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
@@ -7,7 +8,7 @@ import {
   instrumentPatchSchema,
 } from '../../shared/api/instrument';
 import { actorOf, requires } from '../core/policy';
-import { HttpError } from '../core/errors';
+import { HttpError, badRequest } from '../core/errors';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
 import { listInstruments } from './instruments-queries';
@@ -41,7 +42,7 @@ function receivePhoto(request: Request, response: Response, next: NextFunction) 
   });
 }
 
-const labelQuerySchema = z.object({ schoolId: z.coerce.number().int().positive().optional() });
+const labelQuerySchema = z.object({ schoolId: idParameter.optional() });
 const importQuerySchema = z.object({ dryRun: z.enum(['true', 'false']).default('true') });
 
 /** `/api/instruments`: the fleet, its photos, labels, cleaning and CSV import. */
@@ -64,6 +65,9 @@ export function instrumentsRoutes({ db, config }: Services): Router {
     express.raw({ type: () => true, limit: '10mb' }),
     async (request, response) => {
       const { dryRun } = parseInput(importQuerySchema, request.query, 'The import query');
+      if (request.body !== undefined && !Buffer.isBuffer(request.body)) {
+        throw badRequest('Send the fleet CSV file itself as the request body (Content-Type: text/csv).');
+      }
       const bytes = Buffer.isBuffer(request.body) ? request.body : Buffer.alloc(0);
       const result = await importFleet(db, actorOf(request), bytes, dryRun === 'true');
       response.json(result);

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { ladderDraftInputSchema, ladderPatchSchema } from '../../shared/api/ladder';
 import { actorOf, requires } from '../core/policy';
-import { parseId, parseInput } from '../core/validate';
+import { nothing, parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
 import { rebuildAttainment } from './attainment';
 import { refreshStatistics, summaryTables } from '../db/statistics';
@@ -19,7 +19,8 @@ import {
 /** `/api/ladder`: everyone reads the active ladder; the coordinator drafts and publishes versions. */
 export function ladderRoutes({ db }: Services): Router {
   const router = Router();
-  router.get('/ladder', requires('ladder:read'), async (_request, response) => {
+  router.get('/ladder', requires('ladder:read'), async (request, response) => {
+    parseInput(nothing, request.query, 'The query');
     response.json(await getActiveLadder(db));
   });
   router.get('/ladder/versions', requires('ladder:read'), async (request, response) => {
@@ -50,6 +51,7 @@ export function ladderRoutes({ db }: Services): Router {
   );
   // Seats and instruments change through the roster; this brings every rung up to date with them.
   router.post('/ladder/attainment/rebuild', requires('ladder:write'), async (request, response) => {
+    parseInput(nothing, request.body ?? {}, 'The request');
     await db.transaction(async (tx) => {
       await rebuildAttainment(tx);
       await recordAudit(tx, actorOf(request), {

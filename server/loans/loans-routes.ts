@@ -1,3 +1,4 @@
+import { recordId } from '../../shared/api/input-rules';
 import { Router } from 'express';
 import { z } from 'zod';
 import {
@@ -6,7 +7,7 @@ import {
   returnInputSchema,
 } from '../../shared/api/loan';
 import { actorOf, requires, requiresAny } from '../core/policy';
-import { parseId, parseInput } from '../core/validate';
+import { nothing, parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
 import { findLoan, listLoans } from './loans-queries';
 import { checkOut, resendAgreementLink, returnLoan } from './loans-service';
@@ -14,7 +15,7 @@ import { remindOne, remindOverdue } from './loan-reminders';
 import { readAgreementText, writeAgreementText } from './agreement-text';
 import { agreementPdf } from './agreement-pdf';
 
-const overdueBatchSchema = z.object({ schoolId: z.number().int().positive().optional() });
+const overdueBatchSchema = z.object({ schoolId: recordId().optional() });
 
 /**
  * `/api/loans`: staff see their schools' loans and a student their own; directors and the
@@ -26,7 +27,8 @@ export function loansRoutes({ db, config }: Services): Router {
   router.get('/loans', readLoans, async (request, response) => {
     response.json(await listLoans(db, actorOf(request), request.query));
   });
-  router.get('/loans/agreement-text', requires('loans:read'), async (_request, response) => {
+  router.get('/loans/agreement-text', requires('loans:read'), async (request, response) => {
+    parseInput(nothing, request.query, 'The query');
     response.json(await readAgreementText(db));
   });
   router.put('/loans/agreement-text', requires('loans:agreement'), async (request, response) => {
@@ -56,6 +58,7 @@ export function loansRoutes({ db, config }: Services): Router {
     response.json(await returnLoan(db, actorOf(request), parseId(request.params['id']), input));
   });
   router.post('/loans/:id/reminder', requires('loans:write'), async (request, response) => {
+    parseInput(nothing, request.body ?? {}, 'The request');
     response.json(await remindOne(db, actorOf(request), parseId(request.params['id'])));
   });
   router.post('/loans/:id/agreement-link', requires('loans:write'), async (request, response) => {

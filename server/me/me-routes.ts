@@ -1,3 +1,4 @@
+import { nothing, parseInput } from '../core/validate';
 import { Router } from 'express';
 import type { Me } from '../../shared/api/me';
 import { actorOf, capabilitiesOf, seesAllSchools } from '../core/policy';
@@ -8,6 +9,7 @@ import { schoolsOf } from '../people/people-queries';
 export function meRoutes({ db }: Services): Router {
   const router = Router();
   router.get('/me', async (request, response) => {
+    parseInput(nothing, request.query, 'The query');
     const actor = actorOf(request);
     const me: Me = {
       id: actor.userId,

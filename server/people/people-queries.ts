@@ -1,3 +1,4 @@
+import { idParameter, plainText } from '../../shared/api/input-rules';
 import { and, count, eq, ilike, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import { z } from 'zod';
@@ -74,9 +75,9 @@ const aboutSubject = and(
 );
 
 const auditFilters = z.object({
-  entity: z.string().trim().max(60).optional(),
-  entityId: z.string().trim().max(60).optional(),
-  userId: z.coerce.number().int().positive().optional(),
+  entity: plainText().max(60).optional(),
+  entityId: plainText().max(60).optional(),
+  userId: idParameter.optional(),
 });
 
 /** The audit log, newest first unless sorted otherwise, filtered by entity, row and who. */

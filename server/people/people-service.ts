@@ -1,3 +1,4 @@
+import { idParameter } from '../../shared/api/input-rules';
 import { and, asc, count, eq, ilike, inArray, ne, or, sql, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
 import { oneByOne, type Database, type Transaction } from '../db/client';
@@ -22,7 +23,7 @@ type UserRow = typeof users.$inferSelect;
 
 const personFilters = z.object({
   role: z.enum(roles, { message: `Role is one of: ${roles.join(', ')}.` }).optional(),
-  schoolId: z.coerce.number().int().positive().optional(),
+  schoolId: idParameter.optional(),
   active: z
     .enum(['true', 'false'], { message: 'Active is true or false.' })
     .transform((value) => value === 'true')

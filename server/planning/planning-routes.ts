@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { replacementQuerySchema } from '../../shared/api/planning';
 import { actorOf, assertInScope, requires } from '../core/policy';
 import { plannedInstruments } from './planning-queries';
-import { parseInput } from '../core/validate';
+import { nothing, parseInput } from '../core/validate';
 import type { Services } from '../services';
 import { todayIso } from '../loans/school-calendar';
 import { replacementPlan } from './replacement-plan';
@@ -19,6 +19,7 @@ export function planningRoutes({ db }: Services): Router {
     response.json(replacementPlan(rows, query.asOf ?? todayIso()));
   });
   router.get('/planning/shortages', requires('fleet:read'), async (request, response) => {
+    parseInput(nothing, request.query, 'The query');
     response.json(await shortageReport(db, actorOf(request)));
   });
   return router;

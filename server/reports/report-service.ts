@@ -1,3 +1,4 @@
+import { idParameter } from '../../shared/api/input-rules';
 import { and, count, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Database } from '../db/client';
@@ -87,8 +88,8 @@ export async function sendReport(
 
 const runFilters = z.object({
   kind: z.enum(reportKinds).optional(),
-  schoolId: z.coerce.number().int().positive().optional(),
-  scheduleId: z.coerce.number().int().positive().optional(),
+  schoolId: idParameter.optional(),
+  scheduleId: idParameter.optional(),
 });
 
 const sortable = {

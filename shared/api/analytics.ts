@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { calendarDate, idParameter } from './input-rules';
 import { requirementSchema } from './ladder';
 import { passOffSchema, recordingSchema } from './pass-off';
 
@@ -145,16 +146,16 @@ const booleanQuery = z.preprocess(
 );
 
 /** Filters of `GET /api/analytics/overview`. */
-export const overviewQuerySchema = z.object({
-  schoolId: z.coerce.number().int().positive().optional(),
+export const overviewQuerySchema = z.strictObject({
+  schoolId: idParameter.optional(),
   grade: z.coerce.number().int().min(0).max(12).optional(),
-  ensembleId: z.coerce.number().int().positive().optional(),
+  ensembleId: idParameter.optional(),
   /** Days without a pass-off before a student counts as stalled (default 30). */
   stalledDays: z.coerce.number().int().min(1).max(365).default(30),
   /** Days without an entry before a director counts as quiet (default 30). */
   quietDays: z.coerce.number().int().min(1).max(365).default(30),
   /** Read the figures as on this day (ISO date); default today. */
-  asOf: z.iso.date().optional(),
+  asOf: calendarDate().optional(),
 });
 export type OverviewQuery = z.infer<typeof overviewQuerySchema>;
 
@@ -170,16 +171,16 @@ export const attainmentSortFields = [
 ] as const;
 
 /** The field filters of `GET /api/analytics/students` (besides q, sort, offset, limit). */
-export const attainmentFiltersSchema = z.object({
+export const attainmentFiltersSchema = z.strictObject({
   rung: z.coerce.number().int().min(0).max(50).optional(),
-  schoolId: z.coerce.number().int().positive().optional(),
+  schoolId: idParameter.optional(),
   grade: z.coerce.number().int().min(0).max(12).optional(),
-  ensembleId: z.coerce.number().int().positive().optional(),
+  ensembleId: idParameter.optional(),
   belowBenchmark: booleanQuery.optional(),
   atOrAboveBenchmark: booleanQuery.optional(),
   /** Only students with no pass-off for this many days. */
   stalledDays: z.coerce.number().int().min(1).max(365).optional(),
-  asOf: z.iso.date().optional(),
+  asOf: calendarDate().optional(),
 });
 export type AttainmentFilters = z.infer<typeof attainmentFiltersSchema>;
 
@@ -204,7 +205,7 @@ export const attainmentRowSchema = z.object({
 export type AttainmentRow = z.infer<typeof attainmentRowSchema>;
 
 /** The field filters of `GET /api/analytics/audition-ready`. */
-export const auditionReadyFiltersSchema = z.object({
+export const auditionReadyFiltersSchema = z.strictObject({
   requirementCodes: z.preprocess(
     (value) =>
       typeof value === 'string'
@@ -217,7 +218,7 @@ export const auditionReadyFiltersSchema = z.object({
   ),
   /** Each of them passed at this tempo or faster (default: each requirement's own tempo). */
   minTempo: z.coerce.number().int().min(20).max(300).optional(),
-  schoolId: z.coerce.number().int().positive().optional(),
+  schoolId: idParameter.optional(),
   grade: z.coerce.number().int().min(0).max(12).optional(),
 });
 export type AuditionReadyFilters = z.infer<typeof auditionReadyFiltersSchema>;

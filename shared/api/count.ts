@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { idParameter, plainText, recordId } from './input-rules';
 
 /** An inventory count is open while scanning and closed when reconciled. */
 export const countStates = ['open', 'closed'] as const;
@@ -62,12 +63,12 @@ export const countDetailSchema = countSchema.extend({
 });
 export type CountDetail = z.infer<typeof countDetailSchema>;
 
-export const countStartSchema = z.object({ schoolId: z.number().int().positive() });
-export const countScanInputSchema = z.object({ assetTag: z.string().trim().min(1).max(64) });
-export const countCloseSchema = z.object({ confirmMissing: z.boolean().default(false) });
+export const countStartSchema = z.strictObject({ schoolId: recordId() });
+export const countScanInputSchema = z.strictObject({ assetTag: plainText().min(1).max(64) });
+export const countCloseSchema = z.strictObject({ confirmMissing: z.boolean().default(false) });
 
 /** The field filters of `GET /api/counts`. */
-export const countFiltersSchema = z.object({
-  schoolId: z.coerce.number().int().positive().optional(),
+export const countFiltersSchema = z.strictObject({
+  schoolId: idParameter.optional(),
   state: z.enum(countStates).optional(),
 });

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { instruments } from '../music/index';
 
 const instrumentIds = new Set(instruments.map((instrument) => instrument.id));
@@ -55,32 +56,33 @@ export type Enrollment = z.infer<typeof enrollmentSchema>;
  * `POST /api/enrollments`: seats a student in an ensemble of the same school for the current
  * school year. `instrumentId` is one of the music engine's instrument ids.
  */
-export const enrollmentInputSchema = z.object({
-  studentId: z.number({ message: 'Choose the student.' }).int().positive(),
-  ensembleId: z.number({ message: 'Choose the ensemble.' }).int().positive(),
+export const enrollmentInputSchema = z.strictObject({
+  studentId: recordId('Choose the student.'),
+  ensembleId: recordId('Choose the ensemble.'),
   instrumentId,
-  part: z.string().trim().max(40).default(''),
+  part: plainText().max(40).default(''),
   chair: chair.default(null),
 });
 export type EnrollmentInput = z.infer<typeof enrollmentInputSchema>;
 
 /** `PATCH /api/enrollments/:id`: instrument, part, chair or active, plus the version. */
 export const enrollmentPatchSchema = z
-  .object({
+  .strictObject({
     instrumentId,
-    part: z.string().trim().max(40),
+    part: plainText().max(40),
     chair,
     active: z.boolean(),
   })
   .partial()
-  .extend({ version: z.number().int() });
+  .extend({ version: versionNumber });
 export type EnrollmentPatch = z.infer<typeof enrollmentPatchSchema>;
 
 /** The field filters of `GET /api/enrollments`; `active` is 'true' or 'false'. */
-export const enrollmentFiltersSchema = z.object({
-  studentId: z.coerce.number().int().positive().optional(),
-  ensembleId: z.coerce.number().int().positive().optional(),
-  schoolYearId: z.coerce.number().int().positive().optional(),
+export const enrollmentFiltersSchema = z.strictObject({
+  schoolId: idParameter.optional(),
+  studentId: idParameter.optional(),
+  ensembleId: idParameter.optional(),
+  schoolYearId: idParameter.optional(),
   active: z
     .enum(['true', 'false'], { message: "active is 'true' or 'false'." })
     .transform((value) => value === 'true')

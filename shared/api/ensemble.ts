@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { schoolSummarySchema } from './me';
 
 /** The kinds of ensemble a school runs. */
@@ -84,13 +85,13 @@ export const ensembleDetailSchema = ensembleSchema.extend({
 export type EnsembleDetail = z.infer<typeof ensembleDetailSchema>;
 
 /** What a form sends to add an ensemble (`POST /api/ensembles`). */
-export const ensembleInputSchema = z.object({
-  schoolId: z.number({ message: 'Choose the school.' }).int().positive(),
-  name: z.string().trim().min(2, 'Give the ensemble its name.').max(80),
+export const ensembleInputSchema = z.strictObject({
+  schoolId: recordId('Choose the school.'),
+  name: plainText().min(2, 'Give the ensemble its name.').max(80),
   kind: z.enum(ensembleKinds, { message: 'Choose the kind of ensemble.' }),
-  level: z.string().trim().max(40).default(''),
-  meetingPeriod: z.string().trim().max(60).default(''),
-  directorUserId: z.number().int().positive().nullable().default(null),
+  level: plainText().max(40).default(''),
+  meetingPeriod: plainText().max(60).default(''),
+  directorUserId: recordId().nullable().default(null),
 });
 export type EnsembleInput = z.infer<typeof ensembleInputSchema>;
 
@@ -99,20 +100,20 @@ export type EnsembleInput = z.infer<typeof ensembleInputSchema>;
  * started from.
  */
 export const ensemblePatchSchema = z
-  .object({
+  .strictObject({
     name: ensembleInputSchema.shape.name,
     kind: ensembleInputSchema.shape.kind,
-    level: z.string().trim().max(40),
-    meetingPeriod: z.string().trim().max(60),
-    directorUserId: z.number().int().positive().nullable(),
+    level: plainText().max(40),
+    meetingPeriod: plainText().max(60),
+    directorUserId: recordId().nullable(),
   })
   .partial()
-  .extend({ version: z.number().int() });
+  .extend({ version: versionNumber });
 export type EnsemblePatch = z.infer<typeof ensemblePatchSchema>;
 
 /** The field filters of `GET /api/ensembles` (besides q, sort, offset, limit). */
-export const ensembleFiltersSchema = z.object({
-  schoolId: z.coerce.number().int().positive().optional(),
+export const ensembleFiltersSchema = z.strictObject({
+  schoolId: idParameter.optional(),
   kind: z.enum(ensembleKinds).optional(),
 });
 export type EnsembleFilters = z.infer<typeof ensembleFiltersSchema>;

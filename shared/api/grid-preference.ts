@@ -26,7 +26,7 @@ export const gridStateSchema = z
 export type GridState = z.infer<typeof gridStateSchema>;
 
 /** `PUT /api/grid-preferences/:grid` sends `{ state }`. */
-export const gridPreferenceInputSchema = z.object({ state: gridStateSchema });
+export const gridPreferenceInputSchema = z.strictObject({ state: gridStateSchema });
 
 /** `GET`/`PUT /api/grid-preferences/:grid` answer this; `state` is null when nothing is kept. */
 export const gridPreferenceSchema = z.object({

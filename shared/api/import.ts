@@ -112,7 +112,7 @@ const flag = z
   .transform((value) => value === true || value === 'true' || value === '1' || value === 'on');
 
 /** The form fields beside the file in a preview upload (multipart, so text). */
-export const previewFieldsSchema = z.object({
+export const previewFieldsSchema = z.strictObject({
   mapping: z
     .string()
     .max(20_000)
@@ -140,7 +140,7 @@ export const previewFieldsSchema = z.object({
 });
 
 /** What `POST /api/imports/commit` takes. */
-export const commitRequestSchema = z.object({
+export const commitRequestSchema = z.strictObject({
   importToken: z
     .string()
     .regex(/^[A-Za-z0-9_-]{16,64}$/, 'The import token is not one this server gave.'),
@@ -197,7 +197,7 @@ export const importPresetSchema = z.object({
 export type ImportPreset = z.infer<typeof importPresetSchema>;
 
 /** What saving a preset takes; a preset of the same name is replaced. */
-export const importPresetInputSchema = z.object({
+export const importPresetInputSchema = z.strictObject({
   name: z
     .string()
     .trim()

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { calendarDate, idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { instruments } from '../music/index';
 
 /** Condition grades of a district instrument, best first (common practice, no source). */
@@ -37,7 +38,7 @@ export const instrumentEventKinds = [
 export type InstrumentEventKind = (typeof instrumentEventKinds)[number];
 
 const instrumentIds = instruments.map((instrument) => instrument.id);
-const dateText = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Write the date as YYYY-MM-DD.');
+const dateText = calendarDate('Write the date as YYYY-MM-DD.');
 
 /** One district-owned instrument as the API answers it. */
 export const instrumentSchema = z.object({
@@ -122,7 +123,7 @@ export const instrumentDetailSchema = instrumentSchema.extend({
 export type InstrumentDetail = z.infer<typeof instrumentDetailSchema>;
 
 /** What a form sends to add an instrument to the fleet. */
-export const instrumentInputSchema = z.object({
+export const instrumentInputSchema = z.strictObject({
   assetTag: z
     .string()
     .trim()
@@ -131,47 +132,47 @@ export const instrumentInputSchema = z.object({
   instrumentId: z
     .string()
     .refine((id) => instrumentIds.includes(id), 'Pick one of the instruments the district knows.'),
-  maker: z.string().trim().max(120).default(''),
-  model: z.string().trim().max(120).default(''),
-  serial: z.string().trim().max(120).default(''),
+  maker: plainText().max(120).default(''),
+  model: plainText().max(120).default(''),
+  serial: plainText().max(120).default(''),
   purchasedOn: dateText.nullable().default(null),
   purchaseCostCents: z.number().int().min(0).max(100_000_000).nullable().default(null),
-  fundingSource: z.string().trim().max(120).default(''),
+  fundingSource: plainText().max(120).default(''),
   condition: z.enum(instrumentConditions).default('good'),
-  homeSchoolId: z.number().int().positive(),
-  location: z.string().trim().max(200).default(''),
-  notes: z.string().trim().max(4000).default(''),
+  homeSchoolId: recordId(),
+  location: plainText().max(200).default(''),
+  notes: plainText().max(4000).default(''),
 });
 export type InstrumentInput = z.infer<typeof instrumentInputSchema>;
 
 /** What a PATCH sends: any fields, a hand-set status, and the version the editor started from. */
 export const instrumentPatchSchema = z
-  .object({
+  .strictObject({
     assetTag: instrumentInputSchema.shape.assetTag,
     instrumentId: instrumentInputSchema.shape.instrumentId,
-    maker: z.string().trim().max(120),
-    model: z.string().trim().max(120),
-    serial: z.string().trim().max(120),
+    maker: plainText().max(120),
+    model: plainText().max(120),
+    serial: plainText().max(120),
     purchasedOn: dateText.nullable(),
     purchaseCostCents: z.number().int().min(0).max(100_000_000).nullable(),
-    fundingSource: z.string().trim().max(120),
+    fundingSource: plainText().max(120),
     condition: z.enum(instrumentConditions),
     status: z.enum(manualInstrumentStatuses),
-    homeSchoolId: z.number().int().positive(),
-    location: z.string().trim().max(200),
-    notes: z.string().trim().max(4000),
+    homeSchoolId: recordId(),
+    location: plainText().max(200),
+    notes: plainText().max(4000),
   })
   .partial()
-  .extend({ version: z.number().int() });
+  .extend({ version: versionNumber });
 export type InstrumentPatch = z.infer<typeof instrumentPatchSchema>;
 
 /** The field filters of `GET /api/instruments`, besides q, sort, offset and limit. */
-export const instrumentFiltersSchema = z.object({
+export const instrumentFiltersSchema = z.strictObject({
   status: z.enum(instrumentStatuses).optional(),
   condition: z.enum(instrumentConditions).optional(),
   instrumentId: z.string().optional(),
   family: z.string().optional(),
-  homeSchoolId: z.coerce.number().int().positive().optional(),
+  homeSchoolId: idParameter.optional(),
 });
 
 /** The fields `GET /api/instruments` sorts on. */
@@ -189,7 +190,7 @@ export const instrumentSortFields = [
 ] as const;
 
 /** What `POST /api/instruments/:id/cleaned` may send. */
-export const cleanedInputSchema = z.object({ note: z.string().trim().max(500).default('') });
+export const cleanedInputSchema = z.strictObject({ note: plainText().max(500).default('') });
 
 /** The columns of a fleet CSV, in the order a template lists them. */
 export const fleetCsvColumns = [

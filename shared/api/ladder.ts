@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { calendarDate, plainText, versionNumber } from './input-rules';
 import {
   articulations,
   checkKey,
@@ -75,7 +76,7 @@ export type LadderRequirement = z.infer<typeof requirementSchema>;
 /** One rung with its requirements, in ladder order. */
 export const rungSchema = z.object({
   number: z.number().int().min(1).max(50),
-  title: z.string().trim().min(1, 'Give the rung a title.').max(120),
+  title: plainText().min(1, 'Give the rung a title.').max(120),
   requirements: z.array(requirementSchema).max(60),
 });
 export type LadderRung = z.infer<typeof rungSchema>;
@@ -86,7 +87,7 @@ export const benchmarkSchema = z.object({
   grade: z.number().int().min(0).max(12),
   rung: z.number().int().min(0).max(50),
   /** ISO date, YYYY-MM-DD. */
-  byDate: z.iso.date('A benchmark date is YYYY-MM-DD.'),
+  byDate: calendarDate('A benchmark date is YYYY-MM-DD.'),
 });
 export type LadderBenchmark = z.infer<typeof benchmarkSchema>;
 
@@ -115,8 +116,8 @@ export const ladderSchema = ladderVersionSummarySchema.extend({
 export type Ladder = z.infer<typeof ladderSchema>;
 
 /** `POST /api/ladder/versions`: a new draft, copied from the active version. */
-export const ladderDraftInputSchema = z.object({
-  name: z.string().trim().min(1).max(120).optional(),
+export const ladderDraftInputSchema = z.strictObject({
+  name: plainText().min(1).max(120).optional(),
 });
 export type LadderDraftInput = z.infer<typeof ladderDraftInputSchema>;
 
@@ -126,11 +127,11 @@ export type LadderDraftInput = z.infer<typeof ladderDraftInputSchema>;
  * plus the version the editor started from.
  */
 export const ladderPatchSchema = z
-  .object({
-    name: z.string().trim().min(1).max(120).optional(),
+  .strictObject({
+    name: plainText().min(1).max(120).optional(),
     rungs: z.array(rungSchema).max(50).optional(),
     benchmarks: z.array(benchmarkSchema).max(400).optional(),
-    version: z.number().int(),
+    version: versionNumber,
   })
   .superRefine((patch, context) => {
     const seen = new Set<string>();

@@ -1,8 +1,9 @@
 import { z } from 'zod';
+import { plainText } from './input-rules';
 
 /** The query every list route takes: search, sort, paging; field filters are added per resource. */
-export const listQuerySchema = z.object({
-  q: z.string().trim().max(200).optional(),
+export const listQuerySchema = z.strictObject({
+  q: plainText().max(200).optional(),
   sort: z
     .string()
     .regex(/^[A-Za-z][A-Za-z0-9]*:(asc|desc)$/, 'Sort must look like field:asc or field:desc.')

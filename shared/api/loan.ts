@@ -1,11 +1,12 @@
 import { z } from 'zod';
+import { calendarDate, idParameter, plainText, recordId } from './input-rules';
 import { instrumentConditions } from './instrument';
 
 /** Where a loan is: out, back, or written off as lost (the record is kept). */
 export const loanStates = ['active', 'returned', 'lost'] as const;
 export type LoanState = (typeof loanStates)[number];
 
-const dateText = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Write the date as YYYY-MM-DD.');
+const dateText = calendarDate('Write the date as YYYY-MM-DD.');
 
 /**
  * One loan of a district instrument to a student. `instrumentId` is the fleet row's id;
@@ -48,16 +49,16 @@ export const loanSchema = z.object({
 export type Loan = z.infer<typeof loanSchema>;
 
 /** What a director sends to check an instrument out to a student. */
-export const checkoutInputSchema = z.object({
-  instrumentId: z.number().int().positive(),
-  studentId: z.number().int().positive(),
+export const checkoutInputSchema = z.strictObject({
+  instrumentId: recordId(),
+  studentId: recordId(),
   /** Defaults to the last day of the current school year. */
   dueOn: dateText.optional(),
-  accessories: z.array(z.string().trim().min(1).max(80)).max(20).default([]),
+  accessories: z.array(plainText().min(1).max(80)).max(20).default([]),
   conditionOut: z.enum(instrumentConditions),
   usageFeeCents: z.number().int().min(0).max(1_000_000).default(0),
   waiver: z.boolean().default(false),
-  waiverReason: z.string().trim().max(500).optional(),
+  waiverReason: plainText().max(500).optional(),
 });
 export type CheckoutInput = z.infer<typeof checkoutInputSchema>;
 
@@ -65,23 +66,23 @@ export type CheckoutInput = z.infer<typeof checkoutInputSchema>;
  * What a return sends: the condition it came back in, and damage or loss when there is some. A
  * lost instrument needs no condition.
  */
-export const returnInputSchema = z.object({
+export const returnInputSchema = z.strictObject({
   /** Required unless the instrument is lost. */
   conditionIn: z.enum(instrumentConditions).optional(),
-  damaged: z.object({ problem: z.string().trim().min(3).max(2000) }).optional(),
+  damaged: z.object({ problem: plainText().min(3).max(2000) }).optional(),
   lost: z.boolean().optional(),
-  notes: z.string().trim().max(2000).optional(),
+  notes: plainText().max(2000).optional(),
 });
 export type ReturnInput = z.infer<typeof returnInputSchema>;
 
 /** The field filters of `GET /api/loans`. */
-export const loanFiltersSchema = z.object({
+export const loanFiltersSchema = z.strictObject({
   state: z.enum(loanStates).optional(),
   overdue: z.enum(['true', 'false']).optional(),
   unsigned: z.enum(['true', 'false']).optional(),
-  schoolId: z.coerce.number().int().positive().optional(),
-  studentId: z.coerce.number().int().positive().optional(),
-  instrumentId: z.coerce.number().int().positive().optional(),
+  schoolId: idParameter.optional(),
+  studentId: idParameter.optional(),
+  instrumentId: idParameter.optional(),
 });
 
 /** The fields `GET /api/loans` sorts on. */
@@ -108,6 +109,6 @@ export const agreementTextSchema = z.object({
 export type AgreementText = z.infer<typeof agreementTextSchema>;
 
 /** What the coordinator sends to change the agreement text. */
-export const agreementTextInputSchema = z.object({
-  text: z.string().trim().min(40, 'The agreement needs real text.').max(20_000),
+export const agreementTextInputSchema = z.strictObject({
+  text: plainText().min(40, 'The agreement needs real text.').max(20_000),
 });

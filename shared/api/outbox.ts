@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { idParameter } from './input-rules';
 
 export const outboxKinds = ['report', 'loan-agreement', 'overdue-reminder', 'other'] as const;
 export const outboxStates = ['queued', 'sending', 'sent', 'failed'] as const;
@@ -36,10 +37,10 @@ export const outboxMessageDetailSchema = outboxMessageSchema.extend({
 export type OutboxMessageDetail = z.infer<typeof outboxMessageDetailSchema>;
 
 /** The outbox list's own filters, besides q, sort, offset and limit. */
-export const outboxFiltersSchema = z.object({
+export const outboxFiltersSchema = z.strictObject({
   state: z.enum(outboxStates).optional(),
   kind: z.enum(outboxKinds).optional(),
-  schoolId: z.coerce.number().int().positive().optional(),
+  schoolId: idParameter.optional(),
   relatedType: z.string().max(60).optional(),
-  relatedId: z.coerce.number().int().positive().optional(),
+  relatedId: idParameter.optional(),
 });

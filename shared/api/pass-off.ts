@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { calendarDate, idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { requirementCodePattern } from './ladder';
 
 /** The most pass-offs one `POST /api/pass-offs` may carry (one entry grid's worth). */
@@ -82,20 +83,20 @@ export const passOffSchema = z.object({
 export type PassOff = z.infer<typeof passOffSchema>;
 
 /** One pass-off as the entry grid sends it. */
-export const passOffInputSchema = z.object({
-  studentId: z.number({ message: 'Choose the student.' }).int().positive(),
+export const passOffInputSchema = z.strictObject({
+  studentId: recordId('Choose the student.'),
   requirementCode: z
     .string()
     .trim()
     .regex(requirementCodePattern, 'Choose a requirement of the ladder.'),
-  heardOn: z.iso.date('The date heard is YYYY-MM-DD.'),
+  heardOn: calendarDate('The date heard is YYYY-MM-DD.'),
   tempo: z
     .number({ message: 'Tempo is a whole number of quarter notes a minute.' })
     .int('Tempo is a whole number of quarter notes a minute.')
     .min(20, 'Tempo is at least 20.')
     .max(300, 'Tempo is at most 300.'),
   passed: z.boolean({ message: 'Say whether it passed.' }),
-  note: z.string().trim().max(1000).default(''),
+  note: plainText().max(1000).default(''),
   /**
    * A UUID the client makes once per pass-off; sending the same one again (a retried request)
    * answers the pass-off already recorded instead of recording it twice.
@@ -105,7 +106,7 @@ export const passOffInputSchema = z.object({
 export type PassOffInput = z.infer<typeof passOffInputSchema>;
 
 /** `POST /api/pass-offs`: one pass-off, or a batch of up to 200 as `{ passOffs: [...] }`. */
-export const passOffBatchSchema = z.object({
+export const passOffBatchSchema = z.strictObject({
   passOffs: z
     .array(passOffInputSchema)
     .min(1, 'Send at least one pass-off.')
@@ -126,7 +127,7 @@ export type PassOffBatchResult = z.infer<typeof passOffBatchResultSchema>;
 export const passOffPatchSchema = passOffInputSchema
   .pick({ heardOn: true, tempo: true, passed: true, note: true })
   .partial()
-  .extend({ version: z.number().int() });
+  .extend({ version: versionNumber });
 export type PassOffPatch = z.infer<typeof passOffPatchSchema>;
 
 const booleanQuery = z.preprocess(
@@ -135,13 +136,13 @@ const booleanQuery = z.preprocess(
 );
 
 /** The field filters of `GET /api/pass-offs` (besides q, sort, offset, limit). */
-export const passOffFiltersSchema = z.object({
-  studentId: z.coerce.number().int().positive().optional(),
-  ensembleId: z.coerce.number().int().positive().optional(),
-  schoolId: z.coerce.number().int().positive().optional(),
-  requirementCode: z.string().trim().max(60).optional(),
-  from: z.iso.date('From is YYYY-MM-DD.').optional(),
-  to: z.iso.date('To is YYYY-MM-DD.').optional(),
+export const passOffFiltersSchema = z.strictObject({
+  studentId: idParameter.optional(),
+  ensembleId: idParameter.optional(),
+  schoolId: idParameter.optional(),
+  requirementCode: plainText().max(60).optional(),
+  from: calendarDate('From is YYYY-MM-DD.').optional(),
+  to: calendarDate('To is YYYY-MM-DD.').optional(),
   passed: booleanQuery.optional(),
 });
 export type PassOffFilters = z.infer<typeof passOffFiltersSchema>;

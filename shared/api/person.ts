@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { recordId, versionNumber } from './input-rules';
 import { roleSchema, schoolSummarySchema } from './me';
 import { roles, type Role } from './roles';
 
@@ -111,7 +112,7 @@ export const personDetailSchema = personSchema.extend({ tokens: tokenSummarySche
 export type PersonDetail = z.infer<typeof personDetailSchema>;
 
 const schoolIdsInput = z
-  .array(z.number().int().positive(), { message: 'Schools are a list of school ids.' })
+  .array(recordId(), { message: 'Schools are a list of school ids.' })
   .max(200)
   .transform((ids) => [...new Set(ids)]);
 
@@ -122,7 +123,7 @@ const nameInput = z
   .max(120, 'Keep the name under 120 characters.');
 
 /** What the add form sends. The server checks the role's school and student rules. */
-export const personInputSchema = z.object({
+export const personInputSchema = z.strictObject({
   email: z
     .string({ message: 'Give an e-mail address.' })
     .trim()
@@ -132,19 +133,19 @@ export const personInputSchema = z.object({
   role: z.enum(roles, { message: 'Role is coordinator, director, technician, viewer or student.' }),
   schoolIds: schoolIdsInput.default([]),
   /** For a student account: the id of the student's roster row. */
-  studentId: z.number().int().positive().nullish(),
+  studentId: recordId().nullish(),
 });
 export type PersonInput = z.input<typeof personInputSchema>;
 
 /** What an edit sends: any of these, with the version the editor started from. */
-export const personPatchSchema = z.object({
+export const personPatchSchema = z.strictObject({
   name: nameInput.optional(),
   role: personInputSchema.shape.role.optional(),
   active: z.boolean({ message: 'Active is true or false.' }).optional(),
   /** Replaces the school assignments. */
   schoolIds: schoolIdsInput.optional(),
-  studentId: z.number().int().positive().nullish(),
-  version: z.number({ message: 'Send the version you started editing from.' }).int(),
+  studentId: recordId().nullish(),
+  version: versionNumber,
 });
 export type PersonPatch = z.input<typeof personPatchSchema>;
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { idParameter } from './input-rules';
 
 /** One instrument in the replacement plan, valued by straight-line depreciation. */
 export const replacementLineSchema = z.object({
@@ -94,10 +95,10 @@ export const shortageReportSchema = z.object({
 export type ShortageReport = z.infer<typeof shortageReportSchema>;
 
 /** The query of `GET /api/planning/replacement`. */
-export const replacementQuerySchema = z.object({
+export const replacementQuerySchema = z.strictObject({
   asOf: z
     .string()
     .regex(/^\d{4}-\d{2}-\d{2}$/)
     .optional(),
-  homeSchoolId: z.coerce.number().int().positive().optional(),
+  homeSchoolId: idParameter.optional(),
 });

@@ -1,10 +1,11 @@
 import { z } from 'zod';
+import { calendarDate, idParameter, plainText, recordId, versionNumber } from './input-rules';
 
 /** A repair ticket's path: open, sent to a vendor, back, closed. */
 export const repairStatuses = ['open', 'sent', 'returned', 'closed'] as const;
 export type RepairStatus = (typeof repairStatuses)[number];
 
-const dateText = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Write the date as YYYY-MM-DD.');
+const dateText = calendarDate('Write the date as YYYY-MM-DD.');
 
 /** One repair ticket. `vendor` is null for in-house work. */
 export const repairSchema = z.object({
@@ -31,39 +32,39 @@ export const repairSchema = z.object({
 export type Repair = z.infer<typeof repairSchema>;
 
 /** What a technician sends to open a ticket. */
-export const repairInputSchema = z.object({
-  instrumentId: z.number().int().positive(),
-  problem: z.string().trim().min(3).max(2000),
-  vendor: z.string().trim().max(120).nullable().default(null),
+export const repairInputSchema = z.strictObject({
+  instrumentId: recordId(),
+  problem: plainText().min(3).max(2000),
+  vendor: plainText().max(120).nullable().default(null),
   inHouse: z.boolean().default(true),
   estimateCents: z.number().int().min(0).max(100_000_000).nullable().default(null),
-  notes: z.string().trim().max(4000).default(''),
+  notes: plainText().max(4000).default(''),
 });
 export type RepairInput = z.infer<typeof repairInputSchema>;
 
 /** What a PATCH sends: any fields, plus the version the editor started from. */
 export const repairPatchSchema = z
-  .object({
-    problem: z.string().trim().min(3).max(2000),
-    vendor: z.string().trim().max(120).nullable(),
+  .strictObject({
+    problem: plainText().min(3).max(2000),
+    vendor: plainText().max(120).nullable(),
     inHouse: z.boolean(),
     estimateCents: z.number().int().min(0).max(100_000_000).nullable(),
     finalCostCents: z.number().int().min(0).max(100_000_000).nullable(),
     sentOn: dateText.nullable(),
     returnedOn: dateText.nullable(),
     status: z.enum(repairStatuses),
-    notes: z.string().trim().max(4000),
+    notes: plainText().max(4000),
   })
   .partial()
-  .extend({ version: z.number().int() });
+  .extend({ version: versionNumber });
 export type RepairPatch = z.infer<typeof repairPatchSchema>;
 
 /** The field filters of `GET /api/repairs`. */
-export const repairFiltersSchema = z.object({
+export const repairFiltersSchema = z.strictObject({
   status: z.enum(repairStatuses).optional(),
   open: z.enum(['true', 'false']).optional(),
-  instrumentId: z.coerce.number().int().positive().optional(),
-  homeSchoolId: z.coerce.number().int().positive().optional(),
+  instrumentId: idParameter.optional(),
+  homeSchoolId: idParameter.optional(),
 });
 
 /** The fields `GET /api/repairs` sorts on. */

@@ -1,9 +1,10 @@
 import { z } from 'zod';
+import { calendarDate, idParameter, plainText, recordId, versionNumber } from './input-rules';
 
 export const reportKinds = ['director', 'district'] as const;
 export type ReportKind = (typeof reportKinds)[number];
 
-const isoDate = z.iso.date({ message: 'Write the date as YYYY-MM-DD.' });
+const isoDate = calendarDate({ message: 'Write the date as YYYY-MM-DD.' });
 
 /** A count with a label, such as students in one ensemble. */
 const countRow = z.object({ label: z.string(), students: z.number().int() });
@@ -146,9 +147,9 @@ export type ReportData = DirectorReportData | DistrictReportData;
 
 /** `GET /api/reports/preview` query. */
 export const reportPreviewQuerySchema = z
-  .object({
+  .strictObject({
     kind: z.enum(reportKinds),
-    schoolId: z.coerce.number().int().positive().optional(),
+    schoolId: idParameter.optional(),
     from: isoDate,
     to: isoDate,
   })
@@ -174,9 +175,9 @@ export const reportPreviewSchema = z.object({
  * `'all-directors'`), or the named recipients instead. A director report is one per school.
  */
 export const reportTargetSchema = z
-  .object({
+  .strictObject({
     schoolIds: z
-      .union([z.literal('all-directors'), z.array(z.number().int().positive()).min(1).max(500)])
+      .union([z.literal('all-directors'), z.array(recordId()).min(1).max(500)])
       .optional(),
     recipients: z.array(z.email()).min(1).max(100).optional(),
   })
@@ -188,7 +189,7 @@ export type ReportTarget = z.infer<typeof reportTargetSchema>;
 
 /** `POST /api/reports/send`: `{ kind, from, to, schoolIds?, recipients? }`. */
 export const reportSendInputSchema = z
-  .object({
+  .strictObject({
     kind: z.enum(reportKinds),
     from: isoDate,
     to: isoDate,
@@ -238,12 +239,12 @@ export const reportScheduleSchema = z.object({
 });
 export type ReportSchedule = z.infer<typeof reportScheduleSchema>;
 
-const scheduleFields = z.object({
+const scheduleFields = z.strictObject({
   kind: z.enum(reportKinds),
   /** Five-field cron expression, read in `timeZone`: `0 7 * * 1` is Mondays at 07:00. */
-  cron: z.string().trim().min(9).max(100),
+  cron: plainText().min(9).max(100),
   /** IANA time zone name. */
-  timeZone: z.string().trim().min(1).max(64),
+  timeZone: plainText().min(1).max(64),
   target: reportTargetSchema,
   /** The report covers the `periodDays` days up to the run. */
   periodDays: z.number().int().min(1).max(366),
@@ -261,5 +262,5 @@ export type ReportScheduleInput = z.infer<typeof reportScheduleInputSchema>;
 /** A schedule PATCH: any fields, plus the version the editor started from. */
 export const reportSchedulePatchSchema = scheduleFields
   .partial()
-  .extend({ version: z.number().int() });
+  .extend({ version: versionNumber });
 export type ReportSchedulePatch = z.infer<typeof reportSchedulePatchSchema>;

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { schoolSummarySchema } from './me';
 
 /** Whether a student is on the roster now, or has left the program. */
@@ -107,16 +108,16 @@ export const studentDetailSchema = studentSchema.extend({
 export type StudentDetail = z.infer<typeof studentDetailSchema>;
 
 /** What a form sends to add a student (`POST /api/students`). */
-export const studentInputSchema = z.object({
+export const studentInputSchema = z.strictObject({
   studentNumber: z
     .string()
     .trim()
     .regex(/^[A-Za-z0-9-]{1,20}$/, 'A student id is 1 to 20 letters, digits or dashes.'),
-  firstName: z.string().trim().min(1, 'Give the first name.').max(80),
-  lastName: z.string().trim().min(1, 'Give the last name.').max(80),
+  firstName: plainText().min(1, 'Give the first name.').max(80),
+  lastName: plainText().min(1, 'Give the last name.').max(80),
   preferredName: optionalText(80),
   grade: gradeInput,
-  schoolId: z.number({ message: 'Choose the school.' }).int().positive(),
+  schoolId: recordId('Choose the school.'),
   /** Absent means 'active'. */
   status: z.enum(studentStatuses).optional(),
   guardianName: optionalText(120),
@@ -140,24 +141,24 @@ export type StudentInput = z.infer<typeof studentInputSchema>;
 export const studentPatchSchema = studentInputSchema
   .omit({ schoolId: true })
   .partial()
-  .extend({ version: z.number().int() });
+  .extend({ version: versionNumber });
 export type StudentPatch = z.infer<typeof studentPatchSchema>;
 
 /** `POST /api/students/:id/move`: the school the student moves to. */
-export const studentMoveSchema = z.object({
-  toSchoolId: z.number({ message: 'Choose the school the student moves to.' }).int().positive(),
-  version: z.number().int(),
+export const studentMoveSchema = z.strictObject({
+  toSchoolId: recordId('Choose the school the student moves to.'),
+  version: versionNumber,
 });
 export type StudentMove = z.infer<typeof studentMoveSchema>;
 
 /** The field filters of `GET /api/students` (besides q, sort, offset, limit). */
-export const studentFiltersSchema = z.object({
-  schoolId: z.coerce.number().int().positive().optional(),
-  schoolCode: z.string().trim().max(10).optional(),
+export const studentFiltersSchema = z.strictObject({
+  schoolId: idParameter.optional(),
+  schoolCode: plainText().max(10).optional(),
   grade: gradeInput.optional(),
   status: z.enum(studentStatuses).optional(),
-  ensembleId: z.coerce.number().int().positive().optional(),
-  instrumentId: z.string().trim().max(40).optional(),
+  ensembleId: idParameter.optional(),
+  instrumentId: plainText().max(40).optional(),
   /**
    * Keyset paging: the cursor in the `Link: <…>; rel="next"` header of the page before. The page
    * starts right after that page's last row (in the same sort), and `offset` is not used.

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { plainText } from './input-rules';
 
 /** An API token as listed: never the token itself. */
 export const apiTokenSchema = z.object({
@@ -12,6 +13,6 @@ export const apiTokenSchema = z.object({
 });
 export type ApiToken = z.infer<typeof apiTokenSchema>;
 
-export const apiTokenInputSchema = z.object({
-  label: z.string().trim().max(80, 'Keep the label under 80 characters.').default(''),
+export const apiTokenInputSchema = z.strictObject({
+  label: plainText().max(80, 'Keep the label under 80 characters.').default(''),
 });
