@@ -77,6 +77,30 @@ function withoutBearerApiRequests(middleware: RequestHandler): RequestHandler {
       : middleware(request, response, next);
 }
 
+/**
+ * Strict-Transport-Security (RFC 6797) on every answer sent over HTTPS — APP_URL's, or the
+ * proxy's X-Forwarded-Proto when TRUST_PROXY=true — with helmet's default lifetime (a year);
+ * and one warning when HTTPS requests arrive while APP_URL says http, since sign-in redirects
+ * and mailed links then point at the insecure address.
+ */
+function overHttps(config: Config, logger: Logger): RequestHandler {
+  const appUrlIsHttps = config.appUrl.startsWith('https:');
+  let warned = false;
+  return (request, response, next) => {
+    if (appUrlIsHttps || request.secure) {
+      response.set('Strict-Transport-Security', 'max-age=31536000; includeSubDomains');
+    }
+    if (request.secure && config.appUrlIsFixed && !appUrlIsHttps && !warned) {
+      warned = true;
+      logger.warn(
+        { appUrl: config.appUrl },
+        'Requests arrive over HTTPS but APP_URL is http: set APP_URL to the https address people open.',
+      );
+    }
+    next();
+  };
+}
+
 /** Builds the Express app: security headers, sessions, sign-in, the API and the web app. */
 export async function createApp(config: Config, options: AppOptions): Promise<Express> {
   const logger = options.logger ?? createLogger(config.logLevel);
@@ -114,13 +138,15 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
           formAction: ["'self'", issuerOrigin],
         },
       },
-      strictTransportSecurity: config.appUrl.startsWith('https:'),
+      // Sent below, per request: over HTTPS (APP_URL's, or the proxy's X-Forwarded-Proto).
+      strictTransportSecurity: false,
       // With no-referrer, browsers send "Origin: null" on form posts and the CSRF check fails.
       referrerPolicy: { policy: 'same-origin' },
     }),
   );
 
-  const secure = config.appUrl.startsWith('https:');
+  const appUrlIsHttps = config.appUrl.startsWith('https:');
+  app.use(overHttps(config, logger));
   app.use(
     withoutBearerApiRequests(
       session({
@@ -130,7 +156,14 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
         resave: false,
         saveUninitialized: false,
         rolling: true,
-        cookie: { httpOnly: true, sameSite: 'lax', secure, maxAge: 8 * 60 * 60 * 1000 },
+        // 'auto': Secure whenever the request came over HTTPS, which behind a trusted proxy
+        // (TRUST_PROXY=true) is its X-Forwarded-Proto, with or without APP_URL.
+        cookie: {
+          httpOnly: true,
+          sameSite: 'lax',
+          secure: appUrlIsHttps ? true : 'auto',
+          maxAge: 8 * 60 * 60 * 1000,
+        },
       }),
     ),
   );

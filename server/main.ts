@@ -63,6 +63,12 @@ export async function startServer(
     await options.prepare?.(database);
     // Once, for a data folder never analyzed (filled before imports and seeds gathered statistics).
     if (await statisticsStale(database.db, 'students', 0)) await refreshStatistics(database.db);
+    if (config.trustProxy && config.appUrlIsFixed && config.appUrl.startsWith('http:')) {
+      logger.warn(
+        { appUrl: config.appUrl },
+        'TRUST_PROXY is on but APP_URL is http: if the proxy serves HTTPS, set APP_URL to the https address.',
+      );
+    }
     const { createApp } = await appModule;
     const app = await createApp(config, { database, logger, localKey });
     const server = createHttpServer(app);

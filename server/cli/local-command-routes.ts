@@ -35,8 +35,8 @@ export function localCommandRoutes({ db, database }: Services, localKey: string)
     const { email } = parseInput(z.object({ email: z.string().min(3) }), request.body, 'The request');
     const user = await findUserByEmail(db, email);
     if (!user || !user.active) throw new HttpError(404, 'not_found', `No active user has the e-mail ${email}.`);
-    const { token } = await issueToken(db, user.id, 'tutti token');
-    response.status(201).json({ token, name: user.name, role: user.role });
+    const { token, expiresAt } = await issueToken(db, user.id, 'tutti token');
+    response.status(201).json({ token, name: user.name, role: user.role, expiresAt: expiresAt.toISOString() });
   });
   router.post('/imports', ...localImportHandlers(database));
   return router;

@@ -1,7 +1,7 @@
 import express from 'express';
 import request from 'supertest';
 import { describe, expect, it } from 'vitest';
-import { failedTokenLimit } from './rate-limits';
+import { failedTokenLimit, tokenFailuresExceeded } from './rate-limits';
 
 /** An app whose good token answers after a pause, so many good requests are in flight at once. */
 function slowApp(limit: number) {
@@ -9,7 +9,10 @@ function slowApp(limit: number) {
   app.use(failedTokenLimit(limit));
   app.get('/thing', async (req, res) => {
     if (req.get('authorization') !== 'Bearer good') {
-      res.status(401).json({ error: 'bad token' });
+      const retryAfter = res.locals[tokenFailuresExceeded] as number | undefined;
+      if (retryAfter !== undefined) res.set('Retry-After', String(retryAfter)).status(429);
+      else res.status(401);
+      res.json({ error: 'bad token' });
       return;
     }
     await new Promise((resolve) => setTimeout(resolve, 50));
@@ -29,7 +32,7 @@ describe('failedTokenLimit', () => {
     expect(answers.map((answer) => answer.status)).toEqual(answers.map(() => 200));
   });
 
-  it('should refuse an address after its failures reach the limit, good token or not', async () => {
+  it('should refuse bad tokens from an address over the limit and still take a good one', async () => {
     const app = slowApp(3);
     const bad = () => request(app).get('/thing').set('Authorization', 'Bearer guess');
     expect([(await bad()).status, (await bad()).status, (await bad()).status]).toEqual([
@@ -38,7 +41,8 @@ describe('failedTokenLimit', () => {
     const refused = await bad();
     expect(refused.status).toBe(429);
     expect(Number(refused.headers['retry-after'])).toBeGreaterThan(0);
-    expect((await request(app).get('/thing').set('Authorization', 'Bearer good')).status).toBe(429);
+    expect((await request(app).get('/thing').set('Authorization', 'Bearer good')).status).toBe(200);
+    expect((await bad()).status).toBe(429);
   });
 
   it('should leave requests without a bearer token alone', async () => {

@@ -1,6 +1,7 @@
 import { rateLimit, type RateLimitRequestHandler } from 'express-rate-limit';
 import { createHash } from 'node:crypto';
 import type { Request, RequestHandler } from 'express';
+import { HttpError } from './errors';
 
 const windowMs = 60_000;
 
@@ -24,10 +25,24 @@ function bearerOf(request: Request): string | undefined {
   return header?.toLowerCase().startsWith('bearer ') ? header.slice(7).trim() : undefined;
 }
 
+/** Set on `response.locals` when the address has used up its failed-token attempts. */
+export const tokenFailuresExceeded = 'tokenFailuresExceeded';
+
+/** The 429 a bad token from an address over its limit answers with. */
+export function tooManyTokenFailures(): HttpError {
+  return new HttpError(
+    429,
+    'too_many_requests',
+    'Too many requests with a bad API token from this address. Wait a minute.',
+  );
+}
+
 /**
- * Failed token attempts per address per minute. Counted when a 401 goes out, never before the
- * answer: a limiter that counts every request up front and takes the good ones back when they
- * finish would refuse a busy client whose good requests happen to be in flight together.
+ * Failed token attempts per address per minute. Only failures are counted (when a 401 goes
+ * out, never before the answer), and only a failing token is refused once the address is over
+ * the limit: a school's staff share one address behind their router, so a good token keeps
+ * working whatever a colleague's script got wrong. `authenticate` reads the mark this leaves on
+ * `response.locals` when a token does not resolve.
  */
 export function failedTokenLimit(failuresPerMinute = 30): RequestHandler {
   const failures = new Map<string, { count: number; resetAt: number }>();
@@ -37,15 +52,11 @@ export function failedTokenLimit(failuresPerMinute = 30): RequestHandler {
     return entry && entry.resetAt > now ? entry : undefined;
   };
   return (request, response, next) => {
-    if (bearerOf(request) === undefined) return next();
+    if (request.get('authorization') === undefined) return next();
     const key = request.ip ?? 'unknown';
     const entry = current(key, Date.now());
     if (entry && entry.count >= failuresPerMinute) {
-      response.set('Retry-After', String(Math.ceil((entry.resetAt - Date.now()) / 1000)));
-      response
-        .status(429)
-        .json(tooMany('Too many requests with a bad API token from this address. Wait a minute.'));
-      return;
+      response.locals[tokenFailuresExceeded] = Math.ceil((entry.resetAt - Date.now()) / 1000);
     }
     response.on('finish', () => {
       if (response.statusCode !== 401) return;

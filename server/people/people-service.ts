@@ -127,7 +127,7 @@ export async function getPerson(db: Database | Transaction, id: number): Promise
     () =>
       db
         .select({
-          live: sql<number>`(count(*) filter (where ${apiTokens.revokedAt} is null))::int`,
+          live: sql<number>`(count(*) filter (where ${apiTokens.revokedAt} is null and ${apiTokens.expiresAt} > now()))::int`,
           revoked: sql<number>`(count(*) filter (where ${apiTokens.revokedAt} is not null))::int`,
           lastUsedAt: sql<Date | string | null>`max(${apiTokens.lastUsedAt})`,
         })

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { and, count, desc, eq, type SQL } from 'drizzle-orm';
-import { apiTokenInputSchema, type ApiToken } from '../../shared/api/token';
+import { apiTokenFiltersSchema, apiTokenInputSchema, type ApiToken } from '../../shared/api/token';
 import { apiTokens, users } from '../db/schema/index';
 import { actorOf, can, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
@@ -8,7 +8,6 @@ import { parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';
 import { recordAudit } from '../core/audit';
 import type { Services } from '../services';
-import { z } from 'zod';
 import { issueToken } from './token-service';
 
 /**
@@ -20,8 +19,11 @@ export function tokensRoutes({ db }: Services): Router {
 
   router.get('/tokens', requires('tokens:own'), async (request, response) => {
     const actor = actorOf(request);
-    const list = parseListQuery(request.query, z.object({}));
-    const mine: SQL | undefined = can(actor, 'people:manage') ? undefined : eq(apiTokens.userId, actor.userId);
+    const list = parseListQuery(request.query, apiTokenFiltersSchema);
+    const mine: SQL | undefined = and(
+      can(actor, 'people:manage') ? undefined : eq(apiTokens.userId, actor.userId),
+      list.userId !== undefined ? eq(apiTokens.userId, list.userId) : undefined,
+    );
     const rows = await db
       .select({ token: apiTokens, userEmail: users.email })
       .from(apiTokens)
@@ -39,16 +41,22 @@ export function tokensRoutes({ db }: Services): Router {
       createdAt: token.createdAt.toISOString(),
       lastUsedAt: token.lastUsedAt?.toISOString() ?? null,
       revokedAt: token.revokedAt?.toISOString() ?? null,
+      expiresAt: token.expiresAt.toISOString(),
     }));
     response.json({ rows: answer, total: total!.total });
   });
 
   router.post('/tokens', requires('tokens:own'), async (request, response) => {
     const actor = actorOf(request);
-    const { label } = parseInput(apiTokenInputSchema, request.body ?? {}, 'The token');
-    const { id, token } = await issueToken(db, actor.userId, label);
-    await recordAudit(db, actor, { action: 'create', entity: 'api-token', entityId: id, after: { label } });
-    response.status(201).json({ id, label, token });
+    const { label, lifetimeDays } = parseInput(apiTokenInputSchema, request.body ?? {}, 'The token');
+    const { id, token, expiresAt } = await issueToken(db, actor.userId, label, lifetimeDays);
+    await recordAudit(db, actor, {
+      action: 'create',
+      entity: 'api-token',
+      entityId: id,
+      after: { label, expiresAt: expiresAt.toISOString() },
+    });
+    response.status(201).json({ id, label, token, expiresAt: expiresAt.toISOString() });
   });
 
   router.delete('/tokens/:id', requires('tokens:own'), async (request, response) => {

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { calendarDate, idParameter } from './input-rules';
+import { calendarDate, idParameter, plainText } from './input-rules';
 import { requirementSchema } from './ladder';
 import { passOffSchema, recordingSchema } from './pass-off';
 
@@ -214,7 +214,7 @@ export const auditionReadyFiltersSchema = z.strictObject({
             .map((code) => code.trim())
             .filter(Boolean)
         : value,
-    z.array(z.string().max(60)).min(1, 'Choose at least one requirement.').max(60),
+    z.array(plainText().max(60)).min(1, 'Choose at least one requirement.').max(60),
   ),
   /** Each of them passed at this tempo or faster (default: each requirement's own tempo). */
   minTempo: z.coerce.number().int().min(20).max(300).optional(),

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { plainText } from './input-rules';
 
 /** The largest grid layout kept for one user and grid, in bytes of JSON. */
 export const gridStateMaxBytes = 20 * 1024;
@@ -8,7 +9,7 @@ export const gridNamePattern = /^[a-z][a-z0-9-]{0,59}$/;
 
 /** One column of a remembered layout, in display order. */
 export const gridColumnStateSchema = z.object({
-  colId: z.string().min(1).max(100),
+  colId: plainText().min(1).max(100),
   width: z.number().int().min(20).max(2000).optional(),
   hide: z.boolean().optional(),
   pinned: z.enum(['left', 'right']).nullable().optional(),
@@ -18,7 +19,7 @@ export const gridColumnStateSchema = z.object({
 export const gridStateSchema = z
   .object({
     columns: z.array(gridColumnStateSchema).max(200),
-    sort: z.string().max(120).optional(),
+    sort: plainText().max(120).optional(),
   })
   .refine((state) => new TextEncoder().encode(JSON.stringify(state)).length <= gridStateMaxBytes, {
     message: `A grid layout is at most ${gridStateMaxBytes} bytes of JSON.`,

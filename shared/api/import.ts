@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { plainText } from './input-rules';
 import { rosterFields } from '../roster/roster-columns';
 
 /** The most bytes one roster upload may have. */
@@ -19,7 +20,7 @@ export type ImportRowError = z.infer<typeof rowErrorSchema>;
 const rosterFieldSchema = z.enum(rosterFields);
 
 /** Which file header feeds each roster field. */
-export const columnMappingSchema = z.partialRecord(rosterFieldSchema, z.string().max(300));
+export const columnMappingSchema = z.partialRecord(rosterFieldSchema, plainText().max(300));
 
 /** A mapping problem: a required field with no column, or a column chosen twice. */
 export const mappingProblemSchema = z.object({ field: rosterFieldSchema, message: z.string() });
@@ -198,9 +199,7 @@ export type ImportPreset = z.infer<typeof importPresetSchema>;
 
 /** What saving a preset takes; a preset of the same name is replaced. */
 export const importPresetInputSchema = z.strictObject({
-  name: z
-    .string()
-    .trim()
+  name: plainText()
     .min(1, 'Give the preset a name, e.g. the system the file comes from.')
     .max(80),
   mapping: columnMappingSchema,

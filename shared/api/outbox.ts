@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { idParameter } from './input-rules';
+import { idParameter, plainText } from './input-rules';
 
 export const outboxKinds = ['report', 'loan-agreement', 'overdue-reminder', 'other'] as const;
 export const outboxStates = ['queued', 'sending', 'sent', 'failed'] as const;
@@ -41,6 +41,6 @@ export const outboxFiltersSchema = z.strictObject({
   state: z.enum(outboxStates).optional(),
   kind: z.enum(outboxKinds).optional(),
   schoolId: idParameter.optional(),
-  relatedType: z.string().max(60).optional(),
+  relatedType: plainText().max(60).optional(),
   relatedId: idParameter.optional(),
 });

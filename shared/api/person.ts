@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { recordId, versionNumber } from './input-rules';
+import { plainText, recordId, versionNumber } from './input-rules';
 import { roleSchema, schoolSummarySchema } from './me';
 import { roles, type Role } from './roles';
 
@@ -116,9 +116,7 @@ const schoolIdsInput = z
   .max(200)
   .transform((ids) => [...new Set(ids)]);
 
-const nameInput = z
-  .string({ message: 'Give the person’s name.' })
-  .trim()
+const nameInput = plainText()
   .min(2, 'Give the person’s full name.')
   .max(120, 'Keep the name under 120 characters.');
 
@@ -172,5 +170,7 @@ export const createdTokenSchema = z.object({
   id: z.number().int(),
   label: z.string(),
   token: z.string(),
+  /** ISO 8601 time the token stops working. */
+  expiresAt: z.string(),
 });
 export type CreatedToken = z.infer<typeof createdTokenSchema>;

@@ -35,6 +35,19 @@ describe('Rate limits', () => {
     expect(statuses.slice(0, 30).every((status) => status === 401)).toBe(true);
     expect(statuses.at(-1)).toBe(429);
   });
+
+  it('should still take a valid token from an address that sent too many bad ones', async () => {
+    // The address (127.0.0.1) is over its failed-token limit from the test above.
+    expect((await app.bearer('tutti_guess-again').get('/api/me')).status).toBe(429);
+    const token = await app.token(demoEmail('director.hpms'));
+    const statuses: number[] = [];
+    for (let attempt = 0; attempt < 5; attempt += 1) {
+      statuses.push((await app.bearer(token).get('/api/me')).status);
+    }
+    expect(statuses).toEqual([200, 200, 200, 200, 200]);
+    // A good token's answers are not failures: the next bad one is still refused, not counted anew.
+    expect((await app.bearer('tutti_guess-last').get('/api/me')).status).toBe(429);
+  });
 });
 
 const tables = ['schools', 'users', 'user_schools', 'students', 'ensembles', 'enrollments'];

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createLogger } from '../../server/logger';
 import { startTestApp, type TestApp } from '../support/test-app';
 
 /** The directives of a Content-Security-Policy header, by name. */
@@ -65,5 +66,58 @@ describe('Behind a TLS-terminating proxy', () => {
     expect(cookie).toMatch(/;\s*Secure/i);
     expect(cookie).toMatch(/;\s*HttpOnly/i);
     expect(response.headers['strict-transport-security']).toMatch(/max-age=\d+/);
+  });
+});
+
+describe('Behind a TLS-terminating proxy without APP_URL', () => {
+  let app: TestApp;
+  beforeAll(async () => {
+    app = await startTestApp({ template: 'empty', environment: { TRUST_PROXY: 'true' } });
+  });
+  afterAll(async () => {
+    await app?.close();
+  });
+
+  // OWASP ASVS 4.0.3 V3.4.1 (Secure cookies) and RFC 6797 §7.2 (HSTS only over secure transport).
+  it('should mark the cookie Secure and send HSTS when the proxy says the request was HTTPS', async () => {
+    const response = await app.anonymous.get('/auth/sign-in').set('X-Forwarded-Proto', 'https');
+    expect(response.status).toBe(302);
+    const cookie = ([] as string[]).concat(response.headers['set-cookie'] ?? []).join('\n');
+    expect(cookie).toMatch(/^tuttiboard\.sid=/);
+    expect(cookie).toMatch(/;\s*Secure/i);
+    expect(response.headers['strict-transport-security']).toMatch(/max-age=\d+/);
+  });
+
+  it('should leave the cookie plain and send no HSTS over plain HTTP', async () => {
+    const response = await app.anonymous.get('/auth/sign-in');
+    const cookie = ([] as string[]).concat(response.headers['set-cookie'] ?? []).join('\n');
+    expect(cookie).toMatch(/^tuttiboard\.sid=/);
+    expect(cookie).not.toMatch(/;\s*Secure/i);
+    expect(response.headers['strict-transport-security']).toBeUndefined();
+  });
+});
+
+describe('An http APP_URL behind an HTTPS proxy', () => {
+  it('should warn once when HTTPS requests arrive', async () => {
+    const warnings: string[] = [];
+    const logger = createLogger('silent');
+    logger.warn = ((...parts: unknown[]) => {
+      warnings.push(parts.map((part) => (typeof part === 'string' ? part : '')).join(''));
+    }) as typeof logger.warn;
+    const app = await startTestApp({
+      template: 'empty',
+      logger,
+      environment: { TRUST_PROXY: 'true', APP_URL: 'http://music.merrowbasin.example' },
+    });
+    try {
+      await app.anonymous.get('/api/me');
+      expect(warnings).toEqual([]);
+      await app.anonymous.get('/api/me').set('X-Forwarded-Proto', 'https');
+      await app.anonymous.get('/api/me').set('X-Forwarded-Proto', 'https');
+      expect(warnings).toHaveLength(1);
+      expect(warnings[0]).toMatch(/APP_URL is http/);
+    } finally {
+      await app.close();
+    }
   });
 });

@@ -8,7 +8,7 @@ import request from 'supertest';
 import { createApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
 import type { DatabaseHandle } from '../../server/db/client';
-import { createLogger } from '../../server/logger';
+import { createLogger, type Logger } from '../../server/logger';
 import { findUserByEmail } from '../../server/people/people-queries';
 import { issueToken } from '../../server/tokens/token-service';
 import { CookieJar, startOidcFake, walkSignIn, type OidcFake } from '../../fakes/oidc/index';
@@ -46,7 +46,7 @@ export interface TestApp {
 export const demoEmail = (local: string) => `${local}@merrowbasin.example`;
 
 /** Starts the whole app for a test file, from the demo district unless told otherwise. */
-export async function startTestApp(options: { template?: TemplateName; serveWeb?: boolean; environment?: NodeJS.ProcessEnv } = {}): Promise<TestApp> {
+export async function startTestApp(options: { template?: TemplateName; serveWeb?: boolean; environment?: NodeJS.ProcessEnv; logger?: Logger } = {}): Promise<TestApp> {
   const templates = inject('templates');
   const [oidc, mail, database] = await Promise.all([
     startOidcFake({ port: 0 }),
@@ -61,7 +61,7 @@ export async function startTestApp(options: { template?: TemplateName; serveWeb?
     LOG_LEVEL: 'silent',
     ...options.environment,
   });
-  const app = await createApp(config, { database, logger: createLogger('silent'), serveWeb: options.serveWeb ?? false });
+  const app = await createApp(config, { database, logger: options.logger ?? createLogger('silent'), serveWeb: options.serveWeb ?? false });
   const server = createHttpServer(app);
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;

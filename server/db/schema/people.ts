@@ -9,6 +9,7 @@ import {
   uniqueIndex,
   boolean,
 } from 'drizzle-orm/pg-core';
+import { sql } from 'drizzle-orm';
 import { timestamps, version } from './columns';
 import { schools } from './schools';
 
@@ -61,6 +62,10 @@ export const apiTokens = pgTable(
     tokenHash: text('token_hash').notNull(),
     lastUsedAt: timestamp('last_used_at', { withTimezone: true, mode: 'date' }),
     revokedAt: timestamp('revoked_at', { withTimezone: true, mode: 'date' }),
+    /** When the token stops working; tokens made before lifetimes existed got 90 days. */
+    expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' })
+      .notNull()
+      .default(sql`now() + interval '90 days'`),
     ...timestamps,
   },
   (table) => [

@@ -3,7 +3,7 @@ import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
 import { createdTokenSchema, type CreatedToken } from '../../../shared/api/person';
-import { apiTokenSchema, type ApiToken } from '../../../shared/api/token';
+import { apiTokenSchema, type ApiToken, type ApiTokenInput } from '../../../shared/api/token';
 import { parsedWith } from '../core/parse';
 
 const tokenListSchema = listResponseSchema(apiTokenSchema);
@@ -20,8 +20,8 @@ export class ApiTokenData {
   }
 
   /** Makes a token for the signed-in user; the answer is the only time it is shown. */
-  create(label: string): Observable<CreatedToken> {
-    return this.http.post('/api/tokens', { label }).pipe(parsedWith(createdTokenSchema));
+  create(input: ApiTokenInput): Observable<CreatedToken> {
+    return this.http.post('/api/tokens', input).pipe(parsedWith(createdTokenSchema));
   }
 
   revoke(id: number): Observable<unknown> {

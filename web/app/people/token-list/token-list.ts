@@ -7,9 +7,14 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
 import { catchError, map, of } from 'rxjs';
 import type { CreatedToken } from '../../../../shared/api/person';
-import type { ApiToken } from '../../../../shared/api/token';
+import {
+  defaultTokenLifetimeDays,
+  longestTokenLifetimeDays,
+  type ApiToken,
+} from '../../../../shared/api/token';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
@@ -30,6 +35,7 @@ import { TokenReveal } from '../token-reveal/token-reveal';
     MatFormFieldModule,
     MatIconModule,
     MatInputModule,
+    MatSelectModule,
     PageState,
   ],
   templateUrl: './token-list.html',
@@ -46,6 +52,15 @@ export class TokenList {
 
   protected readonly myId = inject(CurrentUser).me()?.id;
   protected readonly label = signal('');
+  /** The lifetimes the form offers, in days: a month, the default 90 days, half a year, a year. */
+  protected readonly lifetimes = [
+    { days: 30, label: '30 days' },
+    { days: defaultTokenLifetimeDays, label: `${defaultTokenLifetimeDays} days` },
+    { days: 180, label: '180 days' },
+    { days: longestTokenLifetimeDays, label: 'A year' },
+  ];
+  protected readonly lifetimeDays = signal(defaultTokenLifetimeDays);
+  protected readonly now = Date.now();
   protected readonly creating = signal(false);
   protected readonly confirming = signal<number | null>(null);
   protected readonly notice = signal('');
@@ -63,8 +78,13 @@ export class TokenList {
       ),
   });
   protected readonly liveCount = computed(
-    () => (this.list.value()?.rows ?? []).filter((token) => !token.revokedAt).length,
+    () => (this.list.value()?.rows ?? []).filter((token) => this.isLive(token)).length,
   );
+
+  /** Whether the token still works: not revoked and not past its expiry. */
+  protected isLive(token: ApiToken): boolean {
+    return !token.revokedAt && Date.parse(token.expiresAt) > this.now;
+  }
 
   protected ownerName(token: ApiToken): string {
     return this.owners.value()?.get(token.userId) ?? token.userEmail;
@@ -75,7 +95,7 @@ export class TokenList {
     this.creating.set(true);
     this.failure.set('');
     this.notice.set('');
-    this.tokens.create(this.label().trim()).subscribe({
+    this.tokens.create({ label: this.label().trim(), lifetimeDays: this.lifetimeDays() }).subscribe({
       next: (created) => {
         this.creating.set(false);
         this.label.set('');

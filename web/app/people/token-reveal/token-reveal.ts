@@ -4,11 +4,12 @@ import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import type { CreatedToken } from '../../../../shared/api/person';
+import { WhenPipe } from '../../core/format/formats';
 
 /** Shows a new API token the one time it can be seen, with a copy button. */
 @Component({
   selector: 'tb-token-reveal',
-  imports: [MatButtonModule, MatDialogModule, MatIconModule],
+  imports: [MatButtonModule, MatDialogModule, MatIconModule, WhenPipe],
   template: `
     <h2 mat-dialog-title>Your new API token</h2>
     <mat-dialog-content>
@@ -24,6 +25,9 @@ import type { CreatedToken } from '../../../../shared/api/person';
           Label: <strong>{{ created.label }}</strong>
         </p>
       }
+      <p class="label">
+        Works until <strong>{{ created.expiresAt | when }}</strong>; make a new one before then.
+      </p>
       <div class="token-row">
         <code data-testid="new-token" aria-label="API token">{{ created.token }}</code>
         <button mat-stroked-button type="button" (click)="copy()" data-testid="copy-token">
