@@ -100,4 +100,31 @@ describe('parseCsv', () => {
   it('should give no headers and no records when the text is empty', () => {
     expect(parseCsv('')).toEqual({ headers: [], records: [], problems: [], delimiter: ',' });
   });
+
+  it('should refuse a header of more than 200 columns without reading the rest of the file', () => {
+    const wide = Array.from({ length: 1_000_000 }, (_, index) => `c${index}`).join(',');
+    const csv = parseCsv(`${wide}\n${wide}\n`);
+    expect(csv.headers).toEqual([]);
+    expect(csv.records).toEqual([]);
+    expect(csv.problems).toHaveLength(1);
+    expect(csv.problems[0]!.message).toMatch(/more than 200 columns/);
+  });
+
+  it('should still read a header of exactly 200 columns, and commas inside quotes do not count', () => {
+    const header = Array.from({ length: 200 }, (_, index) => `c${index}`).join(',');
+    expect(parseCsv(`${header}\n${'1,'.repeat(199)}1\n`).headers).toHaveLength(200);
+    const quoted = `"${','.repeat(500)}",b\n1,2\n`;
+    expect(parseCsv(quoted).headers).toEqual([','.repeat(500), 'b']);
+  });
+
+  it('should leave out a cell longer than 10,000 characters and say so', () => {
+    const csv = parseCsv(`a,b\n1,${'x'.repeat(10_001)}\n2,3\n`);
+    expect(csv.records).toEqual([
+      { line: 2, cells: { a: '1', b: '' } },
+      { line: 3, cells: { a: '2', b: '3' } },
+    ]);
+    expect(csv.problems).toEqual([
+      { line: 2, column: 'b', message: expect.stringMatching(/10,001 characters/) as string },
+    ]);
+  });
 });

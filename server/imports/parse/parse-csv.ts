@@ -18,6 +18,37 @@ export interface ParsedCsv {
 
 const lineFeed = 10;
 
+/** The most columns a file may have: a roster export has a few dozen. */
+export const mostColumns = 200;
+/** The longest cell read, in characters; a longer one is reported and left out. */
+export const longestCell = 10_000;
+
+/**
+ * How many cells the first line holds, for each candidate delimiter, counting no further than
+ * `mostColumns + 1`: a hostile file of a million columns is refused after reading a few
+ * hundred characters, before any parser walks the whole of it.
+ */
+function firstLineIsTooWide(text: string): number | undefined {
+  const counts = new Map<string, number>([[',', 1], [';', 1], ['\t', 1]]);
+  let quoted = false;
+  for (let index = 0; index < text.length; index++) {
+    const character = text[index]!;
+    if (character === '"') quoted = !quoted;
+    else if (quoted) continue;
+    else if (character === '\n' || character === '\r') {
+      // Leading empty lines do not count as the first line.
+      if ([...counts.values()].every((count) => count === 1) && text.slice(0, index).trim() === '') continue;
+      return undefined;
+    } else {
+      const count = counts.get(character);
+      if (count === undefined) continue;
+      if (count + 1 > mostColumns) return count + 1;
+      counts.set(character, count + 1);
+    }
+  }
+  return undefined;
+}
+
 /** Counts physical line breaks: CRLF, a lone LF and a lone CR are one each (RFC 4180 uses CRLF). */
 function lineBreaksIn(text: string): number {
   let count = 0;
@@ -76,6 +107,15 @@ function isEmptyLine(cells: string[]): boolean {
 export function parseCsv(text: string): ParsedCsv {
   const problems: RowError[] = [];
   const records: CsvRecord[] = [];
+  const tooWide = firstLineIsTooWide(text);
+  if (tooWide !== undefined) {
+    problems.push({
+      line: 1,
+      column: '',
+      message: `The header line has more than ${mostColumns} columns; a roster file has far fewer. Check that this is the right file, exported as CSV.`,
+    });
+    return { headers: [], records, problems, delimiter: ',' };
+  }
   // Empty lines are kept while parsing so that every parsed line follows the one before it in
   // the text: a line starts one line break, plus those inside its quoted cells, after the last.
   // Papaparse guesses from the first ten lines; it must skip empty ones while guessing, or a
@@ -117,7 +157,19 @@ export function parseCsv(text: string): ParsedCsv {
       return;
     }
     const record: Record<string, string> = {};
-    for (const { header, index } of readable) record[header] = cells[index] ?? '';
+    for (const { header, index } of readable) {
+      const cell = cells[index] ?? '';
+      if (cell.length > longestCell) {
+        problems.push({
+          line: lineOfRow,
+          column: header,
+          message: `This cell holds ${cell.length.toLocaleString('en-US')} characters, more than the ${longestCell.toLocaleString('en-US')} a cell may; it was not read.`,
+        });
+        record[header] = '';
+      } else {
+        record[header] = cell;
+      }
+    }
     if (cells.length > headers.length && !isEmptyLine(cells.slice(headers.length))) {
       problems.push({
         line: lineOfRow,
