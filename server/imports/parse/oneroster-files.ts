@@ -28,9 +28,13 @@ export interface BundleFiles {
   errors: RowError[];
 }
 
-// A roster export of a whole district stays far below this; a larger entry is refused rather than
-// inflated into memory.
+// A roster export of a whole district stays far below these; a larger entry, or a bundle whose
+// files add up to more, is refused by the sizes the zip declares, before anything is inflated.
+// fflate inflates an entry into a buffer of its declared size and no further, so a zip that
+// understates a size (a zip bomb's trick) yields a cut-off file, never more memory.
 const largestFile = 256 * 1024 * 1024;
+/** The most the bundle's roster files may add up to once inflated. */
+export const largestBundle = 256 * 1024 * 1024;
 
 const canonicalName = new Map<string, BundleFileName>(
   bundleFileNames.map((name) => [name.toLowerCase(), name]),
@@ -49,7 +53,24 @@ function fromZip(bytes: Uint8Array, errors: RowError[]): Map<string, Uint8Array 
   const found = new Map<string, Uint8Array | string>();
   let entries: Record<string, Uint8Array>;
   let workbook = false;
+  let declared = 0;
   try {
+    // First the sizes the zip declares, from its directory alone; nothing is inflated yet.
+    unzipSync(bytes, {
+      filter: (file) => {
+        if (bundleName(file.name) && file.originalSize <= largestFile) declared += file.originalSize;
+        return false;
+      },
+    });
+    if (declared > largestBundle) {
+      errors.push(
+        wholeBundle(
+          'The roster files in this zip add up to more than 256 MB once unpacked; nothing was read. Export only the OneRoster CSV files, or split the export.',
+        ),
+      );
+      return found;
+    }
+    // Only the bundle's own CSV files are inflated: a nested zip or anything else is skipped.
     entries = unzipSync(bytes, {
       filter: (file) => {
         if (file.name === 'xl/workbook.xml') workbook = true;

@@ -271,4 +271,34 @@ describe('readOneRosterBundle', () => {
     const parsed = await readOneRosterBundle(`${bundleFolder}/missing`);
     expect(parsed.errors[0].message).toMatch(/^The folder '.*missing' could not be read/);
   });
+
+  it('should refuse a zip whose roster files declare more than 256 MB together, before inflating any', async () => {
+    const zip = zipSync({
+      'users.csv': strToU8('sourcedId\n'),
+      'enrollments.csv': strToU8('sourcedId\n'),
+    });
+    // APPNOTE.TXT (PKWARE .ZIP File Format Specification) §4.3.7 and §4.3.12: the uncompressed
+    // size sits at offset 22 of a local file header and offset 24 of a central directory header.
+    const view = new DataView(zip.buffer, zip.byteOffset, zip.byteLength);
+    for (let offset = 0; offset + 4 <= zip.length; offset++) {
+      const signature = view.getUint32(offset, true);
+      if (signature === 0x04034b50) view.setUint32(offset + 22, 150 * 1024 * 1024, true);
+      if (signature === 0x02014b50) view.setUint32(offset + 24, 150 * 1024 * 1024, true);
+    }
+    const before = process.memoryUsage().arrayBuffers;
+    const parsed = await readOneRosterBundle(zip);
+    expect(parsed.rows).toEqual([]);
+    expect(parsed.errors.map((error) => error.message)).toContainEqual(
+      expect.stringMatching(/more than 256 MB once unpacked/),
+    );
+    // Nothing near the declared 150 MB was allocated.
+    expect(process.memoryUsage().arrayBuffers - before).toBeLessThan(50 * 1024 * 1024);
+  });
+
+  it('should not inflate a zip nested inside the bundle', async () => {
+    const inner = zipSync({ 'users.csv': strToU8('sourcedId\n') });
+    const parsed = await readOneRosterBundle(zipSync({ 'nested.zip': inner }));
+    expect(parsed.rows).toEqual([]);
+    expect(parsed.errors.length).toBeGreaterThan(0);
+  });
 });
