@@ -61,11 +61,16 @@ describe('People screen', () => {
 
     await page.getByRole('tab', { name: 'API tokens' }).click();
     await page.getByTestId('token-label').fill('Nightly roster export');
+    await page.getByTestId('token-lifetime').click();
+    await page.getByRole('option', { name: 'A year' }).click();
+    await page.getByRole('listbox').waitFor({ state: 'detached' });
     await page.getByTestId('create-token').click();
     const shown = page.getByTestId('new-token');
     await expect.poll(() => shown.innerText()).toMatch(/^tutti_\S{20,}$/);
     const token = (await shown.innerText()).trim();
     expect(await page.getByRole('dialog').innerText()).toContain('only time it is shown');
+    const nextYear = String(new Date().getFullYear() + 1);
+    expect(await page.getByRole('dialog').innerText()).toMatch(new RegExp(`Works until .*${nextYear}`));
     await saveScreenshot(page, 'token-shown-once');
 
     const me = await page.evaluate(async (bearer) => {
@@ -88,6 +93,8 @@ describe('People screen', () => {
       hasText: 'Nightly roster export',
     });
     await expect.poll(() => listed.innerText()).toContain('Live');
+    // A year's lifetime: the Expires column reads next year's date.
+    expect(await listed.innerText()).toContain(nextYear);
     // The script's call above is the token's last use, so it no longer reads "Never".
     expect(await listed.innerText()).not.toContain('Never');
     expect(await page.content()).not.toContain(token);
