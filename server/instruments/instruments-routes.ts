@@ -66,7 +66,9 @@ export function instrumentsRoutes({ db, config }: Services): Router {
     async (request, response) => {
       const { dryRun } = parseInput(importQuerySchema, request.query, 'The import query');
       if (request.body !== undefined && !Buffer.isBuffer(request.body)) {
-        throw badRequest('Send the fleet CSV file itself as the request body (Content-Type: text/csv).');
+        throw badRequest(
+          'Send the fleet CSV file itself as the request body (Content-Type: text/csv).',
+        );
       }
       const bytes = Buffer.isBuffer(request.body) ? request.body : Buffer.alloc(0);
       const result = await importFleet(db, actorOf(request), bytes, dryRun === 'true');

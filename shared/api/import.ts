@@ -199,9 +199,7 @@ export type ImportPreset = z.infer<typeof importPresetSchema>;
 
 /** What saving a preset takes; a preset of the same name is replaced. */
 export const importPresetInputSchema = z.strictObject({
-  name: plainText()
-    .min(1, 'Give the preset a name, e.g. the system the file comes from.')
-    .max(80),
+  name: plainText().min(1, 'Give the preset a name, e.g. the system the file comes from.').max(80),
   mapping: columnMappingSchema,
 });
 export type ImportPresetInput = z.infer<typeof importPresetInputSchema>;

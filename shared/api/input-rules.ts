@@ -10,7 +10,11 @@ export const int4Max = 2_147_483_647;
 
 /** A record's id in a body: a positive whole number that fits the `integer` column it names. */
 export const recordId = (message = 'An id is a positive whole number.') =>
-  z.number({ message }).int(message).positive(message).max(int4Max, 'That id is too large to be one of ours.');
+  z
+    .number({ message })
+    .int(message)
+    .positive(message)
+    .max(int4Max, 'That id is too large to be one of ours.');
 
 /** A record's id in a query string (`?studentId=12`). */
 export const idParameter = z.coerce
@@ -27,7 +31,9 @@ export const earliestYear = 1900;
 export const latestYear = 2199;
 
 /** A calendar date, YYYY-MM-DD (ISO 8601), in a year between 1900 and 2199. */
-export const calendarDate = (message: string | { message: string } = 'Write the date as YYYY-MM-DD.') =>
+export const calendarDate = (
+  message: string | { message: string } = 'Write the date as YYYY-MM-DD.',
+) =>
   z.iso.date(message).refine((value) => {
     const year = Number(value.slice(0, 4));
     return year >= earliestYear && year <= latestYear;
@@ -38,6 +44,8 @@ export const calendarDate = (message: string | { message: string } = 'Write the 
  * category, The Unicode Standard §23.1): PostgreSQL text cannot hold NUL at all, and the rest
  * are invisible in every screen and export.
  */
+// The rule's whole point is to match control characters.
+// eslint-disable-next-line no-control-regex
 export const controlCharacters = /[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/;
 
 /** Text a person typed or a file held: trimmed, with no control characters but tab and line breaks. */
@@ -45,4 +53,7 @@ export const plainText = () =>
   z
     .string()
     .trim()
-    .refine((value) => !controlCharacters.test(value), 'Remove the control characters from this text.');
+    .refine(
+      (value) => !controlCharacters.test(value),
+      'Remove the control characters from this text.',
+    );

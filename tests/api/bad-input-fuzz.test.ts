@@ -25,7 +25,12 @@ interface Route {
 
 /** Every API route the app mounts, read from the feature routers themselves. */
 function apiRoutes(): Route[] {
-  const services = { config: app.config, db: app.database.db, database: app.database, logger: createLogger('silent') } as Services;
+  const services = {
+    config: app.config,
+    db: app.database.db,
+    database: app.database,
+    logger: createLogger('silent'),
+  } as Services;
   const routes: Route[] = [];
   for (const build of featureRoutes) {
     const router = build(services) as Router & {
@@ -49,22 +54,72 @@ const tooLargeIds = fc.oneof(
 );
 // ISO 8601 years 0000 and beyond 9999 (an expanded representation) are outside PostgreSQL's
 // usual range for our columns or simply not dates anyone keeps.
-const outOfRangeDates = fc.constantFrom('0000-01-01', '0001-01-01', '9999-12-31', '1899-12-31', '2026-02-30');
+const outOfRangeDates = fc.constantFrom(
+  '0000-01-01',
+  '0001-01-01',
+  '9999-12-31',
+  '1899-12-31',
+  '2026-02-30',
+);
 // NUL cannot be stored in PostgreSQL text (§8.3); the other C0 controls are invisible.
 const controlText = fc
-  .tuple(fc.string({ maxLength: 8 }), fc.constantFrom('\u0000', '\u0001', '\u001b', '\u007f'), fc.string({ maxLength: 8 }))
+  .tuple(
+    fc.string({ maxLength: 8 }),
+    fc.constantFrom('\u0000', '\u0001', '\u001b', '\u007f'),
+    fc.string({ maxLength: 8 }),
+  )
   .map(([before, control, after]) => `${before}${control}${after}`);
 const poison = fc.oneof(tooLargeIds, outOfRangeDates, controlText);
 
 /** Field names the API uses, so poison lands on fields the routes read, and some they do not. */
 const knownFields = [
-  'id', 'studentId', 'schoolId', 'ensembleId', 'instrumentId', 'schoolYearId', 'toSchoolId',
-  'directorUserId', 'userId', 'loanId', 'repairId', 'ladderVersionId', 'version', 'heardOn',
-  'from', 'to', 'asOf', 'dueOn', 'sentOn', 'returnedOn', 'purchasedOn', 'checkedOutOn', 'note',
-  'name', 'label', 'title', 'problem', 'vendor', 'assetTag', 'serial', 'maker', 'model',
-  'firstName', 'lastName', 'studentNumber', 'code', 'q', 'requirementCode', 'part', 'email',
+  'id',
+  'studentId',
+  'schoolId',
+  'ensembleId',
+  'instrumentId',
+  'schoolYearId',
+  'toSchoolId',
+  'directorUserId',
+  'userId',
+  'loanId',
+  'repairId',
+  'ladderVersionId',
+  'version',
+  'heardOn',
+  'from',
+  'to',
+  'asOf',
+  'dueOn',
+  'sentOn',
+  'returnedOn',
+  'purchasedOn',
+  'checkedOutOn',
+  'note',
+  'name',
+  'label',
+  'title',
+  'problem',
+  'vendor',
+  'assetTag',
+  'serial',
+  'maker',
+  'model',
+  'firstName',
+  'lastName',
+  'studentNumber',
+  'code',
+  'q',
+  'requirementCode',
+  'part',
+  'email',
 ];
-const plausible = fc.oneof(fc.constant(1), fc.constant('2026-03-02'), fc.constant('x'), fc.boolean());
+const plausible = fc.oneof(
+  fc.constant(1),
+  fc.constant('2026-03-02'),
+  fc.constant('x'),
+  fc.boolean(),
+);
 const field = fc.oneof(fc.constantFrom(...knownFields), fc.constant('unexpectedField'));
 
 /** A body or filter set holding at least one value no route may accept. */
@@ -86,7 +141,9 @@ async function fingerprint(): Promise<Record<string, string>> {
   for (const table of tables.filter((name) => !['api_tokens', 'sessions'].includes(name))) {
     const [row] = rowsOf<{ total: number; newest: string | null }>(
       await app.database.db.execute(
-        sql.raw(`select count(*)::int as total, max(xmin::text::bigint)::text as newest from "${table}"`),
+        sql.raw(
+          `select count(*)::int as total, max(xmin::text::bigint)::text as newest from "${table}"`,
+        ),
       ),
     );
     result[table] = `${row!.total}:${row!.newest}`;
@@ -95,7 +152,9 @@ async function fingerprint(): Promise<Record<string, string>> {
 }
 
 function fill(path: string, id: string): string {
-  return path.replace(/:(\w+)/g, (_match, name: string) => (name === 'grid' ? 'students' : name === 'token' ? 'x' : id));
+  return path.replace(/:(\w+)/g, (_match, name: string) =>
+    name === 'grid' ? 'students' : name === 'token' ? 'x' : id,
+  );
 }
 
 describe('Bad input on every route', () => {
@@ -109,17 +168,22 @@ describe('Bad input on every route', () => {
       return body === undefined ? pending : pending.send(body);
     };
     const note = (method: string, target: string, body: unknown, response: request.Response) =>
-      failures.push(`${method.toUpperCase()} ${target} ${JSON.stringify(body) ?? ''} → ${response.status} ${(response.text ?? "").slice(0, 160)}`);
+      failures.push(
+        `${method.toUpperCase()} ${target} ${JSON.stringify(body) ?? ''} → ${response.status} ${(response.text ?? '').slice(0, 160)}`,
+      );
     for (const route of routes) {
       const hasParameters = /:(?!grid\b|token\b)\w+/.test(route.path);
       // Filters: a poisoned value or an unknown parameter on every read.
       if (route.method === 'get') {
         await fc.assert(
           fc.asyncProperty(badFields, async (fields) => {
-            const query = new URLSearchParams(Object.entries(fields).map(([name, value]) => [name, String(value)]));
+            const query = new URLSearchParams(
+              Object.entries(fields).map(([name, value]) => [name, String(value)]),
+            );
             const target = `${fill(route.path, '1')}?${query}`;
             const response = await send('get', target);
-            if (response.status >= 500 || (response.status < 400 && !hasParameters)) note('get', target, undefined, response);
+            if (response.status >= 500 || (response.status < 400 && !hasParameters))
+              note('get', target, undefined, response);
           }),
           { numRuns: 4, seed: 23 },
         );
@@ -129,8 +193,13 @@ describe('Bad input on every route', () => {
         await fc.assert(
           fc.asyncProperty(badPathIds, async (id) => {
             const target = fill(route.path, id);
-            const response = await send(route.method, target, route.method === 'get' || route.method === 'delete' ? undefined : {});
-            if (response.status >= 500 || response.status < 400) note(route.method, target, undefined, response);
+            const response = await send(
+              route.method,
+              target,
+              route.method === 'get' || route.method === 'delete' ? undefined : {},
+            );
+            if (response.status >= 500 || response.status < 400)
+              note(route.method, target, undefined, response);
           }),
           { numRuns: 3, seed: 23 },
         );
@@ -141,7 +210,8 @@ describe('Bad input on every route', () => {
           fc.asyncProperty(badFields, async (body) => {
             const target = fill(route.path, '1');
             const response = await send(route.method, target, body);
-            if (response.status >= 500 || response.status < 400) note(route.method, target, body, response);
+            if (response.status >= 500 || response.status < 400)
+              note(route.method, target, body, response);
           }),
           { numRuns: 8, seed: 23 },
         );

@@ -71,7 +71,9 @@ describe('Each person’s tokens for the coordinator', () => {
     const theirs = await coordinator.get(`/api/tokens?userId=${me.body.id}`);
     expect(theirs.status).toBe(200);
     expect(theirs.body.rows.length).toBeGreaterThan(0);
-    expect(theirs.body.rows.every((row: { userId: number }) => row.userId === me.body.id)).toBe(true);
+    expect(theirs.body.rows.every((row: { userId: number }) => row.userId === me.body.id)).toBe(
+      true,
+    );
     expect(theirs.body.total).toBe(theirs.body.rows.length);
     expect((await coordinator.delete(`/api/tokens/${made.body.id}`)).status).toBe(204);
     expect((await app.bearer(made.body.token).get('/api/me')).status).toBe(401);
@@ -95,9 +97,12 @@ describe('Filters that exist', () => {
     expect(one.status).toBe(200);
     expect(one.body.total).toBeGreaterThan(0);
     expect(one.body.total).toBeLessThan(all.body.total);
-    const ensembles = (await coordinator.get(`/api/ensembles?schoolId=${school.id}&limit=1000`)).body.rows as { id: number }[];
+    const ensembles = (await coordinator.get(`/api/ensembles?schoolId=${school.id}&limit=1000`))
+      .body.rows as { id: number }[];
     const ensembleIds = new Set(ensembles.map((ensemble) => ensemble.id));
-    expect(one.body.rows.every((row: { ensembleId: number }) => ensembleIds.has(row.ensembleId))).toBe(true);
+    expect(
+      one.body.rows.every((row: { ensembleId: number }) => ensembleIds.has(row.ensembleId)),
+    ).toBe(true);
   });
 
   it('should refuse an unknown filter by name', async () => {
@@ -112,9 +117,27 @@ describe('Filters that exist', () => {
     // PostgreSQL 18 documentation §8.1.1: integer is at most 2147483647.
     expect((await coordinator.get('/api/students?schoolId=2147483648')).status).toBe(400);
     expect((await coordinator.get('/api/pass-offs?studentId=2147483648')).status).toBe(400);
-    const entry = { studentId: 2147483648, requirementCode: 'R1-1', heardOn: '2026-10-01', tempo: 80, passed: true };
-    expect((await director.post('/api/pass-offs', entry)).status).toBe(400);
-    expect((await director.post('/api/pass-offs', { ...entry, studentId: 1, heardOn: '0000-01-01' })).status).toBe(400);
+    const entry = {
+      studentId: 2147483648,
+      requirementCode: 'r2-bb-major',
+      heardOn: '2026-10-01',
+      tempo: 80,
+      passed: true,
+    };
+    const tooLarge = await director.post('/api/pass-offs', entry);
+    expect(tooLarge.status).toBe(400);
+    expect(tooLarge.body.error.fieldErrors.map((error: { field: string }) => error.field)).toEqual([
+      'studentId',
+    ]);
+    const yearZero = await director.post('/api/pass-offs', {
+      ...entry,
+      studentId: 1,
+      heardOn: '0000-01-01',
+    });
+    expect(yearZero.status).toBe(400);
+    expect(yearZero.body.error.fieldErrors.map((error: { field: string }) => error.field)).toEqual([
+      'heardOn',
+    ]);
     // PostgreSQL 18 documentation §8.3: the character with code zero cannot be stored in text.
     const nul = await director.post('/api/pass-offs', { ...entry, studentId: 1, note: 'a\u0000b' });
     expect(nul.status).toBe(400);

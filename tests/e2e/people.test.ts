@@ -70,7 +70,9 @@ describe('People screen', () => {
     const token = (await shown.innerText()).trim();
     expect(await page.getByRole('dialog').innerText()).toContain('only time it is shown');
     const nextYear = String(new Date().getFullYear() + 1);
-    expect(await page.getByRole('dialog').innerText()).toMatch(new RegExp(`Works until .*${nextYear}`));
+    expect(await page.getByRole('dialog').innerText()).toMatch(
+      new RegExp(`Works until .*${nextYear}`),
+    );
     await saveScreenshot(page, 'token-shown-once');
 
     const me = await page.evaluate(async (bearer) => {

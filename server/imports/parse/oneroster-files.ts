@@ -58,7 +58,8 @@ function fromZip(bytes: Uint8Array, errors: RowError[]): Map<string, Uint8Array 
     // First the sizes the zip declares, from its directory alone; nothing is inflated yet.
     unzipSync(bytes, {
       filter: (file) => {
-        if (bundleName(file.name) && file.originalSize <= largestFile) declared += file.originalSize;
+        if (bundleName(file.name) && file.originalSize <= largestFile)
+          declared += file.originalSize;
         return false;
       },
     });

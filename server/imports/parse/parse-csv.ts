@@ -29,7 +29,11 @@ export const longestCell = 10_000;
  * hundred characters, before any parser walks the whole of it.
  */
 function firstLineIsTooWide(text: string): number | undefined {
-  const counts = new Map<string, number>([[',', 1], [';', 1], ['\t', 1]]);
+  const counts = new Map<string, number>([
+    [',', 1],
+    [';', 1],
+    ['\t', 1],
+  ]);
   let quoted = false;
   for (let index = 0; index < text.length; index++) {
     const character = text[index]!;
@@ -37,7 +41,8 @@ function firstLineIsTooWide(text: string): number | undefined {
     else if (quoted) continue;
     else if (character === '\n' || character === '\r') {
       // Leading empty lines do not count as the first line.
-      if ([...counts.values()].every((count) => count === 1) && text.slice(0, index).trim() === '') continue;
+      if ([...counts.values()].every((count) => count === 1) && text.slice(0, index).trim() === '')
+        continue;
       return undefined;
     } else {
       const count = counts.get(character);

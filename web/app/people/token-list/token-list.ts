@@ -95,22 +95,24 @@ export class TokenList {
     this.creating.set(true);
     this.failure.set('');
     this.notice.set('');
-    this.tokens.create({ label: this.label().trim(), lifetimeDays: this.lifetimeDays() }).subscribe({
-      next: (created) => {
-        this.creating.set(false);
-        this.label.set('');
-        this.list.reload();
-        this.dialog.open<TokenReveal, CreatedToken>(TokenReveal, {
-          data: created,
-          width: '600px',
-          disableClose: true,
-        });
-      },
-      error: (error: unknown) => {
-        this.creating.set(false);
-        this.failure.set(errorMessage(error, 'The token could not be made.'));
-      },
-    });
+    this.tokens
+      .create({ label: this.label().trim(), lifetimeDays: this.lifetimeDays() })
+      .subscribe({
+        next: (created) => {
+          this.creating.set(false);
+          this.label.set('');
+          this.list.reload();
+          this.dialog.open<TokenReveal, CreatedToken>(TokenReveal, {
+            data: created,
+            width: '600px',
+            disableClose: true,
+          });
+        },
+        error: (error: unknown) => {
+          this.creating.set(false);
+          this.failure.set(errorMessage(error, 'The token could not be made.'));
+        },
+      });
   }
 
   protected revoke(token: ApiToken): void {
