@@ -1,0 +1,214 @@
+import { PitchDetector } from 'pitchy';
+
+/** The pitch and loudness of a take, frame by frame, at a fixed hop. */
+export interface PitchTrack {
+  /** Seconds between frames. */
+  hopSeconds: number;
+  /** Seconds from the take's start to the centre of frame 0. */
+  firstFrameSeconds: number;
+  /** Fractional MIDI note of each frame (tuned to the take's A4), NaN where no pitch is heard. */
+  midi: Float64Array;
+  /** Clarity of each frame's pitch, 0..1 (the height of the chosen NSDF peak). */
+  clarity: Float32Array;
+  /** Short-time level of each frame in decibels relative to full scale. */
+  levelDb: Float32Array;
+}
+
+/** The rate the pitch track works at: a 44.1 kHz take is low-passed and kept one sample in four. */
+const workingRate = 11_025;
+/** Lowest and highest fundamentals heard: the concert range of band and orchestra winds. */
+const lowestHz = 27.5;
+const highestHz = 4_500;
+/**
+ * The clarity a frame needs to count as pitched. McLeod and Wyvill's clarity is the normalised
+ * peak height; breath noise lowers it, a clean tone sits near 1.
+ */
+const pitchedClarity = 0.8;
+
+/** The integer factor a take is decimated by before pitch detection. */
+export function decimationFactor(sampleRate: number): number {
+  return Math.max(1, Math.floor(sampleRate / workingRate + 1e-9));
+}
+
+/**
+ * Low-passes and decimates a take by an integer factor with a windowed-sinc FIR (Blackman
+ * window, cut-off at 90 % of the new Nyquist frequency), so that upper harmonics do not fold
+ * back onto the fundamental. Then removes DC and rumble with a one-pole high-pass at 20 Hz.
+ */
+export function decimate(samples: Float32Array, factor: number, sampleRate: number): Float32Array {
+  const length = Math.floor(samples.length / factor);
+  const output = new Float32Array(length);
+  if (factor === 1) {
+    output.set(samples.subarray(0, length));
+  } else {
+    const half = 8 * factor;
+    const taps = new Float64Array(2 * half + 1);
+    const cutoff = 0.45 / factor;
+    let sum = 0;
+    for (let i = -half; i <= half; i += 1) {
+      const x = 2 * Math.PI * cutoff * i;
+      const sinc = i === 0 ? 1 : Math.sin(x) / x;
+      const w = (2 * Math.PI * (i + half)) / (2 * half);
+      const blackman = 0.42 - 0.5 * Math.cos(w) + 0.08 * Math.cos(2 * w);
+      taps[i + half] = sinc * blackman;
+      sum += taps[i + half]!;
+    }
+    for (let i = 0; i < taps.length; i += 1) taps[i]! /= sum;
+    const last = samples.length - 1;
+    for (let n = 0; n < length; n += 1) {
+      const centre = n * factor;
+      let acc = 0;
+      if (centre - half >= 0 && centre + half <= last) {
+        for (let k = 0, s = centre - half; k < taps.length; k += 1, s += 1) {
+          acc += taps[k]! * samples[s]!;
+        }
+      } else {
+        for (let k = 0; k < taps.length; k += 1) {
+          const s = centre - half + k;
+          if (s >= 0 && s <= last) acc += taps[k]! * samples[s]!;
+        }
+      }
+      output[n] = acc;
+    }
+  }
+  const rate = sampleRate / factor;
+  const alpha = 1 / (1 + (2 * Math.PI * 20) / rate);
+  let previousIn = 0;
+  let previousOut = 0;
+  for (let n = 0; n < length; n += 1) {
+    const x = output[n]!;
+    const y = alpha * (previousOut + x - previousIn);
+    previousIn = x;
+    previousOut = y;
+    output[n] = y;
+  }
+  return output;
+}
+
+/** The analysis window at a working rate: the power of two spanning at least 80 ms. */
+export function windowLength(rate: number): number {
+  let length = 256;
+  while (length < 0.08 * rate) length *= 2;
+  return length;
+}
+
+/**
+ * Tracks pitch frame by frame with the McLeod pitch method (P. McLeod and G. Wyvill, "A
+ * Smarter Way to Find Pitch", Proc. International Computer Music Conference 2005), as the
+ * `pitchy` package implements it: the normalised square difference function, its key maxima,
+ * and the first key maximum within k of the highest (k = 0.9, the paper's value). Choosing the
+ * first high peak rather than the highest is what keeps a tone whose second or third harmonic
+ * is stronger than its fundamental (low reeds, brass) on its fundamental.
+ *
+ * Frames are 80–128 ms long (two periods of the lowest tuba notes) with a hop of an eighth of
+ * that. Frames quieter than 35 dB under the take's loud frames are not analysed.
+ */
+export function pitchTrack(samples: Float32Array, sampleRate: number, a4: number): PitchTrack {
+  const factor = decimationFactor(sampleRate);
+  const signal = decimate(samples, factor, sampleRate);
+  const rate = sampleRate / factor;
+  const window = windowLength(rate);
+  const hop = window / 8;
+  const frames = signal.length >= window ? Math.floor((signal.length - window) / hop) + 1 : 0;
+
+  const levelDb = new Float32Array(frames);
+  const frameRms = new Float32Array(frames);
+  for (let k = 0; k < frames; k += 1) {
+    const centre = k * hop + window / 2;
+    let energy = 0;
+    for (let s = centre - hop; s < centre + hop; s += 1) energy += signal[s]! * signal[s]!;
+    const rms = Math.sqrt(energy / (2 * hop));
+    frameRms[k] = rms;
+    levelDb[k] = 20 * Math.log10(rms + 1e-9);
+  }
+  const loud = percentile(frameRms, 0.99);
+  const quietest = Math.max(loud * 10 ** (-35 / 20), 1e-4);
+
+  const detector = PitchDetector.forFloat32Array(window);
+  detector.clarityThreshold = 0.9;
+  const fine = fineDetector(samples, sampleRate, factor);
+  const midi = new Float64Array(frames).fill(Number.NaN);
+  const clarity = new Float32Array(frames);
+  for (let k = 0; k < frames; k += 1) {
+    if (frameRms[k]! < quietest) continue;
+    let [hz, frameClarity] = detector.findPitch(signal.subarray(k * hop, k * hop + window), rate);
+    if (fine && hz >= fineAboveHz) {
+      // The centre of frame k, in the finer signal's samples.
+      const centre = Math.round(((k * hop + window / 2) / rate) * fine.rate);
+      const from = centre - fine.window / 2;
+      if (from >= 0 && from + fine.window <= fine.signal.length) {
+        [hz, frameClarity] = fine.detector.findPitch(
+          fine.signal.subarray(from, from + fine.window),
+          fine.rate,
+        );
+      }
+    }
+    clarity[k] = frameClarity;
+    if (frameClarity >= pitchedClarity && hz >= lowestHz && hz <= highestHz) {
+      midi[k] = 69 + 12 * Math.log2(hz / a4);
+    }
+  }
+  return {
+    hopSeconds: hop / rate,
+    firstFrameSeconds: window / 2 / rate,
+    midi: medianOfFive(midi),
+    clarity,
+    levelDb,
+  };
+}
+
+/** Frames heard above this at the working rate are heard again at twice the rate or more. */
+const fineAboveHz = 300;
+
+/**
+ * A second detector at 22.05 or 24 kHz with a 46 ms window, for high notes. At 11 kHz the period
+ * of an A5 is only 12.5 samples; with strong upper harmonics the sampled NSDF peak at that lag
+ * falls under k times the (exactly sampled) peak at twice the lag, and the method answers an
+ * octave low. Twice the samples per period keeps the peak, and high notes need only a short window.
+ */
+function fineDetector(
+  samples: Float32Array,
+  sampleRate: number,
+  coarseFactor: number,
+): { signal: Float32Array; rate: number; window: number; detector: PitchDetector<Float32Array> } | undefined {
+  const factor = Math.max(1, Math.floor(sampleRate / (2 * workingRate) + 1e-9));
+  if (factor >= coarseFactor) return undefined;
+  const rate = sampleRate / factor;
+  const window = windowLength(rate / 2) / 2;
+  const detector = PitchDetector.forFloat32Array(window);
+  detector.clarityThreshold = 0.9;
+  return { signal: decimate(samples, factor, sampleRate), rate, window, detector };
+}
+
+/**
+ * A running median over five frames (58 ms) of the pitched frames, which removes single-frame
+ * octave slips and spikes; a frame keeps its value when fewer than three neighbours are pitched.
+ */
+function medianOfFive(values: Float64Array): Float64Array {
+  const output = new Float64Array(values.length);
+  const window: number[] = [];
+  for (let k = 0; k < values.length; k += 1) {
+    if (Number.isNaN(values[k]!)) {
+      output[k] = Number.NaN;
+      continue;
+    }
+    window.length = 0;
+    for (let j = k - 2; j <= k + 2; j += 1) {
+      const v = values[j];
+      if (v !== undefined && !Number.isNaN(v)) window.push(v);
+    }
+    if (window.length < 3) {
+      output[k] = values[k]!;
+      continue;
+    }
+    window.sort((a, b) => a - b);
+    output[k] = window[Math.floor(window.length / 2)]!;
+  }
+  return output;
+}
+
+function percentile(values: Float32Array, share: number): number {
+  if (values.length === 0) return 0;
+  const sorted = Float32Array.from(values).sort();
+  return sorted[Math.min(sorted.length - 1, Math.floor(share * sorted.length))]!;
+}
