@@ -73,6 +73,7 @@ export function noteSegments(track: PitchTrack, shortestSeconds: number): HeardN
   const shortestFrames = Math.max(3, Math.round(shortestSeconds / hopSeconds));
   const notes: HeardNote[] = [];
   let previousEndFrame = -1;
+  let previousLoudest = -Infinity;
   const onsetBetween = (from: number, to: number) => {
     for (let k = Math.max(0, from - 1); k <= to + 1; k += 1) if (onsets.has(k)) return true;
     return false;
@@ -86,11 +87,14 @@ export function noteSegments(track: PitchTrack, shortestSeconds: number): HeardN
     const previousEnd = previous ? previous.onset + previous.duration : -Infinity;
     // A piece split off by a brief unpitched glitch, at the same pitch and with no tongued
     // onset between, is the same note continuing.
+    const loudest = (from: number, to: number) => Math.max(...track.levelDb.subarray(from, to));
     if (
       previous &&
       Math.abs(previous.midi - pitch) < 0.5 &&
       onset - previousEnd <= 4 * hopSeconds &&
-      !onsetBetween(previousEndFrame, piece.start)
+      (!onsetBetween(previousEndFrame, piece.start) ||
+        // Far quieter than the note before: that note's tail in the room.
+        loudest(piece.start, piece.end) < previousLoudest - 12)
     ) {
       previousEndFrame = piece.end;
       const total = previous.duration + frames * hopSeconds;
@@ -99,6 +103,7 @@ export function noteSegments(track: PitchTrack, shortestSeconds: number): HeardN
       continue;
     }
     previousEndFrame = piece.end;
+    previousLoudest = Math.max(...track.levelDb.subarray(piece.start, piece.end));
     notes.push({ onset, duration: frames * hopSeconds, midi: pitch });
   }
   return notes;
@@ -126,7 +131,11 @@ function tonguedOnsets(levelDb: Float32Array): Set<number> {
     for (let j = k + 1; j <= Math.min(levelDb.length - 1, k + 8); j += 1) {
       after = Math.max(after, levelDb[j]!);
     }
-    if (before - level >= dipDepthDb && after - level >= dipDepthDb) onsets.add(k);
+    // The level after the dip must come back near the level before it: a new note, not an echo
+    // in the room's decay after the last one.
+    if (before - level >= dipDepthDb && after - level >= dipDepthDb && after >= before - 8) {
+      onsets.add(k);
+    }
   }
   return onsets;
 }
