@@ -170,7 +170,9 @@ function fineDetector(
   samples: Float32Array,
   sampleRate: number,
   coarseFactor: number,
-): { signal: Float32Array; rate: number; window: number; detector: PitchDetector<Float32Array> } | undefined {
+):
+  | { signal: Float32Array; rate: number; window: number; detector: PitchDetector<Float32Array> }
+  | undefined {
   const factor = Math.max(1, Math.floor(sampleRate / (2 * workingRate) + 1e-9));
   if (factor >= coarseFactor) return undefined;
   const rate = sampleRate / factor;

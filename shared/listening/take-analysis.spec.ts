@@ -180,7 +180,9 @@ describe('analyseTake on recordings it cannot use', { timeout: 60_000 }, () => {
   });
 
   it('should refuse 8 kHz and 192 kHz with the rates it hears', () => {
-    expect(problem(new Float32Array(8_000), 8_000)).toMatch(/^sample-rate: .*8000 Hz.*16 to 96 kHz/);
+    expect(problem(new Float32Array(8_000), 8_000)).toMatch(
+      /^sample-rate: .*8000 Hz.*16 to 96 kHz/,
+    );
     expect(problem(new Float32Array(192_000), 192_000)).toMatch(/^sample-rate: .*192000 Hz/);
   });
 

@@ -95,7 +95,8 @@ export function analyseTake(
 
   const notes = expected.map((note, i): NoteAnalysis => {
     const j = heardIndex[i]!;
-    if (j < 0) return { expected: note.note, heard: null, centsOff: null, onset: null, verdict: 'missed' };
+    if (j < 0)
+      return { expected: note.note, heard: null, centsOff: null, onset: null, verdict: 'missed' };
     const { midi, onset } = heard[j]!;
     const cents = Math.round((midi - targets[i]!.midi) * 1000) / 10;
     const nearest = Math.round(midi);
@@ -115,7 +116,7 @@ export function analyseTake(
   });
   const ok = notes.filter((note) => note.verdict === 'ok').length;
   return {
-    tempo: fit ? Math.round((600 / fit.secondsPerBeat)) / 10 : null,
+    tempo: fit ? Math.round(600 / fit.secondsPerBeat) / 10 : null,
     notes,
     pitchAccuracy: ok / notes.length,
     extraNotes: extra,

@@ -131,7 +131,8 @@ export function synthTake(
   for (let click = 0; click < countIn; click += 1) {
     const first = Math.round((leadIn + click * beatSeconds) * sampleRate);
     for (let n = 0; n < 0.02 * sampleRate; n += 1) {
-      tone[first + n]! += 0.3 * Math.exp(-n / (0.004 * sampleRate)) * Math.sin((2 * Math.PI * 1000 * n) / sampleRate);
+      tone[first + n]! +=
+        0.3 * Math.exp(-n / (0.004 * sampleRate)) * Math.sin((2 * Math.PI * 1000 * n) / sampleRate);
     }
   }
 
