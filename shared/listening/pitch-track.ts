@@ -126,21 +126,25 @@ export function pitchTrack(samples: Float32Array, sampleRate: number, a4: number
 
   const detector = PitchDetector.forFloat32Array(window);
   detector.clarityThreshold = 0.9;
-  const fine = fineDetector(samples, sampleRate, factor);
+  const fine = fineDetectors(samples, sampleRate, factor);
   const midi = new Float64Array(frames).fill(Number.NaN);
   const clarity = new Float32Array(frames);
   for (let k = 0; k < frames; k += 1) {
     if (frameRms[k]! < quietest) continue;
     let [hz, frameClarity] = detector.findPitch(signal.subarray(k * hop, k * hop + window), rate);
-    if (fine && hz >= fineAboveHz) {
+    for (const finer of fine) {
+      if (hz < finer.aboveHz) break;
       // The centre of frame k, in the finer signal's samples.
-      const centre = Math.round(((k * hop + window / 2) / rate) * fine.rate);
-      const from = centre - fine.window / 2;
-      if (from >= 0 && from + fine.window <= fine.signal.length) {
-        [hz, frameClarity] = fine.detector.findPitch(
-          fine.signal.subarray(from, from + fine.window),
-          fine.rate,
+      const centre = Math.round(((k * hop + window / 2) / rate) * finer.rate);
+      const from = centre - finer.window / 2;
+      if (from >= 0 && from + finer.window <= finer.signal.length) {
+        const [fineHz, fineClarity] = finer.detector.findPitch(
+          finer.signal.subarray(from, from + finer.window),
+          finer.rate,
         );
+        // A short window can lose the pitch for a frame; the coarse answer then stands (the
+        // running median below removes it where it was an octave low).
+        if (fineClarity >= pitchedClarity) [hz, frameClarity] = [fineHz, fineClarity];
       }
     }
     clarity[k] = frameClarity;
@@ -151,35 +155,77 @@ export function pitchTrack(samples: Float32Array, sampleRate: number, a4: number
   return {
     hopSeconds: hop / rate,
     firstFrameSeconds: window / 2 / rate,
-    midi: medianOfFive(midi),
+    midi: medianOfFive(bridgeShortGaps(midi)),
     clarity,
     levelDb,
   };
 }
 
-/** Frames heard above this at the working rate are heard again at twice the rate or more. */
-const fineAboveHz = 300;
-
 /**
- * A second detector at 22.05 or 24 kHz with a 46 ms window, for high notes. At 11 kHz the period
- * of an A5 is only 12.5 samples; with strong upper harmonics the sampled NSDF peak at that lag
- * falls under k times the (exactly sampled) peak at twice the lag, and the method answers an
- * octave low. Twice the samples per period keeps the peak, and high notes need only a short window.
+ * Finer detectors for high notes. At 11 kHz the period of an A5 is only 12.5 samples; with strong
+ * upper harmonics the NSDF, sampled at whole lags, misses the top of its peak at that lag by
+ * more than it misses the peak at twice the lag, which then wins the k = 0.9 test: the method
+ * answers an octave low. An octave-low answer for a note from about 760 Hz up (a period of 14.5
+ * samples or less) lands above 380 Hz, so such frames are heard again at twice the rate
+ * (22.05/24 kHz), and frames still above 760 Hz at four times the rate (the take's own 44.1/48
+ * kHz), each time with a 23 ms window (nine periods of 380 Hz) to keep the cost down.
  */
-function fineDetector(
+interface FineDetector {
+  aboveHz: number;
+  signal: Float32Array;
+  rate: number;
+  window: number;
+  detector: PitchDetector<Float32Array>;
+}
+
+function fineDetectors(
   samples: Float32Array,
   sampleRate: number,
   coarseFactor: number,
-):
-  | { signal: Float32Array; rate: number; window: number; detector: PitchDetector<Float32Array> }
-  | undefined {
-  const factor = Math.max(1, Math.floor(sampleRate / (2 * workingRate) + 1e-9));
-  if (factor >= coarseFactor) return undefined;
-  const rate = sampleRate / factor;
-  const window = windowLength(rate / 2) / 2;
-  const detector = PitchDetector.forFloat32Array(window);
-  detector.clarityThreshold = 0.9;
-  return { signal: decimate(samples, factor, sampleRate), rate, window, detector };
+): FineDetector[] {
+  const detectors: FineDetector[] = [];
+  for (const [times, aboveHz] of [
+    [2, 380],
+    [4, 760],
+  ] as const) {
+    const factor = Math.max(1, Math.floor(sampleRate / (times * workingRate) + 1e-9));
+    const previous = detectors[detectors.length - 1];
+    if (factor >= coarseFactor || (previous && sampleRate / factor <= previous.rate)) continue;
+    const rate = sampleRate / factor;
+    let window = 256;
+    while (window < 0.02 * rate) window *= 2;
+    const detector = PitchDetector.forFloat32Array(window);
+    detector.clarityThreshold = 0.9;
+    detectors.push({
+      aboveHz,
+      signal: decimate(samples, factor, sampleRate),
+      rate,
+      window,
+      detector,
+    });
+  }
+  return detectors;
+}
+
+/**
+ * Fills runs of one or two unpitched frames between two frames within a quarter tone of each
+ * other (a frame where the pitch slipped, inside a held note). Tongued attacks still cut there
+ * by their dip in level.
+ */
+function bridgeShortGaps(values: Float64Array): Float64Array {
+  const output = Float64Array.from(values);
+  for (let k = 1; k < values.length - 1; k += 1) {
+    if (!Number.isNaN(values[k]!) || Number.isNaN(values[k - 1]!)) continue;
+    let end = k;
+    while (end < values.length && Number.isNaN(values[end]!) && end - k < 3) end += 1;
+    const after = values[end];
+    if (end - k <= 2 && after !== undefined && !Number.isNaN(after)) {
+      if (Math.abs(after - values[k - 1]!) < 0.5) {
+        for (let j = k; j < end; j += 1) output[j] = (values[k - 1]! + after) / 2;
+      }
+    }
+  }
+  return output;
 }
 
 /**

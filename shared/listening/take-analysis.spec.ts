@@ -98,6 +98,14 @@ describe('analyseTake', { timeout: 60_000 }, () => {
     expect(analysis.tempo).toBeCloseTo(80, 0);
   });
 
+  it('should hear the high register of a piccolo in its own octave', () => {
+    // Concert Bb5 to Bb6 (932–1865 Hz): periods of a few samples at a low working rate.
+    const piccolo = pattern('cycle-brisk', bFlatMajor, { instrument: 'piccolo' });
+    const analysis = listen(piccolo, 100, { vibrato: { cents: 10, hz: 5.5 } });
+    expectOnlyFlagged(analysis, {});
+    expect(analysis.extraNotes).toBe(0);
+  });
+
   it('should measure cents against the A4 it is given', () => {
     const flute = pattern('arpeggio-long', bFlatMajor, { instrument: 'flute' });
     const take = synthTake(flute, 120, { a4: 442 });

@@ -7,6 +7,7 @@ import { printFigures, type BenchFigure } from './bench-figure';
 import { benchGridPages } from './grid-pages';
 import { benchStartup } from './startup';
 import { benchBundle } from './bundle';
+import { benchListening } from './listening';
 
 /**
  * `npm run bench`: every figure against the limit measured in the same run, printed as ratios.
@@ -78,6 +79,10 @@ async function sections(): Promise<Section[]> {
       title: '6. Initial JavaScript and CSS against an empty Material app',
       run: () => benchBundle({ rebuild: true }),
     });
+  list.push({
+    title: '8. Listening: a take analysed, against one pass of the pitch detector',
+    run: () => benchListening(smoke ? { seconds: 10, runs: 1 } : { seconds: 60, runs: 7 }),
+  });
   if (!smoke && rosterImport) {
     list.push({
       title: '7. Growth: import and a grid page at 5,000 / 20,000 / 50,000 students',
