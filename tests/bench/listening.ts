@@ -17,12 +17,17 @@ export async function benchListening(options: {
   const bpm = 100;
   const cycle = pattern('cycle-brisk', { tonic: 'Bb', mode: 'major' }, { instrument: 'clarinet' });
   const cycleSeconds = (cycle.reduce((sum, note) => sum + note.beats, 0) * 60) / bpm;
+  // Whole cycles that end (with a 1.2 s room tail) inside the take, then silence to its length.
   const notes: PatternNote[] = [];
-  while ((notes.length / cycle.length) * cycleSeconds < options.seconds) {
+  while (
+    (notes.length / cycle.length + 1) * cycleSeconds + 0.5 + 4 * (60 / bpm) + 1.2 <=
+    options.seconds
+  ) {
     notes.push(...cycle);
   }
   const take = synthTake(notes, bpm, { leadIn: 0.5 });
-  const samples = take.samples.subarray(0, Math.round(options.seconds * take.sampleRate));
+  const samples = new Float32Array(Math.round(options.seconds * take.sampleRate));
+  samples.set(take.samples.subarray(0, samples.length));
 
   const detector = PitchDetector.forFloat32Array(2048);
   const onePass = () => {

@@ -81,7 +81,7 @@ async function sections(): Promise<Section[]> {
     });
   list.push({
     title: '8. Listening: a take analysed, against one pass of the pitch detector',
-    run: () => benchListening(smoke ? { seconds: 10, runs: 1 } : { seconds: 60, runs: 7 }),
+    run: () => benchListening(smoke ? { seconds: 15, runs: 1 } : { seconds: 60, runs: 7 }),
   });
   if (!smoke && rosterImport) {
     list.push({
