@@ -27,6 +27,7 @@ import { fleetRoutes, agreementPages } from './instruments/fleet-routes';
 import { importsRoutes } from './imports/imports-routes';
 import { ladderRoutes } from './ladder/ladder-routes';
 import { passOffsRoutes } from './pass-offs/pass-offs-routes';
+import { takesRoutes } from './takes/takes-routes';
 import { analyticsRoutes } from './analytics/analytics-routes';
 import { outboxRoutes } from './mail/outbox-routes';
 import { reportsRoutes } from './reports/reports-routes';
@@ -60,6 +61,7 @@ export const featureRoutes: ((services: Services) => Router)[] = [
   gridPreferencesRoutes,
   ladderRoutes,
   passOffsRoutes,
+  takesRoutes,
   analyticsRoutes,
   ...fleetRoutes,
 ];

@@ -42,7 +42,10 @@ export type Capability =
   | 'people:manage'
   | 'tokens:own'
   | 'practice:read'
-  | 'self:read';
+  | 'self:read'
+  | 'takes:own'
+  | 'takes:hear'
+  | 'takes:retention';
 
 const capabilitiesByRole: Record<Role, readonly Capability[]> = {
   coordinator: [
@@ -71,6 +74,8 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'people:manage',
     'tokens:own',
     'practice:read',
+    'takes:hear',
+    'takes:retention',
   ],
   director: [
     'schools:read',
@@ -89,6 +94,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'outbox:read',
     'tokens:own',
     'practice:read',
+    'takes:hear',
   ],
   technician: [
     'schools:read',
@@ -112,7 +118,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'reports:read',
     'practice:read',
   ],
-  student: ['ladder:read', 'practice:read', 'self:read'],
+  student: ['ladder:read', 'practice:read', 'self:read', 'takes:own'],
 };
 
 /** Whether the actor's role grants the capability. */

@@ -4,6 +4,7 @@ import { sql } from 'drizzle-orm';
 import { createApp } from '../../server/app';
 import { rowsOf } from '../../server/db/client';
 import { createLogger } from '../../server/logger';
+import { writeRecordingFile } from '../../server/pass-offs/recordings-store';
 import { hashToken } from '../../server/tokens/token-service';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 
@@ -36,6 +37,7 @@ interface Fixture {
   directorAToken: number;
   activeLadder: number;
   photo: number;
+  sentTake: number;
 }
 
 interface Entry {
@@ -112,6 +114,12 @@ const matrix: Entry[] = [
   { route: 'DELETE /api/pass-offs/:id', codes: 'PP4333', fresh: freshPassOff },
   { route: 'POST /api/pass-offs/:id/recording', codes: 'PP4333', url: (f) => `/api/pass-offs/${f.hpmsPassOff}/recording` },
   { route: 'GET /api/pass-offs/:id/recording', codes: 'PP4344', url: (f) => `/api/pass-offs/${f.hpmsPassOff}/recording` },
+  { route: 'GET /api/takes', codes: 'PPP33P' },
+  { route: 'POST /api/takes', codes: '33333P' },
+  { route: 'POST /api/takes/:id/send', codes: '33333P', url: (f) => `/api/takes/${f.sentTake}/send` },
+  { route: 'GET /api/takes/:id/recording', codes: 'PP433P', url: (f) => `/api/takes/${f.sentTake}/recording` },
+  { route: 'GET /api/settings/take-retention', codes: 'P33333' },
+  { route: 'PUT /api/settings/take-retention', codes: 'P33333', body: () => ({ keep: 'school-year' }) },
   { route: 'GET /api/analytics/overview', codes: 'PPP3P3' },
   { route: 'GET /api/analytics/students', codes: 'PPP3P3' },
   { route: 'GET /api/analytics/audition-ready', codes: 'PPP3P3' },
@@ -281,6 +289,8 @@ beforeAll(async () => {
     directorAToken: (await app.bearer(tokens.directorA).post('/api/tokens', { label: 'matrix: revoked by the test' })).body.id,
     activeLadder: await one(sql`select id from ladder_versions where status = 'published' order by id desc limit 1`),
     photo,
+    // A take the student sent, with its file, so the take routes have something to answer with.
+    sentTake: await one(sql`insert into takes (student_id, requirement_id, tempo_asked, stored_name, content_type, size, analysis, status, sent_at) values (${ownStudent}, 'r1-eb-major', 60, ${writeRecordingFile(app.config.dataDir, wav)}, 'audio/wav', ${wav.length}, '{}'::jsonb, 'sent', now()) returning id`),
   };
 });
 afterAll(() => app?.close());
