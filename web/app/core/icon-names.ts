@@ -80,6 +80,7 @@ export const iconNames = [
   'mark_email_read',
   'schedule_send',
   'event_repeat',
+  'mic',
 ] as const;
 
 export type IconName = (typeof iconNames)[number];

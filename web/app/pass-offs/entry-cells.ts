@@ -62,8 +62,20 @@ function result(passed: boolean, tempo: number): string {
     : `<span class="result not-yet">✕ Not yet ♩${tempo}</span>`;
 }
 
-/** The cell's HTML: a result line that never relies on colour alone, and a status line. */
-export function cellHtml(view: CellView, requirement: LadderRequirement): string {
+/** The marker of a cell with a take the student sent: a note sign and words, not colour alone. */
+const takeMarker =
+  '<span class="take-marker" title="The student sent a take: open the cell to hear it">♪ take sent</span>';
+
+/** The cell's HTML, with the take marker when the student sent a take of it. */
+export function cellHtml(view: CellView, requirement: LadderRequirement, takeSent = false): string {
+  const html = cellContent(view, requirement);
+  return takeSent && view.kind !== 'not-asked'
+    ? `<span class="with-take">${html}${takeMarker}</span>`
+    : html;
+}
+
+/** The cell's content: a result line that never relies on colour alone, and a status line. */
+function cellContent(view: CellView, requirement: LadderRequirement): string {
   switch (view.kind) {
     case 'not-asked':
       return '<span class="not-asked" title="Not asked of this section">—</span>';

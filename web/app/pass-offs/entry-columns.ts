@@ -64,8 +64,8 @@ export function entryColumns(
       flex: 1,
       minWidth: 124,
       valueGetter: (params) => (params.data ? view(params.data, requirement) : null),
-      cellRenderer: (params: ICellRendererParams<EntryRow, CellView>) =>
-        params.value ? cellHtml(params.value, requirement) : '',
+      cellRenderer: (params: ICellRendererParams<EntryRow, CellView & { takeSent?: boolean }>) =>
+        params.value ? cellHtml(params.value, requirement, params.value.takeSent) : '',
       cellClass: 'pass-off-cell',
     })),
   ];

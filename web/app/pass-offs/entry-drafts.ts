@@ -83,6 +83,19 @@ export class EntryDrafts {
   }
 
   /** Changes the note of the cell's draft (starting one from a waiting entry if need be). */
+  /**
+   * Fills a cell's tempo with the tempo heard in a take; whether it passed is left to the
+   * director's P or N.
+   */
+  prefillTempo(target: EntryTarget, tempo: number): void {
+    this.edit(target, (draft) => ({
+      ...draft,
+      typedTempo: String(Math.round(tempo)),
+      problem: '',
+    }));
+    this.lastDigitCell = null;
+  }
+
   setNote(target: EntryTarget, note: string): void {
     this.edit(target, (draft) => ({ ...draft, note }));
   }

@@ -6,6 +6,7 @@ import {
   linkedSignal,
   output,
 } from '@angular/core';
+import { DecimalPipe } from '@angular/common';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -13,6 +14,8 @@ import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import type { LadderRequirement } from '../../../../shared/api/ladder';
 import type { PassOff } from '../../../../shared/api/pass-off';
+import type { Take } from '../../../../shared/api/take';
+import { verdictLabels } from '../../practice/take-panel/take-panel';
 import { dateText } from '../../ladder/date-text';
 import {
   articulationText,
@@ -38,7 +41,14 @@ export interface NoteChange {
  */
 @Component({
   selector: 'tb-cell-panel',
-  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, RouterLink],
+  imports: [
+    DecimalPipe,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    RouterLink,
+  ],
   templateUrl: './cell-panel.html',
   styleUrl: './cell-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -55,12 +65,40 @@ export class CellPanel {
   readonly latest = input<PassOff | null>(null);
   readonly activeVersionId = input<number | null>(null);
   readonly canRemove = input(false);
+  /** Takes the student sent of this requirement, newest first. */
+  readonly takes = input<readonly Take[]>([]);
 
   readonly noteInput = output<string>();
   readonly noteFocus = output<boolean>();
   readonly noteSave = output<NoteChange>();
   readonly removePassOff = output<PassOff>();
   readonly openHistory = output<number>();
+  /** Fill the cell's tempo with the tempo heard in a take. */
+  readonly useTakeTempo = output<number>();
+
+  protected readonly verdictLabels = verdictLabels;
+
+  /**
+   * What the listening aid would suggest, in words: passed when every note was in tune and the
+   * tempo held; the director decides.
+   */
+  protected suggestion(take: Take): string {
+    const { analysis, tempoAsked } = take;
+    const kept = analysis.tempo !== null && analysis.tempo >= tempoAsked - 2;
+    return analysis.pitchAccuracy === 1 && analysis.extraNotes === 0 && kept
+      ? 'The aid suggests: passed'
+      : 'The aid suggests: not yet';
+  }
+
+  protected inTune(take: Take): number {
+    return take.analysis.notes.filter((note) => note.verdict === 'ok').length;
+  }
+
+  protected flagged(take: Take) {
+    return take.analysis.notes
+      .map((note, index) => ({ ...note, number: index + 1 }))
+      .filter((note) => note.verdict !== 'ok');
+  }
 
   protected readonly mode = computed(() => {
     const entry = this.entry();

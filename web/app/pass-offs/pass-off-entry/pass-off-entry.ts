@@ -51,6 +51,7 @@ import { StudentHistory } from '../student-history/student-history';
 import { entryGridModules } from './entry-grid-modules';
 import { EnsembleSheet } from './ensemble-sheet';
 import { queueBanner } from './entry-sheet';
+import { SentTakes } from '../sent-takes';
 
 /**
  * Pass-offs: a director's entry grid, the students of one ensemble against the requirements of
@@ -71,7 +72,7 @@ import { queueBanner } from './entry-sheet';
     CellPanel,
     StudentHistory,
   ],
-  providers: [EntryDrafts, EnsembleSheet],
+  providers: [EntryDrafts, EnsembleSheet, SentTakes],
   templateUrl: './pass-off-entry.html',
   styleUrl: './pass-off-entry.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -86,6 +87,7 @@ export class PassOffEntry {
   private readonly destroyRef = inject(DestroyRef);
   protected readonly queue = inject(PassOffQueue);
   protected readonly drafts = inject(EntryDrafts);
+  private readonly takes = inject(SentTakes);
   private api: GridApi<EntryRow> | null = null;
 
   /** The `ensemble` query parameter: the ensemble's id. */
@@ -151,6 +153,7 @@ export class PassOffEntry {
       entry: this.drafts.entriesByCell().get(key) ?? null,
       heard,
       latest: heard[0] ?? null,
+      takes: this.takes.byCell().get(key) ?? [],
       instrumentId: this.sheet.instruments().get(row.studentId) ?? null,
     };
   });
@@ -185,6 +188,7 @@ export class PassOffEntry {
       this.drafts.drafts();
       this.drafts.entriesByCell();
       this.sheet.existing();
+      this.takes.byCell();
       this.api?.refreshCells({ force: true });
     });
     this.queue.saved.pipe(takeUntilDestroyed()).subscribe((rows) => this.merge(rows));
@@ -317,7 +321,29 @@ export class PassOffEntry {
     });
   }
 
-  private cellView(row: EntryRow, requirement: LadderRequirement): CellView {
+  private cellView(
+    row: EntryRow,
+    requirement: LadderRequirement,
+  ): CellView & { takeSent?: boolean } {
+    const view = this.cellViewWithoutTake(row, requirement);
+    const takeSent = this.takes.byCell().has(cellKey(row.studentId, requirement.code));
+    return takeSent ? { ...view, takeSent } : view;
+  }
+
+  /** Fills the focused cell's tempo with the tempo heard in a take. */
+  protected prefillFromTake(tempo: number): void {
+    const cell = this.focusedCell();
+    if (!cell) return;
+    this.drafts.prefillTempo(
+      { studentId: cell.row.studentId, requirement: cell.requirement },
+      tempo,
+    );
+    this.announce(
+      `Tempo ${Math.round(tempo)} filled in from the take. Press P if it passed, N if not yet.`,
+    );
+  }
+
+  private cellViewWithoutTake(row: EntryRow, requirement: LadderRequirement): CellView {
     if (!appliesToFamily(requirement, row.family)) return { kind: 'not-asked' };
     const key = cellKey(row.studentId, requirement.code);
     const draft = this.drafts.drafts().get(key);

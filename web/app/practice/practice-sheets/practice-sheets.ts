@@ -21,6 +21,7 @@ import { buildSheet, type ReadySheet } from '../sheet';
 import { SheetForm } from '../sheet-form/sheet-form';
 import { parseSheetRequest, toSheetQuery, type SheetRequest } from '../sheet-request';
 import { Staff } from '../staff/staff';
+import { TakePanel } from '../take-panel/take-panel';
 
 /** What the page shows below the form: the sheet, the band set or the printable plan. */
 export type PracticeView = 'sheet' | 'band-set' | 'plan';
@@ -43,6 +44,7 @@ export type PracticeView = 'sheet' | 'band-set' | 'plan';
     BandSet,
     PlanPanel,
     PlanPrint,
+    TakePanel,
   ],
   templateUrl: './practice-sheets.html',
   styleUrl: './practice-sheets.scss',
@@ -68,6 +70,8 @@ export class PracticeSheets {
   readonly view = input<string>();
   /** 'orchestra' for a string orchestra's set; a band's otherwise. */
   readonly ensemble = input<string>();
+  /** The ladder requirement the sheet is for (its code), so a take of it can be sent. */
+  readonly requirementCode = input<string>();
   /** The practice-plan step on the sheet, if any. */
   readonly step = input<string>();
 

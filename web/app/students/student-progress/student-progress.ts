@@ -117,7 +117,10 @@ export class StudentProgress {
   }
 
   protected practiceLink(requirement: LadderRequirement): Record<string, string> {
-    return practiceQuery(requirement, this.instrumentId());
+    return {
+      ...practiceQuery(requirement, this.instrumentId()),
+      requirementCode: requirement.code,
+    };
   }
 
   protected scaleText(passOff: PassOff): string {
