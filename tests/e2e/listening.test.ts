@@ -74,19 +74,74 @@ describe('The listening aid in the browser', () => {
     await page.getByTestId('take-send').click();
     await page.getByTestId('take-sent').waitFor();
 
-    // The director of the student's school now finds it, with the analysis the student saw.
-    const director = await context.browser()!.newContext();
-    const directorPage = await director.newPage();
-    await signInAs(directorPage, app.url, demoEmail('director.hpms'));
-    const takes = (await (await directorPage.request.get(`${app.url}/api/takes`)).json()) as {
+    await saveScreenshot(page, 'listening-sent');
+    const studentId = (
+      (await (await page.request.get(`${app.url}/api/me`)).json()) as {
+        studentId: number;
+      }
+    ).studentId;
+
+    // The director of the student's school finds it, with the analysis the student saw.
+    const directorApi = await app.signIn(demoEmail('director.hpms'));
+    const takes = (await directorApi.get('/api/takes')).body as {
       status: string;
       requirementCode: string;
-      analysis: { notes: { verdict: string }[] };
+      analysis: { tempo: number; notes: { verdict: string }[] };
     }[];
     expect(takes).toHaveLength(1);
     expect(takes[0]).toMatchObject({ status: 'sent', requirementCode: 'r1-eb-major' });
     expect(takes[0]!.analysis.notes[2]!.verdict).toBe('out-of-tune');
-    await director.close();
+
+    // The student's row in an ensemble's entry grid: active seats in the ensemble's order.
+    const ensembles = (await directorApi.get('/api/ensembles?limit=100&sort=name:asc')).body
+      .rows as { id: number }[];
+    let place: { ensembleId: number; rowIndex: number } | undefined;
+    for (const ensemble of ensembles) {
+      const detail = (await directorApi.get(`/api/ensembles/${ensemble.id}`)).body as {
+        members: { studentId: number; active: boolean }[];
+      };
+      const seen = new Set<number>();
+      const rows = detail.members.filter(
+        (member) => member.active && !seen.has(member.studentId) && seen.add(member.studentId),
+      );
+      const rowIndex = rows.findIndex((member) => member.studentId === studentId);
+      if (rowIndex >= 0) {
+        place = { ensembleId: ensemble.id, rowIndex };
+        break;
+      }
+    }
+    expect(place).toBeDefined();
+
+    const directorContext = await browser.newContext({ viewport: { width: 1360, height: 900 } });
+    const grid = await directorContext.newPage();
+    await signInAs(
+      grid,
+      app.url,
+      demoEmail('director.hpms'),
+      `/pass-offs?ensemble=${place!.ensembleId}&rung=1`,
+    );
+    const cell = (rowIndex: number) =>
+      grid.locator(`[role=row][row-index="${rowIndex}"] [role=gridcell][col-id="r1-eb-major"]`);
+    await cell(0).waitFor({ timeout: 30_000 });
+    await cell(0).click();
+    await grid.mouse.move(1, 1);
+    for (let step = 0; step < place!.rowIndex; step++) await grid.keyboard.press('ArrowDown');
+    await expect
+      .poll(() => cell(place!.rowIndex).innerText(), { timeout: 20_000 })
+      .toMatch(/take sent/);
+    const heard = grid.getByTestId('cell-take');
+    await heard.waitFor();
+    expect(await heard.innerText()).toMatch(/6 of 7 notes in tune/);
+    expect(await grid.getByTestId('take-suggestion').innerText()).toMatch(/not yet — you decide/);
+    await grid.getByTestId('take-prefill').click();
+    const tempoHeard = Math.round(takes[0]!.analysis.tempo);
+    await expect
+      .poll(() => cell(place!.rowIndex).innerText(), { timeout: 20_000 })
+      .toMatch(new RegExp(`♩${tempoHeard}`));
+    // Passed or not is the director's key to press: the cell waits for P or N.
+    expect(await cell(place!.rowIndex).innerText()).toMatch(/P passed · N not yet/);
+    await saveScreenshot(grid, 'listening-director-cell');
+    await directorContext.close();
     await context.close();
   });
 });
