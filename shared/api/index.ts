@@ -19,4 +19,3 @@ export * from './count';
 export * from './planning';
 export * from './report';
 export * from './import';
-export * from './take';
