@@ -6,7 +6,6 @@ import {
   linkedSignal,
   output,
 } from '@angular/core';
-import { DecimalPipe } from '@angular/common';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -41,14 +40,7 @@ export interface NoteChange {
  */
 @Component({
   selector: 'tb-cell-panel',
-  imports: [
-    DecimalPipe,
-    MatButtonModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatInputModule,
-    RouterLink,
-  ],
+  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, RouterLink],
   templateUrl: './cell-panel.html',
   styleUrl: './cell-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -88,6 +80,10 @@ export class CellPanel {
     return analysis.pitchAccuracy === 1 && analysis.extraNotes === 0 && kept
       ? 'The aid suggests: passed'
       : 'The aid suggests: not yet';
+  }
+
+  protected wholeTempo(tempo: number): number {
+    return Math.round(tempo);
   }
 
   protected inTune(take: Take): number {
