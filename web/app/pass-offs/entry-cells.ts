@@ -64,7 +64,7 @@ function result(passed: boolean, tempo: number): string {
 
 /** The marker of a cell with a take the student sent: a note sign and words, not colour alone. */
 const takeMarker =
-  '<span class="take-marker" title="The student sent a take: open the cell to hear it">♪ take sent</span>';
+  '<span class="take-marker" title="Take sent: the student sent a take, open the cell to hear it" aria-label="take sent">♪ take</span>';
 
 /** The cell's HTML, with the take marker when the student sent a take of it. */
 export function cellHtml(view: CellView, requirement: LadderRequirement, takeSent = false): string {

@@ -82,8 +82,9 @@ export class CellPanel {
       : 'The aid suggests: not yet';
   }
 
-  protected wholeTempo(tempo: number): number {
-    return Math.round(tempo);
+  /** A tempo or a number of cents, whole. */
+  protected wholeTempo(value: number): number {
+    return Math.round(value);
   }
 
   protected inTune(take: Take): number {
