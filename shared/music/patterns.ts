@@ -65,9 +65,10 @@ export class PatternRangeError extends Error {
  * sounding notes of that same placement, spelled in the concert key (a tuba's concert Bb
  * scale starts on Bb1).
  *
- * Articulation: 'tongued' slurs nothing; 'slurred' tongues the first note of each run (up,
- * down) and slurs the rest of the run to it; 'tongue-up-slur-down' tongues every note of a
- * rising run and slurs every note of a falling run to the note before it.
+ * Articulation: 'tongued' slurs nothing; 'slurred' tongues the turning note that starts each
+ * run (the first tonic, the top, the tonic the arpeggio starts from) and slurs the rest of the
+ * run to it, so a falling run is one slur from its top note down; 'tongue-up-slur-down' tongues
+ * every rising note, the top included, and slurs every falling note to the note before it.
  */
 export function pattern(id: PatternId, key: Key, options: PatternOptions = {}): PatternNote[] {
   checkKey(key);
@@ -138,13 +139,23 @@ function fitsIn(outline: OutlineNote[], range: NoteRange): boolean {
   return outline.every(({ note }) => midi(note) >= lowest && midi(note) <= highest);
 }
 
+/*
+ * Articulation. A slur begins on a tongued note, so each run of the pattern is slurred from its
+ * turning note: "slurred" tongues the first tonic, the top note and the tonic where the
+ * arpeggio starts, and slurs the rest of each run to them, so a falling run is slurred whole
+ * from its top note down (common practice, no source: a new slur starts where the line turns).
+ * "tongue-up-slur-down" tongues every note reached going up, the top included, and slurs every
+ * note reached coming down to the note before it (the tonic the scale comes down to as well).
+ */
 function articulate(outline: OutlineNote[], articulation: Articulation): PatternNote[] {
-  return outline.map(({ note, beats, group, direction }, index) => {
+  return outline.map(({ note, beats, group }, index) => {
     const startsRun = index === 0 || outline[index - 1].group !== group;
     const slurred =
       articulation === 'slurred'
         ? !startsRun
-        : articulation === 'tongue-up-slur-down' && direction === 'down';
+        : articulation === 'tongue-up-slur-down' &&
+          index > 0 &&
+          midi(note) < midi(outline[index - 1].note);
     return { note, beats, slurred };
   });
 }
