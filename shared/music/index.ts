@@ -51,5 +51,6 @@ export {
   type PatternOptions,
   type PatternPitch,
 } from './patterns';
+export { clefWords, sheetClefs, type StaffClef } from './clefs';
 export { toMusicXml, type MusicXmlOptions } from './musicxml';
 export { practicePlan, type PracticeRequirement, type PracticeStep } from './practice-plan';

@@ -80,10 +80,11 @@ describe('the practice patterns as a director writes them', () => {
         .join(' '),
     ).toBe(bMajor);
     // tonal (npm), an independent library: the scale's notes are B major's.
-    expect(names(notes).slice(0, 8).map((note) => note.replace(/\d/, ''))).toEqual([
-      ...Scale.get('B major').notes,
-      'B',
-    ]);
+    expect(
+      names(notes)
+        .slice(0, 8)
+        .map((note) => note.replace(/\d/, '')),
+    ).toEqual([...Scale.get('B major').notes, 'B']);
     // Common practice, no source: the last tonic fills the bar, a whole note after 24 beats.
     expect(notes.at(-1)?.beats).toBe(4);
     expect(notes.reduce((sum, { beats }) => sum + beats, 0)).toBe(28);
@@ -162,18 +163,15 @@ describe('the practice patterns as a director writes them', () => {
 
   it('should slur the whole falling run from the top note down when slurred', () => {
     fc.assert(
-      fc.property(
-        fc.constantFrom(...placed),
-        ({ instrument, key, id, octaves }) => {
-          const notes = pattern(id, key, { instrument, octaves, articulation: 'slurred' });
-          const turns = new Set(turningIndexes(notes));
-          notes.forEach(({ slurred }, index) => {
-            // Common practice, no source: a slur begins on a tongued turning note and holds
-            // every other note of its run, so the 7th degree coming down is not re-tongued.
-            expect(slurred).toBe(!turns.has(index));
-          });
-        },
-      ),
+      fc.property(fc.constantFrom(...placed), ({ instrument, key, id, octaves }) => {
+        const notes = pattern(id, key, { instrument, octaves, articulation: 'slurred' });
+        const turns = new Set(turningIndexes(notes));
+        notes.forEach(({ slurred }, index) => {
+          // Common practice, no source: a slur begins on a tongued turning note and holds
+          // every other note of its run, so the 7th degree coming down is not re-tongued.
+          expect(slurred).toBe(!turns.has(index));
+        });
+      }),
       { numRuns: 600 },
     );
   });
