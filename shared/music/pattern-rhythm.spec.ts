@@ -63,6 +63,9 @@ function turningIndexes(notes: PatternNote[]): number[] {
 }
 
 const cases = everyCase();
+const strings = new Set(
+  instruments.filter(({ family }) => family === 'strings').map(({ id }) => id),
+);
 const placed = cases.flatMap((item) => {
   const notes = notesOf(item);
   return notes ? [{ ...item, notes }] : [];
@@ -169,7 +172,12 @@ describe('the practice patterns as a director writes them', () => {
         notes.forEach(({ slurred }, index) => {
           // Common practice, no source: a slur begins on a tongued turning note and holds
           // every other note of its run, so the 7th degree coming down is not re-tongued.
-          expect(slurred).toBe(!turns.has(index));
+          // A string player's slur is one bow, changed within the run where it grows long.
+          if (strings.has(instrument)) {
+            if (turns.has(index)) expect(slurred).toBe(false);
+          } else {
+            expect(slurred).toBe(!turns.has(index));
+          }
         });
       }),
       { numRuns: 600 },
@@ -186,12 +194,42 @@ describe('the practice patterns as a director writes them', () => {
         });
         notes.forEach(({ note, slurred }, index) => {
           const falling = index > 0 && midi(note) < midi(notes[index - 1].note);
-          // Common practice, no source: tongue every rising note, slur every falling one.
-          expect(slurred).toBe(falling);
+          // Common practice, no source: tongue every rising note, slur every falling one (on a
+          // string instrument, separate bows up and slurred bows down, changed when long).
+          if (strings.has(instrument)) {
+            if (!falling) expect(slurred).toBe(false);
+          } else {
+            expect(slurred).toBe(falling);
+          }
         });
       }),
       { numRuns: 600 },
     );
+  });
+
+  it('should give a string player no more than a bar in one bow when a passage is slurred', () => {
+    const wrong: string[] = [];
+    for (const item of placed) {
+      if (!strings.has(item.instrument)) continue;
+      for (const articulation of ['slurred', 'tongue-up-slur-down'] as const) {
+        const notes = notesOf(item, { articulation }) as PatternNote[];
+        let bow = 0;
+        notes.forEach(({ beats, slurred }) => {
+          bow = slurred ? bow + beats : beats;
+          // Common practice, no source: a school player manages about a bar (four beats) in
+          // one bow; the old sheets asked for 15 beats.
+          if (bow > 4)
+            wrong.push(`${item.instrument} ${item.key.tonic} ${item.id} ${articulation}`);
+        });
+        if (
+          item.id === 'cycle-brisk' &&
+          notes.filter(({ slurred }) => slurred).length < notes.length / 2
+        ) {
+          wrong.push(`${item.instrument} ${item.key.tonic} brisk: too few slurred notes`);
+        }
+      }
+    }
+    expect(wrong.slice(0, 5)).toEqual([]);
   });
 
   it('should keep the concert and written notes of every articulation in step', () => {

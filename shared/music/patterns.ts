@@ -68,7 +68,8 @@ export class PatternRangeError extends Error {
  * Articulation: 'tongued' slurs nothing; 'slurred' tongues the turning note that starts each
  * run (the first tonic, the top, the tonic the arpeggio starts from) and slurs the rest of the
  * run to it, so a falling run is one slur from its top note down; 'tongue-up-slur-down' tongues
- * every rising note, the top included, and slurs every falling note to the note before it.
+ * every rising note, the top included, and slurs every falling note to the note before it. On
+ * a string instrument no slur (one bow) holds more than a bar.
  */
 export function pattern(id: PatternId, key: Key, options: PatternOptions = {}): PatternNote[] {
   checkKey(key);
@@ -99,7 +100,28 @@ export function pattern(id: PatternId, key: Key, options: PatternOptions = {}): 
     const sounding = midi(chosen.tonic) + transpositionSize(instrument.id).semitones;
     outline = patternOutline(id, key, spellAtMidi(key.tonic, sounding), octaves);
   }
-  return articulate(outline, articulation);
+  const notes = articulate(outline, articulation);
+  return instrument.family === 'strings' ? withBowChanges(notes) : notes;
+}
+
+/** The most beats a school string player is asked to take in one bow (common practice, no source). */
+const beatsPerBow = 4;
+
+/**
+ * A slur on a string instrument is one bow. A long slur is broken where it would hold more than
+ * a bar (four beats: four seconds at quarter = 60) so a school player changes bow in time; the
+ * note after the break starts a new slur, and a whole note takes a bow of its own.
+ */
+function withBowChanges(notes: PatternNote[]): PatternNote[] {
+  let inBow = 0;
+  return notes.map((note) => {
+    if (note.slurred && inBow + note.beats <= beatsPerBow) {
+      inBow += note.beats;
+      return note;
+    }
+    inBow = note.beats;
+    return { ...note, slurred: false };
+  });
 }
 
 /** How long a pattern lasts in seconds with the quarter note at `bpm` beats per minute. */
