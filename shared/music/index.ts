@@ -54,3 +54,15 @@ export {
 export { clefWords, sheetClefs, type StaffClef } from './clefs';
 export { toMusicXml, type MusicXmlOptions } from './musicxml';
 export { practicePlan, type PracticeRequirement, type PracticeStep } from './practice-plan';
+export {
+  levelOfGrade,
+  levelReach,
+  patternForLevel,
+  schoolLevelNames,
+  schoolLevels,
+  schoolRange,
+  schoolRanges,
+  type LevelReach,
+  type ReachRequest,
+  type SchoolLevel,
+} from './school-ranges';

@@ -82,18 +82,40 @@ export function pattern(id: PatternId, key: Key, options: PatternOptions = {}): 
   const articulation = options.articulation ?? 'tongued';
   checkOptions(pitch, octaves, articulation);
 
+  const notes = placedPattern(id, key, instrument, pitch, octaves, articulation, [
+    instrument.beginnerRange,
+    instrument.range,
+  ]);
+  if (!notes) throw new PatternRangeError(id, key, instrument, octaves);
+  return notes;
+}
+
+/**
+ * The pattern placed at the lowest octave of the written tonic that lies inside the first of
+ * `ranges` that has one (written notes), or null when none does. Shared by `pattern` and the
+ * school-level placement.
+ */
+export function placedPattern(
+  id: PatternId,
+  key: Key,
+  instrument: InstrumentSpec,
+  pitch: PatternPitch,
+  octaves: 1 | 2,
+  articulation: Articulation,
+  ranges: NoteRange[],
+): PatternNote[] | null {
   const written = writtenKey(key, instrument.id);
   const placements: { tonic: string; outline: OutlineNote[] }[] = [];
   for (let octave = 0; octave <= 8; octave += 1) {
     const tonic = `${written.tonic}${octave}`;
-    const outline = patternOutline(id, written, tonic, octaves);
-    if (fitsIn(outline, instrument.range)) placements.push({ tonic, outline });
+    placements.push({ tonic, outline: patternOutline(id, written, tonic, octaves) });
   }
-  if (placements.length === 0) {
-    throw new PatternRangeError(id, key, instrument, octaves);
+  let chosen: (typeof placements)[number] | undefined;
+  for (const range of ranges) {
+    chosen = placements.find(({ outline }) => fitsIn(outline, range));
+    if (chosen) break;
   }
-  const chosen =
-    placements.find(({ outline }) => fitsIn(outline, instrument.beginnerRange)) ?? placements[0];
+  if (!chosen) return null;
 
   let outline = chosen.outline;
   if (pitch === 'concert') {

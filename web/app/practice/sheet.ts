@@ -4,12 +4,15 @@ import {
   instrumentById,
   keyName,
   keySignature,
+  levelReach,
+  schoolLevels,
   pattern,
   PatternRangeError,
   sheetClefs,
   writtenKey,
   type InstrumentSpec,
   type Key,
+  type LevelReach,
   type PatternNote,
   type StaffClef,
 } from '../../../shared/music';
@@ -45,6 +48,8 @@ export interface ReadySheet {
   caption: string;
   /** 'about 17 s at ♩ = 100'. */
   durationText: string;
+  /** Whether the requirement fits an elementary, middle and high school player's range. */
+  levels: LevelReach[];
 }
 
 /** A request the instrument cannot play: no octave of the pattern fits its range. */
@@ -106,6 +111,13 @@ export function buildSheet(request: SheetRequest): Sheet {
     staff: { notes, clef, clefs, fifths: keySignature(sheetKey), tempo: request.tempo },
     concertNotes,
     caption,
+    levels: schoolLevels.map((level) =>
+      levelReach(
+        { pattern: request.pattern, key: concertKey, octaves: request.octaves },
+        instrument.id,
+        level,
+      ),
+    ),
     durationText: `about ${secondsText(durationSeconds(concertNotes, request.tempo))} at ♩ = ${request.tempo}`,
   };
 }
