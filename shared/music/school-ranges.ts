@@ -97,9 +97,11 @@ export const schoolRanges: Record<string, Record<SchoolLevel, NoteRange>> = {
     middle: { lowest: 'F#3', highest: 'G5' },
     high: { lowest: 'F#3', highest: 'C6' },
   },
+  // Elementary players reach written F5, so the first band scale (concert Bb, written F4–F5)
+  // fits.
   horn: {
-    elementary: { lowest: 'G3', highest: 'C5' },
-    middle: { lowest: 'G3', highest: 'F5' },
+    elementary: { lowest: 'G3', highest: 'F5' },
+    middle: { lowest: 'G3', highest: 'G5' },
     high: { lowest: 'F#3', highest: 'A5' },
   },
   trombone: {
@@ -182,7 +184,9 @@ export function schoolRange(instrumentId: string, level: SchoolLevel): NoteRange
 
 /**
  * The pattern placed for a player at a school level: the lowest octave whose written notes lie
- * inside that level's range, or null when no octave does ("cannot fit this level").
+ * inside both that level's range and the instrument's beginner range (where the sheet places
+ * it), else the lowest inside the level's range, or null when no octave fits the level
+ * ("cannot fit this level").
  */
 export function patternForLevel(
   request: ReachRequest,
@@ -192,6 +196,12 @@ export function patternForLevel(
 ): PatternNote[] | null {
   checkKey(request.key);
   const instrument = instrumentById(instrumentId);
+  const range = schoolRange(instrument.id, level);
+  // The octave the sheet itself prefers (inside the beginner's range) when the level allows it.
+  const preferred: NoteRange = {
+    lowest: higher(range.lowest, instrument.beginnerRange.lowest),
+    highest: lower(range.highest, instrument.beginnerRange.highest),
+  };
   return placedPattern(
     request.pattern,
     request.key,
@@ -199,7 +209,7 @@ export function patternForLevel(
     options.pitch ?? 'written',
     request.octaves,
     options.articulation ?? 'tongued',
-    [schoolRange(instrument.id, level)],
+    [preferred, range],
   );
 }
 
@@ -228,7 +238,8 @@ export function levelReach(
 function cannotFit(request: ReachRequest, instrument: InstrumentSpec, level: SchoolLevel): string {
   const range = schoolRange(instrument.id, level);
   const what = `${request.octaves === 2 ? 'two octaves' : 'one octave'} of concert ${keyName(request.key)}`;
-  const who = `a ${schoolLevelNames[level].replace(' school', '-school')} ${instrumentWords(instrument)}`;
+  const levelWords = schoolLevelNames[level].replace(' school', '-school');
+  const who = `${level === 'elementary' ? 'an' : 'a'} ${levelWords} ${instrumentWords(instrument)}`;
   const widest = placedPattern(
     request.pattern,
     request.key,
@@ -249,6 +260,14 @@ function cannotFit(request: ReachRequest, instrument: InstrumentSpec, level: Sch
       ? `needs written ${high}; the range ends at ${range.highest}`
       : `needs written ${low}; the range starts at ${range.lowest}`;
   return `Cannot fit this level: ${what} for ${who} ${need} (${schoolLevelNames[level]} range written ${range.lowest}–${range.highest}).`;
+}
+
+function higher(a: string, b: string): string {
+  return midi(a) >= midi(b) ? a : b;
+}
+
+function lower(a: string, b: string): string {
+  return midi(a) <= midi(b) ? a : b;
 }
 
 /** 'piccolo', 'French horn': an instrument's name as it reads inside a sentence. */
