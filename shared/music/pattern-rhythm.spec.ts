@@ -91,7 +91,7 @@ describe('the practice patterns as a director writes them', () => {
     // Common practice, no source: the last tonic fills the bar, a whole note after 24 beats.
     expect(notes.at(-1)?.beats).toBe(4);
     expect(notes.reduce((sum, { beats }) => sum + beats, 0)).toBe(28);
-  });
+  }, 60_000);
 
   it('should never play the same note twice in a row when any cycle is placed', () => {
     const repeated = placed.filter(
@@ -102,7 +102,7 @@ describe('the practice patterns as a director writes them', () => {
     expect(repeated.map(({ instrument, key, id }) => `${instrument} ${key.tonic} ${id}`)).toEqual(
       [],
     );
-  });
+  }, 60_000);
 
   it('should end every pattern on a full bar and cross no bar line when placed anywhere', () => {
     const wrong: string[] = [];
@@ -118,7 +118,7 @@ describe('the practice patterns as a director writes them', () => {
     }
     expect(placed.length).toBeGreaterThan(10_000);
     expect(wrong.slice(0, 5)).toEqual([]);
-  });
+  }, 60_000);
 
   it('should run through the middle tonic at the running value when the pattern spans two octaves', () => {
     const wrong: string[] = [];
@@ -133,7 +133,7 @@ describe('the practice patterns as a director writes them', () => {
       });
     }
     expect(wrong.slice(0, 5)).toEqual([]);
-  });
+  }, 60_000);
 
   it('should beam every eighth of the brisk cycle in pairs on the beat when placed anywhere', () => {
     const wrong: string[] = [];
@@ -153,7 +153,7 @@ describe('the practice patterns as a director writes them', () => {
       }
     }
     expect(wrong.slice(0, 5)).toEqual([]);
-  });
+  }, 60_000);
 
   it('should put no top tonic on an off-beat quarter when the brisk cycle is chromatic', () => {
     const notes = pattern('cycle-brisk', { tonic: 'C', mode: 'chromatic' });
@@ -162,7 +162,7 @@ describe('the practice patterns as a director writes them', () => {
       if (beats >= 1) expect(Number.isInteger(offset)).toBe(true);
       offset += beats;
     }
-  });
+  }, 60_000);
 
   it('should slur the whole falling run from the top note down when slurred', () => {
     fc.assert(
@@ -182,7 +182,7 @@ describe('the practice patterns as a director writes them', () => {
       }),
       { numRuns: 600 },
     );
-  });
+  }, 60_000);
 
   it('should tongue rising notes and slur falling ones when tongue up, slur down', () => {
     fc.assert(
@@ -205,7 +205,7 @@ describe('the practice patterns as a director writes them', () => {
       }),
       { numRuns: 600 },
     );
-  });
+  }, 60_000);
 
   it('should give a string player no more than a bar in one bow when a passage is slurred', () => {
     const wrong: string[] = [];
@@ -231,7 +231,7 @@ describe('the practice patterns as a director writes them', () => {
       }
     }
     expect(wrong.slice(0, 5)).toEqual([]);
-  });
+  }, 60_000);
 
   it('should keep the concert and written notes of every articulation in step', () => {
     fc.assert(
