@@ -36,7 +36,7 @@ export function levelOfGrade(grade: number): SchoolLevel {
  * confirmed against a published school method before they are relied on. An instrument's
  * `range` (where patterns are placed) stays the widest a school sheet is drawn in; the high
  * school range may be narrower where `range` reaches notes few high-school players have
- * (piccolo and flute to C7, horn to C6, tuba's E1, double bass in thumb position to C5).
+ * (piccolo to C7, horn to C6, tuba's E1, double bass in thumb position to C5).
  * Keyboard percussion ranges are the instrument's bars, the same at every level, except that a
  * young player keeps to the two middle octaves.
  */
@@ -49,7 +49,7 @@ export const schoolRanges: Record<string, Record<SchoolLevel, NoteRange>> = {
   flute: {
     elementary: { lowest: 'C4', highest: 'C6' },
     middle: { lowest: 'C4', highest: 'G6' },
-    high: { lowest: 'C4', highest: 'A6' },
+    high: { lowest: 'C4', highest: 'C7' },
   },
   oboe: {
     elementary: { lowest: 'C4', highest: 'C6' },
@@ -61,14 +61,14 @@ export const schoolRanges: Record<string, Record<SchoolLevel, NoteRange>> = {
     middle: { lowest: 'Bb1', highest: 'A4' },
     high: { lowest: 'Bb1', highest: 'D5' },
   },
-  // Elementary players stay at or just over the break (written Bb4 to C5).
+  // Elementary players cross the break (written Bb4 to B4) to G5 at the top of the staff.
   clarinet: {
-    elementary: { lowest: 'E3', highest: 'C5' },
+    elementary: { lowest: 'E3', highest: 'G5' },
     middle: { lowest: 'E3', highest: 'C6' },
     high: { lowest: 'E3', highest: 'G6' },
   },
   'bass-clarinet': {
-    elementary: { lowest: 'E3', highest: 'C5' },
+    elementary: { lowest: 'E3', highest: 'G5' },
     middle: { lowest: 'E3', highest: 'G5' },
     high: { lowest: 'Eb3', highest: 'C6' },
   },
@@ -93,7 +93,7 @@ export const schoolRanges: Record<string, Record<SchoolLevel, NoteRange>> = {
     high: { lowest: 'Bb3', highest: 'F6' },
   },
   trumpet: {
-    elementary: { lowest: 'C4', highest: 'D5' },
+    elementary: { lowest: 'G3', highest: 'G5' },
     middle: { lowest: 'F#3', highest: 'G5' },
     high: { lowest: 'F#3', highest: 'C6' },
   },
@@ -107,18 +107,18 @@ export const schoolRanges: Record<string, Record<SchoolLevel, NoteRange>> = {
   trombone: {
     elementary: { lowest: 'F2', highest: 'F4' },
     middle: { lowest: 'E2', highest: 'Bb4' },
-    high: { lowest: 'E2', highest: 'D5' },
+    high: { lowest: 'E2', highest: 'F5' },
   },
   euphonium: {
     elementary: { lowest: 'F2', highest: 'F4' },
     middle: { lowest: 'E2', highest: 'Bb4' },
-    high: { lowest: 'E2', highest: 'D5' },
+    high: { lowest: 'E2', highest: 'F5' },
   },
   // The bass-clef ranges written a major 9th higher.
   'euphonium-tc': {
     elementary: { lowest: 'G3', highest: 'G5' },
     middle: { lowest: 'F#3', highest: 'C6' },
-    high: { lowest: 'F#3', highest: 'E6' },
+    high: { lowest: 'F#3', highest: 'G6' },
   },
   tuba: {
     elementary: { lowest: 'Bb1', highest: 'Bb3' },
@@ -156,11 +156,12 @@ export const schoolRanges: Record<string, Record<SchoolLevel, NoteRange>> = {
     middle: { lowest: 'C2', highest: 'A4' },
     high: { lowest: 'C2', highest: 'C5' },
   },
-  // Written; the bass sounds an octave lower. Thumb position (to C5) is beyond high school.
+  // Written; the bass sounds an octave lower. Elementary players use the lower positions to D4
+  // (third position on the G string); C5 in thumb position is beyond high school.
   'double-bass': {
-    elementary: { lowest: 'E2', highest: 'A3' },
-    middle: { lowest: 'E2', highest: 'D4' },
-    high: { lowest: 'E2', highest: 'G4' },
+    elementary: { lowest: 'E2', highest: 'D4' },
+    middle: { lowest: 'E2', highest: 'G4' },
+    high: { lowest: 'E2', highest: 'Bb4' },
   },
 };
 
