@@ -173,7 +173,7 @@ describe('pattern', () => {
         }
       }
     }
-  });
+  }, 30_000);
 
   it('should throw a PatternRangeError when no octave fits the range', () => {
     const forced = () =>
