@@ -148,7 +148,7 @@ describe('Scale ladder screen', () => {
     // The demo ladder expects grade 10 to reach rung 5, whose two-octave concert F takes the
     // horn to written C6, beyond a high-school horn (common practice, no source).
     const reach = page.getByTestId('reach-warnings');
-    await reach.evaluate((details) => details.setAttribute('open', ''));
+    await reach.locator('summary').click();
     await expect.poll(() => reach.innerText()).toContain('Rung 5, concert F major (two octaves)');
     expect(await reach.innerText()).toContain('French Horn: Cannot fit this level');
     await reach.scrollIntoViewIfNeeded();
