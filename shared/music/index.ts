@@ -51,5 +51,18 @@ export {
   type PatternOptions,
   type PatternPitch,
 } from './patterns';
+export { clefWords, sheetClefs, type StaffClef } from './clefs';
 export { toMusicXml, type MusicXmlOptions } from './musicxml';
 export { practicePlan, type PracticeRequirement, type PracticeStep } from './practice-plan';
+export {
+  levelOfGrade,
+  levelReach,
+  patternForLevel,
+  schoolLevelNames,
+  schoolLevels,
+  schoolRange,
+  schoolRanges,
+  type LevelReach,
+  type ReachRequest,
+  type SchoolLevel,
+} from './school-ranges';

@@ -1,3 +1,4 @@
+import { sheetClefs, type StaffClef } from './clefs';
 import { instrumentById, transpositionSize } from './instruments';
 import type { InstrumentSpec } from './instrument-data';
 import { isMinor, keySignature, type Key } from './keys';
@@ -45,7 +46,8 @@ const sharpOrder: Letter[] = ['F', 'C', 'G', 'D', 'A', 'E', 'B'];
 /**
  * A MusicXML 4.0 partwise document of one practice pattern, following the W3C Music Notation
  * Community Group's schema: 4/4 measures, the key signature of the sheet's key (the written
- * key for a written sheet), the instrument's clef, a <transpose> element on a written sheet of
+ * key for a written sheet), the clef the sheet shows (`sheetClefs`: the concert clef on a concert
+ * sheet, the marimba's bass clef for low measures), a <transpose> element on a written sheet of
  * a transposing instrument, the tempo as a metronome mark with <sound tempo>, and slurs.
  */
 export function toMusicXml(options: MusicXmlOptions): string {
@@ -58,12 +60,17 @@ export function toMusicXml(options: MusicXmlOptions): string {
   const fifths = keySignature(sheetKey);
   const divisions = divisionsFor(options.notes);
   const measures = layOutMeasures(options.notes);
+  const staffClefs = sheetClefs(instrument.id, options.notes, options.pitch);
 
   const measureXml = measures.map((pieces, index) => {
     const parts = [`<measure number="${index + 1}">`];
     if (index === 0) {
-      parts.push(attributesXml(divisions, sheetKey, fifths, instrument, options.pitch));
+      parts.push(
+        attributesXml(divisions, sheetKey, fifths, instrument, options.pitch, staffClefs[0]),
+      );
       parts.push(directionsXml(options.tempo, options.articulation));
+    } else if (!sameClef(staffClefs[index], staffClefs[index - 1])) {
+      parts.push(`<attributes>${clefXml(staffClefs[index])}</attributes>`);
     }
     const shown = new Map<string, number>();
     pieces.forEach((piece, pieceIndex) => {
@@ -99,18 +106,34 @@ function attributesXml(
   fifths: number,
   instrument: InstrumentSpec,
   pitch: PatternPitch,
+  clef: StaffClef,
 ): string {
   const mode = sheetKey.mode === 'chromatic' ? '' : isMinor(sheetKey.mode) ? 'minor' : 'major';
-  const clef = clefs[instrument.clef];
   return [
     '<attributes>',
     `<divisions>${divisions}</divisions>`,
     `<key><fifths>${fifths}</fifths>${mode ? `<mode>${mode}</mode>` : ''}</key>`,
     '<time><beats>4</beats><beat-type>4</beat-type></time>',
-    `<clef><sign>${clef.sign}</sign><line>${clef.line}</line></clef>`,
+    clefXml(clef),
     pitch === 'written' ? transposeXml(instrument) : '',
     '</attributes>',
   ].join('');
+}
+
+/**
+ * A clef with its octave mark: MusicXML 4.0 <clef-octave-change> is the octaves the music
+ * sounds from where the staff shows it, while <pitch> keeps the sounding note (the treble clef
+ * with an 8 above for a piccolo's concert part).
+ */
+function clefXml({ clef, octaveChange }: StaffClef): string {
+  const { sign, line } = clefs[clef];
+  const change =
+    octaveChange === 0 ? '' : `<clef-octave-change>${octaveChange}</clef-octave-change>`;
+  return `<clef><sign>${sign}</sign><line>${line}</line>${change}</clef>`;
+}
+
+function sameClef(a: StaffClef, b: StaffClef): boolean {
+  return a.clef === b.clef && a.octaveChange === b.octaveChange;
 }
 
 /**

@@ -1,5 +1,5 @@
 import type { Key } from './keys';
-import { midi, parseNote, spellAtMidi } from './pitch';
+import { midi, spellAtMidi } from './pitch';
 import { arpeggio, scale, type Direction } from './scales';
 
 /** The practice patterns a requirement can ask for. */
@@ -17,7 +17,11 @@ export const patternIds: readonly PatternId[] = [
 export interface OutlineNote {
   note: string;
   beats: number;
-  /** Which run of the pattern the note belongs to; each run goes one way. */
+  /**
+   * Which run of the pattern the note belongs to. A run starts on a turning note (the first
+   * tonic, the top of a figure, the tonic shared by the scale and the arpeggio) and goes one way
+   * up to the note before the next turn; the last tonic ends the last run.
+   */
   group: number;
   direction: Direction;
 }
@@ -31,19 +35,36 @@ const figures: Record<PatternId, Figure[]> = {
   'cycle-brisk': ['scale', 'arpeggio'],
 };
 
-/** Beats of a tonic and of every other note: whole notes, half and quarter, quarter and eighth. */
-const noteValues: Record<PatternId, { tonic: number; other: number }> = {
-  'long-tones': { tonic: 4, other: 4 },
-  'arpeggio-long': { tonic: 4, other: 4 },
-  'cycle-broad': { tonic: 2, other: 1 },
-  'cycle-brisk': { tonic: 1, other: 0.5 },
+/**
+ * Note values in beats: the turning notes (`long`) and the notes run through (`running`).
+ * `dotted` is allowed for a turning note when the run after it has an odd number of notes; the
+ * brisk cycle allows none, so its eighths always beam in pairs.
+ */
+const noteValues: Record<PatternId, { long: number; running: number; dotted: boolean }> = {
+  'long-tones': { long: 4, running: 4, dotted: false },
+  'arpeggio-long': { long: 4, running: 4, dotted: false },
+  'cycle-broad': { long: 2, running: 1, dotted: true },
+  'cycle-brisk': { long: 1, running: 0.5, dotted: false },
 };
+
+const beatsPerBar = 4;
 
 /**
  * The notes of a pattern with octaves, starting from `tonic` (a note with octave). Each figure
  * (the scale, the arpeggio) climbs over one or two octaves and comes back down without
- * repeating its top note; the cycles play the scale, then the arpeggio from the tonic again.
- * Every tonic takes the tonic's note value.
+ * repeating its top note. The cycles play the scale and then the arpeggio as one line: the
+ * tonic where the scale comes down is the arpeggio's first note (B major: B C# D# E F# G# A# B
+ * A# G# F# E D# C# B D# F# B F# D# B).
+ *
+ * Rhythm (common practice, no source; the way directors write scale sheets):
+ * - Only the turning notes take the long value: the first tonic, the top of each figure and the
+ *   tonic shared by the scale and the arpeggio. A tonic passed through in the middle of a
+ *   two-octave run keeps the running value.
+ * - Every turning note starts on a beat, and in the broad cycle on beat 1 or 3, so a half note
+ *   never crosses the bar line. When the run after a turning note has an odd number of notes,
+ *   the turning note is dotted (broad) or takes the running value (brisk), so the run still
+ *   ends on the beat and the brisk cycle's eighths beam in pairs.
+ * - The last tonic is held to fill its bar (a whole note after a one-octave broad cycle).
  */
 export function patternOutline(
   id: PatternId,
@@ -51,24 +72,71 @@ export function patternOutline(
   tonic: string,
   octaves: 1 | 2,
 ): OutlineNote[] {
-  const values = noteValues[id];
-  const outline: OutlineNote[] = [];
+  const line: { note: string; direction: Direction; turns: boolean }[] = [];
   for (const figure of figures[id]) {
     const [up, down] = figureNames(figure, key, octaves);
-    const rising = stack(up, midi(tonic), 'up');
+    const start = line.length === 0 ? midi(tonic) : midi(line[line.length - 1].note);
+    const rising = stack(up, start, 'up');
     const falling = stack(down, midi(rising[rising.length - 1]), 'down').slice(1);
-    for (const [direction, notes] of [
-      ['up', rising],
-      ['down', falling],
-    ] as const) {
-      const group = outline.length === 0 ? 0 : outline[outline.length - 1].group + 1;
-      for (const note of notes) {
-        const isTonic = sameLetterAndAccidental(note, key.tonic);
-        outline.push({ note, beats: isTonic ? values.tonic : values.other, group, direction });
-      }
-    }
+    // The second figure starts on the note the first one ended on: one shared tonic.
+    if (line.length > 0) line[line.length - 1] = { ...line[line.length - 1], direction: 'up' };
+    rising.slice(line.length === 0 ? 0 : 1).forEach((note, index, notes) => {
+      const top = index === notes.length - 1;
+      line.push({ note, direction: top ? 'down' : 'up', turns: top });
+    });
+    falling.forEach((note) => line.push({ note, direction: 'down', turns: false }));
+    // The last note of a figure turns into the next figure.
+    line[line.length - 1].turns = true;
   }
+  line[0].turns = true;
+
+  const values = noteValues[id];
+  const outline: OutlineNote[] = [];
+  let offset = 0;
+  let group = -1;
+  line.forEach(({ note, direction, turns }, index) => {
+    const last = index === line.length - 1;
+    if (turns && !last) group += 1;
+    let beats = values.running;
+    if (last) {
+      const inBar = offset % beatsPerBar;
+      beats = Math.max(values.long, beatsPerBar - inBar);
+      if (inBar + beats > beatsPerBar) beats = beatsPerBar - inBar;
+    } else if (turns) {
+      const runLength = line.slice(index + 1).findIndex((next) => next.turns);
+      beats = turningValue(offset, runLength, values);
+    }
+    outline.push({ note, beats, group, direction });
+    offset += beats;
+  });
   return outline;
+}
+
+/**
+ * The value of a turning note at `offset` followed by `runLength` running notes: the long
+ * value when the next turning note then lands where its own long value fits (on a beat; in
+ * the broad cycle on beat 1 or 3), else the dotted long value (where allowed and it stays in
+ * the bar), else the running value.
+ */
+function turningValue(
+  offset: number,
+  runLength: number,
+  values: { long: number; running: number; dotted: boolean },
+): number {
+  const grid = values.long;
+  const candidates = [values.long];
+  if (values.dotted) candidates.push(values.long + values.running);
+  candidates.push(values.running);
+  const inBar = offset % beatsPerBar;
+  const found = candidates.find((beats) => {
+    const next = offset + beats + runLength * values.running;
+    return inBar + beats <= beatsPerBar && isMultiple(next, Math.min(grid, beatsPerBar));
+  });
+  return found ?? values.running;
+}
+
+function isMultiple(value: number, unit: number): boolean {
+  return Math.abs(value / unit - Math.round(value / unit)) < 1e-9;
 }
 
 function figureNames(figure: Figure, key: Key, octaves: 1 | 2): [string[], string[]] {
@@ -101,10 +169,4 @@ function stack(names: string[], start: number, direction: Direction): string[] {
 function nearestMidi(name: string, target: number): number {
   const inOctaveFour = midi(`${name}4`);
   return inOctaveFour + 12 * Math.round((target - inOctaveFour) / 12);
-}
-
-function sameLetterAndAccidental(note: string, tonic: string): boolean {
-  const a = parseNote(note);
-  const b = parseNote(tonic);
-  return a.letter === b.letter && a.alteration === b.alteration;
 }

@@ -65,9 +65,11 @@ export class PatternRangeError extends Error {
  * sounding notes of that same placement, spelled in the concert key (a tuba's concert Bb
  * scale starts on Bb1).
  *
- * Articulation: 'tongued' slurs nothing; 'slurred' tongues the first note of each run (up,
- * down) and slurs the rest of the run to it; 'tongue-up-slur-down' tongues every note of a
- * rising run and slurs every note of a falling run to the note before it.
+ * Articulation: 'tongued' slurs nothing; 'slurred' tongues the turning note that starts each
+ * run (the first tonic, the top, the tonic the arpeggio starts from) and slurs the rest of the
+ * run to it, so a falling run is one slur from its top note down; 'tongue-up-slur-down' tongues
+ * every rising note, the top included, and slurs every falling note to the note before it. On
+ * a string instrument no slur (one bow) holds more than a bar.
  */
 export function pattern(id: PatternId, key: Key, options: PatternOptions = {}): PatternNote[] {
   checkKey(key);
@@ -80,25 +82,68 @@ export function pattern(id: PatternId, key: Key, options: PatternOptions = {}): 
   const articulation = options.articulation ?? 'tongued';
   checkOptions(pitch, octaves, articulation);
 
+  const notes = placedPattern(id, key, instrument, pitch, octaves, articulation, [
+    instrument.beginnerRange,
+    instrument.range,
+  ]);
+  if (!notes) throw new PatternRangeError(id, key, instrument, octaves);
+  return notes;
+}
+
+/**
+ * The pattern placed at the lowest octave of the written tonic that lies inside the first of
+ * `ranges` that has one (written notes), or null when none does. Shared by `pattern` and the
+ * school-level placement.
+ */
+export function placedPattern(
+  id: PatternId,
+  key: Key,
+  instrument: InstrumentSpec,
+  pitch: PatternPitch,
+  octaves: 1 | 2,
+  articulation: Articulation,
+  ranges: NoteRange[],
+): PatternNote[] | null {
   const written = writtenKey(key, instrument.id);
   const placements: { tonic: string; outline: OutlineNote[] }[] = [];
   for (let octave = 0; octave <= 8; octave += 1) {
     const tonic = `${written.tonic}${octave}`;
-    const outline = patternOutline(id, written, tonic, octaves);
-    if (fitsIn(outline, instrument.range)) placements.push({ tonic, outline });
+    placements.push({ tonic, outline: patternOutline(id, written, tonic, octaves) });
   }
-  if (placements.length === 0) {
-    throw new PatternRangeError(id, key, instrument, octaves);
+  let chosen: (typeof placements)[number] | undefined;
+  for (const range of ranges) {
+    chosen = placements.find(({ outline }) => fitsIn(outline, range));
+    if (chosen) break;
   }
-  const chosen =
-    placements.find(({ outline }) => fitsIn(outline, instrument.beginnerRange)) ?? placements[0];
+  if (!chosen) return null;
 
   let outline = chosen.outline;
   if (pitch === 'concert') {
     const sounding = midi(chosen.tonic) + transpositionSize(instrument.id).semitones;
     outline = patternOutline(id, key, spellAtMidi(key.tonic, sounding), octaves);
   }
-  return articulate(outline, articulation);
+  const notes = articulate(outline, articulation);
+  return instrument.family === 'strings' ? withBowChanges(notes) : notes;
+}
+
+/** The most beats a school string player is asked to take in one bow (common practice, no source). */
+const beatsPerBow = 4;
+
+/**
+ * A slur on a string instrument is one bow. A long slur is broken where it would hold more than
+ * a bar (four beats: four seconds at quarter = 60) so a school player changes bow in time; the
+ * note after the break starts a new slur, and a whole note takes a bow of its own.
+ */
+function withBowChanges(notes: PatternNote[]): PatternNote[] {
+  let inBow = 0;
+  return notes.map((note) => {
+    if (note.slurred && inBow + note.beats <= beatsPerBow) {
+      inBow += note.beats;
+      return note;
+    }
+    inBow = note.beats;
+    return { ...note, slurred: false };
+  });
 }
 
 /** How long a pattern lasts in seconds with the quarter note at `bpm` beats per minute. */
@@ -138,13 +183,23 @@ function fitsIn(outline: OutlineNote[], range: NoteRange): boolean {
   return outline.every(({ note }) => midi(note) >= lowest && midi(note) <= highest);
 }
 
+/*
+ * Articulation. A slur begins on a tongued note, so each run of the pattern is slurred from its
+ * turning note: "slurred" tongues the first tonic, the top note and the tonic where the
+ * arpeggio starts, and slurs the rest of each run to them, so a falling run is slurred whole
+ * from its top note down (common practice, no source: a new slur starts where the line turns).
+ * "tongue-up-slur-down" tongues every note reached going up, the top included, and slurs every
+ * note reached coming down to the note before it (the tonic the scale comes down to as well).
+ */
 function articulate(outline: OutlineNote[], articulation: Articulation): PatternNote[] {
-  return outline.map(({ note, beats, group, direction }, index) => {
+  return outline.map(({ note, beats, group }, index) => {
     const startsRun = index === 0 || outline[index - 1].group !== group;
     const slurred =
       articulation === 'slurred'
         ? !startsRun
-        : articulation === 'tongue-up-slur-down' && direction === 'down';
+        : articulation === 'tongue-up-slur-down' &&
+          index > 0 &&
+          midi(note) < midi(outline[index - 1].note);
     return { note, beats, slurred };
   });
 }

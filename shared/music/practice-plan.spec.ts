@@ -40,17 +40,20 @@ describe('practicePlan', () => {
     });
   });
 
-  it('should end with the brisk rhythm at the required tempo when the requirement is brisk', () => {
+  it('should bring the brisk rhythm in where its note speed matches the broad one when the requirement is brisk', () => {
     const steps = practicePlan({ ...requirement, pattern: 'cycle-brisk', tempo: 132, octaves: 2 });
-    expect(steps.map(({ tempo }) => tempo).slice(3)).toEqual([60, 80, 100, 120, 132, 132]);
-    expect(steps.slice(3, -1).every(({ pattern }) => pattern === 'cycle-broad')).toBe(true);
+    // Eighths at quarter = 66 move as fast as quarters at 132; then the usual marks again.
+    expect(steps.map(({ tempo }) => tempo).slice(3)).toEqual([
+      60, 80, 100, 120, 132, 66, 80, 100, 120, 132,
+    ]);
+    expect(steps.slice(3, 8).every(({ pattern }) => pattern === 'cycle-broad')).toBe(true);
+    expect(steps.slice(8).every(({ pattern }) => pattern === 'cycle-brisk')).toBe(true);
     expect(steps[steps.length - 1]).toMatchObject({
       id: 'brisk',
       pattern: 'cycle-brisk',
       tempo: 132,
     });
     expect(steps.every(({ octaves }) => octaves === 2)).toBe(true);
-    expect(steps.filter(({ pattern }) => pattern === 'cycle-brisk')).toHaveLength(1);
   });
 
   it('should begin the climb at the start tempo when one is given', () => {
@@ -64,8 +67,12 @@ describe('practicePlan', () => {
         const steps = practicePlan({ ...requirement, pattern, tempo });
         const ids = steps.map(({ id }) => id);
         expect(new Set(ids).size).toBe(ids.length);
-        const climb = steps.slice(ids.indexOf('slow-pattern')).map((step) => step.tempo);
+        // The note speed (notes a minute: eighths count double) never drops along the climb.
+        const climb = steps
+          .slice(ids.indexOf('slow-pattern'))
+          .map((step) => step.tempo * (step.pattern === 'cycle-brisk' ? 2 : 1));
         expect(climb).toEqual([...climb].sort((a, b) => a - b));
+        expect(steps[steps.length - 1].title).toMatch(/^Pass-off/);
         expect(steps[steps.length - 1]).toMatchObject({
           pattern,
           tempo,
@@ -85,6 +92,37 @@ describe('practicePlan', () => {
     expect(first.description).toContain('G A B C D E F# G');
     const violin = practicePlan(requirement, { instrument: 'violin' });
     expect(violin[3].description).toContain('bow');
+  });
+
+  it('should end on the pass-off at its own tempo when the requirement is slower than 60', () => {
+    for (const pattern of ['long-tones', 'cycle-broad', 'cycle-brisk'] as const) {
+      const steps = practicePlan({ ...requirement, pattern, tempo: 52 });
+      const last = steps[steps.length - 1];
+      expect(last).toMatchObject({ pattern, tempo: 52 });
+      expect(last.title).toMatch(/^Pass-off/);
+      expect(last.description).toMatch(/ask your director/);
+    }
+  });
+
+  it('should tell each instrument how to hold a long tone', () => {
+    const longTones = (instrument: string) =>
+      practicePlan(requirement, { instrument }).find(({ id }) => id === 'long-tones')?.description;
+    // Common practice, no source: winds sustain on the breath, strings on whole bows at a
+    // steady contact point, mallet instruments cannot sustain and roll.
+    expect(longTones('clarinet')).toMatch(/breath/);
+    expect(longTones('viola')).toMatch(/whole bow/);
+    expect(longTones('viola')).toMatch(/contact point/);
+    expect(longTones('viola')).not.toMatch(/breath/);
+    expect(longTones('marimba')).toMatch(/roll/);
+    expect(longTones('marimba')).not.toMatch(/breath/);
+  });
+
+  it('should name the descending form when the scale comes down another way', () => {
+    const [first] = practicePlan({ ...requirement, key: { tonic: 'E', mode: 'melodic-minor' } });
+    // Kostka & Payne, Tonal Harmony: melodic minor rises with raised 6th and 7th and falls as
+    // natural minor.
+    expect(first.description).toContain('E F# G A B C# D# E');
+    expect(first.description).toContain('E D C B A G F# E');
   });
 
   it('should throw when the instrument or the tempo is not usable', () => {

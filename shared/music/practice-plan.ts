@@ -36,12 +36,19 @@ const patternWords: Record<PatternId, string> = {
   'cycle-brisk': 'the scale up and down, then the arpeggio, in quarter notes and eighth notes',
 };
 
+/** The slowest metronome mark a plan asks for (most metronomes start at 40). */
+const slowestMark = 40;
+
 /**
- * The steps a student climbs toward a requirement: the note names and fingerings, long tones,
- * the arpeggio, the whole pattern slowly in the broad rhythm, the tempo raised through the
- * usual metronome marks (60, 80, 100, 120…) to the required tempo with the required
- * articulation, and last the brisk rhythm when the requirement asks for it. The last step is
- * always the requirement itself. With an instrument, the texts name its written key.
+ * The steps a student climbs toward a requirement: the note names and fingerings (with the
+ * descending form named where it differs, as melodic minor comes down as natural minor), long
+ * tones told for the instrument (breath for winds, whole bows for strings, a roll for mallets,
+ * which cannot sustain), the arpeggio, the whole pattern slowly in the broad rhythm, the tempo
+ * raised through the usual metronome marks (60, 80, 100, 120…) with the required articulation.
+ * A brisk requirement climbs the broad rhythm to the required tempo, then brings the brisk
+ * rhythm in at half that tempo, where its eighths move as fast as the broad quarters did, and
+ * climbs again. The last step is always the requirement itself, titled as the pass-off, even
+ * for a requirement slower than 60. With an instrument, the texts name its written key.
  */
 export function practicePlan(
   requirement: PracticeRequirement,
@@ -59,6 +66,7 @@ export function practicePlan(
   const slowTempo = Math.min(options.startTempo ?? warmUpTempo, tempo);
   const target: PatternId = pattern === 'cycle-brisk' ? 'cycle-broad' : pattern;
   const octaveText = octaves === 2 ? ' over two octaves' : '';
+  const how = articulationWords(articulation, instrument);
   const step = (
     id: string,
     title: string,
@@ -75,13 +83,15 @@ export function practicePlan(
     articulation: stepArticulation,
     octaves,
   });
+  const passOffWords =
+    'This is the pass-off tempo: when it feels easy three times in a row, ask your director to hear it.';
 
   const steps: PracticeStep[] = [
     step(
       'note-names',
       'Learn the notes',
-      `Before you play, say the notes of ${keyText} out loud going up and coming down: ` +
-        `${scale(playedKey).join(' ')}. Then say them again while you ${fingerWords(instrument)}. ` +
+      `Before you play, say the notes of ${keyText} out loud ${noteNamesText(playedKey)}. ` +
+        `Then say them again while you ${fingerWords(instrument)}. ` +
         'When you can do it without stopping, you are ready to play.',
       'long-tones',
       warmUpTempo,
@@ -94,8 +104,7 @@ export function practicePlan(
         'long-tones',
         'Long tones',
         `Play each note of the scale${octaveText} as a whole note at quarter = ${warmUpTempo}. ` +
-          'Take a good breath, keep the sound full and steady to the end of each note, and listen ' +
-          'to the pitch.',
+          longToneWords(instrument),
         'long-tones',
         warmUpTempo,
         'tongued',
@@ -115,31 +124,34 @@ export function practicePlan(
       ),
     );
   }
+  const slowIsGoal = slowTempo === tempo && target === pattern;
   steps.push(
     step(
       'slow-pattern',
-      target === pattern ? 'The whole pattern, slowly' : 'The whole pattern in the broad rhythm',
-      `Play ${patternWords[target]}${octaveText} at quarter = ${slowTempo}, ` +
-        `${articulationWords(articulation, instrument)}. Keep every note even; slow and ` +
-        'correct is the fastest way to get there.',
+      slowIsGoal
+        ? `Pass-off tempo: quarter = ${tempo}`
+        : target === pattern
+          ? 'The whole pattern, slowly'
+          : 'The whole pattern in the broad rhythm',
+      `Play ${patternWords[target]}${octaveText} at quarter = ${slowTempo}, ${how}. ` +
+        (slowIsGoal
+          ? `Keep every note even. ${passOffWords}`
+          : 'Keep every note even; slow and correct is the fastest way to get there.'),
       target,
       slowTempo,
       articulation,
     ),
   );
-  const climb = [...usualTempos.filter((mark) => mark > slowTempo && mark < tempo), tempo];
-  for (const mark of climb.filter((mark) => mark > slowTempo)) {
+  for (const mark of climbFrom(slowTempo, tempo)) {
     const goal = mark === tempo && target === pattern;
     steps.push(
       step(
         `tempo-${mark}`,
         goal ? `Pass-off tempo: quarter = ${mark}` : `Quarter = ${mark}`,
         goal
-          ? `Play it at quarter = ${mark}, ${articulationWords(articulation, instrument)}. This is ` +
-              'the pass-off tempo: when it feels easy three times in a row, ask your director to hear it.'
-          : `Set the metronome to ${mark} and play the pattern again, ` +
-              `${articulationWords(articulation, instrument)}. Move on when you can play it ` +
-              'cleanly three times in a row.',
+          ? `Play it at quarter = ${mark}, ${how}. ${passOffWords}`
+          : `Set the metronome to ${mark} and play the pattern again, ${how}. Move on when you ` +
+              'can play it cleanly three times in a row.',
         target,
         mark,
         articulation,
@@ -147,20 +159,79 @@ export function practicePlan(
     );
   }
   if (pattern === 'cycle-brisk') {
-    steps.push(
-      step(
-        'brisk',
-        `Pass-off: the brisk rhythm at quarter = ${tempo}`,
-        `Now play ${patternWords['cycle-brisk']}${octaveText} at quarter = ${tempo}, ` +
-          `${articulationWords(articulation, instrument)}. The notes move twice as fast, so ` +
-          'stay relaxed and keep the beat steady. When it feels easy, ask your director to hear it.',
-        'cycle-brisk',
-        tempo,
-        articulation,
-      ),
-    );
+    // Eighths at half the tempo move as fast as the quarters the broad rhythm just reached.
+    const entry = Math.min(tempo, Math.max(slowestMark, Math.round(tempo / 2)));
+    const brisk = [entry, ...climbFrom(entry, tempo)];
+    brisk.forEach((mark, index) => {
+      const goal = mark === tempo;
+      const first = index === 0;
+      steps.push(
+        step(
+          goal ? 'brisk' : `brisk-${mark}`,
+          goal
+            ? `Pass-off: the brisk rhythm at quarter = ${mark}`
+            : `The brisk rhythm at quarter = ${mark}`,
+          (first
+            ? `Now play ${patternWords['cycle-brisk']}${octaveText} at quarter = ${mark}, ${how}. ` +
+              `The eighth notes move as fast as the quarter notes did at quarter = ${mark * 2}, ` +
+              'so the notes feel the same while the beat is slower. '
+            : `Set the metronome to ${mark} and play the brisk rhythm again, ${how}. `) +
+            (goal ? passOffWords : 'Move on when you can play it cleanly three times in a row.'),
+          'cycle-brisk',
+          mark,
+          articulation,
+        ),
+      );
+    });
   }
   return steps;
+}
+
+/** The usual metronome marks above `from` and below `to`, then `to` itself when above `from`. */
+function climbFrom(from: number, to: number): number[] {
+  return [...usualTempos.filter((mark) => mark > from && mark < to), to].filter(
+    (mark) => mark > from,
+  );
+}
+
+/**
+ * 'going up and coming down: B C# D# …', or for a scale that comes down another way (melodic
+ * minor comes down as natural minor) 'going up: E F# G A B C# D# E, and coming down: E D C B A
+ * G F# E'.
+ */
+function noteNamesText(key: Key): string {
+  const up = scale(key, 'up');
+  const down = scale(key, 'down');
+  const same = down.join(' ') === [...up].reverse().join(' ');
+  return same
+    ? `going up and coming down: ${up.join(' ')}`
+    : `going up: ${up.join(' ')}, and coming down, which is different: ${down.join(' ')}`;
+}
+
+/**
+ * How to play a long tone on the instrument (common practice, no source): winds sustain on the
+ * breath, strings on whole bows at a steady contact point, and mallet instruments, which cannot
+ * sustain, hold a note with a roll (or even repeated strokes for a beginner).
+ */
+function longToneWords(instrument: InstrumentSpec | undefined): string {
+  if (instrument?.family === 'strings') {
+    return (
+      'Use a whole bow for each note, from the frog to the tip and back, keeping the bow at ' +
+      'the same contact point between the bridge and the fingerboard and the weight even, and ' +
+      'listen to the pitch.'
+    );
+  }
+  if (instrument?.family === 'percussion') {
+    return (
+      'A bar cannot hold a note, so roll each one: even, alternating strokes from both mallets ' +
+      'for the whole note (or steady eighth notes if the roll is new to you), striking the ' +
+      'middle of the bar, and listen to the pitch.'
+    );
+  }
+  return (
+    'Take a good breath, keep the sound full and steady to the end of each note on a steady ' +
+    'stream of air, and listen to the pitch.'
+  );
 }
 
 function resolve(nameOrId: string): InstrumentSpec {
@@ -182,12 +253,16 @@ function articulationWords(articulation: Articulation, instrument?: InstrumentSp
   const mallets = instrument?.family === 'percussion';
   if (articulation === 'slurred') {
     if (mallets) return 'as smoothly connected as you can';
-    return strings ? 'slurring each direction in one bow' : 'slurring up and slurring down';
+    return strings
+      ? 'slurring the notes of each marked slur in one bow and changing bow where a new slur ' +
+          'begins (no more than a bar in one bow)'
+      : 'slurring up and slurring down';
   }
   if (articulation === 'tongue-up-slur-down') {
     if (mallets) return 'striking the notes going up crisply and the notes coming down smoothly';
     return strings
-      ? 'with separate bows going up and one slurred bow coming down'
+      ? 'with separate bows going up and slurred bows coming down, changing bow where a new ' +
+          'slur begins (no more than a bar in one bow)'
       : 'tonguing the notes going up and slurring the notes coming down';
   }
   if (mallets) return 'striking every note clearly';

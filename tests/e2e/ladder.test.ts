@@ -145,6 +145,14 @@ describe('Scale ladder screen', () => {
     await page.getByTestId('start-draft').click();
     await page.waitForURL(/\/ladder\/versions\/\d+\/edit$/);
     await expect.poll(() => page.getByTestId('rung-editor').count(), patient).toBe(7);
+    // The demo ladder expects grade 10 to reach rung 5, whose two-octave concert F takes the
+    // horn to written C6, beyond a high-school horn (common practice, no source).
+    const reach = page.getByTestId('reach-warnings');
+    await reach.locator('summary').click();
+    await expect.poll(() => reach.innerText()).toContain('Rung 5, concert F major (two octaves)');
+    expect(await reach.innerText()).toContain('French Horn: Cannot fit this level');
+    await reach.scrollIntoViewIfNeeded();
+    await saveScreenshot(page, 'ladder-editor-reach');
 
     const tempo = page.getByTestId('rung-editor').first().locator('input[type=number]').first();
     await tempo.fill('10');

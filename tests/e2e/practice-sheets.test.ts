@@ -42,14 +42,16 @@ const sections = [
   { instrument: 'horn', written: 'written F major for horn in F, treble clef', fifths: -1 },
   { instrument: 'trombone', written: 'written Bb major for trombone, bass clef', fifths: -2 },
   { instrument: 'tuba', written: 'written Bb major for tuba, bass clef', fifths: -2 },
-  { instrument: 'violin', written: 'written Bb major for violin, treble clef', fifths: -2 },
+  { instrument: 'viola', written: 'written Bb major for viola, alto clef', fifths: -2 },
+  { instrument: 'marimba', written: 'written Bb major for marimba, treble clef', fifths: -2 },
 ];
 
 /**
- * The broad cycle over one octave: the scale up (8 notes) and down (7), then the arpeggio up
- * (4) and down (3), tonics as half notes and the rest as quarters (common practice, no source).
+ * The broad cycle over one octave as one line (common practice, no source): the scale up (8
+ * notes) and down (7), then the arpeggio from that same tonic up (3 more) and down (3), the
+ * turning notes as half notes, the rest as quarters and the last tonic a whole note.
  */
-const broadCycleNotes = 8 + 7 + 4 + 3;
+const broadCycleNotes = 8 + 7 + 3 + 3;
 
 /** Waits until the staff inside `scope` has been drawn and returns its number of notes. */
 async function drawnNotes(page: Page, scope: string): Promise<number> {
@@ -82,6 +84,7 @@ describe('Practice sheets', () => {
       expect(await staff.locator('.vf-keysignature').count()).toBeGreaterThan(0);
       await page.evaluate(() => document.fonts.ready);
       await saveScreenshot(page, `practice-${section.instrument}`);
+      expect(await page.getByTestId('sheet-levels').innerText()).toContain('High school');
 
       const [download] = await Promise.all([
         page.waitForEvent('download'),
@@ -102,6 +105,16 @@ describe('Practice sheets', () => {
       expect(parsed.error).toBeNull();
       expect(Number(parsed.fifths)).toBe(section.fifths);
       expect(parsed.notes).toBe(broadCycleNotes);
+
+      // The brisk cycle: the same notes in quarters and eighths, 16 beats (9.6 s at 100).
+      const brisk = requirement.replace('cycle-broad', 'cycle-brisk');
+      await page.goto(`${app.url}/practice?${brisk}&instrument=${section.instrument}`);
+      await expect
+        .poll(() => page.getByTestId('sheet-duration').innerText())
+        .toBe('about 10 s at ♩ = 100');
+      expect(await drawnNotes(page, '[data-testid=sheet-staff]')).toBe(broadCycleNotes);
+      await page.evaluate(() => document.fonts.ready);
+      await saveScreenshot(page, `practice-${section.instrument}-brisk`);
     }
     expect(outside).toEqual([]);
     await context.close();

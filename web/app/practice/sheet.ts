@@ -1,25 +1,32 @@
 import {
+  clefWords,
   durationSeconds,
   instrumentById,
   keyName,
   keySignature,
-  midi,
+  levelReach,
+  schoolLevels,
   pattern,
   PatternRangeError,
-  transpositionSize,
+  sheetClefs,
   writtenKey,
   type InstrumentSpec,
   type Key,
+  type LevelReach,
   type PatternNote,
+  type StaffClef,
 } from '../../../shared/music';
 import { instrumentInText, octaveNote } from './instrument-label';
-import { clefLabels, secondsText } from './labels';
+import { secondsText } from './labels';
 import type { SheetRequest } from './sheet-request';
 
 /** What a staff needs to draw a pattern. */
 export interface StaffMusic {
   notes: PatternNote[];
+  /** The clef the staff opens with. */
   clef: InstrumentSpec['clef'];
+  /** The clef of every measure, with its octave mark (the engine's `sheetClefs`). */
+  clefs: StaffClef[];
   /** Sharps (positive) or flats (negative) of the key signature. */
   fifths: number;
   /** Quarter notes per minute, shown as the metronome mark. */
@@ -41,6 +48,8 @@ export interface ReadySheet {
   caption: string;
   /** 'about 17 s at ♩ = 100'. */
   durationText: string;
+  /** Whether the requirement fits an elementary, middle and high school player's range. */
+  levels: LevelReach[];
 }
 
 /** A request the instrument cannot play: no octave of the pattern fits its range. */
@@ -83,39 +92,34 @@ export function buildSheet(request: SheetRequest): Sheet {
   const atConcert = request.pitch === 'concert';
   const sheetKey = atConcert ? concertKey : written;
   const notes = atConcert ? concertNotes : writtenNotes;
-  const clef = atConcert ? concertClef(instrument, concertNotes) : instrument.clef;
+  const clefs = sheetClefs(instrument.id, notes, request.pitch);
+  const clef = clefs[0].clef;
+  const clefText = clefWords(clefs[0]);
   const player = instrumentInText(instrument.id);
   const octave = octaveNote(instrument);
   const caption = atConcert
-    ? `Concert ${keyName(concertKey)} at concert pitch for ${player}, ${clefLabels[clef]} ` +
+    ? `Concert ${keyName(concertKey)} at concert pitch for ${player}, ${clefText} ` +
       `(the player reads ${keyName(written)})`
     : `Concert ${keyName(concertKey)} → written ${keyName(written)} for ${player}, ` +
-      `${clefLabels[clef]}${octave ? ` (${octave})` : ''}`;
+      `${clefText}${octave ? ` (${octave})` : ''}`;
   return {
     kind: 'ready',
     request,
     instrument,
     concertKey,
     sheetKey,
-    staff: { notes, clef, fifths: keySignature(sheetKey), tempo: request.tempo },
+    staff: { notes, clef, clefs, fifths: keySignature(sheetKey), tempo: request.tempo },
     concertNotes,
     caption,
+    levels: schoolLevels.map((level) =>
+      levelReach(
+        { pattern: request.pattern, key: concertKey, octaves: request.octaves },
+        instrument.id,
+        level,
+      ),
+    ),
     durationText: `about ${secondsText(durationSeconds(concertNotes, request.tempo))} at ♩ = ${request.tempo}`,
   };
-}
-
-/**
- * The clef for a transposing instrument's part shown at concert pitch: treble when the pattern
- * sounds mostly from middle C up, bass below it (a tenor saxophone's concert part reads best in
- * bass clef). The viola keeps its alto clef; instruments that sound as written keep theirs.
- */
-function concertClef(instrument: InstrumentSpec, concertNotes: PatternNote[]): StaffMusic['clef'] {
-  if (transpositionSize(instrument.id).semitones === 0 || instrument.clef === 'alto') {
-    return instrument.clef;
-  }
-  const average =
-    concertNotes.reduce((total, { note }) => total + midi(note), 0) / concertNotes.length;
-  return average >= midi('C4') ? 'treble' : 'bass';
 }
 
 /**

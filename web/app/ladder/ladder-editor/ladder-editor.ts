@@ -23,7 +23,9 @@ import { BenchmarkEditor } from '../benchmark-editor/benchmark-editor';
 import { ConfirmDialog, type ConfirmDialogData } from '../../core/confirm-dialog/confirm-dialog';
 import { LadderData } from '../ladder-data';
 import { RungEditor, type RequirementEdit } from '../rung-editor/rung-editor';
+import { reachWarnings } from '../reach-warnings';
 import {
+  benchmarkList,
   derivedCode,
   editorErrors,
   freeCode,
@@ -77,6 +79,11 @@ export class LadderEditor {
   protected readonly problem = signal('');
   protected readonly conflict = signal(false);
   protected readonly savedAt = signal<Date | null>(null);
+  /** Requirements a section cannot play at the grades expected to reach their rung. */
+  protected readonly reachWarnings = computed(() => {
+    const model = this.model();
+    return model ? reachWarnings(model.rungs, benchmarkList(model.benchmarks).benchmarks) : [];
+  });
   protected readonly requirementCount = computed(() =>
     (this.model()?.rungs ?? []).reduce((sum, rung) => sum + rung.requirements.length, 0),
   );

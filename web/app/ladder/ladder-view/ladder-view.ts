@@ -11,6 +11,7 @@ import type {
 } from '../../../../shared/api/ladder';
 import type { StudentProgress } from '../../../../shared/api/analytics';
 import { instrumentById } from '../../../../shared/music';
+import { reachWarnings } from '../reach-warnings';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
@@ -76,6 +77,24 @@ export class LadderView {
   protected readonly instrument = computed(() => instrumentById(this.instrumentId()));
   protected readonly met = computed(() => new Set(this.progress()?.metRequirementCodes ?? []));
   protected readonly benchmarks = computed(() => benchmarkTable(this.ladder()?.benchmarks ?? []));
+  /** Per requirement code: why the picked instrument cannot play it at the grades it targets. */
+  protected readonly outOfReach = computed(() => {
+    const ladder = this.ladder();
+    const instrument = this.instrument();
+    const messages = new Map<string, string>();
+    if (!ladder) return messages;
+    const rungs = ladder.rungs.map((rung) => ({
+      ...rung,
+      requirements: rung.requirements.filter((requirement) =>
+        appliesToFamily(requirement, instrument.family),
+      ),
+    }));
+    for (const warning of reachWarnings(rungs, ladder.benchmarks)) {
+      const line = warning.details.find((detail) => detail.startsWith(`${instrument.name}:`));
+      if (line) messages.set(warning.code, line.slice(instrument.name.length + 2));
+    }
+    return messages;
+  });
   protected readonly rungs = computed(() => {
     const family = this.instrument().family;
     return (this.ladder()?.rungs ?? []).map((rung) => ({

@@ -10,7 +10,7 @@ import { Router } from '@angular/router';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
-import { practicePlan } from '../../../../shared/music';
+import { practicePlan, schoolLevelNames } from '../../../../shared/music';
 import { PageState } from '../../core/state/page-state';
 import { BandSet, type Ensemble } from '../band-set/band-set';
 import { downloadMusicXml } from '../musicxml-download';
@@ -53,6 +53,13 @@ export type PracticeView = 'sheet' | 'band-set' | 'plan';
 export class PracticeSheets {
   private readonly router = inject(Router);
   protected readonly playback = inject(SheetPlayback);
+  /** 'Elementary school', 'Middle school', 'High school'. */
+  protected readonly levelNames = Object.fromEntries(
+    Object.entries(schoolLevelNames).map(([level, name]) => [
+      level,
+      name[0].toUpperCase() + name.slice(1),
+    ]),
+  );
 
   constructor() {
     inject(DestroyRef).onDestroy(() => this.playback.stop());

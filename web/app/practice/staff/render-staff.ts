@@ -2,6 +2,7 @@ import {
   Accidental,
   BarlineType,
   Beam,
+  Clef,
   Dot,
   Formatter,
   Renderer,
@@ -12,7 +13,7 @@ import {
   Voice,
   type RenderContext,
 } from 'vexflow/core';
-import { parseNote } from '../../../../shared/music';
+import { parseNote, type StaffClef } from '../../../../shared/music';
 import { beamOf, layOutMeasures, type NotatedPiece } from '../../../../shared/music/measure-layout';
 import type { StaffMusic } from '../sheet';
 import { loadNotationFont, notationFontFamily } from './notation-font';
@@ -74,8 +75,18 @@ export async function renderStaff(
   let previousStretch = Infinity;
 
   systems.forEach((measureIndexes, system) => {
-    const pieces = measureIndexes.flatMap((index) => measures[index]);
-    const room = verticalRoom(pieces, music.clef, options.compact);
+    const rooms = measureIndexes.map((index) =>
+      verticalRoom(
+        measures[index],
+        clefOf(music, index).clef,
+        options.compact,
+        clefOf(music, index).octaveChange,
+      ),
+    );
+    const room = {
+      above: Math.max(...rooms.map(({ above }) => above)),
+      below: Math.max(...rooms.map(({ below }) => below)),
+    };
     const above = room.above + (system === 0 && !options.compact ? 3 * lineSpacing : 0);
     const topLine = cursor + above;
     const first = system === 0;
@@ -90,9 +101,11 @@ export async function renderStaff(
     measureIndexes.forEach((measureIndex, position) => {
       const width = natural[position] * stretch + (position === 0 ? opening : 0);
       const stave = new Stave(x, topLine - 4 * lineSpacing, width);
+      const clef = clefOf(music, measureIndex);
       if (position === 0) {
         stave.setBegBarType(BarlineType.NONE);
-        stave.addClef(music.clef).addKeySignature(keySpecFor(music.fifths));
+        addClef(stave, clef);
+        stave.addKeySignature(keySpecFor(music.fifths));
         // Room between the time signature and the first note, as engravers leave it.
         if (first) stave.addTimeSignature('4/4', 26);
         // A compact staff sits under a heading that already names the tempo.
@@ -100,9 +113,17 @@ export async function renderStaff(
           stave.setTempo({ duration: 'q', bpm: music.tempo }, -lineSpacing);
         }
       }
+      // A clef change inside a line of music (the marimba's low measures) is drawn small.
+      const before = measureIndex > 0 ? clefOf(music, measureIndex - 1) : clef;
+      if (
+        position > 0 &&
+        (before.clef !== clef.clef || before.octaveChange !== clef.octaveChange)
+      ) {
+        addClef(stave, clef, 'small');
+      }
       if (measureIndex === measures.length - 1) stave.setEndBarType(BarlineType.END);
       stave.setContext(context).draw();
-      const notes = drawMeasure(context, stave, measures[measureIndex], music);
+      const notes = drawMeasure(context, stave, measures[measureIndex], music.fifths, clef);
       notes.forEach((note, index) =>
         drawn.push({ piece: measures[measureIndex][index], note, stave, system }),
       );
@@ -124,18 +145,36 @@ export async function renderStaff(
   return drawn.length;
 }
 
+/** The clef of a measure; a staff without per-measure clefs keeps its one clef throughout. */
+function clefOf(music: StaffMusic, measureIndex: number): StaffClef {
+  return music.clefs?.[measureIndex] ?? { clef: music.clef, octaveChange: 0 };
+}
+
+/** SMuFL glyphs of the treble clef with 15 above it (VexFlow names only the 8va and 8vb). */
+const gClef15ma = '\uE054';
+
+function addClef(stave: Stave, { clef, octaveChange }: StaffClef, size = 'default'): void {
+  const annotation = octaveChange > 0 ? '8va' : octaveChange < 0 ? '8vb' : undefined;
+  stave.addClef(clef, size, annotation);
+  if (octaveChange === 2) {
+    const drawn = stave.getModifiers().find((modifier) => modifier instanceof Clef);
+    if (drawn) drawn.setText(gClef15ma);
+  }
+}
+
 function drawMeasure(
   context: RenderContext,
   stave: Stave,
   pieces: NotatedPiece[],
-  music: StaffMusic,
+  fifths: number,
+  { clef, octaveChange }: StaffClef,
 ): StaveNote[] {
   const shown = new Map<string, number>();
   const notes = pieces.map((piece) => {
     const rest = piece.note === null;
     const note = new StaveNote({
-      clef: music.clef,
-      keys: [rest ? restKeys[music.clef] : vexKey(piece.note as string)],
+      clef,
+      keys: [rest ? restKeys[clef] : vexKey(piece.note as string, octaveChange)],
       duration: `${durations[piece.type]}${rest ? 'r' : ''}`,
       dots: piece.dotted ? 1 : 0,
       autoStem: !rest,
@@ -145,7 +184,7 @@ function drawMeasure(
     if (!rest) {
       const pitch = parseNote(piece.note as string, true);
       const place = `${pitch.letter}${pitch.octave}`;
-      const current = shown.get(place) ?? signatureAlteration(pitch.letter, music.fifths);
+      const current = shown.get(place) ?? signatureAlteration(pitch.letter, fifths);
       // A note tied over the bar line keeps its pitch without a new sign.
       if (current !== pitch.alteration && !piece.tieStop) {
         note.addModifier(new Accidental(accidentalSigns[pitch.alteration]), 0);
@@ -164,10 +203,11 @@ function drawMeasure(
   return notes;
 }
 
-function vexKey(note: string): string {
+/** VexFlow's key for a note, shown `octaveChange` octaves below its sound under an octave clef. */
+function vexKey(note: string, octaveChange: number): string {
   const pitch = parseNote(note, true);
   const sign = pitch.alteration > 0 ? '#'.repeat(pitch.alteration) : 'b'.repeat(-pitch.alteration);
-  return `${pitch.letter.toLowerCase()}${sign}/${pitch.octave}`;
+  return `${pitch.letter.toLowerCase()}${sign}/${(pitch.octave as number) - octaveChange}`;
 }
 
 function drawTies(context: RenderContext, drawn: DrawnPiece[]): void {

@@ -80,6 +80,8 @@ export function verticalRoom(
   pieces: NotatedPiece[],
   clef: StaffMusic['clef'],
   compact: boolean,
+  /** Octaves the notes sound above where an octave clef shows them. */
+  octaveChange = 0,
 ): { above: number; below: number } {
   const top = topLineStep[clef];
   const bottom = top - 8;
@@ -87,7 +89,7 @@ export function verticalRoom(
   let lowest = top;
   for (const piece of pieces) {
     if (piece.note === null) continue;
-    const place = step(piece.note);
+    const place = step(piece.note) - 7 * octaveChange;
     highest = Math.max(highest, place);
     lowest = Math.min(lowest, place);
   }
