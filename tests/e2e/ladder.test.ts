@@ -151,14 +151,17 @@ describe('Scale ladder screen', () => {
     // ended with an ellipsis.
     const cut = await page.evaluate(() => {
       const found: string[] = [];
-      for (const rung of document.querySelectorAll<HTMLElement>('[data-testid=rung-editor]')) {
+      const all = (root: ParentNode, selector: string) =>
+        Array.from(root.querySelectorAll(selector)) as HTMLElement[];
+      for (const rung of all(document, '[data-testid=rung-editor]')) {
         if (rung.scrollWidth > rung.clientWidth + 1) found.push(`rung overflows by ${rung.scrollWidth - rung.clientWidth}px`);
         const rungBox = rung.getBoundingClientRect();
-        for (const field of rung.querySelectorAll<HTMLElement>('.requirement > *')) {
+        for (const field of all(rung, '.requirement > *')) {
           const box = field.getBoundingClientRect();
           if (box.right > rungBox.right + 1) found.push(`${field.className} past the card`);
         }
-        for (const text of rung.querySelectorAll<HTMLElement>(
+        for (const text of all(
+          rung,
           '.requirement mat-label, .requirement .mat-mdc-select-value-text, .requirement input',
         )) {
           if (text.scrollWidth > text.clientWidth + 1) found.push(`cut: ${text.textContent || (text as HTMLInputElement).value}`);
