@@ -213,7 +213,6 @@ export class LadderEditor {
     if (this.dirty() && !(await this.saved())) return;
     const draft = this.draft();
     if (!draft) return;
-    this.busy.set('publishing');
     const ladder = await firstValueFrom(
       this.dialog
         .open<ImpactDialog, ImpactDialogData, Ladder>(ImpactDialog, {
@@ -223,7 +222,6 @@ export class LadderEditor {
         })
         .afterClosed(),
     );
-    this.busy.set(null);
     if (!ladder) return;
     this.snackBar.open(`“${ladder.name}” is now the ladder in force.`, 'Close', {
       duration: 6000,
