@@ -167,6 +167,12 @@ describe('Director report', () => {
     expect(message!.to).toEqual(['director.hpms@merrowbasin.example']);
     expect(message!.text).toContain('Stalled students');
     expect(message!.html).toContain('<table');
+    // The heading names the school; the line under it does not say it again.
+    const [, heading, subtitle] = /font-size:20px[^>]*>([^<]*)<\/div><div[^>]*>([^<]*)<\/div>/.exec(
+      message!.html ?? '',
+    )!;
+    expect(heading).toBe('Heron Point Middle (HPMS): director report');
+    expect(subtitle).toBe('2026-11-01 to 2026-11-30');
     expect(message!.attachments.map((attachment) => attachment.filename)).toEqual([
       'HPMS-enrolment.csv',
       'HPMS-pass-offs.csv',
