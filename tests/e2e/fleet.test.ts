@@ -140,6 +140,13 @@ describe('Instrument fleet screens', () => {
       .poll(() => page.getByTestId('loan-panel').innerText(), patient)
       .toContain('Returned');
     await page.goto(`${app.url}/instruments/${instrument.id}`);
+    // An asset tag is one token: it does not break at its hyphen, even on a phone.
+    await page.setViewportSize({ width: 360, height: 740 });
+    const tag = page.getByTestId('instrument-title').locator('.tb-asset-tag');
+    await tag.waitFor();
+    const lines = await tag.evaluate((element) => element.getClientRects().length);
+    expect(lines).toBe(1);
+    await page.setViewportSize({ width: 1360, height: 860 });
     await expect
       .poll(() => page.getByTestId('instrument-status').innerText(), patient)
       .toBe('To clean');

@@ -39,7 +39,7 @@ interface Group {
           <ul>
             @for (instrument of group.instruments.slice(0, 60); track instrument.id) {
               <li>
-                <a [routerLink]="['/instruments', instrument.id]">{{ instrument.assetTag }}</a>
+                <a class="tb-asset-tag" [routerLink]="['/instruments', instrument.id]">{{ instrument.assetTag }}</a>
                 {{ instrument.instrumentName }}
                 @if (group.id === 'elsewhere') {
                   <span class="tb-muted">· home {{ instrument.homeSchoolCode }}</span>
