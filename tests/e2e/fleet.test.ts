@@ -166,6 +166,22 @@ describe('Instrument fleet screens', () => {
       .toContain('Cleaned and sanitised');
     const after = await coordinator.get(`/api/instruments/${instrument.id}`);
     expect(after.body.status).toBe('available');
+
+    // The instrument's own page has the list's actions: its label, a repair, and lending it.
+    const label = page.getByTestId('instrument-label');
+    await page.getByTestId('labels-used').fill('4');
+    await expect
+      .poll(() => label.getAttribute('href'))
+      .toBe(`/api/instruments/labels.pdf?instrumentId=${instrument.id}&skip=4`);
+    expect(await page.getByTestId('instrument-repair').isVisible()).toBe(true);
+    expect(await page.getByTestId('instrument-return').count()).toBe(0);
+    await page.getByTestId('instrument-lend').click();
+    const lendDialog = page.getByRole('dialog');
+    await expect
+      .poll(() => lendDialog.innerText(), patient)
+      .toContain(instrument.assetTag);
+    await saveScreenshot(page, 'instrument-lend');
+    await page.keyboard.press('Escape');
     expect(outside).toEqual([]);
     await context.close();
   });
