@@ -178,7 +178,7 @@ describe('Instrument fleet screens', () => {
     await page.getByTestId('instrument-lend').click();
     const lendDialog = page.getByRole('dialog');
     await expect
-      .poll(() => lendDialog.innerText(), patient)
+      .poll(() => lendDialog.getByTestId('instrument-picker').inputValue(), patient)
       .toContain(instrument.assetTag);
     await saveScreenshot(page, 'instrument-lend');
     await page.keyboard.press('Escape');
