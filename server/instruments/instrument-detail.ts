@@ -83,7 +83,15 @@ export async function instrumentDetail(
   return {
     ...instrument,
     timeline: timeline.map(
-      ({ studentId, studentSchoolId, studentNumber, firstName, preferredName, lastName, ...event }) => {
+      ({
+        studentId,
+        studentSchoolId,
+        studentNumber,
+        firstName,
+        preferredName,
+        lastName,
+        ...event
+      }) => {
         // The student a loan event is about, named only to those who may see that student.
         const named =
           studentId !== null &&

@@ -53,7 +53,10 @@ const labelQuerySchema = z.object({
     .number()
     .int()
     .min(0)
-    .max(labelsPerSheet - 1, `A sheet has ${labelsPerSheet} labels; skip at most ${labelsPerSheet - 1}.`)
+    .max(
+      labelsPerSheet - 1,
+      `A sheet has ${labelsPerSheet} labels; skip at most ${labelsPerSheet - 1}.`,
+    )
     .default(0),
 });
 const importQuerySchema = z.object({ dryRun: z.enum(['true', 'false']).default('true') });

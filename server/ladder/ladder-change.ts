@@ -47,8 +47,10 @@ function reasonFor(requirement: Requirement, rung: number, before: Rung[], famil
   if (!earlierRung || !earlier) return `${what} was added to rung ${rung}`;
   if (earlierRung.number > rung)
     return `${what} moved from rung ${earlierRung.number} to rung ${rung}`;
-  if (earlier.optional && !requirement.optional) return `${what} in rung ${rung} is no longer optional`;
-  if (!applies(earlier, family)) return `${what} in rung ${rung} now applies to ${familyWords[family] ?? family}`;
+  if (earlier.optional && !requirement.optional)
+    return `${what} in rung ${rung} is no longer optional`;
+  if (!applies(earlier, family))
+    return `${what} in rung ${rung} now applies to ${familyWords[family] ?? family}`;
   if (requirement.tempo > earlier.tempo)
     return `${what} in rung ${rung} now asks for ♩ = ${requirement.tempo} (it was ${earlier.tempo})`;
   return `${what} in rung ${rung} changed`;

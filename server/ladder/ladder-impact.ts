@@ -56,7 +56,11 @@ async function activeStudents(db: Queryable) {
   }));
 }
 
-function share(standings: readonly Standing[], benchmarks: readonly LadderBenchmark[], side: 'rungBefore' | 'rungAfter') {
+function share(
+  standings: readonly Standing[],
+  benchmarks: readonly LadderBenchmark[],
+  side: 'rungBefore' | 'rungAfter',
+) {
   const inForce = benchmarksInForce(benchmarks, today());
   let counted = 0;
   let atOrAbove = 0;
@@ -147,7 +151,11 @@ function moveOf(standing: Standing): 'up' | 'down' | 'same' {
 export async function ladderImpactStudents(
   db: Queryable,
   versionId: number,
-  filter: { schoolId?: number | undefined; grade?: number | undefined; move: 'up' | 'down' | 'same' },
+  filter: {
+    schoolId?: number | undefined;
+    grade?: number | undefined;
+    move: 'up' | 'down' | 'same';
+  },
 ): Promise<LadderImpactStudent[]> {
   const candidate = await loadLadder(db, versionId);
   assertNotActive(candidate);

@@ -179,8 +179,9 @@ describe('Instruments', () => {
     const sheet = await binary(
       director.get(`/api/instruments/labels.pdf?schoolId=${schoolIds['HPMS']}`),
     );
-    const instrument = (await director.get(`/api/instruments?homeSchoolId=${schoolIds['HPMS']}&limit=1`))
-      .body.rows[0];
+    const instrument = (
+      await director.get(`/api/instruments?homeSchoolId=${schoolIds['HPMS']}&limit=1`)
+    ).body.rows[0];
     const one = await binary(
       director.get(`/api/instruments/labels.pdf?instrumentId=${instrument.id}&skip=4`),
     );
@@ -188,8 +189,8 @@ describe('Instruments', () => {
     expect((one.body as Buffer).subarray(0, 5).toString('latin1')).toBe('%PDF-');
     // Each label carries the same images (its QR code): the school's sheet has as many sets as
     // the school has instruments, the single label's sheet one set.
-    const total = (await director.get(`/api/instruments?homeSchoolId=${schoolIds['HPMS']}&limit=1`)).body
-      .total as number;
+    const total = (await director.get(`/api/instruments?homeSchoolId=${schoolIds['HPMS']}&limit=1`))
+      .body.total as number;
     expect(total).toBeGreaterThan(1);
     expect(images(one.body as Buffer)).toBeGreaterThan(0);
     expect(images(sheet.body as Buffer)).toBe(images(one.body as Buffer) * total);
@@ -197,8 +198,9 @@ describe('Instruments', () => {
       (await director.get(`/api/instruments/labels.pdf?instrumentId=${instrument.id}&skip=30`))
         .status,
     ).toBe(400);
-    const elsewhere = (await coordinator.get(`/api/instruments?homeSchoolId=${schoolIds['QHMS']}&limit=1`))
-      .body.rows[0];
+    const elsewhere = (
+      await coordinator.get(`/api/instruments?homeSchoolId=${schoolIds['QHMS']}&limit=1`)
+    ).body.rows[0];
     expect(
       (await director.get(`/api/instruments/labels.pdf?instrumentId=${elsewhere.id}`)).status,
     ).toBe(404);

@@ -41,9 +41,14 @@ async function newInstrument(assetTag: string, purchasedOn: string | null) {
 describe('An instrument’s timeline', () => {
   it('should name the student of a loan, with their id, only to roles that may see students', async () => {
     const instrument = await newInstrument('HP-TL-0001', '2019-08-15');
-    const student = (
-      await director.get(`/api/students?schoolId=${hpms}&status=active&limit=1`)
-    ).body.rows[0] as { id: number; studentNumber: string; firstName: string; lastName: string; preferredName: string | null };
+    const student = (await director.get(`/api/students?schoolId=${hpms}&status=active&limit=1`))
+      .body.rows[0] as {
+      id: number;
+      studentNumber: string;
+      firstName: string;
+      lastName: string;
+      preferredName: string | null;
+    };
     const lent = await director.post('/api/loans', {
       instrumentId: instrument.id,
       studentId: student.id,
@@ -54,7 +59,9 @@ describe('An instrument’s timeline', () => {
       (await director.get(`/api/instruments/${instrument.id}`)).body,
     );
     const loanOut = seen.timeline.find((event) => event.kind === 'loan-out')!;
-    expect(loanOut.studentName).toBe(`${student.preferredName ?? student.firstName} ${student.lastName}`);
+    expect(loanOut.studentName).toBe(
+      `${student.preferredName ?? student.firstName} ${student.lastName}`,
+    );
     expect(loanOut.studentNumber).toBe(student.studentNumber);
     // Purchased, on the day it was bought.
     const purchase = seen.timeline.find((event) => event.kind === 'purchase')!;
@@ -96,7 +103,9 @@ describe('The annual count', () => {
     const started = await director.post('/api/counts', { schoolId: hpms });
     expect(started.status).toBe(201);
     for (const tag of [atVendor.assetTag, onShelf.assetTag]) {
-      expect((await director.post(`/api/counts/${started.body.id}/scans`, { assetTag: tag })).status).toBe(201);
+      expect(
+        (await director.post(`/api/counts/${started.body.id}/scans`, { assetTag: tag })).status,
+      ).toBe(201);
     }
     const detail = countDetailSchema.parse(
       (await director.get(`/api/counts/${started.body.id}`)).body,

@@ -81,7 +81,10 @@ describe('Publishing a ladder version', () => {
     expect(draft.name).toMatch(/\(draft\)/);
     const rungs = draft.rungs.map((rung) =>
       rung.number === 1
-        ? { ...rung, requirements: [...rung.requirements, newRequirement('r1-c-major-new', family)] }
+        ? {
+            ...rung,
+            requirements: [...rung.requirements, newRequirement('r1-c-major-new', family)],
+          }
         : rung,
     );
     const edited = await coordinator.patch(`/api/ladder/versions/${draft.id}`, {
@@ -121,7 +124,9 @@ describe('Publishing a ladder version', () => {
       `/api/ladder/versions/${draft.id}/impact/students?schoolId=${progress.schoolId}&grade=${progress.grade}&move=down`,
     );
     expect(namesResponse.status).toBe(200);
-    const names = namesResponse.body.rows.map((row: unknown) => ladderImpactStudentSchema.parse(row));
+    const names = namesResponse.body.rows.map((row: unknown) =>
+      ladderImpactStudentSchema.parse(row),
+    );
     expect(names).toHaveLength(ownGroup.down);
     const own = names.find((row: { studentId: number }) => row.studentId === ownStudentId)!;
     expect(own.name).toBe(progress.studentName);
@@ -191,8 +196,11 @@ describe('Publishing a ladder version', () => {
       400,
     );
     expect(
-      (await director.post(`/api/ladder/versions/${active.id}/restore`, { impactToken: back.token }))
-        .status,
+      (
+        await director.post(`/api/ladder/versions/${active.id}/restore`, {
+          impactToken: back.token,
+        })
+      ).status,
     ).toBe(403);
     const restored = await coordinator.post(`/api/ladder/versions/${active.id}/restore`, {
       impactToken: back.token,

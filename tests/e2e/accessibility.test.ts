@@ -160,7 +160,10 @@ describe('Accessibility', () => {
         await new AxeBuilder({ page })
           .withRules(['heading-order', 'page-has-heading-one', 'aria-dialog-name'])
           .analyze()
-      ).violations.map((violation) => `${violation.id}: ${violation.nodes.map((node) => node.target.join(' ')).join(', ')}`);
+      ).violations.map(
+        (violation) =>
+          `${violation.id}: ${violation.nodes.map((node) => node.target.join(' ')).join(', ')}`,
+      );
     expect(await headings()).toEqual([]);
 
     // A ladder version that is not a draft opens the editor's error state; it still has its h1.

@@ -154,7 +154,8 @@ describe('Scale ladder screen', () => {
       const all = (root: ParentNode, selector: string) =>
         Array.from(root.querySelectorAll(selector)) as HTMLElement[];
       for (const rung of all(document, '[data-testid=rung-editor]')) {
-        if (rung.scrollWidth > rung.clientWidth + 1) found.push(`rung overflows by ${rung.scrollWidth - rung.clientWidth}px`);
+        if (rung.scrollWidth > rung.clientWidth + 1)
+          found.push(`rung overflows by ${rung.scrollWidth - rung.clientWidth}px`);
         const rungBox = rung.getBoundingClientRect();
         for (const field of all(rung, '.requirement > *')) {
           const box = field.getBoundingClientRect();
@@ -164,7 +165,8 @@ describe('Scale ladder screen', () => {
           rung,
           '.requirement mat-label, .requirement .mat-mdc-select-value-text, .requirement input',
         )) {
-          if (text.scrollWidth > text.clientWidth + 1) found.push(`cut: ${text.textContent || (text as HTMLInputElement).value}`);
+          if (text.scrollWidth > text.clientWidth + 1)
+            found.push(`cut: ${text.textContent || (text as HTMLInputElement).value}`);
         }
       }
       return found;
@@ -210,9 +212,9 @@ describe('Scale ladder screen', () => {
     // Publishing shows its impact first: moves by school and grade, names, the benchmark share.
     await page.getByTestId('publish').click();
     const dialog = page.getByRole('dialog');
-    await expect.poll(() => dialog.getByTestId('impact-summary').innerText(), patient).toMatch(
-      /\d+ students? moves? up, \d+ moves? down and \d+ stays? on the same rung/,
-    );
+    await expect
+      .poll(() => dialog.getByTestId('impact-summary').innerText(), patient)
+      .toMatch(/\d+ students? moves? up, \d+ moves? down and \d+ stays? on the same rung/);
     expect(await dialog.getByTestId('impact-benchmark').innerText()).toMatch(
       /benchmark today: \d+% \(\d+ of \d+\) now, \d+% \(\d+ of \d+\) after/,
     );
@@ -273,9 +275,9 @@ describe('Scale ladder screen', () => {
     await page.goto(`${app.url}/ladder`);
     await page.getByTestId('roll-back').click();
     const back = page.getByRole('dialog');
-    await expect.poll(() => back.getByTestId('impact-summary').innerText(), patient).toMatch(
-      /\d+ students? moves? up/,
-    );
+    await expect
+      .poll(() => back.getByTestId('impact-summary').innerText(), patient)
+      .toMatch(/\d+ students? moves? up/);
     await saveScreenshot(page, 'ladder-roll-back');
     await back.getByTestId('confirm-impact').click();
     await expect

@@ -45,7 +45,9 @@ interface Group {
           <ul>
             @for (instrument of group.instruments.slice(0, 60); track instrument.id) {
               <li>
-                <a class="tb-asset-tag" [routerLink]="['/instruments', instrument.id]">{{ instrument.assetTag }}</a>
+                <a class="tb-asset-tag" [routerLink]="['/instruments', instrument.id]">{{
+                  instrument.assetTag
+                }}</a>
                 {{ instrument.instrumentName }}
                 @if (group.id === 'at-vendor') {
                   <span class="tb-muted">· ticket says at {{ vendorOf(instrument) }}</span>

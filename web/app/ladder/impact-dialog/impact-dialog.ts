@@ -6,11 +6,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { of } from 'rxjs';
-import {
-  draftNameMark,
-  type Ladder,
-  type LadderImpactGroup,
-} from '../../../../shared/api/ladder';
+import { draftNameMark, type Ladder, type LadderImpactGroup } from '../../../../shared/api/ladder';
 import { errorMessage } from '../../core/parse';
 import { gradeText } from '../date-text';
 import { LadderData } from '../ladder-data';
@@ -63,7 +59,8 @@ export class ImpactDialog {
     if (this.data.mode !== 'publish') return '';
     const name = this.name().trim();
     if (!name) return 'Give the version a name.';
-    if (draftNameMark.test(name)) return 'A published version takes a name of its own, without “(draft)”.';
+    if (draftNameMark.test(name))
+      return 'A published version takes a name of its own, without “(draft)”.';
     return '';
   });
   protected readonly drill = signal<{ group: LadderImpactGroup; move: Move } | null>(null);
