@@ -13,6 +13,7 @@ import { recomputeAttainment } from '../ladder/attainment';
 import { notFound } from '../core/errors';
 import type { Actor } from '../core/policy';
 import { activeRuleLadder } from '../ladder/ladder-queries';
+import { rungDropNote } from '../ladder/ladder-change';
 import { familyOf, studentInstruments } from '../ladder/student-families';
 import { maySeeStudent } from '../pass-offs/pass-off-rows';
 import { passOffsOfStudent } from '../pass-offs/pass-offs-service';
@@ -73,6 +74,7 @@ export async function studentProgress(
   const nextRung = ladder.apiRungs.find((candidate) => candidate.number === next.rung);
   const benchmark = benchmarksInForce(ladder.benchmarks, asOf).get(student.grade);
   await healSummary(db, studentId, { rung, family, versionId: ladder.versionId });
+  const ladderChange = await rungDropNote(db, ladder, records, family);
   return {
     studentId,
     studentName: `${student.preferredName ?? student.firstName} ${student.lastName}`,
@@ -104,5 +106,6 @@ export async function studentProgress(
         ? [{ passOffId: passOff.id, message: passOff.standingNote! }]
         : [],
     ),
+    ladderChange,
   };
 }

@@ -1,6 +1,6 @@
 import { and, count, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import type { Database } from '../db/client';
-import { countScans, counts, instruments, schools, users } from '../db/schema/index';
+import { countScans, counts, instruments, repairTickets, schools, users } from '../db/schema/index';
 import type { ListResponse } from '../../shared/api/list';
 import {
   countFiltersSchema,
@@ -231,6 +231,23 @@ export async function countDetail(db: Database, actor: Actor, id: number): Promi
     homeSchoolCode: row.homeSchoolCode,
   });
   const home = relevant.filter((row) => row.homeSchoolId === current.schoolId);
+  const sent = scannedIds.size
+    ? await db
+        .select({
+          id: repairTickets.id,
+          instrumentId: repairTickets.instrumentId,
+          vendor: repairTickets.vendor,
+          sentOn: repairTickets.sentOn,
+        })
+        .from(repairTickets)
+        .where(
+          and(
+            eq(repairTickets.status, 'sent'),
+            inArray(repairTickets.instrumentId, [...scannedIds]),
+          ),
+        )
+    : [];
+  const sentByInstrument = new Map(sent.map((ticket) => [ticket.instrumentId, ticket]));
   return {
     ...current,
     scans: scans.map((scan) => ({
@@ -258,6 +275,19 @@ export async function countDetail(db: Database, actor: Actor, id: number): Promi
       onLoan: home
         .filter((row) => !scannedIds.has(row.id) && row.status === 'on-loan')
         .map(toCounted),
+      atVendor: relevant.flatMap((row) => {
+        const ticket = sentByInstrument.get(row.id);
+        return ticket
+          ? [
+              {
+                ...toCounted(row),
+                repairId: ticket.id,
+                vendor: ticket.vendor,
+                sentOn: ticket.sentOn,
+              },
+            ]
+          : [];
+      }),
     },
   };
 }

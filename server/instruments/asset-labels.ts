@@ -3,6 +3,7 @@ import { and, asc, eq } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import { instruments, schools } from '../db/schema/index';
 import { assertInScope, type Actor } from '../core/policy';
+import { notFound } from '../core/errors';
 import { instrumentScope } from './instruments-queries';
 import { instrumentNameOf } from './instrument-cautions';
 import { renderPdf } from './pdf-document';
@@ -18,6 +19,7 @@ export async function assetLabelsPdf(
   db: Database,
   actor: Actor,
   schoolId?: number,
+  one?: { instrumentId: number; skip: number },
 ): Promise<Buffer> {
   if (schoolId !== undefined) assertInScope(actor, schoolId, 'That school');
   const rows = await db
@@ -32,11 +34,14 @@ export async function assetLabelsPdf(
       and(
         instrumentScope(actor),
         schoolId === undefined ? undefined : eq(instruments.homeSchoolId, schoolId),
+        one === undefined ? undefined : eq(instruments.id, one.instrumentId),
       ),
     )
     .orderBy(asc(schools.code), asc(instruments.assetTag))
     .limit(labelLimit);
-  const labels = await Promise.all(
+  if (one && rows.length === 0) throw notFound('That instrument');
+  const labels: unknown[] = Array.from({ length: one?.skip ?? 0 }, () => ({ text: '' }));
+  const printed = await Promise.all(
     rows.map(async (row) => ({
       columns: [
         {
@@ -64,7 +69,10 @@ export async function assetLabelsPdf(
       margin: [4, 4, 4, 4],
     })),
   );
+  labels.push(...printed);
   const body: unknown[][] = [];
+  // One label on a part-used sheet: the labels already peeled off (`skip`) are left blank, so
+  // this one prints where the next free label is.
   for (let start = 0; start < labels.length; start += labelsAcross) {
     const line: unknown[] = labels.slice(start, start + labelsAcross);
     while (line.length < labelsAcross) line.push({ text: '' });

@@ -12,6 +12,7 @@ import type { InstrumentDetail } from '../../shared/api/instrument';
 import type { Actor } from '../core/policy';
 import { findInstrument } from './instruments-queries';
 import { todayIso } from '../loans/school-calendar';
+import { maySeeStudent } from '../pass-offs/pass-off-rows';
 
 /** One instrument with its timeline, photos, active loan and open repair tickets. */
 export async function instrumentDetail(
@@ -31,9 +32,17 @@ export async function instrumentDetail(
         loanId: instrumentEvents.loanId,
         repairId: instrumentEvents.repairId,
         countId: instrumentEvents.countId,
+        studentId: students.id,
+        studentSchoolId: students.schoolId,
+        studentNumber: students.studentNumber,
+        firstName: students.firstName,
+        preferredName: students.preferredName,
+        lastName: students.lastName,
       })
       .from(instrumentEvents)
       .leftJoin(users, eq(users.id, instrumentEvents.userId))
+      .leftJoin(loans, eq(loans.id, instrumentEvents.loanId))
+      .leftJoin(students, eq(students.id, loans.studentId))
       .where(eq(instrumentEvents.instrumentId, id))
       .orderBy(desc(instrumentEvents.at), desc(instrumentEvents.id))
       .limit(200),
@@ -73,7 +82,35 @@ export async function instrumentDetail(
   ]);
   return {
     ...instrument,
-    timeline: timeline.map((event) => ({ ...event, at: event.at.toISOString() })),
+    timeline: timeline.map(
+      ({
+        studentId,
+        studentSchoolId,
+        studentNumber,
+        firstName,
+        preferredName,
+        lastName,
+        ...event
+      }) => {
+        // The student a loan event is about, named only to those who may see that student.
+        const named =
+          studentId !== null &&
+          studentSchoolId !== null &&
+          maySeeStudent(actor, { id: studentId, schoolId: studentSchoolId });
+        // "Purchased" only with a known purchase date, on that date; otherwise it was added.
+        const purchase = event.kind === 'purchase';
+        return {
+          ...event,
+          kind: purchase && !instrument.purchasedOn ? ('added' as const) : event.kind,
+          at:
+            purchase && instrument.purchasedOn
+              ? `${instrument.purchasedOn}T12:00:00.000Z`
+              : event.at.toISOString(),
+          studentName: named ? `${preferredName ?? firstName} ${lastName}` : null,
+          studentNumber: named ? studentNumber : null,
+        };
+      },
+    ),
     photos: photos.map((photo) => ({
       id: photo.id,
       contentType: photo.contentType,

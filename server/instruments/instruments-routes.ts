@@ -42,7 +42,23 @@ function receivePhoto(request: Request, response: Response, next: NextFunction) 
   });
 }
 
-const labelQuerySchema = z.object({ schoolId: idParameter.optional() });
+/** Labels per sheet: 3 across, 10 down (a common US Letter label sheet, from memory). */
+const labelsPerSheet = 30;
+const labelQuerySchema = z.object({
+  schoolId: idParameter.optional(),
+  /** One instrument's label only. */
+  instrumentId: idParameter.optional(),
+  /** How many labels of the sheet are used already: the label prints in the next free place. */
+  skip: z.coerce
+    .number()
+    .int()
+    .min(0)
+    .max(
+      labelsPerSheet - 1,
+      `A sheet has ${labelsPerSheet} labels; skip at most ${labelsPerSheet - 1}.`,
+    )
+    .default(0),
+});
 const importQuerySchema = z.object({ dryRun: z.enum(['true', 'false']).default('true') });
 
 /** `/api/instruments`: the fleet, its photos, labels, cleaning and CSV import. */
@@ -52,8 +68,17 @@ export function instrumentsRoutes({ db, config }: Services): Router {
     response.json(await listInstruments(db, actorOf(request), request.query));
   });
   router.get('/instruments/labels.pdf', requires('fleet:read'), async (request, response) => {
-    const { schoolId } = parseInput(labelQuerySchema, request.query, 'The label query');
-    const pdf = await assetLabelsPdf(db, actorOf(request), schoolId);
+    const { schoolId, instrumentId, skip } = parseInput(
+      labelQuerySchema,
+      request.query,
+      'The label query',
+    );
+    const pdf = await assetLabelsPdf(
+      db,
+      actorOf(request),
+      schoolId,
+      instrumentId === undefined ? undefined : { instrumentId, skip },
+    );
     response
       .type('application/pdf')
       .set('Content-Disposition', 'inline; filename="asset-labels.pdf"')

@@ -1,5 +1,11 @@
 import { Router } from 'express';
-import { ladderDraftInputSchema, ladderPatchSchema } from '../../shared/api/ladder';
+import {
+  ladderDraftInputSchema,
+  ladderImpactStudentsQuerySchema,
+  ladderPatchSchema,
+  ladderPublishInputSchema,
+} from '../../shared/api/ladder';
+import { ladderImpact, ladderImpactStudents } from './ladder-impact';
 import { actorOf, requires } from '../core/policy';
 import { nothing, parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
@@ -13,6 +19,7 @@ import {
   getVersion,
   listVersions,
   publishVersion,
+  restoreVersion,
   updateDraft,
 } from './ladder-service';
 
@@ -42,11 +49,36 @@ export function ladderRoutes({ db }: Services): Router {
     await deleteDraft(db, actorOf(request), parseId(request.params['id']));
     response.status(204).end();
   });
+  router.get('/ladder/versions/:id/impact', requires('ladder:write'), async (request, response) => {
+    response.json(await ladderImpact(db, parseId(request.params['id'])));
+  });
+  router.get(
+    '/ladder/versions/:id/impact/students',
+    requires('ladder:write'),
+    async (request, response) => {
+      const filter = parseInput(ladderImpactStudentsQuerySchema, request.query, 'The filter');
+      const rows = await ladderImpactStudents(db, parseId(request.params['id']), filter);
+      response.json({ rows, total: rows.length });
+    },
+  );
   router.post(
     '/ladder/versions/:id/publish',
     requires('ladder:write'),
     async (request, response) => {
-      response.json(await publishVersion(db, actorOf(request), parseId(request.params['id'])));
+      const input = parseInput(ladderPublishInputSchema, request.body ?? {}, 'The publish');
+      response.json(
+        await publishVersion(db, actorOf(request), parseId(request.params['id']), input),
+      );
+    },
+  );
+  router.post(
+    '/ladder/versions/:id/restore',
+    requires('ladder:write'),
+    async (request, response) => {
+      const input = parseInput(ladderPublishInputSchema, request.body ?? {}, 'The roll-back');
+      response.json(
+        await restoreVersion(db, actorOf(request), parseId(request.params['id']), input),
+      );
     },
   );
   // Seats and instruments change through the roster; this brings every rung up to date with them.

@@ -6,14 +6,17 @@ import {
   ladderVersionStatuses,
   type Ladder,
   type LadderDraftInput,
+  draftNameMark,
   type LadderPatch,
+  type LadderPublishInput,
   type LadderVersionSummary,
 } from '../../shared/api/ladder';
 import type { ListResponse } from '../../shared/api/list';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { can, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
-import { conflict, notFound } from '../core/errors';
+import { badRequest, conflict, notFound } from '../core/errors';
+import { assertImpactSeen } from './ladder-impact';
 import { updateVersioned } from '../core/versioned-update';
 import { rebuildAttainment } from './attainment';
 import { refreshStatistics, summaryTables } from '../db/statistics';
@@ -158,35 +161,86 @@ export async function deleteDraft(db: Database, actor: Actor, id: number): Promi
 }
 
 /**
- * Publishes a draft: it becomes the active version, the one it replaces is archived, and every
- * student's rung is recomputed against it in the same transaction.
+ * Publishes a draft under a name of its own, once its impact has been seen: it becomes the
+ * active version, the one it replaces is archived, and every student's rung is recomputed
+ * against it in the same transaction.
  */
-export async function publishVersion(db: Database, actor: Actor, id: number): Promise<Ladder> {
+export async function publishVersion(
+  db: Database,
+  actor: Actor,
+  id: number,
+  input: LadderPublishInput,
+): Promise<Ladder> {
   const draft = await loadLadder(db, id);
   if (draft.status !== 'draft')
     throw conflict('Only a draft can be published; this version already was.');
+  const name = input.name ?? draft.name;
+  if (draftNameMark.test(name))
+    throw badRequest('Give the version a name of its own before publishing it.', [
+      { field: 'name', message: 'A published version takes a name of its own, without “(draft)”.' },
+    ]);
+  await putInForce(db, actor, draft, input.impactToken, {
+    action: 'publish',
+    set: { status: 'published', name, publishedAt: new Date() },
+    from: 'draft',
+  });
+  return loadLadder(db, id);
+}
+
+/**
+ * Puts an earlier published version back in force (a roll-back), once its impact has been
+ * seen; the version it replaces is archived and can be put back the same way.
+ */
+export async function restoreVersion(
+  db: Database,
+  actor: Actor,
+  id: number,
+  input: LadderPublishInput,
+): Promise<Ladder> {
+  const earlier = await loadLadder(db, id);
+  if (earlier.status !== 'archived' || earlier.publishedAt === null)
+    throw conflict('Only a version that was in force before can be put back in force.');
+  await putInForce(db, actor, earlier, input.impactToken, {
+    action: 'restore',
+    set: { status: 'published' },
+    from: 'archived',
+  });
+  return loadLadder(db, id);
+}
+
+async function putInForce(
+  db: Database,
+  actor: Actor,
+  candidate: Ladder,
+  impactToken: string,
+  change: {
+    action: 'publish' | 'restore';
+    set: Partial<typeof ladderVersions.$inferInsert>;
+    from: 'draft' | 'archived';
+  },
+): Promise<void> {
   await db.transaction(async (tx) => {
+    await assertImpactSeen(tx, candidate, impactToken);
     const replaced = await tx
       .update(ladderVersions)
       .set({ active: false, status: 'archived', updatedAt: new Date() })
-      .where(and(eq(ladderVersions.active, true), ne(ladderVersions.id, id)))
+      .where(and(eq(ladderVersions.active, true), ne(ladderVersions.id, candidate.id)))
       .returning({ id: ladderVersions.id });
     const published = await tx
       .update(ladderVersions)
-      .set({ status: 'published', active: true, publishedAt: new Date(), updatedAt: new Date() })
-      .where(and(eq(ladderVersions.id, id), eq(ladderVersions.status, 'draft')))
+      .set({ ...change.set, active: true, updatedAt: new Date() })
+      .where(and(eq(ladderVersions.id, candidate.id), eq(ladderVersions.status, change.from)))
       .returning({ id: ladderVersions.id });
     if (published.length === 0)
       throw conflict('Someone else published or changed this version first.');
     await rebuildAttainment(tx, { from: 'summaries' });
     await recordAudit(tx, actor, {
-      action: 'publish',
+      action: change.action,
       entity: 'ladder-version',
-      entityId: id,
+      entityId: candidate.id,
       before: { archived: replaced.map((row) => row.id) },
-      after: { active: id },
+      after: { active: candidate.id, ...(change.set.name ? { name: change.set.name } : {}) },
     });
   });
   await refreshStatistics(db, summaryTables);
-  return loadLadder(db, id);
 }

@@ -7,7 +7,6 @@ import {
   figureText,
   gradeLabel,
   percent,
-  reportSubject,
   shareChange,
 } from './report-format';
 
@@ -118,9 +117,10 @@ export function directorReportHtml(data: DirectorReportData): string {
   } else {
     parts.push(unavailable(fleet));
   }
+  // The heading names the school once; the line under it only adds the period.
   return mailDocument(
-    reportSubject(data),
-    `${data.school.name}, ${data.from} to ${data.to}`,
+    `${data.school.name} (${data.school.code}): director report`,
+    `${data.from} to ${data.to}`,
     parts.join('\n'),
   );
 }
@@ -169,7 +169,7 @@ export function districtReportHtml(data: DistrictReportData): string {
     ),
   ];
   return mailDocument(
-    reportSubject(data),
+    'District summary',
     `Every school, ${data.from} to ${data.to}`,
     parts.join('\n'),
   );

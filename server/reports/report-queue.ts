@@ -18,6 +18,13 @@ export interface ReportRequest {
   /** The user who sent it; null for the scheduler. */
   createdBy: number | null;
   scheduleId?: number | null;
+  /** Whether it is a test the sender sends to themselves before it goes out for real. */
+  test?: boolean;
+}
+
+/** The subject line, marked when the message is a test. */
+function subjectOf(request: ReportRequest, subject: string): string {
+  return request.test ? `Test: ${subject}` : subject;
 }
 
 /** The messages queued and the report runs recorded. */
@@ -47,6 +54,8 @@ async function queueDirectorReports(db: Queryable, request: ReportRequest): Prom
       : target.schoolIds;
   const queued: QueuedReports = { outboxIds: [], runIds: [] };
   for (const schoolId of schoolIds) {
+    // A test is one school's report: enough to see how it reads.
+    if (request.test && queued.outboxIds.length) break;
     const recipients = unique(
       target.recipients ??
         directors
@@ -67,7 +76,7 @@ async function queueDirectorReports(db: Queryable, request: ReportRequest): Prom
           await enqueueMail(tx, {
             kind: 'report',
             to: [recipient],
-            subject: reportSubject(data),
+            subject: subjectOf(request, reportSubject(data)),
             text: rendered.text,
             html: rendered.html,
             attachments,
@@ -122,7 +131,7 @@ async function queueDistrictSummary(db: Queryable, request: ReportRequest): Prom
         await enqueueMail(tx, {
           kind: 'report',
           to: [recipient],
-          subject: reportSubject(data),
+          subject: subjectOf(request, reportSubject(data)),
           text: rendered.text,
           html: rendered.html,
           attachments,

@@ -64,15 +64,17 @@ export async function sendReport(
   } else if (actor.role !== 'coordinator') {
     throw forbidden('Your role does not send reports.');
   }
+  if (input.test) target.recipients = [actor.email];
   const queued = await queueReports(db, {
     kind: input.kind,
     from: input.from,
     to: input.to,
     target,
     createdBy: actor.userId,
+    test: input.test ?? false,
   });
   await recordAudit(db, actor, {
-    action: 'send',
+    action: input.test ? 'send-test' : 'send',
     entity: 'report',
     entityId: queued.runIds.join(',') || 'none',
     after: {

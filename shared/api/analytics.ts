@@ -10,6 +10,21 @@ export const drillSchema = z.object({
 });
 export type Drill = z.infer<typeof drillSchema>;
 
+/** Why a student's rung dropped when the ladder in force last changed. */
+export const ladderChangeNoteSchema = z.object({
+  /** ISO date the version now in force was put in force. */
+  changedOn: z.string(),
+  previousVersionName: z.string(),
+  versionName: z.string(),
+  rungBefore: z.number().int(),
+  rungAfter: z.number().int(),
+  /** Each change that now stands in the student's way: 'G major for strings was added to rung 1'. */
+  reasons: z.array(z.string()),
+  /** The whole note in one sentence, as the student's page shows it. */
+  message: z.string(),
+});
+export type LadderChangeNote = z.infer<typeof ladderChangeNoteSchema>;
+
 /** `GET /api/analytics/students/:id/progress`: where a student stands on the active ladder. */
 export const studentProgressSchema = z.object({
   studentId: z.number().int(),
@@ -42,6 +57,8 @@ export const studentProgressSchema = z.object({
   recordings: z.array(recordingSchema.extend({ passOffId: z.number().int() })),
   /** Plain-language notes on the pass-offs that no longer count. */
   notes: z.array(z.object({ passOffId: z.number().int(), message: z.string() })),
+  /** When the last change of the ladder lowered the student's rung: why. */
+  ladderChange: ladderChangeNoteSchema.nullable(),
 });
 export type StudentProgress = z.infer<typeof studentProgressSchema>;
 

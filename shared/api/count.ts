@@ -59,6 +59,14 @@ export const countDetailSchema = countSchema.extend({
     unknownTags: z.array(z.string()),
     /** Expected here but out on loan, so not expected on the shelf. */
     onLoan: z.array(countedInstrumentSchema),
+    /** Scanned on the shelf while an open repair ticket says it was sent to the vendor. */
+    atVendor: z.array(
+      countedInstrumentSchema.extend({
+        repairId: z.number().int(),
+        vendor: z.string().nullable(),
+        sentOn: z.string().nullable(),
+      }),
+    ),
   }),
 });
 export type CountDetail = z.infer<typeof countDetailSchema>;

@@ -26,6 +26,8 @@ export const manualInstrumentStatuses = ['available', 'missing', 'retired'] as c
 /** What an instrument's timeline records. */
 export const instrumentEventKinds = [
   'purchase',
+  /** Added to the fleet with no known purchase date (read from a 'purchase' entry). */
+  'added',
   'loan-out',
   'return',
   'repair-open',
@@ -79,6 +81,9 @@ export const instrumentEventSchema = z.object({
   loanId: z.number().int().nullable(),
   repairId: z.number().int().nullable(),
   countId: z.number().int().nullable(),
+  /** The student of the loan the entry is about, for those who may see the student. */
+  studentName: z.string().nullable(),
+  studentNumber: z.string().nullable(),
 });
 export type InstrumentEvent = z.infer<typeof instrumentEventSchema>;
 

@@ -122,6 +122,107 @@ export const ladderDraftInputSchema = z.strictObject({
 export type LadderDraftInput = z.infer<typeof ladderDraftInputSchema>;
 
 /**
+ * What makes two requirements of one rung the same thing to play (tempo and articulation aside).
+ * An optional requirement beside a required one of the same shape is a stretch goal (the same
+ * scale faster), not a repeat, so whether it is optional counts too.
+ */
+function requirementShape(requirement: LadderRequirement): string {
+  const families = requirement.families ? [...requirement.families].sort().join('+') : '*';
+  return [
+    requirement.tonic,
+    requirement.mode,
+    requirement.pattern,
+    requirement.octaves,
+    families,
+    requirement.optional ? 'optional' : 'required',
+  ].join('|');
+}
+
+/** The mark drafts carry in their name, which a published version never keeps. */
+export const draftNameMark = /\(draft\)/i;
+
+/**
+ * `POST /api/ladder/versions/:id/publish` and `/restore`: the impact the coordinator was shown
+ * (its `token`), and for a draft the name it takes when it goes live.
+ */
+export const ladderPublishInputSchema = z.object({
+  impactToken: z.string({
+    message: 'Look at what publishing changes first: send the impactToken of its impact.',
+  }),
+  name: z
+    .string()
+    .trim()
+    .min(1, 'Give the version a name.')
+    .max(120)
+    .refine((name) => !draftNameMark.test(name), {
+      message: 'A published version takes a name of its own, without “(draft)”.',
+    })
+    .optional(),
+});
+export type LadderPublishInput = z.infer<typeof ladderPublishInputSchema>;
+
+/** The students of one school and grade whose rung a version would change, and how. */
+export const ladderImpactGroupSchema = z.object({
+  schoolId: z.number().int(),
+  schoolName: z.string(),
+  grade: z.number().int(),
+  up: z.number().int(),
+  down: z.number().int(),
+  same: z.number().int(),
+});
+export type LadderImpactGroup = z.infer<typeof ladderImpactGroupSchema>;
+
+/** The share of active students at or above their grade's benchmark today, before and after. */
+export const benchmarkShareSchema = z.object({
+  /** Students with a benchmark for their grade. */
+  counted: z.number().int(),
+  atOrAbove: z.number().int(),
+  /** 0..1, null when no student has a benchmark. */
+  share: z.number().nullable(),
+});
+
+/**
+ * `GET /api/ladder/versions/:id/impact`: what putting a version in force would do to every
+ * active student's rung, against the version in force now.
+ */
+export const ladderImpactSchema = z.object({
+  versionId: z.number().int(),
+  versionName: z.string(),
+  activeVersionId: z.number().int().nullable(),
+  activeVersionName: z.string().nullable(),
+  up: z.number().int(),
+  down: z.number().int(),
+  same: z.number().int(),
+  groups: z.array(ladderImpactGroupSchema),
+  benchmark: z.object({ before: benchmarkShareSchema, after: benchmarkShareSchema }),
+  /** Send it back with publish or restore: it says this impact is the one that was seen. */
+  token: z.string(),
+});
+export type LadderImpact = z.infer<typeof ladderImpactSchema>;
+
+/** The ways a version moves a student's rung. */
+export const rungMoves = ['up', 'down', 'same'] as const;
+
+/** `GET /api/ladder/versions/:id/impact/students`: the names behind one figure of the impact. */
+export const ladderImpactStudentSchema = z.object({
+  studentId: z.number().int(),
+  studentNumber: z.string(),
+  name: z.string(),
+  schoolId: z.number().int(),
+  grade: z.number().int(),
+  rungBefore: z.number().int(),
+  rungAfter: z.number().int(),
+});
+export type LadderImpactStudent = z.infer<typeof ladderImpactStudentSchema>;
+
+/** The filters of the impact's drill-down. */
+export const ladderImpactStudentsQuerySchema = z.object({
+  schoolId: z.coerce.number().int().optional(),
+  grade: z.coerce.number().int().min(0).max(12).optional(),
+  move: z.enum(rungMoves, { message: `move is one of ${rungMoves.join(', ')}.` }),
+});
+
+/**
  * `PATCH /api/ladder/versions/:id` (drafts only): the name, and the rungs (numbered 1, 2, 3…
  * with codes unique across the version) and benchmarks, each replacing what the draft held;
  * plus the version the editor started from.
@@ -143,7 +244,17 @@ export const ladderPatchSchema = z
           message: `Rungs are numbered 1, 2, 3… in order; this one should be ${index + 1}.`,
         });
       }
+      const sameInRung = new Map<string, number>();
       rung.requirements.forEach((requirement, position) => {
+        const shape = requirementShape(requirement);
+        const twin = sameInRung.get(shape);
+        if (twin !== undefined) {
+          context.addIssue({
+            code: 'custom',
+            path: ['rungs', index, 'requirements', position, 'tonic'],
+            message: `Rung ${rung.number} already asks for this: requirement ${twin + 1} has the same key, mode, pattern, octaves and families. Change one of them or remove this one.`,
+          });
+        } else sameInRung.set(shape, position);
         if (seen.has(requirement.code)) {
           context.addIssue({
             code: 'custom',

@@ -187,7 +187,7 @@ export const reportTargetSchema = z
   });
 export type ReportTarget = z.infer<typeof reportTargetSchema>;
 
-/** `POST /api/reports/send`: `{ kind, from, to, schoolIds?, recipients? }`. */
+/** `POST /api/reports/send`: `{ kind, from, to, schoolIds?, recipients?, test? }`. */
 export const reportSendInputSchema = z
   .strictObject({
     kind: z.enum(reportKinds),
@@ -195,6 +195,8 @@ export const reportSendInputSchema = z
     to: isoDate,
     schoolIds: reportTargetSchema.shape.schoolIds,
     recipients: reportTargetSchema.shape.recipients,
+    /** A test: one message, to the sender alone, its subject marked "Test:". */
+    test: z.boolean().optional(),
   })
   .refine((input) => input.from <= input.to, {
     message: 'from must not be after to.',

@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import { rowsOf } from '../../server/db/client';
 import { migrationsFolder } from '../../server/project-paths';
+import { publishSeen } from '../support/ladder-publish';
 import { startTestApp, type TestApp } from '../support/test-app';
 import { buildTinyDistrict, tinyStaff } from '../fixtures/ladder/tiny-district';
 
@@ -120,7 +121,7 @@ describe('Audition-ready against the pass-offs themselves', () => {
       rungs,
     });
     expect(edited.status, JSON.stringify(edited.body)).toBe(200);
-    expect((await coordinator.post(`/api/ladder/versions/${draft.id}/publish`)).status).toBe(200);
+    expect((await publishSeen(coordinator, draft.id, 'A major in rung 1')).status).toBe(200);
     expect((await tempos()).get('r2-eb-major')).toBe(84);
     expect(await hearPass('s5', 'r1-a-major', '2026-12-01', 60)).toBe(201);
     await expectOracleAgrees([[['r1-a-major', 'r2-eb-major']], [['r1-a-major']]]);

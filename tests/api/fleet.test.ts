@@ -174,6 +174,38 @@ describe('Instruments', () => {
     ).toBe(404);
   });
 
+  it('should print one instrument’s label where the next free label of a sheet is', async () => {
+    const images = (pdf: Buffer) => pdf.toString('latin1').match(/\/Subtype \/Image/g)?.length ?? 0;
+    const sheet = await binary(
+      director.get(`/api/instruments/labels.pdf?schoolId=${schoolIds['HPMS']}`),
+    );
+    const instrument = (
+      await director.get(`/api/instruments?homeSchoolId=${schoolIds['HPMS']}&limit=1`)
+    ).body.rows[0];
+    const one = await binary(
+      director.get(`/api/instruments/labels.pdf?instrumentId=${instrument.id}&skip=4`),
+    );
+    expect(one.status).toBe(200);
+    expect((one.body as Buffer).subarray(0, 5).toString('latin1')).toBe('%PDF-');
+    // Each label carries the same images (its QR code): the school's sheet has as many sets as
+    // the school has instruments, the single label's sheet one set.
+    const total = (await director.get(`/api/instruments?homeSchoolId=${schoolIds['HPMS']}&limit=1`))
+      .body.total as number;
+    expect(total).toBeGreaterThan(1);
+    expect(images(one.body as Buffer)).toBeGreaterThan(0);
+    expect(images(sheet.body as Buffer)).toBe(images(one.body as Buffer) * total);
+    expect(
+      (await director.get(`/api/instruments/labels.pdf?instrumentId=${instrument.id}&skip=30`))
+        .status,
+    ).toBe(400);
+    const elsewhere = (
+      await coordinator.get(`/api/instruments?homeSchoolId=${schoolIds['QHMS']}&limit=1`)
+    ).body.rows[0];
+    expect(
+      (await director.get(`/api/instruments/labels.pdf?instrumentId=${elsewhere.id}`)).status,
+    ).toBe(404);
+  });
+
   it('should keep a photo whose bytes are an image and refuse one that only claims to be', async () => {
     const instrument = (await coordinator.get('/api/instruments?limit=1')).body.rows[0];
     const kept = await upload(technician, instrument.id, onePixelPng, 'bell.png', 'image/png');

@@ -5,6 +5,7 @@ import { currentRung, type PassOffRecord } from '../../shared/ladder/index';
 import { rowsOf } from '../../server/db/client';
 import { activeRuleLadder } from '../../server/ladder/ladder-queries';
 import { familyOf, studentInstruments } from '../../server/ladder/student-families';
+import { publishSeen } from '../support/ladder-publish';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
@@ -82,7 +83,7 @@ describe('Ladder versions', () => {
     });
     expect(edited.status).toBe(200);
     expect((await director.post(`/api/ladder/versions/${draft.id}/publish`)).status).toBe(403);
-    const published = await coordinator.post(`/api/ladder/versions/${draft.id}/publish`);
+    const published = await publishSeen(coordinator, draft.id, 'Rung 1 slurred');
     expect(published.status).toBe(200);
     expect(published.body).toMatchObject({ id: draft.id, status: 'published', active: true });
 

@@ -167,6 +167,12 @@ describe('Director report', () => {
     expect(message!.to).toEqual(['director.hpms@merrowbasin.example']);
     expect(message!.text).toContain('Stalled students');
     expect(message!.html).toContain('<table');
+    // The heading names the school; the line under it does not say it again.
+    const [, heading, subtitle] = /font-size:20px[^>]*>([^<]*)<\/div><div[^>]*>([^<]*)<\/div>/.exec(
+      message!.html ?? '',
+    )!;
+    expect(heading).toBe('Heron Point Middle (HPMS): director report');
+    expect(subtitle).toBe('2026-11-01 to 2026-11-30');
     expect(message!.attachments.map((attachment) => attachment.filename)).toEqual([
       'HPMS-enrolment.csv',
       'HPMS-pass-offs.csv',
@@ -294,5 +300,45 @@ describe('District summary', () => {
     expect(second.body.text).toMatch(/Pass-offs heard\s+\+1/);
     expect(second.body.text).toMatch(/Stalled students\s+−1/);
     expect(second.body.html).toContain('Change since');
+  });
+});
+
+describe('A test send', () => {
+  it('should send one report to the sender alone, its subject marked as a test, before it goes to the directors', async () => {
+    const before = (await coordinator.get('/api/reports?kind=director')).body.total;
+    const sent = await coordinator.post('/api/reports/send', {
+      kind: 'director',
+      schoolIds: 'all-directors',
+      from: '2026-11-01',
+      to: '2026-11-30',
+      test: true,
+    });
+    expect(sent.status).toBe(202);
+    expect(sent.body.outboxIds).toHaveLength(1);
+    const message = await coordinator.get(`/api/outbox/${sent.body.outboxIds[0]}`);
+    expect(message.body.to).toEqual(['coordinator@merrowbasin.example']);
+    expect(message.body.subject).toMatch(/^Test: .+: director report, 2026-11-01 to 2026-11-30$/);
+    expect((await coordinator.get('/api/reports?kind=director')).body.total).toBe(before + 1);
+    // A director's test goes to themselves, as their sends do.
+    const own = await director.post('/api/reports/send', {
+      kind: 'director',
+      schoolIds: [district.schoolIds.HPMS],
+      from: '2026-11-01',
+      to: '2026-11-30',
+      test: true,
+    });
+    expect(own.status).toBe(202);
+    const ownMessage = await director.get(`/api/outbox/${own.body.outboxIds[0]}`);
+    expect(ownMessage.body.to).toEqual(['director.hpms@merrowbasin.example']);
+    expect(ownMessage.body.subject).toMatch(/^Test: Heron Point Middle/);
+    // Not a boolean: refused, nothing queued.
+    const bad = await coordinator.post('/api/reports/send', {
+      kind: 'director',
+      schoolIds: 'all-directors',
+      from: '2026-11-01',
+      to: '2026-11-30',
+      test: 'yes',
+    });
+    expect(bad.status).toBe(400);
   });
 });

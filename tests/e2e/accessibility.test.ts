@@ -148,4 +148,55 @@ describe('Accessibility', () => {
     expect(reached.outlineWidth).not.toBe('0px');
     await context.close();
   });
+
+  it('should name the Add-instrument dialog, keep heading order, give the ladder editor an h1, and focus the new page’s heading after rail navigation', async () => {
+    const { context } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('coordinator'), '/overview');
+    await settled(page);
+    // axe-core rules heading-order and page-has-heading-one (moderate, so not in the sweep above).
+    const headings = async () =>
+      (
+        await new AxeBuilder({ page })
+          .withRules(['heading-order', 'page-has-heading-one', 'aria-dialog-name'])
+          .analyze()
+      ).violations.map(
+        (violation) =>
+          `${violation.id}: ${violation.nodes.map((node) => node.target.join(' ')).join(', ')}`,
+      );
+    expect(await headings()).toEqual([]);
+
+    // A ladder version that is not a draft opens the editor's error state; it still has its h1.
+    const coordinator = await app.signIn(demoEmail('coordinator'));
+    const active = (await coordinator.get('/api/ladder')).body as { id: number };
+    await page.goto(`${app.url}/ladder/versions/${active.id}/edit`);
+    await page.locator('main tb-page-state').waitFor();
+    expect(await headings()).toEqual([]);
+    expect(await page.locator('main h1').innerText()).toBe('Edit a draft ladder');
+
+    // axe-core rule aria-dialog-name (serious): the dialog is named by its heading.
+    await page.goto(`${app.url}/instruments`);
+    await settled(page);
+    await page.getByRole('button', { name: 'Add instrument' }).click();
+    await page.locator('mat-dialog-container').waitFor();
+    await page.getByTestId('instrument-form').waitFor();
+    expect(await headings()).toEqual([]);
+    expect(await page.getByRole('dialog', { name: 'New instrument' }).count()).toBe(1);
+    await page.keyboard.press('Escape');
+
+    // After following a rail link, focus is on the new page's heading.
+    await page.locator('nav[aria-label="Main"] a.item', { hasText: 'Students' }).click();
+    await page.waitForURL(`${app.url}/students`);
+    await expect
+      .poll(() =>
+        page.evaluate(() => {
+          const element = document.activeElement;
+          return element?.tagName === 'H1' && element.closest('main') !== null
+            ? element.textContent?.trim()
+            : `not a heading: ${element?.tagName}`;
+        }),
+      )
+      .toBe('Students');
+    await context.close();
+  }, 180_000);
 });

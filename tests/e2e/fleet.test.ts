@@ -134,11 +134,19 @@ describe('Instrument fleet screens', () => {
     // A returned wind instrument waits to be cleaned.
     await page.getByTestId('return-loan').click();
     await expect.poll(() => page.getByTestId('return-cleaning').innerText()).toContain('to clean');
+    expect(await page.getByTestId('return-cleaning').innerText()).not.toMatch(/\bto to\b/);
     await page.getByTestId('return-save').click();
     await expect
       .poll(() => page.getByTestId('loan-panel').innerText(), patient)
       .toContain('Returned');
     await page.goto(`${app.url}/instruments/${instrument.id}`);
+    // An asset tag is one token: it does not break at its hyphen, even on a phone.
+    await page.setViewportSize({ width: 360, height: 740 });
+    const tag = page.getByTestId('instrument-title').locator('.tb-asset-tag');
+    await tag.waitFor();
+    const lines = await tag.evaluate((element) => element.getClientRects().length);
+    expect(lines).toBe(1);
+    await page.setViewportSize({ width: 1360, height: 860 });
     await expect
       .poll(() => page.getByTestId('instrument-status').innerText(), patient)
       .toBe('To clean');
@@ -158,6 +166,22 @@ describe('Instrument fleet screens', () => {
       .toContain('Cleaned and sanitised');
     const after = await coordinator.get(`/api/instruments/${instrument.id}`);
     expect(after.body.status).toBe('available');
+
+    // The instrument's own page has the list's actions: its label, a repair, and lending it.
+    const label = page.getByTestId('instrument-label');
+    await page.getByTestId('labels-used').fill('4');
+    await expect
+      .poll(() => label.getAttribute('href'))
+      .toBe(`/api/instruments/labels.pdf?instrumentId=${instrument.id}&skip=4`);
+    expect(await page.getByTestId('instrument-repair').isVisible()).toBe(true);
+    expect(await page.getByTestId('instrument-return').count()).toBe(0);
+    await page.getByTestId('instrument-lend').click();
+    const lendDialog = page.getByRole('dialog');
+    await expect
+      .poll(() => lendDialog.getByTestId('instrument-picker').inputValue(), patient)
+      .toContain(instrument.assetTag);
+    await saveScreenshot(page, 'instrument-lend');
+    await page.keyboard.press('Escape');
     expect(outside).toEqual([]);
     await context.close();
   });

@@ -141,6 +141,7 @@ describe('Scale ladder screen', () => {
   it('should let the coordinator edit a draft, show the server’s field messages, and publish it', async () => {
     const { context } = await localOnlyContext(browser);
     const page = await context.newPage();
+    await page.setViewportSize({ width: 1440, height: 900 });
     await signInAs(page, app.url, demoEmail('coordinator'), '/ladder');
     await page.getByTestId('start-draft').click();
     await page.waitForURL(/\/ladder\/versions\/\d+\/edit$/);
@@ -153,6 +154,48 @@ describe('Scale ladder screen', () => {
     expect(await reach.innerText()).toContain('French Horn: Cannot fit this level');
     await reach.scrollIntoViewIfNeeded();
     await saveScreenshot(page, 'ladder-editor-reach');
+
+    // At 1,440 px every field of a requirement shows whole: no column cut off, no label or value
+    // ended with an ellipsis.
+    const cut = await page.evaluate(() => {
+      const found: string[] = [];
+      const all = (root: ParentNode, selector: string) =>
+        Array.from(root.querySelectorAll(selector)) as HTMLElement[];
+      for (const rung of all(document, '[data-testid=rung-editor]')) {
+        if (rung.scrollWidth > rung.clientWidth + 1)
+          found.push(`rung overflows by ${rung.scrollWidth - rung.clientWidth}px`);
+        const rungBox = rung.getBoundingClientRect();
+        for (const field of all(rung, '.requirement > *')) {
+          const box = field.getBoundingClientRect();
+          if (box.right > rungBox.right + 1) found.push(`${field.className} past the card`);
+        }
+        for (const text of all(
+          rung,
+          '.requirement mat-label, .requirement .mat-mdc-select-value-text, .requirement input',
+        )) {
+          if (text.scrollWidth > text.clientWidth + 1)
+            found.push(`cut: ${text.textContent || (text as HTMLInputElement).value}`);
+        }
+      }
+      return found;
+    });
+    expect(cut).toEqual([]);
+    await saveScreenshot(page, 'ladder-editor-1440');
+
+    // "Add a requirement" adds an empty one, not a copy of the one above; saving it asks for a key.
+    const firstRung = page.getByTestId('rung-editor').first();
+    const before = await firstRung.locator('.requirement').count();
+    await firstRung.getByRole('button', { name: 'Add a requirement' }).click();
+    await expect.poll(() => firstRung.locator('.requirement').count(), patient).toBe(before + 1);
+    const added = firstRung.locator('.requirement').last();
+    expect(await added.locator('.tonic .mat-mdc-select-value').innerText()).toBe('Choose');
+    expect(await added.locator('.code input').inputValue()).toBe('');
+    await page.getByTestId('save-draft').click();
+    await expect
+      .poll(() => added.locator('.field-error').first().innerText(), patient)
+      .toContain('A tonic is a letter');
+    await added.locator('button.remove').click();
+    await expect.poll(() => firstRung.locator('.requirement').count(), patient).toBe(before);
 
     const tempo = page.getByTestId('rung-editor').first().locator('input[type=number]').first();
     await tempo.fill('10');
@@ -174,16 +217,39 @@ describe('Scale ladder screen', () => {
       .poll(() => page.locator('.actions-bar .state').innerText(), patient)
       .toContain('Saved');
 
+    // Publishing shows its impact first: moves by school and grade, names, the benchmark share.
     await page.getByTestId('publish').click();
     const dialog = page.getByRole('dialog');
-    await expect.poll(() => dialog.innerText(), patient).toContain('recomputed');
+    await expect
+      .poll(() => dialog.getByTestId('impact-summary').innerText(), patient)
+      .toMatch(/\d+ students? moves? up, \d+ moves? down and \d+ stays? on the same rung/);
+    expect(await dialog.getByTestId('impact-benchmark').innerText()).toMatch(
+      /benchmark today: \d+% \(\d+ of \d+\) now, \d+% \(\d+ of \d+\) after/,
+    );
     expect(await dialog.innerText()).toContain('no longer exists');
-    await dialog.getByTestId('confirm').click();
+    const nameField = dialog.getByTestId('publish-name');
+    expect(await nameField.inputValue()).not.toContain('(draft)');
+    await nameField.fill('Ladder 2027 (draft)');
+    expect(await dialog.getByTestId('confirm-impact').isDisabled()).toBe(true);
+    await nameField.fill('Ladder 2027, rung 1 at 66');
+    // A raised tempo only holds students back: the drill-down names those moving down.
+    const downButton = dialog.getByTestId('impact-groups').locator('button').first();
+    await downButton.click();
+    await expect
+      .poll(() => dialog.getByTestId('impact-names').locator('li').count(), patient)
+      .toBeGreaterThan(0);
+    expect(await dialog.getByTestId('impact-names').innerText()).toMatch(/rung \d → (\d|none)/);
+    const droppedNumber = (
+      await dialog.getByTestId('impact-names').locator('li .tb-muted').first().innerText()
+    ).replace(/[()]/g, '');
+    await saveScreenshot(page, 'ladder-publish-impact');
+    await dialog.getByTestId('confirm-impact').click();
     await page.waitForURL(`${app.url}/ladder`);
 
     const coordinator = await app.signIn(demoEmail('coordinator'));
     const ladder = (await coordinator.get('/api/ladder')).body as Ladder;
     expect(ladder.rungs[0]!.requirements[0]!.tempo).toBe(66);
+    expect(ladder.name).toBe('Ladder 2027, rung 1 at 66');
     await expect
       .poll(() => page.getByTestId('rung').first().locator('.tempo').first().innerText(), patient)
       .toBe('♩ = 66');
@@ -204,6 +270,27 @@ describe('Scale ladder screen', () => {
     expect(await page.getByTestId('progress-history').locator('tr.stale').count()).toBeGreaterThan(
       0,
     );
+    // A student the impact named as moving down reads why on their page.
+    const dropped = (await coordinator.get(`/api/students?q=${droppedNumber}`)).body.rows[0];
+    expect(dropped.studentNumber).toBe(droppedNumber);
+    await page.goto(`${app.url}/students/${dropped.id}`);
+    await expect
+      .poll(() => page.getByTestId('ladder-change').innerText(), patient)
+      .toMatch(/^The ladder changed on .+ in rung 1 now asks for ♩ = 66 \(it was 60\)/);
+    await saveScreenshot(page, 'student-ladder-change');
+
+    // Roll back: the version before is put back in force, after its own impact.
+    await page.goto(`${app.url}/ladder`);
+    await page.getByTestId('roll-back').click();
+    const back = page.getByRole('dialog');
+    await expect
+      .poll(() => back.getByTestId('impact-summary').innerText(), patient)
+      .toMatch(/\d+ students? moves? up/);
+    await saveScreenshot(page, 'ladder-roll-back');
+    await back.getByTestId('confirm-impact').click();
+    await expect
+      .poll(async () => ((await coordinator.get('/api/ladder')).body as Ladder).name, patient)
+      .not.toBe('Ladder 2027, rung 1 at 66');
     await context.close();
   });
 });

@@ -130,7 +130,7 @@ describe('Overview', () => {
     await page.waitForURL(`${app.url}/overview`);
     const byRung = page.getByTestId('chart-students-by-rung');
     await chartDrawn(byRung);
-    await expect.poll(() => byRung.locator('h3').innerText()).toBe('Students by rung, by grade');
+    await expect.poll(() => byRung.locator('h2').innerText()).toBe('Students by rung, by grade');
     await expect
       .poll(() => page.getByTestId('overview-schools').innerText(), patient)
       .toContain('Heron Point Middle');
@@ -183,7 +183,7 @@ describe('Overview', () => {
       .poll(() => page.getByTestId('tile-students').innerText(), patient)
       .toContain(hpms.studentCount.toLocaleString('en-US'));
     await expect
-      .poll(() => page.getByTestId('chart-students-by-rung').locator('h3').innerText())
+      .poll(() => page.getByTestId('chart-students-by-rung').locator('h2').innerText())
       .toBe('Students by rung, by grade');
 
     await page.getByTestId('filter-grade').click();

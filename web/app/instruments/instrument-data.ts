@@ -72,4 +72,9 @@ export class FleetInstruments {
   labelsUrl(schoolId: number): string {
     return `/api/instruments/labels.pdf?schoolId=${schoolId}`;
   }
+
+  /** One instrument's label, printed after the `skip` labels already used on the sheet. */
+  labelUrl(instrumentId: number, skip: number): string {
+    return `/api/instruments/labels.pdf?instrumentId=${instrumentId}&skip=${skip}`;
+  }
 }

@@ -3,9 +3,13 @@ import { Injectable, inject } from '@angular/core';
 import { map, type Observable } from 'rxjs';
 import { z } from 'zod';
 import {
+  ladderImpactSchema,
+  ladderImpactStudentSchema,
   ladderSchema,
   ladderVersionSummarySchema,
   type Ladder,
+  type LadderImpact,
+  type LadderImpactStudent,
   type LadderPatch,
   type LadderVersionSummary,
 } from '../../../shared/api/ladder';
@@ -13,6 +17,11 @@ import { parsedWith } from '../core/parse';
 
 const versionListSchema = z.object({
   rows: z.array(ladderVersionSummarySchema),
+  total: z.number(),
+});
+
+const impactStudentListSchema = z.object({
+  rows: z.array(ladderImpactStudentSchema),
   total: z.number(),
 });
 
@@ -53,8 +62,38 @@ export class LadderData {
     return this.http.delete(`/api/ladder/versions/${id}`);
   }
 
-  /** Puts a draft in force; the server recomputes every student's rung against it. */
-  publish(id: number): Observable<Ladder> {
-    return this.http.post(`/api/ladder/versions/${id}/publish`, {}).pipe(parsedWith(ladderSchema));
+  /** What putting a version in force would do to every student's rung. */
+  impact(id: number): Observable<LadderImpact> {
+    return this.http.get(`/api/ladder/versions/${id}/impact`).pipe(parsedWith(ladderImpactSchema));
+  }
+
+  /** The students behind one figure of the impact. */
+  impactStudents(
+    id: number,
+    filter: { schoolId: number; grade: number; move: 'up' | 'down' | 'same' },
+  ): Observable<LadderImpactStudent[]> {
+    return this.http
+      .get(`/api/ladder/versions/${id}/impact/students`, { params: { ...filter } })
+      .pipe(
+        parsedWith(impactStudentListSchema),
+        map((list) => list.rows),
+      );
+  }
+
+  /**
+   * Puts a draft in force under its published name, once its impact (the token) was seen; the
+   * server recomputes every student's rung against it.
+   */
+  publish(id: number, name: string, impactToken: string): Observable<Ladder> {
+    return this.http
+      .post(`/api/ladder/versions/${id}/publish`, { name, impactToken })
+      .pipe(parsedWith(ladderSchema));
+  }
+
+  /** Puts an earlier version back in force (a roll-back), once its impact was seen. */
+  restore(id: number, impactToken: string): Observable<Ladder> {
+    return this.http
+      .post(`/api/ladder/versions/${id}/restore`, { impactToken })
+      .pipe(parsedWith(ladderSchema));
   }
 }

@@ -59,7 +59,10 @@ export function entryColumns(
     },
     ...requirements.map((requirement): ColDef<EntryRow> => ({
       colId: requirement.code,
-      headerName: `${keyText(requirement)} ♩${requirement.tempo}`,
+      headerName: `${keyText(requirement)} ♩${requirement.tempo}${requirement.optional ? ' (optional)' : ''}`,
+      headerClass: requirement.optional ? 'optional-requirement' : undefined,
+      wrapHeaderText: true,
+      autoHeaderHeight: true,
       headerTooltip: `${requirementSummary(requirement)} · ${familiesText(requirement)}${requirement.optional ? ' · optional' : ''}`,
       flex: 1,
       minWidth: 124,

@@ -6,7 +6,9 @@ import {
   viewChild,
   type ElementRef,
 } from '@angular/core';
-import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
+import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { NavigationEnd, Router, RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
+import { filter } from 'rxjs';
 import { MatIcon } from '@angular/material/icon';
 import { roleLabels } from '../../../../shared/api/roles';
 import { CurrentUser } from '../auth/current-user';
@@ -23,6 +25,42 @@ import { navigationGroups, visibleItems } from './navigation';
 export class Shell {
   private readonly currentUser = inject(CurrentUser);
   private readonly main = viewChild.required<ElementRef<HTMLElement>>('main');
+  private readonly router = inject(Router);
+  /** Whether the navigation under way came from the rail, so its page's heading takes focus. */
+  private fromRail = false;
+
+  constructor() {
+    this.router.events
+      .pipe(
+        filter((event) => event instanceof NavigationEnd),
+        takeUntilDestroyed(),
+      )
+      .subscribe(() => {
+        if (!this.fromRail) return;
+        this.fromRail = false;
+        this.focusHeading(Date.now() + 5000);
+      });
+  }
+
+  /** Notes that the rail started a navigation. */
+  protected headingAfterNavigation(): void {
+    this.fromRail = true;
+  }
+
+  /**
+   * Moves focus to the new page's heading once it is there (a lazy page renders a moment after
+   * the navigation ends), so a screen reader announces the page and Tab goes on from its top
+   * (WAI-ARIA Authoring Practices, "Developing a Keyboard Interface": focus after navigation).
+   */
+  private focusHeading(until: number): void {
+    const heading = this.main().nativeElement.querySelector<HTMLElement>('h1');
+    if (heading) {
+      if (!heading.hasAttribute('tabindex')) heading.setAttribute('tabindex', '-1');
+      heading.focus();
+      return;
+    }
+    if (Date.now() < until) setTimeout(() => this.focusHeading(until), 50);
+  }
 
   protected readonly me = this.currentUser.me;
 

@@ -10,7 +10,13 @@ interface Group {
   explanation: string;
   icon: string;
   tone: 'ok' | 'warn' | 'danger' | 'info';
-  instruments: { id: number; assetTag: string; instrumentName: string; homeSchoolCode: string }[];
+  instruments: {
+    id: number;
+    assetTag: string;
+    instrumentName: string;
+    homeSchoolCode: string;
+    vendor?: string | null;
+  }[];
   tags: string[];
 }
 
@@ -39,8 +45,13 @@ interface Group {
           <ul>
             @for (instrument of group.instruments.slice(0, 60); track instrument.id) {
               <li>
-                <a [routerLink]="['/instruments', instrument.id]">{{ instrument.assetTag }}</a>
+                <a class="tb-asset-tag" [routerLink]="['/instruments', instrument.id]">{{
+                  instrument.assetTag
+                }}</a>
                 {{ instrument.instrumentName }}
+                @if (group.id === 'at-vendor') {
+                  <span class="tb-muted">· ticket says at {{ vendorOf(instrument) }}</span>
+                }
                 @if (group.id === 'elsewhere') {
                   <span class="tb-muted">· home {{ instrument.homeSchoolCode }}</span>
                 }
@@ -137,6 +148,10 @@ interface Group {
 export class CountReconciliation {
   readonly count = input.required<CountDetail>();
 
+  protected vendorOf(instrument: { vendor?: string | null }): string {
+    return instrument.vendor ?? 'the vendor';
+  }
+
   protected readonly groups = computed<Group[]>(() => {
     const { reconciliation, schoolCode } = this.count();
     return [
@@ -156,6 +171,16 @@ export class CountReconciliation {
         icon: 'swap_horiz',
         tone: 'warn',
         instruments: reconciliation.foundElsewhere,
+        tags: [],
+      },
+      {
+        id: 'at-vendor',
+        title: 'Scanned, but at the vendor',
+        explanation:
+          'A repair ticket says these were sent to the vendor: close or correct the ticket.',
+        icon: 'local_shipping',
+        tone: 'warn',
+        instruments: reconciliation.atVendor,
         tags: [],
       },
       {

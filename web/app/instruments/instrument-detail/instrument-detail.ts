@@ -10,6 +10,9 @@ import {
 } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatInputModule } from '@angular/material/input';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
 import { catchError, map, of } from 'rxjs';
@@ -17,6 +20,10 @@ import type { InstrumentDetail as Detail } from '../../../../shared/api/instrume
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
+import { CheckoutDialog } from '../../loans/checkout-dialog/checkout-dialog';
+import { FleetLoans } from '../../loans/loan-data';
+import { ReturnDialog } from '../../loans/return-dialog/return-dialog';
+import { RepairDialog } from '../../repairs/repair-dialog/repair-dialog';
 import { SchoolData } from '../../schools/school-data';
 import { FleetInstruments } from '../instrument-data';
 import { InstrumentForm } from '../instrument-form/instrument-form';
@@ -39,6 +46,8 @@ type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: '
   imports: [
     RouterLink,
     MatButtonModule,
+    MatFormFieldModule,
+    MatInputModule,
     MatIconModule,
     PageState,
     InstrumentForm,
@@ -55,7 +64,20 @@ export class InstrumentDetail {
   /** The route's `:id`. */
   readonly id = input.required<string>();
 
-  protected readonly canWrite = inject(CurrentUser).can('fleet:write');
+  private readonly dialog = inject(MatDialog);
+  private readonly loans = inject(FleetLoans);
+  private readonly currentUser = inject(CurrentUser);
+  protected readonly canWrite = this.currentUser.can('fleet:write');
+  protected readonly canLend = this.currentUser.can('loans:write');
+  protected readonly canRepair = this.currentUser.can('repairs:write');
+  /** Labels already used on the sheet in the printer: this one prints in the next place. */
+  protected readonly usedLabels = signal(0);
+  protected readonly actionError = signal('');
+  protected readonly labelUrl = computed(() => {
+    const instrument = this.instrument();
+    const skip = Math.min(29, Math.max(0, Math.trunc(this.usedLabels()) || 0));
+    return instrument ? this.fleet.labelUrl(instrument.id, skip) : '';
+  });
   protected readonly schools = toSignal(
     inject(SchoolData)
       .list({ limit: 200, sort: 'name:asc' })
@@ -88,6 +110,59 @@ export class InstrumentDetail {
       const id = Number(this.id());
       untracked(() => this.fetch(id));
     });
+  }
+
+  /** Lends the instrument: the loans' own checkout, with this instrument chosen. */
+  protected lend(): void {
+    const instrument = this.instrument();
+    if (!instrument) return;
+    this.dialog
+      .open(CheckoutDialog, {
+        data: { instrument },
+        width: '720px',
+        maxWidth: '94vw',
+        maxHeight: '92vh',
+      })
+      .afterClosed()
+      .subscribe(() => this.reload());
+  }
+
+  /** Takes the instrument back: the loans' own return, for its loan. */
+  protected returnIt(): void {
+    const loanId = this.instrument()?.activeLoan?.id;
+    if (loanId === undefined) return;
+    this.actionError.set('');
+    this.loans.get(loanId).subscribe({
+      next: (loan) =>
+        this.dialog
+          .open(ReturnDialog, { data: { loan }, width: '560px' })
+          .afterClosed()
+          .subscribe(() => this.reload()),
+      error: (error: unknown) =>
+        this.actionError.set(errorMessage(error, 'The loan could not be opened.')),
+    });
+  }
+
+  /** Opens a repair ticket for the instrument. */
+  protected startRepair(): void {
+    const instrument = this.instrument();
+    if (!instrument) return;
+    this.dialog
+      .open(RepairDialog, {
+        data: { repair: null, editable: true, instrument },
+        width: '640px',
+        maxHeight: '92vh',
+      })
+      .afterClosed()
+      .subscribe(() => this.reload());
+  }
+
+  /** Brings the record form, where the status is set, into view and focus. */
+  protected toRecord(): void {
+    const heading = document.getElementById('instrument-form-title');
+    if (!heading) return;
+    heading.scrollIntoView({ block: 'start' });
+    heading.closest('form')?.querySelector<HTMLElement>('mat-select, input')?.focus();
   }
 
   protected reload(): void {

@@ -181,7 +181,11 @@ export class InstrumentList {
 
   protected addInstrument(): void {
     this.dialog
-      .open(InstrumentFormDialog, { data: { schools: this.schools() }, width: '640px' })
+      .open(InstrumentFormDialog, {
+        data: { schools: this.schools() },
+        width: '640px',
+        ariaLabelledBy: 'instrument-form-title',
+      })
       .afterClosed()
       .subscribe((saved?: Instrument) => {
         if (saved) void this.router.navigate(['/instruments', saved.id]);

@@ -2,6 +2,7 @@ import {
   ChangeDetectionStrategy,
   Component,
   DestroyRef,
+  afterNextRender,
   inject,
   input,
   output,
@@ -75,6 +76,8 @@ export class InstrumentPicker {
   /** Only instruments in this status, such as 'available' for a check-out. */
   readonly status = input<InstrumentStatus | null>(null);
   readonly hint = input('');
+  /** The instrument already chosen when the picker opens (from the instrument's own page). */
+  readonly initial = input<Instrument | null>(null);
   readonly picked = output<Instrument | null>();
 
   protected readonly statusLooks = statusLooks;
@@ -89,6 +92,10 @@ export class InstrumentPicker {
         : '';
 
   constructor() {
+    afterNextRender(() => {
+      const initial = this.initial();
+      if (initial) this.text.set(this.describe(initial));
+    });
     const subscription = this.searches
       .pipe(
         debounceTime(200),

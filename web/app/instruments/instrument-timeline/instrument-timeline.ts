@@ -6,6 +6,7 @@ import { dayText } from '../instrument-labels';
 /** Each timeline entry in words, with its icon. */
 const eventLooks: Record<InstrumentEventKind, { label: string; icon: string }> = {
   purchase: { label: 'Purchased', icon: 'shopping_cart' },
+  added: { label: 'Added to the fleet', icon: 'add' },
   'loan-out': { label: 'Lent out', icon: 'handshake' },
   return: { label: 'Returned', icon: 'keyboard_return' },
   'repair-open': { label: 'Repair opened', icon: 'build' },
@@ -36,6 +37,11 @@ const timeFormat = new Intl.DateTimeFormat('en-US', { hour: 'numeric', minute: '
                 <strong>{{ entry.label }}</strong>
                 <time [attr.datetime]="entry.at">{{ entry.day }} · {{ entry.time }}</time>
               </div>
+              @if (entry.studentName) {
+                <p data-testid="timeline-student">
+                  {{ entry.studentName }} <span class="tb-muted">({{ entry.studentNumber }})</span>
+                </p>
+              }
               @if (entry.note) {
                 <p>{{ entry.note }}</p>
               }

@@ -52,24 +52,22 @@ export function freeCode(model: DraftModel, wanted: string, except?: LadderRequi
   return `${wanted}-${suffix}`;
 }
 
-/** A new requirement for a rung, copying the shape of the rung's last one when there is one. */
-export function newRequirement(model: DraftModel, rungIndex: number): LadderRequirement {
-  const rung = model.rungs[rungIndex]!;
-  const last = rung.requirements.at(-1);
-  const base: LadderRequirement = last
-    ? { ...last, families: last.families ? [...last.families] : null, optional: false }
-    : {
-        code: '',
-        tonic: 'C',
-        mode: 'major',
-        pattern: 'cycle-broad',
-        tempo: 80,
-        articulation: 'tongued',
-        octaves: 1,
-        optional: false,
-        families: null,
-      };
-  return { ...base, code: freeCode(model, derivedCode(rung.number, base)) };
+/**
+ * A new, empty requirement for a rung: no key chosen yet (saving asks for one), the plainest
+ * pattern and articulation, every family. Its code follows the key once the key is chosen.
+ */
+export function newRequirement(): LadderRequirement {
+  return {
+    code: '',
+    tonic: '',
+    mode: 'major',
+    pattern: 'long-tones',
+    tempo: 60,
+    articulation: 'tongued',
+    octaves: 1,
+    optional: false,
+    families: null,
+  };
 }
 
 /** Numbers the rungs 1, 2, 3… in their order. */

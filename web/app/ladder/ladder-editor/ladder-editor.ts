@@ -21,6 +21,7 @@ import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { BenchmarkEditor } from '../benchmark-editor/benchmark-editor';
 import { ConfirmDialog, type ConfirmDialogData } from '../../core/confirm-dialog/confirm-dialog';
+import { ImpactDialog, type ImpactDialogData } from '../impact-dialog/impact-dialog';
 import { LadderData } from '../ladder-data';
 import { RungEditor, type RequirementEdit } from '../rung-editor/rung-editor';
 import { reachWarnings } from '../reach-warnings';
@@ -134,13 +135,17 @@ export class LadderEditor {
       const rung = model.rungs[rungIndex]!;
       const before = rung.requirements[index]!;
       const after: LadderRequirement = { ...before, ...patch };
-      if (patch.mode && !tonicsForMode(after.mode).includes(after.tonic)) {
+      if (patch.mode && after.tonic && !tonicsForMode(after.mode).includes(after.tonic)) {
         after.tonic = tonicsForMode(after.mode).includes('C') ? 'C' : tonicsForMode(after.mode)[0]!;
       }
       // A code that was only ever derived from the key follows the key; a code typed by hand stays.
       const derivedBefore = derivedCode(rung.number, before);
-      if ((patch.tonic || patch.mode) && before.code.startsWith(derivedBefore)) {
-        const suffix = before.code.slice(derivedBefore.length);
+      if (
+        (patch.tonic || patch.mode) &&
+        after.tonic &&
+        (before.code === '' || before.code.startsWith(derivedBefore))
+      ) {
+        const suffix = before.code === '' ? '' : before.code.slice(derivedBefore.length);
         after.code = freeCode(model, derivedCode(rung.number, after) + suffix, before);
       }
       const requirements = rung.requirements.map((requirement, at) =>
@@ -155,7 +160,7 @@ export class LadderEditor {
 
   protected addRequirement(rungIndex: number): void {
     this.change((model) => {
-      const requirement = newRequirement(model, rungIndex);
+      const requirement = newRequirement();
       return {
         ...model,
         rungs: model.rungs.map((rung, at) =>
@@ -215,33 +220,20 @@ export class LadderEditor {
     if (this.dirty() && !(await this.saved())) return;
     const draft = this.draft();
     if (!draft) return;
-    const replaced = this.activeName();
-    const confirmed = await this.confirm({
-      title: `Publish “${draft.name}”?`,
-      paragraphs: [
-        replaced
-          ? `It replaces “${replaced}” as the ladder every school works to, from now on.`
-          : 'It becomes the ladder every school works to, from now on.',
-        "Every student's rung is recomputed against the new version straight away, so the Overview, reports and students' own pages may change.",
-        'A pass-off counts toward the requirement with the same code. Pass-offs whose requirement no longer exists, or that were slower than a raised tempo, stop counting; they stay in each student’s history, marked.',
-      ],
-      confirm: 'Publish for every school',
+    const ladder = await firstValueFrom(
+      this.dialog
+        .open<ImpactDialog, ImpactDialogData, Ladder>(ImpactDialog, {
+          data: { versionId: draft.id, mode: 'publish', name: draft.name },
+          width: '720px',
+          maxHeight: '90vh',
+        })
+        .afterClosed(),
+    );
+    if (!ladder) return;
+    this.snackBar.open(`“${ladder.name}” is now the ladder in force.`, 'Close', {
+      duration: 6000,
     });
-    if (!confirmed) return;
-    this.busy.set('publishing');
-    this.ladderData.publish(draft.id).subscribe({
-      next: (ladder) => {
-        this.busy.set(null);
-        this.snackBar.open(`“${ladder.name}” is now the ladder in force.`, 'Close', {
-          duration: 6000,
-        });
-        void this.router.navigate(['/ladder']);
-      },
-      error: (error: unknown) => {
-        this.busy.set(null);
-        this.problem.set(errorMessage(error, 'The draft could not be published.'));
-      },
-    });
+    void this.router.navigate(['/ladder']);
   }
 
   protected async discard(): Promise<void> {

@@ -2,7 +2,9 @@ import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@a
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatIconModule } from '@angular/material/icon';
+import { MatDialog } from '@angular/material/dialog';
 import { MatSnackBar } from '@angular/material/snack-bar';
+import { firstValueFrom } from 'rxjs';
 import { Router, RouterLink } from '@angular/router';
 import type {
   Ladder,
@@ -19,6 +21,7 @@ import { StudentProgressData } from '../../students/student-progress/student-pro
 import { benchmarkTable } from '../benchmark-table';
 import { dateText, gradeText } from '../date-text';
 import { InstrumentPicker } from '../instrument-picker/instrument-picker';
+import { ImpactDialog, type ImpactDialogData } from '../impact-dialog/impact-dialog';
 import { LadderData } from '../ladder-data';
 import {
   appliesToFamily,
@@ -62,6 +65,7 @@ export class LadderView {
   private readonly currentUser = inject(CurrentUser);
   private readonly router = inject(Router);
   private readonly snackBar = inject(MatSnackBar);
+  private readonly dialog = inject(MatDialog);
 
   protected readonly canEdit = this.currentUser.can('ladder:write');
   protected readonly isStudent = this.currentUser.me()?.role === 'student';
@@ -73,6 +77,8 @@ export class LadderView {
   protected readonly instrumentId = signal(defaultInstrument);
   protected readonly onlyMine = signal(true);
   protected readonly startingDraft = signal(false);
+  /** The version in force before this one, which a roll-back puts back. */
+  protected readonly previous = signal<LadderVersionSummary | null>(null);
 
   protected readonly instrument = computed(() => instrumentById(this.instrumentId()));
   protected readonly met = computed(() => new Set(this.progress()?.metRequirementCodes ?? []));
@@ -139,6 +145,25 @@ export class LadderView {
     });
   }
 
+  protected async rollBack(): Promise<void> {
+    const previous = this.previous();
+    if (!previous) return;
+    const ladder = await firstValueFrom(
+      this.dialog
+        .open<ImpactDialog, ImpactDialogData, Ladder>(ImpactDialog, {
+          data: { versionId: previous.id, mode: 'restore', name: previous.name },
+          width: '720px',
+          maxHeight: '90vh',
+        })
+        .afterClosed(),
+    );
+    if (!ladder) return;
+    this.snackBar.open(`“${ladder.name}” is the ladder in force again.`, 'Close', {
+      duration: 6000,
+    });
+    this.fetch();
+  }
+
   protected fetch(): void {
     this.load.set({ kind: 'loading' });
     this.ladderData.active().subscribe({
@@ -165,8 +190,15 @@ export class LadderView {
     }
     if (this.canEdit) {
       this.ladderData.versions().subscribe({
-        next: (versions) =>
-          this.drafts.set(versions.filter((version) => version.status === 'draft')),
+        next: (versions) => {
+          this.drafts.set(versions.filter((version) => version.status === 'draft'));
+          this.previous.set(
+            versions
+              .filter((version) => version.status === 'archived' && version.publishedAt)
+              .sort((first, second) => second.publishedAt!.localeCompare(first.publishedAt!))[0] ??
+              null,
+          );
+        },
         error: () => this.drafts.set([]),
       });
     }

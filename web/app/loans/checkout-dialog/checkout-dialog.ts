@@ -3,7 +3,7 @@ import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatChipsModule } from '@angular/material/chips';
-import { MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MatDialogModule, MatDialogRef, MAT_DIALOG_DATA } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -55,7 +55,11 @@ export class CheckoutDialog {
   protected readonly conditions = instrumentConditions;
   protected readonly conditionLabels = conditionLabels;
   protected readonly day = dayText;
-  protected readonly instrument = signal<Instrument | null>(null);
+  /** The instrument to lend, when the dialog opens from the instrument's own page. */
+  private readonly given = inject<{ instrument?: Instrument } | null>(MAT_DIALOG_DATA, {
+    optional: true,
+  });
+  protected readonly instrument = signal<Instrument | null>(this.given?.instrument ?? null);
   protected readonly student = signal<Student | null>(null);
   protected readonly dueOn = signal('');
   protected readonly accessories = signal<string[]>([]);

@@ -36,7 +36,9 @@ type Load =
           @let loans = $any(load()).loans;
           @for (loan of loans; track loan.id) {
             <article class="tb-card loan" data-testid="my-loan">
-              <h2>{{ loan.instrumentName }} · {{ loan.assetTag }}</h2>
+              <h2>
+                {{ loan.instrumentName }} · <span class="tb-asset-tag">{{ loan.assetTag }}</span>
+              </h2>
               <p>
                 @if (loan.state === 'active') {
                   Due back {{ day(loan.dueOn) }}

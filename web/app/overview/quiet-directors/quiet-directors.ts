@@ -6,7 +6,7 @@ import type { Overview } from '../../../../shared/api/analytics';
   selector: 'tb-quiet-directors',
   template: `
     <section class="tb-card quiet" aria-labelledby="quiet-heading">
-      <h3 id="quiet-heading">No pass-offs entered for {{ quiet().days }} days</h3>
+      <h2 id="quiet-heading">No pass-offs entered for {{ quiet().days }} days</h2>
       @if (quiet().directors.length === 0) {
         <p class="tb-muted">
           Every director has entered pass-offs in the last {{ quiet().days }} days.
@@ -33,7 +33,7 @@ import type { Overview } from '../../../../shared/api/analytics';
       height: 100%;
       box-sizing: border-box;
     }
-    h3 {
+    h2 {
       margin: 0 0 8px;
       font-size: 1rem;
       font-weight: 600;

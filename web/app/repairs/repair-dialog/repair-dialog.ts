@@ -26,6 +26,8 @@ import { repairStatusLooks } from '../repair-looks';
 export interface RepairDialogData {
   repair: Repair | null;
   editable: boolean;
+  /** The instrument a new ticket is for, when opened from the instrument's own page. */
+  instrument?: Instrument;
 }
 
 const dollarsOf = (cents: number | null) => (cents === null ? '' : (cents / 100).toFixed(2));
@@ -59,7 +61,7 @@ export class RepairDialog {
   protected readonly statuses = repairStatuses;
   protected readonly looks = repairStatusLooks;
   protected readonly creating = this.data.repair === null;
-  protected readonly instrument = signal<Instrument | null>(null);
+  protected readonly instrument = signal<Instrument | null>(this.data.instrument ?? null);
   protected readonly problem = signal(this.data.repair?.problem ?? '');
   protected readonly inHouse = signal(this.data.repair?.inHouse ?? true);
   protected readonly vendor = signal(this.data.repair?.vendor ?? '');
