@@ -6,6 +6,8 @@ import { assertInScope, type Actor } from '../core/policy';
 import { instrumentScope } from './instruments-queries';
 import { instrumentNameOf } from './instrument-cautions';
 import { renderPdf } from './pdf-document';
+import { districtIdentity } from '../district/district-queries';
+import { pdfLogo } from '../district/district-print';
 
 const labelsAcross = 3;
 const labelLimit = 3000;
@@ -36,6 +38,10 @@ export async function assetLabelsPdf(
     )
     .orderBy(asc(schools.code), asc(instruments.assetTag))
     .limit(labelLimit);
+  const district = await districtIdentity(db);
+  const owner = district?.shortName ?? 'District';
+  const contact = district?.contactLines.find((line) => /\d/.test(line) && !line.includes('@') && line.length <= 24);
+  const logo = pdfLogo(district, 12, 60);
   const labels = await Promise.all(
     rows.map(async (row) => ({
       columns: [
@@ -52,8 +58,9 @@ export async function assetLabelsPdf(
           stack: [
             { text: row.assetTag, bold: true, fontSize: 13 },
             { text: instrumentNameOf(row.instrumentId), fontSize: 9, margin: [0, 2, 0, 0] },
+            ...(logo ? [{ ...logo, margin: [0, 3, 0, 0] }] : []),
             {
-              text: `${row.schoolCode} · Merrow Basin Unified property`,
+              text: `${row.schoolCode} · ${owner} property${contact ? ` · ${contact}` : ''}`,
               fontSize: 7,
               color: '#555555',
             },

@@ -7,3 +7,4 @@ export * from './mail';
 export * from './reports';
 export * from './ladder';
 export * from './fleet';
+export * from './district';

@@ -80,6 +80,9 @@ export const iconNames = [
   'mark_email_read',
   'schedule_send',
   'event_repeat',
+  'domain',
+  'image',
+  'radio_button_unchecked',
 ] as const;
 
 export type IconName = (typeof iconNames)[number];
