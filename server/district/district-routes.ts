@@ -2,7 +2,7 @@ import { Router, type NextFunction, type Request, type Response } from 'express'
 import { districtPatchSchema } from '../../shared/api/district';
 import { escapeHtml, plainPage } from '../auth/plain-page';
 import { actorOf, requires } from '../core/policy';
-import { parseInput } from '../core/validate';
+import { nothing, parseInput } from '../core/validate';
 import type { Database } from '../db/client';
 import type { Services } from '../services';
 import { districtIdentity, logoPath } from './district-queries';
@@ -13,6 +13,7 @@ export function districtRoutes({ db }: Services): Router {
   const router = Router();
   router.get('/district', async (request, response) => {
     actorOf(request);
+    parseInput(nothing, request.query, 'The query');
     response.json(await getDistrict(db));
   });
   router.patch('/district', requires('district:settings'), async (request, response) => {
