@@ -5,7 +5,7 @@
 import { startMailFake } from './mail/index.js';
 import { demoAccounts, startOidcFake } from './oidc/index.js';
 
-const oidc = await startOidcFake();
+const oidc = await startOidcFake({ acceptTypedEmails: true });
 const mail = await startMailFake().catch(async (error: unknown) => {
   await oidc.close();
   throw error;

@@ -2,6 +2,8 @@ import { loadConfig } from '../server/config';
 import { createLogger } from '../server/logger';
 import { closeOnSignals, startServer } from '../server/main';
 import { seedDemoWhenEmpty } from '../server/seed/demo';
+import { demoDistrict } from '../server/seed/demo-people';
+import { findDistrictRow } from '../server/district/district-queries';
 import { demoAccounts, startOidcFake, type OidcFake } from '../fakes/oidc/index';
 import { startMailFake, type MailFake } from '../fakes/mail/index';
 import { buildWebIfMissing } from './build-if-missing';
@@ -18,16 +20,18 @@ async function start() {
 
   const usesLocalIdentity = !process.env['OIDC_ISSUER'];
   const usesLocalMail = !process.env['SMTP_URL'];
-  const oidc: OidcFake | undefined = usesLocalIdentity ? await startOidcFake({ port: 4310 }) : undefined;
+  const oidc: OidcFake | undefined = usesLocalIdentity ? await startOidcFake({ port: 4310, acceptTypedEmails: true }) : undefined;
   const mail: MailFake | undefined = usesLocalMail
     ? await startMailFake({ smtpPort: 2525, httpPort: 4311, storeFile: `${config.dataDir}/mailbox.jsonl` })
     : undefined;
 
   let seeded = false;
+  let isDemo = false;
   const server = await startServer(config, {
     logger,
     prepare: async ({ db }) => {
       seeded = await seedDemoWhenEmpty(db);
+      isDemo = (await findDistrictRow(db))?.name === demoDistrict.name;
     },
   });
 
@@ -39,10 +43,11 @@ async function start() {
     oidc ? `  Sign-in (local)     ${oidc.issuer}` : `  Sign-in             ${config.oidcIssuer}`,
     mail ? `  Mailbox (local)     ${mail.httpUrl}` : `  Mail relay          ${config.smtpUrl}`,
     `  Database            ${config.databaseUrl ? 'PostgreSQL server (DATABASE_URL)' : `PGlite in ${config.dataDir}`}`,
-    seeded ? '  Seeded the demo district, Merrow Basin Unified.' : '',
+    seeded ? `  Seeded the demo district, ${demoDistrict.name}.` : '',
     '',
-    oidc ? '  Demo accounts (choose one on the sign-in page):' : '',
-    ...(oidc ? demoAccounts.map((account) => `    ${account.email.padEnd(38)} ${account.role}`) : []),
+    oidc && isDemo ? '  Demo accounts (choose one on the sign-in page):' : '',
+    oidc && !isDemo ? '  Sign in by typing your e-mail address on the local sign-in page.' : '',
+    ...(oidc && isDemo ? demoAccounts.map((account) => `    ${account.email.padEnd(38)} ${account.role}`) : []),
     '',
     '  Press Ctrl-C to stop.',
     '',

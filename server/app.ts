@@ -33,6 +33,8 @@ import { outboxRoutes } from './mail/outbox-routes';
 import { reportsRoutes } from './reports/reports-routes';
 import { startBackgroundWork } from './reports/background-work';
 import { webRoot } from './project-paths';
+import { districtLogoRoute, districtRoutes, requireDistrict } from './district/district-routes';
+import { findDistrictRow } from './district/district-queries';
 
 export { webRoot };
 
@@ -49,6 +51,7 @@ export interface AppOptions {
 /** The feature routers, each mounted under /api. */
 export const featureRoutes: ((services: Services) => Router)[] = [
   meRoutes,
+  districtRoutes,
   schoolsRoutes,
   tokensRoutes,
   peopleRoutes,
@@ -117,6 +120,8 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   // a client pick its own address and step around the rate limits.
   app.set('trust proxy', config.trustProxy ? 1 : false);
   app.locals['services'] = services;
+  // Loads the district's time zone before the first request counts a day in it.
+  await findDistrictRow(db);
 
   const issuerOrigin = new URL(config.oidcIssuer).origin;
   app.use(
@@ -188,6 +193,8 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   api.use(unknownApiRoute);
   app.use('/api', api);
   app.use(agreementPages(services));
+  app.use(districtLogoRoute(services));
+  app.use(requireDistrict(db));
 
   if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'))) {
     app.use(express.static(webRoot, { index: false, maxAge: '1h' }));

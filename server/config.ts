@@ -15,7 +15,7 @@ const environmentSchema = z.object({
     .string()
     .regex(/^smtps?:\/\//, 'SMTP_URL must start with smtp:// or smtps://')
     .default('smtp://127.0.0.1:2525'),
-  MAIL_FROM: z.string().min(3).default('Tuttiboard <tuttiboard@merrowbasin.example>'),
+  MAIL_FROM: z.string().min(3).default('Tuttiboard <tuttiboard@localhost>'),
   APP_URL: z.url().optional(),
   SESSION_SECRET: z.string().min(16).optional(),
   TRUST_PROXY: z.enum(['true', 'false']).default('false'),

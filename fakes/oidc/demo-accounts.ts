@@ -36,7 +36,7 @@ export const demoAccounts: FakeAccount[] = [
   {
     email: 'director.fbes@merrowbasin.example',
     name: 'Odalys Brennquist',
-    role: 'Elementary music, Fernbank and Cedarwash',
+    role: 'Elementary music, Firthbarrow and Cedarwash',
   },
   {
     email: 'director.omms@merrowbasin.example',

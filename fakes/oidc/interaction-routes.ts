@@ -21,14 +21,31 @@ function signInPage(
   accounts: readonly FakeAccount[],
   error?: string,
   typedEmail?: string,
+  acceptTypedEmails?: boolean,
 ): string {
   return renderSignInPage({
+    acceptTypedEmails,
     interactionId: interaction.uid,
     clientId: String(interaction.params['client_id'] ?? 'An application'),
     accounts,
     error,
     typedEmail,
   });
+}
+
+/** A new account for a typed, well-formed e-mail address, named from its local part. */
+function addTypedAccount(accounts: FakeAccount[], typedEmail: string): FakeAccount | undefined {
+  const email = typedEmail.trim().toLowerCase();
+  if (!/^[^\s@]+@[^\s@]+\.[^\s@]+$/.test(email)) return undefined;
+  const name = email
+    .split('@')[0]!
+    .split(/[._-]+/)
+    .filter(Boolean)
+    .map((word) => word[0]!.toUpperCase() + word.slice(1))
+    .join(' ');
+  const account: FakeAccount = { email, name, role: 'Added by typing the address' };
+  accounts.push(account);
+  return account;
 }
 
 /** Grants what the client asked for: every client of this fake is our own application. */
@@ -61,7 +78,8 @@ async function grantRequestedAccess(provider: Provider, interaction: Interaction
  */
 export function createInteractionRoutes(
   provider: Provider,
-  accounts: readonly FakeAccount[],
+  accounts: FakeAccount[],
+  acceptTypedEmails = false,
 ): Router {
   const router = express.Router();
   const form = express.urlencoded({ extended: false, limit: '8kb' });
@@ -69,7 +87,7 @@ export function createInteractionRoutes(
   router.get('/interaction/:uid', async (request, response) => {
     const interaction = await provider.interactionDetails(request, response);
     if (interaction.prompt.name === 'login') {
-      sendPage(response, 200, signInPage(interaction, accounts));
+      sendPage(response, 200, signInPage(interaction, accounts, undefined, undefined, acceptTypedEmails));
       return;
     }
     if (interaction.prompt.name === 'consent') {
@@ -88,7 +106,7 @@ export function createInteractionRoutes(
   router.post('/interaction/:uid/login', form, async (request, response) => {
     const interaction = await provider.interactionDetails(request, response);
     const typedEmail = typeof request.body?.email === 'string' ? request.body.email : '';
-    const account = findAccountByEmail(accounts, typedEmail);
+    const account = findAccountByEmail(accounts, typedEmail) ?? (acceptTypedEmails ? addTypedAccount(accounts, typedEmail) : undefined);
     if (interaction.prompt.name !== 'login') {
       throw new Error('This sign-in has already been completed');
     }
@@ -96,7 +114,7 @@ export function createInteractionRoutes(
       const error = typedEmail.trim()
         ? `There is no account with the e-mail address ${typedEmail.trim()} in this identity provider.`
         : 'Type an e-mail address or choose an account.';
-      sendPage(response, 400, signInPage(interaction, accounts, error, typedEmail));
+      sendPage(response, 400, signInPage(interaction, accounts, error, typedEmail, acceptTypedEmails));
       return;
     }
     await provider.interactionFinished(
@@ -129,7 +147,7 @@ export function createInteractionRoutes(
         response,
         status,
         renderPage(
-          'Sign-in error — Merrow Basin Unified (local identity provider)',
+          'Sign-in error — local identity provider',
           `<h2>This sign-in cannot go on</h2><p class="error" role="alert">${escapeHtml(error.message)}</p>
 <p>Go back to the application and start signing in again.</p>`,
         ),

@@ -121,7 +121,7 @@ describe('startOidcFake', () => {
 
     expect(response.status).toBe(200);
     expect(html).toContain(
-      'Merrow Basin Unified — sign in (local identity provider for development)',
+      'Sign in — local identity provider for development',
     );
     for (const account of demoAccounts) {
       expect(html).toContain(account.email);

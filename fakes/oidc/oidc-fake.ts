@@ -18,6 +18,12 @@ export interface OidcFakeOptions {
   clients?: { clientId: string; clientSecret: string }[];
   /** Where to keep the RSA signing key (a JWK), so restarts keep ID tokens verifiable. */
   keyFile?: string;
+  /**
+   * Whether an e-mail address typed on the sign-in page that is not listed becomes an account
+   * (named from the address), as a district's own provider would know its staff: a district set
+   * up with `tutti setup` signs in as its own coordinator. The app still decides who may enter.
+   */
+  acceptTypedEmails?: boolean;
 }
 
 /** A running local identity provider. */
@@ -48,7 +54,8 @@ function listen(server: Server, port: number): Promise<number> {
  * hosted one: authorization code flow with PKCE, our own sign-in page, invented accounts.
  */
 export async function startOidcFake(options: OidcFakeOptions = {}): Promise<OidcFake> {
-  const accounts = options.accounts ?? demoAccounts;
+  // A copy: accounts added by typing belong to this provider only.
+  const accounts = [...(options.accounts ?? demoAccounts)];
   const clients = options.clients ?? defaultClients;
   const signingKey = loadSigningKey(options.keyFile);
   const server = createServer();
@@ -63,7 +70,7 @@ export async function startOidcFake(options: OidcFakeOptions = {}): Promise<Oidc
 
   const app = express();
   app.disable('x-powered-by');
-  app.use(createInteractionRoutes(provider, accounts));
+  app.use(createInteractionRoutes(provider, accounts, options.acceptTypedEmails ?? false));
   app.use(provider.callback());
   server.on('request', app);
 

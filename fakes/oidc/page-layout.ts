@@ -50,8 +50,8 @@ export function renderPage(title: string, content: string): string {
 </head>
 <body>
 <header>
-<h1>Merrow Basin Unified — sign in (local identity provider for development)</h1>
-<p>Invented accounts for development, demos and tests. No password is asked.</p>
+<h1>Sign in — local identity provider for development</h1>
+<p>The demo district's invented accounts, for development, demos and tests. No password is asked.</p>
 </header>
 <main>
 ${content}

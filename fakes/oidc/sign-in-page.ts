@@ -13,6 +13,8 @@ export interface SignInPageContent {
   error?: string;
   /** The e-mail address typed before, kept in the field after an error. */
   typedEmail?: string;
+  /** Whether a typed address that is not listed becomes an account. */
+  acceptTypedEmails?: boolean;
 }
 
 function renderAccount(account: FakeAccount): string {
@@ -50,6 +52,10 @@ ${content.accounts.map(renderAccount).join('\n')}
 <form method="post" action="${action}/abort">
 <button class="secondary" type="submit">Cancel sign-in</button>
 </form>
-<p class="small">Only the accounts listed above exist in this identity provider.</p>`,
+<p class="small">${
+      content.acceptTypedEmails
+        ? 'Any other e-mail address typed above becomes an account of this provider; Tuttiboard still lets in only the people it knows.'
+        : 'Only the accounts listed above exist in this identity provider.'
+    }</p>`,
   );
 }

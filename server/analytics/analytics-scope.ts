@@ -1,4 +1,5 @@
 import { sql, type SQL } from 'drizzle-orm';
+import { districtToday } from '../district/district-clock';
 import { schoolScope, assertInScope, type Actor } from '../core/policy';
 import type { Drill } from '../../shared/api/analytics';
 import { intArray } from '../db/client';
@@ -65,7 +66,7 @@ export function mondayOf(isoDate: string): string {
   return date.toISOString().slice(0, 10);
 }
 
-/** Today as an ISO date (UTC). */
+/** Today as an ISO date, in the district's time zone (so "this week" is the district's week). */
 export function today(): string {
-  return new Date().toISOString().slice(0, 10);
+  return districtToday();
 }

@@ -10,6 +10,7 @@ import type { Logger } from '../logger';
 import { findUserByEmail } from '../people/people-queries';
 import { recordAudit } from '../core/audit';
 import { plainPage } from './plain-page';
+import { districtIdentity } from '../district/district-queries';
 
 const strategyName = 'district-oidc';
 
@@ -95,13 +96,18 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
     return discovered;
   }
 
-  function providerDown(response: Response, error: unknown) {
+  async function brand(): Promise<string | undefined> {
+    return (await districtIdentity(db).catch(() => undefined))?.name;
+  }
+
+  async function providerDown(response: Response, error: unknown) {
     logger.warn({ err: error, issuer: config.oidcIssuer }, 'identity provider unreachable');
     response
       .status(503)
       .type('html')
       .send(
         plainPage({
+          brand: await brand(),
           title: 'Sign-in is not available right now',
           message: `The district's sign-in service (${config.oidcIssuer}) is not answering. Nothing you had saved is affected. Try again in a minute; if it goes on, tell the district's IT help desk.`,
           action: { href: '/auth/sign-in', label: 'Try again' },
@@ -115,7 +121,7 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
     try {
       await discover();
     } catch (error) {
-      return providerDown(response, error);
+      return await providerDown(response, error);
     }
     request.session.returnTo = safeReturnPath(request.query['returnTo']);
     const callbackURL = `${publicOrigin(config, request)}/auth/callback`;
@@ -130,7 +136,7 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
     try {
       await discover();
     } catch (error) {
-      return providerDown(response, error);
+      return await providerDown(response, error);
     }
     const callbackURL = `${publicOrigin(config, request)}/auth/callback`;
     const returnTo = safeReturnPath(request.session.returnTo);
@@ -140,18 +146,21 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
       (error: unknown, user: SessionUser | false, info?: { message?: string }) => {
         if (error || !user) {
           if (error) logger.warn({ err: error }, 'sign-in failed');
-          response
+          void brand().then((district) =>
+            response
             .status(error ? 502 : 403)
             .type('html')
             .send(
               plainPage({
+                brand: district,
                 title: 'You are not signed in',
                 message:
                   info?.message ??
                   'The sign-in could not be completed. Start again from the sign-in page.',
                 action: { href: '/auth/sign-in', label: 'Sign in again' },
               }),
-            );
+            ),
+          );
           return;
         }
         // req.logIn regenerates the session, so a session id planted before sign-in is dropped.

@@ -1,5 +1,6 @@
 import type { Config } from '../config';
 import { seedDemoWhenEmpty } from '../seed/demo';
+import { demoDistrict } from '../seed/demo-people';
 import { CommandError } from './command-error';
 import { withCommandDatabase } from './command-database';
 
@@ -17,7 +18,7 @@ export async function seedCommand(config: Config, args: string[]): Promise<numbe
   const seeded = await withCommandDatabase(config, 'tutti seed', ({ db }) => seedDemoWhenEmpty(db));
   process.stdout.write(
     seeded
-      ? 'Seeded the demo district, Merrow Basin Unified.\n'
+      ? `Seeded the demo district, ${demoDistrict.name}.\n`
       : 'The database already holds a district; nothing was seeded.\n',
   );
   return 0;

@@ -7,6 +7,7 @@ import { parseInput } from '../core/validate';
 import { findUserByEmail } from '../people/people-queries';
 import { issueToken } from '../tokens/token-service';
 import { localImportHandlers } from '../imports/local-import';
+import { AlreadySetUpError, setUpDistrict } from '../district/district-service';
 
 /** The header a local `tutti` command sends with the key from the data folder's lock file. */
 export const localKeyHeader = 'x-tutti-local-key';
@@ -37,6 +38,14 @@ export function localCommandRoutes({ db, database }: Services, localKey: string)
     if (!user || !user.active) throw new HttpError(404, 'not_found', `No active user has the e-mail ${email}.`);
     const { token, expiresAt } = await issueToken(db, user.id, 'tutti token');
     response.status(201).json({ token, name: user.name, role: user.role, expiresAt: expiresAt.toISOString() });
+  });
+  router.post('/setup', async (request, response) => {
+    try {
+      response.status(201).json(await setUpDistrict(db, request.body as never));
+    } catch (error) {
+      if (error instanceof AlreadySetUpError) throw new HttpError(409, 'conflict', error.message);
+      throw error;
+    }
   });
   router.post('/imports', ...localImportHandlers(database));
   return router;

@@ -5,11 +5,17 @@ import { backupCommand, restoreCommand } from './backup-command';
 import { migrateCommand, seedCommand } from './database-commands';
 import { importCommand } from './import-command';
 import { CommandError } from './command-error';
+import { setupCommand } from './setup-command';
 
 /** A `tutti` sub-command: takes its arguments, answers the exit code. */
 export type Command = (config: Config, args: string[]) => Promise<number>;
 
 const commands: Record<string, { run: Command; usage: string }> = {
+  setup: {
+    run: setupCommand,
+    usage:
+      'tutti setup --district "<name>" --coordinator <email> [--coordinator-name "<name>"] [--time-zone <IANA zone>]',
+  },
   import: {
     run: importCommand,
     usage: 'tutti import <file.csv | bundle.zip | folder> [--dry-run] [--json] [--skip-invalid]',

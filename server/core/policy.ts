@@ -18,6 +18,7 @@ export interface Actor {
 /** Things a role may do. Each route asks for one; nothing else decides. */
 export type Capability =
   | 'district:read'
+  | 'district:settings'
   | 'schools:read'
   | 'schools:write'
   | 'roster:read'
@@ -50,6 +51,7 @@ export type Capability =
 const capabilitiesByRole: Record<Role, readonly Capability[]> = {
   coordinator: [
     'district:read',
+    'district:settings',
     'schools:read',
     'schools:write',
     'roster:read',

@@ -7,6 +7,8 @@ import { notFound } from '../core/errors';
 import { instrumentScope } from './instruments-queries';
 import { instrumentNameOf } from './instrument-cautions';
 import { renderPdf } from './pdf-document';
+import { districtIdentity } from '../district/district-queries';
+import { pdfLogo } from '../district/district-print';
 
 const labelsAcross = 3;
 const labelLimit = 3000;
@@ -41,6 +43,12 @@ export async function assetLabelsPdf(
     .limit(labelLimit);
   if (one && rows.length === 0) throw notFound('That instrument');
   const labels: unknown[] = Array.from({ length: one?.skip ?? 0 }, () => ({ text: '' }));
+  const district = await districtIdentity(db);
+  const owner = district?.shortName ?? 'District';
+  const contact = district?.contactLines.find(
+    (line) => /\d/.test(line) && !line.includes('@') && line.length <= 24,
+  );
+  const logo = pdfLogo(district, 12, 60);
   const printed = await Promise.all(
     rows.map(async (row) => ({
       columns: [
@@ -57,8 +65,9 @@ export async function assetLabelsPdf(
           stack: [
             { text: row.assetTag, bold: true, fontSize: 13 },
             { text: instrumentNameOf(row.instrumentId), fontSize: 9, margin: [0, 2, 0, 0] },
+            ...(logo ? [{ ...logo, margin: [0, 3, 0, 0] }] : []),
             {
-              text: `${row.schoolCode} · Merrow Basin Unified property`,
+              text: `${row.schoolCode} · ${owner} property${contact ? ` · ${contact}` : ''}`,
               fontSize: 7,
               color: '#555555',
             },

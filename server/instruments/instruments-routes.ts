@@ -1,5 +1,7 @@
 import { idParameter } from '../../shared/api/input-rules';
 import express, { Router, type NextFunction, type Request, type Response } from 'express';
+import { fileNamePrefix } from '../reports/report-render';
+import { districtIdentity } from '../district/district-queries';
 import multer from 'multer';
 import { z } from 'zod';
 import {
@@ -81,7 +83,10 @@ export function instrumentsRoutes({ db, config }: Services): Router {
     );
     response
       .type('application/pdf')
-      .set('Content-Disposition', 'inline; filename="asset-labels.pdf"')
+      .set(
+        'Content-Disposition',
+        `inline; filename="${fileNamePrefix((await districtIdentity(db))?.shortName)}asset-labels.pdf"`,
+      )
       .send(pdf);
   });
   router.post(

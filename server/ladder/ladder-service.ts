@@ -1,4 +1,5 @@
 import { and, count, eq, ilike, ne } from 'drizzle-orm';
+import { demoLadderRungs as starterLadderRungs } from '../seed/demo-ladder-rungs';
 import { z } from 'zod';
 import type { Database } from '../db/client';
 import { ladderVersions, users } from '../db/schema/index';
@@ -83,8 +84,12 @@ export async function createDraft(
   actor: Actor,
   input: LadderDraftInput,
 ): Promise<Ladder> {
-  const sourceId = await activeVersionId(db);
-  const source = sourceId === null ? null : await loadLadder(db, sourceId);
+  const sourceId = input.starter ? null : await activeVersionId(db);
+  const source = input.starter
+    ? { name: 'Starter scale ladder', rungs: starterLadderRungs, benchmarks: [] }
+    : sourceId === null
+      ? null
+      : await loadLadder(db, sourceId);
   const id = await db.transaction(async (tx) => {
     const [row] = await tx
       .insert(ladderVersions)
@@ -99,7 +104,7 @@ export async function createDraft(
       action: 'create',
       entity: 'ladder-version',
       entityId: row!.id,
-      after: { ...row, copiedFrom: sourceId },
+      after: { ...row, copiedFrom: input.starter ? 'starter' : sourceId },
     });
     return row!.id;
   });

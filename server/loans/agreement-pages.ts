@@ -4,11 +4,13 @@ import { escapeHtml } from '../auth/plain-page';
 import { cautionsFor } from '../instruments/instrument-cautions';
 import { openAgreement, signAgreement, type AgreementLookup } from './agreement-signing';
 import { studentNameOf } from './loans-queries';
+import { districtIdentity, type DistrictIdentity } from '../district/district-queries';
+import { htmlBrand } from '../district/district-print';
 
 const style = `
 body{margin:0;font-family:"Public Sans",system-ui,sans-serif;background:#f4f1ec;color:#2b2824}
 main{max-width:44rem;margin:2rem auto;background:#fff;border:1px solid #e3ded7;border-radius:12px;padding:2rem 2.25rem}
-.brand{font-weight:700;letter-spacing:.04em;color:#8a5f10;font-size:.8rem;text-transform:uppercase}
+.brand{display:flex;align-items:center;font-weight:700;letter-spacing:.04em;color:#8a5f10;font-size:.8rem;text-transform:uppercase}
 h1{font-size:1.4rem;margin:.3rem 0 1rem;color:#0b4f55}
 .terms{white-space:pre-wrap;line-height:1.55;border:1px solid #e3ded7;border-radius:8px;padding:1rem 1.25rem;background:#fbfaf8;max-height:32rem;overflow:auto}
 .caution{border-left:4px solid #b7862b;background:#fbf5e8;padding:.6rem .9rem;margin:.75rem 0;border-radius:4px}
@@ -21,21 +23,31 @@ button:focus-visible,input:focus-visible{outline:3px solid #c8962a;outline-offse
 .small{color:#6b645b;font-size:.85rem}
 `;
 
-function page(response: Response, status: number, title: string, body: string) {
+function page(
+  response: Response,
+  district: DistrictIdentity | undefined,
+  status: number,
+  title: string,
+  body: string,
+) {
   response
     .status(status)
     .set('Cache-Control', 'no-store')
     .set('Referrer-Policy', 'no-referrer')
     .type('html')
     .send(
-      `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><meta name="robots" content="noindex"><title>${escapeHtml(title)} · Tuttiboard</title><style>${style}</style></head><body><main><div class="brand">Merrow Basin Unified · instrument loans</div><h1>${escapeHtml(title)}</h1>${body}</main></body></html>`,
+      `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><meta name="robots" content="noindex"><title>${escapeHtml(title)} · Tuttiboard</title><style>${style}</style></head><body><main><div class="brand">${htmlBrand(district, 'instrument loans')}</div><h1>${escapeHtml(title)}</h1>${body}</main></body></html>`,
     );
 }
 
-function refused(response: Response, lookup: Exclude<AgreementLookup, { state: 'open' }>) {
+function refused(
+  response: Response,
+  district: DistrictIdentity | undefined,
+  lookup: Exclude<AgreementLookup, { state: 'open' }>) {
   if (lookup.state === 'unknown') {
     return page(
       response,
+      district,
       404,
       'This link is not valid',
       '<p>This signing link is not one we know. Check that the whole address from the e-mail was copied, or ask the school’s music director to send a new link.</p>',
@@ -48,6 +60,7 @@ function refused(response: Response, lookup: Exclude<AgreementLookup, { state: '
   };
   return page(
     response,
+    district,
     410,
     'This link can no longer be used',
     `<p>${escapeHtml(messages[lookup.state])}</p>`,
@@ -56,6 +69,7 @@ function refused(response: Response, lookup: Exclude<AgreementLookup, { state: '
 
 function signingForm(
   response: Response,
+  district: DistrictIdentity | undefined,
   token: string,
   lookup: AgreementLookup & { state: 'open' },
   notice = '',
@@ -65,6 +79,7 @@ function signingForm(
     .join('');
   page(
     response,
+    district,
     notice ? 409 : 200,
     `Loan agreement for ${studentNameOf(lookup.row)}`,
     `${notice ? `<p class="error">${escapeHtml(notice)}</p>` : ''}
@@ -90,15 +105,17 @@ export function agreementPages({ db }: Services): Router {
   const router = Router();
   router.get('/agreements/:token', async (request, response) => {
     const token = request.params['token'] ?? '';
+    const district = await districtIdentity(db);
     const lookup = await openAgreement(db, token);
-    if (lookup.state !== 'open') return refused(response, lookup);
-    signingForm(response, token, lookup);
+    if (lookup.state !== 'open') return refused(response, district, lookup);
+    signingForm(response, district, token, lookup);
   });
   router.post(
     '/agreements/:token',
     express.urlencoded({ extended: false, limit: '16kb' }),
     async (request, response) => {
       const token = request.params['token'] ?? '';
+      const district = await districtIdentity(db);
       const body = (request.body ?? {}) as Record<string, unknown>;
       const signedName =
         typeof body['signedName'] === 'string'
@@ -107,9 +124,10 @@ export function agreementPages({ db }: Services): Router {
       const textHash = typeof body['textHash'] === 'string' ? body['textHash'] : '';
       if (signedName.length < 2 || signedName.length > 120 || body['agree'] !== 'yes') {
         const lookup = await openAgreement(db, token);
-        if (lookup.state !== 'open') return refused(response, lookup);
+        if (lookup.state !== 'open') return refused(response, district, lookup);
         return page(
           response,
+          district,
           400,
           'Please finish the form',
           '<p class="error">Type your full name and tick the box to say you accept the agreement.</p><p><a href="">Back to the agreement</a></p>',
@@ -119,14 +137,17 @@ export function agreementPages({ db }: Services): Router {
       if (outcome.state === 'text-changed') {
         return signingForm(
           response,
+          district,
           token,
           outcome.lookup,
           'The agreement was updated while you were reading it. Please read the text below, then sign again.',
         );
       }
-      if (outcome.state !== 'signed' || !('signedAt' in outcome)) return refused(response, outcome);
+      if (outcome.state !== 'signed' || !('signedAt' in outcome))
+        return refused(response, district, outcome);
       page(
         response,
+        district,
         200,
         'Thank you: the agreement is signed',
         `<p>Signed by <strong>${escapeHtml(signedName)}</strong> at ${escapeHtml(outcome.signedAt.toISOString())} for ${escapeHtml(studentNameOf(outcome.row))}.</p><p class="small">Fingerprint of the signed text (SHA-256): <code>${outcome.textHash}</code></p><p>The school keeps a copy; you may close this page.</p>`,

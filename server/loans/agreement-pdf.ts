@@ -3,6 +3,8 @@ import type { Actor } from '../core/policy';
 import { renderPdf } from '../instruments/pdf-document';
 import { stateConflict } from '../instruments/instruments-service';
 import { findLoanRow, studentNameOf } from './loans-queries';
+import { districtIdentity } from '../district/district-queries';
+import { pdfLetterhead } from '../district/district-print';
 
 /** The signed agreement of a loan as a PDF: the exact text, who signed, when, and its SHA-256. */
 export async function agreementPdf(db: Database, actor: Actor, id: number): Promise<Buffer> {
@@ -18,12 +20,7 @@ export async function agreementPdf(db: Database, actor: Actor, id: number): Prom
     pageSize: 'LETTER',
     pageMargins: [54, 54, 54, 54],
     content: [
-      {
-        text: 'Merrow Basin Unified · instrument loan agreement',
-        color: '#8a5f10',
-        bold: true,
-        fontSize: 9,
-      },
+      pdfLetterhead(await districtIdentity(db), 'instrument loan agreement'),
       {
         text: `Loan ${loan.id}: ${row.assetTag}, ${studentNameOf(row)}`,
         fontSize: 15,

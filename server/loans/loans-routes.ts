@@ -1,4 +1,6 @@
 import { recordId } from '../../shared/api/input-rules';
+import { fileNamePrefix } from '../reports/report-render';
+import { districtIdentity } from '../district/district-queries';
 import { Router } from 'express';
 import { z } from 'zod';
 import {
@@ -50,7 +52,10 @@ export function loansRoutes({ db, config }: Services): Router {
     const pdf = await agreementPdf(db, actorOf(request), parseId(request.params['id']));
     response
       .type('application/pdf')
-      .set('Content-Disposition', 'inline; filename="loan-agreement.pdf"')
+      .set(
+        'Content-Disposition',
+        `inline; filename="${fileNamePrefix((await districtIdentity(db))?.shortName)}loan-agreement-${request.params['id']}.pdf"`,
+      )
       .send(pdf);
   });
   router.post('/loans/:id/return', requires('loans:return'), async (request, response) => {

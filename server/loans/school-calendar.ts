@@ -1,10 +1,14 @@
 import { asc, eq, gte } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
 import { schoolYears } from '../db/schema/index';
+import { districtToday } from '../district/district-clock';
 
-/** Today's date (UTC) as YYYY-MM-DD, the form loan dates are kept in. */
-export function todayIso(now: Date = new Date()): string {
-  return now.toISOString().slice(0, 10);
+/**
+ * A day as YYYY-MM-DD, the form loan dates are kept in: today in the district's time zone (its
+ * settings), or the UTC day of a given moment (date arithmetic on days already in that form).
+ */
+export function todayIso(now?: Date): string {
+  return now ? now.toISOString().slice(0, 10) : districtToday();
 }
 
 /**

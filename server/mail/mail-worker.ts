@@ -6,6 +6,7 @@ import { outboxMessages } from '../db/schema/index';
 import type { Services } from '../services';
 import { createMailTransport } from './mail-transport';
 import { onOutboxNudge } from './outbox';
+import { districtIdentity } from '../district/district-queries';
 
 /** How many times a message is tried before it is marked failed. */
 export const maxAttempts = 8;
@@ -76,10 +77,24 @@ function errorText(error: unknown): string {
   return String(error).slice(0, 2000);
 }
 
+/**
+ * Who mail is from: MAIL_FROM's address, under the district's sender name (its settings) when
+ * it is set up, else MAIL_FROM as given.
+ */
+export async function senderOf(
+  db: Database,
+  configuredFrom: string,
+): Promise<string | { name: string; address: string }> {
+  const identity = await districtIdentity(db);
+  if (!identity) return configuredFrom;
+  const address = /<([^>]+)>\s*$/.exec(configuredFrom)?.[1] ?? configuredFrom.trim();
+  return { name: identity.mailSenderName, address };
+}
+
 async function deliver(
   db: Database,
   transport: Transporter,
-  from: string,
+  from: string | { name: string; address: string },
   message: ClaimedMessage,
 ): Promise<boolean> {
   try {
@@ -133,10 +148,11 @@ export interface DrainResult {
 async function drainWith(
   db: Database,
   transport: Transporter,
-  from: string,
+  configuredFrom: string,
   now: () => Date,
 ): Promise<DrainResult> {
   const result: DrainResult = { sent: 0, failed: 0 };
+  const from = await senderOf(db, configuredFrom);
   const tried = new Set<number>();
   for (;;) {
     const claimed = await claimDue(db, now(), 10, tried);

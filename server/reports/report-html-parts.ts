@@ -106,13 +106,13 @@ export function figureBoxes(figures: { label: string; value: string }[]): string
 }
 
 /** The whole message: a centred 640-pixel column on a warm paper background. */
-export function mailDocument(title: string, subtitle: string, body: string): string {
+export function mailDocument(title: string, subtitle: string, body: string, district = ''): string {
   return `<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width"><title>${escapeHtml(title)}</title></head>
 <body style="margin:0;padding:0;background:${palette.paper}">
 <table role="presentation" width="100%" cellpadding="0" cellspacing="0" style="background:${palette.paper}"><tr><td align="center" style="padding:24px 12px">
 <table role="presentation" width="640" cellpadding="0" cellspacing="0" style="max-width:640px;width:100%">
-<tr><td style="background:${palette.teal};padding:18px 20px;font-family:${font};color:#ffffff"><div style="font-size:20px;font-weight:600">${escapeHtml(title)}</div><div style="font-size:13px;opacity:0.85">${escapeHtml(subtitle)}</div></td></tr>
+<tr><td style="background:${palette.teal};padding:18px 20px;font-family:${font};color:#ffffff">${district ? `<div style="font-size:12px;letter-spacing:.04em;text-transform:uppercase;opacity:0.85">${escapeHtml(district)}</div>` : ''}<div style="font-size:20px;font-weight:600">${escapeHtml(title)}</div><div style="font-size:13px;opacity:0.85">${escapeHtml(subtitle)}</div></td></tr>
 <tr><td style="padding:8px 20px 24px;background:#ffffff">${body}</td></tr>
 <tr><td style="padding:12px 20px;font-family:${font};font-size:12px;color:${palette.muted}">Sent by Tuttiboard. Student details in this message are for the school's music staff only.</td></tr>
 </table></td></tr></table></body></html>`;

@@ -34,7 +34,7 @@ function studentTable(students: DirectorReportData['stalled']): string {
 }
 
 /** The HTML part of a director report. */
-export function directorReportHtml(data: DirectorReportData): string {
+export function directorReportHtml(data: DirectorReportData, district = ''): string {
   const { enrolment, ladder, passOffs, fleet } = data;
   const parts = [
     figureBoxes([
@@ -122,11 +122,12 @@ export function directorReportHtml(data: DirectorReportData): string {
     `${data.school.name} (${data.school.code}): director report`,
     `${data.from} to ${data.to}`,
     parts.join('\n'),
+    district,
   );
 }
 
 /** The HTML part of the district summary. */
-export function districtReportHtml(data: DistrictReportData): string {
+export function districtReportHtml(data: DistrictReportData, district = ''): string {
   const header = ['', ...data.schools.map((school) => school.code), 'District'];
   if (data.previous) header.push(`Change since ${data.previous.sentAt.slice(0, 10)}`);
   const rows = figureRows.map(({ field, label, share }) => {
@@ -172,5 +173,6 @@ export function districtReportHtml(data: DistrictReportData): string {
     'District summary',
     `Every school, ${data.from} to ${data.to}`,
     parts.join('\n'),
+    district,
   );
 }

@@ -5,7 +5,8 @@ import { badRequest } from '../core/errors';
 import { enqueueMail } from '../mail/outbox';
 import { assembleDirectorReport, assembleDistrictReport, figuresOf } from './report-data';
 import { reportSubject } from './report-format';
-import { renderReport } from './report-render';
+import { fileNamePrefix, renderReport } from './report-render';
+import { districtIdentity } from '../district/district-queries';
 import { reportAttachments } from './report-attachments';
 import { directorsOf } from './report-recipients';
 
@@ -64,9 +65,10 @@ async function queueDirectorReports(db: Queryable, request: ReportRequest): Prom
     );
     if (recipients.length === 0) continue;
     const data = await assembleDirectorReport(db, schoolId, request.from, request.to);
-    const rendered = renderReport(data);
+    const district = await districtIdentity(db);
+    const rendered = renderReport(data, district?.name);
     const attachments = await reportAttachments(
-      `${data.school.code}-report-${data.from}-to-${data.to}`,
+      `${fileNamePrefix(district?.shortName)}${data.school.code}-report-${data.from}-to-${data.to}`,
       rendered.csvFiles,
     );
     await db.transaction(async (tx) => {
@@ -119,9 +121,10 @@ async function queueDistrictSummary(db: Queryable, request: ReportRequest): Prom
   );
   if (recipients.length === 0) return { outboxIds: [], runIds: [] };
   const data = await assembleDistrictReport(db, request.from, request.to);
-  const rendered = renderReport(data);
+  const district = await districtIdentity(db);
+  const rendered = renderReport(data, district?.name);
   const attachments = await reportAttachments(
-    `district-summary-${data.from}-to-${data.to}`,
+    `${fileNamePrefix(district?.shortName)}district-summary-${data.from}-to-${data.to}`,
     rendered.csvFiles,
   );
   return db.transaction(async (tx) => {

@@ -18,6 +18,7 @@ import { recordAudit } from '../core/audit';
 import { parseInput } from '../core/validate';
 import { assembleDirectorReport, assembleDistrictReport } from './report-data';
 import { renderReport } from './report-render';
+import { districtIdentity } from '../district/district-queries';
 import { queueReports, type QueuedReports } from './report-queue';
 
 /** A report as the preview shows it: both parts and the data behind them. */
@@ -36,7 +37,7 @@ export async function previewReport(
       throw forbidden('Only the coordinator reads the district summary.');
     data = await assembleDistrictReport(db, input.from, input.to);
   }
-  const { html, text } = renderReport(data);
+  const { html, text } = renderReport(data, (await districtIdentity(db))?.name);
   return { html, text, data };
 }
 

@@ -1,10 +1,11 @@
-import { and, count, eq, ilike, inArray, or, sql, type SQL } from 'drizzle-orm';
+import { and, count, eq, ilike, inArray, isNotNull, isNull, or, sql, type SQL } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/pg-core';
 import { z } from 'zod';
 import type { Database } from '../db/client';
 import { schools, students } from '../db/schema/index';
 import type { ListResponse } from '../../shared/api/list';
-import type { School, SchoolInput } from '../../shared/api/school';
-import { schoolLevels, schoolPatchSchema } from '../../shared/api/school';
+import type { School, SchoolInput, SchoolPatch } from '../../shared/api/school';
+import { schoolLevels } from '../../shared/api/school';
 import { assertInScope, schoolScope, type Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
@@ -14,7 +15,11 @@ import { updateVersioned } from '../core/versioned-update';
 const schoolFilters = z.object({
   level: z.enum(schoolLevels).optional(),
   code: z.string().optional(),
+  /** open: schools not closed; closed: the closed ones; all (the default): both. */
+  status: z.enum(['open', 'closed', 'all']).optional(),
 });
+
+const sendsTo = alias(schools, 'sends_to');
 
 // Written out with table names: Drizzle leaves columns unqualified in a one-table select.
 // Active students from the per-school counts the student triggers keep (migration 0009).
@@ -29,15 +34,28 @@ const sortable = {
   ensembleCount,
 };
 
-function toSchool(
-  row: typeof schools.$inferSelect & { studentCount?: number; ensembleCount?: number },
-): School {
+type SchoolRow = typeof schools.$inferSelect & {
+  studentCount?: number;
+  ensembleCount?: number;
+  sendsToCode?: string | null;
+  sendsToName?: string | null;
+};
+
+function toSchool(row: SchoolRow): School {
   return {
     id: row.id,
     code: row.code,
     name: row.name,
     level: row.level as School['level'],
     address: row.address,
+    lowestGrade: row.lowestGrade,
+    highestGrade: row.highestGrade,
+    sendsToSchoolId: row.sendsToSchoolId,
+    sendsTo:
+      row.sendsToSchoolId !== null && row.sendsToCode && row.sendsToName
+        ? { id: row.sendsToSchoolId, code: row.sendsToCode, name: row.sendsToName }
+        : null,
+    closedOn: row.closedOn,
     version: row.version,
     studentCount: row.studentCount,
     ensembleCount: row.ensembleCount,
@@ -64,11 +82,14 @@ export async function listSchools(
   }
   if (list.level) conditions.push(eq(schools.level, list.level));
   if (list.code) conditions.push(eq(schools.code, list.code.toUpperCase()));
+  if (list.status === 'open') conditions.push(isNull(schools.closedOn));
+  if (list.status === 'closed') conditions.push(isNotNull(schools.closedOn));
   const where = and(...conditions);
   const [rows, [total]] = await Promise.all([
     db
       .select({ ...schoolColumns, studentCount, ensembleCount })
       .from(schools)
+      .leftJoin(sendsTo, eq(sendsTo.id, schools.sendsToSchoolId))
       .where(where)
       .orderBy(...orderFor(list.sort, sortable, 'name:asc', schools.id))
       .limit(list.limit)
@@ -84,6 +105,12 @@ const schoolColumns = {
   name: schools.name,
   level: schools.level,
   address: schools.address,
+  lowestGrade: schools.lowestGrade,
+  highestGrade: schools.highestGrade,
+  sendsToSchoolId: schools.sendsToSchoolId,
+  sendsToCode: sendsTo.code,
+  sendsToName: sendsTo.name,
+  closedOn: schools.closedOn,
   version: schools.version,
   createdAt: schools.createdAt,
   updatedAt: schools.updatedAt,
@@ -95,6 +122,7 @@ export async function getSchool(db: Database, actor: Actor, id: number): Promise
   const [row] = await db
     .select({ ...schoolColumns, studentCount, ensembleCount })
     .from(schools)
+    .leftJoin(sendsTo, eq(sendsTo.id, schools.sendsToSchoolId))
     .where(eq(schools.id, id));
   if (!row) throw notFound('That school');
   return toSchool(row);
@@ -116,7 +144,8 @@ export async function createSchool(
   input: SchoolInput,
 ): Promise<School> {
   await assertCodeFree(db, input.code);
-  return db.transaction(async (tx) => {
+  await assertSendsTo(db, input.sendsToSchoolId);
+  const id = await db.transaction(async (tx) => {
     const [row] = await tx.insert(schools).values(input).returning();
     await recordAudit(tx, actor, {
       action: 'create',
@@ -124,8 +153,9 @@ export async function createSchool(
       entityId: row!.id,
       after: row,
     });
-    return toSchool(row!);
+    return row!.id;
   });
+  return getSchool(db, actor, id);
 }
 
 /** Changes a school, refusing a stale version. */
@@ -133,13 +163,19 @@ export async function updateSchool(
   db: Database,
   actor: Actor,
   id: number,
-  patch: z.infer<typeof schoolPatchSchema>,
+  patch: SchoolPatch,
 ): Promise<School> {
   const { version, ...changes } = patch;
   if (changes.code) await assertCodeFree(db, changes.code, id);
-  return db.transaction(async (tx) => {
+  await assertSendsTo(db, changes.sendsToSchoolId, id);
+  await db.transaction(async (tx) => {
     const [before] = await tx.select().from(schools).where(eq(schools.id, id));
     const after = await updateVersioned(tx, schools, id, version, changes, 'That school');
+    if (after.lowestGrade !== null && after.highestGrade !== null && after.lowestGrade > after.highestGrade) {
+      throw badRequest('The lowest grade served is above the highest.', [
+        { field: 'highestGrade', message: 'The lowest grade served is above the highest.' },
+      ]);
+    }
     await recordAudit(tx, actor, {
       action: 'update',
       entity: 'school',
@@ -147,8 +183,23 @@ export async function updateSchool(
       before,
       after,
     });
-    return toSchool(after);
   });
+  return getSchool(db, actor, id);
+}
+
+/** The school students move up to must exist, be open, and not be the school itself. */
+async function assertSendsTo(db: Database, sendsToSchoolId: number | null | undefined, selfId?: number) {
+  if (sendsToSchoolId === null || sendsToSchoolId === undefined) return;
+  const refuse = (message: string) => {
+    throw badRequest(message, [{ field: 'sendsToSchoolId', message }]);
+  };
+  if (sendsToSchoolId === selfId) refuse('A school cannot send its students on to itself.');
+  const [target] = await db
+    .select({ id: schools.id, closedOn: schools.closedOn })
+    .from(schools)
+    .where(eq(schools.id, sendsToSchoolId));
+  if (!target) refuse('The school students move up to does not exist.');
+  if (target!.closedOn) refuse('The school students move up to is closed.');
 }
 
 /** Removes a school that has no students or ensembles. */
@@ -161,6 +212,16 @@ export async function deleteSchool(db: Database, actor: Actor, id: number): Prom
   if (studentsThere > 0 || (school.ensembleCount ?? 0) > 0) {
     throw badRequest(
       `${school.name} still has ${studentsThere} students and ${school.ensembleCount} ensembles; move or remove them first.`,
+    );
+  }
+  const [feeder] = await db
+    .select({ name: schools.name })
+    .from(schools)
+    .where(eq(schools.sendsToSchoolId, id))
+    .limit(1);
+  if (feeder) {
+    throw badRequest(
+      `${feeder.name} sends its students on to ${school.name}; change that first, or close ${school.name} instead.`,
     );
   }
   await db.transaction(async (tx) => {

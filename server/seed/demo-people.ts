@@ -2,11 +2,21 @@
  * The invented Merrow Basin Unified district: its schools and staff accounts. Every name here
  * is made up for the demonstration.
  */
+export const demoDistrict = {
+  name: 'Merrow Basin Unified',
+  shortName: 'Merrow Basin',
+  timeZone: 'America/Los_Angeles',
+  contactAddress: 'Music Office, 200 Basin Avenue, Merrow Basin',
+  contactPhone: '(555) 010-4400',
+  contactEmail: 'music.office@merrowbasin.example',
+  mailSenderName: 'Merrow Basin Unified Music',
+};
+
 export const demoSchools = [
   { code: 'HPMS', name: 'Heron Point Middle', level: 'middle', address: '410 Heron Point Road, Merrow Basin', students: 330 },
   { code: 'QHMS', name: 'Quarry Hill Middle', level: 'middle', address: '92 Quarry Hill Lane, Merrow Basin', students: 300 },
   { code: 'TRHS', name: 'Tamsin Ridge High', level: 'high', address: '1 Ridgeline Drive, Tamsin', students: 400 },
-  { code: 'FBES', name: 'Fernbank Elementary', level: 'elementary', address: '18 Fernbank Court, Merrow Basin', students: 200 },
+  { code: 'FBES', name: 'Firthbarrow Elementary', level: 'elementary', address: '18 Firthbarrow Court, Merrow Basin', students: 200 },
   { code: 'OMMS', name: 'Orchard Mill Middle', level: 'middle', address: '77 Millrace Way, Orchard', students: 260 },
   { code: 'CWES', name: 'Cedarwash Elementary', level: 'elementary', address: '5 Cedarwash Road, Tamsin', students: 180 },
 ] as const;

@@ -1,7 +1,8 @@
-import { count } from 'drizzle-orm';
+import { count, eq } from 'drizzle-orm';
 import type { Database } from '../db/client';
-import { schoolYears, schools, userSchools, users } from '../db/schema/index';
-import { demoSchools, demoUsers } from './demo-people';
+import { districts, schoolYears, schools, userSchools, users } from '../db/schema/index';
+import { demoDistrict, demoSchools, demoUsers } from './demo-people';
+import { findDistrictRow, forgetDistrictIdentity } from '../district/district-queries';
 import { seedDemoRoster } from './demo-roster';
 import { seedDemoFleet } from './demo-fleet';
 import { seedDemoLadder } from './demo-ladder';
@@ -11,10 +12,25 @@ import { SeededRandom } from './random';
 /** The school year the demo runs in: 2026–27, August to June. */
 export const demoSchoolYear = { name: '2026-27', startsOn: '2026-08-17', endsOn: '2027-06-11' };
 
-/** Whether the database holds no district yet. */
+/** Whether the database holds no district yet: no district record and no schools. */
 export async function isEmpty(db: Database): Promise<boolean> {
+  if (await findDistrictRow(db)) return false;
   const [row] = await db.select({ value: count() }).from(schools);
   return row!.value === 0;
+}
+
+/**
+ * A demo seeded before districts had a record of their own: gives it the demo district's
+ * record, so it is not taken for a database that was never set up. Answers whether it did.
+ */
+export async function adoptDemoDistrict(db: Database): Promise<boolean> {
+  if (await findDistrictRow(db)) return false;
+  const coordinator = demoUsers.find((user) => user.role === 'coordinator')!;
+  const [user] = await db.select({ id: users.id }).from(users).where(eq(users.email, coordinator.email));
+  if (!user) return false;
+  await db.insert(districts).values(demoDistrict);
+  forgetDistrictIdentity(db);
+  return true;
 }
 
 /**
@@ -25,6 +41,7 @@ export async function isEmpty(db: Database): Promise<boolean> {
 export async function seedDemo(db: Database, seededOn = new Date()): Promise<void> {
   const random = new SeededRandom(20261201);
   await db.transaction(async (tx) => {
+    await tx.insert(districts).values(demoDistrict);
     const schoolRows = await tx
       .insert(schools)
       .values(demoSchools.map(({ code, name, level, address }) => ({ code, name, level, address })))
@@ -69,8 +86,13 @@ export async function seedDemo(db: Database, seededOn = new Date()): Promise<voi
 
 /** Seeds the demo district when the database is empty; answers whether it did. */
 export async function seedDemoWhenEmpty(db: Database): Promise<boolean> {
-  if (!(await isEmpty(db))) return false;
+  if (!(await isEmpty(db))) {
+    await adoptDemoDistrict(db);
+    return false;
+  }
   await seedDemo(db);
+  forgetDistrictIdentity(db);
+  await findDistrictRow(db);
   await refreshStatistics(db);
   return true;
 }

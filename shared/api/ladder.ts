@@ -118,6 +118,11 @@ export type Ladder = z.infer<typeof ladderSchema>;
 /** `POST /api/ladder/versions`: a new draft, copied from the active version. */
 export const ladderDraftInputSchema = z.strictObject({
   name: plainText().min(1).max(120).optional(),
+  /**
+   * Start from the starter ladder (seven rungs, long tones at ♩ = 60 up to all twelve major
+   * scales) instead of the version in force; benchmarks are left for the district to set.
+   */
+  starter: z.boolean().optional(),
 });
 export type LadderDraftInput = z.infer<typeof ladderDraftInputSchema>;
 

@@ -53,6 +53,8 @@ interface Entry {
 
 const matrix: Entry[] = [
   { route: 'GET /api/me', codes: 'PPPPPP' },
+  { route: 'GET /api/district', codes: 'PPPPPP' },
+  { route: 'PATCH /api/district', codes: 'P33333' },
   { route: 'GET /api/schools', codes: 'PPPPP3' },
   { route: 'GET /api/schools/:id', codes: 'PP4P43', url: (f) => `/api/schools/${f.hpms}` },
   { route: 'POST /api/schools', codes: 'P33333' },
@@ -171,6 +173,9 @@ const outsideApi = new Set([
   'POST /auth/sign-out',
   'GET /agreements/:token',
   'POST /agreements/:token',
+  // The district's name and logo: public, for the pages shown before sign-in.
+  'GET /district-brand',
+  'GET /district-logo',
 ]);
 
 async function freshSchool(app: TestApp): Promise<string> {

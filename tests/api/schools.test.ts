@@ -85,4 +85,65 @@ describe('Schools', () => {
     );
     expect((result as unknown as { rows: unknown[] }).rows).toEqual([{ action: 'create', email: 'coordinator@merrowbasin.example' }]);
   });
+
+  it('should keep the grades served and the school students move up to, and refuse bad ones', async () => {
+    const created = await coordinator.post('/api/schools', {
+      code: 'KVES',
+      name: 'Kestrel Valley Elementary',
+      level: 'elementary',
+      lowestGrade: 0,
+      highestGrade: 5,
+      sendsToSchoolId: schoolIds['HPMS'],
+    });
+    expect(created.status).toBe(201);
+    expect(created.body).toMatchObject({
+      lowestGrade: 0,
+      highestGrade: 5,
+      sendsToSchoolId: schoolIds['HPMS'],
+      sendsTo: { id: schoolIds['HPMS'], code: 'HPMS', name: 'Heron Point Middle' },
+      closedOn: null,
+    });
+    const upsideDown = await coordinator.patch(`/api/schools/${created.body.id}`, {
+      version: created.body.version,
+      lowestGrade: 6,
+    });
+    expect(upsideDown.status).toBe(400);
+    expect(upsideDown.body.error.fieldErrors[0].field).toBe('highestGrade');
+    const toItself = await coordinator.patch(`/api/schools/${created.body.id}`, {
+      version: created.body.version,
+      sendsToSchoolId: created.body.id,
+    });
+    expect(toItself.status).toBe(400);
+    const nowhere = await coordinator.post('/api/schools', { code: 'NOWH', name: 'Nowhere School', level: 'other', sendsToSchoolId: 999999 });
+    expect(nowhere.status).toBe(400);
+    const grade13 = await coordinator.post('/api/schools', { code: 'G13S', name: 'Grade Thirteen', level: 'high', highestGrade: 13 });
+    expect(grade13.status).toBe(400);
+    const unchanged = await coordinator.get(`/api/schools/${created.body.id}`);
+    expect(unchanged.body.version).toBe(created.body.version);
+    // A school another sends its students to is closed, not deleted.
+    const target = await coordinator.post('/api/schools', { code: 'TGTM', name: 'Target Middle', level: 'middle' });
+    await coordinator.post('/api/schools', { code: 'FDRE', name: 'Feeder Elementary', level: 'elementary', sendsToSchoolId: target.body.id });
+    const deleted = await coordinator.delete(`/api/schools/${target.body.id}`);
+    expect(deleted.status).toBe(400);
+    expect(deleted.body.error.message).toContain('Feeder Elementary sends its students on to Target Middle');
+  });
+
+  it('should close a school and open it again, and list open and closed schools apart', async () => {
+    const created = await coordinator.post('/api/schools', { code: 'CLSD', name: 'Closing Elementary', level: 'elementary' });
+    const closed = await coordinator.patch(`/api/schools/${created.body.id}`, {
+      version: created.body.version,
+      closedOn: '2026-06-12',
+    });
+    expect(closed.status).toBe(200);
+    expect(closed.body.closedOn).toBe('2026-06-12');
+    const open = await coordinator.get('/api/schools?status=open&limit=100');
+    expect(open.body.rows.map((row: { code: string }) => row.code)).not.toContain('CLSD');
+    const closedList = await coordinator.get('/api/schools?status=closed&limit=100');
+    expect(closedList.body.rows.map((row: { code: string }) => row.code)).toEqual(['CLSD']);
+    const sendToClosed = await coordinator.post('/api/schools', { code: 'FEED', name: 'Feeder School', level: 'elementary', sendsToSchoolId: created.body.id });
+    expect(sendToClosed.status).toBe(400);
+    const reopened = await coordinator.patch(`/api/schools/${created.body.id}`, { version: closed.body.version, closedOn: null });
+    expect(reopened.body.closedOn).toBeNull();
+    expect((await director.patch(`/api/schools/${schoolIds['HPMS']}`, { version: 1, closedOn: '2026-06-12' })).status).toBe(403);
+  });
 });

@@ -21,6 +21,14 @@ export const routes: Routes = [
         loadChildren: () => import('./overview/overview.routes').then((m) => m.overviewRoutes),
       },
       {
+        path: 'district',
+        canActivate: [capabilityGuard],
+        data: { capability: 'district:settings' },
+        loadComponent: () =>
+          import('./district/district-settings/district-settings').then((m) => m.DistrictSettings),
+        title: 'District settings · Tuttiboard',
+      },
+      {
         path: 'schools',
         canActivate: [capabilityGuard],
         data: { capability: 'schools:read' },

@@ -1,4 +1,13 @@
-import { boolean, date, index, integer, pgTable, text, uniqueIndex } from 'drizzle-orm/pg-core';
+import {
+  boolean,
+  date,
+  index,
+  integer,
+  pgTable,
+  text,
+  uniqueIndex,
+  type AnyPgColumn,
+} from 'drizzle-orm/pg-core';
 import { timestamps, version } from './columns';
 
 /** A school of the district, known everywhere by its short code (HPMS, TRHS…). */
@@ -10,6 +19,13 @@ export const schools = pgTable(
     name: text('name').notNull(),
     level: text('level').notNull(),
     address: text('address').notNull().default(''),
+    /** The lowest and highest grade taught here; kindergarten is 0. */
+    lowestGrade: integer('lowest_grade'),
+    highestGrade: integer('highest_grade'),
+    /** The school its students move up to after its highest grade. */
+    sendsToSchoolId: integer('sends_to_school_id').references((): AnyPgColumn => schools.id),
+    /** The day the school closed; a closed school keeps its history. */
+    closedOn: date('closed_on', { mode: 'string' }),
     ...version,
     ...timestamps,
   },

@@ -81,6 +81,9 @@ export const iconNames = [
   'schedule_send',
   'event_repeat',
   'mic',
+  'domain',
+  'image',
+  'radio_button_unchecked',
 ] as const;
 
 export type IconName = (typeof iconNames)[number];

@@ -47,10 +47,10 @@ export class LadderData {
     return this.http.get(`/api/ladder/versions/${id}`).pipe(parsedWith(ladderSchema));
   }
 
-  /** A new draft copied from the version in force. */
-  createDraft(name?: string): Observable<Ladder> {
+  /** A new draft copied from the version in force, or from the starter ladder. */
+  createDraft(name?: string, starter = false): Observable<Ladder> {
     return this.http
-      .post('/api/ladder/versions', name ? { name } : {})
+      .post('/api/ladder/versions', { ...(name ? { name } : {}), ...(starter ? { starter } : {}) })
       .pipe(parsedWith(ladderSchema));
   }
 

@@ -31,6 +31,7 @@ import { passOffsPerWeekFigure } from './overview-charts/pass-offs-per-week';
 import { studentsByRungFigure } from './overview-charts/students-by-rung';
 import { QuietDirectors } from './quiet-directors/quiet-directors';
 import { OverviewSchoolList } from './school-list/school-list';
+import { FirstDayGuide } from './first-day-guide/first-day-guide';
 
 const wholeNumber = (text: string | undefined) =>
   text && /^\d+$/.test(text) ? Number(text) : undefined;
@@ -54,6 +55,7 @@ const gradesIn = (figures: OverviewFigures) =>
     AuditionReady,
     QuietDirectors,
     OverviewSchoolList,
+    FirstDayGuide,
   ],
   templateUrl: './overview.html',
   styleUrl: './overview.scss',
@@ -71,6 +73,10 @@ export class Overview {
   readonly grade = input<string>();
 
   protected readonly me = this.currentUser.me;
+  /** Whether the first-day guide applies: the coordinator sets the district up. */
+  protected readonly guidesSetup = computed(
+    () => this.currentUser.can('schools:write') && this.currentUser.can('people:manage'),
+  );
   /** Whether the role reads the ladder figures (a technician sees the fleet only). */
   protected readonly readsLadder = computed(() => this.currentUser.can('pass-offs:read'));
   protected readonly filters = computed<OverviewFilters>(() => {

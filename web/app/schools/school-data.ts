@@ -2,7 +2,7 @@ import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
-import { schoolSchema, type School, type SchoolInput } from '../../../shared/api/school';
+import { schoolSchema, type School, type SchoolInput, type SchoolPatch } from '../../../shared/api/school';
 import { parsedWith } from '../core/parse';
 
 const schoolListSchema = listResponseSchema(schoolSchema);
@@ -26,7 +26,7 @@ export class SchoolData {
     return this.http.post('/api/schools', input).pipe(parsedWith(schoolSchema));
   }
 
-  update(id: number, patch: Partial<SchoolInput> & { version: number }): Observable<School> {
+  update(id: number, patch: SchoolPatch): Observable<School> {
     return this.http.patch(`/api/schools/${id}`, patch).pipe(parsedWith(schoolSchema));
   }
 }

@@ -30,6 +30,7 @@ export const navigationItems: NavigationItem[] = [
   { path: '/people', label: 'People', icon: 'manage_accounts', capability: 'people:manage', group: 'admin' },
   // The coordinator reaches every token from People; other roles with tokens:own get their own page.
   { path: '/account/tokens', label: 'API tokens', icon: 'key', capability: 'tokens:own', hiddenFor: ['coordinator'], group: 'admin' },
+  { path: '/district', label: 'District settings', icon: 'domain', capability: 'district:settings', group: 'admin' },
   { path: '/reports', label: 'Reports', icon: 'outgoing_mail', capability: 'reports:read', group: 'admin' },
 ];
 

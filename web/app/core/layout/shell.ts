@@ -12,6 +12,7 @@ import { filter } from 'rxjs';
 import { MatIcon } from '@angular/material/icon';
 import { roleLabels } from '../../../../shared/api/roles';
 import { CurrentUser } from '../auth/current-user';
+import { CurrentDistrict } from '../district/current-district';
 import { navigationGroups, visibleItems } from './navigation';
 
 /** The frame of every signed-in page: the left navigation rail and the top bar. */
@@ -62,7 +63,14 @@ export class Shell {
     if (Date.now() < until) setTimeout(() => this.focusHeading(until), 50);
   }
 
+  private readonly currentDistrict = inject(CurrentDistrict);
+
   protected readonly me = this.currentUser.me;
+  protected readonly district = this.currentDistrict.district;
+
+  constructor() {
+    void this.currentDistrict.load();
+  }
 
   /** The sign-out form is a plain POST; the app only notes it so no 401 signs the user back in. */
   protected signingOut(): void {

@@ -134,9 +134,9 @@ export class LadderView {
     return appliesToFamily(requirement, this.instrument().family);
   }
 
-  protected startDraft(): void {
+  protected startDraft(starter = false): void {
     this.startingDraft.set(true);
-    this.ladderData.createDraft().subscribe({
+    this.ladderData.createDraft(undefined, starter).subscribe({
       next: (draft) => void this.router.navigate(['/ladder/versions', draft.id, 'edit']),
       error: (error: unknown) => {
         this.startingDraft.set(false);

@@ -16,7 +16,13 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import type { Ensemble } from '../../../../shared/api/ensemble';
-import { schoolInputSchema, schoolLevels, type School } from '../../../../shared/api/school';
+import {
+  gradeLabel,
+  schoolInputSchema,
+  schoolLevels,
+  type School,
+  type SchoolSummaryRow,
+} from '../../../../shared/api/school';
 import { CurrentUser } from '../../core/auth/current-user';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
@@ -64,18 +70,57 @@ export class SchoolDetail {
   protected readonly conflict = signal(false);
   protected readonly saveError = signal('');
   protected readonly fieldMessage = fieldMessage;
+  protected readonly grades = Array.from({ length: 13 }, (_, grade) => grade);
+  protected readonly gradeLabel = gradeLabel;
+  /** The open schools students may move up to (the school itself left out). */
+  protected readonly otherSchools = signal<SchoolSummaryRow[]>([]);
+  protected readonly closingOn = signal(new Date().toISOString().slice(0, 10));
 
   protected readonly form = inject(NonNullableFormBuilder).group({
     code: ['', schemaValidator(schoolInputSchema.shape.code)],
     name: ['', schemaValidator(schoolInputSchema.shape.name)],
     level: ['middle' as School['level'], schemaValidator(schoolInputSchema.shape.level)],
     address: ['', schemaValidator(schoolInputSchema.shape.address)],
+    lowestGrade: [null as number | null],
+    highestGrade: [null as number | null],
+    sendsToSchoolId: [null as number | null],
   });
 
   constructor() {
     effect(() => {
       const id = this.id();
       untracked(() => (id === 'new' ? this.load.set({ kind: 'ready' }) : this.fetch(Number(id))));
+      untracked(() => this.fetchOtherSchools(id === 'new' ? null : Number(id)));
+    });
+  }
+
+  private fetchOtherSchools(selfId: number | null): void {
+    this.schoolData.list({ status: 'open', sort: 'name:asc', limit: 500 }).subscribe({
+      next: (list) =>
+        this.otherSchools.set(
+          list.rows
+            .filter((school) => school.id !== selfId)
+            .map(({ id, code, name }) => ({ id, code, name })),
+        ),
+      error: () => this.otherSchools.set([]),
+    });
+  }
+
+  /** Closes the school on the chosen day, or opens it again (closedOn null). */
+  protected setClosed(closedOn: string | null): void {
+    const current = this.school();
+    if (!current || this.saving()) return;
+    this.saving.set(true);
+    this.saveError.set('');
+    this.schoolData.update(current.id, { closedOn, version: current.version }).subscribe({
+      next: (school) => {
+        this.saving.set(false);
+        this.show(school);
+      },
+      error: (error: unknown) => {
+        this.saving.set(false);
+        this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
+      },
     });
   }
 
@@ -86,14 +131,19 @@ export class SchoolDetail {
   protected save(): void {
     this.form.markAllAsTouched();
     if (this.form.invalid || this.saving()) return;
-    const input = schoolInputSchema.parse(this.form.getRawValue());
+    const parsed = schoolInputSchema.safeParse(this.form.getRawValue());
+    if (!parsed.success) {
+      this.saveError.set(parsed.error.issues[0]?.message ?? 'Check the form.');
+      return;
+    }
     const current = this.school();
+    const { closedOn: _closedOn, ...input } = parsed.data;
     this.saving.set(true);
     this.saved.set(false);
     this.saveError.set('');
     const request = current
       ? this.schoolData.update(current.id, { ...input, version: current.version })
-      : this.schoolData.create(input);
+      : this.schoolData.create(parsed.data);
     request.subscribe({
       next: (school) => {
         this.saving.set(false);
@@ -138,6 +188,9 @@ export class SchoolDetail {
       name: school.name,
       level: school.level,
       address: school.address,
+      lowestGrade: school.lowestGrade,
+      highestGrade: school.highestGrade,
+      sendsToSchoolId: school.sendsToSchoolId,
     });
     if (!this.canWrite) this.form.disable();
   }

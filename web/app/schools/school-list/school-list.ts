@@ -3,7 +3,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
-import type { School } from '../../../../shared/api/school';
+import { gradesServedLabel, type School } from '../../../../shared/api/school';
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
@@ -72,6 +72,28 @@ export class SchoolList {
       width: 140,
       valueFormatter: ({ value }) =>
         schoolLevelLabels[value as School['level']] ?? String(value ?? ''),
+    },
+    {
+      colId: 'grades',
+      headerName: 'Grades',
+      width: 110,
+      sortable: false,
+      valueGetter: ({ data }) => (data ? gradesServedLabel(data) : ''),
+    },
+    {
+      colId: 'sendsTo',
+      headerName: 'Students move up to',
+      flex: 1,
+      minWidth: 180,
+      sortable: false,
+      valueGetter: ({ data }) => data?.sendsTo?.name ?? '',
+    },
+    {
+      field: 'closedOn',
+      headerName: 'Status',
+      width: 150,
+      sortable: false,
+      valueFormatter: ({ value }) => (value ? `Closed ${value}` : 'Open'),
     },
     { field: 'studentCount', headerName: 'Students', width: 130, type: 'rightAligned' },
     { field: 'ensembleCount', headerName: 'Ensembles', width: 130, type: 'rightAligned' },

@@ -1,0 +1,181 @@
+import {
+  ChangeDetectionStrategy,
+  Component,
+  effect,
+  inject,
+  signal,
+  untracked,
+} from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import type { Observable } from 'rxjs';
+import {
+  districtContactSchema,
+  districtNameSchema,
+  districtPatchSchema,
+  logoByteLimit,
+  timeZoneSchema,
+  type District,
+} from '../../../../shared/api/district';
+import { CurrentDistrict } from '../../core/district/current-district';
+import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
+import { errorMessage } from '../../core/parse';
+import { PageState } from '../../core/state/page-state';
+import { DistrictData } from '../district-data';
+
+/** The time zones offered first; any other IANA zone can be typed in the field below. */
+const commonTimeZones = [
+  'America/Los_Angeles',
+  'America/Denver',
+  'America/Phoenix',
+  'America/Chicago',
+  'America/New_York',
+  'America/Anchorage',
+  'Pacific/Honolulu',
+];
+
+/** The coordinator's screen for the district's own identity: name, logo, office, time zone, mail. */
+@Component({
+  selector: 'tb-district-settings',
+  imports: [
+    ReactiveFormsModule,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatSelectModule,
+    PageState,
+  ],
+  templateUrl: './district-settings.html',
+  styleUrl: './district-settings.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class DistrictSettings {
+  private readonly data = inject(DistrictData);
+  private readonly currentDistrict = inject(CurrentDistrict);
+
+  protected readonly district = rxResource({ stream: () => this.data.get() });
+  protected readonly fieldMessage = fieldMessage;
+  protected readonly saving = signal(false);
+  protected readonly saved = signal(false);
+  protected readonly conflict = signal(false);
+  protected readonly saveError = signal('');
+  protected readonly logoMessage = signal('');
+  protected readonly logoError = signal('');
+  protected readonly timeZones = signal<string[]>(commonTimeZones);
+
+  protected readonly form = inject(NonNullableFormBuilder).group({
+    name: ['', schemaValidator(districtNameSchema)],
+    shortName: ['', schemaValidator(districtPatchSchema.shape.shortName.unwrap())],
+    timeZone: ['', schemaValidator(timeZoneSchema)],
+    address: ['', schemaValidator(districtContactSchema.shape.address)],
+    phone: ['', schemaValidator(districtContactSchema.shape.phone)],
+    email: ['', schemaValidator(districtContactSchema.shape.email)],
+    mailSenderName: ['', schemaValidator(districtPatchSchema.shape.mailSenderName.unwrap())],
+  });
+
+  constructor() {
+    // The form shows the district as loaded, and again after every save.
+    effect(() => {
+      const district = this.district.value();
+      if (district) untracked(() => this.fill(district));
+    });
+  }
+
+  private fill(district: District): void {
+    this.form.reset({
+      name: district.name,
+      shortName: district.shortName,
+      timeZone: district.timeZone,
+      address: district.contact.address,
+      phone: district.contact.phone,
+      email: district.contact.email,
+      mailSenderName: district.mailSenderName,
+    });
+    if (!commonTimeZones.includes(district.timeZone))
+      this.timeZones.set([district.timeZone, ...commonTimeZones]);
+  }
+
+  protected save(current: District): void {
+    this.form.markAllAsTouched();
+    if (this.form.invalid || this.saving()) return;
+    const value = this.form.getRawValue();
+    this.send(
+      this.data.update({
+        version: current.version,
+        name: value.name,
+        shortName: value.shortName,
+        timeZone: value.timeZone,
+        mailSenderName: value.mailSenderName,
+        contact: { address: value.address, phone: value.phone, email: value.email },
+      }),
+      () => this.saved.set(true),
+      (error) => this.saveError.set(saveFailureMessage(this.form, error, this.conflict)),
+    );
+  }
+
+  protected chooseLogo(current: District, event: Event): void {
+    const picker = event.target as HTMLInputElement;
+    const file = picker.files?.[0];
+    picker.value = '';
+    this.logoMessage.set('');
+    this.logoError.set('');
+    if (!file) return;
+    if (!['image/png', 'image/svg+xml'].includes(file.type)) {
+      this.logoError.set('A logo is a PNG or an SVG image.');
+      return;
+    }
+    if (file.size > logoByteLimit) {
+      this.logoError.set(
+        `That file is ${(file.size / 1024 / 1024).toFixed(1)} MB; a logo is at most 1 MB.`,
+      );
+      return;
+    }
+    const reader = new FileReader();
+    reader.onload = () =>
+      this.send(
+        this.data.update({ version: current.version, logo: String(reader.result) }),
+        () => this.logoMessage.set('The new logo is saved.'),
+        (error) => this.logoError.set(errorMessage(error, 'The logo could not be saved.')),
+      );
+    reader.readAsDataURL(file);
+  }
+
+  protected removeLogo(current: District): void {
+    this.logoMessage.set('');
+    this.logoError.set('');
+    this.send(
+      this.data.update({ version: current.version, logo: null }),
+      () => this.logoMessage.set('The logo is removed.'),
+      (error) => this.logoError.set(errorMessage(error, 'The logo could not be removed.')),
+    );
+  }
+
+  protected reload(): void {
+    this.conflict.set(false);
+    this.district.reload();
+  }
+
+  private send(request: Observable<District>, done: () => void, failed: (error: unknown) => void) {
+    this.saving.set(true);
+    this.saved.set(false);
+    this.saveError.set('');
+    request.subscribe({
+      next: (district) => {
+        this.saving.set(false);
+        this.district.set(district);
+        this.currentDistrict.update(district);
+        done();
+      },
+      error: (error: unknown) => {
+        this.saving.set(false);
+        failed(error);
+      },
+    });
+  }
+}
