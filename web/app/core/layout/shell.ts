@@ -25,12 +25,14 @@ import { navigationGroups, visibleItems } from './navigation';
 })
 export class Shell {
   private readonly currentUser = inject(CurrentUser);
+  private readonly currentDistrict = inject(CurrentDistrict);
   private readonly main = viewChild.required<ElementRef<HTMLElement>>('main');
   private readonly router = inject(Router);
   /** Whether the navigation under way came from the rail, so its page's heading takes focus. */
   private fromRail = false;
 
   constructor() {
+    void this.currentDistrict.load();
     this.router.events
       .pipe(
         filter((event) => event instanceof NavigationEnd),
@@ -63,14 +65,8 @@ export class Shell {
     if (Date.now() < until) setTimeout(() => this.focusHeading(until), 50);
   }
 
-  private readonly currentDistrict = inject(CurrentDistrict);
-
   protected readonly me = this.currentUser.me;
   protected readonly district = this.currentDistrict.district;
-
-  constructor() {
-    void this.currentDistrict.load();
-  }
 
   /** The sign-out form is a plain POST; the app only notes it so no 401 signs the user back in. */
   protected signingOut(): void {
