@@ -40,6 +40,7 @@ export type Capability =
   | 'reports:send'
   | 'outbox:read'
   | 'people:manage'
+  | 'district:backup'
   | 'tokens:own'
   | 'practice:read'
   | 'self:read'
@@ -72,6 +73,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'reports:send',
     'outbox:read',
     'people:manage',
+    'district:backup',
     'tokens:own',
     'practice:read',
     'takes:hear',
