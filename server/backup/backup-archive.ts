@@ -1,12 +1,14 @@
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
-import { mkdir, readdir, rm, stat, writeFile } from 'node:fs/promises';
+import { mkdir, rm, stat } from 'node:fs/promises';
 import path from 'node:path';
 import { pipeline } from 'node:stream/promises';
 import type { Writable } from 'node:stream';
 import * as tar from 'tar';
 import { z } from 'zod';
 import type { PGlite } from '@electric-sql/pglite';
+import { Worker } from 'node:worker_threads';
+import { projectRoot } from '../project-paths';
 
 /**
  * A Tuttiboard backup: one gzip-compressed tar archive (POSIX ustar, read by any `tar`) holding
@@ -58,45 +60,47 @@ function keptInBackup(topLevelName: string): boolean {
 }
 
 /** Every regular file under a folder, as paths relative to it with '/' between the parts. */
-async function filesUnder(root: string, relative = ''): Promise<string[]> {
-  const entries = await readdir(path.join(root, relative), { withFileTypes: true }).catch(
-    () => [],
-  );
+function filesUnder(root: string, relative = ''): string[] {
+  let entries: fs.Dirent[] = [];
+  try {
+    entries = fs.readdirSync(path.join(root, relative), { withFileTypes: true });
+  } catch {
+    return [];
+  }
   const found: string[] = [];
   for (const entry of entries) {
     const child = relative ? `${relative}/${entry.name}` : entry.name;
-    if (entry.isDirectory()) found.push(...(await filesUnder(root, child)));
+    if (entry.isDirectory()) found.push(...filesUnder(root, child));
     else if (entry.isFile()) found.push(child);
   }
   return found.sort();
 }
 
-/** The files a backup of this data folder holds, relative to it. */
-export async function keptFiles(dataDir: string): Promise<string[]> {
-  const names = await readdir(dataDir, { withFileTypes: true }).catch(() => []);
+/**
+ * The files a backup of this data folder holds, relative to it. Read synchronously: it runs
+ * inside the snapshot's hold of the engine, where each await would wait a turn of the event
+ * loop while every request waits for the engine.
+ */
+export function keptFiles(dataDir: string): string[] {
+  let names: fs.Dirent[] = [];
+  try {
+    names = fs.readdirSync(dataDir, { withFileTypes: true });
+  } catch {
+    return [];
+  }
   const found: string[] = [];
   for (const entry of names) {
     if (!keptInBackup(entry.name)) continue;
-    if (entry.isDirectory()) found.push(...(await filesUnder(dataDir, entry.name)));
+    if (entry.isDirectory()) found.push(...filesUnder(dataDir, entry.name));
     else if (entry.isFile()) found.push(entry.name);
   }
   return found.sort();
 }
 
-async function hashFile(file: string): Promise<{ bytes: number; sha256: string }> {
-  const hash = createHash('sha256');
-  let bytes = 0;
-  for await (const chunk of fs.createReadStream(file) as AsyncIterable<Buffer>) {
-    hash.update(chunk);
-    bytes += chunk.length;
-  }
-  return { bytes, sha256: hash.digest('hex') };
-}
-
 /**
- * Takes a consistent snapshot of the database and its files into `staging` (a fresh folder on
- * the data folder's file system): database.tar, and files/ holding a hard link to each kept
- * file (a copy where links are not possible).
+ * Takes a consistent snapshot of the database and its files: answers the database image, and
+ * leaves in `staging` (a fresh folder on the data folder's file system) files/ holding a hard
+ * link to each kept file (a copy where links are not possible).
  *
  * Both are taken while the engine runs nothing else (PGlite's exclusive section, the one every
  * statement and dumpDataDir itself wait for), so no row can change between the two: a file is
@@ -110,7 +114,7 @@ export async function takeSnapshot(
   pglite: PGlite,
   dataDir: string,
   staging: string,
-): Promise<{ snapshotMs: number }> {
+): Promise<{ image: ArrayBuffer; snapshotMs: number }> {
   await pglite.exec('CHECKPOINT');
   const filesStaging = path.join(staging, filesFolder);
   let image: Blob | undefined;
@@ -126,7 +130,7 @@ export async function takeSnapshot(
     };
     await engine._checkReady();
     image = await engine.fs.dumpTar(engine.dataDir?.split('/').pop() ?? 'pgdata', 'none');
-    for (const relative of await keptFiles(dataDir)) {
+    for (const relative of keptFiles(dataDir)) {
       const target = path.join(filesStaging, relative);
       fs.mkdirSync(path.dirname(target), { recursive: true });
       try {
@@ -137,36 +141,35 @@ export async function takeSnapshot(
     }
     snapshotMs = performance.now() - started;
   });
-  await writeFile(path.join(staging, databaseName), new Uint8Array(await image!.arrayBuffer()));
-  return { snapshotMs };
+  return { image: await image!.arrayBuffer(), snapshotMs };
 }
 
-/** Hashes a staged snapshot (see {@link takeSnapshot}) and writes its manifest beside it. */
-export async function writeManifest(staging: string): Promise<BackupManifest> {
-  const database = await hashFile(path.join(staging, databaseName));
-  const list: BackupManifest['files']['list'] = [];
-  for (const relative of await filesUnder(path.join(staging, filesFolder)))
-    list.push({ path: relative, ...(await hashFile(path.join(staging, filesFolder, relative))) });
-  const manifest: BackupManifest = {
-    format: 'tuttiboard-backup',
-    version: 1,
-    createdAt: new Date().toISOString(),
-    database,
-    files: {
-      count: list.length,
-      bytes: list.reduce((total, file) => total + file.bytes, 0),
-      list,
-    },
-  };
-  await writeFile(path.join(staging, manifestName), JSON.stringify(manifest, null, 2));
-  return manifest;
-}
+const archiveName = 'backup.tar.gz';
 
-/** Streams a staged snapshot with its manifest as a .tar.gz. */
-export async function packSnapshot(staging: string, output: Writable): Promise<void> {
-  const parts = [manifestName, databaseName];
-  if (fs.existsSync(path.join(staging, filesFolder))) parts.push(filesFolder);
-  await pipeline(tar.c({ gzip: true, cwd: staging, portable: true }, parts), output);
+/**
+ * Hashes a staged snapshot, writes its manifest and packs it as `archiveName` in the staging
+ * folder, on a worker thread (server/backup/backup-pack-worker.mjs says why).
+ */
+function packOnWorker(staging: string, image: ArrayBuffer): Promise<BackupManifest> {
+  return new Promise((resolve, reject) => {
+    const worker = new Worker(path.join(projectRoot, 'server/backup/backup-pack-worker.mjs'), {
+      workerData: { staging, image, databaseName, manifestName, filesFolder, archiveName },
+      transferList: [image],
+    });
+    let settled = false;
+    worker.once('message', (answer: { manifest?: unknown; error?: string }) => {
+      settled = true;
+      if (answer.error) reject(new Error(`The backup could not be packed: ${answer.error}`));
+      else resolve(manifestSchema.parse(answer.manifest));
+    });
+    worker.once('error', (error) => {
+      settled = true;
+      reject(error);
+    });
+    worker.once('exit', (code) => {
+      if (!settled) reject(new Error(`The backup packer stopped (exit code ${code}).`));
+    });
+  });
 }
 
 /** A working folder inside the data folder (same file system: links and renames work). */
@@ -182,8 +185,10 @@ export async function workingFolder(dataDir: string, kind: 'backup' | 'restore')
 
 /**
  * Writes a backup of a running embedded database and its data folder's files: takes the
- * snapshot, then hands the manifest to `open` for the stream to write the archive to (an HTTP
- * answer sets its headers from it). Answers the manifest and how long the engine was held.
+ * snapshot, packs it on a worker, then hands the manifest to `open` for the stream to write the
+ * archive to (an HTTP answer sets its headers from it). Answers the manifest and how long the
+ * engine was held. The archive is read in large chunks: each chunk waits a turn of the event
+ * loop, and under load a turn is a whole round of requests.
  */
 export async function writeBackup(
   pglite: PGlite,
@@ -192,9 +197,12 @@ export async function writeBackup(
 ): Promise<{ manifest: BackupManifest; snapshotMs: number }> {
   const staging = await workingFolder(dataDir, 'backup');
   try {
-    const { snapshotMs } = await takeSnapshot(pglite, dataDir, staging);
-    const manifest = await writeManifest(staging);
-    await packSnapshot(staging, open(manifest, snapshotMs));
+    const { image, snapshotMs } = await takeSnapshot(pglite, dataDir, staging);
+    const manifest = await packOnWorker(staging, image);
+    await pipeline(
+      fs.createReadStream(path.join(staging, archiveName), { highWaterMark: 4 * 1024 * 1024 }),
+      open(manifest, snapshotMs),
+    );
     return { manifest, snapshotMs };
   } finally {
     await rm(staging, { recursive: true, force: true });
