@@ -211,7 +211,8 @@ export async function writeBackup(
 
 /** One line on what a backup holds, for the command line and the log. */
 export function describeBackup(manifest: Pick<BackupManifest, 'database' | 'files'>): string {
-  const files = manifest.files.count === 1 ? '1 file' : `${manifest.files.count.toLocaleString('en-US')} files`;
+  const files =
+    manifest.files.count === 1 ? '1 file' : `${manifest.files.count.toLocaleString('en-US')} files`;
   return `the database (${manifest.database.bytes.toLocaleString('en-US')} bytes) and ${files} (${manifest.files.bytes.toLocaleString('en-US')} bytes)`;
 }
 
@@ -284,7 +285,9 @@ export async function extractBackup(file: string, into: string): Promise<BackupM
   for (const out of open) out.destroy();
   await Promise.all(writes);
   if (readError)
-    throw new BackupArchiveError(`it is not a whole .tar.gz archive (${describeReadError(readError)})`);
+    throw new BackupArchiveError(
+      `it is not a whole .tar.gz archive (${describeReadError(readError)})`,
+    );
   if (problems.length) throw new BackupArchiveError(problems[0]!);
   let manifest: BackupManifest;
   try {
@@ -292,7 +295,9 @@ export async function extractBackup(file: string, into: string): Promise<BackupM
       JSON.parse(fs.readFileSync(path.join(into, manifestName), 'utf8')),
     );
   } catch {
-    throw new BackupArchiveError(`it has no readable ${manifestName}, so it is not a Tuttiboard backup`);
+    throw new BackupArchiveError(
+      `it has no readable ${manifestName}, so it is not a Tuttiboard backup`,
+    );
   }
   const database = written.get(databaseName);
   if (!database) throw new BackupArchiveError(`it holds no ${databaseName}`);
@@ -303,9 +308,12 @@ export async function extractBackup(file: string, into: string): Promise<BackupM
     const name = `${filesFolder}/${entry.path}`;
     listed.add(name);
     const found = written.get(name);
-    if (!found) throw new BackupArchiveError(`the file ${entry.path} its manifest lists is missing`);
+    if (!found)
+      throw new BackupArchiveError(`the file ${entry.path} its manifest lists is missing`);
     if (found.bytes !== entry.bytes || found.sha256 !== entry.sha256)
-      throw new BackupArchiveError(`the file ${entry.path} does not match the checksum in its manifest`);
+      throw new BackupArchiveError(
+        `the file ${entry.path} does not match the checksum in its manifest`,
+      );
   }
   const extra = [...written.keys()].find(
     (name) => name.startsWith(`${filesFolder}/`) && !listed.has(name),

@@ -56,7 +56,8 @@ export async function restoreBackup(dataDir: string, file: string): Promise<Back
     }
     const files = path.join(archive, filesFolder);
     if (fs.existsSync(files))
-      for (const name of await readdir(files)) await rename(path.join(files, name), path.join(restored, name));
+      for (const name of await readdir(files))
+        await rename(path.join(files, name), path.join(restored, name));
     await swapIn(dataDir, restored, path.join(working, 'before'));
     return manifest;
   } finally {

@@ -28,7 +28,8 @@ export async function answerBackup(
   { database, config, logger }: Services,
   response: Response,
 ): Promise<void> {
-  if (!database.pglite) throw new HttpError(409, 'server_mode', serverModeBackupAdvice(config.dataDir));
+  if (!database.pglite)
+    throw new HttpError(409, 'server_mode', serverModeBackupAdvice(config.dataDir));
   try {
     const { manifest, snapshotMs } = await writeBackup(
       database.pglite,
@@ -61,14 +62,18 @@ export async function answerBackup(
 /** `GET /api/backup`: the coordinator downloads a backup of the whole district. */
 export function backupRoutes(services: Services): Router {
   const router = Router();
-  router.get('/backup', requires('district:backup'), async (request: Request, response: Response) => {
-    if (services.database.pglite)
-      await recordAudit(services.db, actorOf(request), {
-        action: 'download',
-        entity: 'backup',
-        entityId: backupFileName(),
-      });
-    await answerBackup(services, response);
-  });
+  router.get(
+    '/backup',
+    requires('district:backup'),
+    async (request: Request, response: Response) => {
+      if (services.database.pglite)
+        await recordAudit(services.db, actorOf(request), {
+          action: 'download',
+          entity: 'backup',
+          entityId: backupFileName(),
+        });
+      await answerBackup(services, response);
+    },
+  );
   return router;
 }

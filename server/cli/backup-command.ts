@@ -23,7 +23,9 @@ async function backupThroughServer(
 ): Promise<string> {
   let response: Response;
   try {
-    response = await fetch(`${server.url}/api/local/backup`, { headers: { [localKeyHeader]: server.key } });
+    response = await fetch(`${server.url}/api/local/backup`, {
+      headers: { [localKeyHeader]: server.key },
+    });
   } catch (error) {
     throw new CommandError(
       `A Tuttiboard server holds the data folder but did not answer at ${server.url} (${error instanceof Error ? error.message : error}).`,
@@ -98,9 +100,16 @@ export async function restoreCommand(config: Config, args: string[]): Promise<nu
     holds = describeBackup(await restoreBackup(config.dataDir, file));
   } catch (error) {
     if (error instanceof BackupArchiveError)
-      throw new CommandError(`${file} cannot be restored: ${error.message}. Nothing was changed.`, 2, false);
+      throw new CommandError(
+        `${file} cannot be restored: ${error.message}. Nothing was changed.`,
+        2,
+        false,
+      );
     if (error instanceof RestoredDatabaseError)
-      throw new CommandError(`${file} cannot be restored: ${error.message}. Nothing was changed.`, 1);
+      throw new CommandError(
+        `${file} cannot be restored: ${error.message}. Nothing was changed.`,
+        1,
+      );
     throw error;
   } finally {
     release();

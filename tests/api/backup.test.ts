@@ -157,10 +157,9 @@ describe('tutti backup while the server runs, and tutti restore', () => {
     const entries = await entriesOf(fs.readFileSync(backupFile));
     const manifest = JSON.parse(entries.get('manifest.json')!.toString());
     expect(manifest.files.count).toBe(2);
-    expect(manifest.files.list.map((file: { path: string }) => file.path.split('/')[0]).sort()).toEqual([
-      'photos',
-      'recordings',
-    ]);
+    expect(
+      manifest.files.list.map((file: { path: string }) => file.path.split('/')[0]).sort(),
+    ).toEqual(['photos', 'recordings']);
     expect([...entries.keys()][0]).toBe('manifest.json');
     await server.stop();
     const before = await countRows(original);
@@ -209,10 +208,18 @@ describe('tutti backup while the server runs, and tutti restore', () => {
       });
     expect(download.status).toBe(200);
     expect(download.headers['content-type']).toContain('application/gzip');
-    expect(download.headers['content-disposition']).toMatch(/^attachment; filename="tuttiboard-backup-.*\.tar\.gz"$/);
+    expect(download.headers['content-disposition']).toMatch(
+      /^attachment; filename="tuttiboard-backup-.*\.tar\.gz"$/,
+    );
     const downloaded = await entriesOf(download.body as Buffer);
     expect(JSON.parse(downloaded.get('manifest.json')!.toString()).files.count).toBe(2);
-    expect(downloaded.get('files/' + manifest.files.list.find((file: { path: string }) => file.path.startsWith('photos/')).path)).toEqual(onePixelPng);
+    expect(
+      downloaded.get(
+        'files/' +
+          manifest.files.list.find((file: { path: string }) => file.path.startsWith('photos/'))
+            .path,
+      ),
+    ).toEqual(onePixelPng);
     for (const local of ['director.hpms', 'technician', 'viewer.trhs']) {
       const refused = await request(again.url)
         .get('/api/backup')
@@ -270,7 +277,11 @@ describe('tutti restore of a damaged backup', () => {
 
   it('should refuse a truncated archive with one message and exit 2, leaving the folder as it was', async () => {
     const whole = fs.readFileSync(backupFile);
-    await refused('truncated.tar.gz', whole.subarray(0, Math.floor(whole.length / 2)), /ends early/);
+    await refused(
+      'truncated.tar.gz',
+      whole.subarray(0, Math.floor(whole.length / 2)),
+      /ends early/,
+    );
     expect(await countRows(target)).toEqual(before.rows);
   }, 120_000);
 
@@ -279,16 +290,31 @@ describe('tutti restore of a damaged backup', () => {
     const damaged = Buffer.from(whole);
     damaged.fill(0x58, Math.floor(whole.length / 3), Math.floor(whole.length / 3) + 64);
     await refused('damaged.tar.gz', damaged, /damaged|checksum|not a whole/);
-    await refused('junk.tar.gz', Buffer.from('this is not a backup'), /not a whole|ends early|damaged/);
+    await refused(
+      'junk.tar.gz',
+      Buffer.from('this is not a backup'),
+      /not a whole|ends early|damaged/,
+    );
 
     // A whole archive whose photo was swapped after the manifest was written.
     const unpacked = path.join(root, 'unpacked');
     fs.mkdirSync(unpacked);
     await tar.x({ file: backupFile, cwd: unpacked });
-    fs.writeFileSync(path.join(unpacked, 'files', 'photos', 'kept.png'), Buffer.from('not the photo'));
+    fs.writeFileSync(
+      path.join(unpacked, 'files', 'photos', 'kept.png'),
+      Buffer.from('not the photo'),
+    );
     const repacked = path.join(root, 'repacked.tar.gz');
-    await tar.c({ gzip: true, file: repacked, cwd: unpacked }, ['manifest.json', 'database.tar', 'files']);
-    await refused('swapped.tar.gz', fs.readFileSync(repacked), /photos\/kept\.png does not match the checksum/);
+    await tar.c({ gzip: true, file: repacked, cwd: unpacked }, [
+      'manifest.json',
+      'database.tar',
+      'files',
+    ]);
+    await refused(
+      'swapped.tar.gz',
+      fs.readFileSync(repacked),
+      /photos\/kept\.png does not match the checksum/,
+    );
     expect(await countRows(target)).toEqual(before.rows);
   }, 120_000);
 });

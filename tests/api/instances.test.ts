@@ -9,7 +9,12 @@ import { createApp } from '../../server/app';
 import { loadConfig } from '../../server/config';
 import { createHttpServer } from '../../server/core/http-server';
 import { openDatabase, rowsOf, type DatabaseHandle } from '../../server/db/client';
-import { outboxMessages, reportRuns, reportSchedules, rosterImports } from '../../server/db/schema/index';
+import {
+  outboxMessages,
+  reportRuns,
+  reportSchedules,
+  rosterImports,
+} from '../../server/db/schema/index';
 import { importRoster } from '../../server/imports/import-service';
 import { createLogger } from '../../server/logger';
 import { nudgeOutbox } from '../../server/mail/outbox';
@@ -41,7 +46,11 @@ async function startSecondInstance(app: TestApp) {
     SMTP_URL: app.config.smtpUrl,
     LOG_LEVEL: 'silent',
   });
-  const express = await createApp(config, { database, logger: createLogger('silent'), serveWeb: false });
+  const express = await createApp(config, {
+    database,
+    logger: createLogger('silent'),
+    serveWeb: false,
+  });
   const server = createHttpServer(express);
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   return {

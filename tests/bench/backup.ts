@@ -13,7 +13,10 @@ import { httpClients } from './http-clients';
  * archive is hashed and compressed after, while pages go on. No target yet: the figure says how
  * long pages wait.
  */
-export async function benchBackup(options: { students: number; photos: number }): Promise<BenchFigure[]> {
+export async function benchBackup(options: {
+  students: number;
+  photos: number;
+}): Promise<BenchFigure[]> {
   const district = await benchDistrict(options.students);
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'tutti-bench-backup-'));
   // Files beside the database, as photos would be: 200 KB each.
