@@ -237,7 +237,12 @@ export async function extractBackup(file: string, into: string): Promise<BackupM
   const onReadEntry = (entry: tar.ReadEntry) => {
     const safe = safeEntryPath(entry.path);
     if (!safe) {
-      problems.push(`it holds ${entry.path}, which a backup never does`);
+      // Before backups held files, `tutti backup` wrote PGlite's bare data-folder dump.
+      problems.push(
+        /^(pg|pgdata)\//.test(entry.path)
+          ? 'it is a database-only backup from an earlier version of Tuttiboard (no manifest); restore it with that version'
+          : `it holds ${entry.path}, which a backup never does`,
+      );
       return;
     }
     if (entry.type === 'Directory') return;
