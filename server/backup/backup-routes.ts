@@ -3,6 +3,7 @@ import type { Services } from '../services';
 import { actorOf, requires } from '../core/policy';
 import { HttpError } from '../core/errors';
 import { recordAudit } from '../core/audit';
+import { nothing, parseInput } from '../core/validate';
 import { describeBackup, writeBackup } from './backup-archive';
 
 /** What a PostgreSQL server's operator uses instead: its own tools, and the files folder. */
@@ -66,6 +67,7 @@ export function backupRoutes(services: Services): Router {
     '/backup',
     requires('district:backup'),
     async (request: Request, response: Response) => {
+      parseInput(nothing, request.query, 'The query');
       if (services.database.pglite)
         await recordAudit(services.db, actorOf(request), {
           action: 'download',
