@@ -32,21 +32,33 @@ export async function benchBackup(options: {
     await new Promise((resolve) => setTimeout(resolve, 3_000));
     const quiet = await quietClients.stop();
 
+    // The download goes through a client on a worker thread of its own, as a coordinator's
+    // browser would be: read in this process, the 16 MB body would wait for the server's busy
+    // event loop a chunk at a time. How long the snapshot held the engine is timed around
+    // PGlite's exclusive section, which only the snapshot takes.
+    const engine = district.database.pglite!;
+    const exclusive = engine.runExclusive.bind(engine);
+    let heldMs = 0;
+    engine.runExclusive = async <T>(work: () => Promise<T>) =>
+      exclusive(async () => {
+        const started = performance.now();
+        try {
+          return await work();
+        } finally {
+          heldMs = Math.max(heldMs, performance.now() - started);
+        }
+      });
+    const downloader = httpClients(server.url, server.token);
     const busyClients = clients.start(paths, 20);
     await new Promise((resolve) => setTimeout(resolve, 50));
-    const started = performance.now();
-    const response = await fetch(`${server.url}/api/backup`, {
-      headers: { authorization: `Bearer ${server.token}` },
-    });
-    if (response.status !== 200) throw new Error(`/api/backup answered ${response.status}`);
-    const bytes = (await response.arrayBuffer()).byteLength;
-    const backupMs = performance.now() - started;
-    const heldMs = Number(response.headers.get('x-tutti-backup-held-ms'));
+    const [backupMs] = await downloader
+      .sequential('/api/backup', 1)
+      .finally(() => downloader.close());
     const busy = await busyClients.stop();
     const longest = Math.max(...busy);
     return [
       figure(
-        `grid p95 with 20 clients during a backup of ${options.students.toLocaleString('en-US')} students and ${options.photos} files (${Math.round(backupMs)} ms, ${Math.round(bytes / 1e6)} MB)`,
+        `grid p95 with 20 clients during a backup of ${options.students.toLocaleString('en-US')} students and ${options.photos} files (${Math.round(backupMs!)} ms)`,
         percentile(busy, 95),
         percentile(quiet, 95),
         `no target; engine held ${Math.round(heldMs)} ms for the snapshot; ${busy.length} pages during (longest ${Math.round(longest)} ms), ${quiet.length} in 3 s without`,
