@@ -1,3 +1,4 @@
+import { backupRoutes } from './backup/backup-routes';
 import express, { Router, type Express, type RequestHandler } from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
@@ -67,6 +68,7 @@ export const featureRoutes: ((services: Services) => Router)[] = [
   takesRoutes,
   analyticsRoutes,
   ...fleetRoutes,
+  backupRoutes,
 ];
 
 /**

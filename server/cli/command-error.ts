@@ -3,6 +3,8 @@ export class CommandError extends Error {
   constructor(
     message: string,
     readonly exitCode: 1 | 2 = 2,
+    /** Whether the usage line follows the message (a wrong argument, not a bad file). */
+    readonly showUsage = exitCode === 2,
   ) {
     super(message);
   }

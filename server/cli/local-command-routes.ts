@@ -8,6 +8,7 @@ import { findUserByEmail } from '../people/people-queries';
 import { issueToken } from '../tokens/token-service';
 import { localImportHandlers } from '../imports/local-import';
 import { AlreadySetUpError, setUpDistrict } from '../district/district-service';
+import { answerBackup } from '../backup/backup-routes';
 
 /** The header a local `tutti` command sends with the key from the data folder's lock file. */
 export const localKeyHeader = 'x-tutti-local-key';
@@ -22,7 +23,8 @@ function sameKey(given: string, expected: string): boolean {
  * Routes for `tutti` commands run on the server's own machine while the server holds the data
  * folder: instead of opening the folder beside it (which would corrupt it), they ask the server.
  */
-export function localCommandRoutes({ db, database }: Services, localKey: string): Router {
+export function localCommandRoutes(services: Services, localKey: string): Router {
+  const { db, database } = services;
   const router = Router();
   router.use((request: Request, _response: Response, next: NextFunction) => {
     const given = request.get(localKeyHeader);
@@ -48,5 +50,6 @@ export function localCommandRoutes({ db, database }: Services, localKey: string)
     }
   });
   router.post('/imports', ...localImportHandlers(database));
+  router.get('/backup', (_request, response) => answerBackup(services, response));
   return router;
 }

@@ -52,7 +52,7 @@ export async function main(argv: string[]): Promise<number> {
     }
     if (error instanceof CommandError) {
       process.stderr.write(`tutti ${name}: ${error.message}\n`);
-      if (error.exitCode === 2) process.stderr.write(`Usage: ${command.usage}\n`);
+      if (error.showUsage) process.stderr.write(`Usage: ${command.usage}\n`);
       return error.exitCode;
     }
     process.stderr.write(`tutti ${name}: ${error instanceof Error ? error.message : String(error)}\n`);

@@ -41,6 +41,7 @@ export type Capability =
   | 'reports:send'
   | 'outbox:read'
   | 'people:manage'
+  | 'district:backup'
   | 'tokens:own'
   | 'practice:read'
   | 'self:read'
@@ -74,6 +75,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'reports:send',
     'outbox:read',
     'people:manage',
+    'district:backup',
     'tokens:own',
     'practice:read',
     'takes:hear',

@@ -60,6 +60,7 @@ const matrix: Entry[] = [
   { route: 'POST /api/schools', codes: 'P33333' },
   { route: 'PATCH /api/schools/:id', codes: 'P33333', url: (f) => `/api/schools/${f.hpms}` },
   { route: 'DELETE /api/schools/:id', codes: 'P33333', fresh: freshSchool },
+  { route: 'GET /api/backup', codes: 'P33333' },
   { route: 'GET /api/tokens', codes: 'PPPP33' },
   { route: 'POST /api/tokens', codes: 'PPPP33' },
   { route: 'DELETE /api/tokens/:id', codes: 'PP4433', url: (f) => `/api/tokens/${f.directorAToken}` },

@@ -2,7 +2,7 @@ import { toRosterCsv } from '../../shared/roster';
 import { housekeepingDone } from '../../server/db/client';
 import { importRoster } from '../../server/imports/import-service';
 import { inventedRoster } from './roster-import';
-import { benchDistrict, gridPages, serveForBench } from './grid-pages';
+import { benchDistrict, defaultTokenLimit, gridPages, serveForBench } from './grid-pages';
 import { figure, percentile, type BenchFigure } from './bench-figure';
 import { httpClients } from './http-clients';
 
@@ -22,9 +22,20 @@ export async function benchConcurrency(options: {
     const paths = gridPages(district.schoolIds[0]!, options.students).map((page) => page.path);
     // One pass over every page first, so neither side pays for the first plans and compiles.
     for (const path of paths) await clients.sequential(path, 2);
+    // At least 3 s, and past the production per-token limit: the load shares one token, so a
+    // server that refused it at that limit would stop the run here, in the smoke run of
+    // `npm test` as well as in a full run on a fast machine. A machine too slow to pass the limit
+    // within a minute cannot trip it either; the wait ends after two minutes all the same.
     const quietClients = clients.start(paths, 20);
+    const quietStarted = performance.now();
     await new Promise((resolve) => setTimeout(resolve, 3_000));
+    while (
+      (await server.requestsAnswered()) <= defaultTokenLimit &&
+      performance.now() - quietStarted < 120_000
+    )
+      await new Promise((resolve) => setTimeout(resolve, 100));
     const quiet = await quietClients.stop();
+    const quietSeconds = Math.round((performance.now() - quietStarted) / 1000);
     const roster = inventedRoster(options.rows, 11, 700_000);
     /** The pages' latencies while one import runs, with the import's own time and the longest wait. */
     const during = async (rows: typeof roster) => {
@@ -47,7 +58,7 @@ export async function benchConcurrency(options: {
       return { busy, importMs, longest: Math.max(...busy), outcome: outcome.result };
     };
     const note = (busy: number[], longest: number) =>
-      `target ratio < 3: ${percentile(busy, 95) / percentile(quiet, 95) < 3 ? 'met' : 'NOT met'}; ${busy.length} pages during (longest ${Math.round(longest)} ms), ${quiet.length} in 3 s without`;
+      `target ratio < 3: ${percentile(busy, 95) / percentile(quiet, 95) < 3 ? 'met' : 'NOT met'}; ${busy.length} pages during (longest ${Math.round(longest)} ms), ${quiet.length} in ${quietSeconds} s without`;
     const first = await during(roster);
     // The nightly sync that follows: the same students, one in fifty with a new grade.
     const nightly = await during(

@@ -44,12 +44,27 @@ export async function benchDistrict(students: number) {
   return { database, schoolIds, capture };
 }
 
+/**
+ * The per-token limit the benchmark's server runs with. The load's clients share one token, and
+ * the production default (RATE_LIMIT_TOKEN, 1,200 a minute) is a guard against a runaway
+ * script, not a capacity: a machine that answers pages faster than 20 a second would trip it and
+ * stop the run with 429s. The limiter still counts every request, as it does in production.
+ */
+export const benchTokenLimit = 100_000_000;
+
+/** The production default of RATE_LIMIT_TOKEN, which the smoke run's load goes past. */
+export const defaultTokenLimit = loadConfig({}).rateLimits.token;
+
 /** Serves the app for a database on a loopback port; answers its URL and a coordinator token. */
-export async function serveForBench(database: DatabaseHandle) {
+export async function serveForBench(
+  database: DatabaseHandle,
+  dataDir = '/tmp/tutti-bench-unused',
+) {
   const config = loadConfig({
     LOG_LEVEL: 'silent',
-    TUTTI_DATA_DIR: '/tmp/tutti-bench-unused',
+    TUTTI_DATA_DIR: dataDir,
     OIDC_ISSUER: 'http://127.0.0.1:9',
+    RATE_LIMIT_TOKEN: String(benchTokenLimit),
   });
   const app = await createApp(config, {
     database,
@@ -57,6 +72,10 @@ export async function serveForBench(database: DatabaseHandle) {
     serveWeb: false,
   });
   const server = createHttpServer(app);
+  let answered = 0;
+  server.on('request', (_request, response: import('node:http').ServerResponse) =>
+    response.on('finish', () => (answered += 1)),
+  );
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const [coordinator] = await database.db.select().from(users).where(eq(users.role, 'coordinator'));
   const { token } = await issueToken(database.db, coordinator!.id, 'bench');
@@ -73,6 +92,8 @@ export async function serveForBench(database: DatabaseHandle) {
     url,
     token,
     get,
+    /** Requests the server has answered so far, every status. */
+    requestsAnswered: async () => answered,
     close: () => new Promise<void>((resolve) => server.close(() => resolve())),
   };
 }

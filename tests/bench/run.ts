@@ -8,6 +8,7 @@ import { benchGridPages } from './grid-pages';
 import { benchStartup } from './startup';
 import { benchBundle } from './bundle';
 import { benchListening } from './listening';
+import { benchBackup } from './backup';
 
 /**
  * `npm run bench`: every figure against the limit measured in the same run, printed as ratios.
@@ -100,6 +101,10 @@ async function sections(): Promise<Section[]> {
       },
     });
   }
+  list.push({
+    title: '9. Grid pages during a backup, against without it',
+    run: () => benchBackup(smoke ? { students: 3_000, photos: 5 } : { students: 50_000, photos: 200 }),
+  });
   return list;
 }
 

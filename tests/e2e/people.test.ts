@@ -1,3 +1,5 @@
+import fs from 'node:fs';
+import * as tar from 'tar';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
@@ -24,6 +26,25 @@ afterAll(async () => {
 const newDirector = 'cosima.reedholt@merrowbasin.example';
 
 describe('People screen', () => {
+  it('should let the coordinator download a backup of the database and its files', async () => {
+    const { context, outside } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('coordinator'), '/people');
+    await expect.poll(() => page.locator('h1').innerText()).toBe('People');
+    const link = page.getByRole('link', { name: 'Download a backup' });
+    const [download] = await Promise.all([page.waitForEvent('download'), link.click()]);
+    expect(download.suggestedFilename()).toMatch(/^tuttiboard-backup-.*\.tar\.gz$/);
+    const bytes = fs.readFileSync(await download.path());
+    // gzip member header: ID1 = 0x1f, ID2 = 0x8b (RFC 1952, 2.3.1).
+    expect([bytes[0], bytes[1]]).toEqual([0x1f, 0x8b]);
+    const names: string[] = [];
+    await tar.t({ file: await download.path(), onReadEntry: (entry) => names.push(entry.path) });
+    expect(names.slice(0, 2)).toEqual(['manifest.json', 'database.tar']);
+    expect(outside).toEqual([]);
+    await context.close();
+  });
+
+
   it('should let the coordinator add a director for QHMS and make an API token shown once', async () => {
     const { context, outside } = await localOnlyContext(browser);
     const page = await context.newPage();

@@ -1,13 +1,18 @@
 import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
 import { MatTabsModule } from '@angular/material/tabs';
 import { AuditLog } from '../audit-log/audit-log';
 import { PersonList } from '../person-list/person-list';
 import { TokenList } from '../token-list/token-list';
 
-/** The coordinator's People screen: who signs in, every API token, and the audit log. */
+/**
+ * The coordinator's People screen: who signs in, every API token, the audit log, and a backup
+ * of the whole district to download (GET /api/backup).
+ */
 @Component({
   selector: 'tb-people-page',
-  imports: [MatTabsModule, AuditLog, PersonList, TokenList],
+  imports: [MatButtonModule, MatIconModule, MatTabsModule, AuditLog, PersonList, TokenList],
   template: `
     <div class="tb-page">
       <header class="tb-page-header">
@@ -18,6 +23,13 @@ import { TokenList } from '../token-list/token-list';
             changed what.
           </p>
         </div>
+        <a
+          mat-stroked-button
+          href="/api/backup"
+          download
+          title="The database with every instrument photo, recording and waiting upload, as one .tar.gz that tutti restore reads"
+          ><mat-icon svgIcon="download" />Download a backup</a
+        >
       </header>
       <mat-tab-group animationDuration="0ms" mat-stretch-tabs="false">
         <mat-tab label="People">
