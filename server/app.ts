@@ -16,6 +16,7 @@ import { sessionSecret } from './core/settings';
 import { signInLimit, tokenLimits } from './core/rate-limits';
 import { meRoutes } from './me/me-routes';
 import { schoolsRoutes } from './schools/schools-routes';
+import { schoolYearsRoutes } from './school-years/school-years-routes';
 import { tokensRoutes } from './tokens/tokens-routes';
 import { peopleRoutes } from './people/people-routes';
 import { studentsRoutes } from './students/students-routes';
@@ -49,6 +50,7 @@ export interface AppOptions {
 export const featureRoutes: ((services: Services) => Router)[] = [
   meRoutes,
   schoolsRoutes,
+  schoolYearsRoutes,
   tokensRoutes,
   peopleRoutes,
   outboxRoutes,

@@ -7,6 +7,8 @@ import { parseInput } from '../core/validate';
 import { findUserByEmail } from '../people/people-queries';
 import { issueToken } from '../tokens/token-service';
 import { localImportHandlers } from '../imports/local-import';
+import { yearStartInputSchema } from '../../shared/api/school-year';
+import { startSchoolYear } from '../school-years/year-start';
 
 /** The header a local `tutti` command sends with the key from the data folder's lock file. */
 export const localKeyHeader = 'x-tutti-local-key';
@@ -39,5 +41,13 @@ export function localCommandRoutes({ db, database }: Services, localKey: string)
     response.status(201).json({ token, name: user.name, role: user.role, expiresAt: expiresAt.toISOString() });
   });
   router.post('/imports', ...localImportHandlers(database));
+  router.post('/years/start', async (request, response) => {
+    const { dryRun, ...rest } = parseInput(
+      yearStartInputSchema.and(z.object({ dryRun: z.boolean().default(false) })),
+      request.body,
+      'The new year',
+    );
+    response.json(await startSchoolYear(db, null, rest, { commit: !dryRun }));
+  });
   return router;
 }

@@ -20,6 +20,7 @@ export type Capability =
   | 'district:read'
   | 'schools:read'
   | 'schools:write'
+  | 'years:write'
   | 'roster:read'
   | 'roster:write'
   | 'imports:run'
@@ -49,6 +50,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'district:read',
     'schools:read',
     'schools:write',
+    'years:write',
     'roster:read',
     'roster:write',
     'imports:run',

@@ -30,7 +30,10 @@ const sortable = {
 };
 
 function toSchool(
-  row: typeof schools.$inferSelect & { studentCount?: number; ensembleCount?: number },
+  row: Pick<typeof schools.$inferSelect, keyof typeof schoolColumns> & {
+    studentCount?: number;
+    ensembleCount?: number;
+  },
 ): School {
   return {
     id: row.id,

@@ -1,4 +1,4 @@
-import { count } from 'drizzle-orm';
+import { count, eq } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import { schoolYears, schools, userSchools, users } from '../db/schema/index';
 import { demoSchools, demoUsers } from './demo-people';
@@ -27,9 +27,25 @@ export async function seedDemo(db: Database, seededOn = new Date()): Promise<voi
   await db.transaction(async (tx) => {
     const schoolRows = await tx
       .insert(schools)
-      .values(demoSchools.map(({ code, name, level, address }) => ({ code, name, level, address })))
+      .values(
+        demoSchools.map(({ code, name, level, address, lowestGrade, highestGrade }) => ({
+          code,
+          name,
+          level,
+          address,
+          lowestGrade,
+          highestGrade,
+        })),
+      )
       .returning({ id: schools.id, code: schools.code });
     const schoolIds = new Map(schoolRows.map((row) => [row.code, row.id]));
+    for (const school of demoSchools) {
+      if (!school.sendsTo) continue;
+      await tx
+        .update(schools)
+        .set({ sendsToSchoolId: schoolIds.get(school.sendsTo)! })
+        .where(eq(schools.id, schoolIds.get(school.code)!));
+    }
     const [year] = await tx
       .insert(schoolYears)
       .values({ ...demoSchoolYear, current: true })

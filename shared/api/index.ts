@@ -19,3 +19,4 @@ export * from './count';
 export * from './planning';
 export * from './report';
 export * from './import';
+export * from './school-year';

@@ -2,8 +2,8 @@ import { z } from 'zod';
 import { idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { schoolSummarySchema } from './me';
 
-/** Whether a student is on the roster now, or has left the program. */
-export const studentStatuses = ['active', 'withdrawn'] as const;
+/** Whether a student is on the roster now, has left the program, graduated, or left the district's schools after their school's last grade. */
+export const studentStatuses = ['active', 'withdrawn', 'graduated', 'leaving'] as const;
 export type StudentStatus = (typeof studentStatuses)[number];
 
 /** The fields `GET /api/students?sort=<field>:asc|desc` accepts. */

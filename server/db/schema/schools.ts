@@ -1,4 +1,14 @@
-import { boolean, date, index, integer, pgTable, text, uniqueIndex } from 'drizzle-orm/pg-core';
+import {
+  boolean,
+  date,
+  index,
+  integer,
+  pgTable,
+  text,
+  uniqueIndex,
+  type AnyPgColumn,
+} from 'drizzle-orm/pg-core';
+import { sql } from 'drizzle-orm';
 import { timestamps, version } from './columns';
 
 /** A school of the district, known everywhere by its short code (HPMS, TRHS…). */
@@ -10,6 +20,12 @@ export const schools = pgTable(
     name: text('name').notNull(),
     level: text('level').notNull(),
     address: text('address').notNull().default(''),
+    /** The lowest and highest grades the school serves (0 is kindergarten); null when not set. */
+    lowestGrade: integer('lowest_grade'),
+    highestGrade: integer('highest_grade'),
+    /** The school its students move up to after its highest grade. */
+    sendsToSchoolId: integer('sends_to_school_id').references((): AnyPgColumn => schools.id),
+    closedOn: date('closed_on', { mode: 'string' }),
     ...version,
     ...timestamps,
   },
@@ -25,7 +41,14 @@ export const schoolYears = pgTable(
     startsOn: date('starts_on', { mode: 'string' }).notNull(),
     endsOn: date('ends_on', { mode: 'string' }).notNull(),
     current: boolean('current').notNull().default(false),
+    ...version,
     ...timestamps,
   },
-  (table) => [uniqueIndex('school_years_name_unique').on(table.name)],
+  (table) => [
+    uniqueIndex('school_years_name_unique').on(table.name),
+    // Exactly one year is current: at most one by this index, at least one by the service.
+    uniqueIndex('school_years_one_current')
+      .on(table.current)
+      .where(sql`current`),
+  ],
 );
