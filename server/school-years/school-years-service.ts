@@ -130,7 +130,7 @@ export async function updateSchoolYear(
 }
 
 /** The current school year, or undefined before the district has one. */
-export async function currentSchoolYear(db: Database | Transaction): Promise<SchoolYearRow | undefined> {
+export async function currentSchoolYearRow(db: Database | Transaction): Promise<SchoolYearRow | undefined> {
   const [row] = await db.select().from(schoolYears).where(sql`${schoolYears.current}`);
   return row;
 }

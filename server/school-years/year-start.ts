@@ -9,7 +9,7 @@ import type { Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, HttpError } from '../core/errors';
 import { topUpAttainment } from '../analytics/overview-service';
-import { assertYearFits, currentSchoolYear } from './school-years-service';
+import { assertYearFits, currentSchoolYearRow } from './school-years-service';
 
 /** The steps of a start, in order, for a caller that reports progress. */
 export type YearStartStep = 'planned' | 'history' | 'seats' | 'students' | 'switched';
@@ -239,7 +239,7 @@ export async function startSchoolYear(
     if (options.commit) {
       await tx.execute(sql`lock table students, enrollments, school_years in share row exclusive mode`);
     }
-    const fromYear = await currentSchoolYear(tx);
+    const fromYear = await currentSchoolYearRow(tx);
     if (!fromYear) throw badRequest('There is no current school year to start from.');
     await assertYearFits(tx, input);
     if (input.startsOn <= fromYear.endsOn) {
