@@ -216,6 +216,13 @@ describe('Starting a new school year', () => {
     expect(imported.body.committed).toBe(true);
     const seats = await query<{ year: string }>(`select y.name as year from enrollments en join students s on s.id = en.student_id join school_years y on y.id = en.school_year_id where s.student_number = '990002'`);
     expect(seats).toEqual([{ year: '2027-28' }]);
+    // The old year is history: its seats are read, not changed.
+    const [oldSeat] = await query<{ id: number; version: number }>(`select en.id, en.version from enrollments en join school_years y on y.id = en.school_year_id where y.name = '2026-27' limit 1`);
+    expect((await coordinator.get(`/api/enrollments/${oldSeat!.id}`)).status).toBe(200);
+    const changed = await coordinator.patch(`/api/enrollments/${oldSeat!.id}`, { part: '2nd', version: oldSeat!.version });
+    expect(changed.status).toBe(409);
+    expect(changed.body.error.message).toContain('2026-27, which is history');
+    expect((await coordinator.delete(`/api/enrollments/${oldSeat!.id}`)).status).toBe(409);
   });
 
   it('should carry the ensembles without their seats when the coordinator asks for empty ensembles', async () => {
