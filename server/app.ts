@@ -17,6 +17,7 @@ import { signInLimit, tokenLimits } from './core/rate-limits';
 import { meRoutes } from './me/me-routes';
 import { schoolsRoutes } from './schools/schools-routes';
 import { schoolYearsRoutes } from './school-years/school-years-routes';
+import { backupRoutes } from './backup/backup-routes';
 import { tokensRoutes } from './tokens/tokens-routes';
 import { peopleRoutes } from './people/people-routes';
 import { studentsRoutes } from './students/students-routes';
@@ -51,6 +52,7 @@ export const featureRoutes: ((services: Services) => Router)[] = [
   meRoutes,
   schoolsRoutes,
   schoolYearsRoutes,
+  backupRoutes,
   tokensRoutes,
   peopleRoutes,
   outboxRoutes,

@@ -21,6 +21,7 @@ export type Capability =
   | 'schools:read'
   | 'schools:write'
   | 'years:write'
+  | 'backup:download'
   | 'roster:read'
   | 'roster:write'
   | 'imports:run'
@@ -51,6 +52,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'schools:read',
     'schools:write',
     'years:write',
+    'backup:download',
     'roster:read',
     'roster:write',
     'imports:run',

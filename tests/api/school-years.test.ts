@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
+import { gunzipSync } from 'node:zlib';
 import { rowsOf } from '../../server/db/client';
 import { studentCountDrift } from '../support/student-counts';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
@@ -94,6 +95,24 @@ describe('School years', () => {
 });
 
 describe('Starting a new school year', () => {
+  it('should offer the coordinator a backup to download before the start, one that gunzips', async () => {
+    const backup = await request(app.url)
+      .get('/api/backup')
+      .set({ Cookie: coordinator.cookie })
+      .buffer(true)
+      .parse((response, done) => {
+        const chunks: Buffer[] = [];
+        response.on('data', (chunk: Buffer) => chunks.push(chunk));
+        response.on('end', () => done(null, Buffer.concat(chunks)));
+      });
+    expect(backup.status).toBe(200);
+    expect(backup.headers['content-disposition']).toMatch(/attachment; filename="?tuttiboard-backup-\d{4}-\d{2}-\d{2}\.tar\.gz"?/);
+    // RFC 1952 (gzip): a member starts with the bytes 0x1f 0x8b.
+    expect([...(backup.body as Buffer).subarray(0, 2)]).toEqual([0x1f, 0x8b]);
+    expect(gunzipSync(backup.body as Buffer).length).toBeGreaterThan(1_000_000);
+    expect((await director.get('/api/backup')).status).toBe(403);
+  });
+
   it('should refuse a start with bad dates, an existing or overlapping year, or one before the current, writing nothing', async () => {
     const before = await footprint();
     const cases: [object, string][] = [
