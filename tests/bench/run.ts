@@ -95,6 +95,15 @@ async function sections(): Promise<Section[]> {
       },
     });
   }
+  const yearStart = await optionalModule<{
+    benchYearStart(options: { students: number }): Promise<BenchFigure[]>;
+  }>('./year-start.ts');
+  if (yearStart) {
+    list.push({
+      title: '8. Starting a new school year, against one grade update over the same students',
+      run: () => yearStart.benchYearStart({ students: smoke ? 2_000 : 50_000 }),
+    });
+  }
   return list;
 }
 
