@@ -99,11 +99,29 @@ export const schoolMoveSchema = z.object({
 });
 export type SchoolMove = z.infer<typeof schoolMoveSchema>;
 
-/** `GET /api/students/:id`: the row plus its school, current seats and moves (newest first). */
+/** One past school year of a student: where they were, their ensembles, their rung at its end. */
+export const studentYearSchema = z.object({
+  schoolYearId: z.number().int(),
+  year: z.string(),
+  schoolCode: z.string(),
+  schoolName: z.string(),
+  grade: z.number().int(),
+  /** How the year ended for them: promoted, moving-up, graduated, leaving or withdrawn. */
+  outcome: z.string(),
+  ensembles: z.array(z.string()),
+  rung: z.number().int(),
+});
+export type StudentYear = z.infer<typeof studentYearSchema>;
+
+/**
+ * `GET /api/students/:id`: the row plus its school, current seats, moves (newest first) and
+ * past school years (newest first).
+ */
 export const studentDetailSchema = studentSchema.extend({
   school: schoolSummarySchema,
   enrollments: z.array(studentEnrollmentSchema),
   moves: z.array(schoolMoveSchema),
+  years: z.array(studentYearSchema),
 });
 export type StudentDetail = z.infer<typeof studentDetailSchema>;
 

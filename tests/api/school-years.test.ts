@@ -217,6 +217,24 @@ describe('Starting a new school year', () => {
     const kept = await coordinator.get(`/api/students/${graduateId}`);
     expect(kept.status).toBe(200);
     expect(kept.body.status).toBe('graduated');
+    // A student's page lists their past years: school, grade, ensembles and rung at its end.
+    const movedId = [...expected.outcomes].find(([id, row]) => row.outcome === 'moving-up' && before.seats.some((seat) => seat.studentId === id && seat.active && seat.yearId === before.currentYear.id))![0];
+    const moved = await coordinator.get(`/api/students/${movedId}`);
+    const was = before.students.find((row) => row.id === movedId)!;
+    const oldEnsembles = await query<{ name: string }>(`select e.name from enrollments en join ensembles e on e.id = en.ensemble_id where en.student_id = ${movedId} and en.school_year_id = ${before.currentYear.id} and en.active order by e.name`);
+    expect(moved.body.years).toEqual([
+      {
+        schoolYearId: before.currentYear.id,
+        year: '2026-27',
+        schoolCode: before.schools.find((school) => school.id === was.schoolId)!.code,
+        schoolName: expect.any(String),
+        grade: was.grade,
+        outcome: 'moving-up',
+        ensembles: oldEnsembles.map((row) => row.name),
+        rung: rungsBefore.find((row) => row.student_id === movedId)!.rung,
+      },
+    ]);
+    expect(moved.body.enrollments).toEqual([]);
   });
 
   it('should refuse to start the same year twice, and put a later roster import into the new year', async () => {
