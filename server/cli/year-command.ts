@@ -16,7 +16,8 @@ const switchFlags = new Set(['--dry-run', '--json', '--empty-ensembles']);
 
 function parseArguments(args: string[]) {
   const [action, ...rest] = args;
-  if (action !== 'start') throw new CommandError(`Unknown year command '${action ?? ''}'; try 'tutti year start'.`);
+  if (action !== 'start')
+    throw new CommandError(`Unknown year command '${action ?? ''}'; try 'tutti year start'.`);
   const names: string[] = [];
   const values = new Map<string, string>();
   const switches = new Set<string>();
@@ -24,7 +25,8 @@ function parseArguments(args: string[]) {
     const arg = rest[index]!;
     if (valueFlags.has(arg)) {
       const value = rest[index + 1];
-      if (value === undefined || value.startsWith('--')) throw new CommandError(`${arg} needs a date (YYYY-MM-DD).`);
+      if (value === undefined || value.startsWith('--'))
+        throw new CommandError(`${arg} needs a date (YYYY-MM-DD).`);
       values.set(arg, value);
       index += 1;
     } else if (switchFlags.has(arg)) switches.add(arg);
@@ -39,7 +41,9 @@ function parseArguments(args: string[]) {
     emptyEnsembles: switches.has('--empty-ensembles'),
   });
   if (!parsed.success) {
-    const problems = fieldErrorsOf(parsed.error).map((error) => `${flagOf(error.field)}: ${error.message}`);
+    const problems = fieldErrorsOf(parsed.error).map(
+      (error) => `${flagOf(error.field)}: ${error.message}`,
+    );
     throw new CommandError(problems.join('\n'));
   }
   return { input: parsed.data, dryRun: switches.has('--dry-run'), json: switches.has('--json') };
@@ -51,8 +55,32 @@ function flagOf(field: string): string {
 
 /** The contract's one JSON object. */
 function contractJson(result: YearStartResult): string {
-  const { year, students, promoted, graduated, movingUp, leaving, ensembles, seats, loansCarried, loansDueBack, committed } = result;
-  return JSON.stringify({ year, students, promoted, graduated, movingUp, leaving, ensembles, seats, loansCarried, loansDueBack, committed });
+  const {
+    year,
+    students,
+    promoted,
+    graduated,
+    movingUp,
+    leaving,
+    ensembles,
+    seats,
+    loansCarried,
+    loansDueBack,
+    committed,
+  } = result;
+  return JSON.stringify({
+    year,
+    students,
+    promoted,
+    graduated,
+    movingUp,
+    leaving,
+    ensembles,
+    seats,
+    loansCarried,
+    loansDueBack,
+    committed,
+  });
 }
 
 function summary(result: YearStartResult, dryRun: boolean): string {
@@ -69,7 +97,10 @@ function summary(result: YearStartResult, dryRun: boolean): string {
   }
   if (result.unplaced.length > 0) {
     lines.push(`Students with no school to move up to (marked leaving):`);
-    for (const student of result.unplaced) lines.push(`  ${student.studentNumber} ${student.name} (${student.schoolCode}, grade ${student.grade})`);
+    for (const student of result.unplaced)
+      lines.push(
+        `  ${student.studentNumber} ${student.name} (${student.schoolCode}, grade ${student.grade})`,
+      );
   }
   lines.push(
     result.committed
@@ -81,14 +112,27 @@ function summary(result: YearStartResult, dryRun: boolean): string {
   return `${lines.join('\n')}\n`;
 }
 
-async function throughServer(server: { url: string; key: string }, input: YearStartInput, dryRun: boolean) {
-  const answer = await callRunningServer<YearStartResult & { error?: { message: string } }>(server, '/years/start', {
-    method: 'POST',
-    body: JSON.stringify({ ...input, dryRun }),
-    contentType: 'application/json',
-  });
-  if (answer.status === 400) throw new CommandError(answer.body.error?.message ?? 'The server refused the year.');
-  if (answer.status !== 200) throw new CommandError(answer.body.error?.message ?? `The server answered ${answer.status}.`, 1);
+async function throughServer(
+  server: { url: string; key: string },
+  input: YearStartInput,
+  dryRun: boolean,
+) {
+  const answer = await callRunningServer<YearStartResult & { error?: { message: string } }>(
+    server,
+    '/years/start',
+    {
+      method: 'POST',
+      body: JSON.stringify({ ...input, dryRun }),
+      contentType: 'application/json',
+    },
+  );
+  if (answer.status === 400)
+    throw new CommandError(answer.body.error?.message ?? 'The server refused the year.');
+  if (answer.status !== 200)
+    throw new CommandError(
+      answer.body.error?.message ?? `The server answered ${answer.status}.`,
+      1,
+    );
   return answer.body;
 }
 
@@ -112,7 +156,9 @@ export async function yearCommand(config: Config, args: string[]): Promise<numbe
     if (error instanceof HttpError && error.status === 400) throw new CommandError(error.message);
     throw error;
   }
-  process.stdout.write(options.json ? `${contractJson(result)}\n` : summary(result, options.dryRun));
+  process.stdout.write(
+    options.json ? `${contractJson(result)}\n` : summary(result, options.dryRun),
+  );
   return 0;
 }
 

@@ -79,7 +79,12 @@ export async function createSchoolYear(
       .insert(schoolYears)
       .values({ ...input, current: anyYear === undefined })
       .returning();
-    await recordAudit(tx, actor, { action: 'create', entity: 'school-year', entityId: row!.id, after: row });
+    await recordAudit(tx, actor, {
+      action: 'create',
+      entity: 'school-year',
+      entityId: row!.id,
+      after: row,
+    });
     const [current] = await tx.select().from(schoolYears).where(eq(schoolYears.current, true));
     return toSchoolYear(row!, current);
   });
@@ -123,14 +128,25 @@ export async function updateSchoolYear(
       { ...next, ...(patch.current ? { current: true } : {}) },
       'That school year',
     );
-    await recordAudit(tx, actor, { action: 'update', entity: 'school-year', entityId: id, before, after: row });
+    await recordAudit(tx, actor, {
+      action: 'update',
+      entity: 'school-year',
+      entityId: id,
+      before,
+      after: row,
+    });
     const [current] = await tx.select().from(schoolYears).where(eq(schoolYears.current, true));
     return toSchoolYear(row, current);
   });
 }
 
 /** The current school year, or undefined before the district has one. */
-export async function currentSchoolYearRow(db: Database | Transaction): Promise<SchoolYearRow | undefined> {
-  const [row] = await db.select().from(schoolYears).where(sql`${schoolYears.current}`);
+export async function currentSchoolYearRow(
+  db: Database | Transaction,
+): Promise<SchoolYearRow | undefined> {
+  const [row] = await db
+    .select()
+    .from(schoolYears)
+    .where(sql`${schoolYears.current}`);
   return row;
 }

@@ -159,7 +159,9 @@ async function dueBackLoans(tx: Transaction, fromEndsOn: string) {
 /** The last committed roster import: a start previewed before it must be previewed again. */
 async function latestRosterImport(tx: Transaction): Promise<number> {
   const [row] = rowsOf<{ id: number }>(
-    await tx.execute(sql`select coalesce(max(id), 0)::int as id from roster_imports where committed`),
+    await tx.execute(
+      sql`select coalesce(max(id), 0)::int as id from roster_imports where committed`,
+    ),
   );
   return row!.id;
 }
@@ -213,8 +215,12 @@ async function applyPlan(
     select student_id, school_id, next_school_id, ${actor?.userId ?? null}::int
     from year_start_plan where outcome = 'moving-up'`);
   await onStep?.('students');
-  await tx.execute(sql`update school_years set current = false, updated_at = now() where id = ${fromYear.id}`);
-  await tx.execute(sql`update school_years set current = true, updated_at = now() where id = ${newYearId}`);
+  await tx.execute(
+    sql`update school_years set current = false, updated_at = now() where id = ${fromYear.id}`,
+  );
+  await tx.execute(
+    sql`update school_years set current = true, updated_at = now() where id = ${newYearId}`,
+  );
   await onStep?.('switched');
 }
 
@@ -237,7 +243,9 @@ export async function startSchoolYear(
     // No roster import or seat change slips between the plan and the writes (PostgreSQL
     // manual 13.3.1: SHARE ROW EXCLUSIVE conflicts with every writer's ROW EXCLUSIVE).
     if (options.commit) {
-      await tx.execute(sql`lock table students, enrollments, school_years in share row exclusive mode`);
+      await tx.execute(
+        sql`lock table students, enrollments, school_years in share row exclusive mode`,
+      );
     }
     const fromYear = await currentSchoolYearRow(tx);
     if (!fromYear) throw badRequest('There is no current school year to start from.');
@@ -253,7 +261,13 @@ export async function startSchoolYear(
       throw stoppedByImport(input.basis, basis);
     }
     await writePlan(tx, input.startsOn);
-    const rows = await countBySchool(tx, fromYear.id, fromYear.endsOn, input.startsOn, input.emptyEnsembles);
+    const rows = await countBySchool(
+      tx,
+      fromYear.id,
+      fromYear.endsOn,
+      input.startsOn,
+      input.emptyEnsembles,
+    );
     const totals = emptyCounts();
     const schools = rows.map((row) => {
       const counts: YearStartCounts = {
@@ -267,8 +281,15 @@ export async function startSchoolYear(
         loansCarried: row.loans_carried,
         loansDueBack: row.loans_due_back,
       };
-      for (const key of Object.keys(totals) as (keyof YearStartCounts)[]) totals[key] += counts[key];
-      return { schoolId: row.school_id, code: row.code, name: row.name, sendsTo: row.sends_to, ...counts };
+      for (const key of Object.keys(totals) as (keyof YearStartCounts)[])
+        totals[key] += counts[key];
+      return {
+        schoolId: row.school_id,
+        code: row.code,
+        name: row.name,
+        sendsTo: row.sends_to,
+        ...counts,
+      };
     });
     const result: YearStartResult = {
       year: input.name,

@@ -37,7 +37,9 @@ const yearName = z
   .max(20, 'A year name is at most 20 characters.');
 
 function datesInOrder(value: { startsOn?: string; endsOn?: string }) {
-  return value.startsOn === undefined || value.endsOn === undefined || value.startsOn < value.endsOn;
+  return (
+    value.startsOn === undefined || value.endsOn === undefined || value.startsOn < value.endsOn
+  );
 }
 const datesInOrderIssue = {
   message: 'The first day comes before the last day.',
@@ -56,7 +58,9 @@ export const schoolYearPatchSchema = z
     name: yearName.optional(),
     startsOn: day.optional(),
     endsOn: day.optional(),
-    current: z.literal(true, { message: 'Make another year current instead: one year is always current.' }).optional(),
+    current: z
+      .literal(true, { message: 'Make another year current instead: one year is always current.' })
+      .optional(),
     version: z.number().int(),
   })
   .refine(datesInOrder, datesInOrderIssue);

@@ -19,7 +19,9 @@ export async function benchYearStart(options: { students: number }): Promise<Ben
   try {
     await migrateDatabase(handle);
     await seedDemo(handle.db);
-    const schoolIds = (await handle.db.select({ id: schools.id }).from(schools)).map((row) => row.id);
+    const schoolIds = (await handle.db.select({ id: schools.id }).from(schools)).map(
+      (row) => row.id,
+    );
     await loadBenchStudents(pglite, schoolIds, Math.max(0, options.students - 1_670));
     await pglite.query(`
       insert into enrollments (student_id, ensemble_id, school_year_id, instrument_id)
@@ -39,7 +41,11 @@ export async function benchYearStart(options: { students: number }): Promise<Ben
     await pglite.query('VACUUM (ANALYZE)');
     // The summaries a district has between two reads of the Overview: none stale.
     await topUpAttainment(handle.db);
-    const [{ active }] = (await pglite.query<{ active: number }>(`select count(*)::int as active from students where status = 'active'`)).rows as [{ active: number }];
+    const [{ active }] = (
+      await pglite.query<{ active: number }>(
+        `select count(*)::int as active from students where status = 'active'`,
+      )
+    ).rows as [{ active: number }];
 
     const update = async () => {
       await pglite.transaction(async (tx) => {
@@ -52,7 +58,12 @@ export async function benchYearStart(options: { students: number }): Promise<Ben
     for (let run = 0; run < 5; run += 1) updates.push(await time(update));
     const updateMs = percentile(updates, 50);
 
-    const input = { name: '2027-28', startsOn: '2027-08-16', endsOn: '2028-06-09', emptyEnsembles: false };
+    const input = {
+      name: '2027-28',
+      startsOn: '2027-08-16',
+      endsOn: '2028-06-09',
+      emptyEnsembles: false,
+    };
     const previewMs = await time(() => startSchoolYear(handle.db, null, input, { commit: false }));
     let result: Awaited<ReturnType<typeof startSchoolYear>> | undefined;
     const startMs = await time(async () => {
@@ -60,7 +71,12 @@ export async function benchYearStart(options: { students: number }): Promise<Ben
     });
     const counted = `${active.toLocaleString('en-US')} active students, ${result!.seats.toLocaleString('en-US')} seats, ${result!.loansCarried.toLocaleString('en-US')} loans`;
     return [
-      figure('start a year, against 5× one grade update', startMs, 5 * updateMs, `target ≤ 1×; one UPDATE ${updateMs.toFixed(0)} ms (median of 5); ${counted}`),
+      figure(
+        'start a year, against 5× one grade update',
+        startMs,
+        5 * updateMs,
+        `target ≤ 1×; one UPDATE ${updateMs.toFixed(0)} ms (median of 5); ${counted}`,
+      ),
       figure('start a year, against 3 s', startMs, 3_000, 'target ≤ 1×'),
       figure('preview, against 3 s', previewMs, 3_000, 'target ≤ 1×'),
     ];

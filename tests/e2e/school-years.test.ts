@@ -33,7 +33,9 @@ describe('School years screen', () => {
     const panel = page.getByTestId('start-preview-panel');
     await panel.waitFor();
     const [{ active }] = rowsOf<{ active: number }>(
-      await app.database.db.execute(`select count(*)::int as active from students where status = 'active'` as never),
+      await app.database.db.execute(
+        `select count(*)::int as active from students where status = 'active'` as never,
+      ),
     );
     await expect.poll(() => panel.locator('.totals').innerText()).toContain(String(active));
     expect(await panel.innerText()).toContain('Heron Point Middle');
@@ -45,10 +47,14 @@ describe('School years screen', () => {
     const result = page.getByTestId('start-result');
     await result.waitFor({ timeout: 60_000 });
     expect(await result.innerText()).toContain('2027-28 has started');
-    await expect.poll(() => table.locator('tr[data-year="2027-28"]').innerText()).toContain('Current');
+    await expect
+      .poll(() => table.locator('tr[data-year="2027-28"]').innerText())
+      .toContain('Current');
     expect(await table.locator('tr[data-year="2026-27"]').innerText()).toContain('History');
     await saveScreenshot(page, 'school-years-started');
-    const [year] = rowsOf<{ name: string }>(await app.database.db.execute(`select name from school_years where current` as never));
+    const [year] = rowsOf<{ name: string }>(
+      await app.database.db.execute(`select name from school_years where current` as never),
+    );
     expect(year!.name).toBe('2027-28');
     expect(outside).toEqual([]);
     await context.close();

@@ -8,12 +8,17 @@ import { startSchoolYear, type YearStartStep } from '../../server/school-years/y
 const crashAt = process.env['YEAR_START_CRASH_AT'] as YearStartStep;
 const [name, startsOn, endsOn] = process.argv.slice(2) as [string, string, string];
 await withCommandDatabase(loadConfig(), 'year start crash test', ({ db }) =>
-  startSchoolYear(db, null, { name, startsOn, endsOn, emptyEnsembles: false }, {
-    commit: true,
-    onStep: (step) => {
-      process.stdout.write(`${step}\n`);
-      if (step === crashAt) process.kill(process.pid, 'SIGKILL');
+  startSchoolYear(
+    db,
+    null,
+    { name, startsOn, endsOn, emptyEnsembles: false },
+    {
+      commit: true,
+      onStep: (step) => {
+        process.stdout.write(`${step}\n`);
+        if (step === crashAt) process.kill(process.pid, 'SIGKILL');
+      },
     },
-  }),
+  ),
 );
 process.stdout.write('finished\n');

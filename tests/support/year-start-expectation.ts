@@ -3,9 +3,21 @@ import { rowsOf, type DatabaseHandle } from '../../server/db/client';
 /** What the roster holds before a start, read plainly, row by row. */
 export interface RosterBefore {
   currentYear: { id: number; endsOn: string };
-  schools: { id: number; code: string; highest: number | null; sendsTo: number | null; closedOn: string | null }[];
+  schools: {
+    id: number;
+    code: string;
+    highest: number | null;
+    sendsTo: number | null;
+    closedOn: string | null;
+  }[];
   students: { id: number; schoolId: number; grade: number; status: string }[];
-  seats: { studentId: number; ensembleId: number; ensembleSchoolId: number; yearId: number; active: boolean }[];
+  seats: {
+    studentId: number;
+    ensembleId: number;
+    ensembleSchoolId: number;
+    yearId: number;
+    active: boolean;
+  }[];
   ensembles: { id: number; schoolId: number }[];
   loans: { id: number; state: string; dueOn: string }[];
 }
@@ -44,7 +56,10 @@ export function expectedStart(before: RosterBefore, startsOn: string, emptyEnsem
     return school !== undefined && (school.closedOn === null || school.closedOn > startsOn);
   };
   const studentById = new Map(before.students.map((student) => [student.id, student]));
-  const outcomes = new Map<number, { outcome: Outcome; schoolId: number; grade: number; status: string }>();
+  const outcomes = new Map<
+    number,
+    { outcome: Outcome; schoolId: number; grade: number; status: string }
+  >();
   for (const student of before.students) {
     if (student.status !== 'active') continue;
     const school = schoolById.get(student.schoolId)!;
@@ -75,7 +90,8 @@ export function expectedStart(before: RosterBefore, startsOn: string, emptyEnsem
           seat.ensembleSchoolId === student!.schoolId
         );
       });
-  const count = (outcome: Outcome) => [...outcomes.values()].filter((row) => row.outcome === outcome).length;
+  const count = (outcome: Outcome) =>
+    [...outcomes.values()].filter((row) => row.outcome === outcome).length;
   const openLoans = before.loans.filter((loan) => loan.state === 'active');
   return {
     outcomes,

@@ -46,6 +46,8 @@ export class SchoolYearData {
   }
 
   start(request: YearStartRequest): Observable<YearStartResult> {
-    return this.http.post('/api/school-years/start', request).pipe(parsedWith(yearStartResultSchema));
+    return this.http
+      .post('/api/school-years/start', request)
+      .pipe(parsedWith(yearStartResultSchema));
   }
 }

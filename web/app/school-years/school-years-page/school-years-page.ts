@@ -60,7 +60,13 @@ export class SchoolYearsPage {
 
   protected edit(year: SchoolYear): void {
     this.failure.set('');
-    this.draft.set({ id: year.id, version: year.version, name: year.name, startsOn: year.startsOn, endsOn: year.endsOn });
+    this.draft.set({
+      id: year.id,
+      version: year.version,
+      name: year.name,
+      startsOn: year.startsOn,
+      endsOn: year.endsOn,
+    });
   }
 
   protected cancel(): void {

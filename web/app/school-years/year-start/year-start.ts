@@ -24,7 +24,8 @@ export function followingYearName(name: string): string {
   const match = /^(\d{4})([-–])(\d{2}|\d{4})$/.exec(name);
   if (!match) return '';
   const first = Number(match[1]) + 1;
-  const second = match[3]!.length === 2 ? String((first + 1) % 100).padStart(2, '0') : String(first + 1);
+  const second =
+    match[3]!.length === 2 ? String((first + 1) % 100).padStart(2, '0') : String(first + 1);
   return `${first}${match[2]}${second}`;
 }
 
@@ -41,7 +42,15 @@ export function sameWeekdayNextYear(day: string): string {
  */
 @Component({
   selector: 'tb-year-start',
-  imports: [DecimalPipe, FormsModule, MatButtonModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule],
+  imports: [
+    DecimalPipe,
+    FormsModule,
+    MatButtonModule,
+    MatCheckboxModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+  ],
   templateUrl: './year-start.html',
   styleUrl: './year-start.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -66,7 +75,8 @@ export class YearStart {
   protected readonly confirming = signal(false);
   protected readonly failure = signal('');
   protected readonly schoolsWithStudents = computed(
-    () => this.preview()?.schools.filter((school) => school.students > 0 || school.ensembles > 0) ?? [],
+    () =>
+      this.preview()?.schools.filter((school) => school.students > 0 || school.ensembles > 0) ?? [],
   );
 
   private request(): YearStartRequest {
@@ -119,7 +129,9 @@ export class YearStart {
         this.busy.set(false);
         this.confirming.set(false);
         this.preview.set(null);
-        this.failure.set(errorMessage(error, 'The year could not be started. Nothing was changed.'));
+        this.failure.set(
+          errorMessage(error, 'The year could not be started. Nothing was changed.'),
+        );
       },
     });
   }
