@@ -37,7 +37,9 @@ describe('School years screen', () => {
         `select count(*)::int as active from students where status = 'active'` as never,
       ),
     );
-    await expect.poll(() => panel.locator('.totals').innerText()).toContain(String(active));
+    await expect
+      .poll(() => panel.locator('.totals').innerText())
+      .toContain(active!.toLocaleString('en-US'));
     expect(await panel.innerText()).toContain('Heron Point Middle');
     expect(await page.getByTestId('download-backup').getAttribute('href')).toBe('/api/backup');
     await saveScreenshot(page, 'school-years-preview');
@@ -56,6 +58,19 @@ describe('School years screen', () => {
       await app.database.db.execute(`select name from school_years where current` as never),
     );
     expect(year!.name).toBe('2027-28');
+
+    // A student who moved up: their record lists the year just ended.
+    const [movedUp] = rowsOf<{ id: number; year: string }>(
+      await app.database.db.execute(
+        `select sy.student_id as id from student_years sy where sy.outcome = 'moving-up' order by sy.student_id limit 1` as never,
+      ),
+    );
+    await page.goto(`${app.url}/students/${movedUp!.id}/edit`);
+    const years = page.getByTestId('student-years');
+    await years.waitFor({ timeout: 30_000 });
+    expect(await years.innerText()).toContain('2026-27');
+    expect(await years.innerText()).toContain('Moved up');
+    await saveScreenshot(page, 'student-past-years');
     expect(outside).toEqual([]);
     await context.close();
   }, 180_000);
