@@ -178,6 +178,11 @@ export const studentFiltersSchema = z.strictObject({
   ensembleId: idParameter.optional(),
   instrumentId: plainText().max(40).optional(),
   /**
+   * A past school year: the students who were in the program that year, with that year's
+   * school, grade and seats (the current year, or none, lists the roster as it is now).
+   */
+  schoolYearId: z.coerce.number().int().positive().optional(),
+  /**
    * Keyset paging: the cursor in the `Link: <…>; rel="next"` header of the page before. The page
    * starts right after that page's last row (in the same sort), and `offset` is not used.
    */

@@ -433,6 +433,22 @@ describe('Starting a new school year', () => {
     expect(changed.status).toBe(409);
     expect(changed.body.error.message).toContain('2026-27, which is history');
     expect((await coordinator.delete(`/api/enrollments/${oldSeat!.id}`)).status).toBe(409);
+    // A past year's students: that year's school, grade and seats, within the caller's schools.
+    const [old] = await query<{ id: number }>(`select id from school_years where name = '2026-27'`);
+    const [kept] = await query<{ count: number }>(`select count(*)::int as count from student_years where school_year_id = ${old!.id}`);
+    const listed = await coordinator.get(`/api/students?schoolYearId=${old!.id}&limit=5&sort=lastName:asc`);
+    expect(listed.status).toBe(200);
+    expect(listed.body.total).toBe(kept!.count);
+    const [mover] = await query<{ id: number; grade: number; code: string; number: string }>(
+      `select sy.student_id as id, sy.grade, sc.code, s.student_number as number from student_years sy join schools sc on sc.id = sy.school_id join students s on s.id = sy.student_id where sy.school_year_id = ${old!.id} and sy.outcome = 'moving-up' order by sy.student_id limit 1`,
+    );
+    const found = await coordinator.get(`/api/students?schoolYearId=${old!.id}&q=${mover!.number}`);
+    expect(found.body.rows).toHaveLength(1);
+    expect(found.body.rows[0]).toMatchObject({ id: mover!.id, grade: mover!.grade, schoolCode: mover!.code });
+    const hpmsEighth = await director.get(`/api/students?schoolYearId=${old!.id}&grade=8&limit=1`);
+    const [counted] = await query<{ count: number }>(`select count(*)::int as count from student_years sy join schools sc on sc.id = sy.school_id where sy.school_year_id = ${old!.id} and sc.code = 'HPMS' and sy.grade = 8`);
+    expect(hpmsEighth.body.total).toBe(counted!.count);
+    expect(hpmsEighth.body.rows[0].schoolCode).toBe('HPMS');
   });
 
   it('should carry the ensembles without their seats when the coordinator asks for empty ensembles', async () => {
