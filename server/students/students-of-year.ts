@@ -1,4 +1,16 @@
-import { type AnyColumn, and, asc, count, desc, eq, ilike, inArray, or, sql, type SQL } from 'drizzle-orm';
+import {
+  type AnyColumn,
+  and,
+  asc,
+  count,
+  desc,
+  eq,
+  ilike,
+  inArray,
+  or,
+  sql,
+  type SQL,
+} from 'drizzle-orm';
 import type { ListResponse } from '../../shared/api/list';
 import type { Student } from '../../shared/api/student';
 import type { Database } from '../db/client';

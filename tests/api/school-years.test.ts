@@ -435,8 +435,12 @@ describe('Starting a new school year', () => {
     expect((await coordinator.delete(`/api/enrollments/${oldSeat!.id}`)).status).toBe(409);
     // A past year's students: that year's school, grade and seats, within the caller's schools.
     const [old] = await query<{ id: number }>(`select id from school_years where name = '2026-27'`);
-    const [kept] = await query<{ count: number }>(`select count(*)::int as count from student_years where school_year_id = ${old!.id}`);
-    const listed = await coordinator.get(`/api/students?schoolYearId=${old!.id}&limit=5&sort=lastName:asc`);
+    const [kept] = await query<{ count: number }>(
+      `select count(*)::int as count from student_years where school_year_id = ${old!.id}`,
+    );
+    const listed = await coordinator.get(
+      `/api/students?schoolYearId=${old!.id}&limit=5&sort=lastName:asc`,
+    );
     expect(listed.status).toBe(200);
     expect(listed.body.total).toBe(kept!.count);
     const [mover] = await query<{ id: number; grade: number; code: string; number: string }>(
@@ -444,9 +448,15 @@ describe('Starting a new school year', () => {
     );
     const found = await coordinator.get(`/api/students?schoolYearId=${old!.id}&q=${mover!.number}`);
     expect(found.body.rows).toHaveLength(1);
-    expect(found.body.rows[0]).toMatchObject({ id: mover!.id, grade: mover!.grade, schoolCode: mover!.code });
+    expect(found.body.rows[0]).toMatchObject({
+      id: mover!.id,
+      grade: mover!.grade,
+      schoolCode: mover!.code,
+    });
     const hpmsEighth = await director.get(`/api/students?schoolYearId=${old!.id}&grade=8&limit=1`);
-    const [counted] = await query<{ count: number }>(`select count(*)::int as count from student_years sy join schools sc on sc.id = sy.school_id where sy.school_year_id = ${old!.id} and sc.code = 'HPMS' and sy.grade = 8`);
+    const [counted] = await query<{ count: number }>(
+      `select count(*)::int as count from student_years sy join schools sc on sc.id = sy.school_id where sy.school_year_id = ${old!.id} and sc.code = 'HPMS' and sy.grade = 8`,
+    );
     expect(hpmsEighth.body.total).toBe(counted!.count);
     expect(hpmsEighth.body.rows[0].schoolCode).toBe('HPMS');
   });

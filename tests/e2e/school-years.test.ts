@@ -71,6 +71,25 @@ describe('School years screen', () => {
     expect(await years.innerText()).toContain('2026-27');
     expect(await years.innerText()).toContain('Moved up');
     await saveScreenshot(page, 'student-past-years');
+
+    // The students grid of the year just ended: that year's schools and grades, read-only.
+    await page.goto(`${app.url}/students`);
+    await page.getByTestId('filter-year').click();
+    await page.getByRole('option', { name: '2026-27', exact: true }).click();
+    await page.getByTestId('past-year-note').waitFor();
+    await expect
+      .poll(() => page.locator('.ag-center-cols-container .ag-row').count(), { timeout: 30_000 })
+      .toBeGreaterThan(5);
+    expect(await page.getByRole('link', { name: 'Add student' }).count()).toBe(0);
+    const [{ kept }] = rowsOf<{ kept: number }>(
+      await app.database.db.execute(
+        `select count(*)::int as kept from student_years sy join school_years y on y.id = sy.school_year_id where y.name = '2026-27'` as never,
+      ),
+    );
+    await expect
+      .poll(() => page.locator('main').innerText())
+      .toContain(kept!.toLocaleString('en-US'));
+    await saveScreenshot(page, 'students-past-year');
     expect(outside).toEqual([]);
     await context.close();
   }, 180_000);
