@@ -56,6 +56,9 @@ import { gradeChoices, statusLabels } from '../student-form/student-choices';
     .wide {
       width: 210px;
     }
+    .year {
+      width: 160px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
