@@ -17,6 +17,7 @@ import { sessionSecret } from './core/settings';
 import { signInLimit, tokenLimits } from './core/rate-limits';
 import { meRoutes } from './me/me-routes';
 import { schoolsRoutes } from './schools/schools-routes';
+import { schoolYearsRoutes } from './school-years/school-years-routes';
 import { tokensRoutes } from './tokens/tokens-routes';
 import { peopleRoutes } from './people/people-routes';
 import { studentsRoutes } from './students/students-routes';
@@ -54,6 +55,7 @@ export const featureRoutes: ((services: Services) => Router)[] = [
   meRoutes,
   districtRoutes,
   schoolsRoutes,
+  schoolYearsRoutes,
   tokensRoutes,
   peopleRoutes,
   outboxRoutes,

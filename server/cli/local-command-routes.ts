@@ -9,6 +9,8 @@ import { issueToken } from '../tokens/token-service';
 import { localImportHandlers } from '../imports/local-import';
 import { AlreadySetUpError, setUpDistrict } from '../district/district-service';
 import { answerBackup } from '../backup/backup-routes';
+import { yearStartInputSchema } from '../../shared/api/school-year';
+import { startSchoolYear } from '../school-years/year-start';
 
 /** The header a local `tutti` command sends with the key from the data folder's lock file. */
 export const localKeyHeader = 'x-tutti-local-key';
@@ -51,5 +53,13 @@ export function localCommandRoutes(services: Services, localKey: string): Router
   });
   router.post('/imports', ...localImportHandlers(database));
   router.get('/backup', (_request, response) => answerBackup(services, response));
+  router.post('/years/start', async (request, response) => {
+    const { dryRun, ...rest } = parseInput(
+      yearStartInputSchema.and(z.object({ dryRun: z.boolean().default(false) })),
+      request.body,
+      'The new year',
+    );
+    response.json(await startSchoolYear(db, null, rest, { commit: !dryRun }));
+  });
   return router;
 }

@@ -6,6 +6,7 @@ import { migrateCommand, seedCommand } from './database-commands';
 import { importCommand } from './import-command';
 import { CommandError } from './command-error';
 import { setupCommand } from './setup-command';
+import { yearCommand, yearUsage } from './year-command';
 
 /** A `tutti` sub-command: takes its arguments, answers the exit code. */
 export type Command = (config: Config, args: string[]) => Promise<number>;
@@ -20,6 +21,7 @@ const commands: Record<string, { run: Command; usage: string }> = {
     run: importCommand,
     usage: 'tutti import <file.csv | bundle.zip | folder> [--dry-run] [--json] [--skip-invalid]',
   },
+  year: { run: yearCommand, usage: yearUsage },
   token: { run: tokenCommand, usage: 'tutti token <email>' },
   backup: { run: backupCommand, usage: 'tutti backup <file>' },
   restore: { run: restoreCommand, usage: 'tutti restore <file>' },

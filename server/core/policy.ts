@@ -21,6 +21,7 @@ export type Capability =
   | 'district:settings'
   | 'schools:read'
   | 'schools:write'
+  | 'years:write'
   | 'roster:read'
   | 'roster:write'
   | 'imports:run'
@@ -55,6 +56,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'district:settings',
     'schools:read',
     'schools:write',
+    'years:write',
     'roster:read',
     'roster:write',
     'imports:run',

@@ -9,7 +9,7 @@ import { updateVersioned } from '../core/versioned-update';
 import { findVisibleEnsemble } from '../ensembles/ensembles-service';
 import { findVisibleStudent } from '../students/students-service';
 import { enrollmentColumns, toEnrollment } from './enrollment-row';
-import { currentSchoolYear } from './school-year';
+import { assertYearOpen, currentSchoolYear } from './school-year';
 
 const what = 'That enrollment';
 
@@ -105,7 +105,7 @@ export async function updateEnrollment(
 ): Promise<Enrollment> {
   const { version, ...changes } = patch;
   await db.transaction(async (tx) => {
-    await getEnrollment(tx, actor, id);
+    await assertYearOpen(tx, await getEnrollment(tx, actor, id));
     const [before] = await tx.select().from(enrollments).where(eq(enrollments.id, id));
     const after = await updateVersioned(tx, enrollments, id, version, changes, what);
     await recordAudit(tx, actor, {
@@ -122,7 +122,7 @@ export async function updateEnrollment(
 /** Removes a seat (a seat entered by mistake; a student who leaves is ended with active: false). */
 export async function deleteEnrollment(db: Database, actor: Actor, id: number): Promise<void> {
   await db.transaction(async (tx) => {
-    await getEnrollment(tx, actor, id);
+    await assertYearOpen(tx, await getEnrollment(tx, actor, id));
     const [before] = await tx.delete(enrollments).where(eq(enrollments.id, id)).returning();
     await recordAudit(tx, actor, { action: 'delete', entity: 'enrollment', entityId: id, before });
   });

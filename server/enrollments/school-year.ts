@@ -1,7 +1,7 @@
 import { desc, eq, sql, type SQL } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
 import { schoolYears } from '../db/schema/index';
-import { badRequest } from '../core/errors';
+import { badRequest, HttpError } from '../core/errors';
 
 /**
  * The school year marked current, or undefined before one is set up. Should two be marked, the
@@ -36,4 +36,21 @@ export async function currentSchoolYear(
     throw badRequest('No school year is marked current; the coordinator sets one up first.');
   }
   return year;
+}
+
+/**
+ * Throws 409 when a seat belongs to a year other than the current one: a past year is
+ * history, read but not changed.
+ */
+export async function assertYearOpen(
+  db: Database | Transaction,
+  seat: { schoolYearId: number; schoolYearName: string },
+): Promise<void> {
+  const current = await findCurrentSchoolYear(db);
+  if (current?.id === seat.schoolYearId) return;
+  throw new HttpError(
+    409,
+    'year_closed',
+    `That seat belongs to ${seat.schoolYearName}, which is history and can no longer be changed.`,
+  );
 }

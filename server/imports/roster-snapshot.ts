@@ -10,7 +10,7 @@ export interface ExistingStudent {
   preferredName: string | null;
   grade: number;
   schoolId: number;
-  status: 'active' | 'withdrawn';
+  status: 'active' | 'withdrawn' | 'graduated' | 'leaving';
   guardianName: string | null;
   guardianEmail: string | null;
 }

@@ -1,6 +1,8 @@
 /**
  * The invented Merrow Basin Unified district: its schools and staff accounts. Every name here
- * is made up for the demonstration.
+ * is made up for the demonstration. Each school has the grades it serves (0 is kindergarten)
+ * and the school its students move up to after its last grade: both elementaries feed a middle
+ * school and every middle school feeds the high school.
  */
 export const demoDistrict = {
   name: 'Merrow Basin Unified',
@@ -13,12 +15,12 @@ export const demoDistrict = {
 };
 
 export const demoSchools = [
-  { code: 'HPMS', name: 'Heron Point Middle', level: 'middle', address: '410 Heron Point Road, Merrow Basin', students: 330 },
-  { code: 'QHMS', name: 'Quarry Hill Middle', level: 'middle', address: '92 Quarry Hill Lane, Merrow Basin', students: 300 },
-  { code: 'TRHS', name: 'Tamsin Ridge High', level: 'high', address: '1 Ridgeline Drive, Tamsin', students: 400 },
-  { code: 'FBES', name: 'Firthbarrow Elementary', level: 'elementary', address: '18 Firthbarrow Court, Merrow Basin', students: 200 },
-  { code: 'OMMS', name: 'Orchard Mill Middle', level: 'middle', address: '77 Millrace Way, Orchard', students: 260 },
-  { code: 'CWES', name: 'Cedarwash Elementary', level: 'elementary', address: '5 Cedarwash Road, Tamsin', students: 180 },
+  { code: 'HPMS', name: 'Heron Point Middle', level: 'middle', address: '410 Heron Point Road, Merrow Basin', students: 330, lowestGrade: 6, highestGrade: 8, sendsTo: 'TRHS' },
+  { code: 'QHMS', name: 'Quarry Hill Middle', level: 'middle', address: '92 Quarry Hill Lane, Merrow Basin', students: 300, lowestGrade: 6, highestGrade: 8, sendsTo: 'TRHS' },
+  { code: 'TRHS', name: 'Tamsin Ridge High', level: 'high', address: '1 Ridgeline Drive, Tamsin', students: 400, lowestGrade: 9, highestGrade: 12, sendsTo: null },
+  { code: 'FBES', name: 'Firthbarrow Elementary', level: 'elementary', address: '18 Firthbarrow Court, Merrow Basin', students: 200, lowestGrade: 0, highestGrade: 5, sendsTo: 'HPMS' },
+  { code: 'OMMS', name: 'Orchard Mill Middle', level: 'middle', address: '77 Millrace Way, Orchard', students: 260, lowestGrade: 6, highestGrade: 8, sendsTo: 'TRHS' },
+  { code: 'CWES', name: 'Cedarwash Elementary', level: 'elementary', address: '5 Cedarwash Road, Tamsin', students: 180, lowestGrade: 0, highestGrade: 5, sendsTo: 'QHMS' },
 ] as const;
 
 export type DemoSchoolCode = (typeof demoSchools)[number]['code'];

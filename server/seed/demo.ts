@@ -44,9 +44,25 @@ export async function seedDemo(db: Database, seededOn = new Date()): Promise<voi
     await tx.insert(districts).values(demoDistrict);
     const schoolRows = await tx
       .insert(schools)
-      .values(demoSchools.map(({ code, name, level, address }) => ({ code, name, level, address })))
+      .values(
+        demoSchools.map(({ code, name, level, address, lowestGrade, highestGrade }) => ({
+          code,
+          name,
+          level,
+          address,
+          lowestGrade,
+          highestGrade,
+        })),
+      )
       .returning({ id: schools.id, code: schools.code });
     const schoolIds = new Map(schoolRows.map((row) => [row.code, row.id]));
+    for (const school of demoSchools) {
+      if (!school.sendsTo) continue;
+      await tx
+        .update(schools)
+        .set({ sendsToSchoolId: schoolIds.get(school.sendsTo)! })
+        .where(eq(schools.id, schoolIds.get(school.code)!));
+    }
     const [year] = await tx
       .insert(schoolYears)
       .values({ ...demoSchoolYear, current: true })

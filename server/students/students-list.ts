@@ -7,7 +7,8 @@ import { schools, studentCounts, students } from '../db/schema/index';
 import { badRequest } from '../core/errors';
 import { likePattern, parseListQuery } from '../core/list-query';
 import { schoolScope, type Actor } from '../core/policy';
-import { currentSchoolYearId } from '../enrollments/school-year';
+import { currentSchoolYearId, findCurrentSchoolYear } from '../enrollments/school-year';
+import { listStudentsOfYear } from './students-of-year';
 import { seatSummaries } from './student-seats';
 import { studentColumns, toStudent, type StudentRecord } from './student-row';
 
@@ -245,6 +246,11 @@ export async function listStudents(
   query: unknown,
 ): Promise<ListResponse<Student> & { next?: string }> {
   const list = parseListQuery(query, studentFiltersSchema);
+  if (list.schoolYearId !== undefined) {
+    const current = await findCurrentSchoolYear(db);
+    if (current?.id !== list.schoolYearId)
+      return listStudentsOfYear(db, actor, { ...list, schoolYearId: list.schoolYearId });
+  }
   const sort = list.sort ?? 'lastName:asc';
   const order = orderBy(sort);
   const after = list.after ? afterCondition(list.after, sort) : undefined;

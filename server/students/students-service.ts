@@ -6,7 +6,7 @@ import type {
   StudentInput,
   StudentPatch,
 } from '../../shared/api/student';
-import type { Database, Transaction } from '../db/client';
+import { rowsOf, type Database, type Transaction } from '../db/client';
 import {
   enrollments,
   ensembles,
@@ -116,17 +116,35 @@ async function movesOf(db: Database, studentId: number): Promise<StudentDetail['
 export async function getStudent(db: Database, actor: Actor, id: number): Promise<StudentDetail> {
   const record = await findVisibleStudent(db, actor, id);
   const year = await findCurrentSchoolYear(db);
-  const [seats, enrollmentRows, moves] = await Promise.all([
+  const [seats, enrollmentRows, moves, years] = await Promise.all([
     seatSummaries(db, [id], year?.id),
     currentSeats(db, id, year?.id),
     movesOf(db, id),
+    pastYearsOf(db, id),
   ]);
   return {
     ...toStudent(record, seats(id), actor),
     school: { id: record.schoolId, code: record.schoolCode, name: record.schoolName },
     enrollments: enrollmentRows,
     moves,
+    years,
   };
+}
+
+/** The student's past school years, newest first, as the year starts recorded them. */
+async function pastYearsOf(db: Database, studentId: number): Promise<StudentDetail['years']> {
+  return rowsOf<StudentDetail['years'][number]>(
+    await db.execute(sql`
+      select sy.school_year_id as "schoolYearId", y.name as year, sc.code as "schoolCode",
+        sc.name as "schoolName", sy.grade, sy.outcome, sy.rung,
+        coalesce((select array_agg(e.name order by e.name) from enrollments en
+          join ensembles e on e.id = en.ensemble_id
+          where en.student_id = sy.student_id and en.school_year_id = sy.school_year_id and en.active), '{}') as ensembles
+      from student_years sy join school_years y on y.id = sy.school_year_id
+      join schools sc on sc.id = sy.school_id
+      where sy.student_id = ${studentId}
+      order by y.starts_on desc`),
+  );
 }
 
 async function assertStudentNumberFree(

@@ -20,3 +20,4 @@ export * from './planning';
 export * from './report';
 export * from './import';
 export * from './district';
+export * from './school-year';

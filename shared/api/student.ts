@@ -2,8 +2,8 @@ import { z } from 'zod';
 import { idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { schoolSummarySchema } from './me';
 
-/** Whether a student is on the roster now, or has left the program. */
-export const studentStatuses = ['active', 'withdrawn'] as const;
+/** Whether a student is on the roster now, has left the program, graduated, or left the district's schools after their school's last grade. */
+export const studentStatuses = ['active', 'withdrawn', 'graduated', 'leaving'] as const;
 export type StudentStatus = (typeof studentStatuses)[number];
 
 /** The fields `GET /api/students?sort=<field>:asc|desc` accepts. */
@@ -99,11 +99,29 @@ export const schoolMoveSchema = z.object({
 });
 export type SchoolMove = z.infer<typeof schoolMoveSchema>;
 
-/** `GET /api/students/:id`: the row plus its school, current seats and moves (newest first). */
+/** One past school year of a student: where they were, their ensembles, their rung at its end. */
+export const studentYearSchema = z.object({
+  schoolYearId: z.number().int(),
+  year: z.string(),
+  schoolCode: z.string(),
+  schoolName: z.string(),
+  grade: z.number().int(),
+  /** How the year ended for them: promoted, moving-up, graduated, leaving or withdrawn. */
+  outcome: z.string(),
+  ensembles: z.array(z.string()),
+  rung: z.number().int(),
+});
+export type StudentYear = z.infer<typeof studentYearSchema>;
+
+/**
+ * `GET /api/students/:id`: the row plus its school, current seats, moves (newest first) and
+ * past school years (newest first).
+ */
 export const studentDetailSchema = studentSchema.extend({
   school: schoolSummarySchema,
   enrollments: z.array(studentEnrollmentSchema),
   moves: z.array(schoolMoveSchema),
+  years: z.array(studentYearSchema),
 });
 export type StudentDetail = z.infer<typeof studentDetailSchema>;
 
@@ -159,6 +177,11 @@ export const studentFiltersSchema = z.strictObject({
   status: z.enum(studentStatuses).optional(),
   ensembleId: idParameter.optional(),
   instrumentId: plainText().max(40).optional(),
+  /**
+   * A past school year: the students who were in the program that year, with that year's
+   * school, grade and seats (the current year, or none, lists the roster as it is now).
+   */
+  schoolYearId: z.coerce.number().int().positive().optional(),
   /**
    * Keyset paging: the cursor in the `Link: <…>; rel="next"` header of the page before. The page
    * starts right after that page's last row (in the same sort), and `offset` is not used.

@@ -60,6 +60,12 @@ const matrix: Entry[] = [
   { route: 'POST /api/schools', codes: 'P33333' },
   { route: 'PATCH /api/schools/:id', codes: 'P33333', url: (f) => `/api/schools/${f.hpms}` },
   { route: 'DELETE /api/schools/:id', codes: 'P33333', fresh: freshSchool },
+  { route: 'GET /api/school-years', codes: 'PPPPPP' },
+  { route: 'POST /api/school-years', codes: 'P33333' },
+  { route: 'PATCH /api/school-years/:id', codes: 'P33333', url: () => '/api/school-years/1' },
+  // An empty body: the coordinator gets 400 and nothing starts.
+  { route: 'POST /api/school-years/start/preview', codes: 'P33333' },
+  { route: 'POST /api/school-years/start', codes: 'P33333' },
   { route: 'GET /api/backup', codes: 'P33333' },
   { route: 'GET /api/tokens', codes: 'PPPP33' },
   { route: 'POST /api/tokens', codes: 'PPPP33' },

@@ -105,6 +105,15 @@ async function sections(): Promise<Section[]> {
     title: '9. Grid pages during a backup, against without it',
     run: () => benchBackup(smoke ? { students: 3_000, photos: 5 } : { students: 50_000, photos: 200 }),
   });
+  const yearStart = await optionalModule<{
+    benchYearStart(options: { students: number }): Promise<BenchFigure[]>;
+  }>('./year-start.ts');
+  if (yearStart) {
+    list.push({
+      title: '10. Starting a new school year, against one grade update over the same students',
+      run: () => yearStart.benchYearStart({ students: smoke ? 2_000 : 50_000 }),
+    });
+  }
   return list;
 }
 

@@ -123,6 +123,13 @@ export const routes: Routes = [
         loadChildren: () => import('./people/people.routes').then((m) => m.peopleRoutes),
       },
       {
+        path: 'school-years',
+        canActivate: [capabilityGuard],
+        data: { capability: 'years:write' },
+        loadChildren: () =>
+          import('./school-years/school-years.routes').then((m) => m.schoolYearsRoutes),
+      },
+      {
         path: 'account/tokens',
         canActivate: [capabilityGuard],
         data: { capability: 'tokens:own' },

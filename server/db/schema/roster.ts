@@ -29,7 +29,7 @@ export const students = pgTable(
     schoolId: integer('school_id')
       .notNull()
       .references(() => schools.id),
-    status: text('status', { enum: ['active', 'withdrawn'] })
+    status: text('status', { enum: ['active', 'withdrawn', 'graduated', 'leaving'] })
       .notNull()
       .default('active'),
     guardianName: text('guardian_name'),
@@ -79,6 +79,35 @@ export const studentCounts = pgTable(
     students: integer('students').notNull(),
   },
   (table) => [primaryKey({ columns: [table.schoolId, table.grade, table.status] })],
+);
+
+/**
+ * Where each student stood in a past school year, written when the next year starts: the
+ * school and grade of that year, how the year ended for them, and their rung at its end.
+ */
+export const studentYears = pgTable(
+  'student_years',
+  {
+    studentId: integer('student_id')
+      .notNull()
+      .references(() => students.id, { onDelete: 'cascade' }),
+    schoolYearId: integer('school_year_id')
+      .notNull()
+      .references(() => schoolYears.id),
+    schoolId: integer('school_id')
+      .notNull()
+      .references(() => schools.id),
+    grade: integer('grade').notNull(),
+    /** How the year ended: promoted, moving-up, graduated, leaving, withdrawn. */
+    outcome: text('outcome', {
+      enum: ['promoted', 'moving-up', 'graduated', 'leaving', 'withdrawn'],
+    }).notNull(),
+    rung: integer('rung').notNull().default(0),
+  },
+  (table) => [
+    primaryKey({ columns: [table.studentId, table.schoolYearId] }),
+    index('student_years_year_school_idx').on(table.schoolYearId, table.schoolId, table.grade),
+  ],
 );
 
 /** A band, orchestra or other group that meets at one school. */

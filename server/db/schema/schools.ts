@@ -8,6 +8,7 @@ import {
   uniqueIndex,
   type AnyPgColumn,
 } from 'drizzle-orm/pg-core';
+import { sql } from 'drizzle-orm';
 import { timestamps, version } from './columns';
 
 /** A school of the district, known everywhere by its short code (HPMS, TRHS…). */
@@ -41,7 +42,14 @@ export const schoolYears = pgTable(
     startsOn: date('starts_on', { mode: 'string' }).notNull(),
     endsOn: date('ends_on', { mode: 'string' }).notNull(),
     current: boolean('current').notNull().default(false),
+    ...version,
     ...timestamps,
   },
-  (table) => [uniqueIndex('school_years_name_unique').on(table.name)],
+  (table) => [
+    uniqueIndex('school_years_name_unique').on(table.name),
+    // Exactly one year is current: at most one by this index, at least one by the service.
+    uniqueIndex('school_years_one_current')
+      .on(table.current)
+      .where(sql`current`),
+  ],
 );

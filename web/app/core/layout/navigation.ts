@@ -27,6 +27,7 @@ export const navigationItems: NavigationItem[] = [
   { path: '/planning', label: 'Replacement plan', icon: 'inventory_2', capability: 'fleet:read', group: 'fleet' },
   { path: '/ensembles', label: 'Ensembles', icon: 'groups', capability: 'roster:read', group: 'district' },
   { path: '/students', label: 'Students', icon: 'person', capability: 'roster:read', group: 'district' },
+  { path: '/school-years', label: 'School years', icon: 'event_repeat', capability: 'years:write', group: 'admin' },
   { path: '/people', label: 'People', icon: 'manage_accounts', capability: 'people:manage', group: 'admin' },
   // The coordinator reaches every token from People; other roles with tokens:own get their own page.
   { path: '/account/tokens', label: 'API tokens', icon: 'key', capability: 'tokens:own', hiddenFor: ['coordinator'], group: 'admin' },

@@ -22,6 +22,8 @@ import { StudentForm } from '../student-form/student-form';
 import { StudentData } from './student-data';
 import { StudentMoves } from './student-moves';
 import { StudentSeats } from './student-seats';
+import { StudentYears } from './student-years';
+import { statusLabels } from '../student-form/student-choices';
 
 type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready' };
 
@@ -36,6 +38,7 @@ type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: '
     StudentForm,
     StudentSeats,
     StudentMoves,
+    StudentYears,
   ],
   templateUrl: './student-detail.html',
   styleUrl: './student-detail.scss',
@@ -49,6 +52,7 @@ export class StudentDetail {
   readonly id = input.required<string>();
 
   protected readonly canWrite = inject(CurrentUser).can('roster:write');
+  protected readonly statusLabels = statusLabels;
   protected readonly creating = computed(() => this.id() === 'new');
   protected readonly schools = toSignal(
     inject(SchoolData)

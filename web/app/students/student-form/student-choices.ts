@@ -13,4 +13,6 @@ export const gradeChoices: { value: number; label: string }[] = Array.from(
 export const statusLabels: Record<StudentStatus, string> = {
   active: 'Active',
   withdrawn: 'Withdrawn',
+  graduated: 'Graduated',
+  leaving: 'Left the district',
 };

@@ -25,6 +25,7 @@ import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { SchoolData } from '../../schools/school-data';
+import { SchoolYearData } from '../../school-years/school-year-data';
 import { gradeChoices, statusLabels } from '../student-form/student-choices';
 
 /** The students of the user's schools: search, filters, and a way into each record. */
@@ -55,6 +56,9 @@ import { gradeChoices, statusLabels } from '../student-form/student-choices';
     .wide {
       width: 210px;
     }
+    .year {
+      width: 160px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -74,6 +78,24 @@ export class StudentList {
       ),
     { initialValue: [] },
   );
+  /** The school years, newest first; the list shows the current one unless another is chosen. */
+  protected readonly years = toSignal(
+    inject(SchoolYearData)
+      .list()
+      .pipe(
+        map((list) => [...list.rows].reverse()),
+        catchError(() => of([])),
+      ),
+    { initialValue: [] },
+  );
+  /** A past year chosen in the year picker (its students, read-only), or null for now. */
+  protected readonly pastYear = signal<number | null>(null);
+  protected readonly pastYearName = computed(
+    () => this.years().find((year) => year.id === this.pastYear())?.name ?? null,
+  );
+  protected readonly currentYearId = computed(
+    () => this.years().find((year) => year.current)?.id ?? null,
+  );
   protected readonly grades = gradeChoices;
   protected readonly statusLabels = statusLabels;
   protected readonly instruments = instruments;
@@ -88,8 +110,10 @@ export class StudentList {
   protected readonly filters = computed(() => ({
     schoolId: this.school(),
     grade: this.grade(),
-    status: this.status(),
-    instrumentId: this.instrumentId(),
+    // A past year lists everyone who was in the program then, whatever their status now.
+    status: this.pastYear() === null ? this.status() : null,
+    instrumentId: this.pastYear() === null ? this.instrumentId() : null,
+    schoolYearId: this.pastYear(),
   }));
   protected readonly sortFields = studentSortFields;
   protected readonly columns: ColDef<Student>[] = [
@@ -131,6 +155,11 @@ export class StudentList {
     this.grade.set(null);
     this.status.set(null);
     this.instrumentId.set(null);
+  }
+
+  protected chooseYear(id: number | null): void {
+    const year = this.years().find((row) => row.id === id);
+    this.pastYear.set(year && !year.current ? year.id : null);
   }
 
   protected open(student: Student): void {

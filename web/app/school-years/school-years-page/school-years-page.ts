@@ -1,0 +1,113 @@
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
+import { NgTemplateOutlet } from '@angular/common';
+import { FormsModule } from '@angular/forms';
+import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import type { SchoolYear } from '../../../../shared/api/school-year';
+import { errorMessage } from '../../core/parse';
+import { PageState } from '../../core/state/page-state';
+import { SchoolYearData } from '../school-year-data';
+import { YearStart } from '../year-start/year-start';
+
+/** A year being added or edited in the table. */
+interface YearDraft {
+  id: number | null;
+  version: number;
+  name: string;
+  startsOn: string;
+  endsOn: string;
+}
+
+/**
+ * The coordinator's School years screen: every year with its dates and which one is current,
+ * a way to add or correct one, and the start of the next year (preview, then one step).
+ */
+@Component({
+  selector: 'tb-school-years-page',
+  imports: [
+    NgTemplateOutlet,
+    FormsModule,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    PageState,
+    YearStart,
+  ],
+  templateUrl: './school-years-page.html',
+  styleUrl: './school-years-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class SchoolYearsPage {
+  private readonly data = inject(SchoolYearData);
+
+  protected readonly years = rxResource({ stream: () => this.data.list() });
+  protected readonly current = computed(() =>
+    this.years.value()?.rows.find((year) => year.current),
+  );
+  protected readonly draft = signal<YearDraft | null>(null);
+  protected readonly saving = signal(false);
+  protected readonly notice = signal('');
+  protected readonly failure = signal('');
+
+  protected add(): void {
+    this.failure.set('');
+    this.draft.set({ id: null, version: 0, name: '', startsOn: '', endsOn: '' });
+  }
+
+  protected edit(year: SchoolYear): void {
+    this.failure.set('');
+    this.draft.set({
+      id: year.id,
+      version: year.version,
+      name: year.name,
+      startsOn: year.startsOn,
+      endsOn: year.endsOn,
+    });
+  }
+
+  protected cancel(): void {
+    this.draft.set(null);
+  }
+
+  protected change(field: 'name' | 'startsOn' | 'endsOn', value: string): void {
+    this.draft.update((draft) => (draft ? { ...draft, [field]: value } : draft));
+  }
+
+  protected save(): void {
+    const draft = this.draft();
+    if (!draft || this.saving()) return;
+    this.saving.set(true);
+    this.failure.set('');
+    const { name, startsOn, endsOn } = draft;
+    const request =
+      draft.id === null
+        ? this.data.create({ name, startsOn, endsOn })
+        : this.data.update(draft.id, { name, startsOn, endsOn, version: draft.version });
+    request.subscribe({
+      next: (year) => {
+        this.saving.set(false);
+        this.draft.set(null);
+        this.notice.set(`${year.name} is saved.`);
+        this.years.reload();
+      },
+      error: (error: unknown) => {
+        this.saving.set(false);
+        this.failure.set(errorMessage(error, 'The year could not be saved.'));
+      },
+    });
+  }
+
+  protected started(): void {
+    this.notice.set('');
+    this.years.reload();
+  }
+
+  protected statusOf(year: SchoolYear): string {
+    if (year.current) return 'Current';
+    return year.past ? 'History (read-only)' : 'Not started';
+  }
+}
