@@ -33,6 +33,8 @@ import { outboxRoutes } from './mail/outbox-routes';
 import { reportsRoutes } from './reports/reports-routes';
 import { startBackgroundWork } from './reports/background-work';
 import { webRoot } from './project-paths';
+import { feesRoutes, paymentsWebhook } from './payments/fees-routes';
+import { payPages } from './payments/pay-pages';
 
 export { webRoot };
 
@@ -63,6 +65,7 @@ export const featureRoutes: ((services: Services) => Router)[] = [
   passOffsRoutes,
   takesRoutes,
   analyticsRoutes,
+  feesRoutes,
   ...fleetRoutes,
 ];
 
@@ -119,6 +122,10 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   app.locals['services'] = services;
 
   const issuerOrigin = new URL(config.oidcIssuer).origin;
+  // "Pay the usage fee" posts here and is redirected on to the payment service's hosted page.
+  const paymentOrigins = config.payments
+    ? [config.payments.apiUrl ? new URL(config.payments.apiUrl).origin : 'https:']
+    : [];
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -137,7 +144,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
           baseUri: ["'self'"],
           frameAncestors: ["'none'"],
           // Sign-out posts here and is redirected on to the identity provider.
-          formAction: ["'self'", issuerOrigin],
+          formAction: ["'self'", issuerOrigin, ...paymentOrigins],
         },
       },
       // Sent below, per request: over HTTPS (APP_URL's, or the proxy's X-Forwarded-Proto).
@@ -149,6 +156,9 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
 
   const appUrlIsHttps = config.appUrl.startsWith('https:');
   app.use(overHttps(config, logger));
+
+  // The payment service's signed events: raw body, no session, no cookie, no CSRF check.
+  app.use(paymentsWebhook(services));
   app.use(
     withoutBearerApiRequests(
       session({
@@ -188,6 +198,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   api.use(unknownApiRoute);
   app.use('/api', api);
   app.use(agreementPages(services));
+  app.use(payPages(services));
 
   if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'))) {
     app.use(express.static(webRoot, { index: false, maxAge: '1h' }));

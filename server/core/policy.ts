@@ -34,6 +34,7 @@ export type Capability =
   | 'loans:return'
   | 'loans:see-waivers'
   | 'loans:agreement'
+  | 'fees:manage'
   | 'repairs:write'
   | 'counts:run'
   | 'reports:read'
@@ -66,6 +67,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'loans:return',
     'loans:see-waivers',
     'loans:agreement',
+    'fees:manage',
     'repairs:write',
     'counts:run',
     'reports:read',

@@ -8,3 +8,4 @@ export * from './reports';
 export * from './ladder';
 export * from './fleet';
 export * from './listening';
+export * from './fees';
