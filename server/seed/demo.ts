@@ -4,6 +4,7 @@ import { schoolYears, schools, userSchools, users } from '../db/schema/index';
 import { demoSchools, demoUsers } from './demo-people';
 import { seedDemoRoster } from './demo-roster';
 import { seedDemoFleet } from './demo-fleet';
+import { seedDemoFees } from './demo-fees';
 import { seedDemoLadder } from './demo-ladder';
 import { refreshStatistics } from '../db/statistics';
 import { SeededRandom } from './random';
@@ -59,6 +60,7 @@ export async function seedDemo(db: Database, seededOn = new Date()): Promise<voi
       studentUserId,
     });
     await seedDemoFleet(tx, { schoolYearEndsOn: demoSchoolYear.endsOn });
+    await seedDemoFees(tx);
     await seedDemoLadder(tx, {
       directorOf,
       schoolYearEndsOn: demoSchoolYear.endsOn,
