@@ -380,3 +380,43 @@ describe('the service down', () => {
     expect(detail.fee.status).toBe('owed');
   });
 });
+
+describe('the demo district', () => {
+  it('should have paid, waived, owed and one refunded loan', async () => {
+    const statuses = new Map<string, number>();
+    for (const status of ['paid', 'waived', 'owed', 'refunded']) {
+      const list = await coordinator.get(`/api/fees?status=${status}&limit=500`);
+      expect(list.status).toBe(200);
+      const demoRows = (list.body.rows as { assetTag: string }[]).filter((row) => !row.assetTag.startsWith('TEST-'));
+      statuses.set(status, demoRows.length);
+    }
+    expect(statuses.get('paid')).toBeGreaterThan(0);
+    expect(statuses.get('waived')).toBeGreaterThan(0);
+    expect(statuses.get('owed')).toBeGreaterThan(0);
+    expect(statuses.get('refunded')).toBe(1);
+  });
+});
+
+describe('without PAYMENTS_SECRET_KEY', () => {
+  it('should offer no online payment: no pay link in the e-mail, pay the director instead', async () => {
+    const offline = await startTestApp({ payments: false });
+    try {
+      const coordinatorOffline = await offline.signIn(demoEmail('coordinator'));
+      expect((await coordinatorOffline.get('/api/fees/schedule')).body.onlinePayments).toBe(false);
+      const instrument = await coordinatorOffline.post('/api/instruments', { assetTag: 'TEST-OFFLINE-1', instrumentId: 'trombone', homeSchoolId: hpmsId });
+      const [student] = rowsOf<{ id: number }>(await offline.database.db.execute(sql`select s.id from students s where s.school_id = ${hpmsId} and s.status = 'active' and s.guardian_email is not null and not exists (select 1 from loans l where l.student_id = s.id) order by s.id limit 1`));
+      const loan = await coordinatorOffline.post('/api/loans', { instrumentId: instrument.body.id, studentId: student!.id, conditionOut: 'good' });
+      expect(loan.status).toBe(201);
+      const [message] = rowsOf<{ text: string }>(await offline.database.db.execute(sql`select text from outbox_messages where related_id = ${loan.body.id} and kind = 'loan-agreement'`));
+      expect(message!.text).not.toContain('/pay/');
+      const token = /\/agreements\/([A-Za-z0-9_-]+)/.exec(message!.text)![1]!;
+      expect((await offline.anonymous.get(`/agreements/${token}`)).text).not.toContain('Pay the usage fee');
+      // Fees by hand, as before.
+      const byHand = await coordinatorOffline.post(`/api/fees/${loan.body.id}/payments`, { amountCents: 4500, note: 'Cheque 2231' });
+      expect(byHand.status).toBe(201);
+      expect(byHand.body.status).toBe('paid');
+    } finally {
+      await offline.close();
+    }
+  });
+});
