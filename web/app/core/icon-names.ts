@@ -81,6 +81,7 @@ export const iconNames = [
   'schedule_send',
   'event_repeat',
   'mic',
+  'payments',
 ] as const;
 
 export type IconName = (typeof iconNames)[number];
