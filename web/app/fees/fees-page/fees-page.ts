@@ -50,7 +50,7 @@ export class FeesPage {
 
   protected readonly money = money;
   protected readonly day = dayText;
-  protected readonly statusWords = statusWords;
+  protected readonly statusWords: Record<string, string> = statusWords;
   protected readonly families = families;
   protected readonly statuses = Object.keys(statusWords) as FeeStatus[];
   protected readonly isCoordinator = this.user.can('fees:manage');
