@@ -85,6 +85,9 @@ describe('a guardian pays the usage fee online', () => {
     await office.getByTestId('fee-detail').getByText('payment', { exact: true }).waitFor(patient);
     await saveScreenshot(office, 'fees-coordinator');
     await office.setViewportSize({ width: 390, height: 844 });
+    await office.reload();
+    await office.getByRole('heading', { name: 'Fees', level: 1 }).waitFor(patient);
+    await office.getByTestId('fee-table').waitFor(patient);
     await saveScreenshot(office, 'fees-coordinator-phone');
     expect(outside).toEqual([]);
     await context.close();

@@ -32,6 +32,13 @@ const statusWords: Record<FeeStatus, string> = {
 
 const families = ['brass', 'woodwind', 'strings', 'percussion'];
 
+const ledgerWords: Record<string, string> = {
+  payment: 'Paid online',
+  'manual-payment': 'Paid by hand',
+  refund: 'Refund',
+  mismatch: 'Payment to check (amount differs)',
+};
+
 /**
  * The business office's view of usage fees: owed, paid, waived and refunded per loan, student,
  * school and year; a loan's ledger with refunds and payments by hand; the reconciliation against
@@ -52,6 +59,7 @@ export class FeesPage {
   protected readonly day = dayText;
   protected readonly statusWords: Record<string, string> = statusWords;
   protected readonly families = families;
+  protected readonly ledgerWords = ledgerWords;
   protected readonly statuses = Object.keys(statusWords) as FeeStatus[];
   protected readonly isCoordinator = this.user.can('fees:manage');
   protected readonly seesLedger = this.user.can('loans:see-waivers');
