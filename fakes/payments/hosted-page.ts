@@ -32,7 +32,10 @@ export function formatAmount(minor: number, currency: string): string {
 /** The hosted page where the payer types a card; `error` re-renders it after a decline. */
 export function paymentForm(session: CheckoutSession, error = ''): string {
   const items = session.line_items_summary
-    .map((item) => `<li>${escapeHtml(item.name)}${item.quantity > 1 ? ` × ${item.quantity}` : ''}</li>`)
+    .map(
+      (item) =>
+        `<li>${escapeHtml(item.name)}${item.quantity > 1 ? ` × ${item.quantity}` : ''}</li>`,
+    )
     .join('');
   return shell(
     'Pay securely',

@@ -103,10 +103,22 @@ export class ServiceError extends Error {
 }
 
 export const missingParameter = (param: string) =>
-  new ServiceError(400, 'invalid_request_error', `Missing required param: ${param}.`, 'parameter_missing', param);
+  new ServiceError(
+    400,
+    'invalid_request_error',
+    `Missing required param: ${param}.`,
+    'parameter_missing',
+    param,
+  );
 
 export const invalidParameter = (param: string, message: string) =>
   new ServiceError(400, 'invalid_request_error', message, 'parameter_invalid', param);
 
 export const noSuch = (kind: string, id: string, param = 'id') =>
-  new ServiceError(404, 'invalid_request_error', `No such ${kind}: '${id}'`, 'resource_missing', param);
+  new ServiceError(
+    404,
+    'invalid_request_error',
+    `No such ${kind}: '${id}'`,
+    'resource_missing',
+    param,
+  );

@@ -88,19 +88,24 @@ function text(params: Params, name: string): string | undefined {
 function integer(params: Params, name: string, param = name): number | undefined {
   const value = params[name];
   if (value === undefined) return undefined;
-  if (typeof value !== 'string' || !/^\d+$/.test(value)) throw invalidParameter(param, `Invalid integer: ${String(value)}`);
+  if (typeof value !== 'string' || !/^\d+$/.test(value))
+    throw invalidParameter(param, `Invalid integer: ${String(value)}`);
   return Number(value);
 }
 
 function metadata(params: Params, name: string): Record<string, string> {
   const value = params[name];
   if (value === undefined || value === '') return {};
-  if (typeof value !== 'object' || value === null || Array.isArray(value)) throw invalidParameter(name, 'Invalid object');
+  if (typeof value !== 'object' || value === null || Array.isArray(value))
+    throw invalidParameter(name, 'Invalid object');
   const entries = Object.entries(value as Record<string, unknown>);
   if (entries.length > 50) throw invalidParameter(name, 'Metadata can have up to 50 keys.');
   for (const [key, entry] of entries) {
     if (typeof entry !== 'string' || key.length > 40 || entry.length > 500)
-      throw invalidParameter(`${name}[${key}]`, 'Metadata keys are at most 40 characters and values at most 500.');
+      throw invalidParameter(
+        `${name}[${key}]`,
+        'Metadata keys are at most 40 characters and values at most 500.',
+      );
   }
   return value as Record<string, string>;
 }
@@ -117,8 +122,15 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
   const sessions = new Map<string, CheckoutSession>();
   const charges = new Map<string, Charge>();
   const refunds: Refund[] = [];
-  const idempotency = new Map<string, { fingerprint: string; status: number; body: unknown; at: number }>();
-  const sender = new WebhookSender({ secret: webhookSecret, url: options.webhookUrl, retryDelaysMs: options.retryDelaysMs });
+  const idempotency = new Map<
+    string,
+    { fingerprint: string; status: number; body: unknown; at: number }
+  >();
+  const sender = new WebhookSender({
+    secret: webhookSecret,
+    url: options.webhookUrl,
+    retryDelaysMs: options.retryDelaysMs,
+  });
   let baseUrl = '';
 
   const emit = (type: string, object: unknown, idempotencyKey: string | null = null) => {
@@ -190,7 +202,8 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
   const createSession = (params: Params): CheckoutSession => {
     const mode = text(params, 'mode');
     if (!mode) throw missingParameter('mode');
-    if (mode !== 'payment') throw invalidParameter('mode', 'This fake supports mode "payment" only.');
+    if (mode !== 'payment')
+      throw invalidParameter('mode', 'This fake supports mode "payment" only.');
     const successUrl = text(params, 'success_url');
     if (!successUrl) throw missingParameter('success_url');
     const rawItems = params['line_items'];
@@ -202,27 +215,43 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
       const priceData = (item['price_data'] ?? undefined) as Params | undefined;
       if (!priceData) throw missingParameter(`line_items[${index}][price_data]`);
       const itemCurrency = text(priceData, 'currency')?.toLowerCase();
-      if (!itemCurrency || !/^[a-z]{3}$/.test(itemCurrency)) throw missingParameter(`line_items[${index}][price_data][currency]`);
+      if (!itemCurrency || !/^[a-z]{3}$/.test(itemCurrency))
+        throw missingParameter(`line_items[${index}][price_data][currency]`);
       if (currency && currency !== itemCurrency)
-        throw invalidParameter(`line_items[${index}][price_data][currency]`, 'All line items must use the same currency.');
+        throw invalidParameter(
+          `line_items[${index}][price_data][currency]`,
+          'All line items must use the same currency.',
+        );
       currency = itemCurrency;
-      const unitAmount = integer(priceData, 'unit_amount', `line_items[${index}][price_data][unit_amount]`);
-      if (unitAmount === undefined) throw missingParameter(`line_items[${index}][price_data][unit_amount]`);
+      const unitAmount = integer(
+        priceData,
+        'unit_amount',
+        `line_items[${index}][price_data][unit_amount]`,
+      );
+      if (unitAmount === undefined)
+        throw missingParameter(`line_items[${index}][price_data][unit_amount]`);
       const product = (priceData['product_data'] ?? {}) as Params;
       const name = text(product, 'name');
       if (!name) throw missingParameter(`line_items[${index}][price_data][product_data][name]`);
       const quantity = integer(item, 'quantity', `line_items[${index}][quantity]`) ?? 1;
-      if (quantity < 1) throw invalidParameter(`line_items[${index}][quantity]`, 'Quantity must be at least 1.');
+      if (quantity < 1)
+        throw invalidParameter(`line_items[${index}][quantity]`, 'Quantity must be at least 1.');
       total += unitAmount * quantity;
       return { name, quantity, unit_amount: unitAmount };
     });
     // The service's smallest charge in US dollars is 50 cents.
     if (total < 50)
-      throw invalidParameter('line_items', 'The Checkout Session\'s total amount due must add up to at least $0.50 usd');
+      throw invalidParameter(
+        'line_items',
+        "The Checkout Session's total amount due must add up to at least $0.50 usd",
+      );
     const created = unixNow();
     const expiresAt = integer(params, 'expires_at') ?? created + 24 * 60 * 60;
     if (expiresAt < created + 30 * 60 || expiresAt > created + 24 * 60 * 60)
-      throw invalidParameter('expires_at', 'The `expires_at` timestamp must be between 30 minutes and 24 hours from Checkout Session creation.');
+      throw invalidParameter(
+        'expires_at',
+        'The `expires_at` timestamp must be between 30 minutes and 24 hours from Checkout Session creation.',
+      );
     const id = objectId('cs_test');
     const session: CheckoutSession = {
       id,
@@ -244,7 +273,10 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
       expires_at: expiresAt,
       livemode: false,
       line_items_summary: items,
-      payment_intent_metadata: metadata((params['payment_intent_data'] ?? {}) as Params, 'metadata'),
+      payment_intent_metadata: metadata(
+        (params['payment_intent_data'] ?? {}) as Params,
+        'metadata',
+      ),
     };
     sessions.set(id, session);
     return session;
@@ -257,10 +289,18 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
     const charge = paymentIntent
       ? charges.get(paymentIntent)
       : [...charges.values()].find((candidate) => candidate.id === chargeId);
-    if (!charge) throw paymentIntent ? noSuch('payment_intent', paymentIntent, 'payment_intent') : noSuch('charge', chargeId!, 'charge');
+    if (!charge)
+      throw paymentIntent
+        ? noSuch('payment_intent', paymentIntent, 'payment_intent')
+        : noSuch('charge', chargeId!, 'charge');
     const remaining = charge.amount - charge.amount_refunded;
     if (remaining <= 0)
-      throw new ServiceError(400, 'invalid_request_error', `Charge ${charge.id} has already been refunded.`, 'charge_already_refunded');
+      throw new ServiceError(
+        400,
+        'invalid_request_error',
+        `Charge ${charge.id} has already been refunded.`,
+        'charge_already_refunded',
+      );
     const amount = integer(params, 'amount') ?? remaining;
     if (amount < 1) throw invalidParameter('amount', 'Refund amount must be positive.');
     if (amount > remaining)
@@ -273,7 +313,10 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
       );
     const reason = text(params, 'reason') ?? null;
     if (reason && !['duplicate', 'fraudulent', 'requested_by_customer'].includes(reason))
-      throw invalidParameter('reason', 'Invalid reason: must be one of duplicate, fraudulent, or requested_by_customer');
+      throw invalidParameter(
+        'reason',
+        'Invalid reason: must be one of duplicate, fraudulent, or requested_by_customer',
+      );
     const refund: Refund = {
       id: objectId('re'),
       object: 'refund',
@@ -324,31 +367,83 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
     const session = sessions.get(request.params['id'] ?? '');
     response.set('Cache-Control', 'no-store').type('html');
     if (!session) {
-      response.status(404).send(closedPage('Payment page not found', 'This payment link is not valid.'));
+      response
+        .status(404)
+        .send(closedPage('Payment page not found', 'This payment link is not valid.'));
       return;
     }
     expireIfDue(session);
-    if (session.status === 'complete') return void response.send(closedPage('Already paid', 'This payment has been made. Thank you.', session.success_url?.replaceAll('{CHECKOUT_SESSION_ID}', session.id)));
-    if (session.status === 'expired') return void response.status(410).send(closedPage('This payment page has expired', 'Go back to the site you came from to start again.', session.cancel_url));
+    if (session.status === 'complete')
+      return void response.send(
+        closedPage(
+          'Already paid',
+          'This payment has been made. Thank you.',
+          session.success_url?.replaceAll('{CHECKOUT_SESSION_ID}', session.id),
+        ),
+      );
+    if (session.status === 'expired')
+      return void response
+        .status(410)
+        .send(
+          closedPage(
+            'This payment page has expired',
+            'Go back to the site you came from to start again.',
+            session.cancel_url,
+          ),
+        );
     response.send(paymentForm(session));
   });
-  app.post('/pay/:id', express.urlencoded({ extended: false, limit: '4kb' }), (request, response): void => {
-    const session = sessions.get(request.params['id'] ?? '');
-    response.set('Cache-Control', 'no-store').type('html');
-    if (!session) return void response.status(404).send(closedPage('Payment page not found', 'This payment link is not valid.'));
-    const body = (request.body ?? {}) as Record<string, string>;
-    const card = String(body['card'] ?? '').replace(/[\s-]/g, '');
-    if (!/^\d{12,19}$/.test(card) || !passesLuhn(card)) return void response.status(400).send(paymentForm(session, 'Your card number is incorrect.'));
-    if (!/^\s*(0[1-9]|1[0-2])\s*\/?\s*\d{2}\s*$/.test(String(body['expiry'] ?? '')))
-      return void response.status(400).send(paymentForm(session, 'Your card’s expiry date is incomplete.'));
-    if (!/^\d{3,4}$/.test(String(body['cvc'] ?? '').trim()))
-      return void response.status(400).send(paymentForm(session, 'Your card’s security code is incomplete.'));
-    const outcome = pay(session, card);
-    if (outcome === 'closed') return void response.status(410).send(closedPage('This payment page can no longer be used', session.status === 'complete' ? 'This payment has already been made.' : 'It has expired. Go back to start again.', session.cancel_url));
-    if (outcome === 'declined')
-      return void response.status(402).send(paymentForm(session, card === declinedCard ? 'Your card was declined.' : 'Your card was declined. Use one of the test cards below.'));
-    response.redirect(303, session.success_url!.replaceAll('{CHECKOUT_SESSION_ID}', session.id));
-  });
+  app.post(
+    '/pay/:id',
+    express.urlencoded({ extended: false, limit: '4kb' }),
+    (request, response): void => {
+      const session = sessions.get(request.params['id'] ?? '');
+      response.set('Cache-Control', 'no-store').type('html');
+      if (!session)
+        return void response
+          .status(404)
+          .send(closedPage('Payment page not found', 'This payment link is not valid.'));
+      const body = (request.body ?? {}) as Record<string, string>;
+      const card = String(body['card'] ?? '').replace(/[\s-]/g, '');
+      if (!/^\d{12,19}$/.test(card) || !passesLuhn(card))
+        return void response
+          .status(400)
+          .send(paymentForm(session, 'Your card number is incorrect.'));
+      if (!/^\s*(0[1-9]|1[0-2])\s*\/?\s*\d{2}\s*$/.test(String(body['expiry'] ?? '')))
+        return void response
+          .status(400)
+          .send(paymentForm(session, 'Your card’s expiry date is incomplete.'));
+      if (!/^\d{3,4}$/.test(String(body['cvc'] ?? '').trim()))
+        return void response
+          .status(400)
+          .send(paymentForm(session, 'Your card’s security code is incomplete.'));
+      const outcome = pay(session, card);
+      if (outcome === 'closed')
+        return void response
+          .status(410)
+          .send(
+            closedPage(
+              'This payment page can no longer be used',
+              session.status === 'complete'
+                ? 'This payment has already been made.'
+                : 'It has expired. Go back to start again.',
+              session.cancel_url,
+            ),
+          );
+      if (outcome === 'declined')
+        return void response
+          .status(402)
+          .send(
+            paymentForm(
+              session,
+              card === declinedCard
+                ? 'Your card was declined.'
+                : 'Your card was declined. Use one of the test cards below.',
+            ),
+          );
+      response.redirect(303, session.success_url!.replaceAll('{CHECKOUT_SESSION_ID}', session.id));
+    },
+  );
 
   // The API the SDK calls.
   const api = express.Router();
@@ -356,7 +451,13 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
     const header = request.headers.authorization ?? '';
     const key = header.startsWith('Bearer ') ? header.slice(7) : '';
     if (key !== secretKey) {
-      throw new ServiceError(401, 'invalid_request_error', key ? `Invalid API Key provided: ${key.slice(0, 8)}****` : 'You did not provide an API key.');
+      throw new ServiceError(
+        401,
+        'invalid_request_error',
+        key
+          ? `Invalid API Key provided: ${key.slice(0, 8)}****`
+          : 'You did not provide an API key.',
+      );
     }
     next();
   });
@@ -366,10 +467,14 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
   api.use((request, response, next) => {
     const key = request.headers['idempotency-key'];
     if (request.method !== 'POST' || typeof key !== 'string') return next();
-    if (key.length > 255) throw invalidParameter('Idempotency-Key', 'Idempotency keys are at most 255 characters.');
-    const fingerprint = createHash('sha256').update(`${request.path}\n${JSON.stringify(request.body ?? {})}`).digest('hex');
+    if (key.length > 255)
+      throw invalidParameter('Idempotency-Key', 'Idempotency keys are at most 255 characters.');
+    const fingerprint = createHash('sha256')
+      .update(`${request.path}\n${JSON.stringify(request.body ?? {})}`)
+      .digest('hex');
     const now = Date.now();
-    for (const [stored, entry] of idempotency) if (now - entry.at > idempotencyWindowMs) idempotency.delete(stored);
+    for (const [stored, entry] of idempotency)
+      if (now - entry.at > idempotencyWindowMs) idempotency.delete(stored);
     const earlier = idempotency.get(key);
     if (earlier) {
       if (earlier.fingerprint !== fingerprint) {
@@ -379,13 +484,18 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
           `Keys for idempotent requests can only be used with the same parameters they were first used with. Try using a key other than '${key}' if you meant to execute a different request.`,
         );
       }
-      response.set('Idempotent-Replayed', 'true').set('Idempotency-Key', key).status(earlier.status).json(earlier.body);
+      response
+        .set('Idempotent-Replayed', 'true')
+        .set('Idempotency-Key', key)
+        .status(earlier.status)
+        .json(earlier.body);
       return;
     }
     const json = response.json.bind(response);
     response.json = (body: unknown) => {
       // Answers to bad parameters are not kept (the service keeps only requests that began executing).
-      if (response.statusCode < 400 || response.statusCode >= 500) idempotency.set(key, { fingerprint, status: response.statusCode, body, at: now });
+      if (response.statusCode < 400 || response.statusCode >= 500)
+        idempotency.set(key, { fingerprint, status: response.statusCode, body, at: now });
       response.set('Idempotency-Key', key);
       return json(body);
     };
@@ -400,7 +510,11 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
     all.forEach(expireIfDue);
     const paymentIntent = text(query, 'payment_intent');
     const status = text(query, 'status');
-    const filtered = all.filter((session) => (!paymentIntent || session.payment_intent === paymentIntent) && (!status || session.status === status));
+    const filtered = all.filter(
+      (session) =>
+        (!paymentIntent || session.payment_intent === paymentIntent) &&
+        (!status || session.status === status),
+    );
     const page = listPage(filtered, query, '/v1/checkout/sessions');
     response.json({ ...page, data: page.data.map(publicSession) });
   });
@@ -410,7 +524,12 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
   api.post('/v1/checkout/sessions/:id/expire', (request, response) => {
     const session = findSession(request.params['id'] as string);
     if (session.status !== 'open')
-      throw new ServiceError(400, 'invalid_request_error', `Only Checkout Sessions with a status of open can be expired. This Checkout Session has a status of ${session.status}.`, 'checkout_session_not_open');
+      throw new ServiceError(
+        400,
+        'invalid_request_error',
+        `Only Checkout Sessions with a status of open can be expired. This Checkout Session has a status of ${session.status}.`,
+        'checkout_session_not_open',
+      );
     expire(session);
     response.json(publicSession(session));
   });
@@ -420,15 +539,32 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
   api.get('/v1/refunds', (request, response) => {
     const query = request.query as Params;
     const paymentIntent = text(query, 'payment_intent');
-    response.json(listPage(refunds.filter((refund) => !paymentIntent || refund.payment_intent === paymentIntent), query, '/v1/refunds'));
+    response.json(
+      listPage(
+        refunds.filter((refund) => !paymentIntent || refund.payment_intent === paymentIntent),
+        query,
+        '/v1/refunds',
+      ),
+    );
   });
   api.use((request) => {
-    throw new ServiceError(404, 'invalid_request_error', `Unrecognized request URL (${request.method}: ${request.path}).`);
+    throw new ServiceError(
+      404,
+      'invalid_request_error',
+      `Unrecognized request URL (${request.method}: ${request.path}).`,
+    );
   });
   app.use(api);
   app.use((error: unknown, _request: Request, response: Response, _next: NextFunction): void => {
     if (error instanceof ServiceError) return void response.status(error.status).json(error.body());
-    response.status(500).json({ error: { type: 'api_error', message: error instanceof Error ? error.message : 'Something went wrong.' } });
+    response
+      .status(500)
+      .json({
+        error: {
+          type: 'api_error',
+          message: error instanceof Error ? error.message : 'Something went wrong.',
+        },
+      });
   });
 
   const server: Server = createServer(app);

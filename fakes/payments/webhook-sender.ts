@@ -6,7 +6,9 @@ import type { PaymentEvent } from './payment-objects.js';
  * under the endpoint's signing secret>`, the scheme the service publishes for its webhooks.
  */
 export function signatureHeader(payload: string, secret: string, timestamp: number): string {
-  const signature = createHmac('sha256', secret).update(`${timestamp}.${payload}`, 'utf8').digest('hex');
+  const signature = createHmac('sha256', secret)
+    .update(`${timestamp}.${payload}`, 'utf8')
+    .digest('hex');
   return `t=${timestamp},v1=${signature}`;
 }
 
@@ -148,7 +150,11 @@ export class WebhookSender {
           headers: {
             'Content-Type': 'application/json; charset=utf-8',
             'User-Agent': 'tuttiboard-payments-fake/1.0',
-            'Stripe-Signature': signatureHeader(pending.payload, this.options.secret, Math.floor(Date.now() / 1000)),
+            'Stripe-Signature': signatureHeader(
+              pending.payload,
+              this.options.secret,
+              Math.floor(Date.now() / 1000),
+            ),
           },
           body: pending.payload,
           signal: AbortSignal.timeout(10_000),

@@ -13,7 +13,13 @@ function paragraphs(lines: string[]): string {
 export async function queueFeeReceipt(
   tx: Transaction,
   row: LoanRow,
-  entry: { kind: 'payment' | 'refund'; amountCents: number; reference: string | null; reason?: string | null; at: Date },
+  entry: {
+    kind: 'payment' | 'refund';
+    amountCents: number;
+    reference: string | null;
+    reason?: string | null;
+    at: Date;
+  },
 ): Promise<boolean> {
   if (!row.guardianEmail) return false;
   const what = `${instrumentNameOf(row.instrumentType)} (asset tag ${row.assetTag})`;

@@ -30,7 +30,11 @@ function familyOf(instrumentType: string): string | undefined {
 /** The schedule: its entries, the second-loan rule and the waiver reasons. */
 export async function readFeeSchedule(db: Database, onlinePayments: boolean): Promise<FeeSchedule> {
   const entries = await db
-    .select({ scope: feeSchedule.scope, key: feeSchedule.key, yearlyFeeCents: feeSchedule.yearlyFeeCents })
+    .select({
+      scope: feeSchedule.scope,
+      key: feeSchedule.key,
+      yearlyFeeCents: feeSchedule.yearlyFeeCents,
+    })
     .from(feeSchedule)
     .orderBy(feeSchedule.scope, feeSchedule.key);
   const rules = (await readSetting<FeeRules>(db, feeRulesSetting)) ?? {
@@ -56,7 +60,8 @@ export async function writeFeeSchedule(
 ): Promise<FeeSchedule> {
   const seen = new Set<string>();
   input.entries.forEach((entry, index) => {
-    const known = entry.scope === 'family' ? families.includes(entry.key) : familyOf(entry.key) !== undefined;
+    const known =
+      entry.scope === 'family' ? families.includes(entry.key) : familyOf(entry.key) !== undefined;
     if (!known)
       throw badRequest(`The fee schedule names an unknown ${entry.scope}: ${entry.key}.`, [
         { field: `entries.${index}.key`, message: `Pick a known ${entry.scope}.` },
@@ -95,7 +100,10 @@ export async function writeFeeSchedule(
 }
 
 /** Seeds a schedule without an actor (the demo). */
-export async function seedFeeSchedule(db: Database, schedule: Omit<FeeSchedule, 'version'>): Promise<void> {
+export async function seedFeeSchedule(
+  db: Database,
+  schedule: Omit<FeeSchedule, 'version'>,
+): Promise<void> {
   if (schedule.entries.length) await db.insert(feeSchedule).values(schedule.entries);
   await writeSetting(db, feeRulesSetting, {
     additionalLoan: schedule.additionalLoan,
@@ -146,7 +154,8 @@ export async function computeLoanFee(
     .from(loans)
     .innerJoin(students, eq(students.id, loans.studentId))
     .where(and(who, sameYear, ne(loans.state, 'lost'), eq(loans.waiver, false)));
-  if ((earlier?.count ?? 0) === 0) return { feeCents: entry.yearlyFeeCents, basis: `${entry.scope} ${entry.key}` };
+  if ((earlier?.count ?? 0) === 0)
+    return { feeCents: entry.yearlyFeeCents, basis: `${entry.scope} ${entry.key}` };
   return {
     feeCents: Math.round((entry.yearlyFeeCents * rule.percent) / 100),
     basis: `${entry.scope} ${entry.key}, ${rule.percent}% as a further loan of the ${rule.basis}`,

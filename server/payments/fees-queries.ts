@@ -59,7 +59,9 @@ const feeColumns = {
   preferredName: students.preferredName,
   schoolId: loans.schoolId,
   schoolCode: schools.code,
-  schoolYear: sql<string | null>`(select y.name from school_years y where ${loans.checkedOutOn} between y.starts_on and y.ends_on order by y.starts_on desc limit 1)`,
+  schoolYear: sql<
+    string | null
+  >`(select y.name from school_years y where ${loans.checkedOutOn} between y.starts_on and y.ends_on order by y.starts_on desc limit 1)`,
   assetTag: instruments.assetTag,
   instrumentType: instruments.instrumentId,
   checkedOutOn: loans.checkedOutOn,
@@ -109,7 +111,9 @@ function toFeeRow(raw: RawFeeRow, actor: Actor | null): FeeRow {
     owedCents,
     mismatchCents: raw.mismatchCents,
     waived: raw.waived,
-    ...(actor === null || can(actor, 'loans:see-waivers') ? { waiverReason: raw.waiverReason } : {}),
+    ...(actor === null || can(actor, 'loans:see-waivers')
+      ? { waiverReason: raw.waiverReason }
+      : {}),
     status,
   };
 }
@@ -128,8 +132,15 @@ async function selectFeeRows(db: Queryable, where: SQL | undefined): Promise<Raw
 }
 
 /** One loan's fee row (no actor: the guardian's page and the webhook). */
-export async function feeRowOf(db: Queryable, loanId: number, actor: Actor | null = null): Promise<FeeRow> {
-  const [raw] = await selectFeeRows(db, and(eq(loans.id, loanId), actor ? loanScope(actor) : undefined));
+export async function feeRowOf(
+  db: Queryable,
+  loanId: number,
+  actor: Actor | null = null,
+): Promise<FeeRow> {
+  const [raw] = await selectFeeRows(
+    db,
+    and(eq(loans.id, loanId), actor ? loanScope(actor) : undefined),
+  );
   if (!raw) throw notFound('That loan');
   return toFeeRow(raw, actor);
 }
@@ -142,7 +153,9 @@ export async function allFeeRows(db: Database, actor: Actor, query: unknown): Pr
   if (filters.studentId) conditions.push(eq(loans.studentId, filters.studentId));
   if (filters.q) {
     const pattern = likePattern(filters.q);
-    conditions.push(sql`(${instruments.assetTag} ilike ${pattern} or ${students.lastName} ilike ${pattern} or ${students.firstName} ilike ${pattern})`);
+    conditions.push(
+      sql`(${instruments.assetTag} ilike ${pattern} or ${students.lastName} ilike ${pattern} or ${students.firstName} ilike ${pattern})`,
+    );
   }
   let rows = (await selectFeeRows(db, and(...conditions))).map((raw) => toFeeRow(raw, actor));
   if (filters.status) rows = rows.filter((row) => row.status === filters.status);
@@ -171,7 +184,12 @@ export async function listFees(db: Database, actor: Actor, query: unknown): Prom
 }
 
 /** Totals by student, school or school year. */
-export async function summariseFees(db: Database, actor: Actor, by: 'student' | 'school' | 'year', query: unknown) {
+export async function summariseFees(
+  db: Database,
+  actor: Actor,
+  by: 'student' | 'school' | 'year',
+  query: unknown,
+) {
   const rows = await allFeeRows(db, actor, query);
   const groups = new Map<string, { label: string; rows: FeeRow[] }>();
   for (const row of rows) {
@@ -187,14 +205,22 @@ export async function summariseFees(db: Database, actor: Actor, by: 'student' | 
   }
   return {
     by,
-    groups: [...groups.entries()].map(([key, group]) => ({ key, label: group.label, ...totalsOf(group.rows) })),
+    groups: [...groups.entries()].map(([key, group]) => ({
+      key,
+      label: group.label,
+      ...totalsOf(group.rows),
+    })),
   };
 }
 
 /** One loan's ledger and checkout attempts (coordinator and directors). */
 export async function feeDetail(db: Database, actor: Actor, loanId: number): Promise<FeeDetail> {
   const fee = await feeRowOf(db, loanId, actor);
-  const ledger = await db.select().from(feeLedger).where(eq(feeLedger.loanId, loanId)).orderBy(asc(feeLedger.at), asc(feeLedger.id));
+  const ledger = await db
+    .select()
+    .from(feeLedger)
+    .where(eq(feeLedger.loanId, loanId))
+    .orderBy(asc(feeLedger.at), asc(feeLedger.id));
   const attempts = await db
     .select()
     .from(feePaymentAttempts)
@@ -235,4 +261,3 @@ export async function ledgerByIntent(db: Database) {
     })
     .from(feePaymentAttempts);
 }
-

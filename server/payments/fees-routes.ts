@@ -16,7 +16,13 @@ import { stateConflict } from '../instruments/instruments-service';
 import { findLoanRow } from '../loans/loans-queries';
 import { allFeeRows, feeDetail, feeRowOf, listFees, summariseFees } from './fees-queries';
 import { readFeeSchedule, writeFeeSchedule } from './fee-schedule';
-import { handleWebhook, payTokens, reconcile, recordManualPayment, refundFee } from './payments-service';
+import {
+  handleWebhook,
+  payTokens,
+  reconcile,
+  recordManualPayment,
+  refundFee,
+} from './payments-service';
 import { queueFeeReminder } from './fee-mail';
 import { payLinkOf } from './pay-pages';
 
@@ -25,7 +31,21 @@ const summarySchema = z.object({ by: z.enum(['student', 'school', 'year']).defau
 function exportRows(rows: FeeRow[], withReasons: boolean): (string | number)[][] {
   const money = (cents: number) => (cents / 100).toFixed(2);
   return [
-    ['Loan', 'School year', 'School', 'Student', 'Asset tag', 'Instrument', 'Lent on', 'Fee', 'Paid', 'Refunded', 'Owed', 'Status', ...(withReasons ? ['Waiver reason'] : [])],
+    [
+      'Loan',
+      'School year',
+      'School',
+      'Student',
+      'Asset tag',
+      'Instrument',
+      'Lent on',
+      'Fee',
+      'Paid',
+      'Refunded',
+      'Owed',
+      'Status',
+      ...(withReasons ? ['Waiver reason'] : []),
+    ],
     ...rows.map((row) => [
       row.loanId,
       row.schoolYear ?? '',
@@ -81,7 +101,12 @@ export function feesRoutes({ db, config }: Services): Router {
   router.get('/fees/export.xlsx', requires('loans:read'), async (request, response) => {
     const actor = actorOf(request);
     const rows = await allFeeRows(db, actor, request.query);
-    const workbook = await reportWorkbook([{ name: 'Usage fees', rows: exportRows(rows, actor.role === 'coordinator' || actor.role === 'director') }]);
+    const workbook = await reportWorkbook([
+      {
+        name: 'Usage fees',
+        rows: exportRows(rows, actor.role === 'coordinator' || actor.role === 'director'),
+      },
+    ]);
     response
       .type('application/vnd.openxmlformats-officedocument.spreadsheetml.sheet')
       .set('Content-Disposition', 'attachment; filename="usage-fees.xlsx"')
@@ -92,22 +117,36 @@ export function feesRoutes({ db, config }: Services): Router {
   });
   router.post('/fees/:loanId/refunds', requires('fees:manage'), async (request, response) => {
     const input = parseInput(refundInputSchema, request.body, 'The refund');
-    response.json(await refundFee(db, config, actorOf(request), parseId(request.params['loanId']), input));
+    response.json(
+      await refundFee(db, config, actorOf(request), parseId(request.params['loanId']), input),
+    );
   });
   router.post('/fees/:loanId/payments', requires('fees:manage'), async (request, response) => {
     const input = parseInput(manualPaymentInputSchema, request.body, 'The payment');
-    response.status(201).json(await recordManualPayment(db, actorOf(request), parseId(request.params['loanId']), input));
+    response
+      .status(201)
+      .json(
+        await recordManualPayment(db, actorOf(request), parseId(request.params['loanId']), input),
+      );
   });
   router.post('/fees/:loanId/reminder', requires('loans:write'), async (request, response) => {
     const actor = actorOf(request);
     const loanId = parseId(request.params['loanId']);
     const fee = await feeRowOf(db, loanId, actor);
-    if (fee.owedCents <= 0) throw stateConflict(`This loan’s fee is ${fee.status}; there is nothing to remind about.`);
+    if (fee.owedCents <= 0)
+      throw stateConflict(`This loan’s fee is ${fee.status}; there is nothing to remind about.`);
     const token = (await payTokens(db, config))(loanId);
     const queued = await db.transaction(async (tx) => {
       const row = await findLoanRow(tx, null, loanId);
-      const sent = await queueFeeReminder(tx, row, fee.owedCents, online() ? payLinkOf(config.appUrl, token) : undefined, actor.userId);
-      if (sent) await recordAudit(tx, actor, { action: 'fee-reminder', entity: 'loan', entityId: loanId });
+      const sent = await queueFeeReminder(
+        tx,
+        row,
+        fee.owedCents,
+        online() ? payLinkOf(config.appUrl, token) : undefined,
+        actor.userId,
+      );
+      if (sent)
+        await recordAudit(tx, actor, { action: 'fee-reminder', entity: 'loan', entityId: loanId });
       return sent;
     });
     response.json({ queued: queued ? 1 : 0 });
@@ -121,10 +160,20 @@ export function feesRoutes({ db, config }: Services): Router {
  */
 export function paymentsWebhook({ db, config, logger }: Services): Router {
   const router = Router();
-  router.post('/api/payments/webhook', express.raw({ type: () => true, limit: '1mb' }), async (request, response) => {
-    const body = Buffer.isBuffer(request.body) ? request.body : Buffer.alloc(0);
-    const outcome = await handleWebhook(db, config, logger, body, request.get('stripe-signature'));
-    response.set('Cache-Control', 'no-store').json({ received: true, ...outcome });
-  });
+  router.post(
+    '/api/payments/webhook',
+    express.raw({ type: () => true, limit: '1mb' }),
+    async (request, response) => {
+      const body = Buffer.isBuffer(request.body) ? request.body : Buffer.alloc(0);
+      const outcome = await handleWebhook(
+        db,
+        config,
+        logger,
+        body,
+        request.get('stripe-signature'),
+      );
+      response.set('Cache-Control', 'no-store').json({ received: true, ...outcome });
+    },
+  );
   return router;
 }

@@ -25,7 +25,8 @@ const settledWords: Record<string, string> = {
   waived: 'This loan’s usage fee is waived: there is nothing to pay.',
   refunded: 'This loan’s usage fee was refunded by the district: there is nothing to pay.',
   none: 'This loan has no usage fee: there is nothing to pay.',
-  mismatch: 'We received a payment for this loan that the district’s business office needs to check. Please do not pay again; they will contact you.',
+  mismatch:
+    'We received a payment for this loan that the district’s business office needs to check. Please do not pay again; they will contact you.',
 };
 
 /** The "Pay the usage fee" block for the agreement page (empty when nothing is owed or payments are off). */
@@ -51,7 +52,12 @@ export function payPages({ db, config, logger }: Services): Router {
     const token = String(request.params['token'] ?? '');
     const loanId = await loanOfPayToken(db, config, token);
     if (loanId === undefined) {
-      page(response, 404, 'This link is not valid', '<p>This payment link is not one we know. Check that the whole address from the e-mail was copied, or ask the school’s music director.</p>');
+      page(
+        response,
+        404,
+        'This link is not valid',
+        '<p>This payment link is not one we know. Check that the whole address from the e-mail was copied, or ask the school’s music director.</p>',
+      );
       return undefined;
     }
     return { token, loanId, fee: await feeRowOf(db, loanId) };
@@ -62,11 +68,29 @@ export function payPages({ db, config, logger }: Services): Router {
     if (!found) return;
     const { fee, token } = found;
     if (fee.owedCents <= 0)
-      return page(response, 200, 'Instrument usage fee', `${feeSummary(fee)}<p>${escapeHtml(settledWords[fee.status] ?? 'There is nothing to pay.')}</p>`);
-    const cancelled = request.query['cancelled'] === '1' ? '<p class="small">The payment was not made. You can try again when you are ready.</p>' : '';
+      return page(
+        response,
+        200,
+        'Instrument usage fee',
+        `${feeSummary(fee)}<p>${escapeHtml(settledWords[fee.status] ?? 'There is nothing to pay.')}</p>`,
+      );
+    const cancelled =
+      request.query['cancelled'] === '1'
+        ? '<p class="small">The payment was not made. You can try again when you are ready.</p>'
+        : '';
     if (!online())
-      return page(response, 200, 'Instrument usage fee', `${feeSummary(fee)}<p>The usage fee is <strong>${escapeHtml(formatCents(fee.owedCents))}</strong>. Please pay it to the school’s music director.</p>`);
-    page(response, 200, 'Instrument usage fee', `${feeSummary(fee)}${cancelled}${payOffer(fee, `/pay/${token}`, true)}`);
+      return page(
+        response,
+        200,
+        'Instrument usage fee',
+        `${feeSummary(fee)}<p>The usage fee is <strong>${escapeHtml(formatCents(fee.owedCents))}</strong>. Please pay it to the school’s music director.</p>`,
+      );
+    page(
+      response,
+      200,
+      'Instrument usage fee',
+      `${feeSummary(fee)}${cancelled}${payOffer(fee, `/pay/${token}`, true)}`,
+    );
   });
 
   router.post('/pay/:token', async (request, response) => {
@@ -79,14 +103,30 @@ export function payPages({ db, config, logger }: Services): Router {
         success: `${base}/done?session_id={CHECKOUT_SESSION_ID}`,
         cancel: `${base}?cancelled=1`,
       });
-      if (outcome.state === 'redirect') return response.set('Referrer-Policy', 'no-referrer').redirect(303, outcome.url);
+      if (outcome.state === 'redirect')
+        return response.set('Referrer-Policy', 'no-referrer').redirect(303, outcome.url);
       if (outcome.state === 'disabled')
-        return page(response, 409, 'Instrument usage fee', `${feeSummary(fee)}<p>Online payment is not offered. Please pay the school’s music director.</p>`);
-      return page(response, 409, 'Nothing to pay', `${feeSummary(fee)}<p>${escapeHtml(settledWords[outcome.status] ?? 'There is nothing to pay.')}</p>`);
+        return page(
+          response,
+          409,
+          'Instrument usage fee',
+          `${feeSummary(fee)}<p>Online payment is not offered. Please pay the school’s music director.</p>`,
+        );
+      return page(
+        response,
+        409,
+        'Nothing to pay',
+        `${feeSummary(fee)}<p>${escapeHtml(settledWords[outcome.status] ?? 'There is nothing to pay.')}</p>`,
+      );
     } catch (error) {
       if (error instanceof HttpError && error.status === 503) {
         logger.warn({ loanId }, 'Payments unavailable: could not open a checkout session');
-        return page(response, 503, 'Payments are unavailable, try later', `${feeSummary(fee)}<p class="error">Payments are unavailable, try later. Nothing was charged.</p>`);
+        return page(
+          response,
+          503,
+          'Payments are unavailable, try later',
+          `${feeSummary(fee)}<p class="error">Payments are unavailable, try later. Nothing was charged.</p>`,
+        );
       }
       throw error;
     }
@@ -97,7 +137,12 @@ export function payPages({ db, config, logger }: Services): Router {
     if (!found) return;
     const { fee } = found;
     if (fee.status === 'paid')
-      return page(response, 200, 'Thank you: the usage fee is paid', `${feeSummary(fee)}<p>We received ${escapeHtml(formatCents(fee.paidCents - fee.refundedCents))}. A receipt is on its way by e-mail. You may close this page.</p>`);
+      return page(
+        response,
+        200,
+        'Thank you: the usage fee is paid',
+        `${feeSummary(fee)}<p>We received ${escapeHtml(formatCents(fee.paidCents - fee.refundedCents))}. A receipt is on its way by e-mail. You may close this page.</p>`,
+      );
     page(
       response,
       200,

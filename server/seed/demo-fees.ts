@@ -27,7 +27,13 @@ export async function seedDemoFees(tx: Transaction): Promise<void> {
   const { version: _version, entries: _entries, ...rules } = demoSchedule;
   await tx.insert(appSettings).values({ key: 'fee-rules', value: { ...rules, version: 1 } });
   const owing = await tx
-    .select({ id: loans.id, schoolId: loans.schoolId, fee: loans.usageFeeCents, state: loans.state, checkedOutOn: loans.checkedOutOn })
+    .select({
+      id: loans.id,
+      schoolId: loans.schoolId,
+      fee: loans.usageFeeCents,
+      state: loans.state,
+      checkedOutOn: loans.checkedOutOn,
+    })
     .from(loans)
     .where(and(eq(loans.waiver, false), gt(loans.usageFeeCents, 0)))
     .orderBy(loans.id);

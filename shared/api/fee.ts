@@ -4,7 +4,15 @@ import { z } from 'zod';
 export const feeScopes = ['family', 'instrument'] as const;
 
 /** How a loan's usage fee stands. */
-export const feeStatuses = ['none', 'owed', 'part-paid', 'paid', 'waived', 'refunded', 'mismatch'] as const;
+export const feeStatuses = [
+  'none',
+  'owed',
+  'part-paid',
+  'paid',
+  'waived',
+  'refunded',
+  'mismatch',
+] as const;
 export type FeeStatus = (typeof feeStatuses)[number];
 
 /** Kinds of ledger entries: money in, money out, and money in that did not match the fee. */

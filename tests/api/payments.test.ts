@@ -17,7 +17,11 @@ async function query<Row>(text: ReturnType<typeof sql>): Promise<Row[]> {
   return rowsOf<Row>(await app.database.db.execute(text));
 }
 
-async function until<T>(what: string, check: () => Promise<T | undefined | false>, timeoutMs = 10_000): Promise<T> {
+async function until<T>(
+  what: string,
+  check: () => Promise<T | undefined | false>,
+  timeoutMs = 10_000,
+): Promise<T> {
   const started = Date.now();
   for (;;) {
     const value = await check();
@@ -51,7 +55,11 @@ async function lend(instrumentId = 'tuba', studentId?: number) {
     sql`select text, html from outbox_messages where related_type = 'loan' and related_id = ${loan.body.id} and kind = 'loan-agreement'`,
   );
   const token = /\/pay\/(\d+-[A-Za-z0-9_-]{32})/.exec(message?.text ?? '')?.[1];
-  return { loan: loan.body as { id: number; usageFeeCents: number; studentId: number }, token: token!, message: message! };
+  return {
+    loan: loan.body as { id: number; usageFeeCents: number; studentId: number },
+    token: token!,
+    message: message!,
+  };
 }
 
 /** Presses "Pay the usage fee": answers the hosted page's address. */
@@ -64,15 +72,29 @@ async function startPaying(token: string): Promise<string> {
 /** Pays on the fake's hosted page as a guardian would, with a card number typed with spaces. */
 async function payOnHostedPage(hostedUrl: string, card: string) {
   const url = new URL(hostedUrl);
-  return request(url.origin).post(url.pathname).type('form').send({ card, expiry: '12 / 34', cvc: '123' });
+  return request(url.origin)
+    .post(url.pathname)
+    .type('form')
+    .send({ card, expiry: '12 / 34', cvc: '123' });
 }
 
 async function fee(loanId: number) {
   const response = await coordinator.get(`/api/fees/${loanId}`);
   expect(response.status).toBe(200);
   return response.body as {
-    fee: { status: string; paidCents: number; refundedCents: number; owedCents: number; mismatchCents: number };
-    ledger: { kind: string; amountCents: number; reference: string | null; reason: string | null }[];
+    fee: {
+      status: string;
+      paidCents: number;
+      refundedCents: number;
+      owedCents: number;
+      mismatchCents: number;
+    };
+    ledger: {
+      kind: string;
+      amountCents: number;
+      reference: string | null;
+      reason: string | null;
+    }[];
     attempts: { attempt: number; sessionId: string; status: string; note: string | null }[];
   };
 }
@@ -140,7 +162,11 @@ describe('paying through the hosted page', () => {
     const session = app.payments.sessions().find((each) => each.id === sessionIdOf(hosted))!;
     expect(session.amount_total).toBe(4500);
     expect(session.currency).toBe('usd');
-    expect(session.metadata).toEqual({ loanId: String(loan.id), studentId: String(loan.studentId), attempt: '1' });
+    expect(session.metadata).toEqual({
+      loanId: String(loan.id),
+      studentId: String(loan.studentId),
+      attempt: '1',
+    });
     const page = await request(new URL(hosted).origin).get(new URL(hosted).pathname);
     expect(page.text).toContain('Card number');
 
@@ -149,14 +175,20 @@ describe('paying through the hosted page', () => {
     expect(paid.status).toBe(303);
     expect(paid.headers['location']).toBe(`${app.url}/pay/${token}/done?session_id=${session.id}`);
     // Back on our result page before the event: not yet counted.
-    expect((await app.anonymous.get(`/pay/${token}/done?session_id=${session.id}`)).text).toContain('being confirmed');
+    expect((await app.anonymous.get(`/pay/${token}/done?session_id=${session.id}`)).text).toContain(
+      'being confirmed',
+    );
     expect((await fee(loan.id)).fee.status).toBe('owed');
     app.payments.releaseWebhooks();
     await until('the payment', async () => (await fee(loan.id)).fee.status === 'paid');
     expect((await app.anonymous.get(`/pay/${token}/done`)).text).toContain('the usage fee is paid');
     const detail = await fee(loan.id);
-    expect(detail.ledger).toEqual([expect.objectContaining({ kind: 'payment', amountCents: 4500 })]);
-    const receipts = await query<{ subject: string }>(sql`select subject from outbox_messages where related_id = ${loan.id} and kind = 'fee-receipt'`);
+    expect(detail.ledger).toEqual([
+      expect.objectContaining({ kind: 'payment', amountCents: 4500 }),
+    ]);
+    const receipts = await query<{ subject: string }>(
+      sql`select subject from outbox_messages where related_id = ${loan.id} and kind = 'fee-receipt'`,
+    );
     expect(receipts).toHaveLength(1);
 
     const sessionsBefore = app.payments.sessions().length;
@@ -190,15 +222,34 @@ describe('paying through the hosted page', () => {
   });
 
   it('should refuse a waived loan without opening a session', async () => {
-    const instrument = await coordinator.post('/api/instruments', { assetTag: `TEST-PAY-${(tagNumber += 1)}`, instrumentId: 'flute', homeSchoolId: hpmsId });
-    const [student] = await query<{ id: number }>(sql`select s.id from students s where s.school_id = ${hpmsId} and s.status = 'active' and s.guardian_email is not null and not exists (select 1 from loans l where l.student_id = s.id) order by s.id limit 1`);
-    const loan = await director.post('/api/loans', { instrumentId: instrument.body.id, studentId: student!.id, conditionOut: 'good', waiver: true, waiverReason: 'Free or reduced-price meals' });
+    const instrument = await coordinator.post('/api/instruments', {
+      assetTag: `TEST-PAY-${(tagNumber += 1)}`,
+      instrumentId: 'flute',
+      homeSchoolId: hpmsId,
+    });
+    const [student] = await query<{ id: number }>(
+      sql`select s.id from students s where s.school_id = ${hpmsId} and s.status = 'active' and s.guardian_email is not null and not exists (select 1 from loans l where l.student_id = s.id) order by s.id limit 1`,
+    );
+    const loan = await director.post('/api/loans', {
+      instrumentId: instrument.body.id,
+      studentId: student!.id,
+      conditionOut: 'good',
+      waiver: true,
+      waiverReason: 'Free or reduced-price meals',
+    });
     expect(loan.status).toBe(201);
-    const [message] = await query<{ text: string }>(sql`select text from outbox_messages where related_id = ${loan.body.id} and kind = 'loan-agreement'`);
+    const [message] = await query<{ text: string }>(
+      sql`select text from outbox_messages where related_id = ${loan.body.id} and kind = 'loan-agreement'`,
+    );
     expect(message!.text).not.toContain('/pay/');
     const before = app.payments.sessions().length;
-    const tokens = await import('../../server/payments/payments-service').then((module) => module.payTokens(app.database.db, app.config));
-    const refused = await app.anonymous.post(`/pay/${tokens(loan.body.id)}`).type('form').send({});
+    const tokens = await import('../../server/payments/payments-service').then((module) =>
+      module.payTokens(app.database.db, app.config),
+    );
+    const refused = await app.anonymous
+      .post(`/pay/${tokens(loan.body.id)}`)
+      .type('form')
+      .send({});
     expect(refused.status).toBe(409);
     expect(refused.text).toContain('waived');
     expect(app.payments.sessions()).toHaveLength(before);
@@ -211,31 +262,51 @@ describe('webhooks', () => {
     const hosted = await startPaying(token);
     await payOnHostedPage(hosted, '4242424242424242');
     await until('the payment', async () => (await fee(loan.id)).fee.status === 'paid');
-    const event = app.payments.events().find((each) => each.type === 'checkout.session.completed' && (each.data.object as { id: string }).id === sessionIdOf(hosted))!;
+    const event = app.payments
+      .events()
+      .find(
+        (each) =>
+          each.type === 'checkout.session.completed' &&
+          (each.data.object as { id: string }).id === sessionIdOf(hosted),
+      )!;
     expect(app.payments.resendEvent(event.id)).toBe(true);
     await app.payments.webhooksSettled();
     const replays = app.payments.deliveries().filter((delivery) => delivery.eventId === event.id);
     expect(replays.map((delivery) => delivery.status)).toEqual([200, 200]);
     expect((await fee(loan.id)).ledger).toHaveLength(1);
-    const receipts = await query<{ id: number }>(sql`select id from outbox_messages where related_id = ${loan.id} and kind = 'fee-receipt'`);
+    const receipts = await query<{ id: number }>(
+      sql`select id from outbox_messages where related_id = ${loan.id} and kind = 'fee-receipt'`,
+    );
     expect(receipts).toHaveLength(1);
   });
 
   it('should answer 400 and write nothing for a missing, forged or stale signature', async () => {
-    const before = await query<{ count: number }>(sql`select count(*)::int as count from payment_events`);
-    const payload = JSON.stringify({ id: 'evt_forged', object: 'event', type: 'checkout.session.completed', data: { object: { id: 'cs_x' } } });
+    const before = await query<{ count: number }>(
+      sql`select count(*)::int as count from payment_events`,
+    );
+    const payload = JSON.stringify({
+      id: 'evt_forged',
+      object: 'event',
+      type: 'checkout.session.completed',
+      data: { object: { id: 'cs_x' } },
+    });
     const now = Math.floor(Date.now() / 1000);
     // The service's published scheme: v1 = hex HMAC-SHA256 of "<t>.<payload>" under the endpoint secret.
-    const sign = (secret: string, t: number) => `t=${t},v1=${createHmac('sha256', secret).update(`${t}.${payload}`).digest('hex')}`;
+    const sign = (secret: string, t: number) =>
+      `t=${t},v1=${createHmac('sha256', secret).update(`${t}.${payload}`).digest('hex')}`;
     const post = (signature?: string) => {
-      const call = app.anonymous.post('/api/payments/webhook').set('Content-Type', 'application/json');
+      const call = app.anonymous
+        .post('/api/payments/webhook')
+        .set('Content-Type', 'application/json');
       return (signature ? call.set('Stripe-Signature', signature) : call).send(payload);
     };
     expect((await post()).status).toBe(400);
     expect((await post(sign('whsec_not_the_secret', now))).status).toBe(400);
     // The SDK's default tolerance is 300 seconds; ten minutes old is stale.
     expect((await post(sign(app.payments.webhookSecret, now - 600))).status).toBe(400);
-    const after = await query<{ count: number }>(sql`select count(*)::int as count from payment_events`);
+    const after = await query<{ count: number }>(
+      sql`select count(*)::int as count from payment_events`,
+    );
     expect(after[0]!.count).toBe(before[0]!.count);
     // The same payload correctly signed now is taken (and names no session of ours).
     const taken = await post(sign(app.payments.webhookSecret, now));
@@ -246,9 +317,17 @@ describe('webhooks', () => {
   it('should sign events so that the SDK itself accepts them', async () => {
     const event = app.payments.events().at(-1)!;
     const payload = JSON.stringify(event, null, 2);
-    const header = (await import('../../fakes/payments/index')).signatureHeader(payload, app.payments.webhookSecret, Math.floor(Date.now() / 1000));
+    const header = (await import('../../fakes/payments/index')).signatureHeader(
+      payload,
+      app.payments.webhookSecret,
+      Math.floor(Date.now() / 1000),
+    );
     // Independent check: the SDK's own verifier (stripe-node Webhooks.constructEvent).
-    const verified = new Stripe('sk_test_unused').webhooks.constructEvent(payload, header, app.payments.webhookSecret);
+    const verified = new Stripe('sk_test_unused').webhooks.constructEvent(
+      payload,
+      header,
+      app.payments.webhookSecret,
+    );
     expect(verified.id).toBe(event.id);
   });
 
@@ -260,11 +339,23 @@ describe('webhooks', () => {
       id: `evt_mismatch_${loan.id}`,
       object: 'event',
       type: 'checkout.session.completed',
-      data: { object: { ...session, status: 'complete', payment_status: 'paid', amount_total: 100, payment_intent: `pi_mismatch_${loan.id}` } },
+      data: {
+        object: {
+          ...session,
+          status: 'complete',
+          payment_status: 'paid',
+          amount_total: 100,
+          payment_intent: `pi_mismatch_${loan.id}`,
+        },
+      },
     });
     const t = Math.floor(Date.now() / 1000);
     const signature = `t=${t},v1=${createHmac('sha256', app.payments.webhookSecret).update(`${t}.${payload}`).digest('hex')}`;
-    const answer = await app.anonymous.post('/api/payments/webhook').set('Content-Type', 'application/json').set('Stripe-Signature', signature).send(payload);
+    const answer = await app.anonymous
+      .post('/api/payments/webhook')
+      .set('Content-Type', 'application/json')
+      .set('Stripe-Signature', signature)
+      .send(payload);
     expect(answer.status).toBe(200);
     const detail = await fee(loan.id);
     expect(detail.fee.status).toBe('mismatch');
@@ -281,7 +372,12 @@ describe('two tabs', () => {
     const [first, second] = [await startPaying(token), await startPaying(token)];
     expect(sessionIdOf(first)).not.toBe(sessionIdOf(second));
     await payOnHostedPage(first, '4242424242424242');
-    await until('the other session expired', async () => app.payments.sessions().find((each) => each.id === sessionIdOf(second))?.status === 'expired');
+    await until(
+      'the other session expired',
+      async () =>
+        app.payments.sessions().find((each) => each.id === sessionIdOf(second))?.status ===
+        'expired',
+    );
     const detail = await until('the ledger', async () => {
       const current = await fee(loan.id);
       return current.attempts[1]?.status === 'superseded' && current;
@@ -304,36 +400,87 @@ describe('two tabs', () => {
     });
     expect(detail.fee.status).toBe('paid');
     expect(detail.fee.paidCents - detail.fee.refundedCents).toBe(4500);
-    expect(detail.attempts.map((attempt) => attempt.status).sort()).toEqual(['duplicate-refunded', 'paid']);
-    expect(detail.ledger.find((entry) => entry.kind === 'refund')!.reason).toMatch(/Duplicate payment refunded automatically/);
-    expect(app.payments.refunds().filter((refund) => refund.metadata['loanId'] === String(loan.id))).toHaveLength(1);
+    expect(detail.attempts.map((attempt) => attempt.status).sort()).toEqual([
+      'duplicate-refunded',
+      'paid',
+    ]);
+    expect(detail.ledger.find((entry) => entry.kind === 'refund')!.reason).toMatch(
+      /Duplicate payment refunded automatically/,
+    );
+    expect(
+      app.payments.refunds().filter((refund) => refund.metadata['loanId'] === String(loan.id)),
+    ).toHaveLength(1);
   });
 });
 
 describe('the business office', () => {
+  it('should e-mail an unpaid-fee reminder with the pay link, and refuse one for a paid fee', async () => {
+    const { loan, token } = await lend('trombone');
+    const reminded = await director.post(`/api/fees/${loan.id}/reminder`);
+    expect(reminded.status).toBe(200);
+    expect(reminded.body.queued).toBe(1);
+    const [reminder] = await query<{ text: string; html: string }>(
+      sql`select text, html from outbox_messages where related_id = ${loan.id} and kind = 'fee-reminder'`,
+    );
+    expect(reminder!.text).toContain(`/pay/${token}`);
+    expect(reminder!.html).toContain('Pay the usage fee');
+    await payOnHostedPage(await startPaying(token), '4242424242424242');
+    await until('the payment', async () => (await fee(loan.id)).fee.status === 'paid');
+    expect((await director.post(`/api/fees/${loan.id}/reminder`)).status).toBe(409);
+  });
+
   it('should refund part of a payment through the service, once, with a receipt', async () => {
     const { loan, token } = await lend('trombone');
     await payOnHostedPage(await startPaying(token), '4242424242424242');
     await until('the payment', async () => (await fee(loan.id)).fee.status === 'paid');
-    expect((await director.post(`/api/fees/${loan.id}/refunds`, { amountCents: 1000, reason: 'Returned early' })).status).toBe(403);
-    expect((await coordinator.post(`/api/fees/${loan.id}/refunds`, { amountCents: 999_999, reason: 'Too much' })).status).toBe(400);
-    const refunded = await coordinator.post(`/api/fees/${loan.id}/refunds`, { amountCents: 1500, reason: 'Returned in January' });
+    expect(
+      (
+        await director.post(`/api/fees/${loan.id}/refunds`, {
+          amountCents: 1000,
+          reason: 'Returned early',
+        })
+      ).status,
+    ).toBe(403);
+    expect(
+      (
+        await coordinator.post(`/api/fees/${loan.id}/refunds`, {
+          amountCents: 999_999,
+          reason: 'Too much',
+        })
+      ).status,
+    ).toBe(400);
+    const refunded = await coordinator.post(`/api/fees/${loan.id}/refunds`, {
+      amountCents: 1500,
+      reason: 'Returned in January',
+    });
     expect(refunded.status).toBe(200);
     expect(refunded.body.refundedCents).toBe(1500);
     expect(refunded.body.status).toBe('refunded');
     await app.payments.webhooksSettled();
     const detail = await fee(loan.id);
-    expect(detail.ledger.filter((entry) => entry.kind === 'refund')).toEqual([expect.objectContaining({ amountCents: 1500, reason: 'Returned in January' })]);
-    expect(app.payments.refunds().find((refund) => refund.id === detail.ledger[1]!.reference)!.amount).toBe(1500);
-    const receipts = await query<{ subject: string }>(sql`select subject from outbox_messages where related_id = ${loan.id} and kind = 'fee-receipt' order by id`);
+    expect(detail.ledger.filter((entry) => entry.kind === 'refund')).toEqual([
+      expect.objectContaining({ amountCents: 1500, reason: 'Returned in January' }),
+    ]);
+    expect(
+      app.payments.refunds().find((refund) => refund.id === detail.ledger[1]!.reference)!.amount,
+    ).toBe(1500);
+    const receipts = await query<{ subject: string }>(
+      sql`select subject from outbox_messages where related_id = ${loan.id} and kind = 'fee-receipt' order by id`,
+    );
     expect(receipts.map((receipt) => receipt.subject.split(':')[0])).toEqual(['Receipt', 'Refund']);
   });
 
   it('should reconcile the service against the ledger and flag a payment missing from it', async () => {
     const reconciliation = await coordinator.get('/api/fees/reconciliation');
     expect(reconciliation.status).toBe(200);
-    const paidSessions = app.payments.sessions().filter((session) => session.payment_status === 'paid');
-    expect(reconciliation.body.rows.filter((row: { sessionId: string }) => paidSessions.some((session) => session.id === row.sessionId))).toHaveLength(paidSessions.length);
+    const paidSessions = app.payments
+      .sessions()
+      .filter((session) => session.payment_status === 'paid');
+    expect(
+      reconciliation.body.rows.filter((row: { sessionId: string }) =>
+        paidSessions.some((session) => session.id === row.sessionId),
+      ),
+    ).toHaveLength(paidSessions.length);
     expect(reconciliation.body.rows.every((row: { ok: boolean }) => row.ok)).toBe(true);
     expect(reconciliation.body.mismatches).toBe(0);
     // A payment the service took whose event has not reached us yet is flagged.
@@ -343,9 +490,14 @@ describe('the business office', () => {
     await payOnHostedPage(hosted, '4242424242424242');
     const flagged = (await coordinator.get('/api/fees/reconciliation')).body;
     expect(flagged.mismatches).toBe(1);
-    expect(flagged.rows.find((row: { sessionId: string }) => row.sessionId === sessionIdOf(hosted))).toMatchObject({ ok: false, ledgerPaidCents: 0, serviceAmountCents: 4500 });
+    expect(
+      flagged.rows.find((row: { sessionId: string }) => row.sessionId === sessionIdOf(hosted)),
+    ).toMatchObject({ ok: false, ledgerPaidCents: 0, serviceAmountCents: 4500 });
     app.payments.releaseWebhooks();
-    await until('the ledger to catch up', async () => (await coordinator.get('/api/fees/reconciliation')).body.mismatches === 0);
+    await until(
+      'the ledger to catch up',
+      async () => (await coordinator.get('/api/fees/reconciliation')).body.mismatches === 0,
+    );
     expect((await director.get('/api/fees/reconciliation')).status).toBe(403);
   });
 
@@ -358,11 +510,14 @@ describe('the business office', () => {
     const csv = await coordinator.get('/api/fees/export.csv');
     expect(csv.status).toBe(200);
     expect(csv.text.split('\r\n')[0]).toContain('Waiver reason');
-    const xlsx = await coordinator.get('/api/fees/export.xlsx').buffer(true).parse((response, done) => {
-      const chunks: Buffer[] = [];
-      response.on('data', (chunk: Buffer) => chunks.push(chunk));
-      response.on('end', () => done(null, Buffer.concat(chunks)));
-    });
+    const xlsx = await coordinator
+      .get('/api/fees/export.xlsx')
+      .buffer(true)
+      .parse((response, done) => {
+        const chunks: Buffer[] = [];
+        response.on('data', (chunk: Buffer) => chunks.push(chunk));
+        response.on('end', () => done(null, Buffer.concat(chunks)));
+      });
     // An XLSX file is a ZIP archive (ECMA-376 Part 2): it starts with the local file header "PK\x03\x04".
     expect((xlsx.body as Buffer).subarray(0, 4)).toEqual(Buffer.from([0x50, 0x4b, 0x03, 0x04]));
   });
@@ -387,7 +542,9 @@ describe('the demo district', () => {
     for (const status of ['paid', 'waived', 'owed', 'refunded']) {
       const list = await coordinator.get(`/api/fees?status=${status}&limit=500`);
       expect(list.status).toBe(200);
-      const demoRows = (list.body.rows as { assetTag: string }[]).filter((row) => !row.assetTag.startsWith('TEST-'));
+      const demoRows = (list.body.rows as { assetTag: string }[]).filter(
+        (row) => !row.assetTag.startsWith('TEST-'),
+      );
       statuses.set(status, demoRows.length);
     }
     expect(statuses.get('paid')).toBeGreaterThan(0);
@@ -403,16 +560,37 @@ describe('without PAYMENTS_SECRET_KEY', () => {
     try {
       const coordinatorOffline = await offline.signIn(demoEmail('coordinator'));
       expect((await coordinatorOffline.get('/api/fees/schedule')).body.onlinePayments).toBe(false);
-      const instrument = await coordinatorOffline.post('/api/instruments', { assetTag: 'TEST-OFFLINE-1', instrumentId: 'trombone', homeSchoolId: hpmsId });
-      const [student] = rowsOf<{ id: number }>(await offline.database.db.execute(sql`select s.id from students s where s.school_id = ${hpmsId} and s.status = 'active' and s.guardian_email is not null and not exists (select 1 from loans l where l.student_id = s.id) order by s.id limit 1`));
-      const loan = await coordinatorOffline.post('/api/loans', { instrumentId: instrument.body.id, studentId: student!.id, conditionOut: 'good' });
+      const instrument = await coordinatorOffline.post('/api/instruments', {
+        assetTag: 'TEST-OFFLINE-1',
+        instrumentId: 'trombone',
+        homeSchoolId: hpmsId,
+      });
+      const [student] = rowsOf<{ id: number }>(
+        await offline.database.db.execute(
+          sql`select s.id from students s where s.school_id = ${hpmsId} and s.status = 'active' and s.guardian_email is not null and not exists (select 1 from loans l where l.student_id = s.id) order by s.id limit 1`,
+        ),
+      );
+      const loan = await coordinatorOffline.post('/api/loans', {
+        instrumentId: instrument.body.id,
+        studentId: student!.id,
+        conditionOut: 'good',
+      });
       expect(loan.status).toBe(201);
-      const [message] = rowsOf<{ text: string }>(await offline.database.db.execute(sql`select text from outbox_messages where related_id = ${loan.body.id} and kind = 'loan-agreement'`));
+      const [message] = rowsOf<{ text: string }>(
+        await offline.database.db.execute(
+          sql`select text from outbox_messages where related_id = ${loan.body.id} and kind = 'loan-agreement'`,
+        ),
+      );
       expect(message!.text).not.toContain('/pay/');
       const token = /\/agreements\/([A-Za-z0-9_-]+)/.exec(message!.text)![1]!;
-      expect((await offline.anonymous.get(`/agreements/${token}`)).text).not.toContain('Pay the usage fee');
+      expect((await offline.anonymous.get(`/agreements/${token}`)).text).not.toContain(
+        'Pay the usage fee',
+      );
       // Fees by hand, as before.
-      const byHand = await coordinatorOffline.post(`/api/fees/${loan.body.id}/payments`, { amountCents: 4500, note: 'Cheque 2231' });
+      const byHand = await coordinatorOffline.post(`/api/fees/${loan.body.id}/payments`, {
+        amountCents: 4500,
+        note: 'Cheque 2231',
+      });
       expect(byHand.status).toBe(201);
       expect(byHand.body.status).toBe('paid');
     } finally {

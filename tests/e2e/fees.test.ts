@@ -10,7 +10,10 @@ let coordinator: SignedInClient;
 
 beforeAll(async () => {
   [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-  [director, coordinator] = await Promise.all([app.signIn(demoEmail('director.hpms')), app.signIn(demoEmail('coordinator'))]);
+  [director, coordinator] = await Promise.all([
+    app.signIn(demoEmail('director.hpms')),
+    app.signIn(demoEmail('coordinator')),
+  ]);
 });
 afterAll(async () => {
   await browser?.close();
@@ -23,9 +26,15 @@ describe('a guardian pays the usage fee online', () => {
   it('should sign from the mailbox link, pay with the test card on the hosted page, and show on the Fees screen', async () => {
     const schools = await coordinator.get('/api/schools?code=HPMS');
     const hpmsId = schools.body.rows[0].id as number;
-    const instrument = await coordinator.post('/api/instruments', { assetTag: 'MB-E2E-PAY-1', instrumentId: 'trumpet', homeSchoolId: hpmsId });
+    const instrument = await coordinator.post('/api/instruments', {
+      assetTag: 'MB-E2E-PAY-1',
+      instrumentId: 'trumpet',
+      homeSchoolId: hpmsId,
+    });
     expect(instrument.status).toBe(201);
-    const students = await coordinator.get(`/api/students?schoolId=${hpmsId}&status=active&limit=200`);
+    const students = await coordinator.get(
+      `/api/students?schoolId=${hpmsId}&status=active&limit=200`,
+    );
     let studentId = 0;
     for (const student of students.body.rows as { id: number; guardianEmail: string | null }[]) {
       if (!student.guardianEmail) continue;
@@ -35,14 +44,20 @@ describe('a guardian pays the usage fee online', () => {
         break;
       }
     }
-    const loan = await director.post('/api/loans', { instrumentId: instrument.body.id, studentId, conditionOut: 'good' });
+    const loan = await director.post('/api/loans', {
+      instrumentId: instrument.body.id,
+      studentId,
+      conditionOut: 'good',
+    });
     expect(loan.status).toBe(201);
 
     const { context, outside } = await localOnlyContext(browser);
     const page = await context.newPage();
     // The guardian opens the agreement e-mail in the local mailbox.
     await page.goto(app.mail.httpUrl);
-    const subject = page.getByRole('link', { name: /Please sign the instrument loan agreement/ }).first();
+    const subject = page
+      .getByRole('link', { name: /Please sign the instrument loan agreement/ })
+      .first();
     await subject.waitFor(patient);
     await subject.click();
     await page.getByRole('link', { name: 'Text', exact: true }).click();
@@ -66,7 +81,10 @@ describe('a guardian pays the usage fee online', () => {
     await page.getByLabel('Security code').fill('123');
     await saveScreenshot(page, 'fees-hosted-payment-page');
     await page.getByRole('button', { name: /^Pay USD 45\.00$/ }).click();
-    await page.waitForURL((url) => url.origin === app.url && url.pathname.endsWith('/done'), patient);
+    await page.waitForURL(
+      (url) => url.origin === app.url && url.pathname.endsWith('/done'),
+      patient,
+    );
     await page.getByRole('heading', { name: /Thank you/ }).waitFor(patient);
     await saveScreenshot(page, 'fees-guardian-result');
 

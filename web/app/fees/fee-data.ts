@@ -25,7 +25,9 @@ export class FeeLedger {
   private readonly http = inject(HttpClient);
 
   list(query: Record<string, string | number>): Observable<FeeList> {
-    return this.http.get('/api/fees', { params: new HttpParams({ fromObject: query }) }).pipe(parsedWith(feeListSchema));
+    return this.http
+      .get('/api/fees', { params: new HttpParams({ fromObject: query }) })
+      .pipe(parsedWith(feeListSchema));
   }
 
   summary(by: FeeSummary['by'], query: Record<string, string | number>): Observable<FeeSummary> {
@@ -43,11 +45,15 @@ export class FeeLedger {
   }
 
   recordPayment(loanId: number, amountCents: number, note: string): Observable<FeeRow> {
-    return this.http.post(`/api/fees/${loanId}/payments`, { amountCents, note }).pipe(parsedWith(feeRowSchema));
+    return this.http
+      .post(`/api/fees/${loanId}/payments`, { amountCents, note })
+      .pipe(parsedWith(feeRowSchema));
   }
 
   remind(loanId: number): Observable<ReminderResult> {
-    return this.http.post(`/api/fees/${loanId}/reminder`, {}).pipe(parsedWith(reminderResultSchema));
+    return this.http
+      .post(`/api/fees/${loanId}/reminder`, {})
+      .pipe(parsedWith(reminderResultSchema));
   }
 
   reconciliation(): Observable<Reconciliation> {

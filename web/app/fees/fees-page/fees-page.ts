@@ -103,7 +103,8 @@ export class FeesPage {
       this.summary.set({ kind: 'loading' });
       this.fees.summary(view, this.query()).subscribe({
         next: (value) => this.summary.set({ kind: 'ready', value }),
-        error: (error: unknown) => this.summary.set({ kind: 'error', message: errorMessage(error) }),
+        error: (error: unknown) =>
+          this.summary.set({ kind: 'error', message: errorMessage(error) }),
       });
     }
   }
@@ -141,9 +142,11 @@ export class FeesPage {
 
   protected refund(loanId: number, amountText: string, reason: string): void {
     const amountCents = amountText.trim() ? centsOf(amountText) : undefined;
-    if (amountCents === null) return this.notice.set('Type the amount in dollars, or leave it empty for all of it.');
+    if (amountCents === null)
+      return this.notice.set('Type the amount in dollars, or leave it empty for all of it.');
     this.fees.refund(loanId, { amountCents: amountCents ?? undefined, reason }).subscribe({
-      next: (row) => this.afterChange(loanId, `Refunded: ${money(row.refundedCents)} in all on this loan.`),
+      next: (row) =>
+        this.afterChange(loanId, `Refunded: ${money(row.refundedCents)} in all on this loan.`),
       error: (error: unknown) => this.notice.set(errorMessage(error)),
     });
   }
@@ -159,7 +162,10 @@ export class FeesPage {
 
   protected remind(loanId: number): void {
     this.fees.remind(loanId).subscribe({
-      next: (result) => this.notice.set(result.queued ? 'Reminder queued for the guardian.' : 'No guardian e-mail on the roster.'),
+      next: (result) =>
+        this.notice.set(
+          result.queued ? 'Reminder queued for the guardian.' : 'No guardian e-mail on the roster.',
+        ),
       error: (error: unknown) => this.notice.set(errorMessage(error)),
     });
   }
@@ -168,14 +174,16 @@ export class FeesPage {
     this.reconciliation.set({ kind: 'loading' });
     this.fees.reconciliation().subscribe({
       next: (value) => this.reconciliation.set({ kind: 'ready', value }),
-      error: (error: unknown) => this.reconciliation.set({ kind: 'error', message: errorMessage(error) }),
+      error: (error: unknown) =>
+        this.reconciliation.set({ kind: 'error', message: errorMessage(error) }),
     });
   }
 
   // The schedule editor.
   protected editSchedule(change: (schedule: FeeSchedule) => FeeSchedule): void {
     const current = this.schedule();
-    if (current.kind === 'ready') this.schedule.set({ kind: 'ready', value: change(structuredClone(current.value)) });
+    if (current.kind === 'ready')
+      this.schedule.set({ kind: 'ready', value: change(structuredClone(current.value)) });
   }
 
   protected setEntryFee(index: number, text: string): void {
@@ -189,24 +197,40 @@ export class FeesPage {
 
   protected addEntry(scope: 'family' | 'instrument', key: string, text: string): void {
     const cents = centsOf(text);
-    if (!key.trim() || cents === null) return this.scheduleNotice.set('Name the family or instrument and its yearly fee.');
-    this.editSchedule((schedule) => ({ ...schedule, entries: [...schedule.entries, { scope, key: key.trim(), yearlyFeeCents: cents }] }));
+    if (!key.trim() || cents === null)
+      return this.scheduleNotice.set('Name the family or instrument and its yearly fee.');
+    this.editSchedule((schedule) => ({
+      ...schedule,
+      entries: [...schedule.entries, { scope, key: key.trim(), yearlyFeeCents: cents }],
+    }));
   }
 
   protected removeEntry(index: number): void {
-    this.editSchedule((schedule) => ({ ...schedule, entries: schedule.entries.filter((_entry, at) => at !== index) }));
+    this.editSchedule((schedule) => ({
+      ...schedule,
+      entries: schedule.entries.filter((_entry, at) => at !== index),
+    }));
   }
 
   protected setRule(basis: string, percentText: string): void {
     const percent = Number(percentText);
     this.editSchedule((schedule) => ({
       ...schedule,
-      additionalLoan: basis && Number.isInteger(percent) && percent >= 0 && percent <= 100 ? { basis: basis as 'student' | 'household', percent } : null,
+      additionalLoan:
+        basis && Number.isInteger(percent) && percent >= 0 && percent <= 100
+          ? { basis: basis as 'student' | 'household', percent }
+          : null,
     }));
   }
 
   protected setReasons(text: string): void {
-    this.editSchedule((schedule) => ({ ...schedule, waiverReasons: text.split('\n').map((line) => line.trim()).filter((line) => line.length >= 2) }));
+    this.editSchedule((schedule) => ({
+      ...schedule,
+      waiverReasons: text
+        .split('\n')
+        .map((line) => line.trim())
+        .filter((line) => line.length >= 2),
+    }));
   }
 
   protected saveSchedule(): void {
