@@ -7,7 +7,7 @@ import {
   type FeeRow,
 } from '../../shared/api/fee';
 import { actorOf, requires } from '../core/policy';
-import { parseId, parseInput } from '../core/validate';
+import { nothing, parseId, parseInput } from '../core/validate';
 import { recordAudit } from '../core/audit';
 import type { Services } from '../services';
 import { toCsv } from '../reports/report-csv';
@@ -72,7 +72,8 @@ function exportRows(rows: FeeRow[], withReasons: boolean): (string | number)[][]
 export function feesRoutes({ db, config }: Services): Router {
   const router = Router();
   const online = () => config.payments !== undefined;
-  router.get('/fees/schedule', requires('loans:read'), async (_request, response) => {
+  router.get('/fees/schedule', requires('loans:read'), async (request, response) => {
+    parseInput(nothing, request.query, 'The query');
     response.json(await readFeeSchedule(db, online()));
   });
   router.put('/fees/schedule', requires('fees:manage'), async (request, response) => {
@@ -87,7 +88,8 @@ export function feesRoutes({ db, config }: Services): Router {
     const { by: _by, ...rest } = request.query;
     response.json(await summariseFees(db, actorOf(request), by, rest));
   });
-  router.get('/fees/reconciliation', requires('fees:manage'), async (_request, response) => {
+  router.get('/fees/reconciliation', requires('fees:manage'), async (request, response) => {
+    parseInput(nothing, request.query, 'The query');
     response.json(await reconcile(db, config));
   });
   router.get('/fees/export.csv', requires('loans:read'), async (request, response) => {
@@ -113,6 +115,7 @@ export function feesRoutes({ db, config }: Services): Router {
       .send(workbook);
   });
   router.get('/fees/:loanId', requires('loans:see-waivers'), async (request, response) => {
+    parseInput(nothing, request.query, 'The query');
     response.json(await feeDetail(db, actorOf(request), parseId(request.params['loanId'])));
   });
   router.post('/fees/:loanId/refunds', requires('fees:manage'), async (request, response) => {
@@ -132,6 +135,7 @@ export function feesRoutes({ db, config }: Services): Router {
   router.post('/fees/:loanId/reminder', requires('loans:write'), async (request, response) => {
     const actor = actorOf(request);
     const loanId = parseId(request.params['loanId']);
+    parseInput(nothing, request.body ?? {}, 'The request');
     const fee = await feeRowOf(db, loanId, actor);
     if (fee.owedCents <= 0)
       throw stateConflict(`This loan’s fee is ${fee.status}; there is nothing to remind about.`);

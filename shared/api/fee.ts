@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { idParameter, plainText } from './input-rules';
 
 /** What a fee-schedule entry prices: a whole instrument family, or one instrument. */
 export const feeScopes = ['family', 'instrument'] as const;
@@ -32,7 +33,7 @@ export const attemptStatuses = [
 export const feeScheduleEntrySchema = z.object({
   scope: z.enum(feeScopes),
   /** A family ('brass') or a music-engine instrument id ('tuba'). */
-  key: z.string().trim().min(1).max(60),
+  key: plainText().min(1).max(60),
   yearlyFeeCents: z.number().int().min(0).max(1_000_000),
 });
 export type FeeScheduleEntry = z.infer<typeof feeScheduleEntrySchema>;
@@ -51,7 +52,7 @@ export const feeScheduleSchema = z.object({
       percent: z.number().int().min(0).max(100),
     })
     .nullable(),
-  waiverReasons: z.array(z.string().trim().min(2).max(120)).max(30),
+  waiverReasons: z.array(plainText().min(2).max(120)).max(30),
   /** Whether online payment is configured on this server (read-only). */
   onlinePayments: z.boolean().optional(),
   version: z.number().int().optional(),
@@ -134,21 +135,21 @@ export type FeeDetail = z.infer<typeof feeDetailSchema>;
 export const refundInputSchema = z.object({
   /** Leave out for the whole refundable amount. */
   amountCents: z.number().int().positive().max(1_000_000).optional(),
-  reason: z.string().trim().min(3, 'Give a reason for the refund.').max(500),
+  reason: plainText().min(3, 'Give a reason for the refund.').max(500),
 });
 export type RefundInput = z.infer<typeof refundInputSchema>;
 
 export const manualPaymentInputSchema = z.object({
   amountCents: z.number().int().positive().max(1_000_000),
   /** Cash, cheque number… */
-  note: z.string().trim().min(2).max(500),
+  note: plainText().min(2).max(500),
 });
 
 export const feeFiltersSchema = z.object({
-  schoolId: z.coerce.number().int().positive().optional(),
-  studentId: z.coerce.number().int().positive().optional(),
+  schoolId: idParameter.optional(),
+  studentId: idParameter.optional(),
   status: z.enum(feeStatuses).optional(),
-  year: z.string().trim().max(20).optional(),
+  year: plainText().max(20).optional(),
 });
 
 /** One line of the reconciliation: the service's record against ours. */
