@@ -20,7 +20,8 @@ afterAll(async () => {
   await app?.close();
 });
 
-const patient = { timeout: 20_000 };
+// The mail worker, the webhook and the first load of the lazy Fees screen are asynchronous; the machine is shared.
+const patient = { timeout: 45_000 };
 
 describe('a guardian pays the usage fee online', () => {
   it('should sign from the mailbox link, pay with the test card on the hosted page, and show on the Fees screen', async () => {
@@ -55,7 +56,18 @@ describe('a guardian pays the usage fee online', () => {
     const page = await context.newPage();
     // Guardians mostly read the e-mail on a phone.
     await page.setViewportSize({ width: 390, height: 844 });
-    // The guardian opens the agreement e-mail in the local mailbox.
+    // The guardian opens the agreement e-mail in the local mailbox, once the mail worker has sent it.
+    await expect
+      .poll(
+        () =>
+          app.mail
+            .messages()
+            .some((message) =>
+              message.subject.startsWith('Please sign the instrument loan agreement'),
+            ),
+        patient,
+      )
+      .toBe(true);
     await page.goto(app.mail.httpUrl);
     const subject = page
       .getByRole('link', { name: /Please sign the instrument loan agreement/ })
@@ -102,7 +114,10 @@ describe('a guardian pays the usage fee online', () => {
     await expect.poll(async () => (await row.innerText()).includes('Paid'), patient).toBe(true);
     expect(await row.innerText()).toContain('$45.00');
     await row.getByRole('button').click();
-    await office.getByTestId('fee-detail').getByText('Paid online', { exact: true }).waitFor(patient);
+    await office
+      .getByTestId('fee-detail')
+      .getByText('Paid online', { exact: true })
+      .waitFor(patient);
     await saveScreenshot(office, 'fees-coordinator');
     expect(outside).toEqual([]);
     await context.close();
