@@ -6,6 +6,7 @@ import { demoDistrict } from '../server/seed/demo-people';
 import { findDistrictRow } from '../server/district/district-queries';
 import { demoAccounts, startOidcFake, type OidcFake } from '../fakes/oidc/index';
 import { startMailFake, type MailFake } from '../fakes/mail/index';
+import { startPaymentsFake, type PaymentsFake } from '../fakes/payments/index';
 import { buildWebIfMissing } from './build-if-missing';
 
 /**
@@ -14,6 +15,14 @@ import { buildWebIfMissing } from './build-if-missing';
  * into an empty database, and serves the app. Ctrl-C stops all of it.
  */
 async function start() {
+  // Online payments go to the local payment-service fake unless PAYMENTS_SECRET_KEY says otherwise.
+  const usesLocalPayments = !process.env['PAYMENTS_SECRET_KEY'];
+  const payments: PaymentsFake | undefined = usesLocalPayments ? await startPaymentsFake({ port: 4312 }) : undefined;
+  if (payments) {
+    process.env['PAYMENTS_SECRET_KEY'] = payments.secretKey;
+    process.env['PAYMENTS_WEBHOOK_SECRET'] = payments.webhookSecret;
+    process.env['PAYMENTS_API_URL'] = payments.url;
+  }
   const config = loadConfig();
   const logger = createLogger(config.logLevel);
   buildWebIfMissing();
@@ -35,6 +44,8 @@ async function start() {
     },
   });
 
+  payments?.setWebhookUrl(`${server.url}/api/payments/webhook`);
+
   const lines = [
     '',
     '  Tuttiboard is running.',
@@ -42,6 +53,7 @@ async function start() {
     `  App                 ${server.url}`,
     oidc ? `  Sign-in (local)     ${oidc.issuer}` : `  Sign-in             ${config.oidcIssuer}`,
     mail ? `  Mailbox (local)     ${mail.httpUrl}` : `  Mail relay          ${config.smtpUrl}`,
+    payments ? `  Payments (local)    ${payments.url} (test card 4242 4242 4242 4242)` : `  Payments            ${config.payments ? 'hosted service' : 'off (fees by hand)'}`,
     `  Database            ${config.databaseUrl ? 'PostgreSQL server (DATABASE_URL)' : `PGlite in ${config.dataDir}`}`,
     seeded ? `  Seeded the demo district, ${demoDistrict.name}.` : '',
     '',
@@ -56,7 +68,7 @@ async function start() {
 
   closeOnSignals(async () => {
     await server.close();
-    await Promise.all([oidc?.close(), mail?.close()]);
+    await Promise.all([oidc?.close(), mail?.close(), payments?.close()]);
   }, logger);
 }
 

@@ -37,6 +37,8 @@ import { startBackgroundWork } from './reports/background-work';
 import { webRoot } from './project-paths';
 import { districtLogoRoute, districtRoutes, requireDistrict } from './district/district-routes';
 import { findDistrictRow } from './district/district-queries';
+import { feesRoutes, paymentsWebhook } from './payments/fees-routes';
+import { payPages } from './payments/pay-pages';
 
 export { webRoot };
 
@@ -69,6 +71,7 @@ export const featureRoutes: ((services: Services) => Router)[] = [
   passOffsRoutes,
   takesRoutes,
   analyticsRoutes,
+  feesRoutes,
   ...fleetRoutes,
   backupRoutes,
 ];
@@ -128,6 +131,10 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   await findDistrictRow(db);
 
   const issuerOrigin = new URL(config.oidcIssuer).origin;
+  // "Pay the usage fee" posts here and is redirected on to the payment service's hosted page.
+  const paymentOrigins = config.payments
+    ? [config.payments.apiUrl ? new URL(config.payments.apiUrl).origin : 'https:']
+    : [];
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -146,7 +153,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
           baseUri: ["'self'"],
           frameAncestors: ["'none'"],
           // Sign-out posts here and is redirected on to the identity provider.
-          formAction: ["'self'", issuerOrigin],
+          formAction: ["'self'", issuerOrigin, ...paymentOrigins],
         },
       },
       // Sent below, per request: over HTTPS (APP_URL's, or the proxy's X-Forwarded-Proto).
@@ -158,6 +165,9 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
 
   const appUrlIsHttps = config.appUrl.startsWith('https:');
   app.use(overHttps(config, logger));
+
+  // The payment service's signed events: raw body, no session, no cookie, no CSRF check.
+  app.use(paymentsWebhook(services));
   app.use(
     withoutBearerApiRequests(
       session({
@@ -199,6 +209,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   app.use(agreementPages(services));
   app.use(districtLogoRoute(services));
   app.use(requireDistrict(db));
+  app.use(payPages(services));
 
   if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'))) {
     app.use(express.static(webRoot, { index: false, maxAge: '1h' }));

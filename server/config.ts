@@ -22,6 +22,9 @@ const environmentSchema = z.object({
   RATE_LIMIT_SIGN_IN: z.coerce.number().int().min(1).default(40),
   RATE_LIMIT_TOKEN: z.coerce.number().int().min(1).default(1200),
   RATE_LIMIT_TOKEN_FAILURES: z.coerce.number().int().min(1).default(30),
+  PAYMENTS_SECRET_KEY: z.string().min(8).optional(),
+  PAYMENTS_WEBHOOK_SECRET: z.string().min(8).optional(),
+  PAYMENTS_API_URL: z.url().optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -42,6 +45,11 @@ export interface Config {
   sessionSecret?: string;
   trustProxy: boolean;
   logLevel: z.infer<typeof environmentSchema>['LOG_LEVEL'];
+  /**
+   * The hosted payment service, when PAYMENTS_SECRET_KEY is set: the secret API key, the webhook
+   * signing secret, and the API's address (the SDK's default when PAYMENTS_API_URL is unset).
+   */
+  payments?: { secretKey: string; webhookSecret: string; apiUrl?: string };
   /** Requests per minute: sign-ins per address, uses per token, failed tokens per address. */
   rateLimits: { signIn: number; token: number; tokenFailures: number };
 }
@@ -54,6 +62,11 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): Config
     throw new Error(`The environment has settings Tuttiboard cannot use:\n  ${problems.join('\n  ')}`);
   }
   const values = parsed.data;
+  if (values.PAYMENTS_SECRET_KEY && !values.PAYMENTS_WEBHOOK_SECRET) {
+    throw new Error(
+      'The environment has settings Tuttiboard cannot use:\n  PAYMENTS_WEBHOOK_SECRET: needed with PAYMENTS_SECRET_KEY, to check the service\'s signed events',
+    );
+  }
   return {
     port: values.PORT,
     dataDir: path.resolve(values.TUTTI_DATA_DIR),
@@ -68,6 +81,13 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): Config
     sessionSecret: values.SESSION_SECRET,
     trustProxy: values.TRUST_PROXY === 'true',
     logLevel: values.LOG_LEVEL,
+    payments: values.PAYMENTS_SECRET_KEY
+      ? {
+          secretKey: values.PAYMENTS_SECRET_KEY,
+          webhookSecret: values.PAYMENTS_WEBHOOK_SECRET!,
+          apiUrl: values.PAYMENTS_API_URL?.replace(/\/$/, ''),
+        }
+      : undefined,
     rateLimits: {
       signIn: values.RATE_LIMIT_SIGN_IN,
       token: values.RATE_LIMIT_TOKEN,

@@ -36,6 +36,7 @@ export type Capability =
   | 'loans:return'
   | 'loans:see-waivers'
   | 'loans:agreement'
+  | 'fees:manage'
   | 'repairs:write'
   | 'counts:run'
   | 'reports:read'
@@ -71,6 +72,7 @@ const capabilitiesByRole: Record<Role, readonly Capability[]> = {
     'loans:return',
     'loans:see-waivers',
     'loans:agreement',
+    'fees:manage',
     'repairs:write',
     'counts:run',
     'reports:read',

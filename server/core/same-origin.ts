@@ -16,7 +16,7 @@ export function sameOriginWrites(allowedOrigins: () => string[], cookieName: str
     if (safeMethods.has(request.method) || request.get('authorization') || !carriesSession) return next();
     // A guardian's signing page is authorised by the one-time link itself, not by the cookie,
     // and sends no Referrer (so the browser posts "Origin: null").
-    if (request.path.startsWith('/agreements/')) return next();
+    if (request.path.startsWith('/agreements/') || request.path.startsWith('/pay/')) return next();
     const origin = request.get('origin');
     const own = `${request.protocol}://${request.host}`;
     if (origin) {

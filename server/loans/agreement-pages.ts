@@ -6,6 +6,9 @@ import { openAgreement, signAgreement, type AgreementLookup } from './agreement-
 import { studentNameOf } from './loans-queries';
 import { districtIdentity, type DistrictIdentity } from '../district/district-queries';
 import { htmlBrand } from '../district/district-print';
+import { payTokens } from '../payments/payments-service';
+import { feeRowOf } from '../payments/fees-queries';
+import { payOffer } from '../payments/pay-pages';
 
 const style = `
 body{margin:0;font-family:"Public Sans",system-ui,sans-serif;background:#f4f1ec;color:#2b2824}
@@ -16,6 +19,7 @@ h1{font-size:1.4rem;margin:.3rem 0 1rem;color:#0b4f55}
 .caution{border-left:4px solid #b7862b;background:#fbf5e8;padding:.6rem .9rem;margin:.75rem 0;border-radius:4px}
 label{display:block;font-weight:600;margin:1.25rem 0 .35rem}
 input[type=text]{font:inherit;padding:.55rem .7rem;width:100%;max-width:26rem;border:1px solid #b9b2a8;border-radius:6px}
+.pay{border-top:1px solid #e3ded7;margin-top:1.5rem;padding-top:.5rem}
 .check{display:flex;gap:.5rem;align-items:flex-start;font-weight:400}
 button{font:inherit;font-weight:600;background:#0b5f66;color:#fff;border:0;border-radius:999px;padding:.65rem 1.3rem;margin-top:1.25rem;cursor:pointer}
 button:focus-visible,input:focus-visible{outline:3px solid #c8962a;outline-offset:2px}
@@ -23,7 +27,7 @@ button:focus-visible,input:focus-visible{outline:3px solid #c8962a;outline-offse
 .small{color:#6b645b;font-size:.85rem}
 `;
 
-function page(
+export function page(
   response: Response,
   district: DistrictIdentity | undefined,
   status: number,
@@ -43,7 +47,9 @@ function page(
 function refused(
   response: Response,
   district: DistrictIdentity | undefined,
-  lookup: Exclude<AgreementLookup, { state: 'open' }>) {
+  lookup: Exclude<AgreementLookup, { state: 'open' }>,
+  offer = '',
+) {
   if (lookup.state === 'unknown') {
     return page(
       response,
@@ -63,7 +69,7 @@ function refused(
     district,
     410,
     'This link can no longer be used',
-    `<p>${escapeHtml(messages[lookup.state])}</p>`,
+    `<p>${escapeHtml(messages[lookup.state])}</p>${offer}`,
   );
 }
 
@@ -73,6 +79,7 @@ function signingForm(
   token: string,
   lookup: AgreementLookup & { state: 'open' },
   notice = '',
+  offer = '',
 ) {
   const cautions = cautionsFor(lookup.row.instrumentType)
     .map((caution) => `<p class="caution">${escapeHtml(caution)}</p>`)
@@ -93,7 +100,7 @@ ${cautions}
 <label class="check"><input type="checkbox" name="agree" value="yes" required> I have read this agreement and accept it for my child.</label>
 <button type="submit">Sign the agreement</button>
 <p class="small">The link works once. We keep your typed name, the time you signed and a fingerprint (SHA-256) of the exact text above.</p>
-</form>`,
+</form>${offer}`,
   );
 }
 
@@ -101,14 +108,27 @@ ${cautions}
  * The guardian's signing pages, outside /api and without sign-in: the one-time link shows the
  * agreement and a form to sign it by typing a name. Expired or used links answer 410.
  */
-export function agreementPages({ db }: Services): Router {
+export function agreementPages({ db, config }: Services): Router {
   const router = Router();
+  /** "Pay the usage fee" for this loan, when online payment is on and something is owed. */
+  const offerFor = async (lookup: AgreementLookup) => {
+    if (lookup.state === 'unknown' || !config.payments) return '';
+    const tokens = await payTokens(db, config);
+    const fee = await feeRowOf(db, lookup.row.loan.id);
+    return payOffer(fee, `/pay/${tokens(lookup.row.loan.id)}`, true);
+  };
   router.get('/agreements/:token', async (request, response) => {
     const token = request.params['token'] ?? '';
     const district = await districtIdentity(db);
     const lookup = await openAgreement(db, token);
-    if (lookup.state !== 'open') return refused(response, district, lookup);
-    signingForm(response, district, token, lookup);
+    if (lookup.state !== 'open')
+      return refused(
+        response,
+        district,
+        lookup,
+        lookup.state === 'signed' ? await offerFor(lookup) : '',
+      );
+    signingForm(response, district, token, lookup, '', await offerFor(lookup));
   });
   router.post(
     '/agreements/:token',
@@ -150,7 +170,7 @@ export function agreementPages({ db }: Services): Router {
         district,
         200,
         'Thank you: the agreement is signed',
-        `<p>Signed by <strong>${escapeHtml(signedName)}</strong> at ${escapeHtml(outcome.signedAt.toISOString())} for ${escapeHtml(studentNameOf(outcome.row))}.</p><p class="small">Fingerprint of the signed text (SHA-256): <code>${outcome.textHash}</code></p><p>The school keeps a copy; you may close this page.</p>`,
+        `<p>Signed by <strong>${escapeHtml(signedName)}</strong> at ${escapeHtml(outcome.signedAt.toISOString())} for ${escapeHtml(studentNameOf(outcome.row))}.</p><p class="small">Fingerprint of the signed text (SHA-256): <code>${outcome.textHash}</code></p><p>The school keeps a copy.</p>${await offerFor(outcome)}`,
       );
     },
   );

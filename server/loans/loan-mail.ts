@@ -3,6 +3,7 @@ import { enqueueMail } from '../mail/outbox';
 import { escapeHtml } from '../auth/plain-page';
 import { cautionsFor, instrumentNameOf } from '../instruments/instrument-cautions';
 import { studentNameOf, type LoanRow } from './loans-queries';
+import { formatCents } from './money';
 
 function paragraphs(lines: string[]): string {
   return lines.map((line) => `<p>${escapeHtml(line)}</p>`).join('\n');
@@ -18,6 +19,8 @@ export async function queueAgreementMail(
   link: string,
   expiresAt: Date,
   createdBy: number,
+  /** The link to pay the usage fee online, when online payment is on and a fee is owed. */
+  payLink?: string,
 ): Promise<boolean> {
   if (!row.guardianEmail) return false;
   const instrument = `${instrumentNameOf(row.instrumentType)} (asset tag ${row.assetTag})`;
@@ -29,8 +32,15 @@ export async function queueAgreementMail(
       `${expiresAt.toISOString().slice(0, 10)}:`,
     link,
     ...cautionsFor(row.instrumentType),
+    ...(payLink
+      ? [
+          `The usage fee for this loan is ${formatCents(row.loan.usageFeeCents)}. Pay the usage fee online with a card (the payment service's page; we never see the card number):`,
+          payLink,
+        ]
+      : []),
     'If you did not expect this message, tell the school’s music director.',
   ];
+  const payIndex = payLink ? lines.indexOf(payLink) : -1;
   await enqueueMail(tx, {
     kind: 'loan-agreement',
     to: [row.guardianEmail],
@@ -39,7 +49,11 @@ export async function queueAgreementMail(
     html:
       paragraphs(lines.slice(0, 3)) +
       `\n<p><a href="${escapeHtml(link)}">Read and sign the agreement</a></p>\n` +
-      paragraphs(lines.slice(4)),
+      (payIndex > 0
+        ? paragraphs(lines.slice(4, payIndex)) +
+          `\n<p><a href="${escapeHtml(payLink!)}">Pay the usage fee</a></p>\n` +
+          paragraphs(lines.slice(payIndex + 1))
+        : paragraphs(lines.slice(4))),
     related: { type: 'loan', id: row.loan.id },
     schoolId: row.loan.schoolId,
     createdBy,

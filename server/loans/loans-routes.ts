@@ -16,6 +16,7 @@ import { checkOut, resendAgreementLink, returnLoan } from './loans-service';
 import { remindOne, remindOverdue } from './loan-reminders';
 import { readAgreementText, writeAgreementText } from './agreement-text';
 import { agreementPdf } from './agreement-pdf';
+import { payTokens } from '../payments/payments-service';
 
 const overdueBatchSchema = z.object({ schoolId: recordId().optional() });
 
@@ -43,7 +44,10 @@ export function loansRoutes({ db, config }: Services): Router {
   });
   router.post('/loans', requires('loans:write'), async (request, response) => {
     const input = parseInput(checkoutInputSchema, request.body, 'The checkout');
-    response.status(201).json(await checkOut(db, config.appUrl, actorOf(request), input));
+    const payToken = config.payments ? await payTokens(db, config) : undefined;
+    response
+      .status(201)
+      .json(await checkOut(db, config.appUrl, actorOf(request), input, payToken));
   });
   router.get('/loans/:id', readLoans, async (request, response) => {
     response.json(await findLoan(db, actorOf(request), parseId(request.params['id'])));

@@ -1,3 +1,4 @@
+import { computeLoanFee } from '../payments/fee-schedule';
 import { and, eq, sql } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import { instruments, loans, repairTickets, students } from '../db/schema/index';
@@ -49,6 +50,8 @@ export async function checkOut(
   appUrl: string,
   actor: Actor,
   input: CheckoutInput,
+  /** With online payments: each loan's pay-link token, for the agreement e-mail. */
+  payToken?: (loanId: number) => string,
 ): Promise<Loan> {
   const [student] = await db.select().from(students).where(eq(students.id, input.studentId));
   if (!student || !inScope(actor, student.schoolId)) throw notFound('That student');
@@ -71,6 +74,9 @@ export async function checkOut(
     throw badRequest('The due date is in the past.', [
       { field: 'dueOn', message: 'Pick a day from today on.' },
     ]);
+  // The fee comes from the district's schedule; a hand-entered one only where it has no entry.
+  const scheduled = await computeLoanFee(db, instrument.instrumentId, student, today);
+  const feeCents = scheduled.feeCents ?? input.usageFeeCents;
   const { token, columns } = agreementLinkColumns();
   let loanId: number;
   try {
@@ -99,7 +105,7 @@ export async function checkOut(
           dueOn,
           accessories: input.accessories,
           conditionOut: input.conditionOut,
-          usageFeeCents: input.waiver ? 0 : input.usageFeeCents,
+          usageFeeCents: input.waiver ? 0 : feeCents,
           waiver: input.waiver,
           waiverReason: input.waiver ? (input.waiverReason ?? null) : null,
           checkedOutBy: actor.userId,
@@ -132,6 +138,7 @@ export async function checkOut(
         agreementLink(appUrl, token),
         columns.agreementExpiresAt,
         actor.userId,
+        payToken && loan!.usageFeeCents > 0 ? `${appUrl}/pay/${payToken(loan!.id)}` : undefined,
       );
       return loan!.id;
     });

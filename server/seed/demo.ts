@@ -5,6 +5,7 @@ import { demoDistrict, demoSchools, demoUsers } from './demo-people';
 import { findDistrictRow, forgetDistrictIdentity } from '../district/district-queries';
 import { seedDemoRoster } from './demo-roster';
 import { seedDemoFleet } from './demo-fleet';
+import { seedDemoFees } from './demo-fees';
 import { seedDemoLadder } from './demo-ladder';
 import { refreshStatistics } from '../db/statistics';
 import { SeededRandom } from './random';
@@ -92,6 +93,7 @@ export async function seedDemo(db: Database, seededOn = new Date()): Promise<voi
       studentUserId,
     });
     await seedDemoFleet(tx, { schoolYearEndsOn: demoSchoolYear.endsOn });
+    await seedDemoFees(tx);
     await seedDemoLadder(tx, {
       directorOf,
       schoolYearEndsOn: demoSchoolYear.endsOn,

@@ -1,7 +1,14 @@
 import { z } from 'zod';
 import { idParameter, plainText } from './input-rules';
 
-export const outboxKinds = ['report', 'loan-agreement', 'overdue-reminder', 'other'] as const;
+export const outboxKinds = [
+  'report',
+  'loan-agreement',
+  'overdue-reminder',
+  'fee-reminder',
+  'fee-receipt',
+  'other',
+] as const;
 export const outboxStates = ['queued', 'sending', 'sent', 'failed'] as const;
 
 /** A message in the outbox, as the list answers it (without its parts' bodies). */

@@ -155,6 +155,17 @@ const matrix: Entry[] = [
   { route: 'POST /api/loans/:id/return', codes: 'PP4P33', url: (f) => `/api/loans/${f.hpmsLoan}/return` },
   { route: 'POST /api/loans/:id/reminder', codes: 'PP4333', url: (f) => `/api/loans/${f.hpmsLoan}/reminder` },
   { route: 'POST /api/loans/:id/agreement-link', codes: 'PP4333', url: (f) => `/api/loans/${f.hpmsLoan}/agreement-link` },
+  { route: 'GET /api/fees/schedule', codes: 'PPPPP3' },
+  { route: 'PUT /api/fees/schedule', codes: 'P33333' },
+  { route: 'GET /api/fees', codes: 'PPPPP3' },
+  { route: 'GET /api/fees/summary', codes: 'PPPPP3' },
+  { route: 'GET /api/fees/reconciliation', codes: 'P33333' },
+  { route: 'GET /api/fees/export.csv', codes: 'PPPPP3' },
+  { route: 'GET /api/fees/export.xlsx', codes: 'PPPPP3' },
+  { route: 'GET /api/fees/:loanId', codes: 'PP4333', url: (f) => `/api/fees/${f.hpmsLoan}` },
+  { route: 'POST /api/fees/:loanId/refunds', codes: 'P33333', url: (f) => `/api/fees/${f.hpmsLoan}/refunds` },
+  { route: 'POST /api/fees/:loanId/payments', codes: 'P33333', url: (f) => `/api/fees/${f.hpmsLoan}/payments` },
+  { route: 'POST /api/fees/:loanId/reminder', codes: 'PP4333', url: (f) => `/api/fees/${f.hpmsLoan}/reminder` },
   { route: 'GET /api/repairs', codes: 'PPPPP3' },
   { route: 'GET /api/repairs/:id', codes: 'PP4P43', url: (f) => `/api/repairs/${f.hpmsRepair}` },
   { route: 'POST /api/repairs', codes: 'P33P33' },
@@ -183,6 +194,11 @@ const outsideApi = new Set([
   // The district's name and logo: public, for the pages shown before sign-in.
   'GET /district-brand',
   'GET /district-logo',
+  // Signed by the payment service, not by a user: tests/api/payments.test.ts.
+  'POST /api/payments/webhook',
+  'GET /pay/:token',
+  'POST /pay/:token',
+  'GET /pay/:token/done',
 ]);
 
 async function freshSchool(app: TestApp): Promise<string> {

@@ -13,6 +13,7 @@ import { findUserByEmail } from '../../server/people/people-queries';
 import { issueToken } from '../../server/tokens/token-service';
 import { CookieJar, startOidcFake, walkSignIn, type OidcFake } from '../../fakes/oidc/index';
 import { startMailFake, type MailFake } from '../../fakes/mail/index';
+import { startPaymentsFake, type PaymentsFake } from '../../fakes/payments/index';
 import { openFromTemplate, type TemplateName } from './database-templates';
 
 /** A signed-in browser: its cookies, and requests that carry them with a same-site Origin. */
@@ -32,6 +33,8 @@ export interface TestApp {
   database: DatabaseHandle;
   oidc: OidcFake;
   mail: MailFake;
+  /** The payment-service fake (the app is pointed at it unless `payments: false`). */
+  payments: PaymentsFake;
   /** A plain client with no credentials. */
   anonymous: ReturnType<typeof request>;
   /** Signs in through the real identity provider over HTTP, as a browser would. */
@@ -46,11 +49,14 @@ export interface TestApp {
 export const demoEmail = (local: string) => `${local}@merrowbasin.example`;
 
 /** Starts the whole app for a test file, from the demo district unless told otherwise. */
-export async function startTestApp(options: { template?: TemplateName; serveWeb?: boolean; environment?: NodeJS.ProcessEnv; logger?: Logger } = {}): Promise<TestApp> {
+export async function startTestApp(
+  options: { template?: TemplateName; serveWeb?: boolean; environment?: NodeJS.ProcessEnv; logger?: Logger; payments?: boolean } = {},
+): Promise<TestApp> {
   const templates = inject('templates');
-  const [oidc, mail, database] = await Promise.all([
+  const [oidc, mail, payments, database] = await Promise.all([
     startOidcFake({ port: 0 }),
     startMailFake({ smtpPort: 0, httpPort: 0 }),
+    startPaymentsFake({ port: 0, retryDelaysMs: [200, 500, 1000] }),
     openFromTemplate(templates, options.template ?? 'demo'),
   ]);
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'tutti-test-data-'));
@@ -59,12 +65,16 @@ export async function startTestApp(options: { template?: TemplateName; serveWeb?
     OIDC_ISSUER: oidc.issuer,
     SMTP_URL: mail.smtpUrl,
     LOG_LEVEL: 'silent',
+    ...(options.payments === false
+      ? {}
+      : { PAYMENTS_SECRET_KEY: payments.secretKey, PAYMENTS_WEBHOOK_SECRET: payments.webhookSecret, PAYMENTS_API_URL: payments.url }),
     ...options.environment,
   });
   const app = await createApp(config, { database, logger: options.logger ?? createLogger('silent'), serveWeb: options.serveWeb ?? false });
   const server = createHttpServer(app);
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  payments.setWebhookUrl(`${url}/api/payments/webhook`);
 
   const withHeaders = (headers: Record<string, string>) => {
     const agent = request(url);
@@ -82,6 +92,7 @@ export async function startTestApp(options: { template?: TemplateName; serveWeb?
     database,
     oidc,
     mail,
+    payments,
     anonymous: request(url),
     async signIn(email) {
       const jar = new CookieJar();
@@ -104,7 +115,7 @@ export async function startTestApp(options: { template?: TemplateName; serveWeb?
       });
       await (app.locals['stop'] as () => Promise<void>)();
       // A test may have stopped a fake on purpose already.
-      await Promise.all([oidc.close().catch(() => undefined), mail.close().catch(() => undefined), database.close()]);
+      await Promise.all([oidc.close().catch(() => undefined), mail.close().catch(() => undefined), payments.close().catch(() => undefined), database.close()]);
       fs.rmSync(dataDir, { recursive: true, force: true });
     },
   };

@@ -93,6 +93,12 @@ export const routes: Routes = [
         loadChildren: () => import('./loans/loans.routes').then((m) => m.loansRoutes),
       },
       {
+        path: 'fees',
+        canActivate: [capabilityGuard],
+        data: { capability: 'loans:read' },
+        loadChildren: () => import('./fees/fees.routes').then((m) => m.feesRoutes),
+      },
+      {
         path: 'repairs',
         canActivate: [capabilityGuard],
         data: { capability: 'fleet:read' },

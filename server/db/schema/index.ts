@@ -9,3 +9,4 @@ export * from './ladder';
 export * from './fleet';
 export * from './listening';
 export * from './district';
+export * from './fees';

@@ -84,6 +84,7 @@ export const iconNames = [
   'domain',
   'image',
   'radio_button_unchecked',
+  'payments',
 ] as const;
 
 export type IconName = (typeof iconNames)[number];

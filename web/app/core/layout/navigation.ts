@@ -22,6 +22,7 @@ export const navigationItems: NavigationItem[] = [
   { path: '/practice', label: 'Practice sheets', icon: 'music_note', capability: 'practice:read', group: 'music' },
   { path: '/instruments', label: 'Instruments', icon: 'piano', capability: 'fleet:read', group: 'fleet' },
   { path: '/loans', label: 'Loans', icon: 'handshake', capability: 'loans:read', roles: ['student'], group: 'fleet' },
+  { path: '/fees', label: 'Fees', icon: 'payments', capability: 'loans:read', group: 'fleet' },
   { path: '/repairs', label: 'Repairs', icon: 'build', capability: 'fleet:read', group: 'fleet' },
   { path: '/counts', label: 'Annual count', icon: 'barcode_scanner', capability: 'counts:run', group: 'fleet' },
   { path: '/planning', label: 'Replacement plan', icon: 'inventory_2', capability: 'fleet:read', group: 'fleet' },
