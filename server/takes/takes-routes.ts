@@ -4,7 +4,7 @@ import { z } from 'zod';
 import { takeInputSchema, takeRetentionSchema, takeSizeLimit } from '../../shared/api/take';
 import { HttpError } from '../core/errors';
 import { actorOf, requires, requiresAny } from '../core/policy';
-import { parseId, parseInput } from '../core/validate';
+import { nothing, parseId, parseInput } from '../core/validate';
 import { recordingExtensions } from '../pass-offs/recording-type';
 import type { Services } from '../services';
 import {
@@ -82,7 +82,8 @@ export function takesRoutes({ db, config }: Services): Router {
   router.get(
     '/settings/take-retention',
     requires('takes:retention'),
-    async (_request, response) => {
+    async (request, response) => {
+      parseInput(nothing, request.query, 'The query');
       response.json(await takeRetention(db));
     },
   );
