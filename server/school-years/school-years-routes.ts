@@ -5,7 +5,7 @@ import {
   yearStartInputSchema,
 } from '../../shared/api/school-year';
 import { actorOf, requires } from '../core/policy';
-import { parseId, parseInput } from '../core/validate';
+import { nothing, parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
 import { createSchoolYear, listSchoolYears, updateSchoolYear } from './school-years-service';
 import { startSchoolYear } from './year-start';
@@ -15,6 +15,7 @@ export function schoolYearsRoutes({ db }: Services): Router {
   const router = Router();
   router.get('/school-years', async (request, response) => {
     actorOf(request);
+    parseInput(nothing, request.query, 'The query');
     response.json(await listSchoolYears(db));
   });
   router.post('/school-years', requires('years:write'), async (request, response) => {
