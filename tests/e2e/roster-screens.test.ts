@@ -230,7 +230,7 @@ describe('Schools and ensembles grids', () => {
     expect(download.suggestedFilename()).toMatch(/^schools-\d{4}-\d{2}-\d{2}\.csv$/);
     const csv = fs.readFileSync((await download.path())!, 'utf8').replace(/^\uFEFF/, '');
     const lines = csv.split('\r\n');
-    expect(lines[0]).toBe('Code,School,Level,Students,Ensembles');
+    expect(lines[0]).toBe('Code,School,Level,Grades,Students move up to,Status,Students,Ensembles');
     expect(lines).toHaveLength(schools.body.total + 2);
     expect(lines[1]!.split(',')[1]).toBe(schools.body.rows[0].name);
     await expect

@@ -37,6 +37,8 @@ export function reachWarnings(
     const youngest = Math.min(...grades);
     const level: SchoolLevel = levelOfGrade(youngest);
     for (const requirement of rung.requirements) {
+      // A requirement just added has no key yet: nothing to place until one is chosen.
+      if (!/^[A-G](#{1,2}|b{1,2})?$/.test(requirement.tonic)) continue;
       const key = { tonic: requirement.tonic, mode: requirement.mode };
       const details = instruments
         .filter(({ family }) => !requirement.families || requirement.families.includes(family))
