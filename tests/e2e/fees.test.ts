@@ -126,7 +126,7 @@ describe('a guardian pays the usage fee online', () => {
 
 describe('the fee schedule and the loan agreement text live in District settings', () => {
   it('should edit both on the District settings screen and link there from the Fees and Loans screens', async () => {
-    const context = await localOnlyContext(browser, app.url);
+    const { context, outside } = await localOnlyContext(browser);
     const page = await context.newPage();
     await signInAs(page, app.url, demoEmail('coordinator'), '/fees');
     await page.getByRole('heading', { name: 'Fees', level: 1 }).waitFor(patient);
@@ -184,8 +184,9 @@ describe('the fee schedule and the loan agreement text live in District settings
     await page.getByTestId('agreement-text').waitFor(patient);
 
     // A director still reads the schedule on the Fees screen, without editing it or the link.
+    expect(outside).toEqual([]);
     await context.close();
-    const directorContext = await localOnlyContext(browser, app.url);
+    const { context: directorContext } = await localOnlyContext(browser);
     const directorPage = await directorContext.newPage();
     await signInAs(directorPage, app.url, demoEmail('director.hpms'), '/fees');
     const readOnly = directorPage.getByTestId('fee-schedule');
