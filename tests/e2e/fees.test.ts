@@ -123,3 +123,80 @@ describe('a guardian pays the usage fee online', () => {
     await context.close();
   });
 });
+
+describe('the fee schedule and the loan agreement text live in District settings', () => {
+  it('should edit both on the District settings screen and link there from the Fees and Loans screens', async () => {
+    const { context, outside } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('coordinator'), '/fees');
+    await page.getByRole('heading', { name: 'Fees', level: 1 }).waitFor(patient);
+    // The Fees screen no longer edits the schedule; it sends the coordinator to District settings.
+    const feesLink = page.getByTestId('fee-schedule-link');
+    await feesLink.waitFor(patient);
+    expect(await page.getByTestId('save-schedule').count()).toBe(0);
+    await feesLink.getByRole('link', { name: 'Edit in District settings' }).click();
+    await page.waitForURL(`${app.url}/district#fee-schedule`, patient);
+
+    // Both sections are on the District settings screen.
+    await page.getByRole('heading', { name: 'District settings', level: 1 }).waitFor(patient);
+    const schedule = page.getByTestId('fee-schedule');
+    const agreement = page.getByTestId('agreement-text');
+    await schedule.getByRole('heading', { name: 'Fee schedule' }).waitFor(patient);
+    await agreement.getByRole('heading', { name: 'Loan agreement text' }).waitFor(patient);
+
+    // The fee schedule: change the first line's yearly fee and save it through PUT /api/fees/schedule.
+    const before = (await coordinator.get('/api/fees/schedule').expect(200)).body as {
+      entries: { key: string; yearlyFeeCents: number }[];
+    };
+    const first = before.entries[0]!;
+    const newCents = first.yearlyFeeCents + 1_250;
+    const feeInput = schedule.getByLabel(`Yearly fee for ${first.key}`);
+    await feeInput.fill((newCents / 100).toFixed(2));
+    await feeInput.press('Tab');
+    await schedule.getByTestId('save-schedule').click();
+    await schedule.getByText('Fee schedule saved').waitFor(patient);
+    const after = (await coordinator.get('/api/fees/schedule').expect(200)).body as typeof before;
+    expect(after.entries.find((entry) => entry.key === first.key)?.yearlyFeeCents).toBe(newCents);
+
+    // The agreement text: a new version through PUT /api/loans/agreement-text.
+    const textBefore = (await coordinator.get('/api/loans/agreement-text').expect(200)).body as {
+      text: string;
+      version: number;
+    };
+    const textArea = agreement.getByLabel('Agreement text');
+    await expect.poll(() => textArea.inputValue(), patient).toBe(textBefore.text);
+    const newText = `${textBefore.text}\n\n8. Merrow Basin test clause: the case tag stays on the case.`;
+    await textArea.fill(newText);
+    await agreement.getByTestId('save-agreement').click();
+    await agreement.getByText(`Saved as version ${textBefore.version + 1}`).waitFor(patient);
+    const textAfter = (await coordinator.get('/api/loans/agreement-text').expect(200)).body as {
+      text: string;
+      version: number;
+    };
+    expect(textAfter).toMatchObject({ text: newText, version: textBefore.version + 1 });
+    await agreement.scrollIntoViewIfNeeded();
+    await saveScreenshot(page, 'district-settings-agreement-and-fees');
+
+    // The Loans screen links the coordinator to the agreement text's new home.
+    await page.goto(`${app.url}/loans`);
+    await page.getByTestId('agreement-text-link').click();
+    await page.waitForURL(`${app.url}/district#agreement-text`, patient);
+    await page.getByTestId('agreement-text').waitFor(patient);
+
+    // A director still reads the schedule on the Fees screen, without editing it or the link.
+    expect(outside).toEqual([]);
+    await context.close();
+    const { context: directorContext } = await localOnlyContext(browser);
+    const directorPage = await directorContext.newPage();
+    await signInAs(directorPage, app.url, demoEmail('director.hpms'), '/fees');
+    const readOnly = directorPage.getByTestId('fee-schedule');
+    await readOnly.getByRole('heading', { name: 'Fee schedule' }).waitFor(patient);
+    // The director reads the fee the coordinator just saved.
+    await expect
+      .poll(() => readOnly.locator('tbody').innerText(), patient)
+      .toContain(`$${(newCents / 100).toFixed(2)}`);
+    expect(await directorPage.getByTestId('save-schedule').count()).toBe(0);
+    expect(await directorPage.getByTestId('fee-schedule-link').count()).toBe(0);
+    await directorContext.close();
+  });
+});

@@ -3,7 +3,9 @@ import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
 import {
+  agreementTextSchema,
   loanSchema,
+  type AgreementText,
   reminderResultSchema,
   type CheckoutInput,
   type Loan,
@@ -58,5 +60,17 @@ export class FleetLoans {
   /** The address of the agreement PDF (signed, with the guardian's typed name and the time). */
   agreementPdfUrl(id: number): string {
     return `/api/loans/${id}/agreement.pdf`;
+  }
+
+  /** The agreement text guardians sign now, with its version (0 for the built-in default). */
+  agreementText(): Observable<AgreementText> {
+    return this.http.get('/api/loans/agreement-text').pipe(parsedWith(agreementTextSchema));
+  }
+
+  /** Replaces the agreement text; loans already signed keep the text they were signed with. */
+  saveAgreementText(text: string): Observable<AgreementText> {
+    return this.http
+      .put('/api/loans/agreement-text', { text })
+      .pipe(parsedWith(agreementTextSchema));
   }
 }

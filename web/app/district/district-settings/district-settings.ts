@@ -26,7 +26,9 @@ import { CurrentDistrict } from '../../core/district/current-district';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
+import { AgreementTextEditor } from '../agreement-text/agreement-text';
 import { DistrictData } from '../district-data';
+import { FeeScheduleEditor } from '../fee-schedule/fee-schedule';
 
 /** The time zones offered first; any other IANA zone can be typed in the field below. */
 const commonTimeZones = [
@@ -39,7 +41,10 @@ const commonTimeZones = [
   'Pacific/Honolulu',
 ];
 
-/** The coordinator's screen for the district's own identity: name, logo, office, time zone, mail. */
+/**
+ * The coordinator's screen for the district's own settings: name, logo, office, time zone, mail,
+ * the loan agreement text and the usage-fee schedule.
+ */
 @Component({
   selector: 'tb-district-settings',
   imports: [
@@ -50,6 +55,8 @@ const commonTimeZones = [
     MatInputModule,
     MatSelectModule,
     PageState,
+    AgreementTextEditor,
+    FeeScheduleEditor,
   ],
   templateUrl: './district-settings.html',
   styleUrl: './district-settings.scss',

@@ -2,11 +2,11 @@ import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@a
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
+import { RouterLink } from '@angular/router';
 import type {
   FeeDetail,
   FeeList,
   FeeRow,
-  FeeSchedule,
   FeeStatus,
   FeeSummary,
   Reconciliation,
@@ -15,6 +15,7 @@ import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { centsOf, dayText, money } from '../../instruments/instrument-labels';
+import { FeeScheduleEditor } from '../../district/fee-schedule/fee-schedule';
 import { FeeLedger } from '../fee-data';
 
 type Load<Value> =
@@ -30,8 +31,6 @@ const statusWords: Record<FeeStatus, string> = {
   mismatch: 'Check amount',
 };
 
-const families = ['brass', 'woodwind', 'strings', 'percussion'];
-
 const ledgerWords: Record<string, string> = {
   payment: 'Paid online',
   'manual-payment': 'Paid by hand',
@@ -42,11 +41,18 @@ const ledgerWords: Record<string, string> = {
 /**
  * The business office's view of usage fees: owed, paid, waived and refunded per loan, student,
  * school and year; a loan's ledger with refunds and payments by hand; the reconciliation against
- * the payment service; and the district's fee schedule.
+ * the payment service. The fee schedule is edited in the district settings.
  */
 @Component({
   selector: 'tb-fees-page',
-  imports: [MatButtonModule, MatButtonToggleModule, MatIconModule, PageState],
+  imports: [
+    RouterLink,
+    MatButtonModule,
+    MatButtonToggleModule,
+    MatIconModule,
+    PageState,
+    FeeScheduleEditor,
+  ],
   templateUrl: './fees-page.html',
   styleUrl: './fees-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -58,10 +64,10 @@ export class FeesPage {
   protected readonly money = money;
   protected readonly day = dayText;
   protected readonly statusWords: Record<string, string> = statusWords;
-  protected readonly families = families;
   protected readonly ledgerWords = ledgerWords;
   protected readonly statuses = Object.keys(statusWords) as FeeStatus[];
   protected readonly isCoordinator = this.user.can('fees:manage');
+  protected readonly editsSettings = this.user.can('district:settings');
   protected readonly seesLedger = this.user.can('loans:see-waivers');
 
   protected readonly view = signal<'loan' | FeeSummary['by']>('loan');
@@ -72,8 +78,6 @@ export class FeesPage {
   protected readonly selected = signal<Load<FeeDetail> | null>(null);
   protected readonly notice = signal('');
   protected readonly reconciliation = signal<Load<Reconciliation> | null>(null);
-  protected readonly schedule = signal<Load<FeeSchedule>>({ kind: 'loading' });
-  protected readonly scheduleNotice = signal('');
 
   protected readonly query = computed(() => {
     const query: Record<string, string | number> = { limit: 500 };
@@ -84,10 +88,6 @@ export class FeesPage {
 
   constructor() {
     this.load();
-    this.fees.schedule().subscribe({
-      next: (value) => this.schedule.set({ kind: 'ready', value }),
-      error: (error: unknown) => this.schedule.set({ kind: 'error', message: errorMessage(error) }),
-    });
   }
 
   protected load(): void {
@@ -176,73 +176,6 @@ export class FeesPage {
       next: (value) => this.reconciliation.set({ kind: 'ready', value }),
       error: (error: unknown) =>
         this.reconciliation.set({ kind: 'error', message: errorMessage(error) }),
-    });
-  }
-
-  // The schedule editor.
-  protected editSchedule(change: (schedule: FeeSchedule) => FeeSchedule): void {
-    const current = this.schedule();
-    if (current.kind === 'ready')
-      this.schedule.set({ kind: 'ready', value: change(structuredClone(current.value)) });
-  }
-
-  protected setEntryFee(index: number, text: string): void {
-    const cents = centsOf(text);
-    if (cents === null) return;
-    this.editSchedule((schedule) => {
-      schedule.entries[index]!.yearlyFeeCents = cents;
-      return schedule;
-    });
-  }
-
-  protected addEntry(scope: 'family' | 'instrument', key: string, text: string): void {
-    const cents = centsOf(text);
-    if (!key.trim() || cents === null)
-      return this.scheduleNotice.set('Name the family or instrument and its yearly fee.');
-    this.editSchedule((schedule) => ({
-      ...schedule,
-      entries: [...schedule.entries, { scope, key: key.trim(), yearlyFeeCents: cents }],
-    }));
-  }
-
-  protected removeEntry(index: number): void {
-    this.editSchedule((schedule) => ({
-      ...schedule,
-      entries: schedule.entries.filter((_entry, at) => at !== index),
-    }));
-  }
-
-  protected setRule(basis: string, percentText: string): void {
-    const percent = Number(percentText);
-    this.editSchedule((schedule) => ({
-      ...schedule,
-      additionalLoan:
-        basis && Number.isInteger(percent) && percent >= 0 && percent <= 100
-          ? { basis: basis as 'student' | 'household', percent }
-          : null,
-    }));
-  }
-
-  protected setReasons(text: string): void {
-    this.editSchedule((schedule) => ({
-      ...schedule,
-      waiverReasons: text
-        .split('\n')
-        .map((line) => line.trim())
-        .filter((line) => line.length >= 2),
-    }));
-  }
-
-  protected saveSchedule(): void {
-    const current = this.schedule();
-    if (current.kind !== 'ready') return;
-    const { onlinePayments: _online, ...schedule } = current.value;
-    this.fees.saveSchedule(schedule).subscribe({
-      next: (value) => {
-        this.schedule.set({ kind: 'ready', value });
-        this.scheduleNotice.set('Fee schedule saved. New loans are charged from it.');
-      },
-      error: (error: unknown) => this.scheduleNotice.set(errorMessage(error)),
     });
   }
 }

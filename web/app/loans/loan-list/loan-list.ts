@@ -12,7 +12,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatTabsModule } from '@angular/material/tabs';
-import { Router } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import { loanSortFields, type Loan } from '../../../../shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
@@ -33,7 +33,15 @@ import { loanTabs, type LoanTab } from './loan-tabs';
 /** The loans of the user's schools, by tab, with check-out, returns and reminders. */
 @Component({
   selector: 'tb-loan-list',
-  imports: [ServerGrid, GridSearch, LoanPanel, MatButtonModule, MatIconModule, MatTabsModule],
+  imports: [
+    RouterLink,
+    ServerGrid,
+    GridSearch,
+    LoanPanel,
+    MatButtonModule,
+    MatIconModule,
+    MatTabsModule,
+  ],
   templateUrl: './loan-list.html',
   styleUrl: './loan-list.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -50,6 +58,7 @@ export class LoanList {
   readonly initialSearch = input('');
 
   protected readonly canLend = this.currentUser.can('loans:write');
+  protected readonly editsSettings = this.currentUser.can('district:settings');
   protected readonly tabs = loanTabs;
   protected readonly current = computed<LoanTab>(
     () => loanTabs.find((tab) => tab.id === this.tab()) ?? loanTabs[0]!,
