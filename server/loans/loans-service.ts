@@ -1,4 +1,4 @@
-import { computeLoanFee } from '../payments/fee-schedule';
+import { assertWaiverReason, computeLoanFee } from '../payments/fee-schedule';
 import { and, eq, sql } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import { instruments, loans, repairTickets, students } from '../db/schema/index';
@@ -68,6 +68,7 @@ export async function checkOut(
       { field: 'waiverReason', message: 'Tick the waiver, or leave the reason empty.' },
     ]);
   }
+  await assertWaiverReason(db, input);
   const dueOn = input.dueOn ?? (await defaultDueDate(db));
   const today = todayIso();
   if (dueOn < today)

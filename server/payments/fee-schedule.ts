@@ -1,12 +1,20 @@
 import { and, eq, ne, sql } from 'drizzle-orm';
 import type { Database } from '../db/client';
-import { appSettings, feeSchedule, loans, schoolYears, students } from '../db/schema/index';
-import type { FeeSchedule } from '../../shared/api/fee';
+import {
+  appSettings,
+  feeSchedule,
+  instruments,
+  loans,
+  schoolYears,
+  students,
+} from '../db/schema/index';
+import type { FeeQuote, FeeSchedule } from '../../shared/api/fee';
 import { instrumentById } from '../../shared/music/index';
 import { readSetting, writeSetting } from '../core/settings';
 import { recordAudit } from '../core/audit';
-import { badRequest } from '../core/errors';
-import type { Actor } from '../core/policy';
+import { badRequest, notFound } from '../core/errors';
+import { assertInScope, inScope, type Actor } from '../core/policy';
+import { todayIso } from '../loans/school-calendar';
 
 /** The settings row holding the second-loan rule and the waiver reasons. */
 const feeRulesSetting = 'fee-rules';
@@ -160,4 +168,47 @@ export async function computeLoanFee(
     feeCents: Math.round((entry.yearlyFeeCents * rule.percent) / 100),
     basis: `${entry.scope} ${entry.key}, ${rule.percent}% as a further loan of the ${rule.basis}`,
   };
+}
+
+/**
+ * A waiver must name one of the district's waiver reasons from the schedule settings; the reason
+ * is compared as written there (surrounding spaces ignored).
+ */
+export async function assertWaiverReason(
+  db: Database,
+  input: { waiver: boolean; waiverReason?: string | undefined },
+): Promise<void> {
+  if (!input.waiver) return;
+  const { waiverReasons } = await readFeeSchedule(db, false);
+  const reason = input.waiverReason?.trim();
+  if (!reason)
+    throw badRequest('A waiver needs one of the district’s waiver reasons.', [
+      { field: 'waiverReason', message: 'Pick a waiver reason from the fee schedule.' },
+    ]);
+  if (!waiverReasons.includes(reason))
+    throw badRequest(
+      waiverReasons.length
+        ? `“${reason}” is not one of the district’s waiver reasons.`
+        : 'The district has no waiver reasons yet; the coordinator adds them to the fee schedule.',
+      [{ field: 'waiverReason', message: 'Pick a waiver reason from the fee schedule.' }],
+    );
+}
+
+/** The fee the schedule gives for lending this instrument to this student today, for the checkout form. */
+export async function quoteLoanFee(
+  db: Database,
+  actor: Actor,
+  query: { instrumentId: number; studentId: number },
+): Promise<FeeQuote> {
+  const [student] = await db.select().from(students).where(eq(students.id, query.studentId));
+  if (!student || !inScope(actor, student.schoolId)) throw notFound('That student');
+  const [instrument] = await db
+    .select()
+    .from(instruments)
+    .where(eq(instruments.id, query.instrumentId));
+  if (!instrument) throw notFound('That instrument');
+  assertInScope(actor, instrument.homeSchoolId, 'That instrument');
+  const computed = await computeLoanFee(db, instrument.instrumentId, student, todayIso());
+  const { waiverReasons } = await readFeeSchedule(db, false);
+  return { feeCents: computed.feeCents ?? null, basis: computed.basis, waiverReasons };
 }

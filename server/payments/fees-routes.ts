@@ -1,6 +1,7 @@
 import express, { Router } from 'express';
 import { z } from 'zod';
 import {
+  feeQuoteQuerySchema,
   feeScheduleSchema,
   manualPaymentInputSchema,
   refundInputSchema,
@@ -15,7 +16,7 @@ import { reportWorkbook } from '../reports/report-attachments';
 import { stateConflict } from '../instruments/instruments-service';
 import { findLoanRow } from '../loans/loans-queries';
 import { allFeeRows, feeDetail, feeRowOf, listFees, summariseFees } from './fees-queries';
-import { readFeeSchedule, writeFeeSchedule } from './fee-schedule';
+import { quoteLoanFee, readFeeSchedule, writeFeeSchedule } from './fee-schedule';
 import {
   handleWebhook,
   payTokens,
@@ -113,6 +114,10 @@ export function feesRoutes({ db, config }: Services): Router {
       .type('application/vnd.openxmlformats-officedocument.spreadsheetml.sheet')
       .set('Content-Disposition', 'attachment; filename="usage-fees.xlsx"')
       .send(workbook);
+  });
+  router.get('/fees/quote', requires('loans:write'), async (request, response) => {
+    const query = parseInput(feeQuoteQuerySchema, request.query, 'The fee quote');
+    response.json(await quoteLoanFee(db, actorOf(request), query));
   });
   router.get('/fees/:loanId', requires('loans:see-waivers'), async (request, response) => {
     parseInput(nothing, request.query, 'The query');

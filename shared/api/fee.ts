@@ -170,3 +170,17 @@ export const reconciliationSchema = z.object({
   mismatches: z.number().int(),
 });
 export type Reconciliation = z.infer<typeof reconciliationSchema>;
+
+/** `GET /api/fees/quote`: the scheduled fee for lending this instrument to this student today. */
+export const feeQuoteQuerySchema = z.strictObject({
+  instrumentId: idParameter,
+  studentId: idParameter,
+});
+
+/** `feeCents` null: no schedule line covers the instrument, so the fee is entered by hand. */
+export const feeQuoteSchema = z.object({
+  feeCents: z.number().int().nullable(),
+  basis: z.string(),
+  waiverReasons: z.array(z.string()),
+});
+export type FeeQuote = z.infer<typeof feeQuoteSchema>;

@@ -162,6 +162,7 @@ const matrix: Entry[] = [
   { route: 'GET /api/fees/reconciliation', codes: 'P33333' },
   { route: 'GET /api/fees/export.csv', codes: 'PPPPP3' },
   { route: 'GET /api/fees/export.xlsx', codes: 'PPPPP3' },
+  { route: 'GET /api/fees/quote', codes: 'PP4333', url: (f) => `/api/fees/quote?instrumentId=${f.hpmsInstrument}&studentId=${f.hpmsStudent}` },
   { route: 'GET /api/fees/:loanId', codes: 'PP4333', url: (f) => `/api/fees/${f.hpmsLoan}` },
   { route: 'POST /api/fees/:loanId/refunds', codes: 'P33333', url: (f) => `/api/fees/${f.hpmsLoan}/refunds` },
   { route: 'POST /api/fees/:loanId/payments', codes: 'P33333', url: (f) => `/api/fees/${f.hpmsLoan}/payments` },

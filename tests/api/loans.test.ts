@@ -190,12 +190,12 @@ describe('Loans', () => {
     const [studentId] = await studentsOf('HPMS', 1);
     const loan = await checkout(director, instrumentId, studentId!, {
       waiver: true,
-      waiverReason: 'Approved by the principal',
+      waiverReason: 'Free or reduced-price meals',
     });
-    expect(loan.body.waiverReason).toBe('Approved by the principal');
+    expect(loan.body.waiverReason).toBe('Free or reduced-price meals');
     expect(loan.body.usageFeeCents).toBe(0);
     expect((await coordinator.get(`/api/loans/${loan.body.id}`)).body.waiverReason).toBe(
-      'Approved by the principal',
+      'Free or reduced-price meals',
     );
     const seenByTechnician = await technician.get(`/api/loans/${loan.body.id}`);
     expect(seenByTechnician.status).toBe(200);

@@ -154,6 +154,94 @@ describe('fee schedule', () => {
   });
 });
 
+describe('fee quote and waiver reasons at checkout', () => {
+  async function freshFlute() {
+    const instrument = await coordinator.post('/api/instruments', {
+      assetTag: `TEST-PAY-${(tagNumber += 1)}`,
+      instrumentId: 'flute',
+      homeSchoolId: hpmsId,
+    });
+    expect(instrument.status).toBe(201);
+    const [student] = await query<{ id: number }>(
+      sql`select s.id from students s where s.school_id = ${hpmsId} and s.status = 'active' and not exists (select 1 from loans l where l.student_id = s.id) order by s.id desc limit 1`,
+    );
+    return { instrumentId: instrument.body.id as number, studentId: student!.id };
+  }
+
+  it('should quote the scheduled fee for an instrument and student, with the waiver reasons', async () => {
+    const { instrumentId, studentId } = await freshFlute();
+    const quote = await director.get(
+      `/api/fees/quote?instrumentId=${instrumentId}&studentId=${studentId}`,
+    );
+    expect(quote.status).toBe(200);
+    // The schedule above: flute is a woodwind, 40.00 a year; the student has no loan yet.
+    expect(quote.body).toEqual({
+      feeCents: 4000,
+      basis: 'family woodwind',
+      waiverReasons: ['Free or reduced-price meals', 'Hardship approved by the principal'],
+    });
+    const extra = await director.get(
+      `/api/fees/quote?instrumentId=${instrumentId}&studentId=${studentId}&fee=1`,
+    );
+    expect(extra.status).toBe(400);
+    const missing = await director.get(`/api/fees/quote?instrumentId=${instrumentId}`);
+    expect(missing.status).toBe(400);
+    expect(JSON.stringify(missing.body)).toContain('studentId');
+    expect(
+      (await technician.get(`/api/fees/quote?instrumentId=${instrumentId}&studentId=${studentId}`))
+        .status,
+    ).toBe(403);
+  });
+
+  it('should quote no fee where no schedule line covers the instrument', async () => {
+    const violin = await coordinator.post('/api/instruments', {
+      assetTag: `TEST-PAY-${(tagNumber += 1)}`,
+      instrumentId: 'violin',
+      homeSchoolId: hpmsId,
+    });
+    expect(violin.status).toBe(201);
+    const { studentId } = await freshFlute();
+    const quote = await director.get(
+      `/api/fees/quote?instrumentId=${violin.body.id}&studentId=${studentId}`,
+    );
+    expect(quote.status).toBe(200);
+    expect(quote.body.feeCents).toBeNull();
+  });
+
+  it('should refuse a waiver without a reason, or with one not on the list, and lend nothing', async () => {
+    const { instrumentId, studentId } = await freshFlute();
+    const loansBefore = await query<{ count: number }>(
+      sql`select count(*)::int as count from loans`,
+    );
+    const base = { instrumentId, studentId, conditionOut: 'good', waiver: true };
+    const noReason = await director.post('/api/loans', base);
+    expect(noReason.status).toBe(400);
+    expect(JSON.stringify(noReason.body)).toContain('waiverReason');
+    const blank = await director.post('/api/loans', { ...base, waiverReason: '   ' });
+    expect(blank.status).toBe(400);
+    const offList = await director.post('/api/loans', {
+      ...base,
+      waiverReason: 'Because I said so',
+    });
+    expect(offList.status).toBe(400);
+    expect(offList.body.message).toContain('not one of the district’s waiver reasons');
+    expect(JSON.stringify(offList.body)).toContain('waiverReason');
+    expect(await query<{ count: number }>(sql`select count(*)::int as count from loans`)).toEqual(
+      loansBefore,
+    );
+    const [instrument] = await query<{ status: string }>(
+      sql`select status from instruments where id = ${instrumentId}`,
+    );
+    expect(instrument!.status).toBe('available');
+    const listed = await director.post('/api/loans', {
+      ...base,
+      waiverReason: 'Hardship approved by the principal',
+    });
+    expect(listed.status).toBe(201);
+    expect(listed.body.usageFeeCents).toBe(0);
+  });
+});
+
 describe('paying through the hosted page', () => {
   it('should count a payment only when the signed event arrives, send a receipt, and refuse a second session', async () => {
     const { loan, token } = await lend('trombone');

@@ -80,7 +80,20 @@ describe('Instrument fleet screens', () => {
     await page.getByTestId('student-picker').fill(student.studentNumber);
     await page.getByRole('option', { name: new RegExp(student.studentNumber) }).click();
     await page.locator('mat-chip-option', { hasText: 'ligature' }).click();
-    await page.getByTestId('checkout-fee').fill('45');
+    // The demo fee schedule: 45.00 a year for a woodwind; the dialog shows it, nothing to type.
+    await expect
+      .poll(() => page.getByTestId('checkout-scheduled-fee').innerText(), patient)
+      .toContain('$45.00');
+    expect(await page.getByTestId('checkout-fee').count()).toBe(0);
+    // The waiver offers only the district's reasons from the fee schedule.
+    await page.getByTestId('checkout-waiver').click();
+    await page.getByTestId('checkout-waiver-reason').click();
+    expect(await page.getByRole('option').allInnerTexts()).toEqual([
+      'Family request, approved by the director',
+      'Free or reduced-price meals',
+    ]);
+    await page.keyboard.press('Escape');
+    await page.getByTestId('checkout-waiver').click();
     // Let the chip's ripple and the field's label settle before the picture.
     await page.waitForTimeout(600);
     await saveScreenshot(page, 'loan-checkout');

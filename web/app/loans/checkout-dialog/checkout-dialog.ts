@@ -1,3 +1,4 @@
+import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -13,6 +14,7 @@ import {
   type Instrument,
   type InstrumentCondition,
 } from '../../../../shared/api/instrument';
+import { feeQuoteSchema } from '../../../../shared/api/fee';
 import type { CheckoutInput, Loan } from '../../../../shared/api/loan';
 import type { Student } from '../../../../shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
@@ -75,10 +77,45 @@ export class CheckoutDialog {
   protected readonly accessoryChoices = computed(() =>
     accessoriesFor(this.instrument()?.instrumentId ?? null),
   );
+  /** The fee the district's schedule gives for the chosen instrument and student. */
+  protected readonly quote = httpResource(
+    () => {
+      const instrument = this.instrument();
+      const student = this.student();
+      if (!instrument || !student) return undefined;
+      return {
+        url: '/api/fees/quote',
+        params: { instrumentId: instrument.id, studentId: student.id },
+      };
+    },
+    { parse: (body) => feeQuoteSchema.parse(body) },
+  );
+  /** The scheduled fee in cents; null where no schedule line covers the instrument. */
+  protected readonly scheduledCents = computed(() =>
+    this.quote.hasValue() ? this.quote.value().feeCents : null,
+  );
+  protected readonly scheduledText = computed(() => {
+    const cents = this.scheduledCents();
+    return cents === null ? '' : `$${(cents / 100).toFixed(2)}`;
+  });
+  /** A fee may be typed only once the quote says the schedule has no line for the instrument. */
+  protected readonly handEntered = computed(
+    () => this.quote.hasValue() && this.quote.value().feeCents === null,
+  );
+  protected readonly waiverReasons = computed(() =>
+    this.quote.hasValue() ? this.quote.value().waiverReasons : [],
+  );
   protected readonly feeCents = computed(() => centsOf(this.fee()));
-  protected readonly feeInvalid = computed(() => Number.isNaN(this.feeCents()));
+  protected readonly feeInvalid = computed(
+    () => this.handEntered() && Number.isNaN(this.feeCents()),
+  );
   protected readonly ready = computed(
-    () => this.instrument() !== null && this.student() !== null && !this.feeInvalid(),
+    () =>
+      this.instrument() !== null &&
+      this.student() !== null &&
+      this.quote.hasValue() &&
+      !this.feeInvalid() &&
+      !(this.waiver() && !this.waiverReason()),
   );
   /** Whom the agreement went to, as the confirmation says it. */
   protected readonly guardianLine = computed(() => {
@@ -107,9 +144,9 @@ export class CheckoutDialog {
       dueOn: this.dueOn() || undefined,
       accessories: this.accessories(),
       conditionOut: this.condition(),
-      usageFeeCents: waived ? 0 : (this.feeCents() ?? 0),
+      usageFeeCents: waived || !this.handEntered() ? 0 : (this.feeCents() ?? 0),
       waiver: waived,
-      waiverReason: waived ? this.waiverReason().trim() || undefined : undefined,
+      waiverReason: waived ? this.waiverReason() || undefined : undefined,
     };
     this.saving.set(true);
     this.failure.set('');
