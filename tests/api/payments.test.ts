@@ -224,7 +224,7 @@ describe('fee quote and waiver reasons at checkout', () => {
       waiverReason: 'Because I said so',
     });
     expect(offList.status).toBe(400);
-    expect(offList.body.message).toContain('not one of the district’s waiver reasons');
+    expect(offList.body.error.message).toContain('not one of the district’s waiver reasons');
     expect(JSON.stringify(offList.body)).toContain('waiverReason');
     expect(await query<{ count: number }>(sql`select count(*)::int as count from loans`)).toEqual(
       loansBefore,

@@ -87,7 +87,7 @@ describe('Instrument fleet screens', () => {
     expect(await page.getByTestId('checkout-fee').count()).toBe(0);
     // The waiver offers only the district's reasons from the fee schedule.
     await page.getByTestId('checkout-waiver').click();
-    await page.getByTestId('checkout-waiver-reason').click();
+    await page.getByTestId('checkout-waiver-reason').click({ force: true });
     expect(await page.getByRole('option').allInnerTexts()).toEqual([
       'Family request, approved by the director',
       'Free or reduced-price meals',
