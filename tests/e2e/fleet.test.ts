@@ -86,14 +86,15 @@ describe('Instrument fleet screens', () => {
       .toContain('$45.00');
     expect(await page.getByTestId('checkout-fee').count()).toBe(0);
     // The waiver offers only the district's reasons from the fee schedule.
-    await page.getByTestId('checkout-waiver').click();
+    await page.getByRole('checkbox', { name: 'Waive the fee' }).check();
     await page.getByTestId('checkout-waiver-reason').click({ force: true });
-    expect(await page.getByRole('option').allInnerTexts()).toEqual([
-      'Family request, approved by the director',
-      'Free or reduced-price meals',
-    ]);
+    await expect
+      .poll(() => page.locator('mat-option').allInnerTexts(), patient)
+      .toEqual(['Family request, approved by the director', 'Free or reduced-price meals']);
     await page.keyboard.press('Escape');
-    await page.getByTestId('checkout-waiver').click();
+    await expect.poll(() => page.locator('mat-option').count(), patient).toBe(0);
+    await page.getByRole('checkbox', { name: 'Waive the fee' }).uncheck();
+    await expect.poll(() => page.getByTestId('checkout-scheduled-fee').count(), patient).toBe(1);
     // Let the chip's ripple and the field's label settle before the picture.
     await page.waitForTimeout(600);
     await saveScreenshot(page, 'loan-checkout');
