@@ -3,7 +3,7 @@ import { and, eq, max, ne, sql } from 'drizzle-orm';
 import type Stripe from 'stripe';
 import type { Config } from '../config';
 import type { Database, Transaction } from '../db/client';
-import { feeLedger, feePaymentAttempts, paymentEvents } from '../db/schema/index';
+import { feeLedger, feePaymentAttempts, loans, paymentEvents } from '../db/schema/index';
 import type { Reconciliation, RefundInput } from '../../shared/api/fee';
 import { sessionSecret } from '../core/settings';
 import { recordAudit } from '../core/audit';
@@ -191,6 +191,10 @@ async function completed(
     .from(feePaymentAttempts)
     .where(eq(feePaymentAttempts.sessionId, session.id));
   if (!attempt) return `unknown session ${session.id}`;
+  // Two tabs' payments of one loan can complete at once; on a PostgreSQL server their events run
+  // in parallel, so the loan's row is locked first and the second reads what the first wrote
+  // (PostgreSQL manual, 13.3.2 "Row-Level Locks": SELECT … FOR UPDATE).
+  await tx.select({ id: loans.id }).from(loans).where(eq(loans.id, attempt.loanId)).for('update');
   if (
     attempt.status === 'paid' ||
     attempt.status === 'mismatch' ||

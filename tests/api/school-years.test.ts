@@ -172,6 +172,12 @@ describe('Starting a new school year', () => {
         response.on('data', (chunk: Buffer) => chunks.push(chunk));
         response.on('end', () => done(null, Buffer.concat(chunks)));
       });
+    if (process.env['TEST_DATABASE_URL']) {
+      // On a PostgreSQL server the backup is pg_dump's, and the answer says so.
+      expect(backup.status).toBe(409);
+      expect((await director.get('/api/backup')).status).toBe(403);
+      return;
+    }
     expect(backup.status).toBe(200);
     expect(backup.headers['content-disposition']).toMatch(
       /attachment; filename="?tuttiboard-backup-\d{4}-\d{2}-\d{2}[-\d]*\.tar\.gz"?/,
