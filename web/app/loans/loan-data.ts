@@ -62,11 +62,6 @@ export class FleetLoans {
     return `/api/loans/${id}/agreement.pdf`;
   }
 
-  /** The agreement text guardians sign now, with its version (0 for the built-in default). */
-  agreementText(): Observable<AgreementText> {
-    return this.http.get('/api/loans/agreement-text').pipe(parsedWith(agreementTextSchema));
-  }
-
   /** Replaces the agreement text; loans already signed keep the text they were signed with. */
   saveAgreementText(text: string): Observable<AgreementText> {
     return this.http

@@ -1,17 +1,15 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { httpResource } from '@angular/common/http';
+import { ChangeDetectionStrategy, Component, effect, inject, signal } from '@angular/core';
 import { FormControl, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { agreementTextInputSchema, type AgreementText } from '../../../../shared/api/loan';
+import { agreementTextInputSchema, agreementTextSchema } from '../../../../shared/api/loan';
 import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { dayText } from '../../instruments/instrument-labels';
 import { FleetLoans } from '../../loans/loan-data';
-
-type Load<Value> =
-  { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready'; value: Value };
 
 /**
  * The loan agreement text guardians sign (`/api/loans/agreement-text`). Every save is a new
@@ -35,7 +33,10 @@ export class AgreementTextEditor {
 
   protected readonly day = dayText;
   protected readonly fieldMessage = fieldMessage;
-  protected readonly current = signal<Load<AgreementText>>({ kind: 'loading' });
+  protected readonly errorMessage = errorMessage;
+  protected readonly current = httpResource(() => '/api/loans/agreement-text', {
+    parse: (body) => agreementTextSchema.parse(body),
+  });
   protected readonly saving = signal(false);
   protected readonly notice = signal('');
   protected readonly failure = signal('');
@@ -45,15 +46,10 @@ export class AgreementTextEditor {
   });
 
   constructor() {
-    this.loans.agreementText().subscribe({
-      next: (value) => this.show(value),
-      error: (error: unknown) => this.current.set({ kind: 'error', message: errorMessage(error) }),
+    // The form follows the text in force: as loaded, and as saved.
+    effect(() => {
+      if (this.current.hasValue()) this.text.reset(this.current.value().text);
     });
-  }
-
-  private show(value: AgreementText): void {
-    this.current.set({ kind: 'ready', value });
-    this.text.reset(value.text);
   }
 
   protected save(): void {
@@ -65,7 +61,7 @@ export class AgreementTextEditor {
     this.loans.saveAgreementText(this.text.value).subscribe({
       next: (value) => {
         this.saving.set(false);
-        this.show(value);
+        this.current.set(value);
         this.notice.set(`Saved as version ${value.version}. New agreements use it.`);
       },
       error: (error: unknown) => {
