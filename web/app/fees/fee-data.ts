@@ -60,10 +60,6 @@ export class FeeLedger {
     return this.http.get('/api/fees/reconciliation').pipe(parsedWith(reconciliationSchema));
   }
 
-  schedule(): Observable<FeeSchedule> {
-    return this.http.get('/api/fees/schedule').pipe(parsedWith(feeScheduleSchema));
-  }
-
   saveSchedule(schedule: FeeSchedule): Observable<FeeSchedule> {
     return this.http.put('/api/fees/schedule', schedule).pipe(parsedWith(feeScheduleSchema));
   }

@@ -1,14 +1,12 @@
+import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import type { FeeSchedule } from '../../../../shared/api/fee';
+import { feeScheduleSchema, type FeeSchedule } from '../../../../shared/api/fee';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { centsOf, money } from '../../instruments/instrument-labels';
 import { FeeLedger } from '../../fees/fee-data';
-
-type Load<Value> =
-  { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready'; value: Value };
 
 const families = ['brass', 'woodwind', 'strings', 'percussion'];
 
@@ -31,20 +29,15 @@ export class FeeScheduleEditor {
   protected readonly money = money;
   protected readonly families = families;
   protected readonly isCoordinator = this.user.can('fees:manage');
-  protected readonly schedule = signal<Load<FeeSchedule>>({ kind: 'loading' });
+  protected readonly errorMessage = errorMessage;
+  protected readonly schedule = httpResource(() => '/api/fees/schedule', {
+    parse: (body) => feeScheduleSchema.parse(body),
+  });
   protected readonly scheduleNotice = signal('');
 
-  constructor() {
-    this.fees.schedule().subscribe({
-      next: (value) => this.schedule.set({ kind: 'ready', value }),
-      error: (error: unknown) => this.schedule.set({ kind: 'error', message: errorMessage(error) }),
-    });
-  }
-
   protected editSchedule(change: (schedule: FeeSchedule) => FeeSchedule): void {
-    const current = this.schedule();
-    if (current.kind === 'ready')
-      this.schedule.set({ kind: 'ready', value: change(structuredClone(current.value)) });
+    if (this.schedule.hasValue())
+      this.schedule.set(change(structuredClone(this.schedule.value())));
   }
 
   protected setEntryFee(index: number, text: string): void {
@@ -95,12 +88,11 @@ export class FeeScheduleEditor {
   }
 
   protected saveSchedule(): void {
-    const current = this.schedule();
-    if (current.kind !== 'ready') return;
-    const { onlinePayments: _online, ...schedule } = current.value;
+    if (!this.schedule.hasValue()) return;
+    const { onlinePayments: _online, ...schedule } = this.schedule.value();
     this.fees.saveSchedule(schedule).subscribe({
       next: (value) => {
-        this.schedule.set({ kind: 'ready', value });
+        this.schedule.set(value);
         this.scheduleNotice.set('Fee schedule saved. New loans are charged from it.');
       },
       error: (error: unknown) => this.scheduleNotice.set(errorMessage(error)),
