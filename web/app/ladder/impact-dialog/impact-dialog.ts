@@ -83,6 +83,9 @@ export class ImpactDialog {
     return share === null ? '—' : `${Math.round(share * 100)}%`;
   }
 
+  /** The moves whose counts open the names; those staying are counted only. */
+  protected readonly countedMoves: readonly Move[] = ['up', 'down'];
+
   protected moveWords(move: Move): string {
     return move === 'up' ? 'moving up' : move === 'down' ? 'moving down' : 'staying';
   }
