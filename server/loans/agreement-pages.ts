@@ -25,6 +25,7 @@ button{font:inherit;font-weight:600;background:#0b5f66;color:#fff;border:0;borde
 button:focus-visible,input:focus-visible{outline:3px solid #c8962a;outline-offset:2px}
 .error{color:#a3261b;font-weight:600}
 .small{color:#6b645b;font-size:.85rem}
+code{overflow-wrap:anywhere}
 `;
 
 export function page(
