@@ -15,6 +15,7 @@ let app: TestApp;
 let browser: Browser;
 const folder = fs.mkdtempSync(path.join(os.tmpdir(), 'tutti-fake-microphone-'));
 const wave = path.join(folder, 'take.wav');
+const slowWave = path.join(folder, 'slow-take.wav');
 
 /** The take's requirement, the student's place in an ensemble's grid, and the notes played. */
 interface TakePlan {
@@ -95,6 +96,12 @@ beforeAll(async () => {
   const padded = new Float32Array(synthesised.samples.length + 48_000 * 8);
   padded.set(synthesised.samples);
   fs.writeFileSync(wave, wavBytes(padded, 48_000));
+  // What the director records live: the same requirement, every note in tune, 8 % slow.
+  const slow = synthTake(plan.notes, plan.requirement.tempo, {
+    sampleRate: 44_100,
+    tempoShare: 0.92,
+  });
+  fs.writeFileSync(slowWave, wavBytes(slow.samples, 44_100));
   browser = await chromium.launch({
     executablePath: chromiumPath,
     args: [
@@ -192,6 +199,48 @@ describe('The listening aid in the browser', () => {
       .toMatch(new RegExp(`♩${tempoHeard}`));
     expect(await cell(plan.rowIndex).innerText()).toMatch(/P passed · N not yet/);
     await saveScreenshot(grid, 'listening-director-cell');
+
+    // The director listens to the student live: a file that is not sound gets a clear message.
+    const upload = grid.getByTestId('director-take-file');
+    await upload.setInputFiles({
+      name: 'notes.txt',
+      mimeType: 'text/plain',
+      buffer: Buffer.from('Not a recording.'),
+    });
+    await expect
+      .poll(() => grid.getByTestId('director-take-problem').innerText(), { timeout: 20_000 })
+      .toMatch(/not a sound file this browser can read/);
+
+    // A recording of the student playing 8 % slow with every note in tune: the same analysis
+    // against the requirement's notes at its tempo, and the slower tempo heard fills the cell.
+    await upload.setInputFiles(slowWave);
+    const directorTake = grid.getByTestId('director-take');
+    await directorTake.getByTestId('take-summary').waitFor({ timeout: 60_000 });
+    const directorLabels = await directorTake.getByTestId('take-note').allInnerTexts();
+    expect(directorLabels).toHaveLength(notes.length);
+    directorLabels.forEach((label) => expect(label).toMatch(/In tune/));
+    expect(await directorTake.getByTestId('take-summary').innerText()).toMatch(
+      new RegExp(`asked ${requirement.tempo}`),
+    );
+    // 8 % slow is below the tempo asked: the aid suggests not yet; the director decides.
+    expect(await grid.getByTestId('director-take-suggestion').innerText()).toMatch(
+      /not yet — you decide/,
+    );
+    const prefill = grid.getByTestId('director-take-prefill');
+    const slowHeard = Number(/♩(\d+)/.exec(await prefill.innerText())![1]);
+    // The planted tempo (synthesised 8 % slow), within 3 % of the tempo asked: a looser band
+    // than the engine's own tests, as the browser's decoder resamples the file to its own rate.
+    expect(Math.abs(slowHeard - requirement.tempo * 0.92)).toBeLessThanOrEqual(
+      requirement.tempo * 0.03,
+    );
+    expect(slowHeard).not.toBe(tempoHeard);
+    await prefill.click();
+    await expect
+      .poll(() => cell(plan.rowIndex).innerText(), { timeout: 20_000 })
+      .toMatch(new RegExp(`♩${slowHeard}`));
+    expect(await cell(plan.rowIndex).innerText()).toMatch(/P passed · N not yet/);
+    await directorTake.scrollIntoViewIfNeeded();
+    await saveScreenshot(grid, 'listening-director-take');
     await directorContext.close();
   });
 });

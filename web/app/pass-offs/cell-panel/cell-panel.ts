@@ -14,7 +14,8 @@ import { RouterLink } from '@angular/router';
 import type { LadderRequirement } from '../../../../shared/api/ladder';
 import type { PassOff } from '../../../../shared/api/pass-off';
 import type { Take } from '../../../../shared/api/take';
-import { verdictLabels } from '../../practice/take-panel/take-panel';
+import { aidSuggestion, verdictLabels } from '../../practice/take-panel/take-analysis-view';
+import { DirectorTake } from './director-take';
 import { dateText } from '../../ladder/date-text';
 import {
   articulationText,
@@ -40,7 +41,14 @@ export interface NoteChange {
  */
 @Component({
   selector: 'tb-cell-panel',
-  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, RouterLink],
+  imports: [
+    DirectorTake,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    RouterLink,
+  ],
   templateUrl: './cell-panel.html',
   styleUrl: './cell-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -70,16 +78,8 @@ export class CellPanel {
 
   protected readonly verdictLabels = verdictLabels;
 
-  /**
-   * What the listening aid would suggest, in words: passed when every note was in tune and the
-   * tempo held; the director decides.
-   */
   protected suggestion(take: Take): string {
-    const { analysis, tempoAsked } = take;
-    const kept = analysis.tempo !== null && analysis.tempo >= tempoAsked - 2;
-    return analysis.pitchAccuracy === 1 && analysis.extraNotes === 0 && kept
-      ? 'The aid suggests: passed'
-      : 'The aid suggests: not yet';
+    return aidSuggestion(take.analysis, take.tempoAsked);
   }
 
   /** A tempo or a number of cents, whole. */

@@ -11,23 +11,18 @@ import { HttpErrorResponse } from '@angular/common/http';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
-import type { NoteVerdict, TakeAnalysis } from '../../../../shared/listening';
+import type { TakeAnalysis } from '../../../../shared/listening';
 import type { PatternNote } from '../../../../shared/music';
 import type { Take } from '../../../../shared/api/take';
 import { SheetPlayback } from '../playback/sheet-playback';
 import { analyseInWorker } from './take-job';
 import { TakeRecorder, type RecordedTake } from './take-recorder';
 import { Takes } from './takes';
+import { TakeAnalysisView } from './take-analysis-view';
+
+export { verdictLabels } from './take-analysis-view';
 
 type Stage = 'idle' | 'asking' | 'recording' | 'listening' | 'heard' | 'problem';
-
-/** Words for each verdict, so a note's state never rests on its colour alone. */
-export const verdictLabels: Record<NoteVerdict, string> = {
-  ok: 'In tune',
-  'out-of-tune': 'Out of tune',
-  'wrong-note': 'Wrong note',
-  missed: 'Missed',
-};
 
 /**
  * Record a take of the sheet: the microphone (after the browser's permission prompt), a
@@ -37,7 +32,7 @@ export const verdictLabels: Record<NoteVerdict, string> = {
  */
 @Component({
   selector: 'tb-take-panel',
-  imports: [MatButtonModule, MatIconModule, MatProgressSpinnerModule],
+  imports: [MatButtonModule, MatIconModule, MatProgressSpinnerModule, TakeAnalysisView],
   templateUrl: './take-panel.html',
   styleUrl: './take-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -59,7 +54,6 @@ export class TakePanel {
   protected readonly kept = signal<Take | null>(null);
   protected readonly saving = signal(false);
   protected readonly level = this.recorder.level;
-  protected readonly labels = verdictLabels;
   private recorded?: RecordedTake;
   private autoStop?: ReturnType<typeof setTimeout>;
 
@@ -71,27 +65,6 @@ export class TakePanel {
   }
 
   protected readonly levelPercent = computed(() => Math.round(this.level() * 100));
-  protected readonly okCount = computed(
-    () => this.analysis()?.notes.filter((note) => note.verdict === 'ok').length ?? 0,
-  );
-  /** The cents line: one point per heard note, ±50 cents across the strip's height. */
-  protected readonly centsPoints = computed(() => {
-    const notes = this.analysis()?.notes ?? [];
-    const width = 100 / Math.max(1, notes.length);
-    return notes
-      .map((note, index) =>
-        note.centsOff === null
-          ? null
-          : { x: width * (index + 0.5), y: 50 - Math.max(-50, Math.min(50, note.centsOff)) },
-      )
-      .filter((point): point is { x: number; y: number } => point !== null);
-  });
-  protected readonly centsPath = computed(() =>
-    this.centsPoints()
-      .map((point) => `${point.x.toFixed(2)},${point.y.toFixed(2)}`)
-      .join(' '),
-  );
-
   /** Starts: asks for the microphone, counts in, records; stops by itself after the pattern. */
   protected async record(): Promise<void> {
     this.problem.set(null);
@@ -158,13 +131,6 @@ export class TakePanel {
         }),
       error: (error: unknown) => this.failed(error),
     });
-  }
-
-  protected verdictText(note: { verdict: NoteVerdict; centsOff: number | null }): string {
-    const label = verdictLabels[note.verdict];
-    if (note.centsOff === null || note.verdict === 'wrong-note') return label;
-    const cents = Math.round(note.centsOff);
-    return `${label}, ${cents > 0 ? '+' : ''}${cents} ¢`;
   }
 
   private failed(error: unknown): void {
