@@ -10,11 +10,14 @@ export const longestName = 80;
 export const longestEnsembleName = 80;
 
 /** The longest district student id a roster row keeps. */
-export const longestStudentId = 40;
+export const longestStudentId = 64;
 
 /** One roster row after validation: one student in one ensemble (or in none). */
 export interface RosterRow {
-  /** The district's student id: letters, digits, '-' and '_'. */
+  /**
+   * The district's student id as its systems write it: printable, no spaces or control
+   * characters (`mary.jones`, `S-00417`, `ab+1@sis`), compared case-sensitively.
+   */
   studentId: string;
   firstName: string;
   lastName: string;
@@ -29,7 +32,9 @@ export interface RosterRow {
   guardianEmail?: string;
 }
 
-const studentIdCharacters = /^[A-Za-z0-9_-]+$/;
+// Any printable character but white space: \p{C} is Unicode's "Other" category (controls,
+// format characters such as U+200B, surrogates, private use, unassigned), \p{Z} its separators.
+const studentIdCharacters = /^[^\s\p{C}\p{Z}]+$/u;
 const schoolCodeCharacters = /^[A-Z0-9]{2,10}$/;
 const whitespaceRun = /\s+/g;
 const unusualWhitespace = /\s\s|[^\S ]/;
@@ -113,7 +118,7 @@ function normaliseRow(cells: RosterCells, context: z.RefinementCtx): RosterRow {
   } else if (!studentIdCharacters.test(studentId)) {
     problems.push([
       'studentId',
-      `Student ID ${quoteValue(studentId)} may contain only letters, digits, '-' and '_'.`,
+      `Student ID ${quoteValue(studentId)} may not contain spaces or control characters.`,
     ]);
   }
   const firstName = nameCell(cells, 'firstName', true, problems);

@@ -5,11 +5,16 @@ import { decodeText } from './decode';
 import { parseCsv, type ParsedCsv } from './parse-csv';
 import type { RowError } from './parsed-roster';
 
-/** The OneRoster 1.1 CSV files a roster import reads (1EdTech OneRoster 1.1 CSV Tables, §2). */
+/**
+ * The OneRoster CSV files a roster import reads (1EdTech OneRoster 1.1 CSV Tables §2; OneRoster
+ * 1.2 CSV Binding §3 adds roles.csv). Every other file of a bundle (userProfiles.csv,
+ * demographics.csv, lineItems.csv, …) is left unread without complaint.
+ */
 export const bundleFileNames = [
   'manifest.csv',
   'orgs.csv',
   'users.csv',
+  'roles.csv',
   'classes.csv',
   'enrollments.csv',
   'courses.csv',

@@ -140,18 +140,42 @@ describe('readOneRosterBundle', () => {
     ]);
   });
 
-  it('should report a school with no identifier on its orgs.csv line when the school code is blank', async () => {
+  it('should report an org that matches no school on its orgs.csv line when it has no identifier', async () => {
     const files = bundleWith('orgs.csv', (text) => text.replace('school,TRHS,', 'school,,'));
-    const parsed = await readOneRosterBundle(files);
+    const parsed = await readOneRosterBundle(files, {
+      knownSchoolCodes: new Set(['HPMS', 'QHMS', 'TRHS', 'FBES']),
+    });
     expect(parsed.errors).toEqual([
       {
         line: 5,
         column: 'orgs.csv:identifier',
         message:
-          "School 'Tamsin Ridge High' has no identifier; the roster needs its school code there.",
+          "Org 'Tamsin Ridge High' (sourcedId 'org-trhs', no identifier) matches no school of the district by identifier, saved mapping or name; choose its school in the import's mapping step.",
       },
     ]);
+    expect(parsed.unmappedOrgs).toEqual([
+      { sourcedId: 'org-trhs', name: 'Tamsin Ridge High', identifier: '', type: 'school', line: 5 },
+    ]);
     expect(parsed.rows).toHaveLength(5);
+  });
+
+  it('should find a school without identifier by its name, then by a saved mapping', async () => {
+    const files = bundleWith('orgs.csv', (text) => text.replace('school,TRHS,', 'school,,'));
+    const knownSchoolCodes = new Set(['HPMS', 'QHMS', 'TRHS', 'FBES']);
+    const byName = await readOneRosterBundle(files, {
+      knownSchoolCodes,
+      schoolCodeByName: new Map([['tamsin ridge high', 'TRHS']]),
+    });
+    expect(byName.errors).toEqual([]);
+    expect(byName.rows.find(({ row }) => row.studentId === 'TR-8003')?.row.schoolCode).toBe('TRHS');
+    const bySaved = await readOneRosterBundle(
+      bundleWith('orgs.csv', (text) =>
+        text.replace('Tamsin Ridge High,school,TRHS', 'TRHS Campus,school,'),
+      ),
+      { knownSchoolCodes, schoolCodeByOrg: new Map([['org-trhs', 'TRHS']]) },
+    );
+    expect(bySaved.errors).toEqual([]);
+    expect(bySaved.rows).toStrictEqual(byName.rows);
   });
 
   it('should report enrolments in unknown classes and of unknown students when references break', async () => {
@@ -169,7 +193,7 @@ describe('readOneRosterBundle', () => {
       {
         line: 7,
         column: 'enrollments.csv:userSourcedId',
-        message: "Student 'u-s9' is not in users.csv (as a user with role student).",
+        message: "Student 'u-s9' is not in users.csv.",
       },
     ]);
   });
@@ -182,9 +206,56 @@ describe('readOneRosterBundle', () => {
       {
         line: 6,
         column: 'orgs.csv:identifier',
-        message: "School code 'FBES' is not one of the district's schools (HPMS, QHMS, TRHS).",
+        message:
+          "Org 'Firthbarrow Elementary' (sourcedId 'org-fbes', identifier 'FBES') matches no school of the district by identifier, saved mapping or name; choose its school in the import's mapping step.",
       },
     ]);
+  });
+
+  it('should name the teacher when an enrolment as a student names a teacher', async () => {
+    const files = bundleWith('enrollments.csv', (text) =>
+      text.replace('e-6,,,class-qh-strings,,u-s5', 'e-6,,,class-qh-strings,,u-t1'),
+    );
+    expect((await readOneRosterBundle(files)).errors).toEqual([
+      {
+        line: 7,
+        column: 'enrollments.csv:userSourcedId',
+        message:
+          "User 'u-t1' is enrolled as a student, but users.csv line 11 gives them the role teacher.",
+      },
+    ]);
+  });
+
+  it('should name the class and the org when a class is in an org that is not there', async () => {
+    const files = bundleWith('classes.csv', (text) =>
+      text.replace(
+        'Strings 7,07,course-orch,QH-S7,scheduled,Room 9,org-qhms',
+        'Strings 7,07,course-orch,QH-S7,scheduled,Room 9,org-gone',
+      ),
+    );
+    expect((await readOneRosterBundle(files)).errors).toEqual([
+      {
+        line: 5,
+        column: 'classes.csv:schoolSourcedId',
+        message: "Org 'org-gone' is not in orgs.csv.",
+      },
+    ]);
+  });
+
+  // OneRoster 1.1 CSV Tables §2.3: a record marked tobedeleted is gone, and so are the records
+  // that point at it.
+  it('should skip and count a class marked tobedeleted and its enrolments, without an error', async () => {
+    const files = bundleWith('classes.csv', (text) =>
+      text.replace('class-tr-chamber,,,', 'class-tr-chamber,tobedeleted,2026-09-01T08:00:00.000Z,'),
+    );
+    const parsed = await readOneRosterBundle(files);
+    expect(parsed.errors).toEqual([]);
+    // The student stays on the roster, in no ensemble.
+    expect(parsed.rows.filter(({ row }) => row.studentId === 'TR-8003')).toEqual([
+      { line: 4, row: expect.not.objectContaining({ ensemble: expect.anything() }) },
+    ]);
+    // The class, its one student enrolment (e-4) and the already deleted enrolment e-7.
+    expect(parsed.skipped).toBe(3);
   });
 
   it('should report two students with one identifier when users.csv repeats it', async () => {
@@ -199,25 +270,25 @@ describe('readOneRosterBundle', () => {
     ]);
   });
 
-  // OneRoster 1.1 CSV manifest: file.<name> is absent, bulk or delta; oneroster.version is 1.1.
+  // OneRoster 1.1 CSV Tables §2.2: file.<name> is absent, bulk or delta; oneroster.version 1.1.
   it.each([
-    [
-      'file.users,bulk',
-      'file.users,delta',
-      16,
-      'manifest.csv says users.csv is a delta (changes only); export a bulk bundle so that every student is listed.',
-    ],
     [
       'file.enrollments,bulk',
       'file.enrollments,absent',
       11,
-      'manifest.csv says enrollments.csv is absent; a roster import needs it.',
+      'manifest.csv says enrollments.csv is absent; a bulk roster import needs it.',
+    ],
+    [
+      'file.users,bulk',
+      'file.users,sometimes',
+      16,
+      "manifest.csv gives file.users as 'sometimes'; it must be bulk, delta or absent.",
     ],
     [
       'oneroster.version,1.1',
-      'oneroster.version,1.2',
+      'oneroster.version,1.3',
       3,
-      "The bundle is OneRoster version '1.2'; this import reads OneRoster 1.1 CSV bundles.",
+      "The bundle is OneRoster version '1.3'; this import reads OneRoster 1.1 and 1.2 CSV bundles.",
     ],
   ])(
     'should refuse the bundle when the manifest line %s becomes %s',
@@ -231,7 +302,7 @@ describe('readOneRosterBundle', () => {
   );
 
   it('should name each missing file and column when the bundle is incomplete', async () => {
-    const files = bundleWith('users.csv', (text) => text.replace(',grades,', ',grade,'));
+    const files = bundleWith('users.csv', (text) => text.replace(',role,', ',roles,'));
     files.delete('classes.csv');
     files.delete('manifest.csv');
     const parsed = await readOneRosterBundle(files);
@@ -240,9 +311,9 @@ describe('readOneRosterBundle', () => {
       {
         line: 0,
         column: 'manifest.csv',
-        message: 'The bundle has no manifest.csv; a OneRoster 1.1 CSV bundle starts with one.',
+        message: 'The bundle has no manifest.csv; a OneRoster CSV bundle starts with one.',
       },
-      { line: 1, column: 'users.csv:grades', message: "users.csv has no 'grades' column." },
+      { line: 1, column: 'users.csv:role', message: "users.csv has no 'role' column." },
       { line: 0, column: 'classes.csv', message: 'The bundle has no classes.csv.' },
     ]);
   });

@@ -165,7 +165,7 @@ describe('parseRosterCsv', () => {
       {
         line: 11,
         column: 'student_id',
-        message: "Student ID 'HP 5007' may contain only letters, digits, '-' and '_'.",
+        message: "Student ID 'HP 5007' may not contain spaces or control characters.",
       },
       { line: 11, column: 'grade', message: "Grade must be K or 1 to 12; got 'PK'." },
       {

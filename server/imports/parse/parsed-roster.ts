@@ -24,4 +24,30 @@ export interface ParsedRoster {
   errors: RowError[];
   /** How many roster rows the upload held, valid or not. */
   totalRows: number;
+  /**
+   * Bundle records left out as the OneRoster status asks: records marked `tobedeleted` and the
+   * enrolments and roles that point at them. Counted, never reported as errors.
+   */
+  skipped?: number;
+  /**
+   * Set for a OneRoster delta bundle: it lists changes only, so no student it leaves out is
+   * withdrawn; the students it marks `tobedeleted` are, and the seats it marks so are ended.
+   */
+  delta?: DeltaChanges;
+  /** The bundle's orgs that matched no school of the district. */
+  unmappedOrgs?: {
+    sourcedId: string;
+    name: string;
+    identifier: string;
+    type: string;
+    line: number;
+  }[];
+}
+
+/** What a OneRoster delta bundle takes away. */
+export interface DeltaChanges {
+  /** The district student ids of the students it marks `tobedeleted`. */
+  withdrawnStudentIds: string[];
+  /** The seats (a student in an ensemble of a school) whose enrolment it marks `tobedeleted`. */
+  endedSeats: { studentId: string; schoolCode: string; ensemble: string }[];
 }
