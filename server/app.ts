@@ -26,6 +26,7 @@ import { enrollmentsRoutes } from './enrollments/enrollments-routes';
 import { gridPreferencesRoutes } from './grid-preferences/grid-preferences-routes';
 import { localCommandRoutes } from './cli/local-command-routes';
 import { fleetRoutes, agreementPages } from './instruments/fleet-routes';
+import { oneRosterRoutes } from './oneroster/oneroster-routes';
 import { importsRoutes } from './imports/imports-routes';
 import { ladderRoutes } from './ladder/ladder-routes';
 import { passOffsRoutes } from './pass-offs/pass-offs-routes';
@@ -63,6 +64,7 @@ export const featureRoutes: ((services: Services) => Router)[] = [
   outboxRoutes,
   reportsRoutes,
   importsRoutes,
+  oneRosterRoutes,
   studentsRoutes,
   ensemblesRoutes,
   enrollmentsRoutes,

@@ -12,6 +12,7 @@ import {
   writtenStudentColumns,
   type ImportPlan,
 } from './import-plan';
+import { applyDeltaRemovals } from './delta-removals';
 import { takeBackLanded } from './landed-students';
 import { rosterGeneration } from './roster-snapshot';
 import { inSqlTransaction, queryJson, type SqlSession, type StagedValue } from './sql-session';
@@ -617,11 +618,13 @@ export async function commitImport(
       const seatChanges = year ? await seatStudents(session, year.id) : new Set<string>();
       for (const definition of rebuild) await session.query(definition);
       const schoolIds = plan.schoolCodes.map((code) => schoolIdByCode.get(code)!);
-      const withdrawn = plan.options.withdrawMissing
-        ? await withdrawMissing(session, schoolIds, year?.id ?? null, userId)
-        : 0;
+      const removed = await applyDeltaRemovals(session, plan, year?.id ?? null, userId);
+      const withdrawn =
+        (plan.options.withdrawMissing
+          ? await withdrawMissing(session, schoolIds, year?.id ?? null, userId)
+          : 0) + removed.withdrawn;
 
-      const counts = { created: 0, updated: 0, unchanged: 0 };
+      const counts = { created: 0, updated: removed.endedSeats, unchanged: 0 };
       for (const { row } of plan.parsed.rows) {
         if (created.has(row.studentId)) counts.created += 1;
         else if (updated.has(row.studentId)) counts.updated += 1;

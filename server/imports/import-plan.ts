@@ -39,6 +39,11 @@ export interface ImportPlan {
   createdStudents: PlannedStudent[];
   updatedStudents: PlannedUpdate[];
   withdrawnStudents: PlannedStudent[];
+  /**
+   * A OneRoster delta's removals: the students it marks `tobedeleted` (also in
+   * `withdrawnStudents`) and the active seats whose enrolment it marks so.
+   */
+  deltaRemovals: { studentIds: string[]; endedSeats: { studentId: string; ensembleId: number }[] };
   newEnsembles: PlannedEnsemble[];
   /** The schools the valid rows are at. */
   schoolCodes: string[];
@@ -152,12 +157,19 @@ export async function planImport(
   parsed: ParsedRoster,
   options: ImportOptions,
 ): Promise<ImportPlan> {
+  const { delta } = parsed;
+  // A delta lists changes only: no student is withdrawn for being left out of it.
+  if (delta) options = { ...options, withdrawMissing: false };
   const students = firstRowOfEachStudent(parsed);
   const schoolCodes = [...new Set(students.map((row) => row.schoolCode))].sort();
+  const deltaIds = delta
+    ? [...delta.withdrawnStudentIds, ...delta.endedSeats.map((seat) => seat.studentId)]
+    : [];
+  const deltaSchools = delta ? delta.endedSeats.map((seat) => seat.schoolCode) : [];
   const snapshot = await readRosterSnapshot(
     db,
-    students.map((row) => row.studentId),
-    schoolCodes,
+    [...new Set([...students.map((row) => row.studentId), ...deltaIds])],
+    [...new Set([...schoolCodes, ...deltaSchools])].sort(),
     options.withdrawMissing,
   );
   const errors = [...parsed.errors];
@@ -257,11 +269,19 @@ export async function planImport(
     withdrawnStudents.sort((first, second) => first.studentId.localeCompare(second.studentId));
   }
 
+  const deltaRemovals = plannedDeltaRemovals(parsed, snapshot, updatedStudents);
+  withdrawnStudents.push(
+    ...deltaRemovals.studentIds.map((id) =>
+      existingAsPlanned(snapshot.students.get(id)!, snapshot),
+    ),
+  );
+
   const count = (kind: (typeof rowClass)[number]) =>
     rowClass.filter((entry) => entry === kind).length;
   const blocking = errors.some((error) => error.line === 0);
-  const canCommit =
-    !blocking && parsed.rows.length > 0 && (errors.length === 0 || options.skipInvalid);
+  const changes =
+    parsed.rows.length + deltaRemovals.studentIds.length + deltaRemovals.endedSeats.length;
+  const canCommit = !blocking && changes > 0 && (errors.length === 0 || options.skipInvalid);
   return {
     parsed,
     options,
@@ -270,13 +290,14 @@ export async function planImport(
       rows: parsed.totalRows,
       validRows: parsed.rows.length,
       created: count('created'),
-      updated: count('updated'),
+      updated: count('updated') + deltaRemovals.endedSeats.length,
       unchanged: count('unchanged'),
       withdrawn: withdrawnStudents.length,
     },
     createdStudents,
     updatedStudents,
     withdrawnStudents,
+    deltaRemovals,
     newEnsembles: [...newEnsembles.values()],
     schoolCodes,
     canCommit,
@@ -291,4 +312,46 @@ export async function planImport(
 // A row of a student whose own fields change is an updated row, whichever ensemble it is for.
 function hasStudentChange(changes: FieldChange[]): boolean {
   return changes.some((change) => change.field !== 'ensemble' && change.field !== 'instrument');
+}
+
+/**
+ * What a OneRoster delta takes away, against the database: its `tobedeleted` students who are
+ * active (and not listed again in the same delta), and its `tobedeleted` enrolments that match
+ * an active seat of the current year. Each ended seat is added to `updatedStudents` as a change.
+ */
+function plannedDeltaRemovals(
+  parsed: ParsedRoster,
+  snapshot: RosterSnapshot,
+  updatedStudents: PlannedUpdate[],
+): ImportPlan['deltaRemovals'] {
+  const removals: ImportPlan['deltaRemovals'] = { studentIds: [], endedSeats: [] };
+  if (!parsed.delta) return removals;
+  const listed = new Set(parsed.rows.map(({ row }) => row.studentId));
+  for (const id of new Set(parsed.delta.withdrawnStudentIds)) {
+    const existing = snapshot.students.get(id);
+    if (existing?.status === 'active' && !listed.has(id)) removals.studentIds.push(id);
+  }
+  const withdrawn = new Set(removals.studentIds);
+  for (const seat of parsed.delta.endedSeats) {
+    const existing = snapshot.students.get(seat.studentId);
+    if (!existing || withdrawn.has(seat.studentId)) continue;
+    const schoolId = snapshot.schoolIdByCode.get(seat.schoolCode);
+    const ensemble =
+      schoolId === undefined
+        ? undefined
+        : snapshot.ensembles.get(schoolId)?.get(seat.ensemble.toLowerCase());
+    if (!ensemble || !snapshot.seats.get(seat.studentId)?.get(ensemble.id)?.active) continue;
+    if (
+      removals.endedSeats.some(
+        (ended) => ended.studentId === seat.studentId && ended.ensembleId === ensemble.id,
+      )
+    )
+      continue;
+    removals.endedSeats.push({ studentId: seat.studentId, ensembleId: ensemble.id });
+    const change: FieldChange = { field: 'ensemble', before: ensemble.name, after: null };
+    const update = updatedStudents.find((entry) => entry.studentId === seat.studentId);
+    if (update) update.changes.push(change);
+    else updatedStudents.push({ ...existingAsPlanned(existing, snapshot), changes: [change] });
+  }
+  return removals;
 }

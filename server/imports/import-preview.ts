@@ -92,5 +92,15 @@ export function importPreview(
     errors: plan.errors,
     totalRows: parsed.totalRows,
     plan: planSummary(plan),
+    ...(parsed.oneRosterVersion
+      ? {
+          oneRoster: {
+            version: parsed.oneRosterVersion,
+            delta: parsed.delta !== undefined,
+            skipped: parsed.skipped ?? 0,
+            unmappedOrgs: parsed.unmappedOrgs ?? [],
+          },
+        }
+      : {}),
   };
 }

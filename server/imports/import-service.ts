@@ -6,7 +6,7 @@ import { commitImport, type ImportMeta } from './import-commit';
 import { planImport, uncommittedResult, type ImportPlan } from './import-plan';
 import type { ParsedRoster } from './parse/parsed-roster';
 import { listedStudentIds, readRosterUpload, type RosterUpload } from './read-upload';
-import { districtSchoolCodes } from './roster-snapshot';
+import { orgMatching, rememberOrgSchools } from '../oneroster/oneroster-queries';
 
 export { planImport, type ImportOptions, type ImportPlan } from './import-plan';
 export { commitImport, type CommittedImport, type ImportMeta } from './import-commit';
@@ -45,11 +45,8 @@ export async function planUpload(
   database: DatabaseHandle,
   request: Omit<ImportRequest, 'dryRun'>,
 ): Promise<ImportPlan> {
-  const knownSchoolCodes = await districtSchoolCodes(database.db);
-  const parsed = await readRosterUpload(request.upload, {
-    mapping: request.mapping,
-    knownSchoolCodes,
-  });
+  const matching = await orgMatching(database.db);
+  const parsed = await readRosterUpload(request.upload, { mapping: request.mapping, ...matching });
   const listed =
     request.withdrawMissing && parsed.errors.length > 0
       ? await listedStudentIds(request.upload, parsed)
@@ -75,5 +72,6 @@ export async function importRoster(
   const unreadable = isUnreadable(plan.parsed);
   if (request.dryRun || unreadable) return { plan, unreadable, result: uncommittedResult(plan) };
   const { importId, ...result } = await commitImport(database, plan, actor, meta);
+  if (result.committed) await rememberOrgSchools(database.db, plan.parsed.matchedOrgs ?? []);
   return { plan, result, importId, unreadable };
 }

@@ -3,6 +3,7 @@ import type { ColumnMapping } from '../../shared/roster';
 import { decodeText } from './parse/decode';
 import { readBundleFiles } from './parse/oneroster-files';
 import { readOneRosterBundle } from './parse/oneroster';
+import type { OrgMatching } from './parse/oneroster-orgs';
 import { parseCsv } from './parse/parse-csv';
 import { detectRosterKind, parseRosterCsvYielding } from './parse/parse-roster';
 import type { ParsedRoster } from './parse/parsed-roster';
@@ -10,10 +11,13 @@ import type { ParsedRoster } from './parse/parsed-roster';
 /** An uploaded roster: a CSV file or a zipped OneRoster bundle, as bytes, or a bundle folder. */
 export type RosterUpload = { fileName: string; bytes: Uint8Array } | { folder: string };
 
-/** What reading an upload needs: the coordinator's mapping, and the district's school codes. */
-export interface ReadOptions {
+/**
+ * What reading an upload needs: the coordinator's mapping, the district's school codes, and (for
+ * a OneRoster bundle) the schools by name and the orgs mapped at earlier imports.
+ */
+export interface ReadOptions extends OrgMatching {
   mapping?: ColumnMapping;
-  knownSchoolCodes: Set<string>;
+  knownSchoolCodes: ReadonlySet<string>;
 }
 
 /** The name an upload is shown and recorded under. */
@@ -29,9 +33,14 @@ export async function readRosterUpload(
   options: ReadOptions,
 ): Promise<ParsedRoster> {
   const checks = { knownSchoolCodes: options.knownSchoolCodes };
-  if ('folder' in upload) return readOneRosterBundle(upload.folder, checks);
+  const bundleChecks = {
+    ...checks,
+    schoolCodeByName: options.schoolCodeByName,
+    schoolCodeByOrg: options.schoolCodeByOrg,
+  };
+  if ('folder' in upload) return readOneRosterBundle(upload.folder, bundleChecks);
   if (detectRosterKind(upload.fileName, upload.bytes) === 'zip')
-    return readOneRosterBundle(upload.bytes, checks);
+    return readOneRosterBundle(upload.bytes, bundleChecks);
   return parseRosterCsvYielding(upload.bytes, { ...checks, mapping: options.mapping });
 }
 
@@ -48,7 +57,7 @@ export async function listedStudentIds(
     const input = 'folder' in upload ? upload.folder : upload.bytes;
     const users = (await readBundleFiles(input)).files.get('users.csv');
     for (const record of users?.records ?? []) {
-      for (const column of ['identifier', 'sourcedId']) {
+      for (const column of ['identifier', 'userMasterIdentifier', 'sourcedId']) {
         const id = (record.cells[column] ?? '').trim();
         if (id) ids.add(id);
       }

@@ -104,6 +104,27 @@ export const importPreviewSchema = z.object({
   errors: z.array(rowErrorSchema),
   totalRows: z.number().int(),
   plan: planSummarySchema,
+  /**
+   * A OneRoster bundle: its version, whether it is a delta (changes only), how many records it
+   * marks `tobedeleted` (with the enrolments pointing at them) and so leaves out, and the orgs
+   * that matched no school of the district, for the coordinator to map.
+   */
+  oneRoster: z
+    .object({
+      version: z.enum(['1.1', '1.2']),
+      delta: z.boolean(),
+      skipped: z.number().int(),
+      unmappedOrgs: z.array(
+        z.object({
+          sourcedId: z.string(),
+          name: z.string(),
+          identifier: z.string(),
+          type: z.string(),
+          line: z.number().int(),
+        }),
+      ),
+    })
+    .optional(),
 });
 export type ImportPreview = z.infer<typeof importPreviewSchema>;
 

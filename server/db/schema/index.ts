@@ -10,3 +10,4 @@ export * from './fleet';
 export * from './listening';
 export * from './district';
 export * from './fees';
+export * from './oneroster';

@@ -43,6 +43,8 @@ const schoolType = 'school';
 export class OrgSchools {
   /** The orgs that matched no school, in file order. */
   readonly unmapped: UnmappedOrg[] = [];
+  /** The orgs of the bundle that matched a school, by sourcedId. */
+  readonly matched = new Map<string, { sourcedId: string; name: string; schoolCode: string }>();
   private readonly found = new Map<string, OrgLookup>();
 
   constructor(
@@ -68,6 +70,13 @@ export class OrgSchools {
     if (this.found.has(orgId)) return this.found.get(orgId);
     const school = this.schoolAbove(org);
     this.found.set(orgId, school);
+    // A department is remembered with the school above it, for a later delta without orgs.csv.
+    if (school && school !== 'deleted' && !this.matched.has(orgId))
+      this.matched.set(orgId, {
+        sourcedId: orgId,
+        name: org.cell('name'),
+        schoolCode: school.schoolCode,
+      });
     return school;
   }
 
@@ -96,6 +105,13 @@ export class OrgSchools {
   }
 
   private matchOf(org: BundleRecord, isSchool: boolean): string | undefined {
+    const code = this.codeOf(org, isSchool);
+    const sourcedId = org.cell('sourcedId');
+    if (code) this.matched.set(sourcedId, { sourcedId, name: org.cell('name'), schoolCode: code });
+    return code;
+  }
+
+  private codeOf(org: BundleRecord, isSchool: boolean): string | undefined {
     const { knownSchoolCodes, schoolCodeByName, schoolCodeByOrg } = this.matching;
     const identifier = org.cell('identifier');
     const byIdentifier = identifier.toUpperCase();

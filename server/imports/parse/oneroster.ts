@@ -313,7 +313,9 @@ export async function readOneRosterBundle(
     errors: withoutRepeats([...errors, ...validated.errors]).sort(byFileAndLine(order)),
     totalRows,
     skipped,
+    oneRosterVersion: layout.version,
     ...(delta ? { delta } : {}),
     ...(orgs.unmapped.length > 0 ? { unmappedOrgs: orgs.unmapped } : {}),
+    matchedOrgs: [...orgs.matched.values()],
   };
 }

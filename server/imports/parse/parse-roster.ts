@@ -19,7 +19,7 @@ export interface RosterCsvOptions {
   /** The coordinator's choice of header for each field; guessed from the headers when absent. */
   mapping?: ColumnMapping;
   /** The district's school codes; a row at any other school is an error. */
-  knownSchoolCodes?: Set<string>;
+  knownSchoolCodes?: ReadonlySet<string>;
 }
 
 // PKWARE APPNOTE 4.3.7 and 4.3.16: a zip file starts with a local file header (PK 3 4), or with

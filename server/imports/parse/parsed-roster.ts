@@ -29,11 +29,15 @@ export interface ParsedRoster {
    * enrolments and roles that point at them. Counted, never reported as errors.
    */
   skipped?: number;
+  /** The OneRoster version a bundle was read as. */
+  oneRosterVersion?: '1.1' | '1.2';
   /**
    * Set for a OneRoster delta bundle: it lists changes only, so no student it leaves out is
    * withdrawn; the students it marks `tobedeleted` are, and the seats it marks so are ended.
    */
   delta?: DeltaChanges;
+  /** The bundle's orgs that matched a school, to remember for later imports. */
+  matchedOrgs?: { sourcedId: string; name: string; schoolCode: string }[];
   /** The bundle's orgs that matched no school of the district. */
   unmappedOrgs?: {
     sourcedId: string;

@@ -1,0 +1,68 @@
+import type { ImportPlan } from './import-plan';
+import type { SqlSession } from './sql-session';
+
+/**
+ * Carries out a OneRoster delta's removals inside the import's transaction: withdraws its
+ * `tobedeleted` students who are still active (ending their seats of the year) and ends the
+ * seats whose enrolment it marks `tobedeleted`, each with an audit entry. Answers how many
+ * students were withdrawn and seats ended.
+ */
+export async function applyDeltaRemovals(
+  session: SqlSession,
+  plan: ImportPlan,
+  schoolYearId: number | null,
+  userId: number | null,
+): Promise<{ withdrawn: number; endedSeats: number }> {
+  const { studentIds, endedSeats } = plan.deltaRemovals;
+  let withdrawn = 0;
+  if (studentIds.length > 0) {
+    const [row] = await session.query<{ count: number }>(
+      `with gone as (
+         update students s set status = 'withdrawn', version = s.version + 1, updated_at = now()
+         where s.student_number = any($2::text[]) and s.status = 'active'
+         returning s.id, s.student_number
+       ), unseated as (
+         update enrollments en set active = false, version = en.version + 1, updated_at = now()
+         from gone where en.student_id = gone.id and en.school_year_id = $3::int and en.active
+         returning en.id
+       ), audited as (
+         insert into audit_log (user_id, action, entity, entity_id, before, after)
+         select $1::int, 'withdraw', 'student', gone.id::text, jsonb_build_object('status', 'active'),
+           jsonb_build_object('status', 'withdrawn', 'student_number', gone.student_number)
+         from gone
+       )
+       select count(*)::int as count from gone`,
+      [userId, studentIds, schoolYearId],
+    );
+    withdrawn = row!.count;
+  }
+  let ended = 0;
+  if (endedSeats.length > 0 && schoolYearId !== null) {
+    const [row] = await session.query<{ count: number }>(
+      `with ending as (
+         select * from unnest($2::text[], $3::int[]) as e(student_number, ensemble_id)
+       ), ended as (
+         update enrollments en set active = false, version = en.version + 1, updated_at = now()
+         from students s, ending
+         where s.id = en.student_id and s.student_number = ending.student_number
+           and en.ensemble_id = ending.ensemble_id and en.school_year_id = $4::int and en.active
+         returning en.id, en.student_id, en.ensemble_id
+       ), audited as (
+         insert into audit_log (user_id, action, entity, entity_id, before, after)
+         select $1::int, 'update', 'enrollment', ended.id::text, jsonb_build_object('active', true),
+           jsonb_build_object('active', false, 'student_id', ended.student_id,
+             'ensemble_id', ended.ensemble_id)
+         from ended
+       )
+       select count(*)::int as count from ended`,
+      [
+        userId,
+        endedSeats.map((seat) => seat.studentId),
+        endedSeats.map((seat) => seat.ensembleId),
+        schoolYearId,
+      ],
+    );
+    ended = row!.count;
+  }
+  return { withdrawn, endedSeats: ended };
+}
