@@ -25,6 +25,7 @@ const environmentSchema = z.object({
   PAYMENTS_SECRET_KEY: z.string().min(8).optional(),
   PAYMENTS_WEBHOOK_SECRET: z.string().min(8).optional(),
   PAYMENTS_API_URL: z.url().optional(),
+  TUTTI_SECRET_KEY: z.string().min(32, 'TUTTI_SECRET_KEY must be at least 32 characters').optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -50,6 +51,11 @@ export interface Config {
    * signing secret, and the API's address (the SDK's default when PAYMENTS_API_URL is unset).
    */
   payments?: { secretKey: string; webhookSecret: string; apiUrl?: string };
+  /**
+   * The key (TUTTI_SECRET_KEY) that encrypts secrets kept in the database, such as the OneRoster
+   * sync's client secret; without it such secrets cannot be saved.
+   */
+  secretKey?: string;
   /** Requests per minute: sign-ins per address, uses per token, failed tokens per address. */
   rateLimits: { signIn: number; token: number; tokenFailures: number };
 }
@@ -81,6 +87,7 @@ export function loadConfig(environment: NodeJS.ProcessEnv = process.env): Config
     sessionSecret: values.SESSION_SECRET,
     trustProxy: values.TRUST_PROXY === 'true',
     logLevel: values.LOG_LEVEL,
+    secretKey: values.TUTTI_SECRET_KEY,
     payments: values.PAYMENTS_SECRET_KEY
       ? {
           secretKey: values.PAYMENTS_SECRET_KEY,

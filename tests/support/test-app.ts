@@ -14,6 +14,7 @@ import { issueToken } from '../../server/tokens/token-service';
 import { CookieJar, startOidcFake, walkSignIn, type OidcFake } from '../../fakes/oidc/index';
 import { startMailFake, type MailFake } from '../../fakes/mail/index';
 import { startPaymentsFake, type PaymentsFake } from '../../fakes/payments/index';
+import { startOneRosterFake, type OneRosterFake } from '../../fakes/oneroster/index';
 import { openFromTemplate, type TemplateName } from './database-templates';
 
 /** A signed-in browser: its cookies, and requests that carry them with a same-site Origin. */
@@ -35,6 +36,8 @@ export interface TestApp {
   mail: MailFake;
   /** The payment-service fake (the app is pointed at it unless `payments: false`). */
   payments: PaymentsFake;
+  /** The OneRoster REST provider fake, serving the demo district's small roster. */
+  oneRoster: OneRosterFake;
   /** A plain client with no credentials. */
   anonymous: ReturnType<typeof request>;
   /** Signs in through the real identity provider over HTTP, as a browser would. */
@@ -53,10 +56,11 @@ export async function startTestApp(
   options: { template?: TemplateName; serveWeb?: boolean; environment?: NodeJS.ProcessEnv; logger?: Logger; payments?: boolean } = {},
 ): Promise<TestApp> {
   const templates = inject('templates');
-  const [oidc, mail, payments, database] = await Promise.all([
+  const [oidc, mail, payments, oneRoster, database] = await Promise.all([
     startOidcFake({ port: 0 }),
     startMailFake({ smtpPort: 0, httpPort: 0 }),
     startPaymentsFake({ port: 0, retryDelaysMs: [200, 500, 1000] }),
+    startOneRosterFake({ port: 0 }),
     openFromTemplate(templates, options.template ?? 'demo'),
   ]);
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'tutti-test-data-'));
@@ -65,6 +69,7 @@ export async function startTestApp(
     OIDC_ISSUER: oidc.issuer,
     SMTP_URL: mail.smtpUrl,
     LOG_LEVEL: 'silent',
+    TUTTI_SECRET_KEY: 'test-secret-key-for-stored-secrets-0123456789',
     ...(options.payments === false
       ? {}
       : { PAYMENTS_SECRET_KEY: payments.secretKey, PAYMENTS_WEBHOOK_SECRET: payments.webhookSecret, PAYMENTS_API_URL: payments.url }),
@@ -93,6 +98,7 @@ export async function startTestApp(
     oidc,
     mail,
     payments,
+    oneRoster,
     anonymous: request(url),
     async signIn(email) {
       const jar = new CookieJar();
@@ -115,7 +121,7 @@ export async function startTestApp(
       });
       await (app.locals['stop'] as () => Promise<void>)();
       // A test may have stopped a fake on purpose already.
-      await Promise.all([oidc.close().catch(() => undefined), mail.close().catch(() => undefined), payments.close().catch(() => undefined), database.close()]);
+      await Promise.all([oidc.close().catch(() => undefined), mail.close().catch(() => undefined), payments.close().catch(() => undefined), oneRoster.close().catch(() => undefined), database.close()]);
       fs.rmSync(dataDir, { recursive: true, force: true });
     },
   };
