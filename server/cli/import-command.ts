@@ -3,7 +3,8 @@ import path from 'node:path';
 import { zipSync } from 'fflate';
 import type { ImportResult } from '../../shared/api/import';
 import type { Config } from '../config';
-import { runImport, type ImportRun } from '../imports/local-import';
+import { HttpError } from '../core/errors';
+import { runImport, runOneRosterSync, type ImportRun } from '../imports/local-import';
 import {
   UnreadableUploadError,
   uploadFromPath,
@@ -14,7 +15,13 @@ import { CommandError } from './command-error';
 import { withCommandDatabase } from './command-database';
 import { callRunningServer, runningServer } from './running-server';
 
-const knownFlags = new Set(['--dry-run', '--json', '--skip-invalid', '--withdraw-missing']);
+const knownFlags = new Set([
+  '--dry-run',
+  '--json',
+  '--skip-invalid',
+  '--withdraw-missing',
+  '--from-oneroster-api',
+]);
 const errorsShown = 10;
 
 function parseArguments(args: string[]) {
@@ -22,14 +29,22 @@ function parseArguments(args: string[]) {
   const flags = new Set(args.filter((arg) => arg.startsWith('--')));
   for (const flag of flags)
     if (!knownFlags.has(flag)) throw new CommandError(`Unknown option '${flag}'.`);
-  if (files.length === 0)
+  const fromApi = flags.has('--from-oneroster-api');
+  if (fromApi && files.length > 0)
+    throw new CommandError('--from-oneroster-api runs the saved sync; name no file with it.');
+  if (fromApi && flags.has('--withdraw-missing'))
+    throw new CommandError(
+      '--withdraw-missing does not apply to the sync: the provider marks who has left.',
+    );
+  if (files.length === 0 && !fromApi)
     throw new CommandError(
       'Name the roster to import: a CSV file, a OneRoster zip or a OneRoster folder.',
     );
   if (files.length > 1)
     throw new CommandError(`Import one roster at a time (got ${files.length} files).`);
   return {
-    file: files[0]!,
+    file: files[0] ?? '',
+    fromApi,
     dryRun: flags.has('--dry-run'),
     json: flags.has('--json'),
     skipInvalid: flags.has('--skip-invalid'),
@@ -129,6 +144,51 @@ function summary(fileName: string, run: ImportRun, dryRun: boolean, skipInvalid:
   return `${lines.join('\n')}\n`;
 }
 
+/** Prints a run's answer and gives the exit code of a file import. */
+function report(fileName: string, run: ImportRun, options: ReturnType<typeof parseArguments>) {
+  process.stdout.write(
+    options.json
+      ? `${contractJson(run.result)}\n`
+      : summary(fileName, run, options.dryRun, options.skipInvalid),
+  );
+  if (run.unreadable) return 2;
+  if (run.result.committed || (options.dryRun && run.canCommit)) return 0;
+  return 1;
+}
+
+/**
+ * `tutti import --from-oneroster-api [--dry-run] [--json] [--skip-invalid]`: runs the saved
+ * OneRoster REST sync once, through the running server when one holds the data folder.
+ */
+async function syncCommand(config: Config, options: ReturnType<typeof parseArguments>) {
+  const flags = { dryRun: options.dryRun, skipInvalid: options.skipInvalid };
+  const server = runningServer(config);
+  let run: ImportRun;
+  if (server) {
+    const answer = await callRunningServer<ImportRun & { error?: { message: string } }>(
+      server,
+      '/oneroster-sync',
+      { method: 'POST', body: JSON.stringify(flags), contentType: 'application/json' },
+    );
+    if (answer.status !== 200)
+      throw new CommandError(
+        answer.body.error?.message ?? `The server answered ${answer.status}.`,
+        2,
+      );
+    run = answer.body;
+  } else {
+    try {
+      run = await withCommandDatabase(config, 'tutti import --from-oneroster-api', (database) =>
+        runOneRosterSync(database, config, flags),
+      );
+    } catch (error) {
+      if (error instanceof HttpError) throw new CommandError(error.message, 2);
+      throw error;
+    }
+  }
+  return report('from the OneRoster REST sync', run, options);
+}
+
 /**
  * `tutti import <file.csv | bundle.zip | folder> [--dry-run] [--json] [--skip-invalid]
  * [--withdraw-missing]`: parse, plan and commit a roster as the wizard does. Works through the
@@ -137,6 +197,7 @@ function summary(fileName: string, run: ImportRun, dryRun: boolean, skipInvalid:
  */
 export async function importCommand(config: Config, args: string[]): Promise<number> {
   const options = parseArguments(args);
+  if (options.fromApi) return syncCommand(config, options);
   let upload: RosterUpload;
   try {
     upload = await uploadFromPath(options.file);

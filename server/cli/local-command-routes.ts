@@ -6,7 +6,7 @@ import { HttpError } from '../core/errors';
 import { parseInput } from '../core/validate';
 import { findUserByEmail } from '../people/people-queries';
 import { issueToken } from '../tokens/token-service';
-import { localImportHandlers } from '../imports/local-import';
+import { localImportHandlers, runOneRosterSync } from '../imports/local-import';
 import { AlreadySetUpError, setUpDistrict } from '../district/district-service';
 import { answerBackup } from '../backup/backup-routes';
 import { yearStartInputSchema } from '../../shared/api/school-year';
@@ -37,11 +37,18 @@ export function localCommandRoutes(services: Services, localKey: string): Router
   });
   router.use(express.json({ limit: '1mb' }));
   router.post('/tokens', async (request, response) => {
-    const { email } = parseInput(z.object({ email: z.string().min(3) }), request.body, 'The request');
+    const { email } = parseInput(
+      z.object({ email: z.string().min(3) }),
+      request.body,
+      'The request',
+    );
     const user = await findUserByEmail(db, email);
-    if (!user || !user.active) throw new HttpError(404, 'not_found', `No active user has the e-mail ${email}.`);
+    if (!user || !user.active)
+      throw new HttpError(404, 'not_found', `No active user has the e-mail ${email}.`);
     const { token, expiresAt } = await issueToken(db, user.id, 'tutti token');
-    response.status(201).json({ token, name: user.name, role: user.role, expiresAt: expiresAt.toISOString() });
+    response
+      .status(201)
+      .json({ token, name: user.name, role: user.role, expiresAt: expiresAt.toISOString() });
   });
   router.post('/setup', async (request, response) => {
     try {
@@ -52,6 +59,17 @@ export function localCommandRoutes(services: Services, localKey: string): Router
     }
   });
   router.post('/imports', ...localImportHandlers(database));
+  router.post('/oneroster-sync', async (request, response) => {
+    const flags = parseInput(
+      z.strictObject({
+        dryRun: z.boolean().default(false),
+        skipInvalid: z.boolean().default(false),
+      }),
+      request.body ?? {},
+      'The sync run',
+    );
+    response.json(await runOneRosterSync(database, services.config, flags));
+  });
   router.get('/backup', (_request, response) => answerBackup(services, response));
   router.post('/years/start', async (request, response) => {
     const { dryRun, ...rest } = parseInput(

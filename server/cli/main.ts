@@ -19,7 +19,8 @@ const commands: Record<string, { run: Command; usage: string }> = {
   },
   import: {
     run: importCommand,
-    usage: 'tutti import <file.csv | bundle.zip | folder> [--dry-run] [--json] [--skip-invalid]',
+    usage:
+      'tutti import <file.csv | bundle.zip | folder> [--dry-run] [--json] [--skip-invalid]\n       tutti import --from-oneroster-api [--dry-run] [--json] [--skip-invalid]',
   },
   year: { run: yearCommand, usage: yearUsage },
   token: { run: tokenCommand, usage: 'tutti token <email>' },
@@ -57,7 +58,9 @@ export async function main(argv: string[]): Promise<number> {
       if (error.showUsage) process.stderr.write(`Usage: ${command.usage}\n`);
       return error.exitCode;
     }
-    process.stderr.write(`tutti ${name}: ${error instanceof Error ? error.message : String(error)}\n`);
+    process.stderr.write(
+      `tutti ${name}: ${error instanceof Error ? error.message : String(error)}\n`,
+    );
     return 1;
   }
 }

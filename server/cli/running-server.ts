@@ -27,7 +27,10 @@ export async function callRunningServer<Answer>(
   try {
     response = await fetch(`${server.url}/api/local${path}`, {
       method: init.method,
-      headers: { [localKeyHeader]: server.key, ...(init.contentType ? { 'content-type': init.contentType } : {}) },
+      headers: {
+        [localKeyHeader]: server.key,
+        ...(init.contentType ? { 'content-type': init.contentType } : {}),
+      },
       body: init.body,
     });
   } catch (error) {

@@ -18,12 +18,22 @@ export async function tokenCommand(config: Config, args: string[]): Promise<numb
   if (!email || args.length !== 1) throw new CommandError('Give exactly one e-mail address.');
   const server = runningServer(config);
   if (server) {
-    const answer = await callRunningServer<{ token: string; name: string; role: string; expiresAt: string; error?: { message: string } }>(
-      server,
-      '/tokens',
-      { method: 'POST', body: JSON.stringify({ email }), contentType: 'application/json' },
-    );
-    if (answer.status !== 201) throw new CommandError(answer.body.error?.message ?? `The server answered ${answer.status}.`, 1);
+    const answer = await callRunningServer<{
+      token: string;
+      name: string;
+      role: string;
+      expiresAt: string;
+      error?: { message: string };
+    }>(server, '/tokens', {
+      method: 'POST',
+      body: JSON.stringify({ email }),
+      contentType: 'application/json',
+    });
+    if (answer.status !== 201)
+      throw new CommandError(
+        answer.body.error?.message ?? `The server answered ${answer.status}.`,
+        1,
+      );
     printToken(answer.body.name, answer.body.role, answer.body.token, answer.body.expiresAt);
     return 0;
   }

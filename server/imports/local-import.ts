@@ -1,6 +1,8 @@
 import express, { type RequestHandler } from 'express';
 import type { ImportResult, PlannedEnsemble } from '../../shared/api/import';
 import type { DatabaseHandle } from '../db/client';
+import type { Config } from '../config';
+import { runSync } from '../oneroster/sync-service';
 import { importRoster } from './import-service';
 
 /** What `tutti import` gets back, from the running server or from its own run. */
@@ -75,4 +77,23 @@ export function localImportHandlers(database: DatabaseHandle): RequestHandler[] 
       response.json(await runImport(database, { fileName, bytes }, flags, fileName));
     },
   ];
+}
+
+/** A sync run as `tutti import --from-oneroster-api` reports it. */
+export async function runOneRosterSync(
+  database: DatabaseHandle,
+  config: Config,
+  flags: { dryRun: boolean; skipInvalid: boolean },
+): Promise<ImportRun> {
+  const run = await runSync(database, config, { ...flags, actor: null, via: 'cli' });
+  return {
+    result:
+      run.failure && run.result.errors.length === 0
+        ? { ...run.result, errors: [{ line: 0, column: '', message: run.failure }] }
+        : run.result,
+    // A provider that cannot be reached or read is like a file that cannot be read.
+    unreadable: run.failure !== undefined && run.result.errors.length === 0,
+    canCommit: run.failure === undefined,
+    newEnsembles: [],
+  };
 }

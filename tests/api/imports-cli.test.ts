@@ -7,6 +7,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../server/config';
 import { rowsOf } from '../../server/db/client';
 import { startServer } from '../../server/main';
+import { startOneRosterFake } from '../../fakes/oneroster/index';
+import { saveSyncSettings } from '../../server/oneroster/sync-service';
+import { findUserByEmail } from '../../server/people/people-queries';
 
 const run = promisify(execFile);
 const fixtures = path.resolve('tests/fixtures/rosters');
@@ -30,11 +33,14 @@ function demoFolder(): string {
   return folder;
 }
 
+const secretKey = 'cli-test-secret-key-for-stored-secrets-000';
+
 async function tutti(dataDir: string, ...args: string[]) {
   const environment: NodeJS.ProcessEnv = {
     ...process.env,
     TUTTI_DATA_DIR: dataDir,
     LOG_LEVEL: 'silent',
+    TUTTI_SECRET_KEY: secretKey,
   };
   delete environment['DATABASE_URL'];
   try {
@@ -180,5 +186,121 @@ describe('tutti import', () => {
     } finally {
       await server.close();
     }
+  }, 180_000);
+});
+
+describe('tutti import of OneRoster bundles and the REST sync', () => {
+  it('should import a 1.2 bundle, then a delta, and name an org that matches no school', async () => {
+    const folder = demoFolder();
+    const bulk = await tutti(
+      folder,
+      'import',
+      path.join(fixtures, 'oneroster-1.2-bundle'),
+      '--json',
+    );
+    expect(bulk.code, bulk.stderr).toBe(0);
+    expect(contract(bulk.stdout)).toMatchObject({ rows: 5, created: 5, committed: true });
+    const delta = await tutti(
+      folder,
+      'import',
+      path.join(fixtures, 'oneroster-1.2-delta'),
+      '--json',
+    );
+    expect(delta.code, delta.stderr).toBe(0);
+    expect(contract(delta.stdout)).toMatchObject({
+      rows: 2,
+      created: 1,
+      withdrawn: 1,
+      committed: true,
+    });
+
+    const renamed = fs.mkdtempSync(path.join(os.tmpdir(), 'tutti-or-unmapped-'));
+    folders.push(renamed);
+    fs.cpSync(path.join(fixtures, 'oneroster-1.2-bundle'), renamed, { recursive: true });
+    const orgs = path.join(renamed, 'orgs.csv');
+    fs.writeFileSync(
+      orgs,
+      fs.readFileSync(orgs, 'utf8').replace('org-qh,,,Quarry Hill Middle', 'org-qz,,,North Annex'),
+    );
+    for (const name of ['roles.csv', 'classes.csv', 'enrollments.csv', 'users.csv']) {
+      const file = path.join(renamed, name);
+      fs.writeFileSync(file, fs.readFileSync(file, 'utf8').replaceAll('org-qh', 'org-qz'));
+    }
+    const unmapped = await tutti(folder, 'import', renamed, '--json');
+    expect(unmapped.code).toBe(1);
+    expect(contract(unmapped.stdout)).toMatchObject({
+      committed: false,
+      errors: [
+        {
+          line: 5,
+          column: 'orgs.csv:identifier',
+          message:
+            "Org 'North Annex' (sourcedId 'org-qz', no identifier) matches no school of the district by identifier, saved mapping or name; choose its school in the import's mapping step.",
+        },
+      ],
+    });
+  }, 180_000);
+
+  it('should run the saved REST sync through the server and on its own, and exit 2 when the provider is down', async () => {
+    const provider = await startOneRosterFake({ port: 0 });
+    const folder = demoFolder();
+    const config = loadConfig({
+      TUTTI_DATA_DIR: folder,
+      PORT: '0',
+      LOG_LEVEL: 'silent',
+      TUTTI_SECRET_KEY: secretKey,
+    });
+    const server = await startServer(config, { host: '127.0.0.1' });
+    try {
+      const coordinator = await findUserByEmail(
+        server.database.db,
+        'coordinator@merrowbasin.example',
+      );
+      await saveSyncSettings(
+        server.database.db,
+        config,
+        {
+          userId: coordinator!.id,
+          email: coordinator!.email,
+          name: coordinator!.name,
+          role: 'coordinator',
+          schoolIds: [],
+          studentId: null,
+          via: 'session',
+        },
+        {
+          baseUrl: provider.url,
+          apiVersion: '1.1',
+          tokenUrl: provider.tokenUrl,
+          clientId: provider.clientId,
+          clientSecret: provider.clientSecret,
+          enabled: false,
+          runAt: '02:00',
+        },
+      );
+      const dry = await tutti(folder, 'import', '--from-oneroster-api', '--dry-run', '--json');
+      expect(dry.code, dry.stderr).toBe(0);
+      expect(contract(dry.stdout)).toMatchObject({ rows: 5, created: 5, committed: false });
+      const first = await tutti(folder, 'import', '--from-oneroster-api', '--json');
+      expect(first.code, first.stderr).toBe(0);
+      expect(contract(first.stdout)).toMatchObject({ rows: 5, created: 5, committed: true });
+      // 1EdTech OneRoster 1.1 REST binding: the 1.1 service's path.
+      expect(provider.requests().some((line) => line.startsWith('/ims/oneroster/v1p1/users'))).toBe(
+        true,
+      );
+    } finally {
+      await server.close();
+    }
+    provider.touch('users', 'u-103', { givenName: 'Pria' });
+    const second = await tutti(folder, 'import', '--from-oneroster-api', '--json');
+    expect(second.code, second.stderr).toBe(0);
+    expect(contract(second.stdout)).toMatchObject({ rows: 1, updated: 1, committed: true });
+    await provider.close();
+    const down = await tutti(folder, 'import', '--from-oneroster-api', '--json');
+    expect(down.code).toBe(2);
+    const answer = contract(down.stdout);
+    expect(answer.committed).toBe(false);
+    expect(answer.errors[0].message).toMatch(/^The token endpoint could not be reached/);
+    expect(down.stdout + down.stderr).not.toContain(provider.clientSecret);
   }, 180_000);
 });

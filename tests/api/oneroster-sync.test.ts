@@ -22,7 +22,7 @@ function settings(overrides: object = {}) {
     tokenUrl: app.oneRoster.tokenUrl,
     clientId: app.oneRoster.clientId,
     clientSecret: app.oneRoster.clientSecret,
-    enabled: true,
+    enabled: false,
     runAt: '02:30',
     ...overrides,
   };
