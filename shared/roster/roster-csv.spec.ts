@@ -57,6 +57,44 @@ describe('toRosterCsv', () => {
     );
   });
 
+  // OWASP "CSV Injection": ids districts use may start with '+', '-', '@' or '='; written out they
+  // are neutralised like any other cell.
+  it('should neutralise a student id a spreadsheet would read as a formula when writing it', () => {
+    const csv = toRosterCsv([
+      {
+        studentId: '@mary.jones',
+        firstName: 'Mary',
+        lastName: 'Jones',
+        grade: 7,
+        schoolCode: 'HPMS',
+      },
+      {
+        studentId: '+417.b',
+        firstName: 'Teo',
+        lastName: 'Brandvold',
+        grade: 8,
+        schoolCode: 'HPMS',
+      },
+      {
+        studentId: 'mary.jones',
+        firstName: 'Mary',
+        lastName: 'Jonas',
+        grade: 7,
+        schoolCode: 'HPMS',
+      },
+    ]);
+    const ids = csv
+      .split('\r\n')
+      .slice(1, 4)
+      .map((line) => line.split(',')[0]);
+    expect(ids).toEqual(["'@mary.jones", "'+417.b", 'mary.jones']);
+    expect(ids.map((id) => restoreNeutralisedCell(id!))).toEqual([
+      '@mary.jones',
+      '+417.b',
+      'mary.jones',
+    ]);
+  });
+
   it('should write only the header when there are no rows', () => {
     expect(toRosterCsv([])).toBe(
       'student_id,first_name,last_name,preferred_name,grade,school_code,ensemble,instrument,guardian_name,guardian_email\r\n',
