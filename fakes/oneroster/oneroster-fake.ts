@@ -179,7 +179,8 @@ export async function startOneRosterFake(
   const one = (version: '1.1' | '1.2') => (request: Request, response: Response) => {
     served.push(request.originalUrl);
     const bearer = /^Bearer (.+)$/i.exec(request.headers.authorization ?? '');
-    if (!bearer || !tokens.has(bearer[1]!)) return failure(response, 401, 'A bearer token is required.');
+    if (!bearer || !tokens.has(bearer[1]!))
+      return failure(response, 401, 'A bearer token is required.');
     const user = roster.users.find((item) => item.sourcedId === request.params['sourcedId']);
     if (!user) return failure(response, 404, 'No such user.');
     response.json({ user: version === '1.1' ? asVersion11(user) : user });
