@@ -33,17 +33,17 @@ const requirement =
  * one flat, Bb major two flats).
  */
 const sections = [
-  { instrument: 'clarinet', written: 'written C major for Bb clarinet, treble clef', fifths: 0 },
+  { instrument: 'clarinet', written: 'written C major for B♭ clarinet, treble clef', fifths: 0 },
   {
     instrument: 'alto-sax',
-    written: 'written G major for Eb alto saxophone, treble clef',
+    written: 'written G major for E♭ alto saxophone, treble clef',
     fifths: 1,
   },
   { instrument: 'horn', written: 'written F major for horn in F, treble clef', fifths: -1 },
-  { instrument: 'trombone', written: 'written Bb major for trombone, bass clef', fifths: -2 },
-  { instrument: 'tuba', written: 'written Bb major for tuba, bass clef', fifths: -2 },
-  { instrument: 'viola', written: 'written Bb major for viola, alto clef', fifths: -2 },
-  { instrument: 'marimba', written: 'written Bb major for marimba, treble clef', fifths: -2 },
+  { instrument: 'trombone', written: 'written B♭ major for trombone, bass clef', fifths: -2 },
+  { instrument: 'tuba', written: 'written B♭ major for tuba, bass clef', fifths: -2 },
+  { instrument: 'viola', written: 'written B♭ major for viola, alto clef', fifths: -2 },
+  { instrument: 'marimba', written: 'written B♭ major for marimba, treble clef', fifths: -2 },
 ];
 
 /**
@@ -73,7 +73,7 @@ describe('Practice sheets', () => {
     for (const section of sections) {
       await page.goto(`${app.url}/practice?${requirement}&instrument=${section.instrument}`);
       const caption = page.getByTestId('sheet-caption');
-      await expect.poll(() => caption.innerText()).toBe(`Concert Bb major → ${section.written}`);
+      await expect.poll(() => caption.innerText()).toBe(`Concert B♭ major → ${section.written}`);
       // 28 beats at quarter = 100 last 16.8 seconds.
       expect(await page.getByTestId('sheet-duration').innerText()).toBe('about 17 s at ♩ = 100');
       expect(await drawnNotes(page, '[data-testid=sheet-staff]')).toBe(broadCycleNotes);
@@ -133,10 +133,10 @@ describe('Practice sheets', () => {
       .poll(() => page.locator('[data-testid=band-set] [role=img][data-notes]').count())
       .toBe(19);
     // Adler: the Bb clarinet reads a major 2nd above concert, the Eb alto saxophone a major 6th.
-    expect(await parts.filter({ hasText: 'Bb clarinet' }).first().innerText()).toContain(
+    expect(await parts.filter({ hasText: 'B♭ clarinet' }).first().innerText()).toContain(
       'written C major',
     );
-    expect(await parts.filter({ hasText: 'Eb alto saxophone' }).innerText()).toContain(
+    expect(await parts.filter({ hasText: 'E♭ alto saxophone' }).innerText()).toContain(
       'written G major',
     );
     await page.emulateMedia({ media: 'print' });
@@ -227,11 +227,11 @@ describe('Practice sheets', () => {
     const state = page.getByTestId('range-error');
     await expect
       .poll(() => state.innerText())
-      .toContain('fits the Trumpet range of written F#3 to C6');
+      .toContain('fits the Trumpet range of written F♯3 to C6');
     await page.getByRole('button', { name: 'Try one octave' }).click();
     await expect
       .poll(() => page.getByTestId('sheet-caption').innerText())
-      .toContain('written D major for Bb trumpet');
+      .toContain('written D major for B♭ trumpet');
     await context.close();
   });
 });

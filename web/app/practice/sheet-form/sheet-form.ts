@@ -22,7 +22,13 @@ import {
   patternIds,
   type Mode,
 } from '../../../../shared/music';
-import { articulationLabels, familyLabels, modeLabels, patternLabels } from '../labels';
+import {
+  articulationLabels,
+  familyLabels,
+  modeLabels,
+  patternLabels,
+  withAccidentalSigns,
+} from '../labels';
 import {
   parseSheetRequest,
   tempoLimits,
@@ -88,6 +94,7 @@ export class SheetForm {
   protected readonly tempoLimits = tempoLimits;
 
   protected readonly tonics = computed(() => tonicsFor(this.request().mode));
+  protected readonly signs = withAccidentalSigns;
 
   constructor() {
     effect(() => {
