@@ -1,0 +1,2 @@
+ALTER TABLE "takes" ADD COLUMN "recorded_by" integer;--> statement-breakpoint
+ALTER TABLE "takes" ADD CONSTRAINT "takes_recorded_by_users_id_fk" FOREIGN KEY ("recorded_by") REFERENCES "public"."users"("id") ON DELETE set null ON UPDATE no action;
