@@ -12,6 +12,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { STEPPER_GLOBAL_OPTIONS } from '@angular/cdk/stepper';
 import { MatStepper, MatStepperModule } from '@angular/material/stepper';
 import type { ImportPreview, ImportResult } from '../../../../shared/api/import';
 import type { ColumnMapping } from '../../../../shared/roster/roster-columns';
@@ -43,6 +44,11 @@ const errorsShown = 200;
   templateUrl: './import-wizard.html',
   styleUrl: './import-wizard.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
+  // A step shows a tick only once it is done (the last one too, once the import is in), never
+  // for merely being visited.
+  providers: [
+    { provide: STEPPER_GLOBAL_OPTIONS, useValue: { displayDefaultIndicatorType: false } },
+  ],
 })
 export class ImportWizard {
   private readonly imports = inject(RosterImports);
