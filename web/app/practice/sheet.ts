@@ -4,6 +4,8 @@ import {
   instrumentById,
   keySignature,
   levelReach,
+  patternForLevel,
+  schoolLevelNames,
   schoolLevels,
   pattern,
   PatternRangeError,
@@ -79,8 +81,35 @@ export function buildSheet(request: SheetRequest): Sheet {
   let concertNotes: PatternNote[];
   let writtenNotes: PatternNote[];
   try {
-    concertNotes = pattern(request.pattern, concertKey, { ...options, pitch: 'concert' });
-    writtenNotes = pattern(request.pattern, concertKey, { ...options, pitch: 'written' });
+    if (request.level) {
+      // Placed inside the player's school range (patternForLevel), or the level cannot play it.
+      const reach = { pattern: request.pattern, key: concertKey, octaves: request.octaves };
+      const placed = (pitch: 'concert' | 'written') =>
+        patternForLevel(reach, instrument.id, request.level!, {
+          pitch,
+          articulation: request.articulation,
+        });
+      const concert = placed('concert');
+      const written = placed('written');
+      if (!concert || !written) {
+        const outcome = levelReach(reach, instrument.id, request.level);
+        return {
+          kind: 'out-of-range',
+          request,
+          instrument,
+          message: withAccidentalSigns(
+            outcome.fits
+              ? `This pattern does not fit a ${schoolLevelNames[request.level]} player's range.`
+              : outcome.message,
+          ),
+        };
+      }
+      concertNotes = concert;
+      writtenNotes = written;
+    } else {
+      concertNotes = pattern(request.pattern, concertKey, { ...options, pitch: 'concert' });
+      writtenNotes = pattern(request.pattern, concertKey, { ...options, pitch: 'written' });
+    }
   } catch (error) {
     if (error instanceof PatternRangeError) {
       return {

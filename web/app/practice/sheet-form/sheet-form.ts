@@ -20,6 +20,7 @@ import {
   instruments,
   modes,
   patternIds,
+  schoolLevelNames,
   type Mode,
 } from '../../../../shared/music';
 import {
@@ -32,6 +33,7 @@ import {
 import {
   parseSheetRequest,
   tempoLimits,
+  sheetLevels,
   toSheetQuery,
   tonicsFor,
   usualTempoSteps,
@@ -77,7 +79,12 @@ export class SheetForm {
     octaves: [1],
     instrument: [''],
     concertPitch: [false],
+    level: ['' as string],
   });
+  protected readonly levels = sheetLevels.map((level) => ({
+    id: level,
+    label: schoolLevelNames[level].charAt(0).toUpperCase() + schoolLevelNames[level].slice(1),
+  }));
 
   protected readonly modes = modes.map((mode) => ({ id: mode, label: modeLabels[mode] }));
   protected readonly patterns = patternIds.map((id) => ({ id, label: patternLabels[id] }));
@@ -109,6 +116,7 @@ export class SheetForm {
           octaves: request.octaves,
           instrument: request.instrument,
           concertPitch: request.pitch === 'concert',
+          level: request.level ?? '',
         },
         { emitEvent: false },
       );
