@@ -234,4 +234,47 @@ describe('Practice sheets', () => {
       .toContain('written D major for B♭ trumpet');
     await context.close();
   });
+
+  it('should place the pattern by the player’s level and print the name, date and requirement line', async () => {
+    const { context } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    // Two octaves of concert C for piccolo reach written C7 (common practice, no source): beyond
+    // the middle-school range, within the instrument's full range.
+    await signInAs(
+      page,
+      app.url,
+      demoEmail('student.hpms'),
+      '/practice?tonic=C&mode=major&pattern=cycle-broad&tempo=100&octaves=2&instrument=piccolo&level=middle',
+    );
+    const state = page.getByTestId('range-error');
+    await expect
+      .poll(() => state.innerText(), { timeout: 10_000 })
+      .toContain('Cannot fit this level');
+    expect(await state.innerText()).toContain('C7');
+    await page.getByTestId('field-level').click();
+    await page.getByRole('option', { name: 'Full range of the instrument' }).click();
+    await expect
+      .poll(() => page.getByTestId('sheet-caption').innerText(), { timeout: 10_000 })
+      .toContain('Concert C major');
+    expect(page.url()).not.toContain('level=');
+
+    // Printed: the student's own name, today's date and the requirement in one line.
+    const me = (await page.evaluate(async () => (await fetch('/api/me')).json())) as {
+      name: string;
+    };
+    await page.emulateMedia({ media: 'print' });
+    const lines = page.getByTestId('print-lines');
+    await expect.poll(() => lines.isVisible()).toBe(true);
+    const printed = await lines.innerText();
+    expect(printed).toContain(`Name: ${me.name}`);
+    expect(printed).toMatch(/Date: [A-Z][a-z]+ \d{1,2}, \d{4}/);
+    expect(await page.getByTestId('requirement-line').innerText()).toBe(
+      'Requirement · concert C major · Scale and arpeggio, broad (half and quarter notes) · ♩ = 100 · Tongue (or bow) every note · two octaves',
+    );
+    await page.evaluate(() => document.fonts.ready);
+    await page.screenshot({ path: path.join(screenshotFolder, 'practice-sheet-print.png') });
+    await page.emulateMedia({ media: 'screen' });
+    expect(await lines.isVisible()).toBe(false);
+    await context.close();
+  });
 });
