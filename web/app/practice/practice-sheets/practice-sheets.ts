@@ -78,6 +78,8 @@ export class PracticeSheets {
   readonly octaves = input<string>();
   readonly instrument = input<string>();
   readonly pitch = input<string>();
+  /** The player's school level the pattern is placed for; the full range when absent. */
+  readonly level = input<string>();
   /** 'band-set' or 'plan' for the print layouts; the sheet otherwise. */
   readonly view = input<string>();
   /** 'orchestra' for a string orchestra's set; a band's otherwise. */
@@ -98,6 +100,7 @@ export class PracticeSheets {
       octaves: this.octaves(),
       instrument: this.instrument(),
       pitch: this.pitch(),
+      level: this.level(),
     }),
   );
   protected readonly shownView = computed<PracticeView>(() => {
