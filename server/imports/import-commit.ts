@@ -13,6 +13,7 @@ import {
   type ImportPlan,
 } from './import-plan';
 import { applyDeltaRemovals } from './delta-removals';
+import { createJournal, endLeftSeats, journalCreated, saveJournal } from './import-journal';
 import { takeBackLanded } from './landed-students';
 import { rosterGeneration } from './roster-snapshot';
 import { inSqlTransaction, queryJson, type SqlSession, type StagedValue } from './sql-session';
@@ -48,6 +49,7 @@ async function createStagingTables(session: SqlSession) {
   await session.query(
     `create temp table import_listed (student_number text not null) on commit drop`,
   );
+  await createJournal(session);
 }
 
 const writtenTables = [
@@ -58,6 +60,7 @@ const writtenTables = [
   'audit_log',
   'roster_imports',
   'roster_import_landings',
+  'roster_import_changes',
 ];
 
 /**
@@ -253,6 +256,12 @@ async function updateStudents(
        from prior p join changed c on c.id = p.id, ensembles e
        where p.school_id <> c.school_id and en.student_id = c.id and e.id = en.ensemble_id
          and e.school_id = p.school_id and en.school_year_id = $2::int and en.active
+       returning en.id, en.student_id, en.ensemble_id, en.version
+     ), journaled as (
+       insert into import_journal (kind, student_id, enrollment_id, ensemble_id, before, version_after)
+       select 'student-updated', c.id, null, null, to_jsonb(p), c.version from changed c join prior p on p.id = c.id
+       union all
+       select 'seat-ended', student_id, id, ensemble_id, jsonb_build_object('active', true), version from unseated
      )
      , audited as (
        insert into audit_log (user_id, action, entity, entity_id, before, after)
@@ -336,7 +345,12 @@ async function loadsInBulk(database: DatabaseHandle, plan: ImportPlan): Promise<
 async function seatStudents(session: SqlSession, schoolYearId: number) {
   const seats = await queryJson<string>(
     session,
-    `with seated_new as (
+    `with prior_seats as (
+       select en.id, en.instrument_id, en.active from enrollments en
+       join students s on s.id = en.student_id
+       join import_seats a on a.student_number = s.student_number and a.ensemble_id = en.ensemble_id
+       where not a.new_student and en.school_year_id = $1::int
+     ), seated_new as (
        insert into enrollments (student_id, ensemble_id, school_year_id, instrument_id)
        select s.id, a.ensemble_id, $1::int, a.instrument_id
        from import_seats a join students s on s.student_number = a.student_number
@@ -352,7 +366,15 @@ async function seatStudents(session: SqlSession, schoolYearId: number) {
            version = enrollments.version + 1, updated_at = now()
          where (enrollments.instrument_id, enrollments.active)
            is distinct from (coalesce(excluded.instrument_id, enrollments.instrument_id), true)
-       returning student_id, ensemble_id
+       returning id, student_id, ensemble_id, version
+     ), journaled as (
+       insert into import_journal (kind, student_id, enrollment_id, ensemble_id, before, version_after)
+       select case when p.id is null then 'seat-added' else 'seat-changed' end, seated.student_id,
+         seated.id, seated.ensemble_id,
+         case when p.id is null then null
+           else jsonb_build_object('instrument_id', p.instrument_id, 'active', p.active) end,
+         seated.version
+       from seated left join prior_seats p on p.id = seated.id
      ), changed as (
        select student_id, ensemble_id from seated_new union all select student_id, ensemble_id from seated
      )
@@ -375,11 +397,16 @@ async function withdrawMissing(
        update students s set status = 'withdrawn', version = s.version + 1, updated_at = now()
        where s.school_id = any($2::int[]) and s.status = 'active'
          and not exists (select 1 from import_listed l where l.student_number = s.student_number)
-       returning s.id, s.student_number
+       returning s.id, s.student_number, s.version
      ), unseated as (
        update enrollments en set active = false, version = en.version + 1, updated_at = now()
        from gone where en.student_id = gone.id and en.school_year_id = $3::int and en.active
-       returning en.id
+       returning en.id, en.student_id, en.ensemble_id, en.version
+     ), journaled as (
+       insert into import_journal (kind, student_id, enrollment_id, ensemble_id, before, version_after)
+       select 'student-withdrawn', id, null, null, jsonb_build_object('status', 'active'), version from gone
+       union all
+       select 'seat-ended', student_id, id, ensemble_id, jsonb_build_object('active', true), version from unseated
      )
      , audited as (
        insert into audit_log (user_id, action, entity, entity_id, before, after)
@@ -611,11 +638,20 @@ export async function commitImport(
       const rebuild =
         bulk && fresh.length >= bulkLoadAtLeast ? await dropSecondaryIndexes(session) : [];
       const created = new Set([...landed.students, ...(await insertStudents(session, fresh))]);
+      await journalCreated(
+        session,
+        [...created],
+        ensembles.created.map((row) => row.id),
+        landed.students.size > 0 ? landed.run : null,
+      );
       if (landed.students.size > 0)
         await session.query('delete from roster_import_landings where run = $1::text', [
           landed.run,
         ]);
       const seatChanges = year ? await seatStudents(session, year.id) : new Set<string>();
+      const seatsLeft = year
+        ? await endLeftSeats(session, plan, year.id, userId)
+        : new Set<string>();
       for (const definition of rebuild) await session.query(definition);
       const schoolIds = plan.schoolCodes.map((code) => schoolIdByCode.get(code)!);
       const removed = await applyDeltaRemovals(session, plan, year?.id ?? null, userId);
@@ -625,7 +661,14 @@ export async function commitImport(
           : 0) + removed.withdrawn;
 
       const counts = { created: 0, updated: removed.endedSeats, unchanged: 0 };
-      for (const { row } of plan.parsed.rows) {
+      const firstRows = new Set<number>();
+      const seenStudents = new Set<string>();
+      for (const [index, { row }] of plan.parsed.rows.entries())
+        if (!seenStudents.has(row.studentId)) {
+          seenStudents.add(row.studentId);
+          firstRows.add(index);
+        }
+      for (const [index, { row }] of plan.parsed.rows.entries()) {
         if (created.has(row.studentId)) counts.created += 1;
         else if (updated.has(row.studentId)) counts.updated += 1;
         else if (
@@ -635,6 +678,8 @@ export async function commitImport(
           )
         )
           counts.updated += 1;
+        // A seat left counts on the student's first row, as the plan counts it.
+        else if (firstRows.has(index) && seatsLeft.has(row.studentId)) counts.updated += 1;
         else counts.unchanged += 1;
       }
       const result: ImportResult = {
@@ -645,6 +690,7 @@ export async function commitImport(
         committed: true,
       };
       const importId = await recordHistory(session, plan, result, userId, meta);
+      await saveJournal(session, importId, schoolIds, year?.id ?? null);
       await session.query(
         `insert into audit_log (user_id, action, entity, entity_id, before, after) values ($1::int, 'import', 'roster_import', $2, null, $3::jsonb)`,
         [

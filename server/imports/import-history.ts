@@ -34,6 +34,7 @@ const historyColumns = {
   errorCount,
   userName: users.name,
   createdAt: rosterImports.createdAt,
+  undoneAt: rosterImports.undoneAt,
 };
 
 const sortable = {
@@ -46,10 +47,17 @@ const sortable = {
   errorCount,
 };
 
-type HistoryRow = Omit<ImportHistoryEntry, 'createdAt'> & { createdAt: Date };
+type HistoryRow = Omit<ImportHistoryEntry, 'createdAt' | 'undoneAt'> & {
+  createdAt: Date;
+  undoneAt: Date | null;
+};
 
 function toEntry(row: HistoryRow): ImportHistoryEntry {
-  return { ...row, createdAt: row.createdAt.toISOString() };
+  return {
+    ...row,
+    createdAt: row.createdAt.toISOString(),
+    undoneAt: row.undoneAt?.toISOString() ?? null,
+  };
 }
 
 /** Past imports, newest first unless sorted otherwise, with the list contract. */

@@ -45,6 +45,12 @@ export interface ImportPlan {
    */
   deltaRemovals: { studentIds: string[]; endedSeats: { studentId: string; ensembleId: number }[] };
   newEnsembles: PlannedEnsemble[];
+  /**
+   * Current-year seats the file's students leave: a student whose rows name ensembles leaves an
+   * ensemble of their school that the file speaks of (some row names it) but not for them.
+   * Seats in ensembles no row names are left alone.
+   */
+  endedSeats: { studentId: string; ensembleId: number }[];
   /** The schools the valid rows are at. */
   schoolCodes: string[];
   /** Whether committing would write anything: no errors, or skip-invalid with valid rows left. */
@@ -204,6 +210,11 @@ export async function planImport(
     changesOf.set(row.studentId, studentChanges(row, existing, columns, snapshot));
   }
 
+  const leaving = seatsLeft(parsed, snapshot);
+  const firstRowIndex = new Map<string, number>();
+  for (const [index, { row }] of parsed.rows.entries())
+    if (!firstRowIndex.has(row.studentId)) firstRowIndex.set(row.studentId, index);
+
   const newEnsembles = new Map<string, PlannedEnsemble>();
   const rowClass: ('created' | 'updated' | 'unchanged')[] = [];
   const seatRows = new Set<number>();
@@ -245,6 +256,12 @@ export async function planImport(
           });
         }
       }
+    }
+    const left =
+      firstRowIndex.get(row.studentId) === index ? leaving.get(row.studentId) : undefined;
+    for (const seat of left ?? []) {
+      seatChanged = true;
+      changes?.push({ field: 'ensemble', before: seat.name, after: null });
     }
     if (seatChanged) seatRows.add(index);
     if (changes) rowClass.push(seatChanged || hasStudentChange(changes) ? 'updated' : 'unchanged');
@@ -299,6 +316,9 @@ export async function planImport(
     withdrawnStudents,
     deltaRemovals,
     newEnsembles: [...newEnsembles.values()],
+    endedSeats: [...leaving].flatMap(([studentId, seats]) =>
+      seats.map((seat) => ({ studentId, ensembleId: seat.ensembleId })),
+    ),
     schoolCodes,
     canCommit,
     differences: {
@@ -307,6 +327,52 @@ export async function planImport(
       seatRows,
     },
   };
+}
+
+/**
+ * The active current-year seats each student of the file leaves: for a student whose rows name
+ * at least one ensemble, the seats at their school in ensembles some row of the file names but
+ * none of theirs does. By student id, in ensemble name order.
+ */
+function seatsLeft(
+  parsed: ParsedRoster,
+  snapshot: RosterSnapshot,
+): Map<string, { ensembleId: number; name: string }[]> {
+  const ensembleById = new Map<number, { schoolId: number; name: string }>();
+  for (const [schoolId, byName] of snapshot.ensembles)
+    for (const { id, name } of byName.values()) ensembleById.set(id, { schoolId, name });
+  const idOf = (row: RosterRow) => {
+    const schoolId = snapshot.schoolIdByCode.get(row.schoolCode);
+    if (schoolId === undefined || !row.ensemble) return undefined;
+    return snapshot.ensembles.get(schoolId)?.get(row.ensemble.toLowerCase())?.id;
+  };
+  const spokenOf = new Set<number>();
+  const listed = new Map<string, { schoolId: number; ensembles: Set<number> }>();
+  for (const { row } of parsed.rows) {
+    if (!row.ensemble) continue;
+    const schoolId = snapshot.schoolIdByCode.get(row.schoolCode);
+    if (schoolId === undefined) continue;
+    const entry = listed.get(row.studentId) ?? { schoolId, ensembles: new Set<number>() };
+    const id = idOf(row);
+    if (id !== undefined) {
+      spokenOf.add(id);
+      entry.ensembles.add(id);
+    }
+    listed.set(row.studentId, entry);
+  }
+  const leaving = new Map<string, { ensembleId: number; name: string }[]>();
+  for (const [studentId, { schoolId, ensembles }] of listed) {
+    const left: { ensembleId: number; name: string }[] = [];
+    for (const [ensembleId, seat] of snapshot.seats.get(studentId) ?? []) {
+      const ensemble = ensembleById.get(ensembleId);
+      if (!seat.active || !ensemble || ensemble.schoolId !== schoolId) continue;
+      if (spokenOf.has(ensembleId) && !ensembles.has(ensembleId))
+        left.push({ ensembleId, name: ensemble.name });
+    }
+    left.sort((first, second) => first.name.localeCompare(second.name));
+    if (left.length > 0) leaving.set(studentId, left);
+  }
+  return leaving;
 }
 
 // A row of a student whose own fields change is an updated row, whichever ensemble it is for.

@@ -15,6 +15,7 @@ import { getImport, importErrorsCsv, listImports } from './import-history';
 import { importPreview } from './import-preview';
 import { deletePreset, listPresets, savePreset } from './import-presets';
 import { importRoster, planUpload } from './import-service';
+import { previewImportUndo, undoImport } from './import-undo';
 import { UploadStore } from './upload-store';
 
 const expired = () =>
@@ -144,6 +145,16 @@ export function importsRoutes({ config, db, database }: Services): Router {
 
   router.get('/imports/:id', runs, async (request, response) => {
     response.json(await getImport(db, parseId(request.params['id'])));
+  });
+  // Undo: the preview (what it would do, what blocks it), then the undo itself, all or nothing.
+  router.get('/imports/:id/undo', runs, async (request, response) => {
+    parseInput(nothing, request.query, 'The query');
+    response.json(await previewImportUndo(database, parseId(request.params['id'])));
+  });
+  router.post('/imports/:id/undo', runs, async (request, response) => {
+    const id = parseId(request.params['id']);
+    parseInput(nothing, request.body ?? {}, 'The undo');
+    response.json(await undoImport(database, id, actorOf(request)));
   });
   router.get('/imports/:id/errors.csv', runs, async (request, response) => {
     const { fileName, csv } = await importErrorsCsv(db, parseId(request.params['id']));

@@ -1,13 +1,19 @@
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import multer from 'multer';
 import { z } from 'zod';
-import { takeInputSchema, takeRetentionSchema, takeSizeLimit } from '../../shared/api/take';
+import {
+  heardTakeInputSchema,
+  takeInputSchema,
+  takeRetentionSchema,
+  takeSizeLimit,
+} from '../../shared/api/take';
 import { HttpError } from '../core/errors';
 import { actorOf, requires, requiresAny } from '../core/policy';
 import { nothing, parseId, parseInput } from '../core/validate';
 import { recordingExtensions } from '../pass-offs/recording-type';
 import type { Services } from '../services';
 import {
+  keepHeardTake,
   keepTake,
   listTakes,
   openTake,
@@ -67,6 +73,18 @@ export function takesRoutes({ db, config }: Services): Router {
       .status(201)
       .json(await keepTake(db, actorOf(request), config.dataDir, input, request.file));
   });
+  // A director's own take of a student, kept as evidence of the pass-off.
+  router.post(
+    '/takes/heard',
+    requires('pass-offs:write'),
+    receiveTake,
+    async (request, response) => {
+      const input = parseInput(heardTakeInputSchema, request.body, 'The take');
+      response
+        .status(201)
+        .json(await keepHeardTake(db, actorOf(request), config.dataDir, input, request.file));
+    },
+  );
   router.post('/takes/:id/send', requires('takes:own'), async (request, response) => {
     response.json(await sendTake(db, actorOf(request), parseId(request.params['id'])));
   });
@@ -79,14 +97,10 @@ export function takesRoutes({ db, config }: Services): Router {
     response.set('Cache-Control', 'private, no-store');
     response.sendFile(file);
   });
-  router.get(
-    '/settings/take-retention',
-    requires('takes:retention'),
-    async (request, response) => {
-      parseInput(nothing, request.query, 'The query');
-      response.json(await takeRetention(db));
-    },
-  );
+  router.get('/settings/take-retention', requires('takes:retention'), async (request, response) => {
+    parseInput(nothing, request.query, 'The query');
+    response.json(await takeRetention(db));
+  });
   router.put('/settings/take-retention', requires('takes:retention'), async (request, response) => {
     const retention = parseInput(takeRetentionSchema, request.body, 'The retention');
     response.json(await setTakeRetention(db, actorOf(request), retention));

@@ -21,7 +21,8 @@ import {
 } from '../pass-offs/recordings-store';
 import type { UploadedFile } from '../pass-offs/recordings-service';
 import type { z } from 'zod';
-import type { takeInputSchema } from '../../shared/api/take';
+import type { heardTakeInputSchema, takeInputSchema } from '../../shared/api/take';
+import { assertInScope } from '../core/policy';
 
 /** The district setting (server/core/settings.ts) that holds how long takes are kept. */
 export const takeRetentionKey = 'take-retention';
@@ -48,6 +49,7 @@ function toTake(row: { take: TakeRow; studentName: string }): Take {
     status: take.status,
     sentAt: take.sentAt?.toISOString() ?? null,
     createdAt: take.createdAt.toISOString(),
+    heardLive: take.recordedBy !== null,
   };
 }
 
@@ -103,18 +105,21 @@ export async function listTakes(
 }
 
 /**
- * Keeps a student's take: the recording (its type read from its bytes) and the analysis their
- * browser made of it. The requirement must be on the active ladder and the analysis must have
- * one entry per note of it; nothing is stored otherwise.
+ * Keeps a take: the recording (its type read from its bytes) and the analysis the browser made
+ * of it. The requirement must be on the active ladder and the analysis must have one entry per
+ * note of it; nothing is stored otherwise. A student keeps their own ('kept' until they send
+ * it); a director of the student's school, or the coordinator, keeps the take they recorded
+ * while hearing the student as evidence of the pass-off: sent at once, so the student, the
+ * school's directors and the coordinator hear it, under the same retention as every take.
  */
-export async function keepTake(
+async function storeTake(
   db: Database,
   actor: Actor,
   dataDir: string,
   input: z.infer<typeof takeInputSchema>,
   file: UploadedFile | undefined,
+  heardBy: { studentId: number; userId: number } | null,
 ): Promise<Take> {
-  if (actor.role !== 'student' || actor.studentId === null) throw forbidden();
   if (!file || file.size === 0) {
     throw badRequest('Attach the take as the form field "recording".', [
       { field: 'recording', message: 'No file was sent.' },
@@ -135,19 +140,23 @@ export async function keepTake(
       { field: 'requirementCode', message: `No requirement ${input.requirementCode}.` },
     ]);
   }
+  const studentId = heardBy?.studentId ?? actor.studentId!;
   const storedName = writeRecordingFile(dataDir, file.buffer);
   try {
     return await db.transaction(async (tx) => {
       const [row] = await tx
         .insert(takes)
         .values({
-          studentId: actor.studentId!,
+          studentId,
           requirementId: requirement.id,
           tempoAsked: input.tempoAsked,
           storedName,
           contentType,
           size: file.size,
           analysis: input.analysis,
+          ...(heardBy
+            ? { status: 'sent' as const, sentAt: new Date(), recordedBy: heardBy.userId }
+            : {}),
         })
         .returning();
       await recordAudit(tx, actor, {
@@ -160,13 +169,49 @@ export async function keepTake(
       const [student] = await tx
         .select({ name: takeColumns.studentName })
         .from(students)
-        .where(eq(students.id, actor.studentId!));
+        .where(eq(students.id, studentId));
       return toTake({ take: row!, studentName: student?.name ?? '' });
     });
   } catch (error) {
     removeRecordingFile(dataDir, storedName);
     throw error;
   }
+}
+
+/** Keeps a student's own take, 'kept' until they send it (see {@link storeTake}). */
+export async function keepTake(
+  db: Database,
+  actor: Actor,
+  dataDir: string,
+  input: z.infer<typeof takeInputSchema>,
+  file: UploadedFile | undefined,
+): Promise<Take> {
+  if (actor.role !== 'student' || actor.studentId === null) throw forbidden();
+  return storeTake(db, actor, dataDir, input, file, null);
+}
+
+/**
+ * Keeps the take a director recorded while hearing a student of their school (the coordinator:
+ * any student) as evidence of the pass-off (see {@link storeTake}). A student outside the
+ * actor's schools answers 404.
+ */
+export async function keepHeardTake(
+  db: Database,
+  actor: Actor,
+  dataDir: string,
+  input: z.infer<typeof heardTakeInputSchema>,
+  file: UploadedFile | undefined,
+): Promise<Take> {
+  if (actor.role !== 'director' && actor.role !== 'coordinator') throw forbidden();
+  const [student] = await db
+    .select({ schoolId: students.schoolId })
+    .from(students)
+    .where(eq(students.id, input.studentId));
+  assertInScope(actor, student?.schoolId, 'That student');
+  return storeTake(db, actor, dataDir, input, file, {
+    studentId: input.studentId,
+    userId: actor.userId,
+  });
 }
 
 /** Sends a student's own take to their directors: "ready to be heard". */

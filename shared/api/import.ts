@@ -200,6 +200,8 @@ export const importHistoryEntrySchema = z.object({
   /** Who ran it; null for `tutti import` on the server's machine. */
   userName: z.string().nullable(),
   createdAt: z.string(),
+  /** When the import was undone; null while it stands. */
+  undoneAt: z.string().nullable(),
 });
 export type ImportHistoryEntry = z.infer<typeof importHistoryEntrySchema>;
 
@@ -224,3 +226,35 @@ export const importPresetInputSchema = z.strictObject({
   mapping: columnMappingSchema,
 });
 export type ImportPresetInput = z.infer<typeof importPresetInputSchema>;
+
+/** How many days after it ran an import can still be undone. */
+export const importUndoDays = 7;
+
+/** What undoing an import would do, and what stops it (nothing is undone while any blocks it). */
+export const importUndoPreviewSchema = z.object({
+  importId: z.number().int(),
+  fileName: z.string(),
+  createdAt: z.string(),
+  /** The last moment it can be undone. */
+  undoableUntil: z.string(),
+  /** Students the import created, removed with their seats. */
+  studentsRemoved: z.number().int(),
+  /** Students whose fields (name, grade, school, guardian, status) it changed, set back. */
+  studentsRestored: z.number().int(),
+  /** Students it marked withdrawn, made active again. */
+  withdrawalsReversed: z.number().int(),
+  /** Seats of existing students it added, changed or ended, put back as they were. */
+  seatsRestored: z.number().int(),
+  /** Ensembles it created, removed when no one else sits in them. */
+  ensemblesRemoved: z.number().int(),
+  /** Why it cannot be undone, one sentence each; empty when it can. */
+  blockers: z.array(z.string()),
+  canUndo: z.boolean(),
+});
+export type ImportUndoPreview = z.infer<typeof importUndoPreviewSchema>;
+
+/** The answer of an undo: what it did. */
+export const importUndoResultSchema = importUndoPreviewSchema.extend({
+  undoneAt: z.string(),
+});
+export type ImportUndoResult = z.infer<typeof importUndoResultSchema>;

@@ -61,8 +61,15 @@ export const takeSchema = z.object({
   status: z.enum(['kept', 'sent']),
   sentAt: z.string().nullable(),
   createdAt: z.string(),
+  /** Whether a director (or the coordinator) recorded it while hearing the student. */
+  heardLive: z.boolean(),
 });
 export type Take = z.infer<typeof takeSchema>;
+
+/** The form fields of a director's own take of a student (`POST /api/takes/heard`, multipart). */
+export const heardTakeInputSchema = takeInputSchema.extend({
+  studentId: z.coerce.number().int().positive().max(2_147_483_647),
+});
 
 /** How long takes are kept: until the end of the school year they were made in, or some days. */
 export const takeRetentionSchema = z.union([

@@ -142,6 +142,65 @@ describe('Takes', () => {
   });
 });
 
+describe('A director’s take kept as evidence', () => {
+  const heard = (client: SignedInClient, fields: Record<string, string>, bytes: Buffer = wave) => {
+    let call = request(app.url)
+      .post('/api/takes/heard')
+      .set({ Cookie: client.cookie, Origin: app.url })
+      .attach('recording', bytes, 'heard.wav');
+    for (const [name, value] of Object.entries(fields)) call = call.field(name, value);
+    return call;
+  };
+  const studentOf = async (email: string) =>
+    rowsOf<{ student_id: number }>(
+      await app.database.db.execute(sql`select student_id from users where email = ${email}`),
+    )[0]!.student_id;
+
+  it('should keep the take a director records of their student, heard by the student, the school’s directors and the coordinator', async () => {
+    const studentId = await studentOf(demoEmail('student.hpms'));
+    const response = await heard(director, { ...goodFields(), studentId: String(studentId) });
+    expect(response.status).toBe(201);
+    const take = takeSchema.parse(response.body);
+    expect(take).toMatchObject({ studentId, heardLive: true, status: 'sent' });
+    expect(take.analysis).toEqual(analysis);
+    const [row] = rowsOf<{ recorded_by: number | null }>(
+      await app.database.db.execute(sql`select recorded_by from takes where id = ${take.id}`),
+    );
+    expect(row!.recorded_by).not.toBeNull();
+    for (const client of [student, director, coordinator]) {
+      expect((await client.get(`/api/takes/${take.id}/recording`)).status).toBe(200);
+    }
+    expect((await otherDirector.get(`/api/takes/${take.id}/recording`)).status).toBe(404);
+    expect((await viewer.get(`/api/takes/${take.id}/recording`)).status).toBe(403);
+  });
+
+  it('should answer 404 for a student of another school, 403 for roles that hear no one, and 400 for bad fields, storing nothing', async () => {
+    const studentId = await studentOf(demoEmail('student.hpms'));
+    const before = await takeCount();
+    const fields = { ...goodFields(), studentId: String(studentId) };
+    expect((await heard(otherDirector, fields)).status).toBe(404);
+    expect((await heard(viewer, fields)).status).toBe(403);
+    expect((await heard(technician, fields)).status).toBe(403);
+    expect((await heard(student, fields)).status).toBe(403);
+    expect((await heard(director, { ...fields, studentId: 'x' })).status).toBe(400);
+    expect((await heard(director, fields, Buffer.from('not audio at all'))).status).toBe(400);
+    expect(await takeCount()).toBe(before);
+  });
+
+  it('should remove a director’s take under the same retention as a student’s', async () => {
+    const studentId = await studentOf(demoEmail('student.hpms'));
+    const take = takeSchema.parse(
+      (await heard(coordinator, { ...goodFields(), studentId: String(studentId) })).body,
+    );
+    const farAhead = new Date(Date.now() + 20 * 365 * 86_400_000);
+    await removeExpiredTakes(app.database.db, app.config.dataDir, farAhead);
+    const left = rowsOf<{ id: number }>(
+      await app.database.db.execute(sql`select id from takes where id = ${take.id}`),
+    );
+    expect(left).toEqual([]);
+  });
+});
+
 describe('Take retention', () => {
   it('should keep takes until the end of the school year unless the coordinator says otherwise', async () => {
     expect((await coordinator.get('/api/settings/take-retention')).body).toEqual({

@@ -66,16 +66,38 @@ describe('Roster import wizard', () => {
       .evaluate((element) => element.scrollIntoView({ block: 'center' }));
     await saveScreenshot(page, 'import-preview');
 
+    // A step is ticked only once it is done: the Commit step is not, after a visit and a step back.
+    const stepIcon = (label: string) =>
+      page
+        .locator('mat-step-header', { hasText: label })
+        .locator('.mat-step-icon')
+        .getAttribute('class');
     await page.getByRole('button', { name: 'Continue' }).click();
     const commit = page.getByTestId('commit');
     await commit.waitFor();
+    await page.getByRole('button', { name: 'Back', exact: true }).click();
+    await expect.poll(() => stepIcon('Commit')).toContain('mat-step-icon-state-number');
+    await page.getByRole('button', { name: 'Continue' }).click();
+    await commit.waitFor();
+    expect(await stepIcon('Preview')).not.toContain('mat-step-icon-state-number');
     expect(await commit.isDisabled()).toBe(true);
+    // The disabled Import button says why beside it.
+    expect(await page.getByTestId('commit-why').innerText()).toContain(
+      'Tick “Skip the 1 row with errors” above to import the rest',
+    );
+    expect(await commit.getAttribute('aria-describedby')).toBe('commit-why');
+    await saveScreenshot(page, 'import-commit-waiting');
     await page.getByTestId('skip-invalid').locator('input').check();
+    await expect.poll(() => page.getByTestId('commit-why').count()).toBe(0);
     await expect.poll(() => commit.isDisabled()).toBe(false);
     await commit.click();
     await expect
       .poll(() => page.getByTestId('import-result').innerText())
-      .toContain('2 rows added new students');
+      .toContain(
+        '2 rows added new students, 0 changed students, 0 unchanged, 0 students were marked withdrawn; 1 row with errors was skipped.',
+      );
+    expect(await stepIcon('Commit')).not.toContain('mat-step-icon-state-number');
+    await saveScreenshot(page, 'import-done');
 
     const found = await page.evaluate(async () => {
       const response = await fetch('/api/students?q=Quennell');
@@ -109,6 +131,26 @@ describe('Roster import wizard', () => {
     expect(await history.innerText()).toContain('spring-roster.csv');
     expect(await history.innerText()).toContain('Committed');
     await saveScreenshot(page, 'import-history');
+
+    // Undo it from the history: the preview first, then the undo, all or nothing.
+    await page.getByTestId('undo-import').first().click();
+    const effects = page.getByTestId('undo-effects');
+    await effects.waitFor();
+    expect(await effects.innerText()).toContain('remove 2 students it created');
+    await saveScreenshot(page, 'import-undo');
+    await page.getByTestId('undo-confirm').click();
+    await expect
+      .poll(() => page.getByTestId('undo-done').innerText())
+      .toContain('was undone: 2 students removed');
+    await expect.poll(() => history.innerText()).toContain('Undone');
+    expect(await page.getByTestId('undo-import').count()).toBe(0);
+    const gone = rowsOf(
+      await app.database.db.execute(
+        `select 1 from students where student_number in ('E2E-0001', 'E2E-0003')` as never,
+      ),
+    );
+    expect(gone).toHaveLength(0);
+    await saveScreenshot(page, 'import-history-undone');
     expect(outside).toEqual([]);
     await context.close();
   });

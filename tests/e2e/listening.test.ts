@@ -239,6 +239,17 @@ describe('The listening aid in the browser', () => {
       .poll(() => cell(plan.rowIndex).innerText(), { timeout: 20_000 })
       .toMatch(new RegExp(`♩${slowHeard}`));
     expect(await cell(plan.rowIndex).innerText()).toMatch(/P passed · N not yet/);
+    // The director keeps the take as evidence: one more of the student's takes, sent, recorded
+    // by the director.
+    await directorTake.getByTestId('director-take-keep').click();
+    await directorTake.getByTestId('director-take-kept').waitFor({ timeout: 20_000 });
+    const kept = rowsOf<{ status: string; recorded_by: number | null }>(
+      await app.database.db.execute(
+        `select status, recorded_by from takes where recorded_by is not null` as never,
+      ),
+    );
+    expect(kept).toHaveLength(1);
+    expect(kept[0]!.status).toBe('sent');
     await directorTake.scrollIntoViewIfNeeded();
     await saveScreenshot(grid, 'listening-director-take');
     await directorContext.close();

@@ -33,17 +33,17 @@ const requirement =
  * one flat, Bb major two flats).
  */
 const sections = [
-  { instrument: 'clarinet', written: 'written C major for Bb clarinet, treble clef', fifths: 0 },
+  { instrument: 'clarinet', written: 'written C major for B♭ clarinet, treble clef', fifths: 0 },
   {
     instrument: 'alto-sax',
-    written: 'written G major for Eb alto saxophone, treble clef',
+    written: 'written G major for E♭ alto saxophone, treble clef',
     fifths: 1,
   },
   { instrument: 'horn', written: 'written F major for horn in F, treble clef', fifths: -1 },
-  { instrument: 'trombone', written: 'written Bb major for trombone, bass clef', fifths: -2 },
-  { instrument: 'tuba', written: 'written Bb major for tuba, bass clef', fifths: -2 },
-  { instrument: 'viola', written: 'written Bb major for viola, alto clef', fifths: -2 },
-  { instrument: 'marimba', written: 'written Bb major for marimba, treble clef', fifths: -2 },
+  { instrument: 'trombone', written: 'written B♭ major for trombone, bass clef', fifths: -2 },
+  { instrument: 'tuba', written: 'written B♭ major for tuba, bass clef', fifths: -2 },
+  { instrument: 'viola', written: 'written B♭ major for viola, alto clef', fifths: -2 },
+  { instrument: 'marimba', written: 'written B♭ major for marimba, treble clef', fifths: -2 },
 ];
 
 /**
@@ -73,7 +73,7 @@ describe('Practice sheets', () => {
     for (const section of sections) {
       await page.goto(`${app.url}/practice?${requirement}&instrument=${section.instrument}`);
       const caption = page.getByTestId('sheet-caption');
-      await expect.poll(() => caption.innerText()).toBe(`Concert Bb major → ${section.written}`);
+      await expect.poll(() => caption.innerText()).toBe(`Concert B♭ major → ${section.written}`);
       // 28 beats at quarter = 100 last 16.8 seconds.
       expect(await page.getByTestId('sheet-duration').innerText()).toBe('about 17 s at ♩ = 100');
       expect(await drawnNotes(page, '[data-testid=sheet-staff]')).toBe(broadCycleNotes);
@@ -133,10 +133,10 @@ describe('Practice sheets', () => {
       .poll(() => page.locator('[data-testid=band-set] [role=img][data-notes]').count())
       .toBe(19);
     // Adler: the Bb clarinet reads a major 2nd above concert, the Eb alto saxophone a major 6th.
-    expect(await parts.filter({ hasText: 'Bb clarinet' }).first().innerText()).toContain(
+    expect(await parts.filter({ hasText: 'B♭ clarinet' }).first().innerText()).toContain(
       'written C major',
     );
-    expect(await parts.filter({ hasText: 'Eb alto saxophone' }).innerText()).toContain(
+    expect(await parts.filter({ hasText: 'E♭ alto saxophone' }).innerText()).toContain(
       'written G major',
     );
     await page.emulateMedia({ media: 'print' });
@@ -227,11 +227,54 @@ describe('Practice sheets', () => {
     const state = page.getByTestId('range-error');
     await expect
       .poll(() => state.innerText())
-      .toContain('fits the Trumpet range of written F#3 to C6');
+      .toContain('fits the Trumpet range of written F♯3 to C6');
     await page.getByRole('button', { name: 'Try one octave' }).click();
     await expect
       .poll(() => page.getByTestId('sheet-caption').innerText())
-      .toContain('written D major for Bb trumpet');
+      .toContain('written D major for B♭ trumpet');
+    await context.close();
+  });
+
+  it('should place the pattern by the player’s level and print the name, date and requirement line', async () => {
+    const { context } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    // Two octaves of concert C for piccolo reach written C7 (common practice, no source): beyond
+    // the middle-school range, within the instrument's full range.
+    await signInAs(
+      page,
+      app.url,
+      demoEmail('student.hpms'),
+      '/practice?tonic=C&mode=major&pattern=cycle-broad&tempo=100&octaves=2&instrument=piccolo&level=middle',
+    );
+    const state = page.getByTestId('range-error');
+    await expect
+      .poll(() => state.innerText(), { timeout: 10_000 })
+      .toContain('Cannot fit this level');
+    expect(await state.innerText()).toContain('C7');
+    await page.getByTestId('field-level').click();
+    await page.getByRole('option', { name: 'Full range of the instrument' }).click();
+    await expect
+      .poll(() => page.getByTestId('sheet-caption').innerText(), { timeout: 10_000 })
+      .toContain('Concert C major');
+    expect(page.url()).not.toContain('level=');
+
+    // Printed: the student's own name, today's date and the requirement in one line.
+    const me = (await page.evaluate(async () => (await fetch('/api/me')).json())) as {
+      name: string;
+    };
+    await page.emulateMedia({ media: 'print' });
+    const lines = page.getByTestId('print-lines');
+    await expect.poll(() => lines.isVisible()).toBe(true);
+    const printed = await lines.innerText();
+    expect(printed).toContain(`Name: ${me.name}`);
+    expect(printed).toMatch(/Date: [A-Z][a-z]+ \d{1,2}, \d{4}/);
+    expect(await page.getByTestId('requirement-line').innerText()).toBe(
+      'Requirement · concert C major · Scale and arpeggio, broad (half and quarter notes) · ♩ = 100 · Tongue (or bow) every note · two octaves',
+    );
+    await page.evaluate(() => document.fonts.ready);
+    await page.screenshot({ path: path.join(screenshotFolder, 'practice-sheet-print.png') });
+    await page.emulateMedia({ media: 'screen' });
+    expect(await lines.isVisible()).toBe(false);
     await context.close();
   });
 });

@@ -68,6 +68,24 @@ describe('Reports', () => {
       .poll(async () => (await page.getByTestId('report-text').innerText()).trim())
       .toBe(preview.text.trim());
 
+    // A test first: one message to the coordinator alone, its subject marked as a test.
+    await page.getByTestId('send-test').click();
+    await expect
+      .poll(() => page.getByTestId('send-result').innerText(), patient)
+      .toContain(`A test went to ${demoEmail('coordinator')}`);
+    const testSubject = `Test: Heron Point Middle (HPMS): director report, ${from} to ${to}`;
+    await expect
+      .poll(
+        () =>
+          app.mail
+            .messages()
+            .filter((message) => message.subject === testSubject)
+            .flatMap((message) => message.to),
+        patient,
+      )
+      .toEqual([demoEmail('coordinator')]);
+    await saveScreenshot(page, 'report-test-sent');
+
     // Send to the school's directors, through the confirm dialog.
     await page.getByRole('button', { name: 'Send now…' }).click();
     const dialog = page.getByRole('dialog');
@@ -110,7 +128,11 @@ describe('Reports', () => {
     // The Outbox screen shows each of them sent.
     await page.getByRole('link', { name: 'Outbox' }).first().click();
     await page.waitForURL(`${app.url}/reports/outbox`);
-    const rows = page.getByTestId('outbox-list').locator('tbody tr').filter({ hasText: subject });
+    // The test sent before is in the outbox too, its subject marked "Test:".
+    const rows = page
+      .getByTestId('outbox-list')
+      .locator('tbody tr')
+      .filter({ hasText: subject, hasNotText: 'Test:' });
     await expect.poll(() => rows.count(), patient).toBe(queued);
     await expect
       .poll(async () => new Set(await rows.locator('td:nth-child(4)').allInnerTexts()), patient)

@@ -1,4 +1,5 @@
 import { index, integer, jsonb, pgTable, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
+import { users } from './people';
 import { students } from './roster';
 
 /**
@@ -24,6 +25,11 @@ export const takes = pgTable(
       .notNull()
       .default('kept'),
     sentAt: timestamp('sent_at', { withTimezone: true, mode: 'date' }),
+    /**
+     * The director (or coordinator) who recorded the take while hearing the student, kept as
+     * evidence of a pass-off; null for the student's own take.
+     */
+    recordedBy: integer('recorded_by').references(() => users.id, { onDelete: 'set null' }),
     createdAt: timestamp('created_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
   },
   (table) => [

@@ -209,9 +209,50 @@ export const rosterImports = pgTable(
     unchanged: integer('unchanged').notNull(),
     withdrawn: integer('withdrawn').notNull(),
     errors: jsonb('errors').notNull().default([]),
+    /** The schools whose students a committed import wrote (the valid rows' schools). */
+    schoolIds: integer('school_ids')
+      .array()
+      .notNull()
+      .default(sql`'{}'::integer[]`),
+    /** The school year its seats were written in. */
+    schoolYearId: integer('school_year_id').references(() => schoolYears.id),
+    /** When, and by whom, the import was taken back (import-undo.ts). */
+    undoneAt: timestamp('undone_at', { withTimezone: true, mode: 'date' }),
+    undoneBy: integer('undone_by').references(() => users.id, { onDelete: 'set null' }),
     ...timestamps,
   },
   (table) => [index('roster_imports_created_idx').on(table.createdAt)],
+);
+
+/**
+ * What a committed roster import wrote, one row per student, seat or ensemble, so the import
+ * can be taken back: the values it replaced (`before`) and the row's version once it wrote it.
+ */
+export const rosterImportChanges = pgTable(
+  'roster_import_changes',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    importId: integer('import_id')
+      .notNull()
+      .references(() => rosterImports.id, { onDelete: 'cascade' }),
+    kind: text('kind', {
+      enum: [
+        'student-created',
+        'student-updated',
+        'student-withdrawn',
+        'seat-added',
+        'seat-changed',
+        'seat-ended',
+        'ensemble-created',
+      ],
+    }).notNull(),
+    studentId: integer('student_id'),
+    enrollmentId: integer('enrollment_id'),
+    ensembleId: integer('ensemble_id'),
+    before: jsonb('before'),
+    versionAfter: integer('version_after'),
+  },
+  (table) => [index('roster_import_changes_import_idx').on(table.importId, table.kind)],
 );
 
 /**

@@ -7,12 +7,14 @@ import {
   importPresetSchema,
   importPreviewSchema,
   importResultSchema,
+  importUndoResultSchema,
   type CommitRequest,
   type ImportDetail,
   type ImportHistoryEntry,
   type ImportPreset,
   type ImportPreview,
   type ImportResult,
+  type ImportUndoResult,
 } from '../../../shared/api/import';
 import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
 import type { ColumnMapping } from '../../../shared/roster/roster-columns';
@@ -77,6 +79,11 @@ export class RosterImports {
 
   detail(id: number): Observable<ImportDetail> {
     return this.http.get(`/api/imports/${id}`).pipe(parsedWith(importDetailSchema));
+  }
+
+  /** Takes a committed import back, all or nothing (the server refuses with what blocks it). */
+  undo(id: number): Observable<ImportUndoResult> {
+    return this.http.post(`/api/imports/${id}/undo`, {}).pipe(parsedWith(importUndoResultSchema));
   }
 
   /** Where an import's error report downloads from. */

@@ -4,6 +4,7 @@ import {
   transpositionSize,
   type InstrumentSpec,
 } from '../../../shared/music';
+import { withAccidentalSigns } from './labels';
 
 /** How a caption names an instrument in running text where the name alone reads oddly. */
 const runningNames: Record<string, string> = {
@@ -22,7 +23,7 @@ export function pitchedIn(instrumentId: string): string | undefined {
 }
 
 /**
- * The instrument as a player names it in a sentence: 'Bb clarinet', 'Eb alto saxophone',
+ * The instrument as a player names it in a sentence: 'B♭ clarinet', 'E♭ alto saxophone',
  * 'horn in F' (horns are named by their key after the name, common practice, no source),
  * 'trombone'.
  */
@@ -31,7 +32,8 @@ export function instrumentInText(instrumentId: string): string {
   const name = runningNames[instrument.id] ?? instrument.name.toLowerCase();
   const key = pitchedIn(instrument.id);
   if (!key) return name;
-  return instrument.id === 'horn' ? `${name} in ${key}` : `${key} ${name}`;
+  const sign = withAccidentalSigns(key);
+  return instrument.id === 'horn' ? `${name} in ${sign}` : `${sign} ${name}`;
 }
 
 /**

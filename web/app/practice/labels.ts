@@ -1,4 +1,30 @@
-import type { Articulation, InstrumentFamily, Mode, PatternId } from '../../../shared/music';
+import {
+  keyName,
+  type Articulation,
+  type InstrumentFamily,
+  type Key,
+  type Mode,
+  type PatternId,
+} from '../../../shared/music';
+
+/**
+ * Text with its note names written with real accidentals, as the ladder writes them ('Eb
+ * major' → 'E♭ major', 'Bb3' → 'B♭3', 'F#' → 'F♯', 'Ebb' → 'E♭♭'; Unicode's musical symbols
+ * U+266D and U+266F). A name is a letter A to G standing alone, with its accidentals and an
+ * optional octave number.
+ */
+export function withAccidentalSigns(text: string): string {
+  return text.replace(
+    /(?<![A-Za-z])([A-G])(bb|b|##|#)(?=-?\d|[^A-Za-z0-9]|$)/g,
+    (_whole, letter: string, accidentals: string) =>
+      letter + accidentals.replace(/b/g, '\u266D').replace(/#/g, '\u266F'),
+  );
+}
+
+/** A key in words with real accidentals: 'E♭ major', 'F♯ harmonic minor'. */
+export function keyWords(key: Key): string {
+  return withAccidentalSigns(keyName(key));
+}
 
 /** The form's names for each mode. */
 export const modeLabels: Record<Mode, string> = {

@@ -7,10 +7,12 @@ import {
   modes,
   patternIds,
   pitchClass,
+  schoolLevels,
   type Articulation,
   type Mode,
   type PatternId,
   type PatternPitch,
+  type SchoolLevel,
 } from '../../../shared/music';
 
 /** Everything that picks one practice sheet; each field is also a query parameter of /practice. */
@@ -25,10 +27,18 @@ export interface SheetRequest {
   instrument: string;
   /** 'written' shows the player's transposed part; 'concert' shows the sounding notes. */
   pitch: PatternPitch;
+  /**
+   * The player's school level: the pattern is placed inside that level's range, or the sheet
+   * says it cannot fit; absent, the instrument's full range.
+   */
+  level?: SchoolLevel;
 }
 
 /** The query parameters of /practice, as the router hands them over. */
 export type SheetQuery = Partial<Record<keyof SheetRequest, string | null | undefined>>;
+
+/** The levels the form offers, youngest first. */
+export const sheetLevels = schoolLevels;
 
 /** The sheet /practice opens with when the link names nothing. */
 export const defaultSheetRequest: SheetRequest = {
@@ -73,11 +83,14 @@ export function parseSheetRequest(query: SheetQuery): SheetRequest {
     octaves: query.octaves === '2' ? 2 : 1,
     instrument: findInstrument(query.instrument ?? '')?.id ?? defaultSheetRequest.instrument,
     pitch: query.pitch === 'concert' ? 'concert' : 'written',
+    ...(schoolLevels.includes(query.level as SchoolLevel)
+      ? { level: query.level as SchoolLevel }
+      : {}),
   };
 }
 
 /** The query parameters that open a request again (the inverse of parseSheetRequest). */
-export function toSheetQuery(request: SheetRequest): Record<keyof SheetRequest, string> {
+export function toSheetQuery(request: SheetRequest): Record<keyof SheetRequest, string | null> {
   return {
     tonic: request.tonic,
     mode: request.mode,
@@ -87,6 +100,7 @@ export function toSheetQuery(request: SheetRequest): Record<keyof SheetRequest, 
     octaves: String(request.octaves),
     instrument: request.instrument,
     pitch: request.pitch,
+    level: request.level ?? null,
   };
 }
 

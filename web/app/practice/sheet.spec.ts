@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { toMusicXml } from '../../../shared/music';
+import { midi, schoolRange, toMusicXml } from '../../../shared/music';
 import { buildSheet, type ReadySheet } from './sheet';
 import { defaultSheetRequest, type SheetRequest } from './sheet-request';
 
@@ -47,5 +47,35 @@ describe('buildSheet', () => {
     const sheet = ready({ instrument: 'piccolo', tonic: 'C', octaves: 2 });
     expect(sheet.levels.map(({ level }) => level)).toEqual(['elementary', 'middle', 'high']);
     expect(sheet.levels.every(({ fits }) => !fits)).toBe(true);
+  });
+
+  it('should place the pattern inside the player’s school range when a level is chosen', () => {
+    const full = ready({ instrument: 'trumpet', tonic: 'Bb', octaves: 1 });
+    const young = ready({ instrument: 'trumpet', tonic: 'Bb', octaves: 1, level: 'elementary' });
+    expect(young.kind).toBe('ready');
+    const range = schoolRange('trumpet', 'elementary');
+    for (const { note } of young.staff.notes) {
+      expect(midi(note)).toBeGreaterThanOrEqual(midi(range.lowest));
+      expect(midi(note)).toBeLessThanOrEqual(midi(range.highest));
+    }
+    // The same notes as the full-range sheet, or an octave moved into the level's range.
+    expect(young.staff.notes).toHaveLength(full.staff.notes.length);
+  });
+
+  it('should say a requirement cannot fit a level when no placement lies in its range', () => {
+    // Two octaves of concert C for piccolo reach written C7 (common practice, no source), above
+    // the middle-school piccolo range.
+    const sheet = buildSheet({
+      ...defaultSheetRequest,
+      instrument: 'piccolo',
+      tonic: 'C',
+      octaves: 2,
+      level: 'middle',
+    });
+    expect(sheet.kind).toBe('out-of-range');
+    expect(sheet.kind === 'out-of-range' && sheet.message).toMatch(/^Cannot fit this level: .*C7/);
+    expect(
+      buildSheet({ ...defaultSheetRequest, instrument: 'piccolo', tonic: 'C', octaves: 2 }).kind,
+    ).toBe('ready');
   });
 });

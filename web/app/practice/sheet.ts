@@ -2,9 +2,10 @@ import {
   clefWords,
   durationSeconds,
   instrumentById,
-  keyName,
   keySignature,
   levelReach,
+  patternForLevel,
+  schoolLevelNames,
   schoolLevels,
   pattern,
   PatternRangeError,
@@ -17,7 +18,7 @@ import {
   type StaffClef,
 } from '../../../shared/music';
 import { instrumentInText, octaveNote } from './instrument-label';
-import { secondsText } from './labels';
+import { keyWords, secondsText, withAccidentalSigns } from './labels';
 import type { SheetRequest } from './sheet-request';
 
 /** What a staff needs to draw a pattern. */
@@ -80,11 +81,43 @@ export function buildSheet(request: SheetRequest): Sheet {
   let concertNotes: PatternNote[];
   let writtenNotes: PatternNote[];
   try {
-    concertNotes = pattern(request.pattern, concertKey, { ...options, pitch: 'concert' });
-    writtenNotes = pattern(request.pattern, concertKey, { ...options, pitch: 'written' });
+    if (request.level) {
+      // Placed inside the player's school range (patternForLevel), or the level cannot play it.
+      const reach = { pattern: request.pattern, key: concertKey, octaves: request.octaves };
+      const placed = (pitch: 'concert' | 'written') =>
+        patternForLevel(reach, instrument.id, request.level!, {
+          pitch,
+          articulation: request.articulation,
+        });
+      const concert = placed('concert');
+      const written = placed('written');
+      if (!concert || !written) {
+        const outcome = levelReach(reach, instrument.id, request.level);
+        return {
+          kind: 'out-of-range',
+          request,
+          instrument,
+          message: withAccidentalSigns(
+            outcome.fits
+              ? `This pattern does not fit a ${schoolLevelNames[request.level]} player's range.`
+              : outcome.message,
+          ),
+        };
+      }
+      concertNotes = concert;
+      writtenNotes = written;
+    } else {
+      concertNotes = pattern(request.pattern, concertKey, { ...options, pitch: 'concert' });
+      writtenNotes = pattern(request.pattern, concertKey, { ...options, pitch: 'written' });
+    }
   } catch (error) {
     if (error instanceof PatternRangeError) {
-      return { kind: 'out-of-range', request, instrument, message: error.message };
+      return {
+        kind: 'out-of-range',
+        request,
+        instrument,
+        message: withAccidentalSigns(error.message),
+      };
     }
     throw error;
   }
@@ -98,9 +131,9 @@ export function buildSheet(request: SheetRequest): Sheet {
   const player = instrumentInText(instrument.id);
   const octave = octaveNote(instrument);
   const caption = atConcert
-    ? `Concert ${keyName(concertKey)} at concert pitch for ${player}, ${clefText} ` +
-      `(the player reads ${keyName(written)})`
-    : `Concert ${keyName(concertKey)} → written ${keyName(written)} for ${player}, ` +
+    ? `Concert ${keyWords(concertKey)} at concert pitch for ${player}, ${clefText} ` +
+      `(the player reads ${keyWords(written)})`
+    : `Concert ${keyWords(concertKey)} → written ${keyWords(written)} for ${player}, ` +
       `${clefText}${octave ? ` (${octave})` : ''}`;
   return {
     kind: 'ready',
@@ -111,13 +144,20 @@ export function buildSheet(request: SheetRequest): Sheet {
     staff: { notes, clef, clefs, fifths: keySignature(sheetKey), tempo: request.tempo },
     concertNotes,
     caption,
-    levels: schoolLevels.map((level) =>
-      levelReach(
+    levels: schoolLevels.map((level) => {
+      const reach = levelReach(
         { pattern: request.pattern, key: concertKey, octaves: request.octaves },
         instrument.id,
         level,
-      ),
-    ),
+      );
+      return reach.fits
+        ? {
+            ...reach,
+            lowest: withAccidentalSigns(reach.lowest),
+            highest: withAccidentalSigns(reach.highest),
+          }
+        : { ...reach, message: withAccidentalSigns(reach.message) };
+    }),
     durationText: `about ${secondsText(durationSeconds(concertNotes, request.tempo))} at ♩ = ${request.tempo}`,
   };
 }

@@ -1,11 +1,18 @@
 import { WhenPipe } from '../../core/format/formats';
-import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatDialog } from '@angular/material/dialog';
 import { toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { MatIconModule } from '@angular/material/icon';
 import { catchError, map, of, startWith, switchMap } from 'rxjs';
-import type { ImportHistoryEntry } from '../../../../shared/api/import';
+import {
+  importUndoDays,
+  type ImportHistoryEntry,
+  type ImportUndoResult,
+} from '../../../../shared/api/import';
 import { PageState } from '../../core/state/page-state';
 import { RosterImports } from '../roster-imports';
+import { UndoDialog } from '../undo-dialog/undo-dialog';
 
 type State =
   | { kind: 'loading' }
@@ -21,8 +28,11 @@ const viaLabels: Record<ImportHistoryEntry['via'], string> = {
 /** Past imports: who ran them and when, what they did, and their error reports. */
 @Component({
   selector: 'tb-import-history',
-  imports: [WhenPipe, MatIconModule, PageState],
+  imports: [WhenPipe, MatButtonModule, MatIconModule, PageState],
   template: `
+    @if (undoneMessage(); as message) {
+      <p class="undone-message" role="status" data-testid="undo-done">{{ message }}</p>
+    }
     @switch (state().kind) {
       @case ('loading') {
         <tb-page-state kind="loading" title="Loading the import history…" />
@@ -57,6 +67,7 @@ const viaLabels: Record<ImportHistoryEntry['via'], string> = {
                 <th scope="col" class="number">Unchanged</th>
                 <th scope="col" class="number">Withdrawn</th>
                 <th scope="col">Errors</th>
+                <th scope="col"><span class="tb-visually-hidden">Undo</span></th>
               </tr>
             </thead>
             <tbody>
@@ -76,9 +87,17 @@ const viaLabels: Record<ImportHistoryEntry['via'], string> = {
                     }
                   </td>
                   <td>
-                    <span class="badge" [class.committed]="entry.committed">{{
-                      entry.committed ? 'Committed' : 'Not committed'
-                    }}</span>
+                    @if (entry.undoneAt) {
+                      <span
+                        class="badge undone"
+                        [title]="'Undone ' + (entry.undoneAt | when: 'dateTime')"
+                        >Undone</span
+                      >
+                    } @else {
+                      <span class="badge" [class.committed]="entry.committed">{{
+                        entry.committed ? 'Committed' : 'Not committed'
+                      }}</span>
+                    }
                   </td>
                   <td class="number">{{ entry.rows }}</td>
                   <td class="number">{{ entry.created }}</td>
@@ -93,6 +112,19 @@ const viaLabels: Record<ImportHistoryEntry['via'], string> = {
                       >
                     } @else {
                       <span class="tb-muted">None</span>
+                    }
+                  </td>
+                  <td>
+                    @if (undoable(entry)) {
+                      <button
+                        mat-stroked-button
+                        type="button"
+                        (click)="undo(entry)"
+                        [attr.aria-label]="'Undo the import of ' + entry.fileName"
+                        data-testid="undo-import"
+                      >
+                        Undo…
+                      </button>
                     }
                   </td>
                 </tr>
@@ -132,6 +164,17 @@ const viaLabels: Record<ImportHistoryEntry['via'], string> = {
       color: #410002;
       white-space: nowrap;
     }
+    .badge.undone {
+      background: #e8e2d9;
+      color: #3b3630;
+    }
+    .undone-message {
+      margin: 0 0 12px;
+      padding: 8px 12px;
+      border-radius: 4px;
+      background: #d7f0da;
+      color: #0d3a13;
+    }
     .badge.committed {
       background: #d7f0da;
       color: #0d3a13;
@@ -151,12 +194,15 @@ const viaLabels: Record<ImportHistoryEntry['via'], string> = {
 })
 export class ImportHistory {
   protected readonly imports = inject(RosterImports);
+  private readonly dialog = inject(MatDialog);
   /** Changes whenever the history should be read again (after a commit). */
   readonly refresh = input(0);
+  private readonly undone = signal(0);
+  protected readonly undoneMessage = signal('');
 
   protected readonly viaLabels = viaLabels;
   protected readonly state = toSignal(
-    toObservable(this.refresh).pipe(
+    toObservable(computed(() => [this.refresh(), this.undone()])).pipe(
       switchMap(() =>
         this.imports.history({ limit: 100 }).pipe(
           map((list): State => ({ kind: 'ready', rows: list.rows, total: list.total })),
@@ -171,4 +217,34 @@ export class ImportHistory {
     const state = this.state();
     return state.kind === 'ready' ? state : null;
   });
+
+  /**
+   * Whether to offer the undo: a committed import not undone, run within the window. The server
+   * decides the rest (a later import of its schools, work recorded since) and the dialog says why.
+   */
+  protected undoable(entry: ImportHistoryEntry): boolean {
+    if (!entry.committed || entry.undoneAt) return false;
+    const age = Date.now() - new Date(entry.createdAt).getTime();
+    return age < importUndoDays * 24 * 60 * 60 * 1000;
+  }
+
+  protected undo(entry: ImportHistoryEntry): void {
+    this.undoneMessage.set('');
+    this.dialog
+      .open<UndoDialog, ImportHistoryEntry, ImportUndoResult>(UndoDialog, {
+        data: entry,
+        width: '560px',
+        maxWidth: '95vw',
+      })
+      .afterClosed()
+      .subscribe((result) => {
+        if (!result) return;
+        const count = (value: number, one: string, many: string) =>
+          `${value.toLocaleString('en-US')} ${value === 1 ? one : many}`;
+        this.undoneMessage.set(
+          `The import of “${result.fileName}” was undone: ${count(result.studentsRemoved, 'student', 'students')} removed, ${count(result.studentsRestored, 'student', 'students')} set back, ${count(result.withdrawalsReversed, 'withdrawal', 'withdrawals')} reversed, ${count(result.seatsRestored, 'seat', 'seats')} put back.`,
+        );
+        this.undone.update((value) => value + 1);
+      });
+  }
 }

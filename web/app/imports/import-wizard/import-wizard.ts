@@ -11,6 +11,8 @@ import {
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatIconModule } from '@angular/material/icon';
+import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { STEPPER_GLOBAL_OPTIONS } from '@angular/cdk/stepper';
 import { MatStepper, MatStepperModule } from '@angular/material/stepper';
 import type { ImportPreview, ImportResult } from '../../../../shared/api/import';
 import type { ColumnMapping } from '../../../../shared/roster/roster-columns';
@@ -21,6 +23,7 @@ import { PlanChanges } from '../plan-changes/plan-changes';
 import { PreviewGrid } from '../preview-grid/preview-grid';
 import { RosterImports, type PreviewRequest } from '../roster-imports';
 import { UploadDrop } from '../upload-drop/upload-drop';
+import { commitActivity, importDoneSentence } from './import-words';
 
 const errorsShown = 200;
 
@@ -31,6 +34,7 @@ const errorsShown = 200;
     MatButtonModule,
     MatCheckboxModule,
     MatIconModule,
+    MatProgressBarModule,
     MatStepperModule,
     MappingForm,
     PlanChanges,
@@ -40,6 +44,11 @@ const errorsShown = 200;
   templateUrl: './import-wizard.html',
   styleUrl: './import-wizard.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
+  // A step shows a tick only once it is done (the last one too, once the import is in), never
+  // for merely being visited.
+  providers: [
+    { provide: STEPPER_GLOBAL_OPTIONS, useValue: { displayDefaultIndicatorType: false } },
+  ],
 })
 export class ImportWizard {
   private readonly imports = inject(RosterImports);
@@ -57,6 +66,13 @@ export class ImportWizard {
   protected readonly busy = signal(false);
   protected readonly problem = signal('');
   protected readonly result = signal<ImportResult | null>(null);
+  /** The furthest step the coordinator has gone on to: a step is done once they leave it forward. */
+  protected readonly furthest = signal(0);
+  protected readonly doneSentence = importDoneSentence;
+  protected readonly activity = computed(() => {
+    const preview = this.preview();
+    return preview ? commitActivity(preview.plan) : '';
+  });
 
   protected readonly errors = computed(() => this.preview()?.errors ?? []);
   protected readonly shownErrors = computed(() => this.errors().slice(0, errorsShown));
@@ -82,6 +98,22 @@ export class ImportWizard {
       !this.blockedWholly() &&
       (this.errors().length === 0 || this.skipInvalid()),
   );
+
+  /** Whether the only thing keeping the Import button off is the unticked "skip" box. */
+  protected readonly waitingForSkip = computed(
+    () =>
+      this.preview() !== null &&
+      this.result() === null &&
+      !this.busy() &&
+      !this.mappingChanged() &&
+      !this.blockedWholly() &&
+      this.errors().length > 0 &&
+      !this.skipInvalid(),
+  );
+
+  protected reached(index: number) {
+    this.furthest.update((furthest) => Math.max(furthest, index));
+  }
 
   protected upload(file: File) {
     this.fileName.set(file.name);
@@ -148,6 +180,7 @@ export class ImportWizard {
     this.skipInvalid.set(false);
     this.withdrawMissing.set(false);
     this.fileName.set('');
+    this.furthest.set(0);
     this.stepper().reset();
   }
 

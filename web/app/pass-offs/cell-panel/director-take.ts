@@ -18,6 +18,8 @@ import { pattern, PatternRangeError, type PatternNote } from '../../../../shared
 import type { LadderRequirement } from '../../../../shared/api/ladder';
 import { analyseInWorker } from '../../practice/take-panel/take-job';
 import { TakeRecorder } from '../../practice/take-panel/take-recorder';
+import { Takes } from '../../practice/take-panel/takes';
+import { errorMessage } from '../../core/parse';
 import { TakeAnalysisView, aidSuggestion } from '../../practice/take-panel/take-analysis-view';
 
 type Stage = 'idle' | 'asking' | 'recording' | 'listening' | 'heard' | 'problem';
@@ -40,7 +42,10 @@ const longestTake = 10 * 60;
 })
 export class DirectorTake {
   private readonly recorder = inject(TakeRecorder);
+  private readonly takes = inject(Takes);
 
+  /** The student being heard: a kept take is theirs. */
+  readonly studentId = input.required<number>();
   readonly requirement = input.required<LadderRequirement>();
   readonly instrumentId = input<string | null>(null);
   /** Fill the cell's tempo with the tempo heard. */
@@ -49,6 +54,10 @@ export class DirectorTake {
   protected readonly stage = signal<Stage>('idle');
   protected readonly problem = signal<string | null>(null);
   protected readonly analysis = signal<TakeAnalysis | null>(null);
+  /** The recording analysed, kept as evidence when the director asks. */
+  private recording: Blob | null = null;
+  protected readonly keeping = signal<'no' | 'saving' | 'kept'>('no');
+  protected readonly keepProblem = signal<string | null>(null);
   protected readonly level = this.recorder.level;
   protected readonly levelPercent = computed(() => Math.round(this.level() * 100));
   protected readonly suggestion = computed(() => {
@@ -116,6 +125,7 @@ export class DirectorTake {
     this.stage.set('listening');
     try {
       const take = await this.recorder.stop();
+      this.recording = take.blob;
       await this.analyse(take.samples, take.sampleRate);
     } catch {
       this.fail('The recording could not be read in this browser.');
@@ -150,7 +160,31 @@ export class DirectorTake {
       this.fail('The recording is too long: 10 minutes at most.');
       return;
     }
+    this.recording = file;
     await this.analyse(samples, sampleRate);
+  }
+
+  /** Keeps the take with the student's takes, as evidence of this pass-off. */
+  protected keep(): void {
+    const analysis = this.analysis();
+    if (!analysis || !this.recording || this.keeping() !== 'no') return;
+    this.keeping.set('saving');
+    this.keepProblem.set(null);
+    this.takes
+      .keepHeard(
+        this.recording,
+        this.studentId(),
+        this.requirement().code,
+        this.requirement().tempo,
+        analysis,
+      )
+      .subscribe({
+        next: () => this.keeping.set('kept'),
+        error: (error: unknown) => {
+          this.keeping.set('no');
+          this.keepProblem.set(errorMessage(error, 'The take could not be kept. Try again.'));
+        },
+      });
   }
 
   private async analyse(samples: Float32Array, sampleRate: number): Promise<void> {
@@ -185,5 +219,8 @@ export class DirectorTake {
     this.stage.set('idle');
     this.problem.set(null);
     this.analysis.set(null);
+    this.recording = null;
+    this.keeping.set('no');
+    this.keepProblem.set(null);
   }
 }

@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import { instruments, keyName, type InstrumentFamily } from '../../../../shared/music';
+import { instruments, type InstrumentFamily } from '../../../../shared/music';
 import { instrumentInText } from '../instrument-label';
-import { articulationLabels, clefLabels, patternLabels } from '../labels';
+import { articulationLabels, clefLabels, keyWords, patternLabels } from '../labels';
 import { buildSheet, type Sheet } from '../sheet';
 import type { SheetRequest } from '../sheet-request';
 import { Staff } from '../staff/staff';
@@ -35,7 +35,7 @@ export class BandSet {
 
   protected readonly heading = computed(() => {
     const request = this.request();
-    return `Concert ${keyName({ tonic: request.tonic, mode: request.mode })}`;
+    return `Concert ${keyWords({ tonic: request.tonic, mode: request.mode })}`;
   });
 
   protected readonly details = computed(() => {
@@ -59,7 +59,7 @@ export class BandSet {
       }));
   });
 
-  protected keyName = keyName;
+  protected keyName = keyWords;
 }
 
 function capitalised(text: string): string {

@@ -1,5 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import { keyName, writtenKey, type PracticeStep } from '../../../../shared/music';
+import { writtenKey, type PracticeStep } from '../../../../shared/music';
+import { keyWords } from '../labels';
 import { instrumentInText } from '../instrument-label';
 import { buildSheet } from '../sheet';
 import type { SheetRequest } from '../sheet-request';
@@ -22,8 +23,8 @@ export class PlanPrint {
     const requirement = this.requirement();
     const concert = { tonic: requirement.tonic, mode: requirement.mode };
     return (
-      `Concert ${keyName(concert)} for ${instrumentInText(requirement.instrument)} ` +
-      `(written ${keyName(writtenKey(concert, requirement.instrument))})`
+      `Concert ${keyWords(concert)} for ${instrumentInText(requirement.instrument)} ` +
+      `(written ${keyWords(writtenKey(concert, requirement.instrument))})`
     );
   });
 

@@ -11,7 +11,10 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
 import { practicePlan, schoolLevelNames } from '../../../../shared/music';
+import { CurrentUser } from '../../core/auth/current-user';
+import { CurrentDistrict } from '../../core/district/current-district';
 import { PageState } from '../../core/state/page-state';
+import { articulationLabels, keyWords, patternLabels } from '../labels';
 import { BandSet, type Ensemble } from '../band-set/band-set';
 import { downloadMusicXml } from '../musicxml-download';
 import { SheetPlayback } from '../playback/sheet-playback';
@@ -52,6 +55,8 @@ export type PracticeView = 'sheet' | 'band-set' | 'plan';
 })
 export class PracticeSheets {
   private readonly router = inject(Router);
+  private readonly me = inject(CurrentUser).me;
+  private readonly district = inject(CurrentDistrict).district;
   protected readonly playback = inject(SheetPlayback);
   /** 'Elementary school', 'Middle school', 'High school'. */
   protected readonly levelNames = Object.fromEntries(
@@ -73,6 +78,8 @@ export class PracticeSheets {
   readonly octaves = input<string>();
   readonly instrument = input<string>();
   readonly pitch = input<string>();
+  /** The player's school level the pattern is placed for; the full range when absent. */
+  readonly level = input<string>();
   /** 'band-set' or 'plan' for the print layouts; the sheet otherwise. */
   readonly view = input<string>();
   /** 'orchestra' for a string orchestra's set; a band's otherwise. */
@@ -93,6 +100,7 @@ export class PracticeSheets {
       octaves: this.octaves(),
       instrument: this.instrument(),
       pitch: this.pitch(),
+      level: this.level(),
     }),
   );
   protected readonly shownView = computed<PracticeView>(() => {
@@ -135,6 +143,36 @@ export class PracticeSheets {
       : requirement;
   });
   protected readonly sheet = computed(() => buildSheet(this.shownRequest()));
+
+  /** The player's name on the printed sheet: a student's own; a line to write on otherwise. */
+  protected readonly studentName = computed(() => {
+    const me = this.me();
+    return me?.role === 'student' ? me.name : '';
+  });
+  /** Today in the district's time zone, as the printed sheet dates it. */
+  protected readonly today = computed(() =>
+    new Intl.DateTimeFormat('en-US', {
+      dateStyle: 'long',
+      timeZone: this.district()?.timeZone,
+    }).format(new Date()),
+  );
+  /** What the sheet asks, in one line: code, concert key, pattern, tempo, articulation, octaves. */
+  protected readonly requirementLine = computed(() => {
+    const request = this.shownRequest();
+    const code = this.requirementCode();
+    const step = this.shownStep();
+    return [
+      step ? `Step ${step.number} of ${this.plan().length}: ${step.title}` : '',
+      code ? `Requirement ${code}` : 'Requirement',
+      `concert ${keyWords({ tonic: request.tonic, mode: request.mode })}`,
+      patternLabels[request.pattern],
+      `♩ = ${request.tempo}`,
+      articulationLabels[request.articulation],
+      request.octaves === 2 ? 'two octaves' : 'one octave',
+    ]
+      .filter(Boolean)
+      .join(' · ');
+  });
 
   /** Opens another requirement from the form; a step being practised is left. */
   protected choose(request: SheetRequest): void {

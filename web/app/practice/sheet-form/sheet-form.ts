@@ -20,12 +20,20 @@ import {
   instruments,
   modes,
   patternIds,
+  schoolLevelNames,
   type Mode,
 } from '../../../../shared/music';
-import { articulationLabels, familyLabels, modeLabels, patternLabels } from '../labels';
+import {
+  articulationLabels,
+  familyLabels,
+  modeLabels,
+  patternLabels,
+  withAccidentalSigns,
+} from '../labels';
 import {
   parseSheetRequest,
   tempoLimits,
+  sheetLevels,
   toSheetQuery,
   tonicsFor,
   usualTempoSteps,
@@ -71,7 +79,12 @@ export class SheetForm {
     octaves: [1],
     instrument: [''],
     concertPitch: [false],
+    level: ['' as string],
   });
+  protected readonly levels = sheetLevels.map((level) => ({
+    id: level,
+    label: schoolLevelNames[level].charAt(0).toUpperCase() + schoolLevelNames[level].slice(1),
+  }));
 
   protected readonly modes = modes.map((mode) => ({ id: mode, label: modeLabels[mode] }));
   protected readonly patterns = patternIds.map((id) => ({ id, label: patternLabels[id] }));
@@ -88,6 +101,7 @@ export class SheetForm {
   protected readonly tempoLimits = tempoLimits;
 
   protected readonly tonics = computed(() => tonicsFor(this.request().mode));
+  protected readonly signs = withAccidentalSigns;
 
   constructor() {
     effect(() => {
@@ -102,6 +116,7 @@ export class SheetForm {
           octaves: request.octaves,
           instrument: request.instrument,
           concertPitch: request.pitch === 'concert',
+          level: request.level ?? '',
         },
         { emitEvent: false },
       );

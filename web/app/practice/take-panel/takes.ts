@@ -29,6 +29,26 @@ export class Takes {
     return this.http.post('/api/takes', form).pipe(map((body) => takeSchema.parse(body)));
   }
 
+  /**
+   * Keeps the take a director recorded while hearing a student, as evidence of the pass-off:
+   * sent at once to the student's directors and the coordinator, and heard by the student.
+   */
+  keepHeard(
+    recording: Blob,
+    studentId: number,
+    requirementCode: string,
+    tempoAsked: number,
+    analysis: TakeAnalysis,
+  ): Observable<Take> {
+    const form = new FormData();
+    form.append('studentId', String(studentId));
+    form.append('requirementCode', requirementCode);
+    form.append('tempoAsked', String(Math.round(tempoAsked)));
+    form.append('analysis', JSON.stringify(analysis));
+    form.append('recording', recording, recording instanceof File ? recording.name : 'take.webm');
+    return this.http.post('/api/takes/heard', form).pipe(map((body) => takeSchema.parse(body)));
+  }
+
   /** Sends a kept take to the student's directors: ready to be heard. */
   send(id: number): Observable<Take> {
     return this.http.post(`/api/takes/${id}/send`, {}).pipe(map((body) => takeSchema.parse(body)));

@@ -98,7 +98,8 @@ export class ReportComposer {
   );
 
   protected readonly sending = signal(false);
-  protected readonly sent = signal<{ messages: number } | null>(null);
+  /** What the last send queued; `test` holds the address a test went to. */
+  protected readonly sent = signal<{ messages: number; test?: string } | null>(null);
   protected readonly sendError = signal<string | null>(null);
 
   constructor() {
@@ -138,14 +139,30 @@ export class ReportComposer {
       });
   }
 
-  private send(input: ReportSendInput): void {
+  /** Sends this report once, to the signed-in user alone, before it goes to directors. */
+  protected sendTest(): void {
+    const me = this.me();
+    if (!me || !this.preview.value()) return;
+    const input: ReportSendInput = {
+      kind: this.kind(),
+      from: this.from(),
+      to: this.to(),
+      test: true,
+    };
+    const schoolId = this.schoolId();
+    if (this.kind() === 'director' && schoolId !== null) input.schoolIds = [schoolId];
+    else input.recipients = [me.email];
+    this.send(input, me.email);
+  }
+
+  private send(input: ReportSendInput, testTo?: string): void {
     this.sending.set(true);
     this.sent.set(null);
     this.sendError.set(null);
     this.reports.send(input).subscribe({
       next: (result) => {
         this.sending.set(false);
-        this.sent.set({ messages: result.outboxIds.length });
+        this.sent.set({ messages: result.outboxIds.length, test: testTo });
       },
       error: (failure: unknown) => {
         this.sending.set(false);
