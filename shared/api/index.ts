@@ -21,3 +21,4 @@ export * from './report';
 export * from './import';
 export * from './district';
 export * from './school-year';
+export * from './year-over-year';
