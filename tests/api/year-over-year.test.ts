@@ -8,6 +8,12 @@ import {
 } from '../../shared/api/year-over-year';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 
+interface Ensemble {
+  id: number;
+  name: string;
+  memberCount: number;
+}
+
 let app: TestApp;
 let coordinator: ReturnType<TestApp['bearer']>;
 let director: ReturnType<TestApp['bearer']>;
@@ -138,7 +144,7 @@ describe('Year over year', () => {
     expect((await app.anonymous.get('/api/analytics/year-over-year')).status).toBe(401);
     const unknown = await coordinator.get('/api/analytics/year-over-year?year=2025');
     expect(unknown.status).toBe(400);
-    expect(unknown.body.message).toContain('year');
+    expect(unknown.body.error.fieldErrors[0]).toMatchObject({ field: 'year' });
     expect((await coordinator.get('/api/analytics/retention/students?grade=13')).status).toBe(400);
     expect((await coordinator.get('/api/analytics/retention/students?stopped=maybe')).status).toBe(
       400,
@@ -191,5 +197,28 @@ describe('Year over year', () => {
     ]);
     // A climb: a cohort's median does not fall from one year's end to the next in the demo.
     expect(cohort.points[1]!.median).toBeGreaterThanOrEqual(cohort.points[0]!.median);
+  });
+
+  it('should count an ensemble’s members of a past year when the list is asked for that year', async () => {
+    const years = (await director.get('/api/school-years')).body as {
+      rows: { id: number; name: string }[];
+    };
+    const past = years.rows.find((row) => row.name === '2025-26')!;
+    const now = (await director.get('/api/ensembles?limit=50')).body.rows as Ensemble[];
+    const then = (await director.get(`/api/ensembles?limit=50&schoolYearId=${past.id}`)).body
+      .rows as Ensemble[];
+    const seats = rowsOf<{ ensemble_id: number; seats: number }>(
+      await app.database.db.execute(sql`
+        select ensemble_id, count(*)::int as seats from enrollments
+        where school_year_id = ${past.id} and active group by 1`),
+    );
+    expect(then.map((row) => row.id)).toEqual(now.map((row) => row.id));
+    for (const ensemble of then) {
+      expect(ensemble.memberCount, ensemble.name).toBe(
+        seats.find((row) => row.ensemble_id === ensemble.id)?.seats ?? 0,
+      );
+    }
+    expect(then.some((row, index) => row.memberCount !== now[index]!.memberCount)).toBe(true);
+    expect((await director.get('/api/ensembles?schoolYearId=x')).status).toBe(400);
   });
 });
