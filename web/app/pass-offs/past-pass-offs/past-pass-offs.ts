@@ -14,8 +14,8 @@ import { ServerGrid } from '../../core/grid/server-grid';
   imports: [ServerGrid],
   template: `
     <p class="tb-muted note" data-testid="past-year-note">
-      The pass-offs heard in {{ year().name }} ({{ year().startsOn }} to {{ year().endsOn }}).
-      Past years are history: read, not changed.
+      The pass-offs your students heard in {{ year().name }} ({{ year().startsOn }} to
+      {{ year().endsOn }}), wherever they played then. Past years are history: read, not changed.
     </p>
     <tb-server-grid
       endpoint="/api/pass-offs"
