@@ -58,7 +58,7 @@ describe('Year over year', () => {
     const total = figures.retention.total;
     await expect
       .poll(() => page.getByTestId('retention-total').innerText(), patient)
-      .toContain(`Of ${total.players} students who played in 2025-26`);
+      .toContain(`Of ${total.players.toLocaleString('en-US')} students who played in 2025-26`);
     await page.evaluate(() => document.fonts.ready);
     await page.getByRole('heading', { name: 'Year over year' }).scrollIntoViewIfNeeded();
     await page.waitForTimeout(500);

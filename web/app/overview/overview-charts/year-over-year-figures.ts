@@ -35,7 +35,8 @@ function retentionFigure(
     option: {
       ...base,
       legend: { show: false },
-      grid: { ...base.grid, top: 28, right: 24 },
+      // Room on the right for each bar's label (share and counts).
+      grid: { ...base.grid, top: 28, right: 104 },
       tooltip: {
         ...base.tooltip,
         trigger: 'item',
@@ -115,7 +116,7 @@ export function retentionByTransitionFigure(
 ): ChartFigure {
   return retentionFigure(
     figures.retention.byTransition.map((step) => ({
-      label: `${step.fromGrade === 0 ? 'K' : step.fromGrade} → ${step.toGrade}${step.changesSchool ? ' ⇢' : ''}`,
+      label: `${step.fromGrade === 0 ? 'K' : step.fromGrade} → ${step.toGrade}`,
       name: `${gradeLabel(step.fromGrade)} to ${gradeLabel(step.toGrade).toLowerCase()}${step.changesSchool ? ', into the next school' : ''}`,
       players: step.players,
       continued: step.continued,
@@ -129,13 +130,22 @@ export function retentionByTransitionFigure(
   );
 }
 
-/** Each cohort's median rung at each year's end (and now), one line per cohort. */
+/**
+ * Each cohort's median rung at each year's end (and now), one line per cohort. A climb needs two
+ * years: the chart and its table show the cohorts with at least two years and five students.
+ */
 export function cohortClimbFigure(figures: YearOverYear): ChartFigure {
-  const years = [...new Set(figures.cohorts.flatMap((cohort) => cohort.points.map((point) => point.year)))].sort();
-  // The small cohorts (a handful who joined late) would only clutter the chart.
-  const cohorts = figures.cohorts.filter((cohort) => (cohort.points[0]?.students ?? 0) >= 5);
+  const cohorts = figures.cohorts.filter(
+    (cohort) => cohort.points.length >= 2 && (cohort.points[0]?.students ?? 0) >= 5,
+  );
+  const years = [
+    ...new Set(cohorts.flatMap((cohort) => cohort.points.map((point) => point.year))),
+  ].sort();
   const name = (cohort: YearOverYear['cohorts'][number]) =>
     `${gradeLabel(cohort.startGrade)} in ${cohort.startYear}`;
+  const shortName = (cohort: YearOverYear['cohorts'][number]) =>
+    cohort.startGrade === 0 ? 'K' : `Gr ${cohort.startGrade}`;
+  const rung = (value: number) => (Number.isInteger(value) ? String(value) : value.toFixed(1));
   const base = chartBase();
   const now = (year: string) => (year === figures.year.name ? `${year} so far` : `end of ${year}`);
   return {
@@ -143,7 +153,8 @@ export function cohortClimbFigure(figures: YearOverYear): ChartFigure {
       ...base,
       legend: { ...base.legend, type: 'scroll', data: cohorts.map(name) },
       tooltip: { ...base.tooltip, trigger: 'axis' },
-      grid: { ...base.grid, top: 64, bottom: 28 },
+      // Room on the right for each line's end label.
+      grid: { ...base.grid, top: 64, bottom: 28, right: 88, left: 24 },
       xAxis: { ...categoryAxis(years.map(now), 'School year'), boundaryGap: false },
       yAxis: valueAxis('Median rung'),
       series: cohorts.map((cohort, index) => ({
@@ -152,17 +163,18 @@ export function cohortClimbFigure(figures: YearOverYear): ChartFigure {
         data: years.map(
           (year) => cohort.points.find((point) => point.year === year)?.median ?? null,
         ),
-        connectNulls: false,
         symbolSize: 8,
         lineStyle: { width: 2.5 },
         itemStyle: { color: seriesColour(index) },
-        label: {
+        // The cohort's name and last median at the line's end, so no reading depends on colour.
+        endLabel: {
           show: true,
-          position: 'top' as const,
-          fontSize: 11,
+          color: seriesColour(index),
+          fontWeight: 600,
           formatter: ({ value }: { value: unknown }) =>
-            value === null ? '' : Number(value).toFixed(Number.isInteger(value) ? 0 : 1),
+            `${shortName(cohort)} · ${rung(Number(value))}`,
         },
+        labelLayout: { moveOverlap: 'shiftY' as const },
       })),
     },
     table: {
@@ -172,7 +184,7 @@ export function cohortClimbFigure(figures: YearOverYear): ChartFigure {
         heading: name(cohort),
         cells: years.map((year) => {
           const point = cohort.points.find((entry) => entry.year === year);
-          return { text: point ? `${point.median} (${point.students} students)` : '—' };
+          return { text: point ? `${rung(point.median)} (${point.students} students)` : '—' };
         }),
       })),
     },

@@ -5,7 +5,7 @@ import { ChartCard } from '../../core/charts/chart-card/chart-card';
 import type { DrillTarget } from '../../core/charts/chart-figure';
 import { PageState } from '../../core/state/page-state';
 import { OverviewData } from '../overview-data';
-import { percentText } from '../overview-charts/figure-words';
+import { countText, percentText } from '../overview-charts/figure-words';
 import {
   cohortClimbFigure,
   retentionBySchoolFigure,
@@ -47,7 +47,10 @@ export class YearOverYearSection {
       total: figures.retention.total,
       bySchool: figures.retention.bySchool.length > 1 ? retentionBySchoolFigure(figures) : null,
       byTransition: retentionByTransitionFigure(figures, this.schoolId()),
-      cohorts: figures.cohorts.length ? cohortClimbFigure(figures) : null,
+      cohorts: figures.cohorts.some((cohort) => cohort.points.length >= 2)
+        ? cohortClimbFigure(figures)
+        : null,
+      lead: `Of ${countText(figures.retention.total.players, 'student')} who played in ${figures.previousYear?.name ?? ''} and are still in the district, ${figures.retention.total.continued.toLocaleString('en-US')} play in ${figures.year.name} (${percentText(figures.retention.total.share)}). Brass bars are the steps into the next school.`,
     };
   });
   protected readonly percentText = percentText;
