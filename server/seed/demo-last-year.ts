@@ -8,7 +8,12 @@ import { activeRuleLadder } from '../ladder/ladder-queries';
 import { familyOf } from '../ladder/student-families';
 import { demoSchools, firstNames, lastNames, type DemoSchoolCode } from './demo-people';
 import { targetsByGrade, weekday } from './demo-ladder';
-import { bandInstruments, ensemblesByLevel, insertInBatches, stringInstruments } from './demo-roster';
+import {
+  bandInstruments,
+  ensemblesByLevel,
+  insertInBatches,
+  stringInstruments,
+} from './demo-roster';
 import { SeededRandom } from './random';
 
 /** The year before the demo's current one: ended, read-only history. */
@@ -99,16 +104,14 @@ export async function seedDemoLastYear(
       left join lateral (select e.instrument_id, e.ensemble_id from enrollments e
         where e.student_id = s.id order by e.id limit 1) seat on true
       where s.status = 'active' order by s.id`),
-  ).map(
-    (row): Pupil => ({
-      id: row.id,
-      grade: row.grade,
-      code: codeOfSchool.get(row.school_id)! as DemoSchoolCode,
-      rung: row.rung,
-      instrument: row.instrument_id,
-      ensembleId: row.ensemble_id,
-    }),
-  );
+  ).map((row): Pupil => ({
+    id: row.id,
+    grade: row.grade,
+    code: codeOfSchool.get(row.school_id)! as DemoSchoolCode,
+    rung: row.rung,
+    instrument: row.instrument_id,
+    ensembleId: row.ensemble_id,
+  }));
 
   /** An ensemble of a school for a player of that grade and instrument. */
   const seatAt = (code: DemoSchoolCode, grade: number, instrument: string) => {
@@ -120,8 +123,7 @@ export async function seedDemoLastYear(
         (!definition.grades || definition.grades.includes(grade)) &&
         definition.kind !== 'marching-band',
     );
-    const name = (fitting.length ? random.pick(fitting) : ensemblesByLevel[school.level]![0]!)
-      .name;
+    const name = (fitting.length ? random.pick(fitting) : ensemblesByLevel[school.level]![0]!).name;
     return ensembleRows.find(
       (row) => row.school_id === context.schoolIds.get(code) && row.name === name,
     )!.id;
@@ -135,7 +137,15 @@ export async function seedDemoLastYear(
     if (!school) continue;
     const moved = school !== pupil.code;
     // Most of a year's climb is this year's; last year ended one or two rungs lower.
-    const rung = Math.max(0, pupil.rung - random.weighted([[0, 15], [1, 55], [2, 30]] as const));
+    const rung = Math.max(
+      0,
+      pupil.rung -
+        random.weighted([
+          [0, 15],
+          [1, 55],
+          [2, 30],
+        ] as const),
+    );
     players.push({
       studentId: pupil.id,
       school,
@@ -150,7 +160,12 @@ export async function seedDemoLastYear(
   }
 
   // Those who stopped, in proportion to those who continued from the same school and grade.
-  const pastOnly: (typeof students.$inferInsert & { lastSchool: DemoSchoolCode; lastGrade: number; outcome: LastYearPlayer['outcome']; instrument: string })[] = [];
+  const pastOnly: (typeof students.$inferInsert & {
+    lastSchool: DemoSchoolCode;
+    lastGrade: number;
+    outcome: LastYearPlayer['outcome'];
+    instrument: string;
+  })[] = [];
   for (const [key, count] of [...continuing].sort(([a], [b]) => a.localeCompare(b))) {
     const [code, gradeText] = key.split(':') as [DemoSchoolCode, string];
     const grade = Number(gradeText);
@@ -266,7 +281,9 @@ function inventedStudent(random: SeededRandom) {
 }
 
 function pickInstrument(random: SeededRandom): string {
-  return random.chance(0.32) ? random.weighted(stringInstruments) : random.weighted(bandInstruments);
+  return random.chance(0.32)
+    ? random.weighted(stringInstruments)
+    : random.weighted(bandInstruments);
 }
 
 /**
@@ -322,7 +339,10 @@ async function seedLastYearPassOffs(
         requirementId: requirementIds.get(event.code)!,
         requirementCode: event.code,
         heardOn: isoDay(
-          weekday(start + Math.round(((end - start) * (index + 1)) / events.length / dayMs) * dayMs, last),
+          weekday(
+            start + Math.round(((end - start) * (index + 1)) / events.length / dayMs) * dayMs,
+            last,
+          ),
         ),
         tempo: event.tempo,
         passed: event.passed,

@@ -70,7 +70,9 @@ describe('Year over year', () => {
     expect(figures.retention.total).toMatchObject(plainRetention(lastYear));
     for (const code of ['FBES', 'CWES', 'HPMS', 'QHMS', 'OMMS', 'TRHS']) {
       const school = figures.retention.bySchool.find((row) => row.code === code)!;
-      expect(school, code).toMatchObject(plainRetention(lastYear.filter((row) => row.code === code)));
+      expect(school, code).toMatchObject(
+        plainRetention(lastYear.filter((row) => row.code === code)),
+      );
       expect(school.share).toBeCloseTo(school.continued / school.players, 10);
     }
     for (const grade of [4, 5, 6, 7, 8, 9, 10, 11]) {
@@ -101,7 +103,10 @@ describe('Year over year', () => {
     const expected = lastYear
       .filter(
         (row) =>
-          row.code === 'FBES' && row.grade === 5 && row.outcome === 'moving-up' && row.status !== 'active',
+          row.code === 'FBES' &&
+          row.grade === 5 &&
+          row.outcome === 'moving-up' &&
+          row.status !== 'active',
       )
       .map((row) => row.student_id)
       .sort((a, b) => a - b);
@@ -134,7 +139,9 @@ describe('Year over year', () => {
     expect(
       (await director.get(`/api/analytics/year-over-year?schoolId=${schoolId.get('FBES')}`)).status,
     ).toBe(404);
-    const viewed = yearOverYearSchema.parse((await viewer.get('/api/analytics/year-over-year')).body);
+    const viewed = yearOverYearSchema.parse(
+      (await viewer.get('/api/analytics/year-over-year')).body,
+    );
     expect(viewed.retention.bySchool.map((row) => row.code)).toEqual(['TRHS']);
   });
 
@@ -149,9 +156,9 @@ describe('Year over year', () => {
     expect((await coordinator.get('/api/analytics/retention/students?stopped=maybe')).status).toBe(
       400,
     );
-    expect((await coordinator.get('/api/analytics/year-over-year?schoolYearId=999999')).status).toBe(
-      404,
-    );
+    expect(
+      (await coordinator.get('/api/analytics/year-over-year?schoolYearId=999999')).status,
+    ).toBe(404);
   });
 
   it('should read a past year against the one before it, and the first year against none', async () => {
@@ -186,7 +193,9 @@ describe('Year over year', () => {
     const median = (values: number[]) => {
       const sorted = [...values].sort((a, b) => a - b);
       const middle = sorted.length / 2;
-      return sorted.length % 2 ? sorted[Math.floor(middle)]! : (sorted[middle - 1]! + sorted[middle]!) / 2;
+      return sorted.length % 2
+        ? sorted[Math.floor(middle)]!
+        : (sorted[middle - 1]! + sorted[middle]!) / 2;
     };
     const cohort = figures.cohorts.find(
       (entry) => entry.startYear === '2025-26' && entry.startGrade === 7,

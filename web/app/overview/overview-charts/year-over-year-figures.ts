@@ -146,6 +146,16 @@ export function cohortClimbFigure(figures: YearOverYear): ChartFigure {
   const shortName = (cohort: YearOverYear['cohorts'][number]) =>
     cohort.startGrade === 0 ? 'K' : `Gr ${cohort.startGrade}`;
   const rung = (value: number) => (Number.isInteger(value) ? String(value) : value.toFixed(1));
+  // Lines that end on the same median share one end label ("Gr 9, 10 · 5"), so none overlap.
+  const lastMedian = (cohort: YearOverYear['cohorts'][number]) =>
+    cohort.points[cohort.points.length - 1]!.median;
+  const endLabel = (index: number) => {
+    const value = lastMedian(cohorts[index]!);
+    const same = cohorts.filter((cohort) => lastMedian(cohort) === value);
+    if (same[0] !== cohorts[index]) return '';
+    const grades = same.map((cohort) => (cohort.startGrade === 0 ? 'K' : cohort.startGrade));
+    return `${same.length > 1 ? 'Gr ' + grades.join(', ') : shortName(same[0]!)} · ${rung(value)}`;
+  };
   const base = chartBase();
   const now = (year: string) => (year === figures.year.name ? `${year} so far` : `end of ${year}`);
   return {
@@ -154,7 +164,7 @@ export function cohortClimbFigure(figures: YearOverYear): ChartFigure {
       legend: { ...base.legend, type: 'scroll', data: cohorts.map(name) },
       tooltip: { ...base.tooltip, trigger: 'axis' },
       // Room on the right for each line's end label.
-      grid: { ...base.grid, top: 64, bottom: 28, right: 88, left: 24 },
+      grid: { ...base.grid, top: 64, bottom: 28, right: 120, left: 24 },
       xAxis: { ...categoryAxis(years.map(now), 'School year'), boundaryGap: false },
       yAxis: valueAxis('Median rung'),
       series: cohorts.map((cohort, index) => ({
@@ -171,10 +181,8 @@ export function cohortClimbFigure(figures: YearOverYear): ChartFigure {
           show: true,
           color: seriesColour(index),
           fontWeight: 600,
-          formatter: ({ value }: { value: unknown }) =>
-            `${shortName(cohort)} · ${rung(Number(value))}`,
+          formatter: () => endLabel(index),
         },
-        labelLayout: { moveOverlap: 'shiftY' as const },
       })),
     },
     table: {

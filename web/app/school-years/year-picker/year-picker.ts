@@ -24,7 +24,9 @@ import { SchoolYearData } from '../school-year-data';
           data-testid="filter-year"
         >
           @for (year of years(); track year.id) {
-            <mat-option [value]="year.id">{{ year.name }}{{ year.current ? ' (now)' : '' }}</mat-option>
+            <mat-option [value]="year.id"
+              >{{ year.name }}{{ year.current ? ' (now)' : '' }}</mat-option
+            >
           }
         </mat-select>
       </mat-form-field>
