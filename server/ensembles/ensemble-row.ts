@@ -12,6 +12,13 @@ export const memberCount = sql<number>`(select count(*)::int from enrollments me
   where member.ensemble_id = "ensembles"."id" and member.active
   and member.school_year_id in (select year.id from school_years year where year.current))`;
 
+/** Active seats of one school year (a past year's, for the year picker). */
+export function memberCountIn(schoolYearId: number) {
+  return sql<number>`(select count(*)::int from enrollments member
+    where member.ensemble_id = "ensembles"."id" and member.active
+    and member.school_year_id = ${schoolYearId})`;
+}
+
 /** The columns every ensemble answer selects: the ensemble, its school and its director. */
 export const ensembleColumns = {
   id: ensembles.id,

@@ -17,7 +17,13 @@ import { ensembles, schools, users } from '../db/schema/index';
 import { badRequest } from '../core/errors';
 import { likePattern, parseListQuery } from '../core/list-query';
 import { schoolScope, type Actor } from '../core/policy';
-import { ensembleColumns, memberCount, toEnsemble, type EnsembleRecord } from './ensemble-row';
+import {
+  ensembleColumns,
+  memberCount,
+  memberCountIn,
+  toEnsemble,
+  type EnsembleRecord,
+} from './ensemble-row';
 
 const sortOrders: Record<string, (AnyColumn | SQL)[]> = {
   name: [ensembles.name, schools.code, ensembles.id],
@@ -26,9 +32,10 @@ const sortOrders: Record<string, (AnyColumn | SQL)[]> = {
   memberCount: [memberCount, ensembles.name, ensembles.id],
 };
 
-function orderBy(sort: string | undefined): SQL[] {
+function orderBy(sort: string | undefined, members: SQL): SQL[] {
   const [field, direction] = (sort ?? 'name:asc').split(':') as [string, 'asc' | 'desc'];
-  const columns = sortOrders[field];
+  const columns =
+    field === 'memberCount' ? [members, ensembles.name, ensembles.id] : sortOrders[field];
   if (!columns) {
     throw badRequest(
       `Cannot sort by '${field}'. Sort by one of: ${Object.keys(sortOrders).join(', ')}.`,
@@ -52,6 +59,8 @@ export async function listEnsembles(
   query: unknown,
 ): Promise<ListResponse<Ensemble>> {
   const list = parseListQuery(query, ensembleFiltersSchema);
+  // Seats belong to a year: a past year's list counts that year's members.
+  const members = list.schoolYearId === undefined ? memberCount : memberCountIn(list.schoolYearId);
   const where = and(
     ensembleScope(actor),
     list.q ? ilike(ensembles.name, likePattern(list.q)) : undefined,
@@ -60,12 +69,12 @@ export async function listEnsembles(
   );
   const [records, [total]] = await Promise.all([
     db
-      .select(ensembleColumns)
+      .select({ ...ensembleColumns, memberCount: members })
       .from(ensembles)
       .innerJoin(schools, eq(schools.id, ensembles.schoolId))
       .leftJoin(users, eq(users.id, ensembles.directorUserId))
       .where(where)
-      .orderBy(...orderBy(list.sort))
+      .orderBy(...orderBy(list.sort, members))
       .limit(list.limit)
       .offset(list.offset),
     db.select({ total: count() }).from(ensembles).where(where),

@@ -11,7 +11,7 @@ import { demoBenchmarks, demoLadderRungs } from './demo-ladder-rungs';
 import { SeededRandom } from './random';
 
 /** How far each grade has climbed by December, as weights over rungs (invented). */
-const targetsByGrade: Record<number, [number, number][]> = {
+export const targetsByGrade: Record<number, [number, number][]> = {
   4: [
     [0, 40],
     [1, 45],
@@ -85,7 +85,7 @@ const isoDay = (time: number) => new Date(time).toISOString().slice(0, 10);
  * A school day near `time`: Saturday goes back to Friday, Sunday on to Monday (or, when that is
  * past `last`, back to Friday).
  */
-function weekday(time: number, last: number): number {
+export function weekday(time: number, last: number): number {
   const day = new Date(time).getUTCDay();
   if (day === 6) return time - dayMs;
   if (day === 0) return time + dayMs > last ? time - 2 * dayMs : time + dayMs;

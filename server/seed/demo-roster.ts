@@ -7,16 +7,16 @@ import type { SeededRandom } from './random';
 type EnsembleKind = (typeof ensembles.$inferInsert)['kind'];
 
 /** Weights reflect a typical school band's seating, common practice, no source. */
-const bandInstruments = [
+export const bandInstruments = [
   ['flute', 14], ['oboe', 2], ['clarinet', 16], ['bass-clarinet', 3], ['bassoon', 2],
   ['alto-sax', 9], ['tenor-sax', 3], ['bari-sax', 2], ['trumpet', 14], ['horn', 5],
   ['trombone', 9], ['euphonium', 4], ['tuba', 3], ['glockenspiel', 3], ['xylophone', 3],
   ['marimba', 2],
 ] as const;
 
-const stringInstruments = [['violin', 50], ['viola', 16], ['cello', 18], ['double-bass', 7]] as const;
+export const stringInstruments = [['violin', 50], ['viola', 16], ['cello', 18], ['double-bass', 7]] as const;
 
-const ensemblesByLevel: Record<string, { name: string; kind: EnsembleKind; level: string; period: string; strings: boolean; grades?: number[] }[]> = {
+export const ensemblesByLevel: Record<string, { name: string; kind: EnsembleKind; level: string; period: string; strings: boolean; grades?: number[] }[]> = {
   elementary: [
     { name: 'Beginning Band', kind: 'beginning-band', level: 'beginning', period: 'Tue/Thu 8:00', strings: false },
     { name: 'Beginning Strings', kind: 'beginning-strings', level: 'beginning', period: 'Mon/Wed 8:00', strings: true },

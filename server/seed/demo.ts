@@ -7,6 +7,7 @@ import { seedDemoRoster } from './demo-roster';
 import { seedDemoFleet } from './demo-fleet';
 import { seedDemoFees } from './demo-fees';
 import { seedDemoLadder } from './demo-ladder';
+import { seedDemoLastYear } from './demo-last-year';
 import { refreshStatistics } from '../db/statistics';
 import { SeededRandom } from './random';
 
@@ -99,6 +100,7 @@ export async function seedDemo(db: Database, seededOn = new Date()): Promise<voi
       schoolYearEndsOn: demoSchoolYear.endsOn,
       seededOn,
     });
+    await seedDemoLastYear(tx, { schoolIds, directorOf });
   });
 }
 

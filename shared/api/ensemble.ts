@@ -115,5 +115,7 @@ export type EnsemblePatch = z.infer<typeof ensemblePatchSchema>;
 export const ensembleFiltersSchema = z.strictObject({
   schoolId: idParameter.optional(),
   kind: z.enum(ensembleKinds).optional(),
+  /** Count the members of this school year (default: the current one). */
+  schoolYearId: idParameter.optional(),
 });
 export type EnsembleFilters = z.infer<typeof ensembleFiltersSchema>;

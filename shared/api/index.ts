@@ -22,3 +22,4 @@ export * from './import';
 export * from './district';
 export * from './school-year';
 export * from './oneroster';
+export * from './year-over-year';

@@ -54,7 +54,8 @@ describe('Ensembles', () => {
     const concert = response.body.rows.find((row: Row) => row.kind === 'concert-band');
     expect(concert.kindLabel).toBe('Concert band');
     const [{ seats }] = await query<{ seats: number }>(
-      `select count(*)::int as seats from enrollments where ensemble_id = ${Number(concert.id)} and active`,
+      `select count(*)::int as seats from enrollments where ensemble_id = ${Number(concert.id)} and active
+       and school_year_id = (select id from school_years where current)`,
     );
     expect(concert.memberCount).toBe(seats);
     expect(concert.directorName).toBe('Marcus Feldqvist');

@@ -62,7 +62,8 @@ describe('School years screen', () => {
     // A student who moved up: their record lists the year just ended.
     const [movedUp] = rowsOf<{ id: number; year: string }>(
       await app.database.db.execute(
-        `select sy.student_id as id from student_years sy where sy.outcome = 'moving-up' order by sy.student_id limit 1` as never,
+        `select sy.student_id as id from student_years sy join school_years y on y.id = sy.school_year_id
+         where y.name = '2026-27' and sy.outcome = 'moving-up' order by sy.student_id limit 1` as never,
       ),
     );
     await page.goto(`${app.url}/students/${movedUp!.id}/edit`);

@@ -15,6 +15,12 @@ import { listResponseSchema, type ListResponse } from '../../../shared/api/list'
 import { passOffSchema, type PassOff } from '../../../shared/api/pass-off';
 import { instrumentSchema, type Instrument } from '../../../shared/api/instrument';
 import { loanSchema, type Loan } from '../../../shared/api/loan';
+import {
+  retentionStudentSchema,
+  yearOverYearSchema,
+  type RetentionStudent,
+  type YearOverYear,
+} from '../../../shared/api/year-over-year';
 import { parsedWith } from '../core/parse';
 
 /** The Overview's filters: one school and one grade, or the whole scope. */
@@ -49,6 +55,7 @@ const schemas = {
   '/api/pass-offs': listResponseSchema(passOffSchema),
   '/api/instruments': listResponseSchema(instrumentSchema),
   '/api/loans': listResponseSchema(loanSchema),
+  '/api/analytics/retention/students': listResponseSchema(retentionStudentSchema),
 };
 
 /** The list routes a figure's rows come from. */
@@ -59,7 +66,8 @@ export type DrillRows =
   | { path: '/api/analytics/students'; list: ListResponse<AttainmentRow> }
   | { path: '/api/pass-offs'; list: ListResponse<PassOff> }
   | { path: '/api/instruments'; list: ListResponse<Instrument> }
-  | { path: '/api/loans'; list: ListResponse<Loan> };
+  | { path: '/api/loans'; list: ListResponse<Loan> }
+  | { path: '/api/analytics/retention/students'; list: ListResponse<RetentionStudent> };
 
 /** Reads the Overview's figures and the rows behind them. */
 @Injectable({ providedIn: 'root' })
@@ -70,6 +78,13 @@ export class OverviewData {
     return this.http
       .get('/api/analytics/overview', { params: params({ ...filters }) })
       .pipe(parsedWith(overviewSchema));
+  }
+
+  /** Retention from the year before and the cohorts' climb, for a year (default the current). */
+  yearOverYear(filters: { schoolYearId?: number; schoolId?: number }): Observable<YearOverYear> {
+    return this.http
+      .get('/api/analytics/year-over-year', { params: params({ ...filters }) })
+      .pipe(parsedWith(yearOverYearSchema));
   }
 
   /** Whether a path is one of the lists the Overview drills into. */

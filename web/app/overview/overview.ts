@@ -5,6 +5,7 @@ import {
   inject,
   input,
   linkedSignal,
+  signal,
 } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { Router } from '@angular/router';
@@ -32,6 +33,9 @@ import { studentsByRungFigure } from './overview-charts/students-by-rung';
 import { QuietDirectors } from './quiet-directors/quiet-directors';
 import { OverviewSchoolList } from './school-list/school-list';
 import { FirstDayGuide } from './first-day-guide/first-day-guide';
+import { YearOverYearSection } from './year-over-year/year-over-year';
+import type { SchoolYear } from '../../../shared/api/school-year';
+import { YearPicker } from '../school-years/year-picker/year-picker';
 
 const wholeNumber = (text: string | undefined) =>
   text && /^\d+$/.test(text) ? Number(text) : undefined;
@@ -56,6 +60,8 @@ const gradesIn = (figures: OverviewFigures) =>
     QuietDirectors,
     OverviewSchoolList,
     FirstDayGuide,
+    YearOverYearSection,
+    YearPicker,
   ],
   templateUrl: './overview.html',
   styleUrl: './overview.scss',
@@ -73,6 +79,8 @@ export class Overview {
   readonly grade = input<string>();
 
   protected readonly me = this.currentUser.me;
+  /** A past year chosen in the year picker (history, read-only), or null for the current year. */
+  protected readonly pastYear = signal<SchoolYear | null>(null);
   /** Whether the first-day guide applies: the coordinator sets the district up. */
   protected readonly guidesSetup = computed(
     () => this.currentUser.can('schools:write') && this.currentUser.can('people:manage'),
@@ -92,7 +100,10 @@ export class Overview {
     stream: () => this.schoolData.list({ limit: 200, sort: 'name:asc' }),
   });
   protected readonly figures = rxResource({
-    params: () => ({ filters: this.filters(), reads: this.readsLadder() }),
+    params: () => ({
+      filters: this.filters(),
+      reads: this.readsLadder() && this.pastYear() === null,
+    }),
     stream: ({ params }) => (params.reads ? this.data.overview(params.filters) : of(null)),
   });
   protected readonly fleet = rxResource({

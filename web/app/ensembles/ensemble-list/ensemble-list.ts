@@ -19,6 +19,9 @@ import { ServerGrid } from '../../core/grid/server-grid';
 import { SchoolData } from '../../schools/school-data';
 
 /** The ensembles of the user's schools, filtered by school and kind. */
+import type { SchoolYear } from '../../../../shared/api/school-year';
+import { YearPicker } from '../../school-years/year-picker/year-picker';
+
 @Component({
   selector: 'tb-ensemble-list',
   imports: [
@@ -29,6 +32,7 @@ import { SchoolData } from '../../schools/school-data';
     MatIconModule,
     MatSelectModule,
     RouterLink,
+    YearPicker,
   ],
   templateUrl: './ensemble-list.html',
   styles: `
@@ -63,7 +67,13 @@ export class EnsembleList {
   protected readonly search = signal('');
   protected readonly schoolId = signal<number | null>(null);
   protected readonly kind = signal<string | null>(null);
-  protected readonly filters = computed(() => ({ schoolId: this.schoolId(), kind: this.kind() }));
+  /** A past year chosen in the year picker (that year's members, read-only), or null for now. */
+  protected readonly pastYear = signal<SchoolYear | null>(null);
+  protected readonly filters = computed(() => ({
+    schoolId: this.schoolId(),
+    kind: this.kind(),
+    schoolYearId: this.pastYear()?.id ?? null,
+  }));
   protected readonly sortFields = ensembleSortFields;
   protected readonly columns: ColDef<Ensemble>[] = [
     { field: 'name', headerName: 'Ensemble', flex: 2, minWidth: 200, sort: 'asc' },

@@ -17,6 +17,7 @@ const nouns: Record<DrillRows['path'], [string, string]> = {
   '/api/pass-offs': ['pass-off', 'pass-offs'],
   '/api/instruments': ['instrument', 'instruments'],
   '/api/loans': ['loan', 'loans'],
+  '/api/analytics/retention/students': ['student', 'students'],
 };
 
 /** The rows behind one figure, in a side panel: students, pass-offs, instruments or loans. */
@@ -43,6 +44,12 @@ export class DrillPanel {
   protected readonly error = signal<string | null>(null);
   protected readonly gradeLabel = gradeLabel;
   protected readonly rungLabel = rungLabel;
+  protected readonly statusWords: Partial<Record<string, string>> = {
+    active: 'Plays',
+    withdrawn: 'Stopped',
+    graduated: 'Graduated',
+    leaving: 'Left the district',
+  };
 
   constructor() {
     this.load(0);

@@ -57,6 +57,10 @@ import { SentTakes } from '../sent-takes';
  * Pass-offs: a director's entry grid, the students of one ensemble against the requirements of
  * one rung, keyboard first and saved as it goes, with each student's history beside it.
  */
+import type { SchoolYear } from '../../../../shared/api/school-year';
+import { YearPicker } from '../../school-years/year-picker/year-picker';
+import { PastPassOffs } from '../past-pass-offs/past-pass-offs';
+
 @Component({
   selector: 'tb-pass-off-entry',
   imports: [
@@ -71,6 +75,8 @@ import { SentTakes } from '../sent-takes';
     PageState,
     CellPanel,
     StudentHistory,
+    YearPicker,
+    PastPassOffs,
   ],
   providers: [EntryDrafts, EnsembleSheet, SentTakes],
   templateUrl: './pass-off-entry.html',
@@ -107,6 +113,8 @@ export class PassOffEntry {
   protected readonly historyToken = signal(0);
   protected readonly announcement = signal('');
   protected readonly canWrite = inject(CurrentUser).can('pass-offs:write');
+  /** A past year chosen in the year picker: its pass-offs, read-only, instead of the entry grid. */
+  protected readonly pastYear = signal<SchoolYear | null>(null);
 
   protected readonly ensembleId = computed(() => Number(this.ensemble()) || null);
   protected readonly rungNumber = computed(() => Number(this.rung()) || null);

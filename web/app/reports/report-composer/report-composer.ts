@@ -27,6 +27,8 @@ import { MailFrame } from '../mail-frame/mail-frame';
 import { ReportData, type PreviewRequest } from '../report-data';
 import { lastDays } from '../report-period';
 import { SendDialog, type SendDialogData } from '../send-dialog/send-dialog';
+import type { SchoolYear } from '../../../../shared/api/school-year';
+import { YearPicker } from '../../school-years/year-picker/year-picker';
 
 const isoDate = /^\d{4}-\d{2}-\d{2}$/;
 
@@ -46,6 +48,7 @@ const isoDate = /^\d{4}-\d{2}-\d{2}$/;
     MatTabsModule,
     MailFrame,
     PageState,
+    YearPicker,
   ],
   templateUrl: './report-composer.html',
   styleUrl: './report-composer.scss',
@@ -69,6 +72,8 @@ export class ReportComposer {
   protected readonly schoolId = signal<number | null>(null);
   protected readonly from = signal(lastDays(7).from);
   protected readonly to = signal(lastDays(7).to);
+  /** A past year chosen in the year picker: its whole period, read and not sent. */
+  protected readonly pastYear = signal<SchoolYear | null>(null);
 
   protected readonly schools = rxResource({
     stream: () => this.schoolData.list({ limit: 200, sort: 'name:asc' }),
@@ -112,6 +117,15 @@ export class ReportComposer {
 
   protected setKind(kind: ReportKind): void {
     this.kind.set(kind);
+    this.sent.set(null);
+  }
+
+  /** A past year reads that whole year; back to the current year, the last seven days. */
+  protected chooseYear(year: SchoolYear | null): void {
+    this.pastYear.set(year);
+    const period = year ? { from: year.startsOn, to: year.endsOn } : lastDays(7);
+    this.from.set(period.from);
+    this.to.set(period.to);
     this.sent.set(null);
   }
 

@@ -25,7 +25,8 @@ import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { SchoolData } from '../../schools/school-data';
-import { SchoolYearData } from '../../school-years/school-year-data';
+import type { SchoolYear } from '../../../../shared/api/school-year';
+import { YearPicker } from '../../school-years/year-picker/year-picker';
 import { gradeChoices, statusLabels } from '../student-form/student-choices';
 
 /** The students of the user's schools: search, filters, and a way into each record. */
@@ -39,6 +40,7 @@ import { gradeChoices, statusLabels } from '../student-form/student-choices';
     MatIconModule,
     MatSelectModule,
     RouterLink,
+    YearPicker,
   ],
   templateUrl: './student-list.html',
   styles: `
@@ -55,9 +57,6 @@ import { gradeChoices, statusLabels } from '../student-form/student-choices';
     }
     .wide {
       width: 210px;
-    }
-    .year {
-      width: 160px;
     }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -78,24 +77,9 @@ export class StudentList {
       ),
     { initialValue: [] },
   );
-  /** The school years, newest first; the list shows the current one unless another is chosen. */
-  protected readonly years = toSignal(
-    inject(SchoolYearData)
-      .list()
-      .pipe(
-        map((list) => [...list.rows].reverse()),
-        catchError(() => of([])),
-      ),
-    { initialValue: [] },
-  );
   /** A past year chosen in the year picker (its students, read-only), or null for now. */
-  protected readonly pastYear = signal<number | null>(null);
-  protected readonly pastYearName = computed(
-    () => this.years().find((year) => year.id === this.pastYear())?.name ?? null,
-  );
-  protected readonly currentYearId = computed(
-    () => this.years().find((year) => year.current)?.id ?? null,
-  );
+  protected readonly pastYear = signal<SchoolYear | null>(null);
+  protected readonly pastYearName = computed(() => this.pastYear()?.name ?? null);
   protected readonly grades = gradeChoices;
   protected readonly statusLabels = statusLabels;
   protected readonly instruments = instruments;
@@ -113,7 +97,7 @@ export class StudentList {
     // A past year lists everyone who was in the program then, whatever their status now.
     status: this.pastYear() === null ? this.status() : null,
     instrumentId: this.pastYear() === null ? this.instrumentId() : null,
-    schoolYearId: this.pastYear(),
+    schoolYearId: this.pastYear()?.id ?? null,
   }));
   protected readonly sortFields = studentSortFields;
   protected readonly columns: ColDef<Student>[] = [
@@ -155,11 +139,6 @@ export class StudentList {
     this.grade.set(null);
     this.status.set(null);
     this.instrumentId.set(null);
-  }
-
-  protected chooseYear(id: number | null): void {
-    const year = this.years().find((row) => row.id === id);
-    this.pastYear.set(year && !year.current ? year.id : null);
   }
 
   protected open(student: Student): void {

@@ -1,0 +1,316 @@
+import { sql, type SQL } from 'drizzle-orm';
+import {
+  retentionStudentsQuerySchema,
+  yearOverYearQuerySchema,
+  type RetentionStudentList,
+  type YearOverYear,
+} from '../../shared/api/year-over-year';
+import type { Database } from '../db/client';
+import { intArray, rowsOf } from '../db/client';
+import { notFound } from '../core/errors';
+import { assertInScope, schoolScope, type Actor } from '../core/policy';
+import { parseInput } from '../core/validate';
+
+interface YearRow {
+  id: number;
+  name: string;
+  starts_on: string;
+  current: boolean;
+}
+
+/** The year compared (default the current one) and the year before it, by first day. */
+async function comparedYears(db: Database, schoolYearId: number | undefined) {
+  const years = rowsOf<YearRow>(
+    await db.execute(
+      sql`select id, name, starts_on::text as starts_on, current from school_years order by starts_on`,
+    ),
+  );
+  const index = years.findIndex((year) =>
+    schoolYearId === undefined ? year.current : year.id === schoolYearId,
+  );
+  if (index < 0) throw notFound('That school year');
+  return { year: years[index]!, previous: index > 0 ? years[index - 1]! : null, years };
+}
+
+/**
+ * How "played in year Y" is read for the student `sy.student_id`: for the current year an active
+ * student, for a past year a row of Y's history that did not end withdrawn. A join (hashed over
+ * the whole year) rather than a probe per student.
+ */
+function playsIn(year: YearRow): { join: SQL; plays: SQL } {
+  return year.current
+    ? {
+        join: sql`join students now on now.id = sy.student_id`,
+        plays: sql`(now.status = 'active')`,
+      }
+    : {
+        join: sql`left join student_years now on now.student_id = sy.student_id
+          and now.school_year_id = ${year.id}`,
+        plays: sql`(now.outcome is not null and now.outcome <> 'withdrawn')`,
+      };
+}
+
+/**
+ * Last year's players still in the district (promoted or moving up, not graduated or leaving)
+ * of the actor's schools, by the school they played at last year.
+ */
+function lastYearPlayers(actor: Actor, previous: YearRow, schoolId: number | undefined): SQL {
+  const parts: SQL[] = [
+    sql`sy.school_year_id = ${previous.id}`,
+    sql`sy.outcome in ('promoted', 'moving-up')`,
+  ];
+  const scope = schoolScope(actor);
+  if (scope !== 'all') parts.push(sql`sy.school_id = any(${intArray(scope)}::int[])`);
+  if (schoolId !== undefined) parts.push(sql`sy.school_id = ${schoolId}`);
+  return sql.join(parts, sql` and `);
+}
+
+const share = (part: number, whole: number) => (whole === 0 ? null : part / whole);
+
+/** `GET /api/analytics/year-over-year`: retention from the year before, and the cohorts' climb. */
+export async function yearOverYear(
+  db: Database,
+  actor: Actor,
+  query: unknown,
+): Promise<YearOverYear> {
+  const options = parseInput(yearOverYearQuerySchema, query, 'The year-over-year query');
+  if (options.schoolId !== undefined) assertInScope(actor, options.schoolId, 'That school');
+  const { year, previous, years } = await comparedYears(db, options.schoolYearId);
+  const retention: YearOverYear['retention'] = {
+    total: { players: 0, continued: 0, share: null },
+    bySchool: [],
+    byTransition: [],
+  };
+  if (previous) {
+    const playing = playsIn(year);
+    const groups = rowsOf<{
+      school_id: number;
+      code: string;
+      name: string;
+      grade: number;
+      players: number;
+      continued: number;
+      moving: number;
+    }>(
+      await db.execute(sql`
+        select g.school_id, sc.code, sc.name, g.grade, g.players, g.continued, g.moving
+        from (select sy.school_id, sy.grade, count(*)::int as players,
+            count(*) filter (where ${playing.plays})::int as continued,
+            count(*) filter (where sy.outcome = 'moving-up')::int as moving
+          from student_years sy ${playing.join}
+          where ${lastYearPlayers(actor, previous, options.schoolId)}
+          group by sy.school_id, sy.grade) g
+        join schools sc on sc.id = g.school_id
+        order by sc.name, g.grade`),
+    );
+    const bySchool = new Map<number, YearOverYear['retention']['bySchool'][number]>();
+    const byGrade = new Map<number, { players: number; continued: number; moving: number }>();
+    for (const group of groups) {
+      const school = bySchool.get(group.school_id) ?? {
+        schoolId: group.school_id,
+        code: group.code,
+        name: group.name,
+        players: 0,
+        continued: 0,
+        share: null,
+      };
+      school.players += group.players;
+      school.continued += group.continued;
+      bySchool.set(group.school_id, school);
+      const grade = byGrade.get(group.grade) ?? { players: 0, continued: 0, moving: 0 };
+      grade.players += group.players;
+      grade.continued += group.continued;
+      grade.moving += group.moving;
+      byGrade.set(group.grade, grade);
+      retention.total.players += group.players;
+      retention.total.continued += group.continued;
+    }
+    retention.total.share = share(retention.total.continued, retention.total.players);
+    retention.bySchool = [...bySchool.values()].map((school) => ({
+      ...school,
+      share: share(school.continued, school.players),
+    }));
+    retention.byTransition = [...byGrade]
+      .sort(([a], [b]) => a - b)
+      .map(([grade, counts]) => ({
+        fromGrade: grade,
+        toGrade: grade + 1,
+        players: counts.players,
+        continued: counts.continued,
+        share: share(counts.continued, counts.players),
+        changesSchool: counts.moving * 2 > counts.players,
+      }));
+  }
+  return {
+    year: { id: year.id, name: year.name },
+    previousYear: previous ? { id: previous.id, name: previous.name } : null,
+    retention,
+    cohorts: await cohortClimb(db, actor, year, years, options.schoolId),
+  };
+}
+
+/**
+ * Each cohort (first year on record and the grade then): the median rung of its students who
+ * played each year, at that year's end (`student_years.rung`), and now when the compared year is
+ * the current one. Only years up to the compared one count; a student counts at the school of
+ * that year, so a director sees the climb of the students while at their schools.
+ */
+async function cohortClimb(
+  db: Database,
+  actor: Actor,
+  year: YearRow,
+  years: YearRow[],
+  schoolId: number | undefined,
+): Promise<YearOverYear['cohorts']> {
+  const scope = schoolScope(actor);
+  const inScope = (column: SQL) => {
+    const parts: SQL[] = [];
+    if (scope !== 'all') parts.push(sql`${column} = any(${intArray(scope)}::int[])`);
+    if (schoolId !== undefined) parts.push(sql`${column} = ${schoolId}`);
+    return parts.length ? sql` and ${sql.join(parts, sql` and `)}` : sql``;
+  };
+  const now = year.current
+    ? sql`union all select a.student_id, ${year.starts_on}::date, a.grade::int, a.rung::int
+        from student_attainment a where a.active ${inScope(sql`a.school_id`)}`
+    : sql``;
+  // Medians from counts by rung (rungs are small whole numbers): a hashed count instead of a sort
+  // of every row, which is what keeps the figure fast over tens of thousands of students.
+  const rows = rowsOf<{
+    start_on: string;
+    start_grade: number;
+    year_on: string;
+    rung: number;
+    students: number;
+  }>(
+    await db.execute(sql`
+      with played as materialized (
+        select sy.student_id, y.starts_on as year_on, sy.grade, sy.rung
+        from student_years sy join school_years y on y.id = sy.school_year_id
+        where sy.outcome <> 'withdrawn' and y.starts_on <= ${year.starts_on}::date
+          ${inScope(sql`sy.school_id`)}
+        ${now}
+      ),
+      firsts as (select student_id, min(year_on) as start_on from played group by student_id)
+      select f.start_on::text as start_on, first.grade::int as start_grade,
+        p.year_on::text as year_on, p.rung::int as rung, count(*)::int as students
+      from played p
+      join firsts f on f.student_id = p.student_id
+      join played first on first.student_id = f.student_id and first.year_on = f.start_on
+      group by 1, 2, 3, 4 order by 1, 2, 3, 4`),
+  );
+  const histograms = new Map<
+    string,
+    { startOn: string; startGrade: number; yearOn: string; counts: [number, number][] }
+  >();
+  for (const row of rows) {
+    const key = `${row.start_on}:${row.start_grade}:${row.year_on}`;
+    const entry = histograms.get(key) ?? {
+      startOn: row.start_on,
+      startGrade: row.start_grade,
+      yearOn: row.year_on,
+      counts: [],
+    };
+    entry.counts.push([row.rung, row.students]);
+    histograms.set(key, entry);
+  }
+  const nameOn = new Map(years.map((entry) => [entry.starts_on, entry.name]));
+  const cohorts = new Map<string, YearOverYear['cohorts'][number]>();
+  for (const entry of histograms.values()) {
+    const key = `${entry.startOn}:${entry.startGrade}`;
+    const cohort = cohorts.get(key) ?? {
+      startYear: nameOn.get(entry.startOn) ?? entry.startOn,
+      startGrade: entry.startGrade,
+      points: [],
+    };
+    cohort.points.push({
+      year: nameOn.get(entry.yearOn) ?? entry.yearOn,
+      median: medianOfCounts(entry.counts),
+      students: entry.counts.reduce((sum, [, count]) => sum + count, 0),
+    });
+    cohorts.set(key, cohort);
+  }
+  return [...cohorts.values()];
+}
+
+/**
+ * The median of values given as [value, count] pairs in ascending order of value: the middle
+ * value, or the mean of the two middle ones for an even count (as PostgreSQL's
+ * percentile_cont(0.5) answers).
+ */
+export function medianOfCounts(counts: readonly (readonly [number, number])[]): number {
+  const total = counts.reduce((sum, [, count]) => sum + count, 0);
+  const at = (position: number) => {
+    let seen = 0;
+    for (const [value, count] of counts) {
+      seen += count;
+      if (position < seen) return value;
+    }
+    return counts[counts.length - 1]![0];
+  };
+  if (total === 0) return 0;
+  return total % 2 ? at((total - 1) / 2) : (at(total / 2 - 1) + at(total / 2)) / 2;
+}
+
+/** `GET /api/analytics/retention/students`: the names behind a retention figure. */
+export async function retentionStudents(
+  db: Database,
+  actor: Actor,
+  query: unknown,
+): Promise<RetentionStudentList> {
+  const options = parseInput(retentionStudentsQuerySchema, query, 'The retention list query');
+  if (options.schoolId !== undefined) assertInScope(actor, options.schoolId, 'That school');
+  const { year, previous } = await comparedYears(db, options.schoolYearId);
+  if (!previous) return { rows: [], total: 0 };
+  const parts = [lastYearPlayers(actor, previous, options.schoolId)];
+  if (options.grade !== undefined) parts.push(sql`sy.grade = ${options.grade}`);
+  const playing = playsIn(year);
+  const continued = playing.plays;
+  if (options.stopped !== undefined)
+    parts.push(options.stopped ? sql`not ${continued}` : continued);
+  const where = sql.join(parts, sql` and `);
+  const rows = rowsOf<{
+    id: number;
+    student_number: string;
+    first_name: string;
+    last_name: string;
+    last_school_code: string;
+    last_grade: number;
+    school_code: string;
+    grade: number;
+    status: string;
+    continued: boolean;
+  }>(
+    await db.execute(sql`
+      select s.id, s.student_number, coalesce(s.preferred_name, s.first_name) as first_name,
+        s.last_name, ls.code as last_school_code, sy.grade::int as last_grade, sc.code as school_code,
+        s.grade::int as grade, s.status, ${continued} as continued
+      from student_years sy
+      ${playing.join}
+      join students s on s.id = sy.student_id
+      join schools ls on ls.id = sy.school_id
+      join schools sc on sc.id = s.school_id
+      where ${where}
+      order by s.last_name, s.first_name, s.id
+      offset ${options.offset} limit ${options.limit}`),
+  );
+  const [counted] = rowsOf<{ total: number }>(
+    await db.execute(sql`
+      select count(*)::int as total from student_years sy ${playing.join} where ${where}`),
+  );
+  const total = counted?.total ?? 0;
+  return {
+    rows: rows.map((row) => ({
+      id: row.id,
+      studentNumber: row.student_number,
+      firstName: row.first_name,
+      lastName: row.last_name,
+      lastSchoolCode: row.last_school_code,
+      lastGrade: row.last_grade,
+      schoolCode: row.school_code,
+      grade: row.grade,
+      status: row.status,
+      continued: row.continued,
+    })),
+    total,
+  };
+}
