@@ -3,7 +3,7 @@ import type { ColumnMapping } from '../../shared/roster';
 import { decodeText } from './parse/decode';
 import { readBundleFiles } from './parse/oneroster-files';
 import { readOneRosterBundle } from './parse/oneroster';
-import { parseCsv } from './parse/parse-csv';
+import { parseCsvYielding } from './parse/parse-csv';
 import { detectRosterKind, parseRosterCsvYielding } from './parse/parse-roster';
 import type { ParsedRoster } from './parse/parsed-roster';
 
@@ -57,7 +57,7 @@ export async function listedStudentIds(
   }
   const column = parsed.mapping.studentId;
   if (!column || 'folder' in upload) return ids;
-  for (const record of parseCsv(decodeText(upload.bytes).text).records) {
+  for (const record of (await parseCsvYielding(decodeText(upload.bytes).text)).records) {
     const id = (record.cells[column] ?? '').trim();
     if (id) ids.add(id);
   }

@@ -24,4 +24,6 @@ export interface ParsedRoster {
   errors: RowError[];
   /** How many roster rows the upload held, valid or not. */
   totalRows: number;
+  /** Why the whole upload was refused, when it goes past a limit (too many columns, a cell too long). */
+  refused?: string;
 }
