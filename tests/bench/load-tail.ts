@@ -33,9 +33,19 @@ export async function benchLoadTail(options: {
     const heardOn = new Date(Date.now() - 7 * 86_400_000).toISOString().slice(0, 10);
     const [school] = await query<{ id: number }>('select min(id)::int as id from schools');
     const perClient = 5;
-    const editable = Array.from({ length: Math.max(options.clients, 60) }, (_, client) =>
-      active.slice(client * perClient, (client + 1) * perClient),
-    );
+    /** Each client's own students to edit, with their versions as they are now. */
+    const editable = async () => {
+      const versions = new Map(
+        (await query<{ id: number; version: number }>('select id, version from students')).map(
+          (row) => [row.id, row.version],
+        ),
+      );
+      return Array.from({ length: Math.max(options.clients, 60) }, (_, client) =>
+        active
+          .slice(client * perClient, (client + 1) * perClient)
+          .map((student) => ({ id: student.id, version: versions.get(student.id)! })),
+      );
+    };
     const mix: LoadMix = {
       base: server.url,
       token: server.token,
@@ -50,7 +60,7 @@ export async function benchLoadTail(options: {
       ],
       requirements: ladder.rungs.slice(0, 4).flatMap((rung) => rung.requirements),
       students: active.slice(1_000).map((student) => student.id),
-      editable,
+      editable: [],
       heardOn,
       mix: { reads: 0.7, passOffs: 0.25, batch: 10 },
     };
@@ -66,7 +76,7 @@ export async function benchLoadTail(options: {
     /** Runs the load; answers what it saw and the writes the database lacks of those acknowledged. */
     const measured = async (run: Parameters<typeof runLoad>[1]) => {
       const before = await counted();
-      const result = await runLoad(mix, run);
+      const result = await runLoad({ ...mix, editable: await editable() }, run);
       const after = await counted();
       const lost =
         result.passOffs -
