@@ -1,3 +1,4 @@
+import { arrivalOrder } from './db/arrival-order';
 import { backupRoutes } from './backup/backup-routes';
 import express, { Router, type Express, type RequestHandler } from 'express';
 import session from 'express-session';
@@ -137,6 +138,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   const paymentOrigins = config.payments
     ? [config.payments.apiUrl ? new URL(config.payments.apiUrl).origin : 'https:']
     : [];
+  app.use(arrivalOrder);
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -192,6 +194,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   );
   const signIn = createSignIn(config, db, logger);
   app.use(withoutBearerApiRequests(signIn.initialize), withoutBearerApiRequests(signIn.session));
+  app.use(arrivalOrder);
   app.use(sameOriginWrites(() => [new URL(config.appUrl).origin], sessionCookieName));
   app.use(['/auth/sign-in', '/auth/callback'], signInLimit(config.rateLimits.signIn));
   app.use(signIn.router);
@@ -199,6 +202,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   const api = Router();
   if (options.localKey) api.use('/local', localCommandRoutes(services, options.localKey));
   api.use(express.json({ limit: '2mb' }));
+  api.use(arrivalOrder);
   api.use(tokenLimits(config.rateLimits.token, config.rateLimits.tokenFailures));
   api.use(authenticate(db));
   api.use((_request, response, next) => {

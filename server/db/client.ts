@@ -9,6 +9,7 @@ import type pg from 'pg';
 import * as schema from './schema/index';
 import { migrationsFolder } from '../project-paths';
 import { preloadedPgliteArtifacts } from './pglite-preload';
+import { inArrivalOrder } from './arrival-order';
 
 /** The Drizzle database, whichever PostgreSQL is behind it. */
 export type Database = PgDatabase<PgQueryResultHKT, typeof schema>;
@@ -86,6 +87,7 @@ export async function openDatabase(
     pglite = await PGlite.create({ startParams: pgliteStartParams });
   }
   await dropCompositeArrayParsers(pglite);
+  inArrivalOrder(pglite);
   const db = drizzlePglite({ client: pglite, schema, logger }) as unknown as Database;
   return closingAfterHousekeeping({ db, kind: 'pglite', pglite }, async () => {
     if (!pglite.closed) await pglite.close();

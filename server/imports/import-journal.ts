@@ -19,7 +19,6 @@ export async function journalCreated(
   session: SqlSession,
   studentNumbers: string[],
   ensembleIds: number[],
-  landingRun: string | null,
 ) {
   await session.query(
     `insert into import_journal (kind, student_id, version_after)
@@ -28,10 +27,8 @@ export async function journalCreated(
   );
   await session.query(
     `insert into import_journal (kind, ensemble_id)
-     select 'ensemble-created', id from ensembles
-     where id = any($1::int[])
-        or id in (select ensemble_id from roster_import_landings where run = $2::text)`,
-    [ensembleIds, landingRun],
+     select 'ensemble-created', id from ensembles where id = any($1::int[])`,
+    [ensembleIds],
   );
 }
 

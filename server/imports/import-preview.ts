@@ -15,7 +15,7 @@ import {
 } from '../../shared/roster';
 import type { ImportPlan } from './import-plan';
 import { decodeText } from './parse/decode';
-import { parseCsv } from './parse/parse-csv';
+import { parseCsvYielding } from './parse/parse-csv';
 import type { RowError } from './parse/parsed-roster';
 
 /** The plan's counts and change lists, each list cut to {@link planListLimit} entries. */
@@ -53,24 +53,25 @@ function cellsOfRow(row: RosterRow): PreviewRow['cells'] {
 }
 
 /** The first rows of a CSV file as it has them, by roster field, each with its errors. */
-function csvPreviewRows(bytes: Uint8Array, plan: ImportPlan): PreviewRow[] {
+async function csvPreviewRows(bytes: Uint8Array, plan: ImportPlan): Promise<PreviewRow[]> {
   const { mapping } = plan.parsed;
   const byLine = errorsByLine(plan.errors);
   const mapped = rosterFields.filter((field) => mapping[field]) as RosterField[];
-  return parseCsv(decodeText(bytes).text)
-    .records.slice(0, previewRowLimit)
-    .map((record) => {
-      const cells: PreviewRow['cells'] = {};
-      for (const field of mapped) cells[field] = record.cells[mapping[field]!] ?? '';
-      return { line: record.line, cells, errors: byLine.get(record.line) ?? [] };
-    });
+  const { records } = await parseCsvYielding(decodeText(bytes).text, {
+    records: previewRowLimit,
+  });
+  return records.map((record) => {
+    const cells: PreviewRow['cells'] = {};
+    for (const field of mapped) cells[field] = record.cells[mapping[field]!] ?? '';
+    return { line: record.line, cells, errors: byLine.get(record.line) ?? [] };
+  });
 }
 
 /** What the wizard shows before a commit: the file's columns, its first rows, every error, the plan. */
-export function importPreview(
+export async function importPreview(
   upload: { token: string; fileName: string; bytes: Uint8Array },
   plan: ImportPlan,
-): ImportPreview {
+): Promise<ImportPreview> {
   const { parsed } = plan;
   const csv = parsed.source === 'csv';
   return {
@@ -85,7 +86,7 @@ export function importPreview(
     rows: csv
       ? parsed.headers.length === 0
         ? []
-        : csvPreviewRows(upload.bytes, plan)
+        : await csvPreviewRows(upload.bytes, plan)
       : parsed.rows
           .slice(0, previewRowLimit)
           .map(({ line, row }) => ({ line, cells: cellsOfRow(row), errors: [] })),

@@ -103,7 +103,12 @@ export function importsRoutes({ config, db, database }: Services): Router {
       withdrawMissing: fields.withdrawMissing,
       skipInvalid: false,
     });
-    response.json(importPreview({ token, fileName, bytes }, plan));
+    if (plan.parsed.refused) {
+      // A refused file is not kept for a commit.
+      if (request.file) await uploads.remove(token);
+      throw badRequest(plan.parsed.refused);
+    }
+    response.json(await importPreview({ token, fileName, bytes }, plan));
   });
 
   router.post('/imports/commit', runs, async (request, response) => {
@@ -111,7 +116,7 @@ export function importsRoutes({ config, db, database }: Services): Router {
     const input = parseInput(commitRequestSchema, request.body, 'The commit');
     const stored = await uploads.open(input.importToken, actor.userId);
     if (!stored) throw expired();
-    const { result } = await importRoster(
+    const { plan, result } = await importRoster(
       database,
       {
         upload: { fileName: stored.fileName, bytes: stored.bytes },
@@ -122,6 +127,7 @@ export function importsRoutes({ config, db, database }: Services): Router {
       actor,
       { fileName: stored.fileName, via: actor.via === 'token' ? 'api' : 'wizard' },
     );
+    if (plan.parsed.refused) throw badRequest(plan.parsed.refused);
     if (result.committed) await uploads.remove(input.importToken);
     response.json(result);
   });

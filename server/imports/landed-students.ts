@@ -3,9 +3,10 @@ import { rowsOf, type DatabaseHandle } from '../db/client';
 import { inSqlTransaction } from './sql-session';
 
 /**
- * Takes back out the students (and new ensembles) a roster import added ahead of its final transaction
- * (`roster_import_landings`): those of one run when that import failed, or of every run at
- * start-up, when a crash stopped an import before its end. A student someone has since
+ * Takes back out the students (and new ensembles) a roster import added ahead of its final
+ * transaction (`roster_import_landings`): those of one run, or of every run at start-up, when a
+ * crash stopped an import before its end. Imports now commit in one transaction and land
+ * nothing ahead (see `commitImport`); this settles a data folder an earlier version left so. A student someone has since
  * recorded a pass-off or a loan for stays, as if imported, so no one's work is lost; their
  * landing row goes all the same. Answers how many students were taken out.
  */

@@ -4,7 +4,7 @@ import { decodeText } from './parse/decode';
 import { readBundleFiles } from './parse/oneroster-files';
 import { readOneRosterBundle } from './parse/oneroster';
 import type { OrgMatching } from './parse/oneroster-orgs';
-import { parseCsv } from './parse/parse-csv';
+import { parseCsvYielding } from './parse/parse-csv';
 import { detectRosterKind, parseRosterCsvYielding } from './parse/parse-roster';
 import type { ParsedRoster } from './parse/parsed-roster';
 
@@ -66,7 +66,7 @@ export async function listedStudentIds(
   }
   const column = parsed.mapping.studentId;
   if (!column || 'folder' in upload) return ids;
-  for (const record of parseCsv(decodeText(upload.bytes).text).records) {
+  for (const record of (await parseCsvYielding(decodeText(upload.bytes).text)).records) {
     const id = (record.cells[column] ?? '').trim();
     if (id) ids.add(id);
   }

@@ -1,6 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { landingSlice } from '../../server/imports/import-commit';
 import { commitImport, planUpload } from '../../server/imports/import-service';
 import { settleUnfinishedImports } from '../../server/imports/landed-students';
 import { rosterGeneration } from '../../server/imports/roster-snapshot';
@@ -294,11 +293,12 @@ describe('A roster import whose plan still holds', () => {
 });
 
 describe('A large roster import', () => {
-  // Some rows name an ensemble no school has yet: it comes with the first slice.
-  const landingFile = inventedRoster(Math.round(landingSlice * 2.4), 9, 830_000).map(
-    (row, index) => (index % 7 === 0 ? { ...row, ensemble: 'Landing Strings' } : row),
+  // Some rows name an ensemble no school has yet. More new students than a bulk load's least,
+  // fewer than four times the roster: written with every index in place.
+  const largeFile = inventedRoster(4_800, 9, 830_000).map((row, index) =>
+    index % 7 === 0 ? { ...row, ensemble: 'Landing Strings' } : row,
   );
-  const landingStudents = new Set(landingFile.map((row) => row.studentId)).size;
+  const largeFileStudents = new Set(largeFile.map((row) => row.studentId)).size;
   const studentsOfFile = async (app: TestApp, rows: RosterRow[]) =>
     (
       await query<{ count: number }>(
@@ -315,8 +315,8 @@ describe('A large roster import', () => {
       )
     )[0]!.count;
 
-  it('should add its new students a slice per transaction, and end where one transaction ends', async () => {
-    expect(landingStudents).toBeGreaterThan(2 * landingSlice);
+  it('should add its new students in its one transaction, and end where comparing every row ends', async () => {
+    expect(largeFileStudents).toBeGreaterThan(4_000);
     const counts = (app: TestApp) =>
       query<{ code: string; grade: number; status: string; students: number }>(
         app,
@@ -324,12 +324,15 @@ describe('A large roster import', () => {
          join schools c on c.id = n.school_id order by 1, 2, 3`,
       );
     const countsBefore = await Promise.all([counts(shortCut), counts(everyRow)]);
-    const sliced = await importInSteps(shortCut, landingFile);
-    const whole = await importInSteps(everyRow, landingFile, () =>
+    const withShortCut = await importInSteps(shortCut, largeFile);
+    const comparingAll = await importInSteps(everyRow, largeFile, () =>
       query(everyRow, `select nextval('roster_generation')`),
     );
-    expect(sliced.result).toMatchObject({ committed: true, created: landingFile.length });
-    expect(whole.result).toEqual({ ...sliced.result, importId: whole.result.importId });
+    expect(withShortCut.result).toMatchObject({ committed: true, created: largeFile.length });
+    expect(comparingAll.result).toEqual({
+      ...withShortCut.result,
+      importId: comparingAll.result.importId,
+    });
     expect(await studentsState(shortCut, 'S83')).toEqual(await studentsState(everyRow, 'S83'));
     const lastSummary = async (app: TestApp) => (await rosterState(app)).imports.at(-1);
     expect(await lastSummary(shortCut)).toEqual(await lastSummary(everyRow));
@@ -347,17 +350,16 @@ describe('A large roster import', () => {
           )?.students ?? 0),
       }));
     expect(await added(shortCut, countsBefore[0])).toEqual(await added(everyRow, countsBefore[1]));
-    expect(await landingRows(shortCut)).toBe(0);
     if (shortCut.database.kind === 'pglite') {
-      // Three slices and the final transaction; the other commit found the roster changed
-      // before its first slice, landed nothing and wrote everything in its final transaction.
-      expect(sliced.transactions).toBe(Math.ceil(landingStudents / landingSlice) + 1);
-      expect(whole.transactions).toBe(2);
+      // Nothing is written ahead of the transaction that commits, and no index is dropped.
+      expect(withShortCut.transactions).toBe(1);
+      expect(comparingAll.transactions).toBe(1);
+      expect(withShortCut.droppedIndexes).toBe(0);
     }
   });
 
-  it('should take its landed students and new ensembles back out when its final transaction fails', async () => {
-    const file = inventedRoster(Math.round(landingSlice * 1.2), 10, 840_000).map((row) => ({
+  it('should leave no student, ensemble or count behind when its transaction fails', async () => {
+    const file = inventedRoster(2_400, 10, 840_000).map((row) => ({
       ...row,
       ensemble: row.ensemble ? `${row.ensemble} Taken Back` : row.ensemble,
     }));
@@ -375,9 +377,10 @@ describe('A large roster import', () => {
         'select school_id, grade, status, students from student_counts order by 1, 2, 3',
       ),
     ).toEqual(countsBefore);
-    expect(await landingRows(shortCut)).toBe(0);
   });
 
+  // Imports once landed new students ahead of their final transaction; a data folder a crash
+  // left in the middle of one still has them, noted in roster_import_landings.
   it('should take back at the next start what a crash left landed, keeping students someone has worked with', async () => {
     const app = everyRow;
     const [kept, gone] = await query<{ id: number; school_id: number; grade: number }>(

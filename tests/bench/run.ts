@@ -103,7 +103,8 @@ async function sections(): Promise<Section[]> {
   }
   list.push({
     title: '9. Grid pages during a backup, against without it',
-    run: () => benchBackup(smoke ? { students: 3_000, photos: 5 } : { students: 50_000, photos: 200 }),
+    run: () =>
+      benchBackup(smoke ? { students: 3_000, photos: 5 } : { students: 50_000, photos: 200 }),
   });
   const yearStart = await optionalModule<{
     benchYearStart(options: { students: number }): Promise<BenchFigure[]>;
@@ -112,6 +113,16 @@ async function sections(): Promise<Section[]> {
     list.push({
       title: '10. Starting a new school year, against one grade update over the same students; year over year after it',
       run: () => yearStart.benchYearStart({ students: smoke ? 2_000 : 50_000 }),
+    });
+  }
+  const loadTail = await optionalModule<{
+    benchLoadTail(options: { clients: number; seconds: number }): Promise<BenchFigure[]>;
+  }>('./load-tail.ts');
+  if (loadTail) {
+    list.push({
+      title: '11. A steady tail: many clients on the demo district, against one client alone',
+      run: () =>
+        loadTail.benchLoadTail(smoke ? { clients: 10, seconds: 3 } : { clients: 50, seconds: 30 }),
     });
   }
   return list;

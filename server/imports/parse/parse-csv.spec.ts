@@ -1,7 +1,8 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { decodeText } from './decode';
-import { parseCsv } from './parse-csv';
+import Papa from 'papaparse';
+import { parseCsv, parseCsvYielding } from './parse-csv';
 
 const fixtures = new URL('../../../tests/fixtures/rosters/', import.meta.url);
 const fixtureText = (name: string) => decodeText(readFileSync(new URL(name, fixtures))).text;
@@ -108,6 +109,7 @@ describe('parseCsv', () => {
     expect(csv.records).toEqual([]);
     expect(csv.problems).toHaveLength(1);
     expect(csv.problems[0]!.message).toMatch(/more than 200 columns/);
+    expect(csv.refusal).toMatch(/at most 200/);
   });
 
   it('should still read a header of exactly 200 columns, and commas inside quotes do not count', () => {
@@ -117,14 +119,39 @@ describe('parseCsv', () => {
     expect(parseCsv(quoted).headers).toEqual([','.repeat(500), 'b']);
   });
 
-  it('should leave out a cell longer than 10,000 characters and say so', () => {
+  it('should refuse the file when a cell is longer than 10,000 characters, naming the limit', () => {
     const csv = parseCsv(`a,b\n1,${'x'.repeat(10_001)}\n2,3\n`);
-    expect(csv.records).toEqual([
-      { line: 2, cells: { a: '1', b: '' } },
-      { line: 3, cells: { a: '2', b: '3' } },
-    ]);
-    expect(csv.problems).toEqual([
-      { line: 2, column: 'b', message: expect.stringMatching(/10,001 characters/) as string },
-    ]);
+    expect(csv.records).toEqual([]);
+    expect(csv.refusal).toMatch(
+      /Line 2, cell 2 holds 10,001 characters; a cell may hold at most 10,000/,
+    );
+    expect(parseCsv(`a,b\n1,"${'x'.repeat(10_000)}"\n`).records).toHaveLength(1);
+  });
+
+  it('should refuse a line of more than 200 columns below a narrow header', () => {
+    const csv = parseCsv(`a,b\n1,2\n${'1,'.repeat(1_000_000)}1\n`);
+    expect(csv.records).toEqual([]);
+    expect(csv.refusal).toMatch(/Line 3 has more than 200 columns/);
+  });
+
+  it('should read a file parsed a piece at a time as papaparse reads it whole', async () => {
+    // Quoted cells with delimiters, doubled quotes and line breaks, over several pieces.
+    const lines = ['id,name,note'];
+    for (let index = 0; index < 30_000; index++)
+      lines.push(
+        index % 7 === 0
+          ? `${index},"Name, ${index}","line one\r\nline ""two"" of ${index}"`
+          : `${index},Name ${index},plain ${'n'.repeat(index % 50)}`,
+      );
+    const text = `${lines.join('\r\n')}\r\n`;
+    expect(text.length).toBeGreaterThan(3 * 256 * 1024);
+    // papaparse over the whole text, as the independent reading.
+    const whole = Papa.parse<string[]>(text, { skipEmptyLines: true }).data;
+    const csv = await parseCsvYielding(text, {}, 0);
+    expect(csv.headers).toEqual(whole[0]);
+    expect(csv.records.map((record) => Object.values(record.cells))).toEqual(whole.slice(1));
+    expect(csv.records[7]!.line).toBe(10);
+    expect(csv.records[8]!.line).toBe(12);
+    expect(csv.problems).toEqual([]);
   });
 });

@@ -14,6 +14,8 @@ export interface ParsedCsv {
   problems: RowError[];
   /** The delimiter the file was read with. */
   delimiter: string;
+  /** Why the whole file was refused (a limit it goes past), when it was. */
+  refusal?: string;
 }
 
 const lineFeed = 10;
@@ -52,6 +54,111 @@ function firstLineIsTooWide(text: string): number | undefined {
     }
   }
   return undefined;
+}
+
+/**
+ * Where a line of the file ends outside quotes, every {@link chunkCharacters} or so: the file is
+ * parsed a piece at a time between these, so the event loop is let go between two pieces.
+ */
+const chunkCharacters = 256 * 1024;
+/** How many times `what` occurs in the text between two places. */
+function occurrences(text: string, what: string, from: number, to: number): number {
+  let count = 0;
+  for (let at = text.indexOf(what, from); at !== -1 && at < to; at = text.indexOf(what, at + 1))
+    count++;
+  return count;
+}
+
+/** How much of the start of the file papaparse guesses the delimiter and line break from. */
+const guessCharacters = 64 * 1024;
+
+/** Characters scanned between two looks at the clock. */
+const scanStep = 64 * 1024;
+
+/** What the layout scan found: where to cut the text, or why the file is refused. */
+type Layout = { cuts: number[] } | { refusal: string };
+
+const quote = 34;
+const space = 32;
+
+/**
+ * Walks the text once, the way papaparse reads fields (a double quote opens a quoted field only
+ * at the start of a field; inside one, `""` is a quote and a quote followed by spaces and then a
+ * delimiter, a line break or the end closes it), counting the cells of each line and the
+ * characters of each cell. Refuses the file at the first line of more than {@link mostColumns}
+ * cells or the first cell of more than {@link longestCell} characters, before any parser builds
+ * them; otherwise answers where to cut it. Yields every {@link scanStep} characters.
+ */
+function* scanLayout(text: string, delimiter: string, newline: string): Generator<void, Layout> {
+  const delimiterCode = delimiter.charCodeAt(0);
+  const newlineCode = newline.charCodeAt(0);
+  const isNewline = (at: number) =>
+    text.charCodeAt(at) === newlineCode && (newline.length === 1 || text.startsWith(newline, at));
+  const cuts: number[] = [];
+  let line = 1;
+  let cells = 1;
+  let cellStart = 0;
+  let lastCut = 0;
+  let index = 0;
+  const tooLong = (end: number) =>
+    end - cellStart > longestCell
+      ? `Line ${line}, cell ${cells} holds ${(end - cellStart).toLocaleString('en-US')} characters; a cell may hold at most ${longestCell.toLocaleString('en-US')}. Check that this is the right file, exported as CSV.`
+      : undefined;
+  let nextYield = scanStep;
+  while (index < text.length) {
+    if (index >= nextYield) {
+      yield;
+      nextYield = index + scanStep;
+    }
+    if (index === cellStart && text.charCodeAt(index) === quote) {
+      // A quoted field: find its closing quote.
+      let at = index + 1;
+      for (;;) {
+        const next = text.indexOf('"', at);
+        if (next === -1) return { cuts }; // Never closed: papaparse reads the rest into it.
+        if (text.charCodeAt(next + 1) === quote) {
+          at = next + 2;
+          continue;
+        }
+        let after = next + 1;
+        while (text.charCodeAt(after) === space) after++;
+        if (after >= text.length || text.charCodeAt(after) === delimiterCode || isNewline(after)) {
+          line += occurrences(text, newline, index, next);
+          cellStart = index + 1;
+          const refusal = tooLong(next);
+          if (refusal) return { refusal };
+          index = cellStart = after;
+          break;
+        }
+        at = next + 1;
+      }
+      continue;
+    }
+    if (text.charCodeAt(index) === delimiterCode) {
+      const refusal = tooLong(index);
+      if (refusal) return { refusal };
+      cells++;
+      if (cells > mostColumns)
+        return {
+          refusal: `Line ${line} has more than ${mostColumns} columns; a roster file may have at most ${mostColumns}. Check that this is the right file, exported as CSV.`,
+        };
+      index++;
+      cellStart = index;
+    } else if (isNewline(index)) {
+      const refusal = tooLong(index);
+      if (refusal) return { refusal };
+      if (index - lastCut >= chunkCharacters) {
+        cuts.push(index);
+        lastCut = index;
+      }
+      line++;
+      cells = 1;
+      index += newline.length;
+      cellStart = index;
+    } else index++;
+  }
+  const refusal = tooLong(text.length);
+  return refusal ? { refusal } : { cuts };
 }
 
 /** Counts physical line breaks: CRLF, a lone LF and a lone CR are one each (RFC 4180 uses CRLF). */
@@ -101,60 +208,83 @@ function isEmptyLine(cells: string[]): boolean {
   return cells.every((cell) => cell.trim() === '');
 }
 
+/** What {@link parseCsv} is asked for beyond the defaults. */
+export interface CsvOptions {
+  /** Stop after this many records (a preview's first rows). */
+  records?: number;
+}
+
 /**
  * Splits CSV text into headers and records with papaparse: the delimiter is detected among
  * comma, semicolon and tab; CRLF, LF or CR line breaks; quoted fields may hold delimiters, double
  * quotes and line breaks (RFC 4180). Each record carries the physical line it starts on (the
  * header is line 1), which differs from its record number once a field holds a line break.
  * Fully empty lines are skipped, headers are trimmed, and a repeated header, cells beyond the
- * header and broken quoting are reported as problems. Never throws.
+ * header and broken quoting are reported as problems. A file with a line of more than
+ * {@link mostColumns} cells or a cell of more than {@link longestCell} characters is refused
+ * whole (`refusal`), found by one scan before papaparse builds a cell. Never throws.
  */
-export function parseCsv(text: string): ParsedCsv {
-  const problems: RowError[] = [];
-  const records: CsvRecord[] = [];
-  const tooWide = firstLineIsTooWide(text);
-  if (tooWide !== undefined) {
-    problems.push({
-      line: 1,
-      column: '',
-      message: `The header line has more than ${mostColumns} columns; a roster file has far fewer. Check that this is the right file, exported as CSV.`,
-    });
-    return { headers: [], records, problems, delimiter: ',' };
+export function parseCsv(text: string, options: CsvOptions = {}): ParsedCsv {
+  const steps = csvSteps(text, options);
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return step.value;
   }
-  // Empty lines are kept while parsing so that every parsed line follows the one before it in
-  // the text: a line starts one line break, plus those inside its quoted cells, after the last.
-  // Papaparse guesses from the first ten lines; it must skip empty ones while guessing, or a
-  // trailing line break counts against the true delimiter.
-  const guess = Papa.parse<string[]>(text, {
-    delimitersToGuess: [',', ';', '\t'],
-    skipEmptyLines: 'greedy',
-    preview: 10,
-  });
-  const parsed = Papa.parse<string[]>(text, { delimiter: guess.meta.delimiter });
-  const quoteErrors = new Map<number, Papa.ParseError[]>();
-  for (const error of parsed.errors) {
-    if (error.type !== 'Quotes' || error.row === undefined) continue;
-    quoteErrors.set(error.row, [...(quoteErrors.get(error.row) ?? []), error]);
+}
+
+/**
+ * {@link parseCsv} for the server: the text is scanned and parsed a piece at a time, and after
+ * each `sliceMs` of work other requests run, so a large or hostile upload does not hold the
+ * event loop while it is read.
+ */
+export async function parseCsvYielding(
+  text: string,
+  options: CsvOptions = {},
+  sliceMs = 20,
+): Promise<ParsedCsv> {
+  return runYielding(csvSteps(text, options), sliceMs);
+}
+
+/** Runs a generator to its end, letting the event loop go after each `sliceMs` of work. */
+export async function runYielding<Result>(
+  steps: Generator<void, Result>,
+  sliceMs: number,
+): Promise<Result> {
+  let sliceStart = performance.now();
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return step.value;
+    if (performance.now() - sliceStart >= sliceMs) {
+      await new Promise((resolve) => setImmediate(resolve));
+      sliceStart = performance.now();
+    }
   }
-  let headers: string[] | undefined;
-  let readable: { header: string; index: number }[] = [];
-  let line = 1;
-  parsed.data.forEach((cells, row) => {
-    const lineOfRow = line;
-    line += 1 + embeddedLineBreaks(cells);
-    for (const error of quoteErrors.get(row) ?? []) {
-      const place = Math.max(0, Math.min(cells.length, headers?.length ?? cells.length) - 1);
-      problems.push({
+}
+
+/** Reads the rows papaparse split into records, header first, keeping count of lines. */
+class RecordReader {
+  readonly problems: RowError[] = [];
+  readonly records: CsvRecord[] = [];
+  headers: string[] | undefined;
+  private readable: { header: string; index: number }[] = [];
+  private line = 1;
+
+  add(cells: string[], quoteErrors: Papa.ParseError[]) {
+    const lineOfRow = this.line;
+    this.line += 1 + embeddedLineBreaks(cells);
+    for (const error of quoteErrors) {
+      const place = Math.max(0, Math.min(cells.length, this.headers?.length ?? cells.length) - 1);
+      this.problems.push({
         line: lineOfRow,
-        column: headers?.[place] ?? '',
+        column: this.headers?.[place] ?? '',
         message: quoteProblem(error),
       });
     }
     if (isEmptyLine(cells)) return;
-    if (!headers) {
-      headers = headerNames(cells, lineOfRow, problems);
+    if (!this.headers) {
+      this.headers = headerNames(cells, lineOfRow, this.problems);
       const seen = new Set<string>();
-      readable = headers.flatMap((header, index) => {
+      this.readable = this.headers.flatMap((header, index) => {
         if (seen.has(header)) return [];
         seen.add(header);
         return [{ header, index }];
@@ -162,27 +292,72 @@ export function parseCsv(text: string): ParsedCsv {
       return;
     }
     const record: Record<string, string> = {};
-    for (const { header, index } of readable) {
-      const cell = cells[index] ?? '';
-      if (cell.length > longestCell) {
-        problems.push({
-          line: lineOfRow,
-          column: header,
-          message: `This cell holds ${cell.length.toLocaleString('en-US')} characters, more than the ${longestCell.toLocaleString('en-US')} a cell may; it was not read.`,
-        });
-        record[header] = '';
-      } else {
-        record[header] = cell;
-      }
-    }
+    for (const { header, index } of this.readable) record[header] = cells[index] ?? '';
+    const headers = this.headers;
     if (cells.length > headers.length && !isEmptyLine(cells.slice(headers.length))) {
-      problems.push({
+      this.problems.push({
         line: lineOfRow,
         column: `Column ${headers.length + 1}`,
         message: `This line has ${cells.length} cells but the header has ${headers.length}; the cells beyond column ${headers.length} were not read.`,
       });
     }
-    records.push({ line: lineOfRow, cells: record });
+    this.records.push({ line: lineOfRow, cells: record });
+  }
+}
+
+/** A file refused whole: its reason, also as the one problem of the upload as a whole. */
+function refused(delimiter: string, refusal: string): ParsedCsv {
+  const problems = [{ line: 0, column: '', message: refusal }];
+  return { headers: [], records: [], problems, delimiter, refusal };
+}
+
+/** The steps of {@link parseCsv}: run by it at once, or with yields by the server. */
+export function* csvSteps(text: string, options: CsvOptions): Generator<void, ParsedCsv> {
+  // Papaparse guesses from the first ten lines; it must skip empty ones while guessing, or a
+  // trailing line break counts against the true delimiter. A first line too wide is refused
+  // before the guess parses it.
+  const tooWide = firstLineIsTooWide(text);
+  if (tooWide !== undefined) {
+    return refused(
+      ',',
+      `The header line has more than ${mostColumns} columns; a roster file may have at most ${mostColumns}. Check that this is the right file, exported as CSV.`,
+    );
+  }
+  // The guess reads the start of the file only: a line far wider than a roster's is refused by
+  // the scan below, before papaparse splits it.
+  const guess = Papa.parse<string[]>(text.slice(0, guessCharacters), {
+    delimitersToGuess: [',', ';', '\t'],
+    skipEmptyLines: 'greedy',
+    preview: 10,
   });
-  return { headers: headers ?? [], records, problems, delimiter: parsed.meta.delimiter };
+  const delimiter = guess.meta.delimiter;
+  const linebreak = guess.meta.linebreak as '\n' | '\r\n' | '\r';
+  const layout = yield* scanLayout(text, delimiter, linebreak);
+  if ('refusal' in layout) return refused(delimiter, layout.refusal);
+  // Empty lines are kept while parsing so that every parsed line follows the one before it in
+  // the text: a line starts one line break, plus those inside its quoted cells, after the last.
+  const reader = new RecordReader();
+  const ends = [...layout.cuts, text.length];
+  let start = 0;
+  for (const end of ends) {
+    const parsed = Papa.parse<string[]>(text.slice(start, end), { delimiter, newline: linebreak });
+    const quoteErrors = new Map<number, Papa.ParseError[]>();
+    for (const error of parsed.errors) {
+      if (error.type !== 'Quotes' || error.row === undefined) continue;
+      quoteErrors.set(error.row, [...(quoteErrors.get(error.row) ?? []), error]);
+    }
+    for (const [row, cells] of parsed.data.entries()) {
+      reader.add(cells, quoteErrors.get(row) ?? []);
+      if (options.records !== undefined && reader.records.length >= options.records) break;
+    }
+    if (options.records !== undefined && reader.records.length >= options.records) break;
+    start = end + linebreak.length;
+    yield;
+  }
+  return {
+    headers: reader.headers ?? [],
+    records: reader.records,
+    problems: reader.problems,
+    delimiter,
+  };
 }

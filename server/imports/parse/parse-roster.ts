@@ -8,7 +8,7 @@ import {
   type RosterField,
 } from '../../../shared/roster';
 import { decodeText } from './decode';
-import { parseCsv } from './parse-csv';
+import { csvSteps } from './parse-csv';
 import type { ParsedRoster, RowError } from './parsed-roster';
 import { RosterValidator } from './validate-rows';
 
@@ -108,8 +108,8 @@ function* rosterCsvSteps(
   }
   if (text.trim() === '') return unreadable('The file is empty.');
 
-  const csv = parseCsv(text);
-  yield;
+  const csv = yield* csvSteps(text, {});
+  if (csv.refusal) return { ...unreadable(csv.refusal), refused: csv.refusal };
   const mapping = options.mapping ?? guessMapping(csv.headers);
   const headerErrors: RowError[] = mappingProblems(mapping, csv.headers).map((problem) => ({
     line: 1,

@@ -24,6 +24,8 @@ export interface ParsedRoster {
   errors: RowError[];
   /** How many roster rows the upload held, valid or not. */
   totalRows: number;
+  /** Why the whole upload was refused, when it goes past a limit (too many columns, a cell too long). */
+  refused?: string;
   /**
    * Bundle records left out as the OneRoster status asks: records marked `tobedeleted` and the
    * enrolments and roles that point at them. Counted, never reported as errors.
