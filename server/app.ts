@@ -218,7 +218,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   app.use(payPages(services));
 
   if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'))) {
-    app.use(express.static(webRoot, { index: false, maxAge: '1h' }));
+    app.use(express.static(webRoot, { index: false, maxAge: '1h', setHeaders: webCacheHeaders }));
     // HTML5 routing: every other GET is the app's index page.
     app.get('/{*splat}', (_request, response) => {
       response.set('Cache-Control', 'no-cache');
@@ -229,4 +229,23 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   // The mail worker and report scheduler; server/main.ts and the test harness call it on close.
   app.locals['stop'] = startBackgroundWork(services);
   return app;
+}
+
+/**
+ * The files that name the app's version are checked with the server on every use: the service
+ * worker's own script and its manifest (Angular's service worker guide: "ngsw.json" must not be
+ * cached by the browser or a proxy), the web app manifest and the index page. A worker that read
+ * a stale ngsw.json would keep offering the old version.
+ */
+const alwaysRevalidated = new Set([
+  'index.html',
+  'ngsw.json',
+  'ngsw-worker.js',
+  'safety-worker.js',
+  'worker-basic.min.js',
+  'manifest.webmanifest',
+]);
+
+function webCacheHeaders(response: express.Response, filePath: string): void {
+  if (alwaysRevalidated.has(path.basename(filePath))) response.setHeader('Cache-Control', 'no-cache');
 }

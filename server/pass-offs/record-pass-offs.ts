@@ -1,6 +1,7 @@
-import { eq, inArray } from 'drizzle-orm';
+import { and, eq, inArray } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
-import { ladderRequirements, passOffs, students } from '../db/schema/index';
+import { enrollments, ladderRequirements, passOffs, students } from '../db/schema/index';
+import { currentSchoolYearId } from '../enrollments/school-year';
 import type { PassOff, PassOffBatchResult, PassOffInput } from '../../shared/api/pass-off';
 import { assertInScope, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
@@ -71,6 +72,8 @@ export async function recordPassOffs(
     if (!student) throw notFound('That student');
     assertInScope(actor, student.schoolId, 'That student');
   }
+
+  await assertSeated(db, inputs);
 
   return db.transaction(async (tx) => {
     const keys = inputs.flatMap((input) => (input.clientKey ? [input.clientKey] : []));
@@ -171,4 +174,53 @@ export async function recordPassOffs(
     const rows = await passOffsByIds(tx, ids);
     return { rows, created: inserted.length, repeated: inputs.length - inserted.length };
   });
+}
+
+/**
+ * Refuses (400, nothing recorded) the pass-offs entered for an ensemble whose student no longer
+ * has an active seat in it this school year: an entry that waited on a device while the student
+ * left the ensemble is answered with the reason, per entry, rather than filed under the student.
+ */
+async function assertSeated(db: Database, inputs: PassOffInput[]): Promise<void> {
+  const ensembleIds = [...new Set(inputs.flatMap((input) => input.ensembleId ?? []))];
+  if (ensembleIds.length === 0) return;
+  const studentIds = [...new Set(inputs.map((input) => input.studentId))];
+  const seats = await db
+    .select({ studentId: enrollments.studentId, ensembleId: enrollments.ensembleId })
+    .from(enrollments)
+    .where(
+      and(
+        inArray(enrollments.ensembleId, ensembleIds),
+        inArray(enrollments.studentId, studentIds),
+        eq(enrollments.active, true),
+        eq(enrollments.schoolYearId, currentSchoolYearId),
+      ),
+    );
+  const seated = new Set(seats.map((seat) => `${seat.studentId} ${seat.ensembleId}`));
+  const unseated = inputs
+    .map((input, index) => ({ input, index }))
+    .filter(({ input }) => input.ensembleId && !seated.has(`${input.studentId} ${input.ensembleId}`));
+  if (unseated.length === 0) return;
+  const names = await db
+    .select({
+      id: students.id,
+      firstName: students.firstName,
+      preferredName: students.preferredName,
+      lastName: students.lastName,
+    })
+    .from(students)
+    .where(inArray(students.id, [...new Set(unseated.map(({ input }) => input.studentId))]));
+  const nameById = new Map(
+    names.map((row) => [row.id, `${row.preferredName ?? row.firstName} ${row.lastName}`]),
+  );
+  const fieldErrors = unseated.map(({ input, index }) => ({
+    field: `passOffs.${index}.ensembleId`,
+    message: `${nameById.get(input.studentId) ?? 'This student'} no longer has a seat in this ensemble, so the pass-off was not recorded.`,
+  }));
+  throw badRequest(
+    fieldErrors.length === 1
+      ? fieldErrors[0]!.message
+      : `${fieldErrors.length} pass-offs are for students no longer seated in the ensemble: ${fieldErrors[0]!.message}`,
+    fieldErrors,
+  );
 }

@@ -102,6 +102,12 @@ export const passOffInputSchema = z.strictObject({
    * answers the pass-off already recorded instead of recording it twice.
    */
   clientKey: z.uuid('The client key is a UUID.').optional(),
+  /**
+   * The ensemble the pass-off was heard in, when entered from an ensemble's grid: the server
+   * then refuses it (400, field `passOffs.N.ensembleId`) if the student no longer has a seat in
+   * that ensemble this year, say an entry that waited offline while the roster moved.
+   */
+  ensembleId: recordId('Choose the ensemble.').optional(),
 });
 export type PassOffInput = z.infer<typeof passOffInputSchema>;
 

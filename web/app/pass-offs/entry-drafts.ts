@@ -45,6 +45,8 @@ export class EntryDrafts {
 
   /** The day new entries were heard on (YYYY-MM-DD). */
   readonly heardOn = signal('');
+  /** The ensemble being heard, sent with each entry so the server can refuse an unseated student. */
+  readonly ensembleId = signal<number | null>(null);
   /** What is being typed, by cell. */
   readonly drafts = this.state.asReadonly();
   /** The queue's latest entry for each cell (restored ones included). */
@@ -119,6 +121,7 @@ export class EntryDrafts {
       tempo: draftTempo(draft, target.requirement),
       passed: draft.passed,
       note: draft.note.trim(),
+      ...(this.ensembleId() ? { ensembleId: this.ensembleId()! } : {}),
     };
     const checked = passOffInputSchema.safeParse(passOff);
     if (!checked.success) {

@@ -3,7 +3,9 @@ import { Injectable, computed, inject, signal } from '@angular/core';
 import { Subject } from 'rxjs';
 import { z } from 'zod';
 import { passOffInputSchema, type PassOff, type PassOffInput } from '../../../shared/api/pass-off';
+import { unreachable } from '../core/offline/last-visit-interceptor';
 import { errorMessage } from '../core/parse';
+import { passOffQueueStorageKey } from './unsent-pass-offs';
 import { PassOffData } from './pass-off-data';
 
 /** A pass-off as entered, with the client key that makes sending it again safe. */
@@ -28,7 +30,9 @@ const batchSize = 25;
 const gatherPause = 250;
 const firstRetry = 1000;
 const longestRetry = 60_000;
-const storedSchema = z.array(passOffInputSchema.extend({ clientKey: z.uuid() }));
+const storedPassOffSchema = passOffInputSchema.extend({ clientKey: z.uuid() });
+const storedSchema = z.array(storedPassOffSchema);
+const storedRefusalsSchema = z.array(z.object({ passOff: storedPassOffSchema, message: z.string() }));
 
 /**
  * The outbox of the pass-off entry grid. Every entry is kept in memory and in localStorage
@@ -69,7 +73,7 @@ export class PassOffQueue {
 
   /** Starts the queue for the signed-in user: restores what an earlier visit left unsent. */
   start(userId: number): void {
-    const key = `tuttiboard.pass-off-queue.${userId}`;
+    const key = passOffQueueStorageKey(userId);
     if (this.storageKey === key) return;
     this.storageKey = key;
     window.addEventListener('online', () => {
@@ -78,6 +82,16 @@ export class PassOffQueue {
       this.schedule(0);
     });
     window.addEventListener('offline', () => this.offline.set(true));
+    const refusals = storedRefusalsSchema.safeParse(
+      JSON.parse(localStorage.getItem(`${key}.refused`) ?? '[]'),
+    );
+    if (refusals.success && refusals.data.length) {
+      const next = new Map(this.state());
+      for (const { passOff, message } of refusals.data) {
+        next.set(passOff.clientKey, { passOff, status: 'failed', message, saved: null });
+      }
+      this.state.set(next);
+    }
     const stored = storedSchema.safeParse(JSON.parse(localStorage.getItem(key) ?? '[]'));
     if (!stored.success || stored.data.length === 0) return;
     const next = new Map(this.state());
@@ -192,7 +206,7 @@ export class PassOffQueue {
     const retryable =
       status <= 0 || status === 401 || status === 408 || status === 429 || status >= 500;
     if (retryable) {
-      if (status === 0) this.offline.set(true);
+      if (unreachable(error)) this.offline.set(true);
       this.setStatus(keys, 'waiting');
       this.retryLater();
       return;
@@ -266,9 +280,16 @@ export class PassOffQueue {
     const unsent = [...entries.values()]
       .filter((entry) => entry.status === 'waiting' || entry.status === 'saving')
       .map((entry) => entry.passOff);
+    // Refused entries are kept too, with the server's reason, until the director retypes or
+    // clears them: an entry is never dropped without being seen.
+    const refused = [...entries.values()]
+      .filter((entry) => entry.status === 'failed')
+      .map(({ passOff, message }) => ({ passOff, message }));
     try {
       if (unsent.length) localStorage.setItem(this.storageKey, JSON.stringify(unsent));
       else localStorage.removeItem(this.storageKey);
+      if (refused.length) localStorage.setItem(`${this.storageKey}.refused`, JSON.stringify(refused));
+      else localStorage.removeItem(`${this.storageKey}.refused`);
     } catch {
       // Storage full or blocked: the entries are still in memory and still sent.
     }

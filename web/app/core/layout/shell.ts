@@ -1,6 +1,7 @@
 import {
   ChangeDetectionStrategy,
   Component,
+  Injector,
   computed,
   inject,
   viewChild,
@@ -13,6 +14,8 @@ import { MatIcon } from '@angular/material/icon';
 import { roleLabels } from '../../../../shared/api/roles';
 import { CurrentUser } from '../auth/current-user';
 import { CurrentDistrict } from '../district/current-district';
+import { LastVisit } from '../offline/last-visit';
+import { unsentPassOffCount } from '../../pass-offs/unsent-pass-offs';
 import { navigationGroups, visibleItems } from './navigation';
 
 /** The frame of every signed-in page: the left navigation rail and the top bar. */
@@ -68,9 +71,25 @@ export class Shell {
   protected readonly me = this.currentUser.me;
   protected readonly district = this.currentDistrict.district;
 
-  /** The sign-out form is a plain POST; the app only notes it so no 401 signs the user back in. */
-  protected signingOut(): void {
+  private readonly injector = inject(Injector);
+  private readonly lastVisit = inject(LastVisit);
+
+  /**
+   * The sign-out form is a plain POST. Before it goes, the app asks when pass-offs entered here
+   * are still unsent, clears what this device kept of the visit, and notes the sign-out so no
+   * 401 signs the user back in.
+   */
+  protected async signingOut(event: SubmitEvent): Promise<void> {
+    event.preventDefault();
+    const form = event.target as HTMLFormElement;
+    const unsent = unsentPassOffCount(this.me()?.id ?? 0);
+    if (unsent > 0) {
+      const { askToSignOutWithUnsent } = await import('../auth/sign-out-question');
+      if (!(await askToSignOutWithUnsent(this.injector, unsent))) return;
+    }
     this.currentUser.markSigningOut();
+    await this.lastVisit.forget();
+    form.submit();
   }
   protected readonly roleLabel = computed(() => {
     const me = this.me();

@@ -189,6 +189,7 @@ export class PassOffEntry {
       const id = this.ensembleId();
       untracked(() => {
         this.historyStudent.set(null);
+        this.drafts.ensembleId.set(id);
         this.sheet.load(id);
       });
     });

@@ -1,0 +1,103 @@
+import { Injectable, signal } from '@angular/core';
+import { clear, createStore, del, get, set, type UseStore } from 'idb-keyval';
+
+/** A response body kept from an earlier visit, and when it arrived. */
+export interface KeptAnswer {
+  body: unknown;
+  keptAt: number;
+}
+
+/** The signed-in user as `/api/me` last answered, with their id. */
+interface KeptUser {
+  id: number;
+  body: unknown;
+}
+
+const userKey = 'signed-in-user';
+
+/**
+ * What this device keeps of the signed-in user's last visit, in IndexedDB: the answers of the
+ * reads a director or student needs with no network (their ensembles, students, the ladder,
+ * pass-offs, their own progress). Every answer is kept under the user's id, a different user
+ * signing in on the device clears what the last one left, and signing out clears it all.
+ */
+@Injectable({ providedIn: 'root' })
+export class LastVisit {
+  private store: UseStore | null = null;
+  private userId: number | null = null;
+  /** Settles once the signed-in user is known and another user's answers are cleared. */
+  private ready: Promise<void> = Promise.resolve();
+  /** When the oldest answer shown this visit was kept, while answers come from the device. */
+  readonly shownFrom = signal<number | null>(null);
+
+  /** Notes who is signed in; another user's answers are cleared first. */
+  signedIn(body: unknown): Promise<void> {
+    const id = (body as { id?: unknown } | null)?.id;
+    const store = this.open();
+    if (typeof id !== 'number' || !store) return this.ready;
+    this.ready = this.ready.then(async () => {
+      const kept = await get<KeptUser>(userKey, store).catch(() => undefined);
+      if (kept && kept.id !== id) await clear(store).catch(() => undefined);
+      await set(userKey, { id, body } satisfies KeptUser, store).catch(() => undefined);
+      this.userId = id;
+    });
+    return this.ready;
+  }
+
+  /** The user `/api/me` last answered on this device, to open the app without a network. */
+  async lastUser(): Promise<unknown> {
+    await this.ready;
+    const store = this.open();
+    const kept = store ? await get<KeptUser>(userKey, store).catch(() => undefined) : undefined;
+    if (!kept) return undefined;
+    this.userId = kept.id;
+    return kept.body;
+  }
+
+  /** Keeps an answer for the signed-in user. */
+  async keep(url: string, body: unknown): Promise<void> {
+    await this.ready;
+    const store = this.open();
+    if (!store || this.userId === null) return;
+    await set(this.key(url), { body, keptAt: Date.now() } satisfies KeptAnswer, store).catch(
+      () => undefined,
+    );
+  }
+
+  /** The answer kept for the signed-in user, if any, and notes that the page shows it. */
+  async recall(url: string): Promise<KeptAnswer | undefined> {
+    await this.ready;
+    const store = this.open();
+    if (!store || this.userId === null) return undefined;
+    const kept = await get<KeptAnswer>(this.key(url), store).catch(() => undefined);
+    if (kept) this.shownFrom.update((before) => Math.min(before ?? kept.keptAt, kept.keptAt));
+    return kept;
+  }
+
+  /** Notes that the server answered again, so the page no longer shows kept answers. */
+  answeredLive(): void {
+    if (this.shownFrom() !== null) this.shownFrom.set(null);
+  }
+
+  /** Forgets everything this device kept (signing out). */
+  async forget(): Promise<void> {
+    await this.ready;
+    this.userId = null;
+    this.shownFrom.set(null);
+    const store = this.open();
+    if (store) {
+      await del(userKey, store).catch(() => undefined);
+      await clear(store).catch(() => undefined);
+    }
+  }
+
+  private key(url: string): string {
+    return `${this.userId} ${url}`;
+  }
+
+  private open(): UseStore | null {
+    if (typeof indexedDB === 'undefined') return null;
+    this.store ??= createStore('tuttiboard-last-visit', 'answers');
+    return this.store;
+  }
+}
