@@ -31,6 +31,7 @@ export const passOffColumns = {
   heardByName: heardBy.name,
   note: passOffs.note,
   clientKey: passOffs.clientKey,
+  enteredAt: passOffs.enteredAt,
   version: passOffs.version,
   createdAt: passOffs.createdAt,
   updatedAt: passOffs.updatedAt,
@@ -139,6 +140,7 @@ export function toPassOff(row: PassOffRow, context: LadderContext): PassOff {
     clientKey: row.clientKey,
     ...standingOf(row, context),
     version: row.version,
+    enteredAt: (row.enteredAt ?? row.createdAt).toISOString(),
     createdAt: row.createdAt.toISOString(),
     updatedAt: row.updatedAt.toISOString(),
   };

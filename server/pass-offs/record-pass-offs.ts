@@ -74,6 +74,7 @@ export async function recordPassOffs(
   }
 
   await assertSeated(db, inputs);
+  const arrived = new Date();
 
   return db.transaction(async (tx) => {
     const keys = inputs.flatMap((input) => (input.clientKey ? [input.clientKey] : []));
@@ -126,6 +127,7 @@ export async function recordPassOffs(
                 heardBy: actor.userId,
                 note: input.note,
                 clientKey: input.clientKey ?? null,
+                enteredAt: input.enteredAt ? earliest(new Date(input.enteredAt), arrived) : null,
               };
             }),
           )
@@ -223,4 +225,8 @@ async function assertSeated(db: Database, inputs: PassOffInput[]): Promise<void>
       : `${fieldErrors.length} pass-offs are for students no longer seated in the ensemble: ${fieldErrors[0]!.message}`,
     fieldErrors,
   );
+}
+
+function earliest(a: Date, b: Date): Date {
+  return a.getTime() < b.getTime() ? a : b;
 }

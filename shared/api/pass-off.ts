@@ -76,6 +76,8 @@ export const passOffSchema = z.object({
   /** Why it no longer counts, in words, or null when it counts or is a "not yet". */
   standingNote: z.string().nullable(),
   version: z.number().int(),
+  /** When it was entered on the director's device (ISO 8601), or recorded when sent without. */
+  enteredAt: z.string(),
   /** ISO 8601 times. */
   createdAt: z.string(),
   updatedAt: z.string(),
@@ -108,6 +110,12 @@ export const passOffInputSchema = z.strictObject({
    * that ensemble this year, say an entry that waited offline while the roster moved.
    */
   ensembleId: recordId('Choose the ensemble.').optional(),
+  /**
+   * When it was entered on the device (ISO 8601 with an offset). Of two entries for one cell
+   * made offline on two devices, the later entered is the one shown; a time ahead of the
+   * server's clock is taken as the time it arrived.
+   */
+  enteredAt: z.iso.datetime({ offset: true, message: 'The time entered is an ISO 8601 time.' }).optional(),
 });
 export type PassOffInput = z.infer<typeof passOffInputSchema>;
 

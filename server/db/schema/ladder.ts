@@ -131,6 +131,12 @@ export const passOffs = pgTable(
     recordingId: integer('recording_id'),
     /** The client's own key for the pass-off, so a retried request never records it twice. */
     clientKey: uuid('client_key'),
+    /**
+     * When the director entered it on their device (never later than it reached the server): of
+     * two entries for one cell that waited offline on two devices, the later entered is the one
+     * the grid shows, whichever arrived first. Null for pass-offs sent without it.
+     */
+    enteredAt: timestamp('entered_at', { withTimezone: true, mode: 'date' }),
     ...version,
     ...timestamps,
   },

@@ -122,6 +122,7 @@ export class EntryDrafts {
       passed: draft.passed,
       note: draft.note.trim(),
       ...(this.ensembleId() ? { ensembleId: this.ensembleId()! } : {}),
+      enteredAt: new Date().toISOString(),
     };
     const checked = passOffInputSchema.safeParse(passOff);
     if (!checked.success) {

@@ -1,4 +1,3 @@
-import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { MatIcon } from '@angular/material/icon';
@@ -14,7 +13,7 @@ import { LastVisit } from './last-visit';
  */
 @Component({
   selector: 'tb-connection-notices',
-  imports: [DatePipe, MatIcon],
+  imports: [MatIcon],
   template: `
     @if (offline()) {
       <div class="notice offline" role="status" data-testid="offline-banner">
@@ -22,7 +21,7 @@ import { LastVisit } from './last-visit';
         <p>
           <strong>You are offline.</strong>
           @if (lastVisit.shownFrom(); as keptAt) {
-            Showing what this device kept on your last visit ({{ keptAt | date: 'MMM d, h:mm a' }}).
+            Showing what this device kept on your last visit ({{ keptText(keptAt) }}).
           } @else {
             Pages you opened on your last visit still open.
           }
@@ -108,6 +107,17 @@ export class ConnectionNotices {
       )
       .subscribe(() => this.updateReady.set(true));
     updates.unrecoverable.pipe(takeUntilDestroyed()).subscribe(() => this.updateReady.set(true));
+  }
+
+  private readonly keptFormat = new Intl.DateTimeFormat(undefined, {
+    month: 'short',
+    day: 'numeric',
+    hour: 'numeric',
+    minute: '2-digit',
+  });
+
+  protected keptText(keptAt: number): string {
+    return this.keptFormat.format(keptAt);
   }
 
   /** Loads the new version; the pass-off entry grid hands its open cell to the queue on the way out. */

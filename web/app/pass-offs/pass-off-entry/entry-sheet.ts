@@ -29,11 +29,18 @@ export function membersToRows(members: readonly EnsembleMember[]): {
   return { rows, instruments };
 }
 
-/** Pass-offs grouped by grid cell, newest first in each. */
+/**
+ * Pass-offs grouped by grid cell, newest first in each: by the day heard, then by when each was
+ * entered (two devices that entered one cell offline: the later entry first, whichever reached
+ * the server first), then by when it was recorded.
+ */
 export function passOffsByCell(passOffs: readonly PassOff[]): Map<string, PassOff[]> {
   const byCell = new Map<string, PassOff[]>();
   const newestFirst = [...passOffs].sort(
-    (a, b) => b.heardOn.localeCompare(a.heardOn) || b.id - a.id,
+    (a, b) =>
+      b.heardOn.localeCompare(a.heardOn) ||
+      Date.parse(b.enteredAt) - Date.parse(a.enteredAt) ||
+      b.id - a.id,
   );
   for (const passOff of newestFirst) {
     const key = cellKey(passOff.studentId, passOff.requirementCode);

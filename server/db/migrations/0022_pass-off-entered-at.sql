@@ -1,0 +1,1 @@
+ALTER TABLE "pass_offs" ADD COLUMN "entered_at" timestamp with time zone;
