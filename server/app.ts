@@ -247,5 +247,6 @@ const alwaysRevalidated = new Set([
 ]);
 
 function webCacheHeaders(response: express.Response, filePath: string): void {
-  if (alwaysRevalidated.has(path.basename(filePath))) response.setHeader('Cache-Control', 'no-cache');
+  if (alwaysRevalidated.has(path.basename(filePath)))
+    response.setHeader('Cache-Control', 'no-cache');
 }

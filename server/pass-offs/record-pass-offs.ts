@@ -201,7 +201,9 @@ async function assertSeated(db: Database, inputs: PassOffInput[]): Promise<void>
   const seated = new Set(seats.map((seat) => `${seat.studentId} ${seat.ensembleId}`));
   const unseated = inputs
     .map((input, index) => ({ input, index }))
-    .filter(({ input }) => input.ensembleId && !seated.has(`${input.studentId} ${input.ensembleId}`));
+    .filter(
+      ({ input }) => input.ensembleId && !seated.has(`${input.studentId} ${input.ensembleId}`),
+    );
   if (unseated.length === 0) return;
   const names = await db
     .select({

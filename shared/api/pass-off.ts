@@ -115,7 +115,9 @@ export const passOffInputSchema = z.strictObject({
    * made offline on two devices, the later entered is the one shown; a time ahead of the
    * server's clock is taken as the time it arrived.
    */
-  enteredAt: z.iso.datetime({ offset: true, message: 'The time entered is an ISO 8601 time.' }).optional(),
+  enteredAt: z.iso
+    .datetime({ offset: true, message: 'The time entered is an ISO 8601 time.' })
+    .optional(),
 });
 export type PassOffInput = z.infer<typeof passOffInputSchema>;
 

@@ -42,7 +42,9 @@ beforeAll(async () => {
     app.signIn(demoEmail('director.hpms')),
   ]);
   const ensembles = await phone.get('/api/ensembles?limit=100&sort=name:asc');
-  const withMembers = ensembles.body.rows.find((row: { memberCount: number }) => row.memberCount >= 3);
+  const withMembers = ensembles.body.rows.find(
+    (row: { memberCount: number }) => row.memberCount >= 3,
+  );
   ensembleId = withMembers.id;
   const detail = ensembleDetailSchema.parse((await phone.get(`/api/ensembles/${ensembleId}`)).body);
   seated = detail.members
@@ -62,7 +64,10 @@ describe('Pass-offs entered offline', () => {
     const student = seated[0]!;
     const entered = Date.now() - 10 * 60 * 1000;
     // The tablet heard the scale first, the phone a minute later; the phone found the network first.
-    const onTablet = entry(student.studentId, { tempo: 58, enteredAt: new Date(entered).toISOString() });
+    const onTablet = entry(student.studentId, {
+      tempo: 58,
+      enteredAt: new Date(entered).toISOString(),
+    });
     const onPhone = entry(student.studentId, {
       tempo: 64,
       enteredAt: new Date(entered + 60_000).toISOString(),

@@ -9,6 +9,7 @@ import { benchStartup } from './startup';
 import { benchBundle } from './bundle';
 import { benchListening } from './listening';
 import { benchBackup } from './backup';
+import { benchPhoneProfile } from './phone-profile';
 
 /**
  * `npm run bench`: every figure against the limit measured in the same run, printed as ratios.
@@ -125,6 +126,10 @@ async function sections(): Promise<Section[]> {
         loadTail.benchLoadTail(smoke ? { clients: 10, seconds: 3 } : { clients: 50, seconds: 30 }),
     });
   }
+  list.push({
+    title: '12. Pass-off screen on a phone profile (CPU ×4, Fast 3G), against its limits',
+    run: () => benchPhoneProfile({ runs: smoke ? 1 : 3 }),
+  });
   return list;
 }
 

@@ -3,14 +3,13 @@ import {
   provideZonelessChangeDetection,
   type ApplicationConfig,
   inject,
-  isDevMode,
   provideAppInitializer,
 } from '@angular/core';
 import { provideHttpClient, withInterceptors, withXsrfConfiguration } from '@angular/common/http';
-import { provideServiceWorker } from '@angular/service-worker';
 import { provideRouter, withComponentInputBinding, withInMemoryScrolling } from '@angular/router';
 import { routes } from './app.routes';
 import { sessionExpiredInterceptor } from './core/auth/session-expired-interceptor';
+import { AppUpdates } from './core/offline/app-updates';
 import { lastVisitInterceptor } from './core/offline/last-visit-interceptor';
 import { Icons } from './core/icons';
 
@@ -21,11 +20,6 @@ export const appConfig: ApplicationConfig = {
     provideHttpClient(withInterceptors([sessionExpiredInterceptor, lastVisitInterceptor]), withXsrfConfiguration({})),
     provideRouter(routes, withComponentInputBinding(), withInMemoryScrolling({ scrollPositionRestoration: 'top' })),
     provideAppInitializer(() => inject(Icons).register()),
-    // Production builds only: `ng serve` and unit specs run without a worker. It registers once
-    // the app is stable (or after 30 s), so it never competes with the first screen's requests.
-    provideServiceWorker('ngsw-worker.js', {
-      enabled: !isDevMode(),
-      registrationStrategy: 'registerWhenStable:30000',
-    }),
+    provideAppInitializer(() => inject(AppUpdates).start()),
   ],
 };

@@ -32,7 +32,9 @@ const firstRetry = 1000;
 const longestRetry = 60_000;
 const storedPassOffSchema = passOffInputSchema.extend({ clientKey: z.uuid() });
 const storedSchema = z.array(storedPassOffSchema);
-const storedRefusalsSchema = z.array(z.object({ passOff: storedPassOffSchema, message: z.string() }));
+const storedRefusalsSchema = z.array(
+  z.object({ passOff: storedPassOffSchema, message: z.string() }),
+);
 
 /**
  * The outbox of the pass-off entry grid. Every entry is kept in memory and in localStorage
@@ -288,7 +290,8 @@ export class PassOffQueue {
     try {
       if (unsent.length) localStorage.setItem(this.storageKey, JSON.stringify(unsent));
       else localStorage.removeItem(this.storageKey);
-      if (refused.length) localStorage.setItem(`${this.storageKey}.refused`, JSON.stringify(refused));
+      if (refused.length)
+        localStorage.setItem(`${this.storageKey}.refused`, JSON.stringify(refused));
       else localStorage.removeItem(`${this.storageKey}.refused`);
     } catch {
       // Storage full or blocked: the entries are still in memory and still sent.

@@ -10,7 +10,9 @@ export function passOffQueueStorageKey(userId: number): string {
  */
 export function unsentPassOffCount(userId: number): number {
   try {
-    const stored: unknown = JSON.parse(localStorage.getItem(passOffQueueStorageKey(userId)) ?? '[]');
+    const stored: unknown = JSON.parse(
+      localStorage.getItem(passOffQueueStorageKey(userId)) ?? '[]',
+    );
     return Array.isArray(stored) ? stored.length : 0;
   } catch {
     return 0;

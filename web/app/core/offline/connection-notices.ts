@@ -1,8 +1,13 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, inject, signal } from '@angular/core';
-import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  computed,
+  inject,
+  signal,
+} from '@angular/core';
 import { MatIcon } from '@angular/material/icon';
-import { SwUpdate } from '@angular/service-worker';
-import { filter } from 'rxjs';
+import { AppUpdates } from './app-updates';
 import { LastVisit } from './last-visit';
 
 /**
@@ -86,8 +91,10 @@ export class ConnectionNotices {
   protected readonly lastVisit = inject(LastVisit);
   private readonly online = signal(navigator.onLine !== false);
   /** Offline by the browser's word, or because the last reads came from the device. */
-  protected readonly offline = computed(() => !this.online() || this.lastVisit.shownFrom() !== null);
-  protected readonly updateReady = signal(false);
+  protected readonly offline = computed(
+    () => !this.online() || this.lastVisit.shownFrom() !== null,
+  );
+  protected readonly updateReady = inject(AppUpdates).ready;
 
   constructor() {
     const goOnline = () => this.online.set(true);
@@ -98,15 +105,6 @@ export class ConnectionNotices {
       window.removeEventListener('online', goOnline);
       window.removeEventListener('offline', goOffline);
     });
-    const updates = inject(SwUpdate);
-    if (!updates.isEnabled) return;
-    updates.versionUpdates
-      .pipe(
-        filter((event) => event.type === 'VERSION_READY'),
-        takeUntilDestroyed(),
-      )
-      .subscribe(() => this.updateReady.set(true));
-    updates.unrecoverable.pipe(takeUntilDestroyed()).subscribe(() => this.updateReady.set(true));
   }
 
   private readonly keptFormat = new Intl.DateTimeFormat(undefined, {

@@ -58,7 +58,9 @@ export const lastVisitInterceptor: HttpInterceptorFn = (request, next) => {
     catchError((error: unknown): Observable<HttpEvent<unknown>> => {
       if (!unreachable(error)) return throwError(() => error);
       const recalled = isMe
-        ? lastVisit.lastUser().then((body) => (body === undefined ? undefined : { body, keptAt: 0 }))
+        ? lastVisit
+            .lastUser()
+            .then((body) => (body === undefined ? undefined : { body, keptAt: 0 }))
         : lastVisit.recall(key);
       return from(recalled).pipe(
         mergeMap((kept) =>

@@ -1,0 +1,230 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import type { EnsembleDetail } from '../../shared/api/ensemble';
+import type { Ladder, LadderRequirement } from '../../shared/api/ladder';
+import type { PassOff } from '../../shared/api/pass-off';
+import { findInstrument } from '../../shared/music/index';
+
+let app: TestApp;
+let browser: Browser;
+let director: SignedInClient;
+let ladder: Ladder;
+
+const patient = { timeout: 30_000 };
+
+/** An ensemble, a rung and one of its scales asked of at least ten of the ensemble's students. */
+interface Sheet {
+  ensembleId: number;
+  rung: number;
+  requirement: LadderRequirement;
+  /** Grid rows (active seats in the ensemble's order, one per student) the scale is asked of. */
+  rows: number[];
+  studentIds: number[];
+}
+
+async function sheetWithTenStudents(): Promise<Sheet> {
+  const ensembles = (await director.get('/api/ensembles?limit=100&sort=name:asc')).body.rows as {
+    id: number;
+  }[];
+  for (const ensemble of ensembles) {
+    const detail = (await director.get(`/api/ensembles/${ensemble.id}`)).body as EnsembleDetail;
+    const seen = new Set<number>();
+    const members = detail.members.filter(
+      (member) => member.active && !seen.has(member.studentId) && seen.add(member.studentId),
+    );
+    if (members.length < 11) continue;
+    const families = members.map((member) =>
+      member.instrumentId ? (findInstrument(member.instrumentId)?.family ?? null) : null,
+    );
+    const rung = ladder.rungs[1]!;
+    for (const requirement of rung.requirements) {
+      const rows = families.flatMap((family, index) =>
+        !requirement.families ||
+        (family !== null && (requirement.families as string[]).includes(family))
+          ? [index]
+          : [],
+      );
+      if (rows.length >= 11) {
+        const chosen = rows.slice(0, 10);
+        return {
+          ensembleId: ensemble.id,
+          rung: rung.number,
+          requirement,
+          rows: chosen,
+          studentIds: chosen.map((row) => members[row]!.studentId),
+        };
+      }
+    }
+  }
+  throw new Error('No Heron Point ensemble has ten students asked one rung-2 scale.');
+}
+
+function cell(page: Page, rowIndex: number, colId: string) {
+  return page.locator(`[role=row][row-index="${rowIndex}"] [role=gridcell][col-id="${colId}"]`);
+}
+
+/** Waits until Angular's service worker controls the page (it registers once the app is stable). */
+async function controlledByServiceWorker(page: Page) {
+  await expect
+    .poll(() => page.evaluate(() => navigator.serviceWorker.controller !== null), {
+      timeout: 60_000,
+      interval: 500,
+    })
+    .toBe(true);
+}
+
+async function ensembleTotal(sheet: Sheet): Promise<PassOff[]> {
+  const list = (await director.get(`/api/pass-offs?ensembleId=${sheet.ensembleId}&limit=1000`)).body
+    .rows as PassOff[];
+  return list.filter((passOff) => passOff.requirementCode === sheet.requirement.code);
+}
+
+async function phoneContext(): Promise<BrowserContext> {
+  return browser.newContext({
+    viewport: { width: 390, height: 844 },
+    deviceScaleFactor: 2,
+    isMobile: true,
+    hasTouch: true,
+    locale: 'en-US',
+    timezoneId: 'America/Los_Angeles',
+  });
+}
+
+beforeAll(async () => {
+  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
+  director = await app.signIn(demoEmail('director.hpms'));
+  ladder = (await director.get('/api/ladder')).body as Ladder;
+});
+afterAll(async () => {
+  await browser?.close();
+  await app?.close();
+});
+
+describe('With no network', () => {
+  it('should open the pass-off screen offline after a visit, take ten pass-offs, and record exactly ten when the network returns', async () => {
+    const sheet = await sheetWithTenStudents();
+    const before = await ensembleTotal(sheet);
+    const { context, outside } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('director.hpms'));
+    const sheetUrl = `${app.url}/pass-offs?ensemble=${sheet.ensembleId}&rung=${sheet.rung}`;
+    await page.goto(sheetUrl);
+    await expect.poll(() => cell(page, 0, sheet.requirement.code).count(), patient).toBe(1);
+    await controlledByServiceWorker(page);
+
+    await context.setOffline(true);
+    await page.reload();
+    await expect.poll(() => page.getByTestId('offline-banner').count(), patient).toBe(1);
+    await expect.poll(() => cell(page, 0, sheet.requirement.code).count(), patient).toBe(1);
+    expect(await page.getByTestId('offline-banner').innerText()).toContain(
+      'Pass-offs you enter wait on this device and are sent when the network returns',
+    );
+
+    await cell(page, 0, sheet.requirement.code).click();
+    await page.mouse.move(1, 1);
+    const last = sheet.rows.at(-1)!;
+    for (let row = 0; row <= last; row++) {
+      if (sheet.rows.includes(row)) await page.keyboard.press('n');
+      await page.keyboard.press(row < last ? 'ArrowDown' : 'ArrowUp');
+    }
+    await expect
+      .poll(() => page.getByTestId('queue-banner').innerText(), patient)
+      .toContain('10 entries waiting to be saved');
+    expect(await cell(page, last, sheet.requirement.code).innerText()).toContain('waiting to send');
+    await saveScreenshot(page, 'offline-pass-offs');
+    expect((await ensembleTotal(sheet)).length).toBe(before.length);
+
+    await context.setOffline(false);
+    await expect.poll(() => page.getByTestId('queue-banner').count(), patient).toBe(0);
+    await expect
+      .poll(async () => (await ensembleTotal(sheet)).length, patient)
+      .toBe(before.length + 10);
+    // A moment later nothing more has arrived: each entry was sent exactly once.
+    await page.waitForTimeout(1500);
+    const after = await ensembleTotal(sheet);
+    const created = after.filter((passOff) => !before.some((earlier) => earlier.id === passOff.id));
+    expect(created).toHaveLength(10);
+    expect(new Set(created.map((passOff) => passOff.clientKey)).size).toBe(10);
+    expect(created.map((passOff) => passOff.studentId).sort()).toEqual(
+      [...sheet.studentIds].sort(),
+    );
+    expect(created.every((passOff) => !passOff.passed && passOff.heardByName !== null)).toBe(true);
+    expect(outside).toEqual([]);
+    await context.close();
+  });
+
+  it('should open a student’s own page and practice sheets on a phone offline, and forget them at sign-out', async () => {
+    const context = await phoneContext();
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('student.hpms'));
+    await expect.poll(() => page.getByTestId('progress-rung').count(), patient).toBe(1);
+    const rungText = await page.getByTestId('progress-rung').innerText();
+    const ownPage = page.url();
+    await page.goto(`${app.url}/practice`);
+    await expect.poll(() => page.locator('h1').innerText(), patient).toContain('Practice');
+    await controlledByServiceWorker(page);
+
+    await context.setOffline(true);
+    await page.goto(ownPage);
+    await expect.poll(() => page.getByTestId('offline-banner').count(), patient).toBe(1);
+    await expect.poll(() => page.getByTestId('progress-rung').innerText(), patient).toBe(rungText);
+    await saveScreenshot(page, 'offline-student-page-phone');
+    await page.goto(`${app.url}/practice`);
+    await expect.poll(() => page.locator('h1').innerText(), patient).toContain('Practice');
+    await expect.poll(() => page.locator('tb-staff svg').count(), patient).toBeGreaterThan(0);
+
+    await context.setOffline(false);
+    const kept = () =>
+      page.evaluate(
+        () =>
+          new Promise<number>((resolve) => {
+            const open = indexedDB.open('tuttiboard-last-visit');
+            open.onsuccess = () => {
+              const db = open.result;
+              if (!db.objectStoreNames.contains('answers')) return resolve(0);
+              const count = db.transaction('answers').objectStore('answers').count();
+              count.onsuccess = () => resolve(count.result);
+            };
+          }),
+      );
+    expect(await kept()).toBeGreaterThan(0);
+    await page.getByRole('button', { name: 'Sign out' }).click();
+    await page.waitForURL((url) => !url.pathname.startsWith('/practice'));
+    await page.goto(`${app.url}/signed-out`);
+    expect(await kept()).toBe(0);
+    await context.close();
+  });
+
+  it('should say how many pass-offs are unsent and ask before signing out', async () => {
+    const { context } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('director.qhms'));
+    const me = (await page.evaluate(() =>
+      fetch('/api/me').then((response) => response.json()),
+    )) as {
+      id: number;
+    };
+    await page.evaluate(
+      ({ id }) =>
+        localStorage.setItem(
+          `tuttiboard.pass-off-queue.${id}`,
+          JSON.stringify([{ clientKey: crypto.randomUUID() }, { clientKey: crypto.randomUUID() }]),
+        ),
+      me,
+    );
+    await page.getByRole('button', { name: 'Sign out' }).click();
+    const dialog = page.getByRole('dialog');
+    await expect.poll(() => dialog.count(), patient).toBe(1);
+    expect(await dialog.innerText()).toContain('Sign out with 2 pass-offs not sent?');
+    await saveScreenshot(page, 'sign-out-unsent');
+    await dialog.getByRole('button', { name: 'Cancel' }).click();
+    await expect.poll(() => dialog.count(), patient).toBe(0);
+    expect(page.url()).not.toContain('signed-out');
+    expect(await page.evaluate(() => fetch('/api/me').then((response) => response.status))).toBe(
+      200,
+    );
+    await context.close();
+  });
+});
