@@ -26,12 +26,12 @@ import { LastVisit } from './last-visit';
         <p>
           <strong>You are offline.</strong>
           @if (lastVisit.shownFrom(); as keptAt) {
-            Showing what this device kept on your last visit ({{ keptText(keptAt) }}).
+            Showing your last visit ({{ keptText(keptAt) }}).
           } @else {
-            Pages you opened on your last visit still open.
+            Pages from your last visit still open.
           }
-          Pass-offs you enter wait on this device and are sent when the network returns; other
-          changes wait for the network.
+          New pass-offs wait on this device and are sent when the network returns; other changes
+          need the network.
         </p>
       </div>
     }
@@ -46,9 +46,6 @@ import { LastVisit } from './last-visit';
   styles: `
     :host {
       display: block;
-      position: sticky;
-      top: 0;
-      z-index: 20;
     }
     .notice {
       display: flex;
@@ -97,7 +94,11 @@ export class ConnectionNotices {
   protected readonly updateReady = inject(AppUpdates).ready;
 
   constructor() {
-    const goOnline = () => this.online.set(true);
+    const goOnline = () => {
+      this.online.set(true);
+      // The next read that finds no server notes it again.
+      this.lastVisit.answeredLive();
+    };
     const goOffline = () => this.online.set(false);
     window.addEventListener('online', goOnline);
     window.addEventListener('offline', goOffline);

@@ -1,5 +1,11 @@
 import { Injectable, signal } from '@angular/core';
-import { clear, createStore, del, get, set, type UseStore } from 'idb-keyval';
+import type { UseStore } from 'idb-keyval';
+
+/** idb-keyval and the store, loaded on first use so neither weighs on the first screen. */
+interface Keyval {
+  lib: typeof import('idb-keyval');
+  store: UseStore;
+}
 
 /** A response body kept from an earlier visit, and when it arrived. */
 export interface KeptAnswer {
@@ -23,7 +29,7 @@ const userKey = 'signed-in-user';
  */
 @Injectable({ providedIn: 'root' })
 export class LastVisit {
-  private store: UseStore | null = null;
+  private keyval: Promise<Keyval | null> | null = null;
   private userId: number | null = null;
   /** Settles once the signed-in user is known and another user's answers are cleared. */
   private ready: Promise<void> = Promise.resolve();
@@ -33,12 +39,13 @@ export class LastVisit {
   /** Notes who is signed in; another user's answers are cleared first. */
   signedIn(body: unknown): Promise<void> {
     const id = (body as { id?: unknown } | null)?.id;
-    const store = this.open();
-    if (typeof id !== 'number' || !store) return this.ready;
+    if (typeof id !== 'number') return this.ready;
     this.ready = this.ready.then(async () => {
-      const kept = await get<KeptUser>(userKey, store).catch(() => undefined);
-      if (kept && kept.id !== id) await clear(store).catch(() => undefined);
-      await set(userKey, { id, body } satisfies KeptUser, store).catch(() => undefined);
+      const db = await this.open();
+      if (!db) return;
+      const kept = await db.lib.get<KeptUser>(userKey, db.store).catch(() => undefined);
+      if (kept && kept.id !== id) await db.lib.clear(db.store).catch(() => undefined);
+      await db.lib.set(userKey, { id, body } satisfies KeptUser, db.store).catch(() => undefined);
       this.userId = id;
     });
     return this.ready;
@@ -47,8 +54,10 @@ export class LastVisit {
   /** The user `/api/me` last answered on this device, to open the app without a network. */
   async lastUser(): Promise<unknown> {
     await this.ready;
-    const store = this.open();
-    const kept = store ? await get<KeptUser>(userKey, store).catch(() => undefined) : undefined;
+    const db = await this.open();
+    const kept = db
+      ? await db.lib.get<KeptUser>(userKey, db.store).catch(() => undefined)
+      : undefined;
     if (!kept) return undefined;
     this.userId = kept.id;
     return kept.body;
@@ -57,19 +66,19 @@ export class LastVisit {
   /** Keeps an answer for the signed-in user. */
   async keep(url: string, body: unknown): Promise<void> {
     await this.ready;
-    const store = this.open();
-    if (!store || this.userId === null) return;
-    await set(this.key(url), { body, keptAt: Date.now() } satisfies KeptAnswer, store).catch(
-      () => undefined,
-    );
+    const db = await this.open();
+    if (!db || this.userId === null) return;
+    await db.lib
+      .set(this.key(url), { body, keptAt: Date.now() } satisfies KeptAnswer, db.store)
+      .catch(() => undefined);
   }
 
   /** The answer kept for the signed-in user, if any, and notes that the page shows it. */
   async recall(url: string): Promise<KeptAnswer | undefined> {
     await this.ready;
-    const store = this.open();
-    if (!store || this.userId === null) return undefined;
-    const kept = await get<KeptAnswer>(this.key(url), store).catch(() => undefined);
+    const db = await this.open();
+    if (!db || this.userId === null) return undefined;
+    const kept = await db.lib.get<KeptAnswer>(this.key(url), db.store).catch(() => undefined);
     if (kept) this.shownFrom.update((before) => Math.min(before ?? kept.keptAt, kept.keptAt));
     return kept;
   }
@@ -84,20 +93,22 @@ export class LastVisit {
     await this.ready;
     this.userId = null;
     this.shownFrom.set(null);
-    const store = this.open();
-    if (store) {
-      await del(userKey, store).catch(() => undefined);
-      await clear(store).catch(() => undefined);
-    }
+    const db = await this.open();
+    if (db) await db.lib.clear(db.store).catch(() => undefined);
   }
 
   private key(url: string): string {
     return `${this.userId} ${url}`;
   }
 
-  private open(): UseStore | null {
-    if (typeof indexedDB === 'undefined') return null;
-    this.store ??= createStore('tuttiboard-last-visit', 'answers');
-    return this.store;
+  private open(): Promise<Keyval | null> {
+    this.keyval ??=
+      typeof indexedDB === 'undefined'
+        ? Promise.resolve(null)
+        : import('idb-keyval').then(
+            (lib) => ({ lib, store: lib.createStore('tuttiboard-last-visit', 'answers') }),
+            () => null,
+          );
+    return this.keyval;
   }
 }
