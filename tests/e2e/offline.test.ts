@@ -135,6 +135,8 @@ describe('With no network', () => {
       .poll(() => page.getByTestId('queue-banner').innerText(), patient)
       .toContain('10 entries waiting to be saved');
     expect(await cell(page, last, sheet.requirement.code).innerText()).toContain('waiting to send');
+    // The page scrolls as the focus moves down the grid; the strip sits at its top.
+    await page.evaluate(() => window.scrollTo(0, 0));
     await saveScreenshot(page, 'offline-pass-offs');
     expect((await ensembleTotal(sheet)).length).toBe(before.length);
 
