@@ -7,6 +7,7 @@ import {
   signal,
 } from '@angular/core';
 import { MatIcon } from '@angular/material/icon';
+import { CurrentUser } from '../auth/current-user';
 import { AppUpdates } from './app-updates';
 import { LastVisit } from './last-visit';
 
@@ -30,8 +31,12 @@ import { LastVisit } from './last-visit';
           } @else {
             Pages from your last visit still open.
           }
-          New pass-offs wait on this device and are sent when the network returns; other changes
-          need the network.
+          @if (entersPassOffs()) {
+            New pass-offs wait on this device and are sent when the network returns; other changes
+            need the network.
+          } @else {
+            Changes need the network.
+          }
         </p>
       </div>
     }
@@ -92,6 +97,11 @@ export class ConnectionNotices {
     () => !this.online() || this.lastVisit.shownFrom() !== null,
   );
   protected readonly updateReady = inject(AppUpdates).ready;
+  private readonly currentUser = inject(CurrentUser);
+  /** Whether the user enters pass-offs, the one change that waits on the device. */
+  protected readonly entersPassOffs = computed(() =>
+    this.currentUser.capabilities().has('pass-offs:write'),
+  );
 
   constructor() {
     const goOnline = () => {
