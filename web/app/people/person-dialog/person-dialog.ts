@@ -15,7 +15,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { Subject, catchError, debounceTime, map, of, startWith, switchMap } from 'rxjs';
+import { Subject, catchError, debounceTime, of, startWith, switchMap } from 'rxjs';
 import {
   assignmentProblems,
   needsSchools,
