@@ -1,5 +1,5 @@
 import type { NextFunction, Request, Response } from 'express';
-import type { Capability } from '@shared/api/capabilities';
+import { capabilities, type Capability } from '@shared/api/capabilities';
 import type { Role } from '@shared/api/roles';
 import { forbidden, notFound, unauthenticated } from './errors';
 
@@ -19,39 +19,10 @@ export interface Actor {
 export type { Capability };
 
 const capabilitiesByRole: Record<Role, readonly Capability[]> = {
-  coordinator: [
-    'district:read',
-    'district:settings',
-    'schools:read',
-    'schools:write',
-    'years:write',
-    'roster:read',
-    'roster:write',
-    'imports:run',
-    'ladder:read',
-    'ladder:write',
-    'pass-offs:read',
-    'pass-offs:write',
-    'fleet:read',
-    'fleet:write',
-    'loans:read',
-    'loans:write',
-    'loans:return',
-    'loans:see-waivers',
-    'loans:agreement',
-    'fees:manage',
-    'repairs:write',
-    'counts:run',
-    'reports:read',
-    'reports:send',
-    'outbox:read',
-    'people:manage',
-    'district:backup',
-    'tokens:own',
-    'practice:read',
-    'takes:hear',
-    'takes:retention',
-  ],
+  // The district music coordinator may do everything but what only a student's own account does.
+  coordinator: capabilities.filter(
+    (capability) => capability !== 'self:read' && capability !== 'takes:own',
+  ),
   director: [
     'schools:read',
     'roster:read',
