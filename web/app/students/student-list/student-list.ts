@@ -13,7 +13,6 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
-import { of } from 'rxjs';
 import { instruments } from '../../../../shared/music/instrument-data';
 import {
   studentSortFields,
