@@ -4,13 +4,38 @@ import tseslint from 'typescript-eslint';
 import angular from 'angular-eslint';
 
 export default tseslint.config(
-  { ignores: ['dist/', 'node_modules/', '.angular/', 'data/', 'server/db/migrations/', 'coverage/', 'tests/output/'] },
+  {
+    ignores: [
+      'dist/',
+      'node_modules/',
+      '.angular/',
+      'data/',
+      'server/db/migrations/',
+      'coverage/',
+      'tests/output/',
+    ],
+  },
   {
     files: ['**/*.ts'],
     extends: [eslint.configs.recommended, ...tseslint.configs.recommended],
     rules: {
-      '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
+      '@typescript-eslint/no-unused-vars': [
+        'error',
+        { argsIgnorePattern: '^_', varsIgnorePattern: '^_' },
+      ],
       '@typescript-eslint/no-non-null-assertion': 'off',
+    },
+  },
+  {
+    // Rules that read types: each file is checked with the tsconfig that compiles it
+    // (tsconfig.app.json, tsconfig.server.json, tsconfig.spec.json, found through tsconfig.json).
+    files: ['**/*.ts'],
+    languageOptions: {
+      parserOptions: { projectService: true, tsconfigRootDir: import.meta.dirname },
+    },
+    rules: {
+      '@typescript-eslint/no-floating-promises': 'error',
+      '@typescript-eslint/no-misused-promises': 'error',
     },
   },
   {
@@ -18,8 +43,14 @@ export default tseslint.config(
     extends: [...angular.configs.tsRecommended],
     processor: angular.processInlineTemplates,
     rules: {
-      '@angular-eslint/component-selector': ['error', { type: 'element', prefix: 'tb', style: 'kebab-case' }],
-      '@angular-eslint/directive-selector': ['error', { type: 'attribute', prefix: 'tb', style: 'camelCase' }],
+      '@angular-eslint/component-selector': [
+        'error',
+        { type: 'element', prefix: 'tb', style: 'kebab-case' },
+      ],
+      '@angular-eslint/directive-selector': [
+        'error',
+        { type: 'attribute', prefix: 'tb', style: 'camelCase' },
+      ],
       '@angular-eslint/prefer-on-push-component-change-detection': 'error',
     },
   },

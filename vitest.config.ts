@@ -1,3 +1,4 @@
+import { fileURLToPath } from 'node:url';
 import { defineConfig } from 'vitest/config';
 
 /**
@@ -5,16 +6,24 @@ import { defineConfig } from 'vitest/config';
  * through playwright-core, so it runs on its own, one file at a time.
  */
 export default defineConfig({
+  // The `@shared/*` path alias of tsconfig.json; each project inherits it (`extends: true`).
+  resolve: { alias: { '@shared': fileURLToPath(new URL('./shared', import.meta.url)) } },
   test: {
     projects: [
       {
+        extends: true,
         test: {
           name: 'unit',
           environment: 'node',
-          include: ['{shared,server,fakes}/**/*.{spec,test}.ts', 'web/**/*.spec.ts'],
+          include: [
+            '{shared,server,fakes}/**/*.{spec,test}.ts',
+            'web/**/*.spec.ts',
+            'scripts/**/*.spec.ts',
+          ],
         },
       },
       {
+        extends: true,
         test: {
           name: 'api',
           environment: 'node',
@@ -25,6 +34,7 @@ export default defineConfig({
         },
       },
       {
+        extends: true,
         test: {
           name: 'e2e',
           environment: 'node',

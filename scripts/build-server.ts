@@ -22,6 +22,8 @@ export async function buildServer(): Promise<string> {
   fs.rmSync(outdir, { recursive: true, force: true });
   await build({
     absWorkingDir: projectRoot,
+    // Its `paths` resolve the `@shared/*` alias.
+    tsconfig: 'tsconfig.server.json',
     entryPoints: [{ in: 'server/serve.ts', out: 'main' }],
     outdir,
     outExtension: { '.js': '.mjs' },

@@ -23,7 +23,7 @@ if (!fs.existsSync(chromiumPath)) {
   process.exit(1);
 }
 
-run('Type check', 'npx', ['tsc', '-p', 'tsconfig.server.json', '--noEmit']);
+run('Type check', 'npm', ['run', 'typecheck']);
 run('Unit and API tests', 'npx', ['vitest', 'run', '--project', 'unit', '--project', 'api']);
 process.stdout.write('\n=== Production build\n');
 buildWebIfMissing(true);

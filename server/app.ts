@@ -26,7 +26,12 @@ import { ensemblesRoutes } from './ensembles/ensembles-routes';
 import { enrollmentsRoutes } from './enrollments/enrollments-routes';
 import { gridPreferencesRoutes } from './grid-preferences/grid-preferences-routes';
 import { localCommandRoutes } from './cli/local-command-routes';
-import { fleetRoutes, agreementPages } from './instruments/fleet-routes';
+import { instrumentsRoutes } from './instruments/instruments-routes';
+import { loansRoutes } from './loans/loans-routes';
+import { agreementPages } from './loans/agreement-pages';
+import { repairsRoutes } from './repairs/repairs-routes';
+import { countsRoutes } from './counts/counts-routes';
+import { planningRoutes } from './planning/planning-routes';
 import { oneRosterRoutes } from './oneroster/oneroster-routes';
 import { importsRoutes } from './imports/imports-routes';
 import { ladderRoutes } from './ladder/ladder-routes';
@@ -75,7 +80,11 @@ export const featureRoutes: ((services: Services) => Router)[] = [
   takesRoutes,
   analyticsRoutes,
   feesRoutes,
-  ...fleetRoutes,
+  instrumentsRoutes,
+  loansRoutes,
+  repairsRoutes,
+  countsRoutes,
+  planningRoutes,
   backupRoutes,
 ];
 

@@ -1,4 +1,4 @@
-import { escapeHtml } from '../html-escape.js';
+import { escapeHtml } from '@shared/html/escape-html';
 import type { CaughtMessage } from './caught-message.js';
 
 /** The views of one message the message page has tabs for. */

@@ -1,6 +1,6 @@
 import express, { type NextFunction, type Request, type Response, type Router } from 'express';
 import type { Provider } from 'oidc-provider';
-import { escapeHtml } from '../html-escape.js';
+import { escapeHtml } from '@shared/html/escape-html';
 import { findAccountByEmail, type FakeAccount } from './demo-accounts.js';
 import { pageContentSecurityPolicy, renderPage } from './page-layout.js';
 import { renderSignInPage } from './sign-in-page.js';

@@ -1,4 +1,4 @@
-import { escapeHtml } from '../html-escape.js';
+import { escapeHtml } from '@shared/html/escape-html';
 
 /**
  * The Content-Security-Policy of every page the identity provider renders: no scripts, no

@@ -1,5 +1,5 @@
 import type { KoaContextWithOIDC } from 'oidc-provider';
-import { escapeHtml } from '../html-escape.js';
+import { escapeHtml } from '@shared/html/escape-html';
 import { pageContentSecurityPolicy, renderPage } from './page-layout.js';
 
 function respondWithPage(ctx: KoaContextWithOIDC, title: string, content: string): void {

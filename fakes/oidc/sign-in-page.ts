@@ -1,4 +1,4 @@
-import { escapeHtml } from '../html-escape.js';
+import { escapeHtml } from '@shared/html/escape-html';
 import type { FakeAccount } from './demo-accounts.js';
 import { renderPage } from './page-layout.js';
 

@@ -1,4 +1,4 @@
-import { escapeHtml } from '../html-escape.js';
+import { escapeHtml } from '@shared/html/escape-html';
 import type { CheckoutSession } from './payment-objects.js';
 
 const style = `

@@ -34,7 +34,9 @@ export function publicOrigin(config: Config, request: Request): string {
 
 /** Only same-site paths are followed after sign-in, never another host. */
 function safeReturnPath(value: unknown): string {
-  return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//') ? value : '/';
+  return typeof value === 'string' && value.startsWith('/') && !value.startsWith('//')
+    ? value
+    : '/';
 }
 
 /**
@@ -49,10 +51,14 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
   authenticator.serializeUser((user, done) => done(null, user));
   authenticator.deserializeUser((user: SessionUser, done) => done(null, user));
 
-  const verify: VerifyFunctionWithRequest = async (_request, tokens, verified) => {
+  const verifyTokens = async (
+    tokens: Parameters<VerifyFunctionWithRequest>[1],
+    verified: Parameters<VerifyFunctionWithRequest>[2],
+  ): Promise<void> => {
     const configuration = await discovered!;
     const claims = tokens.claims();
-    if (!claims) return verified(null, false, { message: 'The sign-in answer carried no identity.' });
+    if (!claims)
+      return verified(null, false, { message: 'The sign-in answer carried no identity.' });
     const info = await client.fetchUserInfo(configuration, tokens.access_token, claims.sub);
     const email = typeof info.email === 'string' ? info.email : '';
     const user = email ? await findUserByEmail(db, email) : undefined;
@@ -65,6 +71,10 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
     await recordAudit(db, null, { action: 'sign-in', entity: 'user', entityId: user.id });
     const sessionUser: SessionUser = { userId: user.id, idToken: tokens.id_token };
     verified(null, sessionUser);
+  };
+  // The strategy reads verify's callback, not a promise: a failure goes to the callback too.
+  const verify: VerifyFunctionWithRequest = (_request, tokens, verified) => {
+    verifyTokens(tokens, verified).catch((error: unknown) => verified(error));
   };
 
   function discover(): Promise<client.Configuration> {
@@ -148,18 +158,18 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
           if (error) logger.warn({ err: error }, 'sign-in failed');
           void brand().then((district) =>
             response
-            .status(error ? 502 : 403)
-            .type('html')
-            .send(
-              plainPage({
-                brand: district,
-                title: 'You are not signed in',
-                message:
-                  info?.message ??
-                  'The sign-in could not be completed. Start again from the sign-in page.',
-                action: { href: '/auth/sign-in', label: 'Sign in again' },
-              }),
-            ),
+              .status(error ? 502 : 403)
+              .type('html')
+              .send(
+                plainPage({
+                  brand: district,
+                  title: 'You are not signed in',
+                  message:
+                    info?.message ??
+                    'The sign-in could not be completed. Start again from the sign-in page.',
+                  action: { href: '/auth/sign-in', label: 'Sign in again' },
+                }),
+              ),
           );
           return;
         }

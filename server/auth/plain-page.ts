@@ -1,15 +1,4 @@
-const escapes: Record<string, string> = {
-  '&': '&amp;',
-  '<': '&lt;',
-  '>': '&gt;',
-  '"': '&quot;',
-  "'": '&#39;',
-};
-
-/** Escapes text for HTML. */
-export function escapeHtml(text: string): string {
-  return text.replace(/[&<>"']/g, (character) => escapes[character]!);
-}
+import { escapeHtml } from '@shared/html/escape-html';
 
 /**
  * A small server-rendered page for the moments the app itself cannot load: sign-in failures

@@ -30,14 +30,20 @@ export class DatabaseSessionStore extends session.Store {
       .insert(sessions)
       .values({ sid, data, expiresAt })
       .onConflictDoUpdate({ target: sessions.sid, set: { data, expiresAt } })
-      .then(() => callback?.(), callback);
+      .then(
+        () => callback?.(),
+        (error: unknown) => callback?.(error),
+      );
   }
 
   override destroy(sid: string, callback?: (error?: unknown) => void) {
     this.db
       .delete(sessions)
       .where(eq(sessions.sid, sid))
-      .then(() => callback?.(), callback);
+      .then(
+        () => callback?.(),
+        (error: unknown) => callback?.(error),
+      );
   }
 
   override touch(sid: string, data: session.SessionData, callback?: () => void) {

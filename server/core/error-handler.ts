@@ -1,11 +1,9 @@
+import type { ErrorBody } from '@shared/api/error-body';
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import type { Logger } from '../logger';
 import { HttpError } from './errors';
 
-/** The JSON every failed API call answers with. */
-export interface ErrorBody {
-  error: { status: number; code: string; message: string; fieldErrors: { field: string; message: string }[] };
-}
+export type { ErrorBody };
 
 /** 404 for API paths no router answered. */
 export const unknownApiRoute: RequestHandler = (request, _response, next) => {

@@ -1,8 +1,6 @@
-/** A field and what is wrong with it, as a form shows it. */
-export interface FieldError {
-  field: string;
-  message: string;
-}
+import type { FieldError } from '@shared/api/error-body';
+
+export type { FieldError };
 
 /** An error that answers with its own HTTP status and the stable JSON error shape. */
 export class HttpError extends Error {

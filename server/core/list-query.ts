@@ -1,6 +1,6 @@
 import { asc, desc, type AnyColumn, type SQL } from 'drizzle-orm';
 import type { z } from 'zod';
-import { listQuerySchema, type ListQuery } from '../../shared/api/list';
+import { listQuerySchema, type ListQuery } from '@shared/api/list';
 import { badRequest } from './errors';
 import { parseInput } from './validate';
 

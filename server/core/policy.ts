@@ -1,5 +1,6 @@
 import type { NextFunction, Request, Response } from 'express';
-import type { Role } from '../../shared/api/roles';
+import { capabilities, type Capability } from '@shared/api/capabilities';
+import type { Role } from '@shared/api/roles';
 import { forbidden, notFound, unauthenticated } from './errors';
 
 /** The signed-in user a request acts as. */
@@ -15,76 +16,13 @@ export interface Actor {
   via: 'session' | 'token';
 }
 
-/** Things a role may do. Each route asks for one; nothing else decides. */
-export type Capability =
-  | 'district:read'
-  | 'district:settings'
-  | 'schools:read'
-  | 'schools:write'
-  | 'years:write'
-  | 'roster:read'
-  | 'roster:write'
-  | 'imports:run'
-  | 'ladder:read'
-  | 'ladder:write'
-  | 'pass-offs:read'
-  | 'pass-offs:write'
-  | 'fleet:read'
-  | 'fleet:write'
-  | 'loans:read'
-  | 'loans:write'
-  | 'loans:return'
-  | 'loans:see-waivers'
-  | 'loans:agreement'
-  | 'fees:manage'
-  | 'repairs:write'
-  | 'counts:run'
-  | 'reports:read'
-  | 'reports:send'
-  | 'outbox:read'
-  | 'people:manage'
-  | 'district:backup'
-  | 'tokens:own'
-  | 'practice:read'
-  | 'self:read'
-  | 'takes:own'
-  | 'takes:hear'
-  | 'takes:retention';
+export type { Capability };
 
 const capabilitiesByRole: Record<Role, readonly Capability[]> = {
-  coordinator: [
-    'district:read',
-    'district:settings',
-    'schools:read',
-    'schools:write',
-    'years:write',
-    'roster:read',
-    'roster:write',
-    'imports:run',
-    'ladder:read',
-    'ladder:write',
-    'pass-offs:read',
-    'pass-offs:write',
-    'fleet:read',
-    'fleet:write',
-    'loans:read',
-    'loans:write',
-    'loans:return',
-    'loans:see-waivers',
-    'loans:agreement',
-    'fees:manage',
-    'repairs:write',
-    'counts:run',
-    'reports:read',
-    'reports:send',
-    'outbox:read',
-    'people:manage',
-    'district:backup',
-    'tokens:own',
-    'practice:read',
-    'takes:hear',
-    'takes:retention',
-  ],
+  // The district music coordinator may do everything but what only a student's own account does.
+  coordinator: capabilities.filter(
+    (capability) => capability !== 'self:read' && capability !== 'takes:own',
+  ),
   director: [
     'schools:read',
     'roster:read',

@@ -1,11 +1,12 @@
 import { rateLimit, type RateLimitRequestHandler } from 'express-rate-limit';
 import { createHash } from 'node:crypto';
 import type { Request, RequestHandler } from 'express';
+import type { ErrorBody } from '@shared/api/error-body';
 import { HttpError } from './errors';
 
 const windowMs = 60_000;
 
-function tooMany(message: string) {
+function tooMany(message: string): ErrorBody {
   return { error: { status: 429, code: 'too_many_requests', message, fieldErrors: [] } };
 }
 

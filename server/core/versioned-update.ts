@@ -1,7 +1,9 @@
-import { and, eq, sql, type InferSelectModel } from 'drizzle-orm';
+import { and, eq, sql, type InferInsertModel, type InferSelectModel } from 'drizzle-orm';
 import type { PgTable, PgColumn } from 'drizzle-orm/pg-core';
 import type { Database, Transaction } from '../db/client';
+import { recordAudit } from './audit';
 import { conflict, notFound } from './errors';
+import type { Actor } from './policy';
 
 type VersionedTable = PgTable & { id: PgColumn; version: PgColumn; updatedAt: PgColumn };
 
@@ -24,7 +26,36 @@ export async function updateVersioned<Table extends VersionedTable>(
     .where(and(eq(table.id, id), eq(table.version, expectedVersion)))
     .returning()) as InferSelectModel<Table>[];
   if (updated[0]) return updated[0];
-  const existing = await db.select({ id: table.id }).from(table as PgTable).where(eq(table.id, id));
+  const existing = await db
+    .select({ id: table.id })
+    .from(table as PgTable)
+    .where(eq(table.id, id));
   if (existing.length === 0) throw notFound(what);
   throw conflict();
+}
+
+/**
+ * Inserts one row and records its creation in the audit log, in the caller's transaction:
+ * the one way a service adds a row with history. The log keeps the row as stored, or what
+ * `audited` makes of it (a row with a bulky or derived column leaves it out). Answers the row.
+ */
+export async function insertAudited<Table extends PgTable & { id: PgColumn }>(
+  db: Database | Transaction,
+  actor: Actor | null,
+  table: Table,
+  values: InferInsertModel<Table>,
+  entity: string,
+  audited: (row: InferSelectModel<Table>) => unknown = (row) => row,
+): Promise<InferSelectModel<Table>> {
+  const [row] = (await db
+    .insert(table)
+    .values(values as never)
+    .returning()) as (InferSelectModel<Table> & { id: number })[];
+  await recordAudit(db, actor, {
+    action: 'create',
+    entity,
+    entityId: row!.id,
+    after: audited(row!),
+  });
+  return row!;
 }

@@ -12,6 +12,7 @@ import {
 import { assertInScope, schoolScope, type Actor } from '../core/policy';
 import { orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
+import { insertAudited } from '../core/versioned-update';
 import { notFound } from '../core/errors';
 import { recordInstrumentEvents } from '../instruments/instrument-events';
 import { setInstrumentStatus, stateConflict } from '../instruments/instruments-service';
@@ -120,14 +121,14 @@ export async function startCount(
       `A count is already open at this school (count ${open.id}); finish it first.`,
     );
   const id = await db.transaction(async (tx) => {
-    const [row] = await tx.insert(counts).values({ schoolId, startedBy: actor.userId }).returning();
-    await recordAudit(tx, actor, {
-      action: 'create',
-      entity: 'count',
-      entityId: row!.id,
-      after: row,
-    });
-    return row!.id;
+    const row = await insertAudited(
+      tx,
+      actor,
+      counts,
+      { schoolId, startedBy: actor.userId },
+      'count',
+    );
+    return row.id;
   });
   return countDetail(db, actor, id);
 }

@@ -1,5 +1,5 @@
 import type { PdfDefinition } from '../instruments/pdf-document';
-import { escapeHtml } from '../auth/plain-page';
+import { escapeHtml } from '@shared/html/escape-html';
 import { logoAspect } from './district-logo';
 import { logoPath, unnamedDistrict, type DistrictIdentity } from './district-queries';
 

@@ -1,6 +1,7 @@
 import { Router, type NextFunction, type Request, type Response } from 'express';
 import { districtPatchSchema } from '../../shared/api/district';
-import { escapeHtml, plainPage } from '../auth/plain-page';
+import { escapeHtml } from '@shared/html/escape-html';
+import { plainPage } from '../auth/plain-page';
 import { actorOf, requires } from '../core/policy';
 import { nothing, parseInput } from '../core/validate';
 import type { Database } from '../db/client';

@@ -5,7 +5,7 @@ import { enrollments, ensembles, schoolYears, schools, students } from '../db/sc
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
-import { updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateVersioned } from '../core/versioned-update';
 import { findVisibleEnsemble } from '../ensembles/ensembles-service';
 import { findVisibleStudent } from '../students/students-service';
 import { enrollmentColumns, toEnrollment } from './enrollment-row';
@@ -74,24 +74,21 @@ export async function createEnrollment(
         [{ field: 'ensembleId', message: `Already seated in ${ensemble.name} this year.` }],
       );
     }
-    const [row] = await tx
-      .insert(enrollments)
-      .values({
+    const row = await insertAudited(
+      tx,
+      actor,
+      enrollments,
+      {
         studentId: student.id,
         ensembleId: ensemble.id,
         schoolYearId: year.id,
         instrumentId: input.instrumentId,
         part: input.part,
         chair: input.chair,
-      })
-      .returning();
-    await recordAudit(tx, actor, {
-      action: 'create',
-      entity: 'enrollment',
-      entityId: row!.id,
-      after: row,
-    });
-    return row!.id;
+      },
+      'enrollment',
+    );
+    return row.id;
   });
   return getEnrollment(db, actor, id);
 }

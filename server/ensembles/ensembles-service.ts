@@ -11,7 +11,7 @@ import { enrollments, ensembles, schools, students, userSchools, users } from '.
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
-import { updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateVersioned } from '../core/versioned-update';
 import { instrumentName, scorePosition } from '../enrollments/instrument-order';
 import { findCurrentSchoolYear } from '../enrollments/school-year';
 import { ensembleColumns, toEnsemble, type EnsembleRecord } from './ensemble-row';
@@ -148,14 +148,8 @@ export async function createEnsemble(
     if (input.directorUserId !== null) {
       await assertDirectorFits(tx, input.schoolId, input.directorUserId);
     }
-    const [row] = await tx.insert(ensembles).values(input).returning();
-    await recordAudit(tx, actor, {
-      action: 'create',
-      entity: 'ensemble',
-      entityId: row!.id,
-      after: row,
-    });
-    return row!.id;
+    const row = await insertAudited(tx, actor, ensembles, input, 'ensemble');
+    return row.id;
   });
   return getEnsemble(db, actor, id);
 }

@@ -6,7 +6,7 @@ import type { Database } from '../db/client';
 import { instrumentPhotos } from '../db/schema/index';
 import type { InstrumentPhoto } from '../../shared/api/instrument';
 import type { Actor } from '../core/policy';
-import { recordAudit } from '../core/audit';
+import { insertAudited } from '../core/versioned-update';
 import { badRequest, notFound } from '../core/errors';
 import { findInstrument } from './instruments-queries';
 
@@ -60,23 +60,20 @@ export async function addPhoto(
   await fs.mkdir(folder, { recursive: true });
   await fs.writeFile(path.join(folder, fileName), bytes, { flag: 'wx' });
   const row = await db.transaction(async (tx) => {
-    const [inserted] = await tx
-      .insert(instrumentPhotos)
-      .values({
+    const inserted = await insertAudited(
+      tx,
+      actor,
+      instrumentPhotos,
+      {
         instrumentId,
         fileName,
         contentType,
         sizeBytes: bytes.length,
         uploadedBy: actor.userId,
-      })
-      .returning();
-    await recordAudit(tx, actor, {
-      action: 'create',
-      entity: 'instrument-photo',
-      entityId: inserted!.id,
-      after: inserted,
-    });
-    return inserted!;
+      },
+      'instrument-photo',
+    );
+    return inserted;
   });
   return {
     id: row.id,

@@ -11,7 +11,7 @@ import type {
 import { assertInScope, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, HttpError, notFound } from '../core/errors';
-import { updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateVersioned } from '../core/versioned-update';
 import { findInstrument } from './instruments-queries';
 import { recordInstrumentEvents } from './instrument-events';
 
@@ -66,20 +66,14 @@ export async function createInstrument(
   await assertSchoolExists(db, actor, input.homeSchoolId);
   await assertAssetTagFree(db, input.assetTag);
   const id = await db.transaction(async (tx) => {
-    const [row] = await tx.insert(instruments).values(input).returning();
+    const row = await insertAudited(tx, actor, instruments, input, 'instrument');
     await recordInstrumentEvents(tx, {
-      instrumentId: row!.id,
+      instrumentId: row.id,
       kind: 'purchase',
       note: input.purchasedOn ? `Bought ${input.purchasedOn}` : 'Added to the fleet',
       userId: actor.userId,
     });
-    await recordAudit(tx, actor, {
-      action: 'create',
-      entity: 'instrument',
-      entityId: row!.id,
-      after: row,
-    });
-    return row!.id;
+    return row.id;
   });
   return findInstrument(db, actor, id);
 }

@@ -18,7 +18,7 @@ import { can, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, conflict, notFound } from '../core/errors';
 import { assertImpactSeen } from './ladder-impact';
-import { updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateVersioned } from '../core/versioned-update';
 import { rebuildAttainment } from './attainment';
 import { refreshStatistics, summaryTables } from '../db/statistics';
 import {
@@ -91,22 +91,20 @@ export async function createDraft(
       ? null
       : await loadLadder(db, sourceId);
   const id = await db.transaction(async (tx) => {
-    const [row] = await tx
-      .insert(ladderVersions)
-      .values({
+    const row = await insertAudited(
+      tx,
+      actor,
+      ladderVersions,
+      {
         name: input.name ?? (source ? `${source.name} (draft)` : 'Scale ladder'),
         status: 'draft',
         createdBy: actor.userId,
-      })
-      .returning();
-    if (source) await writeLadderContent(tx, row!.id, source);
-    await recordAudit(tx, actor, {
-      action: 'create',
-      entity: 'ladder-version',
-      entityId: row!.id,
-      after: { ...row, copiedFrom: input.starter ? 'starter' : sourceId },
-    });
-    return row!.id;
+      },
+      'ladder-version',
+      (stored) => ({ ...stored, copiedFrom: input.starter ? 'starter' : sourceId }),
+    );
+    if (source) await writeLadderContent(tx, row.id, source);
+    return row.id;
   });
   return loadLadder(db, id);
 }

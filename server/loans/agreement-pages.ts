@@ -1,6 +1,6 @@
 import express, { Router, type Response } from 'express';
 import type { Services } from '../services';
-import { escapeHtml } from '../auth/plain-page';
+import { escapeHtml } from '@shared/html/escape-html';
 import { cautionsFor } from '../instruments/instrument-cautions';
 import { openAgreement, signAgreement, type AgreementLookup } from './agreement-signing';
 import { studentNameOf } from './loans-queries';

@@ -1,6 +1,6 @@
 import type { Transaction } from '../db/client';
 import { enqueueMail } from '../mail/outbox';
-import { escapeHtml } from '../auth/plain-page';
+import { escapeHtml } from '@shared/html/escape-html';
 import { cautionsFor, instrumentNameOf } from '../instruments/instrument-cautions';
 import { studentNameOf, type LoanRow } from './loans-queries';
 import { formatCents } from './money';

@@ -1,6 +1,6 @@
 import type { Transaction } from '../db/client';
 import { enqueueMail } from '../mail/outbox';
-import { escapeHtml } from '../auth/plain-page';
+import { escapeHtml } from '@shared/html/escape-html';
 import { instrumentNameOf } from '../instruments/instrument-cautions';
 import { formatCents } from '../loans/money';
 import { studentNameOf, type LoanRow } from '../loans/loans-queries';

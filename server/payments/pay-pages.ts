@@ -1,7 +1,7 @@
 import { Router, type Request, type Response } from 'express';
 import type { Services } from '../services';
 import type { Config } from '../config';
-import { escapeHtml } from '../auth/plain-page';
+import { escapeHtml } from '@shared/html/escape-html';
 import { HttpError } from '../core/errors';
 import { page } from '../loans/agreement-pages';
 import { districtIdentity } from '../district/district-queries';

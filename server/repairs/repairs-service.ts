@@ -12,7 +12,7 @@ import { schoolScope, type Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { notFound } from '../core/errors';
-import { updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateVersioned } from '../core/versioned-update';
 import { findInstrument } from '../instruments/instruments-queries';
 import { recordInstrumentEvents } from '../instruments/instrument-events';
 import { setInstrumentStatus, stateConflict } from '../instruments/instruments-service';
@@ -175,25 +175,22 @@ export async function createRepair(
     throw stateConflict(`${instrument.assetTag} is ${instrument.status}; it cannot go to repair.`);
   }
   const id = await db.transaction(async (tx) => {
-    const [ticket] = await tx
-      .insert(repairTickets)
-      .values({ ...input, inHouse: input.vendor === null, reportedBy: actor.userId })
-      .returning();
+    const ticket = await insertAudited(
+      tx,
+      actor,
+      repairTickets,
+      { ...input, inHouse: input.vendor === null, reportedBy: actor.userId },
+      'repair',
+    );
     await followTickets(tx, input.instrumentId);
     await recordInstrumentEvents(tx, {
       instrumentId: input.instrumentId,
       kind: 'repair-open',
       note: input.problem,
       userId: actor.userId,
-      repairId: ticket!.id,
+      repairId: ticket.id,
     });
-    await recordAudit(tx, actor, {
-      action: 'create',
-      entity: 'repair',
-      entityId: ticket!.id,
-      after: ticket,
-    });
-    return ticket!.id;
+    return ticket.id;
   });
   return findRepair(db, actor, id);
 }

@@ -1,3 +1,5 @@
+import { escapeHtml } from '@shared/html/escape-html';
+
 /**
  * Building blocks of the report e-mail's HTML. Mail clients drop <style> blocks and scripts and
  * lay out CSS boxes unevenly, so everything here is tables with inline styles (common practice
@@ -16,19 +18,6 @@ export const palette = {
 };
 
 const font = "'Public Sans', Arial, Helvetica, sans-serif";
-
-const escapes: Record<string, string> = {
-  '&': '&amp;',
-  '<': '&lt;',
-  '>': '&gt;',
-  '"': '&quot;',
-  "'": '&#39;',
-};
-
-/** Text made safe to place in HTML. */
-export function escapeHtml(text: string | number): string {
-  return String(text).replace(/[&<>"']/g, (character) => escapes[character]!);
-}
 
 /** A section heading. */
 export function heading(text: string): string {

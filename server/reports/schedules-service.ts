@@ -11,7 +11,7 @@ import type { Actor } from '../core/policy';
 import { notFound } from '../core/errors';
 import { parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
-import { updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateVersioned } from '../core/versioned-update';
 import { z } from 'zod';
 import { nextRunAfter } from './schedule-times';
 
@@ -67,17 +67,14 @@ export async function createSchedule(
   const firstRun = nextRunAfter(input.cron, input.timeZone, new Date());
   const nextRunAt = input.active ? firstRun : null;
   return db.transaction(async (tx) => {
-    const [row] = await tx
-      .insert(reportSchedules)
-      .values({ ...input, nextRunAt, createdBy: actor.userId })
-      .returning();
-    await recordAudit(tx, actor, {
-      action: 'create',
-      entity: 'report-schedule',
-      entityId: row!.id,
-      after: row,
-    });
-    return toSchedule(row!);
+    const row = await insertAudited(
+      tx,
+      actor,
+      reportSchedules,
+      { ...input, nextRunAt, createdBy: actor.userId },
+      'report-schedule',
+    );
+    return toSchedule(row);
   });
 }
 

@@ -10,7 +10,7 @@ import type {
 import type { Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
-import { updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateVersioned } from '../core/versioned-update';
 
 type SchoolYearRow = typeof schoolYears.$inferSelect;
 
@@ -75,18 +75,15 @@ export async function createSchoolYear(
   return db.transaction(async (tx) => {
     await assertYearFits(tx, input);
     const [anyYear] = await tx.select({ id: schoolYears.id }).from(schoolYears).limit(1);
-    const [row] = await tx
-      .insert(schoolYears)
-      .values({ ...input, current: anyYear === undefined })
-      .returning();
-    await recordAudit(tx, actor, {
-      action: 'create',
-      entity: 'school-year',
-      entityId: row!.id,
-      after: row,
-    });
+    const row = await insertAudited(
+      tx,
+      actor,
+      schoolYears,
+      { ...input, current: anyYear === undefined },
+      'school-year',
+    );
     const [current] = await tx.select().from(schoolYears).where(eq(schoolYears.current, true));
-    return toSchoolYear(row!, current);
+    return toSchoolYear(row, current);
   });
 }
 

@@ -10,7 +10,7 @@ import { assertInScope, schoolScope, type Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
-import { updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateVersioned } from '../core/versioned-update';
 
 const schoolFilters = z.object({
   level: z.enum(schoolLevels).optional(),
@@ -146,14 +146,8 @@ export async function createSchool(
   await assertCodeFree(db, input.code);
   await assertSendsTo(db, input.sendsToSchoolId);
   const id = await db.transaction(async (tx) => {
-    const [row] = await tx.insert(schools).values(input).returning();
-    await recordAudit(tx, actor, {
-      action: 'create',
-      entity: 'school',
-      entityId: row!.id,
-      after: row,
-    });
-    return row!.id;
+    const row = await insertAudited(tx, actor, schools, input, 'school');
+    return row.id;
   });
   return getSchool(db, actor, id);
 }
@@ -171,7 +165,11 @@ export async function updateSchool(
   await db.transaction(async (tx) => {
     const [before] = await tx.select().from(schools).where(eq(schools.id, id));
     const after = await updateVersioned(tx, schools, id, version, changes, 'That school');
-    if (after.lowestGrade !== null && after.highestGrade !== null && after.lowestGrade > after.highestGrade) {
+    if (
+      after.lowestGrade !== null &&
+      after.highestGrade !== null &&
+      after.lowestGrade > after.highestGrade
+    ) {
       throw badRequest('The lowest grade served is above the highest.', [
         { field: 'highestGrade', message: 'The lowest grade served is above the highest.' },
       ]);
@@ -188,7 +186,11 @@ export async function updateSchool(
 }
 
 /** The school students move up to must exist, be open, and not be the school itself. */
-async function assertSendsTo(db: Database, sendsToSchoolId: number | null | undefined, selfId?: number) {
+async function assertSendsTo(
+  db: Database,
+  sendsToSchoolId: number | null | undefined,
+  selfId?: number,
+) {
   if (sendsToSchoolId === null || sendsToSchoolId === undefined) return;
   const refuse = (message: string) => {
     throw badRequest(message, [{ field: 'sendsToSchoolId', message }]);

@@ -19,7 +19,7 @@ import {
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
-import { updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateVersioned } from '../core/versioned-update';
 import { instrumentName } from '../enrollments/instrument-order';
 import { findCurrentSchoolYear } from '../enrollments/school-year';
 import { seatSummaries } from './student-seats';
@@ -181,17 +181,14 @@ export async function createStudent(
   }
   const id = await db.transaction(async (tx) => {
     await assertStudentNumberFree(tx, input.studentNumber);
-    const [row] = await tx
-      .insert(students)
-      .values({ ...input, status: input.status ?? 'active' })
-      .returning();
-    await recordAudit(tx, actor, {
-      action: 'create',
-      entity: 'student',
-      entityId: row!.id,
-      after: row,
-    });
-    return row!.id;
+    const row = await insertAudited(
+      tx,
+      actor,
+      students,
+      { ...input, status: input.status ?? 'active' },
+      'student',
+    );
+    return row.id;
   });
   return getStudent(db, actor, id);
 }

@@ -9,6 +9,7 @@ import {
 } from '../../shared/api/take';
 import type { RecordingContentType } from '../../shared/api/pass-off';
 import { recordAudit } from '../core/audit';
+import { insertAudited } from '../core/versioned-update';
 import { badRequest, forbidden, notFound } from '../core/errors';
 import type { Actor } from '../core/policy';
 import { readSetting, writeSetting } from '../core/settings';
@@ -144,9 +145,11 @@ async function storeTake(
   const storedName = writeRecordingFile(dataDir, file.buffer);
   try {
     return await db.transaction(async (tx) => {
-      const [row] = await tx
-        .insert(takes)
-        .values({
+      const row = await insertAudited(
+        tx,
+        actor,
+        takes,
+        {
           studentId,
           requirementId: requirement.id,
           tempoAsked: input.tempoAsked,
@@ -157,15 +160,10 @@ async function storeTake(
           ...(heardBy
             ? { status: 'sent' as const, sentAt: new Date(), recordedBy: heardBy.userId }
             : {}),
-        })
-        .returning();
-      await recordAudit(tx, actor, {
-        action: 'create',
-        entity: 'take',
-        entityId: row!.id,
-        before: null,
-        after: { ...row!, analysis: undefined },
-      });
+        },
+        'take',
+        (stored) => ({ ...stored, analysis: undefined }),
+      );
       const [student] = await tx
         .select({ name: takeColumns.studentName })
         .from(students)

@@ -1,4 +1,6 @@
 export * from './roles';
+export * from './capabilities';
+export * from './error-body';
 export * from './list';
 export * from './me';
 export * from './school';

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { capabilities } from './capabilities';
 import { roles } from './roles';
 
 export const roleSchema = z.enum(roles);
@@ -20,6 +21,6 @@ export const meSchema = z.object({
   allSchools: z.boolean(),
   schools: z.array(schoolSummarySchema),
   studentId: z.number().int().nullable(),
-  capabilities: z.array(z.string()),
+  capabilities: z.array(z.enum(capabilities)),
 });
 export type Me = z.infer<typeof meSchema>;

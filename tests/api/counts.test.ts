@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { countDetailSchema } from '../../shared/api/count';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -9,16 +9,10 @@ let viewer: SignedInClient;
 let schoolIds: Record<string, number>;
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, viewer] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('viewer.trhs')),
-  ]);
-  const all = await coordinator.get('/api/schools?limit=100');
-  schoolIds = Object.fromEntries(
-    all.body.rows.map((row: { code: string; id: number }) => [row.code, row.id]),
-  );
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'viewer.trhs'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, 'viewer.trhs': viewer } = started.clients);
+  schoolIds = started.schoolIds;
 });
 afterAll(() => app?.close());
 

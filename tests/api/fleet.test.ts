@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { instrumentDetailSchema, instrumentSchema } from '../../shared/api/instrument';
 import { listResponseSchema } from '../../shared/api/list';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -47,18 +47,18 @@ function importCsv(client: SignedInClient, csv: string, dryRun: boolean) {
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, technician, viewer, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('technician')),
-    app.signIn(demoEmail('viewer.trhs')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
-  const all = await coordinator.get('/api/schools?limit=100');
-  schoolIds = Object.fromEntries(
-    all.body.rows.map((row: { code: string; id: number }) => [row.code, row.id]),
-  );
+  const started = await startTestApp({
+    signIn: ['coordinator', 'director.hpms', 'technician', 'viewer.trhs', 'student.hpms'],
+  });
+  app = started;
+  ({
+    coordinator,
+    'director.hpms': director,
+    technician,
+    'viewer.trhs': viewer,
+    'student.hpms': student,
+  } = started.clients);
+  schoolIds = started.schoolIds;
 });
 afterAll(() => app?.close());
 

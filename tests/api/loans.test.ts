@@ -60,18 +60,18 @@ function checkout(
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, technician, viewer, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('technician')),
-    app.signIn(demoEmail('viewer.trhs')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
-  const all = await coordinator.get('/api/schools?limit=100');
-  schoolIds = Object.fromEntries(
-    all.body.rows.map((row: { code: string; id: number }) => [row.code, row.id]),
-  );
+  const started = await startTestApp({
+    signIn: ['coordinator', 'director.hpms', 'technician', 'viewer.trhs', 'student.hpms'],
+  });
+  app = started;
+  ({
+    coordinator,
+    'director.hpms': director,
+    technician,
+    'viewer.trhs': viewer,
+    'student.hpms': student,
+  } = started.clients);
+  schoolIds = started.schoolIds;
 });
 afterAll(() => app?.close());
 

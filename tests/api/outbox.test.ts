@@ -4,7 +4,7 @@ import { startMailFake, type MailFake } from '../../fakes/mail/index';
 import { outboxMessages } from '../../server/db/schema/index';
 import { drainOutbox, maxAttempts } from '../../server/mail/mail-worker';
 import { enqueueMail, type OutboxMessageInput } from '../../server/mail/outbox';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -50,17 +50,17 @@ async function stateOf(id: number) {
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, viewer, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('viewer.trhs')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
-  const all = await coordinator.get('/api/schools?limit=100');
-  schoolIds = Object.fromEntries(
-    all.body.rows.map((row: { code: string; id: number }) => [row.code, row.id]),
-  );
+  const started = await startTestApp({
+    signIn: ['coordinator', 'director.hpms', 'viewer.trhs', 'student.hpms'],
+  });
+  app = started;
+  ({
+    coordinator,
+    'director.hpms': director,
+    'viewer.trhs': viewer,
+    'student.hpms': student,
+  } = started.clients);
+  schoolIds = started.schoolIds;
 });
 afterAll(async () => {
   // The harness closes the catcher it started; the ones started here close here.

@@ -30,16 +30,10 @@ async function personByEmail(email: string): Promise<PersonRow> {
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, technician] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('technician')),
-  ]);
-  const all = await coordinator.get('/api/schools?limit=100');
-  schoolIds = Object.fromEntries(
-    all.body.rows.map((row: { code: string; id: number }) => [row.code, row.id]),
-  );
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, technician } = started.clients);
+  schoolIds = started.schoolIds;
 });
 afterAll(() => app?.close());
 

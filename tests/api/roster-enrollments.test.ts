@@ -43,18 +43,18 @@ async function activeStudentOf(code: string, offset = 0) {
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, viewer, technician, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('viewer.trhs')),
-    app.signIn(demoEmail('technician')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
-  const schools = await coordinator.get('/api/schools?limit=100');
-  schoolIds = Object.fromEntries(
-    schools.body.rows.map((row: { code: string; id: number }) => [row.code, row.id]),
-  );
+  const started = await startTestApp({
+    signIn: ['coordinator', 'director.hpms', 'viewer.trhs', 'technician', 'student.hpms'],
+  });
+  app = started;
+  ({
+    coordinator,
+    'director.hpms': director,
+    'viewer.trhs': viewer,
+    technician,
+    'student.hpms': student,
+  } = started.clients);
+  schoolIds = started.schoolIds;
   const jazzLab = await director.post('/api/ensembles', {
     schoolId: schoolIds['HPMS'],
     name: 'Jazz Lab',

@@ -1,4 +1,4 @@
-import { frequency, midi, type PatternNote } from '../../shared/music';
+import { frequency, midi, type PatternNote } from '@shared/music';
 
 /** A change planted in a synthesised take at one expected note (by its index). */
 export interface PlantedChange {

@@ -15,6 +15,7 @@ import { CookieJar, startOidcFake, walkSignIn, type OidcFake } from '../../fakes
 import { startMailFake, type MailFake } from '../../fakes/mail/index';
 import { startPaymentsFake, type PaymentsFake } from '../../fakes/payments/index';
 import { startOneRosterFake, type OneRosterFake } from '../../fakes/oneroster/index';
+import { schools } from '../../server/db/schema/index';
 import { openFromTemplate, type TemplateName } from './database-templates';
 
 /** A signed-in browser: its cookies, and requests that carry them with a same-site Origin. */
@@ -49,12 +50,47 @@ export interface TestApp {
   close(): Promise<void>;
 }
 
+/** A test app with the users a test file asked for already signed in. */
+export interface StartedTestApp<Name extends string> extends TestApp {
+  /** The signed-in clients by the local part of the user's demo e-mail (`'director.hpms'`). */
+  clients: Record<Name, SignedInClient>;
+  /** The database's schools: code → id. */
+  schoolIds: Record<string, number>;
+}
+
 export const demoEmail = (local: string) => `${local}@merrowbasin.example`;
 
-/** Starts the whole app for a test file, from the demo district unless told otherwise. */
-export async function startTestApp(
-  options: { template?: TemplateName; serveWeb?: boolean; environment?: NodeJS.ProcessEnv; logger?: Logger; payments?: boolean } = {},
-): Promise<TestApp> {
+/**
+ * Starts the whole app for a test file, from the demo district unless told otherwise, and signs
+ * in the demo users named in `signIn` (each through the identity provider, as a browser would).
+ */
+export async function startTestApp<const Name extends string = never>(
+  options: {
+    template?: TemplateName;
+    serveWeb?: boolean;
+    environment?: NodeJS.ProcessEnv;
+    logger?: Logger;
+    payments?: boolean;
+    signIn?: readonly Name[];
+  } = {},
+): Promise<StartedTestApp<Name>> {
+  const app = await startApp(options);
+  const signedIn = await Promise.all((options.signIn ?? []).map((name) => app.signIn(demoEmail(name))));
+  const schoolRows = await app.database.db.select({ id: schools.id, code: schools.code }).from(schools);
+  return {
+    ...app,
+    clients: Object.fromEntries((options.signIn ?? []).map((name, index) => [name, signedIn[index]!])) as Record<Name, SignedInClient>,
+    schoolIds: Object.fromEntries(schoolRows.map((row) => [row.code, row.id])),
+  };
+}
+
+async function startApp(options: {
+  template?: TemplateName;
+  serveWeb?: boolean;
+  environment?: NodeJS.ProcessEnv;
+  logger?: Logger;
+  payments?: boolean;
+}): Promise<TestApp> {
   const templates = inject('templates');
   const [oidc, mail, payments, oneRoster, database] = await Promise.all([
     startOidcFake({ port: 0 }),

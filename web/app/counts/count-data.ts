@@ -1,4 +1,4 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
+import { HttpClient, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import {
@@ -19,10 +19,11 @@ const countListSchema = listResponseSchema(countSchema);
 export class InventoryCounts {
   private readonly http = inject(HttpClient);
 
-  list(query: Record<string, string | number> = {}): Observable<ListResponse<Count>> {
-    return this.http
-      .get('/api/counts', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(countListSchema));
+  /** The latest counts the caller may see, newest first. */
+  recent(limit: number): HttpResourceRef<ListResponse<Count> | undefined> {
+    return httpResource(() => ({ url: '/api/counts', params: { limit } }), {
+      parse: (body) => countListSchema.parse(body),
+    });
   }
 
   get(id: number): Observable<CountDetail> {

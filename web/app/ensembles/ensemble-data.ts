@@ -1,4 +1,4 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
+import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import {
@@ -23,6 +23,26 @@ export class EnsembleData {
     return this.http
       .get('/api/ensembles', { params: new HttpParams({ fromObject: query }) })
       .pipe(parsedWith(ensembleListSchema));
+  }
+
+  /** The ensembles of the school `schoolId()`, by name; idle while it is undefined. */
+  ofSchool(schoolId: () => number | undefined): HttpResourceRef<ListResponse<Ensemble> | undefined> {
+    return httpResource(
+      () => {
+        const id = schoolId();
+        return id === undefined
+          ? undefined
+          : { url: '/api/ensembles', params: { schoolId: id, sort: 'name:asc', limit: 200 } };
+      },
+      { parse: (body) => ensembleListSchema.parse(body) },
+    );
+  }
+
+  /** The ensemble of `id()`, with its members; idle while `id()` is undefined. */
+  record(id: () => number | undefined): HttpResourceRef<EnsembleDetail | undefined> {
+    return httpResource(() => (id() === undefined ? undefined : `/api/ensembles/${id()}`), {
+      parse: (body) => ensembleDetailSchema.parse(body),
+    });
   }
 
   get(id: number): Observable<EnsembleDetail> {

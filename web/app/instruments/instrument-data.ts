@@ -1,4 +1,4 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
+import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
@@ -30,9 +30,11 @@ export class FleetInstruments {
       .pipe(parsedWith(instrumentListSchema));
   }
 
-  /** One instrument with its timeline, photos, current loan and open repairs. */
-  get(id: number): Observable<InstrumentDetail> {
-    return this.http.get(`/api/instruments/${id}`).pipe(parsedWith(instrumentDetailSchema));
+  /** The instrument of `id()` with its timeline, photos, current loan and open repairs. */
+  record(id: () => number): HttpResourceRef<InstrumentDetail | undefined> {
+    return httpResource(() => `/api/instruments/${id()}`, {
+      parse: (body) => instrumentDetailSchema.parse(body),
+    });
   }
 
   create(input: InstrumentInput): Observable<Instrument> {

@@ -1,4 +1,4 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
+import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
@@ -20,6 +20,14 @@ const loanListSchema = listResponseSchema(loanSchema);
 @Injectable({ providedIn: 'root' })
 export class FleetLoans {
   private readonly http = inject(HttpClient);
+
+  /** The loans the caller may see, newest first: a student's own, staff's within their schools. */
+  recent(limit: number): HttpResourceRef<ListResponse<Loan> | undefined> {
+    return httpResource(
+      () => ({ url: '/api/loans', params: { limit, sort: 'checkedOutOn:desc' } }),
+      { parse: (body) => loanListSchema.parse(body) },
+    );
+  }
 
   list(query: Record<string, string | number>): Observable<ListResponse<Loan>> {
     return this.http

@@ -1,4 +1,4 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
+import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
@@ -18,8 +18,11 @@ export class SchoolData {
       .pipe(parsedWith(schoolListSchema));
   }
 
-  get(id: number): Observable<School> {
-    return this.http.get(`/api/schools/${id}`).pipe(parsedWith(schoolSchema));
+  /** The school of `id()`, read again whenever it changes; idle while `id()` is undefined. */
+  record(id: () => number | undefined): HttpResourceRef<School | undefined> {
+    return httpResource(() => (id() === undefined ? undefined : `/api/schools/${id()}`), {
+      parse: (body) => schoolSchema.parse(body),
+    });
   }
 
   create(input: SchoolInput): Observable<School> {

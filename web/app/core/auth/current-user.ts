@@ -1,7 +1,8 @@
 import { HttpClient, HttpErrorResponse } from '@angular/common/http';
 import { Injectable, computed, inject, signal } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { Me } from '../../../../shared/api/me';
+import type { Capability } from '@shared/api/capabilities';
+import type { Me } from '@shared/api/me';
 
 /** The signed-in user, loaded once from `/api/me` and shared by the whole app. */
 @Injectable({ providedIn: 'root' })
@@ -12,10 +13,10 @@ export class CurrentUser {
 
   /** The user, or null before sign-in. */
   readonly me = this.state.asReadonly();
-  readonly capabilities = computed(() => new Set(this.state()?.capabilities ?? []));
+  readonly capabilities = computed(() => new Set<Capability>(this.state()?.capabilities ?? []));
 
   /** Whether the user's role grants a capability. */
-  can(capability: string): boolean {
+  can(capability: Capability): boolean {
     return this.capabilities().has(capability);
   }
 
@@ -24,7 +25,7 @@ export class CurrentUser {
     // The schema is imported lazily so zod stays out of the initial bundle.
     this.loading ??= Promise.all([
       firstValueFrom(this.http.get('/api/me')),
-      import('../../../../shared/api/me'),
+      import('@shared/api/me'),
     ])
       .then(([body, { meSchema }]) => {
         const me = meSchema.parse(body);

@@ -1,5 +1,6 @@
 import { inject } from '@angular/core';
 import type { CanActivateFn } from '@angular/router';
+import type { Capability } from '@shared/api/capabilities';
 import { CurrentUser } from './current-user';
 
 /** Lets the route open only for a signed-in user; anyone else goes to sign in first. */
@@ -15,6 +16,6 @@ export const signedInGuard: CanActivateFn = async (_route, state) => {
 export const capabilityGuard: CanActivateFn = async (route) => {
   const currentUser = inject(CurrentUser);
   await currentUser.load();
-  const needed = route.data['capability'] as string | undefined;
+  const needed = route.data['capability'] as Capability | undefined;
   return !needed || currentUser.can(needed);
 };

@@ -2,7 +2,7 @@ import { HttpErrorResponse } from '@angular/common/http';
 import type { AbstractControl, FormGroup, ValidationErrors, ValidatorFn } from '@angular/forms';
 import type { WritableSignal } from '@angular/core';
 import type { z } from 'zod';
-import { errorMessage } from '../parse';
+import { errorMessage, fieldErrorsOf } from '../parse';
 
 /**
  * A form control validator from one field of a shared zod schema, so a form shows the same
@@ -38,11 +38,8 @@ export function isConflict(error: unknown): boolean {
  * field error matched a control.
  */
 export function showFieldErrors(form: FormGroup, error: unknown): boolean {
-  const fieldErrors = (
-    error as { error?: { error?: { fieldErrors?: { field: string; message: string }[] } } }
-  )?.error?.error?.fieldErrors;
   let shown = false;
-  for (const fieldError of fieldErrors ?? []) {
+  for (const fieldError of fieldErrorsOf(error)) {
     const control = form.get(fieldError.field);
     if (!control) continue;
     control.setErrors({ ...(control.errors ?? {}), server: fieldError.message });

@@ -1,10 +1,12 @@
+import type { Capability } from '@shared/api/capabilities';
+
 /** One entry of the left navigation rail. */
 export interface NavigationItem {
   path: string;
   label: string;
   icon: string;
   /** The capability the role needs to see the entry (the server enforces it as well). */
-  capability?: string;
+  capability?: Capability;
   /** Roles that see this entry regardless of capability. */
   roles?: string[];
   /** Roles that never see it (a student has their own page instead of the district overview). */

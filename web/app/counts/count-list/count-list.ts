@@ -1,20 +1,14 @@
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
-import { toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
-import { catchError, map, of } from 'rxjs';
-import type { Count } from '../../../../shared/api/count';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { dayText } from '../../instruments/instrument-labels';
-import { SchoolData } from '../../schools/school-data';
+import { injectSchoolChoices } from '../../schools/school-choices';
 import { InventoryCounts } from '../count-data';
-
-type Load =
-  { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready'; counts: Count[] };
 
 /** The annual count: start one for a school, go back to an open one, see past counts. */
 @Component({
@@ -35,28 +29,13 @@ export class CountList {
   private readonly counts = inject(InventoryCounts);
   private readonly router = inject(Router);
 
-  protected readonly schools = toSignal(
-    inject(SchoolData)
-      .list({ limit: 200, sort: 'name:asc' })
-      .pipe(
-        map((list) => list.rows),
-        catchError(() => of([])),
-      ),
-    { initialValue: [] },
-  );
-  protected readonly load = signal<Load>({ kind: 'loading' });
+  protected readonly schools = injectSchoolChoices();
+  protected readonly list = this.counts.recent(50);
   protected readonly schoolId = signal<number | null>(null);
   protected readonly starting = signal(false);
   protected readonly failure = signal('');
   protected readonly day = dayText;
-
-  constructor() {
-    this.counts.list({ limit: 50 }).subscribe({
-      next: (page) => this.load.set({ kind: 'ready', counts: page.rows }),
-      error: (error: unknown) =>
-        this.load.set({ kind: 'error', message: errorMessage(error, 'Try again.') }),
-    });
-  }
+  protected readonly errorMessage = errorMessage;
 
   protected start(): void {
     const schoolId =

@@ -8,7 +8,6 @@ import {
   signal,
   untracked,
 } from '@angular/core';
-import { toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -16,23 +15,20 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
-import { catchError, map, of } from 'rxjs';
 import {
   ensembleInputSchema,
   ensembleKindLabels,
   ensembleKinds,
   type EnsembleDetail as Detail,
   type EnsembleKind,
-} from '../../../../shared/api/ensemble';
+} from '@shared/api/ensemble';
 import { CurrentUser } from '../../core/auth/current-user';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
-import { errorMessage } from '../../core/parse';
-import { PageState } from '../../core/state/page-state';
-import { SchoolData } from '../../schools/school-data';
+import { ConflictNotice } from '../../core/record-page/conflict-notice';
+import { RecordPage } from '../../core/record-page/record-page';
+import { injectSchoolChoices } from '../../schools/school-choices';
 import { EnsembleData } from '../ensemble-data';
-
-type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready' };
 
 /** One ensemble: its details (directors and the coordinator edit them) and its members. */
 @Component({
@@ -45,7 +41,8 @@ type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: '
     MatIconModule,
     MatInputModule,
     MatSelectModule,
-    PageState,
+    RecordPage,
+    ConflictNotice,
   ],
   templateUrl: './ensemble-detail.html',
   styleUrl: './ensemble-detail.scss',
@@ -60,19 +57,15 @@ export class EnsembleDetail {
 
   protected readonly canWrite = inject(CurrentUser).can('roster:write');
   protected readonly creating = computed(() => this.id() === 'new');
-  protected readonly schools = toSignal(
-    inject(SchoolData)
-      .list({ limit: 200, sort: 'name:asc' })
-      .pipe(
-        map((list) => list.rows),
-        catchError(() => of([])),
-      ),
-    { initialValue: [] },
-  );
+  protected readonly schools = injectSchoolChoices();
   protected readonly kinds = ensembleKinds;
   protected readonly kindLabels = ensembleKindLabels;
-  protected readonly load = signal<Load>({ kind: 'loading' });
-  protected readonly ensemble = signal<Detail | null>(null);
+  protected readonly record = this.ensembleData.record(() =>
+    this.creating() ? undefined : Number(this.id()),
+  );
+  protected readonly ensemble = computed(() =>
+    this.record.hasValue() ? this.record.value() : null,
+  );
   protected readonly saving = signal(false);
   protected readonly saved = signal(false);
   protected readonly conflict = signal(false);
@@ -90,14 +83,15 @@ export class EnsembleDetail {
   constructor() {
     // Form methods read the controls' own signals: untracked, so typing never re-runs these.
     effect(() => {
-      const id = this.id();
-      untracked(() => (id === 'new' ? this.load.set({ kind: 'ready' }) : this.fetch(Number(id))));
+      const ensemble = this.ensemble();
+      if (ensemble) untracked(() => this.show(ensemble));
     });
     chooseOnlySchool(this.schools, this.creating, this.form.controls.schoolId);
   }
 
   protected reload(): void {
-    this.fetch(Number(this.id()));
+    this.conflict.set(false);
+    this.record.reload();
   }
 
   protected save(): void {
@@ -119,7 +113,7 @@ export class EnsembleDetail {
           return;
         }
         this.saved.set(true);
-        this.fetch(current.id);
+        this.reload();
       },
       error: (error: unknown) => {
         this.saving.set(false);
@@ -128,28 +122,15 @@ export class EnsembleDetail {
     });
   }
 
-  private fetch(id: number): void {
-    if (!this.ensemble()) this.load.set({ kind: 'loading' });
-    this.conflict.set(false);
-    this.ensembleData.get(id).subscribe({
-      next: (ensemble) => {
-        this.ensemble.set(ensemble);
-        this.form.reset({
-          schoolId: ensemble.schoolId,
-          name: ensemble.name,
-          kind: ensemble.kind,
-          level: ensemble.level,
-          meetingPeriod: ensemble.meetingPeriod,
-        });
-        this.form.controls.schoolId.disable();
-        if (!this.canWrite) this.form.disable();
-        this.load.set({ kind: 'ready' });
-      },
-      error: (error: unknown) =>
-        this.load.set({
-          kind: 'error',
-          message: errorMessage(error, 'The ensemble could not be loaded.'),
-        }),
+  private show(ensemble: Detail): void {
+    this.form.reset({
+      schoolId: ensemble.schoolId,
+      name: ensemble.name,
+      kind: ensemble.kind,
+      level: ensemble.level,
+      meetingPeriod: ensemble.meetingPeriod,
     });
+    this.form.controls.schoolId.disable();
+    if (!this.canWrite) this.form.disable();
   }
 }

@@ -1,12 +1,10 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
-import { catchError, map, of } from 'rxjs';
 import {
   ensembleKindLabels,
   ensembleKinds,
@@ -16,7 +14,7 @@ import {
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
-import { SchoolData } from '../../schools/school-data';
+import { injectSchoolChoices } from '../../schools/school-choices';
 
 /** The ensembles of the user's schools, filtered by school and kind. */
 import type { SchoolYear } from '../../../../shared/api/school-year';
@@ -53,15 +51,7 @@ import { YearPicker } from '../../school-years/year-picker/year-picker';
 export class EnsembleList {
   private readonly router = inject(Router);
   protected readonly canWrite = inject(CurrentUser).can('roster:write');
-  protected readonly schools = toSignal(
-    inject(SchoolData)
-      .list({ limit: 200, sort: 'name:asc' })
-      .pipe(
-        map((list) => list.rows),
-        catchError(() => of([])),
-      ),
-    { initialValue: [] },
-  );
+  protected readonly schools = injectSchoolChoices();
   protected readonly kinds = ensembleKinds;
   protected readonly kindLabels = ensembleKindLabels;
   protected readonly search = signal('');

@@ -1,30 +1,18 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  computed,
-  effect,
-  inject,
-  input,
-  signal,
-  untracked,
-} from '@angular/core';
-import { toSignal } from '@angular/core/rxjs-interop';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import { catchError, map, of } from 'rxjs';
-import type { InstrumentDetail as Detail } from '../../../../shared/api/instrument';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
-import { PageState } from '../../core/state/page-state';
+import { RecordPage } from '../../core/record-page/record-page';
 import { CheckoutDialog } from '../../loans/checkout-dialog/checkout-dialog';
 import { FleetLoans } from '../../loans/loan-data';
 import { ReturnDialog } from '../../loans/return-dialog/return-dialog';
 import { RepairDialog } from '../../repairs/repair-dialog/repair-dialog';
-import { SchoolData } from '../../schools/school-data';
+import { injectSchoolChoices } from '../../schools/school-choices';
 import { FleetInstruments } from '../instrument-data';
 import { InstrumentForm } from '../instrument-form/instrument-form';
 import {
@@ -38,8 +26,6 @@ import {
 import { InstrumentPhotos } from '../instrument-photos/instrument-photos';
 import { InstrumentTimeline } from '../instrument-timeline/instrument-timeline';
 
-type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready' };
-
 /** One instrument: its record, cautions, current loan, open repairs, photos and timeline. */
 @Component({
   selector: 'tb-instrument-detail',
@@ -49,7 +35,7 @@ type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: '
     MatFormFieldModule,
     MatInputModule,
     MatIconModule,
-    PageState,
+    RecordPage,
     InstrumentForm,
     InstrumentPhotos,
     InstrumentTimeline,
@@ -78,17 +64,14 @@ export class InstrumentDetail {
     const skip = Math.min(29, Math.max(0, Math.trunc(this.usedLabels()) || 0));
     return instrument ? this.fleet.labelUrl(instrument.id, skip) : '';
   });
-  protected readonly schools = toSignal(
-    inject(SchoolData)
-      .list({ limit: 200, sort: 'name:asc' })
-      .pipe(
-        map((list) => list.rows.map(({ id, code, name }) => ({ id, code, name }))),
-        catchError(() => of([])),
-      ),
-    { initialValue: [] },
+  private readonly schoolChoices = injectSchoolChoices();
+  protected readonly schools = computed(() =>
+    this.schoolChoices().map(({ id, code, name }) => ({ id, code, name })),
   );
-  protected readonly load = signal<Load>({ kind: 'loading' });
-  protected readonly instrument = signal<Detail | null>(null);
+  protected readonly record = this.fleet.record(() => Number(this.id()));
+  protected readonly instrument = computed(() =>
+    this.record.hasValue() ? this.record.value() : null,
+  );
   protected readonly kindName = computed(() => {
     const instrument = this.instrument();
     return instrument ? instrumentKindName(instrument.instrumentId, instrument.instrumentName) : '';
@@ -104,13 +87,6 @@ export class InstrumentDetail {
   protected readonly cleaning = signal(false);
   protected readonly cleanError = signal('');
   protected readonly cleanedNote = signal(false);
-
-  constructor() {
-    effect(() => {
-      const id = Number(this.id());
-      untracked(() => this.fetch(id));
-    });
-  }
 
   /** Lends the instrument: the loans' own checkout, with this instrument chosen. */
   protected lend(): void {
@@ -166,7 +142,7 @@ export class InstrumentDetail {
   }
 
   protected reload(): void {
-    this.fetch(Number(this.id()));
+    this.record.reload();
   }
 
   protected recordCleaned(): void {
@@ -184,21 +160,6 @@ export class InstrumentDetail {
         this.cleaning.set(false);
         this.cleanError.set(errorMessage(error, 'The cleaning could not be recorded.'));
       },
-    });
-  }
-
-  private fetch(id: number): void {
-    if (!this.instrument()) this.load.set({ kind: 'loading' });
-    this.fleet.get(id).subscribe({
-      next: (instrument) => {
-        this.instrument.set(instrument);
-        this.load.set({ kind: 'ready' });
-      },
-      error: (error: unknown) =>
-        this.load.set({
-          kind: 'error',
-          message: errorMessage(error, 'The instrument could not be loaded.'),
-        }),
     });
   }
 }

@@ -28,6 +28,7 @@ import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/fo
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { FleetInstruments } from '../instrument-data';
 import { centsOf, conditionLabels, familyLabels, statusLooks } from '../instrument-labels';
+import { ConflictNotice } from '../../core/record-page/conflict-notice';
 
 const fields = instrumentInputSchema.shape;
 type ManualStatus = (typeof manualInstrumentStatuses)[number];
@@ -49,6 +50,7 @@ function costValidator(control: AbstractControl) {
     MatIconModule,
     MatInputModule,
     MatSelectModule,
+    ConflictNotice,
   ],
   templateUrl: './instrument-form.html',
   styleUrl: './instrument-form.scss',

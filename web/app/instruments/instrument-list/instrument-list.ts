@@ -6,7 +6,6 @@ import {
   signal,
   viewChild,
 } from '@angular/core';
-import { toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -15,7 +14,6 @@ import { MatMenuModule } from '@angular/material/menu';
 import { MatSelectModule } from '@angular/material/select';
 import { Router } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
-import { catchError, map, of } from 'rxjs';
 import {
   instrumentConditions,
   instrumentSortFields,
@@ -28,7 +26,7 @@ import { instrumentFamilies } from '../../../../shared/music/instrument-data';
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
-import { SchoolData } from '../../schools/school-data';
+import { injectSchoolChoices } from '../../schools/school-choices';
 import { FleetInstruments } from '../instrument-data';
 import { IconTextCell, type IconTextCellParams } from '../icon-text-cell/icon-text-cell';
 import { FleetImportDialog } from '../fleet-import/fleet-import-dialog';
@@ -68,15 +66,7 @@ export class InstrumentList {
   private readonly instruments = inject(FleetInstruments);
 
   protected readonly canWrite = inject(CurrentUser).can('fleet:write');
-  protected readonly schools = toSignal(
-    inject(SchoolData)
-      .list({ limit: 200, sort: 'name:asc' })
-      .pipe(
-        map((list) => list.rows),
-        catchError(() => of([])),
-      ),
-    { initialValue: [] },
-  );
+  protected readonly schools = injectSchoolChoices();
   protected readonly statuses = instrumentStatuses;
   protected readonly statusLooks = statusLooks;
   protected readonly conditions = instrumentConditions;

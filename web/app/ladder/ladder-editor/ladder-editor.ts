@@ -17,7 +17,7 @@ import { Router, RouterLink } from '@angular/router';
 import { firstValueFrom, type Observable } from 'rxjs';
 import type { Ladder, LadderRequirement, LadderRung } from '../../../../shared/api/ladder';
 import { isConflict } from '../../core/forms/record-form';
-import { errorMessage } from '../../core/parse';
+import { errorMessage, fieldErrorsOf } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { BenchmarkEditor } from '../benchmark-editor/benchmark-editor';
 import { ConfirmDialog, type ConfirmDialogData } from '../../core/confirm-dialog/confirm-dialog';
@@ -282,9 +282,7 @@ export class LadderEditor {
         this.conflict.set(true);
         return false;
       }
-      const fieldErrors =
-        (error as { error?: { error?: { fieldErrors?: { field: string; message: string }[] } } })
-          ?.error?.error?.fieldErrors ?? [];
+      const fieldErrors = fieldErrorsOf(error);
       this.errors.set(editorErrors(fieldErrors, model));
       this.problem.set(
         fieldErrors.length

@@ -1,13 +1,9 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import type { Loan } from '../../../../shared/api/loan';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { dayText } from '../../instruments/instrument-labels';
 import { FleetLoans } from '../loan-data';
-
-type Load =
-  { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready'; loans: Loan[] };
 
 /** A student's own loans: what they have out, when it is due, and their cautions. */
 @Component({
@@ -21,55 +17,50 @@ type Load =
           <p>The school instruments lent to you.</p>
         </div>
       </header>
-      @switch (load().kind) {
-        @case ('loading') {
-          <tb-page-state kind="loading" title="Loading your loans…" />
-        }
-        @case ('error') {
+      @if (loans.hasValue()) {
+        @for (loan of loans.value().rows; track loan.id) {
+          <article class="tb-card loan" data-testid="my-loan">
+            <h2>
+              {{ loan.instrumentName }} · <span class="tb-asset-tag">{{ loan.assetTag }}</span>
+            </h2>
+            <p>
+              @if (loan.state === 'active') {
+                Due back {{ day(loan.dueOn) }}
+                @if (loan.overdue) {
+                  <span class="late"
+                    ><mat-icon svgIcon="event_busy" aria-hidden="true" />Overdue: please bring it
+                    back</span
+                  >
+                }
+              } @else if (loan.state === 'returned') {
+                Returned {{ day(loan.returnedOn) }}
+              } @else {
+                Reported lost
+              }
+            </p>
+            @if (loan.accessories.length > 0) {
+              <p class="tb-muted">With: {{ loan.accessories.join(', ') }}</p>
+            }
+            @for (caution of loan.cautions; track $index) {
+              <p class="caution" role="note">{{ caution }}</p>
+            }
+          </article>
+        } @empty {
           <tb-page-state
-            kind="error"
-            title="Your loans could not be loaded"
-            [message]="$any(load()).message"
+            kind="empty"
+            icon="piano"
+            title="No instruments are lent to you"
+            message="Your music director lends school instruments; ask them if you need one."
           />
         }
-        @case ('ready') {
-          @let loans = $any(load()).loans;
-          @for (loan of loans; track loan.id) {
-            <article class="tb-card loan" data-testid="my-loan">
-              <h2>
-                {{ loan.instrumentName }} · <span class="tb-asset-tag">{{ loan.assetTag }}</span>
-              </h2>
-              <p>
-                @if (loan.state === 'active') {
-                  Due back {{ day(loan.dueOn) }}
-                  @if (loan.overdue) {
-                    <span class="late"
-                      ><mat-icon svgIcon="event_busy" aria-hidden="true" />Overdue: please bring it
-                      back</span
-                    >
-                  }
-                } @else if (loan.state === 'returned') {
-                  Returned {{ day(loan.returnedOn) }}
-                } @else {
-                  Reported lost
-                }
-              </p>
-              @if (loan.accessories.length > 0) {
-                <p class="tb-muted">With: {{ loan.accessories.join(', ') }}</p>
-              }
-              @for (caution of loan.cautions; track $index) {
-                <p class="caution" role="note">{{ caution }}</p>
-              }
-            </article>
-          } @empty {
-            <tb-page-state
-              kind="empty"
-              icon="piano"
-              title="No instruments are lent to you"
-              message="Your music director lends school instruments; ask them if you need one."
-            />
-          }
-        }
+      } @else if (loans.error()) {
+        <tb-page-state
+          kind="error"
+          title="Your loans could not be loaded"
+          [message]="errorMessage(loans.error(), 'Try again later.')"
+        />
+      } @else {
+        <tb-page-state kind="loading" title="Loading your loans…" />
       }
     </div>
   `,
@@ -110,17 +101,8 @@ type Load =
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class MyLoans {
-  protected readonly load = signal<Load>({ kind: 'loading' });
+  /** The server answers a student only their own loans. */
+  protected readonly loans = inject(FleetLoans).recent(50);
   protected readonly day = dayText;
-
-  constructor() {
-    // The server answers a student only their own loans.
-    inject(FleetLoans)
-      .list({ limit: 50, sort: 'checkedOutOn:desc' })
-      .subscribe({
-        next: (page) => this.load.set({ kind: 'ready', loans: page.rows }),
-        error: (error: unknown) =>
-          this.load.set({ kind: 'error', message: errorMessage(error, 'Try again later.') }),
-      });
-  }
+  protected readonly errorMessage = errorMessage;
 }

@@ -15,7 +15,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { Subject, catchError, debounceTime, map, of, startWith, switchMap } from 'rxjs';
+import { Subject, catchError, debounceTime, of, startWith, switchMap } from 'rxjs';
 import {
   assignmentProblems,
   needsSchools,
@@ -27,7 +27,7 @@ import { roleLabels, roles, type Role } from '../../../../shared/api/roles';
 import type { Student } from '../../../../shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
-import { SchoolData } from '../../schools/school-data';
+import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
 
 /** What the person dialog edits: a person, or null to add one. */
@@ -72,15 +72,7 @@ export class PersonDialog {
   protected readonly roleLabels = roleLabels;
   protected readonly roleHints = roleHints;
   protected readonly fieldMessage = fieldMessage;
-  protected readonly schools = toSignal(
-    inject(SchoolData)
-      .list({ limit: 500, sort: 'name:asc' })
-      .pipe(
-        map((list) => list.rows),
-        catchError(() => of([])),
-      ),
-    { initialValue: [] },
-  );
+  protected readonly schools = injectSchoolChoices();
 
   protected readonly form = inject(NonNullableFormBuilder).group({
     email: [this.person?.email ?? '', schemaValidator(personInputSchema.shape.email)],

@@ -1,6 +1,6 @@
 import { WhenPipe } from '../../core/format/formats';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { rxResource, toSignal } from '@angular/core/rxjs-interop';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -8,13 +8,12 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { catchError, map, of } from 'rxjs';
 import type { Person } from '../../../../shared/api/person';
 import { roleLabels, roles, type Role } from '../../../../shared/api/roles';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
-import { SchoolData } from '../../schools/school-data';
+import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
 import { PersonDialog, type PersonDialogData } from '../person-dialog/person-dialog';
 
@@ -44,15 +43,7 @@ export class PersonList {
   protected readonly myId = inject(CurrentUser).me()?.id;
   protected readonly roles = roles;
   protected readonly roleLabels = roleLabels;
-  protected readonly schools = toSignal(
-    inject(SchoolData)
-      .list({ limit: 500, sort: 'name:asc' })
-      .pipe(
-        map((list) => list.rows),
-        catchError(() => of([])),
-      ),
-    { initialValue: [] },
-  );
+  protected readonly schools = injectSchoolChoices();
 
   protected readonly search = signal('');
   protected readonly role = signal<Role | ''>('');

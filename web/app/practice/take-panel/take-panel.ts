@@ -11,9 +11,10 @@ import { HttpErrorResponse } from '@angular/common/http';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
-import type { TakeAnalysis } from '../../../../shared/listening';
-import type { PatternNote } from '../../../../shared/music';
-import type { Take } from '../../../../shared/api/take';
+import type { TakeAnalysis } from '@shared/listening';
+import type { PatternNote } from '@shared/music';
+import type { Take } from '@shared/api/take';
+import { apiErrorOf } from '../../core/parse';
 import { SheetPlayback } from '../playback/sheet-playback';
 import { analyseInWorker } from './take-job';
 import { TakeRecorder, type RecordedTake } from './take-recorder';
@@ -137,8 +138,7 @@ export class TakePanel {
     this.saving.set(false);
     const message =
       error instanceof HttpErrorResponse
-        ? ((error.error as { error?: { message?: string } } | null)?.error?.message ??
-          error.message)
+        ? (apiErrorOf(error)?.message ?? error.message)
         : 'The take could not be sent.';
     this.problem.set(message);
   }

@@ -14,7 +14,7 @@ import type {
 } from '../../../../shared/api/report';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
-import { SchoolData } from '../../schools/school-data';
+import { injectSchoolChoices } from '../../schools/school-choices';
 import { addressesIn } from '../send-dialog/send-dialog';
 import { ReportData } from '../report-data';
 import { momentText } from '../report-period';
@@ -41,12 +41,9 @@ type Audience = 'all-directors' | 'school' | 'addresses';
 })
 export class ReportSchedules {
   private readonly reports = inject(ReportData);
-  private readonly schoolData = inject(SchoolData);
 
   protected readonly schedules = rxResource({ stream: () => this.reports.schedules() });
-  protected readonly schools = rxResource({
-    stream: () => this.schoolData.list({ limit: 200, sort: 'name:asc' }),
-  });
+  protected readonly schools = injectSchoolChoices();
   protected readonly days = scheduleDays;
   protected readonly timeZones = scheduleTimeZones;
 
@@ -96,7 +93,7 @@ export class ReportSchedules {
     if (recipients?.length) return recipients.join(', ');
     if (schoolIds === 'all-directors') return 'Every director';
     const names = (schoolIds ?? []).map(
-      (id) => this.schools.value()?.rows.find((school) => school.id === id)?.code ?? `school ${id}`,
+      (id) => this.schools().find((school) => school.id === id)?.code ?? `school ${id}`,
     );
     return `Directors of ${names.join(', ')}`;
   }

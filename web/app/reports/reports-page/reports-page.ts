@@ -1,3 +1,4 @@
+import type { Capability } from '@shared/api/capabilities';
 import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
 import { MatTabsModule } from '@angular/material/tabs';
@@ -48,7 +49,7 @@ export class ReportsPage {
   private readonly currentUser = inject(CurrentUser);
 
   protected readonly tabs = computed(() => {
-    const can = (capability: string) => this.currentUser.capabilities().has(capability);
+    const can = (capability: Capability) => this.currentUser.can(capability);
     return [
       { path: '/reports', label: 'Preview and send', exact: true, shown: true },
       { path: '/reports/schedules', label: 'Schedules', exact: false, shown: can('reports:send') },

@@ -15,23 +15,15 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
-import type { Ensemble } from '../../../../shared/api/ensemble';
-import {
-  gradeLabel,
-  schoolInputSchema,
-  schoolLevels,
-  type School,
-  type SchoolSummaryRow,
-} from '../../../../shared/api/school';
+import { gradeLabel, schoolInputSchema, schoolLevels, type School } from '@shared/api/school';
 import { CurrentUser } from '../../core/auth/current-user';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
-import { errorMessage } from '../../core/parse';
-import { PageState } from '../../core/state/page-state';
+import { ConflictNotice } from '../../core/record-page/conflict-notice';
+import { RecordPage } from '../../core/record-page/record-page';
 import { EnsembleData } from '../../ensembles/ensemble-data';
+import { injectSchoolChoices } from '../school-choices';
 import { SchoolData } from '../school-data';
 import { schoolLevelLabels } from '../school-labels';
-
-type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready' };
 
 /** One school: its details (the coordinator edits them), its ensembles and a way to its students. */
 @Component({
@@ -44,7 +36,8 @@ type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: '
     MatIconModule,
     MatInputModule,
     MatSelectModule,
-    PageState,
+    RecordPage,
+    ConflictNotice,
   ],
   templateUrl: './school-detail.html',
   styleUrl: './school-detail.scss',
@@ -52,7 +45,6 @@ type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: '
 })
 export class SchoolDetail {
   private readonly schoolData = inject(SchoolData);
-  private readonly ensembleData = inject(EnsembleData);
   private readonly router = inject(Router);
 
   /** The route's `:id`, or 'new' for the create page. */
@@ -60,11 +52,19 @@ export class SchoolDetail {
 
   protected readonly canWrite = inject(CurrentUser).can('schools:write');
   protected readonly creating = computed(() => this.id() === 'new');
+  private readonly schoolId = computed(() => (this.creating() ? undefined : Number(this.id())));
   protected readonly levels = schoolLevels;
   protected readonly levelLabels = schoolLevelLabels;
-  protected readonly load = signal<Load>({ kind: 'loading' });
-  protected readonly school = signal<School | null>(null);
-  protected readonly ensembles = signal<Ensemble[] | null>(null);
+  protected readonly record = this.schoolData.record(this.schoolId);
+  protected readonly school = computed(() => (this.record.hasValue() ? this.record.value() : null));
+  private readonly ensembleList = inject(EnsembleData).ofSchool(this.schoolId);
+  protected readonly ensembles = computed(() =>
+    this.ensembleList.hasValue()
+      ? this.ensembleList.value().rows
+      : this.ensembleList.error()
+        ? []
+        : null,
+  );
   protected readonly saving = signal(false);
   protected readonly saved = signal(false);
   protected readonly conflict = signal(false);
@@ -72,8 +72,13 @@ export class SchoolDetail {
   protected readonly fieldMessage = fieldMessage;
   protected readonly grades = Array.from({ length: 13 }, (_, grade) => grade);
   protected readonly gradeLabel = gradeLabel;
+  private readonly openSchools = injectSchoolChoices({ openOnly: true });
   /** The open schools students may move up to (the school itself left out). */
-  protected readonly otherSchools = signal<SchoolSummaryRow[]>([]);
+  protected readonly otherSchools = computed(() =>
+    this.openSchools()
+      .filter((school) => school.id !== this.schoolId())
+      .map(({ id, code, name }) => ({ id, code, name })),
+  );
   protected readonly closingOn = signal(new Date().toISOString().slice(0, 10));
 
   protected readonly form = inject(NonNullableFormBuilder).group({
@@ -88,21 +93,8 @@ export class SchoolDetail {
 
   constructor() {
     effect(() => {
-      const id = this.id();
-      untracked(() => (id === 'new' ? this.load.set({ kind: 'ready' }) : this.fetch(Number(id))));
-      untracked(() => this.fetchOtherSchools(id === 'new' ? null : Number(id)));
-    });
-  }
-
-  private fetchOtherSchools(selfId: number | null): void {
-    this.schoolData.list({ status: 'open', sort: 'name:asc', limit: 500 }).subscribe({
-      next: (list) =>
-        this.otherSchools.set(
-          list.rows
-            .filter((school) => school.id !== selfId)
-            .map(({ id, code, name }) => ({ id, code, name })),
-        ),
-      error: () => this.otherSchools.set([]),
+      const school = this.school();
+      if (school) untracked(() => this.show(school));
     });
   }
 
@@ -115,7 +107,7 @@ export class SchoolDetail {
     this.schoolData.update(current.id, { closedOn, version: current.version }).subscribe({
       next: (school) => {
         this.saving.set(false);
-        this.show(school);
+        this.record.set(school);
       },
       error: (error: unknown) => {
         this.saving.set(false);
@@ -125,7 +117,9 @@ export class SchoolDetail {
   }
 
   protected reload(): void {
-    this.fetch(Number(this.id()));
+    this.conflict.set(false);
+    this.record.reload();
+    this.ensembleList.reload();
   }
 
   protected save(): void {
@@ -151,7 +145,7 @@ export class SchoolDetail {
           void this.router.navigate(['/schools', school.id]);
           return;
         }
-        this.show(school);
+        this.record.set(school);
         this.saved.set(true);
       },
       error: (error: unknown) => {
@@ -161,28 +155,7 @@ export class SchoolDetail {
     });
   }
 
-  private fetch(id: number): void {
-    this.load.set({ kind: 'loading' });
-    this.conflict.set(false);
-    this.schoolData.get(id).subscribe({
-      next: (school) => {
-        this.show(school);
-        this.load.set({ kind: 'ready' });
-      },
-      error: (error: unknown) =>
-        this.load.set({
-          kind: 'error',
-          message: errorMessage(error, 'The school could not be loaded.'),
-        }),
-    });
-    this.ensembleData.list({ schoolId: id, sort: 'name:asc', limit: 200 }).subscribe({
-      next: (list) => this.ensembles.set(list.rows),
-      error: () => this.ensembles.set([]),
-    });
-  }
-
   private show(school: School): void {
-    this.school.set(school);
     this.form.reset({
       code: school.code,
       name: school.name,

@@ -1,4 +1,4 @@
-import { HttpClient } from '@angular/common/http';
+import { HttpClient, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import {
@@ -9,7 +9,7 @@ import {
   type StudentInput,
   type StudentMove,
   type StudentPatch,
-} from '../../../../shared/api/student';
+} from '@shared/api/student';
 import { parsedWith } from '../../core/parse';
 
 /** Reads and writes student records through `/api/students`. */
@@ -17,9 +17,11 @@ import { parsedWith } from '../../core/parse';
 export class StudentData {
   private readonly http = inject(HttpClient);
 
-  /** The record with its school, current seats and school moves. */
-  get(id: number): Observable<StudentDetail> {
-    return this.http.get(`/api/students/${id}`).pipe(parsedWith(studentDetailSchema));
+  /** The record of `id()` with its school, seats and moves; idle while `id()` is undefined. */
+  record(id: () => number | undefined): HttpResourceRef<StudentDetail | undefined> {
+    return httpResource(() => (id() === undefined ? undefined : `/api/students/${id()}`), {
+      parse: (body) => studentDetailSchema.parse(body),
+    });
   }
 
   create(input: StudentInput): Observable<Student> {

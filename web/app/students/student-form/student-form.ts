@@ -27,6 +27,7 @@ import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/fo
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { StudentData } from '../student-detail/student-data';
 import { gradeChoices, statusLabels } from './student-choices';
+import { ConflictNotice } from '../../core/record-page/conflict-notice';
 
 const fields = studentInputSchema.shape;
 
@@ -40,6 +41,7 @@ const fields = studentInputSchema.shape;
     MatIconModule,
     MatInputModule,
     MatSelectModule,
+    ConflictNotice,
   ],
   templateUrl: './student-form.html',
   styleUrl: './student-form.scss',

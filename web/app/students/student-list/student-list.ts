@@ -7,14 +7,12 @@ import {
   linkedSignal,
   signal,
 } from '@angular/core';
-import { toSignal } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
-import { catchError, map, of } from 'rxjs';
 import { instruments } from '../../../../shared/music/instrument-data';
 import {
   studentSortFields,
@@ -24,7 +22,7 @@ import {
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
-import { SchoolData } from '../../schools/school-data';
+import { injectSchoolChoices } from '../../schools/school-choices';
 import type { SchoolYear } from '../../../../shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 import { gradeChoices, statusLabels } from '../student-form/student-choices';
@@ -68,15 +66,7 @@ export class StudentList {
   readonly schoolId = input<string | undefined>(undefined);
 
   protected readonly canWrite = inject(CurrentUser).can('roster:write');
-  protected readonly schools = toSignal(
-    inject(SchoolData)
-      .list({ limit: 200, sort: 'name:asc' })
-      .pipe(
-        map((list) => list.rows),
-        catchError(() => of([])),
-      ),
-    { initialValue: [] },
-  );
+  protected readonly schools = injectSchoolChoices();
   /** A past year chosen in the year picker (its students, read-only), or null for now. */
   protected readonly pastYear = signal<SchoolYear | null>(null);
   protected readonly pastYearName = computed(() => this.pastYear()?.name ?? null);

@@ -1,0 +1,61 @@
+import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
+import type { Resource } from '@angular/core';
+import { MatButtonModule } from '@angular/material/button';
+import { MatIconModule } from '@angular/material/icon';
+import { RouterLink } from '@angular/router';
+import { errorMessage } from '../parse';
+import { PageState } from '../state/page-state';
+
+/**
+ * A record's own page (a school, an ensemble, a student, an instrument…): the link back to its
+ * list, then the record's loading or error state, or the page's own content projected into it
+ * once the record is there. A new record's page passes no `record` and shows its content at once.
+ */
+@Component({
+  selector: 'tb-record-page',
+  imports: [RouterLink, MatButtonModule, MatIconModule, PageState],
+  template: `
+    <div class="tb-page">
+      <a class="back" [routerLink]="backLink()"
+        ><mat-icon svgIcon="arrow_back" aria-hidden="true" />{{ backLabel() }}</a
+      >
+      @switch (state()) {
+        @case ('loading') {
+          <tb-page-state kind="loading" [title]="'Loading the ' + noun() + '…'" />
+        }
+        @case ('error') {
+          <tb-page-state
+            kind="error"
+            [title]="'The ' + noun() + ' could not be opened'"
+            [message]="message()"
+          >
+            <a mat-stroked-button [routerLink]="backLink()">Back to {{ backLabel().toLowerCase() }}</a>
+          </tb-page-state>
+        }
+        @case ('ready') {
+          <ng-content />
+        }
+      }
+    </div>
+  `,
+  styleUrl: './record-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class RecordPage {
+  /** The list the back link returns to, and its name on screen ("Schools"). */
+  readonly backLink = input.required<string>();
+  readonly backLabel = input.required<string>();
+  /** What the record is called in the loading and error states ("school"). */
+  readonly noun = input.required<string>();
+  /** The record's resource; none for a record not made yet. */
+  readonly record = input<Resource<unknown> | null>(null);
+
+  protected readonly state = computed(() => {
+    const record = this.record();
+    if (!record || record.hasValue()) return 'ready';
+    return record.error() ? 'error' : 'loading';
+  });
+  protected readonly message = computed(() =>
+    errorMessage(this.record()?.error(), `The ${this.noun()} could not be loaded.`),
+  );
+}

@@ -1,0 +1,22 @@
+import { httpResource } from '@angular/common/http';
+import { computed, type Signal } from '@angular/core';
+import { listResponseSchema } from '@shared/api/list';
+import { schoolSchema, type School } from '@shared/api/school';
+
+const schoolListSchema = listResponseSchema(schoolSchema);
+
+/**
+ * The schools the signed-in user may pick from, by name: what every school filter and school
+ * field offers. Empty while they load, and when they cannot be read (the page still works with
+ * its other data). Call it in an injection context (a field initialiser).
+ */
+export function injectSchoolChoices(options: { openOnly?: boolean } = {}): Signal<School[]> {
+  const schools = httpResource(
+    () => ({
+      url: '/api/schools',
+      params: { limit: 500, sort: 'name:asc', ...(options.openOnly ? { status: 'open' } : {}) },
+    }),
+    { parse: (body) => schoolListSchema.parse(body) },
+  );
+  return computed(() => (schools.hasValue() ? schools.value().rows : []));
+}
