@@ -139,11 +139,18 @@ describe('Roster import wizard: OneRoster orgs that match no school', () => {
     const code = page.getByTestId('new-school-code');
     // The code is proposed from the org's identifier, without the characters a code cannot have.
     expect(await code.inputValue()).toBe('WFA01');
-    await page.locator('tr[data-org="org-wfa"]').getByRole('button', { name: 'Create the school' }).click();
+    await page
+      .locator('tr[data-org="org-wfa"]')
+      .getByRole('button', { name: 'Create the school' })
+      .click();
     await expect
       .poll(() => page.getByTestId('org-school-org-wfa').innerText())
       .toContain('Wrenfield Academy (WFA01)');
     await expect.poll(() => save.isDisabled()).toBe(false);
+    // The label floats above the chosen school once the outline has opened its notch for it
+    // (Material's float transition is 150 ms); the picture waits for that.
+    await page.locator('tr[data-org="org-wfa"] .mdc-notched-outline--notched').waitFor();
+    await page.waitForTimeout(300);
     await saveScreenshot(page, 'import-org-mapping');
 
     await save.click();

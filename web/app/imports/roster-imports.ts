@@ -112,8 +112,6 @@ export class RosterImports {
 
   /** Remembers the school a coordinator chose for a OneRoster org, for this and later imports. */
   chooseOrgSchool(input: OrgMappingInput): Observable<OrgMapping> {
-    return this.http
-      .put('/api/oneroster/org-mappings', input)
-      .pipe(parsedWith(orgMappingSchema));
+    return this.http.put('/api/oneroster/org-mappings', input).pipe(parsedWith(orgMappingSchema));
   }
 }

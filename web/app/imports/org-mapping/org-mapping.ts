@@ -76,7 +76,12 @@ export class OrgMapping {
   protected startCreating(org: UnmappedOrg) {
     this.creating.set(org.sourcedId);
     this.newName.set(org.name);
-    this.newCode.set(org.identifier.replace(/[^A-Za-z0-9]/g, '').slice(0, 10).toUpperCase());
+    this.newCode.set(
+      org.identifier
+        .replace(/[^A-Za-z0-9]/g, '')
+        .slice(0, 10)
+        .toUpperCase(),
+    );
     this.newLevel.set('other');
     this.problem.set('');
   }
