@@ -17,6 +17,11 @@ import {
   type ImportUndoResult,
 } from '../../../shared/api/import';
 import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import {
+  orgMappingSchema,
+  type OrgMapping,
+  type OrgMappingInput,
+} from '../../../shared/api/oneroster';
 import type { ColumnMapping } from '../../../shared/roster/roster-columns';
 import { parsedWith } from '../core/parse';
 
@@ -103,5 +108,10 @@ export class RosterImports {
 
   deletePreset(id: number): Observable<unknown> {
     return this.http.delete(`/api/imports/presets/${id}`);
+  }
+
+  /** Remembers the school a coordinator chose for a OneRoster org, for this and later imports. */
+  chooseOrgSchool(input: OrgMappingInput): Observable<OrgMapping> {
+    return this.http.put('/api/oneroster/org-mappings', input).pipe(parsedWith(orgMappingSchema));
   }
 }

@@ -19,6 +19,7 @@ import type { ColumnMapping } from '../../../../shared/roster/roster-columns';
 import { csvField } from '../../../../shared/roster/roster-csv';
 import { errorMessage } from '../../core/parse';
 import { MappingForm } from '../mapping-form/mapping-form';
+import { OrgMapping } from '../org-mapping/org-mapping';
 import { PlanChanges } from '../plan-changes/plan-changes';
 import { PreviewGrid } from '../preview-grid/preview-grid';
 import { RosterImports, type PreviewRequest } from '../roster-imports';
@@ -27,7 +28,10 @@ import { commitActivity, importDoneSentence } from './import-words';
 
 const errorsShown = 200;
 
-/** Upload → map columns → preview → commit, for one roster file. */
+/**
+ * Upload → map columns (or, for a OneRoster bundle, its orgs to schools) → preview → commit, for
+ * one roster file.
+ */
 @Component({
   selector: 'tb-import-wizard',
   imports: [
@@ -37,6 +41,7 @@ const errorsShown = 200;
     MatProgressBarModule,
     MatStepperModule,
     MappingForm,
+    OrgMapping,
     PlanChanges,
     PreviewGrid,
     UploadDrop,
@@ -81,6 +86,8 @@ export class ImportWizard {
     if (!preview || preview.totalRows > 0) return '';
     return preview.errors.find((error) => error.line === 0)?.message ?? '';
   });
+  /** The bundle's orgs that match no school yet: the mapping step lists them. */
+  protected readonly unmappedOrgs = computed(() => this.preview()?.oneRoster?.unmappedOrgs ?? []);
   protected readonly mappingChanged = computed(
     () => JSON.stringify(this.mapping()) !== JSON.stringify(this.preview()?.mapping ?? {}),
   );
@@ -133,6 +140,22 @@ export class ImportWizard {
         withdrawMissing: this.withdrawMissing(),
       },
       () => this.stepper().next(),
+    );
+  }
+
+  /** The org choices are saved: read the kept bundle again, so its rows find their schools. */
+  protected orgsMapped() {
+    const preview = this.preview();
+    if (!preview) return;
+    this.request(
+      {
+        importToken: preview.importToken,
+        mapping: preview.mapping,
+        withdrawMissing: this.withdrawMissing(),
+      },
+      () => {
+        if (this.unmappedOrgs().length === 0) this.stepper().next();
+      },
     );
   }
 
