@@ -58,7 +58,8 @@ describe('the embedded engine as opened', () => {
   });
 });
 
-describe('housekeeping after an answer', () => {
+// Each test opens an in-memory database (about 2 s on a loaded two-core machine).
+describe('housekeeping after an answer', { timeout: 20_000 }, () => {
   it('runs after the caller goes on, in order, and close() waits for it', async () => {
     const handle = await openDatabase({ kind: 'pglite-memory' });
     const ran: string[] = [];
