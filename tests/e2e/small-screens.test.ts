@@ -2,6 +2,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AxeBuilder } from '@axe-core/playwright';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
+import type { EnsembleDetail } from '../../shared/api/ensemble';
+import type { Ladder, LadderRequirement } from '../../shared/api/ladder';
+import type { PassOff } from '../../shared/api/pass-off';
+import { findInstrument } from '../../shared/music/index';
 import { launchBrowser, saveScreenshot, signInAs } from '../support/browser';
 
 let app: TestApp;
@@ -25,7 +29,13 @@ const devices = [
 ] as const;
 
 /** Every demo role, in the order their navigation is walked. */
-const roles = ['coordinator', 'director.hpms', 'technician', 'viewer.trhs', 'student.hpms'] as const;
+const roles = [
+  'coordinator',
+  'director.hpms',
+  'technician',
+  'viewer.trhs',
+  'student.hpms',
+] as const;
 
 /** Waits until a screen has its heading and has finished loading its data. */
 async function settled(page: Page) {
@@ -49,11 +59,11 @@ function sidewaysOverflow(page: Page): Promise<{ overflow: number; widest: strin
     if (overflow > 0) {
       // Name the element that sticks out furthest, so a failure says where to look.
       let right = window.innerWidth;
-      for (const element of document.querySelectorAll('main *')) {
+      for (const element of Array.from(document.querySelectorAll('main *'))) {
         const box = element.getBoundingClientRect();
         if (box.right > right + 0.5 && box.width > 0) {
           right = box.right;
-          widest = `${element.tagName.toLowerCase()}.${[...element.classList].join('.')} (${Math.round(box.right)} px)`;
+          widest = `${element.tagName.toLowerCase()}.${Array.from(element.classList).join('.')} (${Math.round(box.right)} px)`;
         }
       }
     }
@@ -87,7 +97,9 @@ async function drawerScreens(page: Page): Promise<string[]> {
   await drawer.locator('a.item').first().waitFor({ state: 'visible' });
   const paths = await drawer
     .locator('a.item')
-    .evaluateAll((links) => links.map((link) => new URL((link as HTMLAnchorElement).href).pathname));
+    .evaluateAll((links) =>
+      links.map((link) => new URL((link as HTMLAnchorElement).href).pathname),
+    );
   await page.keyboard.press('Escape');
   await drawer.locator('a.item').first().waitFor({ state: 'hidden' });
   return paths;
@@ -99,11 +111,25 @@ async function navigationScreens(page: Page, device: string): Promise<string[]> 
     return drawerScreens(page);
   return page
     .locator('nav[aria-label="Main"] a.item')
-    .evaluateAll((links) => links.map((link) => new URL((link as HTMLAnchorElement).href).pathname));
+    .evaluateAll((links) =>
+      links.map((link) => new URL((link as HTMLAnchorElement).href).pathname),
+    );
 }
 
 function screenName(path: string): string {
-  return path.replace(/^\//, '').replace(/\/\d+$/, '').replace(/\//g, '-') || 'start';
+  return (
+    path
+      .replace(/^\//, '')
+      .replace(/\/\d+$/, '')
+      .replace(/\//g, '-') || 'start'
+  );
+}
+
+/** A student the touch entry steps through, with the rung-1 scales asked of their instrument. */
+interface TouchStudent {
+  id: number;
+  name: string;
+  asked: LadderRequirement[];
 }
 
 describe('Phones and tablets', () => {
@@ -149,4 +175,169 @@ describe('Phones and tablets', () => {
       await context.close();
     }, 900_000);
   }
+
+  it('should record pass-offs by touch on a phone, one student at a time, and save each on the server', async () => {
+    const director = await app.signIn(demoEmail('director.hpms'));
+    const ladder = (await director.get('/api/ladder')).body as Ladder;
+    const rungOne = ladder.rungs[0]!.requirements;
+    // The first ensemble with three students in a row who play an instrument asked something
+    // on rung 1: the students the touch entry steps through, in the ensemble's own order.
+    const ensembles = (await director.get('/api/ensembles?limit=100&sort=name:asc')).body.rows as {
+      id: number;
+    }[];
+    let chosen: {
+      ensembleId: number;
+      students: { id: number; name: string; asked: LadderRequirement[] }[];
+    } | null = null;
+    for (const { id } of ensembles) {
+      const detail = (await director.get(`/api/ensembles/${id}`)).body as EnsembleDetail;
+      const seen = new Set<number>();
+      const students = detail.members
+        .filter(
+          (member) => member.active && !seen.has(member.studentId) && seen.add(member.studentId),
+        )
+        .map((member) => {
+          const family = member.instrumentId
+            ? findInstrument(member.instrumentId)?.family
+            : undefined;
+          return {
+            id: member.studentId,
+            name: `${member.preferredName ?? member.firstName} ${member.lastName}`,
+            asked: rungOne.filter(
+              (requirement) =>
+                !requirement.families ||
+                (family !== undefined && (requirement.families as string[]).includes(family)),
+            ),
+          };
+        });
+      if (
+        students.length >= 3 &&
+        students.slice(0, 3).every((student) => student.asked.length >= 2)
+      ) {
+        chosen = { ensembleId: id, students: students.slice(0, 3) };
+        break;
+      }
+    }
+    expect(chosen, 'a Heron Point ensemble with three students asked rung 1').not.toBeNull();
+    const [first, second, third] = chosen!.students as [TouchStudent, TouchStudent, TouchStudent];
+    const before = new Map<number, number>();
+    for (const student of chosen!.students) {
+      const rows = (await director.get(`/api/pass-offs?studentId=${student.id}&limit=1000`)).body
+        .rows as PassOff[];
+      before.set(student.id, rows.length);
+    }
+
+    const context = await browser.newContext({
+      viewport: { width: 390, height: 844 },
+      deviceScaleFactor: 2,
+      isMobile: true,
+      hasTouch: true,
+      locale: 'en-US',
+      timezoneId: 'America/Los_Angeles',
+    });
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('director.hpms'));
+    await page.goto(`${app.url}/pass-offs?ensemble=${chosen!.ensembleId}&rung=1`);
+    const name = page.getByTestId('touch-student-name');
+    await expect.poll(() => name.innerText(), { timeout: 30_000 }).toBe(first.name);
+    const scale = (requirement: LadderRequirement) =>
+      page.locator(`[data-testid="touch-scale"][data-code="${requirement.code}"]`);
+
+    // WCAG 2.2 success criterion 2.5.8 asks 24 px; Material Design's touch target is 48 × 48 dp.
+    const targets = await scale(first.asked[0]!)
+      .locator('button')
+      .evaluateAll((buttons) => buttons.map((button) => button.getBoundingClientRect()))
+      .then((boxes) => boxes.map((box) => Math.min(box.width, box.height)));
+    expect(Math.min(...targets)).toBeGreaterThanOrEqual(48);
+
+    // First student: the first scale passed at a preset under tempo, the second not yet.
+    const slower = first.asked[0]!.tempo - 8;
+    await scale(first.asked[0]!)
+      .getByRole('button', { name: `♩ ${slower}`, exact: true })
+      .tap();
+    await scale(first.asked[0]!)
+      .getByRole('button', { name: /^Passed/ })
+      .tap();
+    await scale(first.asked[1]!)
+      .getByRole('button', { name: /^Not yet/ })
+      .tap();
+    await expect
+      .poll(() => scale(first.asked[0]!).getByTestId('touch-state').innerText(), {
+        timeout: 20_000,
+      })
+      .toMatch(new RegExp(`^Passed at ♩ = ${slower} · (Waiting to send|Sending…|Saved)`));
+    await saveScreenshot(page, 'phone-pass-offs-touch');
+
+    // Next student with the button; a tempo typed on the number pad.
+    await page.getByTestId('touch-next').tap();
+    await expect.poll(() => name.innerText()).toBe(second.name);
+    await scale(second.asked[0]!).getByRole('button', { name: 'Other…' }).tap();
+    for (const key of ['9', '7', 'Use']) {
+      await scale(second.asked[0]!).getByRole('button', { name: key, exact: true }).tap();
+    }
+    await scale(second.asked[0]!)
+      .getByRole('button', { name: /^Passed/ })
+      .tap();
+
+    // Next student with a swipe to the left (touch events through the DevTools protocol).
+    const session = await context.newCDPSession(page);
+    const y = 500;
+    await session.send('Input.dispatchTouchEvent', {
+      type: 'touchStart',
+      touchPoints: [{ x: 320, y }],
+    });
+    await session.send('Input.dispatchTouchEvent', {
+      type: 'touchMove',
+      touchPoints: [{ x: 200, y }],
+    });
+    await session.send('Input.dispatchTouchEvent', {
+      type: 'touchMove',
+      touchPoints: [{ x: 80, y }],
+    });
+    await session.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints: [] });
+    await expect.poll(() => name.innerText()).toBe(third.name);
+    await scale(third.asked[0]!)
+      .getByRole('button', { name: /^Passed/ })
+      .tap();
+
+    await expect
+      .poll(() => page.getByTestId('touch-queue').innerText(), { timeout: 30_000 })
+      .toContain('All entries saved');
+    expect(await scale(third.asked[0]!).getByTestId('touch-state').innerText()).toBe(
+      `Passed at ♩ = ${third.asked[0]!.tempo} · Saved`,
+    );
+    const { overflow, widest } = await sidewaysOverflow(page);
+    expect(overflow, widest).toBeLessThanOrEqual(0);
+
+    // On the server: exactly the four entries, each once, each with the key the queue gave it.
+    const recorded = async (studentId: number) =>
+      (
+        (await director.get(`/api/pass-offs?studentId=${studentId}&limit=1000`)).body
+          .rows as PassOff[]
+      )
+        .slice(0, undefined)
+        .filter((passOff) => passOff.clientKey !== null);
+    const firstRows = await recorded(first.id);
+    const secondRows = await recorded(second.id);
+    const thirdRows = await recorded(third.id);
+    const summary = (rows: PassOff[]) =>
+      rows.map((row) => `${row.requirementCode} ${row.tempo} ${row.passed}`).sort();
+    expect(summary(firstRows)).toEqual(
+      [
+        `${first.asked[0]!.code} ${slower} true`,
+        `${first.asked[1]!.code} ${first.asked[1]!.tempo} false`,
+      ].sort(),
+    );
+    expect(summary(secondRows)).toEqual([`${second.asked[0]!.code} 97 true`]);
+    expect(summary(thirdRows)).toEqual([`${third.asked[0]!.code} ${third.asked[0]!.tempo} true`]);
+    const total = async (studentId: number) =>
+      (
+        (await director.get(`/api/pass-offs?studentId=${studentId}&limit=1000`)).body
+          .rows as PassOff[]
+      ).length;
+    expect(await total(first.id)).toBe(before.get(first.id)! + 2);
+    expect(await total(second.id)).toBe(before.get(second.id)! + 1);
+    expect(await total(third.id)).toBe(before.get(third.id)! + 1);
+    await context.close();
+  }, 180_000);
 });

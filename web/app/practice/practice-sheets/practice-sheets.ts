@@ -22,7 +22,7 @@ import { PlanPanel } from '../practice-plan/plan-panel';
 import { PlanPrint } from '../practice-plan/plan-print';
 import { buildSheet, type ReadySheet } from '../sheet';
 import { SheetForm } from '../sheet-form/sheet-form';
-import { parseSheetRequest, toSheetQuery, type SheetRequest } from '../sheet-request';
+import { parseSheetRequest, tempoLimits, toSheetQuery, type SheetRequest } from '../sheet-request';
 import { Staff } from '../staff/staff';
 import { TakePanel } from '../take-panel/take-panel';
 
@@ -204,6 +204,21 @@ export class PracticeSheets {
 
   protected print(): void {
     window.print();
+  }
+
+  /**
+   * A step of the thumb bar's tempo: 4 beats a minute (common practice, no source), within the
+   * form's limits; the sheet shown (the requirement or a plan step) is opened at the new tempo.
+   */
+  protected stepTempo(sheet: ReadySheet, direction: 1 | -1): void {
+    const tempo = Math.min(
+      tempoLimits.fastest,
+      Math.max(tempoLimits.slowest, sheet.request.tempo + 4 * direction),
+    );
+    if (tempo === sheet.request.tempo) return;
+    this.playback.stop();
+    if (this.shownStep()) this.go({ tempo: String(tempo), step: null });
+    else this.go({ tempo: String(tempo) });
   }
 
   protected togglePlayback(sheet: ReadySheet): void {
