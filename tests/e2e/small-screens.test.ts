@@ -338,6 +338,36 @@ describe('Phones and tablets', () => {
     expect(await total(first.id)).toBe(before.get(first.id)! + 2);
     expect(await total(second.id)).toBe(before.get(second.id)! + 1);
     expect(await total(third.id)).toBe(before.get(third.id)! + 1);
+
+    // A practice sheet on the same phone: the staff wraps to the screen at the size it has on a
+    // desktop, and play, tempo and print sit in the bar at the bottom of the window.
+    await page.goto(
+      `${app.url}/practice?tonic=Bb&mode=major&pattern=cycle-broad&tempo=100&instrument=clarinet`,
+    );
+    const staff = page.getByTestId('sheet-staff');
+    await staff.locator('[role=img][data-notes]').waitFor({ timeout: 30_000 });
+    const drawn = await staff.locator('svg').evaluate((svg) => ({
+      shown: svg.getBoundingClientRect().width,
+      drawn: (svg as SVGSVGElement).viewBox.baseVal.width,
+      right: svg.getBoundingClientRect().right,
+    }));
+    expect(drawn.right).toBeLessThanOrEqual(390);
+    // Drawn at the box's own width: one drawing unit to one CSS pixel, not a 1,000-unit staff
+    // shrunk to a third.
+    expect(drawn.shown / drawn.drawn).toBeGreaterThan(0.95);
+    await staff.scrollIntoViewIfNeeded();
+    const bar = page.getByRole('toolbar', { name: 'Play, tempo and print' });
+    for (const name of [/^(Play|Loading…)/, /^Slower$/, /^Faster$/, /^Print$/]) {
+      const box = await bar.getByRole('button', { name }).boundingBox();
+      expect(box, String(name)).not.toBeNull();
+      // Within the window's bottom fifth, where a thumb reaches (common practice, no source).
+      expect(box!.y + box!.height).toBeLessThanOrEqual(844);
+      expect(box!.y).toBeGreaterThan(844 * 0.8);
+    }
+    await bar.getByRole('button', { name: 'Faster' }).tap();
+    await expect.poll(() => page.getByTestId('thumb-tempo').innerText()).toBe('♩ = 104');
+    expect((await sidewaysOverflow(page)).overflow).toBeLessThanOrEqual(0);
+    await saveScreenshot(page, 'phone-practice-sheet');
     await context.close();
   }, 180_000);
 });

@@ -97,7 +97,14 @@ export class TouchEntry {
       const asked = appliesToFamily(requirement, row.family);
       const cell = view(row, requirement);
       const draft = drafts.get(cellKey(row.studentId, requirement.code));
-      const tempo = draft && draft.typedTempo !== '' ? Number(draft.typedTempo) : requirement.tempo;
+      // The tempo chosen for the next tap: the one picked, else the one of the entry just made
+      // (so a second tap records what the first did), else the requirement's.
+      const tempo =
+        draft && draft.typedTempo !== ''
+          ? Number(draft.typedTempo)
+          : cell.kind === 'entry'
+            ? cell.tempo
+            : requirement.tempo;
       return { requirement, asked, view: cell, tempo, ...this.stateOf(cell) };
     });
   });
@@ -134,8 +141,11 @@ export class TouchEntry {
   protected mark(card: ScaleCard, passed: boolean): void {
     const target = this.target(card);
     if (!target) return;
+    const key = cellKey(target.studentId, card.requirement.code);
+    if (!this.drafts.drafts().get(key)?.typedTempo && card.tempo !== card.requirement.tempo)
+      this.drafts.prefillTempo(target, card.tempo);
     this.drafts.keystroke(target, passed ? 'P' : 'N');
-    this.drafts.commit(cellKey(target.studentId, card.requirement.code));
+    this.drafts.commit(key);
     this.padFor.set(null);
     this.announce.emit(
       `${keyText(card.requirement)}: ${passed ? 'passed' : 'not yet'} at ${card.tempo}.`,
