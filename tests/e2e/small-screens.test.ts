@@ -369,5 +369,26 @@ describe('Phones and tablets', () => {
     expect((await sidewaysOverflow(page)).overflow).toBeLessThanOrEqual(0);
     await saveScreenshot(page, 'phone-practice-sheet');
     await context.close();
-  }, 180_000);
+
+    // A tablet held sideways: the icon rail beside the page, and the touch entry in two columns.
+    const tablet = await browser.newContext({
+      viewport: { width: 1180, height: 820 },
+      isMobile: true,
+      hasTouch: true,
+      locale: 'en-US',
+      timezoneId: 'America/Los_Angeles',
+    });
+    const tabletPage = await tablet.newPage();
+    await signInAs(tabletPage, app.url, demoEmail('director.hpms'));
+    await tabletPage.goto(`${app.url}/pass-offs?ensemble=${chosen!.ensembleId}&rung=1`);
+    await expect
+      .poll(() => tabletPage.getByTestId('touch-student-name').innerText(), { timeout: 30_000 })
+      .toBe(first.name);
+    const rail = await tabletPage.locator('nav[aria-label="Main"]').boundingBox();
+    expect(rail!.width).toBeLessThan(120);
+    expect(await tabletPage.getByTestId('menu-button').isVisible()).toBe(false);
+    expect((await sidewaysOverflow(tabletPage)).overflow).toBeLessThanOrEqual(0);
+    await saveScreenshot(tabletPage, 'tablet-landscape-pass-offs-touch');
+    await tablet.close();
+  }, 240_000);
 });
