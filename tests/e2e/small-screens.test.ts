@@ -364,8 +364,13 @@ describe('Phones and tablets', () => {
       expect(box!.y + box!.height).toBeLessThanOrEqual(844);
       expect(box!.y).toBeGreaterThan(844 * 0.8);
     }
+    const scrolledTo = await page.evaluate(() => window.scrollY);
+    expect(scrolledTo).toBeGreaterThan(0);
     await bar.getByRole('button', { name: 'Faster' }).tap();
     await expect.poll(() => page.getByTestId('thumb-tempo').innerText()).toBe('♩ = 104');
+    await staff.locator('[role=img][data-notes]').waitFor({ timeout: 30_000 });
+    // The tap keeps the staff where the reader had it (the router would scroll to the top).
+    await expect.poll(() => page.evaluate(() => window.scrollY)).toBe(scrolledTo);
     expect((await sidewaysOverflow(page)).overflow).toBeLessThanOrEqual(0);
     await saveScreenshot(page, 'phone-practice-sheet');
     await context.close();

@@ -177,7 +177,7 @@ export class PracticeSheets {
   /** Opens another requirement from the form; a step being practised is left. */
   protected choose(request: SheetRequest): void {
     this.playback.stop();
-    this.go({ ...toSheetQuery(request), step: null });
+    void this.go({ ...toSheetQuery(request), step: null });
   }
 
   protected tryOneOctave(): void {
@@ -186,16 +186,16 @@ export class PracticeSheets {
 
   protected showStep(id: string | null): void {
     this.playback.stop();
-    this.go({ step: id, view: null });
+    void this.go({ step: id, view: null });
   }
 
   protected showView(view: PracticeView): void {
     this.playback.stop();
-    this.go({ view: view === 'sheet' ? null : view });
+    void this.go({ view: view === 'sheet' ? null : view });
   }
 
   protected chooseEnsemble(ensemble: Ensemble): void {
-    this.go({ ensemble: ensemble === 'band' ? null : ensemble });
+    void this.go({ ensemble: ensemble === 'band' ? null : ensemble });
   }
 
   protected download(sheet: ReadySheet): void {
@@ -217,8 +217,12 @@ export class PracticeSheets {
     );
     if (tempo === sheet.request.tempo) return;
     this.playback.stop();
-    if (this.shownStep()) this.go({ tempo: String(tempo), step: null });
-    else this.go({ tempo: String(tempo) });
+    // The router scrolls to the top after each navigation; a tap of the bar under the thumb keeps
+    // the staff where the reader had it.
+    const scrolled = window.scrollY;
+    void this.go(
+      this.shownStep() ? { tempo: String(tempo), step: null } : { tempo: String(tempo) },
+    ).then(() => setTimeout(() => window.scrollTo({ top: scrolled })));
   }
 
   protected togglePlayback(sheet: ReadySheet): void {
@@ -229,8 +233,8 @@ export class PracticeSheets {
     }
   }
 
-  private go(queryParams: Record<string, string | null>): void {
-    void this.router.navigate([], {
+  private go(queryParams: Record<string, string | null>): Promise<boolean> {
+    return this.router.navigate([], {
       queryParams,
       queryParamsHandling: 'merge',
       replaceUrl: true,
