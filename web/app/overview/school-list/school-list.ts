@@ -43,7 +43,7 @@ import type { School } from '../../../../shared/api/school';
       font-size: 0.9rem;
     }
     // A phone: the code and name on one line, the level and counts under the name.
-    @media (max-width: 599.98px) {
+    @media screen and (max-width: 599.98px) {
       li {
         grid-template-columns: 56px repeat(3, auto);
         justify-content: start;

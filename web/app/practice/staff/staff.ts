@@ -11,12 +11,12 @@ import {
 } from '@angular/core';
 import type { StaffMusic } from '../sheet';
 import { renderStaff } from './render-staff';
-import { drawingWidth } from './staff-layout';
+import { drawingWidth, staffWidth } from './staff-layout';
 
 /**
- * One pattern drawn as a staff of music (VexFlow SVG) that scales to the width of its box. A box
- * narrower than the widest staff (a phone) gets the music drawn at its own width, wrapped onto
- * more lines, so the notes keep their size.
+ * One pattern drawn as a staff of music (VexFlow SVG) that scales to the width of its box. A
+ * full-size staff in a box narrower than the widest staff (a phone) is drawn at the box's own
+ * width, wrapped onto more lines, so the notes keep their size.
  */
 @Component({
   selector: 'tb-staff',
@@ -80,7 +80,9 @@ export class Staff {
     effect(() => {
       const music = this.music();
       const compact = this.compact();
-      const width = this.width();
+      // The band set and the practice plan set many small staves side by side for print, where
+      // the widest drawing scaled down keeps each one line; a sheet's own staff wraps instead.
+      const width = compact ? staffWidth : this.width();
       const host = this.canvas().nativeElement;
       if (width === 0) return;
       const turn = ++this.drawing;
