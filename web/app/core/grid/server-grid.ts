@@ -11,6 +11,8 @@ import {
   signal,
   untracked,
 } from '@angular/core';
+import { toSignal } from '@angular/core/rxjs-interop';
+import { BreakpointObserver } from '@angular/cdk/layout';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
@@ -20,6 +22,7 @@ import type {
   CellKeyDownEvent,
   FullWidthCellKeyDownEvent,
   ColDef,
+  ColumnState,
   GridApi,
   GridReadyEvent,
   IDatasource,
@@ -46,6 +49,22 @@ export const gridPageSize = 100;
 const searchPause = 250;
 const emptyHeight = 340;
 const layoutSavePause = 800;
+
+/** A phone's width (Material Design 3's compact window class, below 600 px). */
+const compactQuery = '(max-width: 599.98px)';
+/** How many columns a phone shows when the screen marks none as its key columns. */
+const compactColumnCount = 3;
+
+/**
+ * The columns a phone keeps: those the screen marks with `context: { key: true }`, else the first
+ * few shown. The others stay one tap away, in the row's own page and the column chooser.
+ */
+export function keyColumnIds(columns: readonly ColDef[], shown: readonly string[]): string[] {
+  const marked = columns
+    .filter((column) => (column.context as { key?: boolean } | undefined)?.key)
+    .map((column) => column.colId ?? column.field ?? '');
+  return marked.length ? marked : shown.slice(0, compactColumnCount);
+}
 
 interface ColumnChoice {
   colId: string;
@@ -134,6 +153,14 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   protected readonly firstLoad = computed(() => this.total() === null && this.requests() > 0);
 
   private api: GridApi<Row> | null = null;
+  private readonly compact = toSignal(
+    inject(BreakpointObserver)
+      .observe(compactQuery)
+      .pipe(map((state) => state.matches)),
+    { initialValue: false },
+  );
+  /** The user's own column state while a phone's width shows only the key columns. */
+  private wideState: ColumnState[] | null = null;
   private generation = 0;
   private restoring = true;
   private lastSavedLayout = '';
@@ -146,6 +173,10 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
       this.filters();
       this.quickSearch();
       untracked(() => this.scheduleRefresh());
+    });
+    effect(() => {
+      const compact = this.compact();
+      untracked(() => this.fitWidth(compact));
     });
     inject(DestroyRef).onDestroy(() => {
       clearTimeout(this.searchTimer);
@@ -171,6 +202,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
         this.refreshChoices();
       }
       this.restoring = false;
+      this.fitWidth(this.compact());
       this.refresh();
     });
   }
@@ -187,9 +219,34 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   /** Any change of columns or sort: remember the layout a moment later. */
   protected onLayoutChanged(): void {
     this.refreshChoices();
-    if (this.restoring) return;
+    // A phone's key-column view is not the user's layout: it is never saved over it.
+    if (this.restoring || this.wideState) return;
     clearTimeout(this.saveTimer);
     this.saveTimer = setTimeout(() => this.saveLayout(), layoutSavePause);
+  }
+
+  /**
+   * On a phone's width, shows only the key columns, fitted to the width (the rest stays in the
+   * column chooser and the row's page); back on a wider window, the user's own layout returns.
+   */
+  private fitWidth(compact: boolean): void {
+    const api = this.api;
+    if (!api || this.restoring) return;
+    if (compact) {
+      const state = api.getColumnState();
+      this.wideState ??= state;
+      const shown = state.filter((column) => !column.hide).map((column) => column.colId);
+      const keep = new Set(keyColumnIds(this.columns(), shown));
+      api.setColumnsVisible(
+        shown.filter((colId) => !keep.has(colId)),
+        false,
+      );
+      api.sizeColumnsToFit();
+    } else if (this.wideState) {
+      api.applyColumnState({ state: this.wideState, applyOrder: true });
+      this.wideState = null;
+    }
+    this.refreshChoices();
   }
 
   protected toggleColumn(colId: string): void {

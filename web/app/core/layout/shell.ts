@@ -4,11 +4,14 @@ import {
   Injector,
   computed,
   inject,
+  signal,
   viewChild,
+  ViewContainerRef,
+  type ComponentRef,
   type ElementRef,
 } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
-import { NavigationEnd, Router, RouterLink, RouterLinkActive, RouterOutlet } from '@angular/router';
+import { NavigationEnd, Router, RouterOutlet } from '@angular/router';
 import { filter } from 'rxjs';
 import { MatIcon } from '@angular/material/icon';
 import { roleLabels } from '../../../../shared/api/roles';
@@ -17,11 +20,20 @@ import { CurrentDistrict } from '../district/current-district';
 import { LastVisit } from '../offline/last-visit';
 import { unsentPassOffCount } from '../../pass-offs/unsent-pass-offs';
 import { navigationGroups, visibleItems } from './navigation';
+import type { NavigationDrawer } from './navigation-drawer';
+import { NavigationList, type NavigationGroup } from './navigation-list';
 
-/** The frame of every signed-in page: the left navigation rail and the top bar. */
+/**
+ * The frame of every signed-in page: the navigation and the top bar. Its layout follows
+ * Material Design 3's window size classes (m3.material.io, "Applying layout: window size
+ * classes") in shell.scss: below 840 px (compact and medium) the navigation is a modal drawer
+ * behind a menu button; from 840 px an icon rail, so a tablet held sideways keeps its width for
+ * the page; from 1,200 px the labelled rail. The layout is CSS alone, and the drawer's code is
+ * fetched on the first tap of the menu button, so wide screens never download it.
+ */
 @Component({
   selector: 'tb-shell',
-  imports: [RouterOutlet, RouterLink, RouterLinkActive, MatIcon],
+  imports: [RouterOutlet, MatIcon, NavigationList],
   templateUrl: './shell.html',
   styleUrl: './shell.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -31,6 +43,10 @@ export class Shell {
   private readonly currentDistrict = inject(CurrentDistrict);
   private readonly main = viewChild.required<ElementRef<HTMLElement>>('main');
   private readonly router = inject(Router);
+  private readonly drawerHost = viewChild.required('drawerHost', { read: ViewContainerRef });
+  private drawer: Promise<ComponentRef<NavigationDrawer>> | null = null;
+  /** Whether the drawer is open (narrow windows only). */
+  protected readonly drawerOpen = signal(false);
   /** Whether the navigation under way came from the rail, so its page's heading takes focus. */
   private fromRail = false;
 
@@ -51,6 +67,19 @@ export class Shell {
   /** Notes that the rail started a navigation. */
   protected headingAfterNavigation(): void {
     this.fromRail = true;
+  }
+
+  /** Opens the navigation drawer, fetching its code the first time. */
+  protected async openDrawer(): Promise<void> {
+    this.drawer ??= import('./navigation-drawer').then(({ NavigationDrawer }) => {
+      const drawer = this.drawerHost().createComponent(NavigationDrawer);
+      drawer.instance.groups = this.groups;
+      drawer.instance.open = this.drawerOpen;
+      drawer.instance.chosen = () => this.headingAfterNavigation();
+      return drawer;
+    });
+    (await this.drawer).changeDetectorRef.markForCheck();
+    this.drawerOpen.set(true);
   }
 
   /**
@@ -101,7 +130,7 @@ export class Shell {
     if (me.allSchools) return 'All schools';
     return me.schools.map((school) => school.name).join(', ') || 'No school assigned yet';
   });
-  protected readonly groups = computed(() => {
+  protected readonly groups = computed((): NavigationGroup[] => {
     const me = this.me();
     if (!me) return [];
     const items = visibleItems(me.role, this.currentUser.capabilities());

@@ -30,7 +30,7 @@ import type { School } from '../../../../shared/api/school';
       margin: 0;
       padding: 0;
       display: grid;
-      grid-template-columns: repeat(auto-fill, minmax(380px, 1fr));
+      grid-template-columns: repeat(auto-fill, minmax(min(100%, 380px), 1fr));
       gap: 0 24px;
     }
     li {
@@ -41,6 +41,20 @@ import type { School } from '../../../../shared/api/school';
       padding: 8px 4px;
       border-bottom: 1px solid var(--tb-line);
       font-size: 0.9rem;
+    }
+    // A phone: the code and name on one line, the level and counts under the name.
+    @media screen and (max-width: 599.98px) {
+      li {
+        grid-template-columns: 56px repeat(3, auto);
+        justify-content: start;
+        gap: 2px 12px;
+      }
+      .name {
+        grid-column: 2 / -1;
+      }
+      .level {
+        grid-column: 2;
+      }
     }
     .code {
       justify-self: start;

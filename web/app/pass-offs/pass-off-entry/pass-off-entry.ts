@@ -9,7 +9,8 @@ import {
   signal,
   untracked,
 } from '@angular/core';
-import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
+import { BreakpointObserver } from '@angular/cdk/layout';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -28,7 +29,7 @@ import type {
   GridApi,
   GridReadyEvent,
 } from 'ag-grid-community';
-import { firstValueFrom, forkJoin } from 'rxjs';
+import { firstValueFrom, forkJoin, map } from 'rxjs';
 import type { Ensemble } from '../../../../shared/api/ensemble';
 import type { Ladder, LadderRequirement } from '../../../../shared/api/ladder';
 import type { PassOff } from '../../../../shared/api/pass-off';
@@ -52,6 +53,13 @@ import { entryGridModules } from './entry-grid-modules';
 import { EnsembleSheet } from './ensemble-sheet';
 import { queueBanner } from './entry-sheet';
 import { SentTakes } from '../sent-takes';
+import { TouchEntry } from '../touch-entry/touch-entry';
+
+/**
+ * When entry is by touch: a coarse pointer (Media Queries Level 4, "pointer") or a window
+ * narrower than the grid needs (Material Design 3's compact and medium window classes).
+ */
+const touchQueries = ['(pointer: coarse)', '(max-width: 839.98px)'];
 
 /**
  * Pass-offs: a director's entry grid, the students of one ensemble against the requirements of
@@ -77,6 +85,7 @@ import { PastPassOffs } from '../past-pass-offs/past-pass-offs';
     StudentHistory,
     YearPicker,
     PastPassOffs,
+    TouchEntry,
   ],
   providers: [EntryDrafts, EnsembleSheet, SentTakes],
   templateUrl: './pass-off-entry.html',
@@ -115,6 +124,15 @@ export class PassOffEntry {
   protected readonly canWrite = inject(CurrentUser).can('pass-offs:write');
   /** A past year chosen in the year picker: its pass-offs, read-only, instead of the entry grid. */
   protected readonly pastYear = signal<SchoolYear | null>(null);
+  private readonly breakpoints = inject(BreakpointObserver);
+  /** Whether the entry is one student at a time by touch rather than the keyboard grid. */
+  protected readonly touch = toSignal(
+    this.breakpoints.observe(touchQueries).pipe(map((state) => state.matches)),
+    { initialValue: this.breakpoints.isMatched(touchQueries) },
+  );
+  /** What a student's cell shows, for the touch entry. */
+  protected readonly touchCellView = (row: EntryRow, requirement: LadderRequirement) =>
+    this.cellViewWithoutTake(row, requirement);
 
   protected readonly ensembleId = computed(() => Number(this.ensemble()) || null);
   protected readonly rungNumber = computed(() => Number(this.rung()) || null);
@@ -388,7 +406,7 @@ export class PassOffEntry {
     if (history !== null && students.has(history)) this.historyToken.update((token) => token + 1);
   }
 
-  private announce(message: string): void {
+  protected announce(message: string): void {
     this.announcement.set('');
     queueMicrotask(() => this.announcement.set(message));
   }

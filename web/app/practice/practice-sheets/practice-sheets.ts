@@ -22,7 +22,7 @@ import { PlanPanel } from '../practice-plan/plan-panel';
 import { PlanPrint } from '../practice-plan/plan-print';
 import { buildSheet, type ReadySheet } from '../sheet';
 import { SheetForm } from '../sheet-form/sheet-form';
-import { parseSheetRequest, toSheetQuery, type SheetRequest } from '../sheet-request';
+import { parseSheetRequest, tempoLimits, toSheetQuery, type SheetRequest } from '../sheet-request';
 import { Staff } from '../staff/staff';
 import { TakePanel } from '../take-panel/take-panel';
 
@@ -177,7 +177,7 @@ export class PracticeSheets {
   /** Opens another requirement from the form; a step being practised is left. */
   protected choose(request: SheetRequest): void {
     this.playback.stop();
-    this.go({ ...toSheetQuery(request), step: null });
+    void this.go({ ...toSheetQuery(request), step: null });
   }
 
   protected tryOneOctave(): void {
@@ -186,16 +186,16 @@ export class PracticeSheets {
 
   protected showStep(id: string | null): void {
     this.playback.stop();
-    this.go({ step: id, view: null });
+    void this.go({ step: id, view: null });
   }
 
   protected showView(view: PracticeView): void {
     this.playback.stop();
-    this.go({ view: view === 'sheet' ? null : view });
+    void this.go({ view: view === 'sheet' ? null : view });
   }
 
   protected chooseEnsemble(ensemble: Ensemble): void {
-    this.go({ ensemble: ensemble === 'band' ? null : ensemble });
+    void this.go({ ensemble: ensemble === 'band' ? null : ensemble });
   }
 
   protected download(sheet: ReadySheet): void {
@@ -206,6 +206,25 @@ export class PracticeSheets {
     window.print();
   }
 
+  /**
+   * A step of the thumb bar's tempo: 4 beats a minute (common practice, no source), within the
+   * form's limits; the sheet shown (the requirement or a plan step) is opened at the new tempo.
+   */
+  protected stepTempo(sheet: ReadySheet, direction: 1 | -1): void {
+    const tempo = Math.min(
+      tempoLimits.fastest,
+      Math.max(tempoLimits.slowest, sheet.request.tempo + 4 * direction),
+    );
+    if (tempo === sheet.request.tempo) return;
+    this.playback.stop();
+    // The router scrolls to the top after each navigation; a tap of the bar under the thumb keeps
+    // the staff where the reader had it.
+    const scrolled = window.scrollY;
+    void this.go(
+      this.shownStep() ? { tempo: String(tempo), step: null } : { tempo: String(tempo) },
+    ).then(() => setTimeout(() => window.scrollTo({ top: scrolled })));
+  }
+
   protected togglePlayback(sheet: ReadySheet): void {
     if (this.playback.playing()) {
       this.playback.stop();
@@ -214,8 +233,8 @@ export class PracticeSheets {
     }
   }
 
-  private go(queryParams: Record<string, string | null>): void {
-    void this.router.navigate([], {
+  private go(queryParams: Record<string, string | null>): Promise<boolean> {
+    return this.router.navigate([], {
       queryParams,
       queryParamsHandling: 'merge',
       replaceUrl: true,

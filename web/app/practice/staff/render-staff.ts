@@ -25,7 +25,7 @@ import {
   openingWidth,
   planSystems,
   signatureAlteration,
-  staffWidth,
+  staffWidth as widest,
   verticalRoom,
 } from './staff-layout';
 
@@ -59,14 +59,15 @@ const restKeys: Record<StaffMusic['clef'], string> = { treble: 'b/4', bass: 'd/3
 export async function renderStaff(
   host: HTMLElement,
   music: StaffMusic,
-  options: { compact: boolean },
+  options: { compact: boolean; width?: number },
 ): Promise<number> {
   await loadNotationFont();
   VexFlow.setFonts(notationFontFamily, 'Public Sans');
   host.replaceChildren();
 
   const measures = layOutMeasures(music.notes);
-  const { systems } = planSystems(measures, music.fifths, options.compact);
+  const staffWidth = options.width ?? widest;
+  const { systems } = planSystems(measures, music.fifths, options.compact, staffWidth);
   const renderer = new Renderer(host as HTMLDivElement, Renderer.Backends.SVG);
   const context = renderer.getContext();
   const drawn: DrawnPiece[] = [];
@@ -140,6 +141,10 @@ export async function renderStaff(
     svg.setAttribute('viewBox', `0 0 ${staffWidth} ${Math.ceil(cursor)}`);
     svg.removeAttribute('width');
     svg.removeAttribute('height');
+    // The renderer sets its size as an inline style too, which would keep the staff from
+    // scaling to its box.
+    svg.style.removeProperty('width');
+    svg.style.removeProperty('height');
     svg.setAttribute('aria-hidden', 'true');
   }
   return drawn.length;

@@ -2,8 +2,22 @@ import { parseNote, type Letter } from '../../../../shared/music';
 import type { NotatedPiece } from '../../../../shared/music/measure-layout';
 import type { StaffMusic } from '../sheet';
 
-/** The width every staff is drawn at; the SVG then scales to its box. */
+/** The widest a staff is drawn; the SVG then scales to its box. */
 export const staffWidth = 1000;
+
+/** The narrowest a staff is drawn, for a phone's width (a few measures a line). */
+export const narrowestStaff = 300;
+
+/**
+ * The width to draw a staff at for a box this many CSS pixels wide: the box's own width up to
+ * `staffWidth`, so on a narrow screen the music wraps onto more lines at the size it has on a
+ * wide one instead of shrinking (10 px between staff lines, VexFlow's default), never below
+ * `narrowestStaff`.
+ */
+export function drawingWidth(boxWidth: number): number {
+  if (!(boxWidth > 0)) return staffWidth;
+  return Math.max(narrowestStaff, Math.min(staffWidth, Math.floor(boxWidth)));
+}
 
 /** Pixels between two staff lines, VexFlow's default. */
 export const lineSpacing = 10;
@@ -42,17 +56,18 @@ export function measureWidth(pieces: NotatedPiece[], compact: boolean): number {
 }
 
 /**
- * Splits measures into systems of about equal length that fit `staffWidth`: as few systems as
+ * Splits measures into systems of about equal length that fit `width`: as few systems as
  * fit, then the measures shared out evenly, as a copyist balances the lines of a page.
  */
 export function planSystems(
   measures: NotatedPiece[][],
   fifths: number,
   compact: boolean,
+  width = staffWidth,
 ): SystemPlan {
   const widths = measures.map((pieces) => measureWidth(pieces, compact));
   const total = widths.reduce((sum, width) => sum + width, 0);
-  const room = staffWidth - openingWidth(fifths, false) - 10;
+  const room = width - openingWidth(fifths, false) - 10;
   let count = Math.max(1, Math.ceil(total / room));
   const perSystem = () => Math.ceil(measures.length / count);
   while (count < measures.length && !fits(widths, perSystem(), room)) count += 1;

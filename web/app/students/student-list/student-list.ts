@@ -92,8 +92,8 @@ export class StudentList {
   protected readonly sortFields = studentSortFields;
   protected readonly columns: ColDef<Student>[] = [
     { field: 'studentNumber', headerName: 'Student ID', width: 115 },
-    { field: 'lastName', headerName: 'Last name', width: 135, sort: 'asc' },
-    { field: 'firstName', headerName: 'First name', width: 125 },
+    { field: 'lastName', headerName: 'Last name', width: 135, sort: 'asc', context: { key: true } },
+    { field: 'firstName', headerName: 'First name', width: 125, context: { key: true } },
     {
       field: 'preferredName',
       headerName: 'Preferred',
@@ -105,6 +105,7 @@ export class StudentList {
       headerName: 'Grade',
       width: 85,
       type: 'rightAligned',
+      context: { key: true },
       valueFormatter: ({ data }) => data?.gradeLabel ?? '',
     },
     {

@@ -1,0 +1,399 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { AxeBuilder } from '@axe-core/playwright';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
+import type { EnsembleDetail } from '../../shared/api/ensemble';
+import type { Ladder, LadderRequirement } from '../../shared/api/ladder';
+import type { PassOff } from '../../shared/api/pass-off';
+import { findInstrument } from '../../shared/music/index';
+import { launchBrowser, saveScreenshot, signInAs } from '../support/browser';
+
+let app: TestApp;
+let browser: Browser;
+
+beforeAll(async () => {
+  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
+});
+afterAll(async () => {
+  await browser?.close();
+  await app?.close();
+});
+
+/**
+ * The two devices the screens are checked on, in CSS pixels: a 6.1-inch phone (390 × 844) and
+ * an 11-inch tablet held upright (820 × 1180). From memory of the devices' published sizes.
+ */
+const devices = [
+  { name: 'phone', viewport: { width: 390, height: 844 } },
+  { name: 'tablet', viewport: { width: 820, height: 1180 } },
+] as const;
+
+/** Every demo role, in the order their navigation is walked. */
+const roles = [
+  'coordinator',
+  'director.hpms',
+  'technician',
+  'viewer.trhs',
+  'student.hpms',
+] as const;
+
+/** Waits until a screen has its heading and has finished loading its data. */
+async function settled(page: Page) {
+  await page.locator('main h1').first().waitFor({ timeout: 30_000 });
+  await page.waitForLoadState('networkidle', { timeout: 30_000 });
+  await expect
+    .poll(() => page.locator('main tb-page-state mat-spinner').count(), { timeout: 30_000 })
+    .toBe(0);
+  await page.evaluate(() => document.fonts.ready);
+}
+
+/**
+ * How far the page reaches past the window's right edge, in CSS pixels (0 when nothing scrolls
+ * sideways). A grid that scrolls inside its own box does not count: only the document's.
+ */
+function sidewaysOverflow(page: Page): Promise<{ overflow: number; widest: string }> {
+  return page.evaluate(() => {
+    const scroller = document.scrollingElement!;
+    const overflow = scroller.scrollWidth - window.innerWidth;
+    let widest = '';
+    if (overflow > 0) {
+      // Name the element that sticks out furthest, so a failure says where to look.
+      let right = window.innerWidth;
+      for (const element of Array.from(document.querySelectorAll('main *'))) {
+        const box = element.getBoundingClientRect();
+        if (box.right > right + 0.5 && box.width > 0) {
+          right = box.right;
+          widest = `${element.tagName.toLowerCase()}.${Array.from(element.classList).join('.')} (${Math.round(box.right)} px)`;
+        }
+      }
+    }
+    return { overflow, widest };
+  });
+}
+
+/**
+ * The serious and critical axe violations of the page, as one line each, with the same rules as
+ * the desktop sweep (axe-core WCAG 2.0/2.1 A and AA tags).
+ */
+async function seriousViolations(page: Page): Promise<string[]> {
+  const results = await new AxeBuilder({ page })
+    .withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa'])
+    .exclude('tb-mail-frame iframe')
+    .analyze();
+  return results.violations
+    .filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
+    .flatMap((violation) =>
+      violation.nodes.map(
+        (node) =>
+          `${violation.id} (${violation.impact}): ${violation.help} at ${node.target.join(' ')}`,
+      ),
+    );
+}
+
+/** Opens the menu's drawer and reads the paths of the links in it. */
+async function drawerScreens(page: Page): Promise<string[]> {
+  await page.getByTestId('menu-button').click();
+  const drawer = page.getByTestId('navigation-drawer');
+  await drawer.locator('a.item').first().waitFor({ state: 'visible' });
+  const paths = await drawer
+    .locator('a.item')
+    .evaluateAll((links) =>
+      links.map((link) => new URL((link as HTMLAnchorElement).href).pathname),
+    );
+  await page.keyboard.press('Escape');
+  await drawer.locator('a.item').first().waitFor({ state: 'hidden' });
+  return paths;
+}
+
+/** The paths of the rail's links (a tablet's width shows the rail or the menu). */
+async function navigationScreens(page: Page, device: string): Promise<string[]> {
+  if (device === 'phone' || (await page.getByTestId('menu-button').isVisible()))
+    return drawerScreens(page);
+  return page
+    .locator('nav[aria-label="Main"] a.item')
+    .evaluateAll((links) =>
+      links.map((link) => new URL((link as HTMLAnchorElement).href).pathname),
+    );
+}
+
+function screenName(path: string): string {
+  return (
+    path
+      .replace(/^\//, '')
+      .replace(/\/\d+$/, '')
+      .replace(/\//g, '-') || 'start'
+  );
+}
+
+/** A student the touch entry steps through, with the rung-1 scales asked of their instrument. */
+interface TouchStudent {
+  id: number;
+  name: string;
+  asked: LadderRequirement[];
+}
+
+describe('Phones and tablets', () => {
+  for (const device of devices) {
+    it(`should show every screen of every role's navigation at ${device.viewport.width}×${device.viewport.height} with no sideways scroll and no serious axe violation`, async () => {
+      const context: BrowserContext = await browser.newContext({
+        viewport: device.viewport,
+        deviceScaleFactor: 1,
+        hasTouch: true,
+        locale: 'en-US',
+        timezoneId: 'America/Los_Angeles',
+      });
+      const page = await context.newPage();
+      const problems: string[] = [];
+      const visited = new Set<string>();
+      for (const role of roles) {
+        await context.clearCookies();
+        await signInAs(page, app.url, demoEmail(role));
+        await settled(page);
+        const screens = await navigationScreens(page, device.name);
+        expect(screens.length, `${role} has a navigation`).toBeGreaterThan(0);
+        // A student's own page is their start page, not a navigation entry.
+        if (role === 'student.hpms') screens.unshift(new URL(page.url()).pathname);
+        for (const screen of screens) {
+          // Screens that look the same for every role are checked once, with the first role
+          // that has them; the student's screens show their own data and are all checked.
+          const key = role === 'student.hpms' ? `student:${screen}` : screen;
+          if (visited.has(key)) continue;
+          visited.add(key);
+          await page.goto(`${app.url}${screen}`, { timeout: 30_000 });
+          await settled(page);
+          const { overflow, widest } = await sidewaysOverflow(page);
+          if (overflow > 0)
+            problems.push(`${role} ${screen}: the page scrolls ${overflow} px sideways; ${widest}`);
+          problems.push(
+            ...(await seriousViolations(page)).map((line) => `${role} ${screen}: ${line}`),
+          );
+          const who = role === 'student.hpms' ? 'student-' : '';
+          await saveScreenshot(page, `${device.name}-${who}${screenName(screen)}`);
+        }
+      }
+      expect(problems, problems.join('\n')).toEqual([]);
+      await context.close();
+    }, 900_000);
+  }
+
+  it('should record pass-offs by touch on a phone, one student at a time, and save each on the server', async () => {
+    const director = await app.signIn(demoEmail('director.hpms'));
+    const ladder = (await director.get('/api/ladder')).body as Ladder;
+    const rungOne = ladder.rungs[0]!.requirements;
+    // The first ensemble with three students in a row who play an instrument asked something
+    // on rung 1: the students the touch entry steps through, in the ensemble's own order.
+    const ensembles = (await director.get('/api/ensembles?limit=100&sort=name:asc')).body.rows as {
+      id: number;
+    }[];
+    let chosen: {
+      ensembleId: number;
+      students: { id: number; name: string; asked: LadderRequirement[] }[];
+    } | null = null;
+    for (const { id } of ensembles) {
+      const detail = (await director.get(`/api/ensembles/${id}`)).body as EnsembleDetail;
+      const seen = new Set<number>();
+      const students = detail.members
+        .filter(
+          (member) => member.active && !seen.has(member.studentId) && seen.add(member.studentId),
+        )
+        .map((member) => {
+          const family = member.instrumentId
+            ? findInstrument(member.instrumentId)?.family
+            : undefined;
+          return {
+            id: member.studentId,
+            name: `${member.preferredName ?? member.firstName} ${member.lastName}`,
+            asked: rungOne.filter(
+              (requirement) =>
+                !requirement.families ||
+                (family !== undefined && (requirement.families as string[]).includes(family)),
+            ),
+          };
+        });
+      if (
+        students.length >= 3 &&
+        students.slice(0, 3).every((student) => student.asked.length >= 2)
+      ) {
+        chosen = { ensembleId: id, students: students.slice(0, 3) };
+        break;
+      }
+    }
+    expect(chosen, 'a Heron Point ensemble with three students asked rung 1').not.toBeNull();
+    const [first, second, third] = chosen!.students as [TouchStudent, TouchStudent, TouchStudent];
+    const before = new Map<number, number>();
+    for (const student of chosen!.students) {
+      const rows = (await director.get(`/api/pass-offs?studentId=${student.id}&limit=1000`)).body
+        .rows as PassOff[];
+      before.set(student.id, rows.length);
+    }
+
+    const context = await browser.newContext({
+      viewport: { width: 390, height: 844 },
+      deviceScaleFactor: 2,
+      isMobile: true,
+      hasTouch: true,
+      locale: 'en-US',
+      timezoneId: 'America/Los_Angeles',
+    });
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('director.hpms'));
+    await page.goto(`${app.url}/pass-offs?ensemble=${chosen!.ensembleId}&rung=1`);
+    const name = page.getByTestId('touch-student-name');
+    await expect.poll(() => name.innerText(), { timeout: 30_000 }).toBe(first.name);
+    const scale = (requirement: LadderRequirement) =>
+      page.locator(`[data-testid="touch-scale"][data-code="${requirement.code}"]`);
+
+    // WCAG 2.2 success criterion 2.5.8 asks 24 px; Material Design's touch target is 48 × 48 dp.
+    const targets = await scale(first.asked[0]!)
+      .locator('button')
+      .evaluateAll((buttons) => buttons.map((button) => button.getBoundingClientRect()))
+      .then((boxes) => boxes.map((box) => Math.min(box.width, box.height)));
+    expect(Math.min(...targets)).toBeGreaterThanOrEqual(48);
+
+    // First student: the first scale passed at a preset under tempo, the second not yet.
+    const slower = first.asked[0]!.tempo - 8;
+    await scale(first.asked[0]!)
+      .getByRole('button', { name: `♩ ${slower}`, exact: true })
+      .tap();
+    await scale(first.asked[0]!)
+      .getByRole('button', { name: /^Passed/ })
+      .tap();
+    await scale(first.asked[1]!)
+      .getByRole('button', { name: /^Not yet/ })
+      .tap();
+    await expect
+      .poll(() => scale(first.asked[0]!).getByTestId('touch-state').innerText(), {
+        timeout: 20_000,
+      })
+      .toMatch(new RegExp(`^Passed at ♩ = ${slower} · (Waiting to send|Sending…|Saved)`));
+    await saveScreenshot(page, 'phone-pass-offs-touch');
+
+    // Next student with the button; a tempo typed on the number pad.
+    await page.getByTestId('touch-next').tap();
+    await expect.poll(() => name.innerText()).toBe(second.name);
+    await scale(second.asked[0]!).getByRole('button', { name: 'Other…' }).tap();
+    for (const key of ['9', '7', 'Use']) {
+      await scale(second.asked[0]!).getByRole('button', { name: key, exact: true }).tap();
+    }
+    await scale(second.asked[0]!)
+      .getByRole('button', { name: /^Passed/ })
+      .tap();
+
+    // Next student with a swipe to the left (touch events through the DevTools protocol).
+    const session = await context.newCDPSession(page);
+    const y = 500;
+    await session.send('Input.dispatchTouchEvent', {
+      type: 'touchStart',
+      touchPoints: [{ x: 320, y }],
+    });
+    await session.send('Input.dispatchTouchEvent', {
+      type: 'touchMove',
+      touchPoints: [{ x: 200, y }],
+    });
+    await session.send('Input.dispatchTouchEvent', {
+      type: 'touchMove',
+      touchPoints: [{ x: 80, y }],
+    });
+    await session.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints: [] });
+    await expect.poll(() => name.innerText()).toBe(third.name);
+    await scale(third.asked[0]!)
+      .getByRole('button', { name: /^Passed/ })
+      .tap();
+
+    await expect
+      .poll(() => page.getByTestId('touch-queue').innerText(), { timeout: 30_000 })
+      .toContain('All entries saved');
+    expect(await scale(third.asked[0]!).getByTestId('touch-state').innerText()).toBe(
+      `Passed at ♩ = ${third.asked[0]!.tempo} · Saved`,
+    );
+    const { overflow, widest } = await sidewaysOverflow(page);
+    expect(overflow, widest).toBeLessThanOrEqual(0);
+
+    // On the server: exactly the four entries, each once, each with the key the queue gave it.
+    const recorded = async (studentId: number) =>
+      (
+        (await director.get(`/api/pass-offs?studentId=${studentId}&limit=1000`)).body
+          .rows as PassOff[]
+      )
+        .slice(0, undefined)
+        .filter((passOff) => passOff.clientKey !== null);
+    const firstRows = await recorded(first.id);
+    const secondRows = await recorded(second.id);
+    const thirdRows = await recorded(third.id);
+    const summary = (rows: PassOff[]) =>
+      rows.map((row) => `${row.requirementCode} ${row.tempo} ${row.passed}`).sort();
+    expect(summary(firstRows)).toEqual(
+      [
+        `${first.asked[0]!.code} ${slower} true`,
+        `${first.asked[1]!.code} ${first.asked[1]!.tempo} false`,
+      ].sort(),
+    );
+    expect(summary(secondRows)).toEqual([`${second.asked[0]!.code} 97 true`]);
+    expect(summary(thirdRows)).toEqual([`${third.asked[0]!.code} ${third.asked[0]!.tempo} true`]);
+    const total = async (studentId: number) =>
+      (
+        (await director.get(`/api/pass-offs?studentId=${studentId}&limit=1000`)).body
+          .rows as PassOff[]
+      ).length;
+    expect(await total(first.id)).toBe(before.get(first.id)! + 2);
+    expect(await total(second.id)).toBe(before.get(second.id)! + 1);
+    expect(await total(third.id)).toBe(before.get(third.id)! + 1);
+
+    // A practice sheet on the same phone: the staff wraps to the screen at the size it has on a
+    // desktop, and play, tempo and print sit in the bar at the bottom of the window.
+    await page.goto(
+      `${app.url}/practice?tonic=Bb&mode=major&pattern=cycle-broad&tempo=100&instrument=clarinet`,
+    );
+    const staff = page.getByTestId('sheet-staff');
+    await staff.locator('[role=img][data-notes]').waitFor({ timeout: 30_000 });
+    const drawn = await staff.locator('svg').evaluate((svg) => ({
+      shown: svg.getBoundingClientRect().width,
+      drawn: (svg as SVGSVGElement).viewBox.baseVal.width,
+      right: svg.getBoundingClientRect().right,
+    }));
+    expect(drawn.right).toBeLessThanOrEqual(390);
+    // Drawn at the box's own width: one drawing unit to one CSS pixel, not a 1,000-unit staff
+    // shrunk to a third.
+    expect(drawn.shown / drawn.drawn).toBeGreaterThan(0.95);
+    await staff.scrollIntoViewIfNeeded();
+    const bar = page.getByRole('toolbar', { name: 'Play, tempo and print' });
+    for (const name of [/^(Play|Loading…)/, /^Slower$/, /^Faster$/, /^Print$/]) {
+      const box = await bar.getByRole('button', { name }).boundingBox();
+      expect(box, String(name)).not.toBeNull();
+      // Within the window's bottom fifth, where a thumb reaches (common practice, no source).
+      expect(box!.y + box!.height).toBeLessThanOrEqual(844);
+      expect(box!.y).toBeGreaterThan(844 * 0.8);
+    }
+    const scrolledTo = await page.evaluate(() => window.scrollY);
+    expect(scrolledTo).toBeGreaterThan(0);
+    await bar.getByRole('button', { name: 'Faster' }).tap();
+    await expect.poll(() => page.getByTestId('thumb-tempo').innerText()).toBe('♩ = 104');
+    await staff.locator('[role=img][data-notes]').waitFor({ timeout: 30_000 });
+    // The tap keeps the staff where the reader had it (the router would scroll to the top).
+    await expect.poll(() => page.evaluate(() => window.scrollY)).toBe(scrolledTo);
+    expect((await sidewaysOverflow(page)).overflow).toBeLessThanOrEqual(0);
+    await saveScreenshot(page, 'phone-practice-sheet');
+    await context.close();
+
+    // A tablet held sideways: the icon rail beside the page, and the touch entry in two columns.
+    const tablet = await browser.newContext({
+      viewport: { width: 1180, height: 820 },
+      isMobile: true,
+      hasTouch: true,
+      locale: 'en-US',
+      timezoneId: 'America/Los_Angeles',
+    });
+    const tabletPage = await tablet.newPage();
+    await signInAs(tabletPage, app.url, demoEmail('director.hpms'));
+    await tabletPage.goto(`${app.url}/pass-offs?ensemble=${chosen!.ensembleId}&rung=1`);
+    await expect
+      .poll(() => tabletPage.getByTestId('touch-student-name').innerText(), { timeout: 30_000 })
+      .toBe(first.name);
+    const rail = await tabletPage.locator('nav[aria-label="Main"]').boundingBox();
+    expect(rail!.width).toBeLessThan(120);
+    expect(await tabletPage.getByTestId('menu-button').isVisible()).toBe(false);
+    expect((await sidewaysOverflow(tabletPage)).overflow).toBeLessThanOrEqual(0);
+    await saveScreenshot(tabletPage, 'tablet-landscape-pass-offs-touch');
+    await tablet.close();
+  }, 240_000);
+});
