@@ -33,26 +33,10 @@ async function comparedYears(db: Database, schoolYearId: number | undefined) {
 }
 
 /**
- * How "played in year Y" is read for the student `sy.student_id`: for the current year an active
- * student, for a past year a row of Y's history that did not end withdrawn. A join (hashed over
- * the whole year) rather than a probe per student.
- */
-function playsIn(year: YearRow): { join: SQL; plays: SQL } {
-  return year.current
-    ? {
-        join: sql`join students now on now.id = sy.student_id`,
-        plays: sql`(now.status = 'active')`,
-      }
-    : {
-        join: sql`left join student_years now on now.student_id = sy.student_id
-          and now.school_year_id = ${year.id}`,
-        plays: sql`(now.outcome is not null and now.outcome <> 'withdrawn')`,
-      };
-}
-
-/**
  * Last year's players still in the district (promoted or moving up, not graduated or leaving)
- * of the actor's schools, by the school they played at last year.
+ * of the actor's schools, by the school they played at last year. Whether each played in the
+ * compared year (the one after) is `student_years.continued`, kept by triggers on the roster and
+ * the years, so retention is a grouped count of one indexed table.
  */
 function lastYearPlayers(actor: Actor, previous: YearRow, schoolId: number | undefined): SQL {
   const parts: SQL[] = [
@@ -82,7 +66,6 @@ export async function yearOverYear(
     byTransition: [],
   };
   if (previous) {
-    const playing = playsIn(year);
     const groups = rowsOf<{
       school_id: number;
       code: string;
@@ -95,9 +78,9 @@ export async function yearOverYear(
       await db.execute(sql`
         select g.school_id, sc.code, sc.name, g.grade, g.players, g.continued, g.moving
         from (select sy.school_id, sy.grade, count(*)::int as players,
-            count(*) filter (where ${playing.plays})::int as continued,
+            count(*) filter (where sy.continued)::int as continued,
             count(*) filter (where sy.outcome = 'moving-up')::int as moving
-          from student_years sy ${playing.join}
+          from student_years sy
           where ${lastYearPlayers(actor, previous, options.schoolId)}
           group by sy.school_id, sy.grade) g
         join schools sc on sc.id = g.school_id
@@ -259,14 +242,12 @@ export async function retentionStudents(
 ): Promise<RetentionStudentList> {
   const options = parseInput(retentionStudentsQuerySchema, query, 'The retention list query');
   if (options.schoolId !== undefined) assertInScope(actor, options.schoolId, 'That school');
-  const { year, previous } = await comparedYears(db, options.schoolYearId);
+  const { previous } = await comparedYears(db, options.schoolYearId);
   if (!previous) return { rows: [], total: 0 };
   const parts = [lastYearPlayers(actor, previous, options.schoolId)];
   if (options.grade !== undefined) parts.push(sql`sy.grade = ${options.grade}`);
-  const playing = playsIn(year);
-  const continued = playing.plays;
   if (options.stopped !== undefined)
-    parts.push(options.stopped ? sql`not ${continued}` : continued);
+    parts.push(options.stopped ? sql`not sy.continued` : sql`sy.continued`);
   const where = sql.join(parts, sql` and `);
   const rows = rowsOf<{
     id: number;
@@ -283,9 +264,8 @@ export async function retentionStudents(
     await db.execute(sql`
       select s.id, s.student_number, coalesce(s.preferred_name, s.first_name) as first_name,
         s.last_name, ls.code as last_school_code, sy.grade::int as last_grade, sc.code as school_code,
-        s.grade::int as grade, s.status, ${continued} as continued
+        s.grade::int as grade, s.status, sy.continued
       from student_years sy
-      ${playing.join}
       join students s on s.id = sy.student_id
       join schools ls on ls.id = sy.school_id
       join schools sc on sc.id = s.school_id
@@ -295,7 +275,7 @@ export async function retentionStudents(
   );
   const [counted] = rowsOf<{ total: number }>(
     await db.execute(sql`
-      select count(*)::int as total from student_years sy ${playing.join} where ${where}`),
+      select count(*)::int as total from student_years sy where ${where}`),
   );
   const total = counted?.total ?? 0;
   return {

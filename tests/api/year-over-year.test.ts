@@ -230,4 +230,48 @@ describe('Year over year', () => {
     expect(then.some((row, index) => row.memberCount !== now[index]!.memberCount)).toBe(true);
     expect((await director.get('/api/ensembles?schoolYearId=x')).status).toBe(400);
   });
+
+  it('should follow a status change made today in the counts and the names', async () => {
+    const hpms = schoolId.get('HPMS')!;
+    const figuresOf = async () =>
+      yearOverYearSchema.parse(
+        (await coordinator.get(`/api/analytics/year-over-year?schoolId=${hpms}`)).body,
+      ).retention.total;
+    const before = await figuresOf();
+    const player = lastYear.find(
+      (row) => row.code === 'HPMS' && row.outcome === 'promoted' && row.status === 'active',
+    )!;
+    const setStatus = async (status: string) => {
+      const current = (await director.get(`/api/students/${player.student_id}`)).body as {
+        version: number;
+      };
+      const patch = await director.patch(`/api/students/${player.student_id}`, {
+        status,
+        version: current.version,
+      });
+      expect(patch.status).toBe(200);
+    };
+    await setStatus('withdrawn');
+    // The plain count again, from today's status.
+    const recounted = rowsOf<{ players: number; continued: number }>(
+      await app.database.db.execute(sql`
+        select count(*)::int as players, count(*) filter (where s.status = 'active')::int as continued
+        from student_years sy join school_years y on y.id = sy.school_year_id and y.name = '2025-26'
+        join students s on s.id = sy.student_id
+        where sy.school_id = ${hpms} and sy.outcome in ('promoted', 'moving-up')`),
+    )[0]!;
+    const withdrawn = await figuresOf();
+    expect(withdrawn.continued).toBe(before.continued - 1);
+    expect({ players: withdrawn.players, continued: withdrawn.continued }).toEqual(recounted);
+    const stopped = retentionStudentListSchema.parse(
+      (
+        await coordinator.get(
+          `/api/analytics/retention/students?schoolId=${hpms}&stopped=true&limit=500`,
+        )
+      ).body,
+    );
+    expect(stopped.rows.some((row) => row.id === player.student_id && !row.continued)).toBe(true);
+    await setStatus('active');
+    expect(await figuresOf()).toEqual(before);
+  });
 });

@@ -103,10 +103,17 @@ export const studentYears = pgTable(
       enum: ['promoted', 'moving-up', 'graduated', 'leaving', 'withdrawn'],
     }).notNull(),
     rung: integer('rung').notNull().default(0),
+    /**
+     * Whether the student played in the school year after this one: active now when that year is
+     * the current one, else a row of that year that did not end withdrawn. Kept by triggers
+     * (custom migration `yoy-summary-triggers`) so year-over-year retention is a grouped count.
+     */
+    continued: boolean('continued').notNull().default(false),
   },
   (table) => [
     primaryKey({ columns: [table.studentId, table.schoolYearId] }),
     index('student_years_year_school_idx').on(table.schoolYearId, table.schoolId, table.grade),
+    index('student_years_year_continued_idx').on(table.schoolYearId, table.continued),
   ],
 );
 

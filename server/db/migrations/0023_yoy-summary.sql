@@ -1,0 +1,2 @@
+ALTER TABLE "student_years" ADD COLUMN "continued" boolean DEFAULT false NOT NULL;--> statement-breakpoint
+CREATE INDEX "student_years_year_continued_idx" ON "student_years" USING btree ("school_year_id","continued");
