@@ -71,3 +71,9 @@ AFTER INSERT OR DELETE OR UPDATE OF outcome, school_year_id, student_id ON stude
 FOR EACH STATEMENT EXECUTE FUNCTION student_years_continued_all();
 --> statement-breakpoint
 SELECT refresh_student_years_continued();
+--> statement-breakpoint
+-- Fired in every session role, as the other triggers of ours (migration 0007): a roster import's
+-- transaction runs with session_replication_role = replica and must still keep this column.
+ALTER TABLE students ENABLE ALWAYS TRIGGER students_status_continued;--> statement-breakpoint
+ALTER TABLE school_years ENABLE ALWAYS TRIGGER school_years_continued;--> statement-breakpoint
+ALTER TABLE student_years ENABLE ALWAYS TRIGGER student_years_history_continued;
