@@ -60,9 +60,39 @@ async function drawnNotes(page: Page, scope: string): Promise<number> {
   return Number(await canvas.first().getAttribute('data-notes'));
 }
 
+/**
+ * Where each slur of the sheet starts against the key signature at the head of its line: a slur
+ * continued from the line above starts after the clef and key signature, never on top of them
+ * (common engraving practice, no source). Answers the slurs that start on top of one and how
+ * many start just after one (continued onto a new line).
+ */
+async function slursAgainstKeySignatures(page: Page) {
+  return page.evaluate(() => {
+    const boxes = (selector: string) =>
+      Array.from(document.querySelectorAll(`[data-testid=sheet-staff] svg ${selector}`)).map(
+        (element) => (element as SVGGraphicsElement).getBoundingClientRect(),
+      );
+    const keys = boxes('.vf-keysignature');
+    const onTop: string[] = [];
+    let openingALine = 0;
+    for (const slur of boxes('.vf-slur')) {
+      const middle = (slur.top + slur.bottom) / 2;
+      for (const key of keys) {
+        const sameLine = Math.abs((key.top + key.bottom) / 2 - middle) < 60;
+        if (!sameLine || key.left > slur.right) continue;
+        if (slur.left < key.right - 1)
+          onTop.push(`${slur.left.toFixed(0)} < ${key.right.toFixed(0)}`);
+        else if (slur.left - key.right < 40) openingALine += 1;
+      }
+    }
+    return { onTop, openingALine };
+  });
+}
+
 describe('Practice sheets', () => {
   it('should write concert Bb major in each section’s own key, clef and notes', async () => {
     const { context, outside } = await localOnlyContext(browser);
+    let continuedSlurs = 0;
     const page = await context.newPage();
     await signInAs(page, app.url, demoEmail('director.hpms'), '/practice');
     await page.waitForURL(/\/practice/);
@@ -115,7 +145,12 @@ describe('Practice sheets', () => {
       expect(await drawnNotes(page, '[data-testid=sheet-staff]')).toBe(broadCycleNotes);
       await page.evaluate(() => document.fonts.ready);
       await saveScreenshot(page, `practice-${section.instrument}-brisk`);
+      const slurStarts = await slursAgainstKeySignatures(page);
+      expect(slurStarts.onTop).toEqual([]);
+      continuedSlurs += slurStarts.openingALine;
     }
+    // The band's cycles run onto a second line in the brisk layout, so some slur opens a line.
+    expect(continuedSlurs).toBeGreaterThan(0);
     expect(outside).toEqual([]);
     await context.close();
   });

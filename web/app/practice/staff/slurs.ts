@@ -35,7 +35,8 @@ export function drawSlur(
   const last = segment[segment.length - 1];
   const edge = (note: StaveNote) => (below ? lowestPoint(note) + 5 : highestPoint(note) - 5);
 
-  const x0 = opensBefore ? first.stave.getNoteStartX() - 2 : headCentre(first.note) + 3;
+  // A slur continued from the line above starts just clear of the clef and key signature.
+  const x0 = opensBefore ? first.stave.getNoteStartX() + 3 : headCentre(first.note) + 3;
   const x1 = continuesAfter
     ? last.stave.getX() + last.stave.getWidth() - 3
     : headCentre(last.note) - 3;
