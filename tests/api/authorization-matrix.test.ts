@@ -92,6 +92,12 @@ const matrix: Entry[] = [
   { route: 'GET /api/imports/:id/errors.csv', codes: 'P33333', url: (f) => `/api/imports/${f.importRun}/errors.csv` },
   { route: 'GET /api/imports/:id/undo', codes: 'P33333', url: (f) => `/api/imports/${f.importRun}/undo` },
   { route: 'POST /api/imports/:id/undo', codes: 'P33333', url: (f) => `/api/imports/${f.importRun}/undo` },
+  { route: 'GET /api/oneroster/org-mappings', codes: 'P33333' },
+  { route: 'PUT /api/oneroster/org-mappings', codes: 'P33333' },
+  { route: 'DELETE /api/oneroster/org-mappings/:sourcedId', codes: 'P33333', fresh: freshOrgMapping },
+  { route: 'GET /api/oneroster/sync', codes: 'P33333' },
+  { route: 'PUT /api/oneroster/sync', codes: 'P33333' },
+  { route: 'POST /api/oneroster/sync/run', codes: 'P33333' },
   { route: 'GET /api/students', codes: 'PPP3P3' },
   { route: 'GET /api/students/:id', codes: 'PP4344', url: (f) => `/api/students/${f.hpmsStudent}` },
   { route: 'POST /api/students', codes: 'PPP333' },
@@ -138,6 +144,8 @@ const matrix: Entry[] = [
   { route: 'GET /api/analytics/overview', codes: 'PPP3P3' },
   { route: 'GET /api/analytics/students', codes: 'PPP3P3' },
   { route: 'GET /api/analytics/audition-ready', codes: 'PPP3P3' },
+  { route: 'GET /api/analytics/year-over-year', codes: 'PPP3P3' },
+  { route: 'GET /api/analytics/retention/students', codes: 'PPP3P3' },
   { route: 'GET /api/analytics/students/:id/progress', codes: 'PP4344', url: (f) => `/api/analytics/students/${f.hpmsStudent}/progress` },
   { route: 'GET /api/instruments', codes: 'PPPPP3' },
   { route: 'GET /api/instruments/labels.pdf', codes: 'PP4P43', url: (f) => `/api/instruments/labels.pdf?schoolId=${f.hpms}` },
@@ -213,6 +221,11 @@ async function freshSchool(app: TestApp): Promise<string> {
 async function freshSchedule(app: TestApp): Promise<string> {
   const [row] = rowsOf<{ id: number }>(await app.database.db.execute(sql`insert into report_schedules (kind, cron, time_zone, target, next_run_at, active) values ('district', '0 7 * * 1', 'America/Los_Angeles', '{}'::jsonb, now() + interval '1 day', false) returning id`));
   return `/api/reports/schedules/${row!.id}`;
+}
+async function freshOrgMapping(app: TestApp, fixture: Fixture): Promise<string> {
+  const sourcedId = `matrix-org-${Math.random().toString(36).slice(2)}`;
+  await app.database.db.execute(sql`insert into oneroster_org_schools (sourced_id, org_name, school_id) values (${sourcedId}, 'Matrix Campus', ${fixture.hpms})`);
+  return `/api/oneroster/org-mappings/${sourcedId}`;
 }
 async function freshPreset(app: TestApp): Promise<string> {
   const [row] = rowsOf<{ id: number }>(await app.database.db.execute(sql`insert into import_presets (name, kind, mapping) values (${`matrix ${Math.random()}`}, 'roster', '{}'::jsonb) returning id`));
