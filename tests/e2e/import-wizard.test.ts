@@ -137,6 +137,10 @@ describe('Roster import wizard', () => {
     const effects = page.getByTestId('undo-effects');
     await effects.waitFor();
     expect(await effects.innerText()).toContain('remove 2 students it created');
+    // The picture once the dialog has finished opening (Material fades it in).
+    await page
+      .locator('.mat-mdc-dialog-container.mdc-dialog--open:not(.mdc-dialog--opening)')
+      .waitFor();
     await saveScreenshot(page, 'import-undo');
     await page.getByTestId('undo-confirm').click();
     await expect
