@@ -101,11 +101,14 @@ function largestContentfulPaint(page: Page): Promise<number> {
   );
 }
 
-/** Opens the pass-off sheet and answers its LCP once the grid's first row is painted. */
-async function openSheet(page: Page, url: string): Promise<number> {
+/**
+ * Opens the pass-off sheet and answers its LCP once its entry is painted: the grid's first row
+ * on a desktop, the first scale's card of the touch entry on a phone.
+ */
+async function openSheet(page: Page, url: string, phone: boolean): Promise<number> {
   await page.goto(url, { waitUntil: 'commit' });
   await page
-    .locator('[role=row][row-index="0"] [role=gridcell]')
+    .locator(phone ? '[data-testid=touch-scale]' : '[role=row][row-index="0"] [role=gridcell]')
     .first()
     .waitFor({ timeout: 120_000 });
   // Two frames, so the row that just appeared has been painted and reported.
@@ -134,9 +137,9 @@ async function tapToPaint(page: Page, phone: boolean, row: number): Promise<numb
       buffered: false,
     } as PerformanceObserverInit);
   });
-  const target = page.locator(`[role=row][row-index="${row}"] [role=gridcell]`).nth(1);
-  if (phone) await target.tap();
-  else await target.click();
+  // On a phone the touch entry: a tempo preset of the first scale's card (one tap records it).
+  if (phone) await page.locator('[data-testid=touch-scale] button.tempo').nth(row).tap();
+  else await page.locator(`[role=row][row-index="${row}"] [role=gridcell]`).nth(1).click();
   await page.evaluate(
     () => new Promise((resolve) => requestAnimationFrame(() => requestAnimationFrame(resolve))),
   );
@@ -169,8 +172,9 @@ async function measure(browser: Browser, appUrl: string, sheetPath: string, prof
   const context: BrowserContext = await browser.newContext(
     profile.phone
       ? {
-          // The phone's processor and network on a tablet's touch screen: at 390 px the desktop
-          // layout's rail covers the grid until the small-screen layout lands, and no tap reaches a cell.
+          // A phone's processor and network on a tablet's touch screen (the touch entry, one
+          // student at a time); at 390 px the service worker does not take control within the
+          // bench's two minutes yet, so the phone's own screen waits for that to be found.
           viewport: { width: 820, height: 1180 },
           deviceScaleFactor: 2,
           isMobile: true,
@@ -191,14 +195,14 @@ async function measure(browser: Browser, appUrl: string, sheetPath: string, prof
   });
   await page.goto('about:blank');
   await throttle(session, profile.phone);
-  const coldLcp = await openSheet(page, `${appUrl}${sheetPath}`);
+  const coldLcp = await openSheet(page, `${appUrl}${sheetPath}`, profile.phone);
   const tap = await tapToPaint(page, profile.phone, 1);
   // The worker installs the app's files in the background; the repeat visit is answered by it.
   await throttle(session, false);
   await waitForServiceWorker(page);
   await page.goto('about:blank');
   await throttle(session, profile.phone);
-  const repeatLcp = await openSheet(page, `${appUrl}${sheetPath}`);
+  const repeatLcp = await openSheet(page, `${appUrl}${sheetPath}`, profile.phone);
   await context.close();
   return { coldLcp, repeatLcp, tap } satisfies Measured;
 }
