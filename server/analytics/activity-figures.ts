@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import type { Overview } from '../../shared/api/analytics';
+import type { Overview } from '@shared/api/analytics';
 import { intArray, rowsOf } from '../db/client';
 import type { Queryable } from '../ladder/ladder-queries';
 import type { Actor } from '../core/policy';

@@ -1,7 +1,7 @@
 import { sql, type SQL } from 'drizzle-orm';
 import { districtToday } from '../district/district-clock';
 import { schoolScope, assertInScope, type Actor } from '../core/policy';
-import type { Drill } from '../../shared/api/analytics';
+import type { Drill } from '@shared/api/analytics';
 import { intArray } from '../db/client';
 
 /** The filters every analytics figure takes. */

@@ -4,9 +4,9 @@ import {
   auditionReadyFiltersSchema,
   type AttainmentRow,
   type AuditionReadyRow,
-} from '../../shared/api/analytics';
-import type { ListResponse } from '../../shared/api/list';
-import { benchmarksInForce } from '../../shared/ladder/index';
+} from '@shared/api/analytics';
+import type { ListResponse } from '@shared/api/list';
+import { benchmarksInForce } from '@shared/ladder/index';
 import type { Database } from '../db/client';
 import { intArray, rowsOf } from '../db/client';
 import { badRequest } from '../core/errors';

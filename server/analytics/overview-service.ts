@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { overviewQuerySchema, type Overview } from '../../shared/api/analytics';
+import { overviewQuerySchema, type Overview } from '@shared/api/analytics';
 import type { Database } from '../db/client';
 import { rowsOf } from '../db/client';
 import { parseInput } from '../core/validate';

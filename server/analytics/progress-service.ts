@@ -1,12 +1,12 @@
 import { eq } from 'drizzle-orm';
-import type { StudentProgress } from '../../shared/api/analytics';
+import type { StudentProgress } from '@shared/api/analytics';
 import {
   benchmarksInForce,
   currentRung,
   metRequirements,
   nextRequirements,
   type PassOffRecord,
-} from '../../shared/ladder/index';
+} from '@shared/ladder/index';
 import type { Database } from '../db/client';
 import { studentAttainment, students } from '../db/schema/index';
 import { recomputeAttainment } from '../ladder/attainment';

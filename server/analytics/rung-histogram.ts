@@ -1,6 +1,6 @@
 import { sql } from 'drizzle-orm';
-import type { Overview } from '../../shared/api/analytics';
-import { benchmarksInForce, type Benchmark } from '../../shared/ladder/index';
+import type { Overview } from '@shared/api/analytics';
+import { benchmarksInForce, type Benchmark } from '@shared/ladder/index';
 import { intArray, rowsOf } from '../db/client';
 import type { Queryable } from '../ladder/ladder-queries';
 import type { Actor } from '../core/policy';

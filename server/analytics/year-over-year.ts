@@ -4,7 +4,7 @@ import {
   yearOverYearQuerySchema,
   type RetentionStudentList,
   type YearOverYear,
-} from '../../shared/api/year-over-year';
+} from '@shared/api/year-over-year';
 import type { Database } from '../db/client';
 import { intArray, rowsOf } from '../db/client';
 import { notFound } from '../core/errors';

@@ -1,7 +1,7 @@
 import { readdir, readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { zipSync } from 'fflate';
-import type { ImportResult } from '../../shared/api/import';
+import type { ImportResult } from '@shared/api/import';
 import type { Config } from '../config';
 import { HttpError } from '../core/errors';
 import { runImport, runOneRosterSync, type ImportRun } from '../imports/local-import';

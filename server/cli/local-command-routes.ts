@@ -9,7 +9,7 @@ import { issueToken } from '../tokens/token-service';
 import { localImportHandlers, runOneRosterSync } from '../imports/local-import';
 import { AlreadySetUpError, setUpDistrict } from '../district/district-service';
 import { answerBackup } from '../backup/backup-routes';
-import { yearStartInputSchema } from '../../shared/api/school-year';
+import { yearStartInputSchema } from '@shared/api/school-year';
 import { startSchoolYear } from '../school-years/year-start';
 
 /** The header a local `tutti` command sends with the key from the data folder's lock file. */

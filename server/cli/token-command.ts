@@ -1,7 +1,7 @@
 import type { Config } from '../config';
 import { findUserByEmail } from '../people/people-queries';
 import { issueToken } from '../tokens/token-service';
-import { defaultTokenLifetimeDays } from '../../shared/api/token';
+import { defaultTokenLifetimeDays } from '@shared/api/token';
 import { CommandError } from './command-error';
 import { withCommandDatabase } from './command-database';
 import { callRunningServer, runningServer } from './running-server';

@@ -6,7 +6,7 @@ import {
   yearStartInputSchema,
   type YearStartInput,
   type YearStartResult,
-} from '../../shared/api/school-year';
+} from '@shared/api/school-year';
 import { CommandError } from './command-error';
 import { withCommandDatabase } from './command-database';
 import { callRunningServer, runningServer } from './running-server';

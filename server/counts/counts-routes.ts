@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { countCloseSchema, countScanInputSchema, countStartSchema } from '../../shared/api/count';
+import { countCloseSchema, countScanInputSchema, countStartSchema } from '@shared/api/count';
 import { actorOf, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';

@@ -1,14 +1,14 @@
 import { and, count, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import { countScans, counts, instruments, repairTickets, schools, users } from '../db/schema/index';
-import type { ListResponse } from '../../shared/api/list';
+import type { ListResponse } from '@shared/api/list';
 import {
   countFiltersSchema,
   type Count,
   type CountDetail,
   type CountScan,
   type ScanOutcome,
-} from '../../shared/api/count';
+} from '@shared/api/count';
 import { assertInScope, schoolScope, type Actor } from '../core/policy';
 import { orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';

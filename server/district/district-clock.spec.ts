@@ -1,6 +1,6 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { dayIn, districtToday, useDistrictTimeZone } from './district-clock';
-import { defaultDistrictTimeZone } from '../../shared/api/district';
+import { defaultDistrictTimeZone } from '@shared/api/district';
 
 describe('districtToday', () => {
   afterEach(() => useDistrictTimeZone(defaultDistrictTimeZone));

@@ -1,4 +1,4 @@
-import { defaultDistrictTimeZone } from '../../shared/api/district';
+import { defaultDistrictTimeZone } from '@shared/api/district';
 
 // One district per installation, so one zone per process; district-queries.ts keeps it current.
 let zone = defaultDistrictTimeZone;

@@ -1,5 +1,5 @@
 import sax from 'sax';
-import { logoByteLimit } from '../../shared/api/district';
+import { logoByteLimit } from '@shared/api/district';
 import { badRequest } from '../core/errors';
 
 /** A logo that passed the checks, ready to store. */

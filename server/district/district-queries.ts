@@ -1,6 +1,6 @@
 import type { Database, Transaction } from '../db/client';
 import { districts } from '../db/schema/index';
-import type { District } from '../../shared/api/district';
+import type { District } from '@shared/api/district';
 import { useDistrictTimeZone } from './district-clock';
 
 export type DistrictRow = typeof districts.$inferSelect;

@@ -1,5 +1,5 @@
 import { Router, type NextFunction, type Request, type Response } from 'express';
-import { districtPatchSchema } from '../../shared/api/district';
+import { districtPatchSchema } from '@shared/api/district';
 import { escapeHtml } from '@shared/html/escape-html';
 import { plainPage } from '../auth/plain-page';
 import { actorOf, requires } from '../core/policy';

@@ -7,7 +7,7 @@ import {
   timeZoneSchema,
   type District,
   type DistrictPatch,
-} from '../../shared/api/district';
+} from '@shared/api/district';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import type { Actor } from '../core/policy';

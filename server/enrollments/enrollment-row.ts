@@ -1,4 +1,4 @@
-import type { Enrollment } from '../../shared/api/enrollment';
+import type { Enrollment } from '@shared/api/enrollment';
 import { enrollments, ensembles, schoolYears, schools, students } from '../db/schema/index';
 import { instrumentName } from './instrument-order';
 

@@ -1,6 +1,6 @@
 import { and, asc, count, desc, eq, ilike, or, type AnyColumn, type SQL } from 'drizzle-orm';
-import { enrollmentFiltersSchema, type Enrollment } from '../../shared/api/enrollment';
-import type { ListResponse } from '../../shared/api/list';
+import { enrollmentFiltersSchema, type Enrollment } from '@shared/api/enrollment';
+import type { ListResponse } from '@shared/api/list';
 import type { Database } from '../db/client';
 import { enrollments, ensembles, schoolYears, schools, students } from '../db/schema/index';
 import { badRequest } from '../core/errors';

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { enrollmentInputSchema, enrollmentPatchSchema } from '../../shared/api/enrollment';
+import { enrollmentInputSchema, enrollmentPatchSchema } from '@shared/api/enrollment';
 import { actorOf, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';

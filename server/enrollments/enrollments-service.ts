@@ -1,5 +1,5 @@
 import { and, eq } from 'drizzle-orm';
-import type { Enrollment, EnrollmentInput, EnrollmentPatch } from '../../shared/api/enrollment';
+import type { Enrollment, EnrollmentInput, EnrollmentPatch } from '@shared/api/enrollment';
 import type { Database, Transaction } from '../db/client';
 import { enrollments, ensembles, schoolYears, schools, students } from '../db/schema/index';
 import { recordAudit } from '../core/audit';

@@ -1,4 +1,4 @@
-import { instruments } from '../../shared/music/index';
+import { instruments } from '@shared/music/index';
 
 const names = new Map(instruments.map((instrument) => [instrument.id, instrument.name]));
 const scorePositions = new Map(

@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { ensembleKindLabels, type Ensemble, type EnsembleKind } from '../../shared/api/ensemble';
+import { ensembleKindLabels, type Ensemble, type EnsembleKind } from '@shared/api/ensemble';
 import { ensembles, schools, users } from '../db/schema/index';
 
 type TableKind = (typeof ensembles.$inferSelect)['kind'];

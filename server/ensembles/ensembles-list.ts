@@ -10,8 +10,8 @@ import {
   type AnyColumn,
   type SQL,
 } from 'drizzle-orm';
-import { ensembleFiltersSchema, type Ensemble } from '../../shared/api/ensemble';
-import type { ListResponse } from '../../shared/api/list';
+import { ensembleFiltersSchema, type Ensemble } from '@shared/api/ensemble';
+import type { ListResponse } from '@shared/api/list';
 import type { Database } from '../db/client';
 import { ensembles, schools, users } from '../db/schema/index';
 import { badRequest } from '../core/errors';

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { ensembleInputSchema, ensemblePatchSchema } from '../../shared/api/ensemble';
+import { ensembleInputSchema, ensemblePatchSchema } from '@shared/api/ensemble';
 import { actorOf, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';

@@ -1,11 +1,11 @@
 import { and, count, eq } from 'drizzle-orm';
-import { formatGradeLevel } from '../../shared/roster/grade-level';
+import { formatGradeLevel } from '@shared/roster/grade-level';
 import type {
   EnsembleDetail,
   EnsembleInput,
   EnsembleMember,
   EnsemblePatch,
-} from '../../shared/api/ensemble';
+} from '@shared/api/ensemble';
 import type { Database, Transaction } from '../db/client';
 import { enrollments, ensembles, schools, students, userSchools, users } from '../db/schema/index';
 import { recordAudit } from '../core/audit';

@@ -1,5 +1,5 @@
 import { Router, type Request } from 'express';
-import { gridNamePattern, gridPreferenceInputSchema } from '../../shared/api/grid-preference';
+import { gridNamePattern, gridPreferenceInputSchema } from '@shared/api/grid-preference';
 import { badRequest } from '../core/errors';
 import { actorOf } from '../core/policy';
 import { nothing, parseInput } from '../core/validate';

@@ -1,5 +1,5 @@
 import { and, eq } from 'drizzle-orm';
-import type { GridPreference, GridState } from '../../shared/api/grid-preference';
+import type { GridPreference, GridState } from '@shared/api/grid-preference';
 import type { Database } from '../db/client';
 import { gridPreferences } from '../db/schema/index';
 import { recordAudit } from '../core/audit';

@@ -1,4 +1,4 @@
-import type { ImportResult } from '../../shared/api/import';
+import type { ImportResult } from '@shared/api/import';
 import type { Actor } from '../core/policy';
 import { afterAnswering, type DatabaseHandle } from '../db/client';
 import { refreshStatistics, rosterTables, statisticsStale } from '../db/statistics';

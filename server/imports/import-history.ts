@@ -5,9 +5,9 @@ import {
   type ImportDetail,
   type ImportHistoryEntry,
   type ImportRowError,
-} from '../../shared/api/import';
-import type { ListResponse } from '../../shared/api/list';
-import { csvField } from '../../shared/roster';
+} from '@shared/api/import';
+import type { ListResponse } from '@shared/api/list';
+import { csvField } from '@shared/roster';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';
 import type { Database } from '../db/client';

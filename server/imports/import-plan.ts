@@ -1,11 +1,11 @@
-import { formatGradeLevel, type ColumnMapping, type RosterRow } from '../../shared/roster';
+import { formatGradeLevel, type ColumnMapping, type RosterRow } from '@shared/roster';
 import type {
   FieldChange,
   ImportResult,
   PlannedEnsemble,
   PlannedStudent,
   PlannedUpdate,
-} from '../../shared/api/import';
+} from '@shared/api/import';
 import type { Database } from '../db/client';
 import type { ParsedRoster, RowError } from './parse/parsed-roster';
 import { guessEnsembleKind } from './ensemble-kind';

@@ -1,7 +1,7 @@
 import { asc, eq, and, count } from 'drizzle-orm';
-import type { ImportPreset, ImportPresetInput } from '../../shared/api/import';
-import type { ListResponse } from '../../shared/api/list';
-import type { ColumnMapping } from '../../shared/roster';
+import type { ImportPreset, ImportPresetInput } from '@shared/api/import';
+import type { ListResponse } from '@shared/api/list';
+import type { ColumnMapping } from '@shared/roster';
 import { recordAudit } from '../core/audit';
 import { notFound } from '../core/errors';
 import type { Actor } from '../core/policy';

@@ -4,7 +4,7 @@ import {
   type ImportPreview,
   type PlanSummary,
   type PreviewRow,
-} from '../../shared/api/import';
+} from '@shared/api/import';
 import {
   formatGradeLevel,
   guessMapping,
@@ -12,7 +12,7 @@ import {
   rosterFields,
   type RosterField,
   type RosterRow,
-} from '../../shared/roster';
+} from '@shared/roster';
 import type { ImportPlan } from './import-plan';
 import { decodeText } from './parse/decode';
 import { parseCsvYielding } from './parse/parse-csv';

@@ -1,5 +1,5 @@
-import type { ImportResult } from '../../shared/api/import';
-import type { ColumnMapping } from '../../shared/roster';
+import type { ImportResult } from '@shared/api/import';
+import type { ColumnMapping } from '@shared/roster';
 import type { Actor } from '../core/policy';
 import type { DatabaseHandle } from '../db/client';
 import { commitImport, type ImportMeta } from './import-commit';

@@ -1,8 +1,4 @@
-import {
-  importUndoDays,
-  type ImportUndoPreview,
-  type ImportUndoResult,
-} from '../../shared/api/import';
+import { importUndoDays, type ImportUndoPreview, type ImportUndoResult } from '@shared/api/import';
 import { HttpError, notFound } from '../core/errors';
 import type { Actor } from '../core/policy';
 import type { DatabaseHandle } from '../db/client';

@@ -1,5 +1,5 @@
 import type { DatabaseHandle } from '../db/client';
-import type { RosterRow } from '../../shared/roster';
+import type { RosterRow } from '@shared/roster';
 import { guessEnsembleKind } from './ensemble-kind';
 import { createJournal } from './import-journal';
 import { firstRowOfEachStudent, writtenStudentColumns, type ImportPlan } from './import-plan';

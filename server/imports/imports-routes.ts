@@ -6,7 +6,7 @@ import {
   importPresetInputSchema,
   largestRosterUpload,
   previewFieldsSchema,
-} from '../../shared/api/import';
+} from '@shared/api/import';
 import { HttpError, badRequest } from '../core/errors';
 import { actorOf, requires } from '../core/policy';
 import { nothing, parseId, parseInput } from '../core/validate';

@@ -1,5 +1,5 @@
 import express, { type RequestHandler } from 'express';
-import type { ImportResult, PlannedEnsemble } from '../../shared/api/import';
+import type { ImportResult, PlannedEnsemble } from '@shared/api/import';
 import type { DatabaseHandle } from '../db/client';
 import type { Config } from '../config';
 import { runSync } from '../oneroster/sync-service';

@@ -1,5 +1,5 @@
 import { readFile, stat } from 'node:fs/promises';
-import type { ColumnMapping } from '../../shared/roster';
+import type { ColumnMapping } from '@shared/roster';
 import { decodeText } from './parse/decode';
 import { readBundleFiles } from './parse/oneroster-files';
 import { readOneRosterBundle } from './parse/oneroster';

@@ -6,8 +6,8 @@ import {
   instrumentConditions,
   type FleetImportResult,
   type InstrumentCondition,
-} from '../../shared/api/instrument';
-import { resolveInstrument } from '../../shared/roster/index';
+} from '@shared/api/instrument';
+import { resolveInstrument } from '@shared/roster/index';
 import { decodeText } from '../imports/parse/decode';
 import { parseCsv } from '../imports/parse/parse-csv';
 import { inScope, type Actor } from '../core/policy';

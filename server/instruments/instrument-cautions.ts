@@ -1,4 +1,4 @@
-import { instruments } from '../../shared/music/index';
+import { instruments } from '@shared/music/index';
 
 /**
  * Instruments heavy or bulky enough to need a wheeled case and, where needed, two people to

@@ -8,7 +8,7 @@ import {
   students,
   users,
 } from '../db/schema/index';
-import type { InstrumentDetail } from '../../shared/api/instrument';
+import type { InstrumentDetail } from '@shared/api/instrument';
 import type { Actor } from '../core/policy';
 import { findInstrument } from './instruments-queries';
 import { todayIso } from '../loans/school-calendar';

@@ -1,6 +1,6 @@
 import type { Database, Transaction } from '../db/client';
 import { instrumentEvents } from '../db/schema/index';
-import type { InstrumentEventKind } from '../../shared/api/instrument';
+import type { InstrumentEventKind } from '@shared/api/instrument';
 
 /** One timeline entry to write. */
 export interface InstrumentEventInput {

@@ -4,7 +4,7 @@ import path from 'node:path';
 import { and, eq } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import { instrumentPhotos } from '../db/schema/index';
-import type { InstrumentPhoto } from '../../shared/api/instrument';
+import type { InstrumentPhoto } from '@shared/api/instrument';
 import type { Actor } from '../core/policy';
 import { insertAudited } from '../core/versioned-update';
 import { badRequest, notFound } from '../core/errors';

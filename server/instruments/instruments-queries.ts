@@ -1,9 +1,9 @@
 import { and, count, eq, ilike, inArray, or, sql, type SQL } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
 import { instruments, schools } from '../db/schema/index';
-import { instruments as engineInstruments } from '../../shared/music/index';
-import type { ListResponse } from '../../shared/api/list';
-import { instrumentFiltersSchema, type Instrument } from '../../shared/api/instrument';
+import { instruments as engineInstruments } from '@shared/music/index';
+import type { ListResponse } from '@shared/api/list';
+import { instrumentFiltersSchema, type Instrument } from '@shared/api/instrument';
 import { schoolScope, type Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';

@@ -1,4 +1,4 @@
-import { idParameter } from '../../shared/api/input-rules';
+import { idParameter } from '@shared/api/input-rules';
 import express, { Router, type NextFunction, type Request, type Response } from 'express';
 import { fileNamePrefix } from '../reports/report-render';
 import { districtIdentity } from '../district/district-queries';
@@ -8,7 +8,7 @@ import {
   cleanedInputSchema,
   instrumentInputSchema,
   instrumentPatchSchema,
-} from '../../shared/api/instrument';
+} from '@shared/api/instrument';
 import { actorOf, requires } from '../core/policy';
 import { HttpError, badRequest } from '../core/errors';
 import { parseId, parseInput } from '../core/validate';

@@ -7,7 +7,7 @@ import type {
   InstrumentInput,
   InstrumentPatch,
   InstrumentStatus,
-} from '../../shared/api/instrument';
+} from '@shared/api/instrument';
 import { assertInScope, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, HttpError, notFound } from '../core/errors';

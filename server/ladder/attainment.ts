@@ -1,10 +1,5 @@
 import { sql, type SQL } from 'drizzle-orm';
-import {
-  currentRung,
-  metRequirements,
-  type PassOffRecord,
-  type Rung,
-} from '../../shared/ladder/index';
+import { currentRung, metRequirements, type PassOffRecord, type Rung } from '@shared/ladder/index';
 import { intArray, rowsOf } from '../db/client';
 import { activeRuleLadder, type Queryable } from './ladder-queries';
 import { familyOf, studentInstruments } from './student-families';

@@ -5,9 +5,9 @@ import {
   type PassOffRecord,
   type Requirement,
   type Rung,
-} from '../../shared/ladder/index';
-import type { LadderChangeNote } from '../../shared/api/analytics';
-import { keyName } from '../../shared/music/index';
+} from '@shared/ladder/index';
+import type { LadderChangeNote } from '@shared/api/analytics';
+import { keyName } from '@shared/music/index';
 import { auditLog, ladderVersions } from '../db/schema/index';
 import { loadRungs, toRuleRungs, type Queryable } from './ladder-queries';
 

@@ -4,13 +4,13 @@ import {
   currentRung,
   type PassOffRecord,
   type Rung,
-} from '../../shared/ladder/index';
+} from '@shared/ladder/index';
 import type {
   Ladder,
   LadderBenchmark,
   LadderImpact,
   LadderImpactStudent,
-} from '../../shared/api/ladder';
+} from '@shared/api/ladder';
 import { rowsOf } from '../db/client';
 import { conflict } from '../core/errors';
 import { today } from '../analytics/analytics-scope';

@@ -7,14 +7,9 @@ import {
   ladderVersions,
   users,
 } from '../db/schema/index';
-import type {
-  Ladder,
-  LadderBenchmark,
-  LadderRung,
-  LadderVersionSummary,
-} from '../../shared/api/ladder';
-import type { Requirement, Rung } from '../../shared/ladder/index';
-import type { Articulation, Mode, PatternId } from '../../shared/music/index';
+import type { Ladder, LadderBenchmark, LadderRung, LadderVersionSummary } from '@shared/api/ladder';
+import type { Requirement, Rung } from '@shared/ladder/index';
+import type { Articulation, Mode, PatternId } from '@shared/music/index';
 import { notFound } from '../core/errors';
 
 /** A database or an open transaction. */

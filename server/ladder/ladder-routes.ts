@@ -4,7 +4,7 @@ import {
   ladderImpactStudentsQuerySchema,
   ladderPatchSchema,
   ladderPublishInputSchema,
-} from '../../shared/api/ladder';
+} from '@shared/api/ladder';
 import { ladderImpact, ladderImpactStudents } from './ladder-impact';
 import { actorOf, requires } from '../core/policy';
 import { nothing, parseId, parseInput } from '../core/validate';

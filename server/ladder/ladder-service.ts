@@ -11,8 +11,8 @@ import {
   type LadderPatch,
   type LadderPublishInput,
   type LadderVersionSummary,
-} from '../../shared/api/ladder';
-import type { ListResponse } from '../../shared/api/list';
+} from '@shared/api/ladder';
+import type { ListResponse } from '@shared/api/list';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { can, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';

@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { instruments } from '../../shared/music/index';
+import { instruments } from '@shared/music/index';
 import { rowsOf } from '../db/client';
 import type { Queryable } from './ladder-queries';
 

@@ -1,6 +1,6 @@
 import { createHash, randomBytes } from 'node:crypto';
 import type { Database } from '../db/client';
-import type { AgreementText } from '../../shared/api/loan';
+import type { AgreementText } from '@shared/api/loan';
 import { readSetting, writeSetting } from '../core/settings';
 import type { Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';

@@ -1,7 +1,7 @@
 import { and, eq, lt, sql } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import { instruments, loans, schools, students } from '../db/schema/index';
-import type { ReminderResult } from '../../shared/api/loan';
+import type { ReminderResult } from '@shared/api/loan';
 import { assertInScope, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { loanColumns, loanScope, findLoanRow, type LoanRow } from './loans-queries';

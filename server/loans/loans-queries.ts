@@ -14,8 +14,8 @@ import {
 } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
 import { instruments, loans, schools, students } from '../db/schema/index';
-import type { ListResponse } from '../../shared/api/list';
-import { loanFiltersSchema, type Loan } from '../../shared/api/loan';
+import type { ListResponse } from '@shared/api/list';
+import { loanFiltersSchema, type Loan } from '@shared/api/loan';
 import { can, type Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';

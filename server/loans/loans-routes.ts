@@ -1,13 +1,9 @@
-import { recordId } from '../../shared/api/input-rules';
+import { recordId } from '@shared/api/input-rules';
 import { fileNamePrefix } from '../reports/report-render';
 import { districtIdentity } from '../district/district-queries';
 import { Router } from 'express';
 import { z } from 'zod';
-import {
-  agreementTextInputSchema,
-  checkoutInputSchema,
-  returnInputSchema,
-} from '../../shared/api/loan';
+import { agreementTextInputSchema, checkoutInputSchema, returnInputSchema } from '@shared/api/loan';
 import { actorOf, requires, requiresAny } from '../core/policy';
 import { nothing, parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
@@ -45,9 +41,7 @@ export function loansRoutes({ db, config }: Services): Router {
   router.post('/loans', requires('loans:write'), async (request, response) => {
     const input = parseInput(checkoutInputSchema, request.body, 'The checkout');
     const payToken = config.payments ? await payTokens(db, config) : undefined;
-    response
-      .status(201)
-      .json(await checkOut(db, config.appUrl, actorOf(request), input, payToken));
+    response.status(201).json(await checkOut(db, config.appUrl, actorOf(request), input, payToken));
   });
   router.get('/loans/:id', readLoans, async (request, response) => {
     response.json(await findLoan(db, actorOf(request), parseId(request.params['id'])));

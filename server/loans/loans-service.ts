@@ -2,7 +2,7 @@ import { assertWaiverReason, computeLoanFee } from '../payments/fee-schedule';
 import { and, eq, sql } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import { instruments, loans, repairTickets, students } from '../db/schema/index';
-import type { CheckoutInput, Loan, ReturnInput } from '../../shared/api/loan';
+import type { CheckoutInput, Loan, ReturnInput } from '@shared/api/loan';
 import { assertInScope, inScope, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';

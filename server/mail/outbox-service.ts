@@ -1,12 +1,12 @@
 import { and, count, eq, ilike, inArray, or, sql, type SQL } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import { outboxMessages } from '../db/schema/index';
-import type { ListResponse } from '../../shared/api/list';
+import type { ListResponse } from '@shared/api/list';
 import {
   outboxFiltersSchema,
   type OutboxMessage,
   type OutboxMessageDetail,
-} from '../../shared/api/outbox';
+} from '@shared/api/outbox';
 import type { Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';

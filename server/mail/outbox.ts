@@ -1,7 +1,7 @@
 import { EventEmitter } from 'node:events';
 import type { Database, Transaction } from '../db/client';
 import { outboxMessages, type OutboxAttachment } from '../db/schema/index';
-import type { outboxKinds } from '../../shared/api/outbox';
+import type { outboxKinds } from '@shared/api/outbox';
 
 /** What a queued message is for. */
 export type OutboxKind = (typeof outboxKinds)[number];

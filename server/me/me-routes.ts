@@ -1,6 +1,6 @@
 import { nothing, parseInput } from '../core/validate';
 import { Router } from 'express';
-import type { Me } from '../../shared/api/me';
+import type { Me } from '@shared/api/me';
 import { actorOf, capabilitiesOf, seesAllSchools } from '../core/policy';
 import type { Services } from '../services';
 import { schoolsOf } from '../people/people-queries';

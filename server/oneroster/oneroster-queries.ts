@@ -1,5 +1,5 @@
 import { eq, sql } from 'drizzle-orm';
-import type { OrgMapping, OrgMappingInput } from '../../shared/api/oneroster';
+import type { OrgMapping, OrgMappingInput } from '@shared/api/oneroster';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import type { Actor } from '../core/policy';

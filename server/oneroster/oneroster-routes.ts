@@ -4,7 +4,7 @@ import {
   orgMappingKeySchema,
   syncRunInputSchema,
   syncSettingsInputSchema,
-} from '../../shared/api/oneroster';
+} from '@shared/api/oneroster';
 import { actorOf, requires } from '../core/policy';
 import { nothing, parseInput } from '../core/validate';
 import type { Services } from '../services';

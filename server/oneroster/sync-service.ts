@@ -1,7 +1,7 @@
 import { eq } from 'drizzle-orm';
 import { zipSync, strToU8 } from 'fflate';
-import type { ImportResult } from '../../shared/api/import';
-import type { SyncSettings, SyncSettingsInput } from '../../shared/api/oneroster';
+import type { ImportResult } from '@shared/api/import';
+import type { SyncSettings, SyncSettingsInput } from '@shared/api/oneroster';
 import type { Config } from '../config';
 import { recordAudit } from '../core/audit';
 import { badRequest, conflict } from '../core/errors';

@@ -1,6 +1,6 @@
 import { eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
-import type { PassOff, PassOffStanding, Recording } from '../../shared/api/pass-off';
+import type { PassOff, PassOffStanding, Recording } from '@shared/api/pass-off';
 import {
   ladderRequirements,
   ladderVersions,

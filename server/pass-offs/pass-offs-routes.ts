@@ -5,7 +5,7 @@ import {
   passOffInputSchema,
   passOffPatchSchema,
   recordingSizeLimit,
-} from '../../shared/api/pass-off';
+} from '@shared/api/pass-off';
 import { HttpError } from '../core/errors';
 import { actorOf, requires, requiresAny } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';

@@ -1,8 +1,8 @@
 import { and, count, desc, eq, exists, gte, ilike, lte, or, sql, type SQL } from 'drizzle-orm';
 import { oneByOne, type Database, type Transaction } from '../db/client';
 import { enrollments, passOffs, students } from '../db/schema/index';
-import type { ListResponse } from '../../shared/api/list';
-import { passOffFiltersSchema, type PassOff, type PassOffPatch } from '../../shared/api/pass-off';
+import type { ListResponse } from '@shared/api/list';
+import { passOffFiltersSchema, type PassOff, type PassOffPatch } from '@shared/api/pass-off';
 import { assertInScope, type Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';

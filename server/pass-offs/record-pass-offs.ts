@@ -2,7 +2,7 @@ import { and, eq, inArray } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
 import { enrollments, ladderRequirements, passOffs, students } from '../db/schema/index';
 import { currentSchoolYearId } from '../enrollments/school-year';
-import type { PassOff, PassOffBatchResult, PassOffInput } from '../../shared/api/pass-off';
+import type { PassOff, PassOffBatchResult, PassOffInput } from '@shared/api/pass-off';
 import { assertInScope, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, conflict, notFound } from '../core/errors';

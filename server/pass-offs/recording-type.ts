@@ -1,4 +1,4 @@
-import type { RecordingContentType } from '../../shared/api/pass-off';
+import type { RecordingContentType } from '@shared/api/pass-off';
 
 const ascii = (bytes: Uint8Array, start: number, text: string) =>
   bytes.length >= start + text.length &&

@@ -8,8 +8,8 @@ import {
   schoolYears,
   students,
 } from '../db/schema/index';
-import type { FeeQuote, FeeSchedule } from '../../shared/api/fee';
-import { instrumentById } from '../../shared/music/index';
+import type { FeeQuote, FeeSchedule } from '@shared/api/fee';
+import { instrumentById } from '@shared/music/index';
 import { readSetting, writeSetting } from '../core/settings';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';

@@ -14,7 +14,7 @@ import {
   type FeeList,
   type FeeRow,
   type FeeStatus,
-} from '../../shared/api/fee';
+} from '@shared/api/fee';
 import { can, type Actor } from '../core/policy';
 import { parseListQuery, likePattern } from '../core/list-query';
 import { notFound } from '../core/errors';

@@ -6,7 +6,7 @@ import {
   manualPaymentInputSchema,
   refundInputSchema,
   type FeeRow,
-} from '../../shared/api/fee';
+} from '@shared/api/fee';
 import { actorOf, requires } from '../core/policy';
 import { nothing, parseId, parseInput } from '../core/validate';
 import { recordAudit } from '../core/audit';

@@ -9,7 +9,7 @@ import { formatCents } from '../loans/money';
 import { feeRowOf } from './fees-queries';
 import { loanOfPayToken, startCheckout } from './payments-service';
 import { paymentsClient } from './payments-client';
-import type { FeeRow } from '../../shared/api/fee';
+import type { FeeRow } from '@shared/api/fee';
 
 /** The guardian's pay link of a loan. */
 export function payLinkOf(appUrl: string, token: string): string {

@@ -4,7 +4,7 @@ import type Stripe from 'stripe';
 import type { Config } from '../config';
 import type { Database, Transaction } from '../db/client';
 import { feeLedger, feePaymentAttempts, loans, paymentEvents } from '../db/schema/index';
-import type { Reconciliation, RefundInput } from '../../shared/api/fee';
+import type { Reconciliation, RefundInput } from '@shared/api/fee';
 import { sessionSecret } from '../core/settings';
 import { recordAudit } from '../core/audit';
 import { badRequest, HttpError } from '../core/errors';

@@ -1,4 +1,4 @@
-import { idParameter, plainText } from '../../shared/api/input-rules';
+import { idParameter, plainText } from '@shared/api/input-rules';
 import { and, count, eq, ilike, or, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import { z } from 'zod';
@@ -6,8 +6,8 @@ import { rowsOf, type Database } from '../db/client';
 import { auditLog, schools, users } from '../db/schema/index';
 import type { Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
-import type { ListResponse } from '../../shared/api/list';
-import type { AuditEntryRow } from '../../shared/api/person';
+import type { ListResponse } from '@shared/api/list';
+import type { AuditEntryRow } from '@shared/api/person';
 
 /** An actor's row as the one-statement lookups with `actorColumns` answer it. */
 export interface ActorRow {

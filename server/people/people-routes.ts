@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { personInputSchema, personPatchSchema } from '../../shared/api/person';
+import { personInputSchema, personPatchSchema } from '@shared/api/person';
 import { actorOf, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';

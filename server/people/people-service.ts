@@ -1,10 +1,10 @@
-import { idParameter } from '../../shared/api/input-rules';
+import { idParameter } from '@shared/api/input-rules';
 import { and, asc, count, eq, ilike, inArray, ne, or, sql, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
 import { oneByOne, type Database, type Transaction } from '../db/client';
 import { apiTokens, schools, students, userSchools, users } from '../db/schema/index';
-import type { ListResponse } from '../../shared/api/list';
-import { roles, type Role } from '../../shared/api/roles';
+import type { ListResponse } from '@shared/api/list';
+import { roles, type Role } from '@shared/api/roles';
 import {
   assignmentProblems,
   needsSchools,
@@ -12,7 +12,7 @@ import {
   type PersonDetail,
   type personInputSchema,
   type personPatchSchema,
-} from '../../shared/api/person';
+} from '@shared/api/person';
 import type { Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { replacementQuerySchema } from '../../shared/api/planning';
+import { replacementQuerySchema } from '@shared/api/planning';
 import { actorOf, assertInScope, requires } from '../core/policy';
 import { plannedInstruments } from './planning-queries';
 import { nothing, parseInput } from '../core/validate';

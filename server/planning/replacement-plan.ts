@@ -1,4 +1,4 @@
-import type { ReplacementLine, ReplacementPlan } from '../../shared/api/planning';
+import type { ReplacementLine, ReplacementPlan } from '@shared/api/planning';
 import { familyOf, instrumentNameOf } from '../instruments/instrument-cautions';
 import { serviceLifeOf, serviceLifeYears } from './service-life';
 

@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import { rowsOf } from '../db/client';
-import type { ShortageReport } from '../../shared/api/planning';
+import type { ShortageReport } from '@shared/api/planning';
 import { inScope, type Actor } from '../core/policy';
 import { instrumentNameOf } from '../instruments/instrument-cautions';
 

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { repairInputSchema, repairPatchSchema } from '../../shared/api/repair';
+import { repairInputSchema, repairPatchSchema } from '@shared/api/repair';
 import { actorOf, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';

@@ -1,13 +1,13 @@
 import { and, count, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
 import { instruments, repairTickets, schools, users } from '../db/schema/index';
-import type { ListResponse } from '../../shared/api/list';
+import type { ListResponse } from '@shared/api/list';
 import {
   repairFiltersSchema,
   type Repair,
   type RepairInput,
   type RepairPatch,
-} from '../../shared/api/repair';
+} from '@shared/api/repair';
 import { schoolScope, type Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';

@@ -1,6 +1,6 @@
 import { sql } from 'drizzle-orm';
 import { rowsOf, oneByOne } from '../db/client';
-import type { DirectorReportData } from '../../shared/api/report';
+import type { DirectorReportData } from '@shared/api/report';
 import { notAvailable, tablesExist, type Queryable } from './report-tables';
 import { instrumentName } from './roster-sections';
 

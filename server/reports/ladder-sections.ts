@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm';
 import { rowsOf, oneByOne } from '../db/client';
-import { benchmarksInForce, type Benchmark } from '../../shared/ladder/benchmarks';
-import type { DirectorReportData, ReportStudent } from '../../shared/api/report';
+import { benchmarksInForce, type Benchmark } from '@shared/ladder/benchmarks';
+import type { DirectorReportData, ReportStudent } from '@shared/api/report';
 import { notAvailable, tablesExist, type Queryable } from './report-tables';
 
 /** Days without a pass-off before a student counts as stalled (the Overview's default too). */

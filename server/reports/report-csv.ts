@@ -1,5 +1,5 @@
-import { csvField } from '../../shared/roster/roster-csv';
-import type { DirectorReportData, DistrictReportData, ReportData } from '../../shared/api/report';
+import { csvField } from '@shared/roster/roster-csv';
+import type { DirectorReportData, DistrictReportData, ReportData } from '@shared/api/report';
 import { figureRows } from './report-format';
 
 /** A table of detail rows, first row the column names. */

@@ -1,11 +1,7 @@
 import { oneByOne } from '../db/client';
 import { asc, desc, eq } from 'drizzle-orm';
 import { reportRuns, schools } from '../db/schema/index';
-import type {
-  DirectorReportData,
-  DistrictReportData,
-  ReportFigures,
-} from '../../shared/api/report';
+import type { DirectorReportData, DistrictReportData, ReportFigures } from '@shared/api/report';
 import { notFound } from '../core/errors';
 import { enrolmentSection } from './roster-sections';
 import {

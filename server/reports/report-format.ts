@@ -1,5 +1,5 @@
-import { formatGradeLevel } from '../../shared/roster/grade-level';
-import type { ReportData, ReportFigures } from '../../shared/api/report';
+import { formatGradeLevel } from '@shared/roster/grade-level';
+import type { ReportData, ReportFigures } from '@shared/api/report';
 
 /** A share from 0 to 1 as a whole percentage, or a dash. */
 export function percent(share: number | null): string {

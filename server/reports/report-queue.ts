@@ -1,6 +1,6 @@
 import { reportRuns } from '../db/schema/index';
 import type { Queryable } from './report-tables';
-import type { ReportKind, ReportTarget } from '../../shared/api/report';
+import type { ReportKind, ReportTarget } from '@shared/api/report';
 import { badRequest } from '../core/errors';
 import { enqueueMail } from '../mail/outbox';
 import { assembleDirectorReport, assembleDistrictReport, figuresOf } from './report-data';

@@ -1,4 +1,4 @@
-import type { ReportData } from '../../shared/api/report';
+import type { ReportData } from '@shared/api/report';
 import { csvFilesOf, type ReportCsvFile } from './report-csv';
 import { directorReportHtml, districtReportHtml } from './report-html';
 import { directorReportText, districtReportText } from './report-text';

@@ -1,16 +1,16 @@
-import { idParameter } from '../../shared/api/input-rules';
+import { idParameter } from '@shared/api/input-rules';
 import { and, count, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
 import type { Database } from '../db/client';
 import { reportRuns, schools } from '../db/schema/index';
-import type { ListResponse } from '../../shared/api/list';
+import type { ListResponse } from '@shared/api/list';
 import {
   reportKinds,
   reportPreviewQuerySchema,
   reportSendInputSchema,
   type ReportData,
   type ReportRun,
-} from '../../shared/api/report';
+} from '@shared/api/report';
 import { assertInScope, type Actor } from '../core/policy';
 import { forbidden, notFound } from '../core/errors';
 import { orderFor, parseListQuery } from '../core/list-query';

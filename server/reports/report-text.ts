@@ -1,4 +1,4 @@
-import type { DirectorReportData, DistrictReportData } from '../../shared/api/report';
+import type { DirectorReportData, DistrictReportData } from '@shared/api/report';
 import {
   countChange,
   figureRows,

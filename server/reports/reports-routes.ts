@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { reportScheduleInputSchema, reportSchedulePatchSchema } from '../../shared/api/report';
+import { reportScheduleInputSchema, reportSchedulePatchSchema } from '@shared/api/report';
 import { actorOf, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';

@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm';
 import { rowsOf, oneByOne } from '../db/client';
-import { instruments } from '../../shared/music/index';
-import type { DirectorReportData } from '../../shared/api/report';
+import { instruments } from '@shared/music/index';
+import type { DirectorReportData } from '@shared/api/report';
 import type { Queryable } from './report-tables';
 
 const currentYear = sql`(select y.id from school_years y order by y.current desc, y.starts_on desc limit 1)`;

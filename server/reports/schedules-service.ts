@@ -1,12 +1,8 @@
 import { asc, count, eq } from 'drizzle-orm';
 import type { Database } from '../db/client';
 import { reportSchedules } from '../db/schema/index';
-import type { ListResponse } from '../../shared/api/list';
-import type {
-  ReportSchedule,
-  ReportScheduleInput,
-  ReportSchedulePatch,
-} from '../../shared/api/report';
+import type { ListResponse } from '@shared/api/list';
+import type { ReportSchedule, ReportScheduleInput, ReportSchedulePatch } from '@shared/api/report';
 import type { Actor } from '../core/policy';
 import { notFound } from '../core/errors';
 import { parseListQuery } from '../core/list-query';

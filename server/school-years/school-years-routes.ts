@@ -3,7 +3,7 @@ import {
   schoolYearInputSchema,
   schoolYearPatchSchema,
   yearStartInputSchema,
-} from '../../shared/api/school-year';
+} from '@shared/api/school-year';
 import { actorOf, requires } from '../core/policy';
 import { nothing, parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';

@@ -6,7 +6,7 @@ import type {
   SchoolYearInput,
   SchoolYearList,
   SchoolYearPatch,
-} from '../../shared/api/school-year';
+} from '@shared/api/school-year';
 import type { Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';

@@ -1,10 +1,6 @@
 import { sql } from 'drizzle-orm';
 import { rowsOf, type Database, type Transaction } from '../db/client';
-import type {
-  YearStartCounts,
-  YearStartInput,
-  YearStartResult,
-} from '../../shared/api/school-year';
+import type { YearStartCounts, YearStartInput, YearStartResult } from '@shared/api/school-year';
 import type { Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, HttpError } from '../core/errors';

@@ -1,9 +1,15 @@
 import { Router } from 'express';
-import { schoolInputSchema, schoolPatchSchema } from '../../shared/api/school';
+import { schoolInputSchema, schoolPatchSchema } from '@shared/api/school';
 import { actorOf, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
-import { createSchool, deleteSchool, getSchool, listSchools, updateSchool } from './schools-service';
+import {
+  createSchool,
+  deleteSchool,
+  getSchool,
+  listSchools,
+  updateSchool,
+} from './schools-service';
 
 /** `/api/schools`: everyone with a school view reads; the coordinator changes. */
 export function schoolsRoutes({ db }: Services): Router {

@@ -12,7 +12,7 @@ import {
   students,
   users,
 } from '../db/schema/index';
-import type { InstrumentCondition, InstrumentStatus } from '../../shared/api/instrument';
+import type { InstrumentCondition, InstrumentStatus } from '@shared/api/instrument';
 import { isWindInstrument } from '../instruments/instrument-cautions';
 import { agreementFor, defaultAgreementText, sha256Hex } from '../loans/agreement-text';
 import type { LoanRow } from '../loans/loans-queries';

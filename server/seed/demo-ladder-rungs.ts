@@ -1,5 +1,5 @@
-import type { LadderBenchmark, LadderRequirement, LadderRung } from '../../shared/api/ladder';
-import type { Articulation, PatternId } from '../../shared/music/index';
+import type { LadderBenchmark, LadderRequirement, LadderRung } from '@shared/api/ladder';
+import type { Articulation, PatternId } from '@shared/music/index';
 
 const winds = ['woodwind', 'brass', 'percussion'] as LadderRequirement['families'];
 const strings = ['strings'] as LadderRequirement['families'];

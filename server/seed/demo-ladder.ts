@@ -2,7 +2,7 @@ import { sql } from 'drizzle-orm';
 import type { Transaction } from '../db/client';
 import { rowsOf } from '../db/client';
 import { ladderVersions, passOffs } from '../db/schema/index';
-import { appliesTo } from '../../shared/ladder/index';
+import { appliesTo } from '@shared/ladder/index';
 import { rebuildAttainment } from '../ladder/attainment';
 import { toRuleRungs, writeLadderContent } from '../ladder/ladder-queries';
 import { familyOf, studentInstruments } from '../ladder/student-families';

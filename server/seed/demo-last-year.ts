@@ -2,7 +2,7 @@ import { sql } from 'drizzle-orm';
 import type { Transaction } from '../db/client';
 import { rowsOf } from '../db/client';
 import { enrollments, schoolYears, studentYears, students } from '../db/schema/index';
-import { appliesTo, currentRung, type PassOffRecord, type Rung } from '../../shared/ladder/index';
+import { appliesTo, currentRung, type PassOffRecord, type Rung } from '@shared/ladder/index';
 import { rebuildAttainment } from '../ladder/attainment';
 import { activeRuleLadder } from '../ladder/ladder-queries';
 import { familyOf } from '../ladder/student-families';

@@ -1,5 +1,5 @@
 import { and, eq, inArray, sql } from 'drizzle-orm';
-import type { StudentDetail, StudentMove } from '../../shared/api/student';
+import type { StudentDetail, StudentMove } from '@shared/api/student';
 import type { Database } from '../db/client';
 import { enrollments, ensembles, schoolMoves, schools, students } from '../db/schema/index';
 import { recordAudit } from '../core/audit';

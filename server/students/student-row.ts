@@ -1,5 +1,5 @@
-import { formatGradeLevel } from '../../shared/roster/grade-level';
-import type { Student } from '../../shared/api/student';
+import { formatGradeLevel } from '@shared/roster/grade-level';
+import type { Student } from '@shared/api/student';
 import type { Actor } from '../core/policy';
 import { schools, students } from '../db/schema/index';
 import type { SeatSummary } from './student-seats';

@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import { and, asc, count, desc, eq, inArray, or, sql, type AnyColumn, type SQL } from 'drizzle-orm';
-import type { ListResponse } from '../../shared/api/list';
-import { studentFiltersSchema, type Student } from '../../shared/api/student';
+import type { ListResponse } from '@shared/api/list';
+import { studentFiltersSchema, type Student } from '@shared/api/student';
 import type { Database } from '../db/client';
 import { schools, studentCounts, students } from '../db/schema/index';
 import { badRequest } from '../core/errors';

@@ -11,8 +11,8 @@ import {
   sql,
   type SQL,
 } from 'drizzle-orm';
-import type { ListResponse } from '../../shared/api/list';
-import type { Student } from '../../shared/api/student';
+import type { ListResponse } from '@shared/api/list';
+import type { Student } from '@shared/api/student';
 import type { Database } from '../db/client';
 import { schools, studentYears, students } from '../db/schema/index';
 import { likePattern } from '../core/list-query';

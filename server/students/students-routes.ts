@@ -1,9 +1,5 @@
 import { Router } from 'express';
-import {
-  studentInputSchema,
-  studentMoveSchema,
-  studentPatchSchema,
-} from '../../shared/api/student';
+import { studentInputSchema, studentMoveSchema, studentPatchSchema } from '@shared/api/student';
 import { actorOf, requires, requiresAny } from '../core/policy';
 import { nextPageLink } from '../core/list-query';
 import { parseId, parseInput } from '../core/validate';

@@ -5,7 +5,7 @@ import type {
   StudentEnrollment,
   StudentInput,
   StudentPatch,
-} from '../../shared/api/student';
+} from '@shared/api/student';
 import { rowsOf, type Database, type Transaction } from '../db/client';
 import {
   enrollments,

@@ -6,7 +6,7 @@ import {
   takeInputSchema,
   takeRetentionSchema,
   takeSizeLimit,
-} from '../../shared/api/take';
+} from '@shared/api/take';
 import { HttpError } from '../core/errors';
 import { actorOf, requires, requiresAny } from '../core/policy';
 import { nothing, parseId, parseInput } from '../core/validate';

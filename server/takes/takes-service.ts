@@ -6,8 +6,8 @@ import {
   takeRetentionSchema,
   type Take,
   type TakeRetention,
-} from '../../shared/api/take';
-import type { RecordingContentType } from '../../shared/api/pass-off';
+} from '@shared/api/take';
+import type { RecordingContentType } from '@shared/api/pass-off';
 import { recordAudit } from '../core/audit';
 import { insertAudited } from '../core/versioned-update';
 import { badRequest, forbidden, notFound } from '../core/errors';
@@ -22,7 +22,7 @@ import {
 } from '../pass-offs/recordings-store';
 import type { UploadedFile } from '../pass-offs/recordings-service';
 import type { z } from 'zod';
-import type { heardTakeInputSchema, takeInputSchema } from '../../shared/api/take';
+import type { heardTakeInputSchema, takeInputSchema } from '@shared/api/take';
 import { assertInScope } from '../core/policy';
 
 /** The district setting (server/core/settings.ts) that holds how long takes are kept. */

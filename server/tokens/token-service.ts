@@ -4,7 +4,7 @@ import { rowsOf, type Database } from '../db/client';
 import type { Actor } from '../core/policy';
 import { actorColumns, actorFromRow, type ActorRow } from '../people/people-queries';
 import { apiTokens } from '../db/schema/index';
-import { defaultTokenLifetimeDays } from '../../shared/api/token';
+import { defaultTokenLifetimeDays } from '@shared/api/token';
 
 const tokenPrefix = 'tutti_';
 const lastUsedResolutionMs = 60_000;

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { and, count, desc, eq, type SQL } from 'drizzle-orm';
-import { apiTokenFiltersSchema, apiTokenInputSchema, type ApiToken } from '../../shared/api/token';
+import { apiTokenFiltersSchema, apiTokenInputSchema, type ApiToken } from '@shared/api/token';
 import { apiTokens, users } from '../db/schema/index';
 import { actorOf, can, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
@@ -48,7 +48,11 @@ export function tokensRoutes({ db }: Services): Router {
 
   router.post('/tokens', requires('tokens:own'), async (request, response) => {
     const actor = actorOf(request);
-    const { label, lifetimeDays } = parseInput(apiTokenInputSchema, request.body ?? {}, 'The token');
+    const { label, lifetimeDays } = parseInput(
+      apiTokenInputSchema,
+      request.body ?? {},
+      'The token',
+    );
     const { id, token, expiresAt } = await issueToken(db, actor.userId, label, lifetimeDays);
     await recordAudit(db, actor, {
       action: 'create',
@@ -62,8 +66,14 @@ export function tokensRoutes({ db }: Services): Router {
   router.delete('/tokens/:id', requires('tokens:own'), async (request, response) => {
     const actor = actorOf(request);
     const id = parseId(request.params['id']);
-    const owned = can(actor, 'people:manage') ? eq(apiTokens.id, id) : and(eq(apiTokens.id, id), eq(apiTokens.userId, actor.userId));
-    const [revoked] = await db.update(apiTokens).set({ revokedAt: new Date() }).where(owned).returning({ id: apiTokens.id });
+    const owned = can(actor, 'people:manage')
+      ? eq(apiTokens.id, id)
+      : and(eq(apiTokens.id, id), eq(apiTokens.userId, actor.userId));
+    const [revoked] = await db
+      .update(apiTokens)
+      .set({ revokedAt: new Date() })
+      .where(owned)
+      .returning({ id: apiTokens.id });
     if (!revoked) throw notFound('That token');
     await recordAudit(db, actor, { action: 'revoke', entity: 'api-token', entityId: id });
     response.status(204).end();

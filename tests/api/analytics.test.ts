@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
-import { overviewSchema, studentProgressSchema } from '../../shared/api/analytics';
+import { overviewSchema, studentProgressSchema } from '@shared/api/analytics';
 import { startTestApp, type TestApp } from '../support/test-app';
 import { auditionReady } from '../../server/analytics/attainment-lists';
 import { findUserByEmail, loadActor } from '../../server/people/people-queries';

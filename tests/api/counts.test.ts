@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { countDetailSchema } from '../../shared/api/count';
+import { countDetailSchema } from '@shared/api/count';
 import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;

@@ -4,7 +4,7 @@ import path from 'node:path';
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openDatabase, rowsOf } from '../../server/db/client';
-import { toRosterCsv } from '../../shared/roster';
+import { toRosterCsv } from '@shared/roster';
 import { inventedRoster } from '../bench/roster-import';
 import { runTutti } from '../support/cli';
 import { startServerProcess, type ServerProcess } from '../support/server-process';
@@ -32,7 +32,8 @@ async function query<Row>(text: string, params: unknown[] = []): Promise<Row[]> 
   }
 }
 
-const studentCount = async () => (await query<{ total: number }>('select count(*)::int as total from students'))[0]!.total;
+const studentCount = async () =>
+  (await query<{ total: number }>('select count(*)::int as total from students'))[0]!.total;
 
 describe('Crash safety', () => {
   it('should keep a roster import wholly in or wholly out when the server is killed during it', async () => {
@@ -45,7 +46,11 @@ describe('Crash safety', () => {
       server = await startServerProcess(dataDir);
       const upload = fetch(`${server.url}/api/local/imports`, {
         method: 'POST',
-        headers: { 'x-tutti-local-key': server.localKey, 'x-file-name': 'nightly.csv', 'content-type': 'text/csv' },
+        headers: {
+          'x-tutti-local-key': server.localKey,
+          'x-file-name': 'nightly.csv',
+          'content-type': 'text/csv',
+        },
         body: toRosterCsv(rows),
       }).catch(() => undefined);
       await new Promise((resolve) => setTimeout(resolve, delay));
@@ -81,8 +86,12 @@ describe('Crash safety', () => {
       body: JSON.stringify({ email: 'director.hpms@merrowbasin.example' }),
     }).then(async (response) => ((await response.json()) as { token: string }).token);
     const headers = { authorization: `Bearer ${token}`, 'content-type': 'application/json' };
-    const students = (await (await fetch(`${server.url}/api/students?limit=50&status=active`, { headers })).json()) as { rows: { id: number }[] };
-    const ladder = (await (await fetch(`${server.url}/api/ladder`, { headers })).json()) as { rungs: { requirements: { code: string; tempo: number }[] }[] };
+    const students = (await (
+      await fetch(`${server.url}/api/students?limit=50&status=active`, { headers })
+    ).json()) as { rows: { id: number }[] };
+    const ladder = (await (await fetch(`${server.url}/api/ladder`, { headers })).json()) as {
+      rungs: { requirements: { code: string; tempo: number }[] }[];
+    };
     const requirements = ladder.rungs.flatMap((rung) => rung.requirements);
     expect(students.rows.length).toBeGreaterThan(10);
     expect(requirements.length).toBeGreaterThan(3);
@@ -101,7 +110,11 @@ describe('Crash safety', () => {
           passed: index % 3 !== 0,
           clientKey,
         };
-        const response = await fetch(`${server!.url}/api/pass-offs`, { method: 'POST', headers, body: JSON.stringify(body) }).catch(() => undefined);
+        const response = await fetch(`${server!.url}/api/pass-offs`, {
+          method: 'POST',
+          headers,
+          body: JSON.stringify(body),
+        }).catch(() => undefined);
         if (!response) return;
         if (response.status === 201 || response.status === 200) acknowledged.push(clientKey);
         else statuses.push(`${response.status} ${(await response.text()).slice(0, 200)}`);
@@ -117,7 +130,10 @@ describe('Crash safety', () => {
     stop = true;
     await Promise.all(lanes);
     expect(acknowledged.length, statuses.slice(0, 3).join('\n')).toBeGreaterThan(5);
-    const stored = await query<{ client_key: string }>('select client_key::text from pass_offs where client_key::text = any($1)', [acknowledged]);
+    const stored = await query<{ client_key: string }>(
+      'select client_key::text from pass_offs where client_key::text = any($1)',
+      [acknowledged],
+    );
     expect(stored.map((row) => row.client_key).sort()).toEqual([...acknowledged].sort());
   }, 180_000);
 });

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { instrumentDetailSchema, instrumentSchema } from '../../shared/api/instrument';
-import { listResponseSchema } from '../../shared/api/list';
+import { instrumentDetailSchema, instrumentSchema } from '@shared/api/instrument';
+import { listResponseSchema } from '@shared/api/list';
 import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;

@@ -6,7 +6,7 @@ import { rosterGeneration } from '../../server/imports/roster-snapshot';
 import { schoolYears, schools } from '../../server/db/schema/index';
 import { demoSchoolYear } from '../../server/seed/demo';
 import { demoSchools } from '../../server/seed/demo-people';
-import { toRosterCsv, type RosterRow } from '../../shared/roster';
+import { toRosterCsv, type RosterRow } from '@shared/roster';
 import { inventedRoster } from '../bench/roster-import';
 import { startTestApp, type TestApp } from '../support/test-app';
 

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
-import { importUndoPreviewSchema } from '../../shared/api/import';
+import { importUndoPreviewSchema } from '@shared/api/import';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;

@@ -1,6 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { toRosterCsv } from '../../shared/roster';
+import { toRosterCsv } from '@shared/roster';
 import { inventedRoster } from '../bench/roster-import';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { housekeepingDone, rowsOf } from '../../server/db/client';
-import { toRosterCsv } from '../../shared/roster';
+import { toRosterCsv } from '@shared/roster';
 import { inventedRoster } from '../bench/roster-import';
 import { studentCountDrift } from '../support/student-counts';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';

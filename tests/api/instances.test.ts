@@ -19,7 +19,7 @@ import { importRoster } from '../../server/imports/import-service';
 import { createLogger } from '../../server/logger';
 import { nudgeOutbox } from '../../server/mail/outbox';
 import { runDueSchedules } from '../../server/reports/report-scheduler';
-import { toRosterCsv } from '../../shared/roster';
+import { toRosterCsv } from '@shared/roster';
 import { inventedRoster } from '../bench/roster-import';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 

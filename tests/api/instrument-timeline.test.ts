@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { countDetailSchema } from '../../shared/api/count';
-import { instrumentDetailSchema } from '../../shared/api/instrument';
+import { countDetailSchema } from '@shared/api/count';
+import { instrumentDetailSchema } from '@shared/api/instrument';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;

@@ -5,9 +5,9 @@ import {
   ladderSchema,
   type Ladder,
   type LadderRequirement,
-} from '../../shared/api/ladder';
-import { studentProgressSchema } from '../../shared/api/analytics';
-import { currentRung, type PassOffRecord } from '../../shared/ladder/index';
+} from '@shared/api/ladder';
+import { studentProgressSchema } from '@shared/api/analytics';
+import { currentRung, type PassOffRecord } from '@shared/ladder/index';
 import { toRuleRungs } from '../../server/ladder/ladder-queries';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 

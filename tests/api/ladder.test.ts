@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
-import { ladderSchema } from '../../shared/api/ladder';
-import { currentRung, type PassOffRecord } from '../../shared/ladder/index';
+import { ladderSchema } from '@shared/api/ladder';
+import { currentRung, type PassOffRecord } from '@shared/ladder/index';
 import { rowsOf } from '../../server/db/client';
 import { activeRuleLadder } from '../../server/ladder/ladder-queries';
 import { familyOf, studentInstruments } from '../../server/ladder/student-families';

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
-import { loanSchema } from '../../shared/api/loan';
-import { listResponseSchema } from '../../shared/api/list';
+import { loanSchema } from '@shared/api/loan';
+import { listResponseSchema } from '@shared/api/list';
 import { rowsOf } from '../../server/db/client';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 

@@ -1,8 +1,8 @@
 import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { passOffBatchResultSchema, passOffSchema, type PassOff } from '../../shared/api/pass-off';
-import { ensembleDetailSchema } from '../../shared/api/ensemble';
-import { listResponseSchema } from '../../shared/api/list';
+import { passOffBatchResultSchema, passOffSchema, type PassOff } from '@shared/api/pass-off';
+import { ensembleDetailSchema } from '@shared/api/ensemble';
+import { listResponseSchema } from '@shared/api/list';
 import { passOffsByCell } from '../../web/app/pass-offs/pass-off-entry/entry-sheet';
 import { cellKey, standingPassOff } from '../../web/app/pass-offs/entry-cells';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';

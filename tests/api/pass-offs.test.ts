@@ -2,8 +2,8 @@ import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import request from 'supertest';
-import { passOffBatchResultSchema, passOffSchema } from '../../shared/api/pass-off';
-import { listResponseSchema } from '../../shared/api/list';
+import { passOffBatchResultSchema, passOffSchema } from '@shared/api/pass-off';
+import { listResponseSchema } from '@shared/api/list';
 import { rowsOf } from '../../server/db/client';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 

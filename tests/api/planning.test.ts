@@ -11,7 +11,7 @@ import {
   userSchools,
   users,
 } from '../../server/db/schema/index';
-import { replacementPlanSchema, shortageReportSchema } from '../../shared/api/planning';
+import { replacementPlanSchema, shortageReportSchema } from '@shared/api/planning';
 import { startTestApp, type TestApp } from '../support/test-app';
 
 let app: TestApp;

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { listResponseSchema } from '../../shared/api/list';
-import { repairSchema } from '../../shared/api/repair';
+import { listResponseSchema } from '@shared/api/list';
+import { repairSchema } from '@shared/api/repair';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;

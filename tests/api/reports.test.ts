@@ -3,7 +3,7 @@ import Papa from 'papaparse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ladderVersions, passOffs } from '../../server/db/schema/index';
 import { drainOutbox } from '../../server/mail/mail-worker';
-import { restoreNeutralisedCell } from '../../shared/roster/roster-csv';
+import { restoreNeutralisedCell } from '@shared/roster/roster-csv';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 import { seedTinyDistrict, type TinyDistrict } from './reports-district';
 

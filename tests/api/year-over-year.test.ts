@@ -5,7 +5,7 @@ import {
   retentionStudentListSchema,
   yearOverYearSchema,
   type YearOverYear,
-} from '../../shared/api/year-over-year';
+} from '@shared/api/year-over-year';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 
 interface Ensemble {

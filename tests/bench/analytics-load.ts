@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm';
 import type { DatabaseHandle } from '../../server/db/client';
 import { rowsOf } from '../../server/db/client';
-import { appliesTo } from '../../shared/ladder/index';
+import { appliesTo } from '@shared/ladder/index';
 import { activeRuleLadder } from '../../server/ladder/ladder-queries';
 import { familyOf } from '../../server/ladder/student-families';
 import { SeededRandom } from '../../server/seed/random';

@@ -1,4 +1,4 @@
-import { toRosterCsv } from '../../shared/roster';
+import { toRosterCsv } from '@shared/roster';
 import { housekeepingDone } from '../../server/db/client';
 import { importRoster } from '../../server/imports/import-service';
 import { inventedRoster } from './roster-import';

@@ -1,6 +1,6 @@
 import { PitchDetector } from 'pitchy';
-import { analyseTake } from '../../shared/listening';
-import { pattern, type PatternNote } from '../../shared/music';
+import { analyseTake } from '@shared/listening';
+import { pattern, type PatternNote } from '@shared/music';
 import { synthTake } from '../support/synth-take';
 import { figure, percentile, type BenchFigure } from './bench-figure';
 

@@ -1,5 +1,5 @@
 import { performance } from 'node:perf_hooks';
-import { toRosterCsv, type RosterRow } from '../../shared/roster';
+import { toRosterCsv, type RosterRow } from '@shared/roster';
 import {
   housekeepingDone,
   migrateDatabase,

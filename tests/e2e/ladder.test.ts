@@ -2,8 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
-import type { Ladder, LadderRequirement } from '../../shared/api/ladder';
-import { instrumentById } from '../../shared/music/index';
+import type { Ladder, LadderRequirement } from '@shared/api/ladder';
+import { instrumentById } from '@shared/music/index';
 
 let app: TestApp;
 let browser: Browser;

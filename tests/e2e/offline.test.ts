@@ -2,10 +2,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
-import type { EnsembleDetail } from '../../shared/api/ensemble';
-import type { Ladder, LadderRequirement } from '../../shared/api/ladder';
-import type { PassOff } from '../../shared/api/pass-off';
-import { findInstrument } from '../../shared/music/index';
+import type { EnsembleDetail } from '@shared/api/ensemble';
+import type { Ladder, LadderRequirement } from '@shared/api/ladder';
+import type { PassOff } from '@shared/api/pass-off';
+import { findInstrument } from '@shared/music/index';
 
 let app: TestApp;
 let browser: Browser;

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Locator, Page } from 'playwright-core';
-import { overviewSchema, type Overview } from '../../shared/api/analytics';
+import { overviewSchema, type Overview } from '@shared/api/analytics';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 import {
   chooseOption,

@@ -8,11 +8,11 @@ import {
   saveScreenshot,
   signInAs,
 } from '../support/browser';
-import type { EnsembleDetail } from '../../shared/api/ensemble';
-import type { Ladder, LadderRequirement } from '../../shared/api/ladder';
-import type { PassOff } from '../../shared/api/pass-off';
-import type { StudentProgress } from '../../shared/api/analytics';
-import { findInstrument } from '../../shared/music/index';
+import type { EnsembleDetail } from '@shared/api/ensemble';
+import type { Ladder, LadderRequirement } from '@shared/api/ladder';
+import type { PassOff } from '@shared/api/pass-off';
+import type { StudentProgress } from '@shared/api/analytics';
+import { findInstrument } from '@shared/music/index';
 
 let app: TestApp;
 let browser: Browser;

@@ -1,8 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { listResponseSchema } from '../../shared/api/list';
-import { reportPreviewSchema, reportRunSchema } from '../../shared/api/report';
-import { schoolSchema } from '../../shared/api/school';
+import { listResponseSchema } from '@shared/api/list';
+import { reportPreviewSchema, reportRunSchema } from '@shared/api/report';
+import { schoolSchema } from '@shared/api/school';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
 

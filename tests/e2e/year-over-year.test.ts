@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Locator, Page } from 'playwright-core';
-import { yearOverYearSchema, type YearOverYear } from '../../shared/api/year-over-year';
+import { yearOverYearSchema, type YearOverYear } from '@shared/api/year-over-year';
 import { rowsOf } from '../../server/db/client';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 import {

@@ -1,4 +1,4 @@
-import { instrumentNamedIn, type ColumnMapping } from '../../../shared/roster';
+import { instrumentNamedIn, type ColumnMapping } from '@shared/roster';
 import { bundleFileNames, readBundleFiles, type BundleInput } from './oneroster-files';
 import { byFileAndLine, readBundleLayout } from './oneroster-manifest';
 import { OrgSchools, type OrgMatching } from './oneroster-orgs';

@@ -7,7 +7,7 @@ import {
   rosterRowSchema,
   toRosterCsv,
   type RosterRow,
-} from '../../../shared/roster';
+} from '@shared/roster';
 import { readOneRosterBundle } from './oneroster';
 import { parseRosterCsv } from './parse-roster';
 import type { ParsedRoster } from './parsed-roster';

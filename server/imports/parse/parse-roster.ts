@@ -6,7 +6,7 @@ import {
   rosterFields,
   type ColumnMapping,
   type RosterField,
-} from '../../../shared/roster';
+} from '@shared/roster';
 import { decodeText } from './decode';
 import { csvSteps } from './parse-csv';
 import type { ParsedRoster, RowError } from './parsed-roster';

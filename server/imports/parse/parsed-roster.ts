@@ -1,4 +1,4 @@
-import type { ColumnMapping, RosterRow } from '../../../shared/roster';
+import type { ColumnMapping, RosterRow } from '@shared/roster';
 
 /**
  * One problem found in an upload. `line` is the physical line of the file where the record

@@ -4,7 +4,7 @@ import {
   rosterRowSchema,
   type RosterField,
   type RosterRow,
-} from '../../../shared/roster';
+} from '@shared/roster';
 import type { ParsedRoster, RowError } from './parsed-roster';
 
 /** A would-be roster row and where each of its values came from, for the errors. */

@@ -8,8 +8,8 @@ import {
   type Count,
   type CountDetail,
   type CountScan,
-} from '../../../shared/api/count';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+} from '@shared/api/count';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import { parsedWith } from '../core/parse';
 
 const countListSchema = listResponseSchema(countSchema);

@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import { districtSchema, type District, type DistrictPatch } from '../../../shared/api/district';
+import { districtSchema, type District, type DistrictPatch } from '@shared/api/district';
 import { parsedWith } from '../core/parse';
 
 /** Reads and changes the district's settings through the API. */

@@ -8,8 +8,8 @@ import {
   type EnsembleDetail,
   type EnsembleInput,
   type EnsemblePatch,
-} from '../../../shared/api/ensemble';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+} from '@shared/api/ensemble';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import { parsedWith } from '../core/parse';
 
 const ensembleListSchema = listResponseSchema(ensembleSchema);
@@ -26,7 +26,9 @@ export class EnsembleData {
   }
 
   /** The ensembles of the school `schoolId()`, by name; idle while it is undefined. */
-  ofSchool(schoolId: () => number | undefined): HttpResourceRef<ListResponse<Ensemble> | undefined> {
+  ofSchool(
+    schoolId: () => number | undefined,
+  ): HttpResourceRef<ListResponse<Ensemble> | undefined> {
     return httpResource(
       () => {
         const id = schoolId();

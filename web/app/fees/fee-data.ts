@@ -15,8 +15,8 @@ import {
   type FeeSummary,
   type Reconciliation,
   type RefundInput,
-} from '../../../shared/api/fee';
-import { reminderResultSchema, type ReminderResult } from '../../../shared/api/loan';
+} from '@shared/api/fee';
+import { reminderResultSchema, type ReminderResult } from '@shared/api/loan';
 import { parsedWith } from '../core/parse';
 
 /** Usage fees through `/api/fees`: the ledger, refunds, payments by hand and the schedule. */

@@ -15,14 +15,10 @@ import {
   type ImportPreview,
   type ImportResult,
   type ImportUndoResult,
-} from '../../../shared/api/import';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
-import {
-  orgMappingSchema,
-  type OrgMapping,
-  type OrgMappingInput,
-} from '../../../shared/api/oneroster';
-import type { ColumnMapping } from '../../../shared/roster/roster-columns';
+} from '@shared/api/import';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
+import { orgMappingSchema, type OrgMapping, type OrgMappingInput } from '@shared/api/oneroster';
+import type { ColumnMapping } from '@shared/roster/roster-columns';
 import { parsedWith } from '../core/parse';
 
 const historySchema = listResponseSchema(importHistoryEntrySchema);

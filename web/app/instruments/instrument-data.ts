@@ -1,7 +1,7 @@
 import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
   fleetImportResultSchema,
   instrumentDetailSchema,
@@ -13,7 +13,7 @@ import {
   type InstrumentInput,
   type InstrumentPatch,
   type InstrumentPhoto,
-} from '../../../shared/api/instrument';
+} from '@shared/api/instrument';
 import { parsedWith } from '../core/parse';
 
 const instrumentListSchema = listResponseSchema(instrumentSchema);

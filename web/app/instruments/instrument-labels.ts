@@ -1,6 +1,6 @@
-import type { InstrumentCondition, InstrumentStatus } from '../../../shared/api/instrument';
-import type { InstrumentFamily } from '../../../shared/music/instrument-data';
-import { instrumentById } from '../../../shared/music/instruments';
+import type { InstrumentCondition, InstrumentStatus } from '@shared/api/instrument';
+import type { InstrumentFamily } from '@shared/music/instrument-data';
+import { instrumentById } from '@shared/music/instruments';
 
 /** How a status reads on screen: words and an icon, never a colour alone. */
 export interface StatusLook {

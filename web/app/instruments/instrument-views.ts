@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { catchError, forkJoin, map, of, switchMap, type Observable } from 'rxjs';
-import { gridPreferenceSchema, type GridState } from '../../../shared/api/grid-preference';
+import { gridPreferenceSchema, type GridState } from '@shared/api/grid-preference';
 import { parsedWith } from '../core/parse';
 
 /** The filters a saved view of the fleet keeps. */

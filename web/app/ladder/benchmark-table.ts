@@ -1,4 +1,4 @@
-import type { LadderBenchmark } from '../../../shared/api/ladder';
+import type { LadderBenchmark } from '@shared/api/ladder';
 import { dateText } from './date-text';
 
 /** The benchmarks as a table: one row per grade, one column per date. */

@@ -12,7 +12,7 @@ import {
   type LadderImpactStudent,
   type LadderPatch,
   type LadderVersionSummary,
-} from '../../../shared/api/ladder';
+} from '@shared/api/ladder';
 import { parsedWith } from '../core/parse';
 
 const versionListSchema = z.object({

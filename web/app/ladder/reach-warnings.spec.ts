@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { LadderRung } from '../../../shared/api/ladder';
+import type { LadderRung } from '@shared/api/ladder';
 import { reachWarnings } from './reach-warnings';
 
 const rung = (

@@ -1,4 +1,4 @@
-import type { LadderBenchmark, LadderRung } from '../../../shared/api/ladder';
+import type { LadderBenchmark, LadderRung } from '@shared/api/ladder';
 import {
   instruments,
   keyName,
@@ -6,7 +6,7 @@ import {
   levelReach,
   schoolLevelNames,
   type SchoolLevel,
-} from '../../../shared/music';
+} from '@shared/music';
 
 /** A requirement some section cannot play at the grades expected to reach its rung. */
 export interface ReachWarning {

@@ -1,5 +1,5 @@
-import type { LadderRequirement, LadderRung } from '../../../shared/api/ladder';
-import type { InstrumentFamily } from '../../../shared/music';
+import type { LadderRequirement, LadderRung } from '@shared/api/ladder';
+import type { InstrumentFamily } from '@shared/music';
 import { articulationLabels, familyLabels, modeLabels, patternLabels } from '../practice/labels';
 
 /** A tonic with real accidentals, as a player reads it: 'Bb' → 'B♭', 'F#' → 'F♯'. */

@@ -1,7 +1,7 @@
 import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
   agreementTextSchema,
   loanSchema,
@@ -11,7 +11,7 @@ import {
   type Loan,
   type ReminderResult,
   type ReturnInput,
-} from '../../../shared/api/loan';
+} from '@shared/api/loan';
 import { parsedWith } from '../core/parse';
 
 const loanListSchema = listResponseSchema(loanSchema);

@@ -9,18 +9,18 @@ import {
   type AttainmentRow,
   type AuditionReadyRow,
   type Overview,
-} from '../../../shared/api/analytics';
-import { ladderSchema, type Ladder } from '../../../shared/api/ladder';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
-import { passOffSchema, type PassOff } from '../../../shared/api/pass-off';
-import { instrumentSchema, type Instrument } from '../../../shared/api/instrument';
-import { loanSchema, type Loan } from '../../../shared/api/loan';
+} from '@shared/api/analytics';
+import { ladderSchema, type Ladder } from '@shared/api/ladder';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
+import { passOffSchema, type PassOff } from '@shared/api/pass-off';
+import { instrumentSchema, type Instrument } from '@shared/api/instrument';
+import { loanSchema, type Loan } from '@shared/api/loan';
 import {
   retentionStudentSchema,
   yearOverYearSchema,
   type RetentionStudent,
   type YearOverYear,
-} from '../../../shared/api/year-over-year';
+} from '@shared/api/year-over-year';
 import { parsedWith } from '../core/parse';
 
 /** The Overview's filters: one school and one grade, or the whole scope. */

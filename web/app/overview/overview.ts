@@ -15,7 +15,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatIconModule } from '@angular/material/icon';
 import { MatButtonModule } from '@angular/material/button';
 import { of } from 'rxjs';
-import type { Overview as OverviewFigures } from '../../../shared/api/analytics';
+import type { Overview as OverviewFigures } from '@shared/api/analytics';
 import { CurrentUser } from '../core/auth/current-user';
 import { ChartCard } from '../core/charts/chart-card/chart-card';
 import type { DrillTarget } from '../core/charts/chart-figure';
@@ -34,7 +34,7 @@ import { QuietDirectors } from './quiet-directors/quiet-directors';
 import { OverviewSchoolList } from './school-list/school-list';
 import { FirstDayGuide } from './first-day-guide/first-day-guide';
 import { YearOverYearSection } from './year-over-year/year-over-year';
-import type { SchoolYear } from '../../../shared/api/school-year';
+import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../school-years/year-picker/year-picker';
 
 const wholeNumber = (text: string | undefined) =>

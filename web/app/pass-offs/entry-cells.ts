@@ -1,5 +1,5 @@
-import type { LadderRequirement } from '../../../shared/api/ladder';
-import type { PassOff } from '../../../shared/api/pass-off';
+import type { LadderRequirement } from '@shared/api/ladder';
+import type { PassOff } from '@shared/api/pass-off';
 import type { EntryStatus } from './pass-off-queue';
 
 /** A pass-off being typed into a cell, before it joins the queue. */

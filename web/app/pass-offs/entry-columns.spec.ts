@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { LadderRequirement } from '../../../shared/api/ladder';
+import type { LadderRequirement } from '@shared/api/ladder';
 import { entryColumns } from './entry-columns';
 
 const requirement = (code: string, optional: boolean): LadderRequirement => ({

@@ -1,5 +1,5 @@
 import type { ColDef, ICellRendererParams } from 'ag-grid-community';
-import type { LadderRequirement } from '../../../shared/api/ladder';
+import type { LadderRequirement } from '@shared/api/ladder';
 import { keyText, requirementSummary, familiesText } from '../ladder/requirement-text';
 import { cellHtml, type CellView } from './entry-cells';
 

@@ -1,6 +1,6 @@
 import { Injectable, computed, inject, signal } from '@angular/core';
-import type { LadderRequirement } from '../../../shared/api/ladder';
-import { passOffInputSchema } from '../../../shared/api/pass-off';
+import type { LadderRequirement } from '@shared/api/ladder';
+import { passOffInputSchema } from '@shared/api/pass-off';
 import { cellKey, draftTempo, type CellDraft } from './entry-cells';
 import { PassOffQueue, type EnteredPassOff, type QueueEntry } from './pass-off-queue';
 

@@ -1,8 +1,8 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { EMPTY, expand, map, reduce, type Observable } from 'rxjs';
-import { attainmentRowSchema, type AttainmentRow } from '../../../shared/api/analytics';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import { attainmentRowSchema, type AttainmentRow } from '@shared/api/analytics';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
   passOffBatchResultSchema,
   passOffSchema,
@@ -12,7 +12,7 @@ import {
   type PassOffInput,
   type PassOffPatch,
   type Recording,
-} from '../../../shared/api/pass-off';
+} from '@shared/api/pass-off';
 import { parsedWith } from '../core/parse';
 
 const passOffListSchema = listResponseSchema(passOffSchema);

@@ -1,7 +1,7 @@
 import { httpResource } from '@angular/common/http';
 import { Injectable, computed } from '@angular/core';
 import { z } from 'zod';
-import { takeSchema, type Take } from '../../../shared/api/take';
+import { takeSchema, type Take } from '@shared/api/take';
 import { cellKey } from './entry-cells';
 
 /** The takes students sent to the director, by entry-grid cell (student and requirement). */

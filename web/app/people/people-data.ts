@@ -1,7 +1,7 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { map, type Observable } from 'rxjs';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
   auditEntrySchema,
   personDetailSchema,
@@ -11,8 +11,8 @@ import {
   type PersonDetail,
   type PersonInput,
   type PersonPatch,
-} from '../../../shared/api/person';
-import { studentSchema, type Student } from '../../../shared/api/student';
+} from '@shared/api/person';
+import { studentSchema, type Student } from '@shared/api/student';
 import { parsedWith } from '../core/parse';
 
 const personListSchema = listResponseSchema(personSchema);

@@ -1,9 +1,9 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
-import { createdTokenSchema, type CreatedToken } from '../../../shared/api/person';
-import { apiTokenSchema, type ApiToken, type ApiTokenInput } from '../../../shared/api/token';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
+import { createdTokenSchema, type CreatedToken } from '@shared/api/person';
+import { apiTokenSchema, type ApiToken, type ApiTokenInput } from '@shared/api/token';
 import { parsedWith } from '../core/parse';
 
 const tokenListSchema = listResponseSchema(apiTokenSchema);

@@ -6,7 +6,7 @@ import {
   shortageReportSchema,
   type ReplacementPlan,
   type ShortageReport,
-} from '../../../shared/api/planning';
+} from '@shared/api/planning';
 import { parsedWith } from '../core/parse';
 
 /** The fleet's plans through `/api/planning`: replacement by depreciation, and shortages. */

@@ -1,9 +1,4 @@
-import {
-  instrumentById,
-  toConcert,
-  transpositionSize,
-  type InstrumentSpec,
-} from '../../../shared/music';
+import { instrumentById, toConcert, transpositionSize, type InstrumentSpec } from '@shared/music';
 import { withAccidentalSigns } from './labels';
 
 /** How a caption names an instrument in running text where the name alone reads oddly. */

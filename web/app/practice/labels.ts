@@ -5,7 +5,7 @@ import {
   type Key,
   type Mode,
   type PatternId,
-} from '../../../shared/music';
+} from '@shared/music';
 
 /**
  * Text with its note names written with real accidentals, as the ladder writes them ('Eb

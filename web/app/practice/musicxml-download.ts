@@ -1,4 +1,4 @@
-import { keyName, toMusicXml } from '../../../shared/music';
+import { keyName, toMusicXml } from '@shared/music';
 import { patternLabels } from './labels';
 import { musicXmlFileName, type ReadySheet } from './sheet';
 

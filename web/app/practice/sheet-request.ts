@@ -13,7 +13,7 @@ import {
   type PatternId,
   type PatternPitch,
   type SchoolLevel,
-} from '../../../shared/music';
+} from '@shared/music';
 
 /** Everything that picks one practice sheet; each field is also a query parameter of /practice. */
 export interface SheetRequest {

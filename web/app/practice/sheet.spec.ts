@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { midi, schoolRange, toMusicXml } from '../../../shared/music';
+import { midi, schoolRange, toMusicXml } from '@shared/music';
 import { buildSheet, type ReadySheet } from './sheet';
 import { defaultSheetRequest, type SheetRequest } from './sheet-request';
 

@@ -16,7 +16,7 @@ import {
   type LevelReach,
   type PatternNote,
   type StaffClef,
-} from '../../../shared/music';
+} from '@shared/music';
 import { instrumentInText, octaveNote } from './instrument-label';
 import { keyWords, secondsText, withAccidentalSigns } from './labels';
 import type { SheetRequest } from './sheet-request';

@@ -1,12 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import {
-  repairSchema,
-  type Repair,
-  type RepairInput,
-  type RepairPatch,
-} from '../../../shared/api/repair';
+import { repairSchema, type Repair, type RepairInput, type RepairPatch } from '@shared/api/repair';
 import { parsedWith } from '../core/parse';
 
 /** Repair tickets through `/api/repairs`. */

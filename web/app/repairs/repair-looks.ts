@@ -1,4 +1,4 @@
-import type { RepairStatus } from '../../../shared/api/repair';
+import type { RepairStatus } from '@shared/api/repair';
 import type { StatusLook } from '../instruments/instrument-labels';
 
 /** Each repair ticket status in words, with its icon. */

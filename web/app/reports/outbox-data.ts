@@ -1,13 +1,13 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
   outboxMessageDetailSchema,
   outboxMessageSchema,
   type OutboxMessage,
   type OutboxMessageDetail,
-} from '../../../shared/api/outbox';
+} from '@shared/api/outbox';
 import { parsedWith } from '../core/parse';
 
 /** The outbox's filters and page. */

@@ -1,7 +1,7 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
   reportPreviewSchema,
   reportRunSchema,
@@ -12,7 +12,7 @@ import {
   type ReportSchedule,
   type ReportScheduleInput,
   type ReportSendInput,
-} from '../../../shared/api/report';
+} from '@shared/api/report';
 import { parsedWith } from '../core/parse';
 
 /** What a preview asks for: the kind, the school of a director report, and the period. */

@@ -10,7 +10,7 @@ import {
   type SchoolYearList,
   type SchoolYearPatch,
   type YearStartResult,
-} from '../../../shared/api/school-year';
+} from '@shared/api/school-year';
 import { parsedWith } from '../core/parse';
 
 /** What the start form sends (the shared input before its defaults are applied). */

@@ -1,8 +1,8 @@
 import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import { listResponseSchema, type ListResponse } from '../../../shared/api/list';
-import { schoolSchema, type School, type SchoolInput, type SchoolPatch } from '../../../shared/api/school';
+import { listResponseSchema, type ListResponse } from '@shared/api/list';
+import { schoolSchema, type School, type SchoolInput, type SchoolPatch } from '@shared/api/school';
 import { parsedWith } from '../core/parse';
 
 const schoolListSchema = listResponseSchema(schoolSchema);

@@ -1,4 +1,4 @@
-import type { School } from '../../../shared/api/school';
+import type { School } from '@shared/api/school';
 
 /** How each school level reads on screen. */
 export const schoolLevelLabels: Record<School['level'], string> = {

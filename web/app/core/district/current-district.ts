@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject, signal } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
-import type { District } from '../../../../shared/api/district';
+import type { District } from '@shared/api/district';
 
 /** The district the app runs for (name, logo, time zone), loaded once and shared by every page. */
 @Injectable({ providedIn: 'root' })
@@ -18,7 +18,7 @@ export class CurrentDistrict {
     // The schema is imported lazily so zod stays out of the initial bundle.
     this.loading ??= Promise.all([
       firstValueFrom(this.http.get('/api/district')),
-      import('../../../../shared/api/district'),
+      import('@shared/api/district'),
     ])
       .then(([body, { districtSchema }]) => {
         const district = districtSchema.parse(body);

@@ -1,4 +1,4 @@
-import { csvField } from '../../../../shared/roster/roster-csv';
+import { csvField } from '@shared/roster/roster-csv';
 
 /** One column of an exported view: its heading and how a row's cell reads as text. */
 export interface CsvColumn<Row> {

@@ -1,5 +1,5 @@
 import type { ColumnState } from 'ag-grid-community';
-import type { GridState } from '../../../../shared/api/grid-preference';
+import type { GridState } from '@shared/api/grid-preference';
 
 /** The layout worth remembering from the grid's column state: order, widths, hidden columns, sort. */
 export function layoutOf(columnState: readonly ColumnState[]): GridState {

@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { catchError, map, of, type Observable } from 'rxjs';
-import { gridPreferenceSchema, type GridState } from '../../../../shared/api/grid-preference';
+import { gridPreferenceSchema, type GridState } from '@shared/api/grid-preference';
 import { parsedWith } from '../parse';
 
 /** Each user's remembered grid layouts, through `/api/grid-preferences/:grid`. */

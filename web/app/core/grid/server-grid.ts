@@ -29,7 +29,7 @@ import type {
   RowClickedEvent,
 } from 'ag-grid-community';
 import { z } from 'zod';
-import { listResponseSchema } from '../../../../shared/api/list';
+import { listResponseSchema } from '@shared/api/list';
 import { errorMessage } from '../parse';
 import { map } from 'rxjs';
 import { columnCsv } from './column-csv';

@@ -14,7 +14,7 @@ import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { NavigationEnd, Router, RouterOutlet } from '@angular/router';
 import { filter } from 'rxjs';
 import { MatIcon } from '@angular/material/icon';
-import { roleLabels } from '../../../../shared/api/roles';
+import { roleLabels } from '@shared/api/roles';
 import { CurrentUser } from '../auth/current-user';
 import { CurrentDistrict } from '../district/current-district';
 import { LastVisit } from '../offline/last-visit';

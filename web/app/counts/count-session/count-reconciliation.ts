@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import type { CountDetail } from '../../../../shared/api/count';
+import type { CountDetail } from '@shared/api/count';
 
 /** One group of the reconciliation, as a card with its count and its instruments. */
 interface Group {

@@ -16,7 +16,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
 import { Subject, catchError, concatMap, map, of } from 'rxjs';
-import type { CountDetail, CountScan, ScanOutcome } from '../../../../shared/api/count';
+import type { CountDetail, CountScan, ScanOutcome } from '@shared/api/count';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { ConfirmDialog } from '../../core/confirm-dialog/confirm-dialog';

@@ -5,7 +5,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { agreementTextInputSchema, agreementTextSchema } from '../../../../shared/api/loan';
+import { agreementTextInputSchema, agreementTextSchema } from '@shared/api/loan';
 import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { dayText } from '../../instruments/instrument-labels';

@@ -21,7 +21,7 @@ import {
   logoByteLimit,
   timeZoneSchema,
   type District,
-} from '../../../../shared/api/district';
+} from '@shared/api/district';
 import { CurrentDistrict } from '../../core/district/current-district';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';

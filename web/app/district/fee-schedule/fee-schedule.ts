@@ -2,7 +2,7 @@ import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import { feeScheduleSchema, type FeeSchedule } from '../../../../shared/api/fee';
+import { feeScheduleSchema, type FeeSchedule } from '@shared/api/fee';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { centsOf, money } from '../../instruments/instrument-labels';
@@ -36,8 +36,7 @@ export class FeeScheduleEditor {
   protected readonly scheduleNotice = signal('');
 
   protected editSchedule(change: (schedule: FeeSchedule) => FeeSchedule): void {
-    if (this.schedule.hasValue())
-      this.schedule.set(change(structuredClone(this.schedule.value())));
+    if (this.schedule.hasValue()) this.schedule.set(change(structuredClone(this.schedule.value())));
   }
 
   protected setEntryFee(index: number, text: string): void {

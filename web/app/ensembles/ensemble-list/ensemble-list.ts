@@ -10,14 +10,14 @@ import {
   ensembleKinds,
   ensembleSortFields,
   type Ensemble,
-} from '../../../../shared/api/ensemble';
+} from '@shared/api/ensemble';
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { injectSchoolChoices } from '../../schools/school-choices';
 
 /** The ensembles of the user's schools, filtered by school and kind. */
-import type { SchoolYear } from '../../../../shared/api/school-year';
+import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 
 @Component({

@@ -10,7 +10,7 @@ import type {
   FeeStatus,
   FeeSummary,
   Reconciliation,
-} from '../../../../shared/api/fee';
+} from '@shared/api/fee';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';

@@ -5,11 +5,7 @@ import { MatDialog } from '@angular/material/dialog';
 import { toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { MatIconModule } from '@angular/material/icon';
 import { catchError, map, of, startWith, switchMap } from 'rxjs';
-import {
-  importUndoDays,
-  type ImportHistoryEntry,
-  type ImportUndoResult,
-} from '../../../../shared/api/import';
+import { importUndoDays, type ImportHistoryEntry, type ImportUndoResult } from '@shared/api/import';
 import { PageState } from '../../core/state/page-state';
 import { RosterImports } from '../roster-imports';
 import { UndoDialog } from '../undo-dialog/undo-dialog';

@@ -1,4 +1,4 @@
-import type { ImportResult } from '../../../../shared/api/import';
+import type { ImportResult } from '@shared/api/import';
 
 /** A count and the noun phrase that goes with it ("1 row", "4 rows"). */
 export function counted(count: number, one: string, many: string): string {

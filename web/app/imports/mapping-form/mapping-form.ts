@@ -22,7 +22,7 @@ import {
   rosterFields,
   type ColumnMapping,
   type RosterField,
-} from '../../../../shared/roster/roster-columns';
+} from '@shared/roster/roster-columns';
 import { errorMessage } from '../../core/parse';
 import { RosterImports } from '../roster-imports';
 

@@ -1,8 +1,8 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
-import type { FieldChange, PlannedUpdate, PlanSummary } from '../../../../shared/api/import';
-import { formatGradeLevel } from '../../../../shared/roster/grade-level';
-import { rosterFieldLabels } from '../../../../shared/roster/roster-columns';
-import { describeSeatMoves } from '../../../../shared/roster/seat-moves';
+import type { FieldChange, PlannedUpdate, PlanSummary } from '@shared/api/import';
+import { formatGradeLevel } from '@shared/roster/grade-level';
+import { rosterFieldLabels } from '@shared/roster/roster-columns';
+import { describeSeatMoves } from '@shared/roster/seat-moves';
 
 /** One line of a student's changes: a field's before and after, or their ensemble moves. */
 interface ChangeLine {

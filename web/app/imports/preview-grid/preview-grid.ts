@@ -9,13 +9,13 @@ import {
   type ColDef,
   type Module,
 } from 'ag-grid-community';
-import type { PreviewRow } from '../../../../shared/api/import';
+import type { PreviewRow } from '@shared/api/import';
 import {
   rosterFieldLabels,
   rosterFields,
   type ColumnMapping,
   type RosterField,
-} from '../../../../shared/roster/roster-columns';
+} from '@shared/roster/roster-columns';
 
 const modules: Module[] = [
   ClientSideRowModelModule,

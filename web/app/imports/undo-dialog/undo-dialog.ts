@@ -7,7 +7,7 @@ import {
   importUndoPreviewSchema,
   type ImportHistoryEntry,
   type ImportUndoResult,
-} from '../../../../shared/api/import';
+} from '@shared/api/import';
 import { WhenPipe } from '../../core/format/formats';
 import { errorMessage } from '../../core/parse';
 import { RosterImports } from '../roster-imports';

@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, input, output, signal } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { largestRosterUpload } from '../../../../shared/api/import';
+import { largestRosterUpload } from '@shared/api/import';
 
 /** Where a roster file is dropped or picked, with the upload's progress. */
 @Component({

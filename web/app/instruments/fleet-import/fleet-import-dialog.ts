@@ -3,7 +3,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatDialogModule, MatDialogRef } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { fleetCsvColumns, type FleetImportResult } from '../../../../shared/api/instrument';
+import { fleetCsvColumns, type FleetImportResult } from '@shared/api/instrument';
 import { errorMessage } from '../../core/parse';
 import { FleetInstruments } from '../instrument-data';
 

@@ -1,8 +1,8 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
-import type { Instrument } from '../../../../shared/api/instrument';
-import type { SchoolSummary } from '../../../../shared/api/me';
+import type { Instrument } from '@shared/api/instrument';
+import type { SchoolSummary } from '@shared/api/me';
 import { InstrumentForm } from './instrument-form';
 
 /** What the add-instrument dialog needs. */

@@ -15,15 +15,15 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import type { SchoolSummary } from '../../../../shared/api/me';
+import type { SchoolSummary } from '@shared/api/me';
 import {
   instrumentConditions,
   instrumentInputSchema,
   manualInstrumentStatuses,
   type Instrument,
   type InstrumentCondition,
-} from '../../../../shared/api/instrument';
-import { instrumentFamilies, instruments } from '../../../../shared/music/instrument-data';
+} from '@shared/api/instrument';
+import { instrumentFamilies, instruments } from '@shared/music/instrument-data';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { FleetInstruments } from '../instrument-data';

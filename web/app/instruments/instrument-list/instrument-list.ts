@@ -21,8 +21,8 @@ import {
   type Instrument,
   type InstrumentCondition,
   type InstrumentStatus,
-} from '../../../../shared/api/instrument';
-import { instrumentFamilies } from '../../../../shared/music/instrument-data';
+} from '@shared/api/instrument';
+import { instrumentFamilies } from '@shared/music/instrument-data';
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';

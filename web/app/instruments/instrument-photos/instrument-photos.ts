@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, inject, input, output, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import type { InstrumentPhoto } from '../../../../shared/api/instrument';
+import type { InstrumentPhoto } from '@shared/api/instrument';
 import { errorMessage } from '../../core/parse';
 import { FleetInstruments } from '../instrument-data';
 import { dayText } from '../instrument-labels';

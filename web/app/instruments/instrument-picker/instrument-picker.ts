@@ -13,7 +13,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { Subject, catchError, debounceTime, map, of, switchMap } from 'rxjs';
-import type { Instrument, InstrumentStatus } from '../../../../shared/api/instrument';
+import type { Instrument, InstrumentStatus } from '@shared/api/instrument';
 import { FleetInstruments } from '../instrument-data';
 import { statusLooks } from '../instrument-labels';
 

@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import type { InstrumentEvent, InstrumentEventKind } from '../../../../shared/api/instrument';
+import type { InstrumentEvent, InstrumentEventKind } from '@shared/api/instrument';
 import { dayText } from '../instrument-labels';
 
 /** Each timeline entry in words, with its icon. */

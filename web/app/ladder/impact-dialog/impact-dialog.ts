@@ -6,7 +6,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { of } from 'rxjs';
-import { draftNameMark, type Ladder, type LadderImpactGroup } from '../../../../shared/api/ladder';
+import { draftNameMark, type Ladder, type LadderImpactGroup } from '@shared/api/ladder';
 import { errorMessage } from '../../core/parse';
 import { gradeText } from '../date-text';
 import { LadderData } from '../ladder-data';

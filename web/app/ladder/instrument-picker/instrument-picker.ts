@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, input, model } from '@angular/core';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
-import { instrumentFamilies, instruments, type InstrumentSpec } from '../../../../shared/music';
+import { instrumentFamilies, instruments, type InstrumentSpec } from '@shared/music';
 import { familyLabels } from '../../practice/labels';
 
 const groups: { label: string; instruments: InstrumentSpec[] }[] = instrumentFamilies.map(

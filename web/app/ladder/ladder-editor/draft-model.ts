@@ -4,8 +4,8 @@ import type {
   LadderPatch,
   LadderRequirement,
   LadderRung,
-} from '../../../../shared/api/ladder';
-import { isMinor, majorTonics, minorTonics, type Mode } from '../../../../shared/music';
+} from '@shared/api/ladder';
+import { isMinor, majorTonics, minorTonics, type Mode } from '@shared/music';
 
 /** The benchmarks as the editor holds them: dates across, grades down, a rung in each cell. */
 export interface BenchmarkGrid {

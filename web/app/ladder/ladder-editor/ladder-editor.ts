@@ -15,7 +15,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import { firstValueFrom, type Observable } from 'rxjs';
-import type { Ladder, LadderRequirement, LadderRung } from '../../../../shared/api/ladder';
+import type { Ladder, LadderRequirement, LadderRung } from '@shared/api/ladder';
 import { isConflict } from '../../core/forms/record-form';
 import { errorMessage, fieldErrorsOf } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';

@@ -6,13 +6,9 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { firstValueFrom } from 'rxjs';
 import { Router, RouterLink } from '@angular/router';
-import type {
-  Ladder,
-  LadderRequirement,
-  LadderVersionSummary,
-} from '../../../../shared/api/ladder';
-import type { StudentProgress } from '../../../../shared/api/analytics';
-import { instrumentById } from '../../../../shared/music';
+import type { Ladder, LadderRequirement, LadderVersionSummary } from '@shared/api/ladder';
+import type { StudentProgress } from '@shared/api/analytics';
+import { instrumentById } from '@shared/music';
 import { reachWarnings } from '../reach-warnings';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';

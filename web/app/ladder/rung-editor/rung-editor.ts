@@ -6,15 +6,9 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import type { LadderRequirement, LadderRung } from '../../../../shared/api/ladder';
-import { requirementTempoRange } from '../../../../shared/api/ladder';
-import {
-  articulations,
-  instrumentFamilies,
-  modes,
-  patternIds,
-  type Mode,
-} from '../../../../shared/music';
+import type { LadderRequirement, LadderRung } from '@shared/api/ladder';
+import { requirementTempoRange } from '@shared/api/ladder';
+import { articulations, instrumentFamilies, modes, patternIds, type Mode } from '@shared/music';
 import { articulationLabels, familyLabels, modeLabels, patternLabels } from '../../practice/labels';
 import type { FieldErrors } from '../ladder-editor/draft-model';
 import { tonicsForMode } from '../ladder-editor/draft-model';

@@ -1,4 +1,4 @@
-import { instruments } from '../../../../shared/music/instrument-data';
+import { instruments } from '@shared/music/instrument-data';
 
 /**
  * The accessories that usually travel with a school instrument, by family (common practice, no

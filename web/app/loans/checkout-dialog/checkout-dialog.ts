@@ -13,10 +13,10 @@ import {
   instrumentConditions,
   type Instrument,
   type InstrumentCondition,
-} from '../../../../shared/api/instrument';
-import { feeQuoteSchema } from '../../../../shared/api/fee';
-import type { CheckoutInput, Loan } from '../../../../shared/api/loan';
-import type { Student } from '../../../../shared/api/student';
+} from '@shared/api/instrument';
+import { feeQuoteSchema } from '@shared/api/fee';
+import type { CheckoutInput, Loan } from '@shared/api/loan';
+import type { Student } from '@shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { InstrumentPicker } from '../../instruments/instrument-picker/instrument-picker';

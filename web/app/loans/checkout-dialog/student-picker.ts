@@ -12,8 +12,8 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { Subject, catchError, debounceTime, map, of, switchMap } from 'rxjs';
-import { listResponseSchema } from '../../../../shared/api/list';
-import { studentSchema, type Student } from '../../../../shared/api/student';
+import { listResponseSchema } from '@shared/api/list';
+import { studentSchema, type Student } from '@shared/api/student';
 import { parsedWith } from '../../core/parse';
 
 const studentListSchema = listResponseSchema(studentSchema);

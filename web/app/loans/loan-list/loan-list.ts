@@ -14,7 +14,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatTabsModule } from '@angular/material/tabs';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
-import { loanSortFields, type Loan } from '../../../../shared/api/loan';
+import { loanSortFields, type Loan } from '@shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';

@@ -11,7 +11,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import type { Loan } from '../../../../shared/api/loan';
+import type { Loan } from '@shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { conditionLabels, dayText, money } from '../../instruments/instrument-labels';

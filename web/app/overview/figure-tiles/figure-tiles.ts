@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, input, output } from '@angular/core';
 import { NgTemplateOutlet } from '@angular/common';
 import { MatIconModule } from '@angular/material/icon';
-import type { Overview } from '../../../../shared/api/analytics';
+import type { Overview } from '@shared/api/analytics';
 import type { DrillTarget } from '../../core/charts/chart-figure';
 import type { FleetFigures, OverviewFilters } from '../overview-data';
 import { overallShare } from '../overview-charts/benchmark-share';

@@ -1,4 +1,4 @@
-import type { Overview } from '../../../../shared/api/analytics';
+import type { Overview } from '@shared/api/analytics';
 import { chartBase, categoryAxis, valueAxis } from '../../core/charts/chart-base';
 import type { ChartFigure, DrillTarget } from '../../core/charts/chart-figure';
 import { chartPalette, chartText } from '../../core/charts/chart-palette';

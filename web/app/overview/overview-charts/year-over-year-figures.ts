@@ -1,4 +1,4 @@
-import type { YearOverYear } from '../../../../shared/api/year-over-year';
+import type { YearOverYear } from '@shared/api/year-over-year';
 import { chartBase, categoryAxis, valueAxis } from '../../core/charts/chart-base';
 import type { ChartFigure, DrillTarget } from '../../core/charts/chart-figure';
 import { chartPalette, chartText, seriesColour } from '../../core/charts/chart-palette';

@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
-import type { Overview } from '../../../../shared/api/analytics';
+import type { Overview } from '@shared/api/analytics';
 
 /** The directors who have entered no pass-off for a while, so the coordinator can check in. */
 @Component({

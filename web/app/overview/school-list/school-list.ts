@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import { CountPipe } from '../../core/format/formats';
 import { RouterLink } from '@angular/router';
-import type { School } from '../../../../shared/api/school';
+import type { School } from '@shared/api/school';
 
 /** The user's schools as a compact list, each linking to its page. */
 @Component({

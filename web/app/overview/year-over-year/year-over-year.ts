@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, output } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
-import type { SchoolYear } from '../../../../shared/api/school-year';
+import type { SchoolYear } from '@shared/api/school-year';
 import { ChartCard } from '../../core/charts/chart-card/chart-card';
 import type { DrillTarget } from '../../core/charts/chart-figure';
 import { PageState } from '../../core/state/page-state';

@@ -13,9 +13,9 @@ import {
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
-import type { TakeAnalysis } from '../../../../shared/listening';
-import { pattern, PatternRangeError, type PatternNote } from '../../../../shared/music';
-import type { LadderRequirement } from '../../../../shared/api/ladder';
+import type { TakeAnalysis } from '@shared/listening';
+import { pattern, PatternRangeError, type PatternNote } from '@shared/music';
+import type { LadderRequirement } from '@shared/api/ladder';
 import { analyseInWorker } from '../../practice/take-panel/take-job';
 import { TakeRecorder } from '../../practice/take-panel/take-recorder';
 import { Takes } from '../../practice/take-panel/takes';

@@ -1,6 +1,6 @@
 import { Injectable, computed, inject, signal } from '@angular/core';
 import { forkJoin } from 'rxjs';
-import type { PassOff } from '../../../../shared/api/pass-off';
+import type { PassOff } from '@shared/api/pass-off';
 import { errorMessage } from '../../core/parse';
 import { EnsembleData } from '../../ensembles/ensemble-data';
 import type { EntryRow } from '../entry-columns';

@@ -1,6 +1,6 @@
-import type { EnsembleMember } from '../../../../shared/api/ensemble';
-import type { PassOff } from '../../../../shared/api/pass-off';
-import { findInstrument } from '../../../../shared/music';
+import type { EnsembleMember } from '@shared/api/ensemble';
+import type { PassOff } from '@shared/api/pass-off';
+import { findInstrument } from '@shared/music';
 import type { EntryRow } from '../entry-columns';
 import { cellKey } from '../entry-cells';
 import type { PassOffQueue } from '../pass-off-queue';

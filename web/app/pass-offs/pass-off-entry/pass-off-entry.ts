@@ -30,9 +30,9 @@ import type {
   GridReadyEvent,
 } from 'ag-grid-community';
 import { firstValueFrom, forkJoin, map } from 'rxjs';
-import type { Ensemble } from '../../../../shared/api/ensemble';
-import type { Ladder, LadderRequirement } from '../../../../shared/api/ladder';
-import type { PassOff } from '../../../../shared/api/pass-off';
+import type { Ensemble } from '@shared/api/ensemble';
+import type { Ladder, LadderRequirement } from '@shared/api/ladder';
+import type { PassOff } from '@shared/api/pass-off';
 import { CurrentUser } from '../../core/auth/current-user';
 import { gridTheme } from '../../core/grid/grid-theme';
 import { errorMessage } from '../../core/parse';
@@ -65,7 +65,7 @@ const touchQueries = ['(pointer: coarse)', '(max-width: 839.98px)'];
  * Pass-offs: a director's entry grid, the students of one ensemble against the requirements of
  * one rung, keyboard first and saved as it goes, with each student's history beside it.
  */
-import type { SchoolYear } from '../../../../shared/api/school-year';
+import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 import { PastPassOffs } from '../past-pass-offs/past-pass-offs';
 

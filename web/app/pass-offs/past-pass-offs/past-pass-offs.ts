@@ -1,8 +1,8 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { Router } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
-import { passOffSortFields, type PassOff } from '../../../../shared/api/pass-off';
-import type { SchoolYear } from '../../../../shared/api/school-year';
+import { passOffSortFields, type PassOff } from '@shared/api/pass-off';
+import type { SchoolYear } from '@shared/api/school-year';
 import { ServerGrid } from '../../core/grid/server-grid';
 
 /**

@@ -12,12 +12,8 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
-import type { LadderRung } from '../../../../shared/api/ladder';
-import {
-  recordingContentTypes,
-  recordingSizeLimit,
-  type PassOff,
-} from '../../../../shared/api/pass-off';
+import type { LadderRung } from '@shared/api/ladder';
+import { recordingContentTypes, recordingSizeLimit, type PassOff } from '@shared/api/pass-off';
 import { errorMessage } from '../../core/parse';
 import { dateText } from '../../ladder/date-text';
 import { keyText, requirementsByCode, tempoText } from '../../ladder/requirement-text';

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { passOffInputSchema } from '../../../../shared/api/pass-off';
+import { passOffInputSchema } from '@shared/api/pass-off';
 import { tempoPresets } from './tempo-presets';
 
 describe('tempoPresets', () => {

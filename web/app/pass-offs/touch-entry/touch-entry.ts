@@ -10,7 +10,7 @@ import {
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import type { LadderRequirement } from '../../../../shared/api/ladder';
+import type { LadderRequirement } from '@shared/api/ladder';
 import { appliesToFamily, keyText, patternText, tempoText } from '../../ladder/requirement-text';
 import { cellKey, type CellView } from '../entry-cells';
 import type { EntryRow } from '../entry-columns';

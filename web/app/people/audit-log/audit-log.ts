@@ -6,7 +6,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import type { AuditEntryRow } from '../../../../shared/api/person';
+import type { AuditEntryRow } from '@shared/api/person';
 import { PageState } from '../../core/state/page-state';
 import { PeopleData } from '../people-data';
 import {

@@ -22,9 +22,9 @@ import {
   personInputSchema,
   type Person,
   type PersonDetail,
-} from '../../../../shared/api/person';
-import { roleLabels, roles, type Role } from '../../../../shared/api/roles';
-import type { Student } from '../../../../shared/api/student';
+} from '@shared/api/person';
+import { roleLabels, roles, type Role } from '@shared/api/roles';
+import type { Student } from '@shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { injectSchoolChoices } from '../../schools/school-choices';

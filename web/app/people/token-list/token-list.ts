@@ -9,12 +9,12 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { catchError, map, of } from 'rxjs';
-import type { CreatedToken } from '../../../../shared/api/person';
+import type { CreatedToken } from '@shared/api/person';
 import {
   defaultTokenLifetimeDays,
   longestTokenLifetimeDays,
   type ApiToken,
-} from '../../../../shared/api/token';
+} from '@shared/api/token';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';

@@ -3,7 +3,7 @@ import { Clipboard } from '@angular/cdk/clipboard';
 import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
-import type { CreatedToken } from '../../../../shared/api/person';
+import type { CreatedToken } from '@shared/api/person';
 import { WhenPipe } from '../../core/format/formats';
 
 /** Shows a new API token the one time it can be seen, with a copy button. */

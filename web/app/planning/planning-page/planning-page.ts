@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
-import type { ReplacementPlan, ShortageReport } from '../../../../shared/api/planning';
+import type { ReplacementPlan, ShortageReport } from '@shared/api/planning';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { dayText, money } from '../../instruments/instrument-labels';

@@ -1,9 +1,9 @@
 import { ChangeDetectionStrategy, Component, computed, input, linkedSignal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { RouterLink } from '@angular/router';
-import type { ReplacementLine } from '../../../../shared/api/planning';
+import type { ReplacementLine } from '@shared/api/planning';
 import { conditionLabels, dayText, money } from '../../instruments/instrument-labels';
-import type { InstrumentCondition } from '../../../../shared/api/instrument';
+import type { InstrumentCondition } from '@shared/api/instrument';
 
 const firstRows = 60;
 const percent = new Intl.NumberFormat('en-US', { style: 'percent', maximumFractionDigits: 0 });

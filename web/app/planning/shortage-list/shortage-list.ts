@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import type { ShortageReport } from '../../../../shared/api/planning';
+import type { ShortageReport } from '@shared/api/planning';
 
 /** Per school, the district-provided instruments its players lack, and transfers that would help. */
 @Component({

@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import { instruments, type InstrumentFamily } from '../../../../shared/music';
+import { instruments, type InstrumentFamily } from '@shared/music';
 import { instrumentInText } from '../instrument-label';
 import { articulationLabels, clefLabels, keyWords, patternLabels } from '../labels';
 import { buildSheet, type Sheet } from '../sheet';

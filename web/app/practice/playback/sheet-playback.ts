@@ -1,5 +1,5 @@
 import { Injectable, signal } from '@angular/core';
-import { frequency, type PatternNote } from '../../../../shared/music';
+import { frequency, type PatternNote } from '@shared/music';
 
 type ToneModule = typeof import('tone');
 

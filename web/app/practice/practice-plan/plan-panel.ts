@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, input, output } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import type { PracticeStep } from '../../../../shared/music';
+import type { PracticeStep } from '@shared/music';
 
 /** The steps toward a requirement, each one a sheet the student can open. */
 @Component({

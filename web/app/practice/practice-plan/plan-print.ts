@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import { writtenKey, type PracticeStep } from '../../../../shared/music';
+import { writtenKey, type PracticeStep } from '@shared/music';
 import { keyWords } from '../labels';
 import { instrumentInText } from '../instrument-label';
 import { buildSheet } from '../sheet';

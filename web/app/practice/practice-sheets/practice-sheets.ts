@@ -10,7 +10,7 @@ import { Router } from '@angular/router';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
-import { practicePlan, schoolLevelNames } from '../../../../shared/music';
+import { practicePlan, schoolLevelNames } from '@shared/music';
 import { CurrentUser } from '../../core/auth/current-user';
 import { CurrentDistrict } from '../../core/district/current-district';
 import { PageState } from '../../core/state/page-state';

@@ -22,7 +22,7 @@ import {
   patternIds,
   schoolLevelNames,
   type Mode,
-} from '../../../../shared/music';
+} from '@shared/music';
 import {
   articulationLabels,
   familyLabels,

@@ -13,8 +13,8 @@ import {
   Voice,
   type RenderContext,
 } from 'vexflow/core';
-import { parseNote, type StaffClef } from '../../../../shared/music';
-import { beamOf, layOutMeasures, type NotatedPiece } from '../../../../shared/music/measure-layout';
+import { parseNote, type StaffClef } from '@shared/music';
+import { beamOf, layOutMeasures, type NotatedPiece } from '@shared/music/measure-layout';
 import type { StaffMusic } from '../sheet';
 import { loadNotationFont, notationFontFamily } from './notation-font';
 import { drawSlur, slurBelow, type PlacedNote } from './slurs';

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { drawingWidth, planSystems, staffWidth } from './staff-layout';
-import { layOutMeasures } from '../../../../shared/music/measure-layout';
-import type { PatternNote } from '../../../../shared/music/patterns';
+import { layOutMeasures } from '@shared/music/measure-layout';
+import type { PatternNote } from '@shared/music/patterns';
 
 describe('drawingWidth', () => {
   it('should draw at the box width on a phone and never wider than the widest staff', () => {

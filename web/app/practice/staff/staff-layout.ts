@@ -1,5 +1,5 @@
-import { parseNote, type Letter } from '../../../../shared/music';
-import type { NotatedPiece } from '../../../../shared/music/measure-layout';
+import { parseNote, type Letter } from '@shared/music';
+import type { NotatedPiece } from '@shared/music/measure-layout';
 import type { StaffMusic } from '../sheet';
 
 /** The widest a staff is drawn; the SVG then scales to its box. */

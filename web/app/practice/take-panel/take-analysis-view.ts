@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import type { NoteVerdict, TakeAnalysis } from '../../../../shared/listening';
+import type { NoteVerdict, TakeAnalysis } from '@shared/listening';
 
 /** Words for each verdict, so a note's state never rests on its colour alone. */
 export const verdictLabels: Record<NoteVerdict, string> = {

@@ -1,4 +1,4 @@
-import { analyseTake, TakeError } from '../../../../shared/listening';
+import { analyseTake, TakeError } from '@shared/listening';
 import type { TakeJob, TakeJobAnswer } from './take-job';
 
 /** Analyses a take off the page's thread, so the page stays responsive while it listens. */

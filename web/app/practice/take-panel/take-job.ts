@@ -1,5 +1,5 @@
-import type { TakeAnalysis } from '../../../../shared/listening';
-import type { PatternNote } from '../../../../shared/music';
+import type { TakeAnalysis } from '@shared/listening';
+import type { PatternNote } from '@shared/music';
 
 /** What the page sends the analysis worker. */
 export interface TakeJob {

@@ -1,8 +1,8 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { map, type Observable } from 'rxjs';
-import { takeSchema, type Take } from '../../../../shared/api/take';
-import type { TakeAnalysis } from '../../../../shared/listening';
+import { takeSchema, type Take } from '@shared/api/take';
+import type { TakeAnalysis } from '@shared/listening';
 
 /** A student's takes on the server: keep one, send it to their directors. */
 @Injectable({ providedIn: 'root' })

@@ -8,13 +8,8 @@ import { MatInputModule } from '@angular/material/input';
 import { MatRadioModule } from '@angular/material/radio';
 import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
-import type { Instrument } from '../../../../shared/api/instrument';
-import {
-  repairCaution,
-  repairStatuses,
-  type Repair,
-  type RepairStatus,
-} from '../../../../shared/api/repair';
+import type { Instrument } from '@shared/api/instrument';
+import { repairCaution, repairStatuses, type Repair, type RepairStatus } from '@shared/api/repair';
 import { isConflict } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { InstrumentPicker } from '../../instruments/instrument-picker/instrument-picker';

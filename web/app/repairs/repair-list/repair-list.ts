@@ -20,7 +20,7 @@ import {
   repairStatuses,
   type Repair,
   type RepairStatus,
-} from '../../../../shared/api/repair';
+} from '@shared/api/repair';
 import { CurrentUser } from '../../core/auth/current-user';
 import { ServerGrid } from '../../core/grid/server-grid';
 import {

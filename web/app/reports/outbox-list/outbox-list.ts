@@ -11,7 +11,7 @@ import { RouterLink } from '@angular/router';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
-import { outboxStates, type OutboxMessage } from '../../../../shared/api/outbox';
+import { outboxStates, type OutboxMessage } from '@shared/api/outbox';
 import { PageState } from '../../core/state/page-state';
 import { OutboxData } from '../outbox-data';
 import { OutboxState } from '../outbox-state/outbox-state';

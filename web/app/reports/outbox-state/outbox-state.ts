@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import type { OutboxMessage } from '../../../../shared/api/outbox';
+import type { OutboxMessage } from '@shared/api/outbox';
 
 const looks: Record<OutboxMessage['state'], { icon: string; label: string }> = {
   queued: { icon: 'schedule', label: 'Queued' },

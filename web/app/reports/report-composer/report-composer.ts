@@ -18,7 +18,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTabsModule } from '@angular/material/tabs';
-import type { ReportKind, ReportSendInput } from '../../../../shared/api/report';
+import type { ReportKind, ReportSendInput } from '@shared/api/report';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
@@ -27,7 +27,7 @@ import { MailFrame } from '../mail-frame/mail-frame';
 import { ReportData, type PreviewRequest } from '../report-data';
 import { lastDays } from '../report-period';
 import { SendDialog, type SendDialogData } from '../send-dialog/send-dialog';
-import type { SchoolYear } from '../../../../shared/api/school-year';
+import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 
 const isoDate = /^\d{4}-\d{2}-\d{2}$/;

@@ -7,11 +7,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import type {
-  ReportKind,
-  ReportSchedule,
-  ReportScheduleInput,
-} from '../../../../shared/api/report';
+import type { ReportKind, ReportSchedule, ReportScheduleInput } from '@shared/api/report';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { injectSchoolChoices } from '../../schools/school-choices';

@@ -5,7 +5,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatRadioModule } from '@angular/material/radio';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
-import type { ReportKind, ReportSendInput } from '../../../../shared/api/report';
+import type { ReportKind, ReportSendInput } from '@shared/api/report';
 
 /** What the dialog confirms: the report, and who the signed-in user is. */
 export interface SendDialogData {

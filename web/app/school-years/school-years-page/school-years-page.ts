@@ -6,7 +6,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import type { SchoolYear } from '../../../../shared/api/school-year';
+import type { SchoolYear } from '@shared/api/school-year';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { SchoolYearData } from '../school-year-data';

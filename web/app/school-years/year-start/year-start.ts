@@ -15,7 +15,7 @@ import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import type { SchoolYear, YearStartResult } from '../../../../shared/api/school-year';
+import type { SchoolYear, YearStartResult } from '@shared/api/school-year';
 import { errorMessage } from '../../core/parse';
 import { SchoolYearData, type YearStartRequest } from '../school-year-data';
 

@@ -6,7 +6,7 @@ import {
   type Enrollment,
   type EnrollmentInput,
   type EnrollmentPatch,
-} from '../../../../shared/api/enrollment';
+} from '@shared/api/enrollment';
 import { parsedWith } from '../../core/parse';
 
 /** Seats students in ensembles through `/api/enrollments`. */

@@ -16,10 +16,10 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule, type MatSelectChange } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
-import { enrollmentInputSchema } from '../../../../shared/api/enrollment';
-import type { Ensemble } from '../../../../shared/api/ensemble';
-import type { StudentDetail, StudentEnrollment } from '../../../../shared/api/student';
-import { instruments } from '../../../../shared/music/instrument-data';
+import { enrollmentInputSchema } from '@shared/api/enrollment';
+import type { Ensemble } from '@shared/api/ensemble';
+import type { StudentDetail, StudentEnrollment } from '@shared/api/student';
+import { instruments } from '@shared/music/instrument-data';
 import {
   fieldMessage,
   isConflict,

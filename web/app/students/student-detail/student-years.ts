@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
-import type { StudentDetail } from '../../../../shared/api/student';
+import type { StudentDetail } from '@shared/api/student';
 
 /** How each end of a year reads on the student's page. */
 const outcomeLabels: Record<string, string> = {

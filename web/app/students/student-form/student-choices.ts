@@ -1,4 +1,4 @@
-import type { StudentStatus } from '../../../../shared/api/student';
+import type { StudentStatus } from '@shared/api/student';
 
 /** The grades a student can be in: 0 is kindergarten, written K. */
 export const gradeChoices: { value: number; label: string }[] = Array.from(

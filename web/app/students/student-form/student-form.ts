@@ -15,14 +15,14 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import type { SchoolSummary } from '../../../../shared/api/me';
+import type { SchoolSummary } from '@shared/api/me';
 import {
   studentInputSchema,
   studentPatchSchema,
   type Student,
   type StudentDetail,
   type StudentStatus,
-} from '../../../../shared/api/student';
+} from '@shared/api/student';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { StudentData } from '../student-detail/student-data';

@@ -13,17 +13,13 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
-import { instruments } from '../../../../shared/music/instrument-data';
-import {
-  studentSortFields,
-  type Student,
-  type StudentStatus,
-} from '../../../../shared/api/student';
+import { instruments } from '@shared/music/instrument-data';
+import { studentSortFields, type Student, type StudentStatus } from '@shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { injectSchoolChoices } from '../../schools/school-choices';
-import type { SchoolYear } from '../../../../shared/api/school-year';
+import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 import { gradeChoices, statusLabels } from '../student-form/student-choices';
 

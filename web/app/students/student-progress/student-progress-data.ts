@@ -1,7 +1,7 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import { studentProgressSchema, type StudentProgress } from '../../../../shared/api/analytics';
+import { studentProgressSchema, type StudentProgress } from '@shared/api/analytics';
 import { parsedWith } from '../../core/parse';
 
 /** Reads where a student stands on the ladder in force. */
