@@ -4,8 +4,9 @@ import type { SqlSession } from './sql-session';
 /**
  * Carries out a OneRoster delta's removals inside the import's transaction: withdraws its
  * `tobedeleted` students who are still active (ending their seats of the year) and ends the
- * seats whose enrolment it marks `tobedeleted`, each with an audit entry. Answers how many
- * students were withdrawn and seats ended.
+ * seats whose enrolment it marks `tobedeleted`, each with an audit entry and a journal row (so
+ * undoing the import makes them active again, as it does an import's other withdrawals). Answers
+ * how many students were withdrawn and seats ended.
  */
 export async function applyDeltaRemovals(
   session: SqlSession,
@@ -20,11 +21,18 @@ export async function applyDeltaRemovals(
       `with gone as (
          update students s set status = 'withdrawn', version = s.version + 1, updated_at = now()
          where s.student_number = any($2::text[]) and s.status = 'active'
-         returning s.id, s.student_number
+         returning s.id, s.student_number, s.version
        ), unseated as (
          update enrollments en set active = false, version = en.version + 1, updated_at = now()
          from gone where en.student_id = gone.id and en.school_year_id = $3::int and en.active
-         returning en.id
+         returning en.id, en.student_id, en.ensemble_id, en.version
+       ), journaled as (
+         insert into import_journal (kind, student_id, enrollment_id, ensemble_id, before, version_after)
+         select 'student-withdrawn', id, null, null, jsonb_build_object('status', 'active'), version
+         from gone
+         union all
+         select 'seat-ended', student_id, id, ensemble_id, jsonb_build_object('active', true), version
+         from unseated
        ), audited as (
          insert into audit_log (user_id, action, entity, entity_id, before, after)
          select $1::int, 'withdraw', 'student', gone.id::text, jsonb_build_object('status', 'active'),
@@ -46,7 +54,11 @@ export async function applyDeltaRemovals(
          from students s, ending
          where s.id = en.student_id and s.student_number = ending.student_number
            and en.ensemble_id = ending.ensemble_id and en.school_year_id = $4::int and en.active
-         returning en.id, en.student_id, en.ensemble_id
+         returning en.id, en.student_id, en.ensemble_id, en.version
+       ), journaled as (
+         insert into import_journal (kind, student_id, enrollment_id, ensemble_id, before, version_after)
+         select 'seat-ended', student_id, id, ensemble_id, jsonb_build_object('active', true), version
+         from ended
        ), audited as (
          insert into audit_log (user_id, action, entity, entity_id, before, after)
          select $1::int, 'update', 'enrollment', ended.id::text, jsonb_build_object('active', true),

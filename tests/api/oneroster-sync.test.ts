@@ -158,6 +158,28 @@ describe('OneRoster REST sync', () => {
     expect((await coordinator.get('/api/oneroster/sync')).body.lastOutcome).toBe('no changes');
   });
 
+  it('should make the students a delta withdrew active again, with their seats, when the sync is undone', async () => {
+    const history = await coordinator.get('/api/imports?sort=createdAt:desc&limit=5');
+    const delta = (
+      history.body.rows as { id: number; fileName: string; committed: boolean }[]
+    ).find((row) => row.committed && row.fileName.startsWith('OneRoster REST sync'))!;
+    const seats = async () =>
+      rowsOf<{ active: boolean }>(
+        await app.database.db.execute(sql`
+          select en.active from enrollments en join students s on s.id = en.student_id
+          where s.student_number = 'or.jonah.vesk'`),
+      );
+    expect(await seats()).toEqual([{ active: false }]);
+    const preview = await coordinator.get(`/api/imports/${delta.id}/undo`);
+    expect(preview.body).toMatchObject({ withdrawalsReversed: 1, canUndo: true });
+    const undone = await coordinator.post(`/api/imports/${delta.id}/undo`, {});
+    expect(undone.status).toBe(200);
+    expect(await roster('or.jonah.vesk')).toEqual([
+      { student_number: 'or.jonah.vesk', first_name: 'Jonah', status: 'active', code: 'HPMS' },
+    ]);
+    expect(await seats()).toEqual([{ active: true }]);
+  });
+
   it.each([
     ['unavailable', 'The provider answered 503 for orgs.'],
     ['not-json', "The provider's orgs page answered with something that is not a JSON object."],
