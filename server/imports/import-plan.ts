@@ -48,7 +48,8 @@ export interface ImportPlan {
   /**
    * Current-year seats the file's students leave: a student whose rows name ensembles leaves an
    * ensemble of their school that the file speaks of (some row names it) but not for them.
-   * Seats in ensembles no row names are left alone.
+   * Seats in ensembles no row names are left alone, and so are the seats of a student one of
+   * whose rows was left out for a problem.
    */
   endedSeats: { studentId: string; ensembleId: number }[];
   /** The schools the valid rows are at. */
@@ -361,7 +362,10 @@ function seatsLeft(
     listed.set(row.studentId, entry);
   }
   const leaving = new Map<string, { ensembleId: number; name: string }[]>();
+  const skipped = new Set(parsed.skippedStudentIds);
   for (const [studentId, { schoolId, ensembles }] of listed) {
+    // A row of theirs was left out for a problem: it may name the seat, so none is ended.
+    if (skipped.has(studentId)) continue;
     const left: { ensembleId: number; name: string }[] = [];
     for (const [ensembleId, seat] of snapshot.seats.get(studentId) ?? []) {
       const ensemble = ensembleById.get(ensembleId);

@@ -13,7 +13,7 @@ function csvOf(...lines: string[]): Buffer {
   return Buffer.from(`${[header, ...lines].join('\r\n')}\r\n`);
 }
 
-async function previewAndCommit(file: Buffer) {
+async function previewAndCommit(file: Buffer, skipInvalid = false) {
   const previewed = await request(app.url)
     .post('/api/imports/preview')
     .set({ Cookie: coordinator.cookie, Origin: app.url })
@@ -22,7 +22,7 @@ async function previewAndCommit(file: Buffer) {
   const committed = await coordinator.post('/api/imports/commit', {
     importToken: previewed.body.importToken,
     withdrawMissing: false,
-    skipInvalid: false,
+    skipInvalid,
   });
   expect(committed.status).toBe(200);
   return { plan: previewed.body.plan, result: committed.body };
@@ -96,5 +96,30 @@ describe('Roster import seat moves', () => {
     const { plan } = await previewAndCommit(csvOf('MV-2047,Roan,Teller,7,HPMS,,'));
     expect(plan).toMatchObject({ updated: 0, unchanged: 1 });
     expect(await seatsOf('MV-2047')).toEqual({ 'Concert Band': true });
+  });
+
+  it('should keep the seat a skipped row names when the file is committed with skip-invalid', async () => {
+    await previewAndCommit(
+      csvOf(
+        'MV-2048,Tove,Ranneby,6,HPMS,Sixth Grade Band,oboe',
+        'MV-2048,Tove,Ranneby,6,HPMS,String Orchestra,viola',
+      ),
+    );
+    // Her orchestra row disagrees on her grade, so it is left out; the orchestra is still
+    // spoken of by another student's row.
+    const { result } = await previewAndCommit(
+      csvOf(
+        'MV-2048,Tove,Ranneby,6,HPMS,Sixth Grade Band,oboe',
+        'MV-2048,Tove,Ranneby,7,HPMS,String Orchestra,viola',
+        'MV-2049,Esko,Larsi,6,HPMS,String Orchestra,cello',
+      ),
+      true,
+    );
+    expect(result).toMatchObject({ committed: true, created: 1 });
+    expect(result.errors).toHaveLength(1);
+    expect(await seatsOf('MV-2048')).toEqual({
+      'Sixth Grade Band': true,
+      'String Orchestra': true,
+    });
   });
 });

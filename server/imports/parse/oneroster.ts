@@ -310,6 +310,7 @@ export async function readOneRosterBundle(
   return {
     ...base,
     rows: validated.rows,
+    skippedStudentIds: validated.skippedStudentIds,
     errors: withoutRepeats([...errors, ...validated.errors]).sort(byFileAndLine(order)),
     totalRows,
     skipped,

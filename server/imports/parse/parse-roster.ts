@@ -144,6 +144,7 @@ function* rosterCsvSteps(
   return {
     ...base,
     rows,
+    skippedStudentIds: [...validator.skippedStudentIds],
     errors: [...csv.problems, ...errors].sort(byLine),
     totalRows: csv.records.length,
   };

@@ -22,6 +22,11 @@ export interface ParsedRoster {
   /** The rows that passed every check, each with the line its record starts on. */
   rows: { line: number; row: RosterRow }[];
   errors: RowError[];
+  /**
+   * The student ids of rows left out for a problem (when a row's id could be read): a seat of
+   * theirs that no kept row names may be one a skipped row names, so it is not ended.
+   */
+  skippedStudentIds?: string[];
   /** How many roster rows the upload held, valid or not. */
   totalRows: number;
   /** Why the whole upload was refused, when it goes past a limit (too many columns, a cell too long). */

@@ -66,6 +66,11 @@ function describe(field: RosterField, row: RosterRow): string {
 export class RosterValidator {
   readonly rows: ParsedRoster['rows'] = [];
   readonly errors: RowError[] = [];
+  /**
+   * The student ids of rows left out for a problem: the file lists such a student in more
+   * ensembles than the rows kept show, so their other seats are not read as left.
+   */
+  readonly skippedStudentIds = new Set<string>();
   private readonly firstInEnsemble = new Map<string, RosterCandidate>();
   private readonly firstRowOfStudent = new Map<
     string,
@@ -74,8 +79,17 @@ export class RosterValidator {
 
   constructor(private readonly checks: RosterChecks = {}) {}
 
-  /** Checks one would-be row, keeping it when it passes and its problems when it does not. */
+  /**
+   * Checks one would-be row, keeping it when it passes and its problems when it does not; the
+   * student id of a row left out is kept in {@link skippedStudentIds}.
+   */
   add(candidate: RosterCandidate): void {
+    if (this.accepts(candidate)) return;
+    const studentId = candidate.values.studentId?.trim();
+    if (studentId) this.skippedStudentIds.add(studentId);
+  }
+
+  private accepts(candidate: RosterCandidate): boolean {
     const { errors } = this;
     const parsed = rosterRowSchema.safeParse(candidate.values);
     if (!parsed.success) {
@@ -83,7 +97,7 @@ export class RosterValidator {
         const field = issue.path[0] as RosterField;
         errors.push({ ...sourceOf(candidate, field), message: issue.message });
       }
-      return;
+      return false;
     }
     const row = parsed.data;
     const { knownSchoolCodes } = this.checks;
@@ -92,7 +106,7 @@ export class RosterValidator {
         ...sourceOf(candidate, 'schoolCode'),
         message: `School code ${quoteValue(row.schoolCode)} is not one of the district's schools (${schoolList(knownSchoolCodes)}).`,
       });
-      return;
+      return false;
     }
     const key = ensembleKey(row);
     const earlier = this.firstInEnsemble.get(key);
@@ -103,7 +117,7 @@ export class RosterValidator {
         column: candidate.rowColumn,
         message: `Student ${quoteValue(row.studentId)} is listed twice${inEnsemble}; the first is on ${placeOf(earlier)}.`,
       });
-      return;
+      return false;
     }
     const first = this.firstRowOfStudent.get(row.studentId);
     const differing = first && studentFields.find((field) => first.row[field] !== row[field]);
@@ -113,11 +127,12 @@ export class RosterValidator {
         ...sourceOf(candidate, differing),
         message: `Student ${quoteValue(row.studentId)} has ${label} ${describe(differing, row)} here but ${describe(differing, first.row)} on ${placeOf(first.candidate)}; one student has one ${label}.`,
       });
-      return;
+      return false;
     }
     this.firstInEnsemble.set(key, candidate);
     if (!first) this.firstRowOfStudent.set(row.studentId, { candidate, row });
     this.rows.push({ line: candidate.line, row });
+    return true;
   }
 }
 
@@ -125,8 +140,12 @@ export class RosterValidator {
 export function validateRosterCandidates(
   candidates: Iterable<RosterCandidate>,
   checks: RosterChecks = {},
-): Pick<ParsedRoster, 'rows' | 'errors'> {
+): Pick<ParsedRoster, 'rows' | 'errors' | 'skippedStudentIds'> {
   const validator = new RosterValidator(checks);
   for (const candidate of candidates) validator.add(candidate);
-  return { rows: validator.rows, errors: validator.errors };
+  return {
+    rows: validator.rows,
+    errors: validator.errors,
+    skippedStudentIds: [...validator.skippedStudentIds],
+  };
 }
