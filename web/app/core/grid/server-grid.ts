@@ -13,6 +13,7 @@ import {
 } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { BreakpointObserver } from '@angular/cdk/layout';
+import { MatBottomSheet } from '@angular/material/bottom-sheet';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
@@ -36,6 +37,8 @@ import { columnCsv } from './column-csv';
 import { GridExport } from './grid-export';
 import { GridLayouts } from './grid-layouts';
 import { columnStateOf, layoutOf } from './grid-layout';
+import { rowDetail } from './row-detail/row-detail';
+import { RowDetailSheet, type RowDetailSheetData } from './row-detail/row-detail-sheet';
 import { serverGridModules } from './grid-modules';
 import { listParameters, nextCursor, sortParameter, type GridFilters } from './grid-query';
 import { gridHeaderHeight, gridRowHeight, gridTheme } from './grid-theme';
@@ -57,7 +60,7 @@ const compactColumnCount = 3;
 
 /**
  * The columns a phone keeps: those the screen marks with `context: { key: true }`, else the first
- * few shown. The others stay one tap away, in the row's own page and the column chooser.
+ * few shown. The others stay one tap away: a tap on a row lists them in a bottom sheet.
  */
 export function keyColumnIds(columns: readonly ColDef[], shown: readonly string[]): string[] {
   const marked = columns
@@ -87,6 +90,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   private readonly http = inject(HttpClient);
   private readonly layouts = inject(GridLayouts);
   private readonly exporter = inject(GridExport);
+  private readonly bottomSheet = inject(MatBottomSheet);
 
   /** The list route, such as '/api/students'. */
   readonly endpoint = input.required<string>();
@@ -108,6 +112,8 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   readonly emptyMessage = input('');
   /** The label of the grid's region for assistive technology. */
   readonly label = input('Results');
+  /** The words of the phone's detail sheet button that opens a row (else "Open the <item>"). */
+  readonly openLabel = input('');
 
   /** A row was clicked, or Enter was pressed on it. */
   readonly rowOpened = output<Row>();
@@ -208,12 +214,39 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   }
 
   protected onRowClicked(event: RowClickedEvent<Row>): void {
-    if (event.data) this.rowOpened.emit(event.data);
+    if (event.data) this.activate(event.data);
   }
 
   protected onCellKeyDown(event: CellKeyDownEvent<Row> | FullWidthCellKeyDownEvent<Row>): void {
     const key = (event.event as KeyboardEvent | undefined)?.key;
-    if (key === 'Enter' && event.data) this.rowOpened.emit(event.data);
+    if (key === 'Enter' && event.data) this.activate(event.data);
+  }
+
+  /**
+   * A tap or Enter on a row: on a wide screen it opens the row; on a phone, where only the key
+   * columns fit, it first shows the whole row in a bottom sheet, with a button to open it.
+   */
+  private activate(row: Row): void {
+    if (!this.compact() || !this.api) {
+      this.rowOpened.emit(row);
+      return;
+    }
+    const columns = (this.api.getColumns() ?? []).map((column) => column.getColDef());
+    const detail = rowDetail(columns, this.visibleColumns(), row);
+    const data: RowDetailSheetData = {
+      itemName: this.itemName(),
+      detail,
+      openLabel: this.openLabel() || `Open the ${this.itemName()}`,
+    };
+    this.bottomSheet
+      .open<RowDetailSheet, RowDetailSheetData, boolean>(RowDetailSheet, {
+        data,
+        ariaLabel: `${this.itemName()}: ${detail.title}`,
+      })
+      .afterDismissed()
+      .subscribe((open) => {
+        if (open) this.rowOpened.emit(row);
+      });
   }
 
   /** Any change of columns or sort: remember the layout a moment later. */
@@ -226,8 +259,8 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   }
 
   /**
-   * On a phone's width, shows only the key columns, fitted to the width (the rest stays in the
-   * column chooser and the row's page); back on a wider window, the user's own layout returns.
+   * On a phone's width, shows only the key columns, fitted to the width (the rest is in the row's
+   * detail sheet and the column chooser); back on a wider window, the user's own layout returns.
    */
   private fitWidth(compact: boolean): void {
     const api = this.api;

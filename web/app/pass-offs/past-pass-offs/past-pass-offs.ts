@@ -22,6 +22,7 @@ import { ServerGrid } from '../../core/grid/server-grid';
       gridId="past-pass-offs"
       label="Pass-offs of a past year"
       itemName="pass-off"
+      openLabel="Open the student"
       [columns]="columns"
       [sortFields]="sortFields"
       [filters]="filters()"
