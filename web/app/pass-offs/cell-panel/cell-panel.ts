@@ -67,6 +67,11 @@ export class CellPanel {
   readonly canRemove = input(false);
   /** Takes the student sent of this requirement, newest first. */
   readonly takes = input<readonly Take[]>([]);
+  /**
+   * Whether the panel serves the touch entry, where a result is one tap on the scale's card: a
+   * note can then be written before that tap, and goes out with the entry.
+   */
+  readonly touch = input(false);
 
   readonly noteInput = output<string>();
   readonly noteFocus = output<boolean>();
@@ -101,8 +106,14 @@ export class CellPanel {
     const entry = this.entry();
     if (this.draft() || entry?.status === 'waiting' || entry?.status === 'failed') return 'draft';
     if (this.latest()) return 'saved';
-    return 'none';
+    return this.touch() ? 'draft' : 'none';
   });
+  /** When a note being written goes out: with the entry it belongs to, or with the one to come. */
+  protected readonly noteHint = computed(() =>
+    this.touch() && (this.draft()?.passed ?? null) === null && this.entry()?.status !== 'waiting'
+      ? 'Sent with the entry when you tap Passed or Not yet.'
+      : 'Sent with the entry when you leave this field.',
+  );
   protected readonly draftNote = computed(
     () => this.draft()?.note ?? this.entry()?.passOff.note ?? '',
   );

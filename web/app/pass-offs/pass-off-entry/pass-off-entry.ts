@@ -2,17 +2,19 @@ import {
   ChangeDetectionStrategy,
   Component,
   DestroyRef,
+  TemplateRef,
   computed,
   effect,
   inject,
   input,
   signal,
   untracked,
+  viewChild,
 } from '@angular/core';
 import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
 import { BreakpointObserver } from '@angular/cdk/layout';
 import { MatButtonModule } from '@angular/material/button';
-import { MatDialog } from '@angular/material/dialog';
+import { MatDialog, MatDialogModule, type MatDialogRef } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -53,7 +55,7 @@ import { entryGridModules } from './entry-grid-modules';
 import { EnsembleSheet } from './ensemble-sheet';
 import { queueBanner } from './entry-sheet';
 import { SentTakes } from '../sent-takes';
-import { TouchEntry } from '../touch-entry/touch-entry';
+import { TouchEntry, type TouchCell } from '../touch-entry/touch-entry';
 
 /**
  * When entry is by touch: a coarse pointer (Media Queries Level 4, "pointer") or a window
@@ -76,6 +78,7 @@ import { PastPassOffs } from '../past-pass-offs/past-pass-offs';
     MatButtonModule,
     MatFormFieldModule,
     MatIconModule,
+    MatDialogModule,
     MatInputModule,
     MatProgressBarModule,
     MatSelectModule,
@@ -132,7 +135,10 @@ export class PassOffEntry {
   );
   /** What a student's cell shows, for the touch entry. */
   protected readonly touchCellView = (row: EntryRow, requirement: LadderRequirement) =>
-    this.cellViewWithoutTake(row, requirement);
+    this.cellView(row, requirement);
+  /** The cell side panel as the touch entry opens it: a sheet over the page. */
+  private readonly touchPanel = viewChild.required<TemplateRef<unknown>>('touchPanel');
+  private touchPanelRef: MatDialogRef<unknown> | null = null;
 
   protected readonly ensembleId = computed(() => Number(this.ensemble()) || null);
   protected readonly rungNumber = computed(() => Number(this.rung()) || null);
@@ -264,6 +270,48 @@ export class PassOffEntry {
     ) {
       this.historyStudent.set(null);
     }
+  }
+
+  /**
+   * Opens the cell side panel for a scale of the touch entry: on a phone a full-screen sheet (the
+   * app's dialogs are on a compact window), on a tablet a side sheet at the window's end edge
+   * (Material Design 3, "Side sheets").
+   */
+  protected openTouchCell(cell: TouchCell): void {
+    this.focused.set(cell);
+    const ref = this.dialog.open(this.touchPanel(), {
+      ariaLabelledBy: 'cell-panel-title',
+      width: '440px',
+      maxWidth: '100vw',
+      height: '100%',
+      maxHeight: '100%',
+      position: { right: '0', top: '0' },
+      panelClass: 'tb-side-sheet',
+    });
+    this.touchPanelRef = ref;
+    ref.afterClosed().subscribe(() => {
+      if (this.touchPanelRef === ref) this.touchPanelRef = null;
+      // Whatever was written into the note goes out as leaving a grid cell would send it.
+      this.drafts.hold(false);
+      this.drafts.left(cellKey(cell.studentId, cell.code));
+      this.focused.set(null);
+    });
+  }
+
+  protected closeTouchPanel(): void {
+    this.touchPanelRef?.close();
+  }
+
+  /** The panel's history button on a touch screen: the history replaces the entry. */
+  protected touchHistory(studentId: number): void {
+    this.closeTouchPanel();
+    this.historyStudent.set(studentId);
+  }
+
+  /** A take's tempo chosen in the touch panel: back to the scale's card to tap the result. */
+  protected touchTakeTempo(tempo: number): void {
+    this.prefillFromTake(tempo);
+    this.closeTouchPanel();
   }
 
   protected cellClicked(event: CellClickedEvent<EntryRow>): void {

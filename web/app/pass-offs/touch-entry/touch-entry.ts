@@ -28,6 +28,14 @@ interface ScaleCard {
   /** What the card's state line says. */
   state: string;
   tone: 'none' | 'draft' | EntryStatus | 'heard';
+  /** Whether the student sent a take of this scale. */
+  takeSent: boolean;
+}
+
+/** A cell of the touch entry: the student in hand and one requirement of the rung. */
+export interface TouchCell {
+  studentId: number;
+  code: string;
 }
 
 const statusWords: Record<EntryStatus, string> = {
@@ -66,13 +74,18 @@ export class TouchEntry {
   /** The rung's requirements asked of at least one of them. */
   readonly requirements = input.required<readonly LadderRequirement[]>();
   /** What the grid would show in a student's cell for a requirement. */
-  readonly cellView = input.required<(row: EntryRow, requirement: LadderRequirement) => CellView>();
+  readonly cellView =
+    input.required<
+      (row: EntryRow, requirement: LadderRequirement) => CellView & { takeSent?: boolean }
+    >();
   /** Whether the user may record pass-offs. */
   readonly canWrite = input(true);
   /** Emits a sentence for the screen reader's live region. */
   readonly announce = output<string>();
   /** Emits the student whose history was asked for. */
   readonly openHistory = output<number>();
+  /** Emits the cell whose note, takes and past pass-offs were asked for. */
+  readonly openCell = output<TouchCell>();
 
   protected readonly index = linkedSignal<readonly EntryRow[], number>({
     source: this.rows,
@@ -105,7 +118,8 @@ export class TouchEntry {
           : cell.kind === 'entry'
             ? cell.tempo
             : requirement.tempo;
-      return { requirement, asked, view: cell, tempo, ...this.stateOf(cell) };
+      const takeSent = cell.takeSent === true;
+      return { requirement, asked, view: cell, tempo, takeSent, ...this.stateOf(cell) };
     });
   });
 
@@ -150,6 +164,14 @@ export class TouchEntry {
     this.announce.emit(
       `${keyText(card.requirement)}: ${passed ? 'passed' : 'not yet'} at ${card.tempo}.`,
     );
+  }
+
+  /** Opens the scale's note, the student's sent takes and the director's own take. */
+  protected details(card: ScaleCard): void {
+    const row = this.student();
+    if (!row || !card.asked) return;
+    this.padFor.set(null);
+    this.openCell.emit({ studentId: row.studentId, code: card.requirement.code });
   }
 
   protected setTempo(card: ScaleCard, tempo: number): void {
