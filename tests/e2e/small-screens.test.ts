@@ -5,8 +5,9 @@ import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 import type { EnsembleDetail } from '@shared/api/ensemble';
 import type { Ladder, LadderRequirement } from '@shared/api/ladder';
 import type { PassOff } from '@shared/api/pass-off';
+import type { Student } from '@shared/api/student';
 import { findInstrument } from '@shared/music/index';
-import { launchBrowser, saveScreenshot, signInAs } from '../support/browser';
+import { dialogReady, launchBrowser, saveScreenshot, signInAs } from '../support/browser';
 
 let app: TestApp;
 let browser: Browser;
@@ -176,6 +177,70 @@ describe('Phones and tablets', () => {
     }, 900_000);
   }
 
+  it('should show the rest of a grid row in a sheet on a phone, open the row from it, and show a dialog full-screen', async () => {
+    const context = await browser.newContext({
+      viewport: { width: 390, height: 844 },
+      deviceScaleFactor: 2,
+      isMobile: true,
+      hasTouch: true,
+      locale: 'en-US',
+      timezoneId: 'America/Los_Angeles',
+    });
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('director.hpms'));
+    await page.goto(`${app.url}/students`);
+    const firstRow = page.locator('.ag-row[row-index="0"]').first();
+    await firstRow.locator('.ag-cell').first().waitFor({ timeout: 30_000 });
+    // The phone keeps the key columns the screen marks: last name, first name, grade.
+    const headings = await page
+      .locator('.ag-header-cell:not(.ag-hidden) .ag-header-cell-text')
+      .allInnerTexts();
+    expect(headings).toEqual(['Last name', 'First name', 'Grade']);
+    const shown = await firstRow.locator('.ag-cell').allInnerTexts();
+
+    await firstRow.locator('.ag-cell').first().tap();
+    const sheet = page.locator('mat-bottom-sheet-container');
+    await sheet.getByTestId('row-detail-title').waitFor({ timeout: 10_000 });
+    const labels = await sheet.locator('dt').allInnerTexts();
+    expect(labels).toEqual(['Student ID', 'Preferred', 'School', 'Ensembles', 'Instruments', 'Status']);
+    const values = await sheet.locator('dd').allInnerTexts();
+    const studentNumber = values[0]!;
+    // The row the sheet reads out is the student the API has under that number, with the same
+    // names the grid's row shows and the school the API gives.
+    const director = await app.signIn(demoEmail('director.hpms'));
+    const found = (
+      await director.get(`/api/students?q=${encodeURIComponent(studentNumber)}&limit=10`)
+    ).body.rows as Student[];
+    const student = found.find((row) => row.studentNumber === studentNumber);
+    expect(student, `student ${studentNumber}`).toBeDefined();
+    expect(shown.slice(0, 2)).toEqual([student!.lastName, student!.firstName]);
+    expect(await sheet.getByTestId('row-detail-title').innerText()).toBe(
+      shown.filter((text) => text.trim() !== '').join(' · '),
+    );
+    expect(values[2]).toBe(student!.schoolCode);
+    const sheetBox = await sheet.boundingBox();
+    expect(sheetBox!.width).toBeGreaterThanOrEqual(389);
+    expect((await seriousViolations(page)).join('\n')).toBe('');
+    await saveScreenshot(page, 'phone-students-row-detail');
+
+    // From the sheet to the student's own page.
+    await sheet.getByTestId('row-detail-open').tap();
+    await page.waitForURL(new RegExp(`/students/${student!.id}(/|$)`), { timeout: 20_000 });
+    await page.locator('main h1').first().waitFor({ timeout: 30_000 });
+    await context.clearCookies();
+
+    // A form in a dialog fills the phone (Material Design 3: full-screen dialogs on compact
+    // windows): the check-out dialog of the loans screen.
+    await signInAs(page, app.url, demoEmail('coordinator'), '/loans');
+    await page.getByTestId('check-out').tap();
+    await dialogReady(page);
+    const surface = await page.locator('.mat-mdc-dialog-surface').boundingBox();
+    expect(surface).toEqual({ x: 0, y: 0, width: 390, height: 844 });
+    expect((await sidewaysOverflow(page)).overflow).toBeLessThanOrEqual(0);
+    await saveScreenshot(page, 'phone-dialog-check-out');
+    await context.close();
+  }, 180_000);
+
   it('should record pass-offs by touch on a phone, one student at a time, and save each on the server', async () => {
     const director = await app.signIn(demoEmail('director.hpms'));
     const ladder = (await director.get('/api/ladder')).body as Ladder;
@@ -296,16 +361,36 @@ describe('Phones and tablets', () => {
     });
     await session.send('Input.dispatchTouchEvent', { type: 'touchEnd', touchPoints: [] });
     await expect.poll(() => name.innerText()).toBe(third.name);
+
+    // The scale's side panel in a full-screen sheet: the requirement, a note written before the
+    // result (it goes out with the entry), the director's own take, what was heard before.
+    await scale(third.asked[0]!).getByTestId('touch-details').tap();
+    const panel = page.getByTestId('touch-panel');
+    await panel.getByTestId('cell-panel').waitFor({ timeout: 10_000 });
+    await dialogReady(page);
+    expect(await panel.locator('#cell-panel-title').innerText()).toBe(third.name);
+    expect(await panel.locator('tb-director-take').count()).toBe(1);
+    expect(await panel.getByRole('heading', { name: 'Heard before' }).count()).toBe(1);
+    const panelBox = await page.locator('.mat-mdc-dialog-surface').boundingBox();
+    expect(panelBox).toEqual({ x: 0, y: 0, width: 390, height: 844 });
+    const note = 'Even sixteenths on the way down';
+    await panel.getByTestId('cell-note').fill(note);
+    await saveScreenshot(page, 'phone-pass-offs-touch-panel');
+    await panel.getByRole('button', { name: 'Close', exact: true }).tap();
+    await panel.waitFor({ state: 'detached' });
     await scale(third.asked[0]!)
       .getByRole('button', { name: /^Passed/ })
       .tap();
 
+    // The card's state first (the queue line may still read as it did before the tap).
+    await expect
+      .poll(() => scale(third.asked[0]!).getByTestId('touch-state').innerText(), {
+        timeout: 30_000,
+      })
+      .toBe(`Passed at ♩ = ${third.asked[0]!.tempo} · Saved`);
     await expect
       .poll(() => page.getByTestId('touch-queue').innerText(), { timeout: 30_000 })
       .toContain('All entries saved');
-    expect(await scale(third.asked[0]!).getByTestId('touch-state').innerText()).toBe(
-      `Passed at ♩ = ${third.asked[0]!.tempo} · Saved`,
-    );
     const { overflow, widest } = await sidewaysOverflow(page);
     expect(overflow, widest).toBeLessThanOrEqual(0);
 
@@ -330,6 +415,8 @@ describe('Phones and tablets', () => {
     );
     expect(summary(secondRows)).toEqual([`${second.asked[0]!.code} 97 true`]);
     expect(summary(thirdRows)).toEqual([`${third.asked[0]!.code} ${third.asked[0]!.tempo} true`]);
+    expect(thirdRows.map((row) => row.note)).toEqual([note]);
+    expect(firstRows.every((row) => row.note === '')).toBe(true);
     const total = async (studentId: number) =>
       (
         (await director.get(`/api/pass-offs?studentId=${studentId}&limit=1000`)).body
@@ -394,6 +481,16 @@ describe('Phones and tablets', () => {
     expect(await tabletPage.getByTestId('menu-button').isVisible()).toBe(false);
     expect((await sidewaysOverflow(tabletPage)).overflow).toBeLessThanOrEqual(0);
     await saveScreenshot(tabletPage, 'tablet-landscape-pass-offs-touch');
+
+    // On the tablet the same panel is a side sheet at the window's right edge, the page beside it.
+    await tabletPage.locator('[data-testid="touch-details"]').first().tap();
+    await tabletPage.getByTestId('cell-panel').waitFor({ timeout: 10_000 });
+    await dialogReady(tabletPage);
+    const side = await tabletPage.locator('.mat-mdc-dialog-surface').boundingBox();
+    expect(side!.x + side!.width).toBeCloseTo(1180, 0);
+    expect(side!.width).toBeLessThanOrEqual(440);
+    expect(side!.height).toBeCloseTo(820, 0);
+    await saveScreenshot(tabletPage, 'tablet-landscape-pass-offs-touch-panel');
     await tablet.close();
   }, 240_000);
 });

@@ -105,8 +105,11 @@ export class CellPanel {
   protected readonly mode = computed(() => {
     const entry = this.entry();
     if (this.draft() || entry?.status === 'waiting' || entry?.status === 'failed') return 'draft';
+    // By touch, the note field serves the entry about to be made, unless the one just made is
+    // saved (then it edits that one's note); older notes are read under "Heard before".
+    if (this.touch()) return entry?.status === 'saved' && this.latest() ? 'saved' : 'draft';
     if (this.latest()) return 'saved';
-    return this.touch() ? 'draft' : 'none';
+    return 'none';
   });
   /** When a note being written goes out: with the entry it belongs to, or with the one to come. */
   protected readonly noteHint = computed(() =>
