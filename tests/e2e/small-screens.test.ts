@@ -117,6 +117,23 @@ async function navigationScreens(page: Page, device: string): Promise<string[]> 
     );
 }
 
+/** The open dialog's box, in whole CSS pixels, once its opening animation has settled. */
+function dialogBox(page: Page) {
+  return page
+    .locator('.mat-mdc-dialog-surface')
+    .boundingBox()
+    .then((box) =>
+      box
+        ? {
+            x: Math.round(box.x),
+            y: Math.round(box.y),
+            width: Math.round(box.width),
+            height: Math.round(box.height),
+          }
+        : null,
+    );
+}
+
 function screenName(path: string): string {
   return (
     path
@@ -202,7 +219,14 @@ describe('Phones and tablets', () => {
     const sheet = page.locator('mat-bottom-sheet-container');
     await sheet.getByTestId('row-detail-title').waitFor({ timeout: 10_000 });
     const labels = await sheet.locator('dt').allInnerTexts();
-    expect(labels).toEqual(['Student ID', 'Preferred', 'School', 'Ensembles', 'Instruments', 'Status']);
+    expect(labels).toEqual([
+      'Student ID',
+      'Preferred',
+      'School',
+      'Ensembles',
+      'Instruments',
+      'Status',
+    ]);
     const values = await sheet.locator('dd').allInnerTexts();
     const studentNumber = values[0]!;
     // The row the sheet reads out is the student the API has under that number, with the same
@@ -234,8 +258,7 @@ describe('Phones and tablets', () => {
     await signInAs(page, app.url, demoEmail('coordinator'), '/loans');
     await page.getByTestId('check-out').tap();
     await dialogReady(page);
-    const surface = await page.locator('.mat-mdc-dialog-surface').boundingBox();
-    expect(surface).toEqual({ x: 0, y: 0, width: 390, height: 844 });
+    await expect.poll(() => dialogBox(page)).toEqual({ x: 0, y: 0, width: 390, height: 844 });
     expect((await sidewaysOverflow(page)).overflow).toBeLessThanOrEqual(0);
     await saveScreenshot(page, 'phone-dialog-check-out');
     await context.close();
@@ -371,8 +394,7 @@ describe('Phones and tablets', () => {
     expect(await panel.locator('#cell-panel-title').innerText()).toBe(third.name);
     expect(await panel.locator('tb-director-take').count()).toBe(1);
     expect(await panel.getByRole('heading', { name: 'Heard before' }).count()).toBe(1);
-    const panelBox = await page.locator('.mat-mdc-dialog-surface').boundingBox();
-    expect(panelBox).toEqual({ x: 0, y: 0, width: 390, height: 844 });
+    await expect.poll(() => dialogBox(page)).toEqual({ x: 0, y: 0, width: 390, height: 844 });
     const note = 'Even sixteenths on the way down';
     await panel.getByTestId('cell-note').fill(note);
     await saveScreenshot(page, 'phone-pass-offs-touch-panel');
@@ -486,10 +508,9 @@ describe('Phones and tablets', () => {
     await tabletPage.locator('[data-testid="touch-details"]').first().tap();
     await tabletPage.getByTestId('cell-panel').waitFor({ timeout: 10_000 });
     await dialogReady(tabletPage);
-    const side = await tabletPage.locator('.mat-mdc-dialog-surface').boundingBox();
-    expect(side!.x + side!.width).toBeCloseTo(1180, 0);
-    expect(side!.width).toBeLessThanOrEqual(440);
-    expect(side!.height).toBeCloseTo(820, 0);
+    await expect
+      .poll(() => dialogBox(tabletPage))
+      .toEqual({ x: 1180 - 440, y: 0, width: 440, height: 820 });
     await saveScreenshot(tabletPage, 'tablet-landscape-pass-offs-touch-panel');
     await tablet.close();
   }, 240_000);
