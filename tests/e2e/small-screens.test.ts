@@ -262,6 +262,38 @@ describe('Phones and tablets', () => {
     expect((await sidewaysOverflow(page)).overflow).toBeLessThanOrEqual(0);
     await saveScreenshot(page, 'phone-dialog-check-out');
     await context.close();
+
+    // A tablet held upright (a medium window): the columns that fit its width, no sideways
+    // scroll inside the grid, and the rest of a row in the same sheet.
+    const tablet = await browser.newContext({
+      viewport: { width: 820, height: 1180 },
+      isMobile: true,
+      hasTouch: true,
+      locale: 'en-US',
+      timezoneId: 'America/Los_Angeles',
+    });
+    const tabletPage = await tablet.newPage();
+    await signInAs(tabletPage, app.url, demoEmail('coordinator'), '/ensembles');
+    const tabletRow = tabletPage.locator('.ag-row[row-index="0"]').first();
+    await tabletRow.locator('.ag-cell').first().waitFor({ timeout: 30_000 });
+    const allHeadings = ['Ensemble', 'School', 'Kind', 'Level', 'Director', 'Meets', 'Members'];
+    const tabletHeadings = await tabletPage
+      .locator('.ag-header-cell .ag-header-cell-text')
+      .allInnerTexts();
+    expect(tabletHeadings.length).toBeGreaterThan(3);
+    expect(tabletHeadings.length).toBeLessThan(allHeadings.length);
+    expect(tabletHeadings).toEqual(allHeadings.slice(0, tabletHeadings.length));
+    const frame = await tabletPage.locator('tb-server-grid section.frame').boundingBox();
+    const lastHeading = await tabletPage.locator('.ag-header-cell').last().boundingBox();
+    expect(lastHeading!.x + lastHeading!.width).toBeLessThanOrEqual(frame!.x + frame!.width + 1);
+    await tabletRow.locator('.ag-cell').first().tap();
+    const tabletSheet = tabletPage.locator('mat-bottom-sheet-container');
+    await tabletSheet.getByTestId('row-detail-title').waitFor({ timeout: 10_000 });
+    expect(await tabletSheet.locator('dt').allInnerTexts()).toEqual(
+      allHeadings.slice(tabletHeadings.length),
+    );
+    await saveScreenshot(tabletPage, 'tablet-ensembles-row-detail');
+    await tablet.close();
   }, 180_000);
 
   it('should record pass-offs by touch on a phone, one student at a time, and save each on the server', async () => {

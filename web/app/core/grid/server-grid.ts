@@ -3,6 +3,7 @@ import {
   ChangeDetectionStrategy,
   Component,
   DestroyRef,
+  ElementRef,
   computed,
   effect,
   inject,
@@ -43,6 +44,13 @@ import { serverGridModules } from './grid-modules';
 import { listParameters, nextCursor, sortParameter, type GridFilters } from './grid-query';
 import { gridHeaderHeight, gridRowHeight, gridTheme } from './grid-theme';
 import { formatCount } from '../format/formats';
+import {
+  compactQuery,
+  fittingColumnIds,
+  keyColumnIds,
+  mediumQuery,
+  type WindowClass,
+} from './grid-fit';
 
 const pageSchema = listResponseSchema(z.record(z.string(), z.unknown()));
 
@@ -52,22 +60,6 @@ export const gridPageSize = 100;
 const searchPause = 250;
 const emptyHeight = 340;
 const layoutSavePause = 800;
-
-/** A phone's width (Material Design 3's compact window class, below 600 px). */
-const compactQuery = '(max-width: 599.98px)';
-/** How many columns a phone shows when the screen marks none as its key columns. */
-const compactColumnCount = 3;
-
-/**
- * The columns a phone keeps: those the screen marks with `context: { key: true }`, else the first
- * few shown. The others stay one tap away: a tap on a row lists them in a bottom sheet.
- */
-export function keyColumnIds(columns: readonly ColDef[], shown: readonly string[]): string[] {
-  const marked = columns
-    .filter((column) => (column.context as { key?: boolean } | undefined)?.key)
-    .map((column) => column.colId ?? column.field ?? '');
-  return marked.length ? marked : shown.slice(0, compactColumnCount);
-}
 
 interface ColumnChoice {
   colId: string;
@@ -159,13 +151,22 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   protected readonly firstLoad = computed(() => this.total() === null && this.requests() > 0);
 
   private api: GridApi<Row> | null = null;
-  private readonly compact = toSignal(
+  private readonly host = inject<ElementRef<HTMLElement>>(ElementRef);
+  private readonly windowClass = toSignal(
     inject(BreakpointObserver)
-      .observe(compactQuery)
-      .pipe(map((state) => state.matches)),
-    { initialValue: false },
+      .observe([compactQuery, mediumQuery])
+      .pipe(
+        map((state): WindowClass =>
+          state.breakpoints[compactQuery]
+            ? 'compact'
+            : state.breakpoints[mediumQuery]
+              ? 'medium'
+              : 'expanded',
+        ),
+      ),
+    { initialValue: 'expanded' as WindowClass },
   );
-  /** The user's own column state while a phone's width shows only the key columns. */
+  /** The user's own column state while a narrow window shows only some columns. */
   private wideState: ColumnState[] | null = null;
   private generation = 0;
   private restoring = true;
@@ -181,8 +182,8 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
       untracked(() => this.scheduleRefresh());
     });
     effect(() => {
-      const compact = this.compact();
-      untracked(() => this.fitWidth(compact));
+      const windowClass = this.windowClass();
+      untracked(() => this.fitWidth(windowClass));
     });
     inject(DestroyRef).onDestroy(() => {
       clearTimeout(this.searchTimer);
@@ -208,7 +209,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
         this.refreshChoices();
       }
       this.restoring = false;
-      this.fitWidth(this.compact());
+      this.fitWidth(this.windowClass());
       this.refresh();
     });
   }
@@ -223,16 +224,21 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   }
 
   /**
-   * A tap or Enter on a row: on a wide screen it opens the row; on a phone, where only the key
-   * columns fit, it first shows the whole row in a bottom sheet, with a button to open it.
+   * A tap or Enter on a row: on a wide screen it opens the row; on a phone or a tablet held
+   * upright, where only some columns fit, it first shows the rest of the row in a bottom sheet,
+   * with a button to open it.
    */
   private activate(row: Row): void {
-    if (!this.compact() || !this.api) {
+    if (this.windowClass() === 'expanded' || !this.wideState || !this.api) {
       this.rowOpened.emit(row);
       return;
     }
     const columns = (this.api.getColumns() ?? []).map((column) => column.getColDef());
     const detail = rowDetail(columns, this.visibleColumns(), row);
+    if (detail.fields.length === 0) {
+      this.rowOpened.emit(row);
+      return;
+    }
     const data: RowDetailSheetData = {
       itemName: this.itemName(),
       detail,
@@ -259,25 +265,36 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   }
 
   /**
-   * On a phone's width, shows only the key columns, fitted to the width (the rest is in the row's
-   * detail sheet and the column chooser); back on a wider window, the user's own layout returns.
+   * On a phone's width, shows only the key columns; on a medium window, the key columns and the
+   * others that fit at their widths; either way fitted to the width, the rest in the row's detail
+   * sheet and the column chooser. Back on a wide window, the user's own layout returns.
    */
-  private fitWidth(compact: boolean): void {
+  private fitWidth(windowClass: WindowClass): void {
     const api = this.api;
     if (!api || this.restoring) return;
-    if (compact) {
+    if (this.wideState) {
+      const own = this.wideState;
+      this.wideState = null;
+      api.applyColumnState({ state: own, applyOrder: true });
+    }
+    if (windowClass !== 'expanded') {
       const state = api.getColumnState();
-      this.wideState ??= state;
       const shown = state.filter((column) => !column.hide).map((column) => column.colId);
-      const keep = new Set(keyColumnIds(this.columns(), shown));
+      // The grid's box less its border; before layout (no width yet) every column stays.
+      const available = this.host.nativeElement.clientWidth - 2;
+      const keep = new Set(
+        windowClass === 'compact'
+          ? keyColumnIds(this.columns(), shown)
+          : available > 0
+            ? fittingColumnIds(this.columns(), state, available)
+            : shown,
+      );
+      this.wideState = state;
       api.setColumnsVisible(
         shown.filter((colId) => !keep.has(colId)),
         false,
       );
       api.sizeColumnsToFit();
-    } else if (this.wideState) {
-      api.applyColumnState({ state: this.wideState, applyOrder: true });
-      this.wideState = null;
     }
     this.refreshChoices();
   }
@@ -405,7 +422,8 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   }
 
   private saveLayout(): void {
-    if (!this.api) return;
+    // A narrow window's columns are not the user's layout (see fitWidth).
+    if (!this.api || this.wideState) return;
     const layout = layoutOf(this.api.getColumnState());
     const text = JSON.stringify(layout);
     if (text === this.lastSavedLayout) return;
