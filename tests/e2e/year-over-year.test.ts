@@ -132,6 +132,17 @@ describe('Year over year', () => {
     );
     await card.scrollIntoViewIfNeeded();
     await saveScreenshot(page, 'overview-rung-by-grade-years-table');
+    // This year's count of a grade opens the grade's students.
+    const grade8 = grades.find((grade) => grade.grade === 8)!;
+    await card
+      .locator('tr', { hasText: 'Grade 8' })
+      .getByRole('button', { name: /Grade 8: every student/ })
+      .click();
+    const panel = page.getByTestId('drill-panel');
+    await expect.poll(() => panel.locator('h2').innerText(), patient).toContain('Grade 8');
+    await expect
+      .poll(() => panel.locator('.count').innerText(), patient)
+      .toBe(`${grade8.current.students} students`);
     expect(outside).toEqual([]);
     await context.close();
   }, 120_000);

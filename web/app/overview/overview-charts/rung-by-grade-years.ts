@@ -1,6 +1,6 @@
 import type { YearOverYear } from '@shared/api/year-over-year';
 import { chartBase, categoryAxis, valueAxis } from '../../core/charts/chart-base';
-import type { ChartFigure } from '../../core/charts/chart-figure';
+import type { ChartFigure, DrillTarget } from '../../core/charts/chart-figure';
 import { chartPalette } from '../../core/charts/chart-palette';
 import { countText, gradeLabel, shortDate } from './figure-words';
 
@@ -10,10 +10,26 @@ const rungText = (median: number | null) =>
 /**
  * Each grade's median rung on the day read this year beside last year's students of that grade
  * the same number of days into last year, both labelled, with the students counted in the
- * tooltip and the table.
+ * tooltip and the table. When the compared year is the current one, this year's bar and count
+ * open the grade's students (last year's grade is history: no list behind it).
  */
-export function rungByGradeYearsFigure(figures: YearOverYear): ChartFigure {
+export function rungByGradeYearsFigure(
+  figures: YearOverYear,
+  options: { current: boolean; schoolId: number | undefined },
+): ChartFigure {
   const { grades, asOf, previousAsOf } = figures.rungByGrade;
+  const target = (index: number): DrillTarget | null => {
+    const grade = grades[index];
+    if (!options.current || !grade) return null;
+    return {
+      title: `${gradeLabel(grade.grade)}: every student`,
+      path: '/api/analytics/students',
+      query: {
+        grade: grade.grade,
+        ...(options.schoolId === undefined ? {} : { schoolId: options.schoolId }),
+      },
+    };
+  };
   const thisName = `${figures.year.name}, ${shortDate(asOf)}`;
   const lastName = `${figures.previousYear?.name ?? ''}, ${previousAsOf ? shortDate(previousAsOf) : ''}`;
   const base = chartBase();
@@ -72,16 +88,16 @@ export function rungByGradeYearsFigure(figures: YearOverYear): ChartFigure {
         `${thisName}: median rung`,
         'Students',
       ],
-      rows: grades.map((entry) => ({
+      rows: grades.map((entry, index) => ({
         heading: gradeLabel(entry.grade),
         cells: [
           { text: rungText(entry.previous.median) },
           { text: String(entry.previous.students) },
           { text: rungText(entry.current.median) },
-          { text: String(entry.current.students) },
+          { text: String(entry.current.students), target: target(index) ?? undefined },
         ],
       })),
     },
-    targetAt: () => null,
+    targetAt: (seriesIndex, dataIndex) => (seriesIndex === 1 ? target(dataIndex) : null),
   };
 }

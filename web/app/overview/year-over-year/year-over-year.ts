@@ -49,7 +49,12 @@ export class YearOverYearSection {
       total: figures.retention.total,
       bySchool: figures.retention.bySchool.length > 1 ? retentionBySchoolFigure(figures) : null,
       byTransition: retentionByTransitionFigure(figures, this.schoolId()),
-      rungByGrade: figures.rungByGrade.grades.length ? rungByGradeYearsFigure(figures) : null,
+      rungByGrade: figures.rungByGrade.grades.length
+        ? rungByGradeYearsFigure(figures, {
+            current: this.pastYear() === null,
+            schoolId: this.schoolId(),
+          })
+        : null,
       rungByGradeDay: figures.rungByGrade.day,
       cohorts: figures.cohorts.some((cohort) => cohort.points.length >= 2)
         ? cohortClimbFigure(figures)
