@@ -10,19 +10,18 @@ import { intArray, rowsOf } from '../db/client';
 import { notFound } from '../core/errors';
 import { assertInScope, schoolScope, type Actor } from '../core/policy';
 import { parseInput } from '../core/validate';
+import { topUpAttainment } from './overview-service';
+import { medianOfCounts, rungByGrade, type ComparedYear } from './rung-by-grade';
 
-interface YearRow {
-  id: number;
-  name: string;
-  starts_on: string;
-  current: boolean;
-}
+export { medianOfCounts } from './rung-by-grade';
+
+type YearRow = ComparedYear;
 
 /** The year compared (default the current one) and the year before it, by first day. */
 async function comparedYears(db: Database, schoolYearId: number | undefined) {
   const years = rowsOf<YearRow>(
     await db.execute(
-      sql`select id, name, starts_on::text as starts_on, current from school_years order by starts_on`,
+      sql`select id, name, starts_on::text as starts_on, ends_on::text as ends_on, current from school_years order by starts_on`,
     ),
   );
   const index = years.findIndex((year) =>
@@ -51,7 +50,10 @@ function lastYearPlayers(actor: Actor, previous: YearRow, schoolId: number | und
 
 const share = (part: number, whole: number) => (whole === 0 ? null : part / whole);
 
-/** `GET /api/analytics/year-over-year`: retention from the year before, and the cohorts' climb. */
+/**
+ * `GET /api/analytics/year-over-year`: retention from the year before, the cohorts' climb, and
+ * rung by grade against the year before at the same point of the year.
+ */
 export async function yearOverYear(
   db: Database,
   actor: Actor,
@@ -60,6 +62,9 @@ export async function yearOverYear(
   const options = parseInput(yearOverYearQuerySchema, query, 'The year-over-year query');
   if (options.schoolId !== undefined) assertInScope(actor, options.schoolId, 'That school');
   const { year, previous, years } = await comparedYears(db, options.schoolYearId);
+  // New students and changed seats are recomputed first, as the Overview does: the rung dates
+  // and rungs read below are then exact.
+  await topUpAttainment(db);
   const retention: YearOverYear['retention'] = {
     total: { players: 0, continued: 0, share: null },
     bySchool: [],
@@ -129,6 +134,7 @@ export async function yearOverYear(
     previousYear: previous ? { id: previous.id, name: previous.name } : null,
     retention,
     cohorts: await cohortClimb(db, actor, year, years, options.schoolId),
+    rungByGrade: await rungByGrade(db, actor, year, previous, options),
   };
 }
 
@@ -213,25 +219,6 @@ async function cohortClimb(
     cohorts.set(key, cohort);
   }
   return [...cohorts.values()];
-}
-
-/**
- * The median of values given as [value, count] pairs in ascending order of value: the middle
- * value, or the mean of the two middle ones for an even count (as PostgreSQL's
- * percentile_cont(0.5) answers).
- */
-export function medianOfCounts(counts: readonly (readonly [number, number])[]): number {
-  const total = counts.reduce((sum, [, count]) => sum + count, 0);
-  const at = (position: number) => {
-    let seen = 0;
-    for (const [value, count] of counts) {
-      seen += count;
-      if (position < seen) return value;
-    }
-    return counts[counts.length - 1]![0];
-  };
-  if (total === 0) return 0;
-  return total % 2 ? at((total - 1) / 2) : (at(total / 2 - 1) + at(total / 2)) / 2;
 }
 
 /** `GET /api/analytics/retention/students`: the names behind a retention figure. */

@@ -13,6 +13,7 @@ interface StandingRow {
   rung: number;
   met_count: number;
   best_tempos: (number | null)[] | null;
+  rung_dates: string[];
 }
 
 /**
@@ -23,6 +24,33 @@ export function bestTempoCodes(rungs: readonly Rung[]): string[] {
   return [
     ...new Set(rungs.flatMap((rung) => rung.requirements.map((requirement) => requirement.id))),
   ].sort();
+}
+
+/**
+ * The days a student reached each rung, rung 1 first: the ladder rules asked on every day a
+ * requirement was first met (the only days the answer can change, since a met requirement stays
+ * met), with the pass-offs heard up to that day. A jump of two rungs on one day gives that day
+ * twice. `metOn` holds one record per met requirement, dated the first day it was passed at its
+ * tempo, which the rules read as they read the whole history up to any day.
+ */
+export function rungDates(
+  rungs: readonly Rung[],
+  metOn: readonly PassOffRecord[],
+  family: string,
+): string[] {
+  const days = [...new Set(metOn.map((record) => record.heardOn))].sort();
+  // Rungs with no requirement for the family at the foot of the ladder are reached before any
+  // pass-off: PostgreSQL's date '-infinity' sorts before every day.
+  const dates: string[] = Array.from({ length: currentRung(rungs, [], family) }, () => '-infinity');
+  for (const day of days) {
+    const rung = currentRung(
+      rungs,
+      metOn.filter((record) => record.heardOn <= day),
+      family,
+    );
+    while (dates.length < rung) dates.push(day);
+  }
+  return dates;
 }
 
 /**
@@ -43,12 +71,33 @@ async function standings(
   const passes = await db.execute(sql`
       select r.student_id, string_agg(r.requirement_code || ':' || r.best_tempo, ',') as passes
       from passed_requirements r ${only(sql`r.student_id`)} group by r.student_id`);
+  // The first day each requirement of the active ladder was passed at its tempo. The rung at any
+  // day comes from these through the rules (rungDates) and is stored with the rung, rather than
+  // worked out in SQL at read time: the ladder rule then has one home, and the year-over-year
+  // figure reads one array per student (width_bucket) instead of every pass-off.
+  const metOn = ladder
+    ? await db.execute(sql`
+      select m.student_id, string_agg(m.requirement_code || ':' || m.tempo || ':' || m.met_on, ',') as met
+      from (select p.student_id, p.requirement_code, q.tempo, min(p.heard_on)::text as met_on
+        from pass_offs p
+        join ladder_requirements q on q.ladder_version_id = ${ladder.versionId}
+          and q.code = p.requirement_code
+        where p.passed and p.tempo >= q.tempo ${studentIds ? sql`and p.student_id = any(${intArray(studentIds)}::int[])` : sql``}
+        group by p.student_id, p.requirement_code, q.tempo) m
+      group by m.student_id`)
+    : null;
   const everyone = studentIds ? null : await db.execute(sql`select id from students`);
   const instruments = await studentInstruments(db, studentIds ?? undefined);
   const passesByStudent = new Map(
     rowsOf<{ student_id: number; passes: string }>(passes).map((row) => [
       row.student_id,
       row.passes,
+    ]),
+  );
+  const metByStudent = new Map(
+    (metOn ? rowsOf<{ student_id: number; met: string }>(metOn) : []).map((row) => [
+      row.student_id,
+      row.met,
     ]),
   );
   const ids = studentIds ?? rowsOf<{ id: number }>(everyone).map((row) => row.id);
@@ -68,6 +117,14 @@ async function standings(
       rung: currentRung(rungs, records, family),
       met_count: metRequirements(rungs, records, family).size,
       best_tempos: ladder ? codes.map((code) => fastest.get(code) ?? null) : null,
+      rung_dates: rungDates(
+        rungs,
+        (metByStudent.get(id)?.split(',') ?? []).map((met) => {
+          const [code, tempo, day] = met.split(':');
+          return { requirementId: code!, tempo: Number(tempo), passed: true, heardOn: day! };
+        }),
+        family,
+      ),
     };
   });
 }
@@ -105,12 +162,12 @@ async function writeStandings(db: Queryable, rows: readonly StandingRow[], dates
     await db.execute(sql`
       insert into student_attainment
         (student_id, school_id, grade, active, stale, ladder_version_id, family, rung, met_count,
-         best_tempos, last_passed_on, last_pass_off_on, updated_at)
+         best_tempos, rung_dates, last_passed_on, last_pass_off_on, updated_at)
       select x.student_id, s.school_id, s.grade, s.status = 'active', false, x.ladder_version_id, x.family,
-        x.rung, x.met_count, x.best_tempos, d.last_passed_on, d.last_pass_off_on, now()
+        x.rung, x.met_count, x.best_tempos, x.rung_dates, d.last_passed_on, d.last_pass_off_on, now()
       from json_to_recordset(${JSON.stringify(batch)}::json) as x(
         student_id int, ladder_version_id int, family text, rung smallint, met_count smallint,
-        best_tempos smallint[])
+        best_tempos smallint[], rung_dates date[])
       join students s on s.id = x.student_id
       left join ${lastDates} d on d.student_id = x.student_id
       order by x.student_id
@@ -118,6 +175,7 @@ async function writeStandings(db: Queryable, rows: readonly StandingRow[], dates
         school_id = excluded.school_id, grade = excluded.grade, active = excluded.active, stale = false,
         ladder_version_id = excluded.ladder_version_id, family = excluded.family, rung = excluded.rung,
         met_count = excluded.met_count, best_tempos = excluded.best_tempos,
+        rung_dates = excluded.rung_dates,
         last_passed_on = excluded.last_passed_on,
         last_pass_off_on = excluded.last_pass_off_on, updated_at = excluded.updated_at`);
   }

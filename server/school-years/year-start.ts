@@ -176,6 +176,9 @@ async function applyPlan(
       values (${input.name}, ${input.startsOn}::date, ${input.endsOn}::date, false) returning id`),
   );
   const newYearId = created!.id;
+  // The summaries' row-by-row upkeep waits for the end of this transaction (custom migration
+  // year-start-quiet-triggers says which and why); student_years.continued is refreshed below.
+  await tx.execute(sql`select set_config('tutti.year_start', 'on', true)`);
   await onStep?.('planned');
   // Where every student stood in the old year, with their rung at its end.
   await tx.execute(sql`
@@ -196,7 +199,8 @@ async function applyPlan(
       from year_start_plan p
       join enrollments en on en.student_id = p.student_id and en.school_year_id = ${fromYear.id} and en.active
       join ensembles e on e.id = en.ensemble_id and e.school_id = p.school_id
-      where p.outcome = 'promoted'`);
+      where p.outcome = 'promoted'
+      order by en.id`);
   }
   await onStep?.('seats');
   await tx.execute(sql`
@@ -217,6 +221,8 @@ async function applyPlan(
   await tx.execute(
     sql`update school_years set current = true, updated_at = now() where id = ${newYearId}`,
   );
+  await tx.execute(sql`select refresh_student_years_continued()`);
+  await tx.execute(sql`select set_config('tutti.year_start', 'off', true)`);
   await onStep?.('switched');
 }
 

@@ -1,11 +1,16 @@
 import { z } from 'zod';
-import { idParameter } from './input-rules';
+import { calendarDate, idParameter } from './input-rules';
 
 /** Filters of `GET /api/analytics/year-over-year`. */
 export const yearOverYearQuerySchema = z.strictObject({
   /** The year compared with the one before it (default: the current year). */
   schoolYearId: idParameter.optional(),
   schoolId: idParameter.optional(),
+  /**
+   * The day the rung-by-grade figure is read at (default: today, or the compared year's last
+   * day once it has ended).
+   */
+  asOf: calendarDate().optional(),
 });
 export type YearOverYearQuery = z.infer<typeof yearOverYearQuerySchema>;
 
@@ -21,7 +26,29 @@ const retentionCount = z.object({
   share: z.number().nullable(),
 });
 
-/** `GET /api/analytics/year-over-year`: retention and the cohorts' climb. */
+/** The median rung of one grade's students on one day, and how many students that is. */
+const rungMedian = z.object({
+  /** Median (the mean of the two middle rungs for an even count); null when no students. */
+  median: z.number().nullable(),
+  students: z.number().int(),
+});
+
+/**
+ * Rung by grade, this year against last year at the same point of the year: the compared year's
+ * students of each grade on `asOf` (`day` days after its first day), against the year before's
+ * students of that grade `day` days after that year's first day (`previousAsOf`).
+ */
+export const rungByGradeSchema = z.object({
+  asOf: z.string(),
+  /** Days after the compared year's first day. */
+  day: z.number().int(),
+  /** The same day of the year before; null when there is no year before. */
+  previousAsOf: z.string().nullable(),
+  grades: z.array(z.object({ grade: z.number().int(), current: rungMedian, previous: rungMedian })),
+});
+export type RungByGrade = z.infer<typeof rungByGradeSchema>;
+
+/** `GET /api/analytics/year-over-year`: retention, the cohorts' climb, and rung by grade. */
 export const yearOverYearSchema = z.object({
   year: yearRef,
   /** The year before it; null when there is none yet. */
@@ -54,6 +81,7 @@ export const yearOverYearSchema = z.object({
       ),
     }),
   ),
+  rungByGrade: rungByGradeSchema,
 });
 export type YearOverYear = z.infer<typeof yearOverYearSchema>;
 

@@ -94,6 +94,59 @@ describe('Year over year', () => {
     await context.close();
   }, 120_000);
 
+  it('should show rung by grade against last year at the same day, as a chart and as a table', async () => {
+    const { context, outside } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await page.setViewportSize({ width: 1360, height: 900 });
+    await signInAs(page, app.url, demoEmail('coordinator'), '/overview');
+    const card = page.getByTestId('chart-rung-by-grade-years');
+    await card.scrollIntoViewIfNeeded(patient);
+    // Two bars a grade, drawn as SVG paths by ECharts' SVG renderer.
+    const figures = await figuresFor(page);
+    const grades = figures.rungByGrade.grades;
+    expect(grades.length).toBeGreaterThan(3);
+    await expect
+      .poll(() => card.locator('svg path').count(), patient)
+      .toBeGreaterThan(grades.length);
+    await page.evaluate(() => document.fonts.ready);
+    await page.waitForTimeout(500);
+    await card.scrollIntoViewIfNeeded();
+    await saveScreenshot(page, 'overview-rung-by-grade-years');
+
+    // The table alternative: one row a grade, with the medians and counts the server gave.
+    await card.getByRole('button', { name: 'Show as table' }).click();
+    const texts = await tableTexts(card.locator('table'));
+    expect(texts[0]![0]).toBe('Grade');
+    expect(texts[0]![1]).toContain('2025-26');
+    expect(texts[0]![3]).toContain('2026-27');
+    const rung = (median: number | null) =>
+      median === null ? '—' : Number.isInteger(median) ? String(median) : median.toFixed(1);
+    expect(texts.slice(1)).toEqual(
+      grades.map((grade) => [
+        grade.grade === 0 ? 'Kindergarten' : `Grade ${grade.grade}`,
+        rung(grade.previous.median),
+        String(grade.previous.students),
+        rung(grade.current.median),
+        String(grade.current.students),
+      ]),
+    );
+    await card.scrollIntoViewIfNeeded();
+    await saveScreenshot(page, 'overview-rung-by-grade-years-table');
+    // This year's count of a grade opens the grade's students.
+    const grade8 = grades.find((grade) => grade.grade === 8)!;
+    await card
+      .locator('tr', { hasText: 'Grade 8' })
+      .getByRole('button', { name: /Grade 8: every student/ })
+      .click();
+    const panel = page.getByTestId('drill-panel');
+    await expect.poll(() => panel.locator('h2').innerText(), patient).toContain('Grade 8');
+    await expect
+      .poll(() => panel.locator('.count').innerText(), patient)
+      .toBe(`${grade8.current.students} students`);
+    expect(outside).toEqual([]);
+    await context.close();
+  }, 120_000);
+
   it('should show a director a past year’s pass-offs, read-only', async () => {
     const { context, outside } = await localOnlyContext(browser);
     const page = await context.newPage();

@@ -203,6 +203,14 @@ export const studentAttainment = pgTable(
      * requirements in this one row instead of probing `passed_requirements` for each.
      */
     bestTempos: smallint('best_tempos').array(),
+    /**
+     * The day each rung was reached, rung 1 first (non-decreasing; as long as `rung`), worked out
+     * by the ladder rules from the first day each requirement was passed at its tempo, so the
+     * rung on any day is the count of these days up to it (PostgreSQL `width_bucket(day,
+     * rung_dates)`). Kept with the rung, in the same writes; the year-over-year rung-by-grade
+     * figure reads it.
+     */
+    rungDates: date('rung_dates', { mode: 'string' }).array(),
     updatedAt: timestamp('updated_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
   },
   (table) => [

@@ -11,10 +11,12 @@ import {
   retentionBySchoolFigure,
   retentionByTransitionFigure,
 } from '../overview-charts/year-over-year-figures';
+import { rungByGradeYearsFigure } from '../overview-charts/rung-by-grade-years';
 
 /**
  * Year over year on the Overview: how many of last year's players play this year, by school and
- * by grade transition (the names of those who stopped a click away), and each cohort's climb.
+ * by grade transition (the names of those who stopped a click away), each grade's median rung
+ * against last year's at the same point of the year, and each cohort's climb.
  */
 @Component({
   selector: 'tb-year-over-year',
@@ -47,6 +49,13 @@ export class YearOverYearSection {
       total: figures.retention.total,
       bySchool: figures.retention.bySchool.length > 1 ? retentionBySchoolFigure(figures) : null,
       byTransition: retentionByTransitionFigure(figures, this.schoolId()),
+      rungByGrade: figures.rungByGrade.grades.length
+        ? rungByGradeYearsFigure(figures, {
+            current: this.pastYear() === null,
+            schoolId: this.schoolId(),
+          })
+        : null,
+      rungByGradeDay: figures.rungByGrade.day,
       cohorts: figures.cohorts.some((cohort) => cohort.points.length >= 2)
         ? cohortClimbFigure(figures)
         : null,

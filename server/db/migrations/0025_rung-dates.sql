@@ -1,0 +1,1 @@
+ALTER TABLE "student_attainment" ADD COLUMN "rung_dates" date[];
