@@ -40,12 +40,11 @@ import { fieldMessage } from './record-form';
       <mat-error>{{ message() }}</mat-error>
     </mat-form-field>
   `,
+  // The form field is a stretched flex item, as it would be straight in the form's column.
   styles: `
     :host {
-      display: block;
-    }
-    mat-form-field {
-      width: 100%;
+      display: flex;
+      flex-direction: column;
     }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -41,12 +41,14 @@ export function choicesOf<T extends string>(
       </mat-select>
     </mat-form-field>
   `,
+  // The form field stays a flex item, as it would be straight in the filters' row: its width
+  // is its content's unless the page sets one on the element.
   styles: `
     :host {
-      display: block;
+      display: flex;
     }
     mat-form-field {
-      width: 100%;
+      flex: auto;
     }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
