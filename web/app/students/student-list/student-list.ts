@@ -44,12 +44,6 @@ import { gradeChoices, statusLabels } from '../student-form/student-choices';
     .search {
       width: 300px;
     }
-    .narrow {
-      width: 130px;
-    }
-    .wide {
-      width: 210px;
-    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

@@ -18,14 +18,14 @@ export function choicesOf<T extends string>(
 
 /**
  * A filter at the head of a list screen's grid (`<div tbGridFilters>`), beside `tb-grid-search`:
- * a select whose first choice (`anyLabel`, "All schools") clears the filter. The screen sets the
- * width on the element (`class="narrow"`), as for the search field.
+ * a select whose first choice (`anyLabel`, "All schools") clears the filter; its `width`, when
+ * given, is the field's.
  */
 @Component({
   selector: 'tb-filter-select',
   imports: [MatFormFieldModule, MatSelectModule],
   template: `
-    <mat-form-field appearance="outline" subscriptSizing="dynamic">
+    <mat-form-field appearance="outline" subscriptSizing="dynamic" [style.width]="width()">
       <mat-label>{{ label() }}</mat-label>
       <mat-select
         [value]="value()"
@@ -41,14 +41,10 @@ export function choicesOf<T extends string>(
       </mat-select>
     </mat-form-field>
   `,
-  // The form field stays a flex item, as it would be straight in the filters' row: its width
-  // is its content's unless the page sets one on the element.
+  // No box of its own: the form field is the filters' flex item, sized as one written there.
   styles: `
     :host {
-      display: flex;
-    }
-    mat-form-field {
-      flex: auto;
+      display: contents;
     }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -59,6 +55,8 @@ export class FilterSelect<T> {
   /** The first choice, which clears the filter (value null), e.g. "All schools"; none when ''. */
   readonly anyLabel = input('');
   readonly choices = input.required<readonly FilterChoice<T>[]>();
+  /** The field's width as a CSS length ("130px"); its content's when none. */
+  readonly width = input<string | null>(null);
   /** The select's data-testid, for browser tests. */
   readonly testId = input<string | null>(null);
   /** The chosen value, or null for every row. */
