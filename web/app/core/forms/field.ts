@@ -1,9 +1,14 @@
-import { ChangeDetectionStrategy, Component, input } from '@angular/core';
-import { toObservable, toSignal } from '@angular/core/rxjs-interop';
+import {
+  ChangeDetectionStrategy,
+  ChangeDetectorRef,
+  Component,
+  inject,
+  input,
+  type DoCheck,
+} from '@angular/core';
 import { ReactiveFormsModule, type FormControl } from '@angular/forms';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
-import { map, startWith, switchMap } from 'rxjs';
 import { fieldMessage } from './record-form';
 
 /**
@@ -49,7 +54,9 @@ import { fieldMessage } from './record-form';
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class Field {
+export class Field implements DoCheck {
+  private readonly changes = inject(ChangeDetectorRef);
+
   /** The field's label, e.g. "First name". */
   readonly label = input.required<string>();
   readonly control = input.required<FormControl>();
@@ -63,19 +70,15 @@ export class Field {
   readonly testId = input<string | null>(null);
 
   /**
-   * Read again on each of the control's events (value, status, touched: Angular's
-   * `AbstractControl.events`), so an error the page puts on the control after a save shows
-   * here although the page's own inputs did not change.
+   * A control's errors, touched and disabled states change without a new input (the page resets,
+   * disables or refuses it), so the field is checked whenever the page is, as a control written
+   * straight in the page would be (angular.dev, "Skipping component subtrees": `markForCheck`).
    */
-  protected readonly message = toSignal(
-    toObservable(this.control).pipe(
-      switchMap((control) =>
-        control.events.pipe(
-          startWith(null),
-          map(() => fieldMessage(control)),
-        ),
-      ),
-    ),
-    { initialValue: '' },
-  );
+  ngDoCheck(): void {
+    this.changes.markForCheck();
+  }
+
+  protected message(): string {
+    return fieldMessage(this.control());
+  }
 }
