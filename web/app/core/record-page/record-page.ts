@@ -10,6 +10,8 @@ import { PageState } from '../state/page-state';
  * A record's own page (a school, an ensemble, a student, an instrument…): the link back to its
  * list, then the record's loading or error state, or the page's own content projected into it
  * once the record is there. A new record's page passes no `record` and shows its content at once.
+ * With a `heading`, the shell draws the page header too, the element marked `recordLead` as the
+ * line under the title.
  */
 @Component({
   selector: 'tb-record-page',
@@ -33,6 +35,14 @@ import { PageState } from '../state/page-state';
           </tb-page-state>
         }
         @case ('ready') {
+          @if (heading() !== null) {
+            <header class="tb-page-header">
+              <div>
+                <h1>{{ heading() }}</h1>
+                <p><ng-content select="[recordLead]" /></p>
+              </div>
+            </header>
+          }
           <ng-content />
         }
       }
@@ -47,6 +57,8 @@ export class RecordPage {
   readonly backLabel = input.required<string>();
   /** What the record is called in the loading and error states ("school"). */
   readonly noun = input.required<string>();
+  /** The page's title ("Add a school", the school's name); none when the page draws its own. */
+  readonly heading = input<string | null>(null);
   /** The record's resource; none for a record not made yet. */
   readonly record = input<Resource<unknown> | null>(null);
 

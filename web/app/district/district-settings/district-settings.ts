@@ -23,6 +23,7 @@ import {
   type District,
 } from '@shared/api/district';
 import { CurrentDistrict } from '../../core/district/current-district';
+import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
@@ -48,6 +49,7 @@ const commonTimeZones = [
 @Component({
   selector: 'tb-district-settings',
   imports: [
+    Field,
     ReactiveFormsModule,
     MatButtonModule,
     MatFormFieldModule,

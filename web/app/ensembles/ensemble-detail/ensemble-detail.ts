@@ -23,6 +23,7 @@ import {
   type EnsembleKind,
 } from '@shared/api/ensemble';
 import { CurrentUser } from '../../core/auth/current-user';
+import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
@@ -34,6 +35,7 @@ import { EnsembleData } from '../ensemble-data';
 @Component({
   selector: 'tb-ensemble-detail',
   imports: [
+    Field,
     ReactiveFormsModule,
     RouterLink,
     MatButtonModule,

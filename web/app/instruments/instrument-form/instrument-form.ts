@@ -24,6 +24,7 @@ import {
   type InstrumentCondition,
 } from '@shared/api/instrument';
 import { instrumentFamilies, instruments } from '@shared/music/instrument-data';
+import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { FleetInstruments } from '../instrument-data';
@@ -44,6 +45,7 @@ function costValidator(control: AbstractControl) {
 @Component({
   selector: 'tb-instrument-form',
   imports: [
+    Field,
     ReactiveFormsModule,
     MatButtonModule,
     MatFormFieldModule,

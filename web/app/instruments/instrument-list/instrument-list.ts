@@ -8,10 +8,8 @@ import {
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatMenuModule } from '@angular/material/menu';
-import { MatSelectModule } from '@angular/material/select';
 import { Router } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import {
@@ -24,6 +22,7 @@ import {
 } from '@shared/api/instrument';
 import { instrumentFamilies } from '@shared/music/instrument-data';
 import { CurrentUser } from '../../core/auth/current-user';
+import { FilterSelect, choicesOf, namedChoices } from '../../core/grid/filter-select/filter-select';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { injectSchoolChoices } from '../../schools/school-choices';
@@ -48,12 +47,11 @@ import type { InstrumentViewFilters } from '../instrument-views';
   imports: [
     ServerGrid,
     GridSearch,
+    FilterSelect,
     InstrumentViewBar,
     MatButtonModule,
-    MatFormFieldModule,
     MatIconModule,
     MatMenuModule,
-    MatSelectModule,
   ],
   templateUrl: './instrument-list.html',
   styleUrl: './instrument-list.scss',
@@ -67,12 +65,19 @@ export class InstrumentList {
 
   protected readonly canWrite = inject(CurrentUser).can('fleet:write');
   protected readonly schools = injectSchoolChoices();
-  protected readonly statuses = instrumentStatuses;
-  protected readonly statusLooks = statusLooks;
-  protected readonly conditions = instrumentConditions;
-  protected readonly conditionLabels = conditionLabels;
-  protected readonly families = instrumentFamilies;
-  protected readonly familyLabels = familyLabels;
+  protected readonly schoolChoices = computed(() => namedChoices(this.schools()));
+  protected readonly statusChoices = choicesOf(
+    instrumentStatuses,
+    (status) => statusLooks[status].label,
+  );
+  protected readonly conditionChoices = choicesOf(
+    instrumentConditions,
+    (value) => conditionLabels[value],
+  );
+  protected readonly familyChoices = choicesOf(
+    instrumentFamilies,
+    (family) => familyLabels[family],
+  );
 
   protected readonly search = signal('');
   protected readonly status = signal<InstrumentStatus | null>(null);

@@ -1,5 +1,5 @@
 import { WhenPipe } from '../../core/format/formats';
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -7,6 +7,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import type { AuditEntryRow } from '@shared/api/person';
+import { Pager } from '../../core/pager/pager';
 import { PageState } from '../../core/state/page-state';
 import { PeopleData } from '../people-data';
 import {
@@ -30,6 +31,7 @@ const pageSize = 50;
     MatInputModule,
     MatSelectModule,
     PageState,
+    Pager,
   ],
   templateUrl: './audit-log.html',
   styleUrl: './audit-log.scss',
@@ -44,6 +46,8 @@ export class AuditLog {
   protected readonly entity = signal('');
   protected readonly offset = signal(0);
   protected readonly expanded = signal<ReadonlySet<number>>(new Set());
+  /** No entry opened: what turning the page leaves. */
+  protected readonly collapsed: ReadonlySet<number> = new Set();
   protected readonly pageSize = pageSize;
 
   protected readonly list = rxResource({
@@ -55,20 +59,10 @@ export class AuditLog {
     },
     stream: ({ params }) => this.people.audit(params),
   });
-  protected readonly rangeText = computed(() => {
-    const page = this.list.value();
-    if (!page || page.total === 0) return '';
-    return `${this.offset() + 1}–${this.offset() + page.rows.length} of ${page.total}`;
-  });
 
   protected filterBy(change: () => void): void {
     change();
     this.offset.set(0);
-    this.expanded.set(new Set());
-  }
-
-  protected turnPage(step: 1 | -1): void {
-    this.offset.set(Math.max(0, this.offset() + step * pageSize));
     this.expanded.set(new Set());
   }
 

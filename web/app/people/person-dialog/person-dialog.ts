@@ -26,6 +26,7 @@ import {
 import { roleLabels, roles, type Role } from '@shared/api/roles';
 import type { Student } from '@shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
+import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
@@ -48,6 +49,7 @@ const roleHints: Record<Role, string> = {
 @Component({
   selector: 'tb-person-dialog',
   imports: [
+    Field,
     ReactiveFormsModule,
     MatAutocompleteModule,
     MatButtonModule,

@@ -12,6 +12,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
 import { outboxStates, type OutboxMessage } from '@shared/api/outbox';
+import { Pager } from '../../core/pager/pager';
 import { PageState } from '../../core/state/page-state';
 import { OutboxData } from '../outbox-data';
 import { OutboxState } from '../outbox-state/outbox-state';
@@ -30,6 +31,7 @@ export const outboxRefreshMilliseconds = 5000;
     MatButtonToggleModule,
     MatIconModule,
     PageState,
+    Pager,
     OutboxState,
   ],
   templateUrl: './outbox-list.html',

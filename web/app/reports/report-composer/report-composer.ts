@@ -22,7 +22,7 @@ import type { ReportKind, ReportSendInput } from '@shared/api/report';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
-import { SchoolData } from '../../schools/school-data';
+import { injectSchoolChoices } from '../../schools/school-choices';
 import { MailFrame } from '../mail-frame/mail-frame';
 import { ReportData, type PreviewRequest } from '../report-data';
 import { lastDays } from '../report-period';
@@ -56,7 +56,6 @@ const isoDate = /^\d{4}-\d{2}-\d{2}$/;
 })
 export class ReportComposer {
   private readonly reports = inject(ReportData);
-  private readonly schoolData = inject(SchoolData);
   private readonly dialog = inject(MatDialog);
   private readonly currentUser = inject(CurrentUser);
 
@@ -75,11 +74,9 @@ export class ReportComposer {
   /** A past year chosen in the year picker: its whole period, read and not sent. */
   protected readonly pastYear = signal<SchoolYear | null>(null);
 
-  protected readonly schools = rxResource({
-    stream: () => this.schoolData.list({ limit: 200, sort: 'name:asc' }),
-  });
+  protected readonly schools = injectSchoolChoices();
   protected readonly school = computed(
-    () => this.schools.value()?.rows.find((row) => row.id === this.schoolId()) ?? null,
+    () => this.schools().find((row) => row.id === this.schoolId()) ?? null,
   );
   protected readonly periodProblem = computed(() => {
     if (!isoDate.test(this.from()) || !isoDate.test(this.to())) return 'Choose both dates.';
@@ -110,7 +107,7 @@ export class ReportComposer {
   constructor() {
     // Start on the user's first school once the list arrives.
     effect(() => {
-      const first = this.schools.value()?.rows[0];
+      const first = this.schools()[0];
       if (first && this.schoolId() === null) this.schoolId.set(first.id);
     });
   }

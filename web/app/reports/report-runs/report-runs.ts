@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
+import { Pager } from '../../core/pager/pager';
 import { PageState } from '../../core/state/page-state';
 import { ReportData } from '../report-data';
 import { momentText } from '../report-period';
@@ -10,7 +11,7 @@ const pageSize = 50;
 /** The reports that went out, newest first: what, for when, to whom, and how. */
 @Component({
   selector: 'tb-report-runs',
-  imports: [MatButtonModule, PageState],
+  imports: [MatButtonModule, Pager, PageState],
   template: `
     @if (runs.error()) {
       <tb-page-state
@@ -60,27 +61,13 @@ const pageSize = 50;
             }
           </tbody>
         </table>
-        <div class="pager">
-          <span class="tb-muted"
-            >{{ offset() + 1 }}–{{ offset() + list.rows.length }} of {{ list.total }}</span
-          >
-          <button
-            mat-button
-            type="button"
-            [disabled]="offset() === 0"
-            (click)="offset.set(offset() - pageSize)"
-          >
-            Newer
-          </button>
-          <button
-            mat-button
-            type="button"
-            [disabled]="offset() + list.rows.length >= list.total"
-            (click)="offset.set(offset() + pageSize)"
-          >
-            Older
-          </button>
-        </div>
+        <tb-pager
+          class="pager"
+          [(offset)]="offset"
+          [pageSize]="pageSize"
+          [shown]="list.rows.length"
+          [total]="list.total"
+        />
       }
     }
   `,
@@ -114,10 +101,6 @@ const pageSize = 50;
       overflow-wrap: anywhere;
     }
     .pager {
-      display: flex;
-      justify-content: flex-end;
-      align-items: center;
-      gap: 8px;
       padding-top: 8px;
     }
   `,

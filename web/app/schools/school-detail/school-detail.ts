@@ -17,6 +17,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import { gradeLabel, schoolInputSchema, schoolLevels, type School } from '@shared/api/school';
 import { CurrentUser } from '../../core/auth/current-user';
+import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
 import { RecordPage } from '../../core/record-page/record-page';
@@ -29,6 +30,7 @@ import { schoolLevelLabels } from '../school-labels';
 @Component({
   selector: 'tb-school-detail',
   imports: [
+    Field,
     ReactiveFormsModule,
     RouterLink,
     MatButtonModule,

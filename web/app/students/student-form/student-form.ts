@@ -23,6 +23,7 @@ import {
   type StudentDetail,
   type StudentStatus,
 } from '@shared/api/student';
+import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { StudentData } from '../student-detail/student-data';
@@ -35,6 +36,7 @@ const fields = studentInputSchema.shape;
 @Component({
   selector: 'tb-student-form',
   imports: [
+    Field,
     ReactiveFormsModule,
     MatButtonModule,
     MatFormFieldModule,

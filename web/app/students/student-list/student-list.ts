@@ -8,14 +8,13 @@ import {
   signal,
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import { instruments } from '@shared/music/instrument-data';
 import { studentSortFields, type Student, type StudentStatus } from '@shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
+import { FilterSelect, choicesOf, namedChoices } from '../../core/grid/filter-select/filter-select';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { injectSchoolChoices } from '../../schools/school-choices';
@@ -29,10 +28,9 @@ import { gradeChoices, statusLabels } from '../student-form/student-choices';
   imports: [
     ServerGrid,
     GridSearch,
+    FilterSelect,
     MatButtonModule,
-    MatFormFieldModule,
     MatIconModule,
-    MatSelectModule,
     RouterLink,
     YearPicker,
   ],
@@ -45,12 +43,6 @@ import { gradeChoices, statusLabels } from '../student-form/student-choices';
     }
     .search {
       width: 300px;
-    }
-    .narrow {
-      width: 130px;
-    }
-    .wide {
-      width: 210px;
     }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -67,8 +59,12 @@ export class StudentList {
   protected readonly pastYear = signal<SchoolYear | null>(null);
   protected readonly pastYearName = computed(() => this.pastYear()?.name ?? null);
   protected readonly grades = gradeChoices;
-  protected readonly statusLabels = statusLabels;
-  protected readonly instruments = instruments;
+  protected readonly schoolChoices = computed(() => namedChoices(this.schools()));
+  protected readonly statusChoices = choicesOf<StudentStatus>(
+    ['active', 'withdrawn'],
+    (status) => statusLabels[status],
+  );
+  protected readonly instrumentChoices = namedChoices(instruments);
   protected readonly search = signal('');
   protected readonly school = linkedSignal<number | null>(() => {
     const parameter = Number(this.schoolId());
