@@ -38,21 +38,28 @@ export async function skipReferenceTriggers(session: SqlSession): Promise<void> 
  */
 const bulkLoadedTables = ['students', 'student_attainment', 'enrollments'];
 
+/** Runs one statement with no parameters and answers its rows. */
+export type RunStatement = (text: string) => Promise<Record<string, unknown>[]>;
+
 /**
- * Drops the indexes of {@link bulkLoadedTables} that enforce nothing (not unique, no
- * constraint's) and answers the statements that create them again, read from the catalog so
- * a later migration's indexes are included. Transactional: a rollback brings them back.
+ * Drops the indexes of the tables (by default {@link bulkLoadedTables}) that enforce nothing
+ * (not unique, no constraint's) and answers the statements that create them again, read from
+ * the catalog so a later migration's indexes are included. Transactional: a rollback brings
+ * them back. The table names are the code's own, written into the statement as literals.
  */
-export async function dropSecondaryIndexes(session: SqlSession): Promise<string[]> {
-  const indexes = await session.query<{ name: string; definition: string }>(
+export async function dropSecondaryIndexes(
+  run: RunStatement,
+  tables: readonly string[] = bulkLoadedTables,
+): Promise<string[]> {
+  const names = tables.map((table) => `'${table.replaceAll("'", "''")}'`).join(', ');
+  const indexes = (await run(
     `select quote_ident(c.relname) as name, pg_get_indexdef(i.indexrelid) as definition
      from pg_index i join pg_class c on c.oid = i.indexrelid
-     where i.indrelid = any($1::regclass[]) and not i.indisunique
+     where i.indrelid = any(array[${names}]::regclass[]) and not i.indisunique
        and not exists (select 1 from pg_constraint k where k.conindid = i.indexrelid)
      order by c.relname`,
-    [bulkLoadedTables],
-  );
-  for (const { name } of indexes) await session.query(`drop index ${name}`);
+  )) as { name: string; definition: string }[];
+  for (const { name } of indexes) await run(`drop index ${name}`);
   return indexes.map((index) => index.definition);
 }
 

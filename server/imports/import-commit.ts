@@ -136,7 +136,9 @@ async function writePlan(
   const updated = await updateStudents(session, plan, userId, year?.id ?? null);
   // A bulk load builds the secondary indexes again once the new students and seats are in.
   const rebuild =
-    bulk && students.fresh.length >= bulkLoadAtLeast ? await dropSecondaryIndexes(session) : [];
+    bulk && students.fresh.length >= bulkLoadAtLeast
+      ? await dropSecondaryIndexes((text) => session.query(text))
+      : [];
   const created = await insertStudents(session, students.fresh);
   await journalCreated(
     session,

@@ -1,3 +1,4 @@
+import { PGlite } from '@electric-sql/pglite';
 import { sql } from 'drizzle-orm';
 import { rowsOf, type Database, type Transaction } from '../db/client';
 import type { YearStartCounts, YearStartInput, YearStartResult } from '@shared/api/school-year';
@@ -6,6 +7,7 @@ import { recordAudit } from '../core/audit';
 import { badRequest, HttpError } from '../core/errors';
 import { topUpAttainment } from '../analytics/overview-service';
 import { assertYearFits, currentSchoolYearRow } from './school-years-service';
+import { dropSecondaryIndexes } from '../imports/bulk-load';
 
 /** The steps of a start, in order, for a caller that reports progress. */
 export type YearStartStep = 'planned' | 'history' | 'seats' | 'students' | 'switched';
@@ -169,6 +171,7 @@ async function applyPlan(
   input: YearStartInput,
   fromYear: { id: number; name: string },
   onStep: YearStartOptions['onStep'],
+  embedded: boolean,
 ) {
   const [created] = rowsOf<{ id: number }>(
     await tx.execute(sql`
@@ -203,6 +206,17 @@ async function applyPlan(
       order by en.id`);
   }
   await onStep?.('seats');
+  // Every student's grade changes, an indexed column, so no row can be updated in place (a HOT
+  // update) and each of the roster's secondary indexes would take a new entry per student; in
+  // the embedded engine they are dropped and built again after the one update instead
+  // (PostgreSQL manual 14.4.3 "Remove Indexes", as a bulk roster load does in bulk-load.ts). On
+  // a PostgreSQL server dropping an index would lock the table against readers, so it stays.
+  const rebuild = embedded
+    ? await dropSecondaryIndexes(
+        async (text) => rowsOf(await tx.execute(sql.raw(text))),
+        ['students'],
+      )
+    : [];
   await tx.execute(sql`
     update students s set
       grade = case when p.outcome in ('promoted', 'moving-up') then s.grade + 1 else s.grade end,
@@ -210,6 +224,7 @@ async function applyPlan(
       status = case p.outcome when 'graduated' then 'graduated' when 'leaving' then 'leaving' else 'active' end,
       version = s.version + 1, updated_at = now()
     from year_start_plan p where s.id = p.student_id`);
+  for (const definition of rebuild) await tx.execute(sql.raw(definition));
   await tx.execute(sql`
     insert into school_moves (student_id, from_school_id, to_school_id, moved_by)
     select student_id, school_id, next_school_id, ${actor?.userId ?? null}::int
@@ -307,7 +322,9 @@ export async function startSchoolYear(
       dueBack: await dueBackLoans(tx, fromYear.endsOn),
     };
     if (!options.commit) return result;
-    await applyPlan(tx, actor, input, fromYear, options.onStep);
+    // Drizzle's PGlite driver keeps the engine as `$client` (a pool in server mode).
+    const embedded = (db as { $client?: unknown }).$client instanceof PGlite;
+    await applyPlan(tx, actor, input, fromYear, options.onStep, embedded);
     await recordAudit(tx, actor, {
       action: 'start-year',
       entity: 'school-year',
