@@ -1,6 +1,6 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { EMPTY, expand, map, reduce, type Observable } from 'rxjs';
+import { forkJoin, map, of, switchMap, type Observable } from 'rxjs';
 import { attainmentRowSchema, type AttainmentRow } from '@shared/api/analytics';
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
@@ -30,15 +30,21 @@ export class PassOffData {
       .pipe(parsedWith(passOffListSchema));
   }
 
-  /** Every pass-off the query selects, page after page. */
+  /**
+   * Every pass-off the query selects: the first page tells the total, and the pages after it are
+   * asked for together (one round trip more in all, not one per page), then joined in order.
+   */
   all(query: Record<string, string | number | boolean>): Observable<PassOff[]> {
-    const page = (offset: number) =>
-      this.list({ ...query, limit: pageSize, offset }).pipe(map((list) => ({ offset, list })));
+    const page = (offset: number) => this.list({ ...query, limit: pageSize, offset });
     return page(0).pipe(
-      expand(({ offset, list }) =>
-        offset + pageSize < list.total ? page(offset + pageSize) : EMPTY,
-      ),
-      reduce((rows: PassOff[], { list }) => rows.concat(list.rows), []),
+      switchMap((first) => {
+        const offsets: number[] = [];
+        for (let offset = pageSize; offset < first.total; offset += pageSize) offsets.push(offset);
+        if (offsets.length === 0) return of(first.rows);
+        return forkJoin(offsets.map(page)).pipe(
+          map((rest) => first.rows.concat(...rest.map((list) => list.rows))),
+        );
+      }),
     );
   }
 
