@@ -1,6 +1,6 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { forkJoin, map, of, switchMap, type Observable } from 'rxjs';
+import { map, type Observable } from 'rxjs';
 import { attainmentRowSchema, type AttainmentRow } from '@shared/api/analytics';
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
@@ -14,6 +14,7 @@ import {
   type Recording,
 } from '@shared/api/pass-off';
 import { parsedWith } from '../core/parse';
+import { allPages } from './all-pages';
 
 const passOffListSchema = listResponseSchema(passOffSchema);
 const attainmentListSchema = listResponseSchema(attainmentRowSchema);
@@ -30,22 +31,9 @@ export class PassOffData {
       .pipe(parsedWith(passOffListSchema));
   }
 
-  /**
-   * Every pass-off the query selects: the first page tells the total, and the pages after it are
-   * asked for together (one round trip more in all, not one per page), then joined in order.
-   */
+  /** Every pass-off the query selects, its pages after the first asked for together. */
   all(query: Record<string, string | number | boolean>): Observable<PassOff[]> {
-    const page = (offset: number) => this.list({ ...query, limit: pageSize, offset });
-    return page(0).pipe(
-      switchMap((first) => {
-        const offsets: number[] = [];
-        for (let offset = pageSize; offset < first.total; offset += pageSize) offsets.push(offset);
-        if (offsets.length === 0) return of(first.rows);
-        return forkJoin(offsets.map(page)).pipe(
-          map((rest) => first.rows.concat(...rest.map((list) => list.rows))),
-        );
-      }),
-    );
+    return allPages((offset) => this.list({ ...query, limit: pageSize, offset }), pageSize);
   }
 
   /** Each active student of the ensemble with their rung on the ladder in force. */
