@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { calendarDate, idParameter, plainText } from './input-rules';
 import { requirementSchema } from './ladder';
 import { passOffSchema, recordingSchema } from './pass-off';

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { idParameter, plainText, recordId } from './input-rules';
 
 /** An inventory count is open while scanning and closed when reconciled. */

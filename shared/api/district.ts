@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** Whether the runtime knows this IANA time zone name (Intl throws a RangeError otherwise). */
 export function isKnownTimeZone(timeZone: string): boolean {

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { idParameter, plainText } from './input-rules';
 
 /** What a fee-schedule entry prices: a whole instrument family, or one instrument. */

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { plainText } from './input-rules';
 
 /** The largest grid layout kept for one user and grid, in bytes of JSON. */

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { plainText } from './input-rules';
 import { rosterFields } from '../roster/roster-columns';
 

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /**
  * The rules every input field follows, so that a value the database cannot hold is refused as a

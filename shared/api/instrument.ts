@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { calendarDate, idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { instruments } from '../music/index';
 

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { calendarDate, plainText, versionNumber } from './input-rules';
 import {
   articulations,

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { plainText } from './input-rules';
 
 /** The query every list route takes: search, sort, paging; field filters are added per resource. */

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { calendarDate, idParameter, plainText, recordId } from './input-rules';
 import { instrumentConditions } from './instrument';
 

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { capabilities } from './capabilities';
 import { roles } from './roles';
 

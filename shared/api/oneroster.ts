@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { plainText, recordId, versionNumber } from './input-rules';
 
 /** A OneRoster org mapped to one of the district's schools, remembered for later imports. */

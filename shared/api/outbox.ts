@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { idParameter, plainText } from './input-rules';
 
 export const outboxKinds = [

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { plainText, recordId, versionNumber } from './input-rules';
 import { roleSchema, schoolSummarySchema } from './me';
 import { roles, type Role } from './roles';

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { idParameter } from './input-rules';
 
 /** One instrument in the replacement plan, valued by straight-line depreciation. */

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { plainText, versionNumber } from './input-rules';
 
 export const schoolLevels = ['elementary', 'middle', 'high', 'k-8', 'other'] as const;

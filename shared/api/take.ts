@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { requirementCodePattern } from './ladder';
 import { recordingContentTypes } from './pass-off';
 

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { idParameter, plainText } from './input-rules';
 
 /** An API token as listed: never the token itself. */

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { calendarDate, idParameter } from './input-rules';
 
 /** Filters of `GET /api/analytics/year-over-year`. */

@@ -1,4 +1,4 @@
-import { regexes, z } from 'zod';
+import * as z from 'zod';
 import { parseGradeLevel } from './grade-level';
 import { resolveInstrument, type InstrumentId } from './instrument-names';
 import { rosterFieldLabels, type RosterField } from './roster-columns';
@@ -40,7 +40,7 @@ const whitespaceRun = /\s+/g;
 const unusualWhitespace = /\s\s|[^\S ]/;
 
 // The same e-mail pattern as zod's z.email(), used directly so that a row is checked in one pass.
-const emailAddress = regexes.email;
+const emailAddress = z.regexes.email;
 
 /** A value as it appears in a message: quoted, and cut short when long. */
 export function quoteValue(value: string): string {

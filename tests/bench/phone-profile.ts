@@ -101,21 +101,45 @@ function largestContentfulPaint(page: Page): Promise<number> {
   );
 }
 
+/** What a director needs to start: the grid's first row on a desktop, the first scale's card by touch. */
+const entrySelector = (phone: boolean) =>
+  phone ? '[data-testid=touch-scale]' : '[role=row][row-index="0"] [role=gridcell]';
+
 /**
- * Opens the pass-off sheet and answers its LCP once its entry is painted: the grid's first row
- * on a desktop, the first scale's card of the touch entry on a phone.
+ * Notes, in every page of the context, the time of the first frame drawn after the entry's first
+ * element appeared (a MutationObserver, then requestAnimationFrame's timestamp): the paint of the
+ * content itself, which LCP may not pick when a larger heading is drawn earlier.
+ */
+async function noteEntryPaint(context: BrowserContext, phone: boolean): Promise<void> {
+  await context.addInitScript((selector: string) => {
+    const held = window as unknown as { tbEntryPainted?: number };
+    const observer = new MutationObserver(() => {
+      if (!document.querySelector(selector)) return;
+      observer.disconnect();
+      requestAnimationFrame((frame) => {
+        held.tbEntryPainted = frame;
+      });
+    });
+    observer.observe(document, { childList: true, subtree: true });
+  }, entrySelector(phone));
+}
+
+/**
+ * Opens the pass-off sheet and answers when it was usable, in ms from navigation start: its LCP,
+ * or the first frame with the entry's first element if that came later (the heading above the
+ * entry can be the largest paint, and must not stand for the entry).
  */
 async function openSheet(page: Page, url: string, phone: boolean): Promise<number> {
   await page.goto(url, { waitUntil: 'commit' });
-  await page
-    .locator(phone ? '[data-testid=touch-scale]' : '[role=row][row-index="0"] [role=gridcell]')
-    .first()
-    .waitFor({ timeout: 120_000 });
+  await page.locator(entrySelector(phone)).first().waitFor({ timeout: 120_000 });
   // Two frames, so the row that just appeared has been painted and reported.
   await page.evaluate(
     () => new Promise((resolve) => requestAnimationFrame(() => requestAnimationFrame(resolve))),
   );
-  return largestContentfulPaint(page);
+  const entryPainted = await page.evaluate(
+    () => (window as unknown as { tbEntryPainted?: number }).tbEntryPainted ?? 0,
+  );
+  return Math.max(await largestContentfulPaint(page), entryPainted);
 }
 
 /**
@@ -160,11 +184,29 @@ async function throttle(session: CDPSession, on: boolean): Promise<void> {
   );
 }
 
+/**
+ * Waits until the service worker controls the page and holds every file of its prefetched asset
+ * groups (ngsw.json's `installMode: "prefetch"`) in Cache Storage: Angular's worker takes control
+ * as soon as it activates and fetches those files afterwards, so a visit before then is not yet
+ * the repeat visit a user who had the app installed makes.
+ */
 async function waitForServiceWorker(page: Page): Promise<void> {
-  const deadline = Date.now() + 120_000;
-  while (!(await page.evaluate(() => navigator.serviceWorker.controller !== null))) {
-    if (Date.now() > deadline) throw new Error('The service worker did not take control.');
-    await page.waitForTimeout(500);
+  const deadline = Date.now() + 180_000;
+  const installed = () =>
+    page.evaluate(async () => {
+      if (navigator.serviceWorker.controller === null) return false;
+      const manifest = (await (await fetch('/ngsw.json', { cache: 'no-store' })).json()) as {
+        assetGroups: { installMode: string; urls: string[] }[];
+      };
+      const urls = manifest.assetGroups
+        .filter((group) => group.installMode === 'prefetch')
+        .flatMap((group) => group.urls);
+      const cached = await Promise.all(urls.map((url) => caches.match(url)));
+      return cached.every((response) => response !== undefined);
+    });
+  while (!(await installed())) {
+    if (Date.now() > deadline) throw new Error('The service worker did not install the app.');
+    await page.waitForTimeout(1000);
   }
 }
 
@@ -172,16 +214,15 @@ async function measure(browser: Browser, appUrl: string, sheetPath: string, prof
   const context: BrowserContext = await browser.newContext(
     profile.phone
       ? {
-          // A phone's processor and network on a tablet's touch screen (the touch entry, one
-          // student at a time); at 390 px the service worker does not take control within the
-          // bench's two minutes yet, so the phone's own screen waits for that to be found.
-          viewport: { width: 820, height: 1180 },
+          // A phone's screen, processor and network (the touch entry, one student at a time).
+          viewport: { width: 390, height: 844 },
           deviceScaleFactor: 2,
           isMobile: true,
           hasTouch: true,
         }
       : { viewport: { width: 1360, height: 860 } },
   );
+  await noteEntryPaint(context, profile.phone);
   const page = await context.newPage();
   const session = await context.newCDPSession(page);
   await signInAs(page, appUrl, emailOfDirector);
@@ -241,13 +282,13 @@ export async function benchPhoneProfile(options: { runs: number }): Promise<Benc
         'pass-offs LCP, cold, phone profile',
         phone.coldLcp,
         limits.coldLcp,
-        `limit 2.5 s; ${beside(phone.coldLcp, desktop.coldLcp)}`,
+        `limit 2.5 s; LCP, or the entry's first paint if later; 390×844; ${beside(phone.coldLcp, desktop.coldLcp)}`,
       ),
       figure(
         'pass-offs LCP, repeat visit (service worker), phone profile',
         phone.repeatLcp,
         limits.repeatLcp,
-        `limit 1 s; ${beside(phone.repeatLcp, desktop.repeatLcp)}`,
+        `limit 1 s; the app's files installed by the worker first; ${beside(phone.repeatLcp, desktop.repeatLcp)}`,
       ),
       figure(
         'tap on a cell to next paint, phone profile',

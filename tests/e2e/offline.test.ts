@@ -249,6 +249,13 @@ describe('With no network', () => {
     const worker = (await app.anonymous.get('/ngsw.json')).body as { hashTable: object };
     const main = Object.keys(worker.hashTable).find((file) => /^\/main-\w+\.js$/.test(file))!;
     expect(main).toBeDefined();
-    expect((await app.anonymous.get(main)).headers['cache-control']).toBe('public, max-age=3600');
+    // RFC 8246: a file whose name carries its content's hash never changes, so it is immutable.
+    expect((await app.anonymous.get(main)).headers['cache-control']).toBe(
+      'public, max-age=31536000, immutable',
+    );
+    // RFC 9110 §12.5.3: the browser's Accept-Encoding is answered with a coding it named.
+    const coded = await app.anonymous.get(main).set('Accept-Encoding', 'br');
+    expect(coded.headers['content-encoding']).toBe('br');
+    expect(coded.headers['vary']).toMatch(/accept-encoding/i);
   });
 });

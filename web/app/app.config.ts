@@ -11,7 +11,6 @@ import { routes } from './app.routes';
 import { sessionExpiredInterceptor } from './core/auth/session-expired-interceptor';
 import { AppUpdates } from './core/offline/app-updates';
 import { lastVisitInterceptor } from './core/offline/last-visit-interceptor';
-import { Icons } from './core/icons';
 
 export const appConfig: ApplicationConfig = {
   providers: [
@@ -19,7 +18,6 @@ export const appConfig: ApplicationConfig = {
     provideZonelessChangeDetection(),
     provideHttpClient(withInterceptors([sessionExpiredInterceptor, lastVisitInterceptor]), withXsrfConfiguration({})),
     provideRouter(routes, withComponentInputBinding(), withInMemoryScrolling({ scrollPositionRestoration: 'top' })),
-    provideAppInitializer(() => inject(Icons).register()),
     provideAppInitializer(() => inject(AppUpdates).start()),
   ],
 };

@@ -1,8 +1,24 @@
-import type { Routes } from '@angular/router';
-import { Shell } from './core/layout/shell';
+import type { CanMatchFn, Routes } from '@angular/router';
 import { capabilityGuard, signedInGuard } from './core/auth/signed-in-guard';
 import { startPage } from './core/start-page';
 import { studentPageGuard, studentPageMatcher } from './students/student-progress/student-page-route';
+
+const loadShell = () => import('./core/layout/shell').then((m) => m.Shell);
+
+const loadPassOffEntry = () =>
+  import('./pass-offs/pass-off-entry/pass-off-entry').then((m) => m.PassOffEntry);
+
+/**
+ * A `canMatch` guard that only starts a route's lazy code loading and lets the route match:
+ * Angular's router runs `canMatch` while it recognizes the URL, before the parent's `canActivate`
+ * guards, and loads `loadComponent` only after them. A failed load is left to `loadComponent`.
+ */
+function startLoading(load: () => Promise<unknown>): CanMatchFn {
+  return () => {
+    load().catch(() => undefined);
+    return true;
+  };
+}
 
 export const routes: Routes = [
   {
@@ -12,7 +28,10 @@ export const routes: Routes = [
   },
   {
     path: '',
-    component: Shell,
+    // The shell (top bar, navigation drawer) is code of its own, asked for at once and loaded
+    // while the signed-in user is fetched, so the first bundle holds only the router and bootstrap.
+    canMatch: [startLoading(loadShell)],
+    loadComponent: loadShell,
     canActivate: [signedInGuard],
     children: [
       { path: '', pathMatch: 'full', canActivate: [startPage], children: [] },
@@ -57,8 +76,10 @@ export const routes: Routes = [
         path: 'pass-offs',
         canActivate: [capabilityGuard],
         data: { capability: 'pass-offs:write' },
-        loadComponent: () =>
-          import('./pass-offs/pass-off-entry/pass-off-entry').then((m) => m.PassOffEntry),
+        // Asked for while the route is matched, so its code arrives while the shell's guard is
+        // still waiting for the signed-in user, instead of after it (the module loads once).
+        canMatch: [startLoading(loadPassOffEntry)],
+        loadComponent: loadPassOffEntry,
         title: 'Pass-offs · Tuttiboard',
       },
       {

@@ -1,7 +1,7 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { type Observable, catchError, forkJoin, map, of } from 'rxjs';
-import { z } from 'zod';
+import * as z from 'zod';
 import {
   attainmentRowSchema,
   auditionReadyRowSchema,

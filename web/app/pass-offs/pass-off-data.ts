@@ -1,6 +1,6 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { EMPTY, expand, map, reduce, type Observable } from 'rxjs';
+import { map, type Observable } from 'rxjs';
 import { attainmentRowSchema, type AttainmentRow } from '@shared/api/analytics';
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
@@ -14,6 +14,7 @@ import {
   type Recording,
 } from '@shared/api/pass-off';
 import { parsedWith } from '../core/parse';
+import { allPages } from './all-pages';
 
 const passOffListSchema = listResponseSchema(passOffSchema);
 const attainmentListSchema = listResponseSchema(attainmentRowSchema);
@@ -30,16 +31,9 @@ export class PassOffData {
       .pipe(parsedWith(passOffListSchema));
   }
 
-  /** Every pass-off the query selects, page after page. */
+  /** Every pass-off the query selects, its pages after the first asked for together. */
   all(query: Record<string, string | number | boolean>): Observable<PassOff[]> {
-    const page = (offset: number) =>
-      this.list({ ...query, limit: pageSize, offset }).pipe(map((list) => ({ offset, list })));
-    return page(0).pipe(
-      expand(({ offset, list }) =>
-        offset + pageSize < list.total ? page(offset + pageSize) : EMPTY,
-      ),
-      reduce((rows: PassOff[], { list }) => rows.concat(list.rows), []),
-    );
+    return allPages((offset) => this.list({ ...query, limit: pageSize, offset }), pageSize);
   }
 
   /** Each active student of the ensemble with their rung on the ladder in force. */

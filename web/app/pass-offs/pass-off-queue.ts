@@ -1,7 +1,7 @@
 import { HttpErrorResponse } from '@angular/common/http';
 import { Injectable, computed, inject, signal } from '@angular/core';
 import { Subject } from 'rxjs';
-import { z } from 'zod';
+import * as z from 'zod';
 import { passOffInputSchema, type PassOff, type PassOffInput } from '@shared/api/pass-off';
 import { unreachable } from '../core/offline/last-visit-interceptor';
 import { errorMessage } from '../core/parse';

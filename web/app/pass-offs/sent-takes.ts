@@ -1,6 +1,6 @@
 import { httpResource } from '@angular/common/http';
 import { Injectable, computed } from '@angular/core';
-import { z } from 'zod';
+import * as z from 'zod';
 import { takeSchema, type Take } from '@shared/api/take';
 import { cellKey } from './entry-cells';
 

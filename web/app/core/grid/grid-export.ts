@@ -2,7 +2,7 @@ import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
 import { listResponseSchema } from '@shared/api/list';
-import { z } from 'zod';
+import * as z from 'zod';
 import { gridCsv, type CsvColumn } from './grid-csv';
 import { listParameters, type GridFilters } from './grid-query';
 

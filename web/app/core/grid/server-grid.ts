@@ -30,7 +30,7 @@ import type {
   IDatasource,
   RowClickedEvent,
 } from 'ag-grid-community';
-import { z } from 'zod';
+import * as z from 'zod';
 import { listResponseSchema } from '@shared/api/list';
 import { errorMessage } from '../parse';
 import { map } from 'rxjs';

@@ -17,6 +17,7 @@ import { MatIcon } from '@angular/material/icon';
 import { roleLabels } from '@shared/api/roles';
 import { CurrentUser } from '../auth/current-user';
 import { CurrentDistrict } from '../district/current-district';
+import { Icons } from '../icons';
 import { LastVisit } from '../offline/last-visit';
 import { unsentPassOffCount } from '../../pass-offs/unsent-pass-offs';
 import { navigationGroups, visibleItems } from './navigation';
@@ -51,6 +52,7 @@ export class Shell {
   private fromRail = false;
 
   constructor() {
+    inject(Icons).register();
     void this.currentDistrict.load();
     this.router.events
       .pipe(

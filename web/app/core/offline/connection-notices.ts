@@ -8,6 +8,7 @@ import {
 } from '@angular/core';
 import { MatIcon } from '@angular/material/icon';
 import { CurrentUser } from '../auth/current-user';
+import { Icons } from '../icons';
 import { AppUpdates } from './app-updates';
 import { LastVisit } from './last-visit';
 
@@ -104,6 +105,7 @@ export class ConnectionNotices {
   );
 
   constructor() {
+    inject(Icons).register();
     const goOnline = () => {
       this.online.set(true);
       // The next read that finds no server notes it again.

@@ -5,7 +5,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
 import { forkJoin, map } from 'rxjs';
-import { z } from 'zod';
+import * as z from 'zod';
 import { parsedWith } from '../../core/parse';
 
 const totalOnly = z.object({ total: z.number().int() });

@@ -21,13 +21,11 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
-import { AgGridAngular } from 'ag-grid-angular';
 import type {
   CellClickedEvent,
   CellFocusedEvent,
   CellKeyDownEvent,
   FullWidthCellKeyDownEvent,
-  GetRowIdParams,
   GridApi,
   GridReadyEvent,
 } from 'ag-grid-community';
@@ -36,7 +34,6 @@ import type { Ensemble } from '@shared/api/ensemble';
 import type { Ladder, LadderRequirement } from '@shared/api/ladder';
 import type { PassOff } from '@shared/api/pass-off';
 import { CurrentUser } from '../../core/auth/current-user';
-import { gridTheme } from '../../core/grid/grid-theme';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { EnsembleData } from '../../ensembles/ensemble-data';
@@ -51,7 +48,7 @@ import { EntryDrafts } from '../entry-drafts';
 import { PassOffData } from '../pass-off-data';
 import { PassOffQueue } from '../pass-off-queue';
 import { StudentHistory } from '../student-history/student-history';
-import { entryGridModules } from './entry-grid-modules';
+import { EntryGrid } from './entry-grid';
 import { EnsembleSheet } from './ensemble-sheet';
 import { queueBanner } from './entry-sheet';
 import { SentTakes } from '../sent-takes';
@@ -74,7 +71,7 @@ import { PastPassOffs } from '../past-pass-offs/past-pass-offs';
 @Component({
   selector: 'tb-pass-off-entry',
   imports: [
-    AgGridAngular,
+    EntryGrid,
     MatButtonModule,
     MatFormFieldModule,
     MatIconModule,
@@ -113,9 +110,6 @@ export class PassOffEntry {
   /** The `rung` query parameter: the rung's number. */
   readonly rung = input<string>();
 
-  protected readonly modules = entryGridModules;
-  protected readonly rowId = (params: GetRowIdParams<EntryRow>) => String(params.data.studentId);
-  protected readonly theme = gridTheme;
   protected readonly today = localToday();
   protected readonly ensembles = signal<Ensemble[] | null>(null);
   protected readonly ladder = signal<Ladder | null>(null);
