@@ -90,6 +90,13 @@ interface StudentValues {
   guardianLines: RosterCandidate['fieldLines'];
 }
 
+/** The school found, or undefined; a school marked `tobedeleted` counts as a skipped record. */
+function countingDeleted<School>(read: BundleRead, school: School | 'deleted' | undefined) {
+  if (school !== 'deleted') return school;
+  read.skipped++;
+  return undefined;
+}
+
 /** The row of a student with no class, at the school of their own org. */
 function unseatedCandidate(
   read: BundleRead,
@@ -109,11 +116,7 @@ function unseatedCandidate(
     });
     return undefined;
   }
-  const school = orgs.schoolOf(orgId, userLine, orgColumn);
-  if (school === 'deleted') {
-    read.skipped++;
-    return undefined;
-  }
+  const school = countingDeleted(read, orgs.schoolOf(orgId, userLine, orgColumn));
   if (!school) return undefined;
   return {
     line: userLine,
@@ -147,17 +150,16 @@ function seatedCandidate(
   }
   // The enrolment's school, else the class's: both are required by the specification, but
   // exports leave one blank.
-  const school = enrollment.cell('schoolSourcedId')
-    ? orgs.schoolOf(enrollment.cell('schoolSourcedId'), line, 'enrollments.csv:schoolSourcedId')
-    : orgs.schoolOf(
-        roomClass.cell('schoolSourcedId'),
-        roomClass.line,
-        'classes.csv:schoolSourcedId',
-      );
-  if (school === 'deleted') {
-    read.skipped++;
-    return undefined;
-  }
+  const school = countingDeleted(
+    read,
+    enrollment.cell('schoolSourcedId')
+      ? orgs.schoolOf(enrollment.cell('schoolSourcedId'), line, 'enrollments.csv:schoolSourcedId')
+      : orgs.schoolOf(
+          roomClass.cell('schoolSourcedId'),
+          roomClass.line,
+          'classes.csv:schoolSourcedId',
+        ),
+  );
   if (!school) return undefined;
   const title = roomClass.cell('title');
   const instrument = instrumentNamedIn(title) ?? instrumentNamedIn(roomClass.cell('subjects'));
