@@ -141,7 +141,6 @@ export async function readOneRosterBundle(
   }
   if (delta) delta.endedSeats.push(...endedSeats(read, endedEnrollments));
 
-  const { orgs } = read;
   const validated = validateRosterCandidates(candidates, options);
   return {
     ...base,
@@ -152,8 +151,8 @@ export async function readOneRosterBundle(
     skipped: read.skipped,
     oneRosterVersion: layout.version,
     ...(delta ? { delta } : {}),
-    ...(orgs.unmapped.length > 0 ? { unmappedOrgs: orgs.unmapped } : {}),
-    matchedOrgs: [...orgs.matched.values()],
+    ...(read.orgs.unmapped.length > 0 ? { unmappedOrgs: read.orgs.unmapped } : {}),
+    matchedOrgs: [...read.orgs.matched.values()],
   };
 }
 
