@@ -3,7 +3,7 @@ import type { Database } from '../db/client';
 import { HttpError } from '../core/errors';
 import { tokenFailuresExceeded, tooManyTokenFailures } from '../core/rate-limits';
 import { loadActor } from '../people/people-queries';
-import { resolveToken } from '../tokens/token-service';
+import { resolveToken } from '../tokens/tokens-service';
 import type { SessionUser } from './oidc-sign-in';
 
 /**

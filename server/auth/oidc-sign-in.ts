@@ -51,11 +51,48 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
   authenticator.serializeUser((user, done) => done(null, user));
   authenticator.deserializeUser((user: SessionUser, done) => done(null, user));
 
+  function discover(): Promise<client.Configuration> {
+    if (!discovered) {
+      const execute = config.oidcIssuer.startsWith('http:') ? [client.allowInsecureRequests] : [];
+      discovered = client
+        .discovery(
+          new URL(config.oidcIssuer),
+          config.oidcClientId,
+          config.oidcClientSecret,
+          undefined,
+          { execute, timeout: 5 },
+        )
+        .then((configuration) => {
+          authenticator.use(
+            strategyName,
+            new Strategy(
+              { config: configuration, scope: 'openid email profile', passReqToCallback: true },
+              verifierFor(db, configuration),
+            ),
+          );
+          return configuration;
+        })
+        .catch((error: unknown) => {
+          discovered = undefined;
+          throw error;
+        });
+    }
+    return discovered;
+  }
+
+  const router = signInRouter({ config, db, logger, authenticator, discover });
+  return { router, initialize: authenticator.initialize(), session: authenticator.session() };
+}
+
+/**
+ * The strategy's verify step: the provider's user is a Tuttiboard user when their e-mail names an
+ * active one; the sign-in is stamped on the user and recorded in the history.
+ */
+function verifierFor(db: Database, configuration: client.Configuration): VerifyFunctionWithRequest {
   const verifyTokens = async (
     tokens: Parameters<VerifyFunctionWithRequest>[1],
     verified: Parameters<VerifyFunctionWithRequest>[2],
   ): Promise<void> => {
-    const configuration = await discovered!;
     const claims = tokens.claims();
     if (!claims)
       return verified(null, false, { message: 'The sign-in answer carried no identity.' });
@@ -73,65 +110,69 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
     verified(null, sessionUser);
   };
   // The strategy reads verify's callback, not a promise: a failure goes to the callback too.
-  const verify: VerifyFunctionWithRequest = (_request, tokens, verified) => {
+  return (_request, tokens, verified) => {
     verifyTokens(tokens, verified).catch((error: unknown) => verified(error));
   };
+}
 
-  function discover(): Promise<client.Configuration> {
-    if (!discovered) {
-      const execute = config.oidcIssuer.startsWith('http:') ? [client.allowInsecureRequests] : [];
-      discovered = client
-        .discovery(
-          new URL(config.oidcIssuer),
-          config.oidcClientId,
-          config.oidcClientSecret,
-          undefined,
-          { execute, timeout: 5 },
-        )
-        .then((configuration) => {
-          authenticator.use(
-            strategyName,
-            new Strategy(
-              { config: configuration, scope: 'openid email profile', passReqToCallback: true },
-              verify,
-            ),
-          );
-          return configuration;
-        })
-        .catch((error: unknown) => {
-          discovered = undefined;
-          throw error;
-        });
-    }
-    return discovered;
-  }
+interface SignInParts {
+  config: Config;
+  db: Database;
+  logger: Logger;
+  authenticator: passport.Authenticator;
+  discover: () => Promise<client.Configuration>;
+}
 
-  async function brand(): Promise<string | undefined> {
-    return (await districtIdentity(db).catch(() => undefined))?.name;
-  }
+async function districtName(db: Database): Promise<string | undefined> {
+  return (await districtIdentity(db).catch(() => undefined))?.name;
+}
 
-  async function providerDown(response: Response, error: unknown) {
-    logger.warn({ err: error, issuer: config.oidcIssuer }, 'identity provider unreachable');
-    response
-      .status(503)
-      .type('html')
-      .send(
-        plainPage({
-          brand: await brand(),
-          title: 'Sign-in is not available right now',
-          message: `The district's sign-in service (${config.oidcIssuer}) is not answering. Nothing you had saved is affected. Try again in a minute; if it goes on, tell the district's IT help desk.`,
-          action: { href: '/auth/sign-in', label: 'Try again' },
-        }),
-      );
-  }
+/** The page a sign-in gets while the identity provider does not answer (503). */
+async function providerDown(
+  { config, db, logger }: SignInParts,
+  response: Response,
+  error: unknown,
+) {
+  logger.warn({ err: error, issuer: config.oidcIssuer }, 'identity provider unreachable');
+  response
+    .status(503)
+    .type('html')
+    .send(
+      plainPage({
+        brand: await districtName(db),
+        title: 'Sign-in is not available right now',
+        message: `The district's sign-in service (${config.oidcIssuer}) is not answering. Nothing you had saved is affected. Try again in a minute; if it goes on, tell the district's IT help desk.`,
+        action: { href: '/auth/sign-in', label: 'Try again' },
+      }),
+    );
+}
 
+/** The page a refused or failed sign-in gets: 502 when it failed, 403 when it was refused. */
+async function notSignedIn(db: Database, response: Response, failed: boolean, message?: string) {
+  response
+    .status(failed ? 502 : 403)
+    .type('html')
+    .send(
+      plainPage({
+        brand: await districtName(db),
+        title: 'You are not signed in',
+        message:
+          message ?? 'The sign-in could not be completed. Start again from the sign-in page.',
+        action: { href: '/auth/sign-in', label: 'Sign in again' },
+      }),
+    );
+}
+
+/** The routes of the sign-in: start, the provider's callback, and sign-out. */
+function signInRouter(parts: SignInParts): Router {
+  const { config, logger, authenticator, discover } = parts;
   const router = Router();
 
   router.get('/auth/sign-in', async (request: Request, response: Response, next: NextFunction) => {
     try {
       await discover();
     } catch (error) {
-      return await providerDown(response, error);
+      return await providerDown(parts, response, error);
     }
     request.session.returnTo = safeReturnPath(request.query['returnTo']);
     const callbackURL = `${publicOrigin(config, request)}/auth/callback`;
@@ -146,7 +187,7 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
     try {
       await discover();
     } catch (error) {
-      return await providerDown(response, error);
+      return await providerDown(parts, response, error);
     }
     const callbackURL = `${publicOrigin(config, request)}/auth/callback`;
     const returnTo = safeReturnPath(request.session.returnTo);
@@ -156,21 +197,7 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
       (error: unknown, user: SessionUser | false, info?: { message?: string }) => {
         if (error || !user) {
           if (error) logger.warn({ err: error }, 'sign-in failed');
-          void brand().then((district) =>
-            response
-              .status(error ? 502 : 403)
-              .type('html')
-              .send(
-                plainPage({
-                  brand: district,
-                  title: 'You are not signed in',
-                  message:
-                    info?.message ??
-                    'The sign-in could not be completed. Start again from the sign-in page.',
-                  action: { href: '/auth/sign-in', label: 'Sign in again' },
-                }),
-              ),
-          );
+          void notSignedIn(parts.db, response, Boolean(error), info?.message);
           return;
         }
         // req.logIn regenerates the session, so a session id planted before sign-in is dropped.
@@ -202,7 +229,7 @@ export function createSignIn(config: Config, db: Database, logger: Logger) {
     });
   });
 
-  return { router, initialize: authenticator.initialize(), session: authenticator.session() };
+  return router;
 }
 
 /** The app's own session cookie; named so it never collides with the identity provider's on localhost. */

@@ -5,7 +5,7 @@ import type { Services } from '../services';
 import { HttpError } from '../core/errors';
 import { parseInput } from '../core/validate';
 import { findUserByEmail } from '../people/people-queries';
-import { issueToken } from '../tokens/token-service';
+import { issueToken } from '../tokens/tokens-service';
 import { localImportHandlers, runOneRosterSync } from '../imports/local-import';
 import { AlreadySetUpError, setUpDistrict } from '../district/district-service';
 import { answerBackup } from '../backup/backup-routes';

@@ -1,6 +1,6 @@
 import type { Config } from '../config';
 import { findUserByEmail } from '../people/people-queries';
-import { issueToken } from '../tokens/token-service';
+import { issueToken } from '../tokens/tokens-service';
 import { defaultTokenLifetimeDays } from '@shared/api/token';
 import { CommandError } from './command-error';
 import { withCommandDatabase } from './command-database';

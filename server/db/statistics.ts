@@ -11,7 +11,7 @@ export const summaryTables = ['student_attainment', 'passed_requirements', 'pass
  * change. The embedded database runs no autovacuum daemon, so without this a table filled by an
  * import or a seed keeps the statistics of when it was empty and queries are planned for the
  * wrong sizes, and its visibility map stays empty, so no index-only scan can skip the table's
- * rows (a deep grid page finds its first key that way: server/students/students-list.ts). On a
+ * rows (a deep grid page finds its first key that way: server/students/students-queries.ts). On a
  * PostgreSQL server autovacuum would get there too; doing it at once costs a fraction of the
  * bulk change (about 10 ms for 50,000 students here). With no tables named, every table of the
  * database. PostgreSQL documentation: VACUUM, and "Routine Vacuuming: Updating the Visibility Map".

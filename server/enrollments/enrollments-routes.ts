@@ -3,7 +3,7 @@ import { enrollmentInputSchema, enrollmentPatchSchema } from '@shared/api/enroll
 import { actorOf, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
-import { listEnrollments } from './enrollments-list';
+import { listEnrollments } from './enrollments-queries';
 import {
   createEnrollment,
   deleteEnrollment,

@@ -3,7 +3,7 @@ import { ensembleInputSchema, ensemblePatchSchema } from '@shared/api/ensemble';
 import { actorOf, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
-import { listEnsembles } from './ensembles-list';
+import { listEnsembles } from './ensembles-queries';
 import { createEnsemble, deleteEnsemble, getEnsemble, updateEnsemble } from './ensembles-service';
 
 /** `/api/ensembles`: read within the actor's schools; directors and the coordinator change. */

@@ -10,6 +10,12 @@ import type { Database } from '../db/client';
 import type { ParsedRoster, RowError } from './parse/parsed-roster';
 import { guessEnsembleKind } from './ensemble-kind';
 import { readRosterSnapshot, type ExistingStudent, type RosterSnapshot } from './roster-snapshot';
+import {
+  existingAsPlanned,
+  hasStudentChange,
+  plannedDeltaRemovals,
+  seatsLeft,
+} from './import-plan-seats';
 
 /** How an import treats what the file leaves out and what it gets wrong. */
 export interface ImportOptions {
@@ -115,16 +121,6 @@ function plannedStudent(row: RosterRow): PlannedStudent {
   return { studentId, firstName, lastName, schoolCode, grade };
 }
 
-function existingAsPlanned(student: ExistingStudent, snapshot: RosterSnapshot): PlannedStudent {
-  return {
-    studentId: student.studentNumber,
-    firstName: student.firstName,
-    lastName: student.lastName,
-    schoolCode: snapshot.schoolCodeById.get(student.schoolId) ?? '',
-    grade: student.grade,
-  };
-}
-
 function studentChanges(
   row: RosterRow,
   existing: ExistingStudent,
@@ -164,39 +160,12 @@ export async function planImport(
   parsed: ParsedRoster,
   options: ImportOptions,
 ): Promise<ImportPlan> {
-  const { delta } = parsed;
   // A delta lists changes only: no student is withdrawn for being left out of it.
-  if (delta) options = { ...options, withdrawMissing: false };
+  if (parsed.delta) options = { ...options, withdrawMissing: false };
   const students = firstRowOfEachStudent(parsed);
   const schoolCodes = [...new Set(students.map((row) => row.schoolCode))].sort();
-  const deltaIds = delta
-    ? [...delta.withdrawnStudentIds, ...delta.endedSeats.map((seat) => seat.studentId)]
-    : [];
-  const deltaSchools = delta ? delta.endedSeats.map((seat) => seat.schoolCode) : [];
-  const snapshot = await readRosterSnapshot(
-    db,
-    [...new Set([...students.map((row) => row.studentId), ...deltaIds])],
-    [...new Set([...schoolCodes, ...deltaSchools])].sort(),
-    options.withdrawMissing,
-  );
-  const errors = [...parsed.errors];
-  const unknownSchools = schoolCodes.filter((code) => !snapshot.schoolIdByCode.has(code));
-  for (const code of unknownSchools) {
-    errors.unshift({
-      line: 0,
-      column: '',
-      message: `School code '${code}' is not one of the district's schools.`,
-    });
-  }
-  const withSeats = Boolean(parsed.mapping.ensemble) && parsed.rows.some(({ row }) => row.ensemble);
-  if (withSeats && !snapshot.schoolYear) {
-    errors.unshift({
-      line: 0,
-      column: '',
-      message:
-        'No school year is marked current, so the rows’ ensembles have no year to be seated in; set the current school year first.',
-    });
-  }
+  const snapshot = await snapshotFor(db, parsed, options, students, schoolCodes);
+  const errors = planErrors(parsed, snapshot, schoolCodes);
 
   const columns = writtenStudentColumns(parsed.mapping);
   const createdStudents: PlannedStudent[] = [];
@@ -212,61 +181,7 @@ export async function planImport(
   }
 
   const leaving = seatsLeft(parsed, snapshot);
-  const firstRowIndex = new Map<string, number>();
-  for (const [index, { row }] of parsed.rows.entries())
-    if (!firstRowIndex.has(row.studentId)) firstRowIndex.set(row.studentId, index);
-
-  const newEnsembles = new Map<string, PlannedEnsemble>();
-  const rowClass: ('created' | 'updated' | 'unchanged')[] = [];
-  const seatRows = new Set<number>();
-  for (const [index, { row }] of parsed.rows.entries()) {
-    const changes = changesOf.get(row.studentId);
-    if (!changes) {
-      rowClass.push('created');
-    }
-    let seatChanged = false;
-    if (row.ensemble) {
-      const schoolId = snapshot.schoolIdByCode.get(row.schoolCode);
-      const ensemble =
-        schoolId === undefined
-          ? undefined
-          : snapshot.ensembles.get(schoolId)?.get(row.ensemble.toLowerCase());
-      if (!ensemble) {
-        const key = `${row.schoolCode}\u0000${row.ensemble.toLowerCase()}`;
-        if (!newEnsembles.has(key)) {
-          newEnsembles.set(key, {
-            schoolCode: row.schoolCode,
-            name: row.ensemble,
-            kind: guessEnsembleKind(row.ensemble),
-          });
-        }
-        seatChanged = true;
-        changes?.push({ field: 'ensemble', before: null, after: row.ensemble });
-      } else {
-        const seat = snapshot.seats.get(row.studentId)?.get(ensemble.id);
-        if (!seat || !seat.active) {
-          seatChanged = true;
-          changes?.push({ field: 'ensemble', before: null, after: ensemble.name });
-        } else if (row.instrument && row.instrument !== seat.instrumentId) {
-          seatChanged = true;
-          changes?.push({
-            field: 'instrument',
-            ensemble: ensemble.name,
-            before: seat.instrumentId,
-            after: row.instrument,
-          });
-        }
-      }
-    }
-    const left =
-      firstRowIndex.get(row.studentId) === index ? leaving.get(row.studentId) : undefined;
-    for (const seat of left ?? []) {
-      seatChanged = true;
-      changes?.push({ field: 'ensemble', before: seat.name, after: null });
-    }
-    if (seatChanged) seatRows.add(index);
-    if (changes) rowClass.push(seatChanged || hasStudentChange(changes) ? 'updated' : 'unchanged');
-  }
+  const { rowClass, seatRows, newEnsembles } = classifiedRows(parsed, snapshot, changesOf, leaving);
   const differentStudents = new Set(createdStudents.map((student) => student.studentId));
   for (const row of students) {
     const changes = changesOf.get(row.studentId);
@@ -274,19 +189,9 @@ export async function planImport(
     if (changes && hasStudentChange(changes)) differentStudents.add(row.studentId);
   }
 
-  const withdrawnStudents: PlannedStudent[] = [];
-  if (options.withdrawMissing) {
-    const inFile = new Set(students.map((row) => row.studentId));
-    const schoolIds = new Set(schoolCodes.map((code) => snapshot.schoolIdByCode.get(code)));
-    for (const student of snapshot.students.values()) {
-      if (student.status !== 'active' || !schoolIds.has(student.schoolId)) continue;
-      if (inFile.has(student.studentNumber) || options.listedStudentIds?.has(student.studentNumber))
-        continue;
-      withdrawnStudents.push(existingAsPlanned(student, snapshot));
-    }
-    withdrawnStudents.sort((first, second) => first.studentId.localeCompare(second.studentId));
-  }
-
+  const withdrawnStudents = options.withdrawMissing
+    ? studentsLeftOut(students, schoolCodes, snapshot, options)
+    : [];
   const deltaRemovals = plannedDeltaRemovals(parsed, snapshot, updatedStudents);
   withdrawnStudents.push(
     ...deltaRemovals.studentIds.map((id) =>
@@ -294,8 +199,7 @@ export async function planImport(
     ),
   );
 
-  const count = (kind: (typeof rowClass)[number]) =>
-    rowClass.filter((entry) => entry === kind).length;
+  const count = (kind: RowClass) => rowClass.filter((entry) => entry === kind).length;
   const blocking = errors.some((error) => error.line === 0);
   const changes =
     parsed.rows.length + deltaRemovals.studentIds.length + deltaRemovals.endedSeats.length;
@@ -330,98 +234,154 @@ export async function planImport(
   };
 }
 
-/**
- * The active current-year seats each student of the file leaves: for a student whose rows name
- * at least one ensemble, the seats at their school in ensembles some row of the file names but
- * none of theirs does. By student id, in ensemble name order.
- */
-function seatsLeft(
+/** The database as the plan needs it: the file's students and schools, and a delta's too. */
+function snapshotFor(
+  db: Database,
   parsed: ParsedRoster,
-  snapshot: RosterSnapshot,
-): Map<string, { ensembleId: number; name: string }[]> {
-  const ensembleById = new Map<number, { schoolId: number; name: string }>();
-  for (const [schoolId, byName] of snapshot.ensembles)
-    for (const { id, name } of byName.values()) ensembleById.set(id, { schoolId, name });
-  const idOf = (row: RosterRow) => {
-    const schoolId = snapshot.schoolIdByCode.get(row.schoolCode);
-    if (schoolId === undefined || !row.ensemble) return undefined;
-    return snapshot.ensembles.get(schoolId)?.get(row.ensemble.toLowerCase())?.id;
-  };
-  const spokenOf = new Set<number>();
-  const listed = new Map<string, { schoolId: number; ensembles: Set<number> }>();
-  for (const { row } of parsed.rows) {
-    if (!row.ensemble) continue;
-    const schoolId = snapshot.schoolIdByCode.get(row.schoolCode);
-    if (schoolId === undefined) continue;
-    const entry = listed.get(row.studentId) ?? { schoolId, ensembles: new Set<number>() };
-    const id = idOf(row);
-    if (id !== undefined) {
-      spokenOf.add(id);
-      entry.ensembles.add(id);
-    }
-    listed.set(row.studentId, entry);
-  }
-  const leaving = new Map<string, { ensembleId: number; name: string }[]>();
-  const skipped = new Set(parsed.skippedStudentIds);
-  for (const [studentId, { schoolId, ensembles }] of listed) {
-    // A row of theirs was left out for a problem: it may name the seat, so none is ended.
-    if (skipped.has(studentId)) continue;
-    const left: { ensembleId: number; name: string }[] = [];
-    for (const [ensembleId, seat] of snapshot.seats.get(studentId) ?? []) {
-      const ensemble = ensembleById.get(ensembleId);
-      if (!seat.active || !ensemble || ensemble.schoolId !== schoolId) continue;
-      if (spokenOf.has(ensembleId) && !ensembles.has(ensembleId))
-        left.push({ ensembleId, name: ensemble.name });
-    }
-    left.sort((first, second) => first.name.localeCompare(second.name));
-    if (left.length > 0) leaving.set(studentId, left);
-  }
-  return leaving;
+  options: ImportOptions,
+  students: RosterRow[],
+  schoolCodes: string[],
+): Promise<RosterSnapshot> {
+  const { delta } = parsed;
+  const deltaIds = delta
+    ? [...delta.withdrawnStudentIds, ...delta.endedSeats.map((seat) => seat.studentId)]
+    : [];
+  const deltaSchools = delta ? delta.endedSeats.map((seat) => seat.schoolCode) : [];
+  return readRosterSnapshot(
+    db,
+    [...new Set([...students.map((row) => row.studentId), ...deltaIds])],
+    [...new Set([...schoolCodes, ...deltaSchools])].sort(),
+    options.withdrawMissing,
+  );
 }
 
-// A row of a student whose own fields change is an updated row, whichever ensemble it is for.
-function hasStudentChange(changes: FieldChange[]): boolean {
-  return changes.some((change) => change.field !== 'ensemble' && change.field !== 'instrument');
+/** The file's errors, after those that stop the import as a whole (line 0). */
+function planErrors(
+  parsed: ParsedRoster,
+  snapshot: RosterSnapshot,
+  schoolCodes: string[],
+): RowError[] {
+  const errors = [...parsed.errors];
+  const unknownSchools = schoolCodes.filter((code) => !snapshot.schoolIdByCode.has(code));
+  for (const code of unknownSchools) {
+    errors.unshift({
+      line: 0,
+      column: '',
+      message: `School code '${code}' is not one of the district's schools.`,
+    });
+  }
+  const withSeats = Boolean(parsed.mapping.ensemble) && parsed.rows.some(({ row }) => row.ensemble);
+  if (withSeats && !snapshot.schoolYear) {
+    errors.unshift({
+      line: 0,
+      column: '',
+      message:
+        'No school year is marked current, so the rows’ ensembles have no year to be seated in; set the current school year first.',
+    });
+  }
+  return errors;
+}
+
+type RowClass = 'created' | 'updated' | 'unchanged';
+
+/**
+ * Each valid row as created, updated or unchanged, the rows whose seat is new or changes, and
+ * the ensembles the rows name that do not exist yet. Seat changes join the student's changes.
+ */
+function classifiedRows(
+  parsed: ParsedRoster,
+  snapshot: RosterSnapshot,
+  changesOf: Map<string, FieldChange[]>,
+  leaving: ReturnType<typeof seatsLeft>,
+) {
+  const firstRowIndex = new Map<string, number>();
+  for (const [index, { row }] of parsed.rows.entries())
+    if (!firstRowIndex.has(row.studentId)) firstRowIndex.set(row.studentId, index);
+
+  const newEnsembles = new Map<string, PlannedEnsemble>();
+  const rowClass: RowClass[] = [];
+  const seatRows = new Set<number>();
+  for (const [index, { row }] of parsed.rows.entries()) {
+    const changes = changesOf.get(row.studentId);
+    if (!changes) {
+      rowClass.push('created');
+    }
+    let seatChanged = row.ensemble
+      ? seatChangeOf(row, row.ensemble, snapshot, newEnsembles, changes)
+      : false;
+    const left =
+      firstRowIndex.get(row.studentId) === index ? leaving.get(row.studentId) : undefined;
+    for (const seat of left ?? []) {
+      seatChanged = true;
+      changes?.push({ field: 'ensemble', before: seat.name, after: null });
+    }
+    if (seatChanged) seatRows.add(index);
+    if (changes) rowClass.push(seatChanged || hasStudentChange(changes) ? 'updated' : 'unchanged');
+  }
+  return { rowClass, seatRows, newEnsembles };
 }
 
 /**
- * What a OneRoster delta takes away, against the database: its `tobedeleted` students who are
- * active (and not listed again in the same delta), and its `tobedeleted` enrolments that match
- * an active seat of the current year. Each ended seat is added to `updatedStudents` as a change.
+ * Whether a row's seat is new or changes instrument; the change joins the student's changes
+ * (when the student exists) and an ensemble not there yet joins `newEnsembles`.
  */
-function plannedDeltaRemovals(
-  parsed: ParsedRoster,
+function seatChangeOf(
+  row: RosterRow,
+  ensembleName: string,
   snapshot: RosterSnapshot,
-  updatedStudents: PlannedUpdate[],
-): ImportPlan['deltaRemovals'] {
-  const removals: ImportPlan['deltaRemovals'] = { studentIds: [], endedSeats: [] };
-  if (!parsed.delta) return removals;
-  const listed = new Set(parsed.rows.map(({ row }) => row.studentId));
-  for (const id of new Set(parsed.delta.withdrawnStudentIds)) {
-    const existing = snapshot.students.get(id);
-    if (existing?.status === 'active' && !listed.has(id)) removals.studentIds.push(id);
+  newEnsembles: Map<string, PlannedEnsemble>,
+  changes: FieldChange[] | undefined,
+): boolean {
+  const schoolId = snapshot.schoolIdByCode.get(row.schoolCode);
+  const ensemble =
+    schoolId === undefined
+      ? undefined
+      : snapshot.ensembles.get(schoolId)?.get(ensembleName.toLowerCase());
+  if (!ensemble) {
+    const key = `${row.schoolCode}\u0000${ensembleName.toLowerCase()}`;
+    if (!newEnsembles.has(key)) {
+      newEnsembles.set(key, {
+        schoolCode: row.schoolCode,
+        name: ensembleName,
+        kind: guessEnsembleKind(ensembleName),
+      });
+    }
+    changes?.push({ field: 'ensemble', before: null, after: ensembleName });
+    return true;
   }
-  const withdrawn = new Set(removals.studentIds);
-  for (const seat of parsed.delta.endedSeats) {
-    const existing = snapshot.students.get(seat.studentId);
-    if (!existing || withdrawn.has(seat.studentId)) continue;
-    const schoolId = snapshot.schoolIdByCode.get(seat.schoolCode);
-    const ensemble =
-      schoolId === undefined
-        ? undefined
-        : snapshot.ensembles.get(schoolId)?.get(seat.ensemble.toLowerCase());
-    if (!ensemble || !snapshot.seats.get(seat.studentId)?.get(ensemble.id)?.active) continue;
-    if (
-      removals.endedSeats.some(
-        (ended) => ended.studentId === seat.studentId && ended.ensembleId === ensemble.id,
-      )
-    )
+  const seat = snapshot.seats.get(row.studentId)?.get(ensemble.id);
+  if (!seat || !seat.active) {
+    changes?.push({ field: 'ensemble', before: null, after: ensemble.name });
+    return true;
+  }
+  if (row.instrument && row.instrument !== seat.instrumentId) {
+    changes?.push({
+      field: 'instrument',
+      ensemble: ensemble.name,
+      before: seat.instrumentId,
+      after: row.instrument,
+    });
+    return true;
+  }
+  return false;
+}
+
+/** The active students of the file's schools whose id the file does not list, by id. */
+function studentsLeftOut(
+  students: RosterRow[],
+  schoolCodes: string[],
+  snapshot: RosterSnapshot,
+  options: ImportOptions,
+): PlannedStudent[] {
+  const withdrawnStudents: PlannedStudent[] = [];
+  const inFile = new Set(students.map((row) => row.studentId));
+  const schoolIds = new Set(schoolCodes.map((code) => snapshot.schoolIdByCode.get(code)));
+  for (const student of snapshot.students.values()) {
+    if (student.status !== 'active' || !schoolIds.has(student.schoolId)) continue;
+    if (inFile.has(student.studentNumber) || options.listedStudentIds?.has(student.studentNumber))
       continue;
-    removals.endedSeats.push({ studentId: seat.studentId, ensembleId: ensemble.id });
-    const change: FieldChange = { field: 'ensemble', before: ensemble.name, after: null };
-    const update = updatedStudents.find((entry) => entry.studentId === seat.studentId);
-    if (update) update.changes.push(change);
-    else updatedStudents.push({ ...existingAsPlanned(existing, snapshot), changes: [change] });
+    withdrawnStudents.push(existingAsPlanned(student, snapshot));
   }
-  return removals;
+  withdrawnStudents.sort((first, second) => first.studentId.localeCompare(second.studentId));
+  return withdrawnStudents;
 }

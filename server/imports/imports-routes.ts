@@ -14,7 +14,7 @@ import type { Services } from '../services';
 import { getImport, importErrorsCsv, listImports } from './import-history';
 import { importPreview } from './import-preview';
 import { deletePreset, listPresets, savePreset } from './import-presets';
-import { importRoster, planUpload } from './import-service';
+import { importRoster, planUpload } from './imports-service';
 import { previewImportUndo, undoImport } from './import-undo';
 import { UploadStore } from './upload-store';
 

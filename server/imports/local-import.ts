@@ -3,7 +3,7 @@ import type { ImportResult, PlannedEnsemble } from '@shared/api/import';
 import type { DatabaseHandle } from '../db/client';
 import type { Config } from '../config';
 import { runSync } from '../oneroster/sync-service';
-import { importRoster } from './import-service';
+import { importRoster } from './imports-service';
 
 /** What `tutti import` gets back, from the running server or from its own run. */
 export interface ImportRun {

@@ -8,7 +8,7 @@ import { badRequest, conflict } from '../core/errors';
 import type { Actor } from '../core/policy';
 import type { Database, DatabaseHandle } from '../db/client';
 import { oneRosterSync } from '../db/schema/index';
-import { importRoster, isUnreadable } from '../imports/import-service';
+import { importRoster, isUnreadable } from '../imports/imports-service';
 import { fetchRoster, SyncError } from './rest-client';
 import { openSecret, sealSecret } from './secret-box';
 

@@ -33,6 +33,63 @@ export async function recordPassOffs(
   actor: Actor,
   inputs: PassOffInput[],
 ): Promise<PassOffBatchResult> {
+  const ladder = await checkedAgainstLadder(db, inputs);
+  const studentsById = await studentsInScope(db, actor, inputs);
+  await assertSeated(db, inputs);
+  const arrived = new Date();
+
+  return db.transaction(async (tx) => {
+    const keys = inputs.flatMap((input) => (input.clientKey ? [input.clientKey] : []));
+    const { knownByKey, toInsert } = await sortedByClientKey(tx, inputs, keys);
+    const rows = toInsert.map((input) => {
+      const student = studentsById.get(input.studentId)!;
+      return {
+        studentId: input.studentId,
+        schoolId: student.schoolId,
+        grade: student.grade,
+        ladderVersionId: ladder.versionId,
+        requirementId: ladder.requirementIds.get(input.requirementCode)!,
+        requirementCode: input.requirementCode,
+        heardOn: input.heardOn,
+        tempo: input.tempo,
+        passed: input.passed,
+        heardBy: actor.userId,
+        note: input.note,
+        clientKey: input.clientKey ?? null,
+        enteredAt: input.enteredAt ? earliest(new Date(input.enteredAt), arrived) : null,
+      };
+    });
+    const inserted = await insertPassOffs(tx, actor, rows);
+    const keyed = keys.length
+      ? await tx
+          .select({ id: passOffs.id, clientKey: passOffs.clientKey })
+          .from(passOffs)
+          .where(inArray(passOffs.clientKey, keys))
+      : [];
+    const insertedByKey = new Map(keyed.map((row) => [row.clientKey!, row.id]));
+    const unkeyedIds = inserted.filter((row) => !row.clientKey).map((row) => row.id);
+    let unkeyedIndex = 0;
+    const ids = inputs.map((input) =>
+      input.clientKey
+        ? (knownByKey.get(input.clientKey)?.id ?? insertedByKey.get(input.clientKey)!)
+        : unkeyedIds[unkeyedIndex++]!,
+    );
+    return {
+      rows: await passOffsByIds(tx, ids),
+      created: inserted.length,
+      repeated: inputs.length - inserted.length,
+    };
+  });
+}
+
+/**
+ * The active ladder's version and its requirements by code; refuses (400, per entry) a date
+ * heard in the future or a requirement the ladder in force does not have.
+ */
+async function checkedAgainstLadder(
+  db: Database,
+  inputs: PassOffInput[],
+): Promise<{ versionId: number; requirementIds: Map<string, number> }> {
   const versionId = await activeVersionId(db);
   if (versionId === null)
     throw badRequest('No scale ladder has been published yet, so there is nothing to pass off.');
@@ -60,7 +117,11 @@ export async function recordPassOffs(
       `The pass-offs have ${fieldErrors.length} problem${fieldErrors.length === 1 ? '' : 's'}: ${fieldErrors[0]!.message}`,
       fieldErrors,
     );
+  return { versionId, requirementIds };
+}
 
+/** The students the pass-offs name, each in the actor's schools (else 404 or 403). */
+async function studentsInScope(db: Database, actor: Actor, inputs: PassOffInput[]) {
   const studentIds = [...new Set(inputs.map((input) => input.studentId))];
   const studentRows = await db
     .select({ id: students.id, schoolId: students.schoolId, grade: students.grade })
@@ -72,110 +133,84 @@ export async function recordPassOffs(
     if (!student) throw notFound('That student');
     assertInScope(actor, student.schoolId, 'That student');
   }
+  return studentsById;
+}
 
-  await assertSeated(db, inputs);
-  const arrived = new Date();
-
-  return db.transaction(async (tx) => {
-    const keys = inputs.flatMap((input) => (input.clientKey ? [input.clientKey] : []));
-    const known = keys.length
-      ? await tx
-          .select({
-            id: passOffs.id,
-            clientKey: passOffs.clientKey,
-            studentId: passOffs.studentId,
-            requirementCode: passOffs.requirementCode,
-          })
-          .from(passOffs)
-          .where(inArray(passOffs.clientKey, keys))
-      : [];
-    const knownByKey = new Map(known.map((row) => [row.clientKey!, row]));
-    const fresh = new Map<string, PassOffInput>();
-    const unkeyed: PassOffInput[] = [];
-    for (const input of inputs) {
-      const previous = input.clientKey ? knownByKey.get(input.clientKey) : undefined;
-      if (
-        previous &&
-        (previous.studentId !== input.studentId ||
-          previous.requirementCode !== input.requirementCode)
-      ) {
-        throw conflict(
-          `The client key ${input.clientKey} was already used for another pass-off; make a new key for each pass-off.`,
-        );
-      }
-      if (previous) continue;
-      if (input.clientKey) fresh.set(input.clientKey, input);
-      else unkeyed.push(input);
+/**
+ * The pass-offs recorded before under the same client keys, and those still to insert (one per
+ * new key, and every unkeyed one); a key used before for another student or requirement is a 409.
+ */
+async function sortedByClientKey(tx: Transaction, inputs: PassOffInput[], keys: string[]) {
+  const known = keys.length
+    ? await tx
+        .select({
+          id: passOffs.id,
+          clientKey: passOffs.clientKey,
+          studentId: passOffs.studentId,
+          requirementCode: passOffs.requirementCode,
+        })
+        .from(passOffs)
+        .where(inArray(passOffs.clientKey, keys))
+    : [];
+  const knownByKey = new Map(known.map((row) => [row.clientKey!, row]));
+  const fresh = new Map<string, PassOffInput>();
+  const unkeyed: PassOffInput[] = [];
+  for (const input of inputs) {
+    const previous = input.clientKey ? knownByKey.get(input.clientKey) : undefined;
+    if (
+      previous &&
+      (previous.studentId !== input.studentId || previous.requirementCode !== input.requirementCode)
+    ) {
+      throw conflict(
+        `The client key ${input.clientKey} was already used for another pass-off; make a new key for each pass-off.`,
+      );
     }
-    const toInsert = [...fresh.values(), ...unkeyed];
-    const inserted = toInsert.length
-      ? await tx
-          .insert(passOffs)
-          .values(
-            toInsert.map((input) => {
-              const student = studentsById.get(input.studentId)!;
-              return {
-                studentId: input.studentId,
-                schoolId: student.schoolId,
-                grade: student.grade,
-                ladderVersionId: versionId,
-                requirementId: requirementIds.get(input.requirementCode)!,
-                requirementCode: input.requirementCode,
-                heardOn: input.heardOn,
-                tempo: input.tempo,
-                passed: input.passed,
-                heardBy: actor.userId,
-                note: input.note,
-                clientKey: input.clientKey ?? null,
-                enteredAt: input.enteredAt ? earliest(new Date(input.enteredAt), arrived) : null,
-              };
-            }),
-          )
-          // A retry racing its own first attempt on another connection lands here, not in a 500.
-          .onConflictDoNothing({ target: passOffs.clientKey })
-          .returning()
-      : [];
-    await countWeeks(
-      tx,
-      inserted.map((row) => ({
-        heardOn: row.heardOn,
-        schoolId: row.schoolId,
-        grade: row.grade,
-        passed: row.passed,
-        delta: 1 as const,
-      })),
-    );
-    await recomputeAttainment(
-      tx,
-      inserted.map((row) => row.studentId),
-    );
-    await recordAudit(
-      tx,
-      actor,
-      ...inserted.map((row) => ({
-        action: 'create',
-        entity: 'pass-off',
-        entityId: row.id,
-        after: row,
-      })),
-    );
-    const keyed = keys.length
-      ? await tx
-          .select({ id: passOffs.id, clientKey: passOffs.clientKey })
-          .from(passOffs)
-          .where(inArray(passOffs.clientKey, keys))
-      : [];
-    const insertedByKey = new Map(keyed.map((row) => [row.clientKey!, row.id]));
-    const unkeyedIds = inserted.filter((row) => !row.clientKey).map((row) => row.id);
-    let unkeyedIndex = 0;
-    const ids = inputs.map((input) =>
-      input.clientKey
-        ? (knownByKey.get(input.clientKey)?.id ?? insertedByKey.get(input.clientKey)!)
-        : unkeyedIds[unkeyedIndex++]!,
-    );
-    const rows = await passOffsByIds(tx, ids);
-    return { rows, created: inserted.length, repeated: inputs.length - inserted.length };
-  });
+    if (previous) continue;
+    if (input.clientKey) fresh.set(input.clientKey, input);
+    else unkeyed.push(input);
+  }
+  return { knownByKey, toInsert: [...fresh.values(), ...unkeyed] };
+}
+
+/** Inserts the rows, then the weekly counts, the students' attainment and the history. */
+async function insertPassOffs(
+  tx: Transaction,
+  actor: Actor,
+  rows: (typeof passOffs.$inferInsert)[],
+) {
+  const inserted = rows.length
+    ? await tx
+        .insert(passOffs)
+        .values(rows)
+        // A retry racing its own first attempt on another connection lands here, not in a 500.
+        .onConflictDoNothing({ target: passOffs.clientKey })
+        .returning()
+    : [];
+  await countWeeks(
+    tx,
+    inserted.map((row) => ({
+      heardOn: row.heardOn,
+      schoolId: row.schoolId,
+      grade: row.grade,
+      passed: row.passed,
+      delta: 1 as const,
+    })),
+  );
+  await recomputeAttainment(
+    tx,
+    inserted.map((row) => row.studentId),
+  );
+  await recordAudit(
+    tx,
+    actor,
+    ...inserted.map((row) => ({
+      action: 'create',
+      entity: 'pass-off',
+      entityId: row.id,
+      after: row,
+    })),
+  );
+  return inserted;
 }
 
 /**

@@ -4,7 +4,7 @@ import { actorOf, requires } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
 import { nudgeOutbox } from '../mail/outbox';
-import { getReportRun, listReportRuns, previewReport, sendReport } from './report-service';
+import { getReportRun, listReportRuns, previewReport, sendReport } from './reports-service';
 import {
   createSchedule,
   deleteSchedule,

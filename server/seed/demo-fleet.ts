@@ -1,24 +1,19 @@
-import { and, eq, inArray } from 'drizzle-orm';
+import { inArray } from 'drizzle-orm';
 import type { Transaction } from '../db/client';
 import {
   countScans,
   counts,
-  enrollments,
   instrumentEvents,
   instruments,
-  loans,
   repairTickets,
   schools,
-  students,
   users,
 } from '../db/schema/index';
-import type { InstrumentCondition, InstrumentStatus } from '@shared/api/instrument';
-import { isWindInstrument } from '../instruments/instrument-cautions';
-import { agreementFor, defaultAgreementText, sha256Hex } from '../loans/agreement-text';
-import type { LoanRow } from '../loans/loans-queries';
+import type { InstrumentCondition } from '@shared/api/instrument';
 import { demoSchools } from './demo-people';
 import { insertInBatches } from './demo-roster';
 import { SeededRandom } from './random';
+import { dayBetween, seedDemoLoans, type FleetSeed, type SeededInstrument } from './demo-loans';
 
 /** Invented makers; no real brand. */
 const makers: Record<string, string[]> = {
@@ -58,12 +53,6 @@ const fundingSources = [
   'Music boosters',
   'Donated',
 ];
-const accessoriesByFamily: Record<string, string[]> = {
-  woodwind: ['case', 'neck strap', 'cleaning swab'],
-  brass: ['case', 'valve oil', 'lyre'],
-  strings: ['case', 'bow', 'rosin'],
-  percussion: ['mallets', 'cover'],
-};
 const problems = [
   'Sticky valve',
   'Bent lead pipe',
@@ -77,18 +66,6 @@ const problems = [
 ];
 const repairShops = ['Millrace Instrument Repair', 'Tamsin Band & Bow Service'];
 const sizeByLevel: Record<string, number> = { elementary: 30, middle: 70, high: 105 };
-
-const iso = (date: Date) => date.toISOString().slice(0, 10);
-const dayBetween = (random: SeededRandom, from: string, to: string) => {
-  const start = Date.parse(`${from}T00:00:00Z`);
-  return iso(
-    new Date(
-      start +
-        random.integer(0, Math.round((Date.parse(`${to}T00:00:00Z`) - start) / 86_400_000)) *
-          86_400_000,
-    ),
-  );
-};
 
 /**
  * Seeds the demo fleet after the roster: a few hundred invented instruments across the schools,
@@ -104,6 +81,42 @@ export async function seedDemoFleet(tx: Transaction, context: { schoolYearEndsOn
   const schoolRows = await tx
     .select({ id: schools.id, code: schools.code, name: schools.name })
     .from(schools);
+  const inserted = await insertInstruments(tx, plannedInstruments(random, schoolRows));
+  const seed: FleetSeed = {
+    tx,
+    random,
+    schoolRows,
+    inserted,
+    technicianId,
+    statusOf: new Map(),
+    events: inserted.map((row) => ({
+      instrumentId: row.id,
+      kind: 'purchase',
+      at: new Date(`${row.purchasedOn}T12:00:00Z`),
+      note: `Bought ${row.purchasedOn}`,
+    })),
+  };
+  await seedDemoLoans(
+    seed,
+    demoStudentId,
+    context.schoolYearEndsOn,
+    (instrumentId) => fleetKinds.find((kind) => kind[0] === instrumentId)![1],
+  );
+  await seedRepairs(seed);
+  await seedClosedCount(seed);
+  for (const status of ['on-loan', 'in-repair', 'to-clean', 'missing'] as const) {
+    const ids = [...seed.statusOf].filter(([, value]) => value === status).map(([id]) => id);
+    if (ids.length)
+      await tx.update(instruments).set({ status }).where(inArray(instruments.id, ids));
+  }
+  await insertInBatches(seed.events, 500, (batch) => tx.insert(instrumentEvents).values(batch));
+}
+
+/** The invented instruments of every demo school, by the weights of {@link fleetKinds}. */
+function plannedInstruments(
+  random: SeededRandom,
+  schoolRows: { id: number; code: string }[],
+): (typeof instruments.$inferInsert)[] {
   let tagNumber = 10_000;
   const planned: (typeof instruments.$inferInsert)[] = [];
   for (const school of demoSchools) {
@@ -142,15 +155,14 @@ export async function seedDemoFleet(tx: Transaction, context: { schoolYearEndsOn
       });
     }
   }
-  const inserted: {
-    id: number;
-    instrumentId: string;
-    homeSchoolId: number;
-    purchasedOn: string | null;
-    status: InstrumentStatus;
-    condition: InstrumentCondition;
-    assetTag: string;
-  }[] = [];
+  return planned;
+}
+
+async function insertInstruments(
+  tx: Transaction,
+  planned: (typeof instruments.$inferInsert)[],
+): Promise<SeededInstrument[]> {
+  const inserted: SeededInstrument[] = [];
   await insertInBatches(planned, 400, async (batch) => {
     inserted.push(
       ...(await tx.insert(instruments).values(batch).returning({
@@ -164,152 +176,11 @@ export async function seedDemoFleet(tx: Transaction, context: { schoolYearEndsOn
       })),
     );
   });
-  const events: (typeof instrumentEvents.$inferInsert)[] = inserted.map((row) => ({
-    instrumentId: row.id,
-    kind: 'purchase',
-    at: new Date(`${row.purchasedOn}T12:00:00Z`),
-    note: `Bought ${row.purchasedOn}`,
-  }));
+  return inserted;
+}
 
-  const players = await tx
-    .select({
-      studentId: students.id,
-      schoolId: students.schoolId,
-      instrumentId: enrollments.instrumentId,
-      firstName: students.firstName,
-      lastName: students.lastName,
-      preferredName: students.preferredName,
-      guardianName: students.guardianName,
-      guardianEmail: students.guardianEmail,
-    })
-    .from(enrollments)
-    .innerJoin(students, eq(students.id, enrollments.studentId))
-    .where(and(eq(students.status, 'active'), eq(enrollments.active, true)));
-  const borrowed = new Set<number>();
-  const lentBySchool = new Map<number, number>();
-  const statusOf = new Map<number, InstrumentStatus>();
-  const loanRows: (typeof loans.$inferInsert)[] = [];
-  const loanEvents: { instrumentId: number; at: Date; note: string }[] = [];
-  const byKind = (schoolId: number, kind: string) =>
-    players.filter(
-      (player) =>
-        player.schoolId === schoolId &&
-        player.instrumentId === kind &&
-        !borrowed.has(player.studentId),
-    );
-  const lendable = inserted.filter((row) => row.status === 'available' && row.condition !== 'poor');
-  const demoPlayer = players.find((player) => player.studentId === demoStudentId);
-  for (const instrument of lendable) {
-    const forDemo =
-      demoPlayer &&
-      !borrowed.has(demoPlayer.studentId) &&
-      instrument.homeSchoolId === demoPlayer.schoolId &&
-      instrument.instrumentId === demoPlayer.instrumentId;
-    if (!forDemo && !random.chance(0.55)) continue;
-    const candidates = forDemo
-      ? [demoPlayer]
-      : byKind(instrument.homeSchoolId, instrument.instrumentId);
-    if (candidates.length === 0) continue;
-    const student = forDemo ? demoPlayer : random.pick(candidates);
-    borrowed.add(student.studentId);
-    const lentHere = (lentBySchool.get(student.schoolId) ?? 0) + 1;
-    lentBySchool.set(student.schoolId, lentHere);
-    // Every eighth loan of a school is overdue, so every school's overdue list has some.
-    const overdue = !forDemo && lentHere % 8 === 3;
-    const signed = forDemo || random.chance(0.8);
-    const checkedOutOn = dayBetween(random, '2026-08-24', '2026-11-20');
-    const dueOn = overdue
-      ? dayBetween(random, '2026-10-01', '2026-11-27')
-      : context.schoolYearEndsOn;
-    const waiver = random.chance(0.15);
-    const school = schoolRows.find((row) => row.id === student.schoolId)!;
-    const loan = {
-      instrumentId: instrument.id,
-      studentId: student.studentId,
-      schoolId: student.schoolId,
-      checkedOutOn,
-      dueOn: dueOn < checkedOutOn ? '2026-11-27' : dueOn,
-      accessories:
-        accessoriesByFamily[fleetKinds.find((kind) => kind[0] === instrument.instrumentId)![1]]!,
-      conditionOut: instrument.condition,
-      usageFeeCents: waiver ? 0 : 4500,
-      waiver,
-      waiverReason:
-        waiver && random.chance(0.5) ? 'Family request, approved by the director' : null,
-      agreementTokenHash: sha256Hex(`demo-token-${instrument.id}-${random.next()}`),
-      agreementExpiresAt: new Date(`${checkedOutOn}T00:00:00Z`),
-      state: 'active' as const,
-    };
-    loanEvents.push({
-      instrumentId: instrument.id,
-      at: new Date(`${checkedOutOn}T15:00:00Z`),
-      note: `Lent to a ${school.code} student`,
-    });
-    if (signed) {
-      const row = {
-        loan: {
-          ...loan,
-          conditionIn: null,
-          returnedOn: null,
-          signedAt: null,
-        } as unknown as LoanRow['loan'],
-        assetTag: instrument.assetTag,
-        instrumentType: instrument.instrumentId,
-        ...student,
-        schoolCode: school.code,
-        schoolName: school.name,
-      } as LoanRow;
-      const text = agreementFor(row, defaultAgreementText);
-      Object.assign(loan, {
-        signedName: student.guardianName ?? 'Guardian',
-        signedAt: new Date(`${checkedOutOn}T20:30:00Z`),
-        signedText: text,
-        agreementTextHash: sha256Hex(text),
-        agreementTextVersion: 0,
-      });
-    } else {
-      loan.agreementExpiresAt = new Date(Date.parse(`${checkedOutOn}T00:00:00Z`) + 14 * 86_400_000);
-    }
-    loanRows.push(loan);
-    statusOf.set(instrument.id, 'on-loan');
-  }
-  // Last year's loans, returned in June; the wind ones not yet cleaned wait in to-clean.
-  for (const instrument of lendable.filter((row) => !statusOf.has(row.id)).slice(0, 40)) {
-    const student = random.pick(
-      players.filter((player) => player.schoolId === instrument.homeSchoolId),
-    );
-    if (!student) continue;
-    loanRows.push({
-      instrumentId: instrument.id,
-      studentId: student.studentId,
-      schoolId: student.schoolId,
-      checkedOutOn: '2025-09-02',
-      dueOn: '2026-06-12',
-      returnedOn: '2026-06-05',
-      conditionOut: instrument.condition,
-      conditionIn: instrument.condition,
-      state: 'returned',
-      usageFeeCents: 4500,
-      signedName: student.guardianName,
-      signedAt: new Date('2025-09-03T19:00:00Z'),
-    });
-    loanEvents.push({
-      instrumentId: instrument.id,
-      at: new Date('2025-09-02T15:00:00Z'),
-      note: 'Lent for 2025-26',
-    });
-    events.push({
-      instrumentId: instrument.id,
-      kind: 'return',
-      at: new Date('2026-06-05T15:00:00Z'),
-      note: 'Returned at the end of the year',
-    });
-    if (isWindInstrument(instrument.instrumentId) && random.chance(0.2))
-      statusOf.set(instrument.id, 'to-clean');
-  }
-  await insertInBatches(loanRows, 300, (batch) => tx.insert(loans).values(batch));
-  events.push(...loanEvents.map((event) => ({ ...event, kind: 'loan-out' as const })));
-
+/** Repair tickets, open and closed, on some instruments neither lent nor retired. */
+async function seedRepairs({ tx, random, inserted, technicianId, statusOf, events }: FleetSeed) {
   const repairRows: (typeof repairTickets.$inferInsert)[] = [];
   for (const instrument of inserted.filter(
     (row) => !statusOf.has(row.id) && row.status === 'available',
@@ -351,8 +222,17 @@ export async function seedDemoFleet(tx: Transaction, context: { schoolYearEndsOn
       });
   }
   await insertInBatches(repairRows, 300, (batch) => tx.insert(repairTickets).values(batch));
+}
 
-  // Last spring's count at Tamsin Ridge: two instruments were not found and are missing since.
+/** Last spring's count at Tamsin Ridge: two instruments were not found and are missing since. */
+async function seedClosedCount({
+  tx,
+  schoolRows,
+  inserted,
+  technicianId,
+  statusOf,
+  events,
+}: FleetSeed) {
   const trhs = schoolRows.find((row) => row.code === 'TRHS')!;
   const [count] = await tx
     .insert(counts)
@@ -395,10 +275,4 @@ export async function seedDemoFleet(tx: Transaction, context: { schoolYearEndsOn
       countId: count!.id,
     });
   }
-  for (const status of ['on-loan', 'in-repair', 'to-clean', 'missing'] as const) {
-    const ids = [...statusOf].filter(([, value]) => value === status).map(([id]) => id);
-    if (ids.length)
-      await tx.update(instruments).set({ status }).where(inArray(instruments.id, ids));
-  }
-  await insertInBatches(events, 500, (batch) => tx.insert(instrumentEvents).values(batch));
 }

@@ -4,7 +4,7 @@ import { actorOf, requires, requiresAny } from '../core/policy';
 import { nextPageLink } from '../core/list-query';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
-import { listStudents } from './students-list';
+import { listStudents } from './students-queries';
 import { moveStudent } from './student-move';
 import { createStudent, getStudent, updateStudent } from './students-service';
 

@@ -8,7 +8,7 @@ import { parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';
 import { recordAudit } from '../core/audit';
 import type { Services } from '../services';
-import { issueToken } from './token-service';
+import { issueToken } from './tokens-service';
 
 /**
  * `/api/tokens`: people who may use the API list, create and revoke their own tokens; the

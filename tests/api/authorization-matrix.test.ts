@@ -5,7 +5,7 @@ import { createApp } from '../../server/app';
 import { rowsOf } from '../../server/db/client';
 import { createLogger } from '../../server/logger';
 import { writeRecordingFile } from '../../server/pass-offs/recordings-store';
-import { hashToken } from '../../server/tokens/token-service';
+import { hashToken } from '../../server/tokens/tokens-service';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
 
 /**

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { commitImport, planUpload } from '../../server/imports/import-service';
+import { commitImport, planUpload } from '../../server/imports/imports-service';
 import { settleUnfinishedImports } from '../../server/imports/landed-students';
 import { rosterGeneration } from '../../server/imports/roster-snapshot';
 import { schoolYears, schools } from '../../server/db/schema/index';

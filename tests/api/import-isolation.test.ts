@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { importRoster } from '../../server/imports/import-service';
+import { importRoster } from '../../server/imports/imports-service';
 import { toRosterCsv, type RosterRow } from '@shared/roster';
 import { inventedRoster } from '../bench/roster-import';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';

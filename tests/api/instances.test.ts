@@ -15,7 +15,7 @@ import {
   reportSchedules,
   rosterImports,
 } from '../../server/db/schema/index';
-import { importRoster } from '../../server/imports/import-service';
+import { importRoster } from '../../server/imports/imports-service';
 import { createLogger } from '../../server/logger';
 import { nudgeOutbox } from '../../server/mail/outbox';
 import { runDueSchedules } from '../../server/reports/report-scheduler';

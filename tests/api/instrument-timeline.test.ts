@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { countDetailSchema } from '@shared/api/count';
 import { instrumentDetailSchema } from '@shared/api/instrument';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -10,12 +10,9 @@ let technician: SignedInClient;
 let hpms: number;
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, technician] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('technician')),
-  ]);
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, technician } = started.clients);
   const schools = (await coordinator.get('/api/schools?limit=100')).body.rows as {
     id: number;
     code: string;

@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import { rowsOf } from '../../server/db/client';
-import { importRoster, type ImportOutcome } from '../../server/imports/import-service';
+import { importRoster, type ImportOutcome } from '../../server/imports/imports-service';
 import { studentSortFields } from '@shared/api/student';
 import { ensembleSortFields } from '@shared/api/ensemble';
 import { instrumentSortFields } from '@shared/api/instrument';

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { listResponseSchema } from '@shared/api/list';
 import { repairSchema } from '@shared/api/repair';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -23,13 +23,10 @@ const statusOf = async (id: number) =>
   (await coordinator.get(`/api/instruments/${id}`)).body.status;
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, technician] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('technician')),
-  ]);
-  hpmsId = (await coordinator.get('/api/schools?code=HPMS')).body.rows[0].id;
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, technician } = started.clients);
+  hpmsId = started.schoolIds['HPMS']!;
 });
 afterAll(() => app?.close());
 

@@ -1,6 +1,6 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let director: SignedInClient;
@@ -22,12 +22,15 @@ function put(client: SignedInClient, path: string, body: object) {
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [director, otherDirector, student] = await Promise.all([
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('director.qhms')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
+  const started = await startTestApp({
+    signIn: ['director.hpms', 'director.qhms', 'student.hpms'],
+  });
+  app = started;
+  ({
+    'director.hpms': director,
+    'director.qhms': otherDirector,
+    'student.hpms': student,
+  } = started.clients);
 });
 afterAll(() => app?.close());
 

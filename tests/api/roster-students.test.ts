@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { keyFirstFrom } from '../../server/students/students-list';
+import { keyFirstFrom } from '../../server/students/students-queries';
 import { studentCountDrift } from '../support/student-counts';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 

@@ -1,17 +1,15 @@
 import { eq, sql } from 'drizzle-orm';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { apiTokens } from '../../server/db/schema/index';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
 let director: SignedInClient;
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-  ]);
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director } = started.clients);
 });
 afterAll(() => app?.close());
 

@@ -1,6 +1,6 @@
 import { toRosterCsv } from '@shared/roster';
 import { housekeepingDone } from '../../server/db/client';
-import { importRoster } from '../../server/imports/import-service';
+import { importRoster } from '../../server/imports/imports-service';
 import { inventedRoster } from './roster-import';
 import { benchDistrict, defaultTokenLimit, gridPages, serveForBench } from './grid-pages';
 import { figure, percentile, type BenchFigure } from './bench-figure';

@@ -7,7 +7,7 @@ import { migrateDatabase, openDatabase, type DatabaseHandle } from '../../server
 import { schools, users } from '../../server/db/schema/index';
 import { createLogger } from '../../server/logger';
 import { seedDemo } from '../../server/seed/demo';
-import { issueToken } from '../../server/tokens/token-service';
+import { issueToken } from '../../server/tokens/tokens-service';
 import { loadBenchStudents } from './bench-district';
 import { httpClients } from './http-clients';
 import { figure, percentile, timings, type BenchFigure } from './bench-figure';

@@ -7,7 +7,7 @@ import {
   type DatabaseHandle,
 } from '../../server/db/client';
 import { schoolYears, schools } from '../../server/db/schema/index';
-import { importRoster } from '../../server/imports/import-service';
+import { importRoster } from '../../server/imports/imports-service';
 import { copyText } from '../../server/imports/sql-session';
 import { demoSchoolYear } from '../../server/seed/demo';
 import { demoSchools, firstNames, lastNames } from '../../server/seed/demo-people';

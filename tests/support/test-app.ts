@@ -10,7 +10,7 @@ import { loadConfig, type Config } from '../../server/config';
 import type { DatabaseHandle } from '../../server/db/client';
 import { createLogger, type Logger } from '../../server/logger';
 import { findUserByEmail } from '../../server/people/people-queries';
-import { issueToken } from '../../server/tokens/token-service';
+import { issueToken } from '../../server/tokens/tokens-service';
 import { CookieJar, startOidcFake, walkSignIn, type OidcFake } from '../../fakes/oidc/index';
 import { startMailFake, type MailFake } from '../../fakes/mail/index';
 import { startPaymentsFake, type PaymentsFake } from '../../fakes/payments/index';

@@ -1,4 +1,4 @@
-import { instrumentNamedIn, type ColumnMapping } from '@shared/roster';
+import type { ColumnMapping } from '@shared/roster';
 import { bundleFileNames, readBundleFiles, type BundleInput } from './oneroster-files';
 import { byFileAndLine, readBundleLayout } from './oneroster-manifest';
 import { OrgSchools, type OrgMatching } from './oneroster-orgs';
@@ -6,9 +6,10 @@ import {
   bundleRecord,
   checkedStatus,
   indexBySourcedId,
-  listOf,
   type BundleRecord,
 } from './oneroster-records';
+import type { ParsedCsv } from './parse-csv';
+import { studentCandidates, studentIdOf, type BundleRead } from './oneroster-candidates';
 import { guardiansByStudent, usersWithRoles, type BundleUser } from './oneroster-users';
 import type { DeltaChanges, ParsedRoster, RowError } from './parsed-roster';
 import { validateRosterCandidates, type RosterCandidate, type RosterChecks } from './validate-rows';
@@ -56,15 +57,6 @@ function withoutRepeats(errors: RowError[]): RowError[] {
 
 /** Options of {@link readOneRosterBundle}. */
 export type OneRosterOptions = RosterChecks & OrgMatching;
-
-/** The student id a user is known by: its `identifier`, else 1.2's master id, else sourcedId. */
-function studentIdOf(record: BundleRecord): { id: string; column: string } {
-  if (record.cell('identifier'))
-    return { id: record.cell('identifier'), column: 'users.csv:identifier' };
-  if (record.cell('userMasterIdentifier'))
-    return { id: record.cell('userMasterIdentifier'), column: 'users.csv:userMasterIdentifier' };
-  return { id: record.cell('sourcedId'), column: 'users.csv:sourcedId' };
-}
 
 /**
  * Reads a OneRoster 1.1 or 1.2 CSV bundle (zip bytes, a folder path, or a map of file name to
@@ -116,10 +108,17 @@ export async function readOneRosterBundle(
     files.get('roles.csv'),
     errors,
   );
-  let skipped =
-    orgFile.deleted.size + userFile.deleted.size + classFile.deleted.size + skippedRoles;
-  const orgs = new OrgSchools(orgFile, options, errors);
-  const guardians = guardiansByStudent(users);
+  const read: BundleRead = {
+    version: layout.version,
+    mapping,
+    users,
+    userFile,
+    classFile,
+    orgs: new OrgSchools(orgFile, options, errors),
+    errors,
+    skipped: orgFile.deleted.size + userFile.deleted.size + classFile.deleted.size + skippedRoles,
+    totalRows: 0,
+  };
   const delta: DeltaChanges | undefined = layout.delta
     ? { withdrawnStudentIds: [], endedSeats: [] }
     : undefined;
@@ -131,10 +130,45 @@ export async function readOneRosterBundle(
     }
   }
 
-  const isStudent = (user: BundleUser | undefined) => user?.roles.has('student') ?? false;
+  const { enrollments, endedEnrollments } = studentEnrollments(read, files.get('enrollments.csv'));
+  const guardians = guardiansByStudent(users);
+  const candidates: RosterCandidate[] = [];
+  for (const [id, user] of users) {
+    if (!isStudent(user)) continue;
+    candidates.push(
+      ...studentCandidates(read, user, guardians.get(id)?.[0]?.record, enrollments.get(id) ?? []),
+    );
+  }
+  if (delta) delta.endedSeats.push(...endedSeats(read, endedEnrollments));
+
+  const validated = validateRosterCandidates(candidates, options);
+  return {
+    ...base,
+    rows: validated.rows,
+    skippedStudentIds: validated.skippedStudentIds,
+    errors: withoutRepeats([...errors, ...validated.errors]).sort(byFileAndLine(order)),
+    totalRows: read.totalRows,
+    skipped: read.skipped,
+    oneRosterVersion: layout.version,
+    ...(delta ? { delta } : {}),
+    ...(read.orgs.unmapped.length > 0 ? { unmappedOrgs: read.orgs.unmapped } : {}),
+    matchedOrgs: [...read.orgs.matched.values()],
+  };
+}
+
+function isStudent(user: BundleUser | undefined): boolean {
+  return user?.roles.has('student') ?? false;
+}
+
+/**
+ * The active student enrolments by user sourcedId, and those marked `tobedeleted` (a delta's
+ * ended seats). An enrolment of a user who is not a student is an error.
+ */
+function studentEnrollments(read: BundleRead, csv: ParsedCsv | undefined) {
+  const { users, userFile, classFile, errors } = read;
   const enrollments = new Map<string, BundleRecord[]>();
   const endedEnrollments: BundleRecord[] = [];
-  for (const record of files.get('enrollments.csv')?.records ?? []) {
+  for (const record of csv?.records ?? []) {
     const entry = bundleRecord('enrollments.csv', record);
     const status = checkedStatus(entry, errors);
     if (status === undefined) continue;
@@ -142,13 +176,13 @@ export async function readOneRosterBundle(
     const userId = entry.cell('userSourcedId');
     const classId = entry.cell('classSourcedId');
     if (status === 'tobedeleted') {
-      skipped++;
-      if (delta) endedEnrollments.push(entry);
+      read.skipped++;
+      endedEnrollments.push(entry);
       continue;
     }
     // OneRoster: an enrolment of a user or class marked tobedeleted goes with it.
     if (userFile.deleted.has(userId) || classFile.deleted.has(classId)) {
-      skipped++;
+      read.skipped++;
       continue;
     }
     const user = users.get(userId);
@@ -167,156 +201,30 @@ export async function readOneRosterBundle(
     if (list) list.push(entry);
     else enrollments.set(userId, [entry]);
   }
+  return { enrollments, endedEnrollments };
+}
 
-  const candidates: RosterCandidate[] = [];
-  let totalRows = 0;
-  for (const [id, user] of users) {
-    if (!isStudent(user)) continue;
-    const { record } = user;
-    const userLine = record.line;
-    const { id: studentId, column: idColumn } = studentIdOf(record);
-    const guardian = guardians.get(id)?.[0]?.record;
-    const guardianName = guardian
-      ? `${guardian.cell('givenName')} ${guardian.cell('familyName')}`.trim()
-      : '';
-    const grades = listOf(record.cell('grades'));
-    if (grades.length > 1 && new Set(grades).size > 1) {
-      totalRows++;
-      errors.push({
-        line: userLine,
-        column: 'users.csv:grades',
-        message: `Student '${studentId}' has several grades (${grades.join(', ')}); a student is in one grade.`,
-      });
-      continue;
-    }
-    const student = {
-      studentId,
-      firstName: record.cell('givenName'),
-      lastName: record.cell('familyName'),
-      preferredName: record.cell('preferredFirstName'),
-      grade: grades[0] ?? '',
-      guardianName,
-      guardianEmail: guardian?.cell('email') ?? '',
-    };
-    const columns = { ...mapping, studentId: idColumn };
-    const guardianLines = guardian
-      ? { guardianName: guardian.line, guardianEmail: guardian.line }
-      : {};
-    const studentEnrollments = enrollments.get(id) ?? [];
-    if (studentEnrollments.length === 0) {
-      totalRows++;
-      const orgId = user.orgIds.find((candidate) => orgs.isSchoolOrg(candidate)) ?? user.orgIds[0];
-      const orgColumn =
-        layout.version === '1.2' ? 'users.csv:primaryOrgSourcedId' : 'users.csv:orgSourcedIds';
-      if (!orgId) {
-        errors.push({
-          line: userLine,
-          column: orgColumn,
-          message: `Student '${studentId}' belongs to no org, so their school is unknown.`,
-        });
-        continue;
-      }
-      const school = orgs.schoolOf(orgId, userLine, orgColumn);
-      if (school === 'deleted') {
-        skipped++;
-        continue;
-      }
-      if (!school) continue;
-      candidates.push({
-        line: userLine,
-        place: `users.csv line ${userLine}`,
-        values: { ...student, schoolCode: school.schoolCode },
-        columns,
-        fieldLines: { ...guardianLines, schoolCode: school.line },
-        rowColumn: idColumn,
-      });
-      continue;
-    }
-    for (const enrollment of studentEnrollments) {
-      totalRows++;
-      const line = enrollment.line;
-      const classId = enrollment.cell('classSourcedId');
-      const roomClass = classFile.active.get(classId);
-      if (!roomClass) {
-        errors.push({
-          line,
-          column: 'enrollments.csv:classSourcedId',
-          message: `Class '${classId}' is not in classes.csv.`,
-        });
-        continue;
-      }
-      // The enrolment's school, else the class's: both are required by the specification, but
-      // exports leave one blank.
-      const school = enrollment.cell('schoolSourcedId')
-        ? orgs.schoolOf(enrollment.cell('schoolSourcedId'), line, 'enrollments.csv:schoolSourcedId')
-        : orgs.schoolOf(
-            roomClass.cell('schoolSourcedId'),
-            roomClass.line,
-            'classes.csv:schoolSourcedId',
-          );
-      if (school === 'deleted') {
-        skipped++;
-        continue;
-      }
-      if (!school) continue;
-      const title = roomClass.cell('title');
-      const instrument = instrumentNamedIn(title) ?? instrumentNamedIn(roomClass.cell('subjects'));
-      candidates.push({
-        line,
-        place: `enrollments.csv line ${line}`,
-        values: {
-          ...student,
-          schoolCode: school.schoolCode,
-          ensemble: title,
-          instrument: instrument ?? '',
-        },
-        columns,
-        fieldLines: {
-          ...guardianLines,
-          studentId: userLine,
-          firstName: userLine,
-          lastName: userLine,
-          preferredName: userLine,
-          grade: userLine,
-          schoolCode: school.line,
-          ensemble: roomClass.line,
-          instrument: roomClass.line,
-        },
-        rowColumn: 'enrollments.csv:userSourcedId',
-      });
-    }
+/** A delta's ended seats: its `tobedeleted` enrolments whose student and class the bundle names. */
+function endedSeats(
+  read: BundleRead,
+  endedEnrollments: BundleRecord[],
+): DeltaChanges['endedSeats'] {
+  const seats: DeltaChanges['endedSeats'] = [];
+  for (const enrollment of endedEnrollments) {
+    const user = read.users.get(enrollment.cell('userSourcedId'));
+    const roomClass =
+      read.classFile.active.get(enrollment.cell('classSourcedId')) ??
+      read.classFile.deleted.get(enrollment.cell('classSourcedId'));
+    // A seat can be ended only when the bundle names the student and the class.
+    if (!user || !roomClass) continue;
+    const orgId = enrollment.cell('schoolSourcedId') || roomClass.cell('schoolSourcedId');
+    const school = read.orgs.schoolOf(orgId, enrollment.line, 'enrollments.csv:schoolSourcedId');
+    if (!school || school === 'deleted') continue;
+    seats.push({
+      studentId: studentIdOf(user.record).id,
+      schoolCode: school.schoolCode,
+      ensemble: roomClass.cell('title'),
+    });
   }
-
-  if (delta) {
-    for (const enrollment of endedEnrollments) {
-      const user = users.get(enrollment.cell('userSourcedId'));
-      const roomClass =
-        classFile.active.get(enrollment.cell('classSourcedId')) ??
-        classFile.deleted.get(enrollment.cell('classSourcedId'));
-      // A seat can be ended only when the bundle names the student and the class.
-      if (!user || !roomClass) continue;
-      const orgId = enrollment.cell('schoolSourcedId') || roomClass.cell('schoolSourcedId');
-      const school = orgs.schoolOf(orgId, enrollment.line, 'enrollments.csv:schoolSourcedId');
-      if (!school || school === 'deleted') continue;
-      delta.endedSeats.push({
-        studentId: studentIdOf(user.record).id,
-        schoolCode: school.schoolCode,
-        ensemble: roomClass.cell('title'),
-      });
-    }
-  }
-
-  const validated = validateRosterCandidates(candidates, options);
-  return {
-    ...base,
-    rows: validated.rows,
-    skippedStudentIds: validated.skippedStudentIds,
-    errors: withoutRepeats([...errors, ...validated.errors]).sort(byFileAndLine(order)),
-    totalRows,
-    skipped,
-    oneRosterVersion: layout.version,
-    ...(delta ? { delta } : {}),
-    ...(orgs.unmapped.length > 0 ? { unmappedOrgs: orgs.unmapped } : {}),
-    matchedOrgs: [...orgs.matched.values()],
-  };
+  return seats;
 }

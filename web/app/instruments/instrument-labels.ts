@@ -1,6 +1,7 @@
 import type { InstrumentCondition, InstrumentStatus } from '@shared/api/instrument';
 import type { InstrumentFamily } from '@shared/music/instrument-data';
 import { instrumentById } from '@shared/music/instruments';
+import { dayText as calendarDayText } from '@shared/calendar/day-text';
 
 /** How a status reads on screen: words and an icon, never a colour alone. */
 export interface StatusLook {
@@ -68,18 +69,10 @@ export function centsOf(text: string): number | null {
   return Math.round(Number(cleaned) * 100);
 }
 
-const longDate = new Intl.DateTimeFormat('en-US', {
-  year: 'numeric',
-  month: 'short',
-  day: 'numeric',
-  timeZone: 'UTC',
-});
-
 /** A YYYY-MM-DD day (or an ISO time) as "Mar 4, 2025"; empty when there is none. */
 export function dayText(value: string | null | undefined): string {
   if (!value) return '';
-  const date = new Date(value.length === 10 ? `${value}T00:00:00Z` : value);
-  return Number.isNaN(date.getTime()) ? value : longDate.format(date);
+  return calendarDayText(value) ?? value;
 }
 
 /** The music engine's name of an instrument kind; the API's name when the engine knows none. */

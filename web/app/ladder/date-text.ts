@@ -1,14 +1,8 @@
-const dateFormat = new Intl.DateTimeFormat('en-US', {
-  month: 'short',
-  day: 'numeric',
-  year: 'numeric',
-  timeZone: 'UTC',
-});
+import { dayText } from '@shared/calendar/day-text';
 
 /** An ISO date (YYYY-MM-DD) as a reader expects it: 'Jan 31, 2027'. */
 export function dateText(isoDate: string): string {
-  const date = new Date(`${isoDate.slice(0, 10)}T00:00:00Z`);
-  return Number.isNaN(date.getTime()) ? isoDate : dateFormat.format(date);
+  return dayText(isoDate.slice(0, 10)) ?? isoDate;
 }
 
 /** Today in the browser's own time zone, as an ISO date. */

@@ -1,6 +1,7 @@
 import type { LadderRequirement } from '@shared/api/ladder';
 import type { PassOff } from '@shared/api/pass-off';
 import type { EntryStatus } from './pass-off-queue';
+import { escapeHtml } from '@shared/html/escape-html';
 
 /** A pass-off being typed into a cell, before it joins the queue. */
 export interface CellDraft {
@@ -52,10 +53,6 @@ const statusText: Record<EntryStatus, string> = {
   failed: '⚠ failed',
 };
 
-function escape(text: string): string {
-  return text.replace(/[&<>"']/g, (character) => `&#${character.charCodeAt(0)};`);
-}
-
 function result(passed: boolean, tempo: number): string {
   return passed
     ? `<span class="result passed">✓ Passed ♩${tempo}</span>`
@@ -87,14 +84,14 @@ function cellContent(view: CellView, requirement: LadderRequirement): string {
           ? `<span class="result typing">♩${view.tempo || '…'}</span>`
           : result(view.passed, view.tempo);
       const status = view.problem
-        ? `⚠ ${escape(view.problem)}`
+        ? `⚠ ${escapeHtml(view.problem)}`
         : view.passed === null
           ? 'P passed · N not yet'
           : 'entering…';
       return `<span class="cell draft">${line}<span class="status">${status}</span></span>`;
     }
     case 'entry':
-      return `<span class="cell entry ${view.status}" title="${escape(view.message)}">${result(view.passed, view.tempo)}<span class="status">${statusText[view.status]}</span></span>`;
+      return `<span class="cell entry ${view.status}" title="${escapeHtml(view.message)}">${result(view.passed, view.tempo)}<span class="status">${statusText[view.status]}</span></span>`;
     case 'heard': {
       const { passOff } = view;
       if (passOff.standing === 'counts' || passOff.standing === 'not-yet') {
@@ -103,7 +100,7 @@ function cellContent(view: CellView, requirement: LadderRequirement): string {
       const why = view.earlierLadder
         ? 'earlier ladder · no longer counts'
         : `below ♩${requirement.tempo} · does not count`;
-      return `<span class="cell heard stale" title="${escape(passOff.standingNote ?? why)}"><span class="result stale">✓ ♩${passOff.tempo}</span><span class="status">${why}</span></span>`;
+      return `<span class="cell heard stale" title="${escapeHtml(passOff.standingNote ?? why)}"><span class="result stale">✓ ♩${passOff.tempo}</span><span class="status">${why}</span></span>`;
     }
   }
 }

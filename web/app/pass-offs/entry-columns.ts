@@ -2,6 +2,7 @@ import type { ColDef, ICellRendererParams } from 'ag-grid-community';
 import type { LadderRequirement } from '@shared/api/ladder';
 import { keyText, requirementSummary, familiesText } from '../ladder/requirement-text';
 import { cellHtml, type CellView } from './entry-cells';
+import { escapeHtml } from '@shared/html/escape-html';
 
 /** One student's row of the entry grid. */
 export interface EntryRow {
@@ -37,7 +38,7 @@ export function entryColumns(
       valueGetter: (params) => params.data?.name ?? '',
       cellRenderer: (params: ICellRendererParams<EntryRow>) =>
         params.data
-          ? `<span class="student"><span class="student-name">${escape(params.data.name)}</span><span class="student-grade">Grade ${escape(params.data.grade)}</span></span>`
+          ? `<span class="student"><span class="student-name">${escapeHtml(params.data.name)}</span><span class="student-grade">Grade ${escapeHtml(params.data.grade)}</span></span>`
           : '',
       cellClass: 'student-cell',
     },
@@ -72,8 +73,4 @@ export function entryColumns(
       cellClass: 'pass-off-cell',
     })),
   ];
-}
-
-function escape(text: string): string {
-  return text.replace(/[&<>"']/g, (character) => `&#${character.charCodeAt(0)};`);
 }

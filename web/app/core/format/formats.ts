@@ -1,4 +1,7 @@
 import { Pipe, type PipeTransform } from '@angular/core';
+import { dayText } from '@shared/calendar/day-text';
+
+const calendarDate = /^\d{4}-\d{2}-\d{2}$/;
 
 /**
  * Dates, times and counts as the screens show them, through the browser's Intl (US English,
@@ -36,10 +39,8 @@ export function formatWhen(
 ): string {
   if (value === null || value === undefined || value === '') return '';
   // A bare calendar date (2026-12-02) is that day, not midnight UTC shifted to the day before.
-  const date =
-    typeof value === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(value)
-      ? new Date(`${value}T12:00:00`)
-      : new Date(value);
+  if (typeof value === 'string' && calendarDate.test(value)) return dayText(value) ?? '';
+  const date = new Date(value);
   return Number.isNaN(date.getTime()) ? '' : formats[format].format(date);
 }
 

@@ -1,3 +1,4 @@
+import type { BarSeriesOption } from 'echarts/charts';
 import type { Overview } from '@shared/api/analytics';
 import { chartBase, categoryAxis, valueAxis } from '../../core/charts/chart-base';
 import type { ChartFigure, DrillTarget } from '../../core/charts/chart-figure';
@@ -34,18 +35,7 @@ function shareFigure(
   });
   const base = chartBase();
   const shareAxis = { ...valueAxis(undefined, '{value}%'), max: 100, interval: 25 };
-  // Bars run across so long labels (a grade's benchmark, a school's name) stay readable.
-  const barAxis = {
-    ...categoryAxis(bars.map((bar) => bar.axisLabel)),
-    inverse: true,
-    axisLabel: {
-      ...chartText,
-      interval: 0,
-      lineHeight: 15,
-      rich: { benchmark: { fontSize: 11, color: chartPalette.muted } },
-    },
-  };
-  const overallLine = Math.round((overall ?? 0) * 1000) / 10;
+  const barAxis = barAxisOf(bars);
   return {
     option: {
       ...base,
@@ -63,42 +53,7 @@ function shareFigure(
       },
       xAxis: shareAxis,
       yAxis: barAxis,
-      series: [
-        {
-          type: 'bar',
-          name: 'At or above benchmark',
-          barMaxWidth: 22,
-          data: bars.map((bar) => (bar.share === null ? null : Math.round(bar.share * 1000) / 10)),
-          itemStyle: { color: chartPalette.teal, borderRadius: [0, 4, 4, 0] },
-          // Inside the bar's end, so the value never meets the dashed line.
-          label: {
-            show: true,
-            position: 'insideRight',
-            fontWeight: 600,
-            color: '#ffffff',
-            formatter: ({ dataIndex }: { dataIndex: number }) =>
-              percentText(bars[dataIndex]!.share),
-          },
-          markLine:
-            overall === null
-              ? undefined
-              : {
-                  silent: true,
-                  symbol: 'none',
-                  lineStyle: { color: chartPalette.brass, type: 'dashed', width: 2 },
-                  label: {
-                    position: 'start',
-                    distance: 6,
-                    color: '#5a3a00',
-                    backgroundColor: '#fffbf7',
-                    padding: [2, 4],
-                    fontWeight: 600,
-                    formatter: `${overallLabel} ${percentText(overall)}`,
-                  },
-                  data: [{ xAxis: overallLine }],
-                },
-        },
-      ],
+      series: [shareSeries(bars, overall, overallLabel)],
     },
     table: {
       caption,
@@ -122,6 +77,61 @@ function shareFigure(
       })),
     },
     targetAt: (_seriesIndex, dataIndex) => (bars[dataIndex] ? target(bars[dataIndex]) : null),
+  };
+}
+
+// Bars run across so long labels (a grade's benchmark, a school's name) stay readable.
+function barAxisOf(bars: ShareBar[]) {
+  return {
+    ...categoryAxis(bars.map((bar) => bar.axisLabel)),
+    inverse: true,
+    axisLabel: {
+      ...chartText,
+      interval: 0,
+      lineHeight: 15,
+      rich: { benchmark: { fontSize: 11, color: chartPalette.muted } },
+    },
+  };
+}
+
+/** The bars' shares in percent, labelled at their ends, and a dashed line at the overall share. */
+function shareSeries(
+  bars: ShareBar[],
+  overall: number | null,
+  overallLabel: string,
+): BarSeriesOption {
+  return {
+    type: 'bar',
+    name: 'At or above benchmark',
+    barMaxWidth: 22,
+    data: bars.map((bar) => (bar.share === null ? null : Math.round(bar.share * 1000) / 10)),
+    itemStyle: { color: chartPalette.teal, borderRadius: [0, 4, 4, 0] },
+    // Inside the bar's end, so the value never meets the dashed line.
+    label: {
+      show: true,
+      position: 'insideRight',
+      fontWeight: 600,
+      color: '#ffffff',
+      formatter: ({ dataIndex }: { dataIndex: number }) => percentText(bars[dataIndex]!.share),
+    },
+    markLine:
+      overall === null
+        ? undefined
+        : {
+            silent: true,
+            symbol: 'none',
+            lineStyle: { color: chartPalette.brass, type: 'dashed', width: 2 },
+            label: {
+              position: 'start',
+              distance: 6,
+              color: '#5a3a00',
+              backgroundColor: '#fffbf7',
+              padding: [2, 4],
+              fontWeight: 600,
+              formatter: `${overallLabel} ${percentText(overall)}`,
+            },
+            data: [{ xAxis: Math.round((overall ?? 0) * 1000) / 10 }],
+          },
   };
 }
 

@@ -25,23 +25,9 @@ interface AxisParameter {
  */
 export function studentsByRungFigure(overview: Overview, stackBy: 'school' | 'grade'): ChartFigure {
   const byRung = overview.studentsByRung;
-  const stacks: Stack[] =
-    stackBy === 'school'
-      ? byRung.bySchool.map((school) => ({
-          label: school.code,
-          fullName: school.name,
-          counts: school.counts,
-          drill: school.drill,
-        }))
-      : byRung.byGrade.map((grade) => ({
-          label: gradeLabel(grade.grade),
-          fullName: gradeLabel(grade.grade),
-          counts: grade.counts,
-          drill: grade.drill,
-        }));
+  const stacks = stacksOf(byRung, stackBy);
   const rungs = byRung.rungs.map((entry) => entry.rung);
   const totals = byRung.rungs.map((entry) => entry.students);
-  const tallest = Math.max(1, ...totals);
 
   const segmentTarget = (stack: Stack, rung: number): DrillTarget => ({
     title: `${stack.fullName}, ${rungLabel(rung).toLowerCase()}`,
@@ -81,40 +67,7 @@ export function studentsByRungFigure(overview: Overview, stackBy: 'school' | 'gr
       },
       xAxis: categoryAxis(rungs.map(rungLabel)),
       yAxis: valueAxis('Students'),
-      series: [
-        ...stacks.map((stack, index) => ({
-          type: 'bar' as const,
-          name: stack.label,
-          stack: 'students',
-          data: stack.counts,
-          itemStyle: { color: seriesColour(index), borderColor: '#fffbf7', borderWidth: 1 },
-          emphasis: { focus: 'series' as const },
-          label: {
-            show: true,
-            position: 'inside' as const,
-            color: '#ffffff',
-            fontSize: 11,
-            formatter: ({ value }: { value: unknown }) =>
-              Number(value) >= tallest * 0.07 ? String(value) : '',
-          },
-        })),
-        {
-          // An empty series on top of each stack that only carries the stack's total.
-          type: 'bar' as const,
-          name: 'Total',
-          stack: 'students',
-          data: totals.map(() => 0),
-          silent: true,
-          tooltip: { show: false },
-          label: {
-            show: true,
-            position: 'top' as const,
-            color: chartPalette.ink,
-            fontWeight: 600,
-            formatter: ({ dataIndex }: { dataIndex: number }) => String(totals[dataIndex]),
-          },
-        },
-      ],
+      series: stackSeries(stacks, totals),
     },
     table: {
       caption: `Students on each rung by ${stackBy}`,
@@ -136,4 +89,60 @@ export function studentsByRungFigure(overview: Overview, stackBy: 'school' | 'gr
       return dataIndex < rungs.length ? rungTarget(dataIndex) : null;
     },
   };
+}
+
+/** One stack per school (the district) or per grade (one school). */
+function stacksOf(byRung: Overview['studentsByRung'], stackBy: 'school' | 'grade'): Stack[] {
+  return stackBy === 'school'
+    ? byRung.bySchool.map((school) => ({
+        label: school.code,
+        fullName: school.name,
+        counts: school.counts,
+        drill: school.drill,
+      }))
+    : byRung.byGrade.map((grade) => ({
+        label: gradeLabel(grade.grade),
+        fullName: gradeLabel(grade.grade),
+        counts: grade.counts,
+        drill: grade.drill,
+      }));
+}
+
+/** A bar series per stack, its segments labelled when tall enough, and one carrying the totals. */
+function stackSeries(stacks: Stack[], totals: number[]) {
+  const tallest = Math.max(1, ...totals);
+  return [
+    ...stacks.map((stack, index) => ({
+      type: 'bar' as const,
+      name: stack.label,
+      stack: 'students',
+      data: stack.counts,
+      itemStyle: { color: seriesColour(index), borderColor: '#fffbf7', borderWidth: 1 },
+      emphasis: { focus: 'series' as const },
+      label: {
+        show: true,
+        position: 'inside' as const,
+        color: '#ffffff',
+        fontSize: 11,
+        formatter: ({ value }: { value: unknown }) =>
+          Number(value) >= tallest * 0.07 ? String(value) : '',
+      },
+    })),
+    {
+      // An empty series on top of each stack that only carries the stack's total.
+      type: 'bar' as const,
+      name: 'Total',
+      stack: 'students',
+      data: totals.map(() => 0),
+      silent: true,
+      tooltip: { show: false },
+      label: {
+        show: true,
+        position: 'top' as const,
+        color: chartPalette.ink,
+        fontWeight: 600,
+        formatter: ({ dataIndex }: { dataIndex: number }) => String(totals[dataIndex]),
+      },
+    },
+  ];
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { pagePlan } from './students-list';
+import { pagePlan } from './students-queries';
 
 describe('pagePlan', () => {
   it('should read pages up to the middle forwards and later pages backwards from the end', () => {

@@ -6,7 +6,7 @@ import { enrollments, ensembles, schoolYears, schools, students } from '../db/sc
 import { badRequest } from '../core/errors';
 import { likePattern, parseListQuery } from '../core/list-query';
 import type { Actor } from '../core/policy';
-import { ensembleScope } from '../ensembles/ensembles-list';
+import { ensembleScope } from '../ensembles/ensembles-queries';
 import { enrollmentColumns, toEnrollment } from './enrollment-row';
 
 const sortOrders: Record<string, AnyColumn[]> = {
