@@ -1,4 +1,4 @@
-import { HttpClient } from '@angular/common/http';
+import { HttpClient, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import { studentProgressSchema, type StudentProgress } from '@shared/api/analytics';
@@ -14,5 +14,14 @@ export class StudentProgressData {
     return this.http
       .get(`/api/analytics/students/${studentId}/progress`)
       .pipe(parsedWith(studentProgressSchema));
+  }
+
+  /** The progress of student `studentId()`, read again when it changes; idle while undefined. */
+  progress(studentId: () => number | undefined): HttpResourceRef<StudentProgress | undefined> {
+    return httpResource(
+      () =>
+        studentId() === undefined ? undefined : `/api/analytics/students/${studentId()}/progress`,
+      { parse: (body) => studentProgressSchema.parse(body) },
+    );
   }
 }
