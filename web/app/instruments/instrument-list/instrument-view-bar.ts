@@ -10,6 +10,7 @@ import {
   type InstrumentView,
   type InstrumentViewFilters,
 } from '../instrument-views';
+import { createWrite } from '../../core/state/write';
 
 /** Saved views of the fleet: pick one to apply its filters, or save the current filters by name. */
 @Component({
@@ -47,7 +48,8 @@ import {
             matInput
             maxlength="40"
             [value]="name()"
-            (input)="name.set($any($event.target).value)"
+            #nameBox
+            (input)="name.set(nameBox.value)"
             data-testid="view-name"
           />
         </mat-form-field>
@@ -88,6 +90,7 @@ import {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class InstrumentViewBar {
+  private readonly write = createWrite();
   private readonly store = inject(InstrumentViews);
 
   /** The filters on screen now, which "save" keeps. */
@@ -119,7 +122,7 @@ export class InstrumentViewBar {
     if (!name) return;
     this.busy.set(true);
     this.failure.set('');
-    this.store.save({ name, filters: this.filters() }).subscribe({
+    this.write.send(this.store.save({ name, filters: this.filters() }), {
       next: (views) => {
         this.busy.set(false);
         this.views.set(views);
@@ -135,7 +138,7 @@ export class InstrumentViewBar {
   }
 
   protected remove(name: string): void {
-    this.store.remove(name).subscribe({
+    this.write.send(this.store.remove(name), {
       next: (views) => {
         this.views.set(views);
         this.chosen.set(null);
