@@ -1,4 +1,4 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
+import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { EMPTY, expand, map, reduce, type Observable } from 'rxjs';
 import { attainmentRowSchema, type AttainmentRow } from '@shared/api/analytics';
@@ -28,6 +28,17 @@ export class PassOffData {
     return this.http
       .get('/api/pass-offs', { params: new HttpParams({ fromObject: query }) })
       .pipe(parsedWith(passOffListSchema));
+  }
+
+  /** The pass-offs of student `studentId()`, newest first; read again when it changes. */
+  ofStudent(studentId: () => number): HttpResourceRef<ListResponse<PassOff> | undefined> {
+    return httpResource(
+      () => ({
+        url: '/api/pass-offs',
+        params: { studentId: studentId(), sort: 'heardOn:desc', limit: 1000 },
+      }),
+      { parse: (body) => passOffListSchema.parse(body) },
+    );
   }
 
   /** Every pass-off the query selects, page after page. */

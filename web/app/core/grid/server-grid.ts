@@ -51,6 +51,7 @@ import {
   mediumQuery,
   type WindowClass,
 } from './grid-fit';
+import { createWrite } from '../state/write';
 
 const pageSchema = listResponseSchema(z.record(z.string(), z.unknown()));
 
@@ -79,6 +80,7 @@ interface ColumnChoice {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ServerGrid<Row extends { id: number } = { id: number }> {
+  private readonly write = createWrite();
   private readonly http = inject(HttpClient);
   private readonly layouts = inject(GridLayouts);
   private readonly exporter = inject(GridExport);
@@ -429,8 +431,8 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
     if (text === this.lastSavedLayout) return;
     this.lastSavedLayout = text;
     // A layout that cannot be saved is not worth interrupting the user for.
-    this.layouts
-      .save(this.gridId(), layout)
-      .subscribe({ error: () => (this.lastSavedLayout = '') });
+    this.write.send(this.layouts.save(this.gridId(), layout), {
+      error: () => (this.lastSavedLayout = ''),
+    });
   }
 }

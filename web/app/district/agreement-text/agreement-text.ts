@@ -10,6 +10,7 @@ import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { dayText } from '../../instruments/instrument-labels';
 import { FleetLoans } from '../../loans/loan-data';
+import { createWrite } from '../../core/state/write';
 
 /**
  * The loan agreement text guardians sign (`/api/loans/agreement-text`). Every save is a new
@@ -29,6 +30,7 @@ import { FleetLoans } from '../../loans/loan-data';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AgreementTextEditor {
+  private readonly write = createWrite();
   private readonly loans = inject(FleetLoans);
 
   protected readonly day = dayText;
@@ -58,7 +60,7 @@ export class AgreementTextEditor {
     this.failure.set('');
     if (this.text.invalid || this.saving()) return;
     this.saving.set(true);
-    this.loans.saveAgreementText(this.text.value).subscribe({
+    this.write.send(this.loans.saveAgreementText(this.text.value), {
       next: (value) => {
         this.saving.set(false);
         this.current.set(value);

@@ -30,6 +30,7 @@ import { PageState } from '../../core/state/page-state';
 import { AgreementTextEditor } from '../agreement-text/agreement-text';
 import { DistrictData } from '../district-data';
 import { FeeScheduleEditor } from '../fee-schedule/fee-schedule';
+import { createWrite } from '../../core/state/write';
 
 /** The time zones offered first; any other IANA zone can be typed in the field below. */
 const commonTimeZones = [
@@ -65,6 +66,7 @@ const commonTimeZones = [
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class DistrictSettings {
+  private readonly write = createWrite();
   private readonly data = inject(DistrictData);
   private readonly currentDistrict = inject(CurrentDistrict);
 
@@ -174,7 +176,7 @@ export class DistrictSettings {
     this.saving.set(true);
     this.saved.set(false);
     this.saveError.set('');
-    request.subscribe({
+    this.write.send(request, {
       next: (district) => {
         this.saving.set(false);
         this.district.set(district);

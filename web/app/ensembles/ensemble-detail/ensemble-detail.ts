@@ -30,6 +30,7 @@ import { ConflictNotice } from '../../core/record-page/conflict-notice';
 import { RecordPage } from '../../core/record-page/record-page';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { EnsembleData } from '../ensemble-data';
+import { createWrite } from '../../core/state/write';
 
 /** One ensemble: its details (directors and the coordinator edit them) and its members. */
 @Component({
@@ -51,6 +52,7 @@ import { EnsembleData } from '../ensemble-data';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class EnsembleDetail {
+  private readonly write = createWrite();
   private readonly ensembleData = inject(EnsembleData);
   private readonly router = inject(Router);
 
@@ -107,7 +109,7 @@ export class EnsembleDetail {
     const request = current
       ? this.ensembleData.update(current.id, { ...fields, version: current.version })
       : this.ensembleData.create(ensembleInputSchema.parse({ ...fields, schoolId }));
-    request.subscribe({
+    this.write.send(request, {
       next: (ensemble) => {
         this.saving.set(false);
         if (!current) {

@@ -30,6 +30,7 @@ import { chooseOnlySchool } from '../../core/forms/only-school';
 import { FleetInstruments } from '../instrument-data';
 import { centsOf, conditionLabels, familyLabels, statusLooks } from '../instrument-labels';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
+import { createWrite } from '../../core/state/write';
 
 const fields = instrumentInputSchema.shape;
 type ManualStatus = (typeof manualInstrumentStatuses)[number];
@@ -59,6 +60,7 @@ function costValidator(control: AbstractControl) {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class InstrumentForm {
+  private readonly write = createWrite();
   private readonly fleet = inject(FleetInstruments);
 
   /** The instrument being edited; null to add one. */
@@ -164,7 +166,7 @@ export class InstrumentForm {
           version: instrument.version,
         })
       : this.fleet.create(instrumentInputSchema.parse(record));
-    request.subscribe({
+    this.write.send(request, {
       next: (saved) => {
         this.saving.set(false);
         this.savedNote.set(true);

@@ -24,6 +24,7 @@ import { centsOf, conditionLabels, dayText } from '../../instruments/instrument-
 import { FleetLoans } from '../loan-data';
 import { accessoriesFor } from './accessories';
 import { StudentPicker } from './student-picker';
+import { createWrite } from '../../core/state/write';
 
 /**
  * Lends an available instrument to a student: due date, accessories, condition, fee or waiver.
@@ -49,6 +50,7 @@ import { StudentPicker } from './student-picker';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CheckoutDialog {
+  private readonly write = createWrite();
   private readonly loans = inject(FleetLoans);
   protected readonly dialog = inject<MatDialogRef<CheckoutDialog, Loan>>(MatDialogRef);
 
@@ -150,7 +152,7 @@ export class CheckoutDialog {
     };
     this.saving.set(true);
     this.failure.set('');
-    this.loans.checkOut(input).subscribe({
+    this.write.send(this.loans.checkOut(input), {
       next: (loan) => {
         this.saving.set(false);
         this.lent.set(loan);

@@ -70,6 +70,7 @@ const touchQueries = ['(pointer: coarse)', '(max-width: 839.98px)'];
 import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 import { PastPassOffs } from '../past-pass-offs/past-pass-offs';
+import { createWrite } from '../../core/state/write';
 
 @Component({
   selector: 'tb-pass-off-entry',
@@ -96,6 +97,7 @@ import { PastPassOffs } from '../past-pass-offs/past-pass-offs';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class PassOffEntry {
+  private readonly write = createWrite();
   private readonly ensembleData = inject(EnsembleData);
   protected readonly sheet = inject(EnsembleSheet);
   private readonly ladderData = inject(LadderData);
@@ -360,7 +362,7 @@ export class PassOffEntry {
   }
 
   protected saveNote({ passOff, note }: NoteChange): void {
-    this.passOffData.update(passOff.id, { note, version: passOff.version }).subscribe({
+    this.write.send(this.passOffData.update(passOff.id, { note, version: passOff.version }), {
       next: (updated) => {
         this.merge([updated]);
         this.announce('Note saved.');
@@ -385,7 +387,7 @@ export class PassOffEntry {
         .afterClosed(),
     );
     if (!confirmed) return;
-    this.passOffData.remove(passOff.id).subscribe({
+    this.write.send(this.passOffData.remove(passOff.id), {
       next: () => {
         this.sheet.removed(passOff);
         if (passOff.clientKey) this.queue.forget(passOff.clientKey);

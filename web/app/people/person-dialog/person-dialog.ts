@@ -30,6 +30,7 @@ import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
+import { createWrite } from '../../core/state/write';
 
 /** What the person dialog edits: a person, or null to add one. */
 export interface PersonDialogData {
@@ -64,6 +65,7 @@ const roleHints: Record<Role, string> = {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class PersonDialog {
+  private readonly write = createWrite();
   private readonly people = inject(PeopleData);
   private readonly dialog = inject<MatDialogRef<PersonDialog, PersonDetail>>(MatDialogRef);
   private readonly studentSearches = new Subject<string>();
@@ -163,7 +165,7 @@ export class PersonDialog {
           version: this.person.version,
         })
       : this.people.create({ email: value.email, name: value.name, ...assignments });
-    request.subscribe({
+    this.write.send(request, {
       next: (saved) => this.dialog.close(saved),
       error: (error: unknown) => {
         this.saving.set(false);

@@ -20,6 +20,7 @@ import { analyseInWorker } from './take-job';
 import { TakeRecorder, type RecordedTake } from './take-recorder';
 import { Takes } from './takes';
 import { TakeAnalysisView } from './take-analysis-view';
+import { createWrite } from '../../core/state/write';
 
 export { verdictLabels } from './take-analysis-view';
 
@@ -39,6 +40,7 @@ type Stage = 'idle' | 'asking' | 'recording' | 'listening' | 'heard' | 'problem'
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class TakePanel {
+  private readonly write = createWrite();
   private readonly recorder = inject(TakeRecorder);
   private readonly playback = inject(SheetPlayback);
   private readonly takes = inject(Takes);
@@ -121,9 +123,9 @@ export class TakePanel {
     const code = this.requirementCode();
     if (!analysis || !code || !this.recorded) return;
     this.saving.set(true);
-    this.takes.keep(this.recorded.blob, code, this.tempo(), analysis).subscribe({
+    this.write.send(this.takes.keep(this.recorded.blob, code, this.tempo(), analysis), {
       next: (take) =>
-        this.takes.send(take.id).subscribe({
+        this.write.send(this.takes.send(take.id), {
           next: (sent) => {
             this.kept.set(sent);
             this.saving.set(false);

@@ -16,6 +16,7 @@ import { InstrumentPicker } from '../../instruments/instrument-picker/instrument
 import { centsOf } from '../../instruments/instrument-labels';
 import { FleetRepairs } from '../repair-data';
 import { repairStatusLooks } from '../repair-looks';
+import { createWrite } from '../../core/state/write';
 
 /** What the repair dialog needs: the ticket (null to open one) and whether it may change. */
 export interface RepairDialogData {
@@ -47,6 +48,7 @@ const dollarsOf = (cents: number | null) => (cents === null ? '' : (cents / 100)
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class RepairDialog {
+  private readonly write = createWrite();
   private readonly repairs = inject(FleetRepairs);
   protected readonly dialog = inject<MatDialogRef<RepairDialog, Repair>>(MatDialogRef);
   protected readonly data = inject<RepairDialogData>(MAT_DIALOG_DATA);
@@ -108,7 +110,7 @@ export class RepairDialog {
           estimateCents: centsOf(this.estimate()),
           notes: this.notes().trim(),
         });
-    request.subscribe({
+    this.write.send(request, {
       next: (saved) => this.dialog.close(saved),
       error: (error: unknown) => {
         this.saving.set(false);

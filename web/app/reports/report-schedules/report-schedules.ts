@@ -15,6 +15,7 @@ import { addressesIn } from '../send-dialog/send-dialog';
 import { ReportData } from '../report-data';
 import { momentText } from '../report-period';
 import { cronFor, describeCron, scheduleDays, scheduleTimeZones } from '../schedule-choices';
+import { createWrite } from '../../core/state/write';
 
 /** Who a schedule sends to, as the form offers it. */
 type Audience = 'all-directors' | 'school' | 'addresses';
@@ -36,6 +37,7 @@ type Audience = 'all-directors' | 'school' | 'addresses';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ReportSchedules {
+  private readonly write = createWrite();
   private readonly reports = inject(ReportData);
 
   protected readonly schedules = rxResource({ stream: () => this.reports.schedules() });
@@ -133,7 +135,7 @@ export class ReportSchedules {
   private run(request: Observable<unknown>): void {
     this.saving.set(true);
     this.problem.set(null);
-    request.subscribe({
+    this.write.send(request, {
       next: () => {
         this.saving.set(false);
         this.schedules.reload();

@@ -11,6 +11,7 @@ import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { SchoolYearData } from '../school-year-data';
 import { YearStart } from '../year-start/year-start';
+import { createWrite } from '../../core/state/write';
 
 /** A year being added or edited in the table. */
 interface YearDraft {
@@ -42,6 +43,7 @@ interface YearDraft {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SchoolYearsPage {
+  private readonly write = createWrite();
   private readonly data = inject(SchoolYearData);
 
   protected readonly years = rxResource({ stream: () => this.data.list() });
@@ -87,7 +89,7 @@ export class SchoolYearsPage {
       draft.id === null
         ? this.data.create({ name, startsOn, endsOn })
         : this.data.update(draft.id, { name, startsOn, endsOn, version: draft.version });
-    request.subscribe({
+    this.write.send(request, {
       next: (year) => {
         this.saving.set(false);
         this.draft.set(null);

@@ -25,6 +25,7 @@ import { EnsembleData } from '../../ensembles/ensemble-data';
 import { injectSchoolChoices } from '../school-choices';
 import { SchoolData } from '../school-data';
 import { schoolLevelLabels } from '../school-labels';
+import { createWrite } from '../../core/state/write';
 
 /** One school: its details (the coordinator edits them), its ensembles and a way to its students. */
 @Component({
@@ -46,6 +47,7 @@ import { schoolLevelLabels } from '../school-labels';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SchoolDetail {
+  private readonly write = createWrite();
   private readonly schoolData = inject(SchoolData);
   private readonly router = inject(Router);
 
@@ -106,7 +108,7 @@ export class SchoolDetail {
     if (!current || this.saving()) return;
     this.saving.set(true);
     this.saveError.set('');
-    this.schoolData.update(current.id, { closedOn, version: current.version }).subscribe({
+    this.write.send(this.schoolData.update(current.id, { closedOn, version: current.version }), {
       next: (school) => {
         this.saving.set(false);
         this.record.set(school);
@@ -140,7 +142,7 @@ export class SchoolDetail {
     const request = current
       ? this.schoolData.update(current.id, { ...input, version: current.version })
       : this.schoolData.create(parsed.data);
-    request.subscribe({
+    this.write.send(request, {
       next: (school) => {
         this.saving.set(false);
         if (!current) {

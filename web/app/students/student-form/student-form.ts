@@ -29,6 +29,7 @@ import { chooseOnlySchool } from '../../core/forms/only-school';
 import { StudentData } from '../student-detail/student-data';
 import { gradeChoices, statusLabels } from './student-choices';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
+import { createWrite } from '../../core/state/write';
 
 const fields = studentInputSchema.shape;
 
@@ -50,6 +51,7 @@ const fields = studentInputSchema.shape;
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class StudentForm {
+  private readonly write = createWrite();
   private readonly studentData = inject(StudentData);
 
   /** The record being edited; null to add a student. */
@@ -136,7 +138,7 @@ export class StudentForm {
           studentPatchSchema.parse({ ...values, ...guardian, version: student.version }),
         )
       : this.studentData.create(studentInputSchema.parse({ ...values, schoolId }));
-    request.subscribe({
+    this.write.send(request, {
       next: (saved) => {
         this.saving.set(false);
         this.savedNote.set(true);
