@@ -25,6 +25,15 @@ export class EnsembleData {
       .pipe(parsedWith(ensembleListSchema));
   }
 
+  /** The ensembles `query()` selects, read again whenever it changes. */
+  listed(
+    query: () => Record<string, string | number>,
+  ): HttpResourceRef<ListResponse<Ensemble> | undefined> {
+    return httpResource(() => ({ url: '/api/ensembles', params: query() }), {
+      parse: (body) => ensembleListSchema.parse(body),
+    });
+  }
+
   /** The ensembles of the school `schoolId()`, by name; idle while it is undefined. */
   ofSchool(
     schoolId: () => number | undefined,

@@ -30,11 +30,6 @@ const impactStudentListSchema = z.object({
 export class LadderData {
   private readonly http = inject(HttpClient);
 
-  /** The version in force, with its rungs, requirements and benchmarks. */
-  active(): Observable<Ladder> {
-    return this.http.get('/api/ladder').pipe(parsedWith(ladderSchema));
-  }
-
   /** The version in force, read once per call (in an injection context); 404 when none is. */
   inForce(): HttpResourceRef<Ladder | undefined> {
     return httpResource(() => '/api/ladder', { parse: (body) => ladderSchema.parse(body) });

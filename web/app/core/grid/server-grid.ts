@@ -33,7 +33,7 @@ import type {
 import { z } from 'zod';
 import { listResponseSchema } from '@shared/api/list';
 import { errorMessage } from '../parse';
-import { map } from 'rxjs';
+import { map, firstValueFrom } from 'rxjs';
 import { columnCsv } from './column-csv';
 import { GridExport } from './grid-export';
 import { GridLayouts } from './grid-layouts';
@@ -196,24 +196,24 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
 
   protected getRowId = (params: { data: Row }) => String(params.data.id);
 
-  protected onGridReady(event: GridReadyEvent<Row>): void {
+  protected async onGridReady(event: GridReadyEvent<Row>): Promise<void> {
     this.api = event.api;
     this.refreshChoices();
-    this.layouts.load(this.gridId()).subscribe((layout) => {
-      if (layout && this.api) {
-        const known = new Set(this.choices().map((choice) => choice.colId));
-        const sortable = new Set(this.sortFields());
-        this.api.applyColumnState({
-          state: columnStateOf(layout, known, sortable),
-          applyOrder: true,
-        });
-        this.lastSavedLayout = JSON.stringify(layoutOf(this.api.getColumnState()));
-        this.refreshChoices();
-      }
-      this.restoring = false;
-      this.fitWidth(this.windowClass());
-      this.refresh();
-    });
+    // The saved layout is applied once the grid is ready; one that cannot be read is null.
+    const layout = await firstValueFrom(this.layouts.load(this.gridId()));
+    if (layout && this.api) {
+      const known = new Set(this.choices().map((choice) => choice.colId));
+      const sortable = new Set(this.sortFields());
+      this.api.applyColumnState({
+        state: columnStateOf(layout, known, sortable),
+        applyOrder: true,
+      });
+      this.lastSavedLayout = JSON.stringify(layoutOf(this.api.getColumnState()));
+      this.refreshChoices();
+    }
+    this.restoring = false;
+    this.fitWidth(this.windowClass());
+    this.refresh();
   }
 
   protected onRowClicked(event: RowClickedEvent<Row>): void {
@@ -391,6 +391,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
               next: nextCursor(response.headers.get('link')),
             })),
           )
+          // AG Grid asks for each block of rows through its datasource callback, and is answered in it.
           .subscribe({
             next: ({ page, next }) => {
               this.requests.update((count) => count - 1);

@@ -45,6 +45,7 @@ export function createWrite(): Write {
       running.update((count) => count + 1);
       error.set(undefined);
       done.set(false);
+      // The one place a write is subscribed: HttpClient calls are cold, sent on subscribe.
       request.subscribe({
         next: (value) => handlers.next?.(value),
         error: (failed: unknown) => {

@@ -93,6 +93,7 @@ export class CountSession {
           ),
         ),
       )
+      // The scan stream: each tag waits for the one before it (concatMap).
       .subscribe(({ scan, failure }) => {
         this.pending.update((count) => count - 1);
         if (scan) {

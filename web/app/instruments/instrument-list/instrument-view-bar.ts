@@ -1,4 +1,13 @@
-import { ChangeDetectionStrategy, Component, inject, input, output, signal } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  input,
+  output,
+  signal,
+} from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -100,16 +109,16 @@ export class InstrumentViewBar {
   /** A saved view was picked: apply its filters. */
   readonly applied = output<InstrumentViewFilters>();
 
-  protected readonly views = signal<InstrumentView[]>([]);
+  // The saved views are several reads chained (the index, then each view): an rxResource.
+  private readonly saved = rxResource({ stream: () => this.store.list(), defaultValue: [] });
+  protected readonly views = computed<InstrumentView[]>(() =>
+    this.saved.hasValue() ? this.saved.value() : [],
+  );
   protected readonly chosen = signal<string | null>(null);
   protected readonly naming = signal(false);
   protected readonly name = signal('');
   protected readonly busy = signal(false);
   protected readonly failure = signal('');
-
-  constructor() {
-    this.store.list().subscribe({ next: (views) => this.views.set(views), error: () => undefined });
-  }
 
   protected choose(name: string | null): void {
     this.chosen.set(name);
@@ -125,7 +134,7 @@ export class InstrumentViewBar {
     this.write.send(this.store.save({ name, filters: this.filters() }), {
       next: (views) => {
         this.busy.set(false);
-        this.views.set(views);
+        this.saved.set(views);
         this.chosen.set(name);
         this.naming.set(false);
         this.name.set('');
@@ -140,7 +149,7 @@ export class InstrumentViewBar {
   protected remove(name: string): void {
     this.write.send(this.store.remove(name), {
       next: (views) => {
-        this.views.set(views);
+        this.saved.set(views);
         this.chosen.set(null);
       },
       error: (error: unknown) =>

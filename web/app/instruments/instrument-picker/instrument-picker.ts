@@ -114,6 +114,7 @@ export class InstrumentPicker {
           );
         }),
       )
+      // Typed text is a stream: debounced, and each new search cancels the last (switchMap).
       .subscribe((rows) => {
         this.found.set(rows);
         this.searched.set(true);

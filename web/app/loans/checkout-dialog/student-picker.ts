@@ -89,6 +89,7 @@ export class StudentPicker {
           ),
         ),
       )
+      // Typed text is a stream: debounced, and each new search cancels the last (switchMap).
       .subscribe((rows) => {
         this.found.set(rows);
         this.searched.set(true);

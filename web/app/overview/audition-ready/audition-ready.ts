@@ -76,6 +76,7 @@ export class AuditionReady {
         typeof tempo === 'number' && tempo > 0 ? tempo : null,
         this.filters(),
       )
+      // A search the user runs from the form; its answer stays until the next search.
       .subscribe({
         next: (list) => {
           this.result.set(list);

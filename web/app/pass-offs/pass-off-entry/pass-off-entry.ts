@@ -31,7 +31,7 @@ import type {
   GridApi,
   GridReadyEvent,
 } from 'ag-grid-community';
-import { firstValueFrom, forkJoin, map } from 'rxjs';
+import { firstValueFrom, map } from 'rxjs';
 import type { Ensemble } from '@shared/api/ensemble';
 import type { Ladder, LadderRequirement } from '@shared/api/ladder';
 import type { PassOff } from '@shared/api/pass-off';
@@ -119,9 +119,22 @@ export class PassOffEntry {
   protected readonly rowId = (params: GetRowIdParams<EntryRow>) => String(params.data.studentId);
   protected readonly theme = gridTheme;
   protected readonly today = localToday();
-  protected readonly ensembles = signal<Ensemble[] | null>(null);
-  protected readonly ladder = signal<Ladder | null>(null);
-  protected readonly setupError = signal('');
+  private readonly ensembleList = this.ensembleData.listed(() => ({
+    sort: 'name:asc',
+    limit: 500,
+  }));
+  private readonly inForce = this.ladderData.inForce();
+  // The page needs the ensembles and the ladder together: neither shows before both are read.
+  protected readonly ensembles = computed<Ensemble[] | null>(() =>
+    this.ensembleList.hasValue() && this.inForce.hasValue() ? this.ensembleList.value().rows : null,
+  );
+  protected readonly ladder = computed<Ladder | null>(() =>
+    this.ensembleList.hasValue() && this.inForce.hasValue() ? this.inForce.value() : null,
+  );
+  protected readonly setupError = computed(() => {
+    const error = this.ensembleList.error() ?? this.inForce.error();
+    return error ? errorMessage(error, 'The ensembles and the ladder could not be loaded.') : '';
+  });
   protected readonly focused = signal<{ studentId: number; code: string } | null>(null);
   protected readonly historyStudent = signal<number | null>(null);
   protected readonly historyToken = signal(0);
@@ -198,19 +211,6 @@ export class PassOffEntry {
   constructor() {
     this.queue.start(inject(CurrentUser).me()?.id ?? 0);
     this.drafts.heardOn.set(this.today);
-    forkJoin([
-      this.ensembleData.list({ sort: 'name:asc', limit: 500 }),
-      this.ladderData.active(),
-    ]).subscribe({
-      next: ([ensembles, ladder]) => {
-        this.ensembles.set(ensembles.rows);
-        this.ladder.set(ladder);
-      },
-      error: (error: unknown) =>
-        this.setupError.set(
-          errorMessage(error, 'The ensembles and the ladder could not be loaded.'),
-        ),
-    });
     effect(() => {
       const id = this.ensembleId();
       untracked(() => {
@@ -226,6 +226,7 @@ export class PassOffEntry {
       this.takes.byCell();
       this.api?.refreshCells({ force: true });
     });
+    // The queue reports each batch the server saved, for as long as the page is open.
     this.queue.saved.pipe(takeUntilDestroyed()).subscribe((rows) => this.merge(rows));
     const leave = () => this.drafts.commitAll();
     window.addEventListener('pagehide', leave);

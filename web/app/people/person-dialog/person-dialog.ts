@@ -113,6 +113,7 @@ export class PersonDialog {
         debounceTime(200),
         switchMap((text) => this.people.findStudents(text).pipe(catchError(() => of([])))),
       )
+      // Typed text is a stream: debounced, and each new search cancels the last (switchMap).
       .subscribe((found) => {
         this.foundStudents.set(found);
         this.searchedStudents.set(true);

@@ -8,6 +8,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatRadioModule } from '@angular/material/radio';
 import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
 import type { Instrument } from '@shared/api/instrument';
 import { repairCaution, repairStatuses, type Repair, type RepairStatus } from '@shared/api/repair';
 import { isConflict } from '../../core/forms/record-form';
@@ -121,21 +122,20 @@ export class RepairDialog {
   }
 
   /** After a conflict: load the ticket as it is now, losing this dialog's changes. */
-  protected reload(): void {
+  protected async reload(): Promise<void> {
     const ticket = this.ticket();
     if (!ticket) return;
-    this.repairs.get(ticket.id).subscribe((fresh) => {
-      this.ticket.set(fresh);
-      this.problem.set(fresh.problem);
-      this.inHouse.set(fresh.inHouse);
-      this.vendor.set(fresh.vendor ?? '');
-      this.estimate.set(dollarsOf(fresh.estimateCents));
-      this.finalCost.set(dollarsOf(fresh.finalCostCents));
-      this.status.set(fresh.status);
-      this.sentOn.set(fresh.sentOn ?? '');
-      this.returnedOn.set(fresh.returnedOn ?? '');
-      this.notes.set(fresh.notes);
-      this.conflict.set(false);
-    });
+    const fresh = await firstValueFrom(this.repairs.get(ticket.id));
+    this.ticket.set(fresh);
+    this.problem.set(fresh.problem);
+    this.inHouse.set(fresh.inHouse);
+    this.vendor.set(fresh.vendor ?? '');
+    this.estimate.set(dollarsOf(fresh.estimateCents));
+    this.finalCost.set(dollarsOf(fresh.finalCostCents));
+    this.status.set(fresh.status);
+    this.sentOn.set(fresh.sentOn ?? '');
+    this.returnedOn.set(fresh.returnedOn ?? '');
+    this.notes.set(fresh.notes);
+    this.conflict.set(false);
   }
 }
