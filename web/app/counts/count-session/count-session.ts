@@ -16,7 +16,7 @@ import { RouterLink } from '@angular/router';
 import { Subject, catchError, concatMap, firstValueFrom, map, of } from 'rxjs';
 import type { CountScan, ScanOutcome } from '@shared/api/count';
 import { errorMessage } from '../../core/parse';
-import { PageState } from '../../core/state/page-state';
+import { ResourceState } from '../../core/state/resource-state';
 import { createWrite } from '../../core/state/write';
 import { ConfirmDialog } from '../../core/confirm-dialog/confirm-dialog';
 import { dayText } from '../../instruments/instrument-labels';
@@ -48,7 +48,7 @@ export function tagsIn(text: string): string[] {
     MatFormFieldModule,
     MatIconModule,
     MatInputModule,
-    PageState,
+    ResourceState,
     RouterLink,
   ],
   templateUrl: './count-session.html',
@@ -65,7 +65,6 @@ export class CountSession {
   /** The count as read from the API, and as the last scan or the close left it. */
   protected readonly record = this.counts.detail(() => Number(this.id()));
   protected readonly count = computed(() => (this.record.hasValue() ? this.record.value() : null));
-  protected readonly errorMessage = errorMessage;
   protected readonly tagText = signal('');
   /** Tags typed and not yet answered by the server. */
   protected readonly pending = signal(0);

@@ -6,7 +6,7 @@ import { RouterLink } from '@angular/router';
 import type { FeeRow, FeeStatus, FeeSummary } from '@shared/api/fee';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
-import { PageState } from '../../core/state/page-state';
+import { ResourceState } from '../../core/state/resource-state';
 import { createWrite } from '../../core/state/write';
 import { centsOf, dayText, money } from '../../instruments/instrument-labels';
 import { FeeScheduleEditor } from '../../district/fee-schedule/fee-schedule';
@@ -41,7 +41,7 @@ const ledgerWords: Partial<Record<string, string>> = {
     MatButtonModule,
     MatButtonToggleModule,
     MatIconModule,
-    PageState,
+    ResourceState,
     FeeScheduleEditor,
   ],
   templateUrl: './fees-page.html',

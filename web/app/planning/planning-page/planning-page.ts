@@ -1,8 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
-import { errorMessage } from '../../core/parse';
-import { PageState } from '../../core/state/page-state';
+import { ResourceState } from '../../core/state/resource-state';
 import { dayText, money } from '../../instruments/instrument-labels';
 import { FleetPlanning } from '../planning-data';
 import { ReplacementTable } from '../replacement-table/replacement-table';
@@ -11,7 +10,7 @@ import { ShortageList } from '../shortage-list/shortage-list';
 /** What to replace in the next 1, 3 or 5 years and what it costs; shortages and transfers. */
 @Component({
   selector: 'tb-planning-page',
-  imports: [MatButtonToggleModule, MatIconModule, PageState, ReplacementTable, ShortageList],
+  imports: [MatButtonToggleModule, MatIconModule, ResourceState, ReplacementTable, ShortageList],
   templateUrl: './planning-page.html',
   styleUrl: './planning-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -24,7 +23,6 @@ export class PlanningPage {
   protected readonly years = signal(1);
   protected readonly money = money;
   protected readonly day = dayText;
-  protected readonly errorMessage = errorMessage;
 
   protected readonly horizon = computed(() => {
     if (!this.plan.hasValue()) return null;
