@@ -39,7 +39,7 @@ export class AgreementTextEditor {
   protected readonly current = httpResource(() => '/api/loans/agreement-text', {
     parse: (body) => agreementTextSchema.parse(body),
   });
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly notice = signal('');
   protected readonly failure = signal('');
   protected readonly text = new FormControl('', {
@@ -59,15 +59,12 @@ export class AgreementTextEditor {
     this.notice.set('');
     this.failure.set('');
     if (this.text.invalid || this.saving()) return;
-    this.saving.set(true);
     this.write.send(this.loans.saveAgreementText(this.text.value), {
       next: (value) => {
-        this.saving.set(false);
         this.current.set(value);
         this.notice.set(`Saved as version ${value.version}. New agreements use it.`);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.failure.set(errorMessage(error, 'The agreement text could not be saved.'));
       },
     });

@@ -72,7 +72,7 @@ export class DistrictSettings {
 
   protected readonly district = rxResource({ stream: () => this.data.get() });
   protected readonly fieldMessage = fieldMessage;
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly saved = signal(false);
   protected readonly conflict = signal(false);
   protected readonly saveError = signal('');
@@ -173,18 +173,15 @@ export class DistrictSettings {
   }
 
   private send(request: Observable<District>, done: () => void, failed: (error: unknown) => void) {
-    this.saving.set(true);
     this.saved.set(false);
     this.saveError.set('');
     this.write.send(request, {
       next: (district) => {
-        this.saving.set(false);
         this.district.set(district);
         this.currentDistrict.update(district);
         done();
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         failed(error);
       },
     });

@@ -70,7 +70,7 @@ export class EnsembleDetail {
   protected readonly ensemble = computed(() =>
     this.record.hasValue() ? this.record.value() : null,
   );
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly saved = signal(false);
   protected readonly conflict = signal(false);
   protected readonly saveError = signal('');
@@ -103,7 +103,6 @@ export class EnsembleDetail {
     if (this.form.invalid || this.saving()) return;
     const { schoolId, ...fields } = this.form.getRawValue();
     const current = this.ensemble();
-    this.saving.set(true);
     this.saved.set(false);
     this.saveError.set('');
     const request = current
@@ -111,7 +110,6 @@ export class EnsembleDetail {
       : this.ensembleData.create(ensembleInputSchema.parse({ ...fields, schoolId }));
     this.write.send(request, {
       next: (ensemble) => {
-        this.saving.set(false);
         if (!current) {
           void this.router.navigate(['/ensembles', ensemble.id]);
           return;
@@ -120,7 +118,6 @@ export class EnsembleDetail {
         this.reload();
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });

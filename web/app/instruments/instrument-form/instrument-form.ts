@@ -88,7 +88,7 @@ export class InstrumentForm {
     const status = this.instrument()?.status;
     return status !== undefined && (manualInstrumentStatuses as readonly string[]).includes(status);
   });
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly savedNote = signal(false);
   protected readonly conflict = signal(false);
   protected readonly saveError = signal('');
@@ -156,7 +156,6 @@ export class InstrumentForm {
       purchaseCostCents: centsOf(purchaseCost),
     };
     const instrument = this.instrument();
-    this.saving.set(true);
     this.savedNote.set(false);
     this.saveError.set('');
     const request = instrument
@@ -168,12 +167,10 @@ export class InstrumentForm {
       : this.fleet.create(instrumentInputSchema.parse(record));
     this.write.send(request, {
       next: (saved) => {
-        this.saving.set(false);
         this.savedNote.set(true);
         this.saved.emit(saved);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         // Only an edit can be stale; a 409 while adding says why in the message.
         this.saveError.set(
           saveFailureMessage(this.form, error, instrument ? this.conflict : undefined),

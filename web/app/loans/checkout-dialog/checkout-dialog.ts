@@ -71,7 +71,7 @@ export class CheckoutDialog {
   protected readonly fee = signal('');
   protected readonly waiver = signal(false);
   protected readonly waiverReason = signal('');
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly failure = signal('');
   protected readonly lent = signal<Loan | null>(null);
   protected readonly today = new Date().toISOString().slice(0, 10);
@@ -150,15 +150,12 @@ export class CheckoutDialog {
       waiver: waived,
       waiverReason: waived ? this.waiverReason() || undefined : undefined,
     };
-    this.saving.set(true);
     this.failure.set('');
     this.write.send(this.loans.checkOut(input), {
       next: (loan) => {
-        this.saving.set(false);
         this.lent.set(loan);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.failure.set(errorMessage(error, 'The instrument could not be checked out.'));
       },
     });

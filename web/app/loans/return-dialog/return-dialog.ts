@@ -54,7 +54,7 @@ export class ReturnDialog {
   protected readonly problem = signal('');
   protected readonly lost = signal(false);
   protected readonly notes = signal('');
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly failure = signal('');
   /** Woodwind and brass go to "to clean" when they come back (common practice, no source). */
   protected readonly isWind = ['woodwind', 'brass'].includes(
@@ -75,12 +75,10 @@ export class ReturnDialog {
           damaged: this.damaged() ? { problem: this.problem().trim() } : undefined,
           notes: this.notes().trim() || undefined,
         };
-    this.saving.set(true);
     this.failure.set('');
     this.write.send(this.loans.returnLoan(this.loan.id, input), {
       next: (loan) => this.dialog.close(loan),
       error: (error: unknown) => {
-        this.saving.set(false);
         this.failure.set(errorMessage(error, 'The return could not be recorded.'));
       },
     });

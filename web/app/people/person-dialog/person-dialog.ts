@@ -101,7 +101,7 @@ export class PersonDialog {
   );
   protected readonly foundStudents = signal<Student[]>([]);
   protected readonly searchedStudents = signal(false);
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly conflict = signal(false);
   protected readonly failure = signal('');
 
@@ -157,7 +157,6 @@ export class PersonDialog {
       this.form.controls[problem.field].setErrors({ server: problem.message });
     }
     if (problems.length) return;
-    this.saving.set(true);
     this.failure.set('');
     const request = this.person
       ? this.people.update(this.person.id, {
@@ -169,7 +168,6 @@ export class PersonDialog {
     this.write.send(request, {
       next: (saved) => this.dialog.close(saved),
       error: (error: unknown) => {
-        this.saving.set(false);
         this.failure.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });

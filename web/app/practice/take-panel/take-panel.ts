@@ -55,7 +55,7 @@ export class TakePanel {
   protected readonly problem = signal<string | null>(null);
   protected readonly analysis = signal<TakeAnalysis | null>(null);
   protected readonly kept = signal<Take | null>(null);
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly level = this.recorder.level;
   private recorded?: RecordedTake;
   private autoStop?: ReturnType<typeof setTimeout>;
@@ -122,13 +122,11 @@ export class TakePanel {
     const analysis = this.analysis();
     const code = this.requirementCode();
     if (!analysis || !code || !this.recorded) return;
-    this.saving.set(true);
     this.write.send(this.takes.keep(this.recorded.blob, code, this.tempo(), analysis), {
       next: (take) =>
         this.write.send(this.takes.send(take.id), {
           next: (sent) => {
             this.kept.set(sent);
-            this.saving.set(false);
           },
           error: (error: unknown) => this.failed(error),
         }),
@@ -137,7 +135,6 @@ export class TakePanel {
   }
 
   private failed(error: unknown): void {
-    this.saving.set(false);
     const message =
       error instanceof HttpErrorResponse
         ? (apiErrorOf(error)?.message ?? error.message)

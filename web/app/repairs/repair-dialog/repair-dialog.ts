@@ -69,7 +69,7 @@ export class RepairDialog {
   protected readonly sentOn = signal(this.data.repair?.sentOn ?? '');
   protected readonly returnedOn = signal(this.data.repair?.returnedOn ?? '');
   protected readonly notes = signal(this.data.repair?.notes ?? '');
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly failure = signal('');
   protected readonly conflict = signal(false);
 
@@ -87,7 +87,6 @@ export class RepairDialog {
   protected save(): void {
     if (!this.ready() || this.saving()) return;
     const vendor = this.inHouse() ? null : this.vendor().trim();
-    this.saving.set(true);
     this.failure.set('');
     const ticket = this.ticket();
     const request = ticket
@@ -114,7 +113,6 @@ export class RepairDialog {
     this.write.send(request, {
       next: (saved) => this.dialog.close(saved),
       error: (error: unknown) => {
-        this.saving.set(false);
         if (isConflict(error) && ticket) this.conflict.set(true);
         else this.failure.set(errorMessage(error, 'The ticket could not be saved.'));
       },

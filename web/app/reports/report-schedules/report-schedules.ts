@@ -54,7 +54,7 @@ export class ReportSchedules {
   protected readonly schoolId = signal<number | null>(null);
   protected readonly addressText = signal('');
 
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly problem = signal<string | null>(null);
   /** The schedule whose delete is waiting for a second click. */
   protected readonly confirmingDelete = signal<number | null>(null);
@@ -133,15 +133,12 @@ export class ReportSchedules {
   }
 
   private run(request: Observable<unknown>): void {
-    this.saving.set(true);
     this.problem.set(null);
     this.write.send(request, {
       next: () => {
-        this.saving.set(false);
         this.schedules.reload();
       },
       error: (failure: unknown) => {
-        this.saving.set(false);
         this.problem.set(errorMessage(failure, 'The schedule could not be saved. Try again.'));
         this.schedules.reload();
       },

@@ -51,7 +51,7 @@ export class SchoolYearsPage {
     this.years.value()?.rows.find((year) => year.current),
   );
   protected readonly draft = signal<YearDraft | null>(null);
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly notice = signal('');
   protected readonly failure = signal('');
 
@@ -82,7 +82,6 @@ export class SchoolYearsPage {
   protected save(): void {
     const draft = this.draft();
     if (!draft || this.saving()) return;
-    this.saving.set(true);
     this.failure.set('');
     const { name, startsOn, endsOn } = draft;
     const request =
@@ -91,13 +90,11 @@ export class SchoolYearsPage {
         : this.data.update(draft.id, { name, startsOn, endsOn, version: draft.version });
     this.write.send(request, {
       next: (year) => {
-        this.saving.set(false);
         this.draft.set(null);
         this.notice.set(`${year.name} is saved.`);
         this.years.reload();
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.failure.set(errorMessage(error, 'The year could not be saved.'));
       },
     });

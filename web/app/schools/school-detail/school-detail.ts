@@ -69,7 +69,7 @@ export class SchoolDetail {
         ? []
         : null,
   );
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly saved = signal(false);
   protected readonly conflict = signal(false);
   protected readonly saveError = signal('');
@@ -106,15 +106,12 @@ export class SchoolDetail {
   protected setClosed(closedOn: string | null): void {
     const current = this.school();
     if (!current || this.saving()) return;
-    this.saving.set(true);
     this.saveError.set('');
     this.write.send(this.schoolData.update(current.id, { closedOn, version: current.version }), {
       next: (school) => {
-        this.saving.set(false);
         this.record.set(school);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });
@@ -136,7 +133,6 @@ export class SchoolDetail {
     }
     const current = this.school();
     const { closedOn: _closedOn, ...input } = parsed.data;
-    this.saving.set(true);
     this.saved.set(false);
     this.saveError.set('');
     const request = current
@@ -144,7 +140,6 @@ export class SchoolDetail {
       : this.schoolData.create(parsed.data);
     this.write.send(request, {
       next: (school) => {
-        this.saving.set(false);
         if (!current) {
           void this.router.navigate(['/schools', school.id]);
           return;
@@ -153,7 +148,6 @@ export class SchoolDetail {
         this.saved.set(true);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });

@@ -73,7 +73,7 @@ export class StudentForm {
   protected readonly showsGuardian = computed(
     () => this.adding() || this.student()?.guardianName !== undefined,
   );
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly savedNote = signal(false);
   protected readonly conflict = signal(false);
   protected readonly saveError = signal('');
@@ -129,7 +129,6 @@ export class StudentForm {
     const guardian = this.showsGuardian()
       ? {}
       : { guardianName: undefined, guardianEmail: undefined };
-    this.saving.set(true);
     this.savedNote.set(false);
     this.saveError.set('');
     const request = student
@@ -140,12 +139,10 @@ export class StudentForm {
       : this.studentData.create(studentInputSchema.parse({ ...values, schoolId }));
     this.write.send(request, {
       next: (saved) => {
-        this.saving.set(false);
         this.savedNote.set(true);
         this.saved.emit(saved);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });
