@@ -1,4 +1,4 @@
-import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
+import { HttpClient, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import {
@@ -18,12 +18,6 @@ const ensembleListSchema = listResponseSchema(ensembleSchema);
 @Injectable({ providedIn: 'root' })
 export class EnsembleData {
   private readonly http = inject(HttpClient);
-
-  list(query: Record<string, string | number> = {}): Observable<ListResponse<Ensemble>> {
-    return this.http
-      .get('/api/ensembles', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(ensembleListSchema));
-  }
 
   /** The ensembles `query()` selects, read again whenever it changes. */
   listed(
