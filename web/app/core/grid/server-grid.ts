@@ -252,6 +252,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
         ariaLabel: `${this.itemName()}: ${detail.title}`,
       })
       .afterDismissed()
+      // The sheet's dismissal is an event for later; the grid goes on meanwhile.
       .subscribe((open) => {
         if (open) this.rowOpened.emit(row);
       });

@@ -292,6 +292,7 @@ export class PassOffEntry {
       panelClass: 'tb-side-sheet',
     });
     this.touchPanelRef = ref;
+    // The side sheet's closing is an event for later; the grid goes on meanwhile.
     ref.afterClosed().subscribe(() => {
       if (this.touchPanelRef === ref) this.touchPanelRef = null;
       // Whatever was written into the note goes out as leaving a grid cell would send it.
