@@ -26,8 +26,11 @@ export class InventoryCounts {
     });
   }
 
-  get(id: number): Observable<CountDetail> {
-    return this.http.get(`/api/counts/${id}`).pipe(parsedWith(countDetailSchema));
+  /** Count `id()` with its reconciliation, read again whenever the id changes. */
+  detail(id: () => number): HttpResourceRef<CountDetail | undefined> {
+    return httpResource(() => `/api/counts/${id()}`, {
+      parse: (body) => countDetailSchema.parse(body),
+    });
   }
 
   start(schoolId: number): Observable<CountDetail> {

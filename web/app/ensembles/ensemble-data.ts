@@ -1,4 +1,4 @@
-import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
+import { HttpClient, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import {
@@ -19,10 +19,13 @@ const ensembleListSchema = listResponseSchema(ensembleSchema);
 export class EnsembleData {
   private readonly http = inject(HttpClient);
 
-  list(query: Record<string, string | number> = {}): Observable<ListResponse<Ensemble>> {
-    return this.http
-      .get('/api/ensembles', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(ensembleListSchema));
+  /** The ensembles `query()` selects, read again whenever it changes. */
+  listed(
+    query: () => Record<string, string | number>,
+  ): HttpResourceRef<ListResponse<Ensemble> | undefined> {
+    return httpResource(() => ({ url: '/api/ensembles', params: query() }), {
+      parse: (body) => ensembleListSchema.parse(body),
+    });
   }
 
   /** The ensembles of the school `schoolId()`, by name; idle while it is undefined. */

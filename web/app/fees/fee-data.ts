@@ -1,4 +1,4 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
+import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
 import {
@@ -24,20 +24,34 @@ import { parsedWith } from '../core/parse';
 export class FeeLedger {
   private readonly http = inject(HttpClient);
 
-  list(query: Record<string, string | number>): Observable<FeeList> {
-    return this.http
-      .get('/api/fees', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(feeListSchema));
+  /** The fees matching `query()`, read again whenever it changes. */
+  list(query: () => Record<string, string | number>): HttpResourceRef<FeeList | undefined> {
+    return httpResource(() => ({ url: '/api/fees', params: query() }), {
+      parse: (body) => feeListSchema.parse(body),
+    });
   }
 
-  summary(by: FeeSummary['by'], query: Record<string, string | number>): Observable<FeeSummary> {
-    return this.http
-      .get('/api/fees/summary', { params: new HttpParams({ fromObject: { ...query, by } }) })
-      .pipe(parsedWith(feeSummarySchema));
+  /** The fees matching `query()` grouped by `by()`; idle while `by()` is undefined. */
+  summary(
+    by: () => FeeSummary['by'] | undefined,
+    query: () => Record<string, string | number>,
+  ): HttpResourceRef<FeeSummary | undefined> {
+    return httpResource(
+      () => {
+        const group = by();
+        return group === undefined
+          ? undefined
+          : { url: '/api/fees/summary', params: { ...query(), by: group } };
+      },
+      { parse: (body) => feeSummarySchema.parse(body) },
+    );
   }
 
-  detail(loanId: number): Observable<FeeDetail> {
-    return this.http.get(`/api/fees/${loanId}`).pipe(parsedWith(feeDetailSchema));
+  /** The ledger of loan `loanId()`; idle while it is undefined. */
+  detail(loanId: () => number | undefined): HttpResourceRef<FeeDetail | undefined> {
+    return httpResource(() => (loanId() === undefined ? undefined : `/api/fees/${loanId()}`), {
+      parse: (body) => feeDetailSchema.parse(body),
+    });
   }
 
   refund(loanId: number, input: RefundInput): Observable<FeeRow> {
@@ -56,8 +70,11 @@ export class FeeLedger {
       .pipe(parsedWith(reminderResultSchema));
   }
 
-  reconciliation(): Observable<Reconciliation> {
-    return this.http.get('/api/fees/reconciliation').pipe(parsedWith(reconciliationSchema));
+  /** The reconciliation with the payment service, asked once `asked()` turns true. */
+  reconciliation(asked: () => boolean): HttpResourceRef<Reconciliation | undefined> {
+    return httpResource(() => (asked() ? '/api/fees/reconciliation' : undefined), {
+      parse: (body) => reconciliationSchema.parse(body),
+    });
   }
 
   saveSchedule(schedule: FeeSchedule): Observable<FeeSchedule> {

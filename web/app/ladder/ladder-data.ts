@@ -1,4 +1,4 @@
-import { HttpClient } from '@angular/common/http';
+import { HttpClient, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { map, type Observable } from 'rxjs';
 import * as z from 'zod';
@@ -30,9 +30,17 @@ const impactStudentListSchema = z.object({
 export class LadderData {
   private readonly http = inject(HttpClient);
 
-  /** The version in force, with its rungs, requirements and benchmarks. */
-  active(): Observable<Ladder> {
-    return this.http.get('/api/ladder').pipe(parsedWith(ladderSchema));
+  /** The version in force, read once per call (in an injection context); 404 when none is. */
+  inForce(): HttpResourceRef<Ladder | undefined> {
+    return httpResource(() => '/api/ladder', { parse: (body) => ladderSchema.parse(body) });
+  }
+
+  /** Every version, newest first, while `wanted()` (drafts only for the coordinator). */
+  versionList(wanted: () => boolean = () => true): HttpResourceRef<LadderVersionSummary[]> {
+    return httpResource(() => (wanted() ? '/api/ladder/versions' : undefined), {
+      parse: (body) => versionListSchema.parse(body).rows,
+      defaultValue: [],
+    });
   }
 
   /** Every version, newest first (drafts only for the coordinator). */
@@ -43,8 +51,11 @@ export class LadderData {
     );
   }
 
-  version(id: number): Observable<Ladder> {
-    return this.http.get(`/api/ladder/versions/${id}`).pipe(parsedWith(ladderSchema));
+  /** Version `id()` with its rungs, read again whenever the id changes. */
+  version(id: () => number): HttpResourceRef<Ladder | undefined> {
+    return httpResource(() => `/api/ladder/versions/${id()}`, {
+      parse: (body) => ladderSchema.parse(body),
+    });
   }
 
   /** A new draft copied from the version in force, or from the starter ladder. */

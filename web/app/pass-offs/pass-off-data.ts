@@ -1,4 +1,4 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
+import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { map, type Observable } from 'rxjs';
 import { attainmentRowSchema, type AttainmentRow } from '@shared/api/analytics';
@@ -29,6 +29,17 @@ export class PassOffData {
     return this.http
       .get('/api/pass-offs', { params: new HttpParams({ fromObject: query }) })
       .pipe(parsedWith(passOffListSchema));
+  }
+
+  /** The pass-offs of student `studentId()`, newest first; read again when it changes. */
+  ofStudent(studentId: () => number): HttpResourceRef<ListResponse<PassOff> | undefined> {
+    return httpResource(
+      () => ({
+        url: '/api/pass-offs',
+        params: { studentId: studentId(), sort: 'heardOn:desc', limit: 1000 },
+      }),
+      { parse: (body) => passOffListSchema.parse(body) },
+    );
   }
 
   /** Every pass-off the query selects, its pages after the first asked for together. */

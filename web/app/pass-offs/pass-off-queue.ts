@@ -7,6 +7,7 @@ import { unreachable } from '../core/offline/last-visit-interceptor';
 import { errorMessage } from '../core/parse';
 import { passOffQueueStorageKey } from './unsent-pass-offs';
 import { PassOffData } from './pass-off-data';
+import { createWrite } from '../core/state/write';
 
 /** A pass-off as entered, with the client key that makes sending it again safe. */
 export type EnteredPassOff = PassOffInput & { clientKey: string };
@@ -45,6 +46,7 @@ const storedRefusalsSchema = z.array(
  */
 @Injectable({ providedIn: 'root' })
 export class PassOffQueue {
+  private readonly write = createWrite();
   private readonly data = inject(PassOffData);
   private readonly state = signal<ReadonlyMap<string, QueueEntry>>(new Map());
   private readonly savedRows = new Subject<PassOff[]>();
@@ -173,7 +175,7 @@ export class PassOffQueue {
     const keys = batch.map((entry) => entry.passOff.clientKey);
     this.inFlight = true;
     this.setStatus(keys, 'saving');
-    this.data.record(batch.map((entry) => entry.passOff)).subscribe({
+    this.write.send(this.data.record(batch.map((entry) => entry.passOff)), {
       next: (result) => {
         this.inFlight = false;
         this.failures = 0;

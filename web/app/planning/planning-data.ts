@@ -1,24 +1,26 @@
-import { HttpClient } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
-import type { Observable } from 'rxjs';
+import { httpResource, type HttpResourceRef } from '@angular/common/http';
+import { Injectable } from '@angular/core';
 import {
   replacementPlanSchema,
   shortageReportSchema,
   type ReplacementPlan,
   type ShortageReport,
 } from '@shared/api/planning';
-import { parsedWith } from '../core/parse';
 
 /** The fleet's plans through `/api/planning`: replacement by depreciation, and shortages. */
 @Injectable({ providedIn: 'root' })
 export class FleetPlanning {
-  private readonly http = inject(HttpClient);
-
-  replacement(): Observable<ReplacementPlan> {
-    return this.http.get('/api/planning/replacement').pipe(parsedWith(replacementPlanSchema));
+  /** The replacement plan, read once per call (in an injection context). */
+  replacement(): HttpResourceRef<ReplacementPlan | undefined> {
+    return httpResource(() => '/api/planning/replacement', {
+      parse: (body) => replacementPlanSchema.parse(body),
+    });
   }
 
-  shortages(): Observable<ShortageReport> {
-    return this.http.get('/api/planning/shortages').pipe(parsedWith(shortageReportSchema));
+  /** The shortages and transfers, read once per call (in an injection context). */
+  shortages(): HttpResourceRef<ShortageReport | undefined> {
+    return httpResource(() => '/api/planning/shortages', {
+      parse: (body) => shortageReportSchema.parse(body),
+    });
   }
 }

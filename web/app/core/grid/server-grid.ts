@@ -33,7 +33,7 @@ import type {
 import * as z from 'zod';
 import { listResponseSchema } from '@shared/api/list';
 import { errorMessage } from '../parse';
-import { map } from 'rxjs';
+import { map, firstValueFrom } from 'rxjs';
 import { columnCsv } from './column-csv';
 import { GridExport } from './grid-export';
 import { GridLayouts } from './grid-layouts';
@@ -51,6 +51,7 @@ import {
   mediumQuery,
   type WindowClass,
 } from './grid-fit';
+import { createWrite } from '../state/write';
 
 const pageSchema = listResponseSchema(z.record(z.string(), z.unknown()));
 
@@ -79,6 +80,7 @@ interface ColumnChoice {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ServerGrid<Row extends { id: number } = { id: number }> {
+  private readonly write = createWrite();
   private readonly http = inject(HttpClient);
   private readonly layouts = inject(GridLayouts);
   private readonly exporter = inject(GridExport);
@@ -194,24 +196,24 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
 
   protected getRowId = (params: { data: Row }) => String(params.data.id);
 
-  protected onGridReady(event: GridReadyEvent<Row>): void {
+  protected async onGridReady(event: GridReadyEvent<Row>): Promise<void> {
     this.api = event.api;
     this.refreshChoices();
-    this.layouts.load(this.gridId()).subscribe((layout) => {
-      if (layout && this.api) {
-        const known = new Set(this.choices().map((choice) => choice.colId));
-        const sortable = new Set(this.sortFields());
-        this.api.applyColumnState({
-          state: columnStateOf(layout, known, sortable),
-          applyOrder: true,
-        });
-        this.lastSavedLayout = JSON.stringify(layoutOf(this.api.getColumnState()));
-        this.refreshChoices();
-      }
-      this.restoring = false;
-      this.fitWidth(this.windowClass());
-      this.refresh();
-    });
+    // The saved layout is applied once the grid is ready; one that cannot be read is null.
+    const layout = await firstValueFrom(this.layouts.load(this.gridId()));
+    if (layout && this.api) {
+      const known = new Set(this.choices().map((choice) => choice.colId));
+      const sortable = new Set(this.sortFields());
+      this.api.applyColumnState({
+        state: columnStateOf(layout, known, sortable),
+        applyOrder: true,
+      });
+      this.lastSavedLayout = JSON.stringify(layoutOf(this.api.getColumnState()));
+      this.refreshChoices();
+    }
+    this.restoring = false;
+    this.fitWidth(this.windowClass());
+    this.refresh();
   }
 
   protected onRowClicked(event: RowClickedEvent<Row>): void {
@@ -250,6 +252,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
         ariaLabel: `${this.itemName()}: ${detail.title}`,
       })
       .afterDismissed()
+      // The sheet's dismissal is an event for later; the grid goes on meanwhile.
       .subscribe((open) => {
         if (open) this.rowOpened.emit(row);
       });
@@ -389,6 +392,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
               next: nextCursor(response.headers.get('link')),
             })),
           )
+          // AG Grid asks for each block of rows through its datasource callback, and is answered in it.
           .subscribe({
             next: ({ page, next }) => {
               this.requests.update((count) => count - 1);
@@ -429,8 +433,8 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
     if (text === this.lastSavedLayout) return;
     this.lastSavedLayout = text;
     // A layout that cannot be saved is not worth interrupting the user for.
-    this.layouts
-      .save(this.gridId(), layout)
-      .subscribe({ error: () => (this.lastSavedLayout = '') });
+    this.write.send(this.layouts.save(this.gridId(), layout), {
+      error: () => (this.lastSavedLayout = ''),
+    });
   }
 }

@@ -72,6 +72,7 @@ export class NavigationDrawer {
     inject(BreakpointObserver)
       .observe('(min-width: 840px)')
       .pipe(takeUntilDestroyed())
+      // The window's width is a stream (BreakpointObserver), for the life of the drawer.
       .subscribe((state) => {
         if (state.matches) this.open.set(false);
       });

@@ -59,6 +59,7 @@ export class Shell {
         filter((event) => event instanceof NavigationEnd),
         takeUntilDestroyed(),
       )
+      // Router events are a stream, for the life of the shell.
       .subscribe(() => {
         if (!this.fromRail) return;
         this.fromRail = false;

@@ -27,5 +27,6 @@ export async function startServiceWorker(
   merge(
     updates.versionUpdates.pipe(filter((event) => event.type === 'VERSION_READY')),
     updates.unrecoverable,
+    // The service worker's version events are a stream, for the life of the app.
   ).subscribe(onNewVersion);
 }

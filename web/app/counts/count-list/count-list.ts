@@ -9,6 +9,7 @@ import { PageState } from '../../core/state/page-state';
 import { dayText } from '../../instruments/instrument-labels';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { InventoryCounts } from '../count-data';
+import { createWrite } from '../../core/state/write';
 
 /** The annual count: start one for a school, go back to an open one, see past counts. */
 @Component({
@@ -26,6 +27,7 @@ import { InventoryCounts } from '../count-data';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CountList {
+  private readonly write = createWrite();
   private readonly counts = inject(InventoryCounts);
   private readonly router = inject(Router);
 
@@ -43,7 +45,7 @@ export class CountList {
     if (!schoolId || this.starting()) return;
     this.starting.set(true);
     this.failure.set('');
-    this.counts.start(schoolId).subscribe({
+    this.write.send(this.counts.start(schoolId), {
       next: (count) => void this.router.navigate(['/counts', count.id]),
       error: (error: unknown) => {
         this.starting.set(false);

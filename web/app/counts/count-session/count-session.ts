@@ -3,11 +3,9 @@ import {
   Component,
   DestroyRef,
   computed,
-  effect,
   inject,
   input,
   signal,
-  untracked,
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
@@ -15,16 +13,15 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
-import { Subject, catchError, concatMap, map, of } from 'rxjs';
-import type { CountDetail, CountScan, ScanOutcome } from '@shared/api/count';
+import { Subject, catchError, concatMap, firstValueFrom, map, of } from 'rxjs';
+import type { CountScan, ScanOutcome } from '@shared/api/count';
 import { errorMessage } from '../../core/parse';
-import { PageState } from '../../core/state/page-state';
+import { ResourceState } from '../../core/state/resource-state';
+import { createWrite } from '../../core/state/write';
 import { ConfirmDialog } from '../../core/confirm-dialog/confirm-dialog';
 import { dayText } from '../../instruments/instrument-labels';
 import { InventoryCounts } from '../count-data';
 import { CountReconciliation } from './count-reconciliation';
-
-type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready' };
 
 /** What one scan's outcome says to the person holding the scanner. */
 const outcomeWords: Record<ScanOutcome, { text: string; icon: string; tone: string }> = {
@@ -51,7 +48,7 @@ export function tagsIn(text: string): string[] {
     MatFormFieldModule,
     MatIconModule,
     MatInputModule,
-    PageState,
+    ResourceState,
     RouterLink,
   ],
   templateUrl: './count-session.html',
@@ -65,8 +62,9 @@ export class CountSession {
   /** The route's `:id`. */
   readonly id = input.required<string>();
 
-  protected readonly load = signal<Load>({ kind: 'loading' });
-  protected readonly count = signal<CountDetail | null>(null);
+  /** The count as read from the API, and as the last scan or the close left it. */
+  protected readonly record = this.counts.detail(() => Number(this.id()));
+  protected readonly count = computed(() => (this.record.hasValue() ? this.record.value() : null));
   protected readonly tagText = signal('');
   /** Tags typed and not yet answered by the server. */
   protected readonly pending = signal(0);
@@ -77,10 +75,12 @@ export class CountSession {
   protected readonly day = dayText;
   protected readonly open = computed(() => this.count()?.state === 'open');
 
+  private readonly closing = createWrite();
   private readonly queue = new Subject<string>();
   private refreshTimer: ReturnType<typeof setTimeout> | undefined;
 
   constructor() {
+    // The scans are a stream: sent one after the other, in the order the scanner typed them.
     const subscription = this.queue
       .pipe(
         concatMap((tag) =>
@@ -92,6 +92,7 @@ export class CountSession {
           ),
         ),
       )
+      // The scan stream: each tag waits for the one before it (concatMap).
       .subscribe(({ scan, failure }) => {
         this.pending.update((count) => count - 1);
         if (scan) {
@@ -100,15 +101,11 @@ export class CountSession {
           );
         } else this.failure.set(failure);
         clearTimeout(this.refreshTimer);
-        this.refreshTimer = setTimeout(() => this.fetch(Number(this.id())), 150);
+        this.refreshTimer = setTimeout(() => this.record.reload(), 150);
       });
     inject(DestroyRef).onDestroy(() => {
       subscription.unsubscribe();
       clearTimeout(this.refreshTimer);
-    });
-    effect(() => {
-      const id = Number(this.id());
-      untracked(() => this.fetch(id));
     });
   }
 
@@ -132,7 +129,7 @@ export class CountSession {
     this.submit();
   }
 
-  protected closeCount(): void {
+  protected async closeCount(): Promise<void> {
     const count = this.count();
     if (!count) return;
     const missing = count.reconciliation.notFound.length;
@@ -145,37 +142,23 @@ export class CountSession {
             `${missing} ${missing === 1 ? 'instrument' : 'instruments'} not found will be marked missing.`,
             'Anything marked missing earlier that was scanned in this count becomes available again. No more tags can be added once the count is closed.',
           ];
-    this.dialog
-      .open(ConfirmDialog, {
-        data: {
-          title: 'Close this count?',
-          paragraphs,
-          confirm: missing === 0 ? 'Close the count' : `Close and mark ${missing} missing`,
-          destructive: missing > 0,
-        },
-      })
-      .afterClosed()
-      .subscribe((confirmed?: boolean) => {
-        if (!confirmed) return;
-        this.counts.close(count.id, true).subscribe({
-          next: (closed) => this.count.set(closed),
-          error: (error: unknown) =>
-            this.failure.set(errorMessage(error, 'The count could not be closed.')),
-        });
-      });
-  }
-
-  private fetch(id: number): void {
-    this.counts.get(id).subscribe({
-      next: (count) => {
-        this.count.set(count);
-        this.load.set({ kind: 'ready' });
-      },
+    const confirmed = await firstValueFrom(
+      this.dialog
+        .open<ConfirmDialog, unknown, boolean>(ConfirmDialog, {
+          data: {
+            title: 'Close this count?',
+            paragraphs,
+            confirm: missing === 0 ? 'Close the count' : `Close and mark ${missing} missing`,
+            destructive: missing > 0,
+          },
+        })
+        .afterClosed(),
+    );
+    if (!confirmed) return;
+    this.closing.send(this.counts.close(count.id, true), {
+      next: (closed) => this.record.set(closed),
       error: (error: unknown) =>
-        this.load.set({
-          kind: 'error',
-          message: errorMessage(error, 'The count could not be loaded.'),
-        }),
+        this.failure.set(errorMessage(error, 'The count could not be closed.')),
     });
   }
 }

@@ -10,6 +10,7 @@ import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { dayText } from '../../instruments/instrument-labels';
 import { FleetLoans } from '../../loans/loan-data';
+import { createWrite } from '../../core/state/write';
 
 /**
  * The loan agreement text guardians sign (`/api/loans/agreement-text`). Every save is a new
@@ -29,6 +30,7 @@ import { FleetLoans } from '../../loans/loan-data';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class AgreementTextEditor {
+  private readonly write = createWrite();
   private readonly loans = inject(FleetLoans);
 
   protected readonly day = dayText;
@@ -37,7 +39,7 @@ export class AgreementTextEditor {
   protected readonly current = httpResource(() => '/api/loans/agreement-text', {
     parse: (body) => agreementTextSchema.parse(body),
   });
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly notice = signal('');
   protected readonly failure = signal('');
   protected readonly text = new FormControl('', {
@@ -57,15 +59,12 @@ export class AgreementTextEditor {
     this.notice.set('');
     this.failure.set('');
     if (this.text.invalid || this.saving()) return;
-    this.saving.set(true);
-    this.loans.saveAgreementText(this.text.value).subscribe({
+    this.write.send(this.loans.saveAgreementText(this.text.value), {
       next: (value) => {
-        this.saving.set(false);
         this.current.set(value);
         this.notice.set(`Saved as version ${value.version}. New agreements use it.`);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.failure.set(errorMessage(error, 'The agreement text could not be saved.'));
       },
     });

@@ -30,6 +30,7 @@ import { PageState } from '../../core/state/page-state';
 import { AgreementTextEditor } from '../agreement-text/agreement-text';
 import { DistrictData } from '../district-data';
 import { FeeScheduleEditor } from '../fee-schedule/fee-schedule';
+import { createWrite } from '../../core/state/write';
 
 /** The time zones offered first; any other IANA zone can be typed in the field below. */
 const commonTimeZones = [
@@ -65,12 +66,13 @@ const commonTimeZones = [
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class DistrictSettings {
+  private readonly write = createWrite();
   private readonly data = inject(DistrictData);
   private readonly currentDistrict = inject(CurrentDistrict);
 
   protected readonly district = rxResource({ stream: () => this.data.get() });
   protected readonly fieldMessage = fieldMessage;
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly saved = signal(false);
   protected readonly conflict = signal(false);
   protected readonly saveError = signal('');
@@ -171,18 +173,15 @@ export class DistrictSettings {
   }
 
   private send(request: Observable<District>, done: () => void, failed: (error: unknown) => void) {
-    this.saving.set(true);
     this.saved.set(false);
     this.saveError.set('');
-    request.subscribe({
+    this.write.send(request, {
       next: (district) => {
-        this.saving.set(false);
         this.district.set(district);
         this.currentDistrict.update(district);
         done();
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         failed(error);
       },
     });

@@ -7,6 +7,7 @@ import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { centsOf, money } from '../../instruments/instrument-labels';
 import { FeeLedger } from '../../fees/fee-data';
+import { createWrite } from '../../core/state/write';
 
 const families = ['brass', 'woodwind', 'strings', 'percussion'];
 
@@ -23,6 +24,7 @@ const families = ['brass', 'woodwind', 'strings', 'percussion'];
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class FeeScheduleEditor {
+  private readonly write = createWrite();
   private readonly fees = inject(FeeLedger);
   private readonly user = inject(CurrentUser);
 
@@ -48,7 +50,8 @@ export class FeeScheduleEditor {
     });
   }
 
-  protected addEntry(scope: 'family' | 'instrument', key: string, text: string): void {
+  protected addEntry(scopeText: string, key: string, text: string): void {
+    const scope = scopeText === 'instrument' ? 'instrument' : 'family';
     const cents = centsOf(text);
     if (!key.trim() || cents === null)
       return this.scheduleNotice.set('Name the family or instrument and its yearly fee.');
@@ -89,7 +92,7 @@ export class FeeScheduleEditor {
   protected saveSchedule(): void {
     if (!this.schedule.hasValue()) return;
     const { onlinePayments: _online, ...schedule } = this.schedule.value();
-    this.fees.saveSchedule(schedule).subscribe({
+    this.write.send(this.fees.saveSchedule(schedule), {
       next: (value) => {
         this.schedule.set(value);
         this.scheduleNotice.set('Fee schedule saved. New loans are charged from it.');

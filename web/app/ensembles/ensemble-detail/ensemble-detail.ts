@@ -30,6 +30,7 @@ import { ConflictNotice } from '../../core/record-page/conflict-notice';
 import { RecordPage } from '../../core/record-page/record-page';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { EnsembleData } from '../ensemble-data';
+import { createWrite } from '../../core/state/write';
 
 /** One ensemble: its details (directors and the coordinator edit them) and its members. */
 @Component({
@@ -51,6 +52,7 @@ import { EnsembleData } from '../ensemble-data';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class EnsembleDetail {
+  private readonly write = createWrite();
   private readonly ensembleData = inject(EnsembleData);
   private readonly router = inject(Router);
 
@@ -68,7 +70,7 @@ export class EnsembleDetail {
   protected readonly ensemble = computed(() =>
     this.record.hasValue() ? this.record.value() : null,
   );
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly saved = signal(false);
   protected readonly conflict = signal(false);
   protected readonly saveError = signal('');
@@ -101,15 +103,13 @@ export class EnsembleDetail {
     if (this.form.invalid || this.saving()) return;
     const { schoolId, ...fields } = this.form.getRawValue();
     const current = this.ensemble();
-    this.saving.set(true);
     this.saved.set(false);
     this.saveError.set('');
     const request = current
       ? this.ensembleData.update(current.id, { ...fields, version: current.version })
       : this.ensembleData.create(ensembleInputSchema.parse({ ...fields, schoolId }));
-    request.subscribe({
+    this.write.send(request, {
       next: (ensemble) => {
-        this.saving.set(false);
         if (!current) {
           void this.router.navigate(['/ensembles', ensemble.id]);
           return;
@@ -118,7 +118,6 @@ export class EnsembleDetail {
         this.reload();
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });

@@ -3,23 +3,14 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import type {
-  FeeDetail,
-  FeeList,
-  FeeRow,
-  FeeStatus,
-  FeeSummary,
-  Reconciliation,
-} from '@shared/api/fee';
+import type { FeeRow, FeeStatus, FeeSummary } from '@shared/api/fee';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
-import { PageState } from '../../core/state/page-state';
+import { ResourceState } from '../../core/state/resource-state';
+import { createWrite } from '../../core/state/write';
 import { centsOf, dayText, money } from '../../instruments/instrument-labels';
 import { FeeScheduleEditor } from '../../district/fee-schedule/fee-schedule';
 import { FeeLedger } from '../fee-data';
-
-type Load<Value> =
-  { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready'; value: Value };
 
 const statusWords: Record<FeeStatus, string> = {
   none: 'No fee',
@@ -31,7 +22,7 @@ const statusWords: Record<FeeStatus, string> = {
   mismatch: 'Check amount',
 };
 
-const ledgerWords: Record<string, string> = {
+const ledgerWords: Partial<Record<string, string>> = {
   payment: 'Paid online',
   'manual-payment': 'Paid by hand',
   refund: 'Refund',
@@ -50,7 +41,7 @@ const ledgerWords: Record<string, string> = {
     MatButtonModule,
     MatButtonToggleModule,
     MatIconModule,
-    PageState,
+    ResourceState,
     FeeScheduleEditor,
   ],
   templateUrl: './fees-page.html',
@@ -73,11 +64,12 @@ export class FeesPage {
   protected readonly view = signal<'loan' | FeeSummary['by']>('loan');
   protected readonly status = signal<FeeStatus | ''>('');
   protected readonly search = signal('');
-  protected readonly list = signal<Load<FeeList>>({ kind: 'loading' });
-  protected readonly summary = signal<Load<FeeSummary> | null>(null);
-  protected readonly selected = signal<Load<FeeDetail> | null>(null);
+  /** The loan whose ledger is open, if any. */
+  protected readonly selectedLoan = signal<number | undefined>(undefined);
   protected readonly notice = signal('');
-  protected readonly reconciliation = signal<Load<Reconciliation> | null>(null);
+  /** Whether the reconciliation has been asked for. */
+  private readonly reconciling = signal(false);
+  private readonly write = createWrite();
 
   protected readonly query = computed(() => {
     const query: Record<string, string | number> = { limit: 500 };
@@ -86,37 +78,21 @@ export class FeesPage {
     return query;
   });
 
-  constructor() {
-    this.load();
-  }
-
-  protected load(): void {
-    this.list.set({ kind: 'loading' });
-    this.fees.list(this.query()).subscribe({
-      next: (value) => this.list.set({ kind: 'ready', value }),
-      error: (error: unknown) => this.list.set({ kind: 'error', message: errorMessage(error) }),
-    });
+  protected readonly list = this.fees.list(this.query);
+  protected readonly summary = this.fees.summary(() => {
     const view = this.view();
-    if (view === 'loan') {
-      this.summary.set(null);
-    } else {
-      this.summary.set({ kind: 'loading' });
-      this.fees.summary(view, this.query()).subscribe({
-        next: (value) => this.summary.set({ kind: 'ready', value }),
-        error: (error: unknown) =>
-          this.summary.set({ kind: 'error', message: errorMessage(error) }),
-      });
-    }
-  }
+    return view === 'loan' ? undefined : view;
+  }, this.query);
+  protected readonly selected = this.fees.detail(this.selectedLoan);
+  protected readonly reconciliation = this.fees.reconciliation(this.reconciling);
+  protected readonly errorMessage = errorMessage;
 
   protected setView(view: 'loan' | FeeSummary['by']): void {
     this.view.set(view);
-    this.load();
   }
 
   protected setStatus(value: string): void {
     this.status.set(value as FeeStatus | '');
-    this.load();
   }
 
   protected exportUrl(format: 'csv' | 'xlsx'): string {
@@ -127,26 +103,23 @@ export class FeesPage {
   protected open(row: FeeRow): void {
     this.notice.set('');
     if (!this.seesLedger) return;
-    this.selected.set({ kind: 'loading' });
-    this.fees.detail(row.loanId).subscribe({
-      next: (value) => this.selected.set({ kind: 'ready', value }),
-      error: (error: unknown) => this.selected.set({ kind: 'error', message: errorMessage(error) }),
-    });
+    if (this.selectedLoan() === row.loanId) this.selected.reload();
+    else this.selectedLoan.set(row.loanId);
   }
 
-  private afterChange(loanId: number, message: string): void {
+  private afterChange(message: string): void {
     this.notice.set(message);
-    this.fees.detail(loanId).subscribe((value) => this.selected.set({ kind: 'ready', value }));
-    this.load();
+    this.selected.reload();
+    this.list.reload();
+    this.summary.reload();
   }
 
   protected refund(loanId: number, amountText: string, reason: string): void {
     const amountCents = amountText.trim() ? centsOf(amountText) : undefined;
     if (amountCents === null)
       return this.notice.set('Type the amount in dollars, or leave it empty for all of it.');
-    this.fees.refund(loanId, { amountCents: amountCents ?? undefined, reason }).subscribe({
-      next: (row) =>
-        this.afterChange(loanId, `Refunded: ${money(row.refundedCents)} in all on this loan.`),
+    this.write.send(this.fees.refund(loanId, { amountCents: amountCents ?? undefined, reason }), {
+      next: (row) => this.afterChange(`Refunded: ${money(row.refundedCents)} in all on this loan.`),
       error: (error: unknown) => this.notice.set(errorMessage(error)),
     });
   }
@@ -154,14 +127,14 @@ export class FeesPage {
   protected recordPayment(loanId: number, amountText: string, note: string): void {
     const amountCents = centsOf(amountText);
     if (!amountCents) return this.notice.set('Type the amount received in dollars.');
-    this.fees.recordPayment(loanId, amountCents, note).subscribe({
-      next: () => this.afterChange(loanId, 'Payment recorded.'),
+    this.write.send(this.fees.recordPayment(loanId, amountCents, note), {
+      next: () => this.afterChange('Payment recorded.'),
       error: (error: unknown) => this.notice.set(errorMessage(error)),
     });
   }
 
   protected remind(loanId: number): void {
-    this.fees.remind(loanId).subscribe({
+    this.write.send(this.fees.remind(loanId), {
       next: (result) =>
         this.notice.set(
           result.queued ? 'Reminder queued for the guardian.' : 'No guardian e-mail on the roster.',
@@ -171,11 +144,7 @@ export class FeesPage {
   }
 
   protected reconcile(): void {
-    this.reconciliation.set({ kind: 'loading' });
-    this.fees.reconciliation().subscribe({
-      next: (value) => this.reconciliation.set({ kind: 'ready', value }),
-      error: (error: unknown) =>
-        this.reconciliation.set({ kind: 'error', message: errorMessage(error) }),
-    });
+    if (this.reconciling()) this.reconciliation.reload();
+    else this.reconciling.set(true);
   }
 }

@@ -4,7 +4,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { MatIconModule } from '@angular/material/icon';
-import { catchError, map, of, startWith, switchMap } from 'rxjs';
+import { catchError, firstValueFrom, map, of, startWith, switchMap } from 'rxjs';
 import { importUndoDays, type ImportHistoryEntry, type ImportUndoResult } from '@shared/api/import';
 import { PageState } from '../../core/state/page-state';
 import { RosterImports } from '../roster-imports';
@@ -224,23 +224,23 @@ export class ImportHistory {
     return age < importUndoDays * 24 * 60 * 60 * 1000;
   }
 
-  protected undo(entry: ImportHistoryEntry): void {
+  protected async undo(entry: ImportHistoryEntry): Promise<void> {
     this.undoneMessage.set('');
-    this.dialog
-      .open<UndoDialog, ImportHistoryEntry, ImportUndoResult>(UndoDialog, {
-        data: entry,
-        width: '560px',
-        maxWidth: '95vw',
-      })
-      .afterClosed()
-      .subscribe((result) => {
-        if (!result) return;
-        const count = (value: number, one: string, many: string) =>
-          `${value.toLocaleString('en-US')} ${value === 1 ? one : many}`;
-        this.undoneMessage.set(
-          `The import of “${result.fileName}” was undone: ${count(result.studentsRemoved, 'student', 'students')} removed, ${count(result.studentsRestored, 'student', 'students')} set back, ${count(result.withdrawalsReversed, 'withdrawal', 'withdrawals')} reversed, ${count(result.seatsRestored, 'seat', 'seats')} put back.`,
-        );
-        this.undone.update((value) => value + 1);
-      });
+    const result = await firstValueFrom(
+      this.dialog
+        .open<UndoDialog, ImportHistoryEntry, ImportUndoResult>(UndoDialog, {
+          data: entry,
+          width: '560px',
+          maxWidth: '95vw',
+        })
+        .afterClosed(),
+    );
+    if (!result) return;
+    const count = (value: number, one: string, many: string) =>
+      `${value.toLocaleString('en-US')} ${value === 1 ? one : many}`;
+    this.undoneMessage.set(
+      `The import of “${result.fileName}” was undone: ${count(result.studentsRemoved, 'student', 'students')} removed, ${count(result.studentsRestored, 'student', 'students')} set back, ${count(result.withdrawalsReversed, 'withdrawal', 'withdrawals')} reversed, ${count(result.seatsRestored, 'seat', 'seats')} put back.`,
+    );
+    this.undone.update((value) => value + 1);
   }
 }

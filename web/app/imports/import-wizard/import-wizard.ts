@@ -25,6 +25,7 @@ import { PreviewGrid } from '../preview-grid/preview-grid';
 import { RosterImports, type PreviewRequest } from '../roster-imports';
 import { UploadDrop } from '../upload-drop/upload-drop';
 import { commitActivity, importDoneSentence } from './import-words';
+import { createWrite } from '../../core/state/write';
 
 const errorsShown = 200;
 
@@ -56,6 +57,7 @@ const errorsShown = 200;
   ],
 })
 export class ImportWizard {
+  private readonly write = createWrite();
   private readonly imports = inject(RosterImports);
   private readonly stepper = viewChild.required(MatStepper);
 
@@ -174,26 +176,25 @@ export class ImportWizard {
     if (!preview || !this.canCommit()) return;
     this.busy.set(true);
     this.problem.set('');
-    this.imports
-      .commit({
-        importToken: preview.importToken,
-        mapping: preview.mapping,
-        withdrawMissing: this.withdrawMissing(),
-        skipInvalid: this.skipInvalid(),
-      })
-      .subscribe({
-        next: (result) => {
-          this.busy.set(false);
-          this.result.set(result);
-          this.committed.emit(result);
-        },
-        error: (error: unknown) => {
-          this.busy.set(false);
-          this.problem.set(
-            errorMessage(error, 'The import could not be committed. Nothing was changed.'),
-          );
-        },
-      });
+    const request = this.imports.commit({
+      importToken: preview.importToken,
+      mapping: preview.mapping,
+      withdrawMissing: this.withdrawMissing(),
+      skipInvalid: this.skipInvalid(),
+    });
+    this.write.send(request, {
+      next: (result) => {
+        this.busy.set(false);
+        this.result.set(result);
+        this.committed.emit(result);
+      },
+      error: (error: unknown) => {
+        this.busy.set(false);
+        this.problem.set(
+          errorMessage(error, 'The import could not be committed. Nothing was changed.'),
+        );
+      },
+    });
   }
 
   protected startOver() {
@@ -229,7 +230,7 @@ export class ImportWizard {
     this.busy.set(true);
     this.problem.set('');
     this.progress.set(request.file ? 0 : 1);
-    this.imports.preview(request).subscribe({
+    this.write.send(this.imports.preview(request), {
       next: (event) => {
         if (event.kind === 'progress') {
           this.progress.set(Math.min(event.share, 1));

@@ -25,6 +25,7 @@ import {
 } from '@shared/roster/roster-columns';
 import { errorMessage } from '../../core/parse';
 import { RosterImports } from '../roster-imports';
+import { createWrite } from '../../core/state/write';
 
 /** Which of the file's columns feeds each roster field, with saved mappings to load and save. */
 @Component({
@@ -35,6 +36,7 @@ import { RosterImports } from '../roster-imports';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class MappingForm {
+  private readonly write = createWrite();
   private readonly imports = inject(RosterImports);
 
   readonly headers = input.required<string[]>();
@@ -100,7 +102,7 @@ export class MappingForm {
   protected savePreset() {
     const name = this.presetName().trim();
     if (!name) return;
-    this.imports.savePreset(name, this.mapping()).subscribe({
+    this.write.send(this.imports.savePreset(name, this.mapping()), {
       next: () => {
         this.presetMessage.set(`Saved as “${name}”.`);
         this.reloadPresets.next();

@@ -20,6 +20,7 @@ import { schoolLevels, schoolSchema, type School } from '@shared/api/school';
 import { errorMessage } from '../../core/parse';
 import { SchoolData } from '../../schools/school-data';
 import { RosterImports } from '../roster-imports';
+import { createWrite } from '../../core/state/write';
 
 /** An org of a OneRoster bundle that matched none of the district's schools. */
 export type UnmappedOrg = NonNullable<ImportPreview['oneRoster']>['unmappedOrgs'][number];
@@ -39,6 +40,7 @@ const schoolListSchema = listResponseSchema(schoolSchema);
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class OrgMapping {
+  private readonly write = createWrite();
   private readonly imports = inject(RosterImports);
   private readonly schoolData = inject(SchoolData);
 
@@ -89,29 +91,28 @@ export class OrgMapping {
   protected createSchool(org: UnmappedOrg) {
     this.busy.set(true);
     this.problem.set('');
-    this.schoolData
-      .create({
-        code: this.newCode(),
-        name: this.newName(),
-        level: this.newLevel(),
-        address: '',
-        lowestGrade: null,
-        highestGrade: null,
-        sendsToSchoolId: null,
-        closedOn: null,
-      })
-      .subscribe({
-        next: (school) => {
-          this.busy.set(false);
-          this.creating.set(null);
-          this.schools.reload();
-          this.choose(org.sourcedId, school.id);
-        },
-        error: (error: unknown) => {
-          this.busy.set(false);
-          this.problem.set(errorMessage(error, 'The school could not be created. Try again.'));
-        },
-      });
+    const request = this.schoolData.create({
+      code: this.newCode(),
+      name: this.newName(),
+      level: this.newLevel(),
+      address: '',
+      lowestGrade: null,
+      highestGrade: null,
+      sendsToSchoolId: null,
+      closedOn: null,
+    });
+    this.write.send(request, {
+      next: (school) => {
+        this.busy.set(false);
+        this.creating.set(null);
+        this.schools.reload();
+        this.choose(org.sourcedId, school.id);
+      },
+      error: (error: unknown) => {
+        this.busy.set(false);
+        this.problem.set(errorMessage(error, 'The school could not be created. Try again.'));
+      },
+    });
   }
 
   protected save() {
@@ -119,7 +120,7 @@ export class OrgMapping {
     const choices = this.choices();
     this.busy.set(true);
     this.problem.set('');
-    forkJoin(
+    const request = forkJoin(
       this.orgs().map((org) =>
         this.imports.chooseOrgSchool({
           sourcedId: org.sourcedId,
@@ -127,7 +128,8 @@ export class OrgMapping {
           schoolId: choices[org.sourcedId]!,
         }),
       ),
-    ).subscribe({
+    );
+    this.write.send(request, {
       next: () => {
         this.busy.set(false);
         this.saved.emit();

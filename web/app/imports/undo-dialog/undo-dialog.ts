@@ -11,6 +11,7 @@ import {
 import { WhenPipe } from '../../core/format/formats';
 import { errorMessage } from '../../core/parse';
 import { RosterImports } from '../roster-imports';
+import { createWrite } from '../../core/state/write';
 
 /**
  * Shows what undoing an import will do (students removed, fields and withdrawals restored, seats
@@ -25,6 +26,7 @@ import { RosterImports } from '../roster-imports';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class UndoDialog {
+  private readonly write = createWrite();
   private readonly imports = inject(RosterImports);
   private readonly dialogRef = inject<MatDialogRef<UndoDialog, ImportUndoResult>>(MatDialogRef);
   protected readonly entry = inject<ImportHistoryEntry>(MAT_DIALOG_DATA);
@@ -43,7 +45,7 @@ export class UndoDialog {
     if (!this.preview.value()?.canUndo || this.busy()) return;
     this.busy.set(true);
     this.problem.set('');
-    this.imports.undo(this.entry.id).subscribe({
+    this.write.send(this.imports.undo(this.entry.id), {
       next: (result) => this.dialogRef.close(result),
       error: (error: unknown) => {
         this.busy.set(false);

@@ -6,6 +6,7 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { fleetCsvColumns, type FleetImportResult } from '@shared/api/instrument';
 import { errorMessage } from '../../core/parse';
 import { FleetInstruments } from '../instrument-data';
+import { createWrite } from '../../core/state/write';
 
 /**
  * Imports a fleet CSV in two steps: a dry run that lists every error by line and column, then a
@@ -19,6 +20,7 @@ import { FleetInstruments } from '../instrument-data';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class FleetImportDialog {
+  private readonly write = createWrite();
   private readonly fleet = inject(FleetInstruments);
   protected readonly dialog = inject<MatDialogRef<FleetImportDialog, boolean>>(MatDialogRef);
 
@@ -46,7 +48,7 @@ export class FleetImportDialog {
   private run(file: File, dryRun: boolean): void {
     this.busy.set(true);
     this.failure.set('');
-    this.fleet.importCsv(file, dryRun).subscribe({
+    this.write.send(this.fleet.importCsv(file, dryRun), {
       next: (result) => {
         this.busy.set(false);
         if (dryRun) this.preview.set(result);

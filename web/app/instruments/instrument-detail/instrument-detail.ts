@@ -5,6 +5,8 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
+import type { Loan } from '@shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { RecordPage } from '../../core/record-page/record-page';
@@ -25,6 +27,7 @@ import {
 } from '../instrument-labels';
 import { InstrumentPhotos } from '../instrument-photos/instrument-photos';
 import { InstrumentTimeline } from '../instrument-timeline/instrument-timeline';
+import { createWrite } from '../../core/state/write';
 
 /** One instrument: its record, cautions, current loan, open repairs, photos and timeline. */
 @Component({
@@ -45,6 +48,7 @@ import { InstrumentTimeline } from '../instrument-timeline/instrument-timeline';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class InstrumentDetail {
+  private readonly write = createWrite();
   private readonly fleet = inject(FleetInstruments);
 
   /** The route's `:id`. */
@@ -89,48 +93,54 @@ export class InstrumentDetail {
   protected readonly cleanedNote = signal(false);
 
   /** Lends the instrument: the loans' own checkout, with this instrument chosen. */
-  protected lend(): void {
+  protected async lend(): Promise<void> {
     const instrument = this.instrument();
     if (!instrument) return;
-    this.dialog
-      .open(CheckoutDialog, {
-        data: { instrument },
-        width: '720px',
-        maxWidth: '94vw',
-        maxHeight: '92vh',
-      })
-      .afterClosed()
-      .subscribe(() => this.reload());
+    await firstValueFrom(
+      this.dialog
+        .open(CheckoutDialog, {
+          data: { instrument },
+          width: '720px',
+          maxWidth: '94vw',
+          maxHeight: '92vh',
+        })
+        .afterClosed(),
+    );
+    this.reload();
   }
 
   /** Takes the instrument back: the loans' own return, for its loan. */
-  protected returnIt(): void {
+  protected async returnIt(): Promise<void> {
     const loanId = this.instrument()?.activeLoan?.id;
     if (loanId === undefined) return;
     this.actionError.set('');
-    this.loans.get(loanId).subscribe({
-      next: (loan) =>
-        this.dialog
-          .open(ReturnDialog, { data: { loan }, width: '560px' })
-          .afterClosed()
-          .subscribe(() => this.reload()),
-      error: (error: unknown) =>
-        this.actionError.set(errorMessage(error, 'The loan could not be opened.')),
-    });
+    let loan: Loan;
+    try {
+      loan = await firstValueFrom(this.loans.get(loanId));
+    } catch (error: unknown) {
+      this.actionError.set(errorMessage(error, 'The loan could not be opened.'));
+      return;
+    }
+    await firstValueFrom(
+      this.dialog.open(ReturnDialog, { data: { loan }, width: '560px' }).afterClosed(),
+    );
+    this.reload();
   }
 
   /** Opens a repair ticket for the instrument. */
-  protected startRepair(): void {
+  protected async startRepair(): Promise<void> {
     const instrument = this.instrument();
     if (!instrument) return;
-    this.dialog
-      .open(RepairDialog, {
-        data: { repair: null, editable: true, instrument },
-        width: '640px',
-        maxHeight: '92vh',
-      })
-      .afterClosed()
-      .subscribe(() => this.reload());
+    await firstValueFrom(
+      this.dialog
+        .open(RepairDialog, {
+          data: { repair: null, editable: true, instrument },
+          width: '640px',
+          maxHeight: '92vh',
+        })
+        .afterClosed(),
+    );
+    this.reload();
   }
 
   /** Brings the record form, where the status is set, into view and focus. */
@@ -150,7 +160,7 @@ export class InstrumentDetail {
     if (!instrument || this.cleaning()) return;
     this.cleaning.set(true);
     this.cleanError.set('');
-    this.fleet.markCleaned(instrument.id).subscribe({
+    this.write.send(this.fleet.markCleaned(instrument.id), {
       next: () => {
         this.cleaning.set(false);
         this.cleanedNote.set(true);

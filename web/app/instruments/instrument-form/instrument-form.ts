@@ -30,6 +30,7 @@ import { chooseOnlySchool } from '../../core/forms/only-school';
 import { FleetInstruments } from '../instrument-data';
 import { centsOf, conditionLabels, familyLabels, statusLooks } from '../instrument-labels';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
+import { createWrite } from '../../core/state/write';
 
 const fields = instrumentInputSchema.shape;
 type ManualStatus = (typeof manualInstrumentStatuses)[number];
@@ -59,6 +60,7 @@ function costValidator(control: AbstractControl) {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class InstrumentForm {
+  private readonly write = createWrite();
   private readonly fleet = inject(FleetInstruments);
 
   /** The instrument being edited; null to add one. */
@@ -86,7 +88,7 @@ export class InstrumentForm {
     const status = this.instrument()?.status;
     return status !== undefined && (manualInstrumentStatuses as readonly string[]).includes(status);
   });
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly savedNote = signal(false);
   protected readonly conflict = signal(false);
   protected readonly saveError = signal('');
@@ -154,7 +156,6 @@ export class InstrumentForm {
       purchaseCostCents: centsOf(purchaseCost),
     };
     const instrument = this.instrument();
-    this.saving.set(true);
     this.savedNote.set(false);
     this.saveError.set('');
     const request = instrument
@@ -164,14 +165,12 @@ export class InstrumentForm {
           version: instrument.version,
         })
       : this.fleet.create(instrumentInputSchema.parse(record));
-    request.subscribe({
+    this.write.send(request, {
       next: (saved) => {
-        this.saving.set(false);
         this.savedNote.set(true);
         this.saved.emit(saved);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         // Only an edit can be stale; a 409 while adding says why in the message.
         this.saveError.set(
           saveFailureMessage(this.form, error, instrument ? this.conflict : undefined),

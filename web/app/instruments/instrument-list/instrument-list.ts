@@ -11,6 +11,7 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatMenuModule } from '@angular/material/menu';
 import { Router } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
 import type { ColDef } from 'ag-grid-community';
 import {
   instrumentConditions,
@@ -174,25 +175,23 @@ export class InstrumentList {
     return this.instruments.labelsUrl(schoolId);
   }
 
-  protected addInstrument(): void {
-    this.dialog
-      .open(InstrumentFormDialog, {
-        data: { schools: this.schools() },
-        width: '640px',
-        ariaLabelledBy: 'instrument-form-title',
-      })
-      .afterClosed()
-      .subscribe((saved?: Instrument) => {
-        if (saved) void this.router.navigate(['/instruments', saved.id]);
-      });
+  protected async addInstrument(): Promise<void> {
+    const saved: Instrument | undefined = await firstValueFrom(
+      this.dialog
+        .open(InstrumentFormDialog, {
+          data: { schools: this.schools() },
+          width: '640px',
+          ariaLabelledBy: 'instrument-form-title',
+        })
+        .afterClosed(),
+    );
+    if (saved) void this.router.navigate(['/instruments', saved.id]);
   }
 
-  protected importFleet(): void {
-    this.dialog
-      .open(FleetImportDialog, { width: '720px' })
-      .afterClosed()
-      .subscribe((committed?: boolean) => {
-        if (committed) this.grid()?.refresh();
-      });
+  protected async importFleet(): Promise<void> {
+    const committed: boolean | undefined = await firstValueFrom(
+      this.dialog.open(FleetImportDialog, { width: '720px' }).afterClosed(),
+    );
+    if (committed) this.grid()?.refresh();
   }
 }

@@ -1,4 +1,13 @@
-import { ChangeDetectionStrategy, Component, inject, input, output, signal } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  input,
+  output,
+  signal,
+} from '@angular/core';
+import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -10,6 +19,7 @@ import {
   type InstrumentView,
   type InstrumentViewFilters,
 } from '../instrument-views';
+import { createWrite } from '../../core/state/write';
 
 /** Saved views of the fleet: pick one to apply its filters, or save the current filters by name. */
 @Component({
@@ -47,7 +57,8 @@ import {
             matInput
             maxlength="40"
             [value]="name()"
-            (input)="name.set($any($event.target).value)"
+            #nameBox
+            (input)="name.set(nameBox.value)"
             data-testid="view-name"
           />
         </mat-form-field>
@@ -88,6 +99,7 @@ import {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class InstrumentViewBar {
+  private readonly write = createWrite();
   private readonly store = inject(InstrumentViews);
 
   /** The filters on screen now, which "save" keeps. */
@@ -97,16 +109,16 @@ export class InstrumentViewBar {
   /** A saved view was picked: apply its filters. */
   readonly applied = output<InstrumentViewFilters>();
 
-  protected readonly views = signal<InstrumentView[]>([]);
+  // The saved views are several reads chained (the index, then each view): an rxResource.
+  private readonly saved = rxResource({ stream: () => this.store.list(), defaultValue: [] });
+  protected readonly views = computed<InstrumentView[]>(() =>
+    this.saved.hasValue() ? this.saved.value() : [],
+  );
   protected readonly chosen = signal<string | null>(null);
   protected readonly naming = signal(false);
   protected readonly name = signal('');
   protected readonly busy = signal(false);
   protected readonly failure = signal('');
-
-  constructor() {
-    this.store.list().subscribe({ next: (views) => this.views.set(views), error: () => undefined });
-  }
 
   protected choose(name: string | null): void {
     this.chosen.set(name);
@@ -119,10 +131,10 @@ export class InstrumentViewBar {
     if (!name) return;
     this.busy.set(true);
     this.failure.set('');
-    this.store.save({ name, filters: this.filters() }).subscribe({
+    this.write.send(this.store.save({ name, filters: this.filters() }), {
       next: (views) => {
         this.busy.set(false);
-        this.views.set(views);
+        this.saved.set(views);
         this.chosen.set(name);
         this.naming.set(false);
         this.name.set('');
@@ -135,9 +147,9 @@ export class InstrumentViewBar {
   }
 
   protected remove(name: string): void {
-    this.store.remove(name).subscribe({
+    this.write.send(this.store.remove(name), {
       next: (views) => {
-        this.views.set(views);
+        this.saved.set(views);
         this.chosen.set(null);
       },
       error: (error: unknown) =>

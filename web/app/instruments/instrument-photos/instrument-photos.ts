@@ -5,6 +5,7 @@ import type { InstrumentPhoto } from '@shared/api/instrument';
 import { errorMessage } from '../../core/parse';
 import { FleetInstruments } from '../instrument-data';
 import { dayText } from '../instrument-labels';
+import { createWrite } from '../../core/state/write';
 
 /** The largest photo the server takes, in bytes (it checks again, and checks the content). */
 const largestPhoto = 5 * 1024 * 1024;
@@ -110,6 +111,7 @@ const photoTypes = ['image/jpeg', 'image/png', 'image/webp'];
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class InstrumentPhotos {
+  private readonly write = createWrite();
   private readonly fleet = inject(FleetInstruments);
 
   readonly instrumentId = input.required<number>();
@@ -132,7 +134,7 @@ export class InstrumentPhotos {
       return this.report('Choose a JPEG, PNG or WebP image.', true);
     if (file.size > largestPhoto) return this.report('That photo is larger than 5 MB.', true);
     this.report('Uploading…', false);
-    this.fleet.addPhoto(this.instrumentId(), file).subscribe({
+    this.write.send(this.fleet.addPhoto(this.instrumentId(), file), {
       next: (photo) => {
         this.report('Photo added.', false);
         this.added.emit(photo);

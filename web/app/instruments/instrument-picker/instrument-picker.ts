@@ -30,7 +30,8 @@ import { statusLooks } from '../instrument-labels';
         type="search"
         [matAutocomplete]="choices"
         [value]="text()"
-        (input)="typed($any($event.target).value)"
+        #searchBox
+        (input)="typed(searchBox.value)"
         placeholder="Type an asset tag"
         autocomplete="off"
         data-testid="instrument-picker"
@@ -113,6 +114,7 @@ export class InstrumentPicker {
           );
         }),
       )
+      // Typed text is a stream: debounced, and each new search cancels the last (switchMap).
       .subscribe((rows) => {
         this.found.set(rows);
         this.searched.set(true);

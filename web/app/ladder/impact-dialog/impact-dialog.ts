@@ -10,6 +10,7 @@ import { draftNameMark, type Ladder, type LadderImpactGroup } from '@shared/api/
 import { errorMessage } from '../../core/parse';
 import { gradeText } from '../date-text';
 import { LadderData } from '../ladder-data';
+import { createWrite } from '../../core/state/write';
 
 /** What the impact dialog puts in force. */
 export interface ImpactDialogData {
@@ -41,6 +42,7 @@ type Move = 'up' | 'down' | 'same';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ImpactDialog {
+  private readonly write = createWrite();
   private readonly ladderData = inject(LadderData);
   private readonly dialogRef = inject<MatDialogRef<ImpactDialog, Ladder>>(MatDialogRef);
   protected readonly data = inject<ImpactDialogData>(MAT_DIALOG_DATA);
@@ -107,7 +109,7 @@ export class ImpactDialog {
       this.data.mode === 'publish'
         ? this.ladderData.publish(this.data.versionId, this.name().trim(), impact.token)
         : this.ladderData.restore(this.data.versionId, impact.token);
-    request.subscribe({
+    this.write.send(request, {
       next: (ladder) => this.dialogRef.close(ladder),
       error: (error: unknown) => {
         this.busy.set(false);

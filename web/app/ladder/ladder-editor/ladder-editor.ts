@@ -6,6 +6,7 @@ import {
   inject,
   input,
   signal,
+  untracked,
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
@@ -19,6 +20,7 @@ import type { Ladder, LadderRequirement, LadderRung } from '@shared/api/ladder';
 import { isConflict } from '../../core/forms/record-form';
 import { errorMessage, fieldErrorsOf } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
+import { createWrite } from '../../core/state/write';
 import { BenchmarkEditor } from '../benchmark-editor/benchmark-editor';
 import { ConfirmDialog, type ConfirmDialogData } from '../../core/confirm-dialog/confirm-dialog';
 import { ImpactDialog, type ImpactDialogData } from '../impact-dialog/impact-dialog';
@@ -38,8 +40,6 @@ import {
   type BenchmarkGrid,
   type DraftModel,
 } from './draft-model';
-
-type Load = { kind: 'loading' } | { kind: 'error'; message: string } | { kind: 'ready' };
 
 /**
  * The coordinator's editor for a draft ladder version: rungs (added, removed, reordered,
@@ -70,9 +70,22 @@ export class LadderEditor {
   /** The route's `:id`: the draft's version id. */
   readonly id = input.required<string>();
 
-  protected readonly load = signal<Load>({ kind: 'loading' });
+  /** The version as read from the API; the editor works on `draft` and `model`. */
+  private readonly version = this.ladderData.version(() => Number(this.id()));
+  private readonly inForce = this.ladderData.inForce();
+  /** Why the draft cannot be edited (it failed to load, or is published), or ''. */
+  protected readonly failure = computed(() => {
+    const error = this.version.error();
+    if (error) return errorMessage(error, 'The draft could not be loaded.');
+    return this.version.hasValue() && this.version.value().status !== 'draft'
+      ? 'This version is published; published versions do not change. Start a new draft from the ladder page.'
+      : '';
+  });
   protected readonly draft = signal<Ladder | null>(null);
-  protected readonly activeName = signal<string | null>(null);
+  protected readonly activeName = computed(() =>
+    this.inForce.hasValue() ? this.inForce.value().name : null,
+  );
+  private readonly deleteWrite = createWrite();
   protected readonly model = signal<DraftModel | null>(null);
   protected readonly dirty = signal(false);
   protected readonly busy = signal<'saving' | 'publishing' | 'deleting' | null>(null);
@@ -90,35 +103,16 @@ export class LadderEditor {
   );
 
   constructor() {
-    effect(() => this.fetch(Number(this.id())));
-    this.ladderData.active().subscribe({
-      next: (ladder) => this.activeName.set(ladder.name),
-      error: () => this.activeName.set(null),
+    effect(() => {
+      if (!this.version.hasValue()) return;
+      const ladder = this.version.value();
+      if (ladder.status === 'draft') untracked(() => this.show(ladder));
     });
   }
 
-  protected fetch(id = Number(this.id())): void {
-    this.load.set({ kind: 'loading' });
+  protected fetch(): void {
     this.conflict.set(false);
-    this.ladderData.version(id).subscribe({
-      next: (ladder) => {
-        if (ladder.status !== 'draft') {
-          this.load.set({
-            kind: 'error',
-            message:
-              'This version is published; published versions do not change. Start a new draft from the ladder page.',
-          });
-          return;
-        }
-        this.show(ladder);
-        this.load.set({ kind: 'ready' });
-      },
-      error: (error: unknown) =>
-        this.load.set({
-          kind: 'error',
-          message: errorMessage(error, 'The draft could not be loaded.'),
-        }),
-    });
+    this.version.reload();
   }
 
   protected setName(event: Event): void {
@@ -249,7 +243,7 @@ export class LadderEditor {
     });
     if (!confirmed) return;
     this.busy.set('deleting');
-    this.ladderData.deleteDraft(draft.id).subscribe({
+    this.deleteWrite.send(this.ladderData.deleteDraft(draft.id), {
       next: () => void this.router.navigate(['/ladder']),
       error: (error: unknown) => {
         this.busy.set(null);

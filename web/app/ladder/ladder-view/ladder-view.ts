@@ -1,4 +1,12 @@
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { HttpErrorResponse } from '@angular/common/http';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  computed,
+  inject,
+  linkedSignal,
+  signal,
+} from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatIconModule } from '@angular/material/icon';
@@ -7,12 +15,12 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { firstValueFrom } from 'rxjs';
 import { Router, RouterLink } from '@angular/router';
 import type { Ladder, LadderRequirement, LadderVersionSummary } from '@shared/api/ladder';
-import type { StudentProgress } from '@shared/api/analytics';
 import { instrumentById } from '@shared/music';
 import { reachWarnings } from '../reach-warnings';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
+import { createWrite } from '../../core/state/write';
 import { StudentProgressData } from '../../students/student-progress/student-progress-data';
 import { benchmarkTable } from '../benchmark-table';
 import { dateText, gradeText } from '../date-text';
@@ -29,9 +37,6 @@ import {
   rungTitleText,
   tempoText,
 } from '../requirement-text';
-
-type Load =
-  { kind: 'loading' } | { kind: 'error'; message: string; missing: boolean } | { kind: 'ready' };
 
 /** The instrument staff see practice-sheet links for until they pick another. */
 const defaultInstrument = 'clarinet';
@@ -66,15 +71,46 @@ export class LadderView {
   protected readonly canEdit = this.currentUser.can('ladder:write');
   protected readonly isStudent = this.currentUser.me()?.role === 'student';
   protected readonly studentId = this.currentUser.me()?.studentId ?? null;
-  protected readonly load = signal<Load>({ kind: 'loading' });
-  protected readonly ladder = signal<Ladder | null>(null);
-  protected readonly progress = signal<StudentProgress | null>(null);
-  protected readonly drafts = signal<LadderVersionSummary[]>([]);
-  protected readonly instrumentId = signal(defaultInstrument);
-  protected readonly onlyMine = signal(true);
-  protected readonly startingDraft = signal(false);
+  /** The ladder in force, as read from the API. */
+  protected readonly inForce = this.ladderData.inForce();
+  protected readonly ladder = computed(() =>
+    this.inForce.hasValue() ? this.inForce.value() : null,
+  );
+  /** Whether no ladder is in force yet (the API answers 404). */
+  protected readonly missing = computed(() => {
+    const error = this.inForce.error();
+    return error instanceof HttpErrorResponse && error.status === 404;
+  });
+  protected readonly errorMessage = errorMessage;
+  private readonly progressRef = this.progressData.progress(() =>
+    this.isStudent && this.studentId ? this.studentId : undefined,
+  );
+  protected readonly progress = computed(() =>
+    this.progressRef.hasValue() ? this.progressRef.value() : null,
+  );
+  private readonly versions = this.ladderData.versionList(() => this.canEdit);
+  protected readonly drafts = computed(() =>
+    this.versions.hasValue()
+      ? this.versions.value().filter((version) => version.status === 'draft')
+      : [],
+  );
   /** The version in force before this one, which a roll-back puts back. */
-  protected readonly previous = signal<LadderVersionSummary | null>(null);
+  protected readonly previous = computed<LadderVersionSummary | null>(() => {
+    if (!this.versions.hasValue()) return null;
+    return (
+      this.versions
+        .value()
+        .filter((version) => version.status === 'archived' && version.publishedAt)
+        .sort((first, second) => second.publishedAt!.localeCompare(first.publishedAt!))[0] ?? null
+    );
+  });
+  /** The student's own instrument once their progress is read, until they pick another. */
+  protected readonly instrumentId = linkedSignal(
+    () => this.progress()?.instrumentId ?? defaultInstrument,
+  );
+  protected readonly onlyMine = signal(true);
+  private readonly draftWrite = createWrite();
+  protected readonly startingDraft = this.draftWrite.saving;
 
   protected readonly instrument = computed(() => instrumentById(this.instrumentId()));
   protected readonly met = computed(() => new Set(this.progress()?.metRequirementCodes ?? []));
@@ -118,10 +154,6 @@ export class LadderView {
   protected readonly dateText = dateText;
   protected readonly gradeText = gradeText;
 
-  constructor() {
-    this.fetch();
-  }
-
   protected practiceLink(requirement: LadderRequirement): Record<string, string> {
     return practiceQuery(requirement, this.instrumentId());
   }
@@ -131,13 +163,10 @@ export class LadderView {
   }
 
   protected startDraft(starter = false): void {
-    this.startingDraft.set(true);
-    this.ladderData.createDraft(undefined, starter).subscribe({
+    this.draftWrite.send(this.ladderData.createDraft(undefined, starter), {
       next: (draft) => void this.router.navigate(['/ladder/versions', draft.id, 'edit']),
-      error: (error: unknown) => {
-        this.startingDraft.set(false);
-        this.snackBar.open(errorMessage(error, 'The draft could not be started.'), 'Close');
-      },
+      error: (error: unknown) =>
+        this.snackBar.open(errorMessage(error, 'The draft could not be started.'), 'Close'),
     });
   }
 
@@ -161,42 +190,8 @@ export class LadderView {
   }
 
   protected fetch(): void {
-    this.load.set({ kind: 'loading' });
-    this.ladderData.active().subscribe({
-      next: (ladder) => {
-        this.ladder.set(ladder);
-        this.load.set({ kind: 'ready' });
-      },
-      error: (error: unknown) =>
-        this.load.set({
-          kind: 'error',
-          missing: (error as { status?: number }).status === 404,
-          message: errorMessage(error, 'The scale ladder could not be loaded.'),
-        }),
-    });
-    const studentId = this.currentUser.me()?.studentId;
-    if (this.isStudent && studentId) {
-      this.progressData.get(studentId).subscribe({
-        next: (progress) => {
-          this.progress.set(progress);
-          if (progress.instrumentId) this.instrumentId.set(progress.instrumentId);
-        },
-        error: () => this.progress.set(null),
-      });
-    }
-    if (this.canEdit) {
-      this.ladderData.versions().subscribe({
-        next: (versions) => {
-          this.drafts.set(versions.filter((version) => version.status === 'draft'));
-          this.previous.set(
-            versions
-              .filter((version) => version.status === 'archived' && version.publishedAt)
-              .sort((first, second) => second.publishedAt!.localeCompare(first.publishedAt!))[0] ??
-              null,
-          );
-        },
-        error: () => this.drafts.set([]),
-      });
-    }
+    this.inForce.reload();
+    this.progressRef.reload();
+    this.versions.reload();
   }
 }

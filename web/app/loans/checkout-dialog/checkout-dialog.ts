@@ -24,6 +24,7 @@ import { centsOf, conditionLabels, dayText } from '../../instruments/instrument-
 import { FleetLoans } from '../loan-data';
 import { accessoriesFor } from './accessories';
 import { StudentPicker } from './student-picker';
+import { createWrite } from '../../core/state/write';
 
 /**
  * Lends an available instrument to a student: due date, accessories, condition, fee or waiver.
@@ -49,6 +50,7 @@ import { StudentPicker } from './student-picker';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class CheckoutDialog {
+  private readonly write = createWrite();
   private readonly loans = inject(FleetLoans);
   protected readonly dialog = inject<MatDialogRef<CheckoutDialog, Loan>>(MatDialogRef);
 
@@ -69,7 +71,7 @@ export class CheckoutDialog {
   protected readonly fee = signal('');
   protected readonly waiver = signal(false);
   protected readonly waiverReason = signal('');
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly failure = signal('');
   protected readonly lent = signal<Loan | null>(null);
   protected readonly today = new Date().toISOString().slice(0, 10);
@@ -148,15 +150,12 @@ export class CheckoutDialog {
       waiver: waived,
       waiverReason: waived ? this.waiverReason() || undefined : undefined,
     };
-    this.saving.set(true);
     this.failure.set('');
-    this.loans.checkOut(input).subscribe({
+    this.write.send(this.loans.checkOut(input), {
       next: (loan) => {
-        this.saving.set(false);
         this.lent.set(loan);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.failure.set(errorMessage(error, 'The instrument could not be checked out.'));
       },
     });

@@ -30,7 +30,8 @@ const studentListSchema = listResponseSchema(studentSchema);
         matInput
         type="search"
         [matAutocomplete]="choices"
-        (input)="typed($any($event.target).value)"
+        #searchBox
+        (input)="typed(searchBox.value)"
         placeholder="Last name, first name or student ID"
         autocomplete="off"
         data-testid="student-picker"
@@ -88,6 +89,7 @@ export class StudentPicker {
           ),
         ),
       )
+      // Typed text is a stream: debounced, and each new search cancels the last (switchMap).
       .subscribe((rows) => {
         this.found.set(rows);
         this.searched.set(true);

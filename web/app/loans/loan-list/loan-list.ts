@@ -13,6 +13,7 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatTabsModule } from '@angular/material/tabs';
 import { Router, RouterLink } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
 import type { ColDef } from 'ag-grid-community';
 import { loanSortFields, type Loan } from '@shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
@@ -29,6 +30,7 @@ import { CheckoutDialog } from '../checkout-dialog/checkout-dialog';
 import { FleetLoans } from '../loan-data';
 import { LoanPanel } from '../loan-panel/loan-panel';
 import { loanTabs, type LoanTab } from './loan-tabs';
+import { createWrite } from '../../core/state/write';
 
 /** The loans of the user's schools, by tab, with check-out, returns and reminders. */
 @Component({
@@ -47,6 +49,7 @@ import { loanTabs, type LoanTab } from './loan-tabs';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class LoanList {
+  private readonly write = createWrite();
   private readonly dialog = inject(MatDialog);
   private readonly loans = inject(FleetLoans);
   private readonly router = inject(Router);
@@ -125,42 +128,42 @@ export class LoanList {
     this.grid()?.refresh();
   }
 
-  protected checkOut(): void {
-    this.dialog
-      .open(CheckoutDialog, { width: '720px', maxWidth: '94vw', maxHeight: '92vh' })
-      .afterClosed()
-      .subscribe((loan?: Loan) => {
-        if (!loan) return;
-        this.selected.set(loan);
-        this.grid()?.refresh();
-      });
+  protected async checkOut(): Promise<void> {
+    const loan: Loan | undefined = await firstValueFrom(
+      this.dialog
+        .open(CheckoutDialog, { width: '720px', maxWidth: '94vw', maxHeight: '92vh' })
+        .afterClosed(),
+    );
+    if (!loan) return;
+    this.selected.set(loan);
+    this.grid()?.refresh();
   }
 
-  protected remindAllOverdue(): void {
-    this.dialog
-      .open(ConfirmDialog, {
-        data: {
-          title: 'Remind every overdue loan?',
-          paragraphs: [
-            'Each guardian of an overdue loan in your schools gets an e-mail asking for the instrument back. Loans reminded in the last day are skipped.',
-          ],
-          confirm: 'Send reminders',
-        },
-      })
-      .afterClosed()
-      .subscribe((confirmed?: boolean) => {
-        if (!confirmed) return;
-        this.notice.set('Sending reminders…');
-        this.loans.remindOverdue().subscribe({
-          next: ({ queued }) =>
-            this.notice.set(
-              queued === 0
-                ? 'No reminders were needed.'
-                : `${queued} ${queued === 1 ? 'reminder was' : 'reminders were'} queued for e-mail.`,
-            ),
-          error: (error: unknown) =>
-            this.notice.set(errorMessage(error, 'The reminders could not be sent.')),
-        });
-      });
+  protected async remindAllOverdue(): Promise<void> {
+    const confirmed: boolean | undefined = await firstValueFrom(
+      this.dialog
+        .open(ConfirmDialog, {
+          data: {
+            title: 'Remind every overdue loan?',
+            paragraphs: [
+              'Each guardian of an overdue loan in your schools gets an e-mail asking for the instrument back. Loans reminded in the last day are skipped.',
+            ],
+            confirm: 'Send reminders',
+          },
+        })
+        .afterClosed(),
+    );
+    if (!confirmed) return;
+    this.notice.set('Sending reminders…');
+    this.write.send(this.loans.remindOverdue(), {
+      next: ({ queued }) =>
+        this.notice.set(
+          queued === 0
+            ? 'No reminders were needed.'
+            : `${queued} ${queued === 1 ? 'reminder was' : 'reminders were'} queued for e-mail.`,
+        ),
+      error: (error: unknown) =>
+        this.notice.set(errorMessage(error, 'The reminders could not be sent.')),
+    });
   }
 }

@@ -11,12 +11,14 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
 import type { Loan } from '@shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { conditionLabels, dayText, money } from '../../instruments/instrument-labels';
 import { FleetLoans } from '../loan-data';
 import { ReturnDialog } from '../return-dialog/return-dialog';
+import { createWrite } from '../../core/state/write';
 
 /** One loan beside the grid: its details, the agreement, and what can be done with it. */
 @Component({
@@ -27,6 +29,7 @@ import { ReturnDialog } from '../return-dialog/return-dialog';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class LoanPanel {
+  private readonly write = createWrite();
   private readonly loans = inject(FleetLoans);
   private readonly dialog = inject(MatDialog);
   private readonly currentUser = inject(CurrentUser);
@@ -52,7 +55,7 @@ export class LoanPanel {
 
   protected remind(): void {
     this.status.set('Sending…');
-    this.loans.remind(this.loan().id).subscribe({
+    this.write.send(this.loans.remind(this.loan().id), {
       next: ({ queued }) =>
         this.status.set(
           queued
@@ -65,19 +68,17 @@ export class LoanPanel {
 
   protected resendAgreement(): void {
     this.status.set('Sending…');
-    this.loans.resendAgreement(this.loan().id).subscribe({
+    this.write.send(this.loans.resendAgreement(this.loan().id), {
       next: () =>
         this.status.set('A new agreement link was e-mailed; the earlier link no longer works.'),
       error: (error: unknown) => this.status.set(errorMessage(error)),
     });
   }
 
-  protected takeBack(): void {
-    this.dialog
-      .open(ReturnDialog, { data: { loan: this.loan() }, width: '560px' })
-      .afterClosed()
-      .subscribe((loan?: Loan) => {
-        if (loan) this.changed.emit(loan);
-      });
+  protected async takeBack(): Promise<void> {
+    const loan: Loan | undefined = await firstValueFrom(
+      this.dialog.open(ReturnDialog, { data: { loan: this.loan() }, width: '560px' }).afterClosed(),
+    );
+    if (loan) this.changed.emit(loan);
   }
 }

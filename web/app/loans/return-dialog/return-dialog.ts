@@ -13,6 +13,7 @@ import { instruments } from '@shared/music/instrument-data';
 import { errorMessage } from '../../core/parse';
 import { cleaningCaution, conditionLabels } from '../../instruments/instrument-labels';
 import { FleetLoans } from '../loan-data';
+import { createWrite } from '../../core/state/write';
 
 /** What the return dialog needs. */
 export interface ReturnDialogData {
@@ -40,6 +41,7 @@ export interface ReturnDialogData {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ReturnDialog {
+  private readonly write = createWrite();
   private readonly loans = inject(FleetLoans);
   private readonly dialog = inject<MatDialogRef<ReturnDialog, Loan>>(MatDialogRef);
   protected readonly loan = inject<ReturnDialogData>(MAT_DIALOG_DATA).loan;
@@ -52,7 +54,7 @@ export class ReturnDialog {
   protected readonly problem = signal('');
   protected readonly lost = signal(false);
   protected readonly notes = signal('');
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly failure = signal('');
   /** Woodwind and brass go to "to clean" when they come back (common practice, no source). */
   protected readonly isWind = ['woodwind', 'brass'].includes(
@@ -73,12 +75,10 @@ export class ReturnDialog {
           damaged: this.damaged() ? { problem: this.problem().trim() } : undefined,
           notes: this.notes().trim() || undefined,
         };
-    this.saving.set(true);
     this.failure.set('');
-    this.loans.returnLoan(this.loan.id, input).subscribe({
+    this.write.send(this.loans.returnLoan(this.loan.id, input), {
       next: (loan) => this.dialog.close(loan),
       error: (error: unknown) => {
-        this.saving.set(false);
         this.failure.set(errorMessage(error, 'The return could not be recorded.'));
       },
     });

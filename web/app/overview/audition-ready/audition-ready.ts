@@ -51,9 +51,23 @@ export class AuditionReady {
   protected readonly rungs = computed(() => this.ladder.value()?.rungs ?? []);
   protected readonly chosen = signal<string[]>([]);
   protected readonly minTempo = signal<number | null>(null);
-  protected readonly result = signal<ListResponse<AuditionReadyRow> | null>(null);
-  protected readonly searching = signal(false);
-  protected readonly error = signal<string | null>(null);
+  /** The search the user last ran; undefined before the first. */
+  private readonly asked = signal<
+    { codes: string[]; tempo: number | null; filters: OverviewFilters } | undefined
+  >(undefined);
+  private readonly answer = rxResource({
+    params: () => this.asked(),
+    stream: ({ params }) => this.data.auditionReady(params.codes, params.tempo, params.filters),
+  });
+  protected readonly result = computed<ListResponse<AuditionReadyRow> | null>(() =>
+    this.answer.hasValue() ? this.answer.value() : null,
+  );
+  protected readonly searching = this.answer.isLoading;
+  protected readonly error = computed(() =>
+    this.answer.error()
+      ? errorMessage(this.answer.error(), 'The list could not be loaded. Try again.')
+      : null,
+  );
   protected readonly requirementLabel = requirementLabel;
   protected readonly gradeLabel = gradeLabel;
 
@@ -67,24 +81,12 @@ export class AuditionReady {
 
   protected find(): void {
     if (this.chosen().length === 0) return;
-    this.searching.set(true);
-    this.error.set(null);
     const tempo = this.minTempo();
-    this.data
-      .auditionReady(
-        this.chosen(),
-        typeof tempo === 'number' && tempo > 0 ? tempo : null,
-        this.filters(),
-      )
-      .subscribe({
-        next: (list) => {
-          this.result.set(list);
-          this.searching.set(false);
-        },
-        error: (failure: unknown) => {
-          this.error.set(errorMessage(failure, 'The list could not be loaded. Try again.'));
-          this.searching.set(false);
-        },
-      });
+    // A new request object each time, so the same search can be run again.
+    this.asked.set({
+      codes: this.chosen(),
+      tempo: typeof tempo === 'number' && tempo > 0 ? tempo : null,
+      filters: this.filters(),
+    });
   }
 }

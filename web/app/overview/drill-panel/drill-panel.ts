@@ -78,6 +78,7 @@ export class DrillPanel {
       return;
     }
     this.loading.set(true);
+    // Pages accumulate ("Show more" appends each answer to the rows shown), which a resource would replace.
     this.data.rows(path, this.target.query, offset, pageSize).subscribe({
       next: (page) => {
         const before = this.rows();

@@ -21,6 +21,7 @@ import { TakeRecorder } from '../../practice/take-panel/take-recorder';
 import { Takes } from '../../practice/take-panel/takes';
 import { errorMessage } from '../../core/parse';
 import { TakeAnalysisView, aidSuggestion } from '../../practice/take-panel/take-analysis-view';
+import { createWrite } from '../../core/state/write';
 
 type Stage = 'idle' | 'asking' | 'recording' | 'listening' | 'heard' | 'problem';
 
@@ -41,6 +42,7 @@ const longestTake = 10 * 60;
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class DirectorTake {
+  private readonly write = createWrite();
   private readonly recorder = inject(TakeRecorder);
   private readonly takes = inject(Takes);
 
@@ -170,21 +172,20 @@ export class DirectorTake {
     if (!analysis || !this.recording || this.keeping() !== 'no') return;
     this.keeping.set('saving');
     this.keepProblem.set(null);
-    this.takes
-      .keepHeard(
-        this.recording,
-        this.studentId(),
-        this.requirement().code,
-        this.requirement().tempo,
-        analysis,
-      )
-      .subscribe({
-        next: () => this.keeping.set('kept'),
-        error: (error: unknown) => {
-          this.keeping.set('no');
-          this.keepProblem.set(errorMessage(error, 'The take could not be kept. Try again.'));
-        },
-      });
+    const request = this.takes.keepHeard(
+      this.recording,
+      this.studentId(),
+      this.requirement().code,
+      this.requirement().tempo,
+      analysis,
+    );
+    this.write.send(request, {
+      next: () => this.keeping.set('kept'),
+      error: (error: unknown) => {
+        this.keeping.set('no');
+        this.keepProblem.set(errorMessage(error, 'The take could not be kept. Try again.'));
+      },
+    });
   }
 
   private async analyse(samples: Float32Array, sampleRate: number): Promise<void> {

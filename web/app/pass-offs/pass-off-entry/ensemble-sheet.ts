@@ -52,6 +52,7 @@ export class EnsembleSheet {
     this.rungsLoaded.set(false);
     this.error.set('');
     if (!ensembleId) return;
+    // Read on command for the chosen ensemble; an answer for one no longer chosen is dropped.
     forkJoin([this.ensembleData.get(ensembleId), this.passOffData.all({ ensembleId })]).subscribe({
       next: ([detail, passOffs]) => {
         if (this.ensembleId !== ensembleId) return;
@@ -100,6 +101,7 @@ export class EnsembleSheet {
   }
 
   private refreshRungs(ensembleId: number): void {
+    // Read again a pause after each save; an answer for an ensemble no longer chosen is dropped.
     this.passOffData.rungsOfEnsemble(ensembleId).subscribe({
       next: (rows) => {
         if (this.ensembleId !== ensembleId) return;

@@ -29,7 +29,7 @@ import type {
   GridApi,
   GridReadyEvent,
 } from 'ag-grid-community';
-import { firstValueFrom, forkJoin, map } from 'rxjs';
+import { firstValueFrom, map } from 'rxjs';
 import type { Ensemble } from '@shared/api/ensemble';
 import type { Ladder, LadderRequirement } from '@shared/api/ladder';
 import type { PassOff } from '@shared/api/pass-off';
@@ -67,6 +67,7 @@ const touchQueries = ['(pointer: coarse)', '(max-width: 839.98px)'];
 import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 import { PastPassOffs } from '../past-pass-offs/past-pass-offs';
+import { createWrite } from '../../core/state/write';
 
 @Component({
   selector: 'tb-pass-off-entry',
@@ -93,6 +94,7 @@ import { PastPassOffs } from '../past-pass-offs/past-pass-offs';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class PassOffEntry {
+  private readonly write = createWrite();
   private readonly ensembleData = inject(EnsembleData);
   protected readonly sheet = inject(EnsembleSheet);
   private readonly ladderData = inject(LadderData);
@@ -111,9 +113,22 @@ export class PassOffEntry {
   readonly rung = input<string>();
 
   protected readonly today = localToday();
-  protected readonly ensembles = signal<Ensemble[] | null>(null);
-  protected readonly ladder = signal<Ladder | null>(null);
-  protected readonly setupError = signal('');
+  private readonly ensembleList = this.ensembleData.listed(() => ({
+    sort: 'name:asc',
+    limit: 500,
+  }));
+  private readonly inForce = this.ladderData.inForce();
+  // The page needs the ensembles and the ladder together: neither shows before both are read.
+  protected readonly ensembles = computed<Ensemble[] | null>(() =>
+    this.ensembleList.hasValue() && this.inForce.hasValue() ? this.ensembleList.value().rows : null,
+  );
+  protected readonly ladder = computed<Ladder | null>(() =>
+    this.ensembleList.hasValue() && this.inForce.hasValue() ? this.inForce.value() : null,
+  );
+  protected readonly setupError = computed(() => {
+    const error = this.ensembleList.error() ?? this.inForce.error();
+    return error ? errorMessage(error, 'The ensembles and the ladder could not be loaded.') : '';
+  });
   protected readonly focused = signal<{ studentId: number; code: string } | null>(null);
   protected readonly historyStudent = signal<number | null>(null);
   protected readonly historyToken = signal(0);
@@ -190,19 +205,6 @@ export class PassOffEntry {
   constructor() {
     this.queue.start(inject(CurrentUser).me()?.id ?? 0);
     this.drafts.heardOn.set(this.today);
-    forkJoin([
-      this.ensembleData.list({ sort: 'name:asc', limit: 500 }),
-      this.ladderData.active(),
-    ]).subscribe({
-      next: ([ensembles, ladder]) => {
-        this.ensembles.set(ensembles.rows);
-        this.ladder.set(ladder);
-      },
-      error: (error: unknown) =>
-        this.setupError.set(
-          errorMessage(error, 'The ensembles and the ladder could not be loaded.'),
-        ),
-    });
     effect(() => {
       const id = this.ensembleId();
       untracked(() => {
@@ -218,6 +220,7 @@ export class PassOffEntry {
       this.takes.byCell();
       this.api?.refreshCells({ force: true });
     });
+    // The queue reports each batch the server saved, for as long as the page is open.
     this.queue.saved.pipe(takeUntilDestroyed()).subscribe((rows) => this.merge(rows));
     const leave = () => this.drafts.commitAll();
     window.addEventListener('pagehide', leave);
@@ -283,6 +286,7 @@ export class PassOffEntry {
       panelClass: 'tb-side-sheet',
     });
     this.touchPanelRef = ref;
+    // The side sheet's closing is an event for later; the grid goes on meanwhile.
     ref.afterClosed().subscribe(() => {
       if (this.touchPanelRef === ref) this.touchPanelRef = null;
       // Whatever was written into the note goes out as leaving a grid cell would send it.
@@ -354,7 +358,7 @@ export class PassOffEntry {
   }
 
   protected saveNote({ passOff, note }: NoteChange): void {
-    this.passOffData.update(passOff.id, { note, version: passOff.version }).subscribe({
+    this.write.send(this.passOffData.update(passOff.id, { note, version: passOff.version }), {
       next: (updated) => {
         this.merge([updated]);
         this.announce('Note saved.');
@@ -379,7 +383,7 @@ export class PassOffEntry {
         .afterClosed(),
     );
     if (!confirmed) return;
-    this.passOffData.remove(passOff.id).subscribe({
+    this.write.send(this.passOffData.remove(passOff.id), {
       next: () => {
         this.sheet.removed(passOff);
         if (passOff.clientKey) this.queue.forget(passOff.clientKey);

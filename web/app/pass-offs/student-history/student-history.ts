@@ -5,8 +5,10 @@ import {
   effect,
   inject,
   input,
+  linkedSignal,
   output,
   signal,
+  untracked,
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -18,6 +20,7 @@ import { errorMessage } from '../../core/parse';
 import { dateText } from '../../ladder/date-text';
 import { keyText, requirementsByCode, tempoText } from '../../ladder/requirement-text';
 import { PassOffData, recordingUrl } from '../pass-off-data';
+import { createWrite } from '../../core/state/write';
 
 /** The recording limits as a sentence, from the shared limits the server enforces. */
 export const recordingLimitsText = `Audio up to ${recordingSizeLimit / (1024 * 1024)} MB: WebM, Ogg, MP3, WAVE or MP4 (M4A). The server checks the file itself, not only its name.`;
@@ -31,6 +34,7 @@ export const recordingLimitsText = `Audio up to ${recordingSizeLimit / (1024 * 1
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class StudentHistory {
+  private readonly write = createWrite();
   private readonly passOffData = inject(PassOffData);
 
   readonly studentId = input.required<number>();
@@ -41,8 +45,16 @@ export class StudentHistory {
   readonly reloadToken = input(0);
   readonly closed = output<void>();
 
-  protected readonly passOffs = signal<PassOff[] | null>(null);
-  protected readonly loadError = signal('');
+  private readonly history = this.passOffData.ofStudent(this.studentId);
+  /** The student's pass-offs as read, with the recordings attached since. */
+  protected readonly passOffs = linkedSignal<PassOff[] | null>(() =>
+    this.history.hasValue() ? this.history.value().rows : null,
+  );
+  protected readonly loadError = computed(() =>
+    this.history.error()
+      ? errorMessage(this.history.error(), 'The history could not be loaded.')
+      : '',
+  );
   protected readonly uploading = signal<number | null>(null);
   protected readonly uploadMessages = signal<ReadonlyMap<number, string>>(new Map());
   protected readonly byCode = computed(() => requirementsByCode(this.rungs()));
@@ -53,9 +65,15 @@ export class StudentHistory {
   protected readonly tempoText = tempoText;
 
   constructor() {
+    // The first run reads the token the page opened with; each change after it reads again.
+    let first = true;
     effect(() => {
       this.reloadToken();
-      this.load(this.studentId());
+      if (first) {
+        first = false;
+        return;
+      }
+      untracked(() => this.history.reload());
     });
   }
 
@@ -81,7 +99,7 @@ export class StudentHistory {
     }
     this.uploading.set(passOff.id);
     this.setMessage(passOff.id, '');
-    this.passOffData.attachRecording(passOff.id, file).subscribe({
+    this.write.send(this.passOffData.attachRecording(passOff.id, file), {
       next: (recording) => {
         this.uploading.set(null);
         this.passOffs.update(
@@ -94,15 +112,6 @@ export class StudentHistory {
         this.uploading.set(null);
         this.setMessage(passOff.id, errorMessage(error, 'The recording could not be attached.'));
       },
-    });
-  }
-
-  private load(studentId: number): void {
-    this.loadError.set('');
-    this.passOffData.list({ studentId, sort: 'heardOn:desc', limit: 1000 }).subscribe({
-      next: (list) => this.passOffs.set(list.rows),
-      error: (error: unknown) =>
-        this.loadError.set(errorMessage(error, 'The history could not be loaded.')),
     });
   }
 

@@ -30,6 +30,7 @@ import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
+import { createWrite } from '../../core/state/write';
 
 /** What the person dialog edits: a person, or null to add one. */
 export interface PersonDialogData {
@@ -64,6 +65,7 @@ const roleHints: Record<Role, string> = {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class PersonDialog {
+  private readonly write = createWrite();
   private readonly people = inject(PeopleData);
   private readonly dialog = inject<MatDialogRef<PersonDialog, PersonDetail>>(MatDialogRef);
   private readonly studentSearches = new Subject<string>();
@@ -99,7 +101,7 @@ export class PersonDialog {
   );
   protected readonly foundStudents = signal<Student[]>([]);
   protected readonly searchedStudents = signal(false);
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly conflict = signal(false);
   protected readonly failure = signal('');
 
@@ -111,6 +113,7 @@ export class PersonDialog {
         debounceTime(200),
         switchMap((text) => this.people.findStudents(text).pipe(catchError(() => of([])))),
       )
+      // Typed text is a stream: debounced, and each new search cancels the last (switchMap).
       .subscribe((found) => {
         this.foundStudents.set(found);
         this.searchedStudents.set(true);
@@ -154,7 +157,6 @@ export class PersonDialog {
       this.form.controls[problem.field].setErrors({ server: problem.message });
     }
     if (problems.length) return;
-    this.saving.set(true);
     this.failure.set('');
     const request = this.person
       ? this.people.update(this.person.id, {
@@ -163,10 +165,9 @@ export class PersonDialog {
           version: this.person.version,
         })
       : this.people.create({ email: value.email, name: value.name, ...assignments });
-    request.subscribe({
+    this.write.send(request, {
       next: (saved) => this.dialog.close(saved),
       error: (error: unknown) => {
-        this.saving.set(false);
         this.failure.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });

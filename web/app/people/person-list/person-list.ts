@@ -8,6 +8,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTooltipModule } from '@angular/material/tooltip';
+import { firstValueFrom } from 'rxjs';
 import type { Person } from '@shared/api/person';
 import { roleLabels, roles, type Role } from '@shared/api/roles';
 import { CurrentUser } from '../../core/auth/current-user';
@@ -16,6 +17,7 @@ import { PageState } from '../../core/state/page-state';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
 import { PersonDialog, type PersonDialogData } from '../person-dialog/person-dialog';
+import { createWrite } from '../../core/state/write';
 
 type SortField = 'name' | 'email' | 'role' | 'lastSignInAt';
 
@@ -37,6 +39,7 @@ type SortField = 'name' | 'email' | 'role' | 'lastSignInAt';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class PersonList {
+  private readonly write = createWrite();
   private readonly people = inject(PeopleData);
   private readonly dialog = inject(MatDialog);
 
@@ -98,17 +101,17 @@ export class PersonList {
   }
 
   protected add(): void {
-    this.openDialog({ person: null });
+    void this.openDialog({ person: null });
   }
 
   protected edit(person: Person): void {
-    this.openDialog({ person });
+    void this.openDialog({ person });
   }
 
   protected setActive(person: Person, active: boolean): void {
     this.busy.set(person.id);
     this.failure.set('');
-    this.people.update(person.id, { active, version: person.version }).subscribe({
+    this.write.send(this.people.update(person.id, { active, version: person.version }), {
       next: (changed) => {
         this.busy.set(null);
         this.notice.set(
@@ -126,21 +129,21 @@ export class PersonList {
     });
   }
 
-  private openDialog(data: PersonDialogData): void {
-    this.dialog
-      .open<PersonDialog, PersonDialogData, Person>(PersonDialog, {
-        data,
-        width: '560px',
-        autoFocus: 'first-tabbable',
-      })
-      .afterClosed()
-      .subscribe((saved) => {
-        if (!saved) return;
-        this.failure.set('');
-        this.notice.set(
-          data.person ? `${saved.name} is saved.` : `${saved.name} is added and can sign in now.`,
-        );
-        this.list.reload();
-      });
+  private async openDialog(data: PersonDialogData): Promise<void> {
+    const saved = await firstValueFrom(
+      this.dialog
+        .open<PersonDialog, PersonDialogData, Person>(PersonDialog, {
+          data,
+          width: '560px',
+          autoFocus: 'first-tabbable',
+        })
+        .afterClosed(),
+    );
+    if (!saved) return;
+    this.failure.set('');
+    this.notice.set(
+      data.person ? `${saved.name} is saved.` : `${saved.name} is added and can sign in now.`,
+    );
+    this.list.reload();
   }
 }

@@ -21,6 +21,7 @@ import { PageState } from '../../core/state/page-state';
 import { PeopleData } from '../people-data';
 import { ApiTokenData } from '../token-data';
 import { TokenReveal } from '../token-reveal/token-reveal';
+import { createWrite } from '../../core/state/write';
 
 /**
  * API tokens with Revoke, and a way to make one for the signed-in user. The API answers the
@@ -43,6 +44,7 @@ import { TokenReveal } from '../token-reveal/token-reveal';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class TokenList {
+  private readonly write = createWrite();
   private readonly tokens = inject(ApiTokenData);
   private readonly people = inject(PeopleData);
   private readonly dialog = inject(MatDialog);
@@ -95,30 +97,32 @@ export class TokenList {
     this.creating.set(true);
     this.failure.set('');
     this.notice.set('');
-    this.tokens
-      .create({ label: this.label().trim(), lifetimeDays: this.lifetimeDays() })
-      .subscribe({
-        next: (created) => {
-          this.creating.set(false);
-          this.label.set('');
-          this.list.reload();
-          this.dialog.open<TokenReveal, CreatedToken>(TokenReveal, {
-            data: created,
-            width: '600px',
-            disableClose: true,
-          });
-        },
-        error: (error: unknown) => {
-          this.creating.set(false);
-          this.failure.set(errorMessage(error, 'The token could not be made.'));
-        },
-      });
+    const request = this.tokens.create({
+      label: this.label().trim(),
+      lifetimeDays: this.lifetimeDays(),
+    });
+    this.write.send(request, {
+      next: (created) => {
+        this.creating.set(false);
+        this.label.set('');
+        this.list.reload();
+        this.dialog.open<TokenReveal, CreatedToken>(TokenReveal, {
+          data: created,
+          width: '600px',
+          disableClose: true,
+        });
+      },
+      error: (error: unknown) => {
+        this.creating.set(false);
+        this.failure.set(errorMessage(error, 'The token could not be made.'));
+      },
+    });
   }
 
   protected revoke(token: ApiToken): void {
     this.confirming.set(null);
     this.failure.set('');
-    this.tokens.revoke(token.id).subscribe({
+    this.write.send(this.tokens.revoke(token.id), {
       next: () => {
         this.notice.set(
           `The token “${token.label || 'without a label'}” is revoked: scripts using it are refused from now on.`,

@@ -121,6 +121,7 @@ export class SheetForm {
         { emitEvent: false },
       );
     });
+    // The form's changes are a stream: each one updates the address.
     const changes = this.form.valueChanges.subscribe(() => {
       if (this.form.controls.tempo.invalid) return;
       const value = this.form.getRawValue();

@@ -20,6 +20,7 @@ import { analyseInWorker } from './take-job';
 import { TakeRecorder, type RecordedTake } from './take-recorder';
 import { Takes } from './takes';
 import { TakeAnalysisView } from './take-analysis-view';
+import { createWrite } from '../../core/state/write';
 
 export { verdictLabels } from './take-analysis-view';
 
@@ -39,6 +40,7 @@ type Stage = 'idle' | 'asking' | 'recording' | 'listening' | 'heard' | 'problem'
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class TakePanel {
+  private readonly write = createWrite();
   private readonly recorder = inject(TakeRecorder);
   private readonly playback = inject(SheetPlayback);
   private readonly takes = inject(Takes);
@@ -53,7 +55,7 @@ export class TakePanel {
   protected readonly problem = signal<string | null>(null);
   protected readonly analysis = signal<TakeAnalysis | null>(null);
   protected readonly kept = signal<Take | null>(null);
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly level = this.recorder.level;
   private recorded?: RecordedTake;
   private autoStop?: ReturnType<typeof setTimeout>;
@@ -120,13 +122,11 @@ export class TakePanel {
     const analysis = this.analysis();
     const code = this.requirementCode();
     if (!analysis || !code || !this.recorded) return;
-    this.saving.set(true);
-    this.takes.keep(this.recorded.blob, code, this.tempo(), analysis).subscribe({
+    this.write.send(this.takes.keep(this.recorded.blob, code, this.tempo(), analysis), {
       next: (take) =>
-        this.takes.send(take.id).subscribe({
+        this.write.send(this.takes.send(take.id), {
           next: (sent) => {
             this.kept.set(sent);
-            this.saving.set(false);
           },
           error: (error: unknown) => this.failed(error),
         }),
@@ -135,7 +135,6 @@ export class TakePanel {
   }
 
   private failed(error: unknown): void {
-    this.saving.set(false);
     const message =
       error instanceof HttpErrorResponse
         ? (apiErrorOf(error)?.message ?? error.message)

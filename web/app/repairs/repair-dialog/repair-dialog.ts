@@ -8,6 +8,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatRadioModule } from '@angular/material/radio';
 import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
+import { firstValueFrom } from 'rxjs';
 import type { Instrument } from '@shared/api/instrument';
 import { repairCaution, repairStatuses, type Repair, type RepairStatus } from '@shared/api/repair';
 import { isConflict } from '../../core/forms/record-form';
@@ -16,6 +17,7 @@ import { InstrumentPicker } from '../../instruments/instrument-picker/instrument
 import { centsOf } from '../../instruments/instrument-labels';
 import { FleetRepairs } from '../repair-data';
 import { repairStatusLooks } from '../repair-looks';
+import { createWrite } from '../../core/state/write';
 
 /** What the repair dialog needs: the ticket (null to open one) and whether it may change. */
 export interface RepairDialogData {
@@ -47,6 +49,7 @@ const dollarsOf = (cents: number | null) => (cents === null ? '' : (cents / 100)
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class RepairDialog {
+  private readonly write = createWrite();
   private readonly repairs = inject(FleetRepairs);
   protected readonly dialog = inject<MatDialogRef<RepairDialog, Repair>>(MatDialogRef);
   protected readonly data = inject<RepairDialogData>(MAT_DIALOG_DATA);
@@ -66,7 +69,7 @@ export class RepairDialog {
   protected readonly sentOn = signal(this.data.repair?.sentOn ?? '');
   protected readonly returnedOn = signal(this.data.repair?.returnedOn ?? '');
   protected readonly notes = signal(this.data.repair?.notes ?? '');
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly failure = signal('');
   protected readonly conflict = signal(false);
 
@@ -84,7 +87,6 @@ export class RepairDialog {
   protected save(): void {
     if (!this.ready() || this.saving()) return;
     const vendor = this.inHouse() ? null : this.vendor().trim();
-    this.saving.set(true);
     this.failure.set('');
     const ticket = this.ticket();
     const request = ticket
@@ -108,10 +110,9 @@ export class RepairDialog {
           estimateCents: centsOf(this.estimate()),
           notes: this.notes().trim(),
         });
-    request.subscribe({
+    this.write.send(request, {
       next: (saved) => this.dialog.close(saved),
       error: (error: unknown) => {
-        this.saving.set(false);
         if (isConflict(error) && ticket) this.conflict.set(true);
         else this.failure.set(errorMessage(error, 'The ticket could not be saved.'));
       },
@@ -119,21 +120,20 @@ export class RepairDialog {
   }
 
   /** After a conflict: load the ticket as it is now, losing this dialog's changes. */
-  protected reload(): void {
+  protected async reload(): Promise<void> {
     const ticket = this.ticket();
     if (!ticket) return;
-    this.repairs.get(ticket.id).subscribe((fresh) => {
-      this.ticket.set(fresh);
-      this.problem.set(fresh.problem);
-      this.inHouse.set(fresh.inHouse);
-      this.vendor.set(fresh.vendor ?? '');
-      this.estimate.set(dollarsOf(fresh.estimateCents));
-      this.finalCost.set(dollarsOf(fresh.finalCostCents));
-      this.status.set(fresh.status);
-      this.sentOn.set(fresh.sentOn ?? '');
-      this.returnedOn.set(fresh.returnedOn ?? '');
-      this.notes.set(fresh.notes);
-      this.conflict.set(false);
-    });
+    const fresh = await firstValueFrom(this.repairs.get(ticket.id));
+    this.ticket.set(fresh);
+    this.problem.set(fresh.problem);
+    this.inHouse.set(fresh.inHouse);
+    this.vendor.set(fresh.vendor ?? '');
+    this.estimate.set(dollarsOf(fresh.estimateCents));
+    this.finalCost.set(dollarsOf(fresh.finalCostCents));
+    this.status.set(fresh.status);
+    this.sentOn.set(fresh.sentOn ?? '');
+    this.returnedOn.set(fresh.returnedOn ?? '');
+    this.notes.set(fresh.notes);
+    this.conflict.set(false);
   }
 }

@@ -13,6 +13,7 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSelectModule } from '@angular/material/select';
+import { firstValueFrom } from 'rxjs';
 import type { ColDef } from 'ag-grid-community';
 import {
   repairCaution,
@@ -153,16 +154,16 @@ export class RepairList {
     },
   ];
 
-  protected openTicket(repair: Repair | null): void {
-    this.dialog
-      .open(RepairDialog, {
-        data: { repair, editable: this.canWrite },
-        width: '640px',
-        maxHeight: '92vh',
-      })
-      .afterClosed()
-      .subscribe((saved?: Repair) => {
-        if (saved) this.grid()?.refresh();
-      });
+  protected async openTicket(repair: Repair | null): Promise<void> {
+    const saved: Repair | undefined = await firstValueFrom(
+      this.dialog
+        .open(RepairDialog, {
+          data: { repair, editable: this.canWrite },
+          width: '640px',
+          maxHeight: '92vh',
+        })
+        .afterClosed(),
+    );
+    if (saved) this.grid()?.refresh();
   }
 }

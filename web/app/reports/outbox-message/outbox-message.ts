@@ -10,6 +10,7 @@ import { MailFrame } from '../mail-frame/mail-frame';
 import { OutboxData } from '../outbox-data';
 import { OutboxState } from '../outbox-state/outbox-state';
 import { momentText } from '../report-period';
+import { createWrite } from '../../core/state/write';
 
 /** One outbox message: who it went to, how delivery went, both of its parts, and a resend. */
 @Component({
@@ -28,6 +29,7 @@ import { momentText } from '../report-period';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class OutboxMessage {
+  private readonly write = createWrite();
   private readonly outbox = inject(OutboxData);
   /** The message id from the route. */
   readonly id = input.required<string>();
@@ -49,7 +51,7 @@ export class OutboxMessage {
   protected resend(): void {
     this.resending.set(true);
     this.problem.set(null);
-    this.outbox.resend(Number(this.id())).subscribe({
+    this.write.send(this.outbox.resend(Number(this.id())), {
       next: (message) => {
         this.resending.set(false);
         this.message.set(message);

@@ -18,6 +18,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTabsModule } from '@angular/material/tabs';
+import { firstValueFrom } from 'rxjs';
 import type { ReportKind, ReportSendInput } from '@shared/api/report';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
@@ -29,6 +30,7 @@ import { lastDays } from '../report-period';
 import { SendDialog, type SendDialogData } from '../send-dialog/send-dialog';
 import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
+import { createWrite } from '../../core/state/write';
 
 const isoDate = /^\d{4}-\d{2}-\d{2}$/;
 
@@ -55,6 +57,7 @@ const isoDate = /^\d{4}-\d{2}-\d{2}$/;
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ReportComposer {
+  private readonly write = createWrite();
   private readonly reports = inject(ReportData);
   private readonly dialog = inject(MatDialog);
   private readonly currentUser = inject(CurrentUser);
@@ -126,7 +129,7 @@ export class ReportComposer {
     this.sent.set(null);
   }
 
-  protected openSend(): void {
+  protected async openSend(): Promise<void> {
     const me = this.me();
     if (!me) return;
     const school = this.school();
@@ -138,16 +141,16 @@ export class ReportComposer {
       choosesRecipients: me.role === 'coordinator',
       ownEmail: me.email,
     };
-    this.dialog
-      .open<SendDialog, SendDialogData, ReportSendInput>(SendDialog, {
-        data,
-        width: '520px',
-        autoFocus: 'first-tabbable',
-      })
-      .afterClosed()
-      .subscribe((input) => {
-        if (input) this.send(input);
-      });
+    const input = await firstValueFrom(
+      this.dialog
+        .open<SendDialog, SendDialogData, ReportSendInput>(SendDialog, {
+          data,
+          width: '520px',
+          autoFocus: 'first-tabbable',
+        })
+        .afterClosed(),
+    );
+    if (input) this.send(input);
   }
 
   /** Sends this report once, to the signed-in user alone, before it goes to directors. */
@@ -170,7 +173,7 @@ export class ReportComposer {
     this.sending.set(true);
     this.sent.set(null);
     this.sendError.set(null);
-    this.reports.send(input).subscribe({
+    this.write.send(this.reports.send(input), {
       next: (result) => {
         this.sending.set(false);
         this.sent.set({ messages: result.outboxIds.length, test: testTo });

@@ -15,6 +15,7 @@ import { addressesIn } from '../send-dialog/send-dialog';
 import { ReportData } from '../report-data';
 import { momentText } from '../report-period';
 import { cronFor, describeCron, scheduleDays, scheduleTimeZones } from '../schedule-choices';
+import { createWrite } from '../../core/state/write';
 
 /** Who a schedule sends to, as the form offers it. */
 type Audience = 'all-directors' | 'school' | 'addresses';
@@ -36,6 +37,7 @@ type Audience = 'all-directors' | 'school' | 'addresses';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ReportSchedules {
+  private readonly write = createWrite();
   private readonly reports = inject(ReportData);
 
   protected readonly schedules = rxResource({ stream: () => this.reports.schedules() });
@@ -52,7 +54,7 @@ export class ReportSchedules {
   protected readonly schoolId = signal<number | null>(null);
   protected readonly addressText = signal('');
 
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly problem = signal<string | null>(null);
   /** The schedule whose delete is waiting for a second click. */
   protected readonly confirmingDelete = signal<number | null>(null);
@@ -131,15 +133,12 @@ export class ReportSchedules {
   }
 
   private run(request: Observable<unknown>): void {
-    this.saving.set(true);
     this.problem.set(null);
-    request.subscribe({
+    this.write.send(request, {
       next: () => {
-        this.saving.set(false);
         this.schedules.reload();
       },
       error: (failure: unknown) => {
-        this.saving.set(false);
         this.problem.set(errorMessage(failure, 'The schedule could not be saved. Try again.'));
         this.schedules.reload();
       },

@@ -11,6 +11,7 @@ import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { SchoolYearData } from '../school-year-data';
 import { YearStart } from '../year-start/year-start';
+import { createWrite } from '../../core/state/write';
 
 /** A year being added or edited in the table. */
 interface YearDraft {
@@ -42,6 +43,7 @@ interface YearDraft {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SchoolYearsPage {
+  private readonly write = createWrite();
   private readonly data = inject(SchoolYearData);
 
   protected readonly years = rxResource({ stream: () => this.data.list() });
@@ -49,7 +51,7 @@ export class SchoolYearsPage {
     this.years.value()?.rows.find((year) => year.current),
   );
   protected readonly draft = signal<YearDraft | null>(null);
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly notice = signal('');
   protected readonly failure = signal('');
 
@@ -80,22 +82,19 @@ export class SchoolYearsPage {
   protected save(): void {
     const draft = this.draft();
     if (!draft || this.saving()) return;
-    this.saving.set(true);
     this.failure.set('');
     const { name, startsOn, endsOn } = draft;
     const request =
       draft.id === null
         ? this.data.create({ name, startsOn, endsOn })
         : this.data.update(draft.id, { name, startsOn, endsOn, version: draft.version });
-    request.subscribe({
+    this.write.send(request, {
       next: (year) => {
-        this.saving.set(false);
         this.draft.set(null);
         this.notice.set(`${year.name} is saved.`);
         this.years.reload();
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.failure.set(errorMessage(error, 'The year could not be saved.'));
       },
     });

@@ -18,6 +18,7 @@ import { MatInputModule } from '@angular/material/input';
 import type { SchoolYear, YearStartResult } from '@shared/api/school-year';
 import { errorMessage } from '../../core/parse';
 import { SchoolYearData, type YearStartRequest } from '../school-year-data';
+import { createWrite } from '../../core/state/write';
 
 /** The year after one named like "2026-27" (or "2026–27"), or '' when the name is not like that. */
 export function followingYearName(name: string): string {
@@ -56,6 +57,7 @@ export function sameWeekdayNextYear(day: string): string {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class YearStart {
+  private readonly write = createWrite();
   private readonly data = inject(SchoolYearData);
 
   /** The year the district works in now. */
@@ -99,7 +101,7 @@ export class YearStart {
     this.busy.set(true);
     this.failure.set('');
     this.result.set(null);
-    this.data.preview(this.request()).subscribe({
+    this.write.send(this.data.preview(this.request()), {
       next: (preview) => {
         this.busy.set(false);
         this.preview.set(preview);
@@ -117,7 +119,7 @@ export class YearStart {
     if (!preview || this.busy()) return;
     this.busy.set(true);
     this.failure.set('');
-    this.data.start({ ...this.request(), basis: preview.basis }).subscribe({
+    this.write.send(this.data.start({ ...this.request(), basis: preview.basis }), {
       next: (result) => {
         this.busy.set(false);
         this.confirming.set(false);

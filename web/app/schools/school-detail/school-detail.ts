@@ -25,6 +25,7 @@ import { EnsembleData } from '../../ensembles/ensemble-data';
 import { injectSchoolChoices } from '../school-choices';
 import { SchoolData } from '../school-data';
 import { schoolLevelLabels } from '../school-labels';
+import { createWrite } from '../../core/state/write';
 
 /** One school: its details (the coordinator edits them), its ensembles and a way to its students. */
 @Component({
@@ -46,6 +47,7 @@ import { schoolLevelLabels } from '../school-labels';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SchoolDetail {
+  private readonly write = createWrite();
   private readonly schoolData = inject(SchoolData);
   private readonly router = inject(Router);
 
@@ -67,7 +69,7 @@ export class SchoolDetail {
         ? []
         : null,
   );
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly saved = signal(false);
   protected readonly conflict = signal(false);
   protected readonly saveError = signal('');
@@ -104,15 +106,12 @@ export class SchoolDetail {
   protected setClosed(closedOn: string | null): void {
     const current = this.school();
     if (!current || this.saving()) return;
-    this.saving.set(true);
     this.saveError.set('');
-    this.schoolData.update(current.id, { closedOn, version: current.version }).subscribe({
+    this.write.send(this.schoolData.update(current.id, { closedOn, version: current.version }), {
       next: (school) => {
-        this.saving.set(false);
         this.record.set(school);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });
@@ -134,15 +133,13 @@ export class SchoolDetail {
     }
     const current = this.school();
     const { closedOn: _closedOn, ...input } = parsed.data;
-    this.saving.set(true);
     this.saved.set(false);
     this.saveError.set('');
     const request = current
       ? this.schoolData.update(current.id, { ...input, version: current.version })
       : this.schoolData.create(parsed.data);
-    request.subscribe({
+    this.write.send(request, {
       next: (school) => {
-        this.saving.set(false);
         if (!current) {
           void this.router.navigate(['/schools', school.id]);
           return;
@@ -151,7 +148,6 @@ export class SchoolDetail {
         this.saved.set(true);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });

@@ -17,6 +17,7 @@ import type { StudentDetail } from '@shared/api/student';
 import { isConflict } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { StudentData } from './student-data';
+import { createWrite } from '../../core/state/write';
 
 /** The student's school, the "Move to another school" action, and the moves so far. */
 @Component({
@@ -136,6 +137,7 @@ import { StudentData } from './student-data';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class StudentMoves {
+  private readonly write = createWrite();
   private readonly studentData = inject(StudentData);
 
   readonly student = input.required<StudentDetail>();
@@ -158,25 +160,27 @@ export class StudentMoves {
     if (!toSchoolId) return;
     this.busy.set(true);
     this.message.set('');
-    this.studentData
-      .move(this.student().id, { toSchoolId, version: this.student().version })
-      .subscribe({
-        next: () => {
-          this.busy.set(false);
-          this.choosing.set(false);
+    const request = this.studentData.move(this.student().id, {
+      toSchoolId,
+      version: this.student().version,
+    });
+    this.write.send(request, {
+      next: () => {
+        this.busy.set(false);
+        this.choosing.set(false);
+        this.moved.emit();
+      },
+      error: (error: unknown) => {
+        this.busy.set(false);
+        if (isConflict(error)) {
+          this.message.set(
+            'Someone else changed this student meanwhile. The record is loaded again; try the move once more.',
+          );
           this.moved.emit();
-        },
-        error: (error: unknown) => {
-          this.busy.set(false);
-          if (isConflict(error)) {
-            this.message.set(
-              'Someone else changed this student meanwhile. The record is loaded again; try the move once more.',
-            );
-            this.moved.emit();
-          } else {
-            this.message.set(errorMessage(error));
-          }
-        },
-      });
+        } else {
+          this.message.set(errorMessage(error));
+        }
+      },
+    });
   }
 }

@@ -2,12 +2,10 @@ import {
   ChangeDetectionStrategy,
   Component,
   computed,
-  effect,
   inject,
   input,
   output,
   signal,
-  untracked,
 } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -29,6 +27,7 @@ import {
 import { errorMessage } from '../../core/parse';
 import { EnsembleData } from '../../ensembles/ensemble-data';
 import { EnrollmentData } from './enrollment-data';
+import { createWrite } from '../../core/state/write';
 
 const seatFields = enrollmentInputSchema.shape;
 
@@ -49,6 +48,7 @@ const seatFields = enrollmentInputSchema.shape;
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class StudentSeats {
+  private readonly write = createWrite();
   private readonly enrollmentData = inject(EnrollmentData);
   private readonly ensembleData = inject(EnsembleData);
 
@@ -59,8 +59,11 @@ export class StudentSeats {
   readonly changed = output<void>();
 
   protected readonly instruments = instruments;
-  protected readonly ensembles = signal<Ensemble[]>([]);
   private readonly schoolId = computed(() => this.student().schoolId);
+  private readonly schoolEnsembles = this.ensembleData.ofSchool(this.schoolId);
+  protected readonly ensembles = computed<Ensemble[]>(() =>
+    this.schoolEnsembles.hasValue() ? this.schoolEnsembles.value().rows : [],
+  );
   protected readonly seats = computed(() =>
     this.student().enrollments.filter((seat) => seat.active),
   );
@@ -79,13 +82,6 @@ export class StudentSeats {
     part: ['', schemaValidator(seatFields.part)],
     chair: [null as number | null, schemaValidator(seatFields.chair)],
   });
-
-  constructor() {
-    effect(() => {
-      const schoolId = this.schoolId();
-      untracked(() => this.loadEnsembles(schoolId));
-    });
-  }
 
   protected changeInstrument(seat: StudentEnrollment, change: MatSelectChange<string>): void {
     this.patch(seat, { instrumentId: change.value }, 'Instrument changed.');
@@ -116,7 +112,7 @@ export class StudentSeats {
     });
     this.busy.set(true);
     this.message.set('');
-    this.enrollmentData.create(input).subscribe({
+    this.write.send(this.enrollmentData.create(input), {
       next: (seat) => {
         this.busy.set(false);
         this.adding.set(false);
@@ -137,7 +133,7 @@ export class StudentSeats {
   ): void {
     this.busy.set(true);
     this.message.set('');
-    this.enrollmentData.update(seat.id, { ...change, version: seat.version }).subscribe({
+    this.write.send(this.enrollmentData.update(seat.id, { ...change, version: seat.version }), {
       next: () => {
         this.busy.set(false);
         this.message.set(done);
@@ -152,13 +148,6 @@ export class StudentSeats {
         );
         if (isConflict(error)) this.changed.emit();
       },
-    });
-  }
-
-  private loadEnsembles(schoolId: number): void {
-    this.ensembleData.list({ schoolId, sort: 'name:asc', limit: 200 }).subscribe({
-      next: (list) => this.ensembles.set(list.rows),
-      error: () => this.ensembles.set([]),
     });
   }
 }

@@ -29,6 +29,7 @@ import { chooseOnlySchool } from '../../core/forms/only-school';
 import { StudentData } from '../student-detail/student-data';
 import { gradeChoices, statusLabels } from './student-choices';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
+import { createWrite } from '../../core/state/write';
 
 const fields = studentInputSchema.shape;
 
@@ -50,6 +51,7 @@ const fields = studentInputSchema.shape;
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class StudentForm {
+  private readonly write = createWrite();
   private readonly studentData = inject(StudentData);
 
   /** The record being edited; null to add a student. */
@@ -71,7 +73,7 @@ export class StudentForm {
   protected readonly showsGuardian = computed(
     () => this.adding() || this.student()?.guardianName !== undefined,
   );
-  protected readonly saving = signal(false);
+  protected readonly saving = this.write.saving;
   protected readonly savedNote = signal(false);
   protected readonly conflict = signal(false);
   protected readonly saveError = signal('');
@@ -127,7 +129,6 @@ export class StudentForm {
     const guardian = this.showsGuardian()
       ? {}
       : { guardianName: undefined, guardianEmail: undefined };
-    this.saving.set(true);
     this.savedNote.set(false);
     this.saveError.set('');
     const request = student
@@ -136,14 +137,12 @@ export class StudentForm {
           studentPatchSchema.parse({ ...values, ...guardian, version: student.version }),
         )
       : this.studentData.create(studentInputSchema.parse({ ...values, schoolId }));
-    request.subscribe({
+    this.write.send(request, {
       next: (saved) => {
-        this.saving.set(false);
         this.savedNote.set(true);
         this.saved.emit(saved);
       },
       error: (error: unknown) => {
-        this.saving.set(false);
         this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
       },
     });

@@ -1,20 +1,10 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  computed,
-  effect,
-  inject,
-  input,
-  signal,
-  untracked,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { HttpErrorResponse } from '@angular/common/http';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import { forkJoin } from 'rxjs';
 import type { StudentProgress as Progress } from '@shared/api/analytics';
-import type { Ladder, LadderRequirement } from '@shared/api/ladder';
+import type { LadderRequirement } from '@shared/api/ladder';
 import type { PassOff } from '@shared/api/pass-off';
 import { instrumentById } from '@shared/music';
 import { CurrentUser } from '../../core/auth/current-user';
@@ -33,12 +23,6 @@ import {
 } from '../../ladder/requirement-text';
 import { recordingUrl } from '../../pass-offs/pass-off-data';
 import { StudentProgressData } from './student-progress-data';
-
-type Load =
-  | { kind: 'loading' }
-  | { kind: 'missing' }
-  | { kind: 'error'; message: string }
-  | { kind: 'ready' };
 
 /** The instrument practice links are written for when the student has none on record. */
 const fallbackInstrument = 'clarinet';
@@ -62,9 +46,33 @@ export class StudentProgress {
   /** The route's `:id`: the student's id. */
   readonly id = input.required<string>();
 
-  protected readonly load = signal<Load>({ kind: 'loading' });
-  protected readonly progress = signal<Progress | null>(null);
-  protected readonly ladder = signal<Ladder | null>(null);
+  private readonly studentId = computed(() => {
+    const id = Number(this.id());
+    return Number.isInteger(id) && id > 0 ? id : undefined;
+  });
+  private readonly progressRef = this.progressData.progress(this.studentId);
+  private readonly inForce = this.ladderData.inForce();
+  protected readonly progress = computed<Progress | null>(() =>
+    this.progressRef.hasValue() ? this.progressRef.value() : null,
+  );
+  protected readonly ladder = computed(() =>
+    this.inForce.hasValue() ? this.inForce.value() : null,
+  );
+  /** The first failure of the two reads, if any. */
+  private readonly error = computed(() => this.progressRef.error() ?? this.inForce.error());
+  /** Which of the page's states to show: a student outside the caller's reach is "missing". */
+  protected readonly state = computed(() => {
+    if (this.studentId() === undefined) return 'missing';
+    const error = this.error();
+    if (error) {
+      const status = error instanceof HttpErrorResponse ? error.status : 0;
+      return status === 404 || status === 403 ? 'missing' : 'error';
+    }
+    return this.progress() && this.ladder() ? 'ready' : 'loading';
+  });
+  protected readonly failure = computed(() =>
+    errorMessage(this.error(), 'The progress page could not be loaded.'),
+  );
   protected readonly isStudent = this.currentUser.me()?.role === 'student';
   protected readonly canSeeRecord = this.currentUser.can('roster:read');
   protected readonly canEnter = this.currentUser.can('pass-offs:write');
@@ -109,13 +117,6 @@ export class StudentProgress {
   protected readonly rungTitleText = rungTitleText;
   protected readonly recordingUrl = recordingUrl;
 
-  constructor() {
-    effect(() => {
-      const id = Number(this.id());
-      untracked(() => this.fetch(id));
-    });
-  }
-
   protected practiceLink(requirement: LadderRequirement): Record<string, string> {
     return {
       ...practiceQuery(requirement, this.instrumentId()),
@@ -135,29 +136,8 @@ export class StudentProgress {
     return passOff ? `${this.scaleText(passOff)}, ${dateText(passOff.heardOn)}` : 'Recording';
   }
 
-  protected fetch(id = Number(this.id())): void {
-    this.load.set({ kind: 'loading' });
-    if (!Number.isInteger(id) || id <= 0) {
-      this.load.set({ kind: 'missing' });
-      return;
-    }
-    forkJoin([this.progressData.get(id), this.ladderData.active()]).subscribe({
-      next: ([progress, ladder]) => {
-        this.progress.set(progress);
-        this.ladder.set(ladder);
-        this.load.set({ kind: 'ready' });
-      },
-      error: (error: unknown) => {
-        const status = error instanceof HttpErrorResponse ? error.status : 0;
-        this.load.set(
-          status === 404 || status === 403
-            ? { kind: 'missing' }
-            : {
-                kind: 'error',
-                message: errorMessage(error, 'The progress page could not be loaded.'),
-              },
-        );
-      },
-    });
+  protected fetch(): void {
+    this.progressRef.reload();
+    this.inForce.reload();
   }
 }

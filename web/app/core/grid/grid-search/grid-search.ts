@@ -18,7 +18,8 @@ import { MatInputModule } from '@angular/material/input';
         matInput
         type="search"
         [value]="value()"
-        (input)="value.set($any($event.target).value)"
+        #searchBox
+        (input)="value.set(searchBox.value)"
         [placeholder]="placeholder()"
         [attr.data-testid]="testId()"
       />
