@@ -15,11 +15,9 @@ let coordinator: SignedInClient;
 let director: SignedInClient;
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-  ]);
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director } = started.clients);
 });
 afterAll(() => app?.close());
 
