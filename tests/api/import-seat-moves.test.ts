@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
 import { describeSeatMoves } from '@shared/roster';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -42,8 +42,9 @@ async function seatsOf(number: string): Promise<Record<string, boolean>> {
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  coordinator = await app.signIn(demoEmail('coordinator'));
+  const started = await startTestApp({ signIn: ['coordinator'] });
+  app = started;
+  ({ coordinator } = started.clients);
 });
 afterAll(() => app?.close());
 
