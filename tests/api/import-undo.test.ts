@@ -54,8 +54,9 @@ async function rosterState() {
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  coordinator = await app.signIn(demoEmail('coordinator'));
+  const started = await startTestApp({ signIn: ['coordinator'] });
+  app = started;
+  ({ coordinator } = started.clients);
 });
 afterAll(() => app?.close());
 
