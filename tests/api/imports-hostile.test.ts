@@ -2,14 +2,15 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { toRosterCsv } from '@shared/roster';
 import { inventedRoster } from '../bench/roster-import';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
 
 beforeAll(async () => {
-  app = await startTestApp();
-  coordinator = await app.signIn(demoEmail('coordinator'));
+  const started = await startTestApp({ signIn: ['coordinator'] });
+  app = started;
+  ({ coordinator } = started.clients);
 });
 afterAll(async () => {
   await app?.close();
