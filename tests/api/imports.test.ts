@@ -76,8 +76,9 @@ async function student(number: string) {
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  coordinator = await app.signIn(demoEmail('coordinator'));
+  const started = await startTestApp({ signIn: ['coordinator'] });
+  app = started;
+  ({ coordinator } = started.clients);
 });
 afterAll(() => app?.close());
 
