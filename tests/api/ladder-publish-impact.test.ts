@@ -9,7 +9,7 @@ import {
 import { studentProgressSchema } from '@shared/api/analytics';
 import { currentRung, type PassOffRecord } from '@shared/ladder/index';
 import { toRuleRungs } from '../../server/ladder/ladder-queries';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -18,12 +18,9 @@ let student: SignedInClient;
 let ownStudentId: number;
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'student.hpms'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, 'student.hpms': student } = started.clients);
   ownStudentId = (await student.get('/api/me')).body.studentId;
 });
 afterAll(() => app?.close());
