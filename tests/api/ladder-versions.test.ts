@@ -6,7 +6,7 @@ import { rowsOf } from '../../server/db/client';
 import { activeRuleLadder } from '../../server/ladder/ladder-queries';
 import { familyOf, studentInstruments } from '../../server/ladder/student-families';
 import { publishSeen } from '../support/ladder-publish';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -15,12 +15,9 @@ let student: SignedInClient;
 let ownStudentId: number;
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'student.hpms'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, 'student.hpms': student } = started.clients);
   ownStudentId = (await student.get('/api/me')).body.studentId;
 });
 afterAll(() => app?.close());
