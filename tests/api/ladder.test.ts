@@ -13,12 +13,9 @@ let director: SignedInClient;
 let student: SignedInClient;
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'student.hpms'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, 'student.hpms': student } = started.clients);
 });
 afterAll(() => app?.close());
 
