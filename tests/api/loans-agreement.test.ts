@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -58,14 +58,10 @@ function hiddenHash(page: string): string {
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, technician] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('technician')),
-  ]);
-  const schools = await coordinator.get('/api/schools?code=HPMS');
-  hpmsId = schools.body.rows[0].id;
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, technician } = started.clients);
+  hpmsId = started.schoolIds['HPMS']!;
 });
 afterAll(() => app?.close());
 
