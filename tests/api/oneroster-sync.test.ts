@@ -46,8 +46,9 @@ async function studentTotal(): Promise<number> {
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  coordinator = await app.signIn(demoEmail('coordinator'));
+  const started = await startTestApp({ signIn: ['coordinator'] });
+  app = started;
+  ({ coordinator } = started.clients);
 }, 120_000);
 afterAll(() => app?.close());
 
