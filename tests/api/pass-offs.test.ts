@@ -5,7 +5,7 @@ import request from 'supertest';
 import { passOffBatchResultSchema, passOffSchema } from '@shared/api/pass-off';
 import { listResponseSchema } from '@shared/api/list';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -31,19 +31,10 @@ async function firstStudentOf(code: string, except: number[] = []): Promise<numb
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, otherDirector, viewer, technician, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('director.qhms')),
-    app.signIn(demoEmail('viewer.trhs')),
-    app.signIn(demoEmail('technician')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
-  const schools = await coordinator.get('/api/schools?limit=100');
-  schoolIds = Object.fromEntries(
-    schools.body.rows.map((row: { code: string; id: number }) => [row.code, row.id]),
-  );
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'director.qhms', 'viewer.trhs', 'technician', 'student.hpms'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, 'director.qhms': otherDirector, 'viewer.trhs': viewer, technician, 'student.hpms': student } = started.clients);
+  schoolIds = started.schoolIds;
   ownStudentId = (await student.get('/api/me')).body.studentId;
   hpmsStudentId = await firstStudentOf('HPMS', [ownStudentId]);
   qhmsStudentId = await firstStudentOf('QHMS');
