@@ -106,14 +106,10 @@ function put(client: SignedInClient, path: string) {
 const sessionIdOf = (hostedUrl: string) => new URL(hostedUrl).pathname.split('/').pop()!;
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, technician] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('technician')),
-  ]);
-  const schools = await coordinator.get('/api/schools?code=HPMS');
-  hpmsId = schools.body.rows[0].id;
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, technician } = started.clients);
+  hpmsId = started.schoolIds['HPMS']!;
   const schedule = await coordinator.get('/api/fees/schedule');
   const saved = await put(coordinator, '/api/fees/schedule').send({
     entries: [
