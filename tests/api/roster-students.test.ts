@@ -55,19 +55,10 @@ function newStudent(overrides: object = {}) {
 }
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, otherDirector, viewer, technician, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('director.qhms')),
-    app.signIn(demoEmail('viewer.trhs')),
-    app.signIn(demoEmail('technician')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
-  const schools = await coordinator.get('/api/schools?limit=100');
-  schoolIds = Object.fromEntries(
-    schools.body.rows.map((row: { code: string; id: number }) => [row.code, row.id]),
-  );
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'director.qhms', 'viewer.trhs', 'technician', 'student.hpms'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, 'director.qhms': otherDirector, 'viewer.trhs': viewer, technician, 'student.hpms': student } = started.clients);
+  schoolIds = started.schoolIds;
 });
 afterAll(() => app?.close());
 
