@@ -3,7 +3,7 @@ import request from 'supertest';
 import { gunzipSync } from 'node:zlib';
 import { rowsOf } from '../../server/db/client';
 import { studentCountDrift } from '../support/student-counts';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
 import { expectedStart, readRosterBefore } from '../support/year-start-expectation';
 
 let app: TestApp;
@@ -14,12 +14,9 @@ let student: SignedInClient;
 const next = { name: '2027-28', startsOn: '2027-08-16', endsOn: '2028-06-09' };
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'student.hpms'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, 'student.hpms': student } = started.clients);
 });
 afterAll(() => app?.close());
 
