@@ -26,15 +26,9 @@ const wave = Buffer.from(wavBytes(synthesised.samples, synthesised.sampleRate));
 const analysis = analyseTake(synthesised.samples, synthesised.sampleRate, notes, 160);
 
 beforeAll(async () => {
-  app = await startTestApp();
-  [coordinator, director, otherDirector, viewer, technician, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('director.qhms')),
-    app.signIn(demoEmail('viewer.trhs')),
-    app.signIn(demoEmail('technician')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
+  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'director.qhms', 'viewer.trhs', 'technician', 'student.hpms'] });
+  app = started;
+  ({ coordinator, 'director.hpms': director, 'director.qhms': otherDirector, 'viewer.trhs': viewer, technician, 'student.hpms': student } = started.clients);
 });
 afterAll(() => app?.close());
 
