@@ -13,11 +13,7 @@ beforeAll(async () => {
   const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
   app = started;
   ({ coordinator, 'director.hpms': director, technician } = started.clients);
-  const schools = (await coordinator.get('/api/schools?limit=100')).body.rows as {
-    id: number;
-    code: string;
-  }[];
-  hpms = schools.find((school) => school.code === 'HPMS')!.id;
+  hpms = started.schoolIds['HPMS']!;
 });
 afterAll(() => app?.close());
 
