@@ -19,7 +19,7 @@ let coordinator: ReturnType<TestApp['bearer']>;
 let director: ReturnType<TestApp['bearer']>;
 let viewer: ReturnType<TestApp['bearer']>;
 let student: ReturnType<TestApp['bearer']>;
-let schoolId: Map<string, number>;
+let schoolIds: Record<string, number>;
 
 interface LastYearRow {
   student_id: number;
@@ -31,18 +31,15 @@ interface LastYearRow {
 let lastYear: LastYearRow[];
 
 beforeAll(async () => {
-  app = await startTestApp();
+  const started = await startTestApp();
+  app = started;
+  schoolIds = started.schoolIds;
   [coordinator, director, viewer, student] = await Promise.all(
     ['coordinator', 'director.hpms', 'viewer.trhs', 'student.hpms'].map(async (local) =>
       app.bearer(await app.token(demoEmail(local))),
     ),
   );
   const db = app.database.db;
-  schoolId = new Map(
-    rowsOf<{ id: number; code: string }>(await db.execute(sql`select id, code from schools`)).map(
-      (row) => [row.code, row.id],
-    ),
-  );
   // The plain rows the figures are counted from: last year's history and today's status.
   lastYear = rowsOf<LastYearRow>(
     await db.execute(sql`
@@ -96,7 +93,7 @@ describe('Year over year', () => {
 
   it('should name exactly the students who stopped at a transition', async () => {
     const response = await coordinator.get(
-      `/api/analytics/retention/students?schoolId=${schoolId.get('FBES')}&grade=5&stopped=true&limit=500`,
+      `/api/analytics/retention/students?schoolId=${schoolIds['FBES']}&grade=5&stopped=true&limit=500`,
     );
     expect(response.status).toBe(200);
     const list = retentionStudentListSchema.parse(response.body);
@@ -133,11 +130,11 @@ describe('Year over year', () => {
     expect(names.rows.every((row) => row.lastSchoolCode === 'HPMS')).toBe(true);
     // Another school's names are not there to be asked for.
     expect(
-      (await director.get(`/api/analytics/retention/students?schoolId=${schoolId.get('QHMS')}`))
+      (await director.get(`/api/analytics/retention/students?schoolId=${schoolIds['QHMS']}`))
         .status,
     ).toBe(404);
     expect(
-      (await director.get(`/api/analytics/year-over-year?schoolId=${schoolId.get('FBES')}`)).status,
+      (await director.get(`/api/analytics/year-over-year?schoolId=${schoolIds['FBES']}`)).status,
     ).toBe(404);
     const viewed = yearOverYearSchema.parse(
       (await viewer.get('/api/analytics/year-over-year')).body,
@@ -232,7 +229,7 @@ describe('Year over year', () => {
   });
 
   it('should follow a status change made today in the counts and the names', async () => {
-    const hpms = schoolId.get('HPMS')!;
+    const hpms = schoolIds['HPMS']!;
     const figuresOf = async () =>
       yearOverYearSchema.parse(
         (await coordinator.get(`/api/analytics/year-over-year?schoolId=${hpms}`)).body,
