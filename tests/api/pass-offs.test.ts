@@ -31,9 +31,25 @@ async function firstStudentOf(code: string, except: number[] = []): Promise<numb
 }
 
 beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'director.qhms', 'viewer.trhs', 'technician', 'student.hpms'] });
+  const started = await startTestApp({
+    signIn: [
+      'coordinator',
+      'director.hpms',
+      'director.qhms',
+      'viewer.trhs',
+      'technician',
+      'student.hpms',
+    ],
+  });
   app = started;
-  ({ coordinator, 'director.hpms': director, 'director.qhms': otherDirector, 'viewer.trhs': viewer, technician, 'student.hpms': student } = started.clients);
+  ({
+    coordinator,
+    'director.hpms': director,
+    'director.qhms': otherDirector,
+    'viewer.trhs': viewer,
+    technician,
+    'student.hpms': student,
+  } = started.clients);
   schoolIds = started.schoolIds;
   ownStudentId = (await student.get('/api/me')).body.studentId;
   hpmsStudentId = await firstStudentOf('HPMS', [ownStudentId]);
