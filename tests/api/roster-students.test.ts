@@ -55,9 +55,25 @@ function newStudent(overrides: object = {}) {
 }
 
 beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'director.qhms', 'viewer.trhs', 'technician', 'student.hpms'] });
+  const started = await startTestApp({
+    signIn: [
+      'coordinator',
+      'director.hpms',
+      'director.qhms',
+      'viewer.trhs',
+      'technician',
+      'student.hpms',
+    ],
+  });
   app = started;
-  ({ coordinator, 'director.hpms': director, 'director.qhms': otherDirector, 'viewer.trhs': viewer, technician, 'student.hpms': student } = started.clients);
+  ({
+    coordinator,
+    'director.hpms': director,
+    'director.qhms': otherDirector,
+    'viewer.trhs': viewer,
+    technician,
+    'student.hpms': student,
+  } = started.clients);
   schoolIds = started.schoolIds;
 });
 afterAll(() => app?.close());
