@@ -44,7 +44,10 @@ describe('School years', () => {
       expect(response.status).toBe(200);
       expect(response.body.rows.filter((row: { current: boolean }) => row.current)).toHaveLength(1);
       // The demo's years, oldest first: 2025-26 ended, 2026-27 current.
-      expect(response.body.rows.map((row: { name: string }) => row.name)).toEqual(['2025-26', '2026-27']);
+      expect(response.body.rows.map((row: { name: string }) => row.name)).toEqual([
+        '2025-26',
+        '2026-27',
+      ]);
       expect(response.body.rows[1].current).toBe(true);
     }
     expect((await app.anonymous.get('/api/school-years')).status).toBe(401);
