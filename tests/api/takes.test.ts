@@ -26,9 +26,25 @@ const wave = Buffer.from(wavBytes(synthesised.samples, synthesised.sampleRate));
 const analysis = analyseTake(synthesised.samples, synthesised.sampleRate, notes, 160);
 
 beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'director.qhms', 'viewer.trhs', 'technician', 'student.hpms'] });
+  const started = await startTestApp({
+    signIn: [
+      'coordinator',
+      'director.hpms',
+      'director.qhms',
+      'viewer.trhs',
+      'technician',
+      'student.hpms',
+    ],
+  });
   app = started;
-  ({ coordinator, 'director.hpms': director, 'director.qhms': otherDirector, 'viewer.trhs': viewer, technician, 'student.hpms': student } = started.clients);
+  ({
+    coordinator,
+    'director.hpms': director,
+    'director.qhms': otherDirector,
+    'viewer.trhs': viewer,
+    technician,
+    'student.hpms': student,
+  } = started.clients);
 });
 afterAll(() => app?.close());
 
