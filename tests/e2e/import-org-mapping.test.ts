@@ -1,26 +1,10 @@
 import { strToU8, zipSync } from 'fflate';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import {
-  chooseOption,
-  launchBrowser,
-  localOnlyContext,
-  saveScreenshot,
-  signInAs,
-} from '../support/browser';
+import { useBrowserApp } from '../support/browser-app';
+import { chooseOption, saveScreenshot } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 const crlf = (lines: string[]) => strToU8(`${lines.join('\r\n')}\r\n`);
 
@@ -88,7 +72,7 @@ const bundle = Buffer.from(
 
 async function schoolOf(studentNumber: string): Promise<string | undefined> {
   const rows = rowsOf<{ code: string }>(
-    await app.database.db.execute(
+    await e2e.app.database.db.execute(
       `select schools.code from students join schools on schools.id = students.school_id
        where students.student_number = '${studentNumber}'` as never,
     ),
@@ -98,11 +82,11 @@ async function schoolOf(studentNumber: string): Promise<string | undefined> {
 
 describe('Roster import wizard: OneRoster orgs that match no school', () => {
   it('should list the unmapped orgs, map one to a school and create another, re-preview and import', async () => {
-    const { context, outside } = await localOnlyContext(browser);
-    const page = await context.newPage();
-    await page.setViewportSize({ width: 1280, height: 900 });
-    await signInAs(page, app.url, demoEmail('coordinator'), '/imports');
-    await page.waitForURL(`${app.url}/imports`);
+    const { context, outside, page } = await e2e.signedInPage('coordinator', {
+      path: '/imports',
+      viewport: { width: 1280, height: 900 },
+    });
+    await page.waitForURL(`${e2e.app.url}/imports`);
 
     await page.getByTestId('roster-file').setInputFiles({
       name: 'saltmarsh-export.zip',
