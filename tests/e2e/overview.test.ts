@@ -1,25 +1,10 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Locator, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import type { Locator, Page } from 'playwright-core';
 import { overviewSchema, type Overview } from '@shared/api/analytics';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import {
-  chooseOption,
-  launchBrowser,
-  localOnlyContext,
-  saveScreenshot,
-  signInAs,
-} from '../support/browser';
+import { useBrowserApp } from '../support/browser-app';
+import { chooseOption, saveScreenshot } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 /** How long a check waits: the figures are counted on the server when the page opens. */
 const patient = { timeout: 20_000 };
@@ -54,10 +39,8 @@ function barsFilled(card: Locator, colour: string) {
 
 describe('Overview', () => {
   it('should draw the coordinator the district charts, the same figures as tables, and drill into a bar', async () => {
-    const { context, outside } = await localOnlyContext(browser);
-    const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'));
-    await page.waitForURL(`${app.url}/overview`);
+    const { context, outside, page } = await e2e.signedInPage('coordinator');
+    await page.waitForURL(`${e2e.app.url}/overview`);
     const byRung = page.getByTestId('chart-students-by-rung');
     await chartDrawn(byRung);
     for (const chart of [
@@ -124,10 +107,8 @@ describe('Overview', () => {
   });
 
   it('should show a director only the figures of their school, stacked by grade, with drills that stay in it', async () => {
-    const { context, outside } = await localOnlyContext(browser);
-    const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'));
-    await page.waitForURL(`${app.url}/overview`);
+    const { context, outside, page } = await e2e.signedInPage('director.hpms');
+    await page.waitForURL(`${e2e.app.url}/overview`);
     const byRung = page.getByTestId('chart-students-by-rung');
     await chartDrawn(byRung);
     await expect.poll(() => byRung.locator('h2').innerText()).toBe('Students by rung, by grade');
@@ -170,10 +151,8 @@ describe('Overview', () => {
   });
 
   it('should filter the coordinator figures to one school and one grade', async () => {
-    const { context } = await localOnlyContext(browser);
-    const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'));
-    await page.waitForURL(`${app.url}/overview`);
+    const { context, page } = await e2e.signedInPage('coordinator');
+    await page.waitForURL(`${e2e.app.url}/overview`);
     await chartDrawn(page.getByTestId('chart-students-by-rung'));
     await chooseOption(page, 'filter-school', /^HPMS/);
     await page.waitForURL(/schoolId=\d+/);
@@ -198,10 +177,8 @@ describe('Overview', () => {
   });
 
   it('should list the students ready for an audition on the chosen requirements', async () => {
-    const { context } = await localOnlyContext(browser);
-    const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'));
-    await page.waitForURL(`${app.url}/overview`);
+    const { context, page } = await e2e.signedInPage('coordinator');
+    await page.waitForURL(`${e2e.app.url}/overview`);
     const panel = page.getByTestId('audition-ready');
     await panel.getByRole('combobox', { name: 'Requirements' }).click();
     const options = page.getByRole('option');
