@@ -1,26 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Locator, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import type { Locator, Page } from 'playwright-core';
 import { yearOverYearSchema, type YearOverYear } from '@shared/api/year-over-year';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import {
-  chooseOption,
-  launchBrowser,
-  localOnlyContext,
-  saveScreenshot,
-  signInAs,
-} from '../support/browser';
+import { useBrowserApp } from '../support/browser-app';
+import { chooseOption, saveScreenshot } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 const patient = { timeout: 30_000 };
 
@@ -43,10 +28,10 @@ async function tableTexts(table: Locator): Promise<string[][]> {
 
 describe('Year over year', () => {
   it('should show the coordinator retention by transition, with the names of who stopped', async () => {
-    const { context, outside } = await localOnlyContext(browser);
-    const page = await context.newPage();
-    await page.setViewportSize({ width: 1360, height: 900 });
-    await signInAs(page, app.url, demoEmail('coordinator'), '/overview');
+    const { context, outside, page } = await e2e.signedInPage('coordinator', {
+      path: '/overview',
+      viewport: { width: 1360, height: 900 },
+    });
     const transitions = page.getByTestId('chart-retention-by-transition');
     await transitions.scrollIntoViewIfNeeded(patient);
     // ECharts' SVG renderer draws the bars as paths.
@@ -95,10 +80,10 @@ describe('Year over year', () => {
   }, 120_000);
 
   it('should show rung by grade against last year at the same day, as a chart and as a table', async () => {
-    const { context, outside } = await localOnlyContext(browser);
-    const page = await context.newPage();
-    await page.setViewportSize({ width: 1360, height: 900 });
-    await signInAs(page, app.url, demoEmail('coordinator'), '/overview');
+    const { context, outside, page } = await e2e.signedInPage('coordinator', {
+      path: '/overview',
+      viewport: { width: 1360, height: 900 },
+    });
     const card = page.getByTestId('chart-rung-by-grade-years');
     await card.scrollIntoViewIfNeeded(patient);
     // Two bars a grade, drawn as SVG paths by ECharts' SVG renderer.
@@ -148,16 +133,16 @@ describe('Year over year', () => {
   }, 120_000);
 
   it('should show a director a past year’s pass-offs, read-only', async () => {
-    const { context, outside } = await localOnlyContext(browser);
-    const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'), '/pass-offs');
+    const { context, outside, page } = await e2e.signedInPage('director.hpms', {
+      path: '/pass-offs',
+    });
     await page.getByTestId('choose-ensemble').waitFor(patient);
     await chooseOption(page, 'filter-year', '2025-26');
     await page.getByTestId('past-year-note').waitFor(patient);
     // No entry grid for a past year: only the list of what was heard.
     expect(await page.getByTestId('choose-ensemble').count()).toBe(0);
     const [{ heard }] = rowsOf<{ heard: number }>(
-      await app.database.db.execute(
+      await e2e.app.database.db.execute(
         // A director reads the pass-offs of the students now at their schools, whenever heard.
         `select count(*)::int as heard from pass_offs p join students st on st.id = p.student_id
          join schools s on s.id = st.school_id
