@@ -46,7 +46,12 @@ export interface TestApp {
   /** A fresh API token for the user. */
   token(email: string): Promise<string>;
   /** Requests with `Authorization: Bearer <token>`. */
-  bearer(token: string): { get(path: string): request.Test; post(path: string, body?: object): request.Test; patch(path: string, body?: object): request.Test; delete(path: string): request.Test };
+  bearer(token: string): {
+    get(path: string): request.Test;
+    post(path: string, body?: object): request.Test;
+    patch(path: string, body?: object): request.Test;
+    delete(path: string): request.Test;
+  };
   close(): Promise<void>;
 }
 
@@ -59,6 +64,28 @@ export interface StartedTestApp<Name extends string> extends TestApp {
 }
 
 export const demoEmail = (local: string) => `${local}@merrowbasin.example`;
+
+/** Demo users who between them hold every role, for tests that ask each role in turn. */
+export const everyRole = [
+  'coordinator',
+  'director.hpms',
+  'director.qhms',
+  'viewer.trhs',
+  'technician',
+  'student.hpms',
+] as const;
+
+/** The clients of `everyRole` by role; `otherDirector` directs a school the student is not at. */
+export function byRole(clients: Record<(typeof everyRole)[number], SignedInClient>) {
+  return {
+    coordinator: clients.coordinator,
+    director: clients['director.hpms'],
+    otherDirector: clients['director.qhms'],
+    viewer: clients['viewer.trhs'],
+    technician: clients.technician,
+    student: clients['student.hpms'],
+  };
+}
 
 /**
  * Starts the whole app for a test file, from the demo district unless told otherwise, and signs
@@ -75,11 +102,17 @@ export async function startTestApp<const Name extends string = never>(
   } = {},
 ): Promise<StartedTestApp<Name>> {
   const app = await startApp(options);
-  const signedIn = await Promise.all((options.signIn ?? []).map((name) => app.signIn(demoEmail(name))));
-  const schoolRows = await app.database.db.select({ id: schools.id, code: schools.code }).from(schools);
+  const signedIn = await Promise.all(
+    (options.signIn ?? []).map((name) => app.signIn(demoEmail(name))),
+  );
+  const schoolRows = await app.database.db
+    .select({ id: schools.id, code: schools.code })
+    .from(schools);
   return {
     ...app,
-    clients: Object.fromEntries((options.signIn ?? []).map((name, index) => [name, signedIn[index]!])) as Record<Name, SignedInClient>,
+    clients: Object.fromEntries(
+      (options.signIn ?? []).map((name, index) => [name, signedIn[index]!]),
+    ) as Record<Name, SignedInClient>,
     schoolIds: Object.fromEntries(schoolRows.map((row) => [row.code, row.id])),
   };
 }
@@ -108,10 +141,18 @@ async function startApp(options: {
     TUTTI_SECRET_KEY: 'test-secret-key-for-stored-secrets-0123456789',
     ...(options.payments === false
       ? {}
-      : { PAYMENTS_SECRET_KEY: payments.secretKey, PAYMENTS_WEBHOOK_SECRET: payments.webhookSecret, PAYMENTS_API_URL: payments.url }),
+      : {
+          PAYMENTS_SECRET_KEY: payments.secretKey,
+          PAYMENTS_WEBHOOK_SECRET: payments.webhookSecret,
+          PAYMENTS_API_URL: payments.url,
+        }),
     ...options.environment,
   });
-  const app = await createApp(config, { database, logger: options.logger ?? createLogger('silent'), serveWeb: options.serveWeb ?? false });
+  const app = await createApp(config, {
+    database,
+    logger: options.logger ?? createLogger('silent'),
+    serveWeb: options.serveWeb ?? false,
+  });
   const server = createHttpServer(app);
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const url = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
@@ -121,8 +162,16 @@ async function startApp(options: {
     const agent = request(url);
     return {
       get: (target: string) => agent.get(target).set(headers),
-      post: (target: string, body?: object) => agent.post(target).set(headers).send(body ?? {}),
-      patch: (target: string, body?: object) => agent.patch(target).set(headers).send(body ?? {}),
+      post: (target: string, body?: object) =>
+        agent
+          .post(target)
+          .set(headers)
+          .send(body ?? {}),
+      patch: (target: string, body?: object) =>
+        agent
+          .patch(target)
+          .set(headers)
+          .send(body ?? {}),
       delete: (target: string) => agent.delete(target).set(headers),
     };
   };
@@ -140,7 +189,8 @@ async function startApp(options: {
       const jar = new CookieJar();
       const { callbackUrl } = await walkSignIn(`${url}/auth/sign-in`, email, jar);
       const landing = await jar.fetch(callbackUrl);
-      if (landing.status !== 302) throw new Error(`Sign-in callback answered ${landing.status}: ${await landing.text()}`);
+      if (landing.status !== 302)
+        throw new Error(`Sign-in callback answered ${landing.status}: ${await landing.text()}`);
       const cookie = jar.header(url) ?? '';
       return { jar, cookie, ...withHeaders({ Cookie: cookie, Origin: url }) };
     },
@@ -157,7 +207,13 @@ async function startApp(options: {
       });
       await (app.locals['stop'] as () => Promise<void>)();
       // A test may have stopped a fake on purpose already.
-      await Promise.all([oidc.close().catch(() => undefined), mail.close().catch(() => undefined), payments.close().catch(() => undefined), oneRoster.close().catch(() => undefined), database.close()]);
+      await Promise.all([
+        oidc.close().catch(() => undefined),
+        mail.close().catch(() => undefined),
+        payments.close().catch(() => undefined),
+        oneRoster.close().catch(() => undefined),
+        database.close(),
+      ]);
       fs.rmSync(dataDir, { recursive: true, force: true });
     },
   };
