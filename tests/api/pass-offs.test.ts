@@ -5,7 +5,13 @@ import request from 'supertest';
 import { passOffBatchResultSchema, passOffSchema } from '@shared/api/pass-off';
 import { listResponseSchema } from '@shared/api/list';
 import { rowsOf } from '../../server/db/client';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import {
+  byRole,
+  everyRole,
+  startTestApp,
+  type SignedInClient,
+  type TestApp,
+} from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -31,25 +37,9 @@ async function firstStudentOf(code: string, except: number[] = []): Promise<numb
 }
 
 beforeAll(async () => {
-  const started = await startTestApp({
-    signIn: [
-      'coordinator',
-      'director.hpms',
-      'director.qhms',
-      'viewer.trhs',
-      'technician',
-      'student.hpms',
-    ],
-  });
+  const started = await startTestApp({ signIn: everyRole });
   app = started;
-  ({
-    coordinator,
-    'director.hpms': director,
-    'director.qhms': otherDirector,
-    'viewer.trhs': viewer,
-    technician,
-    'student.hpms': student,
-  } = started.clients);
+  ({ coordinator, director, otherDirector, viewer, technician, student } = byRole(started.clients));
   schoolIds = started.schoolIds;
   ownStudentId = (await student.get('/api/me')).body.studentId;
   hpmsStudentId = await firstStudentOf('HPMS', [ownStudentId]);
