@@ -3,7 +3,14 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
 import { keyFirstFrom } from '../../server/students/students-queries';
 import { studentCountDrift } from '../support/student-counts';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import {
+  byRole,
+  demoEmail,
+  everyRole,
+  startTestApp,
+  type SignedInClient,
+  type TestApp,
+} from '../support/test-app';
 
 interface Row {
   id: number;
@@ -55,25 +62,9 @@ function newStudent(overrides: object = {}) {
 }
 
 beforeAll(async () => {
-  const started = await startTestApp({
-    signIn: [
-      'coordinator',
-      'director.hpms',
-      'director.qhms',
-      'viewer.trhs',
-      'technician',
-      'student.hpms',
-    ],
-  });
+  const started = await startTestApp({ signIn: everyRole });
   app = started;
-  ({
-    coordinator,
-    'director.hpms': director,
-    'director.qhms': otherDirector,
-    'viewer.trhs': viewer,
-    technician,
-    'student.hpms': student,
-  } = started.clients);
+  ({ coordinator, director, otherDirector, viewer, technician, student } = byRole(started.clients));
   schoolIds = started.schoolIds;
 });
 afterAll(() => app?.close());
