@@ -9,7 +9,14 @@ import { rowsOf } from '../../server/db/client';
 import { recordingPath } from '../../server/pass-offs/recordings-store';
 import { removeExpiredTakes } from '../../server/takes/takes-service';
 import { synthTake, wavBytes } from '../support/synth-take';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import {
+  byRole,
+  demoEmail,
+  everyRole,
+  startTestApp,
+  type SignedInClient,
+  type TestApp,
+} from '../support/test-app';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -26,25 +33,9 @@ const wave = Buffer.from(wavBytes(synthesised.samples, synthesised.sampleRate));
 const analysis = analyseTake(synthesised.samples, synthesised.sampleRate, notes, 160);
 
 beforeAll(async () => {
-  const started = await startTestApp({
-    signIn: [
-      'coordinator',
-      'director.hpms',
-      'director.qhms',
-      'viewer.trhs',
-      'technician',
-      'student.hpms',
-    ],
-  });
+  const started = await startTestApp({ signIn: everyRole });
   app = started;
-  ({
-    coordinator,
-    'director.hpms': director,
-    'director.qhms': otherDirector,
-    'viewer.trhs': viewer,
-    technician,
-    'student.hpms': student,
-  } = started.clients);
+  ({ coordinator, director, otherDirector, viewer, technician, student } = byRole(started.clients));
 });
 afterAll(() => app?.close());
 
