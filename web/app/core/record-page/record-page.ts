@@ -31,7 +31,7 @@ import { PageState } from '../state/page-state';
             [title]="'The ' + noun() + ' could not be opened'"
             [message]="message()"
           >
-            <a mat-stroked-button [routerLink]="backLink()">Back to {{ backLabel().toLowerCase() }}</a>
+            <a mat-stroked-button [routerLink]="backLink()">{{ backText() ?? 'Back to ' + backLabel().toLowerCase() }}</a>
           </tb-page-state>
         }
         @case ('ready') {
@@ -55,6 +55,8 @@ export class RecordPage {
   /** The list the back link returns to, and its name on screen ("Schools"). */
   readonly backLink = input.required<string>();
   readonly backLabel = input.required<string>();
+  /** The error state's button, when not "Back to" the list's name ("Back to counts"). */
+  readonly backText = input<string | null>(null);
   /** What the record is called in the loading and error states ("school"). */
   readonly noun = input.required<string>();
   /** The page's title ("Add a school", the school's name); none when the page draws its own. */
