@@ -34,7 +34,7 @@ import { fieldMessage } from './record-form';
           matInput
           [type]="type()"
           [formControl]="control()"
-          autocomplete="off"
+          [attr.autocomplete]="autocomplete()"
           [attr.placeholder]="placeholder()"
           [attr.data-testid]="testId()"
         />
@@ -66,6 +66,8 @@ export class Field implements DoCheck {
   readonly rows = input<number | null>(null);
   readonly hint = input('');
   readonly placeholder = input<string | null>(null);
+  /** The browser's autofill hint (HTML, "autocomplete" attribute): 'organization', 'tel'. */
+  readonly autocomplete = input('off');
   /** The input's data-testid, for browser tests. */
   readonly testId = input<string | null>(null);
 

@@ -1,4 +1,10 @@
-import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  booleanAttribute,
+  computed,
+  input,
+} from '@angular/core';
 import type { Resource } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
@@ -31,7 +37,9 @@ import { PageState } from '../state/page-state';
             [title]="'The ' + noun() + ' could not be opened'"
             [message]="message()"
           >
-            <a mat-stroked-button [routerLink]="backLink()">Back to {{ backLabel().toLowerCase() }}</a>
+            <a mat-stroked-button [routerLink]="backLink()">{{
+              backText() ?? 'Back to ' + backLabel().toLowerCase()
+            }}</a>
           </tb-page-state>
         }
         @case ('ready') {
@@ -49,16 +57,21 @@ import { PageState } from '../state/page-state';
     </div>
   `,
   styleUrl: './record-page.scss',
+  host: { '[class.tight]': 'tight()' },
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class RecordPage {
   /** The list the back link returns to, and its name on screen ("Schools"). */
   readonly backLink = input.required<string>();
   readonly backLabel = input.required<string>();
+  /** The error state's button, when not "Back to" the list's name ("Back to counts"). */
+  readonly backText = input<string | null>(null);
   /** What the record is called in the loading and error states ("school"). */
   readonly noun = input.required<string>();
   /** The page's title ("Add a school", the school's name); none when the page draws its own. */
   readonly heading = input<string | null>(null);
+  /** An editor's page: a tighter back link, closer to the editor's own title. */
+  readonly tight = input(false, { transform: booleanAttribute });
   /** The record's resource; none for a record not made yet. */
   readonly record = input<Resource<unknown> | null>(null);
 

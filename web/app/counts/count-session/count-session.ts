@@ -12,11 +12,10 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { RouterLink } from '@angular/router';
 import { Subject, catchError, concatMap, firstValueFrom, map, of } from 'rxjs';
 import type { CountScan, ScanOutcome } from '@shared/api/count';
 import { errorMessage } from '../../core/parse';
-import { ResourceState } from '../../core/state/resource-state';
+import { RecordPage } from '../../core/record-page/record-page';
 import { createWrite } from '../../core/state/write';
 import { ConfirmDialog } from '../../core/confirm-dialog/confirm-dialog';
 import { dayText } from '../../instruments/instrument-labels';
@@ -48,8 +47,7 @@ export function tagsIn(text: string): string[] {
     MatFormFieldModule,
     MatIconModule,
     MatInputModule,
-    ResourceState,
-    RouterLink,
+    RecordPage,
   ],
   templateUrl: './count-session.html',
   styleUrl: './count-session.scss',

@@ -1,12 +1,11 @@
 import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, effect, inject, signal } from '@angular/core';
-import { FormControl, ReactiveFormsModule } from '@angular/forms';
+import { FormControl } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { agreementTextInputSchema, agreementTextSchema } from '@shared/api/loan';
-import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
+import { Field } from '../../core/forms/field';
+import { schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { dayText } from '../../instruments/instrument-labels';
 import { FleetLoans } from '../../loans/loan-data';
@@ -18,13 +17,7 @@ import { createWrite } from '../../core/state/write';
  */
 @Component({
   selector: 'tb-agreement-text',
-  imports: [
-    ReactiveFormsModule,
-    MatButtonModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatInputModule,
-  ],
+  imports: [MatButtonModule, MatIconModule, Field],
   templateUrl: './agreement-text.html',
   styleUrl: './agreement-text.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -34,7 +27,6 @@ export class AgreementTextEditor {
   private readonly loans = inject(FleetLoans);
 
   protected readonly day = dayText;
-  protected readonly fieldMessage = fieldMessage;
   protected readonly errorMessage = errorMessage;
   protected readonly current = httpResource(() => '/api/loans/agreement-text', {
     parse: (body) => agreementTextSchema.parse(body),

@@ -20,6 +20,8 @@ import type { Ladder, LadderRequirement, LadderRung } from '@shared/api/ladder';
 import { isConflict } from '../../core/forms/record-form';
 import { errorMessage, fieldErrorsOf } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
+import { ConflictNotice } from '../../core/record-page/conflict-notice';
+import { RecordPage } from '../../core/record-page/record-page';
 import { createWrite } from '../../core/state/write';
 import { BenchmarkEditor } from '../benchmark-editor/benchmark-editor';
 import { ConfirmDialog, type ConfirmDialogData } from '../../core/confirm-dialog/confirm-dialog';
@@ -54,6 +56,8 @@ import {
     MatInputModule,
     RouterLink,
     PageState,
+    RecordPage,
+    ConflictNotice,
     RungEditor,
     BenchmarkEditor,
   ],
@@ -71,7 +75,7 @@ export class LadderEditor {
   readonly id = input.required<string>();
 
   /** The version as read from the API; the editor works on `draft` and `model`. */
-  private readonly version = this.ladderData.version(() => Number(this.id()));
+  protected readonly version = this.ladderData.version(() => Number(this.id()));
   private readonly inForce = this.ladderData.inForce();
   /** Why the draft cannot be edited (it failed to load, or is published), or ''. */
   protected readonly failure = computed(() => {

@@ -1,14 +1,14 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
-import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
+import { ResourceState } from '../../core/state/resource-state';
 import { dayText } from '../../instruments/instrument-labels';
 import { FleetLoans } from '../loan-data';
 
 /** A student's own loans: what they have out, when it is due, and their cautions. */
 @Component({
   selector: 'tb-my-loans',
-  imports: [MatIconModule, PageState],
+  imports: [MatIconModule, PageState, ResourceState],
   template: `
     <div class="tb-page">
       <header class="tb-page-header">
@@ -53,14 +53,13 @@ import { FleetLoans } from '../loan-data';
             message="Your music director lends school instruments; ask them if you need one."
           />
         }
-      } @else if (loans.error()) {
-        <tb-page-state
-          kind="error"
-          title="Your loans could not be loaded"
-          [message]="errorMessage(loans.error(), 'Try again later.')"
-        />
       } @else {
-        <tb-page-state kind="loading" title="Loading your loans…" />
+        <tb-resource-state
+          [resource]="loans"
+          loading="Loading your loans…"
+          failed="Your loans could not be loaded"
+          fallback="Try again later."
+        />
       }
     </div>
   `,
@@ -104,5 +103,4 @@ export class MyLoans {
   /** The server answers a student only their own loans. */
   protected readonly loans = inject(FleetLoans).recent(50);
   protected readonly day = dayText;
-  protected readonly errorMessage = errorMessage;
 }
