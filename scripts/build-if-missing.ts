@@ -13,4 +13,5 @@ export function buildWebIfMissing(force = false): void {
   }
 }
 
-if (import.meta.url === `file://${process.argv[1]}`) buildWebIfMissing(process.argv.includes('--force'));
+if (import.meta.url === `file://${process.argv[1]}`)
+  buildWebIfMissing(process.argv.includes('--force'));

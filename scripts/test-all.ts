@@ -9,7 +9,10 @@ import { buildWebIfMissing } from './build-if-missing';
  */
 function run(title: string, command: string, args: string[], environment: NodeJS.ProcessEnv = {}) {
   process.stdout.write(`\n=== ${title}\n`);
-  const result = spawnSync(command, args, { stdio: 'inherit', env: { ...process.env, ...environment } });
+  const result = spawnSync(command, args, {
+    stdio: 'inherit',
+    env: { ...process.env, ...environment },
+  });
   if (result.status !== 0) {
     process.stderr.write(`\n${title} failed.\n`);
     process.exit(result.status ?? 1);
@@ -28,4 +31,5 @@ run('Unit and API tests', 'npx', ['vitest', 'run', '--project', 'unit', '--proje
 process.stdout.write('\n=== Production build\n');
 buildWebIfMissing(true);
 run('Browser tests', 'npx', ['vitest', 'run', '--project', 'e2e']);
-if (fs.existsSync('tests/bench/run.ts')) run('Benchmark smoke run', 'npx', ['tsx', 'tests/bench/run.ts', '--smoke']);
+if (fs.existsSync('tests/bench/run.ts'))
+  run('Benchmark smoke run', 'npx', ['tsx', 'tests/bench/run.ts', '--smoke']);

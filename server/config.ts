@@ -25,7 +25,10 @@ const environmentSchema = z.object({
   PAYMENTS_SECRET_KEY: z.string().min(8).optional(),
   PAYMENTS_WEBHOOK_SECRET: z.string().min(8).optional(),
   PAYMENTS_API_URL: z.url().optional(),
-  TUTTI_SECRET_KEY: z.string().min(32, 'TUTTI_SECRET_KEY must be at least 32 characters').optional(),
+  TUTTI_SECRET_KEY: z
+    .string()
+    .min(32, 'TUTTI_SECRET_KEY must be at least 32 characters')
+    .optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
 });
 
@@ -64,13 +67,17 @@ export interface Config {
 export function loadConfig(environment: NodeJS.ProcessEnv = process.env): Config {
   const parsed = environmentSchema.safeParse(environment);
   if (!parsed.success) {
-    const problems = parsed.error.issues.map((issue) => `${issue.path.join('.')}: ${issue.message}`);
-    throw new Error(`The environment has settings Tuttiboard cannot use:\n  ${problems.join('\n  ')}`);
+    const problems = parsed.error.issues.map(
+      (issue) => `${issue.path.join('.')}: ${issue.message}`,
+    );
+    throw new Error(
+      `The environment has settings Tuttiboard cannot use:\n  ${problems.join('\n  ')}`,
+    );
   }
   const values = parsed.data;
   if (values.PAYMENTS_SECRET_KEY && !values.PAYMENTS_WEBHOOK_SECRET) {
     throw new Error(
-      'The environment has settings Tuttiboard cannot use:\n  PAYMENTS_WEBHOOK_SECRET: needed with PAYMENTS_SECRET_KEY, to check the service\'s signed events',
+      "The environment has settings Tuttiboard cannot use:\n  PAYMENTS_WEBHOOK_SECRET: needed with PAYMENTS_SECRET_KEY, to check the service's signed events",
     );
   }
   return {

@@ -87,7 +87,11 @@ export function createInteractionRoutes(
   router.get('/interaction/:uid', async (request, response) => {
     const interaction = await provider.interactionDetails(request, response);
     if (interaction.prompt.name === 'login') {
-      sendPage(response, 200, signInPage(interaction, accounts, undefined, undefined, acceptTypedEmails));
+      sendPage(
+        response,
+        200,
+        signInPage(interaction, accounts, undefined, undefined, acceptTypedEmails),
+      );
       return;
     }
     if (interaction.prompt.name === 'consent') {
@@ -106,7 +110,9 @@ export function createInteractionRoutes(
   router.post('/interaction/:uid/login', form, async (request, response) => {
     const interaction = await provider.interactionDetails(request, response);
     const typedEmail = typeof request.body?.email === 'string' ? request.body.email : '';
-    const account = findAccountByEmail(accounts, typedEmail) ?? (acceptTypedEmails ? addTypedAccount(accounts, typedEmail) : undefined);
+    const account =
+      findAccountByEmail(accounts, typedEmail) ??
+      (acceptTypedEmails ? addTypedAccount(accounts, typedEmail) : undefined);
     if (interaction.prompt.name !== 'login') {
       throw new Error('This sign-in has already been completed');
     }
@@ -114,7 +120,11 @@ export function createInteractionRoutes(
       const error = typedEmail.trim()
         ? `There is no account with the e-mail address ${typedEmail.trim()} in this identity provider.`
         : 'Type an e-mail address or choose an account.';
-      sendPage(response, 400, signInPage(interaction, accounts, error, typedEmail, acceptTypedEmails));
+      sendPage(
+        response,
+        400,
+        signInPage(interaction, accounts, error, typedEmail, acceptTypedEmails),
+      );
       return;
     }
     await provider.interactionFinished(

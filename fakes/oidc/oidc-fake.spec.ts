@@ -120,9 +120,7 @@ describe('startOidcFake', () => {
     const html = await response.text();
 
     expect(response.status).toBe(200);
-    expect(html).toContain(
-      'Sign in — local identity provider for development',
-    );
+    expect(html).toContain('Sign in — local identity provider for development');
     for (const account of demoAccounts) {
       expect(html).toContain(account.email);
       expect(html).toContain(account.name);

@@ -557,14 +557,12 @@ export async function startPaymentsFake(options: PaymentsFakeOptions = {}): Prom
   app.use(api);
   app.use((error: unknown, _request: Request, response: Response, _next: NextFunction): void => {
     if (error instanceof ServiceError) return void response.status(error.status).json(error.body());
-    response
-      .status(500)
-      .json({
-        error: {
-          type: 'api_error',
-          message: error instanceof Error ? error.message : 'Something went wrong.',
-        },
-      });
+    response.status(500).json({
+      error: {
+        type: 'api_error',
+        message: error instanceof Error ? error.message : 'Something went wrong.',
+      },
+    });
   });
 
   const server: Server = createServer(app);

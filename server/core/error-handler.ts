@@ -7,7 +7,9 @@ export type { ErrorBody };
 
 /** 404 for API paths no router answered. */
 export const unknownApiRoute: RequestHandler = (request, _response, next) => {
-  next(new HttpError(404, 'no_such_route', `There is no API route ${request.method} ${request.path}.`));
+  next(
+    new HttpError(404, 'no_such_route', `There is no API route ${request.method} ${request.path}.`),
+  );
 };
 
 /** Turns any error into the stable JSON shape; unexpected ones are logged and answer 500. */
@@ -26,7 +28,10 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       );
     } else if (dataException(error)) {
       // The shared input rules should have refused this value; log the gap and answer 400.
-      logger.warn({ err: error, method: request.method, path: request.path }, 'value the database refused');
+      logger.warn(
+        { err: error, method: request.method, path: request.path },
+        'value the database refused',
+      );
       httpError = new HttpError(
         400,
         'bad_request',
@@ -41,7 +46,11 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
       );
     } else {
       logger.error({ err: error, method: request.method, path: request.path }, 'unexpected error');
-      httpError = new HttpError(500, 'internal', 'Something went wrong on the server; nothing was changed by the failed step. Try again, and tell the coordinator if it goes on.');
+      httpError = new HttpError(
+        500,
+        'internal',
+        'Something went wrong on the server; nothing was changed by the failed step. Try again, and tell the coordinator if it goes on.',
+      );
     }
     if (response.headersSent) return;
     const body: ErrorBody = {

@@ -15,16 +15,25 @@ export class HttpError extends Error {
 }
 
 export const notFound = (what = 'That record') =>
-  new HttpError(404, 'not_found', `${what} was not found, or is outside the schools you work with.`);
+  new HttpError(
+    404,
+    'not_found',
+    `${what} was not found, or is outside the schools you work with.`,
+  );
 
 export const forbidden = (message = 'Your role does not allow this.') =>
   new HttpError(403, 'forbidden', message);
 
 export const unauthenticated = () =>
-  new HttpError(401, 'unauthenticated', 'Sign in first: this needs a signed-in user or an API token.');
+  new HttpError(
+    401,
+    'unauthenticated',
+    'Sign in first: this needs a signed-in user or an API token.',
+  );
 
 export const badRequest = (message: string, fieldErrors: FieldError[] = []) =>
   new HttpError(400, 'bad_request', message, fieldErrors);
 
-export const conflict = (message = 'Someone else changed this record since you opened it. Reload it and make your change again.') =>
-  new HttpError(409, 'conflict', message);
+export const conflict = (
+  message = 'Someone else changed this record since you opened it. Reload it and make your change again.',
+) => new HttpError(409, 'conflict', message);

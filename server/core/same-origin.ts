@@ -13,7 +13,8 @@ export function sameOriginWrites(allowedOrigins: () => string[], cookieName: str
   return (request: Request, _response: Response, next: NextFunction) => {
     // Only a request carrying the session cookie holds an ambient credential worth forging.
     const carriesSession = (request.get('cookie') ?? '').includes(`${cookieName}=`);
-    if (safeMethods.has(request.method) || request.get('authorization') || !carriesSession) return next();
+    if (safeMethods.has(request.method) || request.get('authorization') || !carriesSession)
+      return next();
     // A guardian's signing page is authorised by the one-time link itself, not by the cookie,
     // and sends no Referrer (so the browser posts "Origin: null").
     if (request.path.startsWith('/agreements/') || request.path.startsWith('/pay/')) return next();

@@ -50,6 +50,7 @@ export function parseInput<Schema extends z.ZodType>(
 /** Parses a numeric id from the route; anything else is a 404, as an unknown row would be. */
 export function parseId(value: unknown): number {
   const id = typeof value === 'string' && /^\d{1,10}$/.test(value) ? Number(value) : NaN;
-  if (!Number.isSafeInteger(id) || id <= 0 || id > 2_147_483_647) throw badRequest('The id in the address must be a positive whole number.');
+  if (!Number.isSafeInteger(id) || id <= 0 || id > 2_147_483_647)
+    throw badRequest('The id in the address must be a positive whole number.');
   return id;
 }

@@ -28,7 +28,10 @@ export async function isEmpty(db: Database): Promise<boolean> {
 export async function adoptDemoDistrict(db: Database): Promise<boolean> {
   if (await findDistrictRow(db)) return false;
   const coordinator = demoUsers.find((user) => user.role === 'coordinator')!;
-  const [user] = await db.select({ id: users.id }).from(users).where(eq(users.email, coordinator.email));
+  const [user] = await db
+    .select({ id: users.id })
+    .from(users)
+    .where(eq(users.email, coordinator.email));
   if (!user) return false;
   await db.insert(districts).values(demoDistrict);
   forgetDistrictIdentity(db);

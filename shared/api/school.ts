@@ -47,10 +47,7 @@ const schoolFields = z.strictObject({
   lowestGrade: gradeSchema.default(null),
   highestGrade: gradeSchema.default(null),
   sendsToSchoolId: z.number().int().positive().nullable().default(null),
-  closedOn: z.iso
-    .date('A closing day is a date, YYYY-MM-DD.')
-    .nullable()
-    .default(null),
+  closedOn: z.iso.date('A closing day is a date, YYYY-MM-DD.').nullable().default(null),
 });
 
 function gradesInOrder(school: { lowestGrade?: number | null; highestGrade?: number | null }) {
@@ -94,7 +91,10 @@ export function gradeLabel(grade: number | null): string {
 }
 
 /** The grades a school serves, as "K–5" or "6–8"; empty when not recorded. */
-export function gradesServedLabel(school: { lowestGrade: number | null; highestGrade: number | null }): string {
+export function gradesServedLabel(school: {
+  lowestGrade: number | null;
+  highestGrade: number | null;
+}): string {
   if (school.lowestGrade === null || school.highestGrade === null) return '';
   return school.lowestGrade === school.highestGrade
     ? gradeLabel(school.lowestGrade)

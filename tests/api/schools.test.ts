@@ -34,7 +34,10 @@ describe('Schools', () => {
     const patch = { name: 'Renamed', version: hpms.body.version };
     expect((await director.patch(`/api/schools/${schoolIds['HPMS']}`, patch)).status).toBe(403);
     expect((await viewer.patch(`/api/schools/${schoolIds['TRHS']}`, patch)).status).toBe(403);
-    expect((await director.post('/api/schools', { code: 'NEW1', name: 'New School', level: 'middle' })).status).toBe(403);
+    expect(
+      (await director.post('/api/schools', { code: 'NEW1', name: 'New School', level: 'middle' }))
+        .status,
+    ).toBe(403);
     const after = await coordinator.get(`/api/schools/${schoolIds['HPMS']}`);
     expect(after.body.name).toBe('Heron Point Middle');
   });
@@ -43,7 +46,9 @@ describe('Schools', () => {
     const page = await coordinator.get('/api/schools?sort=code:desc&limit=2&offset=1');
     expect(page.body.total).toBeGreaterThanOrEqual(4);
     expect(page.body.rows).toHaveLength(2);
-    const codes = (await coordinator.get('/api/schools?sort=code:desc&limit=100')).body.rows.map((row: { code: string }) => row.code);
+    const codes = (await coordinator.get('/api/schools?sort=code:desc&limit=100')).body.rows.map(
+      (row: { code: string }) => row.code,
+    );
     expect(page.body.rows.map((row: { code: string }) => row.code)).toEqual(codes.slice(1, 3));
     const middle = await coordinator.get('/api/schools?level=middle&q=quarry');
     expect(middle.body.rows.map((row: { code: string }) => row.code)).toEqual(['QHMS']);
@@ -53,7 +58,11 @@ describe('Schools', () => {
   });
 
   it('should answer 400 with field errors and change nothing when the input is bad', async () => {
-    const response = await coordinator.post('/api/schools', { code: 'x', name: '', level: 'university' });
+    const response = await coordinator.post('/api/schools', {
+      code: 'x',
+      name: '',
+      level: 'university',
+    });
     expect(response.status).toBe(400);
     const fields = response.body.error.fieldErrors.map((error: { field: string }) => error.field);
     expect(fields).toEqual(expect.arrayContaining(['code', 'name', 'level']));
@@ -61,13 +70,23 @@ describe('Schools', () => {
   });
 
   it('should answer 409 when an edit starts from a stale version', async () => {
-    const created = await coordinator.post('/api/schools', { code: 'LKES', name: 'Larkmoor Elementary', level: 'elementary' });
+    const created = await coordinator.post('/api/schools', {
+      code: 'LKES',
+      name: 'Larkmoor Elementary',
+      level: 'elementary',
+    });
     expect(created.status).toBe(201);
     const id = created.body.id;
-    const first = await coordinator.patch(`/api/schools/${id}`, { address: '3 Larkmoor Way', version: created.body.version });
+    const first = await coordinator.patch(`/api/schools/${id}`, {
+      address: '3 Larkmoor Way',
+      version: created.body.version,
+    });
     expect(first.status).toBe(200);
     expect(first.body.version).toBe(created.body.version + 1);
-    const stale = await coordinator.patch(`/api/schools/${id}`, { address: 'Overwritten', version: created.body.version });
+    const stale = await coordinator.patch(`/api/schools/${id}`, {
+      address: 'Overwritten',
+      version: created.body.version,
+    });
     expect(stale.status).toBe(409);
     expect((await coordinator.get(`/api/schools/${id}`)).body.address).toBe('3 Larkmoor Way');
     expect((await coordinator.delete(`/api/schools/${id}`)).status).toBe(204);
@@ -75,11 +94,17 @@ describe('Schools', () => {
   });
 
   it('should record who changed a school in the audit log', async () => {
-    const created = await coordinator.post('/api/schools', { code: 'AUDT', name: 'Audit Test School', level: 'other' });
+    const created = await coordinator.post('/api/schools', {
+      code: 'AUDT',
+      name: 'Audit Test School',
+      level: 'other',
+    });
     const result = await app.database.db.execute(
       `select a.action, u.email from audit_log a join users u on u.id = a.user_id where a.entity = 'school' and a.entity_id = '${Number(created.body.id)}'` as never,
     );
-    expect((result as unknown as { rows: unknown[] }).rows).toEqual([{ action: 'create', email: 'coordinator@merrowbasin.example' }]);
+    expect((result as unknown as { rows: unknown[] }).rows).toEqual([
+      { action: 'create', email: 'coordinator@merrowbasin.example' },
+    ]);
   });
 
   it('should keep the grades served and the school students move up to, and refuse bad ones', async () => {
@@ -110,22 +135,47 @@ describe('Schools', () => {
       sendsToSchoolId: created.body.id,
     });
     expect(toItself.status).toBe(400);
-    const nowhere = await coordinator.post('/api/schools', { code: 'NOWH', name: 'Nowhere School', level: 'other', sendsToSchoolId: 999999 });
+    const nowhere = await coordinator.post('/api/schools', {
+      code: 'NOWH',
+      name: 'Nowhere School',
+      level: 'other',
+      sendsToSchoolId: 999999,
+    });
     expect(nowhere.status).toBe(400);
-    const grade13 = await coordinator.post('/api/schools', { code: 'G13S', name: 'Grade Thirteen', level: 'high', highestGrade: 13 });
+    const grade13 = await coordinator.post('/api/schools', {
+      code: 'G13S',
+      name: 'Grade Thirteen',
+      level: 'high',
+      highestGrade: 13,
+    });
     expect(grade13.status).toBe(400);
     const unchanged = await coordinator.get(`/api/schools/${created.body.id}`);
     expect(unchanged.body.version).toBe(created.body.version);
     // A school another sends its students to is closed, not deleted.
-    const target = await coordinator.post('/api/schools', { code: 'TGTM', name: 'Target Middle', level: 'middle' });
-    await coordinator.post('/api/schools', { code: 'FDRE', name: 'Feeder Elementary', level: 'elementary', sendsToSchoolId: target.body.id });
+    const target = await coordinator.post('/api/schools', {
+      code: 'TGTM',
+      name: 'Target Middle',
+      level: 'middle',
+    });
+    await coordinator.post('/api/schools', {
+      code: 'FDRE',
+      name: 'Feeder Elementary',
+      level: 'elementary',
+      sendsToSchoolId: target.body.id,
+    });
     const deleted = await coordinator.delete(`/api/schools/${target.body.id}`);
     expect(deleted.status).toBe(400);
-    expect(deleted.body.error.message).toContain('Feeder Elementary sends its students on to Target Middle');
+    expect(deleted.body.error.message).toContain(
+      'Feeder Elementary sends its students on to Target Middle',
+    );
   });
 
   it('should close a school and open it again, and list open and closed schools apart', async () => {
-    const created = await coordinator.post('/api/schools', { code: 'CLSD', name: 'Closing Elementary', level: 'elementary' });
+    const created = await coordinator.post('/api/schools', {
+      code: 'CLSD',
+      name: 'Closing Elementary',
+      level: 'elementary',
+    });
     const closed = await coordinator.patch(`/api/schools/${created.body.id}`, {
       version: created.body.version,
       closedOn: '2026-06-12',
@@ -136,10 +186,25 @@ describe('Schools', () => {
     expect(open.body.rows.map((row: { code: string }) => row.code)).not.toContain('CLSD');
     const closedList = await coordinator.get('/api/schools?status=closed&limit=100');
     expect(closedList.body.rows.map((row: { code: string }) => row.code)).toEqual(['CLSD']);
-    const sendToClosed = await coordinator.post('/api/schools', { code: 'FEED', name: 'Feeder School', level: 'elementary', sendsToSchoolId: created.body.id });
+    const sendToClosed = await coordinator.post('/api/schools', {
+      code: 'FEED',
+      name: 'Feeder School',
+      level: 'elementary',
+      sendsToSchoolId: created.body.id,
+    });
     expect(sendToClosed.status).toBe(400);
-    const reopened = await coordinator.patch(`/api/schools/${created.body.id}`, { version: closed.body.version, closedOn: null });
+    const reopened = await coordinator.patch(`/api/schools/${created.body.id}`, {
+      version: closed.body.version,
+      closedOn: null,
+    });
     expect(reopened.body.closedOn).toBeNull();
-    expect((await director.patch(`/api/schools/${schoolIds['HPMS']}`, { version: 1, closedOn: '2026-06-12' })).status).toBe(403);
+    expect(
+      (
+        await director.patch(`/api/schools/${schoolIds['HPMS']}`, {
+          version: 1,
+          closedOn: '2026-06-12',
+        })
+      ).status,
+    ).toBe(403);
   });
 });

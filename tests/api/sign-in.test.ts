@@ -39,7 +39,11 @@ describe('Sign-in through the identity provider', () => {
 
   it('should set an httpOnly SameSite cookie of its own name when signing in', async () => {
     const jar = new CookieJar();
-    const { callbackUrl } = await walkSignIn(`${app.url}/auth/sign-in`, demoEmail('technician'), jar);
+    const { callbackUrl } = await walkSignIn(
+      `${app.url}/auth/sign-in`,
+      demoEmail('technician'),
+      jar,
+    );
     const landing = await jar.fetch(callbackUrl);
     const setCookie = landing.headers.get('set-cookie') ?? '';
     expect(setCookie).toMatch(/^tuttiboard\.sid=/);
@@ -54,7 +58,11 @@ describe('Sign-in through the identity provider', () => {
     expect(start.status).toBe(302);
     const before = jar.get('tuttiboard.sid', app.url);
     expect(before).toBeTruthy();
-    const { callbackUrl } = await walkSignIn(start.headers.get('location')!, demoEmail('coordinator'), jar);
+    const { callbackUrl } = await walkSignIn(
+      start.headers.get('location')!,
+      demoEmail('coordinator'),
+      jar,
+    );
     await jar.fetch(callbackUrl);
     const after = jar.get('tuttiboard.sid', app.url);
     expect(after).toBeTruthy();
@@ -62,13 +70,21 @@ describe('Sign-in through the identity provider', () => {
   });
 
   it('should refuse an account the district does not know even when the provider vouches for it', async () => {
-    await app.database.db.execute(`update users set active = false where email = 'viewer.trhs@merrowbasin.example'` as never);
+    await app.database.db.execute(
+      `update users set active = false where email = 'viewer.trhs@merrowbasin.example'` as never,
+    );
     const jar = new CookieJar();
-    const { callbackUrl } = await walkSignIn(`${app.url}/auth/sign-in`, demoEmail('viewer.trhs'), jar);
+    const { callbackUrl } = await walkSignIn(
+      `${app.url}/auth/sign-in`,
+      demoEmail('viewer.trhs'),
+      jar,
+    );
     const landing = await jar.fetch(callbackUrl);
     expect(landing.status).toBe(403);
     expect(await landing.text()).toContain('has no Tuttiboard access');
-    await app.database.db.execute(`update users set active = true where email = 'viewer.trhs@merrowbasin.example'` as never);
+    await app.database.db.execute(
+      `update users set active = true where email = 'viewer.trhs@merrowbasin.example'` as never,
+    );
   });
 
   it('should end the session when the user signs out', async () => {
@@ -111,12 +127,16 @@ describe('API tokens', () => {
     expect(created.status).toBe(201);
     const token: string = created.body.token;
     expect((await app.bearer(token).get('/api/me')).status).toBe(200);
-    const stored = await app.database.db.execute(`select token_hash from api_tokens where id = ${Number(created.body.id)}` as never);
+    const stored = await app.database.db.execute(
+      `select token_hash from api_tokens where id = ${Number(created.body.id)}` as never,
+    );
     const hash = (stored as unknown as { rows: { token_hash: string }[] }).rows[0]!.token_hash;
     expect(hash).toMatch(/^[0-9a-f]{64}$/);
     expect(hash).not.toContain(token);
     const listed = await director.get('/api/tokens');
-    expect(listed.body.rows.find((row: { id: number }) => row.id === created.body.id).lastUsedAt).not.toBeNull();
+    expect(
+      listed.body.rows.find((row: { id: number }) => row.id === created.body.id).lastUsedAt,
+    ).not.toBeNull();
     expect((await director.delete(`/api/tokens/${created.body.id}`)).status).toBe(204);
     expect((await app.bearer(token).get('/api/me')).status).toBe(401);
   });

@@ -56,10 +56,7 @@ export const benchTokenLimit = 100_000_000;
 export const defaultTokenLimit = loadConfig({}).rateLimits.token;
 
 /** Serves the app for a database on a loopback port; answers its URL and a coordinator token. */
-export async function serveForBench(
-  database: DatabaseHandle,
-  dataDir = '/tmp/tutti-bench-unused',
-) {
+export async function serveForBench(database: DatabaseHandle, dataDir = '/tmp/tutti-bench-unused') {
   const config = loadConfig({
     LOG_LEVEL: 'silent',
     TUTTI_DATA_DIR: dataDir,

@@ -112,7 +112,8 @@ async function sections(): Promise<Section[]> {
   }>('./year-start.ts');
   if (yearStart) {
     list.push({
-      title: '10. Starting a new school year, against one grade update over the same students; year over year after it',
+      title:
+        '10. Starting a new school year, against one grade update over the same students; year over year after it',
       run: () => yearStart.benchYearStart({ students: smoke ? 2_000 : 50_000 }),
     });
   }

@@ -44,7 +44,6 @@ describe('People screen', () => {
     await context.close();
   });
 
-
   it('should let the coordinator add a director for QHMS and make an API token shown once', async () => {
     const { context, outside } = await localOnlyContext(browser);
     const page = await context.newPage();

@@ -25,7 +25,9 @@ describe('App shell', () => {
     await signInAs(page, app.url, demoEmail('director.hpms'));
     await page.waitForURL(`${app.url}/overview`);
     await expect.poll(() => page.getByTestId('user-name').innerText()).toBe('Marcus Feldqvist');
-    await expect.poll(() => page.getByTestId('overview-schools').innerText()).toContain('Heron Point Middle');
+    await expect
+      .poll(() => page.getByTestId('overview-schools').innerText())
+      .toContain('Heron Point Middle');
     expect(await page.getByTestId('overview-schools').innerText()).not.toContain('Quarry Hill');
     expect(await railLabels(page)).toEqual(expect.arrayContaining(['Overview', 'Schools']));
     await page.evaluate(() => document.fonts.ready);
@@ -42,7 +44,9 @@ describe('App shell', () => {
     const { context, outside } = await localOnlyContext(browser);
     const page = await context.newPage();
     await signInAs(page, app.url, demoEmail('coordinator'));
-    await expect.poll(() => page.getByTestId('overview-schools').innerText()).toContain('Quarry Hill Middle');
+    await expect
+      .poll(() => page.getByTestId('overview-schools').innerText())
+      .toContain('Quarry Hill Middle');
     expect(await page.getByTestId('overview-schools').innerText()).toContain('Tamsin Ridge High');
     await saveScreenshot(page, 'overview-coordinator');
     expect(outside).toEqual([]);

@@ -9,7 +9,11 @@ export interface CliResult {
 }
 
 /** Runs `node bin/tutti.js …` with the given environment (TUTTI_DATA_DIR above all). */
-export function runTutti(args: string[], environment: NodeJS.ProcessEnv, input?: Buffer): Promise<CliResult> {
+export function runTutti(
+  args: string[],
+  environment: NodeJS.ProcessEnv,
+  input?: Buffer,
+): Promise<CliResult> {
   return new Promise((resolve, reject) => {
     const child = spawn(process.execPath, [path.resolve('bin/tutti.js'), ...args], {
       env: { ...process.env, LOG_LEVEL: 'silent', ...environment },

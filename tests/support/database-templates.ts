@@ -33,7 +33,10 @@ export async function buildTemplates(serverUrl?: string): Promise<TemplateLocati
         const database = `tutti_template_${name}`;
         await admin.query(`DROP DATABASE IF EXISTS ${database}`);
         await admin.query(`CREATE DATABASE ${database}`);
-        const handle = await openDatabase({ kind: 'postgres', url: withDatabase(serverUrl, database) });
+        const handle = await openDatabase({
+          kind: 'postgres',
+          url: withDatabase(serverUrl, database),
+        });
         try {
           await prepare(handle, name);
         } finally {
@@ -72,7 +75,10 @@ export function withDatabase(url: string, database: string): string {
 let counter = 0;
 
 /** A fresh database for one test: a PGlite loaded from the image, or a copy of the template database. */
-export async function openFromTemplate(locations: TemplateLocations, name: TemplateName): Promise<DatabaseHandle> {
+export async function openFromTemplate(
+  locations: TemplateLocations,
+  name: TemplateName,
+): Promise<DatabaseHandle> {
   if (locations.server) {
     const database = `tutti_test_${process.pid}_${Date.now()}_${(counter += 1)}`;
     const admin = new pg.Client({ connectionString: locations.server.url });
@@ -82,14 +88,19 @@ export async function openFromTemplate(locations: TemplateLocations, name: Templ
     } finally {
       await admin.end();
     }
-    const handle = await openDatabase({ kind: 'postgres', url: withDatabase(locations.server.url, database) });
+    const handle = await openDatabase({
+      kind: 'postgres',
+      url: withDatabase(locations.server.url, database),
+    });
     return {
       ...handle,
       close: async () => {
         await handle.close();
         const cleanup = new pg.Client({ connectionString: locations.server!.url });
         await cleanup.connect();
-        await cleanup.query(`DROP DATABASE IF EXISTS ${database} WITH (FORCE)`).catch(() => undefined);
+        await cleanup
+          .query(`DROP DATABASE IF EXISTS ${database} WITH (FORCE)`)
+          .catch(() => undefined);
         await cleanup.end();
       },
     };

@@ -15,14 +15,27 @@ export interface ServerProcess {
 }
 
 /** Starts `server/main.ts` on a free port over a data folder and waits until it answers. */
-export async function startServerProcess(dataDir: string, environment: NodeJS.ProcessEnv = {}): Promise<ServerProcess> {
+export async function startServerProcess(
+  dataDir: string,
+  environment: NodeJS.ProcessEnv = {},
+): Promise<ServerProcess> {
   const child = spawn(process.execPath, ['--import', 'tsx', path.resolve('server/main.ts')], {
-    env: { ...process.env, TUTTI_DATA_DIR: dataDir, PORT: '0', LOG_LEVEL: 'info', OIDC_ISSUER: 'http://127.0.0.1:9', ...environment },
+    env: {
+      ...process.env,
+      TUTTI_DATA_DIR: dataDir,
+      PORT: '0',
+      LOG_LEVEL: 'info',
+      OIDC_ISSUER: 'http://127.0.0.1:9',
+      ...environment,
+    },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let output = '';
   const url = await new Promise<string>((resolve, reject) => {
-    const timer = setTimeout(() => reject(new Error(`The server did not start:\n${output}`)), 60_000);
+    const timer = setTimeout(
+      () => reject(new Error(`The server did not start:\n${output}`)),
+      60_000,
+    );
     child.stdout!.on('data', (chunk: Buffer) => {
       output += chunk.toString();
       const match = /"url":"(http:\/\/[^"]+)"/.exec(output);
@@ -34,7 +47,9 @@ export async function startServerProcess(dataDir: string, environment: NodeJS.Pr
     child.stderr!.on('data', (chunk: Buffer) => (output += chunk.toString()));
     child.on('close', (code) => reject(new Error(`The server exited with ${code}:\n${output}`)));
   });
-  const lock = JSON.parse(fs.readFileSync(path.join(dataDir, 'tutti.lock'), 'utf8')) as { localKey: string };
+  const lock = JSON.parse(fs.readFileSync(path.join(dataDir, 'tutti.lock'), 'utf8')) as {
+    localKey: string;
+  };
   const ended = new Promise<void>((resolve) => child.on('close', () => resolve()));
   return {
     url: url.replace('localhost', '127.0.0.1'),

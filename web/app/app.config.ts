@@ -16,8 +16,15 @@ export const appConfig: ApplicationConfig = {
   providers: [
     provideBrowserGlobalErrorListeners(),
     provideZonelessChangeDetection(),
-    provideHttpClient(withInterceptors([sessionExpiredInterceptor, lastVisitInterceptor]), withXsrfConfiguration({})),
-    provideRouter(routes, withComponentInputBinding(), withInMemoryScrolling({ scrollPositionRestoration: 'top' })),
+    provideHttpClient(
+      withInterceptors([sessionExpiredInterceptor, lastVisitInterceptor]),
+      withXsrfConfiguration({}),
+    ),
+    provideRouter(
+      routes,
+      withComponentInputBinding(),
+      withInMemoryScrolling({ scrollPositionRestoration: 'top' }),
+    ),
     provideAppInitializer(() => inject(AppUpdates).start()),
   ],
 };

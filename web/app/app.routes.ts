@@ -1,7 +1,10 @@
 import type { CanMatchFn, Routes } from '@angular/router';
 import { capabilityGuard, signedInGuard } from './core/auth/signed-in-guard';
 import { startPage } from './core/start-page';
-import { studentPageGuard, studentPageMatcher } from './students/student-progress/student-page-route';
+import {
+  studentPageGuard,
+  studentPageMatcher,
+} from './students/student-progress/student-page-route';
 
 const loadShell = () => import('./core/layout/shell').then((m) => m.Shell);
 

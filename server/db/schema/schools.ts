@@ -30,7 +30,10 @@ export const schools = pgTable(
     ...version,
     ...timestamps,
   },
-  (table) => [uniqueIndex('schools_code_unique').on(table.code), index('schools_name_idx').on(table.name)],
+  (table) => [
+    uniqueIndex('schools_code_unique').on(table.code),
+    index('schools_name_idx').on(table.name),
+  ],
 );
 
 /** A school year such as 2026–27, with the dates loans fall due and benchmarks are read against. */

@@ -12,4 +12,6 @@ import { MatButtonModule } from '@angular/material/button';
 })
 class Baseline {}
 
-bootstrapApplication(Baseline, { providers: [provideZonelessChangeDetection()] }).catch((error: unknown) => console.error(error));
+bootstrapApplication(Baseline, { providers: [provideZonelessChangeDetection()] }).catch(
+  (error: unknown) => console.error(error),
+);

@@ -9,7 +9,12 @@ import { PageState } from './state/page-state';
   imports: [PageState, RouterLink, MatButtonModule],
   template: `
     <div class="tb-page">
-      <tb-page-state kind="empty" icon="search" title="There is no page here" message="The address may be mistyped, or the page may be for another role.">
+      <tb-page-state
+        kind="empty"
+        icon="search"
+        title="There is no page here"
+        message="The address may be mistyped, or the page may be for another role."
+      >
         <a mat-flat-button routerLink="/">Go to the start page</a>
       </tb-page-state>
     </div>

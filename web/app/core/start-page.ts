@@ -7,5 +7,7 @@ export const startPage: CanActivateFn = async () => {
   const currentUser = inject(CurrentUser);
   const router = inject(Router);
   const me = await currentUser.load();
-  return router.parseUrl(me?.role === 'student' && me.studentId ? `/students/${me.studentId}` : '/overview');
+  return router.parseUrl(
+    me?.role === 'student' && me.studentId ? `/students/${me.studentId}` : '/overview',
+  );
 };

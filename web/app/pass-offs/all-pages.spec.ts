@@ -11,7 +11,10 @@ function pagedList(total: number, pageSize: number, delay: (offset: number) => n
     asked.push(offset);
     open += 1;
     mostOpen = Math.max(mostOpen, open);
-    const rows = Array.from({ length: Math.max(0, Math.min(pageSize, total - offset)) }, (_, i) => offset + i);
+    const rows = Array.from(
+      { length: Math.max(0, Math.min(pageSize, total - offset)) },
+      (_, i) => offset + i,
+    );
     return timer(delay(offset)).pipe(
       map(() => {
         open -= 1;

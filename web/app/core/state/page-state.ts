@@ -41,12 +41,34 @@ import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
       height: 56px;
       border-radius: 50%;
       background: var(--tb-brass-soft);
-      mat-icon { width: 28px; height: 28px; fill: #5a3a00; }
+      mat-icon {
+        width: 28px;
+        height: 28px;
+        fill: #5a3a00;
+      }
     }
-    .error .badge { background: #ffdad6; mat-icon { fill: var(--tb-danger); } }
-    h2 { margin: 8px 0 0; font-size: 1.1rem; font-weight: 600; }
-    p { margin: 0; max-width: 36rem; color: var(--tb-text-muted); line-height: 1.5; }
-    .actions { margin-top: 8px; display: flex; gap: 8px; }
+    .error .badge {
+      background: #ffdad6;
+      mat-icon {
+        fill: var(--tb-danger);
+      }
+    }
+    h2 {
+      margin: 8px 0 0;
+      font-size: 1.1rem;
+      font-weight: 600;
+    }
+    p {
+      margin: 0;
+      max-width: 36rem;
+      color: var(--tb-text-muted);
+      line-height: 1.5;
+    }
+    .actions {
+      margin-top: 8px;
+      display: flex;
+      gap: 8px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
