@@ -1,3 +1,4 @@
+import { NgTemplateOutlet } from '@angular/common';
 import {
   ChangeDetectionStrategy,
   Component,
@@ -72,6 +73,7 @@ import { createWrite } from '../../core/state/write';
 @Component({
   selector: 'tb-pass-off-entry',
   imports: [
+    NgTemplateOutlet,
     EntryGrid,
     MatButtonModule,
     MatFormFieldModule,
