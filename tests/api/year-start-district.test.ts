@@ -235,6 +235,13 @@ describe('Starting a year in a 2,000-student district', () => {
         school: was.schoolId,
       });
     }
+    // Whether each of the closed year's players played on: exactly those active in the new year.
+    const continued = await query<{ student_id: number; continued: boolean }>(
+      `select student_id, continued from student_years where school_year_id = ${before.currentYear.id} order by 1`,
+    );
+    const activeNow = new Set(after.filter((row) => row.status === 'active').map((row) => row.id));
+    expect(continued.length).toBeGreaterThan(expected.counts.students - 1);
+    expect(continued.filter((row) => row.continued !== activeNow.has(row.student_id))).toEqual([]);
     const [moves] = await query<{ count: number }>(
       'select count(*)::int as count from school_moves',
     );
