@@ -140,9 +140,11 @@ export async function yearOverYear(
 
 /**
  * Each cohort (first year on record and the grade then): the median rung of its students who
- * played each year, at that year's end (`student_years.rung`), and now when the compared year is
- * the current one. Only years up to the compared one count; a student counts at the school of
- * that year, so a director sees the climb of the students while at their schools.
+ * played each year, at that year's end, and now when the compared year is the current one. Only
+ * years up to the compared one count; a student counts at the school of that year, so a director
+ * sees the climb of the students while at their schools. The closed years' points are the
+ * counts the year start wrote (`cohort_rungs`); the current year's are the active students'
+ * summary rows, whose cohort is copied from the student (null: they started this year).
  */
 async function cohortClimb(
   db: Database,
@@ -159,8 +161,11 @@ async function cohortClimb(
     return parts.length ? sql` and ${sql.join(parts, sql` and `)}` : sql``;
   };
   const now = year.current
-    ? sql`union all select a.student_id, ${year.starts_on}::date, a.grade::int, a.rung::int
-        from student_attainment a where a.active ${inScope(sql`a.school_id`)}`
+    ? sql`union all
+        select coalesce(a.cohort_starts_on, ${year.starts_on}::date)::text,
+          coalesce(a.cohort_grade, a.grade)::int, ${year.starts_on}::text, a.rung::int, count(*)::int
+        from student_attainment a where a.active ${inScope(sql`a.school_id`)}
+        group by 1, 2, 3, 4`
     : sql``;
   // Medians from counts by rung (rungs are small whole numbers): a hashed count instead of a sort
   // of every row, which is what keeps the figure fast over tens of thousands of students.
@@ -172,20 +177,13 @@ async function cohortClimb(
     students: number;
   }>(
     await db.execute(sql`
-      with played as materialized (
-        select sy.student_id, y.starts_on as year_on, sy.grade, sy.rung
-        from student_years sy join school_years y on y.id = sy.school_year_id
-        where sy.outcome <> 'withdrawn' and y.starts_on <= ${year.starts_on}::date
-          ${inScope(sql`sy.school_id`)}
-        ${now}
-      ),
-      firsts as (select student_id, min(year_on) as start_on from played group by student_id)
-      select f.start_on::text as start_on, first.grade::int as start_grade,
-        p.year_on::text as year_on, p.rung::int as rung, count(*)::int as students
-      from played p
-      join firsts f on f.student_id = p.student_id
-      join played first on first.student_id = f.student_id and first.year_on = f.start_on
-      group by 1, 2, 3, 4 order by 1, 2, 3, 4`),
+      select c.cohort_starts_on::text as start_on, c.cohort_grade::int as start_grade,
+        c.year_starts_on::text as year_on, c.rung::int as rung, sum(c.students)::int as students
+      from cohort_rungs c
+      where c.year_starts_on <= ${year.starts_on}::date ${inScope(sql`c.school_id`)}
+      group by 1, 2, 3, 4
+      ${now}
+      order by 1, 2, 3, 4`),
   );
   const histograms = new Map<
     string,

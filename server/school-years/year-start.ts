@@ -16,6 +16,7 @@ const writtenTables = [
   'enrollments',
   'school_moves',
   'school_years',
+  'cohort_rungs',
   'audit_log',
 ];
 
@@ -182,7 +183,7 @@ async function applyPlan(
   tx: Transaction,
   actor: Actor | null,
   input: YearStartInput,
-  fromYear: { id: number; name: string },
+  fromYear: { id: number; name: string; startsOn: string },
   onStep: YearStartOptions['onStep'],
   embedded: boolean,
 ) {
@@ -248,6 +249,8 @@ async function applyPlan(
       grade = case when p.outcome in ('promoted', 'moving-up') then s.grade + 1 else s.grade end,
       school_id = case when p.outcome = 'moving-up' then p.next_school_id else s.school_id end,
       status = case p.outcome when 'graduated' then 'graduated' when 'leaving' then 'leaving' else 'active' end,
+      cohort_starts_on = coalesce(s.cohort_starts_on, ${fromYear.startsOn}::date),
+      cohort_grade = coalesce(s.cohort_grade, s.grade),
       version = s.version + 1, updated_at = now()
     from year_start_plan p where s.id = p.student_id`);
   for (const definition of rebuild) await tx.execute(sql.raw(definition));
@@ -255,6 +258,14 @@ async function applyPlan(
     insert into school_moves (student_id, from_school_id, to_school_id, moved_by)
     select student_id, school_id, next_school_id, ${actor?.userId ?? null}::int
     from year_start_plan where outcome = 'moving-up'`);
+  // The closed year's points of the cohorts' climb: every player's cohort is set just above.
+  await tx.execute(sql`
+    insert into cohort_rungs (cohort_starts_on, cohort_grade, year_starts_on, school_id, rung, students)
+    select s.cohort_starts_on, s.cohort_grade, ${fromYear.startsOn}::date, sy.school_id, sy.rung,
+      count(*)::int
+    from student_years sy join students s on s.id = sy.student_id
+    where sy.school_year_id = ${fromYear.id} and sy.outcome <> 'withdrawn'
+    group by 1, 2, 3, 4, 5`);
   await onStep?.('students');
   await tx.execute(
     sql`update school_years set current = false, updated_at = now() where id = ${fromYear.id}`,

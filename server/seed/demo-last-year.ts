@@ -265,6 +265,8 @@ export async function seedDemoLastYear(
       })),
     ),
   );
+  // Each player's cohort and the cohorts' rungs at the closed year's end, as a year start writes them.
+  await tx.execute(sql`select refresh_cohort_climb()`);
   await rebuildAttainment(tx);
 }
 
