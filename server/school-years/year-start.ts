@@ -208,15 +208,17 @@ async function applyPlan(
       writtenTables,
     );
   }
-  // Where every student stood in the old year, with their rung at its end. Whether each played
+  // Where every student stood in the old year, with their rung (and rung dates) at its end. Whether each played
   // on is known here: those promoted or moving up are active in the new year, the rest are not.
   await tx.execute(sql`
-    insert into student_years (student_id, school_year_id, school_id, grade, outcome, rung, continued)
+    insert into student_years
+      (student_id, school_year_id, school_id, grade, outcome, rung, continued, rung_dates)
     select p.student_id, ${fromYear.id}::int, p.school_id, p.grade, p.outcome, coalesce(a.rung, 0),
-      p.outcome in ('promoted', 'moving-up')
+      p.outcome in ('promoted', 'moving-up'), a.rung_dates
     from year_start_plan p left join student_attainment a on a.student_id = p.student_id
     union all
-    select s.id, ${fromYear.id}::int, s.school_id, s.grade, 'withdrawn', coalesce(a.rung, 0), false
+    select s.id, ${fromYear.id}::int, s.school_id, s.grade, 'withdrawn', coalesce(a.rung, 0), false,
+      a.rung_dates
     from students s left join student_attainment a on a.student_id = s.id
     where s.status = 'withdrawn' and exists (
       select 1 from enrollments en where en.student_id = s.id and en.school_year_id = ${fromYear.id})

@@ -265,9 +265,10 @@ export async function seedDemoLastYear(
       })),
     ),
   );
-  // Each player's cohort and the cohorts' rungs at the closed year's end, as a year start writes them.
-  await tx.execute(sql`select refresh_cohort_climb()`);
   await rebuildAttainment(tx);
+  // Each player's cohort, the cohorts' rungs at the closed year's end and the history's rung
+  // dates, as a year start writes them.
+  await tx.execute(sql`select refresh_history_summaries()`);
 }
 
 const guardianFirstNames = ['Alex', 'Sam', 'Jordan', 'Morgan', 'Casey', 'Robin', 'Taylor', 'Jamie'];

@@ -22,28 +22,3 @@ BEGIN
         OR a.cohort_grade IS DISTINCT FROM n.cohort_grade);
   RETURN NULL;
 END $$;
---> statement-breakpoint
--- Every student's cohort (the first closed year they played in, and their grade then) and the
--- cohorts' rungs at the end of each closed year, worked out again from the history. The start of
--- a year writes both for the year it closes without this; a seed that writes history calls it.
-CREATE OR REPLACE FUNCTION refresh_cohort_climb() RETURNS void LANGUAGE sql AS $$
-  UPDATE students s SET cohort_starts_on = f.starts_on, cohort_grade = f.grade
-  FROM (
-    SELECT DISTINCT ON (sy.student_id) sy.student_id, y.starts_on, sy.grade
-    FROM student_years sy JOIN school_years y ON y.id = sy.school_year_id
-    WHERE sy.outcome <> 'withdrawn'
-    ORDER BY sy.student_id, y.starts_on
-  ) f
-  WHERE s.id = f.student_id
-    AND (s.cohort_starts_on IS DISTINCT FROM f.starts_on OR s.cohort_grade IS DISTINCT FROM f.grade);
-  DELETE FROM cohort_rungs;
-  INSERT INTO cohort_rungs (cohort_starts_on, cohort_grade, year_starts_on, school_id, rung, students)
-  SELECT s.cohort_starts_on, s.cohort_grade, y.starts_on, sy.school_id, sy.rung, count(*)::int
-  FROM student_years sy
-  JOIN school_years y ON y.id = sy.school_year_id
-  JOIN students s ON s.id = sy.student_id
-  WHERE sy.outcome <> 'withdrawn'
-  GROUP BY 1, 2, 3, 4, 5;
-$$;
---> statement-breakpoint
-SELECT refresh_cohort_climb();

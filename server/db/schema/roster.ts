@@ -117,6 +117,11 @@ export const studentYears = pgTable(
      * (custom migration `yoy-summary-triggers`) so year-over-year retention is a grouped count.
      */
     continued: boolean('continued').notNull().default(false),
+    /**
+     * The student's rung dates (as `student_attainment.rung_dates`) when the year was closed: the
+     * rung on any day of that year is `width_bucket(day, rung_dates)`, read from this row alone.
+     */
+    rungDates: date('rung_dates', { mode: 'string' }).array(),
   },
   (table) => [
     primaryKey({ columns: [table.studentId, table.schoolYearId] }),
