@@ -45,16 +45,17 @@ export function medianOfCounts(counts: readonly (readonly [number, number])[]): 
 /**
  * One year's players with the rung each had reached on `day`: for the current year the active
  * students (their grade and school now), for an ended year its history rows that did not end
- * withdrawn (their grade and school that year). The rung on a day is the count of the student's
- * rung dates up to it, which `width_bucket` answers by a binary search of the sorted array
- * (PostgreSQL manual, 9.3 "Mathematical Functions": width_bucket(operand, thresholds)).
+ * withdrawn (their grade and school that year, and the rung dates kept with the row when the
+ * year was closed). The rung on a day is the count of the student's rung dates up to it, which
+ * `width_bucket` answers by a binary search of the sorted array (PostgreSQL manual, 9.3
+ * "Mathematical Functions": width_bucket(operand, thresholds)).
  */
 function playersOn(year: ComparedYear, day: string, inScope: (column: SQL) => SQL): SQL {
   return year.current
     ? sql`select a.grade::int as grade, coalesce(width_bucket(${day}::date, a.rung_dates), 0) as rung
         from student_attainment a where a.active and a.grade is not null ${inScope(sql`a.school_id`)}`
-    : sql`select sy.grade::int as grade, coalesce(width_bucket(${day}::date, a.rung_dates), 0) as rung
-        from student_years sy left join student_attainment a on a.student_id = sy.student_id
+    : sql`select sy.grade::int as grade, coalesce(width_bucket(${day}::date, sy.rung_dates), 0) as rung
+        from student_years sy
         where sy.school_year_id = ${year.id} and sy.outcome <> 'withdrawn' ${inScope(sql`sy.school_id`)}`;
 }
 

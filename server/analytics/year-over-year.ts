@@ -18,7 +18,7 @@ export { medianOfCounts } from './rung-by-grade';
 type YearRow = ComparedYear;
 
 /** The year compared (default the current one) and the year before it, by first day. */
-async function comparedYears(db: Database, schoolYearId: number | undefined) {
+export async function comparedYears(db: Database, schoolYearId: number | undefined) {
   const years = rowsOf<YearRow>(
     await db.execute(
       sql`select id, name, starts_on::text as starts_on, ends_on::text as ends_on, current from school_years order by starts_on`,
@@ -51,6 +51,82 @@ function lastYearPlayers(actor: Actor, previous: YearRow, schoolId: number | und
 const share = (part: number, whole: number) => (whole === 0 ? null : part / whole);
 
 /**
+ * Retention from the year before: of its players still in the district, those who play in the
+ * compared year, by school and by grade transition.
+ */
+export async function retention(
+  db: Database,
+  actor: Actor,
+  previous: YearRow | null,
+  schoolId: number | undefined,
+): Promise<YearOverYear['retention']> {
+  const figure: YearOverYear['retention'] = {
+    total: { players: 0, continued: 0, share: null },
+    bySchool: [],
+    byTransition: [],
+  };
+  if (!previous) return figure;
+  const groups = rowsOf<{
+    school_id: number;
+    code: string;
+    name: string;
+    grade: number;
+    players: number;
+    continued: number;
+    moving: number;
+  }>(
+    await db.execute(sql`
+      select g.school_id, sc.code, sc.name, g.grade, g.players, g.continued, g.moving
+      from (select sy.school_id, sy.grade, count(*)::int as players,
+          count(*) filter (where sy.continued)::int as continued,
+          count(*) filter (where sy.outcome = 'moving-up')::int as moving
+        from student_years sy
+        where ${lastYearPlayers(actor, previous, schoolId)}
+        group by sy.school_id, sy.grade) g
+      join schools sc on sc.id = g.school_id
+      order by sc.name, g.grade`),
+  );
+  const bySchool = new Map<number, YearOverYear['retention']['bySchool'][number]>();
+  const byGrade = new Map<number, { players: number; continued: number; moving: number }>();
+  for (const group of groups) {
+    const school = bySchool.get(group.school_id) ?? {
+      schoolId: group.school_id,
+      code: group.code,
+      name: group.name,
+      players: 0,
+      continued: 0,
+      share: null,
+    };
+    school.players += group.players;
+    school.continued += group.continued;
+    bySchool.set(group.school_id, school);
+    const grade = byGrade.get(group.grade) ?? { players: 0, continued: 0, moving: 0 };
+    grade.players += group.players;
+    grade.continued += group.continued;
+    grade.moving += group.moving;
+    byGrade.set(group.grade, grade);
+    figure.total.players += group.players;
+    figure.total.continued += group.continued;
+  }
+  figure.total.share = share(figure.total.continued, figure.total.players);
+  figure.bySchool = [...bySchool.values()].map((school) => ({
+    ...school,
+    share: share(school.continued, school.players),
+  }));
+  figure.byTransition = [...byGrade]
+    .sort(([a], [b]) => a - b)
+    .map(([grade, counts]) => ({
+      fromGrade: grade,
+      toGrade: grade + 1,
+      players: counts.players,
+      continued: counts.continued,
+      share: share(counts.continued, counts.players),
+      changesSchool: counts.moving * 2 > counts.players,
+    }));
+  return figure;
+}
+
+/**
  * `GET /api/analytics/year-over-year`: retention from the year before, the cohorts' climb, and
  * rung by grade against the year before at the same point of the year.
  */
@@ -65,74 +141,10 @@ export async function yearOverYear(
   // New students and changed seats are recomputed first, as the Overview does: the rung dates
   // and rungs read below are then exact.
   await topUpAttainment(db);
-  const retention: YearOverYear['retention'] = {
-    total: { players: 0, continued: 0, share: null },
-    bySchool: [],
-    byTransition: [],
-  };
-  if (previous) {
-    const groups = rowsOf<{
-      school_id: number;
-      code: string;
-      name: string;
-      grade: number;
-      players: number;
-      continued: number;
-      moving: number;
-    }>(
-      await db.execute(sql`
-        select g.school_id, sc.code, sc.name, g.grade, g.players, g.continued, g.moving
-        from (select sy.school_id, sy.grade, count(*)::int as players,
-            count(*) filter (where sy.continued)::int as continued,
-            count(*) filter (where sy.outcome = 'moving-up')::int as moving
-          from student_years sy
-          where ${lastYearPlayers(actor, previous, options.schoolId)}
-          group by sy.school_id, sy.grade) g
-        join schools sc on sc.id = g.school_id
-        order by sc.name, g.grade`),
-    );
-    const bySchool = new Map<number, YearOverYear['retention']['bySchool'][number]>();
-    const byGrade = new Map<number, { players: number; continued: number; moving: number }>();
-    for (const group of groups) {
-      const school = bySchool.get(group.school_id) ?? {
-        schoolId: group.school_id,
-        code: group.code,
-        name: group.name,
-        players: 0,
-        continued: 0,
-        share: null,
-      };
-      school.players += group.players;
-      school.continued += group.continued;
-      bySchool.set(group.school_id, school);
-      const grade = byGrade.get(group.grade) ?? { players: 0, continued: 0, moving: 0 };
-      grade.players += group.players;
-      grade.continued += group.continued;
-      grade.moving += group.moving;
-      byGrade.set(group.grade, grade);
-      retention.total.players += group.players;
-      retention.total.continued += group.continued;
-    }
-    retention.total.share = share(retention.total.continued, retention.total.players);
-    retention.bySchool = [...bySchool.values()].map((school) => ({
-      ...school,
-      share: share(school.continued, school.players),
-    }));
-    retention.byTransition = [...byGrade]
-      .sort(([a], [b]) => a - b)
-      .map(([grade, counts]) => ({
-        fromGrade: grade,
-        toGrade: grade + 1,
-        players: counts.players,
-        continued: counts.continued,
-        share: share(counts.continued, counts.players),
-        changesSchool: counts.moving * 2 > counts.players,
-      }));
-  }
   return {
     year: { id: year.id, name: year.name },
     previousYear: previous ? { id: previous.id, name: previous.name } : null,
-    retention,
+    retention: await retention(db, actor, previous, options.schoolId),
     cohorts: await cohortClimb(db, actor, year, years, options.schoolId),
     rungByGrade: await rungByGrade(db, actor, year, previous, options),
   };
@@ -140,11 +152,13 @@ export async function yearOverYear(
 
 /**
  * Each cohort (first year on record and the grade then): the median rung of its students who
- * played each year, at that year's end (`student_years.rung`), and now when the compared year is
- * the current one. Only years up to the compared one count; a student counts at the school of
- * that year, so a director sees the climb of the students while at their schools.
+ * played each year, at that year's end, and now when the compared year is the current one. Only
+ * years up to the compared one count; a student counts at the school of that year, so a director
+ * sees the climb of the students while at their schools. The closed years' points are the
+ * counts the year start wrote (`cohort_rungs`); the current year's are the active students'
+ * summary rows, whose cohort is copied from the student (null: they started this year).
  */
-async function cohortClimb(
+export async function cohortClimb(
   db: Database,
   actor: Actor,
   year: YearRow,
@@ -159,8 +173,11 @@ async function cohortClimb(
     return parts.length ? sql` and ${sql.join(parts, sql` and `)}` : sql``;
   };
   const now = year.current
-    ? sql`union all select a.student_id, ${year.starts_on}::date, a.grade::int, a.rung::int
-        from student_attainment a where a.active ${inScope(sql`a.school_id`)}`
+    ? sql`union all
+        select coalesce(a.cohort_starts_on, ${year.starts_on}::date)::text,
+          coalesce(a.cohort_grade, a.grade)::int, ${year.starts_on}::text, a.rung::int, count(*)::int
+        from student_attainment a where a.active ${inScope(sql`a.school_id`)}
+        group by 1, 2, 3, 4`
     : sql``;
   // Medians from counts by rung (rungs are small whole numbers): a hashed count instead of a sort
   // of every row, which is what keeps the figure fast over tens of thousands of students.
@@ -172,20 +189,13 @@ async function cohortClimb(
     students: number;
   }>(
     await db.execute(sql`
-      with played as materialized (
-        select sy.student_id, y.starts_on as year_on, sy.grade, sy.rung
-        from student_years sy join school_years y on y.id = sy.school_year_id
-        where sy.outcome <> 'withdrawn' and y.starts_on <= ${year.starts_on}::date
-          ${inScope(sql`sy.school_id`)}
-        ${now}
-      ),
-      firsts as (select student_id, min(year_on) as start_on from played group by student_id)
-      select f.start_on::text as start_on, first.grade::int as start_grade,
-        p.year_on::text as year_on, p.rung::int as rung, count(*)::int as students
-      from played p
-      join firsts f on f.student_id = p.student_id
-      join played first on first.student_id = f.student_id and first.year_on = f.start_on
-      group by 1, 2, 3, 4 order by 1, 2, 3, 4`),
+      select c.cohort_starts_on::text as start_on, c.cohort_grade::int as start_grade,
+        c.year_starts_on::text as year_on, c.rung::int as rung, sum(c.students)::int as students
+      from cohort_rungs c
+      where c.year_starts_on <= ${year.starts_on}::date ${inScope(sql`c.school_id`)}
+      group by 1, 2, 3, 4
+      ${now}
+      order by 1, 2, 3, 4`),
   );
   const histograms = new Map<
     string,

@@ -4,7 +4,7 @@ import type { ImportPlan } from './import-plan';
 import type { SqlSession } from './sql-session';
 
 /** The tables an import writes, whose triggers {@link skipReferenceTriggers} looks at. */
-const writtenTables = [
+const importedTables = [
   'students',
   'enrollments',
   'ensembles',
@@ -20,13 +20,16 @@ const writtenTables = [
  * fires no ordinary trigger): every school, ensemble, year and student id written was read in
  * this same transaction, and the per-row checks would otherwise cost more than the writes. Our
  * own triggers are enabled ALWAYS (migration 0007), so they still fire; a table with any other
- * trigger keeps the checks on.
+ * trigger keeps the checks on. The table names are the code's own, written in as literals.
  */
-export async function skipReferenceTriggers(session: SqlSession): Promise<void> {
+export async function skipReferenceTriggers(
+  session: Pick<SqlSession, 'query'>,
+  writtenTables: readonly string[] = importedTables,
+): Promise<void> {
   const [own] = await session.query<{ count: number }>(
     `select count(*)::int as count from pg_trigger
      where not tgisinternal and tgenabled <> 'A'
-       and tgrelid = any(array[${writtenTables.map((name) => `'${name}'::regclass`).join(', ')}])`,
+       and tgrelid = any(array[${writtenTables.map((name) => `'${name.replaceAll("'", "''")}'::regclass`).join(', ')}])`,
   );
   if (own!.count === 0) await session.query(`set local session_replication_role = replica`);
 }

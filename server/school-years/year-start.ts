@@ -7,7 +7,18 @@ import { recordAudit } from '../core/audit';
 import { badRequest, HttpError } from '../core/errors';
 import { topUpAttainment } from '../analytics/overview-service';
 import { assertYearFits, currentSchoolYearRow } from './school-years-service';
-import { dropSecondaryIndexes } from '../imports/bulk-load';
+import { dropSecondaryIndexes, skipReferenceTriggers } from '../imports/bulk-load';
+
+/** The tables a start writes (see {@link skipReferenceTriggers}). */
+const writtenTables = [
+  'students',
+  'student_years',
+  'enrollments',
+  'school_moves',
+  'school_years',
+  'cohort_rungs',
+  'audit_log',
+];
 
 /** The steps of a start, in order, for a caller that reports progress. */
 export type YearStartStep = 'planned' | 'history' | 'seats' | 'students' | 'switched';
@@ -63,6 +74,9 @@ async function writePlan(tx: Transaction, startsOn: string) {
       and (dest.closed_on is null or dest.closed_on > ${startsOn}::date)
     where s.status = 'active'`);
   await tx.execute(sql`alter table year_start_plan add primary key (student_id)`);
+  // A new temporary table has no statistics; without them the planner guesses its size and
+  // joins the seats the slow way round (PostgreSQL manual 14.1.2: ANALYZE).
+  await tx.execute(sql`analyze year_start_plan`);
 }
 
 interface SchoolCountRow {
@@ -169,7 +183,7 @@ async function applyPlan(
   tx: Transaction,
   actor: Actor | null,
   input: YearStartInput,
-  fromYear: { id: number; name: string },
+  fromYear: { id: number; name: string; startsOn: string },
   onStep: YearStartOptions['onStep'],
   embedded: boolean,
 ) {
@@ -180,16 +194,31 @@ async function applyPlan(
   );
   const newYearId = created!.id;
   // The summaries' row-by-row upkeep waits for the end of this transaction (custom migration
-  // year-start-quiet-triggers says which and why); student_years.continued is refreshed below.
+  // year-start-quiet-triggers says which and why); student_years.continued is written with the
+  // history below.
   await tx.execute(sql`select set_config('tutti.year_start', 'on', true)`);
   await onStep?.('planned');
-  // Where every student stood in the old year, with their rung at its end.
+  // Every id written below was read in this transaction: in the embedded engine, where this is
+  // the only transaction, the per-row foreign-key checks are skipped (bulk-load.ts says how).
+  if (embedded) {
+    await skipReferenceTriggers(
+      {
+        query: async <Row>(text: string) => rowsOf<Row>(await tx.execute(sql.raw(text))),
+      },
+      writtenTables,
+    );
+  }
+  // Where every student stood in the old year, with their rung (and rung dates) at its end. Whether each played
+  // on is known here: those promoted or moving up are active in the new year, the rest are not.
   await tx.execute(sql`
-    insert into student_years (student_id, school_year_id, school_id, grade, outcome, rung)
-    select p.student_id, ${fromYear.id}::int, p.school_id, p.grade, p.outcome, coalesce(a.rung, 0)
+    insert into student_years
+      (student_id, school_year_id, school_id, grade, outcome, rung, continued, rung_dates)
+    select p.student_id, ${fromYear.id}::int, p.school_id, p.grade, p.outcome, coalesce(a.rung, 0),
+      p.outcome in ('promoted', 'moving-up'), a.rung_dates
     from year_start_plan p left join student_attainment a on a.student_id = p.student_id
     union all
-    select s.id, ${fromYear.id}::int, s.school_id, s.grade, 'withdrawn', coalesce(a.rung, 0)
+    select s.id, ${fromYear.id}::int, s.school_id, s.grade, 'withdrawn', coalesce(a.rung, 0), false,
+      a.rung_dates
     from students s left join student_attainment a on a.student_id = s.id
     where s.status = 'withdrawn' and exists (
       select 1 from enrollments en where en.student_id = s.id and en.school_year_id = ${fromYear.id})
@@ -222,6 +251,8 @@ async function applyPlan(
       grade = case when p.outcome in ('promoted', 'moving-up') then s.grade + 1 else s.grade end,
       school_id = case when p.outcome = 'moving-up' then p.next_school_id else s.school_id end,
       status = case p.outcome when 'graduated' then 'graduated' when 'leaving' then 'leaving' else 'active' end,
+      cohort_starts_on = coalesce(s.cohort_starts_on, ${fromYear.startsOn}::date),
+      cohort_grade = coalesce(s.cohort_grade, s.grade),
       version = s.version + 1, updated_at = now()
     from year_start_plan p where s.id = p.student_id`);
   for (const definition of rebuild) await tx.execute(sql.raw(definition));
@@ -229,6 +260,14 @@ async function applyPlan(
     insert into school_moves (student_id, from_school_id, to_school_id, moved_by)
     select student_id, school_id, next_school_id, ${actor?.userId ?? null}::int
     from year_start_plan where outcome = 'moving-up'`);
+  // The closed year's points of the cohorts' climb: every player's cohort is set just above.
+  await tx.execute(sql`
+    insert into cohort_rungs (cohort_starts_on, cohort_grade, year_starts_on, school_id, rung, students)
+    select s.cohort_starts_on, s.cohort_grade, ${fromYear.startsOn}::date, sy.school_id, sy.rung,
+      count(*)::int
+    from student_years sy join students s on s.id = sy.student_id
+    where sy.school_year_id = ${fromYear.id} and sy.outcome <> 'withdrawn'
+    group by 1, 2, 3, 4, 5`);
   await onStep?.('students');
   await tx.execute(
     sql`update school_years set current = false, updated_at = now() where id = ${fromYear.id}`,
@@ -236,7 +275,14 @@ async function applyPlan(
   await tx.execute(
     sql`update school_years set current = true, updated_at = now() where id = ${newYearId}`,
   );
-  await tx.execute(sql`select refresh_student_years_continued()`);
+  // The year before the closed one now looks ahead to a year of history instead of the roster.
+  const [before] = rowsOf<{ id: number }>(
+    await tx.execute(sql`
+      select id from school_years
+      where starts_on < (select starts_on from school_years where id = ${fromYear.id})
+      order by starts_on desc limit 1`),
+  );
+  if (before) await tx.execute(sql`select refresh_student_years_continued_of(${before.id}::int)`);
   await tx.execute(sql`select set_config('tutti.year_start', 'off', true)`);
   await onStep?.('switched');
 }

@@ -266,6 +266,9 @@ export async function seedDemoLastYear(
     ),
   );
   await rebuildAttainment(tx);
+  // Each player's cohort, the cohorts' rungs at the closed year's end and the history's rung
+  // dates, as a year start writes them.
+  await tx.execute(sql`select refresh_history_summaries()`);
 }
 
 const guardianFirstNames = ['Alex', 'Sam', 'Jordan', 'Morgan', 'Casey', 'Robin', 'Taylor', 'Jamie'];

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
 import { SeededRandom } from '../../server/seed/random';
 import { startSchoolYear } from '../../server/school-years/year-start';
+import { yearOverYear } from '../../server/analytics/year-over-year';
 import { studentCountDrift } from '../support/student-counts';
 import { startTestApp, type TestApp } from '../support/test-app';
 import {
@@ -235,6 +236,13 @@ describe('Starting a year in a 2,000-student district', () => {
         school: was.schoolId,
       });
     }
+    // Whether each of the closed year's players played on: exactly those active in the new year.
+    const continued = await query<{ student_id: number; continued: boolean }>(
+      `select student_id, continued from student_years where school_year_id = ${before.currentYear.id} order by 1`,
+    );
+    const activeNow = new Set(after.filter((row) => row.status === 'active').map((row) => row.id));
+    expect(continued.length).toBeGreaterThan(expected.counts.students - 1);
+    expect(continued.filter((row) => row.continued !== activeNow.has(row.student_id))).toEqual([]);
     const [moves] = await query<{ count: number }>(
       'select count(*)::int as count from school_moves',
     );
@@ -243,5 +251,72 @@ describe('Starting a year in a 2,000-student district', () => {
     expect(await query(`select name from school_years where current`)).toEqual([
       { name: '2027-28' },
     ]);
+  });
+
+  it('should climb each cohort over two starts as a plain reading of the history does', async () => {
+    const started = await startSchoolYear(
+      app.database.db,
+      null,
+      { name: '2028-29', startsOn: '2028-08-14', endsOn: '2029-06-08', emptyEnsembles: false },
+      { commit: true },
+    );
+    expect(started.committed).toBe(true);
+    const played = await query<{ student_id: number; year: string; grade: number; rung: number }>(
+      `select sy.student_id, y.name as year, sy.grade, sy.rung from student_years sy
+       join school_years y on y.id = sy.school_year_id
+       where sy.outcome <> 'withdrawn' order by y.starts_on`,
+    );
+    const now = await query<{ student_id: number; grade: number; rung: number }>(
+      'select student_id, grade, rung from student_attainment where active',
+    );
+    // The plain reading: a student's cohort is the first year they played in and their grade then.
+    const first = new Map<number, { year: string; grade: number }>();
+    for (const row of played)
+      if (!first.has(row.student_id))
+        first.set(row.student_id, { year: row.year, grade: row.grade });
+    const points = new Map<string, number[]>();
+    const add = (studentId: number, year: string, grade: number, rung: number) => {
+      const cohort = first.get(studentId) ?? { year, grade };
+      const key = `${cohort.year}|${cohort.grade}|${year}`;
+      points.set(key, [...(points.get(key) ?? []), rung]);
+    };
+    for (const row of played) add(row.student_id, row.year, row.grade, row.rung);
+    for (const row of now) add(row.student_id, '2028-29', row.grade, row.rung);
+    const median = (values: number[]) => {
+      const sorted = [...values].sort((a, b) => a - b);
+      const middle = sorted.length / 2;
+      return sorted.length % 2
+        ? sorted[Math.floor(middle)]!
+        : (sorted[middle - 1]! + sorted[middle]!) / 2;
+    };
+    const expected = [...points]
+      .map(([key, rungs]) => `${key}|${median(rungs)}|${rungs.length}`)
+      .sort();
+    const figures = await yearOverYear(
+      app.database.db,
+      {
+        userId: 0,
+        email: 'coordinator@example.invalid',
+        name: 'Coordinator',
+        role: 'coordinator',
+        schoolIds: [],
+        studentId: null,
+        via: 'token',
+      },
+      {},
+    );
+    const answered = figures.cohorts
+      .flatMap((cohort) =>
+        cohort.points.map(
+          (point) =>
+            `${cohort.startYear}|${cohort.startGrade}|${point.year}|${point.median}|${point.students}`,
+        ),
+      )
+      .sort();
+    expect(answered).toEqual(expected);
+    // Three years of points: the two closed by the starts and the current one.
+    expect(new Set(answered.map((entry) => entry.split('|')[2]))).toEqual(
+      new Set(['2026-27', '2027-28', '2028-29']),
+    );
   });
 });

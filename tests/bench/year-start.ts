@@ -3,7 +3,14 @@ import { seedDemo } from '../../server/seed/demo';
 import { schools } from '../../server/db/schema/index';
 import { topUpAttainment } from '../../server/analytics/overview-service';
 import { startSchoolYear } from '../../server/school-years/year-start';
-import { retentionStudents, yearOverYear } from '../../server/analytics/year-over-year';
+import {
+  cohortClimb,
+  comparedYears,
+  retention,
+  retentionStudents,
+  yearOverYear,
+} from '../../server/analytics/year-over-year';
+import { rungByGrade } from '../../server/analytics/rung-by-grade';
 import type { Actor } from '../../server/core/policy';
 import { loadBenchStudents } from './bench-district';
 import { loadBenchPassOffs } from './analytics-load';
@@ -18,6 +25,9 @@ import { figure, percentile, time, timings, type BenchFigure } from './bench-fig
  * and within 5× the update. Then, over the two years it leaves (the old one now history), the
  * Overview's year-over-year figures (rung by grade included, over ten pass-offs a student) and a page of the names behind them, p95 against 50 ms.
  */
+const addDays = (day: string, days: number) =>
+  new Date(Date.parse(`${day}T00:00:00Z`) + days * 86_400_000).toISOString().slice(0, 10);
+
 export async function benchYearStart(options: { students: number }): Promise<BenchFigure[]> {
   const handle = await openDatabase({ kind: 'pglite-memory' });
   const pglite = handle.pglite!;
@@ -96,6 +106,19 @@ export async function benchYearStart(options: { students: number }): Promise<Ben
       await timings(() => yearOverYear(handle.db, coordinator, {}), runs),
       95,
     );
+    // Each figure of the answer on its own, over the same two years.
+    const { year, previous, years } = await comparedYears(handle.db, undefined);
+    const eachFigure = {
+      retention: () => retention(handle.db, coordinator, previous, undefined),
+      'cohort climb': () => cohortClimb(handle.db, coordinator, year, years, undefined),
+      'rung by grade against last year': () =>
+        rungByGrade(handle.db, coordinator, year, previous, {
+          asOf: addDays(year.starts_on, 60),
+        }),
+    };
+    const figureMs: [string, number][] = [];
+    for (const [name, read] of Object.entries(eachFigure))
+      figureMs.push([name, percentile(await timings(read, runs), 95)]);
     const namesMs = percentile(
       await timings(
         () => retentionStudents(handle.db, coordinator, { stopped: 'false', limit: '100' }),
@@ -104,11 +127,14 @@ export async function benchYearStart(options: { students: number }): Promise<Ben
       95,
     );
     return [
+      ...figureMs.map(([name, ms]) =>
+        figure(`year over year: ${name} (p95), against 50 ms`, ms, 50, `target ≤ 1×; ${counted}`),
+      ),
       figure(
-        'year over year: retention by school and grade, cohorts, rung by grade against last year (p95), against 50 ms',
+        'year over year: the whole answer, three figures (p95), against 3 × 50 ms',
         yearOverYearMs,
-        50,
-        `target ≤ 1×; ${counted}`,
+        150,
+        'target ≤ 1×',
       ),
       figure('retention names, first page of 100 (p95), against 50 ms', namesMs, 50, 'target ≤ 1×'),
       figure(

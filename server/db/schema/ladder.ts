@@ -186,6 +186,9 @@ export const studentAttainment = pgTable(
     schoolId: integer('school_id'),
     grade: smallint('grade'),
     active: boolean('active').notNull().default(true),
+    /** The student's cohort, copied from the student with the fields above. */
+    cohortStartsOn: date('cohort_starts_on', { mode: 'string' }),
+    cohortGrade: smallint('cohort_grade'),
     /** Set when the student's seats changed: the rung is recomputed before the next read. */
     stale: boolean('stale').notNull().default(false),
     ladderVersionId: integer('ladder_version_id').references(() => ladderVersions.id, {

@@ -1,4 +1,5 @@
 import {
+  date,
   index,
   integer,
   jsonb,
@@ -34,6 +35,13 @@ export const students = pgTable(
       .default('active'),
     guardianName: text('guardian_name'),
     guardianEmail: text('guardian_email'),
+    /**
+     * The student's cohort: the first day of the first school year they played in on record and
+     * their grade then. Null until a year they played in is closed (until then their cohort is
+     * the current year and grade). Written by the year start in its one update of the roster.
+     */
+    cohortStartsOn: date('cohort_starts_on', { mode: 'string' }),
+    cohortGrade: smallint('cohort_grade'),
     ...version,
     ...timestamps,
   },
@@ -109,11 +117,47 @@ export const studentYears = pgTable(
      * (custom migration `yoy-summary-triggers`) so year-over-year retention is a grouped count.
      */
     continued: boolean('continued').notNull().default(false),
+    /**
+     * The student's rung dates (as `student_attainment.rung_dates`) when the year was closed: the
+     * rung on any day of that year is `width_bucket(day, rung_dates)`, read from this row alone.
+     */
+    rungDates: date('rung_dates', { mode: 'string' }).array(),
   },
   (table) => [
     primaryKey({ columns: [table.studentId, table.schoolYearId] }),
     index('student_years_year_school_idx').on(table.schoolYearId, table.schoolId, table.grade),
     index('student_years_year_continued_idx').on(table.schoolYearId, table.continued),
+  ],
+);
+
+/**
+ * The cohorts' climb through the closed years: how many of a cohort (first year on record and
+ * grade then) played at a school in a closed year and ended it on a rung. Written once, when the
+ * year is closed by the start of the next (history does not change after), so the year-over-year
+ * figure reads a few hundred rows instead of every student's history.
+ */
+export const cohortRungs = pgTable(
+  'cohort_rungs',
+  {
+    cohortStartsOn: date('cohort_starts_on', { mode: 'string' }).notNull(),
+    cohortGrade: smallint('cohort_grade').notNull(),
+    yearStartsOn: date('year_starts_on', { mode: 'string' }).notNull(),
+    schoolId: integer('school_id')
+      .notNull()
+      .references(() => schools.id),
+    rung: smallint('rung').notNull(),
+    students: integer('students').notNull(),
+  },
+  (table) => [
+    primaryKey({
+      columns: [
+        table.cohortStartsOn,
+        table.cohortGrade,
+        table.yearStartsOn,
+        table.schoolId,
+        table.rung,
+      ],
+    }),
   ],
 );
 

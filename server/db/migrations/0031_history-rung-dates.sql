@@ -1,0 +1,1 @@
+ALTER TABLE "student_years" ADD COLUMN "rung_dates" date[];
