@@ -4,6 +4,7 @@ import {
   HttpContextToken,
   HttpParams,
   HttpRequest,
+  HttpResponse,
   type HttpEvent,
   type HttpInterceptorFn,
 } from '@angular/common/http';
@@ -20,6 +21,11 @@ const earlyRead = new HttpContextToken<boolean>(() => false);
 export interface ScreenRead {
   url: string;
   params?: Record<string, string | number>;
+  /**
+   * For a paged list read from offset 0 (`limit` and `offset` among the params): once its first
+   * page tells the total, the pages after it start early too, as the screen will ask for them.
+   */
+  paged?: boolean;
 }
 
 /**
@@ -43,11 +49,26 @@ export class EarlyReads {
       const answer = this.http.request(request).pipe(shareReplay());
       this.started.set(key, answer);
       // Subscribed here so the request leaves now; the screen takes the answer when it asks.
-      answer.subscribe({ error: () => undefined });
+      answer.subscribe({
+        next: (event) => {
+          if (read.paged && event instanceof HttpResponse) this.startPages(read, event.body);
+        },
+        error: () => undefined,
+      });
       setTimeout(() => {
         if (this.started.get(key) === answer) this.started.delete(key);
       }, keptFor);
     }
+  }
+
+  private startPages(read: ScreenRead, first: unknown): void {
+    const limit = Number(read.params?.['limit']);
+    const total = (first as { total?: unknown } | null)?.total;
+    if (!(limit > 0) || typeof total !== 'number') return;
+    const pages: ScreenRead[] = [];
+    for (let offset = limit; offset < total; offset += limit)
+      pages.push({ url: read.url, params: { ...read.params, offset } });
+    this.start(pages);
   }
 
   /** The early read of this request, if one was started and not yet taken. */

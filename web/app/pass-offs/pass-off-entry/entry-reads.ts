@@ -1,5 +1,6 @@
 import { inject } from '@angular/core';
 import { Router, type CanMatchFn } from '@angular/router';
+import { CurrentUser } from '../../core/auth/current-user';
 import { EarlyReads, type ScreenRead } from '../../core/state/early-reads';
 
 /** The ensembles the entry screen offers, as it asks for them. */
@@ -25,6 +26,7 @@ export function entryReads(ensembleId: number | null): ScreenRead[] {
       {
         url: '/api/pass-offs',
         params: { ensembleId, limit: passOffPageSize, offset: 0 },
+        paged: true,
       },
       { url: '/api/analytics/students', params: { ensembleId, limit: rungRowsLimit } },
     );
@@ -33,11 +35,15 @@ export function entryReads(ensembleId: number | null): ScreenRead[] {
 }
 
 /**
- * A `canMatch` guard that starts the entry screen's reads as the route is matched, beside the
- * signed-in user's and the screen's code, and lets the route match. The server still decides:
+ * A `canMatch` guard that starts the entry screen's reads as the route is matched, just after the
+ * signed-in user's and beside the screen's code, and lets the route match. The server still decides:
  * a read the user may not make answers 401 or 403 as it would from the screen.
  */
 export const startEntryReads: CanMatchFn = () => {
+  // Who is signed in goes first (the shell's guard waits for it); the same read, started once.
+  inject(CurrentUser)
+    .load()
+    .catch(() => undefined);
   const query = inject(Router).currentNavigation()?.extractedUrl.queryParams ?? {};
   inject(EarlyReads).start(entryReads(Number(query['ensemble']) || null));
   return true;
