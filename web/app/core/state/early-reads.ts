@@ -10,6 +10,7 @@ import {
 } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { shareReplay, type Observable } from 'rxjs';
+import { LastVisit } from '../offline/last-visit';
 
 /** How long an early read waits for its screen before it is dropped rather than answered stale. */
 const keptFor = 20_000;
@@ -22,8 +23,9 @@ export interface ScreenRead {
   url: string;
   params?: Record<string, string | number>;
   /**
-   * For a paged list read from offset 0 (`limit` and `offset` among the params): once its first
-   * page tells the total, the pages after it start early too, as the screen will ask for them.
+   * For a paged list read from offset 0 (`limit` and `offset` among the params): the pages after
+   * it start early too, as the screen will ask for them, as many as the total this device kept
+   * from the last visit implies and then as many as the first page's total does.
    */
   paged?: boolean;
 }
@@ -36,7 +38,12 @@ export interface ScreenRead {
 @Injectable({ providedIn: 'root' })
 export class EarlyReads {
   private readonly http = inject(HttpClient);
-  private readonly started = new Map<string, Observable<HttpEvent<unknown>>>();
+  private readonly lastVisit = inject(LastVisit);
+  /** Each read started lately, and whether its screen took it (a read is started once). */
+  private readonly started = new Map<
+    string,
+    { answer: Observable<HttpEvent<unknown>>; taken: boolean }
+  >();
 
   start(reads: readonly ScreenRead[]): void {
     for (const read of reads) {
@@ -47,7 +54,8 @@ export class EarlyReads {
       const key = request.urlWithParams;
       if (this.started.has(key)) continue;
       const answer = this.http.request(request).pipe(shareReplay());
-      this.started.set(key, answer);
+      const entry = { answer, taken: false };
+      this.started.set(key, entry);
       // Subscribed here so the request leaves now; the screen takes the answer when it asks.
       answer.subscribe({
         next: (event) => {
@@ -55,12 +63,14 @@ export class EarlyReads {
         },
         error: () => undefined,
       });
+      if (read.paged) void this.lastVisit.hint(key).then((kept) => this.startPages(read, kept));
       setTimeout(() => {
-        if (this.started.get(key) === answer) this.started.delete(key);
+        if (this.started.get(key) === entry) this.started.delete(key);
       }, keptFor);
     }
   }
 
+  /** Starts the pages after the first that a list answer's `total` implies. */
   private startPages(read: ScreenRead, first: unknown): void {
     const limit = Number(read.params?.['limit']);
     const total = (first as { total?: unknown } | null)?.total;
@@ -74,9 +84,10 @@ export class EarlyReads {
   /** The early read of this request, if one was started and not yet taken. */
   take(request: HttpRequest<unknown>): Observable<HttpEvent<unknown>> | undefined {
     if (request.method !== 'GET' || request.context.get(earlyRead)) return undefined;
-    const answer = this.started.get(request.urlWithParams);
-    this.started.delete(request.urlWithParams);
-    return answer;
+    const entry = this.started.get(request.urlWithParams);
+    if (!entry || entry.taken) return undefined;
+    entry.taken = true;
+    return entry.answer;
   }
 }
 
