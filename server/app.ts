@@ -43,6 +43,7 @@ import { outboxRoutes } from './mail/outbox-routes';
 import { reportsRoutes } from './reports/reports-routes';
 import { startBackgroundWork } from './reports/background-work';
 import { webRoot } from './project-paths';
+import { indexPages } from './core/web-preloads';
 import { districtLogoRoute, districtRoutes, requireDistrict } from './district/district-routes';
 import { findDistrictRow } from './district/district-queries';
 import { feesRoutes, paymentsWebhook } from './payments/fees-routes';
@@ -233,10 +234,13 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
 
   if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'))) {
     app.use(express.static(webRoot, { index: false, maxAge: '1h', setHeaders: webCacheHeaders }));
-    // HTML5 routing: every other GET is the app's index page.
-    app.get('/{*splat}', (_request, response) => {
+    const indexPage = indexPages(webRoot);
+    // HTML5 routing: every other GET is the app's index page (naming a screen's code ahead).
+    app.get('/{*splat}', (request, response) => {
       response.set('Cache-Control', 'no-cache');
-      response.sendFile(path.join(webRoot, 'index.html'));
+      const page = indexPage(request.path);
+      if (page === undefined) response.sendFile(path.join(webRoot, 'index.html'));
+      else response.type('html').send(page);
     });
   }
   app.use(errorHandler(logger));

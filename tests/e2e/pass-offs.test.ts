@@ -291,4 +291,49 @@ describe('Pass-offs entry', () => {
     expect(await history.innerText()).toContain('10 MB');
     await context.close();
   });
+
+  it('should name its code ahead in the index page and ask for each of its reads once', async () => {
+    const [ensemble] = (await director.get('/api/ensembles?limit=1&sort=name:asc')).body.rows as {
+      id: number;
+    }[];
+    const preloads = async (address: string) => {
+      const page = await (await fetch(`${app.url}${address}`)).text();
+      return [...page.matchAll(/<link rel="modulepreload" href="([^"]+)">/g)].map((m) => m[1]!);
+    };
+    const named = await preloads('/pass-offs');
+    // The screen's code is named beside the first bundle's; another screen's page is plain.
+    expect(named.length).toBeGreaterThan((await preloads('/overview')).length + 10);
+    for (const file of named) expect((await fetch(`${app.url}/${file}`)).status).toBe(200);
+
+    const { context } = await localOnlyContext(browser);
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('director.hpms'));
+    // Away from the start page first, so none of its reads is counted.
+    await page.goto('about:blank');
+    const reads: string[] = [];
+    page.on('request', (request) => {
+      const url = new URL(request.url());
+      if (request.method() === 'GET' && url.pathname.startsWith('/api/'))
+        reads.push(decodeURIComponent(url.pathname + url.search));
+    });
+    await page.goto(`${app.url}/pass-offs?ensemble=${ensemble!.id}&rung=1`);
+    await expect
+      .poll(() => page.locator('[role=row][row-index="0"]').count(), patient)
+      .toBeGreaterThan(0);
+    await page.waitForLoadState('networkidle');
+    // The reads started as the route matched are the ones the screen takes: none asked twice.
+    const screenReads = [
+      '/api/ensembles?sort=name:asc&limit=500',
+      '/api/ladder',
+      `/api/ensembles/${ensemble!.id}`,
+      `/api/pass-offs?ensembleId=${ensemble!.id}&limit=1000&offset=0`,
+      `/api/analytics/students?ensembleId=${ensemble!.id}&limit=1000`,
+    ];
+    for (const read of screenReads) expect(reads.filter((each) => each === read)).toEqual([read]);
+    // And they left before the screen existed: before the reads its own parts make as they start.
+    const firstOwn = Math.min(reads.indexOf('/api/takes'), reads.indexOf('/api/school-years'));
+    expect(firstOwn).toBeGreaterThan(0);
+    for (const read of screenReads) expect(reads.indexOf(read)).toBeLessThan(firstOwn);
+    await context.close();
+  });
 });

@@ -11,13 +11,14 @@ import { routes } from './app.routes';
 import { sessionExpiredInterceptor } from './core/auth/session-expired-interceptor';
 import { AppUpdates } from './core/offline/app-updates';
 import { lastVisitInterceptor } from './core/offline/last-visit-interceptor';
+import { earlyReadsInterceptor } from './core/state/early-reads';
 
 export const appConfig: ApplicationConfig = {
   providers: [
     provideBrowserGlobalErrorListeners(),
     provideZonelessChangeDetection(),
     provideHttpClient(
-      withInterceptors([sessionExpiredInterceptor, lastVisitInterceptor]),
+      withInterceptors([earlyReadsInterceptor, sessionExpiredInterceptor, lastVisitInterceptor]),
       withXsrfConfiguration({}),
     ),
     provideRouter(

@@ -1,6 +1,7 @@
 import type { CanMatchFn, Routes } from '@angular/router';
 import { capabilityGuard, signedInGuard } from './core/auth/signed-in-guard';
 import { startPage } from './core/start-page';
+import { startEntryReads } from './pass-offs/pass-off-entry/entry-reads';
 import {
   studentPageGuard,
   studentPageMatcher,
@@ -81,7 +82,8 @@ export const routes: Routes = [
         data: { capability: 'pass-offs:write' },
         // Asked for while the route is matched, so its code arrives while the shell's guard is
         // still waiting for the signed-in user, instead of after it (the module loads once).
-        canMatch: [startLoading(loadPassOffEntry)],
+        // Its reads start then too (the server still checks each), so they overlap the code's load.
+        canMatch: [startLoading(loadPassOffEntry), startEntryReads],
         loadComponent: loadPassOffEntry,
         title: 'Pass-offs · Tuttiboard',
       },

@@ -52,3 +52,37 @@ describe('icons', () => {
     expect([...used].filter((name) => !registered.has(name))).toEqual([]);
   });
 });
+
+describe('icons shipped in the code', () => {
+  const text = fs.readFileSync(path.join(root, 'web/app/core/inline-icons.ts'), 'utf8');
+  const imported = new Map(
+    [
+      ...text.matchAll(
+        /import (\w+) from '@material-symbols\/svg-400\/outlined\/([a-z0-9_]+)\.svg'/g,
+      ),
+    ].map((match) => [match[1]!, match[2]!]),
+  );
+  const entries = [...text.matchAll(/^ {2}([a-z0-9_]+): (\w+),$/gm)].map((match) => ({
+    name: match[1]!,
+    file: imported.get(match[2]!),
+  }));
+
+  it('should name each inlined icon after the file it imports', () => {
+    // The shell's navigation alone draws more than a dozen, so the scan cannot come back empty.
+    expect(entries.length).toBeGreaterThan(12);
+    expect(entries.filter((entry) => entry.file !== entry.name)).toEqual([]);
+  });
+
+  it('should inline only registered icons, and every icon of the navigation', () => {
+    const registered = new Set<string>(iconNames);
+    expect(entries.filter((entry) => !registered.has(entry.name))).toEqual([]);
+    const navigation = fs.readFileSync(
+      path.join(root, 'web/app/core/layout/navigation.ts'),
+      'utf8',
+    );
+    const inlined = new Set(entries.map((entry) => entry.name));
+    const rail = [...navigation.matchAll(/\bicon: '([a-z0-9_]+)'/g)].map((match) => match[1]!);
+    expect(rail.length).toBeGreaterThan(12);
+    expect(rail.filter((name) => !inlined.has(name))).toEqual([]);
+  });
+});

@@ -15,10 +15,10 @@ import {
 } from '@shared/api/pass-off';
 import { parsedWith } from '../core/parse';
 import { allPages } from './all-pages';
+import { passOffPageSize, rungRowsLimit } from './pass-off-entry/entry-reads';
 
 const passOffListSchema = listResponseSchema(passOffSchema);
 const attainmentListSchema = listResponseSchema(attainmentRowSchema);
-const pageSize = 1000;
 
 /** Reads and records pass-offs, and their recordings, through `/api/pass-offs`. */
 @Injectable({ providedIn: 'root' })
@@ -44,15 +44,22 @@ export class PassOffData {
 
   /** Every pass-off the query selects, its pages after the first asked for together. */
   all(query: Record<string, string | number | boolean>): Observable<PassOff[]> {
-    return allPages((offset) => this.list({ ...query, limit: pageSize, offset }), pageSize);
+    return allPages(
+      (offset) => this.list({ ...query, limit: passOffPageSize, offset }),
+      passOffPageSize,
+    );
   }
 
   /** Each active student of the ensemble with their rung on the ladder in force. */
   rungsOfEnsemble(ensembleId: number): Observable<AttainmentRow[]> {
-    return this.http.get('/api/analytics/students', { params: { ensembleId, limit: 1000 } }).pipe(
-      parsedWith(attainmentListSchema),
-      map((list) => list.rows),
-    );
+    return this.http
+      .get('/api/analytics/students', {
+        params: { ensembleId, limit: rungRowsLimit },
+      })
+      .pipe(
+        parsedWith(attainmentListSchema),
+        map((list) => list.rows),
+      );
   }
 
   /** Records a batch; pass-offs whose client key the server has seen come back as they stand. */

@@ -83,6 +83,19 @@ export class LastVisit {
     return kept;
   }
 
+  /**
+   * The body kept for the user last signed in on this device, as a hint only (how many rows a
+   * list had): nothing is shown from it and no user is assumed signed in.
+   */
+  async hint(url: string): Promise<unknown> {
+    const db = await this.open();
+    if (!db) return undefined;
+    const user = await db.lib.get<KeptUser>(userKey, db.store).catch(() => undefined);
+    if (!user) return undefined;
+    const kept = await db.lib.get<KeptAnswer>(`${user.id} ${url}`, db.store).catch(() => undefined);
+    return kept?.body;
+  }
+
   /** Notes that the server answered again, so the page no longer shows kept answers. */
   answeredLive(): void {
     if (this.shownFrom() !== null) this.shownFrom.set(null);
@@ -98,6 +111,7 @@ export class LastVisit {
   }
 
   private key(url: string): string {
+    // The same key as `hint` reads.
     return `${this.userId} ${url}`;
   }
 

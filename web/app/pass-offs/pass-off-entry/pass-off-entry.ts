@@ -51,6 +51,7 @@ import { PassOffQueue } from '../pass-off-queue';
 import { StudentHistory } from '../student-history/student-history';
 import { EntryGrid } from './entry-grid';
 import { EnsembleSheet } from './ensemble-sheet';
+import { entryEnsembleQuery } from './entry-reads';
 import { queueBanner } from './entry-sheet';
 import { SentTakes } from '../sent-takes';
 import { TouchEntry, type TouchCell } from '../touch-entry/touch-entry';
@@ -115,10 +116,7 @@ export class PassOffEntry {
   readonly rung = input<string>();
 
   protected readonly today = localToday();
-  private readonly ensembleList = this.ensembleData.listed(() => ({
-    sort: 'name:asc',
-    limit: 500,
-  }));
+  private readonly ensembleList = this.ensembleData.listed(() => entryEnsembleQuery);
   private readonly inForce = this.ladderData.inForce();
   // The page needs the ensembles and the ladder together: neither shows before both are read.
   protected readonly ensembles = computed<Ensemble[] | null>(() =>

@@ -1,0 +1,96 @@
+import {
+  HttpClient,
+  HttpContext,
+  HttpContextToken,
+  HttpParams,
+  HttpRequest,
+  HttpResponse,
+  type HttpEvent,
+  type HttpInterceptorFn,
+} from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import { shareReplay, type Observable } from 'rxjs';
+import { LastVisit } from '../offline/last-visit';
+
+/** How long an early read waits for its screen before it is dropped rather than answered stale. */
+const keptFor = 20_000;
+
+/** Marks the early read itself, so the interceptor lets it through to the server. */
+const earlyRead = new HttpContextToken<boolean>(() => false);
+
+/** A read a screen will make, as its data class asks for it (same URL, same parameter order). */
+export interface ScreenRead {
+  url: string;
+  params?: Record<string, string | number>;
+  /**
+   * For a paged list read from offset 0 (`limit` and `offset` among the params): the pages after
+   * it start early too, as the screen will ask for them, as many as the total this device kept
+   * from the last visit implies and then as many as the first page's total does.
+   */
+  paged?: boolean;
+}
+
+/**
+ * Reads a screen needs, started while its code is still loading (from the route's `canMatch`),
+ * so their round trips overlap the code's instead of following it. The screen's own request for
+ * the same URL is answered by the read already under way, once; nothing else is cached.
+ */
+@Injectable({ providedIn: 'root' })
+export class EarlyReads {
+  private readonly http = inject(HttpClient);
+  private readonly lastVisit = inject(LastVisit);
+  /** Each read started lately, and whether its screen took it (a read is started once). */
+  private readonly started = new Map<
+    string,
+    { answer: Observable<HttpEvent<unknown>>; taken: boolean }
+  >();
+
+  start(reads: readonly ScreenRead[]): void {
+    for (const read of reads) {
+      const request = new HttpRequest('GET', read.url, {
+        params: new HttpParams({ fromObject: read.params ?? {} }),
+        context: new HttpContext().set(earlyRead, true),
+      });
+      const key = request.urlWithParams;
+      if (this.started.has(key)) continue;
+      const answer = this.http.request(request).pipe(shareReplay());
+      const entry = { answer, taken: false };
+      this.started.set(key, entry);
+      // Subscribed here so the request leaves now; the screen takes the answer when it asks.
+      answer.subscribe({
+        next: (event) => {
+          if (read.paged && event instanceof HttpResponse) this.startPages(read, event.body);
+        },
+        error: () => undefined,
+      });
+      if (read.paged) void this.lastVisit.hint(key).then((kept) => this.startPages(read, kept));
+      setTimeout(() => {
+        if (this.started.get(key) === entry) this.started.delete(key);
+      }, keptFor);
+    }
+  }
+
+  /** Starts the pages after the first that a list answer's `total` implies. */
+  private startPages(read: ScreenRead, first: unknown): void {
+    const limit = Number(read.params?.['limit']);
+    const total = (first as { total?: unknown } | null)?.total;
+    if (!(limit > 0) || typeof total !== 'number') return;
+    const pages: ScreenRead[] = [];
+    for (let offset = limit; offset < total; offset += limit)
+      pages.push({ url: read.url, params: { ...read.params, offset } });
+    this.start(pages);
+  }
+
+  /** The early read of this request, if one was started and not yet taken. */
+  take(request: HttpRequest<unknown>): Observable<HttpEvent<unknown>> | undefined {
+    if (request.method !== 'GET' || request.context.get(earlyRead)) return undefined;
+    const entry = this.started.get(request.urlWithParams);
+    if (!entry || entry.taken) return undefined;
+    entry.taken = true;
+    return entry.answer;
+  }
+}
+
+/** Answers a screen's read from the early read of the same URL, when one is under way. */
+export const earlyReadsInterceptor: HttpInterceptorFn = (request, next) =>
+  inject(EarlyReads).take(request) ?? next(request);
