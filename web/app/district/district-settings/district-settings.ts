@@ -30,17 +30,7 @@ import { AgreementTextEditor } from '../agreement-text/agreement-text';
 import { DistrictData } from '../district-data';
 import { FeeScheduleEditor } from '../fee-schedule/fee-schedule';
 import { createRecordSave } from '../../core/forms/record-save';
-
-/** The time zones offered first; any other IANA zone can be typed in the field below. */
-const commonTimeZones = [
-  'America/Los_Angeles',
-  'America/Denver',
-  'America/Phoenix',
-  'America/Chicago',
-  'America/New_York',
-  'America/Anchorage',
-  'Pacific/Honolulu',
-];
+import { usualTimeZones } from '../../core/district/time-zones';
 
 /**
  * The coordinator's screen for the district's own settings: name, logo, office, time zone, mail,
@@ -72,7 +62,7 @@ export class DistrictSettings {
   protected readonly fieldMessage = fieldMessage;
   protected readonly logoMessage = signal('');
   protected readonly logoError = signal('');
-  protected readonly timeZones = signal<string[]>(commonTimeZones);
+  protected readonly timeZones = signal<readonly string[]>(usualTimeZones);
 
   protected readonly form = inject(NonNullableFormBuilder).group({
     name: ['', schemaValidator(districtNameSchema)],
@@ -102,8 +92,8 @@ export class DistrictSettings {
       email: district.contact.email,
       mailSenderName: district.mailSenderName,
     });
-    if (!commonTimeZones.includes(district.timeZone))
-      this.timeZones.set([district.timeZone, ...commonTimeZones]);
+    if (!usualTimeZones.includes(district.timeZone))
+      this.timeZones.set([district.timeZone, ...usualTimeZones]);
   }
 
   protected save(current: District): void {
