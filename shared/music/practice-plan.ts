@@ -54,137 +54,178 @@ export function practicePlan(
   requirement: PracticeRequirement,
   options: { instrument?: string; startTempo?: number } = {},
 ): PracticeStep[] {
+  const plan = planContext(requirement, options);
+  return [...openingSteps(plan), ...climbingSteps(plan), ...briskSteps(plan)];
+}
+
+/** What every step of one plan is worked out from. */
+interface PlanContext {
+  requirement: PracticeRequirement;
+  instrument: InstrumentSpec | undefined;
+  /** The key the student reads: the written key with an instrument, else concert. */
+  playedKey: Key;
+  keyText: string;
+  warmUpTempo: number;
+  slowTempo: number;
+  /** The pattern climbed in the broad rhythm: a brisk requirement climbs its broad form first. */
+  target: PatternId;
+  octaveText: string;
+  /** How to articulate, in the instrument's words. */
+  how: string;
+}
+
+const passOffWords =
+  'This is the pass-off tempo: when it feels easy three times in a row, ask your director to hear it.';
+
+function planContext(
+  requirement: PracticeRequirement,
+  options: { instrument?: string; startTempo?: number },
+): PlanContext {
   const { key, pattern, tempo, articulation, octaves } = requirement;
   checkKey(key);
   if (!(tempo > 0)) throw new Error(`A required tempo must be positive, not ${tempo}.`);
   const instrument = options.instrument === undefined ? undefined : resolve(options.instrument);
   const playedKey = instrument ? writtenKey(key, instrument.id) : key;
-  const keyText = instrument
-    ? `${keyName(playedKey)} (your written key for concert ${keyName(key)})`
-    : keyName(key);
   const warmUpTempo = Math.min(60, tempo);
-  const slowTempo = Math.min(options.startTempo ?? warmUpTempo, tempo);
-  const target: PatternId = pattern === 'cycle-brisk' ? 'cycle-broad' : pattern;
-  const octaveText = octaves === 2 ? ' over two octaves' : '';
-  const how = articulationWords(articulation, instrument);
-  const step = (
-    id: string,
-    title: string,
-    description: string,
-    stepPattern: PatternId,
-    stepTempo: number,
-    stepArticulation: Articulation,
-  ): PracticeStep => ({
-    id,
-    title,
-    description,
-    pattern: stepPattern,
-    tempo: stepTempo,
-    articulation: stepArticulation,
-    octaves,
-  });
-  const passOffWords =
-    'This is the pass-off tempo: when it feels easy three times in a row, ask your director to hear it.';
+  return {
+    requirement,
+    instrument,
+    playedKey,
+    keyText: instrument
+      ? `${keyName(playedKey)} (your written key for concert ${keyName(key)})`
+      : keyName(key),
+    warmUpTempo,
+    slowTempo: Math.min(options.startTempo ?? warmUpTempo, tempo),
+    target: pattern === 'cycle-brisk' ? 'cycle-broad' : pattern,
+    octaveText: octaves === 2 ? ' over two octaves' : '',
+    how: articulationWords(articulation, instrument),
+  };
+}
 
-  const steps: PracticeStep[] = [
-    step(
-      'note-names',
-      'Learn the notes',
-      `Before you play, say the notes of ${keyText} out loud ${noteNamesText(playedKey)}. ` +
+function step(
+  plan: PlanContext,
+  fields: Omit<PracticeStep, 'octaves' | 'articulation'> & { articulation?: Articulation },
+): PracticeStep {
+  return {
+    ...fields,
+    articulation: fields.articulation ?? plan.requirement.articulation,
+    octaves: plan.requirement.octaves,
+  };
+}
+
+/** The notes, then long tones and the arpeggio where the pattern goes beyond them. */
+function openingSteps(plan: PlanContext): PracticeStep[] {
+  const { instrument, playedKey, keyText, warmUpTempo, target, octaveText } = plan;
+  const steps = [
+    step(plan, {
+      id: 'note-names',
+      title: 'Learn the notes',
+      description:
+        `Before you play, say the notes of ${keyText} out loud ${noteNamesText(playedKey)}. ` +
         `Then say them again while you ${fingerWords(instrument)}. ` +
         'When you can do it without stopping, you are ready to play.',
-      'long-tones',
-      warmUpTempo,
-      'tongued',
-    ),
+      pattern: 'long-tones',
+      tempo: warmUpTempo,
+      articulation: 'tongued',
+    }),
   ];
   if (target !== 'long-tones') {
     steps.push(
-      step(
-        'long-tones',
-        'Long tones',
-        `Play each note of the scale${octaveText} as a whole note at quarter = ${warmUpTempo}. ` +
+      step(plan, {
+        id: 'long-tones',
+        title: 'Long tones',
+        description:
+          `Play each note of the scale${octaveText} as a whole note at quarter = ${warmUpTempo}. ` +
           longToneWords(instrument),
-        'long-tones',
-        warmUpTempo,
-        'tongued',
-      ),
+        pattern: 'long-tones',
+        tempo: warmUpTempo,
+        articulation: 'tongued',
+      }),
     );
   }
   if (target === 'cycle-broad') {
     steps.push(
-      step(
-        'arpeggio',
-        'The arpeggio',
-        `Play the arpeggio ${arpeggio(playedKey).join(' ')}${octaveText} up and down in whole ` +
+      step(plan, {
+        id: 'arpeggio',
+        title: 'The arpeggio',
+        description:
+          `Play the arpeggio ${arpeggio(playedKey).join(' ')}${octaveText} up and down in whole ` +
           `notes at quarter = ${warmUpTempo}. Hear each note in your head before you play it.`,
-        'arpeggio-long',
-        warmUpTempo,
-        'tongued',
-      ),
+        pattern: 'arpeggio-long',
+        tempo: warmUpTempo,
+        articulation: 'tongued',
+      }),
     );
   }
+  return steps;
+}
+
+/** The whole pattern slowly, then up through the usual metronome marks. */
+function climbingSteps(plan: PlanContext): PracticeStep[] {
+  const { slowTempo, target, octaveText, how } = plan;
+  const { pattern, tempo } = plan.requirement;
   const slowIsGoal = slowTempo === tempo && target === pattern;
-  steps.push(
-    step(
-      'slow-pattern',
-      slowIsGoal
+  const steps = [
+    step(plan, {
+      id: 'slow-pattern',
+      title: slowIsGoal
         ? `Pass-off tempo: quarter = ${tempo}`
         : target === pattern
           ? 'The whole pattern, slowly'
           : 'The whole pattern in the broad rhythm',
-      `Play ${patternWords[target]}${octaveText} at quarter = ${slowTempo}, ${how}. ` +
+      description:
+        `Play ${patternWords[target]}${octaveText} at quarter = ${slowTempo}, ${how}. ` +
         (slowIsGoal
           ? `Keep every note even. ${passOffWords}`
           : 'Keep every note even; slow and correct is the fastest way to get there.'),
-      target,
-      slowTempo,
-      articulation,
-    ),
-  );
+      pattern: target,
+      tempo: slowTempo,
+    }),
+  ];
   for (const mark of climbFrom(slowTempo, tempo)) {
     const goal = mark === tempo && target === pattern;
     steps.push(
-      step(
-        `tempo-${mark}`,
-        goal ? `Pass-off tempo: quarter = ${mark}` : `Quarter = ${mark}`,
-        goal
+      step(plan, {
+        id: `tempo-${mark}`,
+        title: goal ? `Pass-off tempo: quarter = ${mark}` : `Quarter = ${mark}`,
+        description: goal
           ? `Play it at quarter = ${mark}, ${how}. ${passOffWords}`
           : `Set the metronome to ${mark} and play the pattern again, ${how}. Move on when you ` +
-              'can play it cleanly three times in a row.',
-        target,
-        mark,
-        articulation,
-      ),
+            'can play it cleanly three times in a row.',
+        pattern: target,
+        tempo: mark,
+      }),
     );
   }
-  if (pattern === 'cycle-brisk') {
-    // Eighths at half the tempo move as fast as the quarters the broad rhythm just reached.
-    const entry = Math.min(tempo, Math.max(slowestMark, Math.round(tempo / 2)));
-    const brisk = [entry, ...climbFrom(entry, tempo)];
-    brisk.forEach((mark, index) => {
-      const goal = mark === tempo;
-      const first = index === 0;
-      steps.push(
-        step(
-          goal ? 'brisk' : `brisk-${mark}`,
-          goal
-            ? `Pass-off: the brisk rhythm at quarter = ${mark}`
-            : `The brisk rhythm at quarter = ${mark}`,
-          (first
-            ? `Now play ${patternWords['cycle-brisk']}${octaveText} at quarter = ${mark}, ${how}. ` +
-              `The eighth notes move as fast as the quarter notes did at quarter = ${mark * 2}, ` +
-              'so the notes feel the same while the beat is slower. '
-            : `Set the metronome to ${mark} and play the brisk rhythm again, ${how}. `) +
-            (goal ? passOffWords : 'Move on when you can play it cleanly three times in a row.'),
-          'cycle-brisk',
-          mark,
-          articulation,
-        ),
-      );
-    });
-  }
   return steps;
+}
+
+/** For a brisk requirement: the brisk rhythm brought in at half the tempo, and climbed. */
+function briskSteps(plan: PlanContext): PracticeStep[] {
+  const { octaveText, how } = plan;
+  const { pattern, tempo } = plan.requirement;
+  if (pattern !== 'cycle-brisk') return [];
+  // Eighths at half the tempo move as fast as the quarters the broad rhythm just reached.
+  const entry = Math.min(tempo, Math.max(slowestMark, Math.round(tempo / 2)));
+  const brisk = [entry, ...climbFrom(entry, tempo)];
+  return brisk.map((mark, index) => {
+    const goal = mark === tempo;
+    return step(plan, {
+      id: goal ? 'brisk' : `brisk-${mark}`,
+      title: goal
+        ? `Pass-off: the brisk rhythm at quarter = ${mark}`
+        : `The brisk rhythm at quarter = ${mark}`,
+      description:
+        (index === 0
+          ? `Now play ${patternWords['cycle-brisk']}${octaveText} at quarter = ${mark}, ${how}. ` +
+            `The eighth notes move as fast as the quarter notes did at quarter = ${mark * 2}, ` +
+            'so the notes feel the same while the beat is slower. '
+          : `Set the metronome to ${mark} and play the brisk rhythm again, ${how}. `) +
+        (goal ? passOffWords : 'Move on when you can play it cleanly three times in a row.'),
+      pattern: 'cycle-brisk',
+      tempo: mark,
+    });
+  });
 }
 
 /** The usual metronome marks above `from` and below `to`, then `to` itself when above `from`. */

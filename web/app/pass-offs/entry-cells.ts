@@ -1,6 +1,7 @@
 import type { LadderRequirement } from '@shared/api/ladder';
 import type { PassOff } from '@shared/api/pass-off';
-import type { EntryStatus } from './pass-off-queue';
+import { appliesToFamily } from '../ladder/requirement-text';
+import type { EntryStatus, QueueEntry } from './pass-off-queue';
 import { escapeHtml } from '@shared/html/escape-html';
 
 /** A pass-off being typed into a cell, before it joins the queue. */
@@ -31,6 +32,48 @@ export function cellKey(studentId: number, requirementCode: string): string {
 /** The tempo a draft stands for: the digits typed, else the requirement's own. */
 export function draftTempo(draft: CellDraft, requirement: LadderRequirement): number {
   return draft.typedTempo === '' ? requirement.tempo : Number(draft.typedTempo);
+}
+
+/** What the cells of the entry grid are drawn from, each by cell key. */
+export interface CellSources {
+  /** What is being typed. */
+  drafts: ReadonlyMap<string, CellDraft>;
+  /** The queue's latest entry. */
+  entries: ReadonlyMap<string, QueueEntry>;
+  /** The pass-offs on record, latest first. */
+  heard: ReadonlyMap<string, readonly PassOff[]>;
+  /** The id of the ladder in force. */
+  ladderId: number | undefined;
+}
+
+/**
+ * What a student's cell for a requirement shows: not asked of the student's section, else what
+ * is being typed, else the queue's entry, else the standing pass-off on record.
+ */
+export function cellViewOf(
+  row: { studentId: number; family: string | null },
+  requirement: LadderRequirement,
+  sources: CellSources,
+): CellView {
+  if (!appliesToFamily(requirement, row.family)) return { kind: 'not-asked' };
+  const key = cellKey(row.studentId, requirement.code);
+  const draft = sources.drafts.get(key);
+  if (draft) {
+    const tempo = draftTempo(draft, requirement);
+    return { kind: 'draft', passed: draft.passed, tempo, problem: draft.problem };
+  }
+  const entry = sources.entries.get(key);
+  if (entry) {
+    const { status, passOff, message } = entry;
+    return { kind: 'entry', status, passed: passOff.passed, tempo: passOff.tempo, message };
+  }
+  const heard = standingPassOff(sources.heard.get(key) ?? []);
+  if (!heard) return { kind: 'empty' };
+  return {
+    kind: 'heard',
+    passOff: heard,
+    earlierLadder: heard.ladderVersionId !== sources.ladderId,
+  };
 }
 
 /**

@@ -73,93 +73,110 @@ export type Sheet = ReadySheet | OutOfRangeSheet;
 export function buildSheet(request: SheetRequest): Sheet {
   const instrument = instrumentById(request.instrument);
   const concertKey: Key = { tonic: request.tonic, mode: request.mode };
-  const options = {
-    instrument: instrument.id,
-    octaves: request.octaves,
-    articulation: request.articulation,
-  };
-  let concertNotes: PatternNote[];
-  let writtenNotes: PatternNote[];
+  let placed: PlacedNotes | string;
   try {
-    if (request.level) {
-      // Placed inside the player's school range (patternForLevel), or the level cannot play it.
-      const reach = { pattern: request.pattern, key: concertKey, octaves: request.octaves };
-      const placed = (pitch: 'concert' | 'written') =>
-        patternForLevel(reach, instrument.id, request.level!, {
-          pitch,
-          articulation: request.articulation,
-        });
-      const concert = placed('concert');
-      const written = placed('written');
-      if (!concert || !written) {
-        const outcome = levelReach(reach, instrument.id, request.level);
-        return {
-          kind: 'out-of-range',
-          request,
-          instrument,
-          message: withAccidentalSigns(
-            outcome.fits
-              ? `This pattern does not fit a ${schoolLevelNames[request.level]} player's range.`
-              : outcome.message,
-          ),
-        };
-      }
-      concertNotes = concert;
-      writtenNotes = written;
-    } else {
-      concertNotes = pattern(request.pattern, concertKey, { ...options, pitch: 'concert' });
-      writtenNotes = pattern(request.pattern, concertKey, { ...options, pitch: 'written' });
-    }
+    placed = placedNotes(request, instrument, concertKey);
   } catch (error) {
-    if (error instanceof PatternRangeError) {
-      return {
-        kind: 'out-of-range',
-        request,
-        instrument,
-        message: withAccidentalSigns(error.message),
-      };
-    }
-    throw error;
+    if (!(error instanceof PatternRangeError)) throw error;
+    placed = error.message;
   }
-  const written = writtenKey(concertKey, instrument.id);
+  if (typeof placed === 'string') {
+    return { kind: 'out-of-range', request, instrument, message: withAccidentalSigns(placed) };
+  }
+  const { concertNotes } = placed;
   const atConcert = request.pitch === 'concert';
-  const sheetKey = atConcert ? concertKey : written;
-  const notes = atConcert ? concertNotes : writtenNotes;
+  const sheetKey = atConcert ? concertKey : writtenKey(concertKey, instrument.id);
+  const notes = atConcert ? concertNotes : placed.writtenNotes;
   const clefs = sheetClefs(instrument.id, notes, request.pitch);
-  const clef = clefs[0].clef;
-  const clefText = clefWords(clefs[0]);
-  const player = instrumentInText(instrument.id);
-  const octave = octaveNote(instrument);
-  const caption = atConcert
-    ? `Concert ${keyWords(concertKey)} at concert pitch for ${player}, ${clefText} ` +
-      `(the player reads ${keyWords(written)})`
-    : `Concert ${keyWords(concertKey)} → written ${keyWords(written)} for ${player}, ` +
-      `${clefText}${octave ? ` (${octave})` : ''}`;
   return {
     kind: 'ready',
     request,
     instrument,
     concertKey,
     sheetKey,
-    staff: { notes, clef, clefs, fifths: keySignature(sheetKey), tempo: request.tempo },
+    staff: {
+      notes,
+      clef: clefs[0].clef,
+      clefs,
+      fifths: keySignature(sheetKey),
+      tempo: request.tempo,
+    },
     concertNotes,
-    caption,
-    levels: schoolLevels.map((level) => {
-      const reach = levelReach(
-        { pattern: request.pattern, key: concertKey, octaves: request.octaves },
-        instrument.id,
-        level,
-      );
-      return reach.fits
-        ? {
-            ...reach,
-            lowest: withAccidentalSigns(reach.lowest),
-            highest: withAccidentalSigns(reach.highest),
-          }
-        : { ...reach, message: withAccidentalSigns(reach.message) };
-    }),
+    caption: sheetCaption(request, instrument, concertKey, clefs[0]),
+    levels: levelReaches(request, instrument, concertKey),
     durationText: `about ${secondsText(durationSeconds(concertNotes, request.tempo))} at ♩ = ${request.tempo}`,
   };
+}
+
+/** The pattern's notes at concert and written pitch. */
+interface PlacedNotes {
+  concertNotes: PatternNote[];
+  writtenNotes: PatternNote[];
+}
+
+/**
+ * The pattern's notes; with a school level, placed inside that player's range
+ * (patternForLevel), or the reason the level cannot play it.
+ */
+function placedNotes(
+  request: SheetRequest,
+  instrument: InstrumentSpec,
+  concertKey: Key,
+): PlacedNotes | string {
+  const { level, articulation } = request;
+  if (!level) {
+    const options = { instrument: instrument.id, octaves: request.octaves, articulation };
+    return {
+      concertNotes: pattern(request.pattern, concertKey, { ...options, pitch: 'concert' }),
+      writtenNotes: pattern(request.pattern, concertKey, { ...options, pitch: 'written' }),
+    };
+  }
+  const reach = { pattern: request.pattern, key: concertKey, octaves: request.octaves };
+  const placed = (pitch: 'concert' | 'written') =>
+    patternForLevel(reach, instrument.id, level, { pitch, articulation });
+  const concertNotes = placed('concert');
+  const writtenNotes = placed('written');
+  if (concertNotes && writtenNotes) return { concertNotes, writtenNotes };
+  const outcome = levelReach(reach, instrument.id, level);
+  return outcome.fits
+    ? `This pattern does not fit a ${schoolLevelNames[level]} player's range.`
+    : outcome.message;
+}
+
+/** 'Concert Bb major → written C major for Bb clarinet, treble clef'. */
+function sheetCaption(
+  request: SheetRequest,
+  instrument: InstrumentSpec,
+  concertKey: Key,
+  firstClef: StaffClef,
+): string {
+  const written = writtenKey(concertKey, instrument.id);
+  const clefText = clefWords(firstClef);
+  const player = instrumentInText(instrument.id);
+  const octave = octaveNote(instrument);
+  return request.pitch === 'concert'
+    ? `Concert ${keyWords(concertKey)} at concert pitch for ${player}, ${clefText} ` +
+        `(the player reads ${keyWords(written)})`
+    : `Concert ${keyWords(concertKey)} → written ${keyWords(written)} for ${player}, ` +
+        `${clefText}${octave ? ` (${octave})` : ''}`;
+}
+
+/** Whether the requirement fits each school level's range, its notes spelt with signs. */
+function levelReaches(request: SheetRequest, instrument: InstrumentSpec, concertKey: Key) {
+  return schoolLevels.map((level): LevelReach => {
+    const reach = levelReach(
+      { pattern: request.pattern, key: concertKey, octaves: request.octaves },
+      instrument.id,
+      level,
+    );
+    return reach.fits
+      ? {
+          ...reach,
+          lowest: withAccidentalSigns(reach.lowest),
+          highest: withAccidentalSigns(reach.highest),
+        }
+      : { ...reach, message: withAccidentalSigns(reach.message) };
+  });
 }
 
 /**

@@ -1,3 +1,5 @@
+import { usualTimeZones } from '../core/district/time-zones';
+
 /** The days a schedule offers, as a cron day-of-week field and in words (0 is Sunday in cron). */
 export const scheduleDays = [
   { field: '1', label: 'Monday' },
@@ -12,16 +14,7 @@ export const scheduleDays = [
 ] as const;
 
 /** The time zones the form offers first; the district's own comes first. */
-export const scheduleTimeZones = [
-  'America/Los_Angeles',
-  'America/Denver',
-  'America/Phoenix',
-  'America/Chicago',
-  'America/New_York',
-  'America/Anchorage',
-  'Pacific/Honolulu',
-  'UTC',
-] as const;
+export const scheduleTimeZones: readonly string[] = [...usualTimeZones, 'UTC'];
 
 /** The five-field cron expression for "every <day> at <HH:MM>". */
 export function cronFor(dayField: string, time: string): string {

@@ -53,3 +53,17 @@ export function valueAxis(name?: string, format?: string) {
     axisLabel: { ...chartText, color: chartPalette.muted, formatter: format },
   };
 }
+
+/**
+ * The tooltip of a bar chart read by category: shaded across the category under the pointer,
+ * its text the `describe`d category (ECharts hands an axis tooltip one entry per series).
+ */
+export function shadedAxisTooltip(base: ChartOption, describe: (index: number) => string) {
+  return {
+    ...base.tooltip,
+    trigger: 'axis' as const,
+    axisPointer: { type: 'shadow' as const },
+    formatter: (parameters: unknown) =>
+      describe((parameters as { dataIndex: number }[])[0]?.dataIndex ?? 0),
+  };
+}

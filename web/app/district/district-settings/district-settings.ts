@@ -23,24 +23,14 @@ import {
 } from '@shared/api/district';
 import { CurrentDistrict } from '../../core/district/current-district';
 import { Field } from '../../core/forms/field';
-import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
+import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { AgreementTextEditor } from '../agreement-text/agreement-text';
 import { DistrictData } from '../district-data';
 import { FeeScheduleEditor } from '../fee-schedule/fee-schedule';
-import { createWrite } from '../../core/state/write';
-
-/** The time zones offered first; any other IANA zone can be typed in the field below. */
-const commonTimeZones = [
-  'America/Los_Angeles',
-  'America/Denver',
-  'America/Phoenix',
-  'America/Chicago',
-  'America/New_York',
-  'America/Anchorage',
-  'Pacific/Honolulu',
-];
+import { createRecordSave } from '../../core/forms/record-save';
+import { usualTimeZones } from '../../core/district/time-zones';
 
 /**
  * The coordinator's screen for the district's own settings: name, logo, office, time zone, mail,
@@ -64,19 +54,15 @@ const commonTimeZones = [
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class DistrictSettings {
-  private readonly write = createWrite();
+  protected readonly recordSave = createRecordSave();
   private readonly data = inject(DistrictData);
   private readonly currentDistrict = inject(CurrentDistrict);
 
   protected readonly district = rxResource({ stream: () => this.data.get() });
   protected readonly fieldMessage = fieldMessage;
-  protected readonly saving = this.write.saving;
-  protected readonly saved = signal(false);
-  protected readonly conflict = signal(false);
-  protected readonly saveError = signal('');
   protected readonly logoMessage = signal('');
   protected readonly logoError = signal('');
-  protected readonly timeZones = signal<string[]>(commonTimeZones);
+  protected readonly timeZones = signal<readonly string[]>(usualTimeZones);
 
   protected readonly form = inject(NonNullableFormBuilder).group({
     name: ['', schemaValidator(districtNameSchema)],
@@ -106,13 +92,12 @@ export class DistrictSettings {
       email: district.contact.email,
       mailSenderName: district.mailSenderName,
     });
-    if (!commonTimeZones.includes(district.timeZone))
-      this.timeZones.set([district.timeZone, ...commonTimeZones]);
+    if (!usualTimeZones.includes(district.timeZone))
+      this.timeZones.set([district.timeZone, ...usualTimeZones]);
   }
 
   protected save(current: District): void {
-    this.form.markAllAsTouched();
-    if (this.form.invalid || this.saving()) return;
+    if (!this.recordSave.ready(this.form)) return;
     const value = this.form.getRawValue();
     this.send(
       this.data.update({
@@ -123,8 +108,7 @@ export class DistrictSettings {
         mailSenderName: value.mailSenderName,
         contact: { address: value.address, phone: value.phone, email: value.email },
       }),
-      () => this.saved.set(true),
-      (error) => this.saveError.set(saveFailureMessage(this.form, error, this.conflict)),
+      () => this.recordSave.saved.set(true),
     );
   }
 
@@ -166,22 +150,16 @@ export class DistrictSettings {
   }
 
   protected reload(): void {
-    this.conflict.set(false);
+    this.recordSave.conflict.set(false);
     this.district.reload();
   }
 
-  private send(request: Observable<District>, done: () => void, failed: (error: unknown) => void) {
-    this.saved.set(false);
-    this.saveError.set('');
-    this.write.send(request, {
-      next: (district) => {
-        this.district.set(district);
-        this.currentDistrict.update(district);
-        done();
-      },
-      error: (error: unknown) => {
-        failed(error);
-      },
-    });
+  private send(request: Observable<District>, done: () => void, error?: (error: unknown) => void) {
+    const next = (district: District) => {
+      this.district.set(district);
+      this.currentDistrict.update(district);
+      done();
+    };
+    this.recordSave.send(this.form, request, next, { error });
   }
 }

@@ -5,7 +5,6 @@ import {
   effect,
   inject,
   input,
-  signal,
   untracked,
 } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
@@ -24,13 +23,13 @@ import {
 } from '@shared/api/ensemble';
 import { CurrentUser } from '../../core/auth/current-user';
 import { Field } from '../../core/forms/field';
-import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
+import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
 import { RecordPage } from '../../core/record-page/record-page';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { EnsembleData } from '../ensemble-data';
-import { createWrite } from '../../core/state/write';
+import { createRecordSave } from '../../core/forms/record-save';
 
 /** One ensemble: its details (directors and the coordinator edit them) and its members. */
 @Component({
@@ -52,7 +51,7 @@ import { createWrite } from '../../core/state/write';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class EnsembleDetail {
-  private readonly write = createWrite();
+  protected readonly recordSave = createRecordSave();
   private readonly ensembleData = inject(EnsembleData);
   private readonly router = inject(Router);
 
@@ -70,10 +69,6 @@ export class EnsembleDetail {
   protected readonly ensemble = computed(() =>
     this.record.hasValue() ? this.record.value() : null,
   );
-  protected readonly saving = this.write.saving;
-  protected readonly saved = signal(false);
-  protected readonly conflict = signal(false);
-  protected readonly saveError = signal('');
   protected readonly fieldMessage = fieldMessage;
 
   protected readonly form = inject(NonNullableFormBuilder).group({
@@ -94,32 +89,24 @@ export class EnsembleDetail {
   }
 
   protected reload(): void {
-    this.conflict.set(false);
+    this.recordSave.conflict.set(false);
     this.record.reload();
   }
 
   protected save(): void {
-    this.form.markAllAsTouched();
-    if (this.form.invalid || this.saving()) return;
+    if (!this.recordSave.ready(this.form)) return;
     const { schoolId, ...fields } = this.form.getRawValue();
     const current = this.ensemble();
-    this.saved.set(false);
-    this.saveError.set('');
     const request = current
       ? this.ensembleData.update(current.id, { ...fields, version: current.version })
       : this.ensembleData.create(ensembleInputSchema.parse({ ...fields, schoolId }));
-    this.write.send(request, {
-      next: (ensemble) => {
-        if (!current) {
-          void this.router.navigate(['/ensembles', ensemble.id]);
-          return;
-        }
-        this.saved.set(true);
-        this.reload();
-      },
-      error: (error: unknown) => {
-        this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
-      },
+    this.recordSave.send(this.form, request, (ensemble) => {
+      if (!current) {
+        void this.router.navigate(['/ensembles', ensemble.id]);
+        return;
+      }
+      this.recordSave.saved.set(true);
+      this.reload();
     });
   }
 

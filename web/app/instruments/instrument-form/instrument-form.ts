@@ -6,7 +6,6 @@ import {
   inject,
   input,
   output,
-  signal,
   untracked,
 } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, type AbstractControl } from '@angular/forms';
@@ -25,12 +24,12 @@ import {
 } from '@shared/api/instrument';
 import { instrumentFamilies, instruments } from '@shared/music/instrument-data';
 import { Field } from '../../core/forms/field';
-import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
+import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { FleetInstruments } from '../instrument-data';
 import { centsOf, conditionLabels, familyLabels, statusLooks } from '../instrument-labels';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
-import { createWrite } from '../../core/state/write';
+import { createRecordSave } from '../../core/forms/record-save';
 
 const fields = instrumentInputSchema.shape;
 type ManualStatus = (typeof manualInstrumentStatuses)[number];
@@ -60,7 +59,7 @@ function costValidator(control: AbstractControl) {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class InstrumentForm {
-  private readonly write = createWrite();
+  protected readonly recordSave = createRecordSave();
   private readonly fleet = inject(FleetInstruments);
 
   /** The instrument being edited; null to add one. */
@@ -88,10 +87,6 @@ export class InstrumentForm {
     const status = this.instrument()?.status;
     return status !== undefined && (manualInstrumentStatuses as readonly string[]).includes(status);
   });
-  protected readonly saving = this.write.saving;
-  protected readonly savedNote = signal(false);
-  protected readonly conflict = signal(false);
-  protected readonly saveError = signal('');
   protected readonly fieldMessage = fieldMessage;
 
   protected readonly form = inject(NonNullableFormBuilder).group({
@@ -120,7 +115,7 @@ export class InstrumentForm {
   }
 
   private show(instrument: Instrument | null, editable: boolean): void {
-    this.conflict.set(false);
+    this.recordSave.conflict.set(false);
     if (instrument) {
       this.form.reset({
         assetTag: instrument.assetTag,
@@ -146,8 +141,7 @@ export class InstrumentForm {
   }
 
   protected save(): void {
-    this.form.markAllAsTouched();
-    if (this.form.invalid || this.saving()) return;
+    if (!this.recordSave.ready(this.form)) return;
     const { purchaseCost, purchasedOn, status, homeSchoolId, ...values } = this.form.getRawValue();
     const record = {
       ...values,
@@ -156,8 +150,6 @@ export class InstrumentForm {
       purchaseCostCents: centsOf(purchaseCost),
     };
     const instrument = this.instrument();
-    this.savedNote.set(false);
-    this.saveError.set('');
     const request = instrument
       ? this.fleet.update(instrument.id, {
           ...record,
@@ -165,17 +157,16 @@ export class InstrumentForm {
           version: instrument.version,
         })
       : this.fleet.create(instrumentInputSchema.parse(record));
-    this.write.send(request, {
-      next: (saved) => {
-        this.savedNote.set(true);
+    // Only an edit can be stale; a 409 while adding says why in the message.
+    const conflict = instrument !== null;
+    this.recordSave.send(
+      this.form,
+      request,
+      (saved) => {
+        this.recordSave.saved.set(true);
         this.saved.emit(saved);
       },
-      error: (error: unknown) => {
-        // Only an edit can be stale; a 409 while adding says why in the message.
-        this.saveError.set(
-          saveFailureMessage(this.form, error, instrument ? this.conflict : undefined),
-        );
-      },
-    });
+      { conflict },
+    );
   }
 }

@@ -1,7 +1,6 @@
 import {
   ChangeDetectionStrategy,
   Component,
-  DestroyRef,
   afterNextRender,
   inject,
   input,
@@ -12,7 +11,8 @@ import { MatAutocompleteModule } from '@angular/material/autocomplete';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { Subject, catchError, debounceTime, map, of, switchMap } from 'rxjs';
+import { map } from 'rxjs';
+import { injectTypedSearch } from '../../core/state/typed-search';
 import type { Instrument, InstrumentStatus } from '@shared/api/instrument';
 import { FleetInstruments } from '../instrument-data';
 import { statusLooks } from '../instrument-labels';
@@ -41,7 +41,7 @@ import { statusLooks } from '../instrument-labels';
         [displayWith]="describe"
         (optionSelected)="pick($event.option.value)"
       >
-        @for (instrument of found(); track instrument.id) {
+        @for (instrument of search.found(); track instrument.id) {
           <mat-option [value]="instrument">
             <strong>{{ instrument.assetTag }}</strong> · {{ instrument.instrumentName }} ·
             {{ instrument.homeSchoolCode }}
@@ -50,7 +50,7 @@ import { statusLooks } from '../instrument-labels';
             }
           </mat-option>
         }
-        @if (searched() && found().length === 0) {
+        @if (search.searched() && search.found().length === 0) {
           <mat-option disabled
             >No {{ status() ? statusLooks[status()!].label.toLowerCase() + ' ' : '' }}instrument
             matches.</mat-option
@@ -71,7 +71,6 @@ import { statusLooks } from '../instrument-labels';
 })
 export class InstrumentPicker {
   private readonly fleet = inject(FleetInstruments);
-  private readonly searches = new Subject<string>();
 
   readonly label = input('Instrument');
   /** Only instruments in this status, such as 'available' for a check-out. */
@@ -83,8 +82,12 @@ export class InstrumentPicker {
 
   protected readonly statusLooks = statusLooks;
   protected readonly text = signal('');
-  protected readonly found = signal<Instrument[]>([]);
-  protected readonly searched = signal(false);
+  protected readonly search = injectTypedSearch((text) => {
+    const query: Record<string, string | number> = { q: text, limit: 12, sort: 'assetTag:asc' };
+    const status = this.status();
+    if (status) query['status'] = status;
+    return this.fleet.list(query).pipe(map((page) => page.rows));
+  });
   protected readonly describe = (instrument: Instrument | string | null) =>
     typeof instrument === 'string'
       ? instrument
@@ -97,39 +100,12 @@ export class InstrumentPicker {
       const initial = this.initial();
       if (initial) this.text.set(this.describe(initial));
     });
-    const subscription = this.searches
-      .pipe(
-        debounceTime(200),
-        switchMap((text) => {
-          const query: Record<string, string | number> = {
-            q: text,
-            limit: 12,
-            sort: 'assetTag:asc',
-          };
-          const status = this.status();
-          if (status) query['status'] = status;
-          return this.fleet.list(query).pipe(
-            map((page) => page.rows),
-            catchError(() => of([])),
-          );
-        }),
-      )
-      // Typed text is a stream: debounced, and each new search cancels the last (switchMap).
-      .subscribe((rows) => {
-        this.found.set(rows);
-        this.searched.set(true);
-      });
-    inject(DestroyRef).onDestroy(() => subscription.unsubscribe());
   }
 
   protected typed(text: string): void {
     this.text.set(text);
     this.picked.emit(null);
-    if (text.trim()) this.searches.next(text.trim());
-    else {
-      this.found.set([]);
-      this.searched.set(false);
-    }
+    this.search.typed(text);
   }
 
   protected pick(instrument: Instrument): void {

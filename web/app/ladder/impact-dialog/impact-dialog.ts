@@ -1,11 +1,16 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
-import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import {
+  MAT_DIALOG_DATA,
+  MatDialogModule,
+  MatDialogRef,
+  type MatDialog,
+} from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { of } from 'rxjs';
+import { firstValueFrom, of } from 'rxjs';
 import { draftNameMark, type Ladder, type LadderImpactGroup } from '@shared/api/ladder';
 import { errorMessage } from '../../core/parse';
 import { gradeText } from '../date-text';
@@ -22,6 +27,19 @@ export interface ImpactDialogData {
 }
 
 type Move = 'up' | 'down' | 'same';
+
+/**
+ * Opens the impact dialog for a version and waits for it: the ladder now in force, or undefined
+ * when the user cancelled.
+ */
+export function putInForce(dialog: MatDialog, data: ImpactDialogData): Promise<Ladder | undefined> {
+  const ref = dialog.open<ImpactDialog, ImpactDialogData, Ladder>(ImpactDialog, {
+    data,
+    width: '720px',
+    maxHeight: '90vh',
+  });
+  return firstValueFrom(ref.afterClosed());
+}
 
 /**
  * Shows what putting a ladder version in force does to every student's rung (by school and

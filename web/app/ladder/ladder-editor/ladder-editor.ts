@@ -25,7 +25,7 @@ import { RecordPage } from '../../core/record-page/record-page';
 import { createWrite } from '../../core/state/write';
 import { BenchmarkEditor } from '../benchmark-editor/benchmark-editor';
 import { ConfirmDialog, type ConfirmDialogData } from '../../core/confirm-dialog/confirm-dialog';
-import { ImpactDialog, type ImpactDialogData } from '../impact-dialog/impact-dialog';
+import { putInForce } from '../impact-dialog/impact-dialog';
 import { LadderData } from '../ladder-data';
 import { RungEditor, type RequirementEdit } from '../rung-editor/rung-editor';
 import { reachWarnings } from '../reach-warnings';
@@ -218,15 +218,8 @@ export class LadderEditor {
     if (this.dirty() && !(await this.saved())) return;
     const draft = this.draft();
     if (!draft) return;
-    const ladder = await firstValueFrom(
-      this.dialog
-        .open<ImpactDialog, ImpactDialogData, Ladder>(ImpactDialog, {
-          data: { versionId: draft.id, mode: 'publish', name: draft.name },
-          width: '720px',
-          maxHeight: '90vh',
-        })
-        .afterClosed(),
-    );
+    const data = { versionId: draft.id, mode: 'publish' as const, name: draft.name };
+    const ladder = await putInForce(this.dialog, data);
     if (!ladder) return;
     this.snackBar.open(`“${ladder.name}” is now the ladder in force.`, 'Close', {
       duration: 6000,

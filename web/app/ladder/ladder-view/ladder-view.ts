@@ -12,9 +12,8 @@ import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatIconModule } from '@angular/material/icon';
 import { MatDialog } from '@angular/material/dialog';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { firstValueFrom } from 'rxjs';
 import { Router, RouterLink } from '@angular/router';
-import type { Ladder, LadderRequirement, LadderVersionSummary } from '@shared/api/ladder';
+import type { LadderRequirement, LadderVersionSummary } from '@shared/api/ladder';
 import { instrumentById } from '@shared/music';
 import { reachWarnings } from '../reach-warnings';
 import { CurrentUser } from '../../core/auth/current-user';
@@ -25,7 +24,7 @@ import { StudentProgressData } from '../../students/student-progress/student-pro
 import { benchmarkTable } from '../benchmark-table';
 import { dateText, gradeText } from '../date-text';
 import { InstrumentPicker } from '../instrument-picker/instrument-picker';
-import { ImpactDialog, type ImpactDialogData } from '../impact-dialog/impact-dialog';
+import { putInForce } from '../impact-dialog/impact-dialog';
 import { LadderData } from '../ladder-data';
 import {
   appliesToFamily,
@@ -173,15 +172,8 @@ export class LadderView {
   protected async rollBack(): Promise<void> {
     const previous = this.previous();
     if (!previous) return;
-    const ladder = await firstValueFrom(
-      this.dialog
-        .open<ImpactDialog, ImpactDialogData, Ladder>(ImpactDialog, {
-          data: { versionId: previous.id, mode: 'restore', name: previous.name },
-          width: '720px',
-          maxHeight: '90vh',
-        })
-        .afterClosed(),
-    );
+    const data = { versionId: previous.id, mode: 'restore' as const, name: previous.name };
+    const ladder = await putInForce(this.dialog, data);
     if (!ladder) return;
     this.snackBar.open(`“${ladder.name}” is the ladder in force again.`, 'Close', {
       duration: 6000,

@@ -1,17 +1,11 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  DestroyRef,
-  inject,
-  output,
-  signal,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, output } from '@angular/core';
 import { HttpClient } from '@angular/common/http';
 import { MatAutocompleteModule } from '@angular/material/autocomplete';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { Subject, catchError, debounceTime, map, of, switchMap } from 'rxjs';
+import { map } from 'rxjs';
+import { injectTypedSearch } from '../../core/state/typed-search';
 import { listResponseSchema } from '@shared/api/list';
 import { studentSchema, type Student } from '@shared/api/student';
 import { parsedWith } from '../../core/parse';
@@ -41,14 +35,14 @@ const studentListSchema = listResponseSchema(studentSchema);
         [displayWith]="describe"
         (optionSelected)="picked.emit($event.option.value)"
       >
-        @for (student of found(); track student.id) {
+        @for (student of search.found(); track student.id) {
           <mat-option [value]="student">
             <strong>{{ student.preferredName ?? student.firstName }} {{ student.lastName }}</strong>
             · grade {{ student.gradeLabel }} · {{ student.schoolCode }} ·
             {{ student.studentNumber }}
           </mat-option>
         }
-        @if (searched() && found().length === 0) {
+        @if (search.searched() && search.found().length === 0) {
           <mat-option disabled>No active student of your schools matches.</mat-option>
         }
       </mat-autocomplete>
@@ -63,12 +57,16 @@ const studentListSchema = listResponseSchema(studentSchema);
 })
 export class StudentPicker {
   private readonly http = inject(HttpClient);
-  private readonly searches = new Subject<string>();
 
   readonly picked = output<Student | null>();
 
-  protected readonly found = signal<Student[]>([]);
-  protected readonly searched = signal(false);
+  // The API answers only the user's own schools' students.
+  protected readonly search = injectTypedSearch((q) =>
+    this.http.get('/api/students', { params: { q, status: 'active', limit: 12 } }).pipe(
+      parsedWith(studentListSchema),
+      map((page) => page.rows),
+    ),
+  );
   protected readonly describe = (student: Student | string | null) =>
     typeof student === 'string'
       ? student
@@ -76,33 +74,8 @@ export class StudentPicker {
         ? `${student.preferredName ?? student.firstName} ${student.lastName} (${student.studentNumber})`
         : '';
 
-  constructor() {
-    // The API answers only the user's own schools' students.
-    const subscription = this.searches
-      .pipe(
-        debounceTime(200),
-        switchMap((q) =>
-          this.http.get('/api/students', { params: { q, status: 'active', limit: 12 } }).pipe(
-            parsedWith(studentListSchema),
-            map((page) => page.rows),
-            catchError(() => of([])),
-          ),
-        ),
-      )
-      // Typed text is a stream: debounced, and each new search cancels the last (switchMap).
-      .subscribe((rows) => {
-        this.found.set(rows);
-        this.searched.set(true);
-      });
-    inject(DestroyRef).onDestroy(() => subscription.unsubscribe());
-  }
-
   protected typed(text: string): void {
     this.picked.emit(null);
-    if (text.trim()) this.searches.next(text.trim());
-    else {
-      this.found.set([]);
-      this.searched.set(false);
-    }
+    this.search.typed(text);
   }
 }

@@ -1,5 +1,10 @@
 import type { Overview } from '@shared/api/analytics';
-import { chartBase, categoryAxis, valueAxis } from '../../core/charts/chart-base';
+import {
+  chartBase,
+  categoryAxis,
+  shadedAxisTooltip,
+  valueAxis,
+} from '../../core/charts/chart-base';
 import type { ChartFigure, DrillTarget } from '../../core/charts/chart-figure';
 import { chartPalette } from '../../core/charts/chart-palette';
 import { shortDate } from './figure-words';
@@ -24,16 +29,10 @@ export function passOffsPerWeekFigure(overview: Overview): ChartFigure {
     option: {
       ...base,
       legend: { ...base.legend, data: ['Heard', 'Passed'] },
-      tooltip: {
-        ...base.tooltip,
-        trigger: 'axis',
-        axisPointer: { type: 'shadow' },
-        formatter: (parameters: unknown) => {
-          const index = (parameters as { dataIndex: number }[])[0]?.dataIndex ?? 0;
-          const week = weeks[index]!;
-          return `<b>Week of ${shortDate(week.weekStart)}</b><br>Heard: <b>${week.heard}</b><br>Passed: <b>${week.passed}</b>`;
-        },
-      },
+      tooltip: shadedAxisTooltip(base, (index) => {
+        const week = weeks[index]!;
+        return `<b>Week of ${shortDate(week.weekStart)}</b><br>Heard: <b>${week.heard}</b><br>Passed: <b>${week.passed}</b>`;
+      }),
       xAxis: {
         ...categoryAxis(weeks.map((week) => shortDate(week.weekStart))),
         axisLabel: { interval: 'auto', hideOverlap: true },

@@ -1,5 +1,10 @@
 import type { YearOverYear } from '@shared/api/year-over-year';
-import { chartBase, categoryAxis, valueAxis } from '../../core/charts/chart-base';
+import {
+  chartBase,
+  categoryAxis,
+  shadedAxisTooltip,
+  valueAxis,
+} from '../../core/charts/chart-base';
 import type { ChartFigure, DrillTarget } from '../../core/charts/chart-figure';
 import { chartPalette } from '../../core/charts/chart-palette';
 import { countText, gradeLabel, shortDate } from './figure-words';
@@ -33,27 +38,14 @@ export function rungByGradeYearsFigure(
   const thisName = `${figures.year.name}, ${shortDate(asOf)}`;
   const lastName = `${figures.previousYear?.name ?? ''}, ${previousAsOf ? shortDate(previousAsOf) : ''}`;
   const base = chartBase();
-  const label = (color: string) => ({
-    show: true,
-    position: 'top' as const,
-    color,
-    fontWeight: 600,
-    formatter: ({ value }: { value: unknown }) => (value === null ? '' : rungText(Number(value))),
-  });
   return {
     option: {
       ...base,
       legend: { ...base.legend, data: [lastName, thisName] },
-      tooltip: {
-        ...base.tooltip,
-        trigger: 'axis',
-        axisPointer: { type: 'shadow' },
-        formatter: (parameters: unknown) => {
-          const index = (parameters as { dataIndex: number }[])[0]?.dataIndex ?? 0;
-          const grade = grades[index]!;
-          return `<b>${gradeLabel(grade.grade)}</b><br>${lastName}: median rung ${rungText(grade.previous.median)} (${countText(grade.previous.students, 'student')})<br>${thisName}: median rung ${rungText(grade.current.median)} (${countText(grade.current.students, 'student')})`;
-        },
-      },
+      tooltip: shadedAxisTooltip(base, (index) => {
+        const grade = grades[index]!;
+        return `<b>${gradeLabel(grade.grade)}</b><br>${lastName}: median rung ${rungText(grade.previous.median)} (${countText(grade.previous.students, 'student')})<br>${thisName}: median rung ${rungText(grade.current.median)} (${countText(grade.current.students, 'student')})`;
+      }),
       xAxis: categoryAxis(
         grades.map((entry) => (entry.grade === 0 ? 'K' : String(entry.grade))),
         'Grade',
@@ -61,43 +53,76 @@ export function rungByGradeYearsFigure(
       yAxis: valueAxis('Median rung'),
       grid: { ...base.grid, bottom: 28 },
       series: [
-        {
-          type: 'bar',
-          name: lastName,
-          barMaxWidth: 28,
-          data: grades.map((entry) => entry.previous.median),
-          itemStyle: { color: chartPalette.muted, borderRadius: [3, 3, 0, 0] },
-          label: label(chartPalette.muted),
-        },
-        {
-          type: 'bar',
-          name: thisName,
-          barMaxWidth: 28,
-          data: grades.map((entry) => entry.current.median),
-          itemStyle: { color: chartPalette.teal, borderRadius: [3, 3, 0, 0] },
-          label: label(chartPalette.ink),
-        },
+        medianBars(
+          lastName,
+          grades.map((entry) => entry.previous.median),
+          {
+            bar: chartPalette.muted,
+            label: chartPalette.muted,
+          },
+        ),
+        medianBars(
+          thisName,
+          grades.map((entry) => entry.current.median),
+          {
+            bar: chartPalette.teal,
+            label: chartPalette.ink,
+          },
+        ),
       ],
     },
-    table: {
-      caption: `Median rung by grade, ${figures.rungByGrade.day} days into each year`,
-      columns: [
-        'Grade',
-        `${lastName}: median rung`,
-        'Students',
-        `${thisName}: median rung`,
-        'Students',
-      ],
-      rows: grades.map((entry, index) => ({
-        heading: gradeLabel(entry.grade),
-        cells: [
-          { text: rungText(entry.previous.median) },
-          { text: String(entry.previous.students) },
-          { text: rungText(entry.current.median) },
-          { text: String(entry.current.students), target: target(index) ?? undefined },
-        ],
-      })),
-    },
+    table: rungByGradeTable(figures, lastName, thisName, target),
     targetAt: (seriesIndex, dataIndex) => (seriesIndex === 1 ? target(dataIndex) : null),
+  };
+}
+
+/** One year's bars, each labelled with its median rung. */
+function medianBars(
+  name: string,
+  medians: (number | null)[],
+  colors: { bar: string; label: string },
+) {
+  return {
+    type: 'bar' as const,
+    name,
+    barMaxWidth: 28,
+    data: medians,
+    itemStyle: { color: colors.bar, borderRadius: [3, 3, 0, 0] },
+    label: {
+      show: true,
+      position: 'top' as const,
+      color: colors.label,
+      fontWeight: 600,
+      formatter: ({ value }: { value: unknown }) => (value === null ? '' : rungText(Number(value))),
+    },
+  };
+}
+
+/** The figure's table: each grade's median rung and students counted, last year then this. */
+function rungByGradeTable(
+  figures: YearOverYear,
+  lastName: string,
+  thisName: string,
+  target: (index: number) => DrillTarget | null,
+): ChartFigure['table'] {
+  const { grades } = figures.rungByGrade;
+  return {
+    caption: `Median rung by grade, ${figures.rungByGrade.day} days into each year`,
+    columns: [
+      'Grade',
+      `${lastName}: median rung`,
+      'Students',
+      `${thisName}: median rung`,
+      'Students',
+    ],
+    rows: grades.map((entry, index) => ({
+      heading: gradeLabel(entry.grade),
+      cells: [
+        { text: rungText(entry.previous.median) },
+        { text: String(entry.previous.students) },
+        { text: rungText(entry.current.median) },
+        { text: String(entry.current.students), target: target(index) ?? undefined },
+      ],
+    })),
   };
 }

@@ -44,7 +44,7 @@ import { LadderData } from '../../ladder/ladder-data';
 import { appliesToFamily, keyText, rungTitleText } from '../../ladder/requirement-text';
 import { CellPanel, type NoteChange } from '../cell-panel/cell-panel';
 import { entryColumns, studentColumn, type EntryRow } from '../entry-columns';
-import { cellKey, draftTempo, standingPassOff, type CellView } from '../entry-cells';
+import { cellKey, cellViewOf, type CellView } from '../entry-cells';
 import { EntryDrafts } from '../entry-drafts';
 import { PassOffData } from '../pass-off-data';
 import { PassOffQueue } from '../pass-off-queue';
@@ -398,7 +398,12 @@ export class PassOffEntry {
     row: EntryRow,
     requirement: LadderRequirement,
   ): CellView & { takeSent?: boolean } {
-    const view = this.cellViewWithoutTake(row, requirement);
+    const view = cellViewOf(row, requirement, {
+      drafts: this.drafts.drafts(),
+      entries: this.drafts.entriesByCell(),
+      heard: this.sheet.existing(),
+      ladderId: this.ladder()?.id,
+    });
     const takeSent = this.takes.byCell().has(cellKey(row.studentId, requirement.code));
     return takeSent ? { ...view, takeSent } : view;
   }
@@ -414,36 +419,6 @@ export class PassOffEntry {
     this.announce(
       `Tempo ${Math.round(tempo)} filled in from the take. Press P if it passed, N if not yet.`,
     );
-  }
-
-  private cellViewWithoutTake(row: EntryRow, requirement: LadderRequirement): CellView {
-    if (!appliesToFamily(requirement, row.family)) return { kind: 'not-asked' };
-    const key = cellKey(row.studentId, requirement.code);
-    const draft = this.drafts.drafts().get(key);
-    if (draft)
-      return {
-        kind: 'draft',
-        passed: draft.passed,
-        tempo: draftTempo(draft, requirement),
-        problem: draft.problem,
-      };
-    const entry = this.drafts.entriesByCell().get(key);
-    if (entry) {
-      return {
-        kind: 'entry',
-        status: entry.status,
-        passed: entry.passOff.passed,
-        tempo: entry.passOff.tempo,
-        message: entry.message,
-      };
-    }
-    const heard = standingPassOff(this.sheet.existing().get(key) ?? []);
-    if (!heard) return { kind: 'empty' };
-    return {
-      kind: 'heard',
-      passOff: heard,
-      earlierLadder: heard.ladderVersionId !== this.ladder()?.id,
-    };
   }
 
   private merge(saved: readonly PassOff[]): void {

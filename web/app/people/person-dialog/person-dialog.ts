@@ -1,11 +1,4 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  DestroyRef,
-  computed,
-  inject,
-  signal,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatAutocompleteModule } from '@angular/material/autocomplete';
@@ -15,7 +8,8 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { Subject, catchError, debounceTime, of, startWith, switchMap } from 'rxjs';
+import { startWith } from 'rxjs';
+import { injectTypedSearch } from '../../core/state/typed-search';
 import {
   assignmentProblems,
   needsSchools,
@@ -68,7 +62,6 @@ export class PersonDialog {
   private readonly write = createWrite();
   private readonly people = inject(PeopleData);
   private readonly dialog = inject<MatDialogRef<PersonDialog, PersonDetail>>(MatDialogRef);
-  private readonly studentSearches = new Subject<string>();
 
   protected readonly person = inject<PersonDialogData>(MAT_DIALOG_DATA).person;
   protected readonly isSelf = this.person?.id === inject(CurrentUser).me()?.id;
@@ -99,8 +92,7 @@ export class PersonDialog {
   protected readonly linkedStudent = signal<{ name: string; studentNumber: string } | null>(
     this.person?.student ?? null,
   );
-  protected readonly foundStudents = signal<Student[]>([]);
-  protected readonly searchedStudents = signal(false);
+  protected readonly studentSearch = injectTypedSearch((text) => this.people.findStudents(text));
   protected readonly saving = this.write.saving;
   protected readonly conflict = signal(false);
   protected readonly failure = signal('');
@@ -108,25 +100,10 @@ export class PersonDialog {
   constructor() {
     if (this.person) this.form.controls.email.disable();
     if (this.isSelf) this.form.controls.role.disable();
-    const subscription = this.studentSearches
-      .pipe(
-        debounceTime(200),
-        switchMap((text) => this.people.findStudents(text).pipe(catchError(() => of([])))),
-      )
-      // Typed text is a stream: debounced, and each new search cancels the last (switchMap).
-      .subscribe((found) => {
-        this.foundStudents.set(found);
-        this.searchedStudents.set(true);
-      });
-    inject(DestroyRef).onDestroy(() => subscription.unsubscribe());
   }
 
   protected studentTyped(text: string): void {
-    if (text.trim()) this.studentSearches.next(text.trim());
-    else {
-      this.foundStudents.set([]);
-      this.searchedStudents.set(false);
-    }
+    this.studentSearch.typed(text);
   }
 
   protected studentPicked(student: Student): void {

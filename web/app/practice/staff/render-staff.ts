@@ -103,25 +103,11 @@ export async function renderStaff(
       const width = natural[position] * stretch + (position === 0 ? opening : 0);
       const stave = new Stave(x, topLine - 4 * lineSpacing, width);
       const clef = clefOf(music, measureIndex);
-      if (position === 0) {
-        stave.setBegBarType(BarlineType.NONE);
-        addClef(stave, clef);
-        stave.addKeySignature(keySpecFor(music.fifths));
-        // Room between the time signature and the first note, as engravers leave it.
-        if (first) stave.addTimeSignature('4/4', 26);
-        // A compact staff sits under a heading that already names the tempo.
-        if (first && !options.compact) {
-          stave.setTempo({ duration: 'q', bpm: music.tempo }, -lineSpacing);
-        }
-      }
-      // A clef change inside a line of music (the marimba's low measures) is drawn small.
-      const before = measureIndex > 0 ? clefOf(music, measureIndex - 1) : clef;
-      if (
-        position > 0 &&
-        (before.clef !== clef.clef || before.octaveChange !== clef.octaveChange)
-      ) {
-        addClef(stave, clef, 'small');
-      }
+      markStave(stave, music, measureIndex, {
+        opening: position === 0,
+        first,
+        compact: options.compact,
+      });
       if (measureIndex === measures.length - 1) stave.setEndBarType(BarlineType.END);
       stave.setContext(context).draw();
       const notes = drawMeasure(context, stave, measures[measureIndex], music.fifths, clef);
@@ -136,18 +122,53 @@ export async function renderStaff(
   drawTies(context, drawn);
   drawSlurs(context, drawn);
   renderer.resize(staffWidth, Math.ceil(cursor));
-  const svg = host.querySelector('svg');
-  if (svg) {
-    svg.setAttribute('viewBox', `0 0 ${staffWidth} ${Math.ceil(cursor)}`);
-    svg.removeAttribute('width');
-    svg.removeAttribute('height');
-    // The renderer sets its size as an inline style too, which would keep the staff from
-    // scaling to its box.
-    svg.style.removeProperty('width');
-    svg.style.removeProperty('height');
-    svg.setAttribute('aria-hidden', 'true');
-  }
+  fitToBox(host, staffWidth, Math.ceil(cursor));
   return drawn.length;
+}
+
+/**
+ * What a measure's stave carries besides its notes: at the start of a line the clef and key
+ * signature (and on the first line the time signature and metronome mark), inside a line a
+ * change of clef.
+ */
+function markStave(
+  stave: Stave,
+  music: StaffMusic,
+  measureIndex: number,
+  line: { opening: boolean; first: boolean; compact: boolean },
+): void {
+  const clef = clefOf(music, measureIndex);
+  if (line.opening) {
+    stave.setBegBarType(BarlineType.NONE);
+    addClef(stave, clef);
+    stave.addKeySignature(keySpecFor(music.fifths));
+    // Room between the time signature and the first note, as engravers leave it.
+    if (line.first) stave.addTimeSignature('4/4', 26);
+    // A compact staff sits under a heading that already names the tempo.
+    if (line.first && !line.compact) {
+      stave.setTempo({ duration: 'q', bpm: music.tempo }, -lineSpacing);
+    }
+    return;
+  }
+  // A clef change inside a line of music (the marimba's low measures) is drawn small.
+  const before = measureIndex > 0 ? clefOf(music, measureIndex - 1) : clef;
+  if (before.clef !== clef.clef || before.octaveChange !== clef.octaveChange) {
+    addClef(stave, clef, 'small');
+  }
+}
+
+/** Lets the drawn SVG scale to its box, and hides it from screen readers. */
+function fitToBox(host: HTMLElement, width: number, height: number): void {
+  const svg = host.querySelector('svg');
+  if (!svg) return;
+  svg.setAttribute('viewBox', `0 0 ${width} ${height}`);
+  svg.removeAttribute('width');
+  svg.removeAttribute('height');
+  // The renderer sets its size as an inline style too, which would keep the staff from
+  // scaling to its box.
+  svg.style.removeProperty('width');
+  svg.style.removeProperty('height');
+  svg.setAttribute('aria-hidden', 'true');
 }
 
 /** The clef of a measure; a staff without per-measure clefs keeps its one clef throughout. */

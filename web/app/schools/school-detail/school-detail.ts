@@ -18,14 +18,14 @@ import { Router, RouterLink } from '@angular/router';
 import { gradeLabel, schoolInputSchema, schoolLevels, type School } from '@shared/api/school';
 import { CurrentUser } from '../../core/auth/current-user';
 import { Field } from '../../core/forms/field';
-import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
+import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
 import { RecordPage } from '../../core/record-page/record-page';
 import { EnsembleData } from '../../ensembles/ensemble-data';
 import { injectSchoolChoices } from '../school-choices';
 import { SchoolData } from '../school-data';
 import { schoolLevelLabels } from '../school-labels';
-import { createWrite } from '../../core/state/write';
+import { createRecordSave } from '../../core/forms/record-save';
 
 /** One school: its details (the coordinator edits them), its ensembles and a way to its students. */
 @Component({
@@ -47,7 +47,7 @@ import { createWrite } from '../../core/state/write';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SchoolDetail {
-  private readonly write = createWrite();
+  protected readonly recordSave = createRecordSave();
   private readonly schoolData = inject(SchoolData);
   private readonly router = inject(Router);
 
@@ -69,10 +69,6 @@ export class SchoolDetail {
         ? []
         : null,
   );
-  protected readonly saving = this.write.saving;
-  protected readonly saved = signal(false);
-  protected readonly conflict = signal(false);
-  protected readonly saveError = signal('');
   protected readonly fieldMessage = fieldMessage;
   protected readonly grades = Array.from({ length: 13 }, (_, grade) => grade);
   protected readonly gradeLabel = gradeLabel;
@@ -105,51 +101,38 @@ export class SchoolDetail {
   /** Closes the school on the chosen day, or opens it again (closedOn null). */
   protected setClosed(closedOn: string | null): void {
     const current = this.school();
-    if (!current || this.saving()) return;
-    this.saveError.set('');
-    this.write.send(this.schoolData.update(current.id, { closedOn, version: current.version }), {
-      next: (school) => {
-        this.record.set(school);
-      },
-      error: (error: unknown) => {
-        this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
-      },
+    if (!current || this.recordSave.saving()) return;
+    const request = this.schoolData.update(current.id, { closedOn, version: current.version });
+    this.recordSave.send(this.form, request, (school) => this.record.set(school), {
+      keepNote: true,
     });
   }
 
   protected reload(): void {
-    this.conflict.set(false);
+    this.recordSave.conflict.set(false);
     this.record.reload();
     this.ensembleList.reload();
   }
 
   protected save(): void {
-    this.form.markAllAsTouched();
-    if (this.form.invalid || this.saving()) return;
+    if (!this.recordSave.ready(this.form)) return;
     const parsed = schoolInputSchema.safeParse(this.form.getRawValue());
     if (!parsed.success) {
-      this.saveError.set(parsed.error.issues[0]?.message ?? 'Check the form.');
+      this.recordSave.saveError.set(parsed.error.issues[0]?.message ?? 'Check the form.');
       return;
     }
     const current = this.school();
     const { closedOn: _closedOn, ...input } = parsed.data;
-    this.saved.set(false);
-    this.saveError.set('');
     const request = current
       ? this.schoolData.update(current.id, { ...input, version: current.version })
       : this.schoolData.create(parsed.data);
-    this.write.send(request, {
-      next: (school) => {
-        if (!current) {
-          void this.router.navigate(['/schools', school.id]);
-          return;
-        }
-        this.record.set(school);
-        this.saved.set(true);
-      },
-      error: (error: unknown) => {
-        this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
-      },
+    this.recordSave.send(this.form, request, (school) => {
+      if (!current) {
+        void this.router.navigate(['/schools', school.id]);
+        return;
+      }
+      this.record.set(school);
+      this.recordSave.saved.set(true);
     });
   }
 

@@ -6,7 +6,6 @@ import {
   inject,
   input,
   output,
-  signal,
   untracked,
 } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
@@ -24,12 +23,12 @@ import {
   type StudentStatus,
 } from '@shared/api/student';
 import { Field } from '../../core/forms/field';
-import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
+import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { StudentData } from '../student-detail/student-data';
 import { gradeChoices, statusLabels } from './student-choices';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
-import { createWrite } from '../../core/state/write';
+import { createRecordSave } from '../../core/forms/record-save';
 
 const fields = studentInputSchema.shape;
 
@@ -51,7 +50,7 @@ const fields = studentInputSchema.shape;
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class StudentForm {
-  private readonly write = createWrite();
+  protected readonly recordSave = createRecordSave();
   private readonly studentData = inject(StudentData);
 
   /** The record being edited; null to add a student. */
@@ -73,10 +72,6 @@ export class StudentForm {
   protected readonly showsGuardian = computed(
     () => this.adding() || this.student()?.guardianName !== undefined,
   );
-  protected readonly saving = this.write.saving;
-  protected readonly savedNote = signal(false);
-  protected readonly conflict = signal(false);
-  protected readonly saveError = signal('');
   protected readonly fieldMessage = fieldMessage;
 
   protected readonly form = inject(NonNullableFormBuilder).group({
@@ -102,7 +97,7 @@ export class StudentForm {
   }
 
   private showRecord(student: StudentDetail | null, editable: boolean): void {
-    this.conflict.set(false);
+    this.recordSave.conflict.set(false);
     if (student) {
       this.form.reset({
         schoolId: student.schoolId,
@@ -122,29 +117,21 @@ export class StudentForm {
   }
 
   protected save(): void {
-    this.form.markAllAsTouched();
-    if (this.form.invalid || this.saving()) return;
+    if (!this.recordSave.ready(this.form)) return;
     const student = this.student();
     const { schoolId, ...values } = this.form.getRawValue();
     const guardian = this.showsGuardian()
       ? {}
       : { guardianName: undefined, guardianEmail: undefined };
-    this.savedNote.set(false);
-    this.saveError.set('');
     const request = student
       ? this.studentData.update(
           student.id,
           studentPatchSchema.parse({ ...values, ...guardian, version: student.version }),
         )
       : this.studentData.create(studentInputSchema.parse({ ...values, schoolId }));
-    this.write.send(request, {
-      next: (saved) => {
-        this.savedNote.set(true);
-        this.saved.emit(saved);
-      },
-      error: (error: unknown) => {
-        this.saveError.set(saveFailureMessage(this.form, error, this.conflict));
-      },
+    this.recordSave.send(this.form, request, (saved) => {
+      this.recordSave.saved.set(true);
+      this.saved.emit(saved);
     });
   }
 }
