@@ -1,5 +1,11 @@
 import { idParameter } from '@shared/api/input-rules';
-import express, { Router, type NextFunction, type Request, type Response } from 'express';
+import express, {
+  Router,
+  type NextFunction,
+  type Request,
+  type RequestHandler,
+  type Response,
+} from 'express';
 import { fileNamePrefix } from '../reports/report-render';
 import { districtIdentity } from '../district/district-queries';
 import multer from 'multer';
@@ -11,7 +17,9 @@ import {
 } from '@shared/api/instrument';
 import { actorOf, requires } from '../core/policy';
 import { HttpError, badRequest } from '../core/errors';
-import { parseId, parseInput } from '../core/validate';
+import { parseInput } from '../core/validate';
+import { answer, created, idOf, recordRoutes, type RouteWork } from '../core/routes';
+import type { Database } from '../db/client';
 import type { Services } from '../services';
 import { listInstruments } from './instruments-queries';
 import { instrumentDetail } from './instrument-detail';
@@ -63,91 +71,89 @@ const labelQuerySchema = z.object({
 });
 const importQuerySchema = z.object({ dryRun: z.enum(['true', 'false']).default('true') });
 
+/** `GET /instruments/labels.pdf`: a sheet of asset-tag labels, or one label in its place. */
+function labelsRoute(db: Database): RequestHandler {
+  return async (request, response) => {
+    const query = parseInput(labelQuerySchema, request.query, 'The label query');
+    const { schoolId, instrumentId, skip } = query;
+    const one = instrumentId === undefined ? undefined : { instrumentId, skip };
+    const pdf = await assetLabelsPdf(db, actorOf(request), schoolId, one);
+    const prefix = fileNamePrefix((await districtIdentity(db))?.shortName);
+    response
+      .type('application/pdf')
+      .set('Content-Disposition', `inline; filename="${prefix}asset-labels.pdf"`)
+      .send(pdf);
+  };
+}
+
+/** `POST /instruments/import`: the fleet CSV as the body; a dry run unless `dryRun=false`. */
+function importRoute(db: Database): RouteWork {
+  return async (request, actor) => {
+    const { dryRun } = parseInput(importQuerySchema, request.query, 'The import query');
+    if (request.body !== undefined && !Buffer.isBuffer(request.body)) {
+      throw badRequest(
+        'Send the fleet CSV file itself as the request body (Content-Type: text/csv).',
+      );
+    }
+    const bytes = Buffer.isBuffer(request.body) ? request.body : Buffer.alloc(0);
+    return importFleet(db, actor, bytes, dryRun === 'true');
+  };
+}
+
+/** `GET /instruments/:id/photos/:photoId`: the photo's bytes, kept an hour by the browser. */
+function photoRoute(db: Database, dataDir: string): RequestHandler {
+  return async (request, response) => {
+    const ids = [idOf(request), idOf(request, 'photoId')] as const;
+    const photo = await readPhoto(db, dataDir, actorOf(request), ...ids);
+    response
+      .set('Cache-Control', 'private, max-age=3600')
+      .type(photo.contentType)
+      .send(photo.bytes);
+  };
+}
+
 /** `/api/instruments`: the fleet, its photos, labels, cleaning and CSV import. */
 export function instrumentsRoutes({ db, config }: Services): Router {
   const router = Router();
-  router.get('/instruments', requires('fleet:read'), async (request, response) => {
-    response.json(await listInstruments(db, actorOf(request), request.query));
-  });
-  router.get('/instruments/labels.pdf', requires('fleet:read'), async (request, response) => {
-    const { schoolId, instrumentId, skip } = parseInput(
-      labelQuerySchema,
-      request.query,
-      'The label query',
-    );
-    const pdf = await assetLabelsPdf(
-      db,
-      actorOf(request),
-      schoolId,
-      instrumentId === undefined ? undefined : { instrumentId, skip },
-    );
-    response
-      .type('application/pdf')
-      .set(
-        'Content-Disposition',
-        `inline; filename="${fileNamePrefix((await districtIdentity(db))?.shortName)}asset-labels.pdf"`,
-      )
-      .send(pdf);
-  });
-  router.post(
-    '/instruments/import',
-    requires('fleet:write'),
-    express.raw({ type: () => true, limit: '10mb' }),
-    async (request, response) => {
-      const { dryRun } = parseInput(importQuerySchema, request.query, 'The import query');
-      if (request.body !== undefined && !Buffer.isBuffer(request.body)) {
-        throw badRequest(
-          'Send the fleet CSV file itself as the request body (Content-Type: text/csv).',
-        );
-      }
-      const bytes = Buffer.isBuffer(request.body) ? request.body : Buffer.alloc(0);
-      const result = await importFleet(db, actorOf(request), bytes, dryRun === 'true');
-      response.json(result);
-    },
+  const reads = requires('fleet:read');
+  const writes = requires('fleet:write');
+  router.get(
+    '/instruments',
+    reads,
+    answer((request, actor) => listInstruments(db, actor, request.query)),
   );
-  router.get('/instruments/:id', requires('fleet:read'), async (request, response) => {
-    response.json(await instrumentDetail(db, actorOf(request), parseId(request.params['id'])));
-  });
-  router.post('/instruments', requires('fleet:write'), async (request, response) => {
-    const input = parseInput(instrumentInputSchema, request.body, 'The instrument');
-    response.status(201).json(await createInstrument(db, actorOf(request), input));
-  });
-  router.patch('/instruments/:id', requires('fleet:write'), async (request, response) => {
-    const id = parseId(request.params['id']);
-    const patch = parseInput(instrumentPatchSchema, request.body, 'The change');
-    response.json(await updateInstrument(db, actorOf(request), id, patch));
-  });
-  router.post('/instruments/:id/cleaned', requires('fleet:write'), async (request, response) => {
-    const id = parseId(request.params['id']);
-    const { note } = parseInput(cleanedInputSchema, request.body ?? {}, 'The cleaning record');
-    response.json(await markCleaned(db, actorOf(request), id, note));
-  });
+  router.get('/instruments/labels.pdf', reads, labelsRoute(db));
+  const rawBody = express.raw({ type: () => true, limit: '10mb' });
+  router.post('/instruments/import', writes, rawBody, answer(importRoute(db)));
+  recordRoutes(
+    db,
+    {
+      path: '/instruments',
+      capabilities: ['fleet:read', 'fleet:write'],
+      input: [instrumentInputSchema, 'The instrument'],
+      patch: instrumentPatchSchema,
+    },
+    { get: instrumentDetail, create: createInstrument, update: updateInstrument },
+    router,
+  );
+  router.post(
+    '/instruments/:id/cleaned',
+    writes,
+    answer((request, actor) => {
+      const id = idOf(request);
+      const { note } = parseInput(cleanedInputSchema, request.body ?? {}, 'The cleaning record');
+      return markCleaned(db, actor, id, note);
+    }),
+  );
   router.post(
     '/instruments/:id/photos',
-    requires('fleet:write'),
+    writes,
     receivePhoto,
-    async (request, response) => {
-      const id = parseId(request.params['id']);
+    created((request, actor) => {
       const bytes = request.file?.buffer ?? Buffer.alloc(0);
-      response.status(201).json(await addPhoto(db, config.dataDir, actorOf(request), id, bytes));
-    },
+      return addPhoto(db, config.dataDir, actor, idOf(request), bytes);
+    }),
   );
-  router.get(
-    '/instruments/:id/photos/:photoId',
-    requires('fleet:read'),
-    async (request, response) => {
-      const photo = await readPhoto(
-        db,
-        config.dataDir,
-        actorOf(request),
-        parseId(request.params['id']),
-        parseId(request.params['photoId']),
-      );
-      response
-        .set('Cache-Control', 'private, max-age=3600')
-        .type(photo.contentType)
-        .send(photo.bytes);
-    },
-  );
+  router.get('/instruments/:id/photos/:photoId', reads, photoRoute(db, config.dataDir));
   return router;
 }

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { personInputSchema, personPatchSchema } from '@shared/api/person';
-import { actorOf, requires } from '../core/policy';
-import { parseId, parseInput } from '../core/validate';
+import { requires } from '../core/policy';
+import { answer, recordRoutes } from '../core/routes';
 import type { Services } from '../services';
 import { listAudit } from './people-queries';
 import { createPerson, getPerson, listPeople, updatePerson } from './people-service';
@@ -11,24 +11,25 @@ import { createPerson, getPerson, listPeople, updatePerson } from './people-serv
  * what. There is no DELETE: a person is deactivated, so the audit log keeps their name.
  */
 export function peopleRoutes({ db }: Services): Router {
-  const router = Router();
-  router.get('/users', requires('people:manage'), async (request, response) => {
-    response.json(await listPeople(db, request.query));
-  });
-  router.get('/users/:id', requires('people:manage'), async (request, response) => {
-    response.json(await getPerson(db, parseId(request.params['id'])));
-  });
-  router.post('/users', requires('people:manage'), async (request, response) => {
-    const input = parseInput(personInputSchema, request.body, 'The person');
-    response.status(201).json(await createPerson(db, actorOf(request), input));
-  });
-  router.patch('/users/:id', requires('people:manage'), async (request, response) => {
-    const id = parseId(request.params['id']);
-    const patch = parseInput(personPatchSchema, request.body, 'The change');
-    response.json(await updatePerson(db, actorOf(request), id, patch));
-  });
-  router.get('/audit', requires('people:manage'), async (request, response) => {
-    response.json(await listAudit(db, request.query));
-  });
+  const router = recordRoutes(
+    db,
+    {
+      path: '/users',
+      capabilities: ['people:manage', 'people:manage'],
+      input: [personInputSchema, 'The person'],
+      patch: personPatchSchema,
+    },
+    {
+      list: (db, _actor, query) => listPeople(db, query),
+      get: (db, _actor, id) => getPerson(db, id),
+      create: createPerson,
+      update: updatePerson,
+    },
+  );
+  router.get(
+    '/audit',
+    requires('people:manage'),
+    answer((request) => listAudit(db, request.query)),
+  );
   return router;
 }
