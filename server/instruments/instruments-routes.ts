@@ -1,14 +1,7 @@
 import { idParameter } from '@shared/api/input-rules';
-import express, {
-  Router,
-  type NextFunction,
-  type Request,
-  type RequestHandler,
-  type Response,
-} from 'express';
+import express, { Router, type RequestHandler } from 'express';
 import { fileNamePrefix } from '../reports/report-render';
 import { districtIdentity } from '../district/district-queries';
-import multer from 'multer';
 import { z } from 'zod';
 import {
   cleanedInputSchema,
@@ -18,6 +11,7 @@ import {
 import { actorOf, requires } from '../core/policy';
 import { HttpError, badRequest } from '../core/errors';
 import { parseInput } from '../core/validate';
+import { singleUpload } from '../core/upload';
 import { answer, created, idOf, recordRoutes, type RouteWork } from '../core/routes';
 import type { Database } from '../db/client';
 import type { Services } from '../services';
@@ -28,29 +22,16 @@ import { addPhoto, photoSizeLimit, readPhoto } from './instrument-photos';
 import { assetLabelsPdf } from './asset-labels';
 import { importFleet } from './fleet-import';
 
-const photoUpload = multer({
-  storage: multer.memoryStorage(),
-  limits: { fileSize: photoSizeLimit, files: 1 },
-}).single('photo');
-
-/** Multer's errors as the API's own: too large is 413, anything else about the form 400. */
-function receivePhoto(request: Request, response: Response, next: NextFunction) {
-  photoUpload(request, response, (error: unknown) => {
-    if (!error) return next();
-    if (error instanceof multer.MulterError) {
-      return next(
-        error.code === 'LIMIT_FILE_SIZE'
-          ? new HttpError(413, 'too_large', 'A photo may be at most 5 MB.')
-          : new HttpError(
-              400,
-              'bad_request',
-              `The upload was refused: ${error.message}. Send one file in the field "photo".`,
-            ),
-      );
-    }
-    next(error);
-  });
-}
+/** One photo of at most 5 MB in the field "photo": too large is 413, anything else about the form 400. */
+const receivePhoto = singleUpload('photo', { fileSize: photoSizeLimit, files: 1 }, (error) =>
+  error.code === 'LIMIT_FILE_SIZE'
+    ? new HttpError(413, 'too_large', 'A photo may be at most 5 MB.')
+    : new HttpError(
+        400,
+        'bad_request',
+        `The upload was refused: ${error.message}. Send one file in the field "photo".`,
+      ),
+);
 
 /** Labels per sheet: 3 across, 10 down (a common US Letter label sheet, from memory). */
 const labelsPerSheet = 30;
