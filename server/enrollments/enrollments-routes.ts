@@ -1,7 +1,5 @@
-import type { Router } from 'express';
 import { enrollmentInputSchema, enrollmentPatchSchema } from '@shared/api/enrollment';
 import { recordRoutes } from '../core/routes';
-import type { Services } from '../services';
 import { listEnrollments } from './enrollments-queries';
 import {
   createEnrollment,
@@ -11,21 +9,9 @@ import {
 } from './enrollments-service';
 
 /** `/api/enrollments`: seats of students in ensembles, within the actor's schools. */
-export function enrollmentsRoutes({ db }: Services): Router {
-  return recordRoutes(
-    db,
-    {
-      path: '/enrollments',
-      capabilities: ['roster:read', 'roster:write'],
-      input: [enrollmentInputSchema, 'The enrollment'],
-      patch: enrollmentPatchSchema,
-    },
-    {
-      list: listEnrollments,
-      get: getEnrollment,
-      create: createEnrollment,
-      update: updateEnrollment,
-      remove: deleteEnrollment,
-    },
-  );
-}
+export const enrollmentsRoutes = recordRoutes('/enrollments', {
+  read: ['roster:read', listEnrollments, getEnrollment],
+  create: ['roster:write', enrollmentInputSchema, 'The enrollment', createEnrollment],
+  update: ['roster:write', enrollmentPatchSchema, updateEnrollment],
+  remove: ['roster:write', deleteEnrollment],
+});

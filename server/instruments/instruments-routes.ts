@@ -93,8 +93,16 @@ function photoRoute(db: Database, dataDir: string): RequestHandler {
   };
 }
 
+/** One instrument: its detail, adding one, and changing it. */
+const records = recordRoutes('/instruments', {
+  read: ['fleet:read', undefined, instrumentDetail],
+  create: ['fleet:write', instrumentInputSchema, 'The instrument', createInstrument],
+  update: ['fleet:write', instrumentPatchSchema, updateInstrument],
+});
+
 /** `/api/instruments`: the fleet, its photos, labels, cleaning and CSV import. */
-export function instrumentsRoutes({ db, config }: Services): Router {
+export function instrumentsRoutes(services: Services): Router {
+  const { db, config } = services;
   const router = Router();
   const reads = requires('fleet:read');
   const writes = requires('fleet:write');
@@ -106,17 +114,7 @@ export function instrumentsRoutes({ db, config }: Services): Router {
   router.get('/instruments/labels.pdf', reads, labelsRoute(db));
   const rawBody = express.raw({ type: () => true, limit: '10mb' });
   router.post('/instruments/import', writes, rawBody, answer(importRoute(db)));
-  recordRoutes(
-    db,
-    {
-      path: '/instruments',
-      capabilities: ['fleet:read', 'fleet:write'],
-      input: [instrumentInputSchema, 'The instrument'],
-      patch: instrumentPatchSchema,
-    },
-    { get: instrumentDetail, create: createInstrument, update: updateInstrument },
-    router,
-  );
+  records(services, router);
   router.post(
     '/instruments/:id/cleaned',
     writes,

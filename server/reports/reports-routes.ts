@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { reportScheduleInputSchema, reportSchedulePatchSchema } from '@shared/api/report';
 import { actorOf, requires } from '../core/policy';
-import { answer, idOf, recordRoutes } from '../core/routes';
+import { answer, idOf, recordRoutes, withoutActor } from '../core/routes';
 import type { Services } from '../services';
 import { nudgeOutbox } from '../mail/outbox';
 import { getReportRun, listReportRuns, previewReport, sendReport } from './reports-service';
@@ -13,11 +13,20 @@ import {
   updateSchedule,
 } from './schedules-service';
 
+/** `/api/reports/schedules`: the coordinator's report schedules. */
+const schedules = recordRoutes('/reports/schedules', {
+  read: ['reports:send', withoutActor(listSchedules), withoutActor(getSchedule)],
+  create: ['reports:send', reportScheduleInputSchema, 'The schedule', createSchedule],
+  update: ['reports:send', reportSchedulePatchSchema, updateSchedule],
+  remove: ['reports:send', deleteSchedule],
+});
+
 /**
  * `/api/reports`: previews and the list of reports sent for anyone who reads reports; sending
  * for the coordinator (and for a director, to themselves); schedules for the coordinator.
  */
-export function reportsRoutes({ db }: Services): Router {
+export function reportsRoutes(services: Services): Router {
+  const { db } = services;
   const router = Router();
   const readsReports = requires('reports:read');
   router.get(
@@ -35,23 +44,7 @@ export function reportsRoutes({ db }: Services): Router {
     nudgeOutbox();
     response.status(202).json(queued);
   });
-  recordRoutes(
-    db,
-    {
-      path: '/reports/schedules',
-      capabilities: ['reports:send', 'reports:send'],
-      input: [reportScheduleInputSchema, 'The schedule'],
-      patch: reportSchedulePatchSchema,
-    },
-    {
-      list: (db, _actor, query) => listSchedules(db, query),
-      get: (db, _actor, id) => getSchedule(db, id),
-      create: createSchedule,
-      update: updateSchedule,
-      remove: deleteSchedule,
-    },
-    router,
-  );
+  schedules(services, router);
   router.get(
     '/reports/:id',
     readsReports,

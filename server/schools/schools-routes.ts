@@ -1,7 +1,5 @@
-import type { Router } from 'express';
 import { schoolInputSchema, schoolPatchSchema } from '@shared/api/school';
 import { recordRoutes } from '../core/routes';
-import type { Services } from '../services';
 import {
   createSchool,
   deleteSchool,
@@ -11,21 +9,9 @@ import {
 } from './schools-service';
 
 /** `/api/schools`: everyone with a school view reads; the coordinator changes. */
-export function schoolsRoutes({ db }: Services): Router {
-  return recordRoutes(
-    db,
-    {
-      path: '/schools',
-      capabilities: ['schools:read', 'schools:write'],
-      input: [schoolInputSchema, 'The school'],
-      patch: schoolPatchSchema,
-    },
-    {
-      list: listSchools,
-      get: getSchool,
-      create: createSchool,
-      update: updateSchool,
-      remove: deleteSchool,
-    },
-  );
-}
+export const schoolsRoutes = recordRoutes('/schools', {
+  read: ['schools:read', listSchools, getSchool],
+  create: ['schools:write', schoolInputSchema, 'The school', createSchool],
+  update: ['schools:write', schoolPatchSchema, updateSchool],
+  remove: ['schools:write', deleteSchool],
+});
