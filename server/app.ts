@@ -127,6 +127,101 @@ function overHttps(config: Config, logger: Logger): RequestHandler {
   };
 }
 
+/**
+ * Helmet's headers with our Content-Security-Policy (CSP Level 3): only our own scripts, styles
+ * (and the inline ones Angular and the grid inject), images, fonts and workers; forms may post to
+ * the identity provider (sign-out) and the payment service ("Pay the usage fee").
+ */
+function securityHeaders(config: Config): RequestHandler {
+  const issuerOrigin = new URL(config.oidcIssuer).origin;
+  // "Pay the usage fee" posts here and is redirected on to the payment service's hosted page.
+  const paymentOrigins = config.payments
+    ? [config.payments.apiUrl ? new URL(config.payments.apiUrl).origin : 'https:']
+    : [];
+  return helmet({
+    contentSecurityPolicy: {
+      useDefaults: false,
+      directives: {
+        defaultSrc: ["'self'"],
+        scriptSrc: ["'self'"],
+        // Angular's component styles and the grid's theme are injected as <style> elements.
+        styleSrc: ["'self'", "'unsafe-inline'"],
+        imgSrc: ["'self'", 'data:', 'blob:'],
+        fontSrc: ["'self'"],
+        connectSrc: ["'self'"],
+        mediaSrc: ["'self'", 'blob:'],
+        workerSrc: ["'self'", 'blob:'],
+        objectSrc: ["'none'"],
+        baseUri: ["'self'"],
+        frameAncestors: ["'none'"],
+        // Sign-out posts here and is redirected on to the identity provider.
+        formAction: ["'self'", issuerOrigin, ...paymentOrigins],
+      },
+    },
+    // Sent below, per request: over HTTPS (APP_URL's, or the proxy's X-Forwarded-Proto).
+    strictTransportSecurity: false,
+    // With no-referrer, browsers send "Origin: null" on form posts and the CSRF check fails.
+    referrerPolicy: { policy: 'same-origin' },
+  });
+}
+
+/** The signed-in session, kept in the database, for every request but a bearer-token API call. */
+async function sessions(config: Config, db: Services['db']): Promise<RequestHandler> {
+  return withoutBearerApiRequests(
+    session({
+      name: sessionCookieName,
+      secret: await sessionSecret(db, config.sessionSecret),
+      store: new DatabaseSessionStore(db),
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      // 'auto': Secure whenever the request came over HTTPS, which behind a trusted proxy
+      // (TRUST_PROXY=true) is its X-Forwarded-Proto, with or without APP_URL.
+      cookie: {
+        httpOnly: true,
+        sameSite: 'lax',
+        secure: config.appUrl.startsWith('https:') ? true : 'auto',
+        maxAge: 8 * 60 * 60 * 1000,
+      },
+    }),
+  );
+}
+
+/** `/api`: JSON bodies, rate limits, the caller's identity, then every feature's routes. */
+function apiRouter(services: Services, localKey: string | undefined): Router {
+  const { config, db } = services;
+  const api = Router();
+  if (localKey) api.use('/local', localCommandRoutes(services, localKey));
+  api.use(express.json({ limit: '2mb' }));
+  api.use(arrivalOrder);
+  api.use(tokenLimits(config.rateLimits.token, config.rateLimits.tokenFailures));
+  api.use(authenticate(db));
+  api.use((_request, response, next) => {
+    response.set('Cache-Control', 'no-store');
+    next();
+  });
+  for (const routes of featureRoutes) api.use(routes(services));
+  api.use(unknownApiRoute);
+  return api;
+}
+
+/**
+ * The built web app: its files, and for every other GET (HTML5 routing) the app's index page,
+ * naming a screen's code ahead where it has one.
+ */
+function webApp(): Router {
+  const web = Router();
+  web.use(express.static(webRoot, { index: false, maxAge: '1h', setHeaders: webCacheHeaders }));
+  const indexPage = indexPages(webRoot);
+  web.get('/{*splat}', (request, response) => {
+    response.set('Cache-Control', 'no-cache');
+    const page = indexPage(request.path);
+    if (page === undefined) response.sendFile(path.join(webRoot, 'index.html'));
+    else response.type('html').send(page);
+  });
+  return web;
+}
+
 /** Builds the Express app: security headers, sessions, sign-in, the API and the web app. */
 export async function createApp(config: Config, options: AppOptions): Promise<Express> {
   const logger = options.logger ?? createLogger(config.logLevel);
@@ -144,41 +239,8 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   // Loads the district's time zone before the first request counts a day in it.
   await findDistrictRow(db);
 
-  const issuerOrigin = new URL(config.oidcIssuer).origin;
-  // "Pay the usage fee" posts here and is redirected on to the payment service's hosted page.
-  const paymentOrigins = config.payments
-    ? [config.payments.apiUrl ? new URL(config.payments.apiUrl).origin : 'https:']
-    : [];
   app.use(arrivalOrder);
-  app.use(
-    helmet({
-      contentSecurityPolicy: {
-        useDefaults: false,
-        directives: {
-          defaultSrc: ["'self'"],
-          scriptSrc: ["'self'"],
-          // Angular's component styles and the grid's theme are injected as <style> elements.
-          styleSrc: ["'self'", "'unsafe-inline'"],
-          imgSrc: ["'self'", 'data:', 'blob:'],
-          fontSrc: ["'self'"],
-          connectSrc: ["'self'"],
-          mediaSrc: ["'self'", 'blob:'],
-          workerSrc: ["'self'", 'blob:'],
-          objectSrc: ["'none'"],
-          baseUri: ["'self'"],
-          frameAncestors: ["'none'"],
-          // Sign-out posts here and is redirected on to the identity provider.
-          formAction: ["'self'", issuerOrigin, ...paymentOrigins],
-        },
-      },
-      // Sent below, per request: over HTTPS (APP_URL's, or the proxy's X-Forwarded-Proto).
-      strictTransportSecurity: false,
-      // With no-referrer, browsers send "Origin: null" on form posts and the CSRF check fails.
-      referrerPolicy: { policy: 'same-origin' },
-    }),
-  );
-
-  const appUrlIsHttps = config.appUrl.startsWith('https:');
+  app.use(securityHeaders(config));
   app.use(overHttps(config, logger));
   // Brotli or gzip (RFC 9110 §8.4, content codings; RFC 7932 for brotli) for every compressible
   // answer over 1 kB: the app's scripts, styles and the API's JSON. On a slow phone network the
@@ -187,26 +249,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
 
   // The payment service's signed events: raw body, no session, no cookie, no CSRF check.
   app.use(paymentsWebhook(services));
-  app.use(
-    withoutBearerApiRequests(
-      session({
-        name: sessionCookieName,
-        secret: await sessionSecret(db, config.sessionSecret),
-        store: new DatabaseSessionStore(db),
-        resave: false,
-        saveUninitialized: false,
-        rolling: true,
-        // 'auto': Secure whenever the request came over HTTPS, which behind a trusted proxy
-        // (TRUST_PROXY=true) is its X-Forwarded-Proto, with or without APP_URL.
-        cookie: {
-          httpOnly: true,
-          sameSite: 'lax',
-          secure: appUrlIsHttps ? true : 'auto',
-          maxAge: 8 * 60 * 60 * 1000,
-        },
-      }),
-    ),
-  );
+  app.use(await sessions(config, db));
   const signIn = createSignIn(config, db, logger);
   app.use(withoutBearerApiRequests(signIn.initialize), withoutBearerApiRequests(signIn.session));
   app.use(arrivalOrder);
@@ -214,35 +257,12 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   app.use(['/auth/sign-in', '/auth/callback'], signInLimit(config.rateLimits.signIn));
   app.use(signIn.router);
 
-  const api = Router();
-  if (options.localKey) api.use('/local', localCommandRoutes(services, options.localKey));
-  api.use(express.json({ limit: '2mb' }));
-  api.use(arrivalOrder);
-  api.use(tokenLimits(config.rateLimits.token, config.rateLimits.tokenFailures));
-  api.use(authenticate(db));
-  api.use((_request, response, next) => {
-    response.set('Cache-Control', 'no-store');
-    next();
-  });
-  for (const routes of featureRoutes) api.use(routes(services));
-  api.use(unknownApiRoute);
-  app.use('/api', api);
+  app.use('/api', apiRouter(services, options.localKey));
   app.use(agreementPages(services));
   app.use(districtLogoRoute(services));
   app.use(requireDistrict(db));
   app.use(payPages(services));
-
-  if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'))) {
-    app.use(express.static(webRoot, { index: false, maxAge: '1h', setHeaders: webCacheHeaders }));
-    const indexPage = indexPages(webRoot);
-    // HTML5 routing: every other GET is the app's index page (naming a screen's code ahead).
-    app.get('/{*splat}', (request, response) => {
-      response.set('Cache-Control', 'no-cache');
-      const page = indexPage(request.path);
-      if (page === undefined) response.sendFile(path.join(webRoot, 'index.html'));
-      else response.type('html').send(page);
-    });
-  }
+  if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'))) app.use(webApp());
   app.use(errorHandler(logger));
   // The mail worker and report scheduler; server/main.ts and the test harness call it on close.
   app.locals['stop'] = startBackgroundWork(services);

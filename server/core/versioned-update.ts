@@ -59,3 +59,25 @@ export async function insertAudited<Table extends PgTable & { id: PgColumn }>(
   });
   return row!;
 }
+
+/**
+ * `updateVersioned` with history: reads the row as it was, updates it from the version the
+ * editor started from, and records the change with the row before and after in the audit log,
+ * in the caller's transaction. Answers both rows.
+ */
+export async function updateAudited<Table extends VersionedTable>(
+  tx: Database | Transaction,
+  actor: Actor,
+  target: { table: Table; id: number; entity: string; what: string },
+  expectedVersion: number,
+  changes: Partial<InferSelectModel<Table>>,
+): Promise<{ before: InferSelectModel<Table>; after: InferSelectModel<Table> }> {
+  const { table, id, entity, what } = target;
+  const [before] = (await tx
+    .select()
+    .from(table as PgTable)
+    .where(eq(table.id, id))) as InferSelectModel<Table>[];
+  const after = await updateVersioned(tx, table, id, expectedVersion, changes, what);
+  await recordAudit(tx, actor, { action: 'update', entity, entityId: id, before, after });
+  return { before: before!, after };
+}

@@ -5,7 +5,7 @@ import { enrollments, ensembles, schoolYears, schools, students } from '../db/sc
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
-import { insertAudited, updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateAudited } from '../core/versioned-update';
 import { findVisibleEnsemble } from '../ensembles/ensembles-service';
 import { findVisibleStudent } from '../students/students-service';
 import { enrollmentColumns, toEnrollment } from './enrollment-row';
@@ -103,15 +103,8 @@ export async function updateEnrollment(
   const { version, ...changes } = patch;
   await db.transaction(async (tx) => {
     await assertYearOpen(tx, await getEnrollment(tx, actor, id));
-    const [before] = await tx.select().from(enrollments).where(eq(enrollments.id, id));
-    const after = await updateVersioned(tx, enrollments, id, version, changes, what);
-    await recordAudit(tx, actor, {
-      action: 'update',
-      entity: 'enrollment',
-      entityId: id,
-      before,
-      after,
-    });
+    const target = { table: enrollments, id, entity: 'enrollment', what };
+    await updateAudited(tx, actor, target, version, changes);
   });
   return getEnrollment(db, actor, id);
 }

@@ -11,7 +11,7 @@ import { enrollments, ensembles, schools, students, userSchools, users } from '.
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
-import { insertAudited, updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateAudited } from '../core/versioned-update';
 import { instrumentName, scorePosition } from '../enrollments/instrument-order';
 import { findCurrentSchoolYear } from '../enrollments/school-year';
 import { ensembleColumns, toEnsemble, type EnsembleRecord } from './ensemble-row';
@@ -167,15 +167,8 @@ export async function updateEnsemble(
     if (changes.name) await assertNameFree(tx, record.schoolId, changes.name, id);
     if (changes.directorUserId)
       await assertDirectorFits(tx, record.schoolId, changes.directorUserId);
-    const [before] = await tx.select().from(ensembles).where(eq(ensembles.id, id));
-    const after = await updateVersioned(tx, ensembles, id, version, changes, what);
-    await recordAudit(tx, actor, {
-      action: 'update',
-      entity: 'ensemble',
-      entityId: id,
-      before,
-      after,
-    });
+    const target = { table: ensembles, id, entity: 'ensemble', what };
+    await updateAudited(tx, actor, target, version, changes);
   });
   return getEnsemble(db, actor, id);
 }

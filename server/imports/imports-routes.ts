@@ -1,4 +1,4 @@
-import { Router, type RequestHandler } from 'express';
+import { Router, type Request, type RequestHandler } from 'express';
 import multer from 'multer';
 import path from 'node:path';
 import {
@@ -8,8 +8,10 @@ import {
   previewFieldsSchema,
 } from '@shared/api/import';
 import { HttpError, badRequest } from '../core/errors';
-import { actorOf, requires } from '../core/policy';
-import { nothing, parseId, parseInput } from '../core/validate';
+import { requires, type Actor } from '../core/policy';
+import { answer, created, idOf, noContent, type RouteWork } from '../core/routes';
+import { nothing, parseInput } from '../core/validate';
+import type { DatabaseHandle } from '../db/client';
 import type { Services } from '../services';
 import { getImport, importErrorsCsv, listImports } from './import-history';
 import { importPreview } from './import-preview';
@@ -66,37 +68,39 @@ function cleanFileName(name: string | undefined): string {
   return printable.join('').slice(0, 200) || 'roster.csv';
 }
 
-/**
- * `/api/imports`: the coordinator previews a roster upload (kept 30 minutes under a token),
- * commits it, reads the history and its error reports, and keeps named column mappings.
- */
-export function importsRoutes({ config, db, database }: Services): Router {
-  const router = Router();
-  const uploads = new UploadStore(path.join(config.dataDir, 'imports'));
-  const runs = requires('imports:run');
+/** The roster a preview reads: the file just uploaded (kept under a new token), or the one kept under its token. */
+async function uploadOf(
+  request: Request,
+  uploads: UploadStore,
+  actor: Actor,
+  importToken: string | undefined,
+): Promise<{ bytes: Uint8Array; fileName: string; token: string }> {
+  if (request.file) {
+    const { buffer } = request.file;
+    const bytes = new Uint8Array(buffer.buffer, buffer.byteOffset, buffer.byteLength);
+    const fileName = cleanFileName(request.file.originalname);
+    return {
+      bytes,
+      fileName,
+      token: await uploads.save({ fileName, userId: actor.userId }, bytes),
+    };
+  }
+  if (importToken) {
+    // A new mapping for a file already uploaded: read the kept bytes, not a second upload.
+    const stored = await uploads.open(importToken, actor.userId);
+    if (!stored) throw expired();
+    return { bytes: stored.bytes, fileName: stored.fileName, token: importToken };
+  }
+  throw badRequest("Choose a roster file to upload (the form field 'file').", [
+    { field: 'file', message: 'Choose a file.' },
+  ]);
+}
 
-  router.post('/imports/preview', runs, rosterUpload(), async (request, response) => {
-    const actor = actorOf(request);
+/** `POST /imports/preview`: what the upload would change, under the token its commit names. */
+function previewRoute(uploads: UploadStore, database: DatabaseHandle): RouteWork {
+  return async (request, actor) => {
     const fields = parseInput(previewFieldsSchema, request.body ?? {}, 'The upload');
-    let bytes: Uint8Array;
-    let fileName: string;
-    let token: string;
-    if (request.file) {
-      const { buffer } = request.file;
-      bytes = new Uint8Array(buffer.buffer, buffer.byteOffset, buffer.byteLength);
-      fileName = cleanFileName(request.file.originalname);
-      token = await uploads.save({ fileName, userId: actor.userId }, bytes);
-    } else if (fields.importToken) {
-      // A new mapping for a file already uploaded: read the kept bytes, not a second upload.
-      const stored = await uploads.open(fields.importToken, actor.userId);
-      if (!stored) throw expired();
-      ({ bytes, fileName } = stored);
-      token = fields.importToken;
-    } else {
-      throw badRequest("Choose a roster file to upload (the form field 'file').", [
-        { field: 'file', message: 'Choose a file.' },
-      ]);
-    }
+    const { bytes, fileName, token } = await uploadOf(request, uploads, actor, fields.importToken);
     const plan = await planUpload(database, {
       upload: { fileName, bytes },
       mapping: fields.mapping,
@@ -108,11 +112,13 @@ export function importsRoutes({ config, db, database }: Services): Router {
       if (request.file) await uploads.remove(token);
       throw badRequest(plan.parsed.refused);
     }
-    response.json(await importPreview({ token, fileName, bytes }, plan));
-  });
+    return importPreview({ token, fileName, bytes }, plan);
+  };
+}
 
-  router.post('/imports/commit', runs, async (request, response) => {
-    const actor = actorOf(request);
+/** `POST /imports/commit`: lands the kept upload with the mapping the preview showed. */
+function commitRoute(uploads: UploadStore, database: DatabaseHandle): RouteWork {
+  return async (request, actor) => {
     const input = parseInput(commitRequestSchema, request.body, 'The commit');
     const stored = await uploads.open(input.importToken, actor.userId);
     if (!stored) throw expired();
@@ -129,41 +135,70 @@ export function importsRoutes({ config, db, database }: Services): Router {
     );
     if (plan.parsed.refused) throw badRequest(plan.parsed.refused);
     if (result.committed) await uploads.remove(input.importToken);
-    response.json(result);
-  });
+    return result;
+  };
+}
 
-  router.get('/imports', runs, async (request, response) => {
-    response.json(await listImports(db, request.query));
-  });
-
-  router.get('/imports/presets', runs, async (request, response) => {
-    parseInput(nothing, request.query, 'The query');
-    response.json(await listPresets(db));
-  });
-  router.post('/imports/presets', runs, async (request, response) => {
-    const input = parseInput(importPresetInputSchema, request.body, 'The preset');
-    response.status(201).json(await savePreset(db, actorOf(request), input));
-  });
-  router.delete('/imports/presets/:id', runs, async (request, response) => {
-    await deletePreset(db, actorOf(request), parseId(request.params['id']));
-    response.status(204).end();
-  });
-
-  router.get('/imports/:id', runs, async (request, response) => {
-    response.json(await getImport(db, parseId(request.params['id'])));
-  });
+/**
+ * `/api/imports`: the coordinator previews a roster upload (kept 30 minutes under a token),
+ * commits it, reads the history and its error reports, and keeps named column mappings.
+ */
+export function importsRoutes({ config, db, database }: Services): Router {
+  const router = Router();
+  const uploads = new UploadStore(path.join(config.dataDir, 'imports'));
+  const runs = requires('imports:run');
+  router.post('/imports/preview', runs, rosterUpload(), answer(previewRoute(uploads, database)));
+  router.post('/imports/commit', runs, answer(commitRoute(uploads, database)));
+  router.get(
+    '/imports',
+    runs,
+    answer((request) => listImports(db, request.query)),
+  );
+  router.get(
+    '/imports/presets',
+    runs,
+    answer(async (request) => {
+      parseInput(nothing, request.query, 'The query');
+      return listPresets(db);
+    }),
+  );
+  router.post(
+    '/imports/presets',
+    runs,
+    created((request, actor) =>
+      savePreset(db, actor, parseInput(importPresetInputSchema, request.body, 'The preset')),
+    ),
+  );
+  router.delete(
+    '/imports/presets/:id',
+    runs,
+    noContent((request, actor) => deletePreset(db, actor, idOf(request))),
+  );
+  router.get(
+    '/imports/:id',
+    runs,
+    answer((request) => getImport(db, idOf(request))),
+  );
   // Undo: the preview (what it would do, what blocks it), then the undo itself, all or nothing.
-  router.get('/imports/:id/undo', runs, async (request, response) => {
-    parseInput(nothing, request.query, 'The query');
-    response.json(await previewImportUndo(database, parseId(request.params['id'])));
-  });
-  router.post('/imports/:id/undo', runs, async (request, response) => {
-    const id = parseId(request.params['id']);
-    parseInput(nothing, request.body ?? {}, 'The undo');
-    response.json(await undoImport(database, id, actorOf(request)));
-  });
+  router.get(
+    '/imports/:id/undo',
+    runs,
+    answer(async (request) => {
+      parseInput(nothing, request.query, 'The query');
+      return previewImportUndo(database, idOf(request));
+    }),
+  );
+  router.post(
+    '/imports/:id/undo',
+    runs,
+    answer(async (request, actor) => {
+      const id = idOf(request);
+      parseInput(nothing, request.body ?? {}, 'The undo');
+      return undoImport(database, id, actor);
+    }),
+  );
   router.get('/imports/:id/errors.csv', runs, async (request, response) => {
-    const { fileName, csv } = await importErrorsCsv(db, parseId(request.params['id']));
+    const { fileName, csv } = await importErrorsCsv(db, idOf(request));
     response.type('text/csv; charset=utf-8');
     response.attachment(fileName);
     response.send(`\uFEFF${csv}`);

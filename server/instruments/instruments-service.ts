@@ -11,7 +11,7 @@ import type {
 import { assertInScope, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, HttpError, notFound } from '../core/errors';
-import { insertAudited, updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateAudited } from '../core/versioned-update';
 import { findInstrument } from './instruments-queries';
 import { recordInstrumentEvents } from './instrument-events';
 
@@ -100,8 +100,8 @@ export async function updateInstrument(
     }
   }
   await db.transaction(async (tx) => {
-    const [before] = await tx.select().from(instruments).where(eq(instruments.id, id));
-    const after = await updateVersioned(tx, instruments, id, version, changes, 'That instrument');
+    const target = { table: instruments, id, entity: 'instrument', what: 'That instrument' };
+    const { before } = await updateAudited(tx, actor, target, version, changes);
     if (changes.condition && changes.condition !== before!.condition) {
       await recordInstrumentEvents(tx, {
         instrumentId: id,
@@ -118,13 +118,6 @@ export async function updateInstrument(
         userId: actor.userId,
       });
     }
-    await recordAudit(tx, actor, {
-      action: 'update',
-      entity: 'instrument',
-      entityId: id,
-      before,
-      after,
-    });
   });
   return findInstrument(db, actor, id);
 }

@@ -1,12 +1,11 @@
-import { Router, type NextFunction, type Request, type Response } from 'express';
-import multer from 'multer';
+import { Router } from 'express';
 import {
   passOffBatchSchema,
   passOffInputSchema,
   passOffPatchSchema,
   recordingSizeLimit,
 } from '@shared/api/pass-off';
-import { HttpError } from '../core/errors';
+import { recordingUpload } from '../core/upload';
 import { actorOf, requires, requiresAny } from '../core/policy';
 import { parseId, parseInput } from '../core/validate';
 import type { Services } from '../services';
@@ -15,36 +14,11 @@ import { recordPassOffs } from './record-pass-offs';
 import { attachRecording, openRecording } from './recordings-service';
 import { recordingExtensions } from './recording-type';
 
-const upload = multer({
-  storage: multer.memoryStorage(),
-  limits: { fileSize: recordingSizeLimit, files: 1, fields: 5 },
-});
-
-/** multer's own errors (too large, unexpected field) answer with our error shape. */
-function receiveRecording(request: Request, response: Response, next: NextFunction) {
-  upload.single('recording')(request, response, (error: unknown) => {
-    if (!error) return next();
-    if (error instanceof multer.MulterError) {
-      const tooLarge = error.code === 'LIMIT_FILE_SIZE';
-      return next(
-        new HttpError(
-          tooLarge ? 413 : 400,
-          tooLarge ? 'too_large' : 'bad_request',
-          tooLarge
-            ? 'A recording may be at most 10 MB.'
-            : `The upload was not understood: ${error.message}.`,
-          [
-            {
-              field: 'recording',
-              message: tooLarge ? 'The file is larger than 10 MB.' : error.message,
-            },
-          ],
-        ),
-      );
-    }
-    next(error);
-  });
-}
+/** The recording a pass-off keeps: one file of at most 10 MB. */
+const receiveRecording = recordingUpload(
+  { fileSize: recordingSizeLimit, files: 1, fields: 5 },
+  'A recording may be at most 10 MB.',
+);
 
 /** `/api/pass-offs`: directors record for their schools; viewers read; students read their own. */
 export function passOffsRoutes({ db, config }: Services): Router {

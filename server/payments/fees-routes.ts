@@ -1,4 +1,4 @@
-import express, { Router } from 'express';
+import express, { Router, type RequestHandler } from 'express';
 import { z } from 'zod';
 import {
   feeQuoteQuerySchema,
@@ -7,8 +7,10 @@ import {
   refundInputSchema,
   type FeeRow,
 } from '@shared/api/fee';
-import { actorOf, requires } from '../core/policy';
-import { nothing, parseId, parseInput } from '../core/validate';
+import { actorOf, requires, type Actor } from '../core/policy';
+import { answer, created, idOf, type RouteWork } from '../core/routes';
+import { nothing, parseInput } from '../core/validate';
+import type { Database } from '../db/client';
 import { recordAudit } from '../core/audit';
 import type { Services } from '../services';
 import { toCsv } from '../reports/report-csv';
@@ -65,101 +67,130 @@ function exportRows(rows: FeeRow[], withReasons: boolean): (string | number)[][]
   ];
 }
 
-/**
- * `/api/fees`: the usage-fee ledger. Staff who read loans see paid and owed for their schools
- * (waiver reasons only for coordinator and directors); the coordinator edits the schedule,
- * refunds and records payments taken by hand.
- */
-export function feesRoutes({ db, config }: Services): Router {
-  const router = Router();
-  const online = () => config.payments !== undefined;
-  router.get('/fees/schedule', requires('loans:read'), async (request, response) => {
-    parseInput(nothing, request.query, 'The query');
-    response.json(await readFeeSchedule(db, online()));
-  });
-  router.put('/fees/schedule', requires('fees:manage'), async (request, response) => {
-    const input = parseInput(feeScheduleSchema, request.body, 'The fee schedule');
-    response.json(await writeFeeSchedule(db, actorOf(request), input, online()));
-  });
-  router.get('/fees', requires('loans:read'), async (request, response) => {
-    response.json(await listFees(db, actorOf(request), request.query));
-  });
-  router.get('/fees/summary', requires('loans:read'), async (request, response) => {
-    const { by } = parseInput(summarySchema, { by: request.query['by'] }, 'The summary');
-    const { by: _by, ...rest } = request.query;
-    response.json(await summariseFees(db, actorOf(request), by, rest));
-  });
-  router.get('/fees/reconciliation', requires('fees:manage'), async (request, response) => {
-    parseInput(nothing, request.query, 'The query');
-    response.json(await reconcile(db, config));
-  });
-  router.get('/fees/export.csv', requires('loans:read'), async (request, response) => {
+/** Waiver reasons go into an export only for the coordinator and directors. */
+const seesReasons = (actor: Actor) => actor.role === 'coordinator' || actor.role === 'director';
+
+/** `GET /fees/export.csv` and `.xlsx`: every fee row the query selects, as a file. */
+function exportRoute(db: Database, format: 'csv' | 'xlsx'): RequestHandler {
+  return async (request, response) => {
     const actor = actorOf(request);
-    const rows = await allFeeRows(db, actor, request.query);
-    response
-      .type('text/csv; charset=utf-8')
-      .set('Content-Disposition', 'attachment; filename="usage-fees.csv"')
-      .send(toCsv(exportRows(rows, actor.role === 'coordinator' || actor.role === 'director')));
-  });
-  router.get('/fees/export.xlsx', requires('loans:read'), async (request, response) => {
-    const actor = actorOf(request);
-    const rows = await allFeeRows(db, actor, request.query);
-    const workbook = await reportWorkbook([
-      {
-        name: 'Usage fees',
-        rows: exportRows(rows, actor.role === 'coordinator' || actor.role === 'director'),
-      },
-    ]);
+    const rows = exportRows(await allFeeRows(db, actor, request.query), seesReasons(actor));
+    if (format === 'csv') {
+      response
+        .type('text/csv; charset=utf-8')
+        .set('Content-Disposition', 'attachment; filename="usage-fees.csv"')
+        .send(toCsv(rows));
+      return;
+    }
+    const workbook = await reportWorkbook([{ name: 'Usage fees', rows }]);
     response
       .type('application/vnd.openxmlformats-officedocument.spreadsheetml.sheet')
       .set('Content-Disposition', 'attachment; filename="usage-fees.xlsx"')
       .send(workbook);
-  });
-  router.get('/fees/quote', requires('loans:write'), async (request, response) => {
-    const query = parseInput(feeQuoteQuerySchema, request.query, 'The fee quote');
-    response.json(await quoteLoanFee(db, actorOf(request), query));
-  });
-  router.get('/fees/:loanId', requires('loans:see-waivers'), async (request, response) => {
-    parseInput(nothing, request.query, 'The query');
-    response.json(await feeDetail(db, actorOf(request), parseId(request.params['loanId'])));
-  });
-  router.post('/fees/:loanId/refunds', requires('fees:manage'), async (request, response) => {
-    const input = parseInput(refundInputSchema, request.body, 'The refund');
-    response.json(
-      await refundFee(db, config, actorOf(request), parseId(request.params['loanId']), input),
-    );
-  });
-  router.post('/fees/:loanId/payments', requires('fees:manage'), async (request, response) => {
-    const input = parseInput(manualPaymentInputSchema, request.body, 'The payment');
-    response
-      .status(201)
-      .json(
-        await recordManualPayment(db, actorOf(request), parseId(request.params['loanId']), input),
-      );
-  });
-  router.post('/fees/:loanId/reminder', requires('loans:write'), async (request, response) => {
-    const actor = actorOf(request);
-    const loanId = parseId(request.params['loanId']);
+  };
+}
+
+/** `POST /fees/:loanId/reminder`: e-mails the guardian what the loan owes (with the pay link when payments are on). */
+function reminderRoute({ db, config }: Services): RouteWork {
+  return async (request, actor) => {
+    const loanId = idOf(request, 'loanId');
     parseInput(nothing, request.body ?? {}, 'The request');
     const fee = await feeRowOf(db, loanId, actor);
     if (fee.owedCents <= 0)
       throw stateConflict(`This loan’s fee is ${fee.status}; there is nothing to remind about.`);
     const token = (await payTokens(db, config))(loanId);
+    const link = config.payments !== undefined ? payLinkOf(config.appUrl, token) : undefined;
     const queued = await db.transaction(async (tx) => {
       const row = await findLoanRow(tx, null, loanId);
-      const sent = await queueFeeReminder(
-        tx,
-        row,
-        fee.owedCents,
-        online() ? payLinkOf(config.appUrl, token) : undefined,
-        actor.userId,
-      );
+      const sent = await queueFeeReminder(tx, row, fee.owedCents, link, actor.userId);
       if (sent)
         await recordAudit(tx, actor, { action: 'fee-reminder', entity: 'loan', entityId: loanId });
       return sent;
     });
-    response.json({ queued: queued ? 1 : 0 });
+    return { queued: queued ? 1 : 0 };
+  };
+}
+
+/** A route that takes no query parameters and answers what `work` reads. */
+const withoutQuery = (work: RouteWork): RequestHandler =>
+  answer(async (request, actor) => {
+    parseInput(nothing, request.query, 'The query');
+    return work(request, actor);
   });
+
+/**
+ * `/api/fees`: the usage-fee ledger. Staff who read loans see paid and owed for their schools
+ * (waiver reasons only for coordinator and directors); the coordinator edits the schedule,
+ * refunds and records payments taken by hand.
+ */
+export function feesRoutes(services: Services): Router {
+  const { db, config } = services;
+  const router = Router();
+  const online = () => config.payments !== undefined;
+  const [reads, manages] = [requires('loans:read'), requires('fees:manage')];
+  router.get(
+    '/fees/schedule',
+    reads,
+    withoutQuery(() => readFeeSchedule(db, online())),
+  );
+  router.put(
+    '/fees/schedule',
+    manages,
+    answer((request, actor) => {
+      const input = parseInput(feeScheduleSchema, request.body, 'The fee schedule');
+      return writeFeeSchedule(db, actor, input, online());
+    }),
+  );
+  router.get(
+    '/fees',
+    reads,
+    answer((request, actor) => listFees(db, actor, request.query)),
+  );
+  router.get(
+    '/fees/summary',
+    reads,
+    answer((request, actor) => {
+      const { by } = parseInput(summarySchema, { by: request.query['by'] }, 'The summary');
+      const { by: _by, ...rest } = request.query;
+      return summariseFees(db, actor, by, rest);
+    }),
+  );
+  router.get(
+    '/fees/reconciliation',
+    manages,
+    withoutQuery(() => reconcile(db, config)),
+  );
+  router.get('/fees/export.csv', reads, exportRoute(db, 'csv'));
+  router.get('/fees/export.xlsx', reads, exportRoute(db, 'xlsx'));
+  router.get(
+    '/fees/quote',
+    requires('loans:write'),
+    answer((request, actor) =>
+      quoteLoanFee(db, actor, parseInput(feeQuoteQuerySchema, request.query, 'The fee quote')),
+    ),
+  );
+  router.get(
+    '/fees/:loanId',
+    requires('loans:see-waivers'),
+    withoutQuery((request, actor) => feeDetail(db, actor, idOf(request, 'loanId'))),
+  );
+  router.post(
+    '/fees/:loanId/refunds',
+    manages,
+    answer((request, actor) => {
+      const input = parseInput(refundInputSchema, request.body, 'The refund');
+      return refundFee(db, config, actor, idOf(request, 'loanId'), input);
+    }),
+  );
+  router.post(
+    '/fees/:loanId/payments',
+    manages,
+    created((request, actor) => {
+      const input = parseInput(manualPaymentInputSchema, request.body, 'The payment');
+      return recordManualPayment(db, actor, idOf(request, 'loanId'), input);
+    }),
+  );
+  router.post('/fees/:loanId/reminder', requires('loans:write'), answer(reminderRoute(services)));
   return router;
 }
 

@@ -1,6 +1,7 @@
-import { Router, type Request, type Response } from 'express';
+import { Router, type Request, type RequestHandler, type Response } from 'express';
 import type { Services } from '../services';
 import type { Config } from '../config';
+import type { Logger } from '../logger';
 import { escapeHtml } from '@shared/html/escape-html';
 import { HttpError } from '../core/errors';
 import { page } from '../loans/agreement-pages';
@@ -40,18 +41,23 @@ function feeSummary(fee: FeeRow): string {
   return `<p><strong>${escapeHtml(fee.studentName)}</strong> · ${escapeHtml(fee.instrumentName)} (asset tag ${escapeHtml(fee.assetTag)})${fee.schoolYear ? ` · school year ${escapeHtml(fee.schoolYear)}` : ''}</p>`;
 }
 
-/**
- * The guardian's fee pages, outside /api and without sign-in: the pay link shows what this one
- * loan owes and offers "Pay the usage fee"; the service's hosted page sends the guardian back to
- * the result page. A payment counts only when the service's signed event says so.
- */
-export function payPages({ db, config, logger }: Services): Router {
-  const router = Router();
-  const online = () => paymentsClient(config) !== undefined;
+/** What the guardian's pages share: the district's page frame and the loan a pay link names. */
+interface PayPageContext {
+  db: Services['db'];
+  config: Config;
+  online: () => boolean;
   /** One of the guardian's pages, under the district's own name. */
+  show: (response: Response, status: number, title: string, body: string) => Promise<void>;
+  /** The loan of the link's token and its fee, or undefined after answering 404. */
+  lookup: (
+    request: Request,
+    response: Response,
+  ) => Promise<{ token: string; loanId: number; fee: FeeRow } | undefined>;
+}
+
+function payPageContext({ db, config }: Services): PayPageContext {
   const show = async (response: Response, status: number, title: string, body: string) =>
     page(response, await districtIdentity(db), status, title, body);
-
   async function lookup(request: Request, response: Response) {
     const token = String(request.params['token'] ?? '');
     const loanId = await loanOfPayToken(db, config, token);
@@ -66,8 +72,12 @@ export function payPages({ db, config, logger }: Services): Router {
     }
     return { token, loanId, fee: await feeRowOf(db, loanId) };
   }
+  return { db, config, online: () => paymentsClient(config) !== undefined, show, lookup };
+}
 
-  router.get('/pay/:token', async (request, response) => {
+/** `GET /pay/:token`: what the loan owes, and the button to pay it when payments are on. */
+function feePage({ online, show, lookup }: PayPageContext): RequestHandler {
+  return async (request, response) => {
     const found = await lookup(request, response);
     if (!found) return;
     const { fee, token } = found;
@@ -95,9 +105,15 @@ export function payPages({ db, config, logger }: Services): Router {
       'Instrument usage fee',
       `${feeSummary(fee)}${cancelled}${payOffer(fee, `/pay/${token}`, true)}`,
     );
-  });
+  };
+}
 
-  router.post('/pay/:token', async (request, response) => {
+/** `POST /pay/:token`: opens a checkout session on the payment service and sends the guardian there. */
+function startPayment(
+  { db, config, show, lookup }: PayPageContext,
+  logger: Logger,
+): RequestHandler {
+  return async (request, response) => {
     const found = await lookup(request, response);
     if (!found) return;
     const { fee, token, loanId } = found;
@@ -134,9 +150,12 @@ export function payPages({ db, config, logger }: Services): Router {
       }
       throw error;
     }
-  });
+  };
+}
 
-  router.get('/pay/:token/done', async (request, response) => {
+/** `GET /pay/:token/done`: where the payment service sends the guardian back. */
+function paymentDone({ show, lookup }: PayPageContext): RequestHandler {
+  return async (request, response) => {
     const found = await lookup(request, response);
     if (!found) return;
     const { fee } = found;
@@ -153,6 +172,19 @@ export function payPages({ db, config, logger }: Services): Router {
       'Thank you: your payment is being confirmed',
       `${feeSummary(fee)}<p>The payment service is confirming your payment. A receipt will arrive by e-mail once it is confirmed; you do not need to pay again.</p><p class="small"><a href="">Check again</a></p>`,
     );
-  });
+  };
+}
+
+/**
+ * The guardian's fee pages, outside /api and without sign-in: the pay link shows what this one
+ * loan owes and offers "Pay the usage fee"; the service's hosted page sends the guardian back to
+ * the result page. A payment counts only when the service's signed event says so.
+ */
+export function payPages(services: Services): Router {
+  const router = Router();
+  const context = payPageContext(services);
+  router.get('/pay/:token', feePage(context));
+  router.post('/pay/:token', startPayment(context, services.logger));
+  router.get('/pay/:token/done', paymentDone(context));
   return router;
 }

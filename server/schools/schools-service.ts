@@ -10,7 +10,7 @@ import { assertInScope, schoolScope, type Actor } from '../core/policy';
 import { likePattern, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
-import { insertAudited, updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateAudited } from '../core/versioned-update';
 
 const schoolFilters = z.object({
   level: z.enum(schoolLevels).optional(),
@@ -163,8 +163,8 @@ export async function updateSchool(
   if (changes.code) await assertCodeFree(db, changes.code, id);
   await assertSendsTo(db, changes.sendsToSchoolId, id);
   await db.transaction(async (tx) => {
-    const [before] = await tx.select().from(schools).where(eq(schools.id, id));
-    const after = await updateVersioned(tx, schools, id, version, changes, 'That school');
+    const target = { table: schools, id, entity: 'school', what: 'That school' };
+    const { after } = await updateAudited(tx, actor, target, version, changes);
     if (
       after.lowestGrade !== null &&
       after.highestGrade !== null &&
@@ -174,13 +174,6 @@ export async function updateSchool(
         { field: 'highestGrade', message: 'The lowest grade served is above the highest.' },
       ]);
     }
-    await recordAudit(tx, actor, {
-      action: 'update',
-      entity: 'school',
-      entityId: id,
-      before,
-      after,
-    });
   });
   return getSchool(db, actor, id);
 }

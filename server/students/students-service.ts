@@ -19,7 +19,7 @@ import {
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
-import { insertAudited, updateVersioned } from '../core/versioned-update';
+import { insertAudited, updateAudited } from '../core/versioned-update';
 import { instrumentName } from '../enrollments/instrument-order';
 import { findCurrentSchoolYear } from '../enrollments/school-year';
 import { seatSummaries } from './student-seats';
@@ -213,15 +213,8 @@ export async function updateStudent(
       ]);
     }
     if (changes.studentNumber) await assertStudentNumberFree(tx, changes.studentNumber, id);
-    const [before] = await tx.select().from(students).where(eq(students.id, id));
-    const after = await updateVersioned(tx, students, id, version, changes, what);
-    await recordAudit(tx, actor, {
-      action: 'update',
-      entity: 'student',
-      entityId: id,
-      before,
-      after,
-    });
+    const target = { table: students, id, entity: 'student', what };
+    const { before } = await updateAudited(tx, actor, target, version, changes);
     // A student who drops leaves their seats, as a roster import's withdrawal does; the
     // enrollment rows stay, inactive, for the history.
     if (before?.status === 'active' && changes.status === 'withdrawn') {

@@ -1,5 +1,4 @@
-import { Router, type NextFunction, type Request, type Response } from 'express';
-import multer from 'multer';
+import { Router } from 'express';
 import { z } from 'zod';
 import {
   heardTakeInputSchema,
@@ -7,7 +6,7 @@ import {
   takeRetentionSchema,
   takeSizeLimit,
 } from '@shared/api/take';
-import { HttpError } from '../core/errors';
+import { recordingUpload } from '../core/upload';
 import { actorOf, requires, requiresAny } from '../core/policy';
 import { nothing, parseId, parseInput } from '../core/validate';
 import { recordingExtensions } from '../pass-offs/recording-type';
@@ -22,36 +21,11 @@ import {
   takeRetention,
 } from './takes-service';
 
-const upload = multer({
-  storage: multer.memoryStorage(),
-  limits: { fileSize: takeSizeLimit, files: 1, fields: 5, fieldSize: 256 * 1024 },
-});
-
-/** multer's own errors (too large, unexpected field) answer with our error shape. */
-function receiveTake(request: Request, response: Response, next: NextFunction) {
-  upload.single('recording')(request, response, (error: unknown) => {
-    if (!error) return next();
-    if (error instanceof multer.MulterError) {
-      const tooLarge = error.code === 'LIMIT_FILE_SIZE';
-      return next(
-        new HttpError(
-          tooLarge ? 413 : 400,
-          tooLarge ? 'too_large' : 'bad_request',
-          tooLarge
-            ? 'A take may be at most 10 MB.'
-            : `The upload was not understood: ${error.message}.`,
-          [
-            {
-              field: 'recording',
-              message: tooLarge ? 'The file is larger than 10 MB.' : error.message,
-            },
-          ],
-        ),
-      );
-    }
-    next(error);
-  });
-}
+/** A take: one file of at most 10 MB, with its fields. */
+const receiveTake = recordingUpload(
+  { fileSize: takeSizeLimit, files: 1, fields: 5, fieldSize: 256 * 1024 },
+  'A take may be at most 10 MB.',
+);
 
 const listQuerySchema = z.object({ studentId: z.coerce.number().int().positive().optional() });
 

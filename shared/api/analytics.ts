@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { schoolRefFields, studentLinkFields, studentNameFields } from './fields';
 import { calendarDate, idParameter, plainText } from './input-rules';
 import { requirementSchema } from './ladder';
 import { passOffSchema, recordingSchema } from './pass-off';
@@ -27,8 +28,7 @@ export type LadderChangeNote = z.infer<typeof ladderChangeNoteSchema>;
 
 /** `GET /api/analytics/students/:id/progress`: where a student stands on the active ladder. */
 export const studentProgressSchema = z.object({
-  studentId: z.number().int(),
-  studentName: z.string(),
+  ...studentLinkFields,
   grade: z.number().int(),
   schoolId: z.number().int(),
   /** The instrument the ladder is read for (the student's current seat), and its family. */
@@ -205,12 +205,9 @@ export type AttainmentFilters = z.infer<typeof attainmentFiltersSchema>;
 export const attainmentRowSchema = z.object({
   /** The student's id. */
   id: z.number().int(),
-  studentNumber: z.string(),
-  firstName: z.string(),
-  lastName: z.string(),
+  ...studentNameFields,
   grade: z.number().int(),
-  schoolId: z.number().int(),
-  schoolCode: z.string(),
+  ...schoolRefFields,
   rung: z.number().int(),
   metCount: z.number().int(),
   /** ISO dates, or null when never. */

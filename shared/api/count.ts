@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { homeSchoolFields, schoolRefFields } from './fields';
 import { idParameter, plainText, recordId } from './input-rules';
 
 /** An inventory count is open while scanning and closed when reconciled. */
@@ -14,8 +15,7 @@ export type ScanOutcome = (typeof scanOutcomes)[number];
 /** One annual (or spot) count at a school. */
 export const countSchema = z.object({
   id: z.number().int(),
-  schoolId: z.number().int(),
-  schoolCode: z.string(),
+  ...schoolRefFields,
   startedBy: z.number().int().nullable(),
   startedByName: z.string().nullable(),
   startedAt: z.string(),
@@ -41,8 +41,7 @@ export const countedInstrumentSchema = z.object({
   assetTag: z.string(),
   instrumentName: z.string(),
   status: z.string(),
-  homeSchoolId: z.number().int(),
-  homeSchoolCode: z.string(),
+  ...homeSchoolFields,
 });
 
 /** A count with its scans and how they reconcile with the fleet's records. */

@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { versionedFields } from './fields';
 
 /** Whether the runtime knows this IANA time zone name (Intl throws a RangeError otherwise). */
 export function isKnownTimeZone(timeZone: string): boolean {
@@ -45,8 +46,7 @@ export const districtSchema = z.object({
   logoUrl: z.string().nullable(),
   contact: districtContactSchema,
   mailSenderName: z.string(),
-  version: z.number().int(),
-  updatedAt: z.string(),
+  ...versionedFields,
 });
 export type District = z.infer<typeof districtSchema>;
 

@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { schoolRefFields, seatFields, studentFullNameFields, versionedFields } from './fields';
 import { idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { instruments } from '../music/index';
 
@@ -31,24 +32,14 @@ export const enrollmentSortFields = [
 export const enrollmentSchema = z.object({
   id: z.number().int(),
   studentId: z.number().int(),
-  studentNumber: z.string(),
-  firstName: z.string(),
-  lastName: z.string(),
-  preferredName: z.string().nullable(),
+  ...studentFullNameFields,
   ensembleId: z.number().int(),
   ensembleName: z.string(),
-  schoolId: z.number().int(),
-  schoolCode: z.string(),
+  ...schoolRefFields,
   schoolYearId: z.number().int(),
   schoolYearName: z.string(),
-  instrumentId: z.string().nullable(),
-  instrumentName: z.string().nullable(),
-  part: z.string(),
-  chair: z.number().int().nullable(),
-  active: z.boolean(),
-  version: z.number().int(),
-  /** ISO 8601 time of the last change. */
-  updatedAt: z.string(),
+  ...seatFields,
+  ...versionedFields,
 });
 export type Enrollment = z.infer<typeof enrollmentSchema>;
 

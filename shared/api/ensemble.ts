@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { schoolFields, seatFields, studentFullNameFields, versionedFields } from './fields';
 import { idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { schoolSummarySchema } from './me';
 
@@ -35,9 +36,7 @@ export const ensembleSortFields = ['name', 'school', 'kind', 'memberCount'] as c
 /** One ensemble as the list and the detail answer it. */
 export const ensembleSchema = z.object({
   id: z.number().int(),
-  schoolId: z.number().int(),
-  schoolCode: z.string(),
-  schoolName: z.string(),
+  ...schoolFields,
   name: z.string(),
   kind: z.enum(ensembleKinds),
   kindLabel: z.string(),
@@ -48,9 +47,7 @@ export const ensembleSchema = z.object({
   directorName: z.string().nullable(),
   /** Active seats in the current school year. */
   memberCount: z.number().int(),
-  version: z.number().int(),
-  /** ISO 8601 time of the last change. */
-  updatedAt: z.string(),
+  ...versionedFields,
 });
 export type Ensemble = z.infer<typeof ensembleSchema>;
 
@@ -60,17 +57,10 @@ export const ensembleMemberSchema = z.object({
   /** The enrollment's version, for `PATCH /api/enrollments/:enrollmentId`. */
   enrollmentVersion: z.number().int(),
   studentId: z.number().int(),
-  studentNumber: z.string(),
-  firstName: z.string(),
-  lastName: z.string(),
-  preferredName: z.string().nullable(),
+  ...studentFullNameFields,
   grade: z.number().int(),
   gradeLabel: z.string(),
-  instrumentId: z.string().nullable(),
-  instrumentName: z.string().nullable(),
-  part: z.string(),
-  chair: z.number().int().nullable(),
-  active: z.boolean(),
+  ...seatFields,
 });
 export type EnsembleMember = z.infer<typeof ensembleMemberSchema>;
 

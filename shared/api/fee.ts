@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { schoolRefFields, studentLinkFields } from './fields';
 import { idParameter, plainText } from './input-rules';
 
 /** What a fee-schedule entry prices: a whole instrument family, or one instrument. */
@@ -62,10 +63,8 @@ export type FeeSchedule = z.infer<typeof feeScheduleSchema>;
 /** One loan's fee, as the Fees screen lists it. `waiverReason` only for coordinator and directors. */
 export const feeRowSchema = z.object({
   loanId: z.number().int(),
-  studentId: z.number().int(),
-  studentName: z.string(),
-  schoolId: z.number().int(),
-  schoolCode: z.string(),
+  ...studentLinkFields,
+  ...schoolRefFields,
   schoolYear: z.string().nullable(),
   assetTag: z.string(),
   instrumentName: z.string(),

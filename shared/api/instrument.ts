@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { homeSchoolFields, studentLinkFields, versionedFields } from './fields';
 import { calendarDate, idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { instruments } from '../music/index';
 
@@ -58,12 +59,10 @@ export const instrumentSchema = z.object({
   fundingSource: z.string(),
   condition: z.enum(instrumentConditions),
   status: z.enum(instrumentStatuses),
-  homeSchoolId: z.number().int(),
-  homeSchoolCode: z.string(),
+  ...homeSchoolFields,
   location: z.string(),
   notes: z.string(),
-  version: z.number().int(),
-  updatedAt: z.string(),
+  ...versionedFields,
   /** How to move it safely, for heavy instruments; null otherwise. */
   handlingNote: z.string().nullable(),
   /** The cleaning caution for a shared wind instrument; null otherwise. */
@@ -100,8 +99,7 @@ export type InstrumentPhoto = z.infer<typeof instrumentPhotoSchema>;
 /** The loan an instrument is out on, as its detail page shows it. */
 export const instrumentActiveLoanSchema = z.object({
   id: z.number().int(),
-  studentId: z.number().int(),
-  studentName: z.string(),
+  ...studentLinkFields,
   schoolId: z.number().int(),
   checkedOutOn: z.string(),
   dueOn: z.string(),

@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { schoolRefFields, studentLinkFields } from './fields';
 import { calendarDate, idParameter, plainText, recordId } from './input-rules';
 import { instrumentConditions } from './instrument';
 
@@ -19,10 +20,8 @@ export const loanSchema = z.object({
   assetTag: z.string(),
   instrumentType: z.string(),
   instrumentName: z.string(),
-  studentId: z.number().int(),
-  studentName: z.string(),
-  schoolId: z.number().int(),
-  schoolCode: z.string(),
+  ...studentLinkFields,
+  ...schoolRefFields,
   checkedOutOn: z.string(),
   dueOn: z.string(),
   accessories: z.array(z.string()),

@@ -1,13 +1,12 @@
 import * as z from 'zod';
+import { schoolFields } from './fields';
 import { plainText, recordId, versionNumber } from './input-rules';
 
 /** A OneRoster org mapped to one of the district's schools, remembered for later imports. */
 export const orgMappingSchema = z.object({
   sourcedId: z.string(),
   orgName: z.string(),
-  schoolId: z.number().int(),
-  schoolCode: z.string(),
-  schoolName: z.string(),
+  ...schoolFields,
   /** Whether a coordinator chose it, rather than an import matching it by identifier or name. */
   chosen: z.boolean(),
   updatedAt: z.string(),

@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { studentLinkFields } from './fields';
 import { calendarDate, idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { requirementCodePattern } from './ladder';
 
@@ -55,8 +56,7 @@ export type Recording = z.infer<typeof recordingSchema>;
 /** One pass-off as the list and the detail answer it. */
 export const passOffSchema = z.object({
   id: z.number().int(),
-  studentId: z.number().int(),
-  studentName: z.string(),
+  ...studentLinkFields,
   schoolId: z.number().int(),
   requirementCode: z.string(),
   /** The ladder version the pass-off was heard under. */

@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { homeSchoolFields } from './fields';
 import { idParameter } from './input-rules';
 
 /** One instrument in the replacement plan, valued by straight-line depreciation. */
@@ -8,8 +9,7 @@ export const replacementLineSchema = z.object({
   instrumentId: z.string(),
   instrumentName: z.string(),
   family: z.string(),
-  homeSchoolId: z.number().int(),
-  homeSchoolCode: z.string(),
+  ...homeSchoolFields,
   condition: z.string(),
   purchasedOn: z.string(),
   purchaseCostCents: z.number().int(),

@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { homeSchoolFields } from './fields';
 import { calendarDate, idParameter, plainText, recordId, versionNumber } from './input-rules';
 
 /** A repair ticket's path: open, sent to a vendor, back, closed. */
@@ -13,8 +14,7 @@ export const repairSchema = z.object({
   instrumentId: z.number().int(),
   assetTag: z.string(),
   instrumentName: z.string(),
-  homeSchoolId: z.number().int(),
-  homeSchoolCode: z.string(),
+  ...homeSchoolFields,
   problem: z.string(),
   reportedBy: z.number().int().nullable(),
   reportedByName: z.string().nullable(),

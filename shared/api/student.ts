@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { schoolFields, seatFields, studentFullNameFields, versionedFields } from './fields';
 import { idParameter, plainText, recordId, versionNumber } from './input-rules';
 import { schoolSummarySchema } from './me';
 
@@ -43,18 +44,12 @@ const optionalText = (max: number) =>
 /** One student as the list and the detail answer it. */
 export const studentSchema = z.object({
   id: z.number().int(),
-  /** The district's student id from the student information system. */
-  studentNumber: z.string(),
-  firstName: z.string(),
-  lastName: z.string(),
-  preferredName: z.string().nullable(),
+  ...studentFullNameFields,
   /** 0 is kindergarten. */
   grade: z.number().int(),
   /** 'K', '1' … '12'. */
   gradeLabel: z.string(),
-  schoolId: z.number().int(),
-  schoolCode: z.string(),
-  schoolName: z.string(),
+  ...schoolFields,
   status: z.enum(studentStatuses),
   /** Only for the coordinator and directors; absent for everyone else. */
   guardianName: z.string().nullable().optional(),
@@ -66,9 +61,7 @@ export const studentSchema = z.object({
   /** The instruments of the current seats, names joined with ', '. */
   instruments: z.string(),
   instrumentIds: z.array(z.string()),
-  version: z.number().int(),
-  /** ISO 8601 time of the last change. */
-  updatedAt: z.string(),
+  ...versionedFields,
 });
 export type Student = z.infer<typeof studentSchema>;
 
@@ -79,11 +72,7 @@ export const studentEnrollmentSchema = z.object({
   ensembleName: z.string(),
   schoolYearId: z.number().int(),
   schoolYearName: z.string(),
-  instrumentId: z.string().nullable(),
-  instrumentName: z.string().nullable(),
-  part: z.string(),
-  chair: z.number().int().nullable(),
-  active: z.boolean(),
+  ...seatFields,
   version: z.number().int(),
 });
 export type StudentEnrollment = z.infer<typeof studentEnrollmentSchema>;

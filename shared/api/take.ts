@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { studentLinkFields } from './fields';
 import { requirementCodePattern } from './ladder';
 import { recordingContentTypes } from './pass-off';
 
@@ -51,8 +52,7 @@ export const takeInputSchema = z.object({
 /** A take as the API answers it. */
 export const takeSchema = z.object({
   id: z.number().int(),
-  studentId: z.number().int(),
-  studentName: z.string(),
+  ...studentLinkFields,
   requirementCode: z.string(),
   tempoAsked: z.number().int(),
   contentType: z.enum(recordingContentTypes),

@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { studentNameFields } from './fields';
 import { calendarDate, idParameter } from './input-rules';
 
 /** Filters of `GET /api/analytics/year-over-year`. */
@@ -106,9 +107,7 @@ export type RetentionStudentsQuery = z.infer<typeof retentionStudentsQuerySchema
 
 export const retentionStudentSchema = z.object({
   id: z.number().int(),
-  studentNumber: z.string(),
-  firstName: z.string(),
-  lastName: z.string(),
+  ...studentNameFields,
   /** Where and in which grade they played last year. */
   lastSchoolCode: z.string(),
   lastGrade: z.number().int(),
