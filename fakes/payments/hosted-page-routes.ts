@@ -19,6 +19,16 @@ export function passesLuhn(digits: string): boolean {
   return digits.length >= 12 && sum % 10 === 0;
 }
 
+/** What is wrong with the card the form sent (its number, expiry and security code), if anything. */
+function cardProblem(card: string, body: Record<string, string>): string | undefined {
+  if (!/^\d{12,19}$/.test(card) || !passesLuhn(card)) return 'Your card number is incorrect.';
+  if (!/^\s*(0[1-9]|1[0-2])\s*\/?\s*\d{2}\s*$/.test(String(body['expiry'] ?? '')))
+    return 'Your card’s expiry date is incomplete.';
+  if (!/^\d{3,4}$/.test(String(body['cvc'] ?? '').trim()))
+    return 'Your card’s security code is incomplete.';
+  return undefined;
+}
+
 /** The hosted payment page: the form for an open session, and its answer when sent. */
 export function hostedPageRoutes(app: Express, ledger: PaymentLedger): void {
   app.get('/pay/:id', (request, response): void => {
@@ -63,18 +73,8 @@ export function hostedPageRoutes(app: Express, ledger: PaymentLedger): void {
           .send(closedPage('Payment page not found', 'This payment link is not valid.'));
       const body = (request.body ?? {}) as Record<string, string>;
       const card = String(body['card'] ?? '').replace(/[\s-]/g, '');
-      if (!/^\d{12,19}$/.test(card) || !passesLuhn(card))
-        return void response
-          .status(400)
-          .send(paymentForm(session, 'Your card number is incorrect.'));
-      if (!/^\s*(0[1-9]|1[0-2])\s*\/?\s*\d{2}\s*$/.test(String(body['expiry'] ?? '')))
-        return void response
-          .status(400)
-          .send(paymentForm(session, 'Your card’s expiry date is incomplete.'));
-      if (!/^\d{3,4}$/.test(String(body['cvc'] ?? '').trim()))
-        return void response
-          .status(400)
-          .send(paymentForm(session, 'Your card’s security code is incomplete.'));
+      const problem = cardProblem(card, body);
+      if (problem) return void response.status(400).send(paymentForm(session, problem));
       const outcome = ledger.pay(session, card);
       if (outcome === 'closed')
         return void response
