@@ -72,6 +72,25 @@ async function grantRequestedAccess(provider: Provider, interaction: Interaction
   return grant.save();
 }
 
+/** A failed sign-in step: a page saying so, with the error's status (400 when it has none). */
+function showInteractionError(
+  error: Error & { statusCode?: number },
+  _request: Request,
+  response: Response,
+  _next: NextFunction,
+): void {
+  const status = error.statusCode && error.statusCode < 600 ? error.statusCode : 400;
+  sendPage(
+    response,
+    status,
+    renderPage(
+      'Sign-in error — local identity provider',
+      `<h2>This sign-in cannot go on</h2><p class="error" role="alert">${escapeHtml(error.message)}</p>
+<p>Go back to the application and start signing in again.</p>`,
+    ),
+  );
+}
+
 /**
  * The interaction routes of the fake (oidc-provider's `interactions.url`): our own sign-in page,
  * and consent granted without a page.
@@ -144,26 +163,7 @@ export function createInteractionRoutes(
     );
   });
 
-  router.use(
-    '/interaction',
-    (
-      error: Error & { statusCode?: number },
-      _request: Request,
-      response: Response,
-      _next: NextFunction,
-    ) => {
-      const status = error.statusCode && error.statusCode < 600 ? error.statusCode : 400;
-      sendPage(
-        response,
-        status,
-        renderPage(
-          'Sign-in error — local identity provider',
-          `<h2>This sign-in cannot go on</h2><p class="error" role="alert">${escapeHtml(error.message)}</p>
-<p>Go back to the application and start signing in again.</p>`,
-        ),
-      );
-    },
-  );
+  router.use('/interaction', showInteractionError);
 
   return router;
 }

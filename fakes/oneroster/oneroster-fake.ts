@@ -92,24 +92,12 @@ function failure(response: Response, status: number, description: string) {
   });
 }
 
-/** Starts a local OneRoster REST provider with OAuth 2 client-credentials tokens. */
-export async function startOneRosterFake(
-  options: OneRosterFakeOptions = {},
-): Promise<OneRosterFake> {
-  const clientId = options.clientId ?? 'tutti-sync';
-  const clientSecret = options.clientSecret ?? `or-secret-${randomBytes(12).toString('hex')}`;
-  const roster = options.roster ?? demoRoster();
-  const tokens = new Set<string>();
-  const served: string[] = [];
-  let pending: { kind: Trouble; times: number } | undefined;
-
-  const app = express();
-  app.disable('x-powered-by');
-  app.use(express.urlencoded({ extended: false }));
-
-  // RFC 6749 §4.4 (client credentials grant) and §2.3.1 (client password in HTTP Basic or the
-  // request body).
-  app.post('/oauth/token', (request: Request, response: Response) => {
+/**
+ * The token endpoint: RFC 6749 §4.4 (client credentials grant) and §2.3.1 (client password in
+ * HTTP Basic or the request body).
+ */
+function issueToken(clientId: string, clientSecret: string, tokens: Set<string>) {
+  return (request: Request, response: Response) => {
     let id = request.body?.client_id as string | undefined;
     let secret = request.body?.client_secret as string | undefined;
     const basic = /^Basic (.+)$/i.exec(request.headers.authorization ?? '');
@@ -134,7 +122,68 @@ export async function startOneRosterFake(
       expires_in: 3600,
       scope: 'https://purl.imsglobal.org/spec/or/v1p2/scope/roster-core.readonly',
     });
-  });
+  };
+}
+
+/** Answers with the trouble a test asked for; false for a kind that answers normally. */
+function answeredWithTrouble(kind: Trouble, collection: Collection, response: Response): boolean {
+  if (kind === 'unavailable') {
+    failure(response, 503, 'The provider is down for upkeep.');
+    return true;
+  }
+  if (kind === 'unauthorized') {
+    failure(response, 401, 'The token is not valid.');
+    return true;
+  }
+  if (kind === 'not-json') {
+    response.status(200).type('text/html').send('<html><body>Maintenance</body></html>');
+    return true;
+  }
+  if (kind === 'slow') {
+    setTimeout(() => response.headersSent || response.json({ [collection]: [] }), 30_000).unref();
+    return true;
+  }
+  return false;
+}
+
+/** Whether the request carries one of the tokens this provider issued. */
+function hasToken(request: Request, tokens: Set<string>): boolean {
+  const bearer = /^Bearer (.+)$/i.exec(request.headers.authorization ?? '');
+  return bearer !== null && tokens.has(bearer[1]!);
+}
+
+/** One user by sourcedId (`users/{sourcedId}`), in the version's shape. */
+function oneUser(
+  version: '1.1' | '1.2',
+  roster: RosterData,
+  tokens: Set<string>,
+  served: string[],
+) {
+  return (request: Request, response: Response) => {
+    served.push(request.originalUrl);
+    if (!hasToken(request, tokens)) return failure(response, 401, 'A bearer token is required.');
+    const user = roster.users.find((item) => item.sourcedId === request.params['sourcedId']);
+    if (!user) return failure(response, 404, 'No such user.');
+    response.json({ user: version === '1.1' ? asVersion11(user) : user });
+  };
+}
+
+/** Starts a local OneRoster REST provider with OAuth 2 client-credentials tokens. */
+export async function startOneRosterFake(
+  options: OneRosterFakeOptions = {},
+): Promise<OneRosterFake> {
+  const clientId = options.clientId ?? 'tutti-sync';
+  const clientSecret = options.clientSecret ?? `or-secret-${randomBytes(12).toString('hex')}`;
+  const roster = options.roster ?? demoRoster();
+  const tokens = new Set<string>();
+  const served: string[] = [];
+  let pending: { kind: Trouble; times: number } | undefined;
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.use(express.urlencoded({ extended: false }));
+
+  app.post('/oauth/token', issueToken(clientId, clientSecret, tokens));
 
   const serve = (version: '1.1' | '1.2') => (request: Request, response: Response) => {
     const collection = request.params['collection'] as Collection;
@@ -143,23 +192,9 @@ export async function startOneRosterFake(
     if (pending && pending.times > 0) {
       const { kind } = pending;
       pending.times -= 1;
-      if (kind === 'unavailable') return failure(response, 503, 'The provider is down for upkeep.');
-      if (kind === 'unauthorized') return failure(response, 401, 'The token is not valid.');
-      if (kind === 'not-json') {
-        response.status(200).type('text/html').send('<html><body>Maintenance</body></html>');
-        return;
-      }
-      if (kind === 'slow') {
-        setTimeout(
-          () => response.headersSent || response.json({ [collection]: [] }),
-          30_000,
-        ).unref();
-        return;
-      }
+      if (answeredWithTrouble(kind, collection, response)) return;
     }
-    const bearer = /^Bearer (.+)$/i.exec(request.headers.authorization ?? '');
-    if (!bearer || !tokens.has(bearer[1]!))
-      return failure(response, 401, 'A bearer token is required.');
+    if (!hasToken(request, tokens)) return failure(response, 401, 'A bearer token is required.');
     const limit = Number(request.query['limit'] ?? defaultLimit);
     const offset = Number(request.query['offset'] ?? 0);
     if (!Number.isInteger(limit) || limit < 1 || !Number.isInteger(offset) || offset < 0)
@@ -176,17 +211,8 @@ export async function startOneRosterFake(
       );
     response.set('X-Total-Count', String(kept.length)).json({ [collection]: page });
   };
-  const one = (version: '1.1' | '1.2') => (request: Request, response: Response) => {
-    served.push(request.originalUrl);
-    const bearer = /^Bearer (.+)$/i.exec(request.headers.authorization ?? '');
-    if (!bearer || !tokens.has(bearer[1]!))
-      return failure(response, 401, 'A bearer token is required.');
-    const user = roster.users.find((item) => item.sourcedId === request.params['sourcedId']);
-    if (!user) return failure(response, 404, 'No such user.');
-    response.json({ user: version === '1.1' ? asVersion11(user) : user });
-  };
-  app.get('/ims/oneroster/rostering/v1p2/users/:sourcedId', one('1.2'));
-  app.get('/ims/oneroster/v1p1/users/:sourcedId', one('1.1'));
+  app.get('/ims/oneroster/rostering/v1p2/users/:sourcedId', oneUser('1.2', roster, tokens, served));
+  app.get('/ims/oneroster/v1p1/users/:sourcedId', oneUser('1.1', roster, tokens, served));
   app.get('/ims/oneroster/rostering/v1p2/:collection', serve('1.2'));
   app.get('/ims/oneroster/v1p1/:collection', serve('1.1'));
 

@@ -138,19 +138,9 @@ function changesOf(row: FleetRow, existing: Existing): Partial<Existing> {
   return changes;
 }
 
-/**
- * Imports a fleet CSV all or nothing: every line is checked first, and only a file with no
- * errors is written, in one transaction. Instruments are matched by asset tag.
- */
-export async function importFleet(
-  db: Database,
-  actor: Actor,
-  bytes: Uint8Array,
-  dryRun: boolean,
-): Promise<FleetImportResult> {
-  const parsed = parseCsv(decodeText(bytes).text);
-  const errors: ImportError[] = [...parsed.problems];
-  const headers = parsed.headers.map((header) => header.trim().toLowerCase());
+/** The header's problems: a required column missing, a column we do not know. */
+function headerErrors(headers: string[]): ImportError[] {
+  const errors: ImportError[] = [];
   for (const column of requiredColumns) {
     if (!headers.includes(column))
       errors.push({ line: 1, column, message: `The file has no ${column} column.` });
@@ -164,6 +154,16 @@ export async function importFleet(
       column,
       message: `Unknown column; the columns are ${fleetCsvColumns.join(', ')}.`,
     });
+  return errors;
+}
+
+/** The file's lines checked, each asset tag once; the problems go into `errors`. */
+async function checkedRows(
+  db: Database,
+  actor: Actor,
+  records: ReturnType<typeof parseCsv>['records'],
+  errors: ImportError[],
+): Promise<FleetRow[]> {
   const schoolIds = new Map(
     (await db.select({ id: schools.id, code: schools.code }).from(schools)).map((school) => [
       school.code,
@@ -172,7 +172,7 @@ export async function importFleet(
   );
   const rows: FleetRow[] = [];
   const firstLineOf = new Map<string, number>();
-  for (const record of parsed.records) {
+  for (const record of records) {
     const cells = Object.fromEntries(
       Object.entries(record.cells).map(([header, value]) => [header.trim().toLowerCase(), value]),
     );
@@ -190,6 +190,11 @@ export async function importFleet(
     firstLineOf.set(row.assetTag, row.line);
     rows.push(row);
   }
+  return rows;
+}
+
+/** The instruments already in the fleet with the rows' asset tags, read 1,000 tags at a time. */
+async function existingByTag(db: Database, rows: FleetRow[]): Promise<Map<string, Existing>> {
   const existing = new Map<string, Existing>();
   for (let start = 0; start < rows.length; start += 1000) {
     const tags = rows.slice(start, start + 1000).map((row) => row.assetTag);
@@ -199,6 +204,24 @@ export async function importFleet(
       .where(inArray(instruments.assetTag, tags)))
       existing.set(found.assetTag, found);
   }
+  return existing;
+}
+
+/**
+ * Imports a fleet CSV all or nothing: every line is checked first, and only a file with no
+ * errors is written, in one transaction. Instruments are matched by asset tag.
+ */
+export async function importFleet(
+  db: Database,
+  actor: Actor,
+  bytes: Uint8Array,
+  dryRun: boolean,
+): Promise<FleetImportResult> {
+  const parsed = parseCsv(decodeText(bytes).text);
+  const headers = parsed.headers.map((header) => header.trim().toLowerCase());
+  const errors: ImportError[] = [...parsed.problems, ...headerErrors(headers)];
+  const rows = await checkedRows(db, actor, parsed.records, errors);
+  const existing = await existingByTag(db, rows);
   const toCreate = rows.filter((row) => !existing.has(row.assetTag));
   const toUpdate = rows
     .map((row) => ({ row, before: existing.get(row.assetTag) }))

@@ -1,6 +1,6 @@
 import { assertWaiverReason, computeLoanFee } from '../payments/fee-schedule';
 import { and, eq, sql } from 'drizzle-orm';
-import type { Database } from '../db/client';
+import type { Database, Transaction } from '../db/client';
 import { instruments, loans, repairTickets, students } from '../db/schema/index';
 import type { CheckoutInput, Loan, ReturnInput } from '@shared/api/loan';
 import { assertInScope, inScope, type Actor } from '../core/policy';
@@ -10,7 +10,7 @@ import { recordInstrumentEvents } from '../instruments/instrument-events';
 import { setInstrumentStatus, stateConflict } from '../instruments/instruments-service';
 import { isWindInstrument } from '../instruments/instrument-cautions';
 import { defaultDueDate, todayIso } from './school-calendar';
-import { findLoan, findLoanRow } from './loans-queries';
+import { findLoan, findLoanRow, type LoanRow } from './loans-queries';
 import { agreementLinkColumns } from './agreement-text';
 import { queueAgreementMail } from './loan-mail';
 
@@ -39,20 +39,15 @@ export function agreementLink(appUrl: string, token: string): string {
   return `${appUrl}/agreements/${token}`;
 }
 
-/**
- * Checks an instrument out to a student. Only an `available` instrument may go out: the status
- * flips in the same transaction as the loan is written, and the partial unique index on active
- * loans makes sure two checkouts racing for one instrument cannot both commit (the loser is 409).
- * A one-time agreement link is e-mailed to the guardian through the outbox.
- */
-export async function checkOut(
+type StudentRow = typeof students.$inferSelect;
+type InstrumentRow = typeof instruments.$inferSelect;
+
+/** The student and the instrument a checkout names, both in the caller's schools. */
+async function checkoutParties(
   db: Database,
-  appUrl: string,
   actor: Actor,
   input: CheckoutInput,
-  /** With online payments: each loan's pay-link token, for the agreement e-mail. */
-  payToken?: (loanId: number) => string,
-): Promise<Loan> {
+): Promise<{ student: StudentRow; instrument: InstrumentRow }> {
   const [student] = await db.select().from(students).where(eq(students.id, input.studentId));
   if (!student || !inScope(actor, student.schoolId)) throw notFound('That student');
   if (student.status !== 'active')
@@ -63,6 +58,16 @@ export async function checkOut(
     .where(eq(instruments.id, input.instrumentId));
   if (!instrument) throw notFound('That instrument');
   assertInScope(actor, instrument.homeSchoolId, 'That instrument');
+  return { student, instrument };
+}
+
+/** The loan's waiver, due date and fee, checked. */
+async function checkoutTerms(
+  db: Database,
+  input: CheckoutInput,
+  student: StudentRow,
+  instrument: InstrumentRow,
+): Promise<{ today: string; dueOn: string; feeCents: number }> {
   if (input.waiverReason && !input.waiver) {
     throw badRequest('A waiver reason needs the waiver itself.', [
       { field: 'waiverReason', message: 'Tick the waiver, or leave the reason empty.' },
@@ -77,25 +82,48 @@ export async function checkOut(
     ]);
   // The fee comes from the district's schedule; a hand-entered one only where it has no entry.
   const scheduled = await computeLoanFee(db, instrument.instrumentId, student, today);
-  const feeCents = scheduled.feeCents ?? input.usageFeeCents;
+  return { today, dueOn, feeCents: scheduled.feeCents ?? input.usageFeeCents };
+}
+
+/** Flips an available instrument to `on-loan`; any other status is a 409 naming it. */
+async function claimInstrument(tx: Transaction, instrument: InstrumentRow): Promise<void> {
+  const claimed = await tx
+    .update(instruments)
+    .set({ status: 'on-loan', version: sql`${instruments.version} + 1`, updatedAt: new Date() })
+    .where(and(eq(instruments.id, instrument.id), eq(instruments.status, 'available')))
+    .returning({ id: instruments.id });
+  if (claimed.length === 0) {
+    const [now] = await tx
+      .select({ status: instruments.status })
+      .from(instruments)
+      .where(eq(instruments.id, instrument.id));
+    throw stateConflict(
+      `${instrument.assetTag} cannot be lent: it is ${statusWords[now!.status] ?? now!.status}.`,
+    );
+  }
+}
+
+/**
+ * Checks an instrument out to a student. Only an `available` instrument may go out: the status
+ * flips in the same transaction as the loan is written, and the partial unique index on active
+ * loans makes sure two checkouts racing for one instrument cannot both commit (the loser is 409).
+ * A one-time agreement link is e-mailed to the guardian through the outbox.
+ */
+export async function checkOut(
+  db: Database,
+  appUrl: string,
+  actor: Actor,
+  input: CheckoutInput,
+  /** With online payments: each loan's pay-link token, for the agreement e-mail. */
+  payToken?: (loanId: number) => string,
+): Promise<Loan> {
+  const { student, instrument } = await checkoutParties(db, actor, input);
+  const { today, dueOn, feeCents } = await checkoutTerms(db, input, student, instrument);
   const { token, columns } = agreementLinkColumns();
   let loanId: number;
   try {
     loanId = await db.transaction(async (tx) => {
-      const claimed = await tx
-        .update(instruments)
-        .set({ status: 'on-loan', version: sql`${instruments.version} + 1`, updatedAt: new Date() })
-        .where(and(eq(instruments.id, instrument.id), eq(instruments.status, 'available')))
-        .returning({ id: instruments.id });
-      if (claimed.length === 0) {
-        const [now] = await tx
-          .select({ status: instruments.status })
-          .from(instruments)
-          .where(eq(instruments.id, instrument.id));
-        throw stateConflict(
-          `${instrument.assetTag} cannot be lent: it is ${statusWords[now!.status] ?? now!.status}.`,
-        );
-      }
+      await claimInstrument(tx, instrument);
       const [loan] = await tx
         .insert(loans)
         .values({
@@ -152,18 +180,8 @@ export async function checkOut(
   return findLoan(db, actor, loanId);
 }
 
-/**
- * Takes a loan back. Damage opens a repair ticket (instrument in repair); a loss keeps the loan as
- * `lost` and marks the instrument missing; a wind instrument otherwise waits to be cleaned and
- * sanitised (`to-clean`) before it can go out again.
- */
-export async function returnLoan(
-  db: Database,
-  actor: Actor,
-  id: number,
-  input: ReturnInput,
-): Promise<Loan> {
-  const row = await findLoanRow(db, actor, id);
+/** A return must be of an active loan, and say the condition unless the instrument is lost. */
+function assertReturnable(row: LoanRow, input: ReturnInput): void {
   if (row.loan.state !== 'active')
     throw stateConflict(
       `This loan is already ${row.loan.state}; only an instrument that is out can be returned.`,
@@ -177,6 +195,75 @@ export async function returnLoan(
     throw badRequest('A lost instrument cannot also come back damaged.', [
       { field: 'lost', message: 'Pick one.' },
     ]);
+}
+
+/**
+ * Where the instrument goes after a return that is not a loss, with its history: damage opens a
+ * repair ticket (in repair); a wind instrument waits to be cleaned; anything else is available.
+ */
+async function receiveInstrument(
+  tx: Transaction,
+  actor: Actor,
+  row: LoanRow,
+  input: ReturnInput,
+  notes: string,
+): Promise<void> {
+  const instrumentId = row.loan.instrumentId;
+  const base = { instrumentId, userId: actor.userId, loanId: row.loan.id };
+  const [instrument] = await tx.select().from(instruments).where(eq(instruments.id, instrumentId));
+  await recordInstrumentEvents(tx, {
+    ...base,
+    kind: 'return',
+    note: `Returned in ${input.conditionIn} condition${notes}`,
+  });
+  if (input.conditionIn !== instrument!.condition) {
+    await recordInstrumentEvents(tx, {
+      ...base,
+      kind: 'condition-change',
+      note: `Condition ${instrument!.condition} → ${input.conditionIn}`,
+    });
+  }
+  if (input.damaged) {
+    const [ticket] = await tx
+      .insert(repairTickets)
+      .values({
+        instrumentId,
+        problem: input.damaged.problem,
+        reportedBy: actor.userId,
+        inHouse: true,
+        loanId: row.loan.id,
+      })
+      .returning({ id: repairTickets.id });
+    await setInstrumentStatus(tx, instrumentId, 'in-repair', input.conditionIn);
+    await recordInstrumentEvents(tx, {
+      ...base,
+      kind: 'repair-open',
+      note: input.damaged.problem,
+      repairId: ticket!.id,
+    });
+  } else {
+    await setInstrumentStatus(
+      tx,
+      instrumentId,
+      isWindInstrument(row.instrumentType) ? 'to-clean' : 'available',
+      input.conditionIn,
+    );
+  }
+}
+
+/**
+ * Takes a loan back. Damage opens a repair ticket (instrument in repair); a loss keeps the loan as
+ * `lost` and marks the instrument missing; a wind instrument otherwise waits to be cleaned and
+ * sanitised (`to-clean`) before it can go out again.
+ */
+export async function returnLoan(
+  db: Database,
+  actor: Actor,
+  id: number,
+  input: ReturnInput,
+): Promise<Loan> {
+  const row = await findLoanRow(db, actor, id);
+  assertReturnable(row, input);
   const instrumentId = row.loan.instrumentId;
   await db.transaction(async (tx) => {
     const ended = await tx
@@ -192,58 +279,18 @@ export async function returnLoan(
       .returning({ id: loans.id });
     if (ended.length === 0)
       throw stateConflict('This loan was returned a moment ago by someone else.');
-    const [instrument] = await tx
-      .select()
-      .from(instruments)
-      .where(eq(instruments.id, instrumentId));
-    const base = { instrumentId, userId: actor.userId, loanId: id };
     const notes = input.notes ? ` — ${input.notes}` : '';
     if (input.lost) {
       await setInstrumentStatus(tx, instrumentId, 'missing');
       await recordInstrumentEvents(tx, {
-        ...base,
+        instrumentId,
+        userId: actor.userId,
+        loanId: id,
         kind: 'marked-missing',
         note: `Reported lost on loan${notes}`,
       });
     } else {
-      await recordInstrumentEvents(tx, {
-        ...base,
-        kind: 'return',
-        note: `Returned in ${input.conditionIn} condition${notes}`,
-      });
-      if (input.conditionIn !== instrument!.condition) {
-        await recordInstrumentEvents(tx, {
-          ...base,
-          kind: 'condition-change',
-          note: `Condition ${instrument!.condition} → ${input.conditionIn}`,
-        });
-      }
-      if (input.damaged) {
-        const [ticket] = await tx
-          .insert(repairTickets)
-          .values({
-            instrumentId,
-            problem: input.damaged.problem,
-            reportedBy: actor.userId,
-            inHouse: true,
-            loanId: id,
-          })
-          .returning({ id: repairTickets.id });
-        await setInstrumentStatus(tx, instrumentId, 'in-repair', input.conditionIn);
-        await recordInstrumentEvents(tx, {
-          ...base,
-          kind: 'repair-open',
-          note: input.damaged.problem,
-          repairId: ticket!.id,
-        });
-      } else {
-        await setInstrumentStatus(
-          tx,
-          instrumentId,
-          isWindInstrument(row.instrumentType) ? 'to-clean' : 'available',
-          input.conditionIn,
-        );
-      }
+      await receiveInstrument(tx, actor, row, input, notes);
     }
     await recordAudit(tx, actor, {
       action: input.lost ? 'lost' : 'return',

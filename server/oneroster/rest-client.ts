@@ -163,14 +163,22 @@ export async function fetchRoster(
   return asBundle({ orgs, users, classes, enrollments }, access.apiVersion, since !== undefined);
 }
 
-/** The roster's JSON records as the files of a OneRoster 1.2 CSV bundle. */
-export function asBundle(
-  roster: { orgs: Json[]; users: Json[]; classes: Json[]; enrollments: Json[] },
-  apiVersion: '1.1' | '1.2',
-  delta: boolean,
-): FetchedRoster {
+/** Rows as one CSV file of the bundle (RFC 4180 line ends). */
+function csv(rows: Record<string, string>[], fields: string[]): string {
+  return Papa.unparse(
+    { fields, data: rows.map((row) => fields.map((field) => row[field] ?? '')) },
+    {
+      newline: '\r\n',
+    },
+  );
+}
+
+type BaseColumns = { sourcedId: string; status: string; dateLastModified: string };
+
+/** The columns every record has; `newest()` is the latest `dateLastModified` read so far. */
+function baseColumns() {
   let newest: Date | null = null;
-  const base = (record: Json) => {
+  const base = (record: Json): BaseColumns => {
     const modified = text(record['dateLastModified']);
     const time = Date.parse(modified);
     if (!Number.isNaN(time) && (!newest || time > newest.getTime())) newest = new Date(time);
@@ -180,15 +188,13 @@ export function asBundle(
       dateLastModified: modified,
     };
   };
-  const csv = (rows: Record<string, string>[], fields: string[]) =>
-    Papa.unparse(
-      { fields, data: rows.map((row) => fields.map((field) => row[field] ?? '')) },
-      {
-        newline: '\r\n',
-      },
-    );
+  return { base, newest: () => newest };
+}
+
+/** The users as rows of users.csv, and their roles as rows of roles.csv. */
+function userAndRoleRows(users: Json[], base: (record: Json) => BaseColumns) {
   const roles: Record<string, string>[] = [];
-  const users = roster.users.map((user) => {
+  const rows = users.map((user) => {
     const row = base(user);
     // 1.2 users carry roles [{ roleType, role, org }] and primaryOrg; 1.1 users a role and orgs.
     const userRoles = Array.isArray(user['roles'])
@@ -230,24 +236,37 @@ export function asBundle(
       primaryOrgSourcedId: refId(user['primaryOrg']),
     };
   });
-  const files = new Map<string, string>();
+  return { users: rows, roles };
+}
+
+/** manifest.csv: orgs and classes whole, the people and their seats whole or as a delta. */
+function manifestCsv(apiVersion: '1.1' | '1.2', delta: boolean): string {
   const mode = delta ? 'delta' : 'bulk';
-  files.set(
-    'manifest.csv',
-    csv(
-      [
-        { propertyName: 'manifest.version', value: '1.0' },
-        { propertyName: 'oneroster.version', value: '1.2' },
-        { propertyName: 'file.orgs', value: 'bulk' },
-        { propertyName: 'file.classes', value: 'bulk' },
-        { propertyName: 'file.users', value: mode },
-        { propertyName: 'file.roles', value: mode },
-        { propertyName: 'file.enrollments', value: mode },
-        { propertyName: 'source.systemName', value: `OneRoster ${apiVersion} REST` },
-      ],
-      ['propertyName', 'value'],
-    ),
+  return csv(
+    [
+      { propertyName: 'manifest.version', value: '1.0' },
+      { propertyName: 'oneroster.version', value: '1.2' },
+      { propertyName: 'file.orgs', value: 'bulk' },
+      { propertyName: 'file.classes', value: 'bulk' },
+      { propertyName: 'file.users', value: mode },
+      { propertyName: 'file.roles', value: mode },
+      { propertyName: 'file.enrollments', value: mode },
+      { propertyName: 'source.systemName', value: `OneRoster ${apiVersion} REST` },
+    ],
+    ['propertyName', 'value'],
   );
+}
+
+/** The roster's JSON records as the files of a OneRoster 1.2 CSV bundle. */
+export function asBundle(
+  roster: { orgs: Json[]; users: Json[]; classes: Json[]; enrollments: Json[] },
+  apiVersion: '1.1' | '1.2',
+  delta: boolean,
+): FetchedRoster {
+  const { base, newest } = baseColumns();
+  const { users, roles } = userAndRoleRows(roster.users, base);
+  const files = new Map<string, string>();
+  files.set('manifest.csv', manifestCsv(apiVersion, delta));
   const common = ['sourcedId', 'status', 'dateLastModified'];
   files.set(
     'orgs.csv',
@@ -312,5 +331,5 @@ export function asBundle(
   );
   const records =
     roster.orgs.length + roster.users.length + roster.classes.length + roster.enrollments.length;
-  return { files, newest, records };
+  return { files, newest: newest(), records };
 }

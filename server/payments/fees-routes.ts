@@ -19,13 +19,9 @@ import { stateConflict } from '../instruments/instruments-service';
 import { findLoanRow } from '../loans/loans-queries';
 import { allFeeRows, feeDetail, feeRowOf, listFees, summariseFees } from './fees-queries';
 import { quoteLoanFee, readFeeSchedule, writeFeeSchedule } from './fee-schedule';
-import {
-  handleWebhook,
-  payTokens,
-  reconcile,
-  recordManualPayment,
-  refundFee,
-} from './payments-service';
+import { payTokens, reconcile, recordManualPayment } from './payments-service';
+import { handleWebhook } from './payments-webhook';
+import { refundFee } from './payments-refunds';
 import { queueFeeReminder } from './fee-mail';
 import { payLinkOf } from './pay-pages';
 

@@ -8,7 +8,8 @@ import { page } from '../loans/agreement-pages';
 import { districtIdentity } from '../district/district-queries';
 import { formatCents } from '../loans/money';
 import { feeRowOf } from './fees-queries';
-import { loanOfPayToken, startCheckout } from './payments-service';
+import { loanOfPayToken } from './payments-service';
+import { startCheckout } from './payments-checkout';
 import { paymentsClient } from './payments-client';
 import type { FeeRow } from '@shared/api/fee';
 

@@ -114,19 +114,8 @@ interface DemoStudent {
   code: string;
 }
 
-/**
- * Seeds the demo ladder (published and active) and a school year of pass-offs for every active
- * demo student, heard by their school's director on school days, then builds the attainment
- * summary. Each student's pass-offs are spread evenly from late August to their last one: within
- * the 24 days up to {@link lastDemoPassOffDay} for students who are moving, 38 to 66 days before
- * it for stalled ones (all of one school and about one in eight elsewhere).
- */
-export async function seedDemoLadder(
-  tx: Transaction,
-  context: { directorOf: Map<string, number>; schoolYearEndsOn: string; seededOn: Date },
-) {
-  // Its own sequence, so the roster and the other seeders come out the same with or without it.
-  const random = new SeededRandom(20260824);
+/** The demo ladder, published and active; answers its id and its requirements' ids by code. */
+async function seedLadderVersion(tx: Transaction) {
   const [accounts] = rowsOf<{ coordinator: number | null; student: number | null }>(
     await tx.execute(sql`select (select min(id) from users where role = 'coordinator') as coordinator,
       (select min(student_id) from users where role = 'student') as student`),
@@ -142,14 +131,79 @@ export async function seedDemoLadder(
       createdBy: accounts?.coordinator ?? null,
     })
     .returning({ id: ladderVersions.id });
-  await writeLadderContent(tx, version!.id, { rungs: demoLadderRungs, benchmarks: demoBenchmarks });
+  const versionId = version!.id;
+  await writeLadderContent(tx, versionId, { rungs: demoLadderRungs, benchmarks: demoBenchmarks });
   const requirementIds = new Map(
     rowsOf<{ id: number; code: string }>(
       await tx.execute(
-        sql`select id, code from ladder_requirements where ladder_version_id = ${version!.id}`,
+        sql`select id, code from ladder_requirements where ladder_version_id = ${versionId}`,
       ),
     ).map((row) => [row.code, row.id]),
   );
+  return { versionId, requirementIds, studentAccountStudentId };
+}
+
+type PassOffEvent = { code: string; tempo: number; passed: boolean };
+
+/**
+ * One student's pass-offs, in order: every requirement of the rungs up to `target` (optional ones
+ * about one in three), some first heard too slow, and part of the next rung.
+ */
+function pupilEvents(
+  random: SeededRandom,
+  ruleRungs: ReturnType<typeof toRuleRungs>,
+  family: ReturnType<typeof familyOf>,
+  target: number,
+  own: boolean,
+): PassOffEvent[] {
+  const events: PassOffEvent[] = [];
+  for (const rung of ruleRungs) {
+    if (rung.number > target + 1) break;
+    const partial = rung.number === target + 1;
+    for (const requirement of rung.requirements.filter((candidate) =>
+      appliesTo(candidate, family),
+    )) {
+      const attempt = partial
+        ? random.next()
+        : requirement.optional
+          ? random.chance(0.3)
+            ? 0.9
+            : 0
+          : 0.9;
+      if (partial && attempt > 0.7) continue;
+      if (random.chance(own ? 0.5 : 0.22) || (partial && attempt > 0.4)) {
+        events.push({
+          code: requirement.id,
+          tempo: requirement.tempo - random.pick([0, 0, 4, 8]),
+          passed: false,
+        });
+      }
+      if (partial ? attempt <= 0.4 : attempt > 0) {
+        events.push({
+          code: requirement.id,
+          tempo: requirement.tempo + random.pick([0, 0, 0, 4, 8]),
+          passed: true,
+        });
+      }
+    }
+  }
+  return events;
+}
+
+/**
+ * Seeds the demo ladder (published and active) and a school year of pass-offs for every active
+ * demo student, heard by their school's director on school days, then builds the attainment
+ * summary. Each student's pass-offs are spread evenly from late August to their last one: within
+ * the 24 days up to {@link lastDemoPassOffDay} for students who are moving, 38 to 66 days before
+ * it for stalled ones (all of one school and about one in eight elsewhere).
+ */
+export async function seedDemoLadder(
+  tx: Transaction,
+  context: { directorOf: Map<string, number>; schoolYearEndsOn: string; seededOn: Date },
+) {
+  // Its own sequence, so the roster and the other seeders come out the same with or without it.
+  const random = new SeededRandom(20260824);
+  const { versionId, requirementIds, studentAccountStudentId } = await seedLadderVersion(tx);
   const ruleRungs = toRuleRungs(demoLadderRungs);
   const pupils = rowsOf<DemoStudent>(
     await tx.execute(
@@ -164,37 +218,7 @@ export async function seedDemoLadder(
     const family = familyOf(instruments.get(pupil.id));
     const own = pupil.id === studentAccountStudentId;
     const target = own ? 2 : random.weighted(targetsByGrade[pupil.grade] ?? [[0, 1]]);
-    const events: { code: string; tempo: number; passed: boolean }[] = [];
-    for (const rung of ruleRungs) {
-      if (rung.number > target + 1) break;
-      const partial = rung.number === target + 1;
-      for (const requirement of rung.requirements.filter((candidate) =>
-        appliesTo(candidate, family),
-      )) {
-        const attempt = partial
-          ? random.next()
-          : requirement.optional
-            ? random.chance(0.3)
-              ? 0.9
-              : 0
-            : 0.9;
-        if (partial && attempt > 0.7) continue;
-        if (random.chance(own ? 0.5 : 0.22) || (partial && attempt > 0.4)) {
-          events.push({
-            code: requirement.id,
-            tempo: requirement.tempo - random.pick([0, 0, 4, 8]),
-            passed: false,
-          });
-        }
-        if (partial ? attempt <= 0.4 : attempt > 0) {
-          events.push({
-            code: requirement.id,
-            tempo: requirement.tempo + random.pick([0, 0, 0, 4, 8]),
-            passed: true,
-          });
-        }
-      }
-    }
+    const events = pupilEvents(random, ruleRungs, family, target, own);
     if (events.length === 0) continue;
     const stalled = pupil.code === 'OMMS' || random.chance(0.12);
     const start = yearStart + random.integer(0, 12) * dayMs;
@@ -212,7 +236,7 @@ export async function seedDemoLadder(
         studentId: pupil.id,
         schoolId: pupil.school_id,
         grade: pupil.grade,
-        ladderVersionId: version!.id,
+        ladderVersionId: versionId,
         requirementId: requirementIds.get(event.code)!,
         requirementCode: event.code,
         heardOn,

@@ -66,29 +66,13 @@ function lastYearSchool(random: SeededRandom, code: DemoSchoolCode, grade: numbe
   return random.weighted(feeders.map((feeder) => [feeder.code, feeder.students] as const));
 }
 
-/**
- * Seeds the demo's previous school year, 2025–26: the year itself (ended), where each continuing
- * student played and their seat, the students who stopped at the end of it (withdrawn since,
- * more of them where they changed schools) and the class that graduated, each with their
- * pass-offs heard that year and their rung at its end (`student_years`). It draws from its own
- * random sequence and only adds pass-offs this year's already pass again (at the slowest passing
- * tempo), so every figure of the current year reads as it did without it.
- */
-export async function seedDemoLastYear(
-  tx: Transaction,
-  context: { schoolIds: Map<string, number>; directorOf: Map<string, number> },
-) {
-  const random = new SeededRandom(20250818);
-  const [year] = await tx
-    .insert(schoolYears)
-    .values({ ...demoLastSchoolYear, current: false })
-    .returning({ id: schoolYears.id });
-  const ladder = (await activeRuleLadder(tx))!;
-  const codeOfSchool = new Map([...context.schoolIds].map(([code, id]) => [id, code]));
-  const ensembleRows = rowsOf<{ id: number; school_id: number; name: string }>(
-    await tx.execute(sql`select id, school_id, name from ensembles order by id`),
-  );
-  const pupils = rowsOf<{
+type SchoolIds = Map<string, number>;
+type SeatAt = (code: DemoSchoolCode, grade: number, instrument: string) => number;
+
+/** This year's active students with their school, rung and first seat. */
+async function readPupils(tx: Transaction, schoolIds: SchoolIds): Promise<Pupil[]> {
+  const codeOfSchool = new Map([...schoolIds].map(([code, id]) => [id, code]));
+  return rowsOf<{
     id: number;
     grade: number;
     school_id: number;
@@ -112,9 +96,18 @@ export async function seedDemoLastYear(
     instrument: row.instrument_id,
     ensembleId: row.ensemble_id,
   }));
+}
 
-  /** An ensemble of a school for a player of that grade and instrument. */
-  const seatAt = (code: DemoSchoolCode, grade: number, instrument: string) => {
+/** Picks an ensemble of a school for a player of that grade and instrument. */
+async function seatPicker(
+  tx: Transaction,
+  random: SeededRandom,
+  schoolIds: SchoolIds,
+): Promise<SeatAt> {
+  const ensembleRows = rowsOf<{ id: number; school_id: number; name: string }>(
+    await tx.execute(sql`select id, school_id, name from ensembles order by id`),
+  );
+  return (code, grade, instrument) => {
     const school = schoolOf.get(code)!;
     const strings = isStringInstrument(instrument);
     const fitting = ensemblesByLevel[school.level]!.filter(
@@ -124,11 +117,13 @@ export async function seedDemoLastYear(
         definition.kind !== 'marching-band',
     );
     const name = (fitting.length ? random.pick(fitting) : ensemblesByLevel[school.level]![0]!).name;
-    return ensembleRows.find(
-      (row) => row.school_id === context.schoolIds.get(code) && row.name === name,
-    )!.id;
+    return ensembleRows.find((row) => row.school_id === schoolIds.get(code) && row.name === name)!
+      .id;
   };
+}
 
+/** This year's players who played last year too, and how many continued from each school and grade. */
+function continuingPlayers(random: SeededRandom, pupils: Pupil[], seatAt: SeatAt) {
   const players: LastYearPlayer[] = [];
   const continuing = new Map<string, number>();
   for (const pupil of pupils) {
@@ -159,13 +154,27 @@ export async function seedDemoLastYear(
     continuing.set(key, (continuing.get(key) ?? 0) + 1);
   }
 
-  // Those who stopped, in proportion to those who continued from the same school and grade.
-  const pastOnly: (typeof students.$inferInsert & {
-    lastSchool: DemoSchoolCode;
-    lastGrade: number;
-    outcome: LastYearPlayer['outcome'];
-    instrument: string;
-  })[] = [];
+  return { players, continuing };
+}
+
+type PastOnlyStudent = typeof students.$inferInsert & {
+  lastSchool: DemoSchoolCode;
+  lastGrade: number;
+  outcome: LastYearPlayer['outcome'];
+  instrument: string;
+};
+
+/**
+ * Last year's players who are not here this year: those who stopped, in proportion to those who
+ * continued from the same school and grade, and last year's grade 12.
+ */
+function pastOnlyStudents(
+  random: SeededRandom,
+  pupils: Pupil[],
+  continuing: Map<string, number>,
+  schoolIds: SchoolIds,
+): PastOnlyStudent[] {
+  const pastOnly: PastOnlyStudent[] = [];
   for (const [key, count] of [...continuing].sort(([a], [b]) => a.localeCompare(b))) {
     const [code, gradeText] = key.split(':') as [DemoSchoolCode, string];
     const grade = Number(gradeText);
@@ -181,7 +190,7 @@ export async function seedDemoLastYear(
       pastOnly.push({
         ...inventedStudent(random),
         grade: grade + 1,
-        schoolId: context.schoolIds.get(last && school.sendsTo ? school.sendsTo : code)!,
+        schoolId: schoolIds.get(last && school.sendsTo ? school.sendsTo : code)!,
         status: 'withdrawn',
         lastSchool: code,
         lastGrade: grade,
@@ -196,7 +205,7 @@ export async function seedDemoLastYear(
     pastOnly.push({
       ...inventedStudent(random),
       grade: 12,
-      schoolId: context.schoolIds.get('TRHS')!,
+      schoolId: schoolIds.get('TRHS')!,
       status: 'graduated',
       lastSchool: 'TRHS',
       lastGrade: 12,
@@ -204,6 +213,11 @@ export async function seedDemoLastYear(
       instrument: pickInstrument(random),
     });
   }
+  return pastOnly;
+}
+
+/** Writes the past-only students (withdrawn or graduated); answers their ids in order. */
+async function insertPastStudents(tx: Transaction, pastOnly: PastOnlyStudent[]): Promise<number[]> {
   let studentNumber = 198_000;
   const pastIds: number[] = [];
   await insertInBatches(pastOnly, 500, async (batch) => {
@@ -224,6 +238,32 @@ export async function seedDemoLastYear(
       .returning({ id: students.id });
     pastIds.push(...rows.map((row) => row.id));
   });
+  return pastIds;
+}
+
+/**
+ * Seeds the demo's previous school year, 2025–26: the year itself (ended), where each continuing
+ * student played and their seat, the students who stopped at the end of it (withdrawn since,
+ * more of them where they changed schools) and the class that graduated, each with their
+ * pass-offs heard that year and their rung at its end (`student_years`). It draws from its own
+ * random sequence and only adds pass-offs this year's already pass again (at the slowest passing
+ * tempo), so every figure of the current year reads as it did without it.
+ */
+export async function seedDemoLastYear(
+  tx: Transaction,
+  context: { schoolIds: Map<string, number>; directorOf: Map<string, number> },
+) {
+  const random = new SeededRandom(20250818);
+  const [year] = await tx
+    .insert(schoolYears)
+    .values({ ...demoLastSchoolYear, current: false })
+    .returning({ id: schoolYears.id });
+  const ladder = (await activeRuleLadder(tx))!;
+  const seatAt = await seatPicker(tx, random, context.schoolIds);
+  const pupils = await readPupils(tx, context.schoolIds);
+  const { players, continuing } = continuingPlayers(random, pupils, seatAt);
+  const pastOnly = pastOnlyStudents(random, pupils, continuing, context.schoolIds);
+  const pastIds = await insertPastStudents(tx, pastOnly);
   pastOnly.forEach((student, index) => {
     const weights = targetsByGrade[student.lastGrade] ?? [[0, 1]];
     players.push({

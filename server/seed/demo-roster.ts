@@ -163,6 +163,93 @@ export async function insertInBatches<Row>(
     await insert(rows.slice(start, start + size));
 }
 
+type DemoSchool = (typeof demoSchools)[number];
+type DemoSeat = { index: number; ensemble: string; instrument: string; active: boolean };
+
+/** A school's ensembles for its level; answers their ids by name. */
+async function seedEnsembles(
+  tx: Transaction,
+  school: DemoSchool,
+  schoolId: number,
+  directorOf: Map<string, number>,
+): Promise<Map<string, number>> {
+  const definitions = ensemblesByLevel[school.level]!;
+  const inserted = await tx
+    .insert(ensembles)
+    .values(
+      definitions.map((definition) => ({
+        schoolId,
+        name: definition.name,
+        kind: definition.kind,
+        level: definition.level,
+        meetingPeriod: definition.period,
+        directorUserId: directorOf.get(school.code) ?? null,
+      })),
+    )
+    .returning({ id: ensembles.id, name: ensembles.name });
+  return new Map(inserted.map((row) => [row.name, row.id]));
+}
+
+/**
+ * A school's invented students, numbered from after `lastNumber`, and their seats (by index in
+ * the list): one in an ensemble that fits their grade and instrument, some in the marching band.
+ */
+function inventStudents(
+  random: SeededRandom,
+  school: DemoSchool,
+  schoolId: number,
+  lastNumber: number,
+): { studentRows: (typeof students.$inferInsert)[]; seats: DemoSeat[] } {
+  const definitions = ensemblesByLevel[school.level]!;
+  let studentNumber = lastNumber;
+  const studentRows: (typeof students.$inferInsert)[] = [];
+  const seats: DemoSeat[] = [];
+  for (let index = 0; index < school.students; index += 1) {
+    const grade = random.pick(gradesByLevel[school.level]!);
+    const lastName = random.pick(lastNames);
+    const firstName = school.code === 'HPMS' && index === 0 ? 'Toby' : random.pick(firstNames);
+    const strings = random.chance(0.32);
+    const instrument = strings
+      ? random.weighted(stringInstruments)
+      : random.weighted(bandInstruments);
+    const guardian = `${random.pick(guardianFirstNames)} ${lastName}`;
+    // Drawn in this order so the demo stays the same district it has always been.
+    const preferredName = random.chance(0.06) ? random.pick(firstNames) : null;
+    // A few students have dropped this year: they keep their old seats, inactive.
+    const status = random.chance(0.02) ? 'withdrawn' : 'active';
+    studentRows.push({
+      studentNumber: String((studentNumber += 1)),
+      firstName,
+      lastName: school.code === 'HPMS' && index === 0 ? 'Arkwright-Lund' : lastName,
+      preferredName,
+      grade,
+      schoolId,
+      status,
+      guardianName: guardian,
+      guardianEmail: `${guardian.toLowerCase().replace(/[^a-z]+/g, '.')}.${studentNumber}@families.merrowbasin.example`,
+    });
+    const eligible = definitions.filter(
+      (definition) =>
+        definition.strings === strings &&
+        (!definition.grades || definition.grades.includes(grade)) &&
+        definition.kind !== 'marching-band' &&
+        definition.kind !== 'percussion-ensemble',
+    );
+    const percussion = ['glockenspiel', 'xylophone', 'marimba'].includes(instrument);
+    const primary =
+      percussion && definitions.some((d) => d.kind === 'percussion-ensemble')
+        ? definitions.find((d) => d.kind === 'percussion-ensemble')!
+        : eligible.length
+          ? random.pick(eligible)
+          : definitions.find((d) => d.strings === strings)!;
+    seats.push({ index, ensemble: primary.name, instrument, active: status === 'active' });
+    const marching = definitions.find((d) => d.kind === 'marching-band');
+    if (marching && !strings && random.chance(0.4))
+      seats.push({ index, ensemble: marching.name, instrument, active: status === 'active' });
+  }
+  return { studentRows, seats };
+}
+
 /**
  * Seeds the demo roster: a few hundred students in every school with their ensembles and
  * enrollments for the current year. The student account is tied to one Heron Point student.
@@ -180,67 +267,9 @@ export async function seedDemoRoster(
   let studentNumber = 204_100;
   for (const school of demoSchools) {
     const schoolId = context.schoolIds.get(school.code)!;
-    const definitions = ensemblesByLevel[school.level]!;
-    const inserted = await tx
-      .insert(ensembles)
-      .values(
-        definitions.map((definition) => ({
-          schoolId,
-          name: definition.name,
-          kind: definition.kind,
-          level: definition.level,
-          meetingPeriod: definition.period,
-          directorUserId: context.directorOf.get(school.code) ?? null,
-        })),
-      )
-      .returning({ id: ensembles.id, name: ensembles.name });
-    const ensembleId = new Map(inserted.map((row) => [row.name, row.id]));
-
-    const studentRows: (typeof students.$inferInsert)[] = [];
-    const seats: { index: number; ensemble: string; instrument: string; active: boolean }[] = [];
-    for (let index = 0; index < school.students; index += 1) {
-      const grade = random.pick(gradesByLevel[school.level]!);
-      const lastName = random.pick(lastNames);
-      const firstName = school.code === 'HPMS' && index === 0 ? 'Toby' : random.pick(firstNames);
-      const strings = random.chance(0.32);
-      const instrument = strings
-        ? random.weighted(stringInstruments)
-        : random.weighted(bandInstruments);
-      const guardian = `${random.pick(guardianFirstNames)} ${lastName}`;
-      // Drawn in this order so the demo stays the same district it has always been.
-      const preferredName = random.chance(0.06) ? random.pick(firstNames) : null;
-      // A few students have dropped this year: they keep their old seats, inactive.
-      const status = random.chance(0.02) ? 'withdrawn' : 'active';
-      studentRows.push({
-        studentNumber: String((studentNumber += 1)),
-        firstName,
-        lastName: school.code === 'HPMS' && index === 0 ? 'Arkwright-Lund' : lastName,
-        preferredName,
-        grade,
-        schoolId,
-        status,
-        guardianName: guardian,
-        guardianEmail: `${guardian.toLowerCase().replace(/[^a-z]+/g, '.')}.${studentNumber}@families.merrowbasin.example`,
-      });
-      const eligible = definitions.filter(
-        (definition) =>
-          definition.strings === strings &&
-          (!definition.grades || definition.grades.includes(grade)) &&
-          definition.kind !== 'marching-band' &&
-          definition.kind !== 'percussion-ensemble',
-      );
-      const percussion = ['glockenspiel', 'xylophone', 'marimba'].includes(instrument);
-      const primary =
-        percussion && definitions.some((d) => d.kind === 'percussion-ensemble')
-          ? definitions.find((d) => d.kind === 'percussion-ensemble')!
-          : eligible.length
-            ? random.pick(eligible)
-            : definitions.find((d) => d.strings === strings)!;
-      seats.push({ index, ensemble: primary.name, instrument, active: status === 'active' });
-      const marching = definitions.find((d) => d.kind === 'marching-band');
-      if (marching && !strings && random.chance(0.4))
-        seats.push({ index, ensemble: marching.name, instrument, active: status === 'active' });
-    }
+    const ensembleId = await seedEnsembles(tx, school, schoolId, context.directorOf);
+    const { studentRows, seats } = inventStudents(random, school, schoolId, studentNumber);
+    studentNumber += school.students;
     const studentIds: number[] = [];
     await insertInBatches(studentRows, 500, async (batch) => {
       const rows = await tx.insert(students).values(batch).returning({ id: students.id });

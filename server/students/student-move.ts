@@ -1,12 +1,68 @@
 import { and, eq, inArray, sql } from 'drizzle-orm';
 import type { StudentDetail, StudentMove } from '@shared/api/student';
-import type { Database } from '../db/client';
+import type { Database, Transaction } from '../db/client';
 import { enrollments, ensembles, schoolMoves, schools, students } from '../db/schema/index';
 import { recordAudit } from '../core/audit';
 import { badRequest } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
 import { updateVersioned } from '../core/versioned-update';
 import { findVisibleStudent, getStudent } from './students-service';
+
+type VisibleStudent = Awaited<ReturnType<typeof findVisibleStudent>>;
+
+/** The school moved to must be another school of the district. */
+async function assertDestination(
+  tx: Transaction,
+  student: VisibleStudent,
+  move: StudentMove,
+): Promise<void> {
+  if (move.toSchoolId === student.schoolId) {
+    throw badRequest(
+      `${student.firstName} ${student.lastName} is already at ${student.schoolName}.`,
+      [{ field: 'toSchoolId', message: 'Choose a different school.' }],
+    );
+  }
+  const [destination] = await tx
+    .select({ id: schools.id })
+    .from(schools)
+    .where(eq(schools.id, move.toSchoolId));
+  if (!destination) {
+    throw badRequest('There is no such school.', [
+      { field: 'toSchoolId', message: 'Choose one of the district’s schools.' },
+    ]);
+  }
+}
+
+/** Ends (keeps, marks inactive) the student's active seats in a school's ensembles. */
+async function endSeatsAt(tx: Transaction, id: number, schoolId: number) {
+  const oldEnsembles = tx
+    .select({ id: ensembles.id })
+    .from(ensembles)
+    .where(eq(ensembles.schoolId, schoolId));
+  const endedBefore = await tx
+    .select()
+    .from(enrollments)
+    .where(
+      and(
+        eq(enrollments.studentId, id),
+        eq(enrollments.active, true),
+        inArray(enrollments.ensembleId, oldEnsembles),
+      ),
+    );
+  const ended = endedBefore.length
+    ? await tx
+        .update(enrollments)
+        .set({ active: false, version: sql`${enrollments.version} + 1`, updatedAt: new Date() })
+        .where(
+          inArray(
+            enrollments.id,
+            endedBefore.map((seat) => seat.id),
+          ),
+        )
+        .returning()
+    : [];
+  return { endedBefore, ended };
+}
 
 /**
  * Moves a student to another school. The student keeps their id, pass-offs and past seats:
@@ -22,21 +78,7 @@ export async function moveStudent(
   await db.transaction(async (tx) => {
     const student = await findVisibleStudent(tx, actor, id);
     assertInScope(actor, move.toSchoolId, 'That school');
-    if (move.toSchoolId === student.schoolId) {
-      throw badRequest(
-        `${student.firstName} ${student.lastName} is already at ${student.schoolName}.`,
-        [{ field: 'toSchoolId', message: 'Choose a different school.' }],
-      );
-    }
-    const [destination] = await tx
-      .select({ id: schools.id })
-      .from(schools)
-      .where(eq(schools.id, move.toSchoolId));
-    if (!destination) {
-      throw badRequest('There is no such school.', [
-        { field: 'toSchoolId', message: 'Choose one of the district’s schools.' },
-      ]);
-    }
+    await assertDestination(tx, student, move);
     const [before] = await tx.select().from(students).where(eq(students.id, id));
     const after = await updateVersioned(
       tx,
@@ -55,32 +97,7 @@ export async function moveStudent(
         movedBy: actor.userId,
       })
       .returning();
-    const oldEnsembles = tx
-      .select({ id: ensembles.id })
-      .from(ensembles)
-      .where(eq(ensembles.schoolId, student.schoolId));
-    const endedBefore = await tx
-      .select()
-      .from(enrollments)
-      .where(
-        and(
-          eq(enrollments.studentId, id),
-          eq(enrollments.active, true),
-          inArray(enrollments.ensembleId, oldEnsembles),
-        ),
-      );
-    const ended = endedBefore.length
-      ? await tx
-          .update(enrollments)
-          .set({ active: false, version: sql`${enrollments.version} + 1`, updatedAt: new Date() })
-          .where(
-            inArray(
-              enrollments.id,
-              endedBefore.map((seat) => seat.id),
-            ),
-          )
-          .returning()
-      : [];
+    const { endedBefore, ended } = await endSeatsAt(tx, id, student.schoolId);
     await recordAudit(
       tx,
       actor,

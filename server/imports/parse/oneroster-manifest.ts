@@ -75,6 +75,28 @@ export function versionOf(value: string): OneRosterVersion | undefined {
   return undefined;
 }
 
+/** The columns the version needs that a file of the bundle lacks. */
+function missingColumns(files: BundleFiles['files'], version: OneRosterVersion): RowError[] {
+  const problems: RowError[] = [];
+  for (const [name, columns] of Object.entries(neededColumns[version])) {
+    const csv = files.get(name as RosterBundleFile | 'manifest.csv');
+    if (!csv) continue;
+    const present = new Set(csv.headers);
+    for (const column of columns) {
+      if (present.has(column)) continue;
+      problems.push({
+        line: 1,
+        column: `${name}:${column}`,
+        message:
+          version === '1.2' && name === 'users.csv'
+            ? `users.csv has no '${column}' column (OneRoster 1.2).`
+            : `${name} has no '${column}' column.`,
+      });
+    }
+  }
+  return problems;
+}
+
 /**
  * Reads the manifest: which OneRoster version the bundle is (1.1 or 1.2) and how each file is
  * sent. A bundle without manifest.csv is read as 1.1 bulk when it holds 1.1's users.csv (with a
@@ -149,22 +171,7 @@ export function readBundleLayout(files: BundleFiles['files']): BundleLayout {
       });
     }
   }
-  for (const [name, columns] of Object.entries(neededColumns[version])) {
-    const csv = files.get(name as RosterBundleFile | 'manifest.csv');
-    if (!csv) continue;
-    const present = new Set(csv.headers);
-    for (const column of columns) {
-      if (present.has(column)) continue;
-      problems.push({
-        line: 1,
-        column: `${name}:${column}`,
-        message:
-          version === '1.2' && name === 'users.csv'
-            ? `users.csv has no '${column}' column (OneRoster 1.2).`
-            : `${name} has no '${column}' column.`,
-      });
-    }
-  }
+  problems.push(...missingColumns(files, version));
   return { version, modes, delta, problems };
 }
 
