@@ -1,11 +1,8 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
 import { importUndoPreviewSchema } from '@shared/api/import';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-
-let app: TestApp;
-let coordinator: SignedInClient;
+import { demoEmail, useTestApp } from '../support/test-app';
 
 const header =
   'student_id,first_name,last_name,grade,school_code,ensemble,instrument,guardian_name,guardian_email';
@@ -53,12 +50,8 @@ async function rosterState() {
   };
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator'] });
-  app = started;
-  ({ coordinator } = started.clients);
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator'] });
+const { coordinator } = app.clients;
 
 describe('Undoing a roster import', () => {
   it('should answer 403 to every role but the coordinator and 404 for an unknown import', async () => {

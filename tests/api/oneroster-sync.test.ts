@@ -1,12 +1,9 @@
 import request from 'supertest';
 import { sql } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
 import { runSync } from '../../server/oneroster/sync-service';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-
-let app: TestApp;
-let coordinator: SignedInClient;
+import { demoEmail, useTestApp, type SignedInClient } from '../support/test-app';
 
 function putSettings(client: SignedInClient, body: object) {
   return request(app.url)
@@ -45,12 +42,8 @@ async function studentTotal(): Promise<number> {
   return row!.total;
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator'] });
-  app = started;
-  ({ coordinator } = started.clients);
-}, 120_000);
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator'] }, 120_000);
+const { coordinator } = app.clients;
 
 describe('OneRoster REST sync', () => {
   it('should answer 403 to the sync routes when the role is not coordinator', async () => {

@@ -1,15 +1,11 @@
 import { createHmac } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import request from 'supertest';
 import Stripe from 'stripe';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { demoEmail, startTestApp, useTestApp, type SignedInClient } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let technician: SignedInClient;
 let hpmsId: number;
 let tagNumber = 0;
 
@@ -105,11 +101,10 @@ function put(client: SignedInClient, path: string) {
 
 const sessionIdOf = (hostedUrl: string) => new URL(hostedUrl).pathname.split('/').pop()!;
 
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
+const { coordinator, 'director.hpms': director, technician } = app.clients;
 beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director, technician } = started.clients);
-  hpmsId = started.schoolIds['HPMS']!;
+  hpmsId = app.schoolIds['HPMS']!;
   const schedule = await coordinator.get('/api/fees/schedule');
   const saved = await put(coordinator, '/api/fees/schedule').send({
     entries: [
@@ -123,7 +118,6 @@ beforeAll(async () => {
   });
   expect(saved.status).toBe(200);
 });
-afterAll(() => app?.close());
 
 describe('fee schedule', () => {
   it('should be edited by the coordinator only, and refuse unknown instruments with 400', async () => {

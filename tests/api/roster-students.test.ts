@@ -1,16 +1,9 @@
 import { sql } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
 import { keyFirstFrom } from '../../server/students/students-queries';
 import { studentCountDrift } from '../support/student-counts';
-import {
-  byRole,
-  demoEmail,
-  everyRole,
-  startTestApp,
-  type SignedInClient,
-  type TestApp,
-} from '../support/test-app';
+import { byRole, demoEmail, everyRole, useTestApp } from '../support/test-app';
 
 interface Row {
   id: number;
@@ -30,15 +23,6 @@ interface Row {
   guardianEmail?: string | null;
 }
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let otherDirector: SignedInClient;
-let viewer: SignedInClient;
-let technician: SignedInClient;
-let student: SignedInClient;
-let schoolIds: Record<string, number>;
-
 async function query<Result>(text: string): Promise<Result[]> {
   return rowsOf<Result>(await app.database.db.execute(sql.raw(text)));
 }
@@ -54,27 +38,22 @@ function newStudent(overrides: object = {}) {
     firstName: 'Wilhelmina',
     lastName: 'Quorndon',
     grade: 7,
-    schoolId: schoolIds['HPMS'],
+    schoolId: app.schoolIds['HPMS'],
     guardianName: 'Alex Quorndon',
     guardianEmail: 'alex.quorndon@families.merrowbasin.example',
     ...overrides,
   };
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: everyRole });
-  app = started;
-  ({ coordinator, director, otherDirector, viewer, technician, student } = byRole(started.clients));
-  schoolIds = started.schoolIds;
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, otherDirector, viewer, technician, student } = byRole(app.clients);
 
 describe('Students scoping', () => {
   it('should list only the director’s school when a director asks', async () => {
     const response = await director.get('/api/students?limit=1000');
     expect(response.status).toBe(200);
     const [{ total }] = await query<{ total: number }>(
-      `select count(*)::int as total from students where school_id = ${schoolIds['HPMS']}`,
+      `select count(*)::int as total from students where school_id = ${app.schoolIds['HPMS']}`,
     );
     expect(response.body.total).toBe(total);
     expect(new Set(response.body.rows.map((row: Row) => row.schoolCode))).toEqual(
@@ -92,7 +71,7 @@ describe('Students scoping', () => {
     });
     expect(patch.status).toBe(404);
     const move = await director.post(`/api/students/${quarryHill.id}/move`, {
-      toSchoolId: schoolIds['HPMS'],
+      toSchoolId: app.schoolIds['HPMS'],
       version: quarryHill.version,
     });
     expect(move.status).toBe(404);
@@ -104,7 +83,7 @@ describe('Students scoping', () => {
   it('should answer 404 when a director adds a student to another school', async () => {
     const response = await director.post(
       '/api/students',
-      newStudent({ schoolId: schoolIds['QHMS'] }),
+      newStudent({ schoolId: app.schoolIds['QHMS'] }),
     );
     expect(response.status).toBe(404);
   });
@@ -124,10 +103,10 @@ describe('Students scoping', () => {
     });
     expect(patch.status).toBe(403);
     expect(
-      (await viewer.post('/api/students', newStudent({ schoolId: schoolIds['TRHS'] }))).status,
+      (await viewer.post('/api/students', newStudent({ schoolId: app.schoolIds['TRHS'] }))).status,
     ).toBe(403);
     const move = await viewer.post(`/api/students/${list.body.rows[0].id}/move`, {
-      toSchoolId: schoolIds['HPMS'],
+      toSchoolId: app.schoolIds['HPMS'],
       version: list.body.rows[0].version,
     });
     expect(move.status).toBe(403);
@@ -149,7 +128,7 @@ describe('Students scoping', () => {
     expect(mine.body.lastName).toBe('Arkwright-Lund');
     expect(mine.body).not.toHaveProperty('guardianEmail');
     const classmate = await query<{ id: number }>(
-      `select id from students where school_id = ${schoolIds['HPMS']} and id <> ${own!.student_id} limit 1`,
+      `select id from students where school_id = ${app.schoolIds['HPMS']} and id <> ${own!.student_id} limit 1`,
     );
     expect((await student.get(`/api/students/${classmate[0]!.id}`)).status).toBe(404);
     const patch = await student.patch(`/api/students/${own!.student_id}`, {
@@ -236,7 +215,9 @@ describe('Students list', () => {
 
   it('should filter by school, grade, status, ensemble and instrument', async () => {
     const quarry = await coordinator.get(`/api/students?schoolCode=qhms&limit=1000`);
-    const bySchoolId = await coordinator.get(`/api/students?schoolId=${schoolIds['QHMS']}&limit=1`);
+    const bySchoolId = await coordinator.get(
+      `/api/students?schoolId=${app.schoolIds['QHMS']}&limit=1`,
+    );
     expect(quarry.body.total).toBe(bySchoolId.body.total);
     expect(quarry.body.rows.every((row: Row) => row.schoolCode === 'QHMS')).toBe(true);
 
@@ -253,7 +234,7 @@ describe('Students list', () => {
     expect(withdrawn.body.total).toBe(withdrawnTotal);
 
     const ensembles = await coordinator.get(
-      `/api/ensembles?schoolId=${schoolIds['HPMS']}&sort=memberCount:desc`,
+      `/api/ensembles?schoolId=${app.schoolIds['HPMS']}&sort=memberCount:desc`,
     );
     const biggest = ensembles.body.rows[0];
     const members = await coordinator.get(`/api/students?ensembleId=${biggest.id}&limit=1000`);
@@ -369,7 +350,7 @@ describe('Students list', () => {
     const second = await director.get(link);
     expect(second.body.rows.every((row: Row) => row.schoolCode === 'HPMS')).toBe(true);
     const expected = await query<{ id: number }>(
-      `select id from students where school_id = ${schoolIds['HPMS']} order by last_name, first_name, id limit 5 offset 5`,
+      `select id from students where school_id = ${app.schoolIds['HPMS']} order by last_name, first_name, id limit 5 offset 5`,
     );
     expect(second.body.rows.map((row: Row) => row.id)).toEqual(expected.map((row) => row.id));
     const otherSort = await director.get(`/api/students?sort=grade:asc&after=${after}`);
@@ -414,10 +395,10 @@ describe('Students list', () => {
     expect(changed.status).toBe(200);
     expect(await drift()).toEqual([]);
     const [{ total }] = await query<{ total: number }>(
-      `select count(*)::int as total from students where school_id = ${schoolIds['HPMS']} and grade = 9 and status = 'withdrawn'`,
+      `select count(*)::int as total from students where school_id = ${app.schoolIds['HPMS']} and grade = 9 and status = 'withdrawn'`,
     );
     const listed = await coordinator.get(
-      `/api/students?schoolId=${schoolIds['HPMS']}&grade=9&status=withdrawn&limit=1`,
+      `/api/students?schoolId=${app.schoolIds['HPMS']}&grade=9&status=withdrawn&limit=1`,
     );
     expect(listed.body.total).toBe(total);
   });
@@ -452,7 +433,7 @@ describe('Students changes', () => {
       studentNumber: 'has spaces!',
       firstName: '',
       grade: 14,
-      schoolId: schoolIds['HPMS'],
+      schoolId: app.schoolIds['HPMS'],
       guardianEmail: 'not-an-address',
     });
     expect(response.status).toBe(400);
@@ -539,7 +520,7 @@ describe('Students changes', () => {
   it('should refuse a change of school through PATCH', async () => {
     const created = await coordinator.post('/api/students', newStudent());
     const response = await coordinator.patch(`/api/students/${created.body.id}`, {
-      schoolId: schoolIds['QHMS'],
+      schoolId: app.schoolIds['QHMS'],
       version: created.body.version,
     });
     expect(response.status).toBe(400);
@@ -560,19 +541,19 @@ describe('Students move', () => {
       .sort((a: number, b: number) => a - b);
 
     const refused = await director.post(`/api/students/${mover.id}/move`, {
-      toSchoolId: schoolIds['QHMS'],
+      toSchoolId: app.schoolIds['QHMS'],
       version: mover.version,
     });
     expect(refused.status).toBe(404);
 
     const stale = await coordinator.post(`/api/students/${mover.id}/move`, {
-      toSchoolId: schoolIds['QHMS'],
+      toSchoolId: app.schoolIds['QHMS'],
       version: mover.version - 1,
     });
     expect(stale.status).toBe(409);
 
     const moved = await coordinator.post(`/api/students/${mover.id}/move`, {
-      toSchoolId: schoolIds['QHMS'],
+      toSchoolId: app.schoolIds['QHMS'],
       version: mover.version,
     });
     expect(moved.status).toBe(200);
@@ -614,7 +595,7 @@ describe('Students move', () => {
   it('should answer 400 when the student is already at that school or the school is unknown', async () => {
     const hpms = await firstStudentOf('HPMS');
     const same = await coordinator.post(`/api/students/${hpms.id}/move`, {
-      toSchoolId: schoolIds['HPMS'],
+      toSchoolId: app.schoolIds['HPMS'],
       version: hpms.version,
     });
     expect(same.status).toBe(400);
