@@ -1,16 +1,13 @@
 import { eq, sql } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { startMailFake, type MailFake } from '../../fakes/mail/index';
 import { outboxMessages, reportRuns, reportSchedules } from '../../server/db/schema/index';
 import { drainOutbox } from '../../server/mail/mail-worker';
 import { runDueSchedules } from '../../server/reports/report-scheduler';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp } from '../support/test-app';
 import { seedTinyDistrict, type TinyDistrict } from './reports-district';
 
-let app: TestApp;
 let district: TinyDistrict;
-let coordinator: SignedInClient;
-let director: SignedInClient;
 const restarted: MailFake[] = [];
 
 const services = () => ({ db: app.database.db, config: app.config });
@@ -31,17 +28,17 @@ function localParts(moment: Date, timeZone: string) {
   return { weekday: part('weekday'), hour: part('hour'), minute: part('minute') };
 }
 
-beforeAll(async () => {
-  app = await startTestApp({ template: 'empty' });
-  district = await seedTinyDistrict(app.database.db);
-  [coordinator, director] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-  ]);
+const app = useTestApp({
+  template: 'empty',
+  seed: async (database) => {
+    district = await seedTinyDistrict(database.db);
+  },
+  signIn: ['coordinator', 'director.hpms'],
 });
+const { coordinator, 'director.hpms': director } = app.clients;
 afterAll(async () => {
+  // Before the app closes: after-all hooks run last registered first.
   await Promise.all(restarted.map((fake) => fake.close()));
-  await app?.close();
 });
 
 describe('Report schedules', () => {
