@@ -179,8 +179,8 @@ describe('Reports while the mail relay is down', () => {
     );
     for (const row of waiting.body.rows) expect(row.lastError).toMatch(/ECONNREFUSED|connect/i);
 
-    app.mail = await startMailFake({ smtpPort: port, httpPort: 0 });
-    restarted.push(app.mail);
+    const relay = await startMailFake({ smtpPort: port, httpPort: 0 });
+    restarted.push(relay);
     const later = new Date(Date.now() + 60_000);
     await drainOutbox(services(), { now: later });
     await drainOutbox(services(), { now: later });
@@ -188,9 +188,7 @@ describe('Reports while the mail relay is down', () => {
     expect(delivered.body.rows.map((row: { id: number }) => row.id)).toEqual(
       expect.arrayContaining(sent.body.outboxIds),
     );
-    const caught = app.mail
-      .messages()
-      .map((message) => `${message.to.join(',')} ${message.subject}`);
+    const caught = relay.messages().map((message) => `${message.to.join(',')} ${message.subject}`);
     expect(caught.sort()).toEqual([
       'director.hpms@merrowbasin.example Heron Point Middle (HPMS): director report, 2026-11-01 to 2026-11-30',
       'director.qhms@merrowbasin.example Quarry Hill Middle (QHMS): director report, 2026-11-01 to 2026-11-30',

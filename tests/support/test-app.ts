@@ -140,7 +140,7 @@ export async function startTestApp<const Name extends string = never>(
 export function useTestApp<const Name extends string = never>(
   options: TestAppOptions<Name> = {},
   startTimeoutMs?: number,
-): StartedTestApp<Name> {
+): Readonly<StartedTestApp<Name>> {
   let started: StartedTestApp<Name> | undefined;
   beforeAll(async () => {
     started = await startTestApp(options);
