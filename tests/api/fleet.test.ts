@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { instrumentDetailSchema, instrumentSchema } from '@shared/api/instrument';
 import { listResponseSchema } from '@shared/api/list';
-import { useTestApp, type SignedInClient } from '../support/test-app';
+import { useTestApp, type SignedInClient, byRole, everyRole } from '../support/test-app';
 
 // A 1×1 PNG: the 8-byte signature 89 50 4E 47 0D 0A 1A 0A (PNG specification, "PNG signature"), IHDR, IDAT, IEND.
 const onePixelPng = Buffer.from(
@@ -38,16 +38,8 @@ function importCsv(client: SignedInClient, csv: string, dryRun: boolean) {
     .send(csv);
 }
 
-const app = useTestApp({
-  signIn: ['coordinator', 'director.hpms', 'technician', 'viewer.trhs', 'student.hpms'],
-});
-const {
-  coordinator,
-  'director.hpms': director,
-  technician,
-  'viewer.trhs': viewer,
-  'student.hpms': student,
-} = app.clients;
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, technician, viewer, student } = byRole(app.clients);
 
 describe('Instruments', () => {
   it('should scope the fleet: a director sees their schools, the technician all, a student none', async () => {

@@ -3,7 +3,7 @@ import { sql } from 'drizzle-orm';
 import { loanSchema } from '@shared/api/loan';
 import { listResponseSchema } from '@shared/api/list';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, useTestApp, type SignedInClient } from '../support/test-app';
+import { demoEmail, useTestApp, type SignedInClient, byRole, everyRole } from '../support/test-app';
 
 let tagNumber = 0;
 
@@ -52,16 +52,8 @@ function checkout(
   });
 }
 
-const app = useTestApp({
-  signIn: ['coordinator', 'director.hpms', 'technician', 'viewer.trhs', 'student.hpms'],
-});
-const {
-  coordinator,
-  'director.hpms': director,
-  technician,
-  'viewer.trhs': viewer,
-  'student.hpms': student,
-} = app.clients;
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, technician, viewer, student } = byRole(app.clients);
 
 describe('Loans', () => {
   it('should let exactly one of five concurrent checkouts of one instrument win', async () => {

@@ -4,7 +4,7 @@ import { startMailFake, type MailFake } from '../../fakes/mail/index';
 import { outboxMessages } from '../../server/db/schema/index';
 import { drainOutbox, maxAttempts } from '../../server/mail/mail-worker';
 import { enqueueMail, type OutboxMessageInput } from '../../server/mail/outbox';
-import { useTestApp } from '../support/test-app';
+import { byRole, everyRole, useTestApp } from '../support/test-app';
 
 const restarted: MailFake[] = [];
 /** The catcher on the relay's port now: the harness's, until a test restarts it. */
@@ -46,13 +46,8 @@ async function stateOf(id: number) {
   return row!;
 }
 
-const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'viewer.trhs', 'student.hpms'] });
-const {
-  coordinator,
-  'director.hpms': director,
-  'viewer.trhs': viewer,
-  'student.hpms': student,
-} = app.clients;
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, viewer, student } = byRole(app.clients);
 afterAll(async () => {
   // The harness closes the catcher it started; the ones started here close here (before the app:
   // after-all hooks run last registered first).

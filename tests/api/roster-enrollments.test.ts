@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, useTestApp } from '../support/test-app';
+import { demoEmail, useTestApp, byRole, everyRole } from '../support/test-app';
 
 interface Seat {
   id: number;
@@ -35,16 +35,8 @@ async function activeStudentOf(code: string, offset = 0) {
   return response.body.rows[0] as { id: number; version: number; firstName: string };
 }
 
-const app = useTestApp({
-  signIn: ['coordinator', 'director.hpms', 'viewer.trhs', 'technician', 'student.hpms'],
-});
-const {
-  coordinator,
-  'director.hpms': director,
-  'viewer.trhs': viewer,
-  technician,
-  'student.hpms': student,
-} = app.clients;
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, technician, viewer, student } = byRole(app.clients);
 beforeAll(async () => {
   const jazzLab = await director.post('/api/ensembles', {
     schoolId: app.schoolIds['HPMS'],

@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, useTestApp } from '../support/test-app';
+import { demoEmail, useTestApp, byRole, everyRole } from '../support/test-app';
 
 interface Row {
   id: number;
@@ -20,16 +20,8 @@ async function query<Result>(text: string): Promise<Result[]> {
   return rowsOf<Result>(await app.database.db.execute(sql.raw(text)));
 }
 
-const app = useTestApp({
-  signIn: ['coordinator', 'director.hpms', 'viewer.trhs', 'technician', 'student.hpms'],
-});
-const {
-  coordinator,
-  'director.hpms': director,
-  'viewer.trhs': viewer,
-  technician,
-  'student.hpms': student,
-} = app.clients;
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, technician, viewer, student } = byRole(app.clients);
 beforeAll(async () => {
   const users = await query<{ email: string; id: number }>('select id, email from users');
   userIds = Object.fromEntries(users.map((row) => [row.email.split('@')[0], row.id]));

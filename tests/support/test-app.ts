@@ -166,40 +166,30 @@ export function useTestApp<const Name extends string = never>(
   const clients = Object.fromEntries(
     (options.signIn ?? []).map((name) => [name, clientOf(name)]),
   ) as Record<Name, SignedInClient>;
-  return {
-    clients,
-    get schoolIds() {
-      return running().schoolIds;
-    },
-    get url() {
-      return running().url;
-    },
-    get config() {
-      return running().config;
-    },
-    get database() {
-      return running().database;
-    },
-    get oidc() {
-      return running().oidc;
-    },
-    get mail() {
-      return running().mail;
-    },
-    get payments() {
-      return running().payments;
-    },
-    get oneRoster() {
-      return running().oneRoster;
-    },
-    get anonymous() {
-      return running().anonymous;
-    },
+  /** The running app's fields, each read when a test asks for it. */
+  const fields = [
+    'schoolIds',
+    'url',
+    'config',
+    'database',
+    'oidc',
+    'mail',
+    'payments',
+    'oneRoster',
+    'anonymous',
+  ] as const;
+  const methods: Pick<TestApp, 'signIn' | 'token' | 'bearer' | 'close'> = {
     signIn: (email) => running().signIn(email),
     token: (email) => running().token(email),
     bearer: (token) => running().bearer(token),
     close: () => running().close(),
   };
+  return Object.defineProperties(
+    { clients, ...methods },
+    Object.fromEntries(
+      fields.map((field) => [field, { get: () => running()[field], enumerable: true }]),
+    ),
+  ) as Readonly<StartedTestApp<Name>>;
 }
 
 async function startApp(options: {
