@@ -1,32 +1,27 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { countDetailSchema } from '@shared/api/count';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let viewer: SignedInClient;
-let schoolIds: Record<string, number>;
-
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'viewer.trhs'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director, 'viewer.trhs': viewer } = started.clients);
-  schoolIds = started.schoolIds;
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'viewer.trhs'] });
+const { coordinator, 'director.hpms': director, 'viewer.trhs': viewer } = app.clients;
 
 describe('Counts', () => {
   it('should reconcile scans and mark what was not found missing on close', async () => {
-    expect((await director.post('/api/counts', { schoolId: schoolIds['QHMS'] })).status).toBe(404);
-    expect((await viewer.post('/api/counts', { schoolId: schoolIds['TRHS'] })).status).toBe(403);
-    const started = await director.post('/api/counts', { schoolId: schoolIds['HPMS'] });
+    expect((await director.post('/api/counts', { schoolId: app.schoolIds['QHMS'] })).status).toBe(
+      404,
+    );
+    expect((await viewer.post('/api/counts', { schoolId: app.schoolIds['TRHS'] })).status).toBe(
+      403,
+    );
+    const started = await director.post('/api/counts', { schoolId: app.schoolIds['HPMS'] });
     expect(started.status).toBe(201);
     const countId = started.body.id;
-    expect((await director.post('/api/counts', { schoolId: schoolIds['HPMS'] })).status).toBe(409);
+    expect((await director.post('/api/counts', { schoolId: app.schoolIds['HPMS'] })).status).toBe(
+      409,
+    );
     const shelf = (
       await coordinator.get(
-        `/api/instruments?homeSchoolId=${schoolIds['HPMS']}&status=available&limit=1000`,
+        `/api/instruments?homeSchoolId=${app.schoolIds['HPMS']}&status=available&limit=1000`,
       )
     ).body.rows;
     const [notScanned, ...scanned] = shelf as { id: number; assetTag: string }[];
@@ -38,7 +33,7 @@ describe('Counts', () => {
     }
     const visitor = (
       await coordinator.get(
-        `/api/instruments?homeSchoolId=${schoolIds['QHMS']}&status=available&limit=1`,
+        `/api/instruments?homeSchoolId=${app.schoolIds['QHMS']}&status=available&limit=1`,
       )
     ).body.rows[0];
     expect(

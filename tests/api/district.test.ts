@@ -1,8 +1,8 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { demoEmail, useTestApp } from '../support/test-app';
 
 const logos = path.resolve('tests/fixtures/logos');
 const dataUrl = (type: string, bytes: Buffer | string) =>
@@ -10,16 +10,8 @@ const dataUrl = (type: string, bytes: Buffer | string) =>
 const pngLogo = dataUrl('image/png', fs.readFileSync(path.join(logos, 'band.png')));
 const svgLogo = dataUrl('image/svg+xml', fs.readFileSync(path.join(logos, 'kestrel.svg')));
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director } = started.clients);
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms'] });
+const { coordinator, 'director.hpms': director } = app.clients;
 
 async function currentVersion(): Promise<number> {
   return (await coordinator.get('/api/district')).body.version;

@@ -1,16 +1,8 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { instrumentDetailSchema, instrumentSchema } from '@shared/api/instrument';
 import { listResponseSchema } from '@shared/api/list';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let technician: SignedInClient;
-let viewer: SignedInClient;
-let student: SignedInClient;
-let schoolIds: Record<string, number>;
+import { useTestApp, type SignedInClient, byRole, everyRole } from '../support/test-app';
 
 // A 1×1 PNG: the 8-byte signature 89 50 4E 47 0D 0A 1A 0A (PNG specification, "PNG signature"), IHDR, IDAT, IEND.
 const onePixelPng = Buffer.from(
@@ -46,21 +38,8 @@ function importCsv(client: SignedInClient, csv: string, dryRun: boolean) {
     .send(csv);
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({
-    signIn: ['coordinator', 'director.hpms', 'technician', 'viewer.trhs', 'student.hpms'],
-  });
-  app = started;
-  ({
-    coordinator,
-    'director.hpms': director,
-    technician,
-    'viewer.trhs': viewer,
-    'student.hpms': student,
-  } = started.clients);
-  schoolIds = started.schoolIds;
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, technician, viewer, student } = byRole(app.clients);
 
 describe('Instruments', () => {
   it('should scope the fleet: a director sees their schools, the technician all, a student none', async () => {
@@ -72,7 +51,7 @@ describe('Instruments', () => {
     const everything = await technician.get('/api/instruments?limit=1');
     expect(everything.body.total).toBeGreaterThan(mine.total + 100);
     const elsewhere = (
-      await coordinator.get(`/api/instruments?homeSchoolId=${schoolIds['QHMS']}&limit=1`)
+      await coordinator.get(`/api/instruments?homeSchoolId=${app.schoolIds['QHMS']}&limit=1`)
     ).body.rows[0];
     expect((await director.get(`/api/instruments/${elsewhere.id}`)).status).toBe(404);
     expect((await technician.get(`/api/instruments/${elsewhere.id}`)).status).toBe(200);
@@ -118,7 +97,7 @@ describe('Instruments', () => {
     const input = {
       assetTag: 'test-fleet-1',
       instrumentId: 'euphonium',
-      homeSchoolId: schoolIds['HPMS'],
+      homeSchoolId: app.schoolIds['HPMS'],
       maker: 'Carrow Brassworks',
       purchasedOn: '2025-02-14',
       purchaseCostCents: 310000,
@@ -163,24 +142,24 @@ describe('Instruments', () => {
 
   it('should print a labels PDF for a school', async () => {
     const response = await binary(
-      director.get(`/api/instruments/labels.pdf?schoolId=${schoolIds['HPMS']}`),
+      director.get(`/api/instruments/labels.pdf?schoolId=${app.schoolIds['HPMS']}`),
     );
     expect(response.status).toBe(200);
     expect(response.headers['content-type']).toMatch(/application\/pdf/);
     // ISO 32000-1 §7.5.2: a PDF file begins with the header %PDF-.
     expect((response.body as Buffer).subarray(0, 5).toString('latin1')).toBe('%PDF-');
     expect(
-      (await director.get(`/api/instruments/labels.pdf?schoolId=${schoolIds['QHMS']}`)).status,
+      (await director.get(`/api/instruments/labels.pdf?schoolId=${app.schoolIds['QHMS']}`)).status,
     ).toBe(404);
   });
 
   it('should print one instrument’s label where the next free label of a sheet is', async () => {
     const images = (pdf: Buffer) => pdf.toString('latin1').match(/\/Subtype \/Image/g)?.length ?? 0;
     const sheet = await binary(
-      director.get(`/api/instruments/labels.pdf?schoolId=${schoolIds['HPMS']}`),
+      director.get(`/api/instruments/labels.pdf?schoolId=${app.schoolIds['HPMS']}`),
     );
     const instrument = (
-      await director.get(`/api/instruments?homeSchoolId=${schoolIds['HPMS']}&limit=1`)
+      await director.get(`/api/instruments?homeSchoolId=${app.schoolIds['HPMS']}&limit=1`)
     ).body.rows[0];
     const one = await binary(
       director.get(`/api/instruments/labels.pdf?instrumentId=${instrument.id}&skip=4`),
@@ -189,8 +168,9 @@ describe('Instruments', () => {
     expect((one.body as Buffer).subarray(0, 5).toString('latin1')).toBe('%PDF-');
     // Each label carries the same images (its QR code): the school's sheet has as many sets as
     // the school has instruments, the single label's sheet one set.
-    const total = (await director.get(`/api/instruments?homeSchoolId=${schoolIds['HPMS']}&limit=1`))
-      .body.total as number;
+    const total = (
+      await director.get(`/api/instruments?homeSchoolId=${app.schoolIds['HPMS']}&limit=1`)
+    ).body.total as number;
     expect(total).toBeGreaterThan(1);
     expect(images(one.body as Buffer)).toBeGreaterThan(0);
     expect(images(sheet.body as Buffer)).toBe(images(one.body as Buffer) * total);
@@ -199,7 +179,7 @@ describe('Instruments', () => {
         .status,
     ).toBe(400);
     const elsewhere = (
-      await coordinator.get(`/api/instruments?homeSchoolId=${schoolIds['QHMS']}&limit=1`)
+      await coordinator.get(`/api/instruments?homeSchoolId=${app.schoolIds['QHMS']}&limit=1`)
     ).body.rows[0];
     expect(
       (await director.get(`/api/instruments/labels.pdf?instrumentId=${elsewhere.id}`)).status,

@@ -1,11 +1,8 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
 import { describeSeatMoves } from '@shared/roster';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-
-let app: TestApp;
-let coordinator: SignedInClient;
+import { useTestApp } from '../support/test-app';
 
 const header = 'student_id,first_name,last_name,grade,school_code,ensemble,instrument';
 
@@ -41,12 +38,8 @@ async function seatsOf(number: string): Promise<Record<string, boolean>> {
   return Object.fromEntries(rows.map((row) => [row.name, row.active]));
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator'] });
-  app = started;
-  ({ coordinator } = started.clients);
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator'] });
+const { coordinator } = app.clients;
 
 describe('Roster import seat moves', () => {
   it('should end the seat a student leaves and say so when a file moves her to another ensemble', async () => {

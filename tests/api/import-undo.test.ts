@@ -1,11 +1,8 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
 import { importUndoPreviewSchema } from '@shared/api/import';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-
-let app: TestApp;
-let coordinator: SignedInClient;
+import { allButCoordinator, useTestApp } from '../support/test-app';
 
 const header =
   'student_id,first_name,last_name,grade,school_code,ensemble,instrument,guardian_name,guardian_email';
@@ -53,17 +50,13 @@ async function rosterState() {
   };
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator'] });
-  app = started;
-  ({ coordinator } = started.clients);
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator', ...allButCoordinator] });
+const { coordinator } = app.clients;
 
 describe('Undoing a roster import', () => {
   it('should answer 403 to every role but the coordinator and 404 for an unknown import', async () => {
-    for (const local of ['director.hpms', 'viewer.trhs', 'technician', 'student.hpms']) {
-      const client = await app.signIn(demoEmail(local));
+    for (const local of allButCoordinator) {
+      const client = app.clients[local];
       const answers = await Promise.all([
         client.get('/api/imports/1/undo'),
         client.post('/api/imports/1/undo', {}),

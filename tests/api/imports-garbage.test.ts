@@ -1,18 +1,11 @@
 import fc from 'fast-check';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator'] });
-  app = started;
-  ({ coordinator } = started.clients);
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator'] });
+const { coordinator } = app.clients;
 
 async function rowCounts(): Promise<number[]> {
   const [row] = rowsOf<Record<string, number>>(

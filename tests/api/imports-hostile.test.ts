@@ -1,20 +1,11 @@
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { toRosterCsv } from '@shared/roster';
 import { inventedRoster } from '../bench/roster-import';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator'] });
-  app = started;
-  ({ coordinator } = started.clients);
-});
-afterAll(async () => {
-  await app?.close();
-});
+const app = useTestApp({ signIn: ['coordinator'] });
+const { coordinator } = app.clients;
 
 function preview(file: Buffer) {
   return request(app.url)

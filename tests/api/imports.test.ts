@@ -1,13 +1,10 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { housekeepingDone, rowsOf } from '../../server/db/client';
 import { toRosterCsv } from '@shared/roster';
 import { inventedRoster } from '../bench/roster-import';
 import { studentCountDrift } from '../support/student-counts';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-
-let app: TestApp;
-let coordinator: SignedInClient;
+import { allButCoordinator, useTestApp, type SignedInClient } from '../support/test-app';
 
 const header =
   'student_id,first_name,last_name,preferred_name,grade,school_code,ensemble,instrument,guardian_name,guardian_email';
@@ -75,17 +72,13 @@ async function student(number: string) {
   return row;
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator'] });
-  app = started;
-  ({ coordinator } = started.clients);
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator', ...allButCoordinator] });
+const { coordinator } = app.clients;
 
 describe('Roster imports API', () => {
   it('should answer 403 to every import route when the role is not coordinator', async () => {
-    for (const local of ['director.hpms', 'viewer.trhs', 'technician', 'student.hpms']) {
-      const client = await app.signIn(demoEmail(local));
+    for (const local of allButCoordinator) {
+      const client = app.clients[local];
       const answers = await Promise.all([
         client.get('/api/imports'),
         client.get('/api/imports/1'),

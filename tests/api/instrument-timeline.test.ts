@@ -1,21 +1,15 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { countDetailSchema } from '@shared/api/count';
 import { instrumentDetailSchema } from '@shared/api/instrument';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let technician: SignedInClient;
 let hpms: number;
 
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
+const { coordinator, 'director.hpms': director, technician } = app.clients;
 beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director, technician } = started.clients);
-  hpms = started.schoolIds['HPMS']!;
+  hpms = app.schoolIds['HPMS']!;
 });
-afterAll(() => app?.close());
 
 async function newInstrument(assetTag: string, purchasedOn: string | null) {
   const created = await coordinator.post('/api/instruments', {

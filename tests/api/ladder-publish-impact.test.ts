@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import {
   ladderImpactSchema,
   ladderImpactStudentSchema,
@@ -9,21 +9,15 @@ import {
 import { studentProgressSchema } from '@shared/api/analytics';
 import { currentRung, type PassOffRecord } from '@shared/ladder/index';
 import { toRuleRungs } from '../../server/ladder/ladder-queries';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let student: SignedInClient;
 let ownStudentId: number;
 
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'student.hpms'] });
+const { coordinator, 'director.hpms': director, 'student.hpms': student } = app.clients;
 beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'student.hpms'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director, 'student.hpms': student } = started.clients);
   ownStudentId = (await student.get('/api/me')).body.studentId;
 });
-afterAll(() => app?.close());
 
 /** A requirement no demo rung asks for, for one family. */
 function newRequirement(code: string, family: string): LadderRequirement {

@@ -1,4 +1,4 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import { studentProgressSchema } from '@shared/api/analytics';
 import { currentRung, type PassOffRecord } from '@shared/ladder/index';
@@ -6,21 +6,15 @@ import { rowsOf } from '../../server/db/client';
 import { activeRuleLadder } from '../../server/ladder/ladder-queries';
 import { familyOf, studentInstruments } from '../../server/ladder/student-families';
 import { publishSeen } from '../support/ladder-publish';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let student: SignedInClient;
 let ownStudentId: number;
 
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'student.hpms'] });
+const { coordinator, 'director.hpms': director, 'student.hpms': student } = app.clients;
 beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'student.hpms'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director, 'student.hpms': student } = started.clients);
   ownStudentId = (await student.get('/api/me')).body.studentId;
 });
-afterAll(() => app?.close());
 
 describe('Ladder versions', () => {
   it('should keep old pass-offs under their version and say which no longer count once a new version is published', async () => {

@@ -1,23 +1,14 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import { ladderSchema } from '@shared/api/ladder';
 import { currentRung, type PassOffRecord } from '@shared/ladder/index';
 import { rowsOf } from '../../server/db/client';
 import { activeRuleLadder } from '../../server/ladder/ladder-queries';
 import { familyOf, studentInstruments } from '../../server/ladder/student-families';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { demoEmail, useTestApp } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let student: SignedInClient;
-
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'student.hpms'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director, 'student.hpms': student } = started.clients);
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'student.hpms'] });
+const { coordinator, 'director.hpms': director, 'student.hpms': student } = app.clients;
 
 /** Every student's rung computed by the ladder rules from their raw pass-offs. */
 async function rungsByRules(): Promise<Map<number, number>> {

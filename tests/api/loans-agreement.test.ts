@@ -1,14 +1,10 @@
 import { createHash } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp, type SignedInClient } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let technician: SignedInClient;
 let hpmsId: number;
 let tagNumber = 0;
 
@@ -57,13 +53,11 @@ function hiddenHash(page: string): string {
   return /name="textHash" value="([0-9a-f]{64})"/.exec(page)![1]!;
 }
 
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
+const { coordinator, 'director.hpms': director, technician } = app.clients;
 beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director, technician } = started.clients);
-  hpmsId = started.schoolIds['HPMS']!;
+  hpmsId = app.schoolIds['HPMS']!;
 });
-afterAll(() => app?.close());
 
 describe('Loan agreements', () => {
   it('should e-mail the guardian a one-time link through the outbox and keep only its hash', async () => {

@@ -1,17 +1,10 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import { loanSchema } from '@shared/api/loan';
 import { listResponseSchema } from '@shared/api/list';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { demoEmail, useTestApp, type SignedInClient, byRole, everyRole } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let technician: SignedInClient;
-let viewer: SignedInClient;
-let student: SignedInClient;
-let schoolIds: Record<string, number>;
 let tagNumber = 0;
 
 async function query<Row>(text: ReturnType<typeof sql>): Promise<Row[]> {
@@ -34,7 +27,7 @@ async function newInstrument(code: string, instrumentId = 'trombone'): Promise<n
   const response = await coordinator.post('/api/instruments', {
     assetTag: `TEST-LOAN-${(tagNumber += 1)}`,
     instrumentId,
-    homeSchoolId: schoolIds[code],
+    homeSchoolId: app.schoolIds[code],
     condition: 'good',
     purchasedOn: '2024-08-01',
     purchaseCostCents: 120000,
@@ -59,21 +52,8 @@ function checkout(
   });
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({
-    signIn: ['coordinator', 'director.hpms', 'technician', 'viewer.trhs', 'student.hpms'],
-  });
-  app = started;
-  ({
-    coordinator,
-    'director.hpms': director,
-    technician,
-    'viewer.trhs': viewer,
-    'student.hpms': student,
-  } = started.clients);
-  schoolIds = started.schoolIds;
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, technician, viewer, student } = byRole(app.clients);
 
 describe('Loans', () => {
   it('should let exactly one of five concurrent checkouts of one instrument win', async () => {

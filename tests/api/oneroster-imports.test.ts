@@ -3,12 +3,10 @@ import path from 'node:path';
 import { strToU8, zipSync } from 'fflate';
 import request from 'supertest';
 import { sql } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { allButCoordinator, useTestApp, type SignedInClient } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
 const fixtures = path.resolve('tests/fixtures/rosters');
 
 /** A fixture bundle folder as a zip, with some of its files changed. */
@@ -70,17 +68,13 @@ async function students(...numbers: string[]): Promise<StudentState[]> {
   );
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator'] });
-  app = started;
-  ({ coordinator } = started.clients);
-}, 120_000);
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator', ...allButCoordinator] }, 120_000);
+const { coordinator } = app.clients;
 
 describe('OneRoster bundle imports', () => {
   it('should answer 403 to the org mapping routes when the role is not coordinator', async () => {
-    for (const local of ['director.hpms', 'viewer.trhs', 'technician', 'student.hpms']) {
-      const client = await app.signIn(demoEmail(local));
+    for (const local of allButCoordinator) {
+      const client = app.clients[local];
       const answers = await Promise.all([
         client.get('/api/oneroster/org-mappings'),
         putMapping(client, { sourcedId: 'org-x', orgName: 'X', schoolId: 1 }),

@@ -1,12 +1,9 @@
 import request from 'supertest';
 import { sql } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
 import { runSync } from '../../server/oneroster/sync-service';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-
-let app: TestApp;
-let coordinator: SignedInClient;
+import { allButCoordinator, useTestApp, type SignedInClient } from '../support/test-app';
 
 function putSettings(client: SignedInClient, body: object) {
   return request(app.url)
@@ -45,17 +42,13 @@ async function studentTotal(): Promise<number> {
   return row!.total;
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator'] });
-  app = started;
-  ({ coordinator } = started.clients);
-}, 120_000);
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator', ...allButCoordinator] }, 120_000);
+const { coordinator } = app.clients;
 
 describe('OneRoster REST sync', () => {
   it('should answer 403 to the sync routes when the role is not coordinator', async () => {
-    for (const local of ['director.hpms', 'viewer.trhs', 'technician', 'student.hpms']) {
-      const client = await app.signIn(demoEmail(local));
+    for (const local of allButCoordinator) {
+      const client = app.clients[local];
       const answers = await Promise.all([
         client.get('/api/oneroster/sync'),
         putSettings(client, settings()),

@@ -1,30 +1,27 @@
 import { eq } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { startMailFake, type MailFake } from '../../fakes/mail/index';
 import { outboxMessages } from '../../server/db/schema/index';
 import { drainOutbox, maxAttempts } from '../../server/mail/mail-worker';
 import { enqueueMail, type OutboxMessageInput } from '../../server/mail/outbox';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { byRole, everyRole, useTestApp } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let viewer: SignedInClient;
-let student: SignedInClient;
-let schoolIds: Record<string, number>;
 const restarted: MailFake[] = [];
+/** The catcher on the relay's port now: the harness's, until a test restarts it. */
+let relay: MailFake | undefined;
+const mail = (): MailFake => relay ?? app.mail;
 
 /** Starts a new catcher on the stopped one's SMTP port, as a relay coming back would. */
 async function restartMail(port: number) {
-  app.mail = await startMailFake({ smtpPort: port, httpPort: 0 });
-  restarted.push(app.mail);
+  relay = await startMailFake({ smtpPort: port, httpPort: 0 });
+  restarted.push(relay);
 }
 
 /** Stops the running catcher, as a relay going down would; answers its SMTP port. */
 async function stopMail(): Promise<number> {
-  const port = Number(new URL(app.mail.smtpUrl).port);
-  await app.mail.close();
-  if (restarted.includes(app.mail)) restarted.splice(restarted.indexOf(app.mail), 1);
+  const port = Number(new URL(mail().smtpUrl).port);
+  await mail().close();
+  if (restarted.includes(mail())) restarted.splice(restarted.indexOf(mail()), 1);
   return port;
 }
 
@@ -49,23 +46,12 @@ async function stateOf(id: number) {
   return row!;
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({
-    signIn: ['coordinator', 'director.hpms', 'viewer.trhs', 'student.hpms'],
-  });
-  app = started;
-  ({
-    coordinator,
-    'director.hpms': director,
-    'viewer.trhs': viewer,
-    'student.hpms': student,
-  } = started.clients);
-  schoolIds = started.schoolIds;
-});
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, viewer, student } = byRole(app.clients);
 afterAll(async () => {
-  // The harness closes the catcher it started; the ones started here close here.
+  // The harness closes the catcher it started; the ones started here close here (before the app:
+  // after-all hooks run last registered first).
   await Promise.all(restarted.map((fake) => fake.close()));
-  await app?.close();
 });
 
 describe('Outbox', () => {
@@ -103,22 +89,28 @@ describe('Outbox', () => {
     const row = await stateOf(id);
     expect(row.state).toBe('sent');
     expect(row.attempts).toBe(1);
-    const caught = app.mail.messages().filter((each) => each.subject === 'Folder check');
+    const caught = mail()
+      .messages()
+      .filter((each) => each.subject === 'Folder check');
     expect(caught).toHaveLength(1);
     expect(caught[0]!.to).toEqual(['a.reed@merrowbasin.example', 'b.valve@merrowbasin.example']);
     expect(caught[0]!.cc).toEqual(['office@merrowbasin.example']);
     expect(caught[0]!.text).toContain('low brass sectional');
     expect(caught[0]!.html).toContain('<strong>Thursday</strong>');
     expect(caught[0]!.messageId).toBe(row.messageId);
-    expect(app.mail.attachment(caught[0]!.id, 0)!.toString('utf8')).toBe(
-      'part,count\r\nhorn,4\r\n',
-    );
+    expect(mail().attachment(caught[0]!.id, 0)!.toString('utf8')).toBe('part,count\r\nhorn,4\r\n');
   });
 
   it('should show a director only the messages of their schools or their own', async () => {
     const [hpms, qhms] = await Promise.all([
-      enqueueMail(app.database.db, message({ subject: 'About HPMS', schoolId: schoolIds['HPMS'] })),
-      enqueueMail(app.database.db, message({ subject: 'About QHMS', schoolId: schoolIds['QHMS'] })),
+      enqueueMail(
+        app.database.db,
+        message({ subject: 'About HPMS', schoolId: app.schoolIds['HPMS'] }),
+      ),
+      enqueueMail(
+        app.database.db,
+        message({ subject: 'About QHMS', schoolId: app.schoolIds['QHMS'] }),
+      ),
     ]);
     const seen = await director.get('/api/outbox?limit=1000');
     expect(seen.status).toBe(200);
@@ -174,7 +166,9 @@ describe('Outbox', () => {
     await drainOutbox(services(), { now: later });
     await drainOutbox(services(), { now: later });
     for (const id of ids) expect((await stateOf(id)).state).toBe('sent');
-    const caught = app.mail.messages().map((each) => each.subject);
+    const caught = mail()
+      .messages()
+      .map((each) => each.subject);
     for (const subject of subjects)
       expect(caught.filter((each) => each === subject)).toHaveLength(1);
   });
@@ -183,7 +177,7 @@ describe('Outbox', () => {
     const port = await stopMail();
     const id = await enqueueMail(
       app.database.db,
-      message({ subject: 'Never arrives', schoolId: schoolIds['HPMS'] }),
+      message({ subject: 'Never arrives', schoolId: app.schoolIds['HPMS'] }),
     );
     for (let attempt = 1; attempt <= maxAttempts; attempt += 1) {
       await drainOutbox(services(), { now: new Date(Date.now() + attempt * 86_400_000) });
@@ -199,6 +193,10 @@ describe('Outbox', () => {
     expect((await director.post(`/api/outbox/${id}/resend`)).status).toBe(409);
     await drainOutbox(services());
     expect((await stateOf(id)).state).toBe('sent');
-    expect(app.mail.messages().filter((each) => each.subject === 'Never arrives')).toHaveLength(1);
+    expect(
+      mail()
+        .messages()
+        .filter((each) => each.subject === 'Never arrives'),
+    ).toHaveLength(1);
   });
 });

@@ -1,26 +1,12 @@
 import { randomUUID } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import request from 'supertest';
 import { passOffBatchResultSchema, passOffSchema } from '@shared/api/pass-off';
 import { listResponseSchema } from '@shared/api/list';
 import { rowsOf } from '../../server/db/client';
-import {
-  byRole,
-  everyRole,
-  startTestApp,
-  type SignedInClient,
-  type TestApp,
-} from '../support/test-app';
+import { byRole, everyRole, useTestApp, type SignedInClient } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let otherDirector: SignedInClient;
-let viewer: SignedInClient;
-let technician: SignedInClient;
-let student: SignedInClient;
-let schoolIds: Record<string, number>;
 let hpmsStudentId: number;
 let qhmsStudentId: number;
 let ownStudentId: number;
@@ -36,16 +22,13 @@ async function firstStudentOf(code: string, except: number[] = []): Promise<numb
   return row!.id;
 }
 
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, otherDirector, viewer, technician, student } = byRole(app.clients);
 beforeAll(async () => {
-  const started = await startTestApp({ signIn: everyRole });
-  app = started;
-  ({ coordinator, director, otherDirector, viewer, technician, student } = byRole(started.clients));
-  schoolIds = started.schoolIds;
   ownStudentId = (await student.get('/api/me')).body.studentId;
   hpmsStudentId = await firstStudentOf('HPMS', [ownStudentId]);
   qhmsStudentId = await firstStudentOf('QHMS');
 });
-afterAll(() => app?.close());
 
 /** A multipart upload as the signed-in browser would send it. */
 const upload = (
@@ -121,7 +104,7 @@ describe('Pass-offs', () => {
     );
     expect(viewerList.total).toBeGreaterThan(0);
     expect(new Set(viewerList.rows.map((row) => row.schoolId))).toEqual(
-      new Set([schoolIds['TRHS']]),
+      new Set([app.schoolIds['TRHS']]),
     );
     const own = listResponseSchema(passOffSchema).parse(
       (await student.get('/api/pass-offs?limit=1000')).body,
@@ -141,7 +124,7 @@ describe('Pass-offs', () => {
     expect(
       page.body.rows.every(
         (row: { passed: boolean; schoolId: number }) =>
-          row.passed && row.schoolId === schoolIds['HPMS'],
+          row.passed && row.schoolId === app.schoolIds['HPMS'],
       ),
     ).toBe(true);
     const october = await coordinator.get(

@@ -1,11 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let technician: SignedInClient;
-let schoolIds: Record<string, number>;
+import { describe, expect, it } from 'vitest';
+import { demoEmail, useTestApp } from '../support/test-app';
 
 interface PersonRow {
   id: number;
@@ -29,13 +23,8 @@ async function personByEmail(email: string): Promise<PersonRow> {
   return (await coordinator.get(`/api/users/${row.id}`)).body as PersonRow;
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director, technician } = started.clients);
-  schoolIds = started.schoolIds;
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
+const { coordinator, 'director.hpms': director, technician } = app.clients;
 
 describe('People', () => {
   it('should answer 403 to everyone but the coordinator', async () => {
@@ -81,7 +70,9 @@ describe('People', () => {
     expect(emails).toEqual([...emails].sort());
     expect((directors.body.rows as PersonRow[]).every((row) => row.role === 'director')).toBe(true);
 
-    const atTrhs = await coordinator.get(`/api/users?schoolId=${schoolIds['TRHS']}&sort=email:asc`);
+    const atTrhs = await coordinator.get(
+      `/api/users?schoolId=${app.schoolIds['TRHS']}&sort=email:asc`,
+    );
     expect((atTrhs.body.rows as PersonRow[]).map((row) => row.email)).toEqual([
       demoEmail('director.trhs'),
       demoEmail('viewer.trhs'),
@@ -109,7 +100,7 @@ describe('People', () => {
       email: '  Wilhelmina.Ashgrove@MerrowBasin.example ',
       name: 'Wilhelmina Ashgrove',
       role: 'director',
-      schoolIds: [schoolIds['QHMS']],
+      schoolIds: [app.schoolIds['QHMS']],
     });
     expect(created.status).toBe(201);
     expect(created.body.email).toBe('wilhelmina.ashgrove@merrowbasin.example');
@@ -146,7 +137,7 @@ describe('People', () => {
       email: 'tech2@merrowbasin.example',
       name: 'Second Technician',
       role: 'technician',
-      schoolIds: [schoolIds['HPMS']],
+      schoolIds: [app.schoolIds['HPMS']],
     });
     expect(districtWide.status).toBe(400);
     expect(fieldsOf(districtWide.body)).toEqual(['schoolIds']);
@@ -196,7 +187,7 @@ describe('People', () => {
     expect(twice.status).toBe(400);
     expect(twice.body.error.message).toContain(demoEmail('student.hpms'));
 
-    const roster = await coordinator.get(`/api/students?schoolId=${schoolIds['QHMS']}&limit=5`);
+    const roster = await coordinator.get(`/api/students?schoolId=${app.schoolIds['QHMS']}&limit=5`);
     const student = roster.body.rows.find((row: { id: number }) => row.id !== linkedAlready);
     const created = await coordinator.post('/api/users', {
       email: 'pupil@merrowbasin.example',
@@ -212,7 +203,7 @@ describe('People', () => {
   it('should answer 409 when an edit starts from a stale version, and replace the schools', async () => {
     const person = await personByEmail(demoEmail('director.omms'));
     const first = await coordinator.patch(`/api/users/${person.id}`, {
-      schoolIds: [schoolIds['OMMS'], schoolIds['HPMS']],
+      schoolIds: [app.schoolIds['OMMS'], app.schoolIds['HPMS']],
       version: person.version,
     });
     expect(first.status).toBe(200);
@@ -230,7 +221,7 @@ describe('People', () => {
     expect(after.name).toBe(person.name);
     expect(after.schools.map((school) => school.code).sort()).toEqual(['HPMS', 'OMMS']);
     const replaced = await coordinator.patch(`/api/users/${person.id}`, {
-      schoolIds: [schoolIds['OMMS']],
+      schoolIds: [app.schoolIds['OMMS']],
       version: after.version,
     });
     expect(replaced.body.schools.map((school: { code: string }) => school.code)).toEqual(['OMMS']);
@@ -253,7 +244,7 @@ describe('People', () => {
     expect(deactivate.body.error.message).toMatch(/cannot deactivate your own account/);
     const demote = await coordinator.patch(`/api/users/${self.id}`, {
       role: 'director',
-      schoolIds: [schoolIds['HPMS']],
+      schoolIds: [app.schoolIds['HPMS']],
       version: self.version,
     });
     expect(demote.status).toBe(400);
@@ -275,7 +266,7 @@ describe('People', () => {
     const first = await personByEmail(demoEmail('coordinator'));
     const demoted = await second.patch(`/api/users/${first.id}`, {
       role: 'viewer',
-      schoolIds: [schoolIds['TRHS']],
+      schoolIds: [app.schoolIds['TRHS']],
       version: first.version,
     });
     expect(demoted.status).toBe(200);
@@ -325,7 +316,7 @@ describe('People', () => {
     const person = await personByEmail(demoEmail('viewer.trhs'));
     const changed = await coordinator.patch(`/api/users/${person.id}`, {
       name: 'Priya Castellane-Moor',
-      schoolIds: [schoolIds['TRHS'], schoolIds['QHMS']],
+      schoolIds: [app.schoolIds['TRHS'], app.schoolIds['QHMS']],
       version: person.version,
     });
     expect(changed.status).toBe(200);

@@ -1,12 +1,8 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { listResponseSchema } from '@shared/api/list';
 import { repairSchema } from '@shared/api/repair';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let technician: SignedInClient;
 let hpmsId: number;
 let tagNumber = 0;
 
@@ -22,13 +18,11 @@ async function newInstrument(): Promise<{ id: number }> {
 const statusOf = async (id: number) =>
   (await coordinator.get(`/api/instruments/${id}`)).body.status;
 
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
+const { coordinator, 'director.hpms': director, technician } = app.clients;
 beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'technician'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director, technician } = started.clients);
-  hpmsId = started.schoolIds['HPMS']!;
+  hpmsId = app.schoolIds['HPMS']!;
 });
-afterAll(() => app?.close());
 
 describe('Repairs', () => {
   it('should keep the instrument in repair while any ticket is open and free it when the last closes', async () => {

@@ -1,16 +1,13 @@
 import { eq, sql } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { startMailFake, type MailFake } from '../../fakes/mail/index';
 import { outboxMessages, reportRuns, reportSchedules } from '../../server/db/schema/index';
 import { drainOutbox } from '../../server/mail/mail-worker';
 import { runDueSchedules } from '../../server/reports/report-scheduler';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp } from '../support/test-app';
 import { seedTinyDistrict, type TinyDistrict } from './reports-district';
 
-let app: TestApp;
 let district: TinyDistrict;
-let coordinator: SignedInClient;
-let director: SignedInClient;
 const restarted: MailFake[] = [];
 
 const services = () => ({ db: app.database.db, config: app.config });
@@ -31,17 +28,17 @@ function localParts(moment: Date, timeZone: string) {
   return { weekday: part('weekday'), hour: part('hour'), minute: part('minute') };
 }
 
-beforeAll(async () => {
-  app = await startTestApp({ template: 'empty' });
-  district = await seedTinyDistrict(app.database.db);
-  [coordinator, director] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-  ]);
+const app = useTestApp({
+  template: 'empty',
+  seed: async (database) => {
+    district = await seedTinyDistrict(database.db);
+  },
+  signIn: ['coordinator', 'director.hpms'],
 });
+const { coordinator, 'director.hpms': director } = app.clients;
 afterAll(async () => {
+  // Before the app closes: after-all hooks run last registered first.
   await Promise.all(restarted.map((fake) => fake.close()));
-  await app?.close();
 });
 
 describe('Report schedules', () => {
@@ -182,8 +179,8 @@ describe('Reports while the mail relay is down', () => {
     );
     for (const row of waiting.body.rows) expect(row.lastError).toMatch(/ECONNREFUSED|connect/i);
 
-    app.mail = await startMailFake({ smtpPort: port, httpPort: 0 });
-    restarted.push(app.mail);
+    const relay = await startMailFake({ smtpPort: port, httpPort: 0 });
+    restarted.push(relay);
     const later = new Date(Date.now() + 60_000);
     await drainOutbox(services(), { now: later });
     await drainOutbox(services(), { now: later });
@@ -191,9 +188,7 @@ describe('Reports while the mail relay is down', () => {
     expect(delivered.body.rows.map((row: { id: number }) => row.id)).toEqual(
       expect.arrayContaining(sent.body.outboxIds),
     );
-    const caught = app.mail
-      .messages()
-      .map((message) => `${message.to.join(',')} ${message.subject}`);
+    const caught = relay.messages().map((message) => `${message.to.join(',')} ${message.subject}`);
     expect(caught.sort()).toEqual([
       'director.hpms@merrowbasin.example Heron Point Middle (HPMS): director report, 2026-11-01 to 2026-11-30',
       'director.qhms@merrowbasin.example Quarry Hill Middle (QHMS): director report, 2026-11-01 to 2026-11-30',

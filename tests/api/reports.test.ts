@@ -1,33 +1,30 @@
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { ladderVersions, passOffs } from '../../server/db/schema/index';
 import { drainOutbox } from '../../server/mail/mail-worker';
 import { restoreNeutralisedCell } from '@shared/roster/roster-csv';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp } from '../support/test-app';
 import { seedTinyDistrict, type TinyDistrict } from './reports-district';
 
-let app: TestApp;
 let district: TinyDistrict;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let viewer: SignedInClient;
-let student: SignedInClient;
 
 const november = 'from=2026-11-01&to=2026-11-30';
 const services = () => ({ db: app.database.db, config: app.config });
 
-beforeAll(async () => {
-  app = await startTestApp({ template: 'empty' });
-  district = await seedTinyDistrict(app.database.db);
-  [coordinator, director, viewer, student] = await Promise.all([
-    app.signIn(demoEmail('coordinator')),
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('viewer.trhs')),
-    app.signIn(demoEmail('student.hpms')),
-  ]);
+const app = useTestApp({
+  template: 'empty',
+  seed: async (database) => {
+    district = await seedTinyDistrict(database.db);
+  },
+  signIn: ['coordinator', 'director.hpms', 'viewer.trhs', 'student.hpms'],
 });
-afterAll(() => app?.close());
+const {
+  coordinator,
+  'director.hpms': director,
+  'viewer.trhs': viewer,
+  'student.hpms': student,
+} = app.clients;
 
 describe('Director report', () => {
   it('should match the hand-counted figures when the coordinator previews Heron Point for November', async () => {

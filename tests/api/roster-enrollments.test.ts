@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { demoEmail, useTestApp, byRole, everyRole } from '../support/test-app';
 
 interface Seat {
   id: number;
@@ -17,13 +17,6 @@ interface Seat {
   version: number;
 }
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let viewer: SignedInClient;
-let technician: SignedInClient;
-let student: SignedInClient;
-let schoolIds: Record<string, number>;
 let jazzLabId: number;
 
 async function query<Result>(text: string): Promise<Result[]> {
@@ -42,27 +35,16 @@ async function activeStudentOf(code: string, offset = 0) {
   return response.body.rows[0] as { id: number; version: number; firstName: string };
 }
 
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, technician, viewer, student } = byRole(app.clients);
 beforeAll(async () => {
-  const started = await startTestApp({
-    signIn: ['coordinator', 'director.hpms', 'viewer.trhs', 'technician', 'student.hpms'],
-  });
-  app = started;
-  ({
-    coordinator,
-    'director.hpms': director,
-    'viewer.trhs': viewer,
-    technician,
-    'student.hpms': student,
-  } = started.clients);
-  schoolIds = started.schoolIds;
   const jazzLab = await director.post('/api/ensembles', {
-    schoolId: schoolIds['HPMS'],
+    schoolId: app.schoolIds['HPMS'],
     name: 'Jazz Lab',
     kind: 'jazz-band',
   });
   jazzLabId = jazzLab.body.id;
 });
-afterAll(() => app?.close());
 
 describe('Enrollments', () => {
   it('should list seats of the director’s school only, with filters', async () => {
@@ -97,7 +79,9 @@ describe('Enrollments', () => {
     );
     expect(dropped).toBeGreaterThan(0);
     expect(inactive.body.total).toBe(dropped);
-    const quarry = await coordinator.get(`/api/ensembles?schoolId=${schoolIds['QHMS']}&limit=1`);
+    const quarry = await coordinator.get(
+      `/api/ensembles?schoolId=${app.schoolIds['QHMS']}&limit=1`,
+    );
     const elsewhere = await director.get(`/api/enrollments?ensembleId=${quarry.body.rows[0].id}`);
     expect(elsewhere.body).toEqual({ rows: [], total: 0 });
     const sorted = await director.get('/api/enrollments?sort=chair:desc&limit=50');

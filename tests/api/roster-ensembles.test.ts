@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { demoEmail, useTestApp, byRole, everyRole } from '../support/test-app';
 
 interface Row {
   id: number;
@@ -14,36 +14,18 @@ interface Row {
   version: number;
 }
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let viewer: SignedInClient;
-let technician: SignedInClient;
-let student: SignedInClient;
-let schoolIds: Record<string, number>;
 let userIds: Record<string, number>;
 
 async function query<Result>(text: string): Promise<Result[]> {
   return rowsOf<Result>(await app.database.db.execute(sql.raw(text)));
 }
 
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, technician, viewer, student } = byRole(app.clients);
 beforeAll(async () => {
-  const started = await startTestApp({
-    signIn: ['coordinator', 'director.hpms', 'viewer.trhs', 'technician', 'student.hpms'],
-  });
-  app = started;
-  ({
-    coordinator,
-    'director.hpms': director,
-    'viewer.trhs': viewer,
-    technician,
-    'student.hpms': student,
-  } = started.clients);
-  schoolIds = started.schoolIds;
   const users = await query<{ email: string; id: number }>('select id, email from users');
   userIds = Object.fromEntries(users.map((row) => [row.email.split('@')[0], row.id]));
 });
-afterAll(() => app?.close());
 
 describe('Ensembles', () => {
   it('should list only the director’s school’s ensembles with kind labels and member counts', async () => {
@@ -62,7 +44,9 @@ describe('Ensembles', () => {
   });
 
   it('should answer 404 for another school’s ensemble and 403 for roles without roster access', async () => {
-    const quarry = await coordinator.get(`/api/ensembles?schoolId=${schoolIds['QHMS']}&limit=1`);
+    const quarry = await coordinator.get(
+      `/api/ensembles?schoolId=${app.schoolIds['QHMS']}&limit=1`,
+    );
     const id = quarry.body.rows[0].id;
     expect((await director.get(`/api/ensembles/${id}`)).status).toBe(404);
     expect(
@@ -75,7 +59,7 @@ describe('Ensembles', () => {
     const trhs = await viewer.get('/api/ensembles');
     expect(trhs.body.rows.every((row: Row) => row.schoolCode === 'TRHS')).toBe(true);
     const write = await viewer.post('/api/ensembles', {
-      schoolId: schoolIds['TRHS'],
+      schoolId: app.schoolIds['TRHS'],
       name: 'Jazz Lab',
       kind: 'jazz-band',
     });
@@ -92,7 +76,7 @@ describe('Ensembles', () => {
     const detail = await director.get(`/api/ensembles/${biggest.id}`);
     expect(detail.status).toBe(200);
     expect(detail.body.school).toEqual({
-      id: schoolIds['HPMS'],
+      id: app.schoolIds['HPMS'],
       code: 'HPMS',
       name: 'Heron Point Middle',
     });
@@ -139,7 +123,7 @@ describe('Ensembles', () => {
 
   it('should create, change and delete an ensemble, answering 409 on a stale version', async () => {
     const created = await director.post('/api/ensembles', {
-      schoolId: schoolIds['HPMS'],
+      schoolId: app.schoolIds['HPMS'],
       name: 'Jazz Lab',
       kind: 'jazz-band',
       meetingPeriod: 'Wed 15:30',
@@ -181,7 +165,7 @@ describe('Ensembles', () => {
   it('should answer 400 with field errors and create nothing when the input is bad', async () => {
     const before = await query<{ total: number }>('select count(*)::int as total from ensembles');
     const bad = await coordinator.post('/api/ensembles', {
-      schoolId: schoolIds['HPMS'],
+      schoolId: app.schoolIds['HPMS'],
       name: '',
       kind: 'choir',
     });
@@ -190,14 +174,14 @@ describe('Ensembles', () => {
       expect.arrayContaining(['name', 'kind']),
     );
     const duplicate = await coordinator.post('/api/ensembles', {
-      schoolId: schoolIds['HPMS'],
+      schoolId: app.schoolIds['HPMS'],
       name: 'Concert Band',
       kind: 'concert-band',
     });
     expect(duplicate.status).toBe(400);
     expect(duplicate.body.error.fieldErrors[0].field).toBe('name');
     const wrongDirector = await coordinator.post('/api/ensembles', {
-      schoolId: schoolIds['HPMS'],
+      schoolId: app.schoolIds['HPMS'],
       name: 'Flute Choir',
       kind: 'concert-band',
       directorUserId: userIds['director.qhms'],
@@ -205,7 +189,7 @@ describe('Ensembles', () => {
     expect(wrongDirector.status).toBe(400);
     expect(wrongDirector.body.error.fieldErrors[0].field).toBe('directorUserId');
     const elsewhere = await director.post('/api/ensembles', {
-      schoolId: schoolIds['QHMS'],
+      schoolId: app.schoolIds['QHMS'],
       name: 'Flute Choir',
       kind: 'concert-band',
     });

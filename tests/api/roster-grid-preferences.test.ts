@@ -1,11 +1,6 @@
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-
-let app: TestApp;
-let director: SignedInClient;
-let otherDirector: SignedInClient;
-let student: SignedInClient;
+import { describe, expect, it } from 'vitest';
+import { useTestApp, type SignedInClient } from '../support/test-app';
 
 const layout = {
   columns: [
@@ -21,18 +16,14 @@ function put(client: SignedInClient, path: string, body: object) {
   return request(app.url).put(path).set({ Cookie: client.cookie, Origin: app.url }).send(body);
 }
 
-beforeAll(async () => {
-  const started = await startTestApp({
-    signIn: ['director.hpms', 'director.qhms', 'student.hpms'],
-  });
-  app = started;
-  ({
-    'director.hpms': director,
-    'director.qhms': otherDirector,
-    'student.hpms': student,
-  } = started.clients);
+const app = useTestApp({
+  signIn: ['director.hpms', 'director.qhms', 'student.hpms'],
 });
-afterAll(() => app?.close());
+const {
+  'director.hpms': director,
+  'director.qhms': otherDirector,
+  'student.hpms': student,
+} = app.clients;
 
 describe('Grid preferences', () => {
   it('should keep each user’s own layout of a grid', async () => {

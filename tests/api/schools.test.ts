@@ -1,19 +1,8 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { describe, expect, it } from 'vitest';
+import { useTestApp } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let viewer: SignedInClient;
-let schoolIds: Record<string, number>;
-
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms', 'viewer.trhs'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director, 'viewer.trhs': viewer } = started.clients);
-  schoolIds = started.schoolIds;
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'viewer.trhs'] });
+const { coordinator, 'director.hpms': director, 'viewer.trhs': viewer } = app.clients;
 
 describe('Schools', () => {
   it('should list only the director’s own schools when a director asks', async () => {
@@ -25,20 +14,20 @@ describe('Schools', () => {
   });
 
   it('should answer 404 when a director opens another school', async () => {
-    expect((await director.get(`/api/schools/${schoolIds['QHMS']}`)).status).toBe(404);
-    expect((await director.get(`/api/schools/${schoolIds['HPMS']}`)).status).toBe(200);
+    expect((await director.get(`/api/schools/${app.schoolIds['QHMS']}`)).status).toBe(404);
+    expect((await director.get(`/api/schools/${app.schoolIds['HPMS']}`)).status).toBe(200);
   });
 
   it('should answer 403 when a director or viewer tries to change a school', async () => {
-    const hpms = await director.get(`/api/schools/${schoolIds['HPMS']}`);
+    const hpms = await director.get(`/api/schools/${app.schoolIds['HPMS']}`);
     const patch = { name: 'Renamed', version: hpms.body.version };
-    expect((await director.patch(`/api/schools/${schoolIds['HPMS']}`, patch)).status).toBe(403);
-    expect((await viewer.patch(`/api/schools/${schoolIds['TRHS']}`, patch)).status).toBe(403);
+    expect((await director.patch(`/api/schools/${app.schoolIds['HPMS']}`, patch)).status).toBe(403);
+    expect((await viewer.patch(`/api/schools/${app.schoolIds['TRHS']}`, patch)).status).toBe(403);
     expect(
       (await director.post('/api/schools', { code: 'NEW1', name: 'New School', level: 'middle' }))
         .status,
     ).toBe(403);
-    const after = await coordinator.get(`/api/schools/${schoolIds['HPMS']}`);
+    const after = await coordinator.get(`/api/schools/${app.schoolIds['HPMS']}`);
     expect(after.body.name).toBe('Heron Point Middle');
   });
 
@@ -114,14 +103,14 @@ describe('Schools', () => {
       level: 'elementary',
       lowestGrade: 0,
       highestGrade: 5,
-      sendsToSchoolId: schoolIds['HPMS'],
+      sendsToSchoolId: app.schoolIds['HPMS'],
     });
     expect(created.status).toBe(201);
     expect(created.body).toMatchObject({
       lowestGrade: 0,
       highestGrade: 5,
-      sendsToSchoolId: schoolIds['HPMS'],
-      sendsTo: { id: schoolIds['HPMS'], code: 'HPMS', name: 'Heron Point Middle' },
+      sendsToSchoolId: app.schoolIds['HPMS'],
+      sendsTo: { id: app.schoolIds['HPMS'], code: 'HPMS', name: 'Heron Point Middle' },
       closedOn: null,
     });
     const upsideDown = await coordinator.patch(`/api/schools/${created.body.id}`, {
@@ -200,7 +189,7 @@ describe('Schools', () => {
     expect(reopened.body.closedOn).toBeNull();
     expect(
       (
-        await director.patch(`/api/schools/${schoolIds['HPMS']}`, {
+        await director.patch(`/api/schools/${app.schoolIds['HPMS']}`, {
           version: 1,
           closedOn: '2026-06-12',
         })

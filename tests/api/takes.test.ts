@@ -1,5 +1,5 @@
 import fs from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import request from 'supertest';
 import { analyseTake } from '@shared/listening';
@@ -9,22 +9,7 @@ import { rowsOf } from '../../server/db/client';
 import { recordingPath } from '../../server/pass-offs/recordings-store';
 import { removeExpiredTakes } from '../../server/takes/takes-service';
 import { synthTake, wavBytes } from '../support/synth-take';
-import {
-  byRole,
-  demoEmail,
-  everyRole,
-  startTestApp,
-  type SignedInClient,
-  type TestApp,
-} from '../support/test-app';
-
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-let otherDirector: SignedInClient;
-let viewer: SignedInClient;
-let technician: SignedInClient;
-let student: SignedInClient;
+import { byRole, demoEmail, everyRole, useTestApp, type SignedInClient } from '../support/test-app';
 
 // A short take of concert Eb major long tones for a flute, with its analysis.
 const notes = pattern('arpeggio-long', { tonic: 'Eb', mode: 'major' }, { instrument: 'flute' });
@@ -32,12 +17,8 @@ const synthesised = synthTake(notes, 160, { sampleRate: 16_000, leadIn: 0.2 });
 const wave = Buffer.from(wavBytes(synthesised.samples, synthesised.sampleRate));
 const analysis = analyseTake(synthesised.samples, synthesised.sampleRate, notes, 160);
 
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: everyRole });
-  app = started;
-  ({ coordinator, director, otherDirector, viewer, technician, student } = byRole(started.clients));
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: everyRole });
+const { coordinator, director, otherDirector, viewer, technician, student } = byRole(app.clients);
 
 const keep = (
   client: SignedInClient,

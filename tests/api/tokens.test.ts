@@ -1,17 +1,10 @@
 import { eq, sql } from 'drizzle-orm';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { apiTokens } from '../../server/db/schema/index';
-import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { useTestApp } from '../support/test-app';
 
-let app: TestApp;
-let coordinator: SignedInClient;
-let director: SignedInClient;
-beforeAll(async () => {
-  const started = await startTestApp({ signIn: ['coordinator', 'director.hpms'] });
-  app = started;
-  ({ coordinator, 'director.hpms': director } = started.clients);
-});
-afterAll(() => app?.close());
+const app = useTestApp({ signIn: ['coordinator', 'director.hpms'] });
+const { coordinator, 'director.hpms': director } = app.clients;
 
 const day = 24 * 60 * 60 * 1000;
 

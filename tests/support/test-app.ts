@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import type { AddressInfo } from 'node:net';
-import { inject } from 'vitest';
+import { afterAll, beforeAll, inject } from 'vitest';
 import request from 'supertest';
 import { createApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
@@ -87,21 +87,36 @@ export function byRole(clients: Record<(typeof everyRole)[number], SignedInClien
   };
 }
 
+/** The demo users of `everyRole` who are not the coordinator and not the second director. */
+export const allButCoordinator = [
+  'director.hpms',
+  'viewer.trhs',
+  'technician',
+  'student.hpms',
+] as const;
+
+/** How a test file's app starts: `startTestApp` and `useTestApp` take the same options. */
+export interface TestAppOptions<Name extends string> {
+  template?: TemplateName;
+  serveWeb?: boolean;
+  environment?: NodeJS.ProcessEnv;
+  logger?: Logger;
+  payments?: boolean;
+  /** Demo users to sign in (by the local part of their e-mail), after `seed` has run. */
+  signIn?: readonly Name[];
+  /** Writes the test's own district into the database before anyone signs in. */
+  seed?: (database: DatabaseHandle) => Promise<void>;
+}
+
 /**
  * Starts the whole app for a test file, from the demo district unless told otherwise, and signs
  * in the demo users named in `signIn` (each through the identity provider, as a browser would).
  */
 export async function startTestApp<const Name extends string = never>(
-  options: {
-    template?: TemplateName;
-    serveWeb?: boolean;
-    environment?: NodeJS.ProcessEnv;
-    logger?: Logger;
-    payments?: boolean;
-    signIn?: readonly Name[];
-  } = {},
+  options: TestAppOptions<Name> = {},
 ): Promise<StartedTestApp<Name>> {
   const app = await startApp(options);
+  await options.seed?.(app.database);
   const signedIn = await Promise.all(
     (options.signIn ?? []).map((name) => app.signIn(demoEmail(name))),
   );
@@ -115,6 +130,66 @@ export async function startTestApp<const Name extends string = never>(
     ) as Record<Name, SignedInClient>,
     schoolIds: Object.fromEntries(schoolRows.map((row) => [row.code, row.id])),
   };
+}
+
+/**
+ * Starts the app before the file's tests and closes it after them; call it at the top of a test
+ * file. What it returns reads the running app, so use it inside tests and hooks; its `clients`
+ * may be taken apart at the top of the file, each one speaking for the signed-in user.
+ */
+export function useTestApp<const Name extends string = never>(
+  options: TestAppOptions<Name> = {},
+  startTimeoutMs?: number,
+): Readonly<StartedTestApp<Name>> {
+  let started: StartedTestApp<Name> | undefined;
+  beforeAll(async () => {
+    started = await startTestApp(options);
+  }, startTimeoutMs);
+  afterAll(() => started?.close());
+  const running = (): StartedTestApp<Name> => {
+    if (started === undefined)
+      throw new Error('The test app starts in beforeAll; use it inside a test.');
+    return started;
+  };
+  const clientOf = (name: Name): SignedInClient => ({
+    get jar() {
+      return running().clients[name].jar;
+    },
+    get cookie() {
+      return running().clients[name].cookie;
+    },
+    get: (target) => running().clients[name].get(target),
+    post: (target, body) => running().clients[name].post(target, body),
+    patch: (target, body) => running().clients[name].patch(target, body),
+    delete: (target) => running().clients[name].delete(target),
+  });
+  const clients = Object.fromEntries(
+    (options.signIn ?? []).map((name) => [name, clientOf(name)]),
+  ) as Record<Name, SignedInClient>;
+  /** The running app's fields, each read when a test asks for it. */
+  const fields = [
+    'schoolIds',
+    'url',
+    'config',
+    'database',
+    'oidc',
+    'mail',
+    'payments',
+    'oneRoster',
+    'anonymous',
+  ] as const;
+  const methods: Pick<TestApp, 'signIn' | 'token' | 'bearer' | 'close'> = {
+    signIn: (email) => running().signIn(email),
+    token: (email) => running().token(email),
+    bearer: (token) => running().bearer(token),
+    close: () => running().close(),
+  };
+  return Object.defineProperties(
+    { clients, ...methods },
+    Object.fromEntries(
+      fields.map((field) => [field, { get: () => running()[field], enumerable: true }]),
+    ),
+  ) as Readonly<StartedTestApp<Name>>;
 }
 
 async function startApp(options: {
