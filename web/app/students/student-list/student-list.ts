@@ -18,6 +18,7 @@ import { FilterSelect, choicesOf, namedChoices } from '../../core/grid/filter-se
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { injectSchoolChoices } from '../../schools/school-choices';
+import { SchoolFilter } from '../../schools/school-filter/school-filter';
 import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 import { gradeChoices, statusLabels } from '../student-form/student-choices';
@@ -29,6 +30,7 @@ import { gradeChoices, statusLabels } from '../student-form/student-choices';
     ServerGrid,
     GridSearch,
     FilterSelect,
+    SchoolFilter,
     MatButtonModule,
     MatIconModule,
     RouterLink,
@@ -59,7 +61,6 @@ export class StudentList {
   protected readonly pastYear = signal<SchoolYear | null>(null);
   protected readonly pastYearName = computed(() => this.pastYear()?.name ?? null);
   protected readonly grades = gradeChoices;
-  protected readonly schoolChoices = computed(() => namedChoices(this.schools()));
   protected readonly statusChoices = choicesOf<StudentStatus>(
     ['active', 'withdrawn'],
     (status) => statusLabels[status],
