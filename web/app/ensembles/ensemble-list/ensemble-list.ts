@@ -1,6 +1,8 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
+import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import {
@@ -8,10 +10,8 @@ import {
   ensembleKinds,
   ensembleSortFields,
   type Ensemble,
-  type EnsembleKind,
 } from '@shared/api/ensemble';
 import { CurrentUser } from '../../core/auth/current-user';
-import { FilterSelect, choicesOf } from '../../core/grid/filter-select/filter-select';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { injectSchoolChoices } from '../../schools/school-choices';
@@ -26,11 +26,12 @@ import { YearPicker } from '../../school-years/year-picker/year-picker';
   imports: [
     ServerGrid,
     GridSearch,
-    FilterSelect,
-    SchoolFilter,
     MatButtonModule,
+    MatFormFieldModule,
     MatIconModule,
+    MatSelectModule,
     RouterLink,
+    SchoolFilter,
     YearPicker,
   ],
   templateUrl: './ensemble-list.html',
@@ -43,6 +44,9 @@ import { YearPicker } from '../../school-years/year-picker/year-picker';
     .search {
       width: 280px;
     }
+    .filters mat-form-field:not(.search) {
+      width: 220px;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -50,10 +54,11 @@ export class EnsembleList {
   private readonly router = inject(Router);
   protected readonly canWrite = inject(CurrentUser).can('roster:write');
   protected readonly schools = injectSchoolChoices();
-  protected readonly kindChoices = choicesOf(ensembleKinds, (kind) => ensembleKindLabels[kind]);
+  protected readonly kinds = ensembleKinds;
+  protected readonly kindLabels = ensembleKindLabels;
   protected readonly search = signal('');
   protected readonly schoolId = signal<number | null>(null);
-  protected readonly kind = signal<EnsembleKind | null>(null);
+  protected readonly kind = signal<string | null>(null);
   /** A past year chosen in the year picker (that year's members, read-only), or null for now. */
   protected readonly pastYear = signal<SchoolYear | null>(null);
   protected readonly filters = computed(() => ({

@@ -2,10 +2,11 @@ import { WhenPipe } from '../../core/format/formats';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
 import type { AuditEntryRow } from '@shared/api/person';
-import { FilterSelect } from '../../core/grid/filter-select/filter-select';
-import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { Pager } from '../../core/pager/pager';
 import { LoadFailed } from '../../core/state/load-failed';
 import { PageState } from '../../core/state/page-state';
@@ -25,10 +26,11 @@ const pageSize = 50;
   selector: 'tb-audit-log',
   imports: [
     WhenPipe,
-    FilterSelect,
-    GridSearch,
     MatButtonModule,
+    MatFormFieldModule,
     MatIconModule,
+    MatInputModule,
+    MatSelectModule,
     LoadFailed,
     PageState,
     Pager,
@@ -40,10 +42,7 @@ const pageSize = 50;
 export class AuditLog {
   private readonly people = inject(PeopleData);
 
-  protected readonly entities = Object.entries(auditEntityLabels).map(([value, label]) => ({
-    value,
-    label,
-  }));
+  protected readonly entities = Object.entries(auditEntityLabels);
   protected readonly entityLabel = auditEntityLabel;
   protected readonly search = signal('');
   protected readonly entity = signal('');

@@ -3,19 +3,15 @@ import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@a
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
+import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import { firstValueFrom } from 'rxjs';
 import type { Person } from '@shared/api/person';
 import { roleLabels, roles, type Role } from '@shared/api/roles';
 import { CurrentUser } from '../../core/auth/current-user';
-import {
-  FilterSelect,
-  choicesOf,
-  namedChoices,
-  type FilterChoice,
-} from '../../core/grid/filter-select/filter-select';
-import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { errorMessage } from '../../core/parse';
 import { LoadFailed } from '../../core/state/load-failed';
 import { PageState } from '../../core/state/page-state';
@@ -31,10 +27,11 @@ type SortField = 'name' | 'email' | 'role' | 'lastSignInAt';
   selector: 'tb-person-list',
   imports: [
     WhenPipe,
-    FilterSelect,
-    GridSearch,
     MatButtonModule,
+    MatFormFieldModule,
     MatIconModule,
+    MatInputModule,
+    MatSelectModule,
     MatTooltipModule,
     LoadFailed,
     PageState,
@@ -49,14 +46,9 @@ export class PersonList {
   private readonly dialog = inject(MatDialog);
 
   protected readonly myId = inject(CurrentUser).me()?.id;
+  protected readonly roles = roles;
   protected readonly roleLabels = roleLabels;
-  protected readonly roleChoices = choicesOf(roles, (role) => roleLabels[role]);
-  private readonly schools = injectSchoolChoices();
-  protected readonly schoolChoices = computed(() => namedChoices(this.schools()));
-  protected readonly statusChoices: FilterChoice<'true' | 'false'>[] = [
-    { value: 'true', label: 'Active' },
-    { value: 'false', label: 'Deactivated' },
-  ];
+  protected readonly schools = injectSchoolChoices();
 
   protected readonly search = signal('');
   protected readonly role = signal<Role | ''>('');

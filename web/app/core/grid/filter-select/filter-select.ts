@@ -33,7 +33,7 @@ export function choicesOf<T extends string>(
         [attr.data-testid]="testId()"
       >
         @if (anyLabel(); as any) {
-          <mat-option [value]="anyValue()">{{ any }}</mat-option>
+          <mat-option [value]="null">{{ any }}</mat-option>
         }
         @for (choice of choices(); track choice.value) {
           <mat-option [value]="choice.value">{{ choice.label }}</mat-option>
@@ -52,21 +52,15 @@ export function choicesOf<T extends string>(
 export class FilterSelect<T> {
   /** The field's label, e.g. "School". */
   readonly label = input.required<string>();
-  /** The first choice, which clears the filter, e.g. "All schools"; none when ''. */
+  /** The first choice, which clears the filter (value null), e.g. "All schools"; none when ''. */
   readonly anyLabel = input('');
-  /**
-   * The value of that first choice: null (the default) leaves the select empty under its label,
-   * as Angular Material's select shows a null-valued option; a value such as '' shows the
-   * choice's words in the field.
-   */
-  readonly anyValue = input<T | null>(null);
-  readonly choices = input.required<readonly FilterChoice<NonNullable<T>>[]>();
+  readonly choices = input.required<readonly FilterChoice<T>[]>();
   /** The field's width as a CSS length ("130px"); its content's when none. */
   readonly width = input<string | null>(null);
   /** The select's data-testid, for browser tests. */
   readonly testId = input<string | null>(null);
-  /** The chosen value, or `anyValue` for every row (its type takes in null, or ''). */
-  readonly value = model.required<T>();
+  /** The chosen value, or null for every row. */
+  readonly value = model<T | null>(null);
 }
 
 /** The choices for rows with an id and a name (schools, instruments), by id. */
