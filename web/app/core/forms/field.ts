@@ -9,25 +9,35 @@ import {
 import { ReactiveFormsModule, type FormControl } from '@angular/forms';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
+import { MatSelectModule } from '@angular/material/select';
+import type { FilterChoice } from '../grid/filter-select/filter-select';
 import { fieldMessage } from './record-form';
 
 /**
- * A text field of a record form: the outlined form field, its label, the `matInput` bound to
- * `control`, an optional hint, and under it the control's message from `fieldMessage()` (the
- * shared schema's words, or the API's field error). The field owns its `matInput` rather than
- * projecting one: `mat-form-field` finds its control, label and errors only among its own
- * content children, and `matInput` finds its form field through injection, so a control
- * projected through a wrapper is not seen (Angular Material, "Creating a custom form field
- * control"). Selects keep their `mat-form-field` in the page. The page sets the width on the
- * element (`class="grow"`).
+ * A field of a record form: the outlined form field, its label, the `matInput` (or, given
+ * `choices`, the `mat-select`) bound to `control`, an optional hint, and under it the control's
+ * message from `fieldMessage()` (the shared schema's words, or the API's field error). The field
+ * owns its control rather than projecting one: `mat-form-field` finds its control, label and
+ * errors only among its own content children, and `matInput` finds its form field through
+ * injection, so a control projected through a wrapper is not seen (Angular Material, "Creating a
+ * custom form field control"). The page sets the width on the element (`class="grow"`).
  */
 @Component({
   selector: 'tb-field',
-  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule],
+  imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatSelectModule],
   template: `
     <mat-form-field appearance="outline">
       <mat-label>{{ label() }}</mat-label>
-      @if (rows(); as rows) {
+      @if (choices(); as choices) {
+        <mat-select [formControl]="control()" [attr.data-testid]="testId()">
+          @if (noneLabel(); as none) {
+            <mat-option [value]="null">{{ none }}</mat-option>
+          }
+          @for (choice of choices; track choice.value) {
+            <mat-option [value]="choice.value">{{ choice.label }}</mat-option>
+          }
+        </mat-select>
+      } @else if (rows(); as rows) {
         <textarea matInput [formControl]="control()" [rows]="rows"></textarea>
       } @else {
         <input
@@ -64,6 +74,10 @@ export class Field implements DoCheck {
   readonly type = input('text');
   /** A textarea of this many rows instead of a one-line input. */
   readonly rows = input<number | null>(null);
+  /** A select of these choices instead of an input. */
+  readonly choices = input<readonly FilterChoice<unknown>[] | null>(null);
+  /** The select's first choice, for no value (null), e.g. "Not recorded"; none when null. */
+  readonly noneLabel = input<string | null>(null);
   readonly hint = input('');
   readonly placeholder = input<string | null>(null);
   /** The browser's autofill hint (HTML, "autocomplete" attribute): 'organization', 'tel'. */

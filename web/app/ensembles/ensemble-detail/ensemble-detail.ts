@@ -9,10 +9,7 @@ import {
 } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
-import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import {
   ensembleInputSchema,
@@ -23,7 +20,8 @@ import {
 } from '@shared/api/ensemble';
 import { CurrentUser } from '../../core/auth/current-user';
 import { Field } from '../../core/forms/field';
-import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
+import { choicesOf, namedChoices } from '../../core/grid/filter-select/filter-select';
+import { schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
 import { RecordPage } from '../../core/record-page/record-page';
@@ -39,10 +37,7 @@ import { createRecordSave } from '../../core/forms/record-save';
     ReactiveFormsModule,
     RouterLink,
     MatButtonModule,
-    MatFormFieldModule,
     MatIconModule,
-    MatInputModule,
-    MatSelectModule,
     RecordPage,
     ConflictNotice,
   ],
@@ -61,15 +56,14 @@ export class EnsembleDetail {
   protected readonly canWrite = inject(CurrentUser).can('roster:write');
   protected readonly creating = computed(() => this.id() === 'new');
   protected readonly schools = injectSchoolChoices();
-  protected readonly kinds = ensembleKinds;
-  protected readonly kindLabels = ensembleKindLabels;
+  protected readonly schoolChoices = computed(() => namedChoices(this.schools()));
+  protected readonly kinds = choicesOf(ensembleKinds, (kind) => ensembleKindLabels[kind]);
   protected readonly record = this.ensembleData.record(() =>
     this.creating() ? undefined : Number(this.id()),
   );
   protected readonly ensemble = computed(() =>
     this.record.hasValue() ? this.record.value() : null,
   );
-  protected readonly fieldMessage = fieldMessage;
 
   protected readonly form = inject(NonNullableFormBuilder).group({
     schoolId: [null as number | null, schemaValidator(ensembleInputSchema.shape.schoolId)],

@@ -15,6 +15,7 @@ import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { injectSchoolChoices } from '../../schools/school-choices';
+import { SchoolFilter } from '../../schools/school-filter/school-filter';
 
 /** The ensembles of the user's schools, filtered by school and kind. */
 import type { SchoolYear } from '@shared/api/school-year';
@@ -30,6 +31,7 @@ import { YearPicker } from '../../school-years/year-picker/year-picker';
     MatIconModule,
     MatSelectModule,
     RouterLink,
+    SchoolFilter,
     YearPicker,
   ],
   templateUrl: './ensemble-list.html',

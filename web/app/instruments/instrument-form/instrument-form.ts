@@ -24,6 +24,7 @@ import {
 } from '@shared/api/instrument';
 import { instrumentFamilies, instruments } from '@shared/music/instrument-data';
 import { Field } from '../../core/forms/field';
+import { choicesOf, namedChoices } from '../../core/grid/filter-select/filter-select';
 import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { FleetInstruments } from '../instrument-data';
@@ -77,10 +78,15 @@ export class InstrumentForm {
     label: familyLabels[family],
     kinds: instruments.filter((kind) => kind.family === family),
   }));
-  protected readonly conditions = instrumentConditions;
-  protected readonly conditionLabels = conditionLabels;
-  protected readonly manualStatuses = manualInstrumentStatuses;
-  protected readonly statusLooks = statusLooks;
+  protected readonly conditions = choicesOf(
+    instrumentConditions,
+    (value) => conditionLabels[value],
+  );
+  protected readonly statuses = choicesOf(
+    manualInstrumentStatuses,
+    (value) => statusLooks[value].label,
+  );
+  protected readonly schoolChoices = computed(() => namedChoices(this.schools()));
   protected readonly adding = computed(() => this.instrument() === null);
   /** Loans, repairs and counts set the other statuses; a person may set only these. */
   protected readonly statusSettable = computed(() => {

@@ -23,10 +23,11 @@ import {
 } from '@shared/api/instrument';
 import { instrumentFamilies } from '@shared/music/instrument-data';
 import { CurrentUser } from '../../core/auth/current-user';
-import { FilterSelect, choicesOf, namedChoices } from '../../core/grid/filter-select/filter-select';
+import { FilterSelect, choicesOf } from '../../core/grid/filter-select/filter-select';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { injectSchoolChoices } from '../../schools/school-choices';
+import { SchoolFilter } from '../../schools/school-filter/school-filter';
 import { FleetInstruments } from '../instrument-data';
 import { IconTextCell, type IconTextCellParams } from '../icon-text-cell/icon-text-cell';
 import { FleetImportDialog } from '../fleet-import/fleet-import-dialog';
@@ -49,6 +50,7 @@ import type { InstrumentViewFilters } from '../instrument-views';
     ServerGrid,
     GridSearch,
     FilterSelect,
+    SchoolFilter,
     InstrumentViewBar,
     MatButtonModule,
     MatIconModule,
@@ -66,7 +68,6 @@ export class InstrumentList {
 
   protected readonly canWrite = inject(CurrentUser).can('fleet:write');
   protected readonly schools = injectSchoolChoices();
-  protected readonly schoolChoices = computed(() => namedChoices(this.schools()));
   protected readonly statusChoices = choicesOf(
     instrumentStatuses,
     (status) => statusLooks[status].label,

@@ -18,6 +18,7 @@ import { instrumentById } from '@shared/music';
 import { reachWarnings } from '../reach-warnings';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
+import { LoadFailed } from '../../core/state/load-failed';
 import { PageState } from '../../core/state/page-state';
 import { createWrite } from '../../core/state/write';
 import { StudentProgressData } from '../../students/student-progress/student-progress-data';
@@ -52,6 +53,7 @@ const defaultInstrument = 'clarinet';
     MatCheckboxModule,
     MatIconModule,
     RouterLink,
+    LoadFailed,
     PageState,
     InstrumentPicker,
   ],

@@ -8,6 +8,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import type { AuditEntryRow } from '@shared/api/person';
 import { Pager } from '../../core/pager/pager';
+import { LoadFailed } from '../../core/state/load-failed';
 import { PageState } from '../../core/state/page-state';
 import { PeopleData } from '../people-data';
 import {
@@ -30,6 +31,7 @@ const pageSize = 50;
     MatIconModule,
     MatInputModule,
     MatSelectModule,
+    LoadFailed,
     PageState,
     Pager,
   ],

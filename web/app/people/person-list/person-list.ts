@@ -13,6 +13,7 @@ import type { Person } from '@shared/api/person';
 import { roleLabels, roles, type Role } from '@shared/api/roles';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
+import { LoadFailed } from '../../core/state/load-failed';
 import { PageState } from '../../core/state/page-state';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
@@ -32,6 +33,7 @@ type SortField = 'name' | 'email' | 'role' | 'lastSignInAt';
     MatInputModule,
     MatSelectModule,
     MatTooltipModule,
+    LoadFailed,
     PageState,
   ],
   templateUrl: './person-list.html',

@@ -17,6 +17,7 @@ import {
 } from '@shared/api/token';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
+import { LoadFailed } from '../../core/state/load-failed';
 import { PageState } from '../../core/state/page-state';
 import { PeopleData } from '../people-data';
 import { ApiTokenData } from '../token-data';
@@ -37,6 +38,7 @@ import { createWrite } from '../../core/state/write';
     MatIconModule,
     MatInputModule,
     MatSelectModule,
+    LoadFailed,
     PageState,
   ],
   templateUrl: './token-list.html',

@@ -74,6 +74,8 @@ import type { ShortageReport } from '@shared/api/planning';
     </div>
   `,
   styles: `
+    @use '../../../theme/plain-table';
+
     .intro {
       margin: -4px 0 12px;
     }
@@ -102,17 +104,7 @@ import type { ShortageReport } from '@shared/api/planning';
       gap: 16px;
       align-items: start;
     }
-    table {
-      width: 100%;
-      border-collapse: collapse;
-      font-size: 0.9rem;
-    }
-    th,
-    td {
-      text-align: left;
-      padding: 5px 6px;
-      border-bottom: 1px solid var(--tb-line);
-    }
+    @include plain-table.plain-table(5px 6px);
     th {
       font-size: 0.8rem;
       color: var(--tb-teal-deep);

@@ -8,7 +8,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import type { SchoolYear } from '@shared/api/school-year';
 import { errorMessage } from '../../core/parse';
-import { PageState } from '../../core/state/page-state';
+import { LoadFailed } from '../../core/state/load-failed';
 import { SchoolYearData } from '../school-year-data';
 import { YearStart } from '../year-start/year-start';
 import { createWrite } from '../../core/state/write';
@@ -35,7 +35,7 @@ interface YearDraft {
     MatFormFieldModule,
     MatIconModule,
     MatInputModule,
-    PageState,
+    LoadFailed,
     YearStart,
   ],
   templateUrl: './school-years-page.html',

@@ -13,12 +13,12 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import { gradeLabel, schoolInputSchema, schoolLevels, type School } from '@shared/api/school';
 import { CurrentUser } from '../../core/auth/current-user';
 import { Field } from '../../core/forms/field';
-import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
+import { choicesOf } from '../../core/grid/filter-select/filter-select';
+import { schemaValidator } from '../../core/forms/record-form';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
 import { RecordPage } from '../../core/record-page/record-page';
 import { EnsembleData } from '../../ensembles/ensemble-data';
@@ -38,7 +38,6 @@ import { createRecordSave } from '../../core/forms/record-save';
     MatFormFieldModule,
     MatIconModule,
     MatInputModule,
-    MatSelectModule,
     RecordPage,
     ConflictNotice,
   ],
@@ -57,7 +56,7 @@ export class SchoolDetail {
   protected readonly canWrite = inject(CurrentUser).can('schools:write');
   protected readonly creating = computed(() => this.id() === 'new');
   private readonly schoolId = computed(() => (this.creating() ? undefined : Number(this.id())));
-  protected readonly levels = schoolLevels;
+  protected readonly levels = choicesOf(schoolLevels, (level) => schoolLevelLabels[level]);
   protected readonly levelLabels = schoolLevelLabels;
   protected readonly record = this.schoolData.record(this.schoolId);
   protected readonly school = computed(() => (this.record.hasValue() ? this.record.value() : null));
@@ -69,15 +68,16 @@ export class SchoolDetail {
         ? []
         : null,
   );
-  protected readonly fieldMessage = fieldMessage;
-  protected readonly grades = Array.from({ length: 13 }, (_, grade) => grade);
-  protected readonly gradeLabel = gradeLabel;
+  protected readonly grades = Array.from({ length: 13 }, (_, grade) => ({
+    value: grade,
+    label: gradeLabel(grade),
+  }));
   private readonly openSchools = injectSchoolChoices({ openOnly: true });
   /** The open schools students may move up to (the school itself left out). */
   protected readonly otherSchools = computed(() =>
     this.openSchools()
       .filter((school) => school.id !== this.schoolId())
-      .map(({ id, code, name }) => ({ id, code, name })),
+      .map(({ id, code, name }) => ({ value: id, label: `${name} (${code})` })),
   );
   protected readonly closingOn = signal(new Date().toISOString().slice(0, 10));
 
@@ -90,6 +90,11 @@ export class SchoolDetail {
     highestGrade: [null as number | null],
     sendsToSchoolId: [null as number | null],
   });
+  /** The two ends of the school's grade range, one select each. */
+  protected readonly gradeEnds = [
+    { label: 'Lowest grade', testId: 'lowest-grade', control: this.form.controls.lowestGrade },
+    { label: 'Highest grade', testId: 'highest-grade', control: this.form.controls.highestGrade },
+  ];
 
   constructor() {
     effect(() => {

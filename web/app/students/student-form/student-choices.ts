@@ -1,4 +1,5 @@
 import type { StudentStatus } from '@shared/api/student';
+import { choicesOf } from '../../core/grid/filter-select/filter-select';
 
 /** The grades a student can be in: 0 is kindergarten, written K. */
 export const gradeChoices: { value: number; label: string }[] = Array.from(
@@ -16,3 +17,9 @@ export const statusLabels: Record<StudentStatus, string> = {
   graduated: 'Graduated',
   leaving: 'Left the district',
 };
+
+/** The statuses a director sets by hand (the year start sets the others). */
+export const statusChoices = choicesOf<StudentStatus>(
+  ['active', 'withdrawn'],
+  (status) => statusLabels[status],
+);

@@ -10,10 +10,7 @@ import {
 } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
-import { MatSelectModule } from '@angular/material/select';
 import type { SchoolSummary } from '@shared/api/me';
 import {
   studentInputSchema,
@@ -23,10 +20,11 @@ import {
   type StudentStatus,
 } from '@shared/api/student';
 import { Field } from '../../core/forms/field';
-import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
+import { namedChoices } from '../../core/grid/filter-select/filter-select';
+import { schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { StudentData } from '../student-detail/student-data';
-import { gradeChoices, statusLabels } from './student-choices';
+import { gradeChoices, statusChoices } from './student-choices';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
 import { createRecordSave } from '../../core/forms/record-save';
 
@@ -35,16 +33,7 @@ const fields = studentInputSchema.shape;
 /** A student's record as a form: names, grade, status and guardian; school and id when adding. */
 @Component({
   selector: 'tb-student-form',
-  imports: [
-    Field,
-    ReactiveFormsModule,
-    MatButtonModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatInputModule,
-    MatSelectModule,
-    ConflictNotice,
-  ],
+  imports: [Field, ReactiveFormsModule, MatButtonModule, MatIconModule, ConflictNotice],
   templateUrl: './student-form.html',
   styleUrl: './student-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -66,13 +55,13 @@ export class StudentForm {
   readonly reloadRequested = output<void>();
 
   protected readonly grades = gradeChoices;
-  protected readonly statusLabels = statusLabels;
+  protected readonly statuses = statusChoices;
+  protected readonly schoolChoices = computed(() => namedChoices(this.schools()));
   protected readonly adding = computed(() => this.student() === null);
   /** Guardian fields are absent from the answer for roles that may not see them. */
   protected readonly showsGuardian = computed(
     () => this.adding() || this.student()?.guardianName !== undefined,
   );
-  protected readonly fieldMessage = fieldMessage;
 
   protected readonly form = inject(NonNullableFormBuilder).group({
     schoolId: [null as number | null, schemaValidator(fields.schoolId)],

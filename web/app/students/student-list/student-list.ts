@@ -14,13 +14,14 @@ import type { ColDef } from 'ag-grid-community';
 import { instruments } from '@shared/music/instrument-data';
 import { studentSortFields, type Student, type StudentStatus } from '@shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
-import { FilterSelect, choicesOf, namedChoices } from '../../core/grid/filter-select/filter-select';
+import { FilterSelect, namedChoices } from '../../core/grid/filter-select/filter-select';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { injectSchoolChoices } from '../../schools/school-choices';
+import { SchoolFilter } from '../../schools/school-filter/school-filter';
 import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
-import { gradeChoices, statusLabels } from '../student-form/student-choices';
+import { gradeChoices, statusChoices, statusLabels } from '../student-form/student-choices';
 
 /** The students of the user's schools: search, filters, and a way into each record. */
 @Component({
@@ -29,6 +30,7 @@ import { gradeChoices, statusLabels } from '../student-form/student-choices';
     ServerGrid,
     GridSearch,
     FilterSelect,
+    SchoolFilter,
     MatButtonModule,
     MatIconModule,
     RouterLink,
@@ -59,11 +61,7 @@ export class StudentList {
   protected readonly pastYear = signal<SchoolYear | null>(null);
   protected readonly pastYearName = computed(() => this.pastYear()?.name ?? null);
   protected readonly grades = gradeChoices;
-  protected readonly schoolChoices = computed(() => namedChoices(this.schools()));
-  protected readonly statusChoices = choicesOf<StudentStatus>(
-    ['active', 'withdrawn'],
-    (status) => statusLabels[status],
-  );
+  protected readonly statusChoices = statusChoices;
   protected readonly instrumentChoices = namedChoices(instruments);
   protected readonly search = signal('');
   protected readonly school = linkedSignal<number | null>(() => {

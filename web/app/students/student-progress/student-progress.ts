@@ -9,6 +9,7 @@ import type { PassOff } from '@shared/api/pass-off';
 import { instrumentById } from '@shared/music';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
+import { LoadFailed } from '../../core/state/load-failed';
 import { PageState } from '../../core/state/page-state';
 import { dateText, gradeText } from '../../ladder/date-text';
 import { LadderData } from '../../ladder/ladder-data';
@@ -33,7 +34,7 @@ const fallbackInstrument = 'clarinet';
  */
 @Component({
   selector: 'tb-student-progress',
-  imports: [MatButtonModule, MatIconModule, RouterLink, PageState],
+  imports: [MatButtonModule, MatIconModule, RouterLink, LoadFailed, PageState],
   templateUrl: './student-progress.html',
   styleUrl: './student-progress.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

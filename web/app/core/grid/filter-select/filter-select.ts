@@ -2,7 +2,7 @@ import { ChangeDetectionStrategy, Component, input, model } from '@angular/core'
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatSelectModule } from '@angular/material/select';
 
-/** One choice of a filter: the value the grid filters by and its words on screen. */
+/** One choice of a select (a filter, or a form field): its value and its words on screen. */
 export interface FilterChoice<T> {
   value: T;
   label: string;
