@@ -47,3 +47,23 @@ export async function recordLedger(
   }
   return true;
 }
+
+/** A refund the payment service made against one payment attempt, written to the fee ledger. */
+export function recordRefund(
+  tx: Transaction,
+  row: LoanRow,
+  refund: { id: string; amount: number; currency: string },
+  attemptId: number,
+  reason: string,
+  recordedBy: number | null = null,
+): Promise<boolean> {
+  return recordLedger(tx, row, {
+    kind: 'refund',
+    amountCents: refund.amount,
+    currency: refund.currency,
+    reference: refund.id,
+    attemptId,
+    reason,
+    recordedBy,
+  });
+}

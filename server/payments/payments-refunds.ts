@@ -11,7 +11,7 @@ import { stateConflict } from '../instruments/instruments-service';
 import { findLoanRow } from '../loans/loans-queries';
 import { feeRowOf } from './fees-queries';
 import { isServiceDown, paymentsClient, paymentsUnavailable } from './payments-client';
-import { feeCurrency, recordLedger } from './payments-ledger';
+import { feeCurrency, recordLedger, recordRefund } from './payments-ledger';
 
 type Attempt = typeof feePaymentAttempts.$inferSelect;
 type LedgerEntry = typeof feeLedger.$inferSelect;
@@ -67,15 +67,7 @@ async function refundAttempt(
     );
     await db.transaction(async (tx) => {
       const row = await findLoanRow(tx, null, loanId);
-      await recordLedger(tx, row, {
-        kind: 'refund',
-        amountCents: refund.amount,
-        currency: refund.currency,
-        reference: refund.id,
-        attemptId: attempt.id,
-        reason: input.reason,
-        recordedBy: actor.userId,
-      });
+      await recordRefund(tx, row, refund, attempt.id, input.reason, actor.userId);
       await recordAudit(tx, actor, {
         action: 'refund',
         entity: 'loan-fee',

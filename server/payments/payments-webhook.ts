@@ -8,7 +8,7 @@ import type { Logger } from '../logger';
 import { findLoanRow } from '../loans/loans-queries';
 import { feeRowOf } from './fees-queries';
 import { paymentsClient } from './payments-client';
-import { paymentIntentOf, recordLedger } from './payments-ledger';
+import { paymentIntentOf, recordLedger, recordRefund } from './payments-ledger';
 
 /** Work to do with the service once the event's transaction has committed. */
 type FollowUp =
@@ -198,17 +198,7 @@ async function refunded(tx: Transaction, charge: Stripe.Charge): Promise<string>
     const reason =
       refund.metadata?.['tuttiboardReason'] ??
       (refund.reason ? `Refunded at the service (${refund.reason})` : 'Refunded at the service');
-    if (
-      await recordLedger(tx, row, {
-        kind: 'refund',
-        amountCents: refund.amount,
-        currency: refund.currency,
-        reference: refund.id,
-        attemptId: attempt.id,
-        reason,
-      })
-    )
-      recorded += 1;
+    if (await recordRefund(tx, row, refund, attempt.id, reason)) recorded += 1;
   }
   return `${recorded} refund(s) recorded`;
 }

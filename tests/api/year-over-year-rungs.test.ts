@@ -4,6 +4,7 @@ import { currentRung, type PassOffRecord, type Rung } from '@shared/ladder/index
 import { yearOverYearSchema, type RungByGrade } from '@shared/api/year-over-year';
 import { rowsOf } from '../../server/db/client';
 import { activeRuleLadder } from '../../server/ladder/ladder-queries';
+import { plainMedian } from '../support/plain-median';
 import { startTestApp, type StartedTestApp } from '../support/test-app';
 
 type App = StartedTestApp<'coordinator' | 'director.hpms'>;
@@ -31,16 +32,6 @@ interface Player {
   grade: number;
   code: string;
   family: string;
-}
-
-/** A plain median: sort, take the middle value or the mean of the two middle ones. */
-function median(values: number[]): number | null {
-  if (values.length === 0) return null;
-  const sorted = [...values].sort((a, b) => a - b);
-  const middle = sorted.length / 2;
-  return sorted.length % 2
-    ? sorted[Math.floor(middle)]!
-    : (sorted[middle - 1]! + sorted[middle]!) / 2;
 }
 
 /**
@@ -82,7 +73,7 @@ async function plainFigure(
   return new Map(
     [...byGrade].map(([grade, values]) => [
       grade,
-      { median: median(values), students: values.length },
+      { median: plainMedian(values), students: values.length },
     ]),
   );
 }

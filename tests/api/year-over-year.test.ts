@@ -7,6 +7,7 @@ import {
   type YearOverYear,
 } from '@shared/api/year-over-year';
 import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
+import { plainMedian } from '../support/plain-median';
 
 interface Ensemble {
   id: number;
@@ -187,19 +188,12 @@ describe('Year over year', () => {
         select a.rung from student_attainment a
         where a.active and a.student_id = any(${`{${ends.map((row) => row.student_id).join(',')}}`}::int[])`),
     );
-    const median = (values: number[]) => {
-      const sorted = [...values].sort((a, b) => a - b);
-      const middle = sorted.length / 2;
-      return sorted.length % 2
-        ? sorted[Math.floor(middle)]!
-        : (sorted[middle - 1]! + sorted[middle]!) / 2;
-    };
     const cohort = figures.cohorts.find(
       (entry) => entry.startYear === '2025-26' && entry.startGrade === 7,
     )!;
     expect(cohort.points).toEqual([
-      { year: '2025-26', median: median(ends.map((row) => row.rung)), students: ends.length },
-      { year: '2026-27', median: median(now.map((row) => row.rung)), students: now.length },
+      { year: '2025-26', median: plainMedian(ends.map((row) => row.rung)), students: ends.length },
+      { year: '2026-27', median: plainMedian(now.map((row) => row.rung)), students: now.length },
     ]);
     // A climb: a cohort's median does not fall from one year's end to the next in the demo.
     expect(cohort.points[1]!.median).toBeGreaterThanOrEqual(cohort.points[0]!.median);

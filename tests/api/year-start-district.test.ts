@@ -10,6 +10,7 @@ import {
   readRosterBefore,
   type RosterBefore,
 } from '../support/year-start-expectation';
+import { plainMedian } from '../support/plain-median';
 
 let app: TestApp;
 const next = {
@@ -282,15 +283,8 @@ describe('Starting a year in a 2,000-student district', () => {
     };
     for (const row of played) add(row.student_id, row.year, row.grade, row.rung);
     for (const row of now) add(row.student_id, '2028-29', row.grade, row.rung);
-    const median = (values: number[]) => {
-      const sorted = [...values].sort((a, b) => a - b);
-      const middle = sorted.length / 2;
-      return sorted.length % 2
-        ? sorted[Math.floor(middle)]!
-        : (sorted[middle - 1]! + sorted[middle]!) / 2;
-    };
     const expected = [...points]
-      .map(([key, rungs]) => `${key}|${median(rungs)}|${rungs.length}`)
+      .map(([key, rungs]) => `${key}|${plainMedian(rungs)}|${rungs.length}`)
       .sort();
     const figures = await yearOverYear(
       app.database.db,
