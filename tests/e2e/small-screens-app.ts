@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, expect } from 'vitest';
 import { AxeBuilder } from '@axe-core/playwright';
-import type { Browser, Page } from 'playwright-core';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { startTestApp, type TestApp } from '../support/test-app';
 import { launchBrowser } from '../support/browser';
 
@@ -21,6 +21,22 @@ export function useSmallScreens() {
     await started.app?.close();
   });
   return started;
+}
+
+/** A touch device's browser context: a phone or tablet window in CSS pixels, US English, Pacific time. */
+export function touchContext(
+  browser: Browser,
+  viewport: { width: number; height: number },
+  deviceScaleFactor?: number,
+): Promise<BrowserContext> {
+  return browser.newContext({
+    viewport,
+    ...(deviceScaleFactor ? { deviceScaleFactor } : {}),
+    isMobile: true,
+    hasTouch: true,
+    locale: 'en-US',
+    timezoneId: 'America/Los_Angeles',
+  });
 }
 
 /** Waits until a screen has its heading and has finished loading its data. */

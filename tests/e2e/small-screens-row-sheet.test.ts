@@ -6,6 +6,7 @@ import {
   dialogBox,
   seriousViolations,
   sidewaysOverflow,
+  touchContext,
   useSmallScreens,
 } from './small-screens-app';
 
@@ -14,14 +15,7 @@ const started = useSmallScreens();
 describe('Phones and tablets', () => {
   it('should show the rest of a grid row in a sheet on a phone, open the row from it, and show a dialog full-screen', async () => {
     const { app, browser } = started;
-    const context = await browser.newContext({
-      viewport: { width: 390, height: 844 },
-      deviceScaleFactor: 2,
-      isMobile: true,
-      hasTouch: true,
-      locale: 'en-US',
-      timezoneId: 'America/Los_Angeles',
-    });
+    const context = await touchContext(browser, { width: 390, height: 844 }, 2);
     const page = await context.newPage();
     await signInAs(page, app.url, demoEmail('director.hpms'));
     await page.goto(`${app.url}/students`);
@@ -84,13 +78,7 @@ describe('Phones and tablets', () => {
 
     // A tablet held upright (a medium window): the columns that fit its width, no sideways
     // scroll inside the grid, and the rest of a row in the same sheet.
-    const tablet = await browser.newContext({
-      viewport: { width: 820, height: 1180 },
-      isMobile: true,
-      hasTouch: true,
-      locale: 'en-US',
-      timezoneId: 'America/Los_Angeles',
-    });
+    const tablet = await touchContext(browser, { width: 820, height: 1180 });
     const tabletPage = await tablet.newPage();
     await signInAs(tabletPage, app.url, demoEmail('coordinator'), '/ensembles');
     const tabletRow = tabletPage.locator('.ag-row[row-index="0"]').first();

@@ -5,7 +5,7 @@ import type { Ladder, LadderRequirement } from '@shared/api/ladder';
 import type { PassOff } from '@shared/api/pass-off';
 import { findInstrument } from '@shared/music/index';
 import { dialogReady, saveScreenshot, signInAs } from '../support/browser';
-import { dialogBox, sidewaysOverflow, useSmallScreens } from './small-screens-app';
+import { dialogBox, sidewaysOverflow, touchContext, useSmallScreens } from './small-screens-app';
 
 const started = useSmallScreens();
 
@@ -69,14 +69,7 @@ describe('Phones and tablets', () => {
       before.set(student.id, rows.length);
     }
 
-    const context = await browser.newContext({
-      viewport: { width: 390, height: 844 },
-      deviceScaleFactor: 2,
-      isMobile: true,
-      hasTouch: true,
-      locale: 'en-US',
-      timezoneId: 'America/Los_Angeles',
-    });
+    const context = await touchContext(browser, { width: 390, height: 844 }, 2);
     const page = await context.newPage();
     await signInAs(page, app.url, demoEmail('director.hpms'));
     await page.goto(`${app.url}/pass-offs?ensemble=${chosen!.ensembleId}&rung=1`);
@@ -239,13 +232,7 @@ describe('Phones and tablets', () => {
     await context.close();
 
     // A tablet held sideways: the icon rail beside the page, and the touch entry in two columns.
-    const tablet = await browser.newContext({
-      viewport: { width: 1180, height: 820 },
-      isMobile: true,
-      hasTouch: true,
-      locale: 'en-US',
-      timezoneId: 'America/Los_Angeles',
-    });
+    const tablet = await touchContext(browser, { width: 1180, height: 820 });
     const tabletPage = await tablet.newPage();
     await signInAs(tabletPage, app.url, demoEmail('director.hpms'));
     await tabletPage.goto(`${app.url}/pass-offs?ensemble=${chosen!.ensembleId}&rung=1`);
