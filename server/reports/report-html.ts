@@ -5,6 +5,7 @@ import {
   countText,
   figureRows,
   figureText,
+  loanFlags,
   gradeLabel,
   percent,
   shareChange,
@@ -58,30 +59,33 @@ function ladderParts(ladder: DirectorReportData['ladder']): string[] {
 
 /** The instrument parts of a director report: the fleet's figures and the loans to follow up. */
 function fleetParts(fleet: DirectorReportData['fleet']): string[] {
-  if (!fleet.available) return [unavailable(fleet)];
-  const parts = [
-    dataTable(
-      ['Out on loan', 'Overdue', 'In repair', 'Unsigned agreements'],
-      [[fleet.out, fleet.overdue, fleet.inRepair, fleet.unsigned]],
-      [0, 1, 2, 3],
-    ),
-  ];
-  const attention = fleet.loans.filter((loan) => loan.overdue || !loan.signed);
-  if (attention.length) {
+  const parts: string[] = [];
+  if (fleet.available) {
     parts.push(
-      heading('Loans to follow up'),
       dataTable(
-        ['Asset tag', 'Instrument', 'Student', 'Due', 'Overdue', 'Agreement'],
-        attention.map((loan) => [
-          loan.assetTag,
-          loan.instrument,
-          loan.student,
-          loan.dueOn,
-          loan.overdue ? 'yes' : 'no',
-          loan.signed ? 'signed' : 'unsigned',
-        ]),
+        ['Out on loan', 'Overdue', 'In repair', 'Unsigned agreements'],
+        [[fleet.out, fleet.overdue, fleet.inRepair, fleet.unsigned]],
+        [0, 1, 2, 3],
       ),
     );
+    const attention = fleet.loans.filter((loan) => loan.overdue || !loan.signed);
+    if (attention.length) {
+      parts.push(
+        heading('Loans to follow up'),
+        dataTable(
+          ['Asset tag', 'Instrument', 'Student', 'Due', 'Overdue', 'Agreement'],
+          attention.map((loan) => [
+            loan.assetTag,
+            loan.instrument,
+            loan.student,
+            loan.dueOn,
+            ...loanFlags(loan),
+          ]),
+        ),
+      );
+    }
+  } else {
+    parts.push(unavailable(fleet));
   }
   return parts;
 }
