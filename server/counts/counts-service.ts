@@ -202,41 +202,6 @@ function scanView(scan: typeof countScans.$inferSelect) {
   };
 }
 
-/** The instruments a count is reconciled against: the school's own and any scanned in it. */
-function countedInstruments(db: Database, schoolId: number, countId: number) {
-  return db
-    .select({
-      id: instruments.id,
-      assetTag: instruments.assetTag,
-      instrumentType: instruments.instrumentId,
-      status: instruments.status,
-      homeSchoolId: instruments.homeSchoolId,
-      homeSchoolCode: schools.code,
-    })
-    .from(instruments)
-    .innerJoin(schools, eq(schools.id, instruments.homeSchoolId))
-    .where(
-      sql`${instruments.homeSchoolId} = ${schoolId} or ${instruments.id} in (select cs.instrument_id from count_scans cs where cs.count_id = ${countId})`,
-    )
-    .orderBy(instruments.assetTag);
-}
-
-/** The repairs out at a vendor for the scanned instruments. */
-async function repairsAtVendor(db: Database, scannedIds: Set<number>) {
-  if (!scannedIds.size) return [];
-  return db
-    .select({
-      id: repairTickets.id,
-      instrumentId: repairTickets.instrumentId,
-      vendor: repairTickets.vendor,
-      sentOn: repairTickets.sentOn,
-    })
-    .from(repairTickets)
-    .where(
-      and(eq(repairTickets.status, 'sent'), inArray(repairTickets.instrumentId, [...scannedIds])),
-    );
-}
-
 /** A count with its scans and the reconciliation against the fleet's records. */
 export async function countDetail(db: Database, actor: Actor, id: number): Promise<CountDetail> {
   const current = await findCount(db, actor, id);
@@ -296,6 +261,41 @@ export async function countDetail(db: Database, actor: Actor, id: number): Promi
       }),
     },
   };
+}
+
+/** The instruments a count is reconciled against: the school's own and any scanned in it. */
+function countedInstruments(db: Database, schoolId: number, countId: number) {
+  return db
+    .select({
+      id: instruments.id,
+      assetTag: instruments.assetTag,
+      instrumentType: instruments.instrumentId,
+      status: instruments.status,
+      homeSchoolId: instruments.homeSchoolId,
+      homeSchoolCode: schools.code,
+    })
+    .from(instruments)
+    .innerJoin(schools, eq(schools.id, instruments.homeSchoolId))
+    .where(
+      sql`${instruments.homeSchoolId} = ${schoolId} or ${instruments.id} in (select cs.instrument_id from count_scans cs where cs.count_id = ${countId})`,
+    )
+    .orderBy(instruments.assetTag);
+}
+
+/** The repairs out at a vendor for the scanned instruments. */
+async function repairsAtVendor(db: Database, scannedIds: Set<number>) {
+  if (!scannedIds.size) return [];
+  return db
+    .select({
+      id: repairTickets.id,
+      instrumentId: repairTickets.instrumentId,
+      vendor: repairTickets.vendor,
+      sentOn: repairTickets.sentOn,
+    })
+    .from(repairTickets)
+    .where(
+      and(eq(repairTickets.status, 'sent'), inArray(repairTickets.instrumentId, [...scannedIds])),
+    );
 }
 
 /**
