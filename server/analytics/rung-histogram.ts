@@ -53,16 +53,8 @@ function median(counts: readonly number[]): number {
 
 const share = (part: number, whole: number) => (whole === 0 ? null : part / whole);
 
-/** The rung, benchmark and median figures from the histogram. */
-export async function rungFigures(
-  db: Queryable,
-  cells: readonly HistogramCell[],
-  rungCount: number,
-  benchmarks: readonly Benchmark[],
-  filters: StudentFilters & { asOf?: string | undefined },
-  asOf: string,
-): Promise<Pick<Overview, 'studentsByRung' | 'benchmark' | 'medianRungByGrade' | 'studentCount'>> {
-  const width = Math.max(rungCount, ...cells.map((cell) => cell.rung)) + 1;
+/** The cells' students by rung, overall and per school and per grade. */
+function tallyCells(cells: readonly HistogramCell[], width: number) {
   const emptyCounts = () => new Array<number>(width).fill(0);
   const byRung = emptyCounts();
   const bySchool = new Map<number, number[]>();
@@ -76,6 +68,49 @@ export async function rungFigures(
     grade[cell.rung]! += cell.students;
     byGrade.set(cell.grade, grade);
   }
+  return { byRung, bySchool, byGrade };
+}
+
+/** Each school's students at or above their grade's benchmark in force. */
+function schoolBenchmarks(
+  schoolRows: { id: number; code: string; name: string }[],
+  cells: readonly HistogramCell[],
+  inForce: ReturnType<typeof benchmarksInForce>,
+  filters: StudentFilters & { asOf?: string | undefined },
+) {
+  return schoolRows.map((school) => {
+    let atOrAbove = 0;
+    let students = 0;
+    for (const cell of cells) {
+      if (cell.schoolId !== school.id) continue;
+      const benchmark = inForce.get(cell.grade);
+      if (!benchmark) continue;
+      students += cell.students;
+      if (cell.rung >= benchmark.rung) atOrAbove += cell.students;
+    }
+    return {
+      schoolId: school.id,
+      code: school.code,
+      name: school.name,
+      atOrAbove,
+      students,
+      share: share(atOrAbove, students),
+      drill: studentsDrill({ ...filters, schoolId: school.id }, { belowBenchmark: true }),
+    };
+  });
+}
+
+/** The rung, benchmark and median figures from the histogram. */
+export async function rungFigures(
+  db: Queryable,
+  cells: readonly HistogramCell[],
+  rungCount: number,
+  benchmarks: readonly Benchmark[],
+  filters: StudentFilters & { asOf?: string | undefined },
+  asOf: string,
+): Promise<Pick<Overview, 'studentsByRung' | 'benchmark' | 'medianRungByGrade' | 'studentCount'>> {
+  const width = Math.max(rungCount, ...cells.map((cell) => cell.rung)) + 1;
+  const { byRung, bySchool, byGrade } = tallyCells(cells, width);
   const schoolIds = [...bySchool.keys()];
   const schoolRows = schoolIds.length
     ? rowsOf<{ id: number; code: string; name: string }>(
@@ -105,26 +140,7 @@ export async function rungFigures(
       },
     ];
   });
-  const benchmarkBySchool = schoolRows.map((school) => {
-    let atOrAbove = 0;
-    let students = 0;
-    for (const cell of cells) {
-      if (cell.schoolId !== school.id) continue;
-      const benchmark = inForce.get(cell.grade);
-      if (!benchmark) continue;
-      students += cell.students;
-      if (cell.rung >= benchmark.rung) atOrAbove += cell.students;
-    }
-    return {
-      schoolId: school.id,
-      code: school.code,
-      name: school.name,
-      atOrAbove,
-      students,
-      share: share(atOrAbove, students),
-      drill: studentsDrill({ ...filters, schoolId: school.id }, { belowBenchmark: true }),
-    };
-  });
+  const benchmarkBySchool = schoolBenchmarks(schoolRows, cells, inForce, filters);
 
   return {
     studentCount: byRung.reduce((sum, value) => sum + value, 0),

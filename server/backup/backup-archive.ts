@@ -225,9 +225,63 @@ function safeEntryPath(entryPath: string): string | undefined {
 }
 
 /**
- * Reads a backup archive into `into` (an empty folder) and checks it against its manifest:
- * the database and every listed file present with its size and SHA-256, nothing unlisted, the
- * archive whole to its end. Throws {@link BackupArchiveError} with one sentence otherwise.
+ * Checks what an archive wrote out against its manifest: the database and every listed file
+ * present with its size and SHA-256, nothing unlisted, each on disk at the size read. Throws
+ * {@link BackupArchiveError} with one sentence otherwise.
+ */
+async function checkAgainstManifest(
+  into: string,
+  written: Map<string, { bytes: number; sha256: string }>,
+): Promise<BackupManifest> {
+  let manifest: BackupManifest;
+  try {
+    manifest = manifestSchema.parse(
+      JSON.parse(fs.readFileSync(path.join(into, manifestName), 'utf8')),
+    );
+  } catch {
+    throw new BackupArchiveError(
+      `it has no readable ${manifestName}, so it is not a Tuttiboard backup`,
+    );
+  }
+  const database = written.get(databaseName);
+  if (!database) throw new BackupArchiveError(`it holds no ${databaseName}`);
+  if (database.bytes !== manifest.database.bytes || database.sha256 !== manifest.database.sha256)
+    throw new BackupArchiveError(`its ${databaseName} does not match the checksum in its manifest`);
+  const listed = new Set<string>();
+  for (const entry of manifest.files.list) {
+    const name = `${filesFolder}/${entry.path}`;
+    listed.add(name);
+    const found = written.get(name);
+    if (!found)
+      throw new BackupArchiveError(`the file ${entry.path} its manifest lists is missing`);
+    if (found.bytes !== entry.bytes || found.sha256 !== entry.sha256)
+      throw new BackupArchiveError(
+        `the file ${entry.path} does not match the checksum in its manifest`,
+      );
+  }
+  const extra = [...written.keys()].find(
+    (name) => name.startsWith(`${filesFolder}/`) && !listed.has(name),
+  );
+  if (extra) throw new BackupArchiveError(`it holds ${extra}, which its manifest does not list`);
+  if (
+    manifest.files.count !== manifest.files.list.length ||
+    manifest.files.bytes !== manifest.files.list.reduce((total, entry) => total + entry.bytes, 0)
+  )
+    throw new BackupArchiveError('its manifest does not add up');
+  // Written files are checked above from the bytes as they streamed past; make sure they are
+  // all on disk at the sizes read.
+  for (const [name, found] of written) {
+    const onDisk = await stat(path.join(into, ...name.split('/'))).catch(() => undefined);
+    if (onDisk?.size !== found.bytes)
+      throw new BackupArchiveError(`${name} could not be written out whole`);
+  }
+  return manifest;
+}
+
+/**
+ * Reads a backup archive into `into` (an empty folder) and checks it against its manifest (see
+ * {@link checkAgainstManifest}), the archive whole to its end. Throws
+ * {@link BackupArchiveError} with one sentence otherwise.
  */
 export async function extractBackup(file: string, into: string): Promise<BackupManifest> {
   const problems: string[] = [];
@@ -294,49 +348,7 @@ export async function extractBackup(file: string, into: string): Promise<BackupM
       `it is not a whole .tar.gz archive (${describeReadError(readError)})`,
     );
   if (problems.length) throw new BackupArchiveError(problems[0]!);
-  let manifest: BackupManifest;
-  try {
-    manifest = manifestSchema.parse(
-      JSON.parse(fs.readFileSync(path.join(into, manifestName), 'utf8')),
-    );
-  } catch {
-    throw new BackupArchiveError(
-      `it has no readable ${manifestName}, so it is not a Tuttiboard backup`,
-    );
-  }
-  const database = written.get(databaseName);
-  if (!database) throw new BackupArchiveError(`it holds no ${databaseName}`);
-  if (database.bytes !== manifest.database.bytes || database.sha256 !== manifest.database.sha256)
-    throw new BackupArchiveError(`its ${databaseName} does not match the checksum in its manifest`);
-  const listed = new Set<string>();
-  for (const entry of manifest.files.list) {
-    const name = `${filesFolder}/${entry.path}`;
-    listed.add(name);
-    const found = written.get(name);
-    if (!found)
-      throw new BackupArchiveError(`the file ${entry.path} its manifest lists is missing`);
-    if (found.bytes !== entry.bytes || found.sha256 !== entry.sha256)
-      throw new BackupArchiveError(
-        `the file ${entry.path} does not match the checksum in its manifest`,
-      );
-  }
-  const extra = [...written.keys()].find(
-    (name) => name.startsWith(`${filesFolder}/`) && !listed.has(name),
-  );
-  if (extra) throw new BackupArchiveError(`it holds ${extra}, which its manifest does not list`);
-  if (
-    manifest.files.count !== manifest.files.list.length ||
-    manifest.files.bytes !== manifest.files.list.reduce((total, entry) => total + entry.bytes, 0)
-  )
-    throw new BackupArchiveError('its manifest does not add up');
-  // Written files are checked above from the bytes as they streamed past; make sure they are
-  // all on disk at the sizes read.
-  for (const [name, found] of written) {
-    const onDisk = await stat(path.join(into, ...name.split('/'))).catch(() => undefined);
-    if (onDisk?.size !== found.bytes)
-      throw new BackupArchiveError(`${name} could not be written out whole`);
-  }
-  return manifest;
+  return checkAgainstManifest(into, written);
 }
 
 function describeReadError(error: unknown): string {

@@ -188,6 +188,11 @@ export async function recordScan(
     }
     return row!;
   });
+  return scanView(scan);
+}
+
+/** A scan as the API returns it. */
+function scanView(scan: typeof countScans.$inferSelect) {
   return {
     id: scan.id,
     assetTag: scan.assetTag,
@@ -208,21 +213,7 @@ export async function countDetail(db: Database, actor: Actor, id: number): Promi
   const scannedIds = new Set(
     scans.flatMap((scan) => (scan.instrumentId === null ? [] : [scan.instrumentId])),
   );
-  const relevant = await db
-    .select({
-      id: instruments.id,
-      assetTag: instruments.assetTag,
-      instrumentType: instruments.instrumentId,
-      status: instruments.status,
-      homeSchoolId: instruments.homeSchoolId,
-      homeSchoolCode: schools.code,
-    })
-    .from(instruments)
-    .innerJoin(schools, eq(schools.id, instruments.homeSchoolId))
-    .where(
-      sql`${instruments.homeSchoolId} = ${current.schoolId} or ${instruments.id} in (select cs.instrument_id from count_scans cs where cs.count_id = ${id})`,
-    )
-    .orderBy(instruments.assetTag);
+  const relevant = await countedInstruments(db, current.schoolId, id);
   const toCounted = (row: (typeof relevant)[number]) => ({
     id: row.id,
     assetTag: row.assetTag,
@@ -232,32 +223,11 @@ export async function countDetail(db: Database, actor: Actor, id: number): Promi
     homeSchoolCode: row.homeSchoolCode,
   });
   const home = relevant.filter((row) => row.homeSchoolId === current.schoolId);
-  const sent = scannedIds.size
-    ? await db
-        .select({
-          id: repairTickets.id,
-          instrumentId: repairTickets.instrumentId,
-          vendor: repairTickets.vendor,
-          sentOn: repairTickets.sentOn,
-        })
-        .from(repairTickets)
-        .where(
-          and(
-            eq(repairTickets.status, 'sent'),
-            inArray(repairTickets.instrumentId, [...scannedIds]),
-          ),
-        )
-    : [];
+  const sent = await repairsAtVendor(db, scannedIds);
   const sentByInstrument = new Map(sent.map((ticket) => [ticket.instrumentId, ticket]));
   return {
     ...current,
-    scans: scans.map((scan) => ({
-      id: scan.id,
-      assetTag: scan.assetTag,
-      instrumentId: scan.instrumentId,
-      outcome: scan.outcome,
-      scannedAt: scan.scannedAt.toISOString(),
-    })),
+    scans: scans.map(scanView),
     reconciliation: {
       found: home.filter((row) => scannedIds.has(row.id)).map(toCounted),
       foundElsewhere: relevant
@@ -291,6 +261,41 @@ export async function countDetail(db: Database, actor: Actor, id: number): Promi
       }),
     },
   };
+}
+
+/** The instruments a count is reconciled against: the school's own and any scanned in it. */
+function countedInstruments(db: Database, schoolId: number, countId: number) {
+  return db
+    .select({
+      id: instruments.id,
+      assetTag: instruments.assetTag,
+      instrumentType: instruments.instrumentId,
+      status: instruments.status,
+      homeSchoolId: instruments.homeSchoolId,
+      homeSchoolCode: schools.code,
+    })
+    .from(instruments)
+    .innerJoin(schools, eq(schools.id, instruments.homeSchoolId))
+    .where(
+      sql`${instruments.homeSchoolId} = ${schoolId} or ${instruments.id} in (select cs.instrument_id from count_scans cs where cs.count_id = ${countId})`,
+    )
+    .orderBy(instruments.assetTag);
+}
+
+/** The repairs out at a vendor for the scanned instruments. */
+async function repairsAtVendor(db: Database, scannedIds: Set<number>) {
+  if (!scannedIds.size) return [];
+  return db
+    .select({
+      id: repairTickets.id,
+      instrumentId: repairTickets.instrumentId,
+      vendor: repairTickets.vendor,
+      sentOn: repairTickets.sentOn,
+    })
+    .from(repairTickets)
+    .where(
+      and(eq(repairTickets.status, 'sent'), inArray(repairTickets.instrumentId, [...scannedIds])),
+    );
 }
 
 /**

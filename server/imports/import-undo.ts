@@ -44,8 +44,7 @@ async function journalCounts(session: SqlSession, importId: number) {
 /**
  * Why the import cannot be undone: it committed nothing or is undone already, it is older than
  * the window, a later import wrote one of its schools, a new school year began, or work recorded
- * since depends on what it wrote (pass-offs, loans, takes or accounts of the students it created;
- * a student or seat it wrote edited since).
+ * since depends on what it wrote (see `dependentWorkBlockers`).
  */
 async function blockersOf(session: SqlSession, row: ImportRow): Promise<string[]> {
   if (!row.committed) return ['This import committed nothing, so there is nothing to undo.'];
@@ -78,6 +77,16 @@ async function blockersOf(session: SqlSession, row: ImportRow): Promise<string[]
         'A new school year has started since this import, and its seats belong to the year before.',
       );
   }
+  blockers.push(...(await dependentWorkBlockers(session, row.id)));
+  return blockers;
+}
+
+/**
+ * Work recorded since the import that depends on what it wrote: pass-offs, loans, takes or
+ * accounts of the students it created; a student or seat it wrote edited since.
+ */
+async function dependentWorkBlockers(session: SqlSession, importId: number): Promise<string[]> {
+  const blockers: string[] = [];
   const [depends] = await session.query<{
     pass_offs: number;
     loans: number;
@@ -106,7 +115,7 @@ async function blockersOf(session: SqlSession, row: ImportRow): Promise<string[]
        + (select count(*)::int from enrollments en join students s on s.id = en.student_id
           join created c on c.student_id = en.student_id
           where en.version > 1 or en.created_at > s.created_at) as seats_edited`,
-    [row.id],
+    [importId],
   );
   const { pass_offs, loans, takes, accounts, students_edited, seats_edited } = depends!;
   if (pass_offs > 0)
@@ -174,12 +183,75 @@ export async function previewImportUndo(
 }
 
 /**
- * Takes a committed import back, all or nothing, in one transaction: seats it added are removed
- * and seats it changed or ended put back, students it changed or withdrew get their fields and
- * status back (a school move back is recorded as a move), students it created are removed with
- * their seats, and ensembles it created go when no one sits in them. Refuses (409, naming each
- * reason) while anything blocks it (see {@link blockersOf}); the blockers are read again inside
- * the transaction, which on a server holds the import lock.
+ * Reverses what the import's journal records: seats it added are removed and seats it changed
+ * or ended put back, students it changed or withdrew get their fields and status back (a school
+ * move back is recorded as a move), students it created are removed with their seats, and
+ * ensembles it created go when no one sits in them.
+ */
+async function reverseJournal(session: SqlSession, importId: number, userId: number) {
+  // Seats first: removing a created student removes its seats with it.
+  await session.query(
+    `with restored as (
+       update enrollments en set
+         active = coalesce((c.before->>'active')::boolean, en.active),
+         instrument_id = case when c.before ? 'instrument_id' then c.before->>'instrument_id'
+                         else en.instrument_id end,
+         version = en.version + 1, updated_at = now()
+       from roster_import_changes c
+       where c.import_id = $1::int and c.kind in ('seat-changed', 'seat-ended')
+         and en.id = c.enrollment_id
+       returning en.id
+     )
+     delete from enrollments en using roster_import_changes c
+     where c.import_id = $1::int and c.kind = 'seat-added' and en.id = c.enrollment_id`,
+    [importId],
+  );
+  await session.query(
+    `with prior as (
+       select s.*, c.kind, c.before from students s
+       join roster_import_changes c on c.student_id = s.id
+       where c.import_id = $1::int and c.kind in ('student-updated', 'student-withdrawn')
+     ), restored as (
+       update students s set
+         first_name = case when p.kind = 'student-updated' then p.before->>'first_name' else s.first_name end,
+         last_name = case when p.kind = 'student-updated' then p.before->>'last_name' else s.last_name end,
+         preferred_name = case when p.kind = 'student-updated' then p.before->>'preferred_name' else s.preferred_name end,
+         grade = case when p.kind = 'student-updated' then (p.before->>'grade')::smallint else s.grade end,
+         school_id = case when p.kind = 'student-updated' then (p.before->>'school_id')::int else s.school_id end,
+         guardian_name = case when p.kind = 'student-updated' then p.before->>'guardian_name' else s.guardian_name end,
+         guardian_email = case when p.kind = 'student-updated' then p.before->>'guardian_email' else s.guardian_email end,
+         status = p.before->>'status',
+         version = s.version + 1, updated_at = now()
+       from prior p where s.id = p.id
+       returning s.*
+     ), moved as (
+       insert into school_moves (student_id, from_school_id, to_school_id, moved_by)
+       select r.id, p.school_id, r.school_id, $2::int from restored r join prior p on p.id = r.id
+       where p.school_id <> r.school_id
+     )
+     insert into audit_log (user_id, action, entity, entity_id, before, after)
+     select $2::int, 'update', 'student', r.id::text,
+       to_jsonb(p) - 'kind' - 'before', to_jsonb(r)
+     from restored r join prior p on p.id = r.id`,
+    [importId, userId],
+  );
+  await session.query(
+    `delete from students s using roster_import_changes c
+     where c.import_id = $1::int and c.kind = 'student-created' and s.id = c.student_id`,
+    [importId],
+  );
+  await session.query(
+    `delete from ensembles e using roster_import_changes c
+     where c.import_id = $1::int and c.kind = 'ensemble-created' and e.id = c.ensemble_id
+       and not exists (select 1 from enrollments en where en.ensemble_id = e.id)`,
+    [importId],
+  );
+}
+
+/**
+ * Takes a committed import back, all or nothing, in one transaction (see {@link reverseJournal}).
+ * Refuses (409, naming each reason) while anything blocks it (see {@link blockersOf}); the
+ * blockers are read again inside the transaction, which on a server holds the import lock.
  */
 export async function undoImport(
   database: DatabaseHandle,
@@ -197,63 +269,7 @@ export async function undoImport(
         `This import cannot be undone. ${planned.blockers.join(' ')}`,
       );
     const userId = actor.userId;
-    // Seats first: removing a created student removes its seats with it.
-    await session.query(
-      `with restored as (
-         update enrollments en set
-           active = coalesce((c.before->>'active')::boolean, en.active),
-           instrument_id = case when c.before ? 'instrument_id' then c.before->>'instrument_id'
-                           else en.instrument_id end,
-           version = en.version + 1, updated_at = now()
-         from roster_import_changes c
-         where c.import_id = $1::int and c.kind in ('seat-changed', 'seat-ended')
-           and en.id = c.enrollment_id
-         returning en.id
-       )
-       delete from enrollments en using roster_import_changes c
-       where c.import_id = $1::int and c.kind = 'seat-added' and en.id = c.enrollment_id`,
-      [importId],
-    );
-    await session.query(
-      `with prior as (
-         select s.*, c.kind, c.before from students s
-         join roster_import_changes c on c.student_id = s.id
-         where c.import_id = $1::int and c.kind in ('student-updated', 'student-withdrawn')
-       ), restored as (
-         update students s set
-           first_name = case when p.kind = 'student-updated' then p.before->>'first_name' else s.first_name end,
-           last_name = case when p.kind = 'student-updated' then p.before->>'last_name' else s.last_name end,
-           preferred_name = case when p.kind = 'student-updated' then p.before->>'preferred_name' else s.preferred_name end,
-           grade = case when p.kind = 'student-updated' then (p.before->>'grade')::smallint else s.grade end,
-           school_id = case when p.kind = 'student-updated' then (p.before->>'school_id')::int else s.school_id end,
-           guardian_name = case when p.kind = 'student-updated' then p.before->>'guardian_name' else s.guardian_name end,
-           guardian_email = case when p.kind = 'student-updated' then p.before->>'guardian_email' else s.guardian_email end,
-           status = p.before->>'status',
-           version = s.version + 1, updated_at = now()
-         from prior p where s.id = p.id
-         returning s.*
-       ), moved as (
-         insert into school_moves (student_id, from_school_id, to_school_id, moved_by)
-         select r.id, p.school_id, r.school_id, $2::int from restored r join prior p on p.id = r.id
-         where p.school_id <> r.school_id
-       )
-       insert into audit_log (user_id, action, entity, entity_id, before, after)
-       select $2::int, 'update', 'student', r.id::text,
-         to_jsonb(p) - 'kind' - 'before', to_jsonb(r)
-       from restored r join prior p on p.id = r.id`,
-      [importId, userId],
-    );
-    await session.query(
-      `delete from students s using roster_import_changes c
-       where c.import_id = $1::int and c.kind = 'student-created' and s.id = c.student_id`,
-      [importId],
-    );
-    await session.query(
-      `delete from ensembles e using roster_import_changes c
-       where c.import_id = $1::int and c.kind = 'ensemble-created' and e.id = c.ensemble_id
-         and not exists (select 1 from enrollments en where en.ensemble_id = e.id)`,
-      [importId],
-    );
+    await reverseJournal(session, importId, userId);
     const [done] = await session.query<{ undone_at: string }>(
       `update roster_imports set undone_at = now(), undone_by = $2::int
        where id = $1::int returning to_json(undone_at)#>>'{}' as undone_at`,

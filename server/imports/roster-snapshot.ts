@@ -76,6 +76,41 @@ const existingStudentColumns = sql`s.id, s.student_number as "studentNumber",
  */
 export const snapshotSlice = 4_000;
 
+/**
+ * Every student of the file's schools, for withdrawing those the file leaves out: in slices by
+ * id.
+ */
+async function schoolsStudents(db: Database, schoolIds: number[]): Promise<ExistingStudent[]> {
+  const studentRows: ExistingStudent[] = [];
+  for (let after = 0; schoolIds.length > 0;) {
+    const slice = await jsonRows<ExistingStudent>(
+      db,
+      sql`select ${existingStudentColumns} from students s
+        where s.school_id = any(${sql.param(schoolIds)}::int[]) and s.id > ${after}
+        order by s.id limit ${snapshotSlice}`,
+    );
+    studentRows.push(...slice);
+    if (slice.length < snapshotSlice) break;
+    after = slice.at(-1)!.id;
+    await yieldToRequests();
+  }
+  return studentRows;
+}
+
+/** Each school's ensembles by name in lower case; the first of a name (lowest id) wins. */
+function ensemblesBySchool(
+  rows: { id: number; schoolId: number; name: string }[],
+): RosterSnapshot['ensembles'] {
+  const ensembles: RosterSnapshot['ensembles'] = new Map();
+  for (const row of rows) {
+    const byName = ensembles.get(row.schoolId) ?? new Map();
+    const key = row.name.toLowerCase();
+    if (!byName.has(key)) byName.set(key, { id: row.id, name: row.name });
+    ensembles.set(row.schoolId, byName);
+  }
+  return ensembles;
+}
+
 /** Reads what an import of these students at these schools is compared against. */
 export async function readRosterSnapshot(
   db: Database,
@@ -126,33 +161,13 @@ export async function readRosterSnapshot(
         )),
       );
   }
-  // Every student of the file's schools, for withdrawing those the file leaves out: in slices
-  // by id.
-  for (let after = 0; withSchoolsStudents && schoolIds.length > 0;) {
-    const slice = await jsonRows<ExistingStudent>(
-      db,
-      sql`select ${existingStudentColumns} from students s
-        where s.school_id = any(${sql.param(schoolIds)}::int[]) and s.id > ${after}
-        order by s.id limit ${snapshotSlice}`,
-    );
-    studentRows.push(...slice);
-    if (slice.length < snapshotSlice) break;
-    after = slice.at(-1)!.id;
-    await yieldToRequests();
-  }
+  if (withSchoolsStudents) studentRows.push(...(await schoolsStudents(db, schoolIds)));
   const ensembleRows = rowsOf<{ id: number; schoolId: number; name: string }>(
     await db.execute(sql`
       select id, school_id as "schoolId", name from ensembles
       where school_id = any(${sql.param(schoolIds)}::int[]) order by id`),
   );
-
-  const ensembles = new Map<number, Map<string, { id: number; name: string }>>();
-  for (const row of ensembleRows) {
-    const byName = ensembles.get(row.schoolId) ?? new Map();
-    const key = row.name.toLowerCase();
-    if (!byName.has(key)) byName.set(key, { id: row.id, name: row.name });
-    ensembles.set(row.schoolId, byName);
-  }
+  const ensembles = ensemblesBySchool(ensembleRows);
   const generationAfter = await generationNow();
   const seats = new Map<string, Map<number, ExistingSeat>>();
   for (const row of seatRows) {

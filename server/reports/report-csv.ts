@@ -1,6 +1,6 @@
 import { csvField } from '@shared/roster/roster-csv';
 import type { DirectorReportData, DistrictReportData, ReportData } from '@shared/api/report';
-import { figureRows } from './report-format';
+import { figureRows, loanFlags } from './report-format';
 
 /** A table of detail rows, first row the column names. */
 export interface ReportCsvFile {
@@ -88,8 +88,7 @@ function directorFiles(data: DirectorReportData): ReportCsvFile[] {
           loan.student,
           loan.checkedOutOn,
           loan.dueOn,
-          loan.overdue ? 'yes' : 'no',
-          loan.signed ? 'signed' : 'unsigned',
+          ...loanFlags(loan),
         ]),
       ],
     });

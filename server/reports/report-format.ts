@@ -59,3 +59,8 @@ export function reportSubject(data: ReportData): string {
     ? `${data.school.name} (${data.school.code}): director report, ${period}`
     : `District summary, ${period}`;
 }
+
+/** A loan's overdue and agreement cells, as the report's tables and files word them. */
+export function loanFlags(loan: { overdue: boolean; signed: boolean }): [string, string] {
+  return [loan.overdue ? 'yes' : 'no', loan.signed ? 'signed' : 'unsigned'];
+}

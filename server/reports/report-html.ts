@@ -5,6 +5,7 @@ import {
   countText,
   figureRows,
   figureText,
+  loanFlags,
   gradeLabel,
   percent,
   shareChange,
@@ -33,6 +34,62 @@ function studentTable(students: DirectorReportData['stalled']): string {
   );
 }
 
+/** The rung parts of a director report: students by rung and the benchmark share by grade. */
+function ladderParts(ladder: DirectorReportData['ladder']): string[] {
+  if (ladder.available)
+    return [
+      barTable(
+        ladder.byRung.map((row) => ({
+          label: row.rung === 0 ? 'Not started' : `Rung ${row.rung}`,
+          value: row.students,
+        })),
+      ),
+      heading('At or above benchmark, by grade'),
+      barTable(
+        ladder.byGrade.map((row) => ({
+          label: `${gradeLabel(row.grade)} (benchmark ${row.benchmarkRung ?? 'none'})`,
+          value: row.share ?? 0,
+          display: row.share === null ? '–' : `${percent(row.share)} of ${row.students}`,
+        })),
+        1,
+      ),
+    ];
+  return [unavailable(ladder), heading('At or above benchmark, by grade'), unavailable(ladder)];
+}
+
+/** The instrument parts of a director report: the fleet's figures and the loans to follow up. */
+function fleetParts(fleet: DirectorReportData['fleet']): string[] {
+  const parts: string[] = [];
+  if (fleet.available) {
+    parts.push(
+      dataTable(
+        ['Out on loan', 'Overdue', 'In repair', 'Unsigned agreements'],
+        [[fleet.out, fleet.overdue, fleet.inRepair, fleet.unsigned]],
+        [0, 1, 2, 3],
+      ),
+    );
+    const attention = fleet.loans.filter((loan) => loan.overdue || !loan.signed);
+    if (attention.length) {
+      parts.push(
+        heading('Loans to follow up'),
+        dataTable(
+          ['Asset tag', 'Instrument', 'Student', 'Due', 'Overdue', 'Agreement'],
+          attention.map((loan) => [
+            loan.assetTag,
+            loan.instrument,
+            loan.student,
+            loan.dueOn,
+            ...loanFlags(loan),
+          ]),
+        ),
+      );
+    }
+  } else {
+    parts.push(unavailable(fleet));
+  }
+  return parts;
+}
+
 /** The HTML part of a director report. */
 export function directorReportHtml(data: DirectorReportData, district = ''): string {
   const { enrolment, ladder, passOffs, fleet } = data;
@@ -53,31 +110,7 @@ export function directorReportHtml(data: DirectorReportData, district = ''): str
       : note('No seats this school year yet.'),
     heading('Students by rung'),
   ];
-  if (ladder.available) {
-    parts.push(
-      barTable(
-        ladder.byRung.map((row) => ({
-          label: row.rung === 0 ? 'Not started' : `Rung ${row.rung}`,
-          value: row.students,
-        })),
-      ),
-      heading('At or above benchmark, by grade'),
-      barTable(
-        ladder.byGrade.map((row) => ({
-          label: `${gradeLabel(row.grade)} (benchmark ${row.benchmarkRung ?? 'none'})`,
-          value: row.share ?? 0,
-          display: row.share === null ? '–' : `${percent(row.share)} of ${row.students}`,
-        })),
-        1,
-      ),
-    );
-  } else {
-    parts.push(
-      unavailable(ladder),
-      heading('At or above benchmark, by grade'),
-      unavailable(ladder),
-    );
-  }
+  parts.push(...ladderParts(ladder));
   parts.push(heading('Pass-offs in the period'));
   parts.push(
     passOffs.available
@@ -89,34 +122,7 @@ export function directorReportHtml(data: DirectorReportData, district = ''): str
   parts.push(heading('Stalled students'), studentTable(data.stalled));
   parts.push(heading('Audition-ready students'), studentTable(data.auditionReady));
   parts.push(heading('Instruments'));
-  if (fleet.available) {
-    parts.push(
-      dataTable(
-        ['Out on loan', 'Overdue', 'In repair', 'Unsigned agreements'],
-        [[fleet.out, fleet.overdue, fleet.inRepair, fleet.unsigned]],
-        [0, 1, 2, 3],
-      ),
-    );
-    const attention = fleet.loans.filter((loan) => loan.overdue || !loan.signed);
-    if (attention.length) {
-      parts.push(
-        heading('Loans to follow up'),
-        dataTable(
-          ['Asset tag', 'Instrument', 'Student', 'Due', 'Overdue', 'Agreement'],
-          attention.map((loan) => [
-            loan.assetTag,
-            loan.instrument,
-            loan.student,
-            loan.dueOn,
-            loan.overdue ? 'yes' : 'no',
-            loan.signed ? 'signed' : 'unsigned',
-          ]),
-        ),
-      );
-    }
-  } else {
-    parts.push(unavailable(fleet));
-  }
+  parts.push(...fleetParts(fleet));
   // The heading names the school once; the line under it only adds the period.
   return mailDocument(
     `${data.school.name} (${data.school.code}): director report`,

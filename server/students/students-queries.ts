@@ -236,24 +236,14 @@ export function pagePlan(
   return { offset: page.offset, limit, reversed: false, fenced };
 }
 
+/** A parsed student list query: paging, sort, search and the student filters. */
+type StudentListQuery = ReturnType<typeof parseListQuery<typeof studentFiltersSchema>>;
+
 /**
- * The students the actor may see, searched, filtered, sorted and paged; with `next`, the cursor
- * for the page after this one when the page is full.
+ * The list's scope and filters as conditions on `students`, and the same on the per-school
+ * counts (`countConditions`) for the filters the counts can answer.
  */
-export async function listStudents(
-  db: Database,
-  actor: Actor,
-  query: unknown,
-): Promise<ListResponse<Student> & { next?: string }> {
-  const list = parseListQuery(query, studentFiltersSchema);
-  if (list.schoolYearId !== undefined) {
-    const current = await findCurrentSchoolYear(db);
-    if (current?.id !== list.schoolYearId)
-      return listStudentsOfYear(db, actor, { ...list, schoolYearId: list.schoolYearId });
-  }
-  const sort = list.sort ?? 'lastName:asc';
-  const order = orderBy(sort);
-  const after = list.after ? afterCondition(list.after, sort) : undefined;
+async function filterConditions(db: Database, actor: Actor, list: StudentListQuery) {
   const scope = schoolScope(actor);
   const conditions: (SQL | undefined)[] = [];
   // The same filters on the per-school counts, while no filter needs the rows themselves.
@@ -289,6 +279,28 @@ export async function listStudents(
   if (list.instrumentId) {
     conditions.push(seatedCondition(sql`seat.instrument_id = ${list.instrumentId}`));
   }
+  return { conditions, countConditions };
+}
+
+/**
+ * The students the actor may see, searched, filtered, sorted and paged; with `next`, the cursor
+ * for the page after this one when the page is full.
+ */
+export async function listStudents(
+  db: Database,
+  actor: Actor,
+  query: unknown,
+): Promise<ListResponse<Student> & { next?: string }> {
+  const list = parseListQuery(query, studentFiltersSchema);
+  if (list.schoolYearId !== undefined) {
+    const current = await findCurrentSchoolYear(db);
+    if (current?.id !== list.schoolYearId)
+      return listStudentsOfYear(db, actor, { ...list, schoolYearId: list.schoolYearId });
+  }
+  const sort = list.sort ?? 'lastName:asc';
+  const order = orderBy(sort);
+  const after = list.after ? afterCondition(list.after, sort) : undefined;
+  const { conditions, countConditions } = await filterConditions(db, actor, list);
   const where = and(...conditions);
   const countsSuffice = !list.q && list.ensembleId === undefined && !list.instrumentId;
   const [{ total }] = countsSuffice
