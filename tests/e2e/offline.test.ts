@@ -13,6 +13,9 @@ let director: SignedInClient;
 let ladder: Ladder;
 
 const patient = { timeout: 30_000 };
+/** How long a test waits for the service worker, and the longer limit of the tests that do. */
+const workerWaitMs = 120_000;
+const waitsForWorker = workerWaitMs + 90_000;
 
 /** An ensemble, a rung and one of its scales asked of at least ten of the ensemble's students. */
 interface Sheet {
@@ -65,11 +68,15 @@ function cell(page: Page, rowIndex: number, colId: string) {
   return page.locator(`[role=row][row-index="${rowIndex}"] [role=gridcell][col-id="${colId}"]`);
 }
 
-/** Waits until Angular's service worker controls the page (it registers once the app is stable). */
+/**
+ * Waits until Angular's service worker controls the page (it registers once the app is stable,
+ * then fetches every file of the app before it takes control: on a loaded machine that alone
+ * has taken over a minute).
+ */
 async function controlledByServiceWorker(page: Page) {
   await expect
     .poll(() => page.evaluate(() => navigator.serviceWorker.controller !== null), {
-      timeout: 60_000,
+      timeout: workerWaitMs,
       interval: 500,
     })
     .toBe(true);
@@ -105,102 +112,120 @@ afterAll(async () => {
 });
 
 describe('With no network', () => {
-  it('should open the pass-off screen offline after a visit, take ten pass-offs, and record exactly ten when the network returns', async () => {
-    const sheet = await sheetWithTenStudents();
-    const before = await ensembleTotal(sheet);
-    const { context, outside } = await localOnlyContext(browser);
-    const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'));
-    const sheetUrl = `${app.url}/pass-offs?ensemble=${sheet.ensembleId}&rung=${sheet.rung}`;
-    await page.goto(sheetUrl);
-    await expect.poll(() => cell(page, 0, sheet.requirement.code).count(), patient).toBe(1);
-    await controlledByServiceWorker(page);
+  it(
+    'should open the pass-off screen offline after a visit, take ten pass-offs, and record exactly ten when the network returns',
+    async () => {
+      const sheet = await sheetWithTenStudents();
+      const before = await ensembleTotal(sheet);
+      const { context, outside } = await localOnlyContext(browser);
+      const page = await context.newPage();
+      await signInAs(page, app.url, demoEmail('director.hpms'));
+      const sheetUrl = `${app.url}/pass-offs?ensemble=${sheet.ensembleId}&rung=${sheet.rung}`;
+      await page.goto(sheetUrl);
+      await expect.poll(() => cell(page, 0, sheet.requirement.code).count(), patient).toBe(1);
+      await controlledByServiceWorker(page);
 
-    await context.setOffline(true);
-    await page.reload();
-    await expect.poll(() => page.getByTestId('offline-banner').count(), patient).toBe(1);
-    await expect.poll(() => cell(page, 0, sheet.requirement.code).count(), patient).toBe(1);
-    expect(await page.getByTestId('offline-banner').innerText()).toContain(
-      'New pass-offs wait on this device and are sent when the network returns',
-    );
-
-    await cell(page, 0, sheet.requirement.code).click();
-    await page.mouse.move(1, 1);
-    const last = sheet.rows.at(-1)!;
-    for (let row = 0; row <= last; row++) {
-      if (sheet.rows.includes(row)) await page.keyboard.press('n');
-      await page.keyboard.press(row < last ? 'ArrowDown' : 'ArrowUp');
-    }
-    await expect
-      .poll(() => page.getByTestId('queue-banner').innerText(), patient)
-      .toContain('10 entries waiting to be saved');
-    expect(await cell(page, last, sheet.requirement.code).innerText()).toContain('waiting to send');
-    // The page scrolls as the focus moves down the grid; the strip sits at its top.
-    await page.evaluate(() => window.scrollTo(0, 0));
-    await saveScreenshot(page, 'offline-pass-offs');
-    expect((await ensembleTotal(sheet)).length).toBe(before.length);
-
-    await context.setOffline(false);
-    await expect.poll(() => page.getByTestId('queue-banner').count(), patient).toBe(0);
-    await expect
-      .poll(async () => (await ensembleTotal(sheet)).length, patient)
-      .toBe(before.length + 10);
-    // A moment later nothing more has arrived: each entry was sent exactly once.
-    await page.waitForTimeout(1500);
-    const after = await ensembleTotal(sheet);
-    const created = after.filter((passOff) => !before.some((earlier) => earlier.id === passOff.id));
-    expect(created).toHaveLength(10);
-    expect(new Set(created.map((passOff) => passOff.clientKey)).size).toBe(10);
-    expect(created.map((passOff) => passOff.studentId).sort()).toEqual(
-      [...sheet.studentIds].sort(),
-    );
-    expect(created.every((passOff) => !passOff.passed && passOff.heardByName !== null)).toBe(true);
-    expect(outside).toEqual([]);
-    await context.close();
-  });
-
-  it('should open a student’s own page and practice sheets on a phone offline, and forget them at sign-out', async () => {
-    const context = await phoneContext();
-    const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('student.hpms'));
-    await expect.poll(() => page.getByTestId('progress-rung').count(), patient).toBe(1);
-    const rungText = await page.getByTestId('progress-rung').innerText();
-    const ownPage = page.url();
-    await page.goto(`${app.url}/practice`);
-    await expect.poll(() => page.locator('h1').innerText(), patient).toContain('Practice');
-    await controlledByServiceWorker(page);
-
-    await context.setOffline(true);
-    await page.goto(ownPage);
-    await expect.poll(() => page.getByTestId('offline-banner').count(), patient).toBe(1);
-    await expect.poll(() => page.getByTestId('progress-rung').innerText(), patient).toBe(rungText);
-    await saveScreenshot(page, 'offline-student-page-phone');
-    await page.goto(`${app.url}/practice`);
-    await expect.poll(() => page.locator('h1').innerText(), patient).toContain('Practice');
-    await expect.poll(() => page.locator('tb-staff svg').count(), patient).toBeGreaterThan(0);
-
-    await context.setOffline(false);
-    const kept = () =>
-      page.evaluate(
-        () =>
-          new Promise<number>((resolve) => {
-            const open = indexedDB.open('tuttiboard-last-visit');
-            open.onsuccess = () => {
-              const db = open.result;
-              if (!db.objectStoreNames.contains('answers')) return resolve(0);
-              const count = db.transaction('answers').objectStore('answers').count();
-              count.onsuccess = () => resolve(count.result);
-            };
-          }),
+      await context.setOffline(true);
+      await page.reload();
+      await expect.poll(() => page.getByTestId('offline-banner').count(), patient).toBe(1);
+      await expect.poll(() => cell(page, 0, sheet.requirement.code).count(), patient).toBe(1);
+      expect(await page.getByTestId('offline-banner').innerText()).toContain(
+        'New pass-offs wait on this device and are sent when the network returns',
       );
-    expect(await kept()).toBeGreaterThan(0);
-    // The form's own button, wherever the layout puts it on a phone.
-    await page.locator('form[action="/auth/sign-out"] button[type=submit]').dispatchEvent('click');
-    await page.waitForURL((url) => !url.pathname.startsWith('/practice'));
-    await page.goto(`${app.url}/signed-out`);
-    expect(await kept()).toBe(0);
-    await context.close();
-  });
+
+      await cell(page, 0, sheet.requirement.code).click();
+      await page.mouse.move(1, 1);
+      const last = sheet.rows.at(-1)!;
+      for (let row = 0; row <= last; row++) {
+        if (sheet.rows.includes(row)) await page.keyboard.press('n');
+        await page.keyboard.press(row < last ? 'ArrowDown' : 'ArrowUp');
+      }
+      await expect
+        .poll(() => page.getByTestId('queue-banner').innerText(), patient)
+        .toContain('10 entries waiting to be saved');
+      expect(await cell(page, last, sheet.requirement.code).innerText()).toContain(
+        'waiting to send',
+      );
+      // The page scrolls as the focus moves down the grid; the strip sits at its top.
+      await page.evaluate(() => window.scrollTo(0, 0));
+      await saveScreenshot(page, 'offline-pass-offs');
+      expect((await ensembleTotal(sheet)).length).toBe(before.length);
+
+      await context.setOffline(false);
+      await expect.poll(() => page.getByTestId('queue-banner').count(), patient).toBe(0);
+      await expect
+        .poll(async () => (await ensembleTotal(sheet)).length, patient)
+        .toBe(before.length + 10);
+      // A moment later nothing more has arrived: each entry was sent exactly once.
+      await page.waitForTimeout(1500);
+      const after = await ensembleTotal(sheet);
+      const created = after.filter(
+        (passOff) => !before.some((earlier) => earlier.id === passOff.id),
+      );
+      expect(created).toHaveLength(10);
+      expect(new Set(created.map((passOff) => passOff.clientKey)).size).toBe(10);
+      expect(created.map((passOff) => passOff.studentId).sort()).toEqual(
+        [...sheet.studentIds].sort(),
+      );
+      expect(created.every((passOff) => !passOff.passed && passOff.heardByName !== null)).toBe(
+        true,
+      );
+      expect(outside).toEqual([]);
+      await context.close();
+    },
+    waitsForWorker,
+  );
+
+  it(
+    'should open a student’s own page and practice sheets on a phone offline, and forget them at sign-out',
+    async () => {
+      const context = await phoneContext();
+      const page = await context.newPage();
+      await signInAs(page, app.url, demoEmail('student.hpms'));
+      await expect.poll(() => page.getByTestId('progress-rung').count(), patient).toBe(1);
+      const rungText = await page.getByTestId('progress-rung').innerText();
+      const ownPage = page.url();
+      await page.goto(`${app.url}/practice`);
+      await expect.poll(() => page.locator('h1').innerText(), patient).toContain('Practice');
+      await controlledByServiceWorker(page);
+
+      await context.setOffline(true);
+      await page.goto(ownPage);
+      await expect.poll(() => page.getByTestId('offline-banner').count(), patient).toBe(1);
+      await expect
+        .poll(() => page.getByTestId('progress-rung').innerText(), patient)
+        .toBe(rungText);
+      await saveScreenshot(page, 'offline-student-page-phone');
+      await page.goto(`${app.url}/practice`);
+      await expect.poll(() => page.locator('h1').innerText(), patient).toContain('Practice');
+      await expect.poll(() => page.locator('tb-staff svg').count(), patient).toBeGreaterThan(0);
+
+      await context.setOffline(false);
+      const kept = () =>
+        page.evaluate(
+          () =>
+            new Promise<number>((resolve) => {
+              const open = indexedDB.open('tuttiboard-last-visit');
+              open.onsuccess = () => {
+                const db = open.result;
+                if (!db.objectStoreNames.contains('answers')) return resolve(0);
+                const count = db.transaction('answers').objectStore('answers').count();
+                count.onsuccess = () => resolve(count.result);
+              };
+            }),
+        );
+      expect(await kept()).toBeGreaterThan(0);
+      // The form's own button, wherever the layout puts it on a phone.
+      await page
+        .locator('form[action="/auth/sign-out"] button[type=submit]')
+        .dispatchEvent('click');
+      await page.waitForURL((url) => !url.pathname.startsWith('/practice'));
+      await page.goto(`${app.url}/signed-out`);
+      expect(await kept()).toBe(0);
+      await context.close();
+    },
+    waitsForWorker,
+  );
 
   it('should say how many pass-offs are unsent and ask before signing out', async () => {
     const { context } = await localOnlyContext(browser);

@@ -26,6 +26,12 @@ describe('Phones and tablets', () => {
       .locator('.ag-header-cell:not(.ag-hidden) .ag-header-cell-text')
       .allInnerTexts();
     expect(headings).toEqual(['Last name', 'First name', 'Grade']);
+    // A row's cells are placed before their values are drawn: wait for the names.
+    await expect
+      .poll(async () => (await firstRow.locator('.ag-cell').allInnerTexts()).slice(0, 2), {
+        timeout: 10_000,
+      })
+      .not.toContain('');
     const shown = await firstRow.locator('.ag-cell').allInnerTexts();
 
     await firstRow.locator('.ag-cell').first().tap();
