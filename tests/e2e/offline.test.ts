@@ -69,14 +69,26 @@ function cell(page: Page, rowIndex: number, colId: string) {
 }
 
 /**
- * Waits until Angular's service worker controls the page (it registers once the app is stable,
- * then fetches every file of the app before it takes control: on a loaded machine that alone
- * has taken over a minute).
+ * Waits until Angular's service worker controls the page. It registers once the app is stable,
+ * then fetches every file of the app before it activates (on a loaded machine that alone has
+ * taken over a minute); a page loaded before the activation is not always claimed by it, so the
+ * page is loaded again once the worker is active, as the user's next visit would be.
  */
 async function controlledByServiceWorker(page: Page) {
   await expect
+    .poll(
+      () =>
+        page.evaluate(async () => {
+          const registration = await navigator.serviceWorker.getRegistration();
+          return registration?.active?.state ?? 'none';
+        }),
+      { timeout: workerWaitMs, interval: 500 },
+    )
+    .toBe('activated');
+  if (await page.evaluate(() => navigator.serviceWorker.controller === null)) await page.reload();
+  await expect
     .poll(() => page.evaluate(() => navigator.serviceWorker.controller !== null), {
-      timeout: workerWaitMs,
+      timeout: 30_000,
       interval: 500,
     })
     .toBe(true);
