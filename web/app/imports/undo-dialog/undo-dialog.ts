@@ -1,7 +1,7 @@
 import { httpResource } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import {
   importUndoPreviewSchema,
@@ -11,7 +11,7 @@ import {
 import { WhenPipe } from '../../core/format/formats';
 import { errorMessage } from '../../core/parse';
 import { RosterImports } from '../roster-imports';
-import { createWrite } from '../../core/state/write';
+import { createDialogSave } from '../../core/state/dialog-save';
 
 /**
  * Shows what undoing an import will do (students removed, fields and withdrawals restored, seats
@@ -26,16 +26,15 @@ import { createWrite } from '../../core/state/write';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class UndoDialog {
-  private readonly write = createWrite();
+  private readonly dialogSave = createDialogSave<ImportUndoResult>();
   private readonly imports = inject(RosterImports);
-  private readonly dialogRef = inject<MatDialogRef<UndoDialog, ImportUndoResult>>(MatDialogRef);
   protected readonly entry = inject<ImportHistoryEntry>(MAT_DIALOG_DATA);
 
   protected readonly preview = httpResource(() => `/api/imports/${this.entry.id}/undo`, {
     parse: (body) => importUndoPreviewSchema.parse(body),
   });
-  protected readonly busy = signal(false);
-  protected readonly problem = signal('');
+  protected readonly busy = this.dialogSave.saving;
+  protected readonly problem = this.dialogSave.failure;
 
   protected count(count: number, one: string, many: string): string {
     return `${count.toLocaleString('en-US')} ${count === 1 ? one : many}`;
@@ -43,15 +42,9 @@ export class UndoDialog {
 
   protected confirm(): void {
     if (!this.preview.value()?.canUndo || this.busy()) return;
-    this.busy.set(true);
-    this.problem.set('');
-    this.write.send(this.imports.undo(this.entry.id), {
-      next: (result) => this.dialogRef.close(result),
-      error: (error: unknown) => {
-        this.busy.set(false);
-        this.problem.set(errorMessage(error, 'The import could not be undone.'));
-        this.preview.reload();
-      },
+    this.dialogSave.send(this.imports.undo(this.entry.id), (error) => {
+      this.preview.reload();
+      return errorMessage(error, 'The import could not be undone.');
     });
   }
 }

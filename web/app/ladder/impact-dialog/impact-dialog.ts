@@ -1,12 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
-import {
-  MAT_DIALOG_DATA,
-  MatDialogModule,
-  MatDialogRef,
-  type MatDialog,
-} from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogModule, type MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
@@ -15,7 +10,7 @@ import { draftNameMark, type Ladder, type LadderImpactGroup } from '@shared/api/
 import { errorMessage } from '../../core/parse';
 import { gradeText } from '../date-text';
 import { LadderData } from '../ladder-data';
-import { createWrite } from '../../core/state/write';
+import { createDialogSave } from '../../core/state/dialog-save';
 
 /** What the impact dialog puts in force. */
 export interface ImpactDialogData {
@@ -60,9 +55,8 @@ export function putInForce(dialog: MatDialog, data: ImpactDialogData): Promise<L
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ImpactDialog {
-  private readonly write = createWrite();
+  private readonly dialogSave = createDialogSave<Ladder>();
   private readonly ladderData = inject(LadderData);
-  private readonly dialogRef = inject<MatDialogRef<ImpactDialog, Ladder>>(MatDialogRef);
   protected readonly data = inject<ImpactDialogData>(MAT_DIALOG_DATA);
 
   protected readonly impact = rxResource({
@@ -95,8 +89,8 @@ export class ImpactDialog {
           })
         : of([]),
   });
-  protected readonly busy = signal(false);
-  protected readonly problem = signal('');
+  protected readonly busy = this.dialogSave.saving;
+  protected readonly problem = this.dialogSave.failure;
   protected readonly gradeText = gradeText;
 
   protected percent(share: number | null): string {
@@ -121,19 +115,13 @@ export class ImpactDialog {
   protected confirm(): void {
     const impact = this.impact.value();
     if (!impact || this.nameProblem() || this.busy()) return;
-    this.busy.set(true);
-    this.problem.set('');
     const request =
       this.data.mode === 'publish'
         ? this.ladderData.publish(this.data.versionId, this.name().trim(), impact.token)
         : this.ladderData.restore(this.data.versionId, impact.token);
-    this.write.send(request, {
-      next: (ladder) => this.dialogRef.close(ladder),
-      error: (error: unknown) => {
-        this.busy.set(false);
-        this.problem.set(errorMessage(error, 'The ladder could not be put in force.'));
-        this.impact.reload();
-      },
+    this.dialogSave.send(request, (error) => {
+      this.impact.reload();
+      return errorMessage(error, 'The ladder could not be put in force.');
     });
   }
 }

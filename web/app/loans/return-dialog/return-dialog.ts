@@ -2,7 +2,7 @@ import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@a
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
-import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -10,10 +10,9 @@ import { MatSelectModule } from '@angular/material/select';
 import { instrumentConditions, type InstrumentCondition } from '@shared/api/instrument';
 import type { Loan, ReturnInput } from '@shared/api/loan';
 import { instruments } from '@shared/music/instrument-data';
-import { errorMessage } from '../../core/parse';
 import { cleaningCaution, conditionLabels } from '../../instruments/instrument-labels';
 import { FleetLoans } from '../loan-data';
-import { createWrite } from '../../core/state/write';
+import { createDialogSave } from '../../core/state/dialog-save';
 
 /** What the return dialog needs. */
 export interface ReturnDialogData {
@@ -41,9 +40,8 @@ export interface ReturnDialogData {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ReturnDialog {
-  private readonly write = createWrite();
+  private readonly dialogSave = createDialogSave<Loan>();
   private readonly loans = inject(FleetLoans);
-  private readonly dialog = inject<MatDialogRef<ReturnDialog, Loan>>(MatDialogRef);
   protected readonly loan = inject<ReturnDialogData>(MAT_DIALOG_DATA).loan;
 
   protected readonly conditions = instrumentConditions;
@@ -54,8 +52,8 @@ export class ReturnDialog {
   protected readonly problem = signal('');
   protected readonly lost = signal(false);
   protected readonly notes = signal('');
-  protected readonly saving = this.write.saving;
-  protected readonly failure = signal('');
+  protected readonly saving = this.dialogSave.saving;
+  protected readonly failure = this.dialogSave.failure;
   /** Woodwind and brass go to "to clean" when they come back (common practice, no source). */
   protected readonly isWind = ['woodwind', 'brass'].includes(
     instruments.find((kind) => kind.id === this.loan.instrumentType)?.family ?? '',
@@ -75,12 +73,9 @@ export class ReturnDialog {
           damaged: this.damaged() ? { problem: this.problem().trim() } : undefined,
           notes: this.notes().trim() || undefined,
         };
-    this.failure.set('');
-    this.write.send(this.loans.returnLoan(this.loan.id, input), {
-      next: (loan) => this.dialog.close(loan),
-      error: (error: unknown) => {
-        this.failure.set(errorMessage(error, 'The return could not be recorded.'));
-      },
-    });
+    this.dialogSave.send(
+      this.loans.returnLoan(this.loan.id, input),
+      'The return could not be recorded.',
+    );
   }
 }

@@ -3,7 +3,7 @@ import { toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
 import { MatAutocompleteModule } from '@angular/material/autocomplete';
 import { MatButtonModule } from '@angular/material/button';
-import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -24,7 +24,7 @@ import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
-import { createWrite } from '../../core/state/write';
+import { createDialogSave } from '../../core/state/dialog-save';
 
 /** What the person dialog edits: a person, or null to add one. */
 export interface PersonDialogData {
@@ -59,9 +59,8 @@ const roleHints: Record<Role, string> = {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class PersonDialog {
-  private readonly write = createWrite();
+  private readonly dialogSave = createDialogSave<PersonDetail>();
   private readonly people = inject(PeopleData);
-  private readonly dialog = inject<MatDialogRef<PersonDialog, PersonDetail>>(MatDialogRef);
 
   protected readonly person = inject<PersonDialogData>(MAT_DIALOG_DATA).person;
   protected readonly isSelf = this.person?.id === inject(CurrentUser).me()?.id;
@@ -93,9 +92,9 @@ export class PersonDialog {
     this.person?.student ?? null,
   );
   protected readonly studentSearch = injectTypedSearch((text) => this.people.findStudents(text));
-  protected readonly saving = this.write.saving;
+  protected readonly saving = this.dialogSave.saving;
   protected readonly conflict = signal(false);
-  protected readonly failure = signal('');
+  protected readonly failure = this.dialogSave.failure;
 
   constructor() {
     if (this.person) this.form.controls.email.disable();
@@ -134,7 +133,6 @@ export class PersonDialog {
       this.form.controls[problem.field].setErrors({ server: problem.message });
     }
     if (problems.length) return;
-    this.failure.set('');
     const request = this.person
       ? this.people.update(this.person.id, {
           name: value.name,
@@ -142,11 +140,6 @@ export class PersonDialog {
           version: this.person.version,
         })
       : this.people.create({ email: value.email, name: value.name, ...assignments });
-    this.write.send(request, {
-      next: (saved) => this.dialog.close(saved),
-      error: (error: unknown) => {
-        this.failure.set(saveFailureMessage(this.form, error, this.conflict));
-      },
-    });
+    this.dialogSave.send(request, (error) => saveFailureMessage(this.form, error, this.conflict));
   }
 }

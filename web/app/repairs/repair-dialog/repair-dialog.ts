@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MAT_DIALOG_DATA, MatDialogModule, MatDialogRef } from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -17,7 +17,7 @@ import { InstrumentPicker } from '../../instruments/instrument-picker/instrument
 import { centsOf } from '../../instruments/instrument-labels';
 import { FleetRepairs } from '../repair-data';
 import { repairStatusLooks } from '../repair-looks';
-import { createWrite } from '../../core/state/write';
+import { createDialogSave } from '../../core/state/dialog-save';
 
 /** What the repair dialog needs: the ticket (null to open one) and whether it may change. */
 export interface RepairDialogData {
@@ -49,9 +49,8 @@ const dollarsOf = (cents: number | null) => (cents === null ? '' : (cents / 100)
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class RepairDialog {
-  private readonly write = createWrite();
+  private readonly dialogSave = createDialogSave<Repair>();
   private readonly repairs = inject(FleetRepairs);
-  protected readonly dialog = inject<MatDialogRef<RepairDialog, Repair>>(MatDialogRef);
   protected readonly data = inject<RepairDialogData>(MAT_DIALOG_DATA);
   private readonly ticket = signal<Repair | null>(this.data.repair);
 
@@ -69,8 +68,8 @@ export class RepairDialog {
   protected readonly sentOn = signal(this.data.repair?.sentOn ?? '');
   protected readonly returnedOn = signal(this.data.repair?.returnedOn ?? '');
   protected readonly notes = signal(this.data.repair?.notes ?? '');
-  protected readonly saving = this.write.saving;
-  protected readonly failure = signal('');
+  protected readonly saving = this.dialogSave.saving;
+  protected readonly failure = this.dialogSave.failure;
   protected readonly conflict = signal(false);
 
   protected readonly amountsValid = computed(
@@ -87,7 +86,6 @@ export class RepairDialog {
   protected save(): void {
     if (!this.ready() || this.saving()) return;
     const vendor = this.inHouse() ? null : this.vendor().trim();
-    this.failure.set('');
     const ticket = this.ticket();
     const request = ticket
       ? this.repairs.update(ticket.id, {
@@ -110,12 +108,11 @@ export class RepairDialog {
           estimateCents: centsOf(this.estimate()),
           notes: this.notes().trim(),
         });
-    this.write.send(request, {
-      next: (saved) => this.dialog.close(saved),
-      error: (error: unknown) => {
-        if (isConflict(error) && ticket) this.conflict.set(true);
-        else this.failure.set(errorMessage(error, 'The ticket could not be saved.'));
-      },
+    this.dialogSave.send(request, (error) => {
+      if (!isConflict(error) || !ticket)
+        return errorMessage(error, 'The ticket could not be saved.');
+      this.conflict.set(true);
+      return '';
     });
   }
 
