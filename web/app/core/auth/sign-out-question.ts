@@ -1,7 +1,6 @@
 import type { Injector } from '@angular/core';
 import { MatDialog } from '@angular/material/dialog';
-import { firstValueFrom } from 'rxjs';
-import { ConfirmDialog, type ConfirmDialogData } from '../confirm-dialog/confirm-dialog';
+import { askToConfirm, type ConfirmDialogData } from '../confirm-dialog/confirm-dialog';
 
 /**
  * Asks before signing out while pass-offs wait to be sent; answers true to sign out. Loaded only
@@ -19,6 +18,5 @@ export async function askToSignOutWithUnsent(injector: Injector, unsent: number)
     confirm: 'Sign out anyway',
     destructive: true,
   };
-  const dialog = injector.get(MatDialog);
-  return (await firstValueFrom(dialog.open(ConfirmDialog, { data }).afterClosed())) === true;
+  return askToConfirm(injector.get(MatDialog), data);
 }

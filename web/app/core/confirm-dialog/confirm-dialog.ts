@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogModule, type MatDialog } from '@angular/material/dialog';
+import { dialogAnswer } from './dialog-answer';
 
 /** What the confirm dialog asks. */
 export interface ConfirmDialogData {
@@ -51,4 +52,16 @@ export interface ConfirmDialogData {
 })
 export class ConfirmDialog {
   protected readonly data = inject<ConfirmDialogData>(MAT_DIALOG_DATA);
+}
+
+/** Asks `data` with the confirm dialog; true when the user goes ahead, false otherwise. */
+export async function askToConfirm(
+  dialog: MatDialog,
+  data: ConfirmDialogData,
+  width?: string,
+): Promise<boolean> {
+  return (
+    (await dialogAnswer<boolean>(dialog, ConfirmDialog, { data, ...(width ? { width } : {}) })) ===
+    true
+  );
 }

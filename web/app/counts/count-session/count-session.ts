@@ -12,12 +12,12 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { Subject, catchError, concatMap, firstValueFrom, map, of } from 'rxjs';
+import { Subject, catchError, concatMap, map, of } from 'rxjs';
 import type { CountScan, ScanOutcome } from '@shared/api/count';
 import { errorMessage } from '../../core/parse';
 import { RecordPage } from '../../core/record-page/record-page';
 import { createWrite } from '../../core/state/write';
-import { ConfirmDialog } from '../../core/confirm-dialog/confirm-dialog';
+import { askToConfirm } from '../../core/confirm-dialog/confirm-dialog';
 import { dayText } from '../../instruments/instrument-labels';
 import { InventoryCounts } from '../count-data';
 import { CountReconciliation } from './count-reconciliation';
@@ -140,18 +140,12 @@ export class CountSession {
             `${missing} ${missing === 1 ? 'instrument' : 'instruments'} not found will be marked missing.`,
             'Anything marked missing earlier that was scanned in this count becomes available again. No more tags can be added once the count is closed.',
           ];
-    const confirmed = await firstValueFrom(
-      this.dialog
-        .open<ConfirmDialog, unknown, boolean>(ConfirmDialog, {
-          data: {
-            title: 'Close this count?',
-            paragraphs,
-            confirm: missing === 0 ? 'Close the count' : `Close and mark ${missing} missing`,
-            destructive: missing > 0,
-          },
-        })
-        .afterClosed(),
-    );
+    const confirmed = await askToConfirm(this.dialog, {
+      title: 'Close this count?',
+      paragraphs,
+      confirm: missing === 0 ? 'Close the count' : `Close and mark ${missing} missing`,
+      destructive: missing > 0,
+    });
     if (!confirmed) return;
     this.closing.send(this.counts.close(count.id, true), {
       next: (closed) => this.record.set(closed),

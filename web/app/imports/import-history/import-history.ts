@@ -2,9 +2,10 @@ import { WhenPipe } from '../../core/format/formats';
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
+import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
 import { toObservable, toSignal } from '@angular/core/rxjs-interop';
 import { MatIconModule } from '@angular/material/icon';
-import { catchError, firstValueFrom, map, of, startWith, switchMap } from 'rxjs';
+import { catchError, map, of, startWith, switchMap } from 'rxjs';
 import { importUndoDays, type ImportHistoryEntry, type ImportUndoResult } from '@shared/api/import';
 import { PageState } from '../../core/state/page-state';
 import { RosterImports } from '../roster-imports';
@@ -226,15 +227,11 @@ export class ImportHistory {
 
   protected async undo(entry: ImportHistoryEntry): Promise<void> {
     this.undoneMessage.set('');
-    const result = await firstValueFrom(
-      this.dialog
-        .open<UndoDialog, ImportHistoryEntry, ImportUndoResult>(UndoDialog, {
-          data: entry,
-          width: '560px',
-          maxWidth: '95vw',
-        })
-        .afterClosed(),
-    );
+    const result = await dialogAnswer<ImportUndoResult>(this.dialog, UndoDialog, {
+      data: entry,
+      width: '560px',
+      maxWidth: '95vw',
+    });
     if (!result) return;
     const count = (value: number, one: string, many: string) =>
       `${value.toLocaleString('en-US')} ${value === 1 ? one : many}`;

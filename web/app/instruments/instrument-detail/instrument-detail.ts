@@ -10,10 +10,10 @@ import type { Loan } from '@shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { RecordPage } from '../../core/record-page/record-page';
-import { CheckoutDialog } from '../../loans/checkout-dialog/checkout-dialog';
+import { checkOutDialog } from '../../loans/checkout-dialog/checkout-dialog';
 import { FleetLoans } from '../../loans/loan-data';
-import { ReturnDialog } from '../../loans/return-dialog/return-dialog';
-import { RepairDialog } from '../../repairs/repair-dialog/repair-dialog';
+import { returnDialog } from '../../loans/return-dialog/return-dialog';
+import { repairDialog } from '../../repairs/repair-dialog/repair-dialog';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { FleetInstruments } from '../instrument-data';
 import { InstrumentForm } from '../instrument-form/instrument-form';
@@ -96,16 +96,7 @@ export class InstrumentDetail {
   protected async lend(): Promise<void> {
     const instrument = this.instrument();
     if (!instrument) return;
-    await firstValueFrom(
-      this.dialog
-        .open(CheckoutDialog, {
-          data: { instrument },
-          width: '720px',
-          maxWidth: '94vw',
-          maxHeight: '92vh',
-        })
-        .afterClosed(),
-    );
+    await checkOutDialog(this.dialog, instrument);
     this.reload();
   }
 
@@ -121,9 +112,7 @@ export class InstrumentDetail {
       this.actionError.set(errorMessage(error, 'The loan could not be opened.'));
       return;
     }
-    await firstValueFrom(
-      this.dialog.open(ReturnDialog, { data: { loan }, width: '560px' }).afterClosed(),
-    );
+    await returnDialog(this.dialog, loan);
     this.reload();
   }
 
@@ -131,15 +120,7 @@ export class InstrumentDetail {
   protected async startRepair(): Promise<void> {
     const instrument = this.instrument();
     if (!instrument) return;
-    await firstValueFrom(
-      this.dialog
-        .open(RepairDialog, {
-          data: { repair: null, editable: true, instrument },
-          width: '640px',
-          maxHeight: '92vh',
-        })
-        .afterClosed(),
-    );
+    await repairDialog(this.dialog, { repair: null, editable: true, instrument });
     this.reload();
   }
 

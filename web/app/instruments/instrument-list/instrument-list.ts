@@ -8,10 +8,10 @@ import {
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
+import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
 import { MatIconModule } from '@angular/material/icon';
 import { MatMenuModule } from '@angular/material/menu';
 import { Router } from '@angular/router';
-import { firstValueFrom } from 'rxjs';
 import type { ColDef } from 'ag-grid-community';
 import {
   instrumentConditions,
@@ -177,22 +177,18 @@ export class InstrumentList {
   }
 
   protected async addInstrument(): Promise<void> {
-    const saved: Instrument | undefined = await firstValueFrom(
-      this.dialog
-        .open(InstrumentFormDialog, {
-          data: { schools: this.schools() },
-          width: '640px',
-          ariaLabelledBy: 'instrument-form-title',
-        })
-        .afterClosed(),
-    );
+    const saved = await dialogAnswer<Instrument>(this.dialog, InstrumentFormDialog, {
+      data: { schools: this.schools() },
+      width: '640px',
+      ariaLabelledBy: 'instrument-form-title',
+    });
     if (saved) void this.router.navigate(['/instruments', saved.id]);
   }
 
   protected async importFleet(): Promise<void> {
-    const committed: boolean | undefined = await firstValueFrom(
-      this.dialog.open(FleetImportDialog, { width: '720px' }).afterClosed(),
-    );
+    const committed = await dialogAnswer<boolean>(this.dialog, FleetImportDialog, {
+      width: '720px',
+    });
     if (committed) this.grid()?.refresh();
   }
 }

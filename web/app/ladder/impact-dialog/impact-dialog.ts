@@ -5,12 +5,13 @@ import { MAT_DIALOG_DATA, MatDialogModule, type MatDialog } from '@angular/mater
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { firstValueFrom, of } from 'rxjs';
+import { of } from 'rxjs';
 import { draftNameMark, type Ladder, type LadderImpactGroup } from '@shared/api/ladder';
 import { errorMessage } from '../../core/parse';
 import { gradeText } from '../date-text';
 import { LadderData } from '../ladder-data';
 import { createDialogSave } from '../../core/state/dialog-save';
+import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
 
 /** What the impact dialog puts in force. */
 export interface ImpactDialogData {
@@ -28,12 +29,7 @@ type Move = 'up' | 'down' | 'same';
  * when the user cancelled.
  */
 export function putInForce(dialog: MatDialog, data: ImpactDialogData): Promise<Ladder | undefined> {
-  const ref = dialog.open<ImpactDialog, ImpactDialogData, Ladder>(ImpactDialog, {
-    data,
-    width: '720px',
-    maxHeight: '90vh',
-  });
-  return firstValueFrom(ref.afterClosed());
+  return dialogAnswer<Ladder>(dialog, ImpactDialog, { data, width: '720px', maxHeight: '90vh' });
 }
 
 /**

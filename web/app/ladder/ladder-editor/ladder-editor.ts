@@ -24,7 +24,7 @@ import { ConflictNotice } from '../../core/record-page/conflict-notice';
 import { RecordPage } from '../../core/record-page/record-page';
 import { createWrite } from '../../core/state/write';
 import { BenchmarkEditor } from '../benchmark-editor/benchmark-editor';
-import { ConfirmDialog, type ConfirmDialogData } from '../../core/confirm-dialog/confirm-dialog';
+import { askToConfirm, type ConfirmDialogData } from '../../core/confirm-dialog/confirm-dialog';
 import { putInForce } from '../impact-dialog/impact-dialog';
 import { LadderData } from '../ladder-data';
 import { RungEditor, type RequirementEdit } from '../rung-editor/rung-editor';
@@ -287,9 +287,7 @@ export class LadderEditor {
   }
 
   private confirm(data: ConfirmDialogData): Promise<boolean> {
-    return firstValueFrom(
-      this.dialog.open(ConfirmDialog, { data, width: '560px' }).afterClosed(),
-    ).then(Boolean);
+    return askToConfirm(this.dialog, data, '560px');
   }
 
   private change(update: (model: DraftModel) => DraftModel): void {

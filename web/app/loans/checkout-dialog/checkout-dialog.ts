@@ -4,7 +4,12 @@ import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatChipsModule } from '@angular/material/chips';
-import { MatDialogModule, MatDialogRef, MAT_DIALOG_DATA } from '@angular/material/dialog';
+import {
+  MatDialogModule,
+  MatDialogRef,
+  MAT_DIALOG_DATA,
+  type MatDialog,
+} from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -25,6 +30,23 @@ import { FleetLoans } from '../loan-data';
 import { accessoriesFor } from './accessories';
 import { StudentPicker } from './student-picker';
 import { createWrite } from '../../core/state/write';
+import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
+
+/**
+ * Opens the check-out dialog, with `instrument` chosen when it opens from the instrument's own
+ * page; answers the loan made, or undefined when none was.
+ */
+export function checkOutDialog(
+  dialog: MatDialog,
+  instrument?: Instrument,
+): Promise<Loan | undefined> {
+  return dialogAnswer<Loan>(dialog, CheckoutDialog, {
+    ...(instrument ? { data: { instrument } } : {}),
+    width: '720px',
+    maxWidth: '94vw',
+    maxHeight: '92vh',
+  });
+}
 
 /**
  * Lends an available instrument to a student: due date, accessories, condition, fee or waiver.

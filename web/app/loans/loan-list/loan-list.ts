@@ -13,20 +13,19 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatTabsModule } from '@angular/material/tabs';
 import { Router, RouterLink } from '@angular/router';
-import { firstValueFrom } from 'rxjs';
 import type { ColDef } from 'ag-grid-community';
 import { loanSortFields, type Loan } from '@shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { errorMessage } from '../../core/parse';
-import { ConfirmDialog } from '../../core/confirm-dialog/confirm-dialog';
+import { askToConfirm } from '../../core/confirm-dialog/confirm-dialog';
 import {
   IconTextCell,
   type IconTextCellParams,
 } from '../../instruments/icon-text-cell/icon-text-cell';
 import { dayText } from '../../instruments/instrument-labels';
-import { CheckoutDialog } from '../checkout-dialog/checkout-dialog';
+import { checkOutDialog } from '../checkout-dialog/checkout-dialog';
 import { FleetLoans } from '../loan-data';
 import { LoanPanel } from '../loan-panel/loan-panel';
 import { loanTabs, type LoanTab } from './loan-tabs';
@@ -129,30 +128,20 @@ export class LoanList {
   }
 
   protected async checkOut(): Promise<void> {
-    const loan: Loan | undefined = await firstValueFrom(
-      this.dialog
-        .open(CheckoutDialog, { width: '720px', maxWidth: '94vw', maxHeight: '92vh' })
-        .afterClosed(),
-    );
+    const loan = await checkOutDialog(this.dialog);
     if (!loan) return;
     this.selected.set(loan);
     this.grid()?.refresh();
   }
 
   protected async remindAllOverdue(): Promise<void> {
-    const confirmed: boolean | undefined = await firstValueFrom(
-      this.dialog
-        .open(ConfirmDialog, {
-          data: {
-            title: 'Remind every overdue loan?',
-            paragraphs: [
-              'Each guardian of an overdue loan in your schools gets an e-mail asking for the instrument back. Loans reminded in the last day are skipped.',
-            ],
-            confirm: 'Send reminders',
-          },
-        })
-        .afterClosed(),
-    );
+    const confirmed = await askToConfirm(this.dialog, {
+      title: 'Remind every overdue loan?',
+      paragraphs: [
+        'Each guardian of an overdue loan in your schools gets an e-mail asking for the instrument back. Loans reminded in the last day are skipped.',
+      ],
+      confirm: 'Send reminders',
+    });
     if (!confirmed) return;
     this.notice.set('Sending reminders…');
     this.write.send(this.loans.remindOverdue(), {

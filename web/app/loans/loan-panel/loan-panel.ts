@@ -11,13 +11,12 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
-import { firstValueFrom } from 'rxjs';
 import type { Loan } from '@shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { conditionLabels, dayText, money } from '../../instruments/instrument-labels';
 import { FleetLoans } from '../loan-data';
-import { ReturnDialog } from '../return-dialog/return-dialog';
+import { returnDialog } from '../return-dialog/return-dialog';
 import { createWrite } from '../../core/state/write';
 
 /** One loan beside the grid: its details, the agreement, and what can be done with it. */
@@ -76,9 +75,7 @@ export class LoanPanel {
   }
 
   protected async takeBack(): Promise<void> {
-    const loan: Loan | undefined = await firstValueFrom(
-      this.dialog.open(ReturnDialog, { data: { loan: this.loan() }, width: '560px' }).afterClosed(),
-    );
+    const loan = await returnDialog(this.dialog, this.loan());
     if (loan) this.changed.emit(loan);
   }
 }

@@ -2,7 +2,7 @@ import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@a
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
-import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogModule, type MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -13,6 +13,12 @@ import { instruments } from '@shared/music/instrument-data';
 import { cleaningCaution, conditionLabels } from '../../instruments/instrument-labels';
 import { FleetLoans } from '../loan-data';
 import { createDialogSave } from '../../core/state/dialog-save';
+import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
+
+/** Opens the return dialog for `loan`; answers the loan as returned, or undefined. */
+export function returnDialog(dialog: MatDialog, loan: Loan): Promise<Loan | undefined> {
+  return dialogAnswer<Loan>(dialog, ReturnDialog, { data: { loan }, width: '560px' });
+}
 
 /** What the return dialog needs. */
 export interface ReturnDialogData {

@@ -30,7 +30,7 @@ import type {
   GridApi,
   GridReadyEvent,
 } from 'ag-grid-community';
-import { firstValueFrom, map } from 'rxjs';
+import { map } from 'rxjs';
 import type { Ensemble } from '@shared/api/ensemble';
 import type { Ladder, LadderRequirement } from '@shared/api/ladder';
 import type { PassOff } from '@shared/api/pass-off';
@@ -38,7 +38,7 @@ import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { EnsembleData } from '../../ensembles/ensemble-data';
-import { ConfirmDialog } from '../../core/confirm-dialog/confirm-dialog';
+import { askToConfirm } from '../../core/confirm-dialog/confirm-dialog';
 import { localToday } from '../../ladder/date-text';
 import { LadderData } from '../../ladder/ladder-data';
 import { appliesToFamily, keyText, rungTitleText } from '../../ladder/requirement-text';
@@ -368,20 +368,14 @@ export class PassOffEntry {
   }
 
   protected async removePassOff(passOff: PassOff): Promise<void> {
-    const confirmed = await firstValueFrom(
-      this.dialog
-        .open(ConfirmDialog, {
-          data: {
-            title: 'Remove this pass-off?',
-            paragraphs: [
-              `${passOff.studentName}, heard on ${passOff.heardOn} at ♩ = ${passOff.tempo}. Their rung is recomputed without it.`,
-            ],
-            confirm: 'Remove the pass-off',
-            destructive: true,
-          },
-        })
-        .afterClosed(),
-    );
+    const confirmed = await askToConfirm(this.dialog, {
+      title: 'Remove this pass-off?',
+      paragraphs: [
+        `${passOff.studentName}, heard on ${passOff.heardOn} at ♩ = ${passOff.tempo}. Their rung is recomputed without it.`,
+      ],
+      confirm: 'Remove the pass-off',
+      destructive: true,
+    });
     if (!confirmed) return;
     this.write.send(this.passOffData.remove(passOff.id), {
       next: () => {

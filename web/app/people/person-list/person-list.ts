@@ -3,12 +3,12 @@ import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@a
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatDialog } from '@angular/material/dialog';
+import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { firstValueFrom } from 'rxjs';
 import type { Person } from '@shared/api/person';
 import { roleLabels, roles, type Role } from '@shared/api/roles';
 import { CurrentUser } from '../../core/auth/current-user';
@@ -132,15 +132,11 @@ export class PersonList {
   }
 
   private async openDialog(data: PersonDialogData): Promise<void> {
-    const saved = await firstValueFrom(
-      this.dialog
-        .open<PersonDialog, PersonDialogData, Person>(PersonDialog, {
-          data,
-          width: '560px',
-          autoFocus: 'first-tabbable',
-        })
-        .afterClosed(),
-    );
+    const saved = await dialogAnswer<Person>(this.dialog, PersonDialog, {
+      data,
+      width: '560px',
+      autoFocus: 'first-tabbable',
+    });
     if (!saved) return;
     this.failure.set('');
     this.notice.set(

@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialogModule, type MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -18,6 +18,7 @@ import { centsOf } from '../../instruments/instrument-labels';
 import { FleetRepairs } from '../repair-data';
 import { repairStatusLooks } from '../repair-looks';
 import { createDialogSave } from '../../core/state/dialog-save';
+import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
 
 /** What the repair dialog needs: the ticket (null to open one) and whether it may change. */
 export interface RepairDialogData {
@@ -30,6 +31,14 @@ export interface RepairDialogData {
 const dollarsOf = (cents: number | null) => (cents === null ? '' : (cents / 100).toFixed(2));
 
 /** Opens a repair ticket, or shows one and moves it along: sent, back, closed. */
+/** Opens a repair ticket (a new one when `data.repair` is null); answers it as saved, or undefined. */
+export function repairDialog(
+  dialog: MatDialog,
+  data: RepairDialogData,
+): Promise<Repair | undefined> {
+  return dialogAnswer<Repair>(dialog, RepairDialog, { data, width: '640px', maxHeight: '92vh' });
+}
+
 @Component({
   selector: 'tb-repair-dialog',
   imports: [

@@ -13,7 +13,6 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatSelectModule } from '@angular/material/select';
-import { firstValueFrom } from 'rxjs';
 import type { ColDef } from 'ag-grid-community';
 import {
   repairCaution,
@@ -29,7 +28,7 @@ import {
   type IconTextCellParams,
 } from '../../instruments/icon-text-cell/icon-text-cell';
 import { dayText, money } from '../../instruments/instrument-labels';
-import { RepairDialog } from '../repair-dialog/repair-dialog';
+import { repairDialog } from '../repair-dialog/repair-dialog';
 import { repairStatusLooks } from '../repair-looks';
 
 type Showing = 'open' | 'all' | RepairStatus;
@@ -155,15 +154,7 @@ export class RepairList {
   ];
 
   protected async openTicket(repair: Repair | null): Promise<void> {
-    const saved: Repair | undefined = await firstValueFrom(
-      this.dialog
-        .open(RepairDialog, {
-          data: { repair, editable: this.canWrite },
-          width: '640px',
-          maxHeight: '92vh',
-        })
-        .afterClosed(),
-    );
+    const saved = await repairDialog(this.dialog, { repair, editable: this.canWrite });
     if (saved) this.grid()?.refresh();
   }
 }

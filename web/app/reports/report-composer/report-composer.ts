@@ -12,13 +12,13 @@ import { RouterLink } from '@angular/router';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatDialog } from '@angular/material/dialog';
+import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTabsModule } from '@angular/material/tabs';
-import { firstValueFrom } from 'rxjs';
 import type { ReportKind, ReportSendInput } from '@shared/api/report';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
@@ -141,15 +141,11 @@ export class ReportComposer {
       choosesRecipients: me.role === 'coordinator',
       ownEmail: me.email,
     };
-    const input = await firstValueFrom(
-      this.dialog
-        .open<SendDialog, SendDialogData, ReportSendInput>(SendDialog, {
-          data,
-          width: '520px',
-          autoFocus: 'first-tabbable',
-        })
-        .afterClosed(),
-    );
+    const input = await dialogAnswer<ReportSendInput>(this.dialog, SendDialog, {
+      data,
+      width: '520px',
+      autoFocus: 'first-tabbable',
+    });
     if (input) this.send(input);
   }
 
