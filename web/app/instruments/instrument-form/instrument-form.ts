@@ -1,20 +1,10 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  computed,
-  effect,
-  inject,
-  input,
-  output,
-  untracked,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, type AbstractControl } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import type { SchoolSummary } from '@shared/api/me';
 import {
   instrumentConditions,
   instrumentInputSchema,
@@ -24,13 +14,13 @@ import {
 } from '@shared/api/instrument';
 import { instrumentFamilies, instruments } from '@shared/music/instrument-data';
 import { Field } from '../../core/forms/field';
-import { choicesOf, namedChoices } from '../../core/grid/filter-select/filter-select';
+import { choicesOf } from '../../core/grid/filter-select/filter-select';
 import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { FleetInstruments } from '../instrument-data';
 import { centsOf, conditionLabels, familyLabels, statusLooks } from '../instrument-labels';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
-import { createRecordSave } from '../../core/forms/record-save';
+import { SchoolRecordForm } from '../../core/forms/school-record-form';
 
 const fields = instrumentInputSchema.shape;
 type ManualStatus = (typeof manualInstrumentStatuses)[number];
@@ -59,20 +49,12 @@ function costValidator(control: AbstractControl) {
   styleUrl: './instrument-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class InstrumentForm {
-  protected readonly recordSave = createRecordSave();
+export class InstrumentForm extends SchoolRecordForm<Instrument, Instrument> {
   private readonly fleet = inject(FleetInstruments);
 
   /** The instrument being edited; null to add one. */
   readonly instrument = input<Instrument | null>(null);
-  readonly schools = input<SchoolSummary[]>([]);
-  /** Whether the user may change the record. */
-  readonly editable = input(false);
-
-  /** Saved; the answer is the row as the API now has it. */
-  readonly saved = output<Instrument>();
-  /** The user asked to load the record again after a conflict. */
-  readonly reloadRequested = output<void>();
+  protected readonly record = this.instrument;
 
   protected readonly families = instrumentFamilies.map((family) => ({
     label: familyLabels[family],
@@ -86,8 +68,6 @@ export class InstrumentForm {
     manualInstrumentStatuses,
     (value) => statusLooks[value].label,
   );
-  protected readonly schoolChoices = computed(() => namedChoices(this.schools()));
-  protected readonly adding = computed(() => this.instrument() === null);
   /** Loans, repairs and counts set the other statuses; a person may set only these. */
   protected readonly statusSettable = computed(() => {
     const status = this.instrument()?.status;
@@ -112,38 +92,29 @@ export class InstrumentForm {
   });
 
   constructor() {
-    effect(() => {
-      const instrument = this.instrument();
-      const editable = this.editable();
-      untracked(() => this.show(instrument, editable));
-    });
+    super();
     chooseOnlySchool(this.schools, this.adding, this.form.controls.homeSchoolId);
   }
 
-  private show(instrument: Instrument | null, editable: boolean): void {
-    this.recordSave.conflict.set(false);
-    if (instrument) {
-      this.form.reset({
-        assetTag: instrument.assetTag,
-        instrumentId: instrument.instrumentId,
-        maker: instrument.maker,
-        model: instrument.model,
-        serial: instrument.serial,
-        purchasedOn: instrument.purchasedOn ?? '',
-        purchaseCost:
-          instrument.purchaseCostCents === null
-            ? ''
-            : (instrument.purchaseCostCents / 100).toFixed(2),
-        fundingSource: instrument.fundingSource,
-        condition: instrument.condition,
-        status: this.statusSettable() ? (instrument.status as ManualStatus) : 'available',
-        homeSchoolId: instrument.homeSchoolId,
-        location: instrument.location,
-        notes: instrument.notes,
-      });
-    }
-    if (editable) this.form.enable({ emitEvent: false });
-    else this.form.disable({ emitEvent: false });
+  protected show(instrument: Instrument): void {
+    this.form.reset({
+      assetTag: instrument.assetTag,
+      instrumentId: instrument.instrumentId,
+      maker: instrument.maker,
+      model: instrument.model,
+      serial: instrument.serial,
+      purchasedOn: instrument.purchasedOn ?? '',
+      purchaseCost:
+        instrument.purchaseCostCents === null
+          ? ''
+          : (instrument.purchaseCostCents / 100).toFixed(2),
+      fundingSource: instrument.fundingSource,
+      condition: instrument.condition,
+      status: this.statusSettable() ? (instrument.status as ManualStatus) : 'available',
+      homeSchoolId: instrument.homeSchoolId,
+      location: instrument.location,
+      notes: instrument.notes,
+    });
   }
 
   protected save(): void {
@@ -165,14 +136,6 @@ export class InstrumentForm {
       : this.fleet.create(instrumentInputSchema.parse(record));
     // Only an edit can be stale; a 409 while adding says why in the message.
     const conflict = instrument !== null;
-    this.recordSave.send(
-      this.form,
-      request,
-      (saved) => {
-        this.recordSave.saved.set(true);
-        this.saved.emit(saved);
-      },
-      { conflict },
-    );
+    this.sendRecord(request, { conflict });
   }
 }
