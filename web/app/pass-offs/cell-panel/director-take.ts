@@ -1,7 +1,6 @@
 import {
   ChangeDetectionStrategy,
   Component,
-  DestroyRef,
   computed,
   effect,
   inject,
@@ -13,17 +12,13 @@ import {
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressSpinnerModule } from '@angular/material/progress-spinner';
-import type { TakeAnalysis } from '@shared/listening';
 import { pattern, PatternRangeError, type PatternNote } from '@shared/music';
 import type { LadderRequirement } from '@shared/api/ladder';
-import { analyseInWorker } from '../../practice/take-panel/take-job';
-import { TakeRecorder } from '../../practice/take-panel/take-recorder';
+import { TakeSession } from '../../practice/take-panel/take-session';
 import { Takes } from '../../practice/take-panel/takes';
 import { errorMessage } from '../../core/parse';
 import { TakeAnalysisView, aidSuggestion } from '../../practice/take-panel/take-analysis-view';
 import { createWrite } from '../../core/state/write';
-
-type Stage = 'idle' | 'asking' | 'recording' | 'listening' | 'heard' | 'problem';
 
 /** The longest take the aid listens to, in seconds. */
 const longestTake = 10 * 60;
@@ -43,7 +38,6 @@ const longestTake = 10 * 60;
 })
 export class DirectorTake {
   private readonly write = createWrite();
-  private readonly recorder = inject(TakeRecorder);
   private readonly takes = inject(Takes);
 
   /** The student being heard: a kept take is theirs. */
@@ -52,21 +46,6 @@ export class DirectorTake {
   readonly instrumentId = input<string | null>(null);
   /** Fill the cell's tempo with the tempo heard. */
   readonly useTempo = output<number>();
-
-  protected readonly stage = signal<Stage>('idle');
-  protected readonly problem = signal<string | null>(null);
-  protected readonly analysis = signal<TakeAnalysis | null>(null);
-  /** The recording analysed, kept as evidence when the director asks. */
-  private recording: Blob | null = null;
-  protected readonly keeping = signal<'no' | 'saving' | 'kept'>('no');
-  protected readonly keepProblem = signal<string | null>(null);
-  protected readonly level = this.recorder.level;
-  protected readonly levelPercent = computed(() => Math.round(this.level() * 100));
-  protected readonly suggestion = computed(() => {
-    const analysis = this.analysis();
-    return analysis ? aidSuggestion(analysis, this.requirement().tempo) : '';
-  });
-  private autoStop?: ReturnType<typeof setTimeout>;
 
   /** The requirement's notes at concert pitch for the student's instrument, or why there are none. */
   protected readonly expected = computed((): PatternNote[] | string => {
@@ -89,6 +68,21 @@ export class DirectorTake {
       throw error;
     }
   });
+  private readonly take = new TakeSession(() => {
+    const notes = this.expected();
+    return typeof notes === 'string' ? notes : { notes, tempo: this.requirement().tempo };
+  });
+  protected readonly stage = this.take.stage;
+  protected readonly problem = this.take.problem;
+  protected readonly analysis = this.take.analysis;
+  protected readonly level = this.take.level;
+  protected readonly levelPercent = this.take.levelPercent;
+  protected readonly keeping = signal<'no' | 'saving' | 'kept'>('no');
+  protected readonly keepProblem = signal<string | null>(null);
+  protected readonly suggestion = computed(() => {
+    const analysis = this.analysis();
+    return analysis ? aidSuggestion(analysis, this.requirement().tempo) : '';
+  });
 
   constructor() {
     // A new cell starts with no take.
@@ -97,41 +91,15 @@ export class DirectorTake {
       this.instrumentId();
       untracked(() => this.reset());
     });
-    inject(DestroyRef).onDestroy(() => this.reset());
   }
 
   /** Records from the microphone; stops by itself a little after the pattern's length. */
-  protected async record(): Promise<void> {
-    const notes = this.expected();
-    if (typeof notes === 'string') return;
-    this.problem.set(null);
-    this.analysis.set(null);
-    this.stage.set('asking');
-    try {
-      await this.recorder.start();
-    } catch {
-      this.fail(
-        'The microphone could not be used. Allow this site to use the microphone in the browser’s prompt (or its site settings) and try again.',
-      );
-      return;
-    }
-    this.stage.set('recording');
-    const tempo = this.requirement().tempo;
-    const beats = 4 + notes.reduce((total, note) => total + note.beats, 0);
-    this.autoStop = setTimeout(() => void this.stop(), ((beats * 60) / tempo + 2) * 1000);
+  protected record(): Promise<void> {
+    return this.take.record();
   }
 
-  protected async stop(): Promise<void> {
-    clearTimeout(this.autoStop);
-    if (this.stage() !== 'recording') return;
-    this.stage.set('listening');
-    try {
-      const take = await this.recorder.stop();
-      this.recording = take.blob;
-      await this.analyse(take.samples, take.sampleRate);
-    } catch {
-      this.fail('The recording could not be read in this browser.');
-    }
+  protected stop(): Promise<void> {
+    return this.take.stop();
   }
 
   /** Decodes a picked file with the browser's own decoder and analyses it. */
@@ -140,9 +108,7 @@ export class DirectorTake {
     const file = field.files?.[0];
     field.value = '';
     if (!file || typeof this.expected() === 'string') return;
-    this.problem.set(null);
-    this.analysis.set(null);
-    this.stage.set('listening');
+    this.take.listening();
     const context = new AudioContext();
     let samples: Float32Array;
     let sampleRate: number;
@@ -151,7 +117,7 @@ export class DirectorTake {
       samples = decoded.getChannelData(0).slice();
       sampleRate = decoded.sampleRate;
     } catch {
-      this.fail(
+      this.take.fail(
         `“${file.name}” is not a sound file this browser can read (or it is damaged). Choose a WAV, MP3, Ogg or WebM recording.`,
       );
       return;
@@ -159,21 +125,21 @@ export class DirectorTake {
       void context.close();
     }
     if (samples.length / sampleRate > longestTake) {
-      this.fail('The recording is too long: 10 minutes at most.');
+      this.take.fail('The recording is too long: 10 minutes at most.');
       return;
     }
-    this.recording = file;
-    await this.analyse(samples, sampleRate);
+    await this.take.hear(samples, sampleRate, file);
   }
 
   /** Keeps the take with the student's takes, as evidence of this pass-off. */
   protected keep(): void {
     const analysis = this.analysis();
-    if (!analysis || !this.recording || this.keeping() !== 'no') return;
+    const recording = this.take.recording();
+    if (!analysis || !recording || this.keeping() !== 'no') return;
     this.keeping.set('saving');
     this.keepProblem.set(null);
     const request = this.takes.keepHeard(
-      this.recording,
+      recording,
       this.studentId(),
       this.requirement().code,
       this.requirement().tempo,
@@ -188,39 +154,12 @@ export class DirectorTake {
     });
   }
 
-  private async analyse(samples: Float32Array, sampleRate: number): Promise<void> {
-    const notes = this.expected();
-    if (typeof notes === 'string') return;
-    const answer = await analyseInWorker({
-      samples,
-      sampleRate,
-      notes,
-      tempo: this.requirement().tempo,
-    });
-    if ('problem' in answer) {
-      this.fail(answer.problem);
-      return;
-    }
-    this.analysis.set(answer.analysis);
-    this.stage.set('heard');
-  }
-
   protected wholeTempo(value: number): number {
     return Math.round(value);
   }
 
-  private fail(message: string): void {
-    this.stage.set('problem');
-    this.problem.set(message);
-  }
-
   private reset(): void {
-    clearTimeout(this.autoStop);
-    if (this.stage() === 'recording' || this.stage() === 'asking') this.recorder.cancel();
-    this.stage.set('idle');
-    this.problem.set(null);
-    this.analysis.set(null);
-    this.recording = null;
+    this.take.reset();
     this.keeping.set('no');
     this.keepProblem.set(null);
   }
