@@ -1,10 +1,11 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
-import { MAT_DIALOG_DATA, MatDialogModule, type MatDialog } from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, MatDialog, MatDialogModule } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
+import { MatSnackBar } from '@angular/material/snack-bar';
 import { of } from 'rxjs';
 import { draftNameMark, type Ladder, type LadderImpactGroup } from '@shared/api/ladder';
 import { errorMessage } from '../../core/parse';
@@ -25,11 +26,26 @@ export interface ImpactDialogData {
 type Move = 'up' | 'down' | 'same';
 
 /**
- * Opens the impact dialog for a version and waits for it: the ladder now in force, or undefined
- * when the user cancelled.
+ * Puts a ladder version in force through the impact dialog, then says so in a snack bar: the
+ * returned function answers the ladder now in force, or undefined when the user cancelled. Call
+ * it in an injection context (a field initialiser).
  */
-export function putInForce(dialog: MatDialog, data: ImpactDialogData): Promise<Ladder | undefined> {
-  return dialogAnswer<Ladder>(dialog, ImpactDialog, { data, width: '720px', maxHeight: '90vh' });
+export function injectPutInForce(): (data: ImpactDialogData) => Promise<Ladder | undefined> {
+  const dialog = inject(MatDialog);
+  const snackBar = inject(MatSnackBar);
+  return async (data) => {
+    const ladder = await dialogAnswer<Ladder>(dialog, ImpactDialog, {
+      data,
+      width: '720px',
+      maxHeight: '90vh',
+    });
+    if (ladder) {
+      const news =
+        data.mode === 'publish' ? 'is now the ladder in force' : 'is the ladder in force again';
+      snackBar.open(`“${ladder.name}” ${news}.`, 'Close', { duration: 6000 });
+    }
+    return ladder;
+  };
 }
 
 /**

@@ -13,7 +13,6 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import { firstValueFrom, type Observable } from 'rxjs';
 import type { Ladder, LadderRequirement, LadderRung } from '@shared/api/ladder';
@@ -25,7 +24,7 @@ import { RecordPage } from '../../core/record-page/record-page';
 import { createWrite } from '../../core/state/write';
 import { BenchmarkEditor } from '../benchmark-editor/benchmark-editor';
 import { askToConfirm, type ConfirmDialogData } from '../../core/confirm-dialog/confirm-dialog';
-import { putInForce } from '../impact-dialog/impact-dialog';
+import { injectPutInForce } from '../impact-dialog/impact-dialog';
 import { LadderData } from '../ladder-data';
 import { RungEditor, type RequirementEdit } from '../rung-editor/rung-editor';
 import { reachWarnings } from '../reach-warnings';
@@ -68,7 +67,7 @@ import {
 export class LadderEditor {
   private readonly ladderData = inject(LadderData);
   private readonly dialog = inject(MatDialog);
-  private readonly snackBar = inject(MatSnackBar);
+  private readonly putInForce = injectPutInForce();
   private readonly router = inject(Router);
 
   /** The route's `:id`: the draft's version id. */
@@ -219,12 +218,7 @@ export class LadderEditor {
     const draft = this.draft();
     if (!draft) return;
     const data = { versionId: draft.id, mode: 'publish' as const, name: draft.name };
-    const ladder = await putInForce(this.dialog, data);
-    if (!ladder) return;
-    this.snackBar.open(`“${ladder.name}” is now the ladder in force.`, 'Close', {
-      duration: 6000,
-    });
-    void this.router.navigate(['/ladder']);
+    if (await this.putInForce(data)) void this.router.navigate(['/ladder']);
   }
 
   protected async discard(): Promise<void> {

@@ -10,7 +10,6 @@ import {
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatIconModule } from '@angular/material/icon';
-import { MatDialog } from '@angular/material/dialog';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { Router, RouterLink } from '@angular/router';
 import type { LadderRequirement, LadderVersionSummary } from '@shared/api/ladder';
@@ -25,7 +24,7 @@ import { StudentProgressData } from '../../students/student-progress/student-pro
 import { benchmarkTable } from '../benchmark-table';
 import { dateText, gradeText } from '../date-text';
 import { InstrumentPicker } from '../instrument-picker/instrument-picker';
-import { putInForce } from '../impact-dialog/impact-dialog';
+import { injectPutInForce } from '../impact-dialog/impact-dialog';
 import { LadderData } from '../ladder-data';
 import {
   appliesToFamily,
@@ -67,7 +66,7 @@ export class LadderView {
   private readonly currentUser = inject(CurrentUser);
   private readonly router = inject(Router);
   private readonly snackBar = inject(MatSnackBar);
-  private readonly dialog = inject(MatDialog);
+  private readonly putInForce = injectPutInForce();
 
   protected readonly canEdit = this.currentUser.can('ladder:write');
   protected readonly isStudent = this.currentUser.me()?.role === 'student';
@@ -175,12 +174,7 @@ export class LadderView {
     const previous = this.previous();
     if (!previous) return;
     const data = { versionId: previous.id, mode: 'restore' as const, name: previous.name };
-    const ladder = await putInForce(this.dialog, data);
-    if (!ladder) return;
-    this.snackBar.open(`“${ladder.name}” is the ladder in force again.`, 'Close', {
-      duration: 6000,
-    });
-    this.fetch();
+    if (await this.putInForce(data)) this.fetch();
   }
 
   protected fetch(): void {
