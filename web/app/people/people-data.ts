@@ -1,6 +1,6 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import { map, type Observable } from 'rxjs';
+import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
   auditEntrySchema,
@@ -12,12 +12,10 @@ import {
   type PersonInput,
   type PersonPatch,
 } from '@shared/api/person';
-import { studentSchema, type Student } from '@shared/api/student';
 import { parsedWith } from '../core/parse';
 
 const personListSchema = listResponseSchema(personSchema);
 const auditListSchema = listResponseSchema(auditEntrySchema);
-const studentListSchema = listResponseSchema(studentSchema);
 
 /** Reads and changes who signs in, and reads the audit log, through the API. */
 @Injectable({ providedIn: 'root' })
@@ -46,13 +44,5 @@ export class PeopleData {
     return this.http
       .get('/api/audit', { params: new HttpParams({ fromObject: query }) })
       .pipe(parsedWith(auditListSchema));
-  }
-
-  /** Active students whose name or student id starts with the text, to link a student account. */
-  findStudents(text: string): Observable<Student[]> {
-    return this.http.get('/api/students', { params: { q: text, status: 'active', limit: 8 } }).pipe(
-      parsedWith(studentListSchema),
-      map((list) => list.rows),
-    );
   }
 }

@@ -1,16 +1,11 @@
 import { ChangeDetectionStrategy, Component, inject, output } from '@angular/core';
-import { HttpClient } from '@angular/common/http';
 import { MatAutocompleteModule } from '@angular/material/autocomplete';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { map } from 'rxjs';
 import { injectTypedSearch } from '../../core/state/typed-search';
-import { listResponseSchema } from '@shared/api/list';
-import { studentSchema, type Student } from '@shared/api/student';
-import { parsedWith } from '../../core/parse';
-
-const studentListSchema = listResponseSchema(studentSchema);
+import type { Student } from '@shared/api/student';
+import { StudentData } from '../../students/student-detail/student-data';
 
 /** Finds an active student of the user's schools by name or student ID as the user types. */
 @Component({
@@ -56,17 +51,11 @@ const studentListSchema = listResponseSchema(studentSchema);
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class StudentPicker {
-  private readonly http = inject(HttpClient);
+  private readonly students = inject(StudentData);
 
   readonly picked = output<Student | null>();
 
-  // The API answers only the user's own schools' students.
-  protected readonly search = injectTypedSearch((q) =>
-    this.http.get('/api/students', { params: { q, status: 'active', limit: 12 } }).pipe(
-      parsedWith(studentListSchema),
-      map((page) => page.rows),
-    ),
-  );
+  protected readonly search = injectTypedSearch((text) => this.students.findActive(text, 12));
   protected readonly describe = (student: Student | string | null) =>
     typeof student === 'string'
       ? student

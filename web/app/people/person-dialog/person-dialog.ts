@@ -24,6 +24,7 @@ import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
+import { StudentData } from '../../students/student-detail/student-data';
 import { createDialogSave } from '../../core/state/dialog-save';
 
 /** What the person dialog edits: a person, or null to add one. */
@@ -91,7 +92,9 @@ export class PersonDialog {
   protected readonly linkedStudent = signal<{ name: string; studentNumber: string } | null>(
     this.person?.student ?? null,
   );
-  protected readonly studentSearch = injectTypedSearch((text) => this.people.findStudents(text));
+  private readonly students = inject(StudentData);
+  /** Active students whose name or student id matches the text, to link a student account. */
+  protected readonly studentSearch = injectTypedSearch((text) => this.students.findActive(text, 8));
   protected readonly saving = this.dialogSave.saving;
   protected readonly conflict = signal(false);
   protected readonly failure = this.dialogSave.failure;

@@ -1,6 +1,7 @@
 import { HttpClient, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import type { Observable } from 'rxjs';
+import { map, type Observable } from 'rxjs';
+import { listResponseSchema } from '@shared/api/list';
 import {
   studentDetailSchema,
   studentSchema,
@@ -12,10 +13,23 @@ import {
 } from '@shared/api/student';
 import { parsedWith } from '../../core/parse';
 
+const studentListSchema = listResponseSchema(studentSchema);
+
 /** Reads and writes student records through `/api/students`. */
 @Injectable({ providedIn: 'root' })
 export class StudentData {
   private readonly http = inject(HttpClient);
+
+  /**
+   * Up to `limit` active students of the user's schools whose name or student id matches
+   * `text`, as a picker offers them (the API answers only the user's own schools' students).
+   */
+  findActive(text: string, limit: number): Observable<Student[]> {
+    return this.http.get('/api/students', { params: { q: text, status: 'active', limit } }).pipe(
+      parsedWith(studentListSchema),
+      map((list) => list.rows),
+    );
+  }
 
   /** The record of `id()` with its school, seats and moves; idle while `id()` is undefined. */
   record(id: () => number | undefined): HttpResourceRef<StudentDetail | undefined> {
