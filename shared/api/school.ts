@@ -1,5 +1,6 @@
 import * as z from 'zod';
 import { plainText, versionNumber } from './input-rules';
+import { listResponseSchema } from './list';
 
 export const schoolLevels = ['elementary', 'middle', 'high', 'k-8', 'other'] as const;
 
@@ -26,6 +27,8 @@ export const schoolSchema = z.object({
   ensembleCount: z.number().int().optional(),
 });
 export type School = z.infer<typeof schoolSchema>;
+/** A page of schools, as `GET /schools` answers. */
+export const schoolListSchema = listResponseSchema(schoolSchema);
 
 const gradeSchema = z
   .number({ message: 'A grade is a whole number from 0 (kindergarten) to 12.' })

@@ -1,6 +1,7 @@
 import * as z from 'zod';
 import { schoolFields, seatFields, studentFullNameFields, versionedFields } from './fields';
 import { idParameter, plainText, recordId, versionNumber } from './input-rules';
+import { listResponseSchema } from './list';
 import { schoolSummarySchema } from './me';
 
 /** Whether a student is on the roster now, has left the program, graduated, or left the district's schools after their school's last grade. */
@@ -64,6 +65,8 @@ export const studentSchema = z.object({
   ...versionedFields,
 });
 export type Student = z.infer<typeof studentSchema>;
+/** A page of students, as `GET /students` answers. */
+export const studentListSchema = listResponseSchema(studentSchema);
 
 /** A seat of the student in one ensemble, as the student detail shows it. */
 export const studentEnrollmentSchema = z.object({

@@ -1,9 +1,6 @@
 import { httpResource } from '@angular/common/http';
 import { computed, type Signal } from '@angular/core';
-import { listResponseSchema } from '@shared/api/list';
-import { schoolSchema, type School } from '@shared/api/school';
-
-const schoolListSchema = listResponseSchema(schoolSchema);
+import { schoolListSchema, type School } from '@shared/api/school';
 
 /**
  * The schools the signed-in user may pick from, by name: what every school filter and school

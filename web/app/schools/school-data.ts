@@ -1,11 +1,15 @@
 import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import type { Observable } from 'rxjs';
-import { listResponseSchema, type ListResponse } from '@shared/api/list';
-import { schoolSchema, type School, type SchoolInput, type SchoolPatch } from '@shared/api/school';
+import type { ListResponse } from '@shared/api/list';
+import {
+  schoolListSchema,
+  schoolSchema,
+  type School,
+  type SchoolInput,
+  type SchoolPatch,
+} from '@shared/api/school';
 import { parsedWith } from '../core/parse';
-
-const schoolListSchema = listResponseSchema(schoolSchema);
 
 /** Reads and writes schools through the API. */
 @Injectable({ providedIn: 'root' })

@@ -15,8 +15,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { forkJoin } from 'rxjs';
 import type { ImportPreview } from '@shared/api/import';
-import { listResponseSchema } from '@shared/api/list';
-import { schoolLevels, schoolSchema, type School } from '@shared/api/school';
+import { schoolLevels, schoolListSchema, type School } from '@shared/api/school';
 import { errorMessage } from '../../core/parse';
 import { SchoolData } from '../../schools/school-data';
 import { RosterImports } from '../roster-imports';
@@ -24,8 +23,6 @@ import { createWrite } from '../../core/state/write';
 
 /** An org of a OneRoster bundle that matched none of the district's schools. */
 export type UnmappedOrg = NonNullable<ImportPreview['oneRoster']>['unmappedOrgs'][number];
-
-const schoolListSchema = listResponseSchema(schoolSchema);
 
 /**
  * The orgs of a OneRoster bundle that match no school, each with the school the coordinator

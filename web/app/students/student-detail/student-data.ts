@@ -1,9 +1,9 @@
 import { HttpClient, httpResource, type HttpResourceRef } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { map, type Observable } from 'rxjs';
-import { listResponseSchema } from '@shared/api/list';
 import {
   studentDetailSchema,
+  studentListSchema,
   studentSchema,
   type Student,
   type StudentDetail,
@@ -12,8 +12,6 @@ import {
   type StudentPatch,
 } from '@shared/api/student';
 import { parsedWith } from '../../core/parse';
-
-const studentListSchema = listResponseSchema(studentSchema);
 
 /** Reads and writes student records through `/api/students`. */
 @Injectable({ providedIn: 'root' })
