@@ -43,20 +43,66 @@ export function medianOfCounts(counts: readonly (readonly [number, number])[]): 
 }
 
 /**
- * One year's players with the rung each had reached on `day`: for the current year the active
- * students (their grade and school now), for an ended year its history rows that did not end
- * withdrawn (their grade and school that year, and the rung dates kept with the row when the
+ * A closed year's players with the rung each had reached on `day`: its history rows that did not
+ * end withdrawn (their grade and school that year, and the rung dates kept with the row when the
  * year was closed). The rung on a day is the count of the student's rung dates up to it, which
  * `width_bucket` answers by a binary search of the sorted array (PostgreSQL manual, 9.3
  * "Mathematical Functions": width_bucket(operand, thresholds)).
  */
-function playersOn(year: ComparedYear, day: string, inScope: (column: SQL) => SQL): SQL {
-  return year.current
-    ? sql`select a.grade::int as grade, coalesce(width_bucket(${day}::date, a.rung_dates), 0) as rung
-        from student_attainment a where a.active and a.grade is not null ${inScope(sql`a.school_id`)}`
-    : sql`select sy.grade::int as grade, coalesce(width_bucket(${day}::date, sy.rung_dates), 0) as rung
-        from student_years sy
-        where sy.school_year_id = ${year.id} and sy.outcome <> 'withdrawn' ${inScope(sql`sy.school_id`)}`;
+function historyOn(
+  year: ComparedYear,
+  day: string,
+  side: 'current' | 'previous',
+  inScope: (column: SQL) => SQL,
+) {
+  return sql`select ${sql.raw(`'${side}'`)} as side, p.grade, p.rung, count(*)::int as students
+    from (select sy.grade::int as grade, coalesce(width_bucket(${day}::date, sy.rung_dates), 0) as rung
+      from student_years sy
+      where sy.school_year_id = ${year.id} and sy.outcome <> 'withdrawn' ${inScope(sql`sy.school_id`)}) p
+    group by p.grade, p.rung`;
+}
+
+/**
+ * The current year's players (the active students with a grade, at their grade and school now)
+ * as counts, not students: 'dated' rows give how many carry each number of rung dates
+ * (`active_rung_counts`), 'after' rows how many reached each rung on a day after `day`
+ * (`active_rung_days`, read from its key's end). {@link rungsOnDay} turns them into the rung
+ * each had reached on the day.
+ */
+function currentOn(day: string, inScope: (column: SQL) => SQL) {
+  return sql`select 'dated' as side, c.grade::int as grade, c.dated::int as rung,
+      sum(c.students)::int as students
+    from active_rung_counts c where c.grade is not null ${inScope(sql`c.school_id`)}
+    group by 2, 3 having sum(c.students) <> 0
+    union all
+    select 'after', d.grade::int, d.rung::int, sum(d.students)::int
+    from active_rung_days d where d.reached_on > ${day}::date ${inScope(sql`d.school_id`)}
+    group by 2, 3 having sum(d.students) <> 0`;
+}
+
+/**
+ * A grade's students by the rung reached on a day, as ascending [rung, students] pairs, from how
+ * many carry each number of rung dates (`dated`, [count, students]) and how many reached each
+ * rung after the day (`after`, rung → students). A student's rung on the day is their count of
+ * rung dates up to it: those reaching rung k by the day are those with at least k dates less
+ * those whose k-th date is later.
+ */
+export function rungsOnDay(
+  dated: readonly (readonly [number, number])[],
+  after: ReadonlyMap<number, number>,
+): [number, number][] {
+  const top = dated.reduce((most, [count]) => Math.max(most, count), 0);
+  // reached[k]: students with a k-th rung date on or before the day (reached[0]: everyone).
+  const reached = Array.from({ length: top + 2 }, () => 0);
+  for (const [count, students] of dated)
+    for (let k = 0; k <= count; k += 1) reached[k]! += students;
+  for (let k = 1; k <= top; k += 1) reached[k]! -= after.get(k) ?? 0;
+  const pairs: [number, number][] = [];
+  for (let k = 0; k <= top; k += 1) {
+    const students = reached[k]! - reached[k + 1]!;
+    if (students > 0) pairs.push([k, students]);
+  }
+  return pairs;
 }
 
 /**
@@ -94,28 +140,36 @@ export async function rungByGrade(
   };
   const before =
     previous && previousAsOf
-      ? sql`union all select 'previous' as side, p.grade, p.rung, count(*)::int as students
-          from (${playersOn(previous, previousAsOf, inScope)}) p group by p.grade, p.rung`
+      ? sql`union all ${historyOn(previous, previousAsOf, 'previous', inScope)}`
       : sql``;
   // Counts by grade and rung, the medians taken from them (rungs are small whole numbers).
   const rows = rowsOf<{
-    side: 'current' | 'previous';
+    side: 'current' | 'previous' | 'dated' | 'after';
     grade: number;
     rung: number;
     students: number;
   }>(
     await db.execute(sql`
-      select 'current' as side, c.grade, c.rung, count(*)::int as students
-      from (${playersOn(year, asOf, inScope)}) c group by c.grade, c.rung
+      ${year.current ? currentOn(asOf, inScope) : historyOn(year, asOf, 'current', inScope)}
       ${before}
       order by 2, 3`),
   );
   const counts = new Map<number, { current: [number, number][]; previous: [number, number][] }>();
+  const dated = new Map<number, [number, number][]>();
+  const after = new Map<number, Map<number, number>>();
   for (const row of rows) {
+    if (row.side === 'after') {
+      after.set(row.grade, (after.get(row.grade) ?? new Map()).set(row.rung, row.students));
+      continue;
+    }
     const grade = counts.get(row.grade) ?? { current: [], previous: [] };
-    grade[row.side].push([row.rung, row.students]);
     counts.set(row.grade, grade);
+    if (row.side === 'dated')
+      dated.set(row.grade, [...(dated.get(row.grade) ?? []), [row.rung, row.students]]);
+    else grade[row.side].push([row.rung, row.students]);
   }
+  for (const [grade, pairs] of dated)
+    counts.get(grade)!.current = rungsOnDay(pairs, after.get(grade) ?? new Map());
   const summary = (pairs: [number, number][]) => {
     const students = pairs.reduce((sum, [, count]) => sum + count, 0);
     return { median: students ? medianOfCounts(pairs) : null, students };

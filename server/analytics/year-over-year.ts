@@ -156,7 +156,8 @@ export async function yearOverYear(
  * years up to the compared one count; a student counts at the school of that year, so a director
  * sees the climb of the students while at their schools. The closed years' points are the
  * counts the year start wrote (`cohort_rungs`); the current year's are the active students'
- * summary rows, whose cohort is copied from the student (null: they started this year).
+ * counts by cohort and rung (`active_rung_counts`, whose cohort is the student's, copied to the
+ * summary row; null: they started this year).
  */
 export async function cohortClimb(
   db: Database,
@@ -172,12 +173,15 @@ export async function cohortClimb(
     if (schoolId !== undefined) parts.push(sql`${column} = ${schoolId}`);
     return parts.length ? sql` and ${sql.join(parts, sql` and `)}` : sql``;
   };
+  // This year's point: the active students' counts by cohort and rung, kept by triggers on the
+  // summary rows (active_rung_counts), a few hundred rows instead of every student.
   const now = year.current
     ? sql`union all
         select coalesce(a.cohort_starts_on, ${year.starts_on}::date)::text,
-          coalesce(a.cohort_grade, a.grade)::int, ${year.starts_on}::text, a.rung::int, count(*)::int
-        from student_attainment a where a.active ${inScope(sql`a.school_id`)}
-        group by 1, 2, 3, 4`
+          coalesce(a.cohort_grade, a.grade)::int, ${year.starts_on}::text, a.rung::int,
+          sum(a.students)::int
+        from active_rung_counts a where true ${inScope(sql`a.school_id`)}
+        group by 1, 2, 3, 4 having sum(a.students) > 0`
     : sql``;
   // Medians from counts by rung (rungs are small whole numbers): a hashed count instead of a sort
   // of every row, which is what keeps the figure fast over tens of thousands of students.

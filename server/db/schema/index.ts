@@ -11,3 +11,4 @@ export * from './listening';
 export * from './district';
 export * from './fees';
 export * from './oneroster';
+export * from './rung-counts';
