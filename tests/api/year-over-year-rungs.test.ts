@@ -5,6 +5,7 @@ import { yearOverYearSchema, type RungByGrade } from '@shared/api/year-over-year
 import { rowsOf } from '../../server/db/client';
 import { activeRuleLadder } from '../../server/ladder/ladder-queries';
 import { plainMedian } from '../support/plain-median';
+import { rungCountDrift } from '../support/rung-counts';
 import { startTestApp, type StartedTestApp } from '../support/test-app';
 
 type App = StartedTestApp<'coordinator' | 'director.hpms'>;
@@ -170,6 +171,8 @@ describe('Rung by grade, this year against last year at the same point of the ye
     );
     const removed = await app.clients.coordinator.delete(`/api/pass-offs/${target!.id}`);
     expect([200, 204]).toContain(removed.status);
+    // The counts the figure reads follow the summary row the removal rewrote.
+    expect(await rungCountDrift(app.database.db)).toEqual([]);
     const figure = yearOverYearSchema.parse(
       (await app.clients.coordinator.get(`/api/analytics/year-over-year?asOf=${day}`)).body,
     ).rungByGrade;

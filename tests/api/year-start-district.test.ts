@@ -4,6 +4,7 @@ import { SeededRandom } from '../../server/seed/random';
 import { startSchoolYear } from '../../server/school-years/year-start';
 import { yearOverYear } from '../../server/analytics/year-over-year';
 import { studentCountDrift } from '../support/student-counts';
+import { rungCountDrift } from '../support/rung-counts';
 import { startTestApp, type TestApp } from '../support/test-app';
 import {
   expectedStart,
@@ -249,6 +250,7 @@ describe('Starting a year in a 2,000-student district', () => {
     );
     expect(moves!.count).toBe(expected.counts.movingUp);
     expect(await studentCountDrift(app.database.db)).toEqual([]);
+    expect(await rungCountDrift(app.database.db)).toEqual([]);
     expect(await query(`select name from school_years where current`)).toEqual([
       { name: '2027-28' },
     ]);
@@ -262,6 +264,7 @@ describe('Starting a year in a 2,000-student district', () => {
       { commit: true },
     );
     expect(started.committed).toBe(true);
+    expect(await rungCountDrift(app.database.db)).toEqual([]);
     const played = await query<{ student_id: number; year: string; grade: number; rung: number }>(
       `select sy.student_id, y.name as year, sy.grade, sy.rung from student_years sy
        join school_years y on y.id = sy.school_year_id
