@@ -17,3 +17,7 @@ CREATE TABLE "active_rung_days" (
 	"students" integer NOT NULL,
 	CONSTRAINT "active_rung_days_key" UNIQUE NULLS NOT DISTINCT("reached_on","school_id","grade","rung")
 );
+--> statement-breakpoint
+CREATE TABLE "active_rung_rebuilds" (
+	"pending" boolean PRIMARY KEY NOT NULL
+);

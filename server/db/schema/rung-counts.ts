@@ -1,4 +1,4 @@
-import { date, integer, pgTable, smallint, unique } from 'drizzle-orm/pg-core';
+import { boolean, date, integer, pgTable, smallint, unique } from 'drizzle-orm/pg-core';
 
 /**
  * How many active students (the `student_attainment` rows with `active`) stand at each rung, by
@@ -57,3 +57,12 @@ export const activeRungDays = pgTable(
       .nullsNotDistinct(),
   ],
 );
+
+/**
+ * Set (one row) when a statement of a new year's start left the two tables above to be worked out
+ * again in full at its commit, which a deferred trigger on this table does (one pass over the
+ * summary rows instead of the old and new versions of each).
+ */
+export const activeRungRebuilds = pgTable('active_rung_rebuilds', {
+  pending: boolean('pending').primaryKey(),
+});
