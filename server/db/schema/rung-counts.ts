@@ -1,5 +1,13 @@
 import { boolean, date, integer, pgTable, smallint, unique } from 'drizzle-orm/pg-core';
 
+/** The columns both counts share: how many students of a school and grade, at a rung. */
+const schoolGradeRung = () => ({
+  schoolId: integer('school_id'),
+  grade: smallint('grade'),
+  rung: smallint('rung').notNull(),
+  students: integer('students').notNull(),
+});
+
 /**
  * How many active students (the `student_attainment` rows with `active`) stand at each rung, by
  * school, grade and cohort (the summary row's own fields, cohort fields null until the student's
@@ -12,14 +20,11 @@ import { boolean, date, integer, pgTable, smallint, unique } from 'drizzle-orm/p
 export const activeRungCounts = pgTable(
   'active_rung_counts',
   {
-    schoolId: integer('school_id'),
-    grade: smallint('grade'),
+    ...schoolGradeRung(),
     cohortStartsOn: date('cohort_starts_on', { mode: 'string' }),
     cohortGrade: smallint('cohort_grade'),
-    rung: smallint('rung').notNull(),
     /** The number of rung dates: the rungs reached on some day (`rung` itself, in practice). */
     dated: smallint('dated').notNull(),
-    students: integer('students').notNull(),
   },
   (table) => [
     unique('active_rung_counts_key')
@@ -46,10 +51,8 @@ export const activeRungDays = pgTable(
   'active_rung_days',
   {
     reachedOn: date('reached_on', { mode: 'string' }).notNull(),
-    schoolId: integer('school_id'),
-    grade: smallint('grade').notNull(),
-    rung: smallint('rung').notNull(),
-    students: integer('students').notNull(),
+    // Written only for students with a grade.
+    ...schoolGradeRung(),
   },
   (table) => [
     unique('active_rung_days_key')
