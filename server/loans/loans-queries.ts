@@ -1,23 +1,10 @@
-import {
-  and,
-  count,
-  eq,
-  ilike,
-  inArray,
-  isNotNull,
-  isNull,
-  lt,
-  ne,
-  or,
-  sql,
-  type SQL,
-} from 'drizzle-orm';
+import { and, count, eq, inArray, isNotNull, isNull, lt, ne, or, sql, type SQL } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
 import { instruments, loans, schools, students } from '../db/schema/index';
 import type { ListResponse } from '@shared/api/list';
 import { loanFiltersSchema, type Loan } from '@shared/api/loan';
 import { can, type Actor } from '../core/policy';
-import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';
 import { cautionsFor, instrumentNameOf } from '../instruments/instrument-cautions';
 import { todayIso } from './school-calendar';
@@ -132,17 +119,14 @@ export async function listLoans(
   const list = parseListQuery(query, loanFiltersSchema);
   const today = todayIso();
   const conditions = [loanScope(actor)];
-  if (list.q) {
-    const pattern = likePattern(list.q);
-    conditions.push(
-      or(
-        ilike(instruments.assetTag, pattern),
-        ilike(students.lastName, pattern),
-        ilike(students.firstName, pattern),
-        ilike(students.studentNumber, pattern),
-      ),
-    );
-  }
+  conditions.push(
+    matchesText(list.q, [
+      instruments.assetTag,
+      students.lastName,
+      students.firstName,
+      students.studentNumber,
+    ]),
+  );
   if (list.state) conditions.push(eq(loans.state, list.state));
   if (list.overdue === 'true')
     conditions.push(and(eq(loans.state, 'active'), lt(loans.dueOn, today)));

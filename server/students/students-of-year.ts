@@ -1,21 +1,9 @@
-import {
-  type AnyColumn,
-  and,
-  asc,
-  count,
-  desc,
-  eq,
-  ilike,
-  inArray,
-  or,
-  sql,
-  type SQL,
-} from 'drizzle-orm';
+import { type AnyColumn, and, asc, count, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import type { ListResponse } from '@shared/api/list';
 import type { Student } from '@shared/api/student';
 import type { Database } from '../db/client';
 import { schools, studentYears, students } from '../db/schema/index';
-import { likePattern } from '../core/list-query';
+import { matchesText } from '../core/list-query';
 import { schoolScope, type Actor } from '../core/policy';
 import { seatSummaries } from './student-seats';
 import { toStudent } from './student-row';
@@ -55,17 +43,14 @@ export async function listStudentsOfYear(
     conditions.push(scope.length ? inArray(studentYears.schoolId, scope) : sql`false`);
   if (list.schoolId !== undefined) conditions.push(eq(studentYears.schoolId, list.schoolId));
   if (list.grade !== undefined) conditions.push(eq(studentYears.grade, list.grade));
-  if (list.q) {
-    const pattern = likePattern(list.q);
-    conditions.push(
-      or(
-        ilike(students.lastName, pattern),
-        ilike(students.firstName, pattern),
-        ilike(students.preferredName, pattern),
-        ilike(students.studentNumber, pattern),
-      ),
-    );
-  }
+  conditions.push(
+    matchesText(list.q, [
+      students.lastName,
+      students.firstName,
+      students.preferredName,
+      students.studentNumber,
+    ]),
+  );
   const where = and(...conditions);
   const [field, direction] = (list.sort ?? 'lastName:asc').split(':') as [string, string];
   const column = sortable[field] ?? students.lastName;
