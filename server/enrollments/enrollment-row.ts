@@ -1,15 +1,14 @@
 import type { Enrollment } from '@shared/api/enrollment';
 import { enrollments, ensembles, schoolYears, schools, students } from '../db/schema/index';
 import { instrumentName } from './instrument-order';
+import { studentNameColumns } from '../students/student-row';
 
 /** The columns every enrollment answer selects: the seat, its student, ensemble and year. */
 export const enrollmentColumns = {
   id: enrollments.id,
   studentId: enrollments.studentId,
   studentNumber: students.studentNumber,
-  firstName: students.firstName,
-  lastName: students.lastName,
-  preferredName: students.preferredName,
+  ...studentNameColumns,
   ensembleId: enrollments.ensembleId,
   ensembleName: ensembles.name,
   schoolId: ensembles.schoolId,

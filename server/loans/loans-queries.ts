@@ -8,15 +8,14 @@ import { matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';
 import { cautionsFor, instrumentNameOf } from '../instruments/instrument-cautions';
 import { todayIso } from './school-calendar';
+import { studentNameColumns } from '../students/student-row';
 
 /** The columns a loan answer is built from. */
 export const loanColumns = {
   loan: loans,
   assetTag: instruments.assetTag,
   instrumentType: instruments.instrumentId,
-  firstName: students.firstName,
-  lastName: students.lastName,
-  preferredName: students.preferredName,
+  ...studentNameColumns,
   guardianName: students.guardianName,
   guardianEmail: students.guardianEmail,
   schoolCode: schools.code,

@@ -20,6 +20,7 @@ import { parseListQuery, matchesText } from '../core/list-query';
 import { notFound } from '../core/errors';
 import { loanScope } from '../loans/loans-queries';
 import { instrumentNameOf } from '../instruments/instrument-cautions';
+import { studentNameColumns } from '../students/student-row';
 
 type Queryable = Database | Transaction;
 
@@ -54,9 +55,7 @@ const mismatch = sql<number>`coalesce(sum(${feeLedger.amountCents}) filter (wher
 const feeColumns = {
   loanId: loans.id,
   studentId: loans.studentId,
-  firstName: students.firstName,
-  lastName: students.lastName,
-  preferredName: students.preferredName,
+  ...studentNameColumns,
   schoolId: loans.schoolId,
   schoolCode: schools.code,
   schoolYear: sql<

@@ -6,7 +6,7 @@ import { schools, studentYears, students } from '../db/schema/index';
 import { matchesText } from '../core/list-query';
 import { schoolScope, type Actor } from '../core/policy';
 import { seatSummaries } from './student-seats';
-import { toStudent } from './student-row';
+import { studentColumns, toStudent } from './student-row';
 
 /** The list's filters and paging, as `parseListQuery` gives them. */
 interface YearList {
@@ -57,22 +57,7 @@ export async function listStudentsOfYear(
   const order = direction === 'desc' ? desc : asc;
   const [rows, [total]] = await Promise.all([
     db
-      .select({
-        id: students.id,
-        studentNumber: students.studentNumber,
-        firstName: students.firstName,
-        lastName: students.lastName,
-        preferredName: students.preferredName,
-        grade: studentYears.grade,
-        schoolId: studentYears.schoolId,
-        schoolCode: schools.code,
-        schoolName: schools.name,
-        status: students.status,
-        guardianName: students.guardianName,
-        guardianEmail: students.guardianEmail,
-        version: students.version,
-        updatedAt: students.updatedAt,
-      })
+      .select({ ...studentColumns, grade: studentYears.grade, schoolId: studentYears.schoolId })
       .from(studentYears)
       .innerJoin(students, eq(students.id, studentYears.studentId))
       .innerJoin(schools, eq(schools.id, studentYears.schoolId))
