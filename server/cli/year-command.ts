@@ -53,34 +53,24 @@ function flagOf(field: string): string {
   return { name: 'name', startsOn: '--starts', endsOn: '--ends' }[field] ?? field;
 }
 
+/** The contract's fields, in the order its one JSON object lists them. */
+const contractFields = [
+  'year',
+  'students',
+  'promoted',
+  'graduated',
+  'movingUp',
+  'leaving',
+  'ensembles',
+  'seats',
+  'loansCarried',
+  'loansDueBack',
+  'committed',
+] as const satisfies readonly (keyof YearStartResult)[];
+
 /** The contract's one JSON object. */
 function contractJson(result: YearStartResult): string {
-  const {
-    year,
-    students,
-    promoted,
-    graduated,
-    movingUp,
-    leaving,
-    ensembles,
-    seats,
-    loansCarried,
-    loansDueBack,
-    committed,
-  } = result;
-  return JSON.stringify({
-    year,
-    students,
-    promoted,
-    graduated,
-    movingUp,
-    leaving,
-    ensembles,
-    seats,
-    loansCarried,
-    loansDueBack,
-    committed,
-  });
+  return JSON.stringify(Object.fromEntries(contractFields.map((field) => [field, result[field]])));
 }
 
 function summary(result: YearStartResult, dryRun: boolean): string {
