@@ -225,12 +225,5 @@ export async function importCommand(config: Config, args: string[]): Promise<num
     : await withCommandDatabase(config, `tutti import ${fileName}`, (database) =>
         runImport(database, upload, options, fileName),
       );
-  process.stdout.write(
-    options.json
-      ? `${contractJson(run.result)}\n`
-      : summary(fileName, run, options.dryRun, options.skipInvalid),
-  );
-  if (run.unreadable) return 2;
-  if (run.result.committed || (options.dryRun && run.canCommit)) return 0;
-  return 1;
+  return report(fileName, run, options);
 }

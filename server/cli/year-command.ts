@@ -3,6 +3,7 @@ import { HttpError } from '../core/errors';
 import { fieldErrorsOf } from '../core/validate';
 import { startSchoolYear } from '../school-years/year-start';
 import {
+  yearStartCountsSchema,
   yearStartInputSchema,
   type YearStartInput,
   type YearStartResult,
@@ -53,34 +54,10 @@ function flagOf(field: string): string {
   return { name: 'name', startsOn: '--starts', endsOn: '--ends' }[field] ?? field;
 }
 
-/** The contract's one JSON object. */
+/** The contract's one JSON object: the year, its counts, and whether it was committed. */
 function contractJson(result: YearStartResult): string {
-  const {
-    year,
-    students,
-    promoted,
-    graduated,
-    movingUp,
-    leaving,
-    ensembles,
-    seats,
-    loansCarried,
-    loansDueBack,
-    committed,
-  } = result;
-  return JSON.stringify({
-    year,
-    students,
-    promoted,
-    graduated,
-    movingUp,
-    leaving,
-    ensembles,
-    seats,
-    loansCarried,
-    loansDueBack,
-    committed,
-  });
+  const counts = yearStartCountsSchema.parse(result);
+  return JSON.stringify({ year: result.year, ...counts, committed: result.committed });
 }
 
 function summary(result: YearStartResult, dryRun: boolean): string {

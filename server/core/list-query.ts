@@ -1,4 +1,4 @@
-import { asc, desc, type AnyColumn, type SQL } from 'drizzle-orm';
+import { asc, desc, ilike, or, type AnyColumn, type SQL } from 'drizzle-orm';
 import type { z } from 'zod';
 import { listQuerySchema, type ListQuery } from '@shared/api/list';
 import { badRequest } from './errors';
@@ -49,6 +49,19 @@ export function orderFor(
 export function likePattern(text: string, where: 'prefix' | 'anywhere' = 'anywhere'): string {
   const escaped = text.toLowerCase().replace(/[\\%_]/g, (character) => `\\${character}`);
   return where === 'prefix' ? `${escaped}%` : `%${escaped}%`;
+}
+
+/**
+ * A list's search: a row matches when any of the columns contains the text, letter case aside
+ * (PostgreSQL `ILIKE`, "Pattern Matching"); no condition when there is no text.
+ */
+export function matchesText(
+  text: string | undefined,
+  columns: (AnyColumn | SQL)[],
+): SQL | undefined {
+  if (!text) return undefined;
+  const pattern = likePattern(text);
+  return or(...columns.map((column) => ilike(column, pattern)));
 }
 
 /**

@@ -1,15 +1,16 @@
+import { eq } from 'drizzle-orm';
 import type { Enrollment } from '@shared/api/enrollment';
+import type { Database, Transaction } from '../db/client';
 import { enrollments, ensembles, schoolYears, schools, students } from '../db/schema/index';
 import { instrumentName } from './instrument-order';
+import { studentNameColumns } from '../students/student-row';
 
 /** The columns every enrollment answer selects: the seat, its student, ensemble and year. */
 export const enrollmentColumns = {
   id: enrollments.id,
   studentId: enrollments.studentId,
   studentNumber: students.studentNumber,
-  firstName: students.firstName,
-  lastName: students.lastName,
-  preferredName: students.preferredName,
+  ...studentNameColumns,
   ensembleId: enrollments.ensembleId,
   ensembleName: ensembles.name,
   schoolId: ensembles.schoolId,
@@ -23,6 +24,17 @@ export const enrollmentColumns = {
   version: enrollments.version,
   updatedAt: enrollments.updatedAt,
 };
+
+/** The enrollments with their students, ensembles, schools and years, selecting {@link enrollmentColumns}. */
+export function selectEnrollments(db: Database | Transaction) {
+  return db
+    .select(enrollmentColumns)
+    .from(enrollments)
+    .innerJoin(students, eq(students.id, enrollments.studentId))
+    .innerJoin(ensembles, eq(ensembles.id, enrollments.ensembleId))
+    .innerJoin(schools, eq(schools.id, ensembles.schoolId))
+    .innerJoin(schoolYears, eq(schoolYears.id, enrollments.schoolYearId));
+}
 
 /** One selected enrollment row. */
 export type EnrollmentRecord = Omit<Enrollment, 'instrumentName' | 'updatedAt'> & {

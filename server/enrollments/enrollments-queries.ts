@@ -1,13 +1,13 @@
-import { and, asc, count, desc, eq, ilike, or, type AnyColumn, type SQL } from 'drizzle-orm';
+import { and, asc, count, desc, eq, type AnyColumn, type SQL } from 'drizzle-orm';
 import { enrollmentFiltersSchema, type Enrollment } from '@shared/api/enrollment';
 import type { ListResponse } from '@shared/api/list';
 import type { Database } from '../db/client';
-import { enrollments, ensembles, schoolYears, schools, students } from '../db/schema/index';
+import { enrollments, ensembles, students } from '../db/schema/index';
 import { badRequest } from '../core/errors';
-import { likePattern, parseListQuery } from '../core/list-query';
+import { matchesText, parseListQuery } from '../core/list-query';
 import type { Actor } from '../core/policy';
 import { ensembleScope } from '../ensembles/ensembles-queries';
-import { enrollmentColumns, toEnrollment } from './enrollment-row';
+import { selectEnrollments, toEnrollment } from './enrollment-row';
 
 const sortOrders: Record<string, AnyColumn[]> = {
   lastName: [students.lastName, students.firstName, enrollments.id],
@@ -36,17 +36,14 @@ export async function listEnrollments(
   query: unknown,
 ): Promise<ListResponse<Enrollment>> {
   const list = parseListQuery(query, enrollmentFiltersSchema);
-  const pattern = list.q ? likePattern(list.q) : undefined;
   const where = and(
     ensembleScope(actor),
-    pattern
-      ? or(
-          ilike(students.lastName, pattern),
-          ilike(students.firstName, pattern),
-          ilike(students.preferredName, pattern),
-          ilike(students.studentNumber, pattern),
-        )
-      : undefined,
+    matchesText(list.q, [
+      students.lastName,
+      students.firstName,
+      students.preferredName,
+      students.studentNumber,
+    ]),
     list.schoolId !== undefined ? eq(ensembles.schoolId, list.schoolId) : undefined,
     list.studentId !== undefined ? eq(enrollments.studentId, list.studentId) : undefined,
     list.ensembleId !== undefined ? eq(enrollments.ensembleId, list.ensembleId) : undefined,
@@ -54,13 +51,7 @@ export async function listEnrollments(
     list.active !== undefined ? eq(enrollments.active, list.active) : undefined,
   );
   const [records, [total]] = await Promise.all([
-    db
-      .select(enrollmentColumns)
-      .from(enrollments)
-      .innerJoin(students, eq(students.id, enrollments.studentId))
-      .innerJoin(ensembles, eq(ensembles.id, enrollments.ensembleId))
-      .innerJoin(schools, eq(schools.id, ensembles.schoolId))
-      .innerJoin(schoolYears, eq(schoolYears.id, enrollments.schoolYearId))
+    selectEnrollments(db)
       .where(where)
       .orderBy(...orderBy(list.sort))
       .limit(list.limit)

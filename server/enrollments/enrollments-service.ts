@@ -1,14 +1,14 @@
 import { and, eq } from 'drizzle-orm';
 import type { Enrollment, EnrollmentInput, EnrollmentPatch } from '@shared/api/enrollment';
 import type { Database, Transaction } from '../db/client';
-import { enrollments, ensembles, schoolYears, schools, students } from '../db/schema/index';
+import { enrollments } from '../db/schema/index';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
 import { insertAudited, updateAudited } from '../core/versioned-update';
 import { findVisibleEnsemble } from '../ensembles/ensembles-service';
 import { findVisibleStudent } from '../students/students-service';
-import { enrollmentColumns, toEnrollment } from './enrollment-row';
+import { selectEnrollments, toEnrollment } from './enrollment-row';
 import { assertYearOpen, currentSchoolYear } from './school-year';
 
 const what = 'That enrollment';
@@ -19,14 +19,7 @@ export async function getEnrollment(
   actor: Actor,
   id: number,
 ): Promise<Enrollment> {
-  const [record] = await db
-    .select(enrollmentColumns)
-    .from(enrollments)
-    .innerJoin(students, eq(students.id, enrollments.studentId))
-    .innerJoin(ensembles, eq(ensembles.id, enrollments.ensembleId))
-    .innerJoin(schools, eq(schools.id, ensembles.schoolId))
-    .innerJoin(schoolYears, eq(schoolYears.id, enrollments.schoolYearId))
-    .where(eq(enrollments.id, id));
+  const [record] = await selectEnrollments(db).where(eq(enrollments.id, id));
   if (!record) throw notFound(what);
   assertInScope(actor, record.schoolId, what);
   return toEnrollment(record);

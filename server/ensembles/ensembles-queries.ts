@@ -1,21 +1,10 @@
-import {
-  and,
-  asc,
-  count,
-  desc,
-  eq,
-  ilike,
-  inArray,
-  sql,
-  type AnyColumn,
-  type SQL,
-} from 'drizzle-orm';
+import { and, asc, count, desc, eq, inArray, sql, type AnyColumn, type SQL } from 'drizzle-orm';
 import { ensembleFiltersSchema, type Ensemble } from '@shared/api/ensemble';
 import type { ListResponse } from '@shared/api/list';
 import type { Database } from '../db/client';
 import { ensembles, schools, users } from '../db/schema/index';
 import { badRequest } from '../core/errors';
-import { likePattern, parseListQuery } from '../core/list-query';
+import { matchesText, parseListQuery } from '../core/list-query';
 import { schoolScope, type Actor } from '../core/policy';
 import {
   ensembleColumns,
@@ -63,7 +52,7 @@ export async function listEnsembles(
   const members = list.schoolYearId === undefined ? memberCount : memberCountIn(list.schoolYearId);
   const where = and(
     ensembleScope(actor),
-    list.q ? ilike(ensembles.name, likePattern(list.q)) : undefined,
+    matchesText(list.q, [ensembles.name]),
     list.schoolId !== undefined ? eq(ensembles.schoolId, list.schoolId) : undefined,
     list.kind ? eq(ensembles.kind, list.kind) : undefined,
   );

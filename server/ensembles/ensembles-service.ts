@@ -15,6 +15,7 @@ import { insertAudited, updateAudited } from '../core/versioned-update';
 import { instrumentName, scorePosition } from '../enrollments/instrument-order';
 import { findCurrentSchoolYear } from '../enrollments/school-year';
 import { ensembleColumns, toEnsemble, type EnsembleRecord } from './ensemble-row';
+import { studentNameColumns } from '../students/student-row';
 
 const what = 'That ensemble';
 
@@ -44,9 +45,7 @@ async function membersOf(db: Database, ensembleId: number): Promise<EnsembleMemb
       enrollmentVersion: enrollments.version,
       studentId: students.id,
       studentNumber: students.studentNumber,
-      firstName: students.firstName,
-      lastName: students.lastName,
-      preferredName: students.preferredName,
+      ...studentNameColumns,
       grade: students.grade,
       instrumentId: enrollments.instrumentId,
       part: enrollments.part,

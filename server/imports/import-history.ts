@@ -1,4 +1,4 @@
-import { and, count, desc, eq, ilike, sql, type SQL } from 'drizzle-orm';
+import { and, count, desc, eq, sql, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
 import {
   planListLimit,
@@ -8,7 +8,7 @@ import {
 } from '@shared/api/import';
 import type { ListResponse } from '@shared/api/list';
 import { csvField } from '@shared/roster';
-import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';
 import type { Database } from '../db/client';
 import { rosterImports, users } from '../db/schema/index';
@@ -67,7 +67,7 @@ export async function listImports(
 ): Promise<ListResponse<ImportHistoryEntry>> {
   const list = parseListQuery(query, historyFilters);
   const conditions: (SQL | undefined)[] = [];
-  if (list.q) conditions.push(ilike(rosterImports.fileName, likePattern(list.q)));
+  conditions.push(matchesText(list.q, [rosterImports.fileName]));
   if (list.committed) conditions.push(eq(rosterImports.committed, list.committed === 'true'));
   if (list.via) conditions.push(eq(rosterImports.via, list.via));
   const where = and(...conditions);

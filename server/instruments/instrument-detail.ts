@@ -13,6 +13,7 @@ import type { Actor } from '../core/policy';
 import { findInstrument } from './instruments-queries';
 import { todayIso } from '../loans/school-calendar';
 import { maySeeStudent } from '../pass-offs/pass-off-rows';
+import { studentNameColumns } from '../students/student-row';
 
 /** The instrument's latest 200 events, with the student of each loan event. */
 function readTimeline(db: Database, id: number) {
@@ -29,9 +30,7 @@ function readTimeline(db: Database, id: number) {
       studentId: students.id,
       studentSchoolId: students.schoolId,
       studentNumber: students.studentNumber,
-      firstName: students.firstName,
-      preferredName: students.preferredName,
-      lastName: students.lastName,
+      ...studentNameColumns,
     })
     .from(instrumentEvents)
     .leftJoin(users, eq(users.id, instrumentEvents.userId))
@@ -83,9 +82,7 @@ async function readActiveLoan(db: Database, id: number) {
     .select({
       id: loans.id,
       studentId: loans.studentId,
-      firstName: students.firstName,
-      lastName: students.lastName,
-      preferredName: students.preferredName,
+      ...studentNameColumns,
       schoolId: loans.schoolId,
       checkedOutOn: loans.checkedOutOn,
       dueOn: loans.dueOn,

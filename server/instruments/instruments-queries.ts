@@ -1,11 +1,11 @@
-import { and, count, eq, ilike, inArray, or, sql, type SQL } from 'drizzle-orm';
+import { and, count, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
 import { instruments, schools } from '../db/schema/index';
 import { instruments as engineInstruments } from '@shared/music/index';
 import type { ListResponse } from '@shared/api/list';
 import { instrumentFiltersSchema, type Instrument } from '@shared/api/instrument';
 import { schoolScope, type Actor } from '../core/policy';
-import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';
 import {
   cleaningCautionFor,
@@ -94,17 +94,14 @@ export async function listInstruments(
 ): Promise<ListResponse<Instrument>> {
   const list = parseListQuery(query, instrumentFiltersSchema);
   const conditions = [instrumentScope(actor)];
-  if (list.q) {
-    const pattern = likePattern(list.q);
-    conditions.push(
-      or(
-        ilike(instruments.assetTag, pattern),
-        ilike(instruments.serial, pattern),
-        ilike(instruments.maker, pattern),
-        ilike(instruments.model, pattern),
-      ),
-    );
-  }
+  conditions.push(
+    matchesText(list.q, [
+      instruments.assetTag,
+      instruments.serial,
+      instruments.maker,
+      instruments.model,
+    ]),
+  );
   if (list.status) conditions.push(eq(instruments.status, list.status));
   if (list.condition) conditions.push(eq(instruments.condition, list.condition));
   if (list.instrumentId) conditions.push(eq(instruments.instrumentId, list.instrumentId));

@@ -1,4 +1,4 @@
-import { and, count, eq, ilike, ne } from 'drizzle-orm';
+import { and, count, eq, ne } from 'drizzle-orm';
 import { demoLadderRungs as starterLadderRungs } from '../seed/demo-ladder-rungs';
 import { z } from 'zod';
 import type { Database } from '../db/client';
@@ -13,7 +13,7 @@ import {
   type LadderVersionSummary,
 } from '@shared/api/ladder';
 import type { ListResponse } from '@shared/api/list';
-import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { can, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, conflict, notFound } from '../core/errors';
@@ -54,7 +54,7 @@ export async function listVersions(
   const where = and(
     can(actor, 'ladder:write') ? undefined : ne(ladderVersions.status, 'draft'),
     list.status ? eq(ladderVersions.status, list.status) : undefined,
-    list.q ? ilike(ladderVersions.name, likePattern(list.q)) : undefined,
+    matchesText(list.q, [ladderVersions.name]),
   );
   const [rows, [total]] = await Promise.all([
     db

@@ -1,35 +1,21 @@
-import {
-  and,
-  count,
-  eq,
-  ilike,
-  inArray,
-  isNotNull,
-  isNull,
-  lt,
-  ne,
-  or,
-  sql,
-  type SQL,
-} from 'drizzle-orm';
+import { and, count, eq, inArray, isNotNull, isNull, lt, ne, or, sql, type SQL } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
 import { instruments, loans, schools, students } from '../db/schema/index';
 import type { ListResponse } from '@shared/api/list';
 import { loanFiltersSchema, type Loan } from '@shared/api/loan';
 import { can, type Actor } from '../core/policy';
-import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';
 import { cautionsFor, instrumentNameOf } from '../instruments/instrument-cautions';
 import { todayIso } from './school-calendar';
+import { studentNameColumns } from '../students/student-row';
 
 /** The columns a loan answer is built from. */
 export const loanColumns = {
   loan: loans,
   assetTag: instruments.assetTag,
   instrumentType: instruments.instrumentId,
-  firstName: students.firstName,
-  lastName: students.lastName,
-  preferredName: students.preferredName,
+  ...studentNameColumns,
   guardianName: students.guardianName,
   guardianEmail: students.guardianEmail,
   schoolCode: schools.code,
@@ -132,17 +118,14 @@ export async function listLoans(
   const list = parseListQuery(query, loanFiltersSchema);
   const today = todayIso();
   const conditions = [loanScope(actor)];
-  if (list.q) {
-    const pattern = likePattern(list.q);
-    conditions.push(
-      or(
-        ilike(instruments.assetTag, pattern),
-        ilike(students.lastName, pattern),
-        ilike(students.firstName, pattern),
-        ilike(students.studentNumber, pattern),
-      ),
-    );
-  }
+  conditions.push(
+    matchesText(list.q, [
+      instruments.assetTag,
+      students.lastName,
+      students.firstName,
+      students.studentNumber,
+    ]),
+  );
   if (list.state) conditions.push(eq(loans.state, list.state));
   if (list.overdue === 'true')
     conditions.push(and(eq(loans.state, 'active'), lt(loans.dueOn, today)));

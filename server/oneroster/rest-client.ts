@@ -34,6 +34,12 @@ function text(value: unknown): string {
   return String(value);
 }
 
+/** A CSV column read as the text of a record's field. */
+const textOf = (field: string) => (record: Json) => text(record[field]);
+
+/** A CSV column read as the sourcedId a record's field refers to. */
+const refOf = (field: string) => (record: Json) => refId(record[field]);
+
 // 1EdTech OneRoster 1.1 and 1.2 REST bindings (from memory): the 1.2 rostering service's base is
 // /ims/oneroster/rostering/v1p2, 1.1's /ims/oneroster/v1p1.
 function servicePath(access: ProviderAccess): string {
@@ -268,18 +274,23 @@ export function asBundle(
   const files = new Map<string, string>();
   files.set('manifest.csv', manifestCsv(apiVersion, delta));
   const common = ['sourcedId', 'status', 'dateLastModified'];
+  /** One file's rows: the common columns, then each column read from the record by `columns`. */
+  const recordsCsv = (records: Json[], columns: Record<string, (record: Json) => string>) =>
+    csv(
+      records.map((record) => ({
+        ...base(record),
+        ...Object.fromEntries(Object.entries(columns).map(([name, read]) => [name, read(record)])),
+      })),
+      [...common, ...Object.keys(columns)],
+    );
   files.set(
     'orgs.csv',
-    csv(
-      roster.orgs.map((org) => ({
-        ...base(org),
-        name: text(org['name']),
-        type: text(org['type']),
-        identifier: text(org['identifier']),
-        parentSourcedId: refId(org['parent']),
-      })),
-      [...common, 'name', 'type', 'identifier', 'parentSourcedId'],
-    ),
+    recordsCsv(roster.orgs, {
+      name: textOf('name'),
+      type: textOf('type'),
+      identifier: textOf('identifier'),
+      parentSourcedId: refOf('parent'),
+    }),
   );
   files.set(
     'users.csv',
@@ -304,30 +315,22 @@ export function asBundle(
   );
   files.set(
     'classes.csv',
-    csv(
-      roster.classes.map((roomClass) => ({
-        ...base(roomClass),
-        title: text(roomClass['title']),
-        classCode: text(roomClass['classCode']),
-        schoolSourcedId: refId(roomClass['school']),
-        subjects: text(roomClass['subjects']),
-      })),
-      [...common, 'title', 'classCode', 'schoolSourcedId', 'subjects'],
-    ),
+    recordsCsv(roster.classes, {
+      title: textOf('title'),
+      classCode: textOf('classCode'),
+      schoolSourcedId: refOf('school'),
+      subjects: textOf('subjects'),
+    }),
   );
   files.set(
     'enrollments.csv',
-    csv(
-      roster.enrollments.map((entry) => ({
-        ...base(entry),
-        classSourcedId: refId(entry['class']),
-        schoolSourcedId: refId(entry['school']),
-        userSourcedId: refId(entry['user']),
-        role: text(entry['role']),
-        primary: text(entry['primary']),
-      })),
-      [...common, 'classSourcedId', 'schoolSourcedId', 'userSourcedId', 'role', 'primary'],
-    ),
+    recordsCsv(roster.enrollments, {
+      classSourcedId: refOf('class'),
+      schoolSourcedId: refOf('school'),
+      userSourcedId: refOf('user'),
+      role: textOf('role'),
+      primary: textOf('primary'),
+    }),
   );
   const records =
     roster.orgs.length + roster.users.length + roster.classes.length + roster.enrollments.length;

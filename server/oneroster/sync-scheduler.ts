@@ -3,6 +3,7 @@ import { oneRosterSync } from '../db/schema/index';
 import { districtTimeZone } from '../district/district-clock';
 import type { Services } from '../services';
 import { runSync } from './sync-service';
+import { startIntervalJob } from '../core/interval-job';
 
 /** A moment as 'YYYY-MM-DD HH:MM' in a time zone (en-CA and a 24-hour clock, Unicode CLDR). */
 function localMinute(moment: Date, timeZone: string): string {
@@ -38,11 +39,9 @@ export function syncDue(
 
 /** Checks once a minute whether the nightly OneRoster sync is due, and runs it. */
 export function startSyncScheduler(services: Services, intervalMilliseconds = 60_000) {
-  let stopped = false;
-  let running: Promise<unknown> | undefined;
-  const tick = () => {
-    if (stopped || running) return;
-    running = (async () => {
+  return startIntervalJob({
+    intervalMilliseconds,
+    run: async () => {
       const [sync] = await services.db.select().from(oneRosterSync).where(eq(oneRosterSync.id, 1));
       if (!sync || !syncDue(sync, new Date(), districtTimeZone())) return;
       const run = await runSync(services.database, services.config, {
@@ -52,21 +51,7 @@ export function startSyncScheduler(services: Services, intervalMilliseconds = 60
         via: 'api',
       });
       if (run.failure) services.logger.warn({ reason: run.failure }, 'the OneRoster sync failed');
-    })()
-      .catch((error: unknown) => {
-        if (!stopped) services.logger.warn({ err: error }, 'the OneRoster sync could not run');
-      })
-      .finally(() => {
-        running = undefined;
-      });
-  };
-  const timer = setInterval(tick, intervalMilliseconds);
-  timer.unref();
-  return {
-    async stop() {
-      stopped = true;
-      clearInterval(timer);
-      await running;
     },
-  };
+    onError: (error) => services.logger.warn({ err: error }, 'the OneRoster sync could not run'),
+  });
 }

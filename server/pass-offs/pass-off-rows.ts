@@ -11,6 +11,7 @@ import {
 } from '../db/schema/index';
 import type { Actor } from '../core/policy';
 import type { Queryable } from '../ladder/ladder-queries';
+import { studentNameColumns } from '../students/student-row';
 
 const heardBy = alias(users, 'heard_by_user');
 
@@ -18,9 +19,7 @@ const heardBy = alias(users, 'heard_by_user');
 export const passOffColumns = {
   id: passOffs.id,
   studentId: passOffs.studentId,
-  firstName: students.firstName,
-  lastName: students.lastName,
-  preferredName: students.preferredName,
+  ...studentNameColumns,
   schoolId: students.schoolId,
   requirementCode: passOffs.requirementCode,
   ladderVersionId: passOffs.ladderVersionId,

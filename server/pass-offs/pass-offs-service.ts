@@ -1,10 +1,10 @@
-import { and, count, desc, eq, exists, gte, ilike, lte, or, sql, type SQL } from 'drizzle-orm';
+import { and, count, desc, eq, exists, gte, lte, sql, type SQL } from 'drizzle-orm';
 import { oneByOne, type Database, type Transaction } from '../db/client';
 import { enrollments, passOffs, students } from '../db/schema/index';
 import type { ListResponse } from '@shared/api/list';
 import { passOffFiltersSchema, type PassOff, type PassOffPatch } from '@shared/api/pass-off';
 import { assertInScope, type Actor } from '../core/policy';
-import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { updateVersioned } from '../core/versioned-update';
@@ -57,16 +57,9 @@ export async function listPassOffs(
       ),
     );
   }
-  if (list.q) {
-    const pattern = likePattern(list.q);
-    conditions.push(
-      or(
-        ilike(students.lastName, pattern),
-        ilike(students.firstName, pattern),
-        ilike(passOffs.requirementCode, pattern),
-      ),
-    );
-  }
+  conditions.push(
+    matchesText(list.q, [students.lastName, students.firstName, passOffs.requirementCode]),
+  );
   const where = and(...conditions);
   const [rows, [total], context] = await Promise.all([
     selectPassOffs(db)

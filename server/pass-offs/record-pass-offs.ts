@@ -9,6 +9,7 @@ import { badRequest, conflict, notFound } from '../core/errors';
 import { countWeeks, recomputeAttainment } from '../ladder/attainment';
 import { activeVersionId } from '../ladder/ladder-queries';
 import { ladderContext, selectPassOffs, toPassOff } from './pass-off-rows';
+import { studentNameColumns } from '../students/student-row';
 
 async function passOffsByIds(db: Transaction, ids: number[]): Promise<PassOff[]> {
   if (ids.length === 0) return [];
@@ -243,9 +244,7 @@ async function assertSeated(db: Database, inputs: PassOffInput[]): Promise<void>
   const names = await db
     .select({
       id: students.id,
-      firstName: students.firstName,
-      preferredName: students.preferredName,
-      lastName: students.lastName,
+      ...studentNameColumns,
     })
     .from(students)
     .where(inArray(students.id, [...new Set(unseated.map(({ input }) => input.studentId))]));

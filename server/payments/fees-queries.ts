@@ -16,10 +16,11 @@ import {
   type FeeStatus,
 } from '@shared/api/fee';
 import { can, type Actor } from '../core/policy';
-import { parseListQuery, likePattern } from '../core/list-query';
+import { parseListQuery, matchesText } from '../core/list-query';
 import { notFound } from '../core/errors';
 import { loanScope } from '../loans/loans-queries';
 import { instrumentNameOf } from '../instruments/instrument-cautions';
+import { studentNameColumns } from '../students/student-row';
 
 type Queryable = Database | Transaction;
 
@@ -54,9 +55,7 @@ const mismatch = sql<number>`coalesce(sum(${feeLedger.amountCents}) filter (wher
 const feeColumns = {
   loanId: loans.id,
   studentId: loans.studentId,
-  firstName: students.firstName,
-  lastName: students.lastName,
-  preferredName: students.preferredName,
+  ...studentNameColumns,
   schoolId: loans.schoolId,
   schoolCode: schools.code,
   schoolYear: sql<
@@ -151,12 +150,9 @@ export async function allFeeRows(db: Database, actor: Actor, query: unknown): Pr
   const conditions: (SQL | undefined)[] = [loanScope(actor)];
   if (filters.schoolId) conditions.push(eq(loans.schoolId, filters.schoolId));
   if (filters.studentId) conditions.push(eq(loans.studentId, filters.studentId));
-  if (filters.q) {
-    const pattern = likePattern(filters.q);
-    conditions.push(
-      sql`(${instruments.assetTag} ilike ${pattern} or ${students.lastName} ilike ${pattern} or ${students.firstName} ilike ${pattern})`,
-    );
-  }
+  conditions.push(
+    matchesText(filters.q, [instruments.assetTag, students.lastName, students.firstName]),
+  );
   let rows = (await selectFeeRows(db, and(...conditions))).map((raw) => toFeeRow(raw, actor));
   if (filters.status) rows = rows.filter((row) => row.status === filters.status);
   if (filters.year) rows = rows.filter((row) => row.schoolYear === filters.year);

@@ -1,11 +1,11 @@
 import { idParameter, plainText } from '@shared/api/input-rules';
-import { and, count, eq, ilike, or, sql, type SQL } from 'drizzle-orm';
+import { and, count, eq, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import { z } from 'zod';
 import { rowsOf, type Database } from '../db/client';
 import { auditLog, schools, users } from '../db/schema/index';
 import type { Actor } from '../core/policy';
-import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { matchesText, orderFor, parseListQuery } from '../core/list-query';
 import type { ListResponse } from '@shared/api/list';
 import type { AuditEntryRow } from '@shared/api/person';
 
@@ -90,18 +90,9 @@ export async function listAudit(
   if (list.entity) conditions.push(eq(auditLog.entity, list.entity));
   if (list.entityId) conditions.push(eq(auditLog.entityId, list.entityId));
   if (list.userId !== undefined) conditions.push(eq(auditLog.userId, list.userId));
-  if (list.q) {
-    const pattern = likePattern(list.q);
-    conditions.push(
-      or(
-        ilike(auditLog.action, pattern),
-        ilike(auditLog.entity, pattern),
-        ilike(users.name, pattern),
-        ilike(users.email, pattern),
-        ilike(subject.name, pattern),
-      ),
-    );
-  }
+  conditions.push(
+    matchesText(list.q, [auditLog.action, auditLog.entity, users.name, users.email, subject.name]),
+  );
   const where = and(...conditions);
   const [rows, [total]] = await Promise.all([
     db

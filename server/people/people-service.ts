@@ -1,5 +1,5 @@
 import { idParameter } from '@shared/api/input-rules';
-import { and, asc, count, eq, ilike, inArray, ne, or, sql, type SQL } from 'drizzle-orm';
+import { and, asc, count, eq, inArray, ne, sql, type SQL } from 'drizzle-orm';
 import { z } from 'zod';
 import { oneByOne, type Database, type Transaction } from '../db/client';
 import { apiTokens, schools, students, userSchools, users } from '../db/schema/index';
@@ -14,7 +14,7 @@ import {
   type personPatchSchema,
 } from '@shared/api/person';
 import type { Actor } from '../core/policy';
-import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound, type FieldError } from '../core/errors';
 import { updateVersioned } from '../core/versioned-update';
@@ -93,10 +93,7 @@ async function peopleOf(db: Database | Transaction, rows: UserRow[]): Promise<Pe
 export async function listPeople(db: Database, query: unknown): Promise<ListResponse<Person>> {
   const list = parseListQuery(query, personFilters);
   const conditions: (SQL | undefined)[] = [];
-  if (list.q) {
-    const pattern = likePattern(list.q);
-    conditions.push(or(ilike(users.name, pattern), ilike(users.email, pattern)));
-  }
+  conditions.push(matchesText(list.q, [users.name, users.email]));
   if (list.role) conditions.push(eq(users.role, list.role));
   if (list.active !== undefined) conditions.push(eq(users.active, list.active));
   if (list.schoolId !== undefined) {

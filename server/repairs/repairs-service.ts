@@ -9,7 +9,7 @@ import {
   type RepairPatch,
 } from '@shared/api/repair';
 import { schoolScope, type Actor } from '../core/policy';
-import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { notFound } from '../core/errors';
 import { insertAudited, updateVersioned } from '../core/versioned-update';
@@ -96,12 +96,9 @@ export async function listRepairs(
 ): Promise<ListResponse<Repair>> {
   const list = parseListQuery(query, repairFiltersSchema);
   const conditions = [scope(actor)];
-  if (list.q) {
-    const pattern = likePattern(list.q);
-    conditions.push(
-      sql`(lower(${instruments.assetTag}) like ${pattern} or lower(${repairTickets.problem}) like ${pattern} or lower(coalesce(${repairTickets.vendor}, '')) like ${pattern})`,
-    );
-  }
+  conditions.push(
+    matchesText(list.q, [instruments.assetTag, repairTickets.problem, repairTickets.vendor]),
+  );
   if (list.status) conditions.push(eq(repairTickets.status, list.status));
   if (list.open === 'true') conditions.push(inArray(repairTickets.status, [...openRepairStatuses]));
   if (list.open === 'false') conditions.push(inArray(repairTickets.status, ['returned', 'closed']));

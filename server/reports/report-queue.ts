@@ -1,6 +1,6 @@
 import { reportRuns } from '../db/schema/index';
 import type { Queryable } from './report-tables';
-import type { ReportKind, ReportTarget } from '@shared/api/report';
+import type { ReportData, ReportKind, ReportTarget } from '@shared/api/report';
 import { badRequest } from '../core/errors';
 import { enqueueMail } from '../mail/outbox';
 import { assembleDirectorReport, assembleDistrictReport, figuresOf } from './report-data';
@@ -65,45 +65,13 @@ async function queueDirectorReports(db: Queryable, request: ReportRequest): Prom
     );
     if (recipients.length === 0) continue;
     const data = await assembleDirectorReport(db, schoolId, request.from, request.to);
-    const district = await districtIdentity(db);
-    const rendered = renderReport(data, district?.name);
-    const attachments = await reportAttachments(
-      `${fileNamePrefix(district?.shortName)}${data.school.code}-report-${data.from}-to-${data.to}`,
-      rendered.csvFiles,
-    );
-    await db.transaction(async (tx) => {
-      const outboxIds: number[] = [];
-      for (const recipient of recipients) {
-        outboxIds.push(
-          await enqueueMail(tx, {
-            kind: 'report',
-            to: [recipient],
-            subject: subjectOf(request, reportSubject(data)),
-            text: rendered.text,
-            html: rendered.html,
-            attachments,
-            createdBy: request.createdBy,
-            schoolId,
-          }),
-        );
-      }
-      const [run] = await tx
-        .insert(reportRuns)
-        .values({
-          kind: 'director',
-          schoolId,
-          periodFrom: data.from,
-          periodTo: data.to,
-          figures: figuresOf(data),
-          recipients,
-          outboxMessageIds: outboxIds,
-          scheduleId: request.scheduleId ?? null,
-          sentBy: request.createdBy,
-        })
-        .returning({ id: reportRuns.id });
-      queued.outboxIds.push(...outboxIds);
-      queued.runIds.push(run!.id);
+    const sent = await sendReport(db, request, recipients, data, {
+      fileStem: `${data.school.code}-report`,
+      schoolId,
+      figures: figuresOf(data),
     });
+    queued.outboxIds.push(...sent.outboxIds);
+    queued.runIds.push(...sent.runIds);
   }
   return queued;
 }
@@ -121,10 +89,35 @@ async function queueDistrictSummary(db: Queryable, request: ReportRequest): Prom
   );
   if (recipients.length === 0) return { outboxIds: [], runIds: [] };
   const data = await assembleDistrictReport(db, request.from, request.to);
+  return sendReport(db, request, recipients, data, {
+    fileStem: 'district-summary',
+    schoolId: null,
+    figures: { totals: data.totals, schools: data.schools },
+  });
+}
+
+/** Where a report run is filed: its attachments' name, its school and the figures it keeps. */
+interface RunFiling {
+  fileStem: string;
+  schoolId: number | null;
+  figures: typeof reportRuns.$inferInsert.figures;
+}
+
+/**
+ * Renders one report and queues a message per recipient, then records the run, the messages
+ * and the run in one transaction (a savepoint when `db` is already a transaction).
+ */
+async function sendReport(
+  db: Queryable,
+  request: ReportRequest,
+  recipients: string[],
+  data: ReportData,
+  filing: RunFiling,
+): Promise<QueuedReports> {
   const district = await districtIdentity(db);
   const rendered = renderReport(data, district?.name);
   const attachments = await reportAttachments(
-    `${fileNamePrefix(district?.shortName)}district-summary-${data.from}-to-${data.to}`,
+    `${fileNamePrefix(district?.shortName)}${filing.fileStem}-${data.from}-to-${data.to}`,
     rendered.csvFiles,
   );
   return db.transaction(async (tx) => {
@@ -139,16 +132,18 @@ async function queueDistrictSummary(db: Queryable, request: ReportRequest): Prom
           html: rendered.html,
           attachments,
           createdBy: request.createdBy,
+          ...(filing.schoolId === null ? {} : { schoolId: filing.schoolId }),
         }),
       );
     }
     const [run] = await tx
       .insert(reportRuns)
       .values({
-        kind: 'district',
+        kind: data.kind,
+        ...(filing.schoolId === null ? {} : { schoolId: filing.schoolId }),
         periodFrom: data.from,
         periodTo: data.to,
-        figures: { totals: data.totals, schools: data.schools },
+        figures: filing.figures,
         recipients,
         outboxMessageIds: outboxIds,
         scheduleId: request.scheduleId ?? null,

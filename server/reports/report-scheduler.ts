@@ -4,6 +4,7 @@ import { reportSchedules } from '../db/schema/index';
 import type { Services } from '../services';
 import { queueReports } from './report-queue';
 import { nextRunAfter, scheduledPeriod } from './schedule-times';
+import { startIntervalJob, type IntervalJob } from '../core/interval-job';
 
 /** What one scheduler tick did. */
 export interface SchedulerTick {
@@ -60,38 +61,17 @@ export async function runDueSchedules(db: Database, now = new Date()): Promise<S
 }
 
 /** A running report scheduler. */
-export interface ReportScheduler {
-  stop(): Promise<void>;
-}
+export type ReportScheduler = IntervalJob;
 
-/** Checks the schedules at start and then every `intervalMilliseconds` (default 30 s). */
+/** Checks the schedules a second after the start and then every `intervalMilliseconds` (default 30 s). */
 export function startReportScheduler(
   services: Services,
   options: { intervalMilliseconds?: number } = {},
 ): ReportScheduler {
-  const interval = options.intervalMilliseconds ?? 30_000;
-  let stopped = false;
-  let running: Promise<unknown> | undefined;
-  const tick = () => {
-    if (stopped || running) return;
-    running = runDueSchedules(services.db)
-      .catch((error: unknown) => {
-        if (!stopped) services.logger.warn({ err: error }, 'a report schedule could not run');
-      })
-      .finally(() => {
-        running = undefined;
-      });
-  };
-  const timer = setInterval(tick, interval);
-  timer.unref();
-  const first = setTimeout(tick, 1000);
-  first.unref();
-  return {
-    async stop() {
-      stopped = true;
-      clearInterval(timer);
-      clearTimeout(first);
-      await running;
-    },
-  };
+  return startIntervalJob({
+    run: () => runDueSchedules(services.db),
+    intervalMilliseconds: options.intervalMilliseconds ?? 30_000,
+    firstAfterMilliseconds: 1000,
+    onError: (error) => services.logger.warn({ err: error }, 'a report schedule could not run'),
+  });
 }

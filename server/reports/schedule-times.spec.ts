@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { dayBefore, localDay, nextRunAfter, scheduledPeriod } from './schedule-times';
+import { dayIn } from '../district/district-clock';
+import { dayBefore, nextRunAfter, scheduledPeriod } from './schedule-times';
 
 describe('nextRunAfter', () => {
   it('should answer the next Monday 07:00 in Los Angeles when the expression is 0 7 * * 1', () => {
@@ -34,7 +35,7 @@ describe('scheduledPeriod', () => {
 
   it('should read the run day in the schedule zone when UTC is already on the next day', () => {
     // 04:00 UTC on 17 November is still 16 November, 20:00, in Los Angeles.
-    expect(localDay(new Date('2026-11-17T04:00:00Z'), 'America/Los_Angeles')).toBe('2026-11-16');
+    expect(dayIn(new Date('2026-11-17T04:00:00Z'), 'America/Los_Angeles')).toBe('2026-11-16');
     expect(dayBefore('2027-03-01')).toBe('2027-02-28');
   });
 });

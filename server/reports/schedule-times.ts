@@ -1,5 +1,6 @@
 import { Cron } from 'croner';
 import { badRequest } from '../core/errors';
+import { dayIn } from '../district/district-clock';
 
 /** Whether the name is an IANA time zone this runtime knows. */
 function knownTimeZone(timeZone: string): boolean {
@@ -42,17 +43,6 @@ export function nextRunAfter(cron: string, timeZone: string, after: Date): Date 
   }
 }
 
-/** The calendar day (YYYY-MM-DD) a moment falls on in the time zone. */
-export function localDay(moment: Date, timeZone: string): string {
-  // The en-CA locale writes dates as YYYY-MM-DD.
-  return new Intl.DateTimeFormat('en-CA', {
-    timeZone,
-    year: 'numeric',
-    month: '2-digit',
-    day: '2-digit',
-  }).format(moment);
-}
-
 /** The day `days` days before a YYYY-MM-DD day. */
 export function dayBefore(day: string, days = 1): string {
   const date = new Date(`${day}T00:00:00Z`);
@@ -69,6 +59,6 @@ export function scheduledPeriod(
   timeZone: string,
   periodDays: number,
 ): { from: string; to: string } {
-  const to = dayBefore(localDay(runAt, timeZone));
+  const to = dayBefore(dayIn(runAt, timeZone));
   return { from: dayBefore(to, periodDays - 1), to };
 }

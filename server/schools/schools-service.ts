@@ -1,4 +1,4 @@
-import { and, count, eq, ilike, inArray, isNotNull, isNull, or, sql, type SQL } from 'drizzle-orm';
+import { and, count, eq, inArray, isNotNull, isNull, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import { z } from 'zod';
 import type { Database } from '../db/client';
@@ -7,7 +7,7 @@ import type { ListResponse } from '@shared/api/list';
 import type { School, SchoolInput, SchoolPatch } from '@shared/api/school';
 import { schoolLevels } from '@shared/api/school';
 import { assertInScope, schoolScope, type Actor } from '../core/policy';
-import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { insertAudited, updateAudited } from '../core/versioned-update';
@@ -76,10 +76,7 @@ export async function listSchools(
 ): Promise<ListResponse<School>> {
   const list = parseListQuery(query, schoolFilters);
   const conditions = [scopeCondition(actor)];
-  if (list.q) {
-    const pattern = likePattern(list.q);
-    conditions.push(or(ilike(schools.name, pattern), ilike(schools.code, pattern)));
-  }
+  conditions.push(matchesText(list.q, [schools.name, schools.code]));
   if (list.level) conditions.push(eq(schools.level, list.level));
   if (list.code) conditions.push(eq(schools.code, list.code.toUpperCase()));
   if (list.status === 'open') conditions.push(isNull(schools.closedOn));

@@ -7,6 +7,7 @@ import { agreementFor, defaultAgreementText, sha256Hex } from '../loans/agreemen
 import type { LoanRow } from '../loans/loans-queries';
 import { insertInBatches } from './demo-roster';
 import type { SeededRandom } from './random';
+import { studentNameColumns } from '../students/student-row';
 
 const iso = (date: Date) => date.toISOString().slice(0, 10);
 /** A day from `from` to `to` (YYYY-MM-DD), drawn from the seed's sequence. */
@@ -59,9 +60,7 @@ function activePlayers(tx: Transaction) {
       studentId: students.id,
       schoolId: students.schoolId,
       instrumentId: enrollments.instrumentId,
-      firstName: students.firstName,
-      lastName: students.lastName,
-      preferredName: students.preferredName,
+      ...studentNameColumns,
       guardianName: students.guardianName,
       guardianEmail: students.guardianEmail,
     })

@@ -4,13 +4,18 @@ import type { Actor } from '../core/policy';
 import { schools, students } from '../db/schema/index';
 import type { SeatSummary } from './student-seats';
 
+/** The columns a student's name is shown from: first, last and the name they go by. */
+export const studentNameColumns = {
+  firstName: students.firstName,
+  lastName: students.lastName,
+  preferredName: students.preferredName,
+};
+
 /** The columns every student answer selects: the student and its school's code and name. */
 export const studentColumns = {
   id: students.id,
   studentNumber: students.studentNumber,
-  firstName: students.firstName,
-  lastName: students.lastName,
-  preferredName: students.preferredName,
+  ...studentNameColumns,
   grade: students.grade,
   schoolId: students.schoolId,
   schoolCode: schools.code,

@@ -1,24 +1,12 @@
-import {
-  type AnyColumn,
-  and,
-  asc,
-  count,
-  desc,
-  eq,
-  ilike,
-  inArray,
-  or,
-  sql,
-  type SQL,
-} from 'drizzle-orm';
+import { type AnyColumn, and, asc, count, desc, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import type { ListResponse } from '@shared/api/list';
 import type { Student } from '@shared/api/student';
 import type { Database } from '../db/client';
 import { schools, studentYears, students } from '../db/schema/index';
-import { likePattern } from '../core/list-query';
+import { matchesText } from '../core/list-query';
 import { schoolScope, type Actor } from '../core/policy';
 import { seatSummaries } from './student-seats';
-import { toStudent } from './student-row';
+import { studentColumns, toStudent } from './student-row';
 
 /** The list's filters and paging, as `parseListQuery` gives them. */
 interface YearList {
@@ -55,39 +43,21 @@ export async function listStudentsOfYear(
     conditions.push(scope.length ? inArray(studentYears.schoolId, scope) : sql`false`);
   if (list.schoolId !== undefined) conditions.push(eq(studentYears.schoolId, list.schoolId));
   if (list.grade !== undefined) conditions.push(eq(studentYears.grade, list.grade));
-  if (list.q) {
-    const pattern = likePattern(list.q);
-    conditions.push(
-      or(
-        ilike(students.lastName, pattern),
-        ilike(students.firstName, pattern),
-        ilike(students.preferredName, pattern),
-        ilike(students.studentNumber, pattern),
-      ),
-    );
-  }
+  conditions.push(
+    matchesText(list.q, [
+      students.lastName,
+      students.firstName,
+      students.preferredName,
+      students.studentNumber,
+    ]),
+  );
   const where = and(...conditions);
   const [field, direction] = (list.sort ?? 'lastName:asc').split(':') as [string, string];
   const column = sortable[field] ?? students.lastName;
   const order = direction === 'desc' ? desc : asc;
   const [rows, [total]] = await Promise.all([
     db
-      .select({
-        id: students.id,
-        studentNumber: students.studentNumber,
-        firstName: students.firstName,
-        lastName: students.lastName,
-        preferredName: students.preferredName,
-        grade: studentYears.grade,
-        schoolId: studentYears.schoolId,
-        schoolCode: schools.code,
-        schoolName: schools.name,
-        status: students.status,
-        guardianName: students.guardianName,
-        guardianEmail: students.guardianEmail,
-        version: students.version,
-        updatedAt: students.updatedAt,
-      })
+      .select({ ...studentColumns, grade: studentYears.grade, schoolId: studentYears.schoolId })
       .from(studentYears)
       .innerJoin(students, eq(students.id, studentYears.studentId))
       .innerJoin(schools, eq(schools.id, studentYears.schoolId))

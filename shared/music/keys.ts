@@ -18,43 +18,18 @@ export const modes: readonly Mode[] = [
   'chromatic',
 ];
 
+/**
+ * The line of fifths from Cb to A#: each note a perfect fifth above the one before it. A key
+ * signature of n flats or sharps has its major tonic at place n + 7 (counting flats negative)
+ * and its relative minor three fifths higher.
+ */
+const lineOfFifths = 'Cb Gb Db Ab Eb Bb F C G D A E B F# C# G# D# A#'.split(' ');
+
 /** The tonics of the 15 major keys with a standard key signature, from 7 flats to 7 sharps. */
-export const majorTonics: readonly string[] = [
-  'Cb',
-  'Gb',
-  'Db',
-  'Ab',
-  'Eb',
-  'Bb',
-  'F',
-  'C',
-  'G',
-  'D',
-  'A',
-  'E',
-  'B',
-  'F#',
-  'C#',
-];
+export const majorTonics: readonly string[] = lineOfFifths.slice(0, 15);
 
 /** The tonics of the 15 minor keys with a standard key signature, from 7 flats to 7 sharps. */
-export const minorTonics: readonly string[] = [
-  'Ab',
-  'Eb',
-  'Bb',
-  'F',
-  'C',
-  'G',
-  'D',
-  'A',
-  'E',
-  'B',
-  'F#',
-  'C#',
-  'G#',
-  'D#',
-  'A#',
-];
+export const minorTonics: readonly string[] = lineOfFifths.slice(3, 18);
 
 /** Each letter's place on the circle of fifths counted from C (sharps positive). */
 const letterFifths: Record<Letter, number> = { F: -1, C: 0, G: 1, D: 2, A: 3, E: 4, B: 5 };

@@ -40,130 +40,50 @@ export function levelOfGrade(grade: number): SchoolLevel {
  * Keyboard percussion ranges are the instrument's bars, the same at every level, except that a
  * young player keeps to the two middle octaves.
  */
-export const schoolRanges: Record<string, Record<SchoolLevel, NoteRange>> = {
-  piccolo: {
-    elementary: { lowest: 'D4', highest: 'D6' },
-    middle: { lowest: 'D4', highest: 'G6' },
-    high: { lowest: 'D4', highest: 'A6' },
-  },
-  flute: {
-    elementary: { lowest: 'C4', highest: 'C6' },
-    middle: { lowest: 'C4', highest: 'G6' },
-    high: { lowest: 'C4', highest: 'C7' },
-  },
-  oboe: {
-    elementary: { lowest: 'C4', highest: 'C6' },
-    middle: { lowest: 'Bb3', highest: 'D6' },
-    high: { lowest: 'Bb3', highest: 'F6' },
-  },
-  bassoon: {
-    elementary: { lowest: 'C2', highest: 'G4' },
-    middle: { lowest: 'Bb1', highest: 'A4' },
-    high: { lowest: 'Bb1', highest: 'D5' },
-  },
+const rangeTable: Record<string, string> = {
+  // instrument: 'lowest-highest' in elementary, middle and high school
+  piccolo: 'D4-D6 D4-G6 D4-A6',
+  flute: 'C4-C6 C4-G6 C4-C7',
+  oboe: 'C4-C6 Bb3-D6 Bb3-F6',
+  bassoon: 'C2-G4 Bb1-A4 Bb1-D5',
   // Elementary players cross the break (written Bb4 to B4) to G5 at the top of the staff.
-  clarinet: {
-    elementary: { lowest: 'E3', highest: 'G5' },
-    middle: { lowest: 'E3', highest: 'C6' },
-    high: { lowest: 'E3', highest: 'G6' },
-  },
-  'bass-clarinet': {
-    elementary: { lowest: 'E3', highest: 'G5' },
-    middle: { lowest: 'E3', highest: 'G5' },
-    high: { lowest: 'Eb3', highest: 'C6' },
-  },
-  'soprano-sax': {
-    elementary: { lowest: 'D4', highest: 'C6' },
-    middle: { lowest: 'Bb3', highest: 'D6' },
-    high: { lowest: 'Bb3', highest: 'F6' },
-  },
-  'alto-sax': {
-    elementary: { lowest: 'D4', highest: 'C6' },
-    middle: { lowest: 'Bb3', highest: 'D6' },
-    high: { lowest: 'Bb3', highest: 'F6' },
-  },
-  'tenor-sax': {
-    elementary: { lowest: 'D4', highest: 'C6' },
-    middle: { lowest: 'Bb3', highest: 'D6' },
-    high: { lowest: 'Bb3', highest: 'F6' },
-  },
-  'bari-sax': {
-    elementary: { lowest: 'D4', highest: 'C6' },
-    middle: { lowest: 'Bb3', highest: 'D6' },
-    high: { lowest: 'Bb3', highest: 'F6' },
-  },
-  trumpet: {
-    elementary: { lowest: 'G3', highest: 'G5' },
-    middle: { lowest: 'F#3', highest: 'G5' },
-    high: { lowest: 'F#3', highest: 'C6' },
-  },
+  clarinet: 'E3-G5 E3-C6 E3-G6',
+  'bass-clarinet': 'E3-G5 E3-G5 Eb3-C6',
+  'soprano-sax': 'D4-C6 Bb3-D6 Bb3-F6',
+  'alto-sax': 'D4-C6 Bb3-D6 Bb3-F6',
+  'tenor-sax': 'D4-C6 Bb3-D6 Bb3-F6',
+  'bari-sax': 'D4-C6 Bb3-D6 Bb3-F6',
+  trumpet: 'G3-G5 F#3-G5 F#3-C6',
   // Elementary players reach written F5, so the first band scale (concert Bb, written F4–F5)
   // fits.
-  horn: {
-    elementary: { lowest: 'G3', highest: 'F5' },
-    middle: { lowest: 'G3', highest: 'G5' },
-    high: { lowest: 'F#3', highest: 'A5' },
-  },
-  trombone: {
-    elementary: { lowest: 'F2', highest: 'F4' },
-    middle: { lowest: 'E2', highest: 'Bb4' },
-    high: { lowest: 'E2', highest: 'F5' },
-  },
-  euphonium: {
-    elementary: { lowest: 'F2', highest: 'F4' },
-    middle: { lowest: 'E2', highest: 'Bb4' },
-    high: { lowest: 'E2', highest: 'F5' },
-  },
+  horn: 'G3-F5 G3-G5 F#3-A5',
+  trombone: 'F2-F4 E2-Bb4 E2-F5',
+  euphonium: 'F2-F4 E2-Bb4 E2-F5',
   // The bass-clef ranges written a major 9th higher.
-  'euphonium-tc': {
-    elementary: { lowest: 'G3', highest: 'G5' },
-    middle: { lowest: 'F#3', highest: 'C6' },
-    high: { lowest: 'F#3', highest: 'G6' },
-  },
-  tuba: {
-    elementary: { lowest: 'Bb1', highest: 'Bb3' },
-    middle: { lowest: 'G1', highest: 'C4' },
-    high: { lowest: 'F1', highest: 'F4' },
-  },
-  glockenspiel: {
-    elementary: { lowest: 'G3', highest: 'C6' },
-    middle: { lowest: 'G3', highest: 'C6' },
-    high: { lowest: 'G3', highest: 'C6' },
-  },
-  xylophone: {
-    elementary: { lowest: 'C4', highest: 'C6' },
-    middle: { lowest: 'F3', highest: 'C7' },
-    high: { lowest: 'F3', highest: 'C7' },
-  },
-  marimba: {
-    elementary: { lowest: 'C4', highest: 'C6' },
-    middle: { lowest: 'C3', highest: 'C7' },
-    high: { lowest: 'C3', highest: 'C7' },
-  },
+  'euphonium-tc': 'G3-G5 F#3-C6 F#3-G6',
+  tuba: 'Bb1-Bb3 G1-C4 F1-F4',
+  glockenspiel: 'G3-C6 G3-C6 G3-C6',
+  xylophone: 'C4-C6 F3-C7 F3-C7',
+  marimba: 'C4-C6 C3-C7 C3-C7',
   // First position (to B5) in elementary school, third position in middle school.
-  violin: {
-    elementary: { lowest: 'G3', highest: 'B5' },
-    middle: { lowest: 'G3', highest: 'D6' },
-    high: { lowest: 'G3', highest: 'A6' },
-  },
-  viola: {
-    elementary: { lowest: 'C3', highest: 'E5' },
-    middle: { lowest: 'C3', highest: 'A5' },
-    high: { lowest: 'C3', highest: 'D6' },
-  },
-  cello: {
-    elementary: { lowest: 'C2', highest: 'D4' },
-    middle: { lowest: 'C2', highest: 'A4' },
-    high: { lowest: 'C2', highest: 'C5' },
-  },
+  violin: 'G3-B5 G3-D6 G3-A6',
+  viola: 'C3-E5 C3-A5 C3-D6',
+  cello: 'C2-D4 C2-A4 C2-C5',
   // Written; the bass sounds an octave lower. Elementary players use the lower positions to D4
   // (third position on the G string); C5 in thumb position is beyond high school.
-  'double-bass': {
-    elementary: { lowest: 'E2', highest: 'D4' },
-    middle: { lowest: 'E2', highest: 'G4' },
-    high: { lowest: 'E2', highest: 'Bb4' },
-  },
+  'double-bass': 'E2-D4 E2-G4 E2-Bb4',
 };
+
+/** The written range of each instrument at each school level, read from the table above. */
+export const schoolRanges: Record<string, Record<SchoolLevel, NoteRange>> = Object.fromEntries(
+  Object.entries(rangeTable).map(([id, row]) => {
+    const spans = row.split(' ').map((span) => {
+      const [lowest, highest] = span.split('-') as [string, string];
+      return { lowest, highest };
+    });
+    return [id, Object.fromEntries(schoolLevels.map((level, index) => [level, spans[index]!]))];
+  }),
+) as Record<string, Record<SchoolLevel, NoteRange>>;
 
 /** Whether a requirement fits one instrument at one school level, and where it is placed. */
 export type LevelReach =

@@ -1,11 +1,12 @@
-import { bigint, index, integer, jsonb, pgTable, text, timestamp } from 'drizzle-orm/pg-core';
+import { bigint, index, integer, jsonb, pgTable, text } from 'drizzle-orm/pg-core';
+import { moment } from './columns';
 
 /** Who changed what and when, with the row before and after. */
 export const auditLog = pgTable(
   'audit_log',
   {
     id: bigint('id', { mode: 'number' }).primaryKey().generatedAlwaysAsIdentity(),
-    at: timestamp('at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
+    at: moment('at').notNull().defaultNow(),
     userId: integer('user_id'),
     action: text('action').notNull(),
     entity: text('entity').notNull(),

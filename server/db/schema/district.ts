@@ -1,6 +1,6 @@
 import { check, integer, pgTable, text, uniqueIndex } from 'drizzle-orm/pg-core';
 import { sql } from 'drizzle-orm';
-import { timestamps, version } from './columns';
+import { identity, timestamps, version } from './columns';
 
 /**
  * The district that runs this Tuttiboard: its name as every page, label and e-mail prints it,
@@ -9,7 +9,7 @@ import { timestamps, version } from './columns';
 export const districts = pgTable(
   'districts',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     name: text('name').notNull(),
     shortName: text('short_name').notNull().default(''),
     /** IANA time zone, such as America/Denver. */

@@ -1,17 +1,15 @@
-import { integer, index, pgTable, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
+import { integer, index, pgTable, text, uniqueIndex } from 'drizzle-orm/pg-core';
 import { attemptStatuses, feeScopes, ledgerKinds } from '../../../shared/api/fee';
-import { timestamps } from './columns';
-import { users } from './people';
+import { identity, timestamps, moment, linkTo } from './columns';
+import { actedBy } from './people';
 import { loans } from './fleet';
 import { schools } from './schools';
-
-const moment = (name: string) => timestamp(name, { withTimezone: true, mode: 'date' });
 
 /** The yearly usage fee of an instrument family or of one instrument. */
 export const feeSchedule = pgTable(
   'fee_schedule',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     scope: text('scope', { enum: feeScopes }).notNull(),
     key: text('key').notNull(),
     yearlyFeeCents: integer('yearly_fee_cents').notNull(),
@@ -24,10 +22,8 @@ export const feeSchedule = pgTable(
 export const feePaymentAttempts = pgTable(
   'fee_payment_attempts',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    loanId: integer('loan_id')
-      .notNull()
-      .references(() => loans.id),
+    ...identity,
+    loanId: linkTo('loan_id', () => loans.id),
     attempt: integer('attempt').notNull(),
     sessionId: text('session_id').notNull(),
     amountCents: integer('amount_cents').notNull(),
@@ -49,13 +45,9 @@ export const feePaymentAttempts = pgTable(
 export const feeLedger = pgTable(
   'fee_ledger',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    loanId: integer('loan_id')
-      .notNull()
-      .references(() => loans.id),
-    schoolId: integer('school_id')
-      .notNull()
-      .references(() => schools.id),
+    ...identity,
+    loanId: linkTo('loan_id', () => loans.id),
+    schoolId: linkTo('school_id', () => schools.id),
     kind: text('kind', { enum: ledgerKinds }).notNull(),
     amountCents: integer('amount_cents').notNull(),
     currency: text('currency').notNull().default('usd'),
@@ -63,7 +55,7 @@ export const feeLedger = pgTable(
     reference: text('reference'),
     attemptId: integer('attempt_id').references(() => feePaymentAttempts.id),
     reason: text('reason'),
-    recordedBy: integer('recorded_by').references(() => users.id, { onDelete: 'set null' }),
+    recordedBy: actedBy('recorded_by'),
     at: moment('at').notNull().defaultNow(),
   },
   (table) => [

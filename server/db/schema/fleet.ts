@@ -1,14 +1,5 @@
 import { sql } from 'drizzle-orm';
-import {
-  boolean,
-  date,
-  index,
-  integer,
-  pgTable,
-  text,
-  timestamp,
-  uniqueIndex,
-} from 'drizzle-orm/pg-core';
+import { boolean, index, integer, pgTable, text, uniqueIndex } from 'drizzle-orm/pg-core';
 import {
   instrumentConditions,
   instrumentEventKinds,
@@ -17,19 +8,16 @@ import {
 import { loanStates } from '../../../shared/api/loan';
 import { repairStatuses } from '../../../shared/api/repair';
 import { countStates, scanOutcomes } from '../../../shared/api/count';
-import { timestamps, version } from './columns';
-import { users } from './people';
+import { identity, timestamps, version, moment, day, linkTo } from './columns';
+import { actedBy } from './people';
 import { students } from './roster';
 import { schools } from './schools';
-
-const day = (name: string) => date(name, { mode: 'string' });
-const moment = (name: string) => timestamp(name, { withTimezone: true, mode: 'date' });
 
 /** A district-owned instrument, known everywhere by its asset tag. */
 export const instruments = pgTable(
   'instruments',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     assetTag: text('asset_tag').notNull(),
     /** The music engine's instrument id ('tuba', 'alto-sax'…). */
     instrumentId: text('instrument_id').notNull(),
@@ -41,9 +29,7 @@ export const instruments = pgTable(
     fundingSource: text('funding_source').notNull().default(''),
     condition: text('condition', { enum: instrumentConditions }).notNull().default('good'),
     status: text('status', { enum: instrumentStatuses }).notNull().default('available'),
-    homeSchoolId: integer('home_school_id')
-      .notNull()
-      .references(() => schools.id),
+    homeSchoolId: linkTo('home_school_id', () => schools.id),
     location: text('location').notNull().default(''),
     notes: text('notes').notNull().default(''),
     ...version,
@@ -63,15 +49,13 @@ export const instruments = pgTable(
 export const instrumentPhotos = pgTable(
   'instrument_photos',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    instrumentId: integer('instrument_id')
-      .notNull()
-      .references(() => instruments.id, { onDelete: 'cascade' }),
+    ...identity,
+    instrumentId: linkTo('instrument_id', () => instruments.id, 'cascade'),
     /** The random file name under `<data dir>/photos/`. */
     fileName: text('file_name').notNull(),
     contentType: text('content_type').notNull(),
     sizeBytes: integer('size_bytes').notNull(),
-    uploadedBy: integer('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
+    uploadedBy: actedBy('uploaded_by'),
     ...timestamps,
   },
   (table) => [index('instrument_photos_instrument_idx').on(table.instrumentId)],
@@ -81,14 +65,12 @@ export const instrumentPhotos = pgTable(
 export const instrumentEvents = pgTable(
   'instrument_events',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    instrumentId: integer('instrument_id')
-      .notNull()
-      .references(() => instruments.id, { onDelete: 'cascade' }),
+    ...identity,
+    instrumentId: linkTo('instrument_id', () => instruments.id, 'cascade'),
     kind: text('kind', { enum: instrumentEventKinds }).notNull(),
     at: moment('at').notNull().defaultNow(),
     note: text('note').notNull().default(''),
-    userId: integer('user_id').references(() => users.id, { onDelete: 'set null' }),
+    userId: actedBy('user_id'),
     loanId: integer('loan_id'),
     repairId: integer('repair_id'),
     countId: integer('count_id'),
@@ -100,16 +82,10 @@ export const instrumentEvents = pgTable(
 export const loans = pgTable(
   'loans',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    instrumentId: integer('instrument_id')
-      .notNull()
-      .references(() => instruments.id),
-    studentId: integer('student_id')
-      .notNull()
-      .references(() => students.id),
-    schoolId: integer('school_id')
-      .notNull()
-      .references(() => schools.id),
+    ...identity,
+    instrumentId: linkTo('instrument_id', () => instruments.id),
+    studentId: linkTo('student_id', () => students.id),
+    schoolId: linkTo('school_id', () => schools.id),
     checkedOutOn: day('checked_out_on').notNull(),
     dueOn: day('due_on').notNull(),
     accessories: text('accessories').array().notNull().default([]),
@@ -120,7 +96,7 @@ export const loans = pgTable(
     waiver: boolean('waiver').notNull().default(false),
     waiverReason: text('waiver_reason'),
     state: text('state', { enum: loanStates }).notNull().default('active'),
-    checkedOutBy: integer('checked_out_by').references(() => users.id, { onDelete: 'set null' }),
+    checkedOutBy: actedBy('checked_out_by'),
     /** SHA-256 of the one-time signing link's token; the token itself is never stored. */
     agreementTokenHash: text('agreement_token_hash'),
     agreementExpiresAt: moment('agreement_expires_at'),
@@ -149,12 +125,10 @@ export const loans = pgTable(
 export const repairTickets = pgTable(
   'repair_tickets',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    instrumentId: integer('instrument_id')
-      .notNull()
-      .references(() => instruments.id),
+    ...identity,
+    instrumentId: linkTo('instrument_id', () => instruments.id),
     problem: text('problem').notNull(),
-    reportedBy: integer('reported_by').references(() => users.id, { onDelete: 'set null' }),
+    reportedBy: actedBy('reported_by'),
     /** The repair shop; null for in-house work. */
     vendor: text('vendor'),
     inHouse: boolean('in_house').notNull().default(true),
@@ -178,11 +152,9 @@ export const repairTickets = pgTable(
 export const counts = pgTable(
   'counts',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    schoolId: integer('school_id')
-      .notNull()
-      .references(() => schools.id),
-    startedBy: integer('started_by').references(() => users.id, { onDelete: 'set null' }),
+    ...identity,
+    schoolId: linkTo('school_id', () => schools.id),
+    startedBy: actedBy('started_by'),
     startedAt: moment('started_at').notNull().defaultNow(),
     closedAt: moment('closed_at'),
     state: text('state', { enum: countStates }).notNull().default('open'),
@@ -195,15 +167,13 @@ export const counts = pgTable(
 export const countScans = pgTable(
   'count_scans',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    countId: integer('count_id')
-      .notNull()
-      .references(() => counts.id, { onDelete: 'cascade' }),
+    ...identity,
+    countId: linkTo('count_id', () => counts.id, 'cascade'),
     /** The tag as typed, before matching. */
     assetTag: text('asset_tag').notNull(),
     instrumentId: integer('instrument_id').references(() => instruments.id),
     outcome: text('outcome', { enum: scanOutcomes }).notNull(),
-    scannedBy: integer('scanned_by').references(() => users.id, { onDelete: 'set null' }),
+    scannedBy: actedBy('scanned_by'),
     scannedAt: moment('scanned_at').notNull().defaultNow(),
   },
   (table) => [index('count_scans_count_idx').on(table.countId, table.instrumentId)],

@@ -1,19 +1,17 @@
 import { sql } from 'drizzle-orm';
 import {
   boolean,
-  date,
   index,
   integer,
   pgTable,
   primaryKey,
   smallint,
   text,
-  timestamp,
   uniqueIndex,
   uuid,
 } from 'drizzle-orm/pg-core';
-import { timestamps, version } from './columns';
-import { users } from './people';
+import { identity, created, timestamps, version, moment, day, linkTo } from './columns';
+import { actedBy } from './people';
 import { students } from './roster';
 import { schools } from './schools';
 
@@ -24,14 +22,14 @@ import { schools } from './schools';
 export const ladderVersions = pgTable(
   'ladder_versions',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     name: text('name').notNull(),
     status: text('status', { enum: ['draft', 'published', 'archived'] })
       .notNull()
       .default('draft'),
     active: boolean('active').notNull().default(false),
-    publishedAt: timestamp('published_at', { withTimezone: true, mode: 'date' }),
-    createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+    publishedAt: moment('published_at'),
+    createdBy: actedBy('created_by'),
     ...version,
     ...timestamps,
   },
@@ -46,10 +44,8 @@ export const ladderVersions = pgTable(
 export const ladderRungs = pgTable(
   'ladder_rungs',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    ladderVersionId: integer('ladder_version_id')
-      .notNull()
-      .references(() => ladderVersions.id, { onDelete: 'cascade' }),
+    ...identity,
+    ladderVersionId: linkTo('ladder_version_id', () => ladderVersions.id, 'cascade'),
     number: smallint('number').notNull(),
     title: text('title').notNull(),
   },
@@ -60,13 +56,9 @@ export const ladderRungs = pgTable(
 export const ladderRequirements = pgTable(
   'ladder_requirements',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    ladderVersionId: integer('ladder_version_id')
-      .notNull()
-      .references(() => ladderVersions.id, { onDelete: 'cascade' }),
-    rungId: integer('rung_id')
-      .notNull()
-      .references(() => ladderRungs.id, { onDelete: 'cascade' }),
+    ...identity,
+    ladderVersionId: linkTo('ladder_version_id', () => ladderVersions.id, 'cascade'),
+    rungId: linkTo('rung_id', () => ladderRungs.id, 'cascade'),
     position: smallint('position').notNull().default(0),
     code: text('code').notNull(),
     tonic: text('tonic').notNull(),
@@ -89,13 +81,11 @@ export const ladderRequirements = pgTable(
 export const ladderBenchmarks = pgTable(
   'ladder_benchmarks',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    ladderVersionId: integer('ladder_version_id')
-      .notNull()
-      .references(() => ladderVersions.id, { onDelete: 'cascade' }),
+    ...identity,
+    ladderVersionId: linkTo('ladder_version_id', () => ladderVersions.id, 'cascade'),
     grade: smallint('grade').notNull(),
     rung: smallint('rung').notNull(),
-    byDate: date('by_date', { mode: 'string' }).notNull(),
+    byDate: day('by_date').notNull(),
   },
   (table) => [
     uniqueIndex('ladder_benchmarks_unique').on(table.ladderVersionId, table.grade, table.byDate),
@@ -106,27 +96,21 @@ export const ladderBenchmarks = pgTable(
 export const passOffs = pgTable(
   'pass_offs',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    studentId: integer('student_id')
-      .notNull()
-      .references(() => students.id, { onDelete: 'cascade' }),
+    ...identity,
+    studentId: linkTo('student_id', () => students.id, 'cascade'),
     /** The school the student was at when heard (the Overview's weekly counts group by it). */
-    schoolId: integer('school_id')
-      .notNull()
-      .references(() => schools.id),
+    schoolId: linkTo('school_id', () => schools.id),
     /** The grade the student was in when heard. */
     grade: smallint('grade').notNull(),
-    ladderVersionId: integer('ladder_version_id')
-      .notNull()
-      .references(() => ladderVersions.id),
+    ladderVersionId: linkTo('ladder_version_id', () => ladderVersions.id),
     requirementId: integer('requirement_id').references(() => ladderRequirements.id, {
       onDelete: 'set null',
     }),
     requirementCode: text('requirement_code').notNull(),
-    heardOn: date('heard_on', { mode: 'string' }).notNull(),
+    heardOn: day('heard_on').notNull(),
     tempo: smallint('tempo').notNull(),
     passed: boolean('passed').notNull(),
-    heardBy: integer('heard_by').references(() => users.id, { onDelete: 'set null' }),
+    heardBy: actedBy('heard_by'),
     note: text('note').notNull().default(''),
     recordingId: integer('recording_id'),
     /** The client's own key for the pass-off, so a retried request never records it twice. */
@@ -136,7 +120,7 @@ export const passOffs = pgTable(
      * two entries for one cell that waited offline on two devices, the later entered is the one
      * the grid shows, whichever arrived first. Null for pass-offs sent without it.
      */
-    enteredAt: timestamp('entered_at', { withTimezone: true, mode: 'date' }),
+    enteredAt: moment('entered_at'),
     ...version,
     ...timestamps,
   },
@@ -154,16 +138,14 @@ export const passOffs = pgTable(
 export const passOffRecordings = pgTable(
   'pass_off_recordings',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    passOffId: integer('pass_off_id')
-      .notNull()
-      .references(() => passOffs.id, { onDelete: 'cascade' }),
+    ...identity,
+    passOffId: linkTo('pass_off_id', () => passOffs.id, 'cascade'),
     storedName: text('stored_name').notNull(),
     originalName: text('original_name').notNull(),
     contentType: text('content_type').notNull(),
     size: integer('size').notNull(),
     sha256: text('sha256').notNull(),
-    createdAt: timestamp('created_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
+    ...created,
   },
   (table) => [
     index('pass_off_recordings_pass_off_idx').on(table.passOffId),
@@ -187,7 +169,7 @@ export const studentAttainment = pgTable(
     grade: smallint('grade'),
     active: boolean('active').notNull().default(true),
     /** The student's cohort, copied from the student with the fields above. */
-    cohortStartsOn: date('cohort_starts_on', { mode: 'string' }),
+    cohortStartsOn: day('cohort_starts_on'),
     cohortGrade: smallint('cohort_grade'),
     /** Set when the student's seats changed: the rung is recomputed before the next read. */
     stale: boolean('stale').notNull().default(false),
@@ -198,8 +180,8 @@ export const studentAttainment = pgTable(
     family: text('family').notNull().default(''),
     rung: smallint('rung').notNull().default(0),
     metCount: smallint('met_count').notNull().default(0),
-    lastPassedOn: date('last_passed_on', { mode: 'string' }),
-    lastPassOffOn: date('last_pass_off_on', { mode: 'string' }),
+    lastPassedOn: day('last_passed_on'),
+    lastPassOffOn: day('last_pass_off_on'),
     /**
      * The fastest passed tempo of each requirement of the ladder version above, in the ladder's
      * order (rung by rung), null where never passed: the audition-ready list tests a student's
@@ -213,8 +195,8 @@ export const studentAttainment = pgTable(
      * rung_dates)`). Kept with the rung, in the same writes; the year-over-year rung-by-grade
      * figure reads it.
      */
-    rungDates: date('rung_dates', { mode: 'string' }).array(),
-    updatedAt: timestamp('updated_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
+    rungDates: day('rung_dates').array(),
+    updatedAt: moment('updated_at').notNull().defaultNow(),
   },
   (table) => [
     index('student_attainment_school_grade_rung_idx').on(
@@ -235,12 +217,10 @@ export const studentAttainment = pgTable(
 export const passedRequirements = pgTable(
   'passed_requirements',
   {
-    studentId: integer('student_id')
-      .notNull()
-      .references(() => students.id, { onDelete: 'cascade' }),
+    studentId: linkTo('student_id', () => students.id, 'cascade'),
     requirementCode: text('requirement_code').notNull(),
     bestTempo: smallint('best_tempo').notNull(),
-    firstPassedOn: date('first_passed_on', { mode: 'string' }).notNull(),
+    firstPassedOn: day('first_passed_on').notNull(),
   },
   (table) => [
     primaryKey({ columns: [table.studentId, table.requirementCode] }),
@@ -252,10 +232,8 @@ export const passedRequirements = pgTable(
 export const passOffWeeks = pgTable(
   'pass_off_weeks',
   {
-    weekStart: date('week_start', { mode: 'string' }).notNull(),
-    schoolId: integer('school_id')
-      .notNull()
-      .references(() => schools.id, { onDelete: 'cascade' }),
+    weekStart: day('week_start').notNull(),
+    schoolId: linkTo('school_id', () => schools.id, 'cascade'),
     grade: smallint('grade').notNull(),
     heard: integer('heard').notNull().default(0),
     passed: integer('passed').notNull().default(0),

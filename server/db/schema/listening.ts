@@ -1,6 +1,7 @@
-import { index, integer, jsonb, pgTable, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
-import { users } from './people';
+import { index, integer, jsonb, pgTable, text, uniqueIndex } from 'drizzle-orm/pg-core';
+import { actedBy } from './people';
 import { students } from './roster';
+import { identity, created, moment, linkTo } from './columns';
 
 /**
  * A student's take of a requirement: the recording (a file under the data folder, as pass-off
@@ -11,10 +12,8 @@ import { students } from './roster';
 export const takes = pgTable(
   'takes',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    studentId: integer('student_id')
-      .notNull()
-      .references(() => students.id, { onDelete: 'cascade' }),
+    ...identity,
+    studentId: linkTo('student_id', () => students.id, 'cascade'),
     requirementId: text('requirement_id').notNull(),
     tempoAsked: integer('tempo_asked').notNull(),
     storedName: text('stored_name').notNull(),
@@ -24,13 +23,13 @@ export const takes = pgTable(
     status: text('status', { enum: ['kept', 'sent'] })
       .notNull()
       .default('kept'),
-    sentAt: timestamp('sent_at', { withTimezone: true, mode: 'date' }),
+    sentAt: moment('sent_at'),
     /**
      * The director (or coordinator) who recorded the take while hearing the student, kept as
      * evidence of a pass-off; null for the student's own take.
      */
-    recordedBy: integer('recorded_by').references(() => users.id, { onDelete: 'set null' }),
-    createdAt: timestamp('created_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
+    recordedBy: actedBy('recorded_by'),
+    ...created,
   },
   (table) => [
     index('takes_student_idx').on(table.studentId, table.createdAt),

@@ -1,7 +1,7 @@
-import { index, integer, jsonb, pgTable, smallint, text, timestamp } from 'drizzle-orm/pg-core';
+import { index, integer, jsonb, pgTable, smallint, text } from 'drizzle-orm/pg-core';
 import { outboxKinds, outboxStates } from '../../../shared/api/outbox';
-import { timestamps } from './columns';
-import { users } from './people';
+import { identity, timestamps, moment } from './columns';
+import { actedBy } from './people';
 import { schools } from './schools';
 
 /** A file attached to a queued message, its bytes in base64. */
@@ -21,7 +21,7 @@ export interface OutboxAttachment {
 export const outboxMessages = pgTable(
   'outbox_messages',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     kind: text('kind', { enum: outboxKinds }).notNull(),
     to: text('to').array().notNull(),
     cc: text('cc').array().notNull().default([]),
@@ -31,13 +31,11 @@ export const outboxMessages = pgTable(
     attachments: jsonb('attachments').$type<OutboxAttachment[]>().notNull().default([]),
     state: text('state', { enum: outboxStates }).notNull().default('queued'),
     attempts: smallint('attempts').notNull().default(0),
-    nextAttemptAt: timestamp('next_attempt_at', { withTimezone: true, mode: 'date' })
-      .notNull()
-      .defaultNow(),
+    nextAttemptAt: moment('next_attempt_at').notNull().defaultNow(),
     lastError: text('last_error'),
-    sentAt: timestamp('sent_at', { withTimezone: true, mode: 'date' }),
+    sentAt: moment('sent_at'),
     messageId: text('message_id'),
-    createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdBy: actedBy('created_by'),
     relatedType: text('related_type'),
     relatedId: integer('related_id'),
     /** The school the message is about, for scoping who may see it. */

@@ -1,5 +1,5 @@
-import { boolean, integer, pgTable, text, timestamp } from 'drizzle-orm/pg-core';
-import { timestamps, version } from './columns';
+import { boolean, integer, pgTable, text } from 'drizzle-orm/pg-core';
+import { timestamps, version, moment, linkTo } from './columns';
 import { schools } from './schools';
 import { users } from './people';
 
@@ -11,9 +11,7 @@ export const oneRosterOrgSchools = pgTable('oneroster_org_schools', {
   sourcedId: text('sourced_id').primaryKey(),
   /** The org's name when it was mapped, to show in the mapping list. */
   orgName: text('org_name').notNull(),
-  schoolId: integer('school_id')
-    .notNull()
-    .references(() => schools.id),
+  schoolId: linkTo('school_id', () => schools.id),
   /** Whether a coordinator chose it (rather than an import matching it by identifier or name). */
   chosen: boolean('chosen').notNull().default(false),
   chosenBy: integer('chosen_by').references(() => users.id),
@@ -37,8 +35,8 @@ export const oneRosterSync = pgTable('oneroster_sync', {
   /** The district-local time of day the nightly sync runs, 'HH:MM'. */
   runAt: text('run_at').notNull().default('02:00'),
   /** The newest dateLastModified seen by the last committed run: the next run asks for later. */
-  changedSince: timestamp('changed_since', { withTimezone: true, mode: 'date' }),
-  lastRunAt: timestamp('last_run_at', { withTimezone: true, mode: 'date' }),
+  changedSince: moment('changed_since'),
+  lastRunAt: moment('last_run_at'),
   lastOutcome: text('last_outcome'),
   lastError: text('last_error'),
   ...version,

@@ -5,19 +5,18 @@ import {
   pgTable,
   primaryKey,
   text,
-  timestamp,
   uniqueIndex,
   boolean,
 } from 'drizzle-orm/pg-core';
 import { sql } from 'drizzle-orm';
-import { timestamps, version } from './columns';
+import { identity, timestamps, version, moment, linkTo } from './columns';
 import { schools } from './schools';
 
 /** Someone who signs in: coordinator, director, technician, viewer or student. */
 export const users = pgTable(
   'users',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     email: text('email').notNull(),
     name: text('name').notNull(),
     role: text('role', {
@@ -26,23 +25,26 @@ export const users = pgTable(
     active: boolean('active').notNull().default(true),
     /** For a student account: the roster row it belongs to. */
     studentId: integer('student_id'),
-    lastSignInAt: timestamp('last_sign_in_at', { withTimezone: true, mode: 'date' }),
+    lastSignInAt: moment('last_sign_in_at'),
     ...version,
     ...timestamps,
   },
   (table) => [uniqueIndex('users_email_unique').on(table.email)],
 );
 
+/**
+ * The user who did something to a row (heard, scanned, started…); the row stays, with no one
+ * named, when that account is deleted.
+ */
+export const actedBy = (name: string) =>
+  integer(name).references(() => users.id, { onDelete: 'set null' });
+
 /** The schools a director or viewer acts for. */
 export const userSchools = pgTable(
   'user_schools',
   {
-    userId: integer('user_id')
-      .notNull()
-      .references(() => users.id, { onDelete: 'cascade' }),
-    schoolId: integer('school_id')
-      .notNull()
-      .references(() => schools.id, { onDelete: 'cascade' }),
+    userId: linkTo('user_id', () => users.id, 'cascade'),
+    schoolId: linkTo('school_id', () => schools.id, 'cascade'),
   },
   (table) => [
     primaryKey({ columns: [table.userId, table.schoolId] }),
@@ -54,16 +56,14 @@ export const userSchools = pgTable(
 export const apiTokens = pgTable(
   'api_tokens',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    userId: integer('user_id')
-      .notNull()
-      .references(() => users.id, { onDelete: 'cascade' }),
+    ...identity,
+    userId: linkTo('user_id', () => users.id, 'cascade'),
     label: text('label').notNull().default(''),
     tokenHash: text('token_hash').notNull(),
-    lastUsedAt: timestamp('last_used_at', { withTimezone: true, mode: 'date' }),
-    revokedAt: timestamp('revoked_at', { withTimezone: true, mode: 'date' }),
+    lastUsedAt: moment('last_used_at'),
+    revokedAt: moment('revoked_at'),
     /** When the token stops working; tokens made before lifetimes existed got 90 days. */
-    expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' })
+    expiresAt: moment('expires_at')
       .notNull()
       .default(sql`now() + interval '90 days'`),
     ...timestamps,
@@ -80,7 +80,7 @@ export const sessions = pgTable(
   {
     sid: text('sid').primaryKey(),
     data: jsonb('data').notNull(),
-    expiresAt: timestamp('expires_at', { withTimezone: true, mode: 'date' }).notNull(),
+    expiresAt: moment('expires_at').notNull(),
   },
   (table) => [index('sessions_expires_idx').on(table.expiresAt)],
 );

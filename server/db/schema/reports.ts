@@ -1,17 +1,7 @@
-import {
-  boolean,
-  date,
-  index,
-  integer,
-  jsonb,
-  pgTable,
-  smallint,
-  text,
-  timestamp,
-} from 'drizzle-orm/pg-core';
-import { timestamps, version } from './columns';
+import { boolean, index, integer, jsonb, pgTable, smallint, text } from 'drizzle-orm/pg-core';
+import { identity, timestamps, version, moment, day } from './columns';
 import { reportKinds, type ReportTarget } from '../../../shared/api/report';
-import { users } from './people';
+import { actedBy } from './people';
 import { schools } from './schools';
 
 /**
@@ -21,17 +11,17 @@ import { schools } from './schools';
 export const reportRuns = pgTable(
   'report_runs',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     kind: text('kind', { enum: reportKinds }).notNull(),
     /** The school of a director report; null for the district summary. */
     schoolId: integer('school_id').references(() => schools.id, { onDelete: 'set null' }),
-    periodFrom: date('period_from', { mode: 'string' }).notNull(),
-    periodTo: date('period_to', { mode: 'string' }).notNull(),
+    periodFrom: day('period_from').notNull(),
+    periodTo: day('period_to').notNull(),
     figures: jsonb('figures').notNull(),
     recipients: text('recipients').array().notNull().default([]),
     outboxMessageIds: integer('outbox_message_ids').array().notNull().default([]),
     scheduleId: integer('schedule_id'),
-    sentBy: integer('sent_by').references(() => users.id, { onDelete: 'set null' }),
+    sentBy: actedBy('sent_by'),
     ...timestamps,
   },
   (table) => [
@@ -44,7 +34,7 @@ export const reportRuns = pgTable(
 export const reportSchedules = pgTable(
   'report_schedules',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     kind: text('kind', { enum: reportKinds }).notNull(),
     /** Five-field cron expression, such as `0 7 * * 1` (Mondays at 07:00). */
     cron: text('cron').notNull(),
@@ -54,9 +44,9 @@ export const reportSchedules = pgTable(
     /** How many days before the run the report's period starts. */
     periodDays: smallint('period_days').notNull().default(7),
     active: boolean('active').notNull().default(true),
-    lastRunAt: timestamp('last_run_at', { withTimezone: true, mode: 'date' }),
-    nextRunAt: timestamp('next_run_at', { withTimezone: true, mode: 'date' }),
-    createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+    lastRunAt: moment('last_run_at'),
+    nextRunAt: moment('next_run_at'),
+    createdBy: actedBy('created_by'),
     ...version,
     ...timestamps,
   },

@@ -1,35 +1,31 @@
 import {
-  date,
   index,
   integer,
   jsonb,
   pgTable,
   smallint,
   text,
-  timestamp,
   uniqueIndex,
   boolean,
   primaryKey,
 } from 'drizzle-orm/pg-core';
 import { sql } from 'drizzle-orm';
-import { timestamps, version } from './columns';
+import { identity, timestamps, version, moment, day, linkTo } from './columns';
 import { schoolYears, schools } from './schools';
-import { users } from './people';
+import { actedBy, users } from './people';
 
 /** A music student, keyed by the district's student id from the student information system. */
 export const students = pgTable(
   'students',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     studentNumber: text('student_number').notNull(),
     firstName: text('first_name').notNull(),
     lastName: text('last_name').notNull(),
     preferredName: text('preferred_name'),
     /** 0 is kindergarten. */
     grade: smallint('grade').notNull(),
-    schoolId: integer('school_id')
-      .notNull()
-      .references(() => schools.id),
+    schoolId: linkTo('school_id', () => schools.id),
     status: text('status', { enum: ['active', 'withdrawn', 'graduated', 'leaving'] })
       .notNull()
       .default('active'),
@@ -40,7 +36,7 @@ export const students = pgTable(
      * their grade then. Null until a year they played in is closed (until then their cohort is
      * the current year and grade). Written by the year start in its one update of the roster.
      */
-    cohortStartsOn: date('cohort_starts_on', { mode: 'string' }),
+    cohortStartsOn: day('cohort_starts_on'),
     cohortGrade: smallint('cohort_grade'),
     ...version,
     ...timestamps,
@@ -96,15 +92,9 @@ export const studentCounts = pgTable(
 export const studentYears = pgTable(
   'student_years',
   {
-    studentId: integer('student_id')
-      .notNull()
-      .references(() => students.id, { onDelete: 'cascade' }),
-    schoolYearId: integer('school_year_id')
-      .notNull()
-      .references(() => schoolYears.id),
-    schoolId: integer('school_id')
-      .notNull()
-      .references(() => schools.id),
+    studentId: linkTo('student_id', () => students.id, 'cascade'),
+    schoolYearId: linkTo('school_year_id', () => schoolYears.id),
+    schoolId: linkTo('school_id', () => schools.id),
     grade: integer('grade').notNull(),
     /** How the year ended: promoted, moving-up, graduated, leaving, withdrawn. */
     outcome: text('outcome', {
@@ -121,7 +111,7 @@ export const studentYears = pgTable(
      * The student's rung dates (as `student_attainment.rung_dates`) when the year was closed: the
      * rung on any day of that year is `width_bucket(day, rung_dates)`, read from this row alone.
      */
-    rungDates: date('rung_dates', { mode: 'string' }).array(),
+    rungDates: day('rung_dates').array(),
   },
   (table) => [
     primaryKey({ columns: [table.studentId, table.schoolYearId] }),
@@ -139,12 +129,10 @@ export const studentYears = pgTable(
 export const cohortRungs = pgTable(
   'cohort_rungs',
   {
-    cohortStartsOn: date('cohort_starts_on', { mode: 'string' }).notNull(),
+    cohortStartsOn: day('cohort_starts_on').notNull(),
     cohortGrade: smallint('cohort_grade').notNull(),
-    yearStartsOn: date('year_starts_on', { mode: 'string' }).notNull(),
-    schoolId: integer('school_id')
-      .notNull()
-      .references(() => schools.id),
+    yearStartsOn: day('year_starts_on').notNull(),
+    schoolId: linkTo('school_id', () => schools.id),
     rung: smallint('rung').notNull(),
     students: integer('students').notNull(),
   },
@@ -165,10 +153,8 @@ export const cohortRungs = pgTable(
 export const ensembles = pgTable(
   'ensembles',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    schoolId: integer('school_id')
-      .notNull()
-      .references(() => schools.id),
+    ...identity,
+    schoolId: linkTo('school_id', () => schools.id),
     name: text('name').notNull(),
     kind: text('kind', {
       enum: [
@@ -184,9 +170,7 @@ export const ensembles = pgTable(
       ],
     }).notNull(),
     level: text('level').notNull().default(''),
-    directorUserId: integer('director_user_id').references(() => users.id, {
-      onDelete: 'set null',
-    }),
+    directorUserId: actedBy('director_user_id'),
     meetingPeriod: text('meeting_period').notNull().default(''),
     ...version,
     ...timestamps,
@@ -198,16 +182,10 @@ export const ensembles = pgTable(
 export const enrollments = pgTable(
   'enrollments',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    studentId: integer('student_id')
-      .notNull()
-      .references(() => students.id, { onDelete: 'cascade' }),
-    ensembleId: integer('ensemble_id')
-      .notNull()
-      .references(() => ensembles.id, { onDelete: 'cascade' }),
-    schoolYearId: integer('school_year_id')
-      .notNull()
-      .references(() => schoolYears.id),
+    ...identity,
+    studentId: linkTo('student_id', () => students.id, 'cascade'),
+    ensembleId: linkTo('ensemble_id', () => ensembles.id, 'cascade'),
+    schoolYearId: linkTo('school_year_id', () => schoolYears.id),
     instrumentId: text('instrument_id'),
     part: text('part').notNull().default(''),
     chair: smallint('chair'),
@@ -230,16 +208,12 @@ export const enrollments = pgTable(
 export const schoolMoves = pgTable(
   'school_moves',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    studentId: integer('student_id')
-      .notNull()
-      .references(() => students.id, { onDelete: 'cascade' }),
+    ...identity,
+    studentId: linkTo('student_id', () => students.id, 'cascade'),
     fromSchoolId: integer('from_school_id').references(() => schools.id),
-    toSchoolId: integer('to_school_id')
-      .notNull()
-      .references(() => schools.id),
-    movedAt: timestamp('moved_at', { withTimezone: true, mode: 'date' }).notNull().defaultNow(),
-    movedBy: integer('moved_by').references(() => users.id, { onDelete: 'set null' }),
+    toSchoolId: linkTo('to_school_id', () => schools.id),
+    movedAt: moment('moved_at').notNull().defaultNow(),
+    movedBy: actedBy('moved_by'),
   },
   (table) => [index('school_moves_student_idx').on(table.studentId)],
 );
@@ -248,8 +222,8 @@ export const schoolMoves = pgTable(
 export const rosterImports = pgTable(
   'roster_imports',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    userId: integer('user_id').references(() => users.id, { onDelete: 'set null' }),
+    ...identity,
+    userId: actedBy('user_id'),
     fileName: text('file_name').notNull(),
     source: text('source').notNull(),
     via: text('via', { enum: ['wizard', 'cli', 'api'] }).notNull(),
@@ -268,8 +242,8 @@ export const rosterImports = pgTable(
     /** The school year its seats were written in. */
     schoolYearId: integer('school_year_id').references(() => schoolYears.id),
     /** When, and by whom, the import was taken back (import-undo.ts). */
-    undoneAt: timestamp('undone_at', { withTimezone: true, mode: 'date' }),
-    undoneBy: integer('undone_by').references(() => users.id, { onDelete: 'set null' }),
+    undoneAt: moment('undone_at'),
+    undoneBy: actedBy('undone_by'),
     ...timestamps,
   },
   (table) => [index('roster_imports_created_idx').on(table.createdAt)],
@@ -282,10 +256,8 @@ export const rosterImports = pgTable(
 export const rosterImportChanges = pgTable(
   'roster_import_changes',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
-    importId: integer('import_id')
-      .notNull()
-      .references(() => rosterImports.id, { onDelete: 'cascade' }),
+    ...identity,
+    importId: linkTo('import_id', () => rosterImports.id, 'cascade'),
     kind: text('kind', {
       enum: [
         'student-created',
@@ -326,7 +298,7 @@ export const rosterImportLandings = pgTable(
 export const importPresets = pgTable(
   'import_presets',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     name: text('name').notNull(),
     kind: text('kind').notNull().default('roster'),
     mapping: jsonb('mapping').notNull(),
@@ -339,9 +311,7 @@ export const importPresets = pgTable(
 export const gridPreferences = pgTable(
   'grid_preferences',
   {
-    userId: integer('user_id')
-      .notNull()
-      .references(() => users.id, { onDelete: 'cascade' }),
+    userId: linkTo('user_id', () => users.id, 'cascade'),
     grid: text('grid').notNull(),
     state: jsonb('state').notNull(),
     ...timestamps,

@@ -1,6 +1,5 @@
 import {
   boolean,
-  date,
   index,
   integer,
   pgTable,
@@ -9,13 +8,13 @@ import {
   type AnyPgColumn,
 } from 'drizzle-orm/pg-core';
 import { sql } from 'drizzle-orm';
-import { timestamps, version } from './columns';
+import { identity, timestamps, version, day } from './columns';
 
 /** A school of the district, known everywhere by its short code (HPMS, TRHS…). */
 export const schools = pgTable(
   'schools',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     code: text('code').notNull(),
     name: text('name').notNull(),
     level: text('level').notNull(),
@@ -26,7 +25,7 @@ export const schools = pgTable(
     /** The school its students move up to after its highest grade. */
     sendsToSchoolId: integer('sends_to_school_id').references((): AnyPgColumn => schools.id),
     /** The day the school closed; a closed school keeps its history. */
-    closedOn: date('closed_on', { mode: 'string' }),
+    closedOn: day('closed_on'),
     ...version,
     ...timestamps,
   },
@@ -40,10 +39,10 @@ export const schools = pgTable(
 export const schoolYears = pgTable(
   'school_years',
   {
-    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    ...identity,
     name: text('name').notNull(),
-    startsOn: date('starts_on', { mode: 'string' }).notNull(),
-    endsOn: date('ends_on', { mode: 'string' }).notNull(),
+    startsOn: day('starts_on').notNull(),
+    endsOn: day('ends_on').notNull(),
     current: boolean('current').notNull().default(false),
     ...version,
     ...timestamps,

@@ -225,11 +225,7 @@ export interface CsvOptions {
  * whole (`refusal`), found by one scan before papaparse builds a cell. Never throws.
  */
 export function parseCsv(text: string, options: CsvOptions = {}): ParsedCsv {
-  const steps = csvSteps(text, options);
-  for (;;) {
-    const step = steps.next();
-    if (step.done) return step.value;
-  }
+  return runToEnd(csvSteps(text, options));
 }
 
 /**
@@ -243,6 +239,14 @@ export async function parseCsvYielding(
   sliceMs = 20,
 ): Promise<ParsedCsv> {
   return runYielding(csvSteps(text, options), sliceMs);
+}
+
+/** Runs a generator to its end at once and answers what it returns. */
+export function runToEnd<Result>(steps: Generator<void, Result>): Result {
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return step.value;
+  }
 }
 
 /** Runs a generator to its end, letting the event loop go after each `sliceMs` of work. */

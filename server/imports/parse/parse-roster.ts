@@ -8,7 +8,7 @@ import {
   type RosterField,
 } from '@shared/roster';
 import { decodeText } from './decode';
-import { csvSteps } from './parse-csv';
+import { csvSteps, runToEnd, runYielding } from './parse-csv';
 import type { ParsedRoster, RowError } from './parsed-roster';
 import { RosterValidator } from './validate-rows';
 
@@ -59,11 +59,7 @@ function byLine(first: RowError, second: RowError): number {
  * {@link RosterValidator}. Problems come back as errors, never as exceptions.
  */
 export function parseRosterCsv(bytes: Uint8Array, options: RosterCsvOptions = {}): ParsedRoster {
-  const steps = rosterCsvSteps(bytes, options);
-  for (;;) {
-    const step = steps.next();
-    if (step.done) return step.value;
-  }
+  return runToEnd(rosterCsvSteps(bytes, options));
 }
 
 /**
@@ -76,16 +72,7 @@ export async function parseRosterCsvYielding(
   options: RosterCsvOptions = {},
   sliceMs = 40,
 ): Promise<ParsedRoster> {
-  const steps = rosterCsvSteps(bytes, options);
-  let sliceStart = performance.now();
-  for (;;) {
-    const step = steps.next();
-    if (step.done) return step.value;
-    if (performance.now() - sliceStart >= sliceMs) {
-      await new Promise((resolve) => setImmediate(resolve));
-      sliceStart = performance.now();
-    }
-  }
+  return runYielding(rosterCsvSteps(bytes, options), sliceMs);
 }
 
 /** How many rows are validated between two looks at the clock. */
