@@ -1,3 +1,4 @@
+import '../screen-kit';
 import type { Injector } from '@angular/core';
 import { MatDialog } from '@angular/material/dialog';
 import { askToConfirm, type ConfirmDialogData } from '../confirm-dialog/confirm-dialog';

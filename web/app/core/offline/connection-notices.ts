@@ -1,3 +1,4 @@
+import '../screen-kit';
 import {
   ChangeDetectionStrategy,
   Component,

@@ -1,3 +1,4 @@
+import '../../core/screen-kit';
 import { ChangeDetectionStrategy, Component, signal } from '@angular/core';
 import { MatTabsModule } from '@angular/material/tabs';
 import { ImportHistory } from '../import-history/import-history';

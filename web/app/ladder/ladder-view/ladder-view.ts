@@ -1,3 +1,4 @@
+import '../../core/screen-kit';
 import { HttpErrorResponse } from '@angular/common/http';
 import {
   ChangeDetectionStrategy,

@@ -1,3 +1,4 @@
+import '../../core/screen-kit';
 import { ChangeDetectionStrategy, Component, inject, input } from '@angular/core';
 import { CurrentUser } from '../../core/auth/current-user';
 import { LoanList } from '../loan-list/loan-list';

@@ -1,3 +1,4 @@
+import '../../core/screen-kit';
 import { NgTemplateOutlet } from '@angular/common';
 import {
   ChangeDetectionStrategy,

@@ -1,3 +1,4 @@
+import '../../core/screen-kit';
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { Router } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
