@@ -44,6 +44,8 @@ import { reportsRoutes } from './reports/reports-routes';
 import { startBackgroundWork } from './reports/background-work';
 import { webRoot } from './project-paths';
 import { indexPages } from './core/web-preloads';
+import { embeddedReads, sendWithEmbeddedReads, sessionActor } from './core/embedded-reads';
+import { can } from './core/policy';
 import { districtLogoRoute, districtRoutes, requireDistrict } from './district/district-routes';
 import { findDistrictRow } from './district/district-queries';
 import { feesRoutes, paymentsWebhook } from './payments/fees-routes';
@@ -207,17 +209,27 @@ function apiRouter(services: Services, localKey: string | undefined): Router {
 
 /**
  * The built web app: its files, and for every other GET (HTML5 routing) the app's index page,
- * naming a screen's code ahead where it has one.
+ * naming a screen's code ahead where it has one. For a signed-in user with the screen's
+ * capability, that page also carries the answers of the screen's first reads, read for them as the
+ * API would (never for a signed-out request, never stored: the service worker keeps the plain
+ * `/index.html` it fetches itself).
  */
-function webApp(): Router {
+function webApp({ db, logger }: Services): Router {
   const web = Router();
   web.use(express.static(webRoot, { index: false, maxAge: '1h', setHeaders: webCacheHeaders }));
   const indexPage = indexPages(webRoot);
-  web.get('/{*splat}', (request, response) => {
+  web.get('/{*splat}', async (request, response) => {
     response.set('Cache-Control', 'no-cache');
     const page = indexPage(request.path);
-    if (page === undefined) response.sendFile(path.join(webRoot, 'index.html'));
-    else response.type('html').send(page);
+    if (page === undefined) return response.sendFile(path.join(webRoot, 'index.html'));
+    const actor = await sessionActor(db, request);
+    if (!actor || !can(actor, page.screen.capability)) return response.type('html').send(page.html);
+    await sendWithEmbeddedReads(
+      response,
+      page.html,
+      () => embeddedReads(db, actor, page.screen.reads(request.query)),
+      logger,
+    );
   });
   return web;
 }
@@ -262,7 +274,8 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   app.use(districtLogoRoute(services));
   app.use(requireDistrict(db));
   app.use(payPages(services));
-  if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'))) app.use(webApp());
+  if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html')))
+    app.use(webApp(services));
   app.use(errorHandler(logger));
   // The mail worker and report scheduler; server/main.ts and the test harness call it on close.
   app.locals['stop'] = startBackgroundWork(services);

@@ -1,5 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
+import { embeddedEntryReads, type ScreenRead } from '@shared/api/entry-reads';
+import type { Capability } from './policy';
 
 /**
  * The part of the build's metafile read here (esbuild's "metafile" format, which Angular's
@@ -27,15 +29,28 @@ const appStart = [
   'shared/api/district.ts',
 ];
 
+/** A number from a query parameter given once, else null (as the web app reads it). */
+const numberParam = (value: unknown): number | null =>
+  (typeof value === 'string' && Number(value)) || null;
+
 /**
  * Screens whose code the index page names ahead, by the address it is served for: the app's start
  * and the screen's own component. The pass-off screen is opened on a phone over a slow link, where
- * each level of lazy imports found one after the other costs a round trip.
+ * each level of lazy imports found one after the other costs a round trip. For a signed-in user
+ * with the screen's capability the page also carries the answers of the screen's first reads
+ * (`reads`, from the address's query), so none of them costs a round trip of its own.
  */
-export const preloadedScreens: readonly { path: RegExp; modules: readonly string[] }[] = [
+export const preloadedScreens: readonly {
+  path: RegExp;
+  modules: readonly string[];
+  capability: Capability;
+  reads: (query: Record<string, unknown>) => ScreenRead[];
+}[] = [
   {
     path: /^\/pass-offs\/?$/,
     modules: [...appStart, 'web/app/pass-offs/pass-off-entry/pass-off-entry.ts'],
+    capability: 'pass-offs:write',
+    reads: (query) => embeddedEntryReads(numberParam(query['ensemble'])),
   },
 ];
 
@@ -94,12 +109,18 @@ export function withPreloads(indexHtml: string, files: readonly string[]): strin
   return indexHtml.replace('</body>', `${links}</body>`);
 }
 
+/** The index page served for an address: its text, and the screen it is served for. */
+export interface IndexPage {
+  html: string;
+  screen: (typeof preloadedScreens)[number];
+}
+
 /**
  * The index page to serve for an address: with the preloads of the screen served there, when the
  * build wrote its metafile beside the browser folder; undefined for the plain file. Read once
  * per build of the index page.
  */
-export function indexPages(webRoot: string): (pathname: string) => string | undefined {
+export function indexPages(webRoot: string): (pathname: string) => IndexPage | undefined {
   let built: { stamp: number; pages: (string | undefined)[] } | null = null;
   const pages = () => {
     const indexFile = path.join(webRoot, 'index.html');
@@ -125,6 +146,7 @@ export function indexPages(webRoot: string): (pathname: string) => string | unde
   };
   return (pathname) => {
     const screen = preloadedScreens.findIndex((each) => each.path.test(pathname));
-    return screen < 0 ? undefined : pages()[screen];
+    const html = screen < 0 ? undefined : pages()[screen];
+    return html === undefined ? undefined : { html, screen: preloadedScreens[screen]! };
   };
 }

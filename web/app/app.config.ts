@@ -12,13 +12,19 @@ import { sessionExpiredInterceptor } from './core/auth/session-expired-intercept
 import { AppUpdates } from './core/offline/app-updates';
 import { lastVisitInterceptor } from './core/offline/last-visit-interceptor';
 import { earlyReadsInterceptor } from './core/state/early-reads';
+import { embeddedReadsInterceptor } from './core/state/embedded-reads';
 
 export const appConfig: ApplicationConfig = {
   providers: [
     provideBrowserGlobalErrorListeners(),
     provideZonelessChangeDetection(),
     provideHttpClient(
-      withInterceptors([earlyReadsInterceptor, sessionExpiredInterceptor, lastVisitInterceptor]),
+      withInterceptors([
+        earlyReadsInterceptor,
+        sessionExpiredInterceptor,
+        lastVisitInterceptor,
+        embeddedReadsInterceptor,
+      ]),
       withXsrfConfiguration({}),
     ),
     provideRouter(

@@ -15,7 +15,7 @@ import {
 } from '@shared/api/pass-off';
 import { parsedWith } from '../core/parse';
 import { allPages } from './all-pages';
-import { passOffPageSize, rungRowsLimit } from './pass-off-entry/entry-reads';
+import { passOffPageSize, rungRowsLimit } from '@shared/api/entry-reads';
 
 const passOffListSchema = listResponseSchema(passOffSchema);
 const attainmentListSchema = listResponseSchema(attainmentRowSchema);

@@ -10,6 +10,7 @@ import {
 } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
 import { shareReplay, type Observable } from 'rxjs';
+import { pagesAfter, type ScreenRead } from '@shared/api/entry-reads';
 import { LastVisit } from '../offline/last-visit';
 
 /** How long an early read waits for its screen before it is dropped rather than answered stale. */
@@ -17,18 +18,6 @@ const keptFor = 20_000;
 
 /** Marks the early read itself, so the interceptor lets it through to the server. */
 const earlyRead = new HttpContextToken<boolean>(() => false);
-
-/** A read a screen will make, as its data class asks for it (same URL, same parameter order). */
-export interface ScreenRead {
-  url: string;
-  params?: Record<string, string | number>;
-  /**
-   * For a paged list read from offset 0 (`limit` and `offset` among the params): the pages after
-   * it start early too, as the screen will ask for them, as many as the total this device kept
-   * from the last visit implies and then as many as the first page's total does.
-   */
-  paged?: boolean;
-}
 
 /**
  * Reads a screen needs, started while its code is still loading (from the route's `canMatch`),
@@ -72,13 +61,7 @@ export class EarlyReads {
 
   /** Starts the pages after the first that a list answer's `total` implies. */
   private startPages(read: ScreenRead, first: unknown): void {
-    const limit = Number(read.params?.['limit']);
-    const total = (first as { total?: unknown } | null)?.total;
-    if (!(limit > 0) || typeof total !== 'number') return;
-    const pages: ScreenRead[] = [];
-    for (let offset = limit; offset < total; offset += limit)
-      pages.push({ url: read.url, params: { ...read.params, offset } });
-    this.start(pages);
+    this.start(pagesAfter(read, first));
   }
 
   /** The early read of this request, if one was started and not yet taken. */

@@ -52,7 +52,7 @@ import { PassOffQueue } from '../pass-off-queue';
 import { StudentHistory } from '../student-history/student-history';
 import { EntryGrid } from './entry-grid';
 import { EnsembleSheet } from './ensemble-sheet';
-import { entryEnsembleQuery } from './entry-reads';
+import { entryEnsembleQuery } from '@shared/api/entry-reads';
 import { queueBanner } from './entry-sheet';
 import { SentTakes } from '../sent-takes';
 import { TouchEntry, type TouchCell } from '../touch-entry/touch-entry';
