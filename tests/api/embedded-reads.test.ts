@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { embeddedEntryReads, type ScreenRead } from '@shared/api/entry-reads';
-import { embeddedReads } from '../../server/core/embedded-reads';
+import { parse, type DefaultTreeAdapterMap } from 'parse5';
+import { embeddedReads, embeddedReadsBlock } from '../../server/core/embedded-reads';
 import { loadActor } from '../../server/people/people-queries';
 import { useTestApp, type SignedInClient } from '../support/test-app';
 
@@ -76,5 +77,24 @@ describe('the answers the pass-off page is served with', () => {
   it('should leave out the ensemble reads for an ensemble that does not exist', async () => {
     const embedded = await expectSameAsApi(clients['director.hpms'], 987_654);
     expect(embedded.map((read) => read.url)).not.toContain('/api/ensembles/987654');
+  });
+
+  it('should keep any text in the answers inside its data block', () => {
+    const name = '</script><script>alert(1)</script><!-- <script>';
+    const reads = [{ url: '/api/me', body: { name } }];
+    const html = `<!doctype html><html><head></head><body>${embeddedReadsBlock(reads)}</body></html>`;
+    // parse5, an implementation of the HTML Living Standard's parsing algorithm, finds one
+    // script element whose text is the JSON of the answers as given.
+    const scripts: DefaultTreeAdapterMap['element'][] = [];
+    const walk = (node: DefaultTreeAdapterMap['node']) => {
+      if ('tagName' in node && node.tagName === 'script') scripts.push(node);
+      if ('childNodes' in node) node.childNodes.forEach(walk);
+    };
+    walk(parse(html));
+    expect(scripts).toHaveLength(1);
+    const text = scripts[0]!.childNodes
+      .map((child) => ('value' in child ? child.value : ''))
+      .join('');
+    expect(JSON.parse(text)).toEqual(reads);
   });
 });

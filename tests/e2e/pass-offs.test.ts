@@ -34,6 +34,29 @@ interface Candidate {
 
 const patient = { timeout: 20_000 };
 
+/** The data block of answers the index page is served with for a signed-in user. */
+const embeddedBlock = /<script type="application\/json" id="tb-embedded-reads">.*?<\/script>/s;
+
+/** The pass-off screen's first reads of an ensemble, as the browser asks for them. */
+const entryReadsOf = (ensembleId: number) => [
+  '/api/ensembles?sort=name:asc&limit=500',
+  '/api/ladder',
+  `/api/ensembles/${ensembleId}`,
+  `/api/pass-offs?ensembleId=${ensembleId}&limit=1000&offset=0`,
+  `/api/analytics/students?ensembleId=${ensembleId}&limit=1000`,
+];
+
+/** The API reads the page asks the server for from now on, in order (decoded). */
+function apiReadsOf(page: Page): string[] {
+  const reads: string[] = [];
+  page.on('request', (request) => {
+    const url = new URL(request.url());
+    if (request.method() === 'GET' && url.pathname.startsWith('/api/'))
+      reads.push(decodeURIComponent(url.pathname + url.search));
+  });
+  return reads;
+}
+
 function appliesTo(requirement: LadderRequirement, family: string | null): boolean {
   return (
     !requirement.families ||
@@ -310,30 +333,65 @@ describe('Pass-offs entry', () => {
     await signInAs(page, app.url, demoEmail('director.hpms'));
     // Away from the start page first, so none of its reads is counted.
     await page.goto('about:blank');
-    const reads: string[] = [];
-    page.on('request', (request) => {
-      const url = new URL(request.url());
-      if (request.method() === 'GET' && url.pathname.startsWith('/api/'))
-        reads.push(decodeURIComponent(url.pathname + url.search));
+    // The page as the service worker's copy of the index page is, without the answers a
+    // signed-in navigation is served with: the reads then start as the route matches.
+    await page.route(/\/pass-offs\?/, async (route) => {
+      if (route.request().resourceType() !== 'document') return route.fallback();
+      const response = await route.fetch();
+      const body = (await response.text()).replace(embeddedBlock, '');
+      await route.fulfill({ response, body });
     });
+    const reads = apiReadsOf(page);
     await page.goto(`${app.url}/pass-offs?ensemble=${ensemble!.id}&rung=1`);
     await expect
       .poll(() => page.locator('[role=row][row-index="0"]').count(), patient)
       .toBeGreaterThan(0);
     await page.waitForLoadState('networkidle');
     // The reads started as the route matched are the ones the screen takes: none asked twice.
-    const screenReads = [
-      '/api/ensembles?sort=name:asc&limit=500',
-      '/api/ladder',
-      `/api/ensembles/${ensemble!.id}`,
-      `/api/pass-offs?ensembleId=${ensemble!.id}&limit=1000&offset=0`,
-      `/api/analytics/students?ensembleId=${ensemble!.id}&limit=1000`,
-    ];
+    const screenReads = entryReadsOf(ensemble!.id);
     for (const read of screenReads) expect(reads.filter((each) => each === read)).toEqual([read]);
     // And they left before the screen existed: before the reads its own parts make as they start.
     const firstOwn = Math.min(reads.indexOf('/api/takes'), reads.indexOf('/api/school-years'));
     expect(firstOwn).toBeGreaterThan(0);
     for (const read of screenReads) expect(reads.indexOf(read)).toBeLessThan(firstOwn);
+    await context.close();
+  });
+
+  it('should be served with its first reads when signed in, and ask the server for none of them', async () => {
+    const [ensemble] = (await director.get('/api/ensembles?limit=1&sort=name:asc')).body.rows as {
+      id: number;
+    }[];
+    const address = `${app.url}/pass-offs?ensemble=${ensemble!.id}&rung=1`;
+    // Signed out: the plain page, which a browser may keep and revalidate.
+    const signedOut = await fetch(address);
+    expect(await signedOut.text()).not.toMatch(embeddedBlock);
+    expect(signedOut.headers.get('cache-control')).toBe('no-cache');
+
+    // No service worker: it would answer the navigation with its own copy of the plain page.
+    const { context } = await localOnlyContext(browser, { serviceWorkers: 'block' });
+    const page = await context.newPage();
+    await signInAs(page, app.url, demoEmail('director.hpms'));
+    await page.goto('about:blank');
+    const reads = apiReadsOf(page);
+    const served = await page.goto(address);
+    // Signed in: the user's own data, kept by no cache (RFC 9111 §5.2.2.5).
+    expect(served!.headers()['cache-control']).toBe('no-store');
+    expect(await served!.text()).toMatch(embeddedBlock);
+    await expect
+      .poll(() => page.locator('[role=row][row-index="0"]').count(), patient)
+      .toBeGreaterThan(0);
+    await page.waitForLoadState('networkidle');
+    for (const read of [
+      '/api/me',
+      '/api/district',
+      '/api/school-years',
+      ...entryReadsOf(ensemble!.id),
+    ])
+      expect(reads).not.toContain(read);
+    // The pages after the first came with it too.
+    expect(reads.filter((read) => read.startsWith('/api/pass-offs'))).toEqual([]);
+    // The data block is read once and taken out of the page.
+    expect(await page.locator('#tb-embedded-reads').count()).toBe(0);
     await context.close();
   });
 });

@@ -1,6 +1,12 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { chromium, type Browser, type BrowserContext, type Page } from 'playwright-core';
+import {
+  chromium,
+  type Browser,
+  type BrowserContext,
+  type BrowserContextOptions,
+  type Page,
+} from 'playwright-core';
 
 export const chromiumPath = process.env['CHROMIUM_PATH'] ?? '/usr/bin/chromium';
 
@@ -35,11 +41,13 @@ export async function launchBrowser(): Promise<Browser> {
  */
 export async function localOnlyContext(
   browser: Browser,
+  options: BrowserContextOptions = {},
 ): Promise<{ context: BrowserContext; outside: string[] }> {
   const context = await browser.newContext({
     viewport: { width: 1360, height: 860 },
     locale: 'en-US',
     timezoneId: 'America/Los_Angeles',
+    ...options,
   });
   const outside: string[] = [];
   await context.route('**/*', (route) => {
