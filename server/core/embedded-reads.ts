@@ -1,5 +1,10 @@
 import type { Request, Response } from 'express';
-import { embeddedReadsId, pagesAfter, type ScreenRead } from '@shared/api/entry-reads';
+import {
+  embeddedReadsId,
+  pagesAfter,
+  type EmbeddedRead,
+  type ScreenRead,
+} from '@shared/api/entry-reads';
 import { getActiveLadder } from '../ladder/ladder-service';
 import { listAttainment } from '../analytics/attainment-lists';
 import { getDistrict } from '../district/district-service';
@@ -14,11 +19,6 @@ import type { Database } from '../db/client';
 import type { Logger } from '../logger';
 import { HttpError } from './errors';
 import { can, type Actor, type Capability } from './policy';
-
-/** A read answered with the page: the read as the web app asks for it, and the API's answer. */
-export interface EmbeddedRead extends ScreenRead {
-  body: unknown;
-}
 
 type Query = Record<string, string>;
 

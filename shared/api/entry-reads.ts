@@ -9,6 +9,11 @@ export interface ScreenRead {
   paged?: boolean;
 }
 
+/** A read answered in the index page: the read as the web app asks for it, and the API's answer. */
+export interface EmbeddedRead extends ScreenRead {
+  body: unknown;
+}
+
 /** The id of the data block holding the answers the index page is served with. */
 export const embeddedReadsId = 'tb-embedded-reads';
 

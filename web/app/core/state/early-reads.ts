@@ -14,7 +14,15 @@ import { pagesAfter, type ScreenRead } from '@shared/api/entry-reads';
 import { LastVisit } from '../offline/last-visit';
 
 /** How long an early read waits for its screen before it is dropped rather than answered stale. */
-const keptFor = 20_000;
+export const keptFor = 20_000;
+
+/** The GET request of a read, as a screen's data class makes it (same URL, same parameter order). */
+export function readRequest(read: ScreenRead, context?: HttpContext): HttpRequest<unknown> {
+  return new HttpRequest('GET', read.url, {
+    params: new HttpParams({ fromObject: read.params ?? {} }),
+    ...(context && { context }),
+  });
+}
 
 /** Marks the early read itself, so the interceptor lets it through to the server. */
 const earlyRead = new HttpContextToken<boolean>(() => false);
@@ -36,10 +44,7 @@ export class EarlyReads {
 
   start(reads: readonly ScreenRead[]): void {
     for (const read of reads) {
-      const request = new HttpRequest('GET', read.url, {
-        params: new HttpParams({ fromObject: read.params ?? {} }),
-        context: new HttpContext().set(earlyRead, true),
-      });
+      const request = readRequest(read, new HttpContext().set(earlyRead, true));
       const key = request.urlWithParams;
       if (this.started.has(key)) continue;
       const answer = this.http.request(request).pipe(shareReplay());

@@ -1,21 +1,8 @@
-import {
-  HttpParams,
-  HttpRequest,
-  HttpResponse,
-  type HttpEvent,
-  type HttpInterceptorFn,
-} from '@angular/common/http';
 import { DOCUMENT, Injectable, inject } from '@angular/core';
-import { of, type Observable } from 'rxjs';
-import { embeddedReadsId, type ScreenRead } from '@shared/api/entry-reads';
-
-/** How long an answer that came with the page waits for its read before it is dropped as stale. */
-const keptFor = 20_000;
-
-/** One read answered in the page: the read, and the body the API gave for it. */
-export interface EmbeddedRead extends ScreenRead {
-  body: unknown;
-}
+import { HttpResponse, type HttpInterceptorFn, type HttpRequest } from '@angular/common/http';
+import { of } from 'rxjs';
+import { embeddedReadsId, type EmbeddedRead } from '@shared/api/entry-reads';
+import { keptFor, readRequest } from './early-reads';
 
 /**
  * Answers that came with the index page (a `<script type="application/json">` data block, HTML
@@ -37,17 +24,13 @@ export class EmbeddedReads {
     } catch {
       return;
     }
-    for (const read of reads) {
-      const request = new HttpRequest('GET', read.url, {
-        params: new HttpParams({ fromObject: read.params ?? {} }),
-      });
-      this.answers.set(request.urlWithParams, read.body);
-    }
+    for (const read of reads) this.answers.set(readRequest(read).urlWithParams, read.body);
+    // An answer not asked for soon is dropped rather than given stale (as an early read is).
     setTimeout(() => this.answers.clear(), keptFor);
   }
 
   /** The answer that came with the page for this request, if there is one not yet taken. */
-  take(request: HttpRequest<unknown>): Observable<HttpEvent<unknown>> | undefined {
+  take(request: HttpRequest<unknown>) {
     if (request.method !== 'GET' || request.responseType !== 'json') return undefined;
     const key = request.urlWithParams;
     if (!this.answers.has(key)) return undefined;
