@@ -64,3 +64,4 @@ export * as takes from '../practice/take-panel/takes';
 export * as takeRecorder from '../practice/take-panel/take-recorder';
 export * as takeJob from '../practice/take-panel/take-job';
 export * as takeAnalysisView from '../practice/take-panel/take-analysis-view';
+export * as takeSession from '../practice/take-panel/take-session';
