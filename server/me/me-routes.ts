@@ -4,6 +4,7 @@ import type { Me } from '@shared/api/me';
 import { actorOf, capabilitiesOf, seesAllSchools } from '../core/policy';
 import type { Services } from '../services';
 import { schoolsOf } from '../people/people-queries';
+import { noteSignedIn } from '../auth/signed-in-cookie';
 
 /** `GET /api/me`: who is signed in, their role and schools. */
 export function meRoutes({ db }: Services): Router {
@@ -21,6 +22,8 @@ export function meRoutes({ db }: Services): Router {
       studentId: actor.studentId,
       capabilities: capabilitiesOf(actor.role),
     };
+    // A session's user, named for the web app's copy of the last visit (not for a bearer token).
+    if (actor.via === 'session') noteSignedIn(request, response, actor.userId);
     response.json(me);
   });
   return router;

@@ -45,10 +45,40 @@ describe('Sign-in through the identity provider', () => {
       jar,
     );
     const landing = await jar.fetch(callbackUrl);
-    const setCookie = landing.headers.get('set-cookie') ?? '';
-    expect(setCookie).toMatch(/^tuttiboard\.sid=/);
-    expect(setCookie).toMatch(/HttpOnly/i);
-    expect(setCookie).toMatch(/SameSite=Lax/i);
+    const session = landing.headers
+      .getSetCookie()
+      .find((each) => each.startsWith('tuttiboard.sid='));
+    expect(session).toMatch(/HttpOnly/i);
+    expect(session).toMatch(/SameSite=Lax/i);
+  });
+
+  it('should name the signed-in user in a readable cookie, and clear it at sign-out', async () => {
+    const jar = new CookieJar();
+    const { callbackUrl } = await walkSignIn(
+      `${app.url}/auth/sign-in`,
+      demoEmail('director.hpms'),
+      jar,
+    );
+    const landing = await jar.fetch(callbackUrl);
+    const named = landing.headers
+      .getSetCookie()
+      .find((each) => each.startsWith('tuttiboard.user='));
+    // Readable by the page (no HttpOnly), as document.cookie exposes only such cookies (RFC 6265 §5.4).
+    expect(named).not.toMatch(/HttpOnly/i);
+    expect(named).toMatch(/SameSite=Lax/i);
+    const me = await jar.fetch(`${app.url}/api/me`);
+    const id = String(((await me.json()) as { id: number }).id);
+    expect(jar.get('tuttiboard.user', app.url)).toBe(id);
+    await jar.fetch(`${app.url}/auth/sign-out`, { method: 'POST', headers: { Origin: app.url } });
+    expect(jar.get('tuttiboard.user', app.url)).toBeUndefined();
+    expect(jar.get('tuttiboard.sid', app.url)).toBeUndefined();
+  });
+
+  it('should not set the readable cookie for a bearer token', async () => {
+    const token = await app.token(demoEmail('director.hpms'));
+    const response = await app.bearer(token).get('/api/me');
+    expect(response.status).toBe(200);
+    expect(String(response.headers['set-cookie'] ?? '')).not.toContain('tuttiboard.user');
   });
 
   it('should issue a new session id at sign-in when a session existed before', async () => {
