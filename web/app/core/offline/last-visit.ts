@@ -22,6 +22,15 @@ interface KeptUser {
 const userKey = 'signed-in-user';
 
 /**
+ * The user this browser's session belongs to, as the server names them in a cookie the page can
+ * read (`tuttiboard.user`, set at sign-in and on `/api/me`, cleared at sign-out); null when none.
+ */
+export function sessionUserId(cookies = document.cookie): number | null {
+  const match = /(?:^|;\s*)tuttiboard\.user=(\d+)(?:;|$)/.exec(cookies);
+  return match ? Number(match[1]) : null;
+}
+
+/**
  * What this device keeps of the signed-in user's last visit, in IndexedDB: the answers of the
  * reads a director or student needs with no network (their ensembles, students, the ladder,
  * pass-offs, their own progress). Every answer is kept under the user's id, a different user
@@ -81,6 +90,39 @@ export class LastVisit {
     const kept = await db.lib.get<KeptAnswer>(this.key(url), db.store).catch(() => undefined);
     if (kept) this.shownFrom.update((before) => Math.min(before ?? kept.keptAt, kept.keptAt));
     return kept;
+  }
+
+  /**
+   * The user kept on this device, only when the session's cookie names that same user: what a
+   * screen may paint before the server answers (the server's answer follows and decides).
+   */
+  async userOfSession(): Promise<unknown> {
+    const id = sessionUserId();
+    if (id === null) return undefined;
+    await this.ready;
+    const db = await this.open();
+    const kept = db
+      ? await db.lib.get<KeptUser>(userKey, db.store).catch(() => undefined)
+      : undefined;
+    if (kept?.id !== id) return undefined;
+    this.userId ??= id;
+    return kept.body;
+  }
+
+  /**
+   * The answer kept for the user the session names, to paint before the server answers; undefined
+   * when the device holds none or holds another user's. Not noted as shown from the device: the
+   * server's answer replaces it (an unreachable server is the interceptor's `recall`).
+   */
+  async keptForSession(url: string): Promise<unknown> {
+    const id = sessionUserId();
+    if (id === null) return undefined;
+    const db = await this.open();
+    if (!db) return undefined;
+    const user = await db.lib.get<KeptUser>(userKey, db.store).catch(() => undefined);
+    if (user?.id !== id) return undefined;
+    const kept = await db.lib.get<KeptAnswer>(`${id} ${url}`, db.store).catch(() => undefined);
+    return kept?.body;
   }
 
   /**

@@ -30,6 +30,30 @@ export interface ScreenRead {
   paged?: boolean;
 }
 
+/** The request of a screen read, as its data class makes it (its URL with the parameters). */
+function requestOf(read: ScreenRead, context?: HttpContext): HttpRequest<unknown> {
+  return new HttpRequest('GET', read.url, {
+    params: new HttpParams({ fromObject: read.params ?? {} }),
+    ...(context ? { context } : {}),
+  });
+}
+
+/** The reads of a paged list's pages after the first, as many as its first answer's `total` implies. */
+export function laterPages(read: ScreenRead, first: unknown): ScreenRead[] {
+  const limit = Number(read.params?.['limit']);
+  const total = (first as { total?: unknown } | null)?.total;
+  const pages: ScreenRead[] = [];
+  if (!(limit > 0) || typeof total !== 'number') return pages;
+  for (let offset = limit; offset < total; offset += limit)
+    pages.push({ url: read.url, params: { ...read.params, offset } });
+  return pages;
+}
+
+/** The key a screen read's answer is known by: its URL with its parameters, in their order. */
+export function readKey(read: ScreenRead): string {
+  return requestOf(read).urlWithParams;
+}
+
 /**
  * Reads a screen needs, started while its code is still loading (from the route's `canMatch`),
  * so their round trips overlap the code's instead of following it. The screen's own request for
@@ -47,10 +71,7 @@ export class EarlyReads {
 
   start(reads: readonly ScreenRead[]): void {
     for (const read of reads) {
-      const request = new HttpRequest('GET', read.url, {
-        params: new HttpParams({ fromObject: read.params ?? {} }),
-        context: new HttpContext().set(earlyRead, true),
-      });
+      const request = requestOf(read, new HttpContext().set(earlyRead, true));
       const key = request.urlWithParams;
       if (this.started.has(key)) continue;
       const answer = this.http.request(request).pipe(shareReplay());
@@ -72,13 +93,7 @@ export class EarlyReads {
 
   /** Starts the pages after the first that a list answer's `total` implies. */
   private startPages(read: ScreenRead, first: unknown): void {
-    const limit = Number(read.params?.['limit']);
-    const total = (first as { total?: unknown } | null)?.total;
-    if (!(limit > 0) || typeof total !== 'number') return;
-    const pages: ScreenRead[] = [];
-    for (let offset = limit; offset < total; offset += limit)
-      pages.push({ url: read.url, params: { ...read.params, offset } });
-    this.start(pages);
+    this.start(laterPages(read, first));
   }
 
   /** The early read of this request, if one was started and not yet taken. */

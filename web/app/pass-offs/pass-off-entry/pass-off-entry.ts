@@ -51,6 +51,7 @@ import { PassOffQueue } from '../pass-off-queue';
 import { StudentHistory } from '../student-history/student-history';
 import { EntryGrid } from './entry-grid';
 import { EnsembleSheet } from './ensemble-sheet';
+import { EntryDeviceCopy } from './entry-device-copy';
 import { entryEnsembleQuery } from './entry-reads';
 import { queueBanner } from './entry-sheet';
 import { SentTakes } from '../sent-takes';
@@ -91,7 +92,7 @@ import { createWrite } from '../../core/state/write';
     PastPassOffs,
     TouchEntry,
   ],
-  providers: [EntryDrafts, EnsembleSheet, SentTakes],
+  providers: [EntryDrafts, EntryDeviceCopy, EnsembleSheet, SentTakes],
   templateUrl: './pass-off-entry.html',
   styleUrl: './pass-off-entry.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -118,13 +119,18 @@ export class PassOffEntry {
   protected readonly today = localToday();
   private readonly ensembleList = this.ensembleData.listed(() => entryEnsembleQuery);
   private readonly inForce = this.ladderData.inForce();
-  // The page needs the ensembles and the ladder together: neither shows before both are read.
-  protected readonly ensembles = computed<Ensemble[] | null>(() =>
-    this.ensembleList.hasValue() && this.inForce.hasValue() ? this.ensembleList.value().rows : null,
+  private readonly deviceCopy = inject(EntryDeviceCopy);
+  /**
+   * The ensembles and the ladder together (neither shows before both are read): the server's
+   * answers once both are in, until then the copy this device kept of the last visit, if any.
+   */
+  private readonly setup = computed<{ ensembles: Ensemble[]; ladder: Ladder } | null>(() =>
+    this.ensembleList.hasValue() && this.inForce.hasValue()
+      ? { ensembles: this.ensembleList.value().rows, ladder: this.inForce.value() }
+      : this.deviceCopy.setup(),
   );
-  protected readonly ladder = computed<Ladder | null>(() =>
-    this.ensembleList.hasValue() && this.inForce.hasValue() ? this.inForce.value() : null,
-  );
+  protected readonly ensembles = computed(() => this.setup()?.ensembles ?? null);
+  protected readonly ladder = computed(() => this.setup()?.ladder ?? null);
   protected readonly setupError = computed(() => {
     const error = this.ensembleList.error() ?? this.inForce.error();
     return error ? errorMessage(error, 'The ensembles and the ladder could not be loaded.') : '';

@@ -1,0 +1,114 @@
+import { Injectable, inject, signal } from '@angular/core';
+import { attainmentRowSchema, type AttainmentRow } from '@shared/api/analytics';
+import {
+  ensembleDetailSchema,
+  ensembleSchema,
+  type Ensemble,
+  type EnsembleMember,
+} from '@shared/api/ensemble';
+import { ladderSchema, type Ladder } from '@shared/api/ladder';
+import { listResponseSchema } from '@shared/api/list';
+import { passOffSchema, type PassOff } from '@shared/api/pass-off';
+import { LastVisit } from '../../core/offline/last-visit';
+import { laterPages, readKey, type ScreenRead } from '../../core/state/early-reads';
+import { entryReads } from './entry-reads';
+
+const ensembleListSchema = listResponseSchema(ensembleSchema);
+const passOffListSchema = listResponseSchema(passOffSchema);
+const attainmentListSchema = listResponseSchema(attainmentRowSchema);
+
+/** An ensemble's sheet as this device last saw it. */
+export interface KeptSheet {
+  members: EnsembleMember[];
+  passOffs: PassOff[];
+  rungs: AttainmentRow[];
+}
+
+/** Where the pass-offs saved since the ensemble's last full read are kept, per ensemble. */
+const savedSinceKey = (ensembleId: number) => `pass-offs saved since the last read ${ensembleId}`;
+
+/**
+ * The entry screen's reads as this device kept them from the last visit (the answers the
+ * offline mode keeps), for the screen to paint before the server answers. Only the copy of the
+ * user the session names is read (`LastVisit.keptForSession`); the server's answers follow and
+ * replace it. A copy that no longer matches the shared schemas is not painted.
+ */
+@Injectable()
+export class EntryDeviceCopy {
+  private readonly lastVisit = inject(LastVisit);
+  private writes: Promise<void> = Promise.resolve();
+
+  /** The ensembles and the ladder in force as last seen, or null when the device has none. */
+  readonly setup = signal<{ ensembles: Ensemble[]; ladder: Ladder } | null>(null);
+
+  constructor() {
+    void this.readSetup();
+  }
+
+  private async readSetup(): Promise<void> {
+    const [ensembleRead, ladderRead] = entryReads(null);
+    const [ensembles, ladder] = await Promise.all([
+      this.kept(ensembleRead!, ensembleListSchema),
+      this.kept(ladderRead!, ladderSchema),
+    ]);
+    if (ensembles && ladder) this.setup.set({ ensembles: ensembles.rows, ladder });
+  }
+
+  /** The ensemble's seats, pass-offs (with those saved since) and rungs as last seen, or null. */
+  async sheet(ensembleId: number): Promise<KeptSheet | null> {
+    const [, , detailRead, firstPageRead, rungsRead] = entryReads(ensembleId);
+    const [detail, firstPage, rungs, saved] = await Promise.all([
+      this.kept(detailRead!, ensembleDetailSchema),
+      this.kept(firstPageRead!, passOffListSchema),
+      this.kept(rungsRead!, attainmentListSchema),
+      this.lastVisit.keptForSession(savedSinceKey(ensembleId)),
+    ]);
+    if (!detail || !firstPage || !rungs) return null;
+    const later = await Promise.all(
+      laterPages(firstPageRead!, firstPage).map((read) => this.kept(read, passOffListSchema)),
+    );
+    if (later.some((page) => page === null)) return null;
+    const savedSince = passOffSchema.array().safeParse(saved ?? []);
+    return {
+      members: detail.members,
+      passOffs: firstPage.rows.concat(
+        ...later.map((page) => page!.rows),
+        savedSince.success ? savedSince.data : [],
+      ),
+      rungs: rungs.rows,
+    };
+  }
+
+  /**
+   * Keeps pass-offs the server saved while the screen is open, so the next visit's first paint
+   * shows them before the ensemble is read again (the reads' own copies are as of the last read).
+   */
+  noteSaved(ensembleId: number, saved: readonly PassOff[]): Promise<void> {
+    // One after another, so two saves in quick succession both stay.
+    this.writes = this.writes.then(async () => {
+      const before = passOffSchema
+        .array()
+        .safeParse((await this.lastVisit.keptForSession(savedSinceKey(ensembleId))) ?? []);
+      const byId = new Map((before.success ? before.data : []).map((each) => [each.id, each]));
+      for (const passOff of saved) byId.set(passOff.id, passOff);
+      await this.lastVisit.keep(savedSinceKey(ensembleId), [...byId.values()]);
+    });
+    return this.writes;
+  }
+
+  /** Forgets the pass-offs saved since the last read: the server's full answer holds them now. */
+  readAgain(ensembleId: number): Promise<void> {
+    this.writes = this.writes.then(() => this.lastVisit.keep(savedSinceKey(ensembleId), []));
+    return this.writes;
+  }
+
+  private async kept<T>(
+    read: ScreenRead,
+    schema: { safeParse(body: unknown): { success: true; data: T } | { success: false } },
+  ): Promise<T | null> {
+    const body = await this.lastVisit.keptForSession(readKey(read));
+    if (body === undefined) return null;
+    const parsed = schema.safeParse(body);
+    return parsed.success ? parsed.data : null;
+  }
+}
