@@ -1,4 +1,4 @@
-import { Injectable, inject, signal } from '@angular/core';
+import { Injectable, inject } from '@angular/core';
 import { attainmentRowSchema, type AttainmentRow } from '@shared/api/analytics';
 import {
   ensembleDetailSchema,
@@ -24,6 +24,12 @@ export interface KeptSheet {
   rungs: AttainmentRow[];
 }
 
+/** The ensembles and the ladder in force as this device last saw them. */
+export interface KeptSetup {
+  ensembles: Ensemble[];
+  ladder: Ladder;
+}
+
 /** Where the pass-offs saved since the ensemble's last full read are kept, per ensemble. */
 const savedSinceKey = (ensembleId: number) => `pass-offs saved since the last read ${ensembleId}`;
 
@@ -33,29 +39,49 @@ const savedSinceKey = (ensembleId: number) => `pass-offs saved since the last re
  * user the session names is read (`LastVisit.keptForSession`); the server's answers follow and
  * replace it. A copy that no longer matches the shared schemas is not painted.
  */
-@Injectable()
+@Injectable({ providedIn: 'root' })
 export class EntryDeviceCopy {
   private readonly lastVisit = inject(LastVisit);
   private writes: Promise<void> = Promise.resolve();
+  /** Reads started as the route matched, each taken once by the screen. */
+  private started: {
+    setup?: Promise<KeptSetup | null>;
+    sheets: Map<number, Promise<KeptSheet | null>>;
+  } = { sheets: new Map() };
 
-  /** The ensembles and the ladder in force as last seen, or null when the device has none. */
-  readonly setup = signal<{ ensembles: Ensemble[]; ladder: Ladder } | null>(null);
-
-  constructor() {
-    void this.readSetup();
+  /**
+   * Starts reading the copy as the route is matched (`startEntryReads`), so the device's reads
+   * and their checks overlap the screen's code loading instead of following it.
+   */
+  start(ensembleId: number | null): void {
+    this.started = { setup: this.readSetup(), sheets: new Map() };
+    if (ensembleId) this.started.sheets.set(ensembleId, this.readSheet(ensembleId));
   }
 
-  private async readSetup(): Promise<void> {
+  /** The ensembles and the ladder in force as last seen, or null when the device has none. */
+  setup(): Promise<KeptSetup | null> {
+    const started = this.started.setup;
+    this.started.setup = undefined;
+    return started ?? this.readSetup();
+  }
+
+  /** The ensemble's seats, pass-offs (with those saved since) and rungs as last seen, or null. */
+  sheet(ensembleId: number): Promise<KeptSheet | null> {
+    const started = this.started.sheets.get(ensembleId);
+    this.started.sheets.delete(ensembleId);
+    return started ?? this.readSheet(ensembleId);
+  }
+
+  private async readSetup(): Promise<KeptSetup | null> {
     const [ensembleRead, ladderRead] = entryReads(null);
     const [ensembles, ladder] = await Promise.all([
       this.kept(ensembleRead!, ensembleListSchema),
       this.kept(ladderRead!, ladderSchema),
     ]);
-    if (ensembles && ladder) this.setup.set({ ensembles: ensembles.rows, ladder });
+    return ensembles && ladder ? { ensembles: ensembles.rows, ladder } : null;
   }
 
-  /** The ensemble's seats, pass-offs (with those saved since) and rungs as last seen, or null. */
-  async sheet(ensembleId: number): Promise<KeptSheet | null> {
+  private async readSheet(ensembleId: number): Promise<KeptSheet | null> {
     const [, , detailRead, firstPageRead, rungsRead] = entryReads(ensembleId);
     const [detail, firstPage, rungs, saved] = await Promise.all([
       this.kept(detailRead!, ensembleDetailSchema),

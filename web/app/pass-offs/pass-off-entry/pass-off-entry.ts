@@ -51,7 +51,7 @@ import { PassOffQueue } from '../pass-off-queue';
 import { StudentHistory } from '../student-history/student-history';
 import { EntryGrid } from './entry-grid';
 import { EnsembleSheet } from './ensemble-sheet';
-import { EntryDeviceCopy } from './entry-device-copy';
+import { EntryDeviceCopy, type KeptSetup } from './entry-device-copy';
 import { entryEnsembleQuery } from './entry-reads';
 import { queueBanner } from './entry-sheet';
 import { SentTakes } from '../sent-takes';
@@ -92,7 +92,7 @@ import { createWrite } from '../../core/state/write';
     PastPassOffs,
     TouchEntry,
   ],
-  providers: [EntryDrafts, EntryDeviceCopy, EnsembleSheet, SentTakes],
+  providers: [EntryDrafts, EnsembleSheet, SentTakes],
   templateUrl: './pass-off-entry.html',
   styleUrl: './pass-off-entry.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -119,7 +119,8 @@ export class PassOffEntry {
   protected readonly today = localToday();
   private readonly ensembleList = this.ensembleData.listed(() => entryEnsembleQuery);
   private readonly inForce = this.ladderData.inForce();
-  private readonly deviceCopy = inject(EntryDeviceCopy);
+  /** The ensembles and the ladder as this device last saw them, until the server answers. */
+  private readonly keptSetup = signal<KeptSetup | null>(null);
   /**
    * The ensembles and the ladder together (neither shows before both are read): the server's
    * answers once both are in, until then the copy this device kept of the last visit, if any.
@@ -127,7 +128,7 @@ export class PassOffEntry {
   private readonly setup = computed<{ ensembles: Ensemble[]; ladder: Ladder } | null>(() =>
     this.ensembleList.hasValue() && this.inForce.hasValue()
       ? { ensembles: this.ensembleList.value().rows, ladder: this.inForce.value() }
-      : this.deviceCopy.setup(),
+      : this.keptSetup(),
   );
   protected readonly ensembles = computed(() => this.setup()?.ensembles ?? null);
   protected readonly ladder = computed(() => this.setup()?.ladder ?? null);
@@ -209,6 +210,9 @@ export class PassOffEntry {
   );
 
   constructor() {
+    void inject(EntryDeviceCopy)
+      .setup()
+      .then((kept) => this.keptSetup.set(kept));
     this.queue.start(inject(CurrentUser).me()?.id ?? 0);
     this.drafts.heardOn.set(this.today);
     effect(() => {

@@ -1,0 +1,39 @@
+// Angular's packages are partially compiled: the JIT compiler links them outside a build.
+import '@angular/compiler';
+import { HttpParams } from '@angular/common/http';
+import { describe, expect, it } from 'vitest';
+import { sessionUserId } from '../offline/last-visit';
+import { laterPages, readKey } from './early-reads';
+
+describe('readKey and laterPages', () => {
+  it('should name each later page as the screen asks for it, so the device copy finds its answers', () => {
+    const first = { url: '/api/pass-offs', params: { ensembleId: 2, limit: 1000, offset: 0 } };
+    const pages = laterPages(first, { rows: [], total: 2300 });
+    expect(pages.map((page) => page.params?.['offset'])).toEqual([1000, 2000]);
+    // The screen's request for a page: the query with `limit` and `offset` after it.
+    const asked = new HttpParams({ fromObject: { ensembleId: 2, limit: 1000, offset: 2000 } });
+    expect(readKey(pages[1]!)).toBe(`/api/pass-offs?${asked.toString()}`);
+    expect(readKey(first)).toBe('/api/pass-offs?ensembleId=2&limit=1000&offset=0');
+  });
+
+  it('should ask for no later page when the first holds the whole list or tells no total', () => {
+    const first = { url: '/api/pass-offs', params: { ensembleId: 2, limit: 1000, offset: 0 } };
+    expect(laterPages(first, { rows: [], total: 1000 })).toEqual([]);
+    expect(laterPages(first, { rows: [] })).toEqual([]);
+    expect(laterPages({ url: '/api/ladder' }, { total: 5000 })).toEqual([]);
+  });
+});
+
+describe('sessionUserId', () => {
+  // The cookie string as document.cookie gives it: "name=value" pairs joined by "; " (RFC 6265 §5.4).
+  it('should read the signed-in user named by the server, among other cookies', () => {
+    expect(sessionUserId('theme=dark; tuttiboard.user=42; x=1')).toBe(42);
+    expect(sessionUserId('tuttiboard.user=7')).toBe(7);
+  });
+
+  it('should answer null when no cookie names the user, or another cookie only ends with the name', () => {
+    expect(sessionUserId('')).toBeNull();
+    expect(sessionUserId('other.tuttiboard.user=42')).toBeNull();
+    expect(sessionUserId('tuttiboard.user=abc')).toBeNull();
+  });
+});
