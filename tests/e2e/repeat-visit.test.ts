@@ -20,10 +20,10 @@ async function holdReads(page: Page) {
   const released = new Promise<void>((resolve) => (release = resolve));
   let held = 0;
   const handler = async (route: Route) => {
-    if (route.request().method() !== 'GET') return route.continue();
+    if (route.request().method() !== 'GET') return route.continue().catch(() => undefined);
     held += 1;
     await released;
-    await route.continue();
+    await route.continue().catch(() => undefined);
   };
   await page.route(screenReads, handler);
   return {
