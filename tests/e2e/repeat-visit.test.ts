@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import type { BrowserContext, Page, Route } from 'playwright-core';
+import type { Page, Route } from 'playwright-core';
 import { demoEmail } from '../support/test-app';
 import type { EnsembleDetail } from '@shared/api/ensemble';
 import { saveScreenshot, signInAs } from '../support/browser';
-import { useSmallScreens } from './small-screens-app';
+import { touchContext, useSmallScreens } from './small-screens-app';
 
 const started = useSmallScreens();
 const patient = { timeout: 30_000 };
@@ -36,17 +36,7 @@ async function holdReads(page: Page) {
 }
 
 /** A phone with no service worker, so every read the page makes is the page's own. */
-async function phone(): Promise<BrowserContext> {
-  return started.browser.newContext({
-    viewport: { width: 390, height: 844 },
-    deviceScaleFactor: 2,
-    isMobile: true,
-    hasTouch: true,
-    locale: 'en-US',
-    timezoneId: 'America/Los_Angeles',
-    serviceWorkers: 'block',
-  });
-}
+const phone = () => touchContext(started.browser, { width: 390, height: 844 }, 2, 'block');
 
 describe('A repeat visit to the pass-off screen', () => {
   it('should paint from the device copy before the server answers, then show the server answer', async () => {

@@ -26,14 +26,13 @@ describe('readKey and laterPages', () => {
 
 describe('sessionUserId', () => {
   // The cookie string as document.cookie gives it: "name=value" pairs joined by "; " (RFC 6265 §5.4).
-  it('should read the signed-in user named by the server, among other cookies', () => {
-    expect(sessionUserId('theme=dark; tuttiboard.user=42; x=1')).toBe(42);
-    expect(sessionUserId('tuttiboard.user=7')).toBe(7);
-  });
-
-  it('should answer null when no cookie names the user, or another cookie only ends with the name', () => {
-    expect(sessionUserId('')).toBeNull();
-    expect(sessionUserId('other.tuttiboard.user=42')).toBeNull();
-    expect(sessionUserId('tuttiboard.user=abc')).toBeNull();
+  it.each([
+    ['theme=dark; tuttiboard.user=42; x=1', 42],
+    ['tuttiboard.user=7', 7],
+    ['', null],
+    ['other.tuttiboard.user=42', null],
+    ['tuttiboard.user=abc', null],
+  ])('should read %j as the user %j', (cookies, user) => {
+    expect(sessionUserId(cookies)).toBe(user);
   });
 });

@@ -1,21 +1,13 @@
 import { Injectable, inject } from '@angular/core';
-import { attainmentRowSchema, type AttainmentRow } from '@shared/api/analytics';
-import {
-  ensembleDetailSchema,
-  ensembleSchema,
-  type Ensemble,
-  type EnsembleMember,
-} from '@shared/api/ensemble';
+import type { AttainmentRow } from '@shared/api/analytics';
+import { ensembleDetailSchema, type Ensemble, type EnsembleMember } from '@shared/api/ensemble';
 import { ladderSchema, type Ladder } from '@shared/api/ladder';
-import { listResponseSchema } from '@shared/api/list';
 import { passOffSchema, type PassOff } from '@shared/api/pass-off';
 import { LastVisit } from '../../core/offline/last-visit';
 import { laterPages, readKey, type ScreenRead } from '../../core/state/early-reads';
+import { ensembleListSchema } from '../../ensembles/ensemble-data';
+import { attainmentListSchema, passOffListSchema } from '../pass-off-data';
 import { entryReads } from './entry-reads';
-
-const ensembleListSchema = listResponseSchema(ensembleSchema);
-const passOffListSchema = listResponseSchema(passOffSchema);
-const attainmentListSchema = listResponseSchema(attainmentRowSchema);
 
 /** An ensemble's sheet as this device last saw it. */
 export interface KeptSheet {
