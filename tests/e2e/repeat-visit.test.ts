@@ -60,8 +60,8 @@ describe('A repeat visit to the pass-off screen', () => {
     const code = (await asked.getAttribute('data-code'))!;
     const card = page.locator(`[data-testid=touch-scale][data-code="${code}"]`);
     const keptState = await card.getByTestId('touch-state').innerText();
-    // The device keeps the answers as they arrive (IndexedDB, written after each answer).
-    await page.waitForTimeout(1000);
+    // The device keeps the answers once the page is idle (IndexedDB, within two seconds each).
+    await page.waitForTimeout(3000);
 
     // Meanwhile, another device records a pass-off of this cell on the server.
     const heardOn = new Date(Date.now() - 86_400_000).toISOString().slice(0, 10);
@@ -104,7 +104,7 @@ describe('A repeat visit to the pass-off screen', () => {
     await page.goto(sheetUrl);
     await page.locator('[data-testid=touch-scale]').first().waitFor(patient);
     await page.waitForLoadState('networkidle');
-    await page.waitForTimeout(1000);
+    await page.waitForTimeout(3000);
 
     // The browser's session now names someone else (as after another user signs in here).
     const me = (await director.get('/api/me')).body as { id: number };

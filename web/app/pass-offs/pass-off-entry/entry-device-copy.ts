@@ -4,7 +4,7 @@ import { ensembleDetailSchema, type Ensemble, type EnsembleMember } from '@share
 import { ladderSchema, type Ladder } from '@shared/api/ladder';
 import { passOffSchema, type PassOff } from '@shared/api/pass-off';
 import { LastVisit } from '../../core/offline/last-visit';
-import { laterPages, readKey, type ScreenRead } from '../../core/state/early-reads';
+import { laterPages, readKey } from '../../core/state/early-reads';
 import { ensembleListSchema } from '../../ensembles/ensemble-data';
 import { attainmentListSchema, passOffListSchema } from '../pass-off-data';
 import { entryReads } from './entry-reads';
@@ -66,34 +66,41 @@ export class EntryDeviceCopy {
 
   private async readSetup(): Promise<KeptSetup | null> {
     const [ensembleRead, ladderRead] = entryReads(null);
-    const [ensembles, ladder] = await Promise.all([
-      this.kept(ensembleRead!, ensembleListSchema),
-      this.kept(ladderRead!, ladderSchema),
+    const [ensembles, ladder] = await this.lastVisit.keptForSession([
+      readKey(ensembleRead!),
+      readKey(ladderRead!),
     ]);
-    return ensembles && ladder ? { ensembles: ensembles.rows, ladder } : null;
+    const list = ensembleListSchema.safeParse(ensembles);
+    const inForce = ladderSchema.safeParse(ladder);
+    return list.success && inForce.success
+      ? { ensembles: list.data.rows, ladder: inForce.data }
+      : null;
   }
 
   private async readSheet(ensembleId: number): Promise<KeptSheet | null> {
     const [, , detailRead, firstPageRead, rungsRead] = entryReads(ensembleId);
-    const [detail, firstPage, rungs, saved] = await Promise.all([
-      this.kept(detailRead!, ensembleDetailSchema),
-      this.kept(firstPageRead!, passOffListSchema),
-      this.kept(rungsRead!, attainmentListSchema),
-      this.lastVisit.keptForSession(savedSinceKey(ensembleId)),
+    // The pages after the first as many as the first's total says; read together, checked after.
+    const [detailBody, firstBody, rungsBody, savedBody] = await this.lastVisit.keptForSession([
+      readKey(detailRead!),
+      readKey(firstPageRead!),
+      readKey(rungsRead!),
+      savedSinceKey(ensembleId),
     ]);
-    if (!detail || !firstPage || !rungs) return null;
-    const later = await Promise.all(
-      laterPages(firstPageRead!, firstPage).map((read) => this.kept(read, passOffListSchema)),
-    );
-    if (later.some((page) => page === null)) return null;
-    const savedSince = passOffSchema.array().safeParse(saved ?? []);
+    const later = laterPages(firstPageRead!, firstBody);
+    const laterBodies = later.length
+      ? await this.lastVisit.keptForSession(later.map((read) => readKey(read)))
+      : [];
+    const detail = ensembleDetailSchema.safeParse(detailBody);
+    const rungs = attainmentListSchema.safeParse(rungsBody);
+    const pages = [firstBody, ...laterBodies].map((body) => passOffListSchema.safeParse(body));
+    if (!detail.success || !rungs.success || pages.some((page) => !page.success)) return null;
+    const savedSince = passOffSchema.array().safeParse(savedBody ?? []);
     return {
-      members: detail.members,
-      passOffs: firstPage.rows.concat(
-        ...later.map((page) => page!.rows),
-        savedSince.success ? savedSince.data : [],
-      ),
-      rungs: rungs.rows,
+      members: detail.data.members,
+      passOffs: pages
+        .flatMap((page) => (page.success ? page.data.rows : []))
+        .concat(savedSince.success ? savedSince.data : []),
+      rungs: rungs.data.rows,
     };
   }
 
@@ -106,7 +113,7 @@ export class EntryDeviceCopy {
     this.writes = this.writes.then(async () => {
       const before = passOffSchema
         .array()
-        .safeParse((await this.lastVisit.keptForSession(savedSinceKey(ensembleId))) ?? []);
+        .safeParse((await this.lastVisit.keptForSession([savedSinceKey(ensembleId)]))[0] ?? []);
       const byId = new Map((before.success ? before.data : []).map((each) => [each.id, each]));
       for (const passOff of saved) byId.set(passOff.id, passOff);
       await this.lastVisit.keep(savedSinceKey(ensembleId), [...byId.values()]);
@@ -118,15 +125,5 @@ export class EntryDeviceCopy {
   readAgain(ensembleId: number): Promise<void> {
     this.writes = this.writes.then(() => this.lastVisit.keep(savedSinceKey(ensembleId), []));
     return this.writes;
-  }
-
-  private async kept<T>(
-    read: ScreenRead,
-    schema: { safeParse(body: unknown): { success: true; data: T } | { success: false } },
-  ): Promise<T | null> {
-    const body = await this.lastVisit.keptForSession(readKey(read));
-    if (body === undefined) return null;
-    const parsed = schema.safeParse(body);
-    return parsed.success ? parsed.data : null;
   }
 }
