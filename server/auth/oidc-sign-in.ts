@@ -10,6 +10,7 @@ import type { Logger } from '../logger';
 import { findUserByEmail } from '../people/people-queries';
 import { recordAudit } from '../core/audit';
 import { plainPage } from './plain-page';
+import { clearSignedIn, noteSignedIn } from './signed-in-cookie';
 import { districtIdentity } from '../district/district-queries';
 
 const strategyName = 'district-oidc';
@@ -203,6 +204,7 @@ function signInRouter(parts: SignInParts): Router {
         // req.logIn regenerates the session, so a session id planted before sign-in is dropped.
         request.logIn(user, (loginError) => {
           if (loginError) return next(loginError);
+          noteSignedIn(request, response, user.userId);
           response.redirect(returnTo);
         });
       },
@@ -215,6 +217,7 @@ function signInRouter(parts: SignInParts): Router {
       if (logoutError) return next(logoutError);
       request.session.destroy(() => {
         response.clearCookie(sessionCookieName);
+        clearSignedIn(response);
         const signedOut = `${publicOrigin(config, request)}/signed-out`;
         discover()
           .then((configuration) => {

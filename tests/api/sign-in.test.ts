@@ -37,18 +37,33 @@ describe('Sign-in through the identity provider', () => {
     );
   });
 
-  it('should set an httpOnly SameSite cookie of its own name when signing in', async () => {
+  it('should set an httpOnly SameSite cookie of its own name when signing in, and a readable one naming the user', async () => {
     const jar = new CookieJar();
     const { callbackUrl } = await walkSignIn(
       `${app.url}/auth/sign-in`,
       demoEmail('technician'),
       jar,
     );
-    const landing = await jar.fetch(callbackUrl);
-    const setCookie = landing.headers.get('set-cookie') ?? '';
-    expect(setCookie).toMatch(/^tuttiboard\.sid=/);
-    expect(setCookie).toMatch(/HttpOnly/i);
-    expect(setCookie).toMatch(/SameSite=Lax/i);
+    const cookies = (await jar.fetch(callbackUrl)).headers.getSetCookie();
+    const session = cookies.find((each) => each.startsWith('tuttiboard.sid='));
+    expect(session).toMatch(/HttpOnly/i);
+    expect(session).toMatch(/SameSite=Lax/i);
+    const named = cookies.find((each) => each.startsWith('tuttiboard.user='));
+    // Readable by the page (no HttpOnly), as document.cookie exposes only such cookies (RFC 6265 §5.4).
+    expect(named).not.toMatch(/HttpOnly/i);
+    expect(named).toMatch(/SameSite=Lax/i);
+    const me = (await (await jar.fetch(`${app.url}/api/me`)).json()) as { id: number };
+    expect(jar.get('tuttiboard.user', app.url)).toBe(String(me.id));
+    await jar.fetch(`${app.url}/auth/sign-out`, { method: 'POST', headers: { Origin: app.url } });
+    expect(jar.get('tuttiboard.user', app.url)).toBeUndefined();
+    expect(jar.get('tuttiboard.sid', app.url)).toBeUndefined();
+  });
+
+  it('should not set the readable cookie for a bearer token', async () => {
+    const token = await app.token(demoEmail('director.hpms'));
+    const response = await app.bearer(token).get('/api/me');
+    expect(response.status).toBe(200);
+    expect(String(response.headers['set-cookie'] ?? '')).not.toContain('tuttiboard.user');
   });
 
   it('should issue a new session id at sign-in when a session existed before', async () => {

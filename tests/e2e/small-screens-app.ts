@@ -28,9 +28,11 @@ export function touchContext(
   browser: Browser,
   viewport: { width: number; height: number },
   deviceScaleFactor?: number,
+  serviceWorkers: 'allow' | 'block' = 'allow',
 ): Promise<BrowserContext> {
   return browser.newContext({
     viewport,
+    serviceWorkers,
     ...(deviceScaleFactor ? { deviceScaleFactor } : {}),
     isMobile: true,
     hasTouch: true,

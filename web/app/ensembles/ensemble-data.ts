@@ -12,7 +12,7 @@ import {
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import { parsedWith } from '../core/parse';
 
-const ensembleListSchema = listResponseSchema(ensembleSchema);
+export const ensembleListSchema = listResponseSchema(ensembleSchema);
 
 /** Reads and writes ensembles through `/api/ensembles`. */
 @Injectable({ providedIn: 'root' })

@@ -17,8 +17,8 @@ import { parsedWith } from '../core/parse';
 import { allPages } from './all-pages';
 import { passOffPageSize, rungRowsLimit } from '@shared/api/entry-reads';
 
-const passOffListSchema = listResponseSchema(passOffSchema);
-const attainmentListSchema = listResponseSchema(attainmentRowSchema);
+export const passOffListSchema = listResponseSchema(passOffSchema);
+export const attainmentListSchema = listResponseSchema(attainmentRowSchema);
 
 /** Reads and records pass-offs, and their recordings, through `/api/pass-offs`. */
 @Injectable({ providedIn: 'root' })

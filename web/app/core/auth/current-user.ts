@@ -3,11 +3,13 @@ import { Injectable, computed, inject, signal } from '@angular/core';
 import { firstValueFrom } from 'rxjs';
 import type { Capability } from '@shared/api/capabilities';
 import type { Me } from '@shared/api/me';
+import { LastVisit } from '../offline/last-visit';
 
 /** The signed-in user, loaded once from `/api/me` and shared by the whole app. */
 @Injectable({ providedIn: 'root' })
 export class CurrentUser {
   private readonly http = inject(HttpClient);
+  private readonly lastVisit = inject(LastVisit);
   private readonly state = signal<Me | null>(null);
   private loading: Promise<Me | null> | null = null;
 
@@ -20,24 +22,52 @@ export class CurrentUser {
     return this.capabilities().has(capability);
   }
 
-  /** Loads the user; null when nobody is signed in. */
+  /**
+   * Loads the user; null when nobody is signed in. The user this device kept from the last visit
+   * answers first when the session's cookie names them (the app paints without waiting for the
+   * network); `/api/me` is asked every time and its answer replaces it, or, at 401, sends the
+   * browser to sign in (the session-expired interceptor).
+   */
   load(): Promise<Me | null> {
+    if (!this.loading) {
+      const live = this.fromServer();
+      const loading = Promise.race([live, this.fromDevice().then((me) => me ?? live)]);
+      this.loading = loading;
+      // A failed read is asked again by the next caller.
+      live.catch(() => {
+        if (this.loading === loading) this.loading = null;
+      });
+    }
+    return this.loading;
+  }
+
+  private fromServer(): Promise<Me | null> {
     // The schema is imported lazily so zod stays out of the initial bundle.
-    this.loading ??= Promise.all([
-      firstValueFrom(this.http.get('/api/me')),
-      import('@shared/api/me'),
-    ])
+    return Promise.all([firstValueFrom(this.http.get('/api/me')), import('@shared/api/me')])
       .then(([body, { meSchema }]) => {
         const me = meSchema.parse(body);
+        const shown = this.state();
         this.state.set(me);
+        // Never another user's screen: the page painted for the kept user starts again.
+        if (shown && shown.id !== me.id) location.reload();
         return me;
       })
       .catch((error: unknown) => {
-        this.loading = null;
         if (error instanceof HttpErrorResponse && error.status === 401) return null;
         throw error;
       });
-    return this.loading;
+  }
+
+  /** The user kept on this device for the session's user, or null. */
+  private async fromDevice(): Promise<Me | null> {
+    const body = await this.lastVisit.userOfSession();
+    if (body === undefined) return null;
+    const { meSchema } = await import('@shared/api/me');
+    const kept = meSchema.safeParse(body);
+    if (!kept.success) return null;
+    // The server's answer may already be in: it stands.
+    if (this.state() === null) this.state.set(kept.data);
+    return this.state();
   }
 
   /** Set once the user asks to sign out: the answers still in flight then are 401s by design. */

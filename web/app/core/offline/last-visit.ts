@@ -21,6 +21,24 @@ interface KeptUser {
 
 const userKey = 'signed-in-user';
 
+/** Settles when the browser is idle (`requestIdleCallback`, at most two seconds on), or soon. */
+function whenIdle(): Promise<void> {
+  return new Promise((resolve) =>
+    typeof requestIdleCallback === 'function'
+      ? requestIdleCallback(() => resolve(), { timeout: 2000 })
+      : setTimeout(resolve, 0),
+  );
+}
+
+/**
+ * The user this browser's session belongs to, as the server names them in a cookie the page can
+ * read (`tuttiboard.user`, set at sign-in and on `/api/me`, cleared at sign-out); null when none.
+ */
+export function sessionUserId(cookies = document.cookie): number | null {
+  const match = /(?:^|;\s*)tuttiboard\.user=(\d+)(?:;|$)/.exec(cookies);
+  return match ? Number(match[1]) : null;
+}
+
 /**
  * What this device keeps of the signed-in user's last visit, in IndexedDB: the answers of the
  * reads a director or student needs with no network (their ensembles, students, the ladder,
@@ -63,8 +81,13 @@ export class LastVisit {
     return kept.body;
   }
 
-  /** Keeps an answer for the signed-in user. */
+  /**
+   * Keeps an answer for the signed-in user. Written when the page is next idle (within two
+   * seconds): a large answer's copy into IndexedDB then neither holds up the screen drawing it
+   * nor queues the device's reads of a first paint behind its write transaction.
+   */
   async keep(url: string, body: unknown): Promise<void> {
+    await whenIdle();
     await this.ready;
     const db = await this.open();
     if (!db || this.userId === null) return;
@@ -81,6 +104,42 @@ export class LastVisit {
     const kept = await db.lib.get<KeptAnswer>(this.key(url), db.store).catch(() => undefined);
     if (kept) this.shownFrom.update((before) => Math.min(before ?? kept.keptAt, kept.keptAt));
     return kept;
+  }
+
+  /**
+   * The user kept on this device, only when the session's cookie names that same user: what a
+   * screen may paint before the server answers (the server's answer follows and decides).
+   */
+  async userOfSession(): Promise<unknown> {
+    const id = sessionUserId();
+    if (id === null) return undefined;
+    await this.ready;
+    const db = await this.open();
+    const kept = db
+      ? await db.lib.get<KeptUser>(userKey, db.store).catch(() => undefined)
+      : undefined;
+    if (kept?.id !== id) return undefined;
+    this.userId ??= id;
+    return kept.body;
+  }
+
+  /**
+   * The answers kept for the user the session names, to paint before the server answers, read
+   * in one IndexedDB transaction; each undefined when the device holds none, all when it holds
+   * another user's. Not noted as shown from the device: the server's answers replace them (an
+   * unreachable server is the interceptor's `recall`).
+   */
+  async keptForSession(urls: readonly string[]): Promise<unknown[]> {
+    const none = urls.map(() => undefined);
+    const id = sessionUserId();
+    if (id === null) return none;
+    const db = await this.open();
+    if (!db) return none;
+    const [user, ...kept] = await db.lib
+      .getMany<unknown>([userKey, ...urls.map((url) => `${id} ${url}`)], db.store)
+      .catch(() => [undefined, ...none]);
+    if ((user as KeptUser | undefined)?.id !== id) return none;
+    return kept.map((each) => (each as KeptAnswer | undefined)?.body);
   }
 
   /**

@@ -24,6 +24,11 @@ export function readRequest(read: ScreenRead, context?: HttpContext): HttpReques
   });
 }
 
+/** The key a screen read's answer is known by: its URL with its parameters, in their order. */
+export function readKey(read: ScreenRead): string {
+  return readRequest(read).urlWithParams;
+}
+
 /** Marks the early read itself, so the interceptor lets it through to the server. */
 const earlyRead = new HttpContextToken<boolean>(() => false);
 

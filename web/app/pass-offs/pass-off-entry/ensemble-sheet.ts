@@ -1,11 +1,13 @@
 import { Injectable, computed, inject, signal } from '@angular/core';
 import { forkJoin } from 'rxjs';
+import type { EnsembleMember } from '@shared/api/ensemble';
 import type { PassOff } from '@shared/api/pass-off';
 import { errorMessage } from '../../core/parse';
 import { EnsembleData } from '../../ensembles/ensemble-data';
 import type { EntryRow } from '../entry-columns';
 import { cellKey } from '../entry-cells';
 import { PassOffData } from '../pass-off-data';
+import { EntryDeviceCopy } from './entry-device-copy';
 import { membersToRows, passOffsByCell } from './entry-sheet';
 
 /** How long after a save the rung column is read again, so a burst of saves costs one read. */
@@ -19,6 +21,7 @@ const rungRefreshPause = 800;
 export class EnsembleSheet {
   private readonly ensembleData = inject(EnsembleData);
   private readonly passOffData = inject(PassOffData);
+  private readonly deviceCopy = inject(EntryDeviceCopy);
   private ensembleId: number | null = null;
   private rungRefresh: ReturnType<typeof setTimeout> | undefined;
   private readonly rungs = signal<ReadonlyMap<number, number>>(new Map());
@@ -43,7 +46,11 @@ export class EnsembleSheet {
     [...this.existing().values()].reduce((sum, list) => sum + list.length, 0),
   );
 
-  /** Loads an ensemble's students and every pass-off they have (or clears the sheet). */
+  /**
+   * Loads an ensemble's students and every pass-off they have (or clears the sheet): painted
+   * first from this device's copy of the last visit when it holds one, then from the server's
+   * answer, which replaces it (and is never replaced by the copy arriving late).
+   */
   load(ensembleId: number | null): void {
     this.ensembleId = ensembleId;
     this.rows.set(null);
@@ -52,19 +59,41 @@ export class EnsembleSheet {
     this.rungsLoaded.set(false);
     this.error.set('');
     if (!ensembleId) return;
+    let answered = false;
+    this.deviceCopy.sheet(ensembleId).then(
+      (kept) => {
+        if (!kept || answered || this.ensembleId !== ensembleId) return;
+        this.show(kept.members, kept.passOffs);
+        this.rungs.set(new Map(kept.rungs.map((row) => [row.id, row.rung])));
+        this.rungsLoaded.set(true);
+      },
+      () => undefined,
+    );
     // Read on command for the chosen ensemble; an answer for one no longer chosen is dropped.
     forkJoin([this.ensembleData.get(ensembleId), this.passOffData.all({ ensembleId })]).subscribe({
       next: ([detail, passOffs]) => {
+        answered = true;
         if (this.ensembleId !== ensembleId) return;
-        const { rows, instruments } = membersToRows(detail.members);
-        this.instruments.set(instruments);
-        this.existing.set(passOffsByCell(passOffs));
-        this.rows.set(rows);
+        this.show(detail.members, passOffs);
+        void this.deviceCopy.readAgain(ensembleId);
         this.refreshRungs(ensembleId);
       },
-      error: (error: unknown) =>
-        this.error.set(errorMessage(error, 'The ensemble could not be loaded.')),
+      error: (error: unknown) => {
+        answered = true;
+        if (this.ensembleId !== ensembleId) return;
+        // The server refused or failed: nothing painted from the device stays.
+        this.rows.set(null);
+        this.existing.set(new Map());
+        this.error.set(errorMessage(error, 'The ensemble could not be loaded.'));
+      },
     });
+  }
+
+  private show(members: readonly EnsembleMember[], passOffs: readonly PassOff[]): void {
+    const { rows, instruments } = membersToRows(members);
+    this.instruments.set(instruments);
+    this.existing.set(passOffsByCell(passOffs));
+    this.rows.set(rows);
   }
 
   /** Takes in pass-offs as the server recorded them; answers the students they belong to. */
@@ -75,6 +104,9 @@ export class EnsembleSheet {
     for (const passOff of saved) byId.set(passOff.id, passOff);
     this.existing.set(passOffsByCell([...byId.values()]));
     const students = new Set(saved.map((passOff) => passOff.studentId));
+    const seated = new Set((this.rows() ?? []).map((row) => row.studentId));
+    const ours = saved.filter((passOff) => seated.has(passOff.studentId));
+    if (this.ensembleId && ours.length) void this.deviceCopy.noteSaved(this.ensembleId, ours);
     if (this.rows()?.some((row) => students.has(row.studentId))) this.refreshRungsSoon();
     return students;
   }

@@ -1,4 +1,4 @@
-import { inject } from '@angular/core';
+import { Injector, inject } from '@angular/core';
 import { Router, type CanMatchFn } from '@angular/router';
 import { CurrentUser } from '../../core/auth/current-user';
 import { entryReads } from '@shared/api/entry-reads';
@@ -15,6 +15,13 @@ export const startEntryReads: CanMatchFn = () => {
     .load()
     .catch(() => undefined);
   const query = inject(Router).currentNavigation()?.extractedUrl.queryParams ?? {};
-  inject(EarlyReads).start(entryReads(Number(query['ensemble']) || null));
+  const ensembleId = Number(query['ensemble']) || null;
+  inject(EarlyReads).start(entryReads(ensembleId));
+  // The device's copy of the last visit is read beside them (its code, with the shared schemas
+  // that check it, loads apart so the first bundle stays small), for the screen's first paint.
+  const injector = inject(Injector);
+  import('./entry-device-copy')
+    .then(({ EntryDeviceCopy }) => injector.get(EntryDeviceCopy).start(ensembleId))
+    .catch(() => undefined);
   return true;
 };

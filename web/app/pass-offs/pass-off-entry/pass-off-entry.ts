@@ -53,6 +53,7 @@ import { StudentHistory } from '../student-history/student-history';
 import { EntryGrid } from './entry-grid';
 import { EnsembleSheet } from './ensemble-sheet';
 import { entryEnsembleQuery } from '@shared/api/entry-reads';
+import { EntryDeviceCopy, type KeptSetup } from './entry-device-copy';
 import { queueBanner } from './entry-sheet';
 import { SentTakes } from '../sent-takes';
 import { TouchEntry, type TouchCell } from '../touch-entry/touch-entry';
@@ -119,13 +120,19 @@ export class PassOffEntry {
   protected readonly today = localToday();
   private readonly ensembleList = this.ensembleData.listed(() => entryEnsembleQuery);
   private readonly inForce = this.ladderData.inForce();
-  // The page needs the ensembles and the ladder together: neither shows before both are read.
-  protected readonly ensembles = computed<Ensemble[] | null>(() =>
-    this.ensembleList.hasValue() && this.inForce.hasValue() ? this.ensembleList.value().rows : null,
+  /** The ensembles and the ladder as this device last saw them, until the server answers. */
+  private readonly keptSetup = signal<KeptSetup | null>(null);
+  /**
+   * The ensembles and the ladder together (neither shows before both are read): the server's
+   * answers once both are in, until then the copy this device kept of the last visit, if any.
+   */
+  private readonly setup = computed<{ ensembles: Ensemble[]; ladder: Ladder } | null>(() =>
+    this.ensembleList.hasValue() && this.inForce.hasValue()
+      ? { ensembles: this.ensembleList.value().rows, ladder: this.inForce.value() }
+      : this.keptSetup(),
   );
-  protected readonly ladder = computed<Ladder | null>(() =>
-    this.ensembleList.hasValue() && this.inForce.hasValue() ? this.inForce.value() : null,
-  );
+  protected readonly ensembles = computed(() => this.setup()?.ensembles ?? null);
+  protected readonly ladder = computed(() => this.setup()?.ladder ?? null);
   protected readonly setupError = computed(() => {
     const error = this.ensembleList.error() ?? this.inForce.error();
     return error ? errorMessage(error, 'The ensembles and the ladder could not be loaded.') : '';
@@ -204,6 +211,9 @@ export class PassOffEntry {
   );
 
   constructor() {
+    void inject(EntryDeviceCopy)
+      .setup()
+      .then((kept) => this.keptSetup.set(kept));
     this.queue.start(inject(CurrentUser).me()?.id ?? 0);
     this.drafts.heardOn.set(this.today);
     effect(() => {

@@ -87,9 +87,18 @@ export class TouchEntry {
   /** Emits the cell whose note, takes and past pass-offs were asked for. */
   readonly openCell = output<TouchCell>();
 
+  /**
+   * The student shown: the same student when the rows are read again (the server's answer after
+   * the device's copy, a rung refresh), so the card under the director's finger stays theirs.
+   */
   protected readonly index = linkedSignal<readonly EntryRow[], number>({
     source: this.rows,
-    computation: (rows, previous) => Math.min(previous?.value ?? 0, Math.max(rows.length - 1, 0)),
+    computation: (rows, previous) => {
+      const shown = previous ? previous.source[previous.value]?.studentId : undefined;
+      const same = rows.findIndex((row) => row.studentId === shown);
+      if (same >= 0) return same;
+      return Math.min(previous?.value ?? 0, Math.max(rows.length - 1, 0));
+    },
   });
   protected readonly student = computed(() => this.rows()[this.index()] ?? null);
   /** The requirement whose number pad is open, if any. */
