@@ -11,14 +11,18 @@ import {
 } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { FormControl, ReactiveFormsModule } from '@angular/forms';
-import { MatFormFieldModule, type SubscriptSizing } from '@angular/material/form-field';
+import {
+  MatFormFieldModule,
+  type MatFormFieldAppearance,
+  type SubscriptSizing,
+} from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import type { FilterChoice } from '../grid/filter-select/filter-select';
 import { fieldMessage } from './record-form';
 
 /**
- * A field of a form: the outlined form field, its label, the `matInput` (or, given `choices`, the
+ * A field of a form: the form field (outlined unless `appearance` says otherwise), its label, the `matInput` (or, given `choices`, the
  * `mat-select`), an optional hint, and under it the field's message. A record form binds
  * `control` and the message is `fieldMessage()` (the shared schema's words, or the API's field
  * error); a dialog that keeps its values in signals binds `[(value)]` instead, and its own check
@@ -32,7 +36,7 @@ import { fieldMessage } from './record-form';
   selector: 'tb-field',
   imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatSelectModule],
   template: `
-    <mat-form-field appearance="outline" [subscriptSizing]="subscriptSizing()">
+    <mat-form-field [appearance]="appearance()" [subscriptSizing]="subscriptSizing()">
       <mat-label>{{ label() }}</mat-label>
       @if (prefix(); as prefix) {
         <span matTextPrefix>{{ prefix }}&nbsp;</span>
@@ -119,6 +123,8 @@ export class Field<T = unknown> implements DoCheck {
   readonly inputMode = input<string | null>(null);
   /** The earliest value of a date input (HTML, "min" attribute). */
   readonly min = input<string | null>(null);
+  /** 'fill' for a field in a bar of choices above a preview, rather than in a form. */
+  readonly appearance = input<MatFormFieldAppearance>('outline');
   /** 'dynamic' where the field has no room kept for a message under it (dense rows, tables). */
   readonly subscriptSizing = input<SubscriptSizing>('fixed');
   /** The browser's autofill hint (HTML, "autocomplete" attribute): 'organization', 'tel'. */
