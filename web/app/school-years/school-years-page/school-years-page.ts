@@ -64,8 +64,8 @@ export class SchoolYearsPage {
     this.draft.set(null);
   }
 
-  protected change(field: 'name' | 'startsOn' | 'endsOn', value: string): void {
-    this.draft.update((draft) => (draft ? { ...draft, [field]: value } : draft));
+  protected change(field: 'name' | 'startsOn' | 'endsOn', value: string | null): void {
+    this.draft.update((draft) => (draft ? { ...draft, [field]: value ?? '' } : draft));
   }
 
   protected save(): void {
