@@ -5,7 +5,6 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { MatTooltipModule } from '@angular/material/tooltip';
 import type { LadderRequirement, LadderRung } from '@shared/api/ladder';
 import { requirementTempoRange } from '@shared/api/ladder';
 import { articulations, instrumentFamilies, modes, patternIds, type Mode } from '@shared/music';
@@ -13,6 +12,7 @@ import { articulationLabels, familyLabels, modeLabels, patternLabels } from '../
 import type { FieldErrors } from '../ladder-editor/draft-model';
 import { tonicsForMode } from '../ladder-editor/draft-model';
 import { tonicText } from '../requirement-text';
+import { IconButton } from '../../core/icon-button/icon-button';
 
 /** One change to one requirement of the rung. */
 export interface RequirementEdit {
@@ -24,13 +24,13 @@ export interface RequirementEdit {
 @Component({
   selector: 'tb-rung-editor',
   imports: [
+    IconButton,
     MatButtonModule,
     MatCheckboxModule,
     MatFormFieldModule,
     MatIconModule,
     MatInputModule,
     MatSelectModule,
-    MatTooltipModule,
   ],
   templateUrl: './rung-editor.html',
   styleUrl: './rung-editor.scss',
