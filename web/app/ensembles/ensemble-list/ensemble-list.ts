@@ -1,8 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import {
@@ -12,6 +10,7 @@ import {
   type Ensemble,
 } from '@shared/api/ensemble';
 import { CurrentUser } from '../../core/auth/current-user';
+import { choicesOf, FilterSelect } from '../../core/grid/filter-select/filter-select';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { injectSchoolChoices } from '../../schools/school-choices';
@@ -24,14 +23,13 @@ import { YearPicker } from '../../school-years/year-picker/year-picker';
 @Component({
   selector: 'tb-ensemble-list',
   imports: [
-    ServerGrid,
+    FilterSelect,
     GridSearch,
     MatButtonModule,
-    MatFormFieldModule,
     MatIconModule,
-    MatSelectModule,
     RouterLink,
     SchoolFilter,
+    ServerGrid,
     YearPicker,
   ],
   templateUrl: './ensemble-list.html',
@@ -54,8 +52,7 @@ export class EnsembleList {
   private readonly router = inject(Router);
   protected readonly canWrite = inject(CurrentUser).can('roster:write');
   protected readonly schools = injectSchoolChoices();
-  protected readonly kinds = ensembleKinds;
-  protected readonly kindLabels = ensembleKindLabels;
+  protected readonly kindChoices = choicesOf(ensembleKinds, (kind) => ensembleKindLabels[kind]);
   protected readonly search = signal('');
   protected readonly schoolId = signal<number | null>(null);
   protected readonly kind = signal<string | null>(null);
