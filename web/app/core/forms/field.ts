@@ -1,4 +1,5 @@
 import {
+  booleanAttribute,
   ChangeDetectionStrategy,
   ChangeDetectorRef,
   Component,
@@ -11,11 +12,7 @@ import {
 } from '@angular/core';
 import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { FormControl, ReactiveFormsModule } from '@angular/forms';
-import {
-  MatFormFieldModule,
-  type MatFormFieldAppearance,
-  type SubscriptSizing,
-} from '@angular/material/form-field';
+import { MatFormFieldModule, type MatFormFieldAppearance } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import type { FilterChoice } from '../grid/filter-select/filter-select';
@@ -36,7 +33,7 @@ import { fieldMessage } from './record-form';
   selector: 'tb-field',
   imports: [ReactiveFormsModule, MatFormFieldModule, MatInputModule, MatSelectModule],
   template: `
-    <mat-form-field [appearance]="appearance()" [subscriptSizing]="subscriptSizing()">
+    <mat-form-field [appearance]="appearance()" [subscriptSizing]="dense() ? 'dynamic' : 'fixed'">
       <mat-label>{{ label() }}</mat-label>
       @if (prefix(); as prefix) {
         <span matTextPrefix>{{ prefix }}&nbsp;</span>
@@ -125,8 +122,8 @@ export class Field<T = unknown> implements DoCheck {
   readonly min = input<string | null>(null);
   /** 'fill' for a field in a bar of choices above a preview, rather than in a form. */
   readonly appearance = input<MatFormFieldAppearance>('outline');
-  /** 'dynamic' where the field has no room kept for a message under it (dense rows, tables). */
-  readonly subscriptSizing = input<SubscriptSizing>('fixed');
+  /** No room kept under the field for a hint or message, for a dense row or a table cell. */
+  readonly dense = input(false, { transform: booleanAttribute });
   /** The browser's autofill hint (HTML, "autocomplete" attribute): 'organization', 'tel'. */
   readonly autocomplete = input('off');
   /** The input's data-testid, for browser tests. */

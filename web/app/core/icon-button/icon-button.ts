@@ -12,18 +12,7 @@ import { MatTooltipModule } from '@angular/material/tooltip';
 @Component({
   selector: 'tb-icon-button',
   imports: [MatButtonModule, MatIconModule, MatTooltipModule],
-  template: `
-    <button
-      mat-icon-button
-      type="button"
-      [disabled]="disabled()"
-      [attr.aria-label]="label()"
-      [matTooltip]="tip()"
-      [matTooltipDisabled]="!tip()"
-    >
-      <mat-icon [svgIcon]="icon()" />
-    </button>
-  `,
+  templateUrl: './icon-button.html',
   styles: `
     :host {
       display: inline-block;
@@ -36,7 +25,7 @@ export class IconButton {
   readonly icon = input.required<string>();
   /** What the button does, read by screen readers: "Remove rung 2". */
   readonly label = input.required<string>();
-  /** A short tooltip, e.g. "Move up"; none when empty. */
+  /** A short tooltip, e.g. "Move up"; none when empty (a tooltip without a message never shows). */
   readonly tip = input('');
   readonly disabled = input(false);
 }
