@@ -40,6 +40,7 @@ export function checkOutDialog(
     maxHeight: '92vh',
   });
 }
+import { DialogActions } from '../../core/dialog-actions/dialog-actions';
 
 /**
  * Lends an available instrument to a student: due date, accessories, condition, fee or waiver.
@@ -48,6 +49,7 @@ export function checkOutDialog(
 @Component({
   selector: 'tb-checkout-dialog',
   imports: [
+    DialogActions,
     Field,
     InstrumentPicker,
     MatButtonModule,

@@ -1,5 +1,4 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MAT_DIALOG_DATA, MatDialogModule, type MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
@@ -20,6 +19,7 @@ import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
 export function returnDialog(dialog: MatDialog, loan: Loan): Promise<Loan | undefined> {
   return dialogAnswer<Loan>(dialog, ReturnDialog, { data: { loan }, width: '560px' });
 }
+import { DialogActions } from '../../core/dialog-actions/dialog-actions';
 
 /** What the return dialog needs. */
 export interface ReturnDialogData {
@@ -32,7 +32,7 @@ export interface ReturnDialogData {
  */
 @Component({
   selector: 'tb-return-dialog',
-  imports: [Field, MatButtonModule, MatCheckboxModule, MatDialogModule, MatIconModule],
+  imports: [DialogActions, Field, MatCheckboxModule, MatDialogModule, MatIconModule],
   templateUrl: './return-dialog.html',
   styleUrl: './return-dialog.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -1,5 +1,4 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule, type MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatRadioModule } from '@angular/material/radio';
@@ -18,6 +17,7 @@ import { FleetRepairs } from '../repair-data';
 import { repairStatusLooks } from '../repair-looks';
 import { createDialogSave } from '../../core/state/dialog-save';
 import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
+import { DialogActions } from '../../core/dialog-actions/dialog-actions';
 
 /** What the repair dialog needs: the ticket (null to open one) and whether it may change. */
 export interface RepairDialogData {
@@ -42,9 +42,9 @@ export function repairDialog(
   selector: 'tb-repair-dialog',
   imports: [
     ConflictNotice,
+    DialogActions,
     Field,
     InstrumentPicker,
-    MatButtonModule,
     MatDialogModule,
     MatIconModule,
     MatRadioModule,
