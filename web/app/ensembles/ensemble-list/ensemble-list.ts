@@ -1,6 +1,8 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
+import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
+import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import {
@@ -10,7 +12,6 @@ import {
   type Ensemble,
 } from '@shared/api/ensemble';
 import { CurrentUser } from '../../core/auth/current-user';
-import { choicesOf, FilterSelect } from '../../core/grid/filter-select/filter-select';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { injectSchoolChoices } from '../../schools/school-choices';
@@ -23,13 +24,14 @@ import { YearPicker } from '../../school-years/year-picker/year-picker';
 @Component({
   selector: 'tb-ensemble-list',
   imports: [
-    FilterSelect,
+    ServerGrid,
     GridSearch,
     MatButtonModule,
+    MatFormFieldModule,
     MatIconModule,
+    MatSelectModule,
     RouterLink,
     SchoolFilter,
-    ServerGrid,
     YearPicker,
   ],
   templateUrl: './ensemble-list.html',
@@ -52,7 +54,8 @@ export class EnsembleList {
   private readonly router = inject(Router);
   protected readonly canWrite = inject(CurrentUser).can('roster:write');
   protected readonly schools = injectSchoolChoices();
-  protected readonly kindChoices = choicesOf(ensembleKinds, (kind) => ensembleKindLabels[kind]);
+  protected readonly kinds = ensembleKinds;
+  protected readonly kindLabels = ensembleKindLabels;
   protected readonly search = signal('');
   protected readonly schoolId = signal<number | null>(null);
   protected readonly kind = signal<string | null>(null);
