@@ -5,6 +5,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
+import { MatTooltipModule } from '@angular/material/tooltip';
 import type { LadderRequirement, LadderRung } from '@shared/api/ladder';
 import { requirementTempoRange } from '@shared/api/ladder';
 import { articulations, instrumentFamilies, modes, patternIds, type Mode } from '@shared/music';
@@ -31,6 +32,7 @@ export interface RequirementEdit {
     MatIconModule,
     MatInputModule,
     MatSelectModule,
+    MatTooltipModule,
   ],
   templateUrl: './rung-editor.html',
   styleUrl: './rung-editor.scss',
