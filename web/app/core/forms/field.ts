@@ -19,8 +19,9 @@ import type { FilterChoice } from '../grid/filter-select/filter-select';
 import { fieldMessage } from './record-form';
 
 /**
- * A field of a form: the form field (outlined unless `appearance` says otherwise), its label, the `matInput` (or, given `choices`, the
- * `mat-select`), an optional hint, and under it the field's message. A record form binds
+ * A field of a form: the form field (outlined unless `appearance` says otherwise), its label,
+ * the `matInput` (or, given `choices`, the `mat-select`), an optional hint, and under it the
+ * field's message. A record form binds
  * `control` and the message is `fieldMessage()` (the shared schema's words, or the API's field
  * error); a dialog that keeps its values in signals binds `[(value)]` instead, and its own check
  * shows through `error`. The field owns its control rather than projecting one: `mat-form-field`
