@@ -14,7 +14,10 @@ function sourceFiles(folder: string): string[] {
   });
 }
 
-/** Icon names written in templates and code: `svgIcon="x"`, a branch `? 'x'` inside `[svgIcon]`, `icon: 'x'`. */
+/**
+ * Icon names written in templates and code: `svgIcon="x"`, a branch `? 'x'` inside `[svgIcon]`,
+ * `icon: 'x'`, and `icon="x"` on a `<tb-icon-button>` or `<tb-dialog-actions>`.
+ */
 function namesUsed(): Set<string> {
   const used = new Set<string>();
   for (const file of sourceFiles(path.join(root, 'web/app'))) {
@@ -23,6 +26,10 @@ function namesUsed(): Set<string> {
     for (const match of text.matchAll(/\[svgIcon\]="([^"]*)"/g))
       for (const quoted of match[1]!.matchAll(/[?:]\s*'([a-z0-9_]+)'/g)) used.add(quoted[1]!);
     for (const match of text.matchAll(/\bicon: '([a-z0-9_]+)'/g)) used.add(match[1]!);
+    for (const match of text.matchAll(
+      /<tb-(?:icon-button|dialog-actions)[^>]*\sicon="([a-z0-9_]+)"/g,
+    ))
+      used.add(match[1]!);
   }
   return used;
 }

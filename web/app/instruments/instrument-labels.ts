@@ -1,7 +1,12 @@
-import type { InstrumentCondition, InstrumentStatus } from '@shared/api/instrument';
+import {
+  instrumentConditions,
+  type InstrumentCondition,
+  type InstrumentStatus,
+} from '@shared/api/instrument';
 import type { InstrumentFamily } from '@shared/music/instrument-data';
 import { instrumentById } from '@shared/music/instruments';
 import { dayText as calendarDayText } from '@shared/calendar/day-text';
+import { choicesOf } from '../core/grid/filter-select/filter-select';
 
 /** How a status reads on screen: words and an icon, never a colour alone. */
 export interface StatusLook {
@@ -29,6 +34,9 @@ export const conditionLabels: Record<InstrumentCondition, string> = {
   poor: 'Poor',
   unserviceable: 'Unserviceable',
 };
+
+/** The condition grades as a select's choices, best first. */
+export const conditionChoices = choicesOf(instrumentConditions, (value) => conditionLabels[value]);
 
 /** Each instrument family in words. */
 export const familyLabels: Record<InstrumentFamily, string> = {

@@ -1,6 +1,7 @@
 import { httpResource } from '@angular/common/http';
 import { computed, type Signal } from '@angular/core';
 import { schoolListSchema, type School } from '@shared/api/school';
+import type { FilterChoice } from '../core/grid/filter-select/filter-select';
 
 /**
  * The schools the signed-in user may pick from, by name: what every school filter and school
@@ -16,4 +17,9 @@ export function injectSchoolChoices(options: { openOnly?: boolean } = {}): Signa
     { parse: (body) => schoolListSchema.parse(body) },
   );
   return computed(() => (schools.hasValue() ? schools.value().rows : []));
+}
+
+/** Schools as a select's choices, each by its code and name ("code · name"). */
+export function codedSchoolChoices(schools: readonly School[]): FilterChoice<number>[] {
+  return schools.map((school) => ({ value: school.id, label: `${school.code} · ${school.name}` }));
 }

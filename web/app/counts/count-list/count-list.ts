@@ -1,28 +1,21 @@
 import '../../core/screen-kit';
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatSelectModule } from '@angular/material/select';
 import { Router, RouterLink } from '@angular/router';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
 import { dayText } from '../../instruments/instrument-labels';
 import { injectSchoolChoices } from '../../schools/school-choices';
+import { namedChoices } from '../../core/grid/filter-select/filter-select';
 import { InventoryCounts } from '../count-data';
 import { createWrite } from '../../core/state/write';
+import { Field } from '../../core/forms/field';
 
 /** The annual count: start one for a school, go back to an open one, see past counts. */
 @Component({
   selector: 'tb-count-list',
-  imports: [
-    MatButtonModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatSelectModule,
-    PageState,
-    RouterLink,
-  ],
+  imports: [Field, MatButtonModule, MatIconModule, PageState, RouterLink],
   templateUrl: './count-list.html',
   styleUrl: './count-list.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -33,6 +26,7 @@ export class CountList {
   private readonly router = inject(Router);
 
   protected readonly schools = injectSchoolChoices();
+  protected readonly schoolChoices = computed(() => namedChoices(this.schools()));
   protected readonly list = this.counts.recent(50);
   protected readonly schoolId = signal<number | null>(null);
   protected readonly starting = signal(false);

@@ -24,6 +24,7 @@ import {
 } from '@shared/api/district';
 import { CurrentDistrict } from '../../core/district/current-district';
 import { Field } from '../../core/forms/field';
+import { SaveRow } from '../../core/forms/save-row';
 import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
@@ -40,15 +41,16 @@ import { usualTimeZones } from '../../core/district/time-zones';
 @Component({
   selector: 'tb-district-settings',
   imports: [
+    AgreementTextEditor,
+    FeeScheduleEditor,
     Field,
-    ReactiveFormsModule,
     MatButtonModule,
     MatFormFieldModule,
     MatIconModule,
     MatSelectModule,
     PageState,
-    AgreementTextEditor,
-    FeeScheduleEditor,
+    ReactiveFormsModule,
+    SaveRow,
   ],
   templateUrl: './district-settings.html',
   styleUrl: './district-settings.scss',

@@ -8,6 +8,7 @@ import { errorMessage } from '../../core/parse';
 import { centsOf, money } from '../../instruments/instrument-labels';
 import { FeeLedger } from '../../fees/fee-data';
 import { createWrite } from '../../core/state/write';
+import { IconButton } from '../../core/icon-button/icon-button';
 
 const families = ['brass', 'woodwind', 'strings', 'percussion'];
 
@@ -18,7 +19,7 @@ const families = ['brass', 'woodwind', 'strings', 'percussion'];
  */
 @Component({
   selector: 'tb-fee-schedule',
-  imports: [MatButtonModule, MatIconModule],
+  imports: [IconButton, MatButtonModule, MatIconModule],
   templateUrl: './fee-schedule.html',
   styleUrl: './fee-schedule.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

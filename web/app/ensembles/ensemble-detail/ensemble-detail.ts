@@ -9,8 +9,6 @@ import {
   untracked,
 } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
-import { MatIconModule } from '@angular/material/icon';
 import { Router, RouterLink } from '@angular/router';
 import {
   ensembleInputSchema,
@@ -21,6 +19,7 @@ import {
 } from '@shared/api/ensemble';
 import { CurrentUser } from '../../core/auth/current-user';
 import { Field } from '../../core/forms/field';
+import { SaveRow } from '../../core/forms/save-row';
 import { choicesOf, namedChoices } from '../../core/grid/filter-select/filter-select';
 import { schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
@@ -33,15 +32,7 @@ import { createRecordSave } from '../../core/forms/record-save';
 /** One ensemble: its details (directors and the coordinator edit them) and its members. */
 @Component({
   selector: 'tb-ensemble-detail',
-  imports: [
-    Field,
-    ReactiveFormsModule,
-    RouterLink,
-    MatButtonModule,
-    MatIconModule,
-    RecordPage,
-    ConflictNotice,
-  ],
+  imports: [ConflictNotice, Field, ReactiveFormsModule, RecordPage, RouterLink, SaveRow],
   templateUrl: './ensemble-detail.html',
   styleUrl: './ensemble-detail.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

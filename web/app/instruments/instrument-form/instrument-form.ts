@@ -1,8 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, type AbstractControl } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import {
@@ -14,6 +12,7 @@ import {
 } from '@shared/api/instrument';
 import { instrumentFamilies, instruments } from '@shared/music/instrument-data';
 import { Field } from '../../core/forms/field';
+import { SaveRow } from '../../core/forms/save-row';
 import { choicesOf } from '../../core/grid/filter-select/filter-select';
 import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
@@ -36,14 +35,13 @@ function costValidator(control: AbstractControl) {
 @Component({
   selector: 'tb-instrument-form',
   imports: [
+    ConflictNotice,
     Field,
-    ReactiveFormsModule,
-    MatButtonModule,
     MatFormFieldModule,
-    MatIconModule,
     MatInputModule,
     MatSelectModule,
-    ConflictNotice,
+    ReactiveFormsModule,
+    SaveRow,
   ],
   templateUrl: './instrument-form.html',
   styleUrl: './instrument-form.scss',

@@ -6,13 +6,21 @@ import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { gradeText } from '../date-text';
 import type { BenchmarkGrid, FieldErrors } from '../ladder-editor/draft-model';
+import { IconButton } from '../../core/icon-button/icon-button';
 
 const allGrades = Array.from({ length: 13 }, (_unused, grade) => grade);
 
 /** Edits the benchmarks: the dates they fall on, and for each grade the rung due by each date. */
 @Component({
   selector: 'tb-benchmark-editor',
-  imports: [MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule],
+  imports: [
+    IconButton,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatInputModule,
+    MatSelectModule,
+  ],
   templateUrl: './benchmark-editor.html',
   styleUrl: './benchmark-editor.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

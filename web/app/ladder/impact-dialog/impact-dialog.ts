@@ -13,6 +13,7 @@ import { gradeText } from '../date-text';
 import { LadderData } from '../ladder-data';
 import { createDialogSave } from '../../core/state/dialog-save';
 import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
+import { DialogActions } from '../../core/dialog-actions/dialog-actions';
 
 /** What the impact dialog puts in force. */
 export interface ImpactDialogData {
@@ -56,6 +57,7 @@ export function injectPutInForce(): (data: ImpactDialogData) => Promise<Ladder |
 @Component({
   selector: 'tb-impact-dialog',
   imports: [
+    DialogActions,
     MatButtonModule,
     MatDialogModule,
     MatFormFieldModule,

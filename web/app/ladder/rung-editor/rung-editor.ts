@@ -13,6 +13,7 @@ import { articulationLabels, familyLabels, modeLabels, patternLabels } from '../
 import type { FieldErrors } from '../ladder-editor/draft-model';
 import { tonicsForMode } from '../ladder-editor/draft-model';
 import { tonicText } from '../requirement-text';
+import { IconButton } from '../../core/icon-button/icon-button';
 
 /** One change to one requirement of the rung. */
 export interface RequirementEdit {
@@ -24,6 +25,7 @@ export interface RequirementEdit {
 @Component({
   selector: 'tb-rung-editor',
   imports: [
+    IconButton,
     MatButtonModule,
     MatCheckboxModule,
     MatFormFieldModule,

@@ -1,6 +1,5 @@
 import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatChipsModule } from '@angular/material/chips';
@@ -10,22 +9,16 @@ import {
   MAT_DIALOG_DATA,
   type MatDialog,
 } from '@angular/material/dialog';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
-import { MatSelectModule } from '@angular/material/select';
-import {
-  instrumentConditions,
-  type Instrument,
-  type InstrumentCondition,
-} from '@shared/api/instrument';
+import type { Instrument, InstrumentCondition } from '@shared/api/instrument';
 import { feeQuoteSchema } from '@shared/api/fee';
 import type { CheckoutInput, Loan } from '@shared/api/loan';
 import type { Student } from '@shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { InstrumentPicker } from '../../instruments/instrument-picker/instrument-picker';
-import { centsOf, conditionLabels, dayText } from '../../instruments/instrument-labels';
+import { centsOf, conditionChoices, dayText } from '../../instruments/instrument-labels';
+import { Field } from '../../core/forms/field';
 import { FleetLoans } from '../loan-data';
 import { accessoriesFor } from './accessories';
 import { StudentPicker } from './student-picker';
@@ -47,6 +40,7 @@ export function checkOutDialog(
     maxHeight: '92vh',
   });
 }
+import { DialogActions } from '../../core/dialog-actions/dialog-actions';
 
 /**
  * Lends an available instrument to a student: due date, accessories, condition, fee or waiver.
@@ -55,16 +49,14 @@ export function checkOutDialog(
 @Component({
   selector: 'tb-checkout-dialog',
   imports: [
-    FormsModule,
+    DialogActions,
+    Field,
     InstrumentPicker,
     MatButtonModule,
     MatCheckboxModule,
     MatChipsModule,
     MatDialogModule,
-    MatFormFieldModule,
     MatIconModule,
-    MatInputModule,
-    MatSelectModule,
     StudentPicker,
   ],
   templateUrl: './checkout-dialog.html',
@@ -78,8 +70,7 @@ export class CheckoutDialog {
 
   /** Coordinator and directors may waive the fee; the server hides waivers from other roles. */
   protected readonly canWaive = inject(CurrentUser).can('loans:see-waivers');
-  protected readonly conditions = instrumentConditions;
-  protected readonly conditionLabels = conditionLabels;
+  protected readonly conditionChoices = conditionChoices;
   protected readonly day = dayText;
   /** The instrument to lend, when the dialog opens from the instrument's own page. */
   private readonly given = inject<{ instrument?: Instrument } | null>(MAT_DIALOG_DATA, {
@@ -128,6 +119,9 @@ export class CheckoutDialog {
   );
   protected readonly waiverReasons = computed(() =>
     this.quote.hasValue() ? this.quote.value().waiverReasons : [],
+  );
+  protected readonly waiverChoices = computed(() =>
+    this.waiverReasons().map((reason) => ({ value: reason, label: reason })),
   );
   protected readonly feeCents = computed(() => centsOf(this.fee()));
   protected readonly feeInvalid = computed(

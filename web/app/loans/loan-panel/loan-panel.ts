@@ -18,11 +18,12 @@ import { conditionLabels, dayText, money } from '../../instruments/instrument-la
 import { FleetLoans } from '../loan-data';
 import { returnDialog } from '../return-dialog/return-dialog';
 import { createWrite } from '../../core/state/write';
+import { IconButton } from '../../core/icon-button/icon-button';
 
 /** One loan beside the grid: its details, the agreement, and what can be done with it. */
 @Component({
   selector: 'tb-loan-panel',
-  imports: [MatButtonModule, MatIconModule, RouterLink],
+  imports: [IconButton, MatButtonModule, MatIconModule, RouterLink],
   templateUrl: './loan-panel.html',
   styleUrl: './loan-panel.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

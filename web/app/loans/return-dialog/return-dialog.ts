@@ -1,16 +1,16 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { FormsModule } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MAT_DIALOG_DATA, MatDialogModule, type MatDialog } from '@angular/material/dialog';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
-import { MatSelectModule } from '@angular/material/select';
-import { instrumentConditions, type InstrumentCondition } from '@shared/api/instrument';
+import type { InstrumentCondition } from '@shared/api/instrument';
 import type { Loan, ReturnInput } from '@shared/api/loan';
 import { instruments } from '@shared/music/instrument-data';
-import { cleaningCaution, conditionLabels } from '../../instruments/instrument-labels';
+import { Field } from '../../core/forms/field';
+import {
+  cleaningCaution,
+  conditionChoices,
+  conditionLabels,
+} from '../../instruments/instrument-labels';
 import { FleetLoans } from '../loan-data';
 import { createDialogSave } from '../../core/state/dialog-save';
 import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
@@ -19,6 +19,7 @@ import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
 export function returnDialog(dialog: MatDialog, loan: Loan): Promise<Loan | undefined> {
   return dialogAnswer<Loan>(dialog, ReturnDialog, { data: { loan }, width: '560px' });
 }
+import { DialogActions } from '../../core/dialog-actions/dialog-actions';
 
 /** What the return dialog needs. */
 export interface ReturnDialogData {
@@ -31,16 +32,7 @@ export interface ReturnDialogData {
  */
 @Component({
   selector: 'tb-return-dialog',
-  imports: [
-    FormsModule,
-    MatButtonModule,
-    MatCheckboxModule,
-    MatDialogModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatInputModule,
-    MatSelectModule,
-  ],
+  imports: [DialogActions, Field, MatCheckboxModule, MatDialogModule, MatIconModule],
   templateUrl: './return-dialog.html',
   styleUrl: './return-dialog.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -50,7 +42,7 @@ export class ReturnDialog {
   private readonly loans = inject(FleetLoans);
   protected readonly loan = inject<ReturnDialogData>(MAT_DIALOG_DATA).loan;
 
-  protected readonly conditions = instrumentConditions;
+  protected readonly conditionChoices = conditionChoices;
   protected readonly conditionLabels = conditionLabels;
   protected readonly cleaningCaution = cleaningCaution;
   protected readonly condition = signal<InstrumentCondition | null>(this.loan.conditionOut);

@@ -72,26 +72,28 @@ import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 import { PastPassOffs } from '../past-pass-offs/past-pass-offs';
 import { createWrite } from '../../core/state/write';
+import { IconButton } from '../../core/icon-button/icon-button';
 
 @Component({
   selector: 'tb-pass-off-entry',
   imports: [
-    NgTemplateOutlet,
+    CellPanel,
     EntryGrid,
+    IconButton,
     MatButtonModule,
+    MatDialogModule,
     MatFormFieldModule,
     MatIconModule,
-    MatDialogModule,
     MatInputModule,
     MatProgressBarModule,
     MatSelectModule,
-    RouterLink,
+    NgTemplateOutlet,
     PageState,
-    CellPanel,
-    StudentHistory,
-    YearPicker,
     PastPassOffs,
+    RouterLink,
+    StudentHistory,
     TouchEntry,
+    YearPicker,
   ],
   providers: [EntryDrafts, EnsembleSheet, SentTakes],
   templateUrl: './pass-off-entry.html',

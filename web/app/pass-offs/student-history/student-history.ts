@@ -21,6 +21,7 @@ import { dateText } from '../../ladder/date-text';
 import { keyText, requirementsByCode, tempoText } from '../../ladder/requirement-text';
 import { PassOffData, recordingUrl } from '../pass-off-data';
 import { createWrite } from '../../core/state/write';
+import { IconButton } from '../../core/icon-button/icon-button';
 
 /** The recording limits as a sentence, from the shared limits the server enforces. */
 export const recordingLimitsText = `Audio up to ${recordingSizeLimit / (1024 * 1024)} MB: WebM, Ogg, MP3, WAVE or MP4 (M4A). The server checks the file itself, not only its name.`;
@@ -28,7 +29,7 @@ export const recordingLimitsText = `Audio up to ${recordingSizeLimit / (1024 * 1
 /** One student's pass-offs, newest first, with recordings to play and to attach. */
 @Component({
   selector: 'tb-student-history',
-  imports: [MatButtonModule, MatIconModule, MatProgressBarModule, RouterLink],
+  imports: [IconButton, MatButtonModule, MatIconModule, MatProgressBarModule, RouterLink],
   templateUrl: './student-history.html',
   styleUrl: './student-history.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -4,7 +4,6 @@ import { rxResource } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import type { AuditEntryRow } from '@shared/api/person';
 import { Pager } from '../../core/pager/pager';
@@ -18,6 +17,7 @@ import {
   auditSubject,
   type AuditFieldChange,
 } from './audit-changes';
+import { GridSearch } from '../../core/grid/grid-search/grid-search';
 
 const pageSize = 50;
 
@@ -25,15 +25,15 @@ const pageSize = 50;
 @Component({
   selector: 'tb-audit-log',
   imports: [
-    WhenPipe,
+    GridSearch,
+    LoadFailed,
     MatButtonModule,
     MatFormFieldModule,
     MatIconModule,
-    MatInputModule,
     MatSelectModule,
-    LoadFailed,
-    PageState,
     Pager,
+    PageState,
+    WhenPipe,
   ],
   templateUrl: './audit-log.html',
   styleUrl: './audit-log.scss',

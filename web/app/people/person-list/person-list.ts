@@ -8,7 +8,6 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
-import { MatTooltipModule } from '@angular/material/tooltip';
 import type { Person } from '@shared/api/person';
 import { roleLabels, roles, type Role } from '@shared/api/roles';
 import { CurrentUser } from '../../core/auth/current-user';
@@ -19,6 +18,7 @@ import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
 import { PersonDialog, type PersonDialogData } from '../person-dialog/person-dialog';
 import { createWrite } from '../../core/state/write';
+import { IconButton } from '../../core/icon-button/icon-button';
 
 type SortField = 'name' | 'email' | 'role' | 'lastSignInAt';
 
@@ -26,15 +26,15 @@ type SortField = 'name' | 'email' | 'role' | 'lastSignInAt';
 @Component({
   selector: 'tb-person-list',
   imports: [
-    WhenPipe,
+    IconButton,
+    LoadFailed,
     MatButtonModule,
     MatFormFieldModule,
     MatIconModule,
     MatInputModule,
     MatSelectModule,
-    MatTooltipModule,
-    LoadFailed,
     PageState,
+    WhenPipe,
   ],
   templateUrl: './person-list.html',
   styleUrl: './person-list.scss',

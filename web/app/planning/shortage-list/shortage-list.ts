@@ -105,14 +105,7 @@ import type { ShortageReport } from '@shared/api/planning';
       align-items: start;
     }
     @include plain-table.plain-table(5px 6px);
-    th {
-      font-size: 0.8rem;
-      color: var(--tb-teal-deep);
-    }
-    .number {
-      text-align: right;
-      font-variant-numeric: tabular-nums;
-    }
+    @include plain-table.figure-heads(0.8rem);
     .short {
       display: inline-flex;
       align-items: center;

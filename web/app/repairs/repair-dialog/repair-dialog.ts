@@ -1,17 +1,15 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { FormsModule } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule, type MatDialog } from '@angular/material/dialog';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { MatRadioModule } from '@angular/material/radio';
-import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 import type { Instrument } from '@shared/api/instrument';
 import { repairCaution, repairStatuses, type Repair, type RepairStatus } from '@shared/api/repair';
+import { Field } from '../../core/forms/field';
 import { isConflict } from '../../core/forms/record-form';
+import { choicesOf } from '../../core/grid/filter-select/filter-select';
+import { ConflictNotice } from '../../core/record-page/conflict-notice';
 import { errorMessage } from '../../core/parse';
 import { InstrumentPicker } from '../../instruments/instrument-picker/instrument-picker';
 import { centsOf } from '../../instruments/instrument-labels';
@@ -19,6 +17,7 @@ import { FleetRepairs } from '../repair-data';
 import { repairStatusLooks } from '../repair-looks';
 import { createDialogSave } from '../../core/state/dialog-save';
 import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
+import { DialogActions } from '../../core/dialog-actions/dialog-actions';
 
 /** What the repair dialog needs: the ticket (null to open one) and whether it may change. */
 export interface RepairDialogData {
@@ -42,15 +41,13 @@ export function repairDialog(
 @Component({
   selector: 'tb-repair-dialog',
   imports: [
-    FormsModule,
+    ConflictNotice,
+    DialogActions,
+    Field,
     InstrumentPicker,
-    MatButtonModule,
     MatDialogModule,
-    MatFormFieldModule,
     MatIconModule,
-    MatInputModule,
     MatRadioModule,
-    MatSelectModule,
     RouterLink,
   ],
   templateUrl: './repair-dialog.html',
@@ -64,8 +61,10 @@ export class RepairDialog {
   private readonly ticket = signal<Repair | null>(this.data.repair);
 
   protected readonly caution = repairCaution;
-  protected readonly statuses = repairStatuses;
-  protected readonly looks = repairStatusLooks;
+  protected readonly statusChoices = choicesOf(
+    repairStatuses,
+    (value) => repairStatusLooks[value].label,
+  );
   protected readonly creating = this.data.repair === null;
   protected readonly instrument = signal<Instrument | null>(this.data.instrument ?? null);
   protected readonly problem = signal(this.data.repair?.problem ?? '');

@@ -31,13 +31,21 @@ import {
 import { dayText, money } from '../../instruments/instrument-labels';
 import { repairDialog } from '../repair-dialog/repair-dialog';
 import { repairStatusLooks } from '../repair-looks';
+import { IconButton } from '../../core/icon-button/icon-button';
 
 type Showing = 'open' | 'all' | RepairStatus;
 
 /** Repair tickets: open and past, with new tickets and status changes for technicians. */
 @Component({
   selector: 'tb-repair-list',
-  imports: [ServerGrid, MatButtonModule, MatFormFieldModule, MatIconModule, MatSelectModule],
+  imports: [
+    IconButton,
+    MatButtonModule,
+    MatFormFieldModule,
+    MatIconModule,
+    MatSelectModule,
+    ServerGrid,
+  ],
   templateUrl: './repair-list.html',
   styles: `
     .caution {

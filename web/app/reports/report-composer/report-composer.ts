@@ -8,23 +8,20 @@ import {
   signal,
 } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
-import { FormsModule } from '@angular/forms';
 import { RouterLink } from '@angular/router';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatDialog } from '@angular/material/dialog';
 import { dialogAnswer } from '../../core/confirm-dialog/dialog-answer';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { MatSelectModule } from '@angular/material/select';
 import { MatTabsModule } from '@angular/material/tabs';
 import type { ReportKind, ReportSendInput } from '@shared/api/report';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
-import { injectSchoolChoices } from '../../schools/school-choices';
+import { codedSchoolChoices, injectSchoolChoices } from '../../schools/school-choices';
+import { Field } from '../../core/forms/field';
 import { MailFrame } from '../mail-frame/mail-frame';
 import { ReportData, type PreviewRequest } from '../report-data';
 import { lastDays } from '../report-period';
@@ -39,15 +36,12 @@ const isoDate = /^\d{4}-\d{2}-\d{2}$/;
 @Component({
   selector: 'tb-report-composer',
   imports: [
-    FormsModule,
+    Field,
     RouterLink,
     MatButtonModule,
     MatButtonToggleModule,
-    MatFormFieldModule,
     MatIconModule,
-    MatInputModule,
     MatProgressBarModule,
-    MatSelectModule,
     MatTabsModule,
     MailFrame,
     PageState,
@@ -79,6 +73,7 @@ export class ReportComposer {
   protected readonly pastYear = signal<SchoolYear | null>(null);
 
   protected readonly schools = injectSchoolChoices();
+  protected readonly schoolChoices = computed(() => codedSchoolChoices(this.schools()));
   protected readonly school = computed(
     () => this.schools().find((row) => row.id === this.schoolId()) ?? null,
   );

@@ -2,12 +2,10 @@ import '../../core/screen-kit';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { NgTemplateOutlet } from '@angular/common';
-import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import type { SchoolYear } from '@shared/api/school-year';
+import { Field } from '../../core/forms/field';
 import { errorMessage } from '../../core/parse';
 import { LoadFailed } from '../../core/state/load-failed';
 import { SchoolYearData } from '../school-year-data';
@@ -29,16 +27,7 @@ interface YearDraft {
  */
 @Component({
   selector: 'tb-school-years-page',
-  imports: [
-    NgTemplateOutlet,
-    FormsModule,
-    MatButtonModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatInputModule,
-    LoadFailed,
-    YearStart,
-  ],
+  imports: [NgTemplateOutlet, Field, MatButtonModule, MatIconModule, LoadFailed, YearStart],
   templateUrl: './school-years-page.html',
   styleUrl: './school-years-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -76,8 +65,8 @@ export class SchoolYearsPage {
     this.draft.set(null);
   }
 
-  protected change(field: 'name' | 'startsOn' | 'endsOn', value: string): void {
-    this.draft.update((draft) => (draft ? { ...draft, [field]: value } : draft));
+  protected change(field: 'name' | 'startsOn' | 'endsOn', value: string | null): void {
+    this.draft.update((draft) => (draft ? { ...draft, [field]: value ?? '' } : draft));
   }
 
   protected save(): void {

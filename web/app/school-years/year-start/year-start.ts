@@ -12,10 +12,9 @@ import { DecimalPipe } from '@angular/common';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import type { SchoolYear, YearStartResult } from '@shared/api/school-year';
+import { Field } from '../../core/forms/field';
 import { errorMessage } from '../../core/parse';
 import { SchoolYearData, type YearStartRequest } from '../school-year-data';
 import { createWrite } from '../../core/state/write';
@@ -43,15 +42,7 @@ export function sameWeekdayNextYear(day: string): string {
  */
 @Component({
   selector: 'tb-year-start',
-  imports: [
-    DecimalPipe,
-    FormsModule,
-    MatButtonModule,
-    MatCheckboxModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatInputModule,
-  ],
+  imports: [DecimalPipe, Field, FormsModule, MatButtonModule, MatCheckboxModule, MatIconModule],
   templateUrl: './year-start.html',
   styleUrl: './year-start.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,

@@ -18,6 +18,7 @@ import { Router, RouterLink } from '@angular/router';
 import { gradeLabel, schoolInputSchema, schoolLevels, type School } from '@shared/api/school';
 import { CurrentUser } from '../../core/auth/current-user';
 import { Field } from '../../core/forms/field';
+import { SaveRow } from '../../core/forms/save-row';
 import { choicesOf } from '../../core/grid/filter-select/filter-select';
 import { schemaValidator } from '../../core/forms/record-form';
 import { ConflictNotice } from '../../core/record-page/conflict-notice';
@@ -32,15 +33,16 @@ import { createRecordSave } from '../../core/forms/record-save';
 @Component({
   selector: 'tb-school-detail',
   imports: [
+    ConflictNotice,
     Field,
-    ReactiveFormsModule,
-    RouterLink,
     MatButtonModule,
     MatFormFieldModule,
     MatIconModule,
     MatInputModule,
+    ReactiveFormsModule,
     RecordPage,
-    ConflictNotice,
+    RouterLink,
+    SaveRow,
   ],
   templateUrl: './school-detail.html',
   styleUrl: './school-detail.scss',

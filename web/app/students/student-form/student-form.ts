@@ -1,7 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
-import { MatButtonModule } from '@angular/material/button';
-import { MatIconModule } from '@angular/material/icon';
 import {
   studentInputSchema,
   studentPatchSchema,
@@ -10,6 +8,7 @@ import {
   type StudentStatus,
 } from '@shared/api/student';
 import { Field } from '../../core/forms/field';
+import { SaveRow } from '../../core/forms/save-row';
 import { schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { StudentData } from '../student-detail/student-data';
@@ -22,7 +21,7 @@ const fields = studentInputSchema.shape;
 /** A student's record as a form: names, grade, status and guardian; school and id when adding. */
 @Component({
   selector: 'tb-student-form',
-  imports: [Field, ReactiveFormsModule, MatButtonModule, MatIconModule, ConflictNotice],
+  imports: [ConflictNotice, Field, ReactiveFormsModule, SaveRow],
   templateUrl: './student-form.html',
   styleUrl: './student-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
