@@ -5,7 +5,9 @@ import {
   chooseOption,
   launchBrowser,
   localOnlyContext,
+  embeddedBlock,
   saveScreenshot,
+  serveIndexAsWorkerKeepsIt,
   signInAs,
 } from '../support/browser';
 import type { EnsembleDetail } from '@shared/api/ensemble';
@@ -33,9 +35,6 @@ interface Candidate {
 }
 
 const patient = { timeout: 20_000 };
-
-/** The data block of answers the index page is served with for a signed-in user. */
-const embeddedBlock = /<script type="application\/json" id="tb-embedded-reads">.*?<\/script>/s;
 
 /** The pass-off screen's first reads of an ensemble, as the browser asks for them. */
 const entryReadsOf = (ensembleId: number) => [
@@ -335,12 +334,7 @@ describe('Pass-offs entry', () => {
     await page.goto('about:blank');
     // The page as the service worker's copy of the index page is, without the answers a
     // signed-in navigation is served with: the reads then start as the route matches.
-    await page.route(/\/pass-offs\?/, async (route) => {
-      if (route.request().resourceType() !== 'document') return route.fallback();
-      const response = await route.fetch();
-      const body = (await response.text()).replace(embeddedBlock, '');
-      await route.fulfill({ response, body });
-    });
+    await serveIndexAsWorkerKeepsIt(page);
     const reads = apiReadsOf(page);
     await page.goto(`${app.url}/pass-offs?ensemble=${ensemble!.id}&rung=1`);
     await expect

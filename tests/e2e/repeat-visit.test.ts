@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import type { Page, Route } from 'playwright-core';
 import { demoEmail } from '../support/test-app';
 import type { EnsembleDetail } from '@shared/api/ensemble';
-import { saveScreenshot, signInAs } from '../support/browser';
+import { saveScreenshot, serveIndexAsWorkerKeepsIt, signInAs } from '../support/browser';
 import { touchContext, useSmallScreens } from './small-screens-app';
 
 const started = useSmallScreens();
@@ -38,6 +38,16 @@ async function holdReads(page: Page) {
 /** A phone with no service worker, so every read the page makes is the page's own. */
 const phone = () => touchContext(started.browser, { width: 390, height: 844 }, 2, 'block');
 
+/**
+ * Holds the screen's reads and serves the page as the worker keeps it (a repeat visit's page has
+ * no answers in it), so the first paint can come only from the device's copy.
+ */
+async function repeatVisitOf(page: Page) {
+  const reads = await holdReads(page);
+  await serveIndexAsWorkerKeepsIt(page);
+  return reads;
+}
+
 describe('A repeat visit to the pass-off screen', () => {
   it('should paint from the device copy before the server answers, then show the server answer', async () => {
     const { app } = started;
@@ -72,7 +82,7 @@ describe('A repeat visit to the pass-off screen', () => {
     });
     expect(recorded.status).toBe(201);
 
-    const reads = await holdReads(page);
+    const reads = await repeatVisitOf(page);
     await page.goto(sheetUrl);
     // Painted with every read still held: the copy of the last visit, as it stood then.
     await card.waitFor(patient);
@@ -109,7 +119,7 @@ describe('A repeat visit to the pass-off screen', () => {
     // The browser's session now names someone else (as after another user signs in here).
     const me = (await director.get('/api/me')).body as { id: number };
     await context.addCookies([{ name: 'tuttiboard.user', value: String(me.id + 1), url: app.url }]);
-    const reads = await holdReads(page);
+    const reads = await repeatVisitOf(page);
     await page.goto(sheetUrl, { waitUntil: 'commit' });
     // Longer than the copy took to paint in the test above, with every read held the same way.
     await page.waitForTimeout(4000);

@@ -109,3 +109,20 @@ export async function chooseOption(page: Page, selectTestId: string, option: str
   }
   await wanted.first().click();
 }
+
+/** The data block of answers the index page is served with for a signed-in user. */
+export const embeddedBlock =
+  /<script type="application\/json" id="tb-embedded-reads">.*?<\/script>/s;
+
+/**
+ * Serves the pass-off page as the service worker's copy of the index page is: without the answers
+ * a signed-in navigation is served with, so the screen's reads start as the route matches.
+ */
+export async function serveIndexAsWorkerKeepsIt(page: Page): Promise<void> {
+  await page.route(/\/pass-offs\?/, async (route) => {
+    if (route.request().resourceType() !== 'document') return route.fallback();
+    const response = await route.fetch();
+    const body = (await response.text()).replace(embeddedBlock, '');
+    await route.fulfill({ response, body });
+  });
+}
