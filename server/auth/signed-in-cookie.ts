@@ -1,13 +1,5 @@
 import type { Request, Response } from 'express';
-
-/**
- * A cookie the web app can read (not HttpOnly) naming the user this browser's session belongs
- * to. It carries only the user's id, which is not secret; the session itself stays in the
- * HttpOnly session cookie. The app paints a screen from the copy this device kept of the last
- * visit only when that copy belongs to the user named here, so a copy left by one user is never
- * shown after another signs in on the same browser. The server still answers every read.
- */
-export const signedInCookieName = 'tuttiboard.user';
+import { signedInCookieName } from '@shared/api/signed-in-cookie';
 
 /** As long as the session cookie lives (server/app.ts), so it runs out no later than the session. */
 const signedInMaxAge = 8 * 60 * 60 * 1000;

@@ -1,5 +1,6 @@
 import { Injectable, signal } from '@angular/core';
 import type { UseStore } from 'idb-keyval';
+import { signedInCookieName } from '@shared/api/signed-in-cookie';
 
 /** idb-keyval and the store, loaded on first use so neither weighs on the first screen. */
 interface Keyval {
@@ -35,8 +36,11 @@ function whenIdle(): Promise<void> {
  * read (`tuttiboard.user`, set at sign-in and on `/api/me`, cleared at sign-out); null when none.
  */
 export function sessionUserId(cookies = document.cookie): number | null {
-  const match = /(?:^|;\s*)tuttiboard\.user=(\d+)(?:;|$)/.exec(cookies);
-  return match ? Number(match[1]) : null;
+  const pair = cookies
+    .split(';')
+    .map((cookie) => cookie.trim().split('='))
+    .find(([name]) => name === signedInCookieName);
+  return pair && /^\d+$/.test(pair[1] ?? '') ? Number(pair[1]) : null;
 }
 
 /**

@@ -2,7 +2,7 @@ import { DOCUMENT, Injectable, inject } from '@angular/core';
 import { HttpResponse, type HttpInterceptorFn, type HttpRequest } from '@angular/common/http';
 import { of } from 'rxjs';
 import { embeddedReadsId, type EmbeddedRead } from '@shared/api/entry-reads';
-import { keptFor, readRequest } from './early-reads';
+import { keptFor, readKey } from './early-reads';
 
 /**
  * Answers that came with the index page (a `<script type="application/json">` data block, HTML
@@ -24,7 +24,7 @@ export class EmbeddedReads {
     } catch {
       return;
     }
-    for (const read of reads) this.answers.set(readRequest(read).urlWithParams, read.body);
+    for (const read of reads) this.answers.set(readKey(read), read.body);
     // An answer not asked for soon is dropped rather than given stale (as an early read is).
     setTimeout(() => this.answers.clear(), keptFor);
   }
