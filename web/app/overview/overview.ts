@@ -18,7 +18,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { of } from 'rxjs';
 import type { Overview as OverviewFigures } from '@shared/api/analytics';
 import { CurrentUser } from '../core/auth/current-user';
-import { ChartCard } from '../core/charts/chart-card/chart-card';
+import { ChartGrid, type ChartCardSpec } from '../core/charts/chart-grid/chart-grid';
 import type { DrillTarget } from '../core/charts/chart-figure';
 import { PageState } from '../core/state/page-state';
 import { SchoolData } from '../schools/school-data';
@@ -55,7 +55,7 @@ const gradesIn = (figures: OverviewFigures) =>
     MatButtonModule,
     MatFormFieldModule,
     MatSelectModule,
-    ChartCard,
+    ChartGrid,
     FigureTiles,
     AuditionReady,
     QuietDirectors,
@@ -140,17 +140,58 @@ export class Overview {
       ? ('school' as const)
       : ('grade' as const),
   );
-  protected readonly charts = computed(() => {
+  /** The chart cards, in reading order; null until the figures arrive. */
+  protected readonly charts = computed((): ChartCardSpec[] | null => {
     const figures = this.figures.value();
     if (!figures) return null;
-    return {
-      byRung: studentsByRungFigure(figures, this.stackBy()),
-      benchmarkByGrade: benchmarkByGradeFigure(figures),
-      benchmarkBySchool:
-        figures.benchmark.bySchool.length > 1 ? benchmarkBySchoolFigure(figures) : null,
-      medianRung: medianRungFigure(figures),
-      passOffs: passOffsPerWeekFigure(figures),
-    };
+    const bySchool = figures.benchmark.bySchool.length > 1;
+    const cards: (ChartCardSpec | null)[] = [
+      {
+        testId: 'chart-students-by-rung',
+        wide: true,
+        heading:
+          this.stackBy() === 'school'
+            ? 'Students by rung, by school'
+            : 'Students by rung, by grade',
+        description:
+          'How far each student has climbed the scale ladder. The number on top is every student on that rung.',
+        figure: studentsByRungFigure(figures, this.stackBy()),
+        height: 320,
+      },
+      {
+        testId: 'chart-benchmark-by-grade',
+        heading: 'At or above benchmark, by grade',
+        description:
+          "Each grade's benchmark rung and date is beside it; the dashed line is all grades together.",
+        figure: benchmarkByGradeFigure(figures),
+        height: 340,
+      },
+      bySchool
+        ? {
+            testId: 'chart-benchmark-by-school',
+            heading: 'At or above benchmark, by school',
+            description:
+              'Select a school to list its students below the benchmark; the dashed line is the district.',
+            figure: benchmarkBySchoolFigure(figures),
+            height: 340,
+          }
+        : null,
+      {
+        testId: 'chart-median-rung',
+        heading: 'Median rung by grade',
+        description:
+          'Half the grade is on this rung or higher; beside it in brass, the rung the grade should have reached.',
+        figure: medianRungFigure(figures),
+      },
+      {
+        testId: 'chart-pass-offs-per-week',
+        wide: !bySchool,
+        heading: 'Pass-offs per week',
+        description: 'Every pass-off heard this school year, week by week; the teal part passed.',
+        figure: passOffsPerWeekFigure(figures),
+      },
+    ];
+    return cards.filter((card) => card !== null);
   });
   protected readonly scopeLine = computed(() => {
     const me = this.me();

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { RouterLink } from '@angular/router';
 import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
 import { MatButtonModule } from '@angular/material/button';
@@ -8,7 +8,8 @@ import type { DrillTarget } from '../../core/charts/chart-figure';
 import { PageState } from '../../core/state/page-state';
 import { errorMessage } from '../../core/parse';
 import { OverviewData, type DrillRows } from '../overview-data';
-import { countText, gradeLabel, rungLabel } from '../overview-charts/figure-words';
+import { countText } from '../overview-charts/figure-words';
+import { drillTable } from './drill-table';
 
 const pageSize = 50;
 
@@ -42,14 +43,11 @@ export class DrillPanel {
   protected readonly rows = signal<DrillRows | null>(null);
   protected readonly loading = signal(true);
   protected readonly error = signal<string | null>(null);
-  protected readonly gradeLabel = gradeLabel;
-  protected readonly rungLabel = rungLabel;
-  protected readonly statusWords: Partial<Record<string, string>> = {
-    active: 'Plays',
-    withdrawn: 'Stopped',
-    graduated: 'Graduated',
-    leaving: 'Left the district',
-  };
+  /** The rows as a table of headings and cells. */
+  protected readonly table = computed(() => {
+    const rows = this.rows();
+    return rows ? drillTable(rows) : null;
+  });
 
   constructor() {
     this.load(0);
