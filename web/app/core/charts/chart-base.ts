@@ -67,3 +67,39 @@ export function shadedAxisTooltip(base: ChartOption, describe: (index: number) =
       describe((parameters as { dataIndex: number }[])[0]?.dataIndex ?? 0),
   };
 }
+
+/**
+ * The settings of a chart whose bars are read one at a time: no legend, room above the bars for a
+ * line's label and `right` pixels beside them for the bars' own, and a tooltip that is the
+ * `describe`d bar under the pointer.
+ */
+export function barByBarBase(right: number, describe: (index: number) => string): ChartOption {
+  const base = chartBase();
+  return {
+    ...base,
+    legend: { show: false },
+    grid: { ...base.grid, top: 28, right },
+    tooltip: {
+      ...base.tooltip,
+      trigger: 'item',
+      formatter: (parameter: unknown) => describe((parameter as { dataIndex: number }).dataIndex),
+    },
+  };
+}
+
+/** A value axis of percentages, 0 to 100 in quarters. */
+export function percentAxis() {
+  return { ...valueAxis(undefined, '{value}%'), max: 100, interval: 25 };
+}
+
+/**
+ * A category axis down the side, first category on top, every label shown (bars run across, so
+ * long labels stay readable); `label` adds to the labels' text style.
+ */
+export function sideCategoryAxis(labels: string[], label: object = {}) {
+  return {
+    ...categoryAxis(labels),
+    inverse: true,
+    axisLabel: { ...chartText, interval: 0, ...label },
+  };
+}

@@ -1,8 +1,8 @@
 import type { BarSeriesOption } from 'echarts/charts';
 import type { Overview } from '@shared/api/analytics';
-import { chartBase, categoryAxis, valueAxis } from '../../core/charts/chart-base';
+import { barByBarBase, percentAxis, sideCategoryAxis } from '../../core/charts/chart-base';
 import type { ChartFigure, DrillTarget } from '../../core/charts/chart-figure';
-import { chartPalette, chartText } from '../../core/charts/chart-palette';
+import { chartPalette } from '../../core/charts/chart-palette';
 import { gradeLabel, percentText, shortDate } from './figure-words';
 
 interface ShareBar {
@@ -33,26 +33,19 @@ function shareFigure(
     path: bar.drill.path,
     query: bar.drill.query,
   });
-  const base = chartBase();
-  const shareAxis = { ...valueAxis(undefined, '{value}%'), max: 100, interval: 25 };
-  const barAxis = barAxisOf(bars);
   return {
     option: {
-      ...base,
-      legend: { show: false },
-      // Room above the bars for the dashed line's label.
-      grid: { ...base.grid, top: 28, right: 24 },
-      tooltip: {
-        ...base.tooltip,
-        trigger: 'item',
-        formatter: (parameter: unknown) => {
-          const bar = bars[(parameter as { dataIndex: number }).dataIndex]!;
-          const benchmark = bar.benchmark ? `<br>Benchmark: ${bar.benchmark}` : '';
-          return `<b>${bar.name}</b>${benchmark}<br>${bar.atOrAbove} of ${bar.students} at or above (${percentText(bar.share)})`;
-        },
-      },
-      xAxis: shareAxis,
-      yAxis: barAxis,
+      ...barByBarBase(24, (index) => {
+        const bar = bars[index]!;
+        const benchmark = bar.benchmark ? `<br>Benchmark: ${bar.benchmark}` : '';
+        return `<b>${bar.name}</b>${benchmark}<br>${bar.atOrAbove} of ${bar.students} at or above (${percentText(bar.share)})`;
+      }),
+      xAxis: percentAxis(),
+      // Bars run across so long labels (a grade's benchmark, a school's name) stay readable.
+      yAxis: sideCategoryAxis(
+        bars.map((bar) => bar.axisLabel),
+        { lineHeight: 15, rich: { benchmark: { fontSize: 11, color: chartPalette.muted } } },
+      ),
       series: [shareSeries(bars, overall, overallLabel)],
     },
     table: {
@@ -77,20 +70,6 @@ function shareFigure(
       })),
     },
     targetAt: (_seriesIndex, dataIndex) => (bars[dataIndex] ? target(bars[dataIndex]) : null),
-  };
-}
-
-// Bars run across so long labels (a grade's benchmark, a school's name) stay readable.
-function barAxisOf(bars: ShareBar[]) {
-  return {
-    ...categoryAxis(bars.map((bar) => bar.axisLabel)),
-    inverse: true,
-    axisLabel: {
-      ...chartText,
-      interval: 0,
-      lineHeight: 15,
-      rich: { benchmark: { fontSize: 11, color: chartPalette.muted } },
-    },
   };
 }
 

@@ -1,7 +1,14 @@
 import type { YearOverYear } from '@shared/api/year-over-year';
-import { chartBase, categoryAxis, valueAxis } from '../../core/charts/chart-base';
+import {
+  barByBarBase,
+  chartBase,
+  categoryAxis,
+  percentAxis,
+  sideCategoryAxis,
+  valueAxis,
+} from '../../core/charts/chart-base';
 import type { ChartFigure, DrillTarget } from '../../core/charts/chart-figure';
-import { chartPalette, chartText, seriesColour } from '../../core/charts/chart-palette';
+import { chartPalette, seriesColour } from '../../core/charts/chart-palette';
 import { gradeLabel, percentText } from './figure-words';
 
 interface RetentionBar {
@@ -30,27 +37,15 @@ function retentionFigure(
     path: retentionPath,
     query: { ...bar.query, schoolYearId: figures.year.id, stopped: true },
   });
-  const base = chartBase();
   return {
     option: {
-      ...base,
-      legend: { show: false },
       // Room on the right for each bar's label (share and counts).
-      grid: { ...base.grid, top: 28, right: 104 },
-      tooltip: {
-        ...base.tooltip,
-        trigger: 'item',
-        formatter: (parameter: unknown) => {
-          const bar = bars[(parameter as { dataIndex: number }).dataIndex]!;
-          return `<b>${bar.name}</b><br>${bar.continued} of ${bar.players} still play (${percentText(bar.share)})<br>${bar.players - bar.continued} stopped`;
-        },
-      },
-      yAxis: {
-        ...categoryAxis(bars.map((bar) => bar.label)),
-        inverse: true,
-        axisLabel: { ...chartText, interval: 0 },
-      },
-      xAxis: { ...valueAxis(undefined, '{value}%'), max: 100, interval: 25 },
+      ...barByBarBase(104, (index) => {
+        const bar = bars[index]!;
+        return `<b>${bar.name}</b><br>${bar.continued} of ${bar.players} still play (${percentText(bar.share)})<br>${bar.players - bar.continued} stopped`;
+      }),
+      yAxis: sideCategoryAxis(bars.map((bar) => bar.label)),
+      xAxis: percentAxis(),
       series: [
         {
           type: 'bar',
