@@ -40,6 +40,18 @@ import {
   type SheetRequest,
 } from '../sheet-request';
 
+/** One of the form's plain selects: its control, its label and its options. */
+interface SelectField {
+  name: 'tonic' | 'mode' | 'pattern' | 'octaves' | 'articulation';
+  label: string;
+  options: { value: string | number; label: string }[];
+}
+
+/** Each id with its label, as options. */
+function labelled<Id extends string>(ids: readonly Id[], labels: Record<Id, string>) {
+  return ids.map((id) => ({ value: id, label: labels[id] }));
+}
+
 /** The form that picks a sheet: concert key, pattern, tempo, articulation and instrument. */
 @Component({
   selector: 'tb-sheet-form',
@@ -86,12 +98,6 @@ export class SheetForm {
     label: schoolLevelNames[level].charAt(0).toUpperCase() + schoolLevelNames[level].slice(1),
   }));
 
-  protected readonly modes = modes.map((mode) => ({ id: mode, label: modeLabels[mode] }));
-  protected readonly patterns = patternIds.map((id) => ({ id, label: patternLabels[id] }));
-  protected readonly articulations = articulations.map((id) => ({
-    id,
-    label: articulationLabels[id],
-  }));
   protected readonly families = instrumentFamilies.map((family) => ({
     family,
     label: familyLabels[family],
@@ -100,8 +106,32 @@ export class SheetForm {
   protected readonly tempoSteps = usualTempoSteps;
   protected readonly tempoLimits = tempoLimits;
 
-  protected readonly tonics = computed(() => tonicsFor(this.request().mode));
-  protected readonly signs = withAccidentalSigns;
+  /** The plain choices, in the order they stand: each control with its label and options. */
+  protected readonly selects = computed((): SelectField[] => [
+    {
+      name: 'tonic',
+      label: 'Concert key',
+      options: tonicsFor(this.request().mode).map((tonic) => ({
+        value: tonic,
+        label: withAccidentalSigns(tonic),
+      })),
+    },
+    { name: 'mode', label: 'Scale', options: labelled(modes, modeLabels) },
+    { name: 'pattern', label: 'Pattern', options: labelled(patternIds, patternLabels) },
+    {
+      name: 'octaves',
+      label: 'Octaves',
+      options: [
+        { value: 1, label: 'One octave' },
+        { value: 2, label: 'Two octaves' },
+      ],
+    },
+    {
+      name: 'articulation',
+      label: 'Articulation',
+      options: labelled(articulations, articulationLabels),
+    },
+  ]);
 
   constructor() {
     effect(() => {
