@@ -1,7 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
-import { RouterLink } from '@angular/router';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -10,6 +9,8 @@ import { MatProgressBarModule } from '@angular/material/progress-bar';
 import type { AuditionReadyRow } from '@shared/api/analytics';
 import type { LadderRequirement } from '@shared/api/ladder';
 import type { ListResponse } from '@shared/api/list';
+import { RowsTable } from '../../core/charts/rows-table/rows-table';
+import { studentCell, tableOf } from '../../core/charts/rows-table/row-cells';
 import { errorMessage } from '../../core/parse';
 import { OverviewData, type OverviewFilters } from '../overview-data';
 import { gradeLabel, rungLabel } from '../overview-charts/figure-words';
@@ -24,6 +25,13 @@ export function requirementLabel(requirement: LadderRequirement): string {
   return `${requirement.code} · ${tonic} ${requirement.mode.replaceAll('-', ' ')}, ♩ = ${requirement.tempo}`;
 }
 
+/** The best tempo heard per requirement, in the order of the requirement codes: "r3-bb-major ♩ = 104". */
+function tempoParts(tempos: Record<string, number>): string[] {
+  return Object.entries(tempos)
+    .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
+    .map(([key, value]) => `${key} ♩ = ${value}`);
+}
+
 /**
  * Who is ready for an audition: the students who passed every chosen requirement, at the
  * requirement's own tempo or at a minimum tempo the coordinator sets.
@@ -32,7 +40,7 @@ export function requirementLabel(requirement: LadderRequirement): string {
   selector: 'tb-audition-ready',
   imports: [
     FormsModule,
-    RouterLink,
+    RowsTable,
     MatButtonModule,
     MatFormFieldModule,
     MatInputModule,
@@ -68,16 +76,20 @@ export class AuditionReady {
       ? errorMessage(this.answer.error(), 'The list could not be loaded. Try again.')
       : null,
   );
+  /** The ready students as a table, each with the best tempo heard per requirement. */
+  protected readonly table = computed(() => {
+    const list = this.result();
+    return list
+      ? tableOf(['Student', 'School', 'Grade', 'Rung', 'Best tempos'], list.rows, (student) => [
+          studentCell(student),
+          { text: student.schoolCode },
+          { text: gradeLabel(student.grade) },
+          { text: rungLabel(student.rung) },
+          { text: '', parts: tempoParts(student.bestTempos) },
+        ])
+      : null;
+  });
   protected readonly requirementLabel = requirementLabel;
-  protected readonly gradeLabel = gradeLabel;
-
-  /** The best tempo heard per requirement, in the order of the requirement codes. */
-  protected tempoEntries(tempos: Record<string, number>) {
-    return Object.entries(tempos)
-      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
-      .map(([key, value]) => ({ key, value }));
-  }
-  protected readonly rungLabel = rungLabel;
 
   protected find(): void {
     if (this.chosen().length === 0) return;

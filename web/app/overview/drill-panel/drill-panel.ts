@@ -1,10 +1,10 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { RouterLink } from '@angular/router';
 import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import type { DrillTarget } from '../../core/charts/chart-figure';
+import { RowsTable } from '../../core/charts/rows-table/rows-table';
 import { PageState } from '../../core/state/page-state';
 import { errorMessage } from '../../core/parse';
 import { OverviewData, type DrillRows } from '../overview-data';
@@ -29,7 +29,7 @@ const nouns: Record<DrillRows['path'], [string, string]> = {
     MatButtonModule,
     MatIconModule,
     MatProgressBarModule,
-    RouterLink,
+    RowsTable,
     PageState,
   ],
   templateUrl: './drill-panel.html',

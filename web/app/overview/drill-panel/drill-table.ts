@@ -1,22 +1,11 @@
+import {
+  studentCell,
+  tableOf,
+  type RowCell,
+  type RowTable,
+} from '../../core/charts/rows-table/row-cells';
 import type { DrillRows } from '../overview-data';
 import { gradeLabel, rungLabel } from '../overview-charts/figure-words';
-
-/** One cell of a drill table: its text, and where it links to when it names a student. */
-export interface DrillCell {
-  text: string;
-  /** Router link commands, when the cell links to a record. */
-  link?: (string | number)[];
-  /** Whether the cell heads its row (`<th scope="row">`). */
-  heads?: boolean;
-  /** An extra class for the cell (asset tags, capitalised words). */
-  cellClass?: string;
-}
-
-/** The rows behind a figure as a table: column headings, then one line of cells per row. */
-export interface DrillTable {
-  headings: string[];
-  lines: { id: number; cells: DrillCell[] }[];
-}
 
 const statusWords: Partial<Record<string, string>> = {
   active: 'Plays',
@@ -25,30 +14,12 @@ const statusWords: Partial<Record<string, string>> = {
   leaving: 'Left the district',
 };
 
-/** A student's name, last name first, heading its row and linking to the student. */
-function studentCell(student: { id: number; lastName: string; firstName: string }): DrillCell {
-  return {
-    text: `${student.lastName}, ${student.firstName}`,
-    link: ['/students', student.id],
-    heads: true,
-  };
-}
-
-function assetTagCell(row: { assetTag: string }): DrillCell {
+function assetTagCell(row: { assetTag: string }): RowCell {
   return { text: row.assetTag, heads: true, cellClass: 'tb-asset-tag' };
 }
 
-/** A table of the given headings with one line of cells per row. */
-function tableOf<Row extends { id: number }>(
-  headings: string[],
-  rows: Row[],
-  cells: (row: Row) => DrillCell[],
-): DrillTable {
-  return { headings, lines: rows.map((row) => ({ id: row.id, cells: cells(row) })) };
-}
-
 /** The table for each list the Overview drills into. */
-export function drillTable(rows: DrillRows): DrillTable {
+export function drillTable(rows: DrillRows): RowTable {
   switch (rows.path) {
     case '/api/analytics/students':
       return tableOf(
