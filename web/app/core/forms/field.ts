@@ -16,11 +16,17 @@ import { MatFormFieldModule, type MatFormFieldAppearance } from '@angular/materi
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import type { FilterChoice } from '../grid/filter-select/filter-select';
+
+/** Choices of a select under one heading, e.g. the instruments of one family. */
+export interface ChoiceGroup<T> {
+  label: string;
+  choices: readonly FilterChoice<T>[];
+}
 import { fieldMessage } from './record-form';
 
 /**
  * A field of a form: the form field (outlined unless `appearance` says otherwise), its label,
- * the `matInput` (or, given `choices`, the `mat-select`), an optional hint, and under it the
+ * the `matInput` (or, given `choices` or `groups`, the `mat-select`), an optional hint, and under it the
  * field's message. A record form binds
  * `control` and the message is `fieldMessage()` (the shared schema's words, or the API's field
  * error); a dialog that keeps its values in signals binds `[(value)]` instead, and its own check
@@ -39,7 +45,7 @@ import { fieldMessage } from './record-form';
       @if (prefix(); as prefix) {
         <span matTextPrefix>{{ prefix }}&nbsp;</span>
       }
-      @if (choices(); as choices) {
+      @if (choices() || groups()) {
         <mat-select
           [formControl]="bound()"
           [placeholder]="placeholder() ?? ''"
@@ -48,8 +54,15 @@ import { fieldMessage } from './record-form';
           @if (noneLabel(); as none) {
             <mat-option [value]="null">{{ none }}</mat-option>
           }
-          @for (choice of choices; track choice.value) {
+          @for (choice of choices() ?? []; track choice.value) {
             <mat-option [value]="choice.value">{{ choice.label }}</mat-option>
+          }
+          @for (group of groups() ?? []; track group.label) {
+            <mat-optgroup [label]="group.label">
+              @for (choice of group.choices; track choice.value) {
+                <mat-option [value]="choice.value">{{ choice.label }}</mat-option>
+              }
+            </mat-optgroup>
           }
         </mat-select>
       } @else if (rows(); as rows) {
@@ -109,6 +122,8 @@ export class Field<T = unknown> implements DoCheck {
   readonly rows = input<number | null>(null);
   /** A select of these choices instead of an input. */
   readonly choices = input<readonly FilterChoice<T>[] | null>(null);
+  /** A select of these choices under their headings (`mat-optgroup`) instead of an input. */
+  readonly groups = input<readonly ChoiceGroup<T>[] | null>(null);
   /** The select's first choice, for no value (null), e.g. "Not recorded"; none when null. */
   readonly noneLabel = input<string | null>(null);
   readonly hint = input('');

@@ -18,6 +18,7 @@ import type { ImportPreview, ImportResult } from '@shared/api/import';
 import type { ColumnMapping } from '@shared/roster/roster-columns';
 import { csvField } from '@shared/roster/roster-csv';
 import { errorMessage } from '../../core/parse';
+import { RowErrors } from '../../core/forms/row-errors';
 import { MappingForm } from '../mapping-form/mapping-form';
 import { OrgMapping } from '../org-mapping/org-mapping';
 import { PlanChanges } from '../plan-changes/plan-changes';
@@ -45,6 +46,7 @@ const errorsShown = 200;
     OrgMapping,
     PlanChanges,
     PreviewGrid,
+    RowErrors,
     UploadDrop,
   ],
   templateUrl: './import-wizard.html',

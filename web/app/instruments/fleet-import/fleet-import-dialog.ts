@@ -7,6 +7,7 @@ import { fleetCsvColumns, type FleetImportResult } from '@shared/api/instrument'
 import { errorMessage } from '../../core/parse';
 import { FleetInstruments } from '../instrument-data';
 import { createWrite } from '../../core/state/write';
+import { RowErrors } from '../../core/forms/row-errors';
 
 /**
  * Imports a fleet CSV in two steps: a dry run that lists every error by line and column, then a
@@ -14,7 +15,7 @@ import { createWrite } from '../../core/state/write';
  */
 @Component({
   selector: 'tb-fleet-import-dialog',
-  imports: [MatButtonModule, MatDialogModule, MatIconModule, MatProgressBarModule],
+  imports: [MatButtonModule, MatDialogModule, MatIconModule, MatProgressBarModule, RowErrors],
   templateUrl: './fleet-import-dialog.html',
   styleUrl: './fleet-import-dialog.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
