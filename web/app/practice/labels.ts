@@ -1,6 +1,4 @@
 import {
-  instrumentFamilies,
-  instruments,
   keyName,
   type Articulation,
   type InstrumentFamily,
@@ -8,7 +6,6 @@ import {
   type Mode,
   type PatternId,
 } from '@shared/music';
-import type { ChoiceGroup } from '../core/forms/field';
 
 /**
  * Text with its note names written with real accidentals, as the ladder writes them ('Eb
@@ -60,16 +57,6 @@ export const familyLabels: Record<InstrumentFamily, string> = {
   percussion: 'Mallet percussion',
   strings: 'Strings',
 };
-
-/** Every instrument as a choice of a select, under its family's heading. */
-export const instrumentChoiceGroups: readonly ChoiceGroup<string>[] = instrumentFamilies.map(
-  (family) => ({
-    label: familyLabels[family],
-    choices: instruments
-      .filter((instrument) => instrument.family === family)
-      .map((instrument) => ({ value: instrument.id, label: instrument.name })),
-  }),
-);
 
 /** How a clef is named in a caption. */
 export const clefLabels: Record<'treble' | 'bass' | 'alto', string> = {

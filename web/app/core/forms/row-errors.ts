@@ -1,6 +1,13 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import type { ImportRowError } from '@shared/api/import';
 
+/** The table's columns: each one's heading and its words for an error. */
+const columns: readonly { heading: string; text: (error: ImportRowError) => string }[] = [
+  { heading: 'Line', text: (error) => (error.line ? String(error.line) : 'file') },
+  { heading: 'Column', text: (error) => error.column || '—' },
+  { heading: 'Problem', text: (error) => error.message },
+];
+
 /**
  * The table of a file's errors, one row each: its line (or "file" for the file as a whole), its
  * column, and what is wrong. Long lists scroll inside the table, under its fixed head. Used by
@@ -12,17 +19,17 @@ import type { ImportRowError } from '@shared/api/import';
     <table>
       <thead>
         <tr>
-          <th scope="col">Line</th>
-          <th scope="col">Column</th>
-          <th scope="col">Problem</th>
+          @for (column of columns; track column.heading) {
+            <th scope="col">{{ column.heading }}</th>
+          }
         </tr>
       </thead>
       <tbody>
         @for (error of errors(); track $index) {
           <tr>
-            <td>{{ error.line || 'file' }}</td>
-            <td>{{ error.column || '—' }}</td>
-            <td>{{ error.message }}</td>
+            @for (column of columns; track column.heading) {
+              <td>{{ column.text(error) }}</td>
+            }
           </tr>
         }
       </tbody>
@@ -34,4 +41,6 @@ import type { ImportRowError } from '@shared/api/import';
 export class RowErrors {
   /** The errors to list, in the file's order. */
   readonly errors = input.required<readonly ImportRowError[]>();
+
+  protected readonly columns = columns;
 }

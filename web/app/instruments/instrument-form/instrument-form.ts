@@ -1,8 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, type AbstractControl } from '@angular/forms';
-import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatInputModule } from '@angular/material/input';
-import { MatSelectModule } from '@angular/material/select';
 import {
   instrumentConditions,
   instrumentInputSchema,
@@ -10,11 +7,11 @@ import {
   type Instrument,
   type InstrumentCondition,
 } from '@shared/api/instrument';
-import { instrumentFamilies, instruments } from '@shared/music/instrument-data';
 import { Field } from '../../core/forms/field';
+import { instrumentChoiceGroups } from '../../core/forms/instrument-choices';
 import { SaveRow } from '../../core/forms/save-row';
 import { choicesOf } from '../../core/grid/filter-select/filter-select';
-import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
+import { schemaValidator } from '../../core/forms/record-form';
 import { chooseOnlySchool } from '../../core/forms/only-school';
 import { FleetInstruments } from '../instrument-data';
 import { centsOf, conditionLabels, familyLabels, statusLooks } from '../instrument-labels';
@@ -34,15 +31,7 @@ function costValidator(control: AbstractControl) {
 /** An instrument's record as a form; adds an instrument when given none. */
 @Component({
   selector: 'tb-instrument-form',
-  imports: [
-    ConflictNotice,
-    Field,
-    MatFormFieldModule,
-    MatInputModule,
-    MatSelectModule,
-    ReactiveFormsModule,
-    SaveRow,
-  ],
+  imports: [ConflictNotice, Field, ReactiveFormsModule, SaveRow],
   templateUrl: './instrument-form.html',
   styleUrl: './instrument-form.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -54,10 +43,7 @@ export class InstrumentForm extends SchoolRecordForm<Instrument, Instrument> {
   readonly instrument = input<Instrument | null>(null);
   protected readonly record = this.instrument;
 
-  protected readonly families = instrumentFamilies.map((family) => ({
-    label: familyLabels[family],
-    kinds: instruments.filter((kind) => kind.family === family),
-  }));
+  protected readonly instrumentGroups = instrumentChoiceGroups(familyLabels);
   protected readonly conditions = choicesOf(
     instrumentConditions,
     (value) => conditionLabels[value],
@@ -71,7 +57,6 @@ export class InstrumentForm extends SchoolRecordForm<Instrument, Instrument> {
     const status = this.instrument()?.status;
     return status !== undefined && (manualInstrumentStatuses as readonly string[]).includes(status);
   });
-  protected readonly fieldMessage = fieldMessage;
 
   protected readonly form = inject(NonNullableFormBuilder).group({
     assetTag: ['', schemaValidator(fields.assetTag)],

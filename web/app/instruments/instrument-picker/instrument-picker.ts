@@ -7,8 +7,11 @@ import {
   output,
   signal,
 } from '@angular/core';
+import { MatAutocompleteModule } from '@angular/material/autocomplete';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
 import { map } from 'rxjs';
-import { PickerOption, SearchPicker } from '../../core/forms/search-picker';
 import { injectTypedSearch } from '../../core/state/typed-search';
 import type { Instrument, InstrumentStatus } from '@shared/api/instrument';
 import { FleetInstruments } from '../instrument-data';
@@ -17,27 +20,52 @@ import { statusLooks } from '../instrument-labels';
 /** Finds an instrument by asset tag (or serial, maker, model) as the user types. */
 @Component({
   selector: 'tb-instrument-picker',
-  imports: [PickerOption, SearchPicker],
+  imports: [MatAutocompleteModule, MatFormFieldModule, MatIconModule, MatInputModule],
   template: `
-    <tb-search-picker
-      [label]="label()"
-      placeholder="Type an asset tag"
-      [noMatch]="noMatch()"
-      [hint]="hint()"
-      [search]="search"
-      [describe]="describe"
-      testId="instrument-picker"
-      [(text)]="text"
-      (picked)="picked.emit($event)"
-    >
-      <ng-template [tbPickerOption]="search" let-instrument>
-        <strong>{{ instrument.assetTag }}</strong> · {{ instrument.instrumentName }} ·
-        {{ instrument.homeSchoolCode }}
-        @if (!status()) {
-          · {{ statusLooks[instrument.status].label }}
+    <mat-form-field appearance="outline" class="picker">
+      <mat-label>{{ label() }}</mat-label>
+      <mat-icon matPrefix svgIcon="search" />
+      <input
+        matInput
+        type="search"
+        [matAutocomplete]="choices"
+        [value]="text()"
+        #searchBox
+        (input)="typed(searchBox.value)"
+        placeholder="Type an asset tag"
+        autocomplete="off"
+        data-testid="instrument-picker"
+      />
+      <mat-autocomplete
+        #choices="matAutocomplete"
+        [displayWith]="describe"
+        (optionSelected)="pick($event.option.value)"
+      >
+        @for (instrument of search.found(); track instrument.id) {
+          <mat-option [value]="instrument">
+            <strong>{{ instrument.assetTag }}</strong> · {{ instrument.instrumentName }} ·
+            {{ instrument.homeSchoolCode }}
+            @if (!status()) {
+              · {{ statusLooks[instrument.status].label }}
+            }
+          </mat-option>
         }
-      </ng-template>
-    </tb-search-picker>
+        @if (search.searched() && search.found().length === 0) {
+          <mat-option disabled
+            >No {{ status() ? statusLooks[status()!].label.toLowerCase() + ' ' : '' }}instrument
+            matches.</mat-option
+          >
+        }
+      </mat-autocomplete>
+      @if (hint()) {
+        <mat-hint>{{ hint() }}</mat-hint>
+      }
+    </mat-form-field>
+  `,
+  styles: `
+    .picker {
+      width: 100%;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
@@ -74,9 +102,13 @@ export class InstrumentPicker {
     });
   }
 
-  /** The words of the "nothing matches" line, naming the status searched for. */
-  protected noMatch(): string {
-    const status = this.status();
-    return `No ${status ? statusLooks[status].label.toLowerCase() + ' ' : ''}instrument matches.`;
+  protected typed(text: string): void {
+    this.text.set(text);
+    this.picked.emit(null);
+    this.search.typed(text);
+  }
+
+  protected pick(instrument: Instrument): void {
+    this.picked.emit(instrument);
   }
 }

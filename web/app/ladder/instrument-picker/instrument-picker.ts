@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, input, model } from '@angular/core';
 import { Field } from '../../core/forms/field';
-import { instrumentChoiceGroups } from '../../practice/labels';
+import { instrumentChoiceGroups } from '../../core/forms/instrument-choices';
+import { familyLabels } from '../../practice/labels';
 
 /** Picks the instrument practice-sheet links are written for, grouped by family. */
 @Component({
@@ -28,5 +29,5 @@ export class InstrumentPicker {
   /** The chosen instrument's id. */
   readonly instrumentId = model.required<string>();
   readonly label = input('Practice sheets for');
-  protected readonly groups = instrumentChoiceGroups;
+  protected readonly groups = instrumentChoiceGroups(familyLabels);
 }

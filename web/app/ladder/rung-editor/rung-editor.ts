@@ -8,12 +8,52 @@ import { MatSelectModule } from '@angular/material/select';
 import { MatTooltipModule } from '@angular/material/tooltip';
 import type { LadderRequirement, LadderRung } from '@shared/api/ladder';
 import { requirementTempoRange } from '@shared/api/ladder';
-import { articulations, instrumentFamilies, modes, patternIds, type Mode } from '@shared/music';
+import { articulations, instrumentFamilies, modes, patternIds } from '@shared/music';
 import { articulationLabels, familyLabels, modeLabels, patternLabels } from '../../practice/labels';
 import type { FieldErrors } from '../ladder-editor/draft-model';
 import { tonicsForMode } from '../ladder-editor/draft-model';
 import { tonicText } from '../requirement-text';
 import { IconButton } from '../../core/icon-button/icon-button';
+import { Field } from '../../core/forms/field';
+import { choicesOf, type FilterChoice } from '../../core/grid/filter-select/filter-select';
+
+/** One of a requirement's selects: the field it sets, its label, and its choices. */
+interface RequirementSelect {
+  key: 'mode' | 'tonic' | 'pattern' | 'articulation' | 'octaves';
+  label: string;
+  placeholder: string | null;
+  choices: (requirement: LadderRequirement) => readonly FilterChoice<string | number>[];
+}
+
+const modeChoices = choicesOf(modes, (mode) => modeLabels[mode]);
+/** The concert keys offered for each scale, major or minor. */
+const tonicChoices = new Map(
+  modes.map((mode) => [mode, choicesOf(tonicsForMode(mode), tonicText)]),
+);
+const patternChoices = choicesOf(patternIds, (id) => patternLabels[id]);
+const articulationChoices = choicesOf(articulations, (id) => articulationLabels[id]);
+const octaveChoices = [
+  { value: 1, label: '1' },
+  { value: 2, label: '2' },
+];
+
+const requirementSelects: readonly RequirementSelect[] = [
+  { key: 'mode', label: 'Scale', placeholder: null, choices: () => modeChoices },
+  {
+    key: 'tonic',
+    label: 'Concert key',
+    placeholder: 'Choose',
+    choices: (requirement) => tonicChoices.get(requirement.mode) ?? [],
+  },
+  { key: 'pattern', label: 'Pattern', placeholder: null, choices: () => patternChoices },
+  {
+    key: 'articulation',
+    label: 'Articulation',
+    placeholder: null,
+    choices: () => articulationChoices,
+  },
+  { key: 'octaves', label: 'Octaves', placeholder: null, choices: () => octaveChoices },
+];
 
 /** One change to one requirement of the rung. */
 export interface RequirementEdit {
@@ -25,6 +65,7 @@ export interface RequirementEdit {
 @Component({
   selector: 'tb-rung-editor',
   imports: [
+    Field,
     IconButton,
     MatButtonModule,
     MatCheckboxModule,
@@ -52,20 +93,11 @@ export class RungEditor {
   readonly move = output<-1 | 1>();
   readonly remove = output<void>();
 
-  protected readonly modes = modes;
-  protected readonly patternIds = patternIds;
-  protected readonly articulations = articulations;
+  /** The requirement's selects, in the order a director fills them in (the tempo follows). */
+  protected readonly selects = requirementSelects;
   protected readonly families = instrumentFamilies;
-  protected readonly modeLabels = modeLabels;
-  protected readonly patternLabels = patternLabels;
-  protected readonly articulationLabels = articulationLabels;
   protected readonly familyLabels = familyLabels;
-  protected readonly tonicText = tonicText;
   protected readonly tempoRange = requirementTempoRange;
-
-  protected tonicsFor(mode: Mode): readonly string[] {
-    return tonicsForMode(mode);
-  }
 
   /** The API's message for a field of this rung ('title') or of one requirement ('2.tempo'). */
   protected error(field: string): string {
@@ -74,6 +106,20 @@ export class RungEditor {
 
   protected requirementError(position: number, field: string): string {
     return this.error(`requirements.${position}.${field}`);
+  }
+
+  /** The API's message as the editor shows it under a field: led by a warning sign. */
+  protected warning(message: string): string {
+    return message ? `⚠ ${message}` : '';
+  }
+
+  /** A choice made in one of the requirement's selects. */
+  protected choose(
+    index: number,
+    key: RequirementSelect['key'],
+    value: string | number | null,
+  ): void {
+    if (value !== null) this.edit(index, { [key]: value } as Partial<LadderRequirement>);
   }
 
   protected edit(index: number, patch: Partial<LadderRequirement>): void {

@@ -1,5 +1,8 @@
-import { ChangeDetectionStrategy, Component, inject, input, output } from '@angular/core';
-import { PickerOption, SearchPicker } from '../../core/forms/search-picker';
+import { ChangeDetectionStrategy, Component, inject, output } from '@angular/core';
+import { MatAutocompleteModule } from '@angular/material/autocomplete';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
 import { injectTypedSearch } from '../../core/state/typed-search';
 import type { Student } from '@shared/api/student';
 import { StudentData } from '../../students/student-detail/student-data';
@@ -7,46 +10,61 @@ import { StudentData } from '../../students/student-detail/student-data';
 /** Finds an active student of the user's schools by name or student ID as the user types. */
 @Component({
   selector: 'tb-student-picker',
-  imports: [PickerOption, SearchPicker],
+  imports: [MatAutocompleteModule, MatFormFieldModule, MatIconModule, MatInputModule],
   template: `
-    <tb-search-picker
-      [label]="label()"
-      placeholder="Last name, first name or student ID"
-      [noMatch]="noMatch()"
-      [hint]="hint()"
-      [search]="search"
-      [describe]="describe"
-      [testId]="testId()"
-      (picked)="picked.emit($event)"
-    >
-      <ng-template [tbPickerOption]="search" let-student>
-        <strong>{{ student.preferredName ?? student.firstName }} {{ student.lastName }}</strong>
-        · grade {{ student.gradeLabel }} · {{ student.schoolCode }} ·
-        {{ student.studentNumber }}
-      </ng-template>
-    </tb-search-picker>
+    <mat-form-field appearance="outline" class="picker">
+      <mat-label>Student</mat-label>
+      <mat-icon matPrefix svgIcon="search" />
+      <input
+        matInput
+        type="search"
+        [matAutocomplete]="choices"
+        #searchBox
+        (input)="typed(searchBox.value)"
+        placeholder="Last name, first name or student ID"
+        autocomplete="off"
+        data-testid="student-picker"
+      />
+      <mat-autocomplete
+        #choices="matAutocomplete"
+        [displayWith]="describe"
+        (optionSelected)="picked.emit($event.option.value)"
+      >
+        @for (student of search.found(); track student.id) {
+          <mat-option [value]="student">
+            <strong>{{ student.preferredName ?? student.firstName }} {{ student.lastName }}</strong>
+            · grade {{ student.gradeLabel }} · {{ student.schoolCode }} ·
+            {{ student.studentNumber }}
+          </mat-option>
+        }
+        @if (search.searched() && search.found().length === 0) {
+          <mat-option disabled>No active student of your schools matches.</mat-option>
+        }
+      </mat-autocomplete>
+    </mat-form-field>
+  `,
+  styles: `
+    .picker {
+      width: 100%;
+    }
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class StudentPicker {
   private readonly students = inject(StudentData);
 
-  readonly label = input('Student');
-  readonly noMatch = input('No active student of your schools matches.');
-  readonly hint = input('');
-  /** How many students a search lists at the most. */
-  readonly limit = input(12);
-  readonly testId = input('student-picker');
-  /** The chosen student, or null while the user types. */
   readonly picked = output<Student | null>();
 
-  protected readonly search = injectTypedSearch((text) =>
-    this.students.findActive(text, this.limit()),
-  );
+  protected readonly search = injectTypedSearch((text) => this.students.findActive(text, 12));
   protected readonly describe = (student: Student | string | null) =>
     typeof student === 'string'
       ? student
       : student
         ? `${student.preferredName ?? student.firstName} ${student.lastName} (${student.studentNumber})`
         : '';
+
+  protected typed(text: string): void {
+    this.picked.emit(null);
+    this.search.typed(text);
+  }
 }

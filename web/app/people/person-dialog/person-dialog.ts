@@ -1,12 +1,15 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
+import { MatAutocompleteModule } from '@angular/material/autocomplete';
 import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
+import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { startWith } from 'rxjs';
+import { injectTypedSearch } from '../../core/state/typed-search';
 import {
   assignmentProblems,
   needsSchools,
@@ -21,7 +24,7 @@ import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
-import { StudentPicker } from '../../loans/checkout-dialog/student-picker';
+import { StudentData } from '../../students/student-detail/student-data';
 import { createDialogSave } from '../../core/state/dialog-save';
 
 /** What the person dialog edits: a person, or null to add one. */
@@ -44,11 +47,12 @@ const roleHints: Record<Role, string> = {
   imports: [
     Field,
     ReactiveFormsModule,
-    StudentPicker,
+    MatAutocompleteModule,
     MatButtonModule,
     MatDialogModule,
     MatFormFieldModule,
     MatIconModule,
+    MatInputModule,
     MatSelectModule,
   ],
   templateUrl: './person-dialog.html',
@@ -88,6 +92,9 @@ export class PersonDialog {
   protected readonly linkedStudent = signal<{ name: string; studentNumber: string } | null>(
     this.person?.student ?? null,
   );
+  private readonly students = inject(StudentData);
+  /** Active students whose name or student id matches the text, to link a student account. */
+  protected readonly studentSearch = injectTypedSearch((text) => this.students.findActive(text, 8));
   protected readonly saving = this.dialogSave.saving;
   protected readonly conflict = signal(false);
   protected readonly failure = this.dialogSave.failure;
@@ -97,9 +104,11 @@ export class PersonDialog {
     if (this.isSelf) this.form.controls.role.disable();
   }
 
-  /** Links the student chosen in the picker (typing clears nothing: the link stays until then). */
-  protected studentPicked(student: Student | null): void {
-    if (!student) return;
+  protected studentTyped(text: string): void {
+    this.studentSearch.typed(text);
+  }
+
+  protected studentPicked(student: Student): void {
     this.form.controls.studentId.setValue(student.id);
     this.form.controls.studentId.markAsTouched();
     this.linkedStudent.set({
@@ -107,6 +116,11 @@ export class PersonDialog {
       studentNumber: student.studentNumber,
     });
   }
+
+  protected readonly describeStudent = (student: Student | string | null) =>
+    typeof student === 'string' || !student
+      ? (student ?? '')
+      : `${student.firstName} ${student.lastName}`;
 
   protected save(): void {
     this.form.markAllAsTouched();
