@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject, output } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject, input, output } from '@angular/core';
 import { MatAutocompleteModule } from '@angular/material/autocomplete';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
@@ -13,7 +13,7 @@ import { StudentData } from '../../students/student-detail/student-data';
   imports: [MatAutocompleteModule, MatFormFieldModule, MatIconModule, MatInputModule],
   template: `
     <mat-form-field appearance="outline" class="picker">
-      <mat-label>Student</mat-label>
+      <mat-label>{{ label() }}</mat-label>
       <mat-icon matPrefix svgIcon="search" />
       <input
         matInput
@@ -23,7 +23,7 @@ import { StudentData } from '../../students/student-detail/student-data';
         (input)="typed(searchBox.value)"
         placeholder="Last name, first name or student ID"
         autocomplete="off"
-        data-testid="student-picker"
+        [attr.data-testid]="testId()"
       />
       <mat-autocomplete
         #choices="matAutocomplete"
@@ -38,9 +38,12 @@ import { StudentData } from '../../students/student-detail/student-data';
           </mat-option>
         }
         @if (search.searched() && search.found().length === 0) {
-          <mat-option disabled>No active student of your schools matches.</mat-option>
+          <mat-option disabled>{{ noMatch() }}</mat-option>
         }
       </mat-autocomplete>
+      @if (hint()) {
+        <mat-hint>{{ hint() }}</mat-hint>
+      }
     </mat-form-field>
   `,
   styles: `
@@ -53,9 +56,19 @@ import { StudentData } from '../../students/student-detail/student-data';
 export class StudentPicker {
   private readonly students = inject(StudentData);
 
+  readonly label = input('Student');
+  /** The line shown when no student matches the text. */
+  readonly noMatch = input('No active student of your schools matches.');
+  readonly hint = input('');
+  /** How many students a search offers at the most. */
+  readonly limit = input(12);
+  readonly testId = input('student-picker');
+  /** The chosen student; null as soon as the text changes. */
   readonly picked = output<Student | null>();
 
-  protected readonly search = injectTypedSearch((text) => this.students.findActive(text, 12));
+  protected readonly search = injectTypedSearch((text) =>
+    this.students.findActive(text, this.limit()),
+  );
   protected readonly describe = (student: Student | string | null) =>
     typeof student === 'string'
       ? student

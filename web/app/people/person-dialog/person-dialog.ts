@@ -1,15 +1,12 @@
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { toSignal } from '@angular/core/rxjs-interop';
 import { NonNullableFormBuilder, ReactiveFormsModule } from '@angular/forms';
-import { MatAutocompleteModule } from '@angular/material/autocomplete';
 import { MatButtonModule } from '@angular/material/button';
 import { MAT_DIALOG_DATA, MatDialogModule } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { startWith } from 'rxjs';
-import { injectTypedSearch } from '../../core/state/typed-search';
 import {
   assignmentProblems,
   needsSchools,
@@ -24,7 +21,7 @@ import { Field } from '../../core/forms/field';
 import { fieldMessage, saveFailureMessage, schemaValidator } from '../../core/forms/record-form';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { PeopleData } from '../people-data';
-import { StudentData } from '../../students/student-detail/student-data';
+import { StudentPicker } from '../../loans/checkout-dialog/student-picker';
 import { createDialogSave } from '../../core/state/dialog-save';
 
 /** What the person dialog edits: a person, or null to add one. */
@@ -47,13 +44,12 @@ const roleHints: Record<Role, string> = {
   imports: [
     Field,
     ReactiveFormsModule,
-    MatAutocompleteModule,
     MatButtonModule,
     MatDialogModule,
     MatFormFieldModule,
     MatIconModule,
-    MatInputModule,
     MatSelectModule,
+    StudentPicker,
   ],
   templateUrl: './person-dialog.html',
   styleUrl: './person-dialog.scss',
@@ -92,9 +88,6 @@ export class PersonDialog {
   protected readonly linkedStudent = signal<{ name: string; studentNumber: string } | null>(
     this.person?.student ?? null,
   );
-  private readonly students = inject(StudentData);
-  /** Active students whose name or student id matches the text, to link a student account. */
-  protected readonly studentSearch = injectTypedSearch((text) => this.students.findActive(text, 8));
   protected readonly saving = this.dialogSave.saving;
   protected readonly conflict = signal(false);
   protected readonly failure = this.dialogSave.failure;
@@ -104,11 +97,9 @@ export class PersonDialog {
     if (this.isSelf) this.form.controls.role.disable();
   }
 
-  protected studentTyped(text: string): void {
-    this.studentSearch.typed(text);
-  }
-
-  protected studentPicked(student: Student): void {
+  /** Links the student chosen in the picker; typing again keeps the link until the next pick. */
+  protected studentPicked(student: Student | null): void {
+    if (!student) return;
     this.form.controls.studentId.setValue(student.id);
     this.form.controls.studentId.markAsTouched();
     this.linkedStudent.set({
@@ -116,11 +107,6 @@ export class PersonDialog {
       studentNumber: student.studentNumber,
     });
   }
-
-  protected readonly describeStudent = (student: Student | string | null) =>
-    typeof student === 'string' || !student
-      ? (student ?? '')
-      : `${student.firstName} ${student.lastName}`;
 
   protected save(): void {
     this.form.markAllAsTouched();
