@@ -49,6 +49,7 @@ import { fieldMessage } from './record-form';
         <mat-select
           [formControl]="bound()"
           [placeholder]="placeholder() ?? ''"
+          [attr.aria-label]="ariaLabel()"
           [attr.data-testid]="testId()"
         >
           @if (noneLabel(); as none) {
@@ -86,7 +87,7 @@ import { fieldMessage } from './record-form';
         />
       }
       @if (error()) {
-        <mat-hint class="error">{{ error() }}</mat-hint>
+        <mat-hint class="field-error">{{ error() }}</mat-hint>
       } @else if (hint()) {
         <mat-hint>{{ hint() }}</mat-hint>
       }
@@ -99,7 +100,7 @@ import { fieldMessage } from './record-form';
       display: flex;
       flex-direction: column;
     }
-    .error {
+    .field-error {
       color: var(--tb-danger);
     }
   `,
@@ -142,6 +143,8 @@ export class Field<T = unknown> implements DoCheck {
   readonly dense = input(false, { transform: booleanAttribute });
   /** The browser's autofill hint (HTML, "autocomplete" attribute): 'organization', 'tel'. */
   readonly autocomplete = input('off');
+  /** A name for a screen reader that says more than the label, e.g. the row of a table cell. */
+  readonly ariaLabel = input<string | null>(null);
   /** The input's data-testid, for browser tests. */
   readonly testId = input<string | null>(null);
 

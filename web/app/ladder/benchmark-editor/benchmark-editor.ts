@@ -3,9 +3,9 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
-import { MatSelectModule } from '@angular/material/select';
 import { gradeText } from '../date-text';
-import type { BenchmarkGrid, FieldErrors } from '../ladder-editor/draft-model';
+import { warningText, type BenchmarkGrid, type FieldErrors } from '../ladder-editor/draft-model';
+import { Field } from '../../core/forms/field';
 import { IconButton } from '../../core/icon-button/icon-button';
 
 const allGrades = Array.from({ length: 13 }, (_unused, grade) => grade);
@@ -13,14 +13,7 @@ const allGrades = Array.from({ length: 13 }, (_unused, grade) => grade);
 /** Edits the benchmarks: the dates they fall on, and for each grade the rung due by each date. */
 @Component({
   selector: 'tb-benchmark-editor',
-  imports: [
-    IconButton,
-    MatButtonModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatInputModule,
-    MatSelectModule,
-  ],
+  imports: [Field, IconButton, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule],
   templateUrl: './benchmark-editor.html',
   styleUrl: './benchmark-editor.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -32,12 +25,19 @@ export class BenchmarkEditor {
   readonly gridChange = output<BenchmarkGrid>();
 
   protected readonly gradeText = gradeText;
+  protected readonly warningText = warningText;
   protected readonly rungChoices = computed(() =>
-    Array.from({ length: this.rungCount() + 1 }, (_unused, rung) => rung),
+    Array.from({ length: this.rungCount() + 1 }, (_unused, rung) => ({
+      value: rung,
+      label: rung === 0 ? 'Not started' : `Rung ${rung}`,
+    })),
   );
-  protected readonly missingGrades = computed(() => {
+  /** The grades not in the table yet, to add one. */
+  protected readonly gradeChoices = computed(() => {
     const present = new Set(this.grid().rows.map((row) => row.grade));
-    return allGrades.filter((grade) => !present.has(grade));
+    return allGrades
+      .filter((grade) => !present.has(grade))
+      .map((grade) => ({ value: grade, label: `Grade ${gradeText(grade)}` }));
   });
 
   protected error(row: number, column: number): string {
@@ -84,7 +84,9 @@ export class BenchmarkEditor {
     });
   }
 
-  protected addGrade(grade: number): void {
+  /** Adds the grade chosen in "Add a grade" (null when the choice is cleared: nothing to add). */
+  protected addGrade(grade: number | null): void {
+    if (grade === null) return;
     const grid = this.grid();
     const rows = [...grid.rows, { grade, rungs: grid.checkpoints.map(() => null) }].sort(
       (a, b) => a.grade - b.grade,

@@ -23,6 +23,11 @@ export interface DraftModel {
 /** Field errors by their API path ('rungs.0.requirements.2.tempo'). */
 export type FieldErrors = ReadonlyMap<string, string>;
 
+/** The API's message as the editor shows it under a field: led by a warning sign; '' for none. */
+export function warningText(message: string | undefined): string {
+  return message ? `⚠ ${message}` : '';
+}
+
 /** The tonics offered for a mode: the 15 minor keys for a minor scale, else the 15 major. */
 export function tonicsForMode(mode: Mode): readonly string[] {
   return isMinor(mode) ? minorTonics : majorTonics;

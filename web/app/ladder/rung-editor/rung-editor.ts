@@ -11,7 +11,7 @@ import { requirementTempoRange } from '@shared/api/ladder';
 import { articulations, instrumentFamilies, modes, patternIds } from '@shared/music';
 import { articulationLabels, familyLabels, modeLabels, patternLabels } from '../../practice/labels';
 import type { FieldErrors } from '../ladder-editor/draft-model';
-import { tonicsForMode } from '../ladder-editor/draft-model';
+import { tonicsForMode, warningText } from '../ladder-editor/draft-model';
 import { tonicText } from '../requirement-text';
 import { IconButton } from '../../core/icon-button/icon-button';
 import { Field } from '../../core/forms/field';
@@ -98,6 +98,7 @@ export class RungEditor {
   protected readonly families = instrumentFamilies;
   protected readonly familyLabels = familyLabels;
   protected readonly tempoRange = requirementTempoRange;
+  protected readonly warningText = warningText;
 
   /** The API's message for a field of this rung ('title') or of one requirement ('2.tempo'). */
   protected error(field: string): string {
@@ -106,11 +107,6 @@ export class RungEditor {
 
   protected requirementError(position: number, field: string): string {
     return this.error(`requirements.${position}.${field}`);
-  }
-
-  /** The API's message as the editor shows it under a field: led by a warning sign. */
-  protected warning(message: string): string {
-    return message ? `⚠ ${message}` : '';
   }
 
   /** A choice made in one of the requirement's selects. */
