@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
+import { ChangeDetectionStrategy, Component, input, output } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
@@ -95,34 +95,6 @@ export class RungEditor {
 
   /** The requirement's selects, in the order a director fills them in (the tempo follows). */
   protected readonly selects = requirementSelects;
-  /** What can be done with the whole rung, as buttons beside its title. */
-  protected readonly actions = computed(() => {
-    const index = this.index();
-    const number = index + 1;
-    return [
-      {
-        icon: 'arrow_upward',
-        label: `Move rung ${number} up`,
-        tip: 'Move up',
-        disabled: index === 0,
-        run: () => this.move.emit(-1),
-      },
-      {
-        icon: 'arrow_downward',
-        label: `Move rung ${number} down`,
-        tip: 'Move down',
-        disabled: index === this.rungCount() - 1,
-        run: () => this.move.emit(1),
-      },
-      {
-        icon: 'delete',
-        label: `Remove rung ${number}`,
-        tip: 'Remove the rung',
-        disabled: false,
-        run: () => this.remove.emit(),
-      },
-    ];
-  });
   protected readonly families = instrumentFamilies;
   protected readonly familyLabels = familyLabels;
   protected readonly tempoRange = requirementTempoRange;
