@@ -264,7 +264,8 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   await findDistrictRow(db);
 
   app.use(arrivalOrder);
-  const pages = webPages(webRoot);
+  const serveWeb = options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'));
+  const pages = webPages(serveWeb ? webRoot : null);
   app.use(securityHeaders(config, pages));
   app.use(overHttps(config, logger));
   // Brotli or gzip (RFC 9110 §8.4, content codings; RFC 7932 for brotli) for every compressible
@@ -287,8 +288,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   app.use(districtLogoRoute(services));
   app.use(requireDistrict(db));
   app.use(payPages(services));
-  if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html')))
-    app.use(webApp(services, pages));
+  if (serveWeb) app.use(webApp(services, pages));
   app.use(errorHandler(logger));
   // The mail worker and report scheduler; server/main.ts and the test harness call it on close.
   app.locals['stop'] = startBackgroundWork(services);

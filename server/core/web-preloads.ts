@@ -168,9 +168,10 @@ export interface WebPages {
 /**
  * The index page, served for every address of the app and kept by the service worker, with the
  * preloader of the screens' files when the build wrote its metafile beside the browser folder;
- * read again when the build's index page changes.
+ * read again when the build's index page changes. With no web root (an app serving only the API)
+ * there is no page.
  */
-export function webPages(webRoot: string): WebPages {
+export function webPages(webRoot: string | null): WebPages {
   let built: {
     stamp: number;
     html: string;
@@ -178,6 +179,7 @@ export function webPages(webRoot: string): WebPages {
     hashes: string[];
   } | null = null;
   const current = () => {
+    if (webRoot === null) return null;
     const indexFile = path.join(webRoot, 'index.html');
     if (!fs.existsSync(indexFile)) return null;
     const stamp = fs.statSync(indexFile).mtimeMs;

@@ -327,8 +327,8 @@ describe('Pass-offs entry', () => {
     const preloads = async (address: string) => {
       await page.goto(`${app.url}${address}`, { waitUntil: 'domcontentloaded' });
       return page.evaluate(() =>
-        [...document.querySelectorAll('link[rel=modulepreload]')].map((link) =>
-          link.getAttribute('href')!,
+        Array.from(document.querySelectorAll('link[rel=modulepreload]'), (link) =>
+          link.getAttribute('href'),
         ),
       );
     };
