@@ -43,7 +43,7 @@ import { outboxRoutes } from './mail/outbox-routes';
 import { reportsRoutes } from './reports/reports-routes';
 import { startBackgroundWork } from './reports/background-work';
 import { webRoot } from './project-paths';
-import { indexPages } from './core/web-preloads';
+import { webPages, type WebPages } from './core/web-preloads';
 import { embeddedReads, sendWithEmbeddedReads, sessionActor } from './core/embedded-reads';
 import { can } from './core/policy';
 import { districtLogoRoute, districtRoutes, requireDistrict } from './district/district-routes';
@@ -134,7 +134,7 @@ function overHttps(config: Config, logger: Logger): RequestHandler {
  * (and the inline ones Angular and the grid inject), images, fonts and workers; forms may post to
  * the identity provider (sign-out) and the payment service ("Pay the usage fee").
  */
-function securityHeaders(config: Config): RequestHandler {
+function securityHeaders(config: Config, pages: WebPages): RequestHandler {
   const issuerOrigin = new URL(config.oidcIssuer).origin;
   // "Pay the usage fee" posts here and is redirected on to the payment service's hosted page.
   const paymentOrigins = config.payments
@@ -145,7 +145,8 @@ function securityHeaders(config: Config): RequestHandler {
       useDefaults: false,
       directives: {
         defaultSrc: ["'self'"],
-        scriptSrc: ["'self'"],
+        // The index page's one inline script (the screens' preloads), by its hash.
+        scriptSrc: ["'self'", () => pages.scriptHashes().join(' ')],
         // Angular's component styles and the grid's theme are injected as <style> elements.
         styleSrc: ["'self'", "'unsafe-inline'"],
         imgSrc: ["'self'", 'data:', 'blob:'],
@@ -209,25 +210,36 @@ function apiRouter(services: Services, localKey: string | undefined): Router {
 
 /**
  * The built web app: its files, and for every other GET (HTML5 routing) the app's index page,
- * naming a screen's code ahead where it has one. For a signed-in user with the screen's
- * capability, that page also carries the answers of the screen's first reads, read for them as the
- * API would (never for a signed-out request, never stored: the service worker keeps the plain
- * `/index.html` it fetches itself).
+ * which names a screen's code ahead (see `webPages`). For a signed-in user with the screen's
+ * capability, the page served at its address also carries the answers of the screen's first reads,
+ * read for them as the API would (never for a signed-out request, never stored: the service worker
+ * keeps the plain `/index.html` it fetches itself, with the worker's manifest naming its hash).
  */
-function webApp({ db, logger }: Services): Router {
+function webApp({ db, logger }: Services, pages: WebPages): Router {
   const web = Router();
+  web.get('/ngsw.json', (_request, response, next) => {
+    const manifest = pages.workerManifest();
+    if (manifest === undefined) return next();
+    response.set('Cache-Control', 'no-cache').type('json').send(manifest);
+  });
+  web.get('/index.html', (_request, response, next) => {
+    const html = pages.index();
+    if (html === undefined) return next();
+    response.set('Cache-Control', 'no-cache').type('html').send(html);
+  });
   web.use(express.static(webRoot, { index: false, maxAge: '1h', setHeaders: webCacheHeaders }));
-  const indexPage = indexPages(webRoot);
   web.get('/{*splat}', async (request, response) => {
     response.set('Cache-Control', 'no-cache');
-    const page = indexPage(request.path);
-    if (page === undefined) return response.sendFile(path.join(webRoot, 'index.html'));
-    const actor = await sessionActor(db, request);
-    if (!actor || !can(actor, page.screen.capability)) return response.type('html').send(page.html);
+    const html = pages.index();
+    if (html === undefined) return response.sendFile(path.join(webRoot, 'index.html'));
+    const screen = pages.screen(request.path);
+    const actor = screen && (await sessionActor(db, request));
+    if (!screen || !actor || !can(actor, screen.capability))
+      return response.type('html').send(html);
     await sendWithEmbeddedReads(
       response,
-      page.html,
-      () => embeddedReads(db, actor, page.screen.reads(request.query)),
+      html,
+      () => embeddedReads(db, actor, screen.reads(request.query)),
       logger,
     );
   });
@@ -252,7 +264,9 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   await findDistrictRow(db);
 
   app.use(arrivalOrder);
-  app.use(securityHeaders(config));
+  const serveWeb = options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html'));
+  const pages = webPages(serveWeb ? webRoot : null);
+  app.use(securityHeaders(config, pages));
   app.use(overHttps(config, logger));
   // Brotli or gzip (RFC 9110 §8.4, content codings; RFC 7932 for brotli) for every compressible
   // answer over 1 kB: the app's scripts, styles and the API's JSON. On a slow phone network the
@@ -274,8 +288,7 @@ export async function createApp(config: Config, options: AppOptions): Promise<Ex
   app.use(districtLogoRoute(services));
   app.use(requireDistrict(db));
   app.use(payPages(services));
-  if (options.serveWeb ?? fs.existsSync(path.join(webRoot, 'index.html')))
-    app.use(webApp(services));
+  if (serveWeb) app.use(webApp(services, pages));
   app.use(errorHandler(logger));
   // The mail worker and report scheduler; server/main.ts and the test harness call it on close.
   app.locals['stop'] = startBackgroundWork(services);

@@ -1,9 +1,11 @@
+import crypto from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import {
   namedScripts,
   screenPreloads,
   staticImports,
-  withPreloads,
+  withIndexHash,
+  withPreloader,
   type BuildMetafile,
 } from './web-preloads';
 
@@ -53,14 +55,48 @@ describe('web preloads', () => {
     expect(screenPreloads(metafile, ['web/app/missing.ts'], named)).toEqual([]);
   });
 
-  it('should read the scripts an index page names and add the preloads after them', () => {
+  it('should read the scripts an index page names and add the preloader after them', () => {
     const page =
       '<html><head></head><body><tb-root></tb-root><link rel="modulepreload" href="chunk-CORECORE.js"><script src="main-AAAAAAAA.js" type="module"></script></body></html>';
     expect([...namedScripts(page)]).toEqual(['chunk-CORECORE.js', 'main-AAAAAAAA.js']);
-    const preloaded = withPreloads(page, ['dist/web/browser/chunk-SCREEN01.js']);
-    // HTML Living Standard, "Link type modulepreload": a link element with rel and href.
-    expect(preloaded).toContain(
-      '<script src="main-AAAAAAAA.js" type="module"></script><link rel="modulepreload" href="chunk-SCREEN01.js"></body>',
+    const { html, scriptHash } = withPreloader(page, [
+      { path: /^\/screen\/?$/, files: ['dist/web/browser/chunk-SCREEN01.js'] },
+    ]);
+    expect(html).toMatch(
+      /<script src="main-AAAAAAAA.js" type="module"><\/script><script>.+<\/script><\/body>/,
     );
+    // CSP Level 3, "hash-source": 'sha256-' and the base64 SHA-256 of the script element's text.
+    const text = /<script>(.+)<\/script>/.exec(html)![1]!;
+    expect(scriptHash).toBe(
+      `'sha256-${crypto.createHash('sha256').update(text).digest('base64')}'`,
+    );
+    // Run at each address with a document that records the links added (HTML Living Standard,
+    // "Link type modulepreload": a link element with rel and href): only where the screen opens.
+    const preloads = (pathname: string) => {
+      const added: { rel?: string; href?: string }[] = [];
+      const document = {
+        createElement: () => ({}),
+        head: { appendChild: (link: { rel?: string; href?: string }) => added.push(link) },
+      };
+      new Function('location', 'document', text)({ pathname }, document);
+      return added;
+    };
+    expect(preloads('/screen')).toEqual([{ rel: 'modulepreload', href: 'chunk-SCREEN01.js' }]);
+    expect(preloads('/screen/other')).toEqual([]);
+  });
+  it("should give the worker's manifest the index page's hash as served, and nothing else", () => {
+    const manifest = JSON.stringify({
+      index: '/index.html',
+      hashTable: { '/index.html': 'built', '/main-AAAAAAAA.js': 'main' },
+    });
+    const served = JSON.parse(withIndexHash(manifest, '<html>served</html>')) as {
+      hashTable: Record<string, string>;
+    };
+    // Angular's service worker guide: hashTable holds each file's SHA-1, in hex. The SHA-1 of
+    // "<html>served</html>" as `sha1sum` prints it.
+    expect(served.hashTable).toEqual({
+      '/index.html': '594a0fd25028a17070c713cb4fe8c6241ce13af6',
+      '/main-AAAAAAAA.js': 'main',
+    });
   });
 });

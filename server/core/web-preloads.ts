@@ -1,3 +1,4 @@
+import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { embeddedEntryReads, type ScreenRead } from '@shared/api/entry-reads';
@@ -98,55 +99,117 @@ export function namedScripts(indexHtml: string): Set<string> {
   );
 }
 
-/**
- * The index page with `<link rel="modulepreload">` for the files (HTML Living Standard, "Link
- * type modulepreload"), after the app's own script so the initial files are asked for first.
- */
-export function withPreloads(indexHtml: string, files: readonly string[]): string {
-  const links = files
-    .map((file) => `<link rel="modulepreload" href="${path.posix.basename(file)}">`)
-    .join('');
-  return indexHtml.replace('</body>', `${links}</body>`);
-}
-
-/** The index page served for an address: its text, and the screen it is served for. */
-export interface IndexPage {
-  html: string;
-  screen: (typeof preloadedScreens)[number];
+/** The files a screen's address names ahead: the pattern of its address and the file names. */
+export interface ScreenFiles {
+  path: RegExp;
+  files: readonly string[];
 }
 
 /**
- * The index page to serve for an address: with the preloads of the screen served there, when the
- * build wrote its metafile beside the browser folder; undefined for the plain file. Read once
- * per build of the index page.
+ * The script that names a screen's files as `<link rel="modulepreload">` (HTML Living Standard,
+ * "Link type modulepreload") when the page is opened at that screen's address. It is in the one
+ * index page, so the copy the service worker keeps and answers every navigation with names them
+ * too: without it a repeat visit found the screen's code level by level (main, its dynamic
+ * imports, the route's chunk, then that chunk's imports), each level only once the one before had
+ * been evaluated.
  */
-export function indexPages(webRoot: string): (pathname: string) => IndexPage | undefined {
-  let built: { stamp: number; pages: (string | undefined)[] } | null = null;
-  const pages = () => {
+export function preloaderScript(screens: readonly ScreenFiles[]): string {
+  const table = JSON.stringify(
+    screens.map((screen) => [
+      screen.path.source,
+      screen.files.map((file) => path.posix.basename(file)),
+    ]),
+  );
+  return (
+    `(function(){var s=${table},p=location.pathname,d=document;` +
+    `s.forEach(function(e){if(new RegExp(e[0]).test(p))e[1].forEach(function(f){` +
+    `var l=d.createElement("link");l.rel="modulepreload";l.href=f;d.head.appendChild(l)})})})()`
+  );
+}
+
+/**
+ * The index page with the preloader, after the app's own script so the initial files are asked
+ * for first; and the script's hash for the Content-Security-Policy (CSP Level 3, "hash-source":
+ * the base64 SHA-256 of the script's text).
+ */
+export function withPreloader(
+  indexHtml: string,
+  screens: readonly ScreenFiles[],
+): { html: string; scriptHash: string } {
+  const script = preloaderScript(screens);
+  const scriptHash = `'sha256-${crypto.createHash('sha256').update(script).digest('base64')}'`;
+  return { html: indexHtml.replace('</body>', `<script>${script}</script></body>`), scriptHash };
+}
+
+/**
+ * The service worker's manifest (ngsw.json) with the index page's hash as served: Angular's worker
+ * checks each file it keeps against the SHA-1 of its bytes in `hashTable` and refuses a mismatch,
+ * and the index page it keeps is the one with the preloader, not the file the build wrote.
+ */
+export function withIndexHash(workerManifest: string, indexHtml: string): string {
+  const manifest = JSON.parse(workerManifest) as { hashTable?: Record<string, string> };
+  if (manifest.hashTable?.['/index.html'] !== undefined)
+    manifest.hashTable['/index.html'] = crypto.createHash('sha1').update(indexHtml).digest('hex');
+  return JSON.stringify(manifest, null, 2);
+}
+
+/** The web app's version-naming files as served, and the screen served at an address. */
+export interface WebPages {
+  /** The index page (with the preloader when the build wrote its metafile), or undefined with no build. */
+  index(): string | undefined;
+  /** The service worker's manifest to serve, or undefined when the build has none. */
+  workerManifest(): string | undefined;
+  /** The CSP hash-sources of the index page's inline script. */
+  scriptHashes(): string[];
+  /** The screen whose first reads the page served at `pathname` may carry. */
+  screen(pathname: string): (typeof preloadedScreens)[number] | undefined;
+}
+
+/**
+ * The index page, served for every address of the app and kept by the service worker, with the
+ * preloader of the screens' files when the build wrote its metafile beside the browser folder;
+ * read again when the build's index page changes. With no web root (an app serving only the API)
+ * there is no page.
+ */
+export function webPages(webRoot: string | null): WebPages {
+  let built: {
+    stamp: number;
+    html: string;
+    manifest: string | undefined;
+    hashes: string[];
+  } | null = null;
+  const current = () => {
+    if (webRoot === null) return null;
     const indexFile = path.join(webRoot, 'index.html');
-    const statsFile = path.join(webRoot, '..', 'stats.json');
+    if (!fs.existsSync(indexFile)) return null;
     const stamp = fs.statSync(indexFile).mtimeMs;
-    if (built?.stamp === stamp) return built.pages;
+    if (built?.stamp === stamp) return built;
+    const statsFile = path.join(webRoot, '..', 'stats.json');
+    const workerFile = path.join(webRoot, 'ngsw.json');
+    const indexHtml = fs.readFileSync(indexFile, 'utf8');
     const metafile = fs.existsSync(statsFile)
       ? (JSON.parse(fs.readFileSync(statsFile, 'utf8')) as BuildMetafile)
       : null;
-    const indexHtml = fs.readFileSync(indexFile, 'utf8');
-    built = {
-      stamp,
-      pages: preloadedScreens.map((screen) =>
-        metafile
-          ? withPreloads(
-              indexHtml,
-              screenPreloads(metafile, screen.modules, namedScripts(indexHtml)),
-            )
-          : undefined,
-      ),
-    };
-    return built.pages;
+    const named = namedScripts(indexHtml);
+    const page = metafile
+      ? withPreloader(
+          indexHtml,
+          preloadedScreens.map((screen) => ({
+            path: screen.path,
+            files: screenPreloads(metafile, screen.modules, named),
+          })),
+        )
+      : { html: indexHtml, scriptHash: undefined };
+    const manifest = fs.existsSync(workerFile)
+      ? withIndexHash(fs.readFileSync(workerFile, 'utf8'), page.html)
+      : undefined;
+    built = { stamp, html: page.html, manifest, hashes: page.scriptHash ? [page.scriptHash] : [] };
+    return built;
   };
-  return (pathname) => {
-    const screen = preloadedScreens.findIndex((each) => each.path.test(pathname));
-    const html = screen < 0 ? undefined : pages()[screen];
-    return html === undefined ? undefined : { html, screen: preloadedScreens[screen]! };
+  return {
+    index: () => current()?.html,
+    workerManifest: () => current()?.manifest,
+    scriptHashes: () => current()?.hashes ?? [],
+    screen: (pathname) => preloadedScreens.find((each) => each.path.test(pathname)),
   };
 }

@@ -11,7 +11,7 @@ import { createHttpServer } from '../../server/core/http-server';
 import { migrateDatabase, openDatabase } from '../../server/db/client';
 import { createLogger } from '../../server/logger';
 import { seedDemo } from '../../server/seed/demo';
-import { launchBrowser, signInAs } from '../support/browser';
+import { appInstalledByWorker, launchBrowser, signInAs } from '../support/browser';
 import { figure, round, type BenchFigure } from './bench-figure';
 
 /**
@@ -184,27 +184,10 @@ async function throttle(session: CDPSession, on: boolean): Promise<void> {
   );
 }
 
-/**
- * Waits until the service worker controls the page and holds every file of its prefetched asset
- * groups (ngsw.json's `installMode: "prefetch"`) in Cache Storage: Angular's worker takes control
- * as soon as it activates and fetches those files afterwards, so a visit before then is not yet
- * the repeat visit a user who had the app installed makes.
- */
+/** Waits until the service worker controls the page and has installed the app's files. */
 async function waitForServiceWorker(page: Page): Promise<void> {
   const deadline = Date.now() + 180_000;
-  const installed = () =>
-    page.evaluate(async () => {
-      if (navigator.serviceWorker.controller === null) return false;
-      const manifest = (await (await fetch('/ngsw.json', { cache: 'no-store' })).json()) as {
-        assetGroups: { installMode: string; urls: string[] }[];
-      };
-      const urls = manifest.assetGroups
-        .filter((group) => group.installMode === 'prefetch')
-        .flatMap((group) => group.urls);
-      const cached = await Promise.all(urls.map((url) => caches.match(url)));
-      return cached.every((response) => response !== undefined);
-    });
-  while (!(await installed())) {
+  while (!(await appInstalledByWorker(page))) {
     if (Date.now() > deadline) throw new Error('The service worker did not install the app.');
     await page.waitForTimeout(1000);
   }

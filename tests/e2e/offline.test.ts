@@ -1,7 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import {
+  appInstalledByWorker,
+  launchBrowser,
+  localOnlyContext,
+  saveScreenshot,
+  signInAs,
+} from '../support/browser';
 import type { EnsembleDetail } from '@shared/api/ensemble';
 import type { Ladder, LadderRequirement } from '@shared/api/ladder';
 import type { PassOff } from '@shared/api/pass-off';
@@ -69,10 +75,11 @@ function cell(page: Page, rowIndex: number, colId: string) {
 }
 
 /**
- * Waits until Angular's service worker controls the page. It registers once the app is stable,
- * then fetches every file of the app before it activates (on a loaded machine that alone has
- * taken over a minute); a page loaded before the activation is not always claimed by it, so the
- * page is loaded again once the worker is active, as the user's next visit would be.
+ * Waits until Angular's service worker controls the page and has installed the app's files. It
+ * registers once the app is stable and takes control as it activates, then fetches the app's files
+ * (on a localhost scope inside the first fetch it handles; on a loaded machine the whole has taken
+ * over a minute); a page loaded before the activation is not always claimed by it, so the page is
+ * loaded again once the worker is active, as the user's next visit would be.
  */
 async function controlledByServiceWorker(page: Page) {
   await expect
@@ -86,11 +93,9 @@ async function controlledByServiceWorker(page: Page) {
     )
     .toBe('activated');
   if (await page.evaluate(() => navigator.serviceWorker.controller === null)) await page.reload();
+  // Controlled, and the app's files kept: only then does it open with no network.
   await expect
-    .poll(() => page.evaluate(() => navigator.serviceWorker.controller !== null), {
-      timeout: 30_000,
-      interval: 500,
-    })
+    .poll(() => appInstalledByWorker(page), { timeout: 30_000, interval: 500 })
     .toBe(true);
 }
 

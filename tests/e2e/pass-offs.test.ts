@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
@@ -318,18 +319,34 @@ describe('Pass-offs entry', () => {
     const [ensemble] = (await director.get('/api/ensembles?limit=1&sort=name:asc')).body.rows as {
       id: number;
     }[];
-    const preloads = async (address: string) => {
-      const page = await (await fetch(`${app.url}${address}`)).text();
-      return [...page.matchAll(/<link rel="modulepreload" href="([^"]+)">/g)].map((m) => m[1]!);
-    };
-    const named = await preloads('/pass-offs');
-    // The screen's code is named beside the first bundle's; another screen's page is plain.
-    expect(named.length).toBeGreaterThan((await preloads('/overview')).length + 10);
-    for (const file of named) expect((await fetch(`${app.url}/${file}`)).status).toBe(200);
-
     const { context } = await localOnlyContext(browser);
     const page = await context.newPage();
     await signInAs(page, app.url, demoEmail('director.hpms'));
+    // The links in the page as opened (the index page's own script adds the screen's, under the
+    // server's Content-Security-Policy; HTML Living Standard, "Link type modulepreload").
+    const preloads = async (address: string) => {
+      await page.goto(`${app.url}${address}`, { waitUntil: 'domcontentloaded' });
+      return page.evaluate(() =>
+        Array.from(document.querySelectorAll('link[rel=modulepreload]'), (link) =>
+          link.getAttribute('href'),
+        ),
+      );
+    };
+    const named = await preloads(`/pass-offs?ensemble=${ensemble!.id}&rung=1`);
+    // The screen's code is named beside the first bundle's; another screen's page names less.
+    expect(named.length).toBeGreaterThan((await preloads('/overview')).length + 10);
+    for (const file of named) expect((await fetch(`${app.url}/${file}`)).status).toBe(200);
+    // The index page the service worker keeps is the same page, and its manifest names its hash.
+    const kept = await (await fetch(`${app.url}/index.html`)).text();
+    expect(await (await fetch(`${app.url}/pass-offs`)).text()).toBe(kept);
+    const hashTable = (
+      (await (await fetch(`${app.url}/ngsw.json`)).json()) as {
+        hashTable: Record<string, string>;
+      }
+    ).hashTable;
+    // Angular's service worker guide: hashTable holds each file's SHA-1, in hex.
+    expect(hashTable['/index.html']).toBe(createHash('sha1').update(kept).digest('hex'));
+
     // Away from the start page first, so none of its reads is counted.
     await page.goto('about:blank');
     // The page as the service worker's copy of the index page is, without the answers a

@@ -126,3 +126,24 @@ export async function serveIndexAsWorkerKeepsIt(page: Page): Promise<void> {
     await route.fulfill({ response, body });
   });
 }
+
+/**
+ * Whether the service worker controls the page and holds every file of its prefetched asset
+ * groups (ngsw.json's `installMode: "prefetch"`) in Cache Storage. Angular's worker takes control
+ * as soon as it activates and fetches those files afterwards (on a localhost scope, inside the
+ * first fetch it handles: the manifest asked for here), so control alone does not mean the app
+ * opens offline yet.
+ */
+export function appInstalledByWorker(page: Page): Promise<boolean> {
+  return page.evaluate(async () => {
+    if (navigator.serviceWorker.controller === null) return false;
+    const manifest = (await (await fetch('/ngsw.json', { cache: 'no-store' })).json()) as {
+      assetGroups: { installMode: string; urls: string[] }[];
+    };
+    const urls = manifest.assetGroups
+      .filter((group) => group.installMode === 'prefetch')
+      .flatMap((group) => group.urls);
+    const cached = await Promise.all(urls.map((url) => caches.match(url)));
+    return cached.every((response) => response !== undefined);
+  });
+}
