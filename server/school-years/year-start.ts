@@ -279,8 +279,10 @@ async function moveRoster(
   // manual, "Heap-Only Tuples (HOT)"; the room on the page is kept by the tables' fillfactor,
   // custom migration students-fillfactor). Measured at 48,477 students: 90% of the roster's
   // updates and every summary row's heap-only; the roster step's CPU time 1.9 s against 3.8 s
-  // with every secondary index dropped and built again. On a PostgreSQL server dropping an
-  // index would lock the table against readers, so they stay.
+  // with every secondary index dropped and built again. Built after heap-only updates, those
+  // indexes serve only later transactions (PostgreSQL's README.HOT, "CREATE INDEX"); nothing
+  // after the update here reads the roster by them. On a PostgreSQL server dropping an index
+  // would lock the table against readers, so they stay.
   const rebuild = embedded
     ? await dropSecondaryIndexes(
         async (text) => rowsOf(await tx.execute(sql.raw(text))),
