@@ -47,19 +47,31 @@ export type RunStatement = (text: string) => Promise<Record<string, unknown>[]>;
 /**
  * Drops the indexes of the tables (by default {@link bulkLoadedTables}) that enforce nothing
  * (not unique, no constraint's) and answers the statements that create them again, read from
- * the catalog so a later migration's indexes are included. Transactional: a rollback brings
- * them back. The table names are the code's own, written into the statement as literals.
+ * the catalog so a later migration's indexes are included. With `columns`, only those whose
+ * keys, expressions or predicate read one of these columns (the index's dependencies on them in
+ * `pg_depend`). Transactional: a rollback brings them back. The table and column names are the
+ * code's own, written into the statement as literals.
  */
 export async function dropSecondaryIndexes(
   run: RunStatement,
   tables: readonly string[] = bulkLoadedTables,
+  columns?: readonly string[],
 ): Promise<string[]> {
-  const names = tables.map((table) => `'${table.replaceAll("'", "''")}'`).join(', ');
+  const literals = (names: readonly string[]) =>
+    names.map((name) => `'${name.replaceAll("'", "''")}'`).join(', ');
+  const readingColumns = columns
+    ? `and exists (
+         select 1 from pg_depend d
+         join pg_attribute a on a.attrelid = d.refobjid and a.attnum = d.refobjsubid
+         where d.classid = 'pg_class'::regclass and d.objid = i.indexrelid
+           and d.refobjid = i.indrelid and a.attname = any(array[${literals(columns)}]::name[]))`
+    : '';
   const indexes = (await run(
     `select quote_ident(c.relname) as name, pg_get_indexdef(i.indexrelid) as definition
      from pg_index i join pg_class c on c.oid = i.indexrelid
-     where i.indrelid = any(array[${names}]::regclass[]) and not i.indisunique
+     where i.indrelid = any(array[${literals(tables)}]::regclass[]) and not i.indisunique
        and not exists (select 1 from pg_constraint k where k.conindid = i.indexrelid)
+       ${readingColumns}
      order by c.relname`,
   )) as { name: string; definition: string }[];
   for (const { name } of indexes) await run(`drop index ${name}`);

@@ -1,4 +1,4 @@
-import { migrateDatabase, openDatabase } from '../../server/db/client';
+import { migrateDatabase, openDatabase, type DatabaseHandle } from '../../server/db/client';
 import { seedDemo } from '../../server/seed/demo';
 import { schools } from '../../server/db/schema/index';
 import { topUpAttainment } from '../../server/analytics/overview-service';
@@ -28,37 +28,46 @@ import { figure, percentile, time, timings, type BenchFigure } from './bench-fig
 const addDays = (day: string, days: number) =>
   new Date(Date.parse(`${day}T00:00:00Z`) + days * 86_400_000).toISOString().slice(0, 10);
 
-export async function benchYearStart(options: { students: number }): Promise<BenchFigure[]> {
+/**
+ * The section's district before a start: the demo seed plus generated students placed in the
+ * schools serving their grades, each active one seated, a loan for one in ten, ten pass-offs a
+ * student, the summaries current and the statistics taken.
+ */
+export async function benchYearStartDistrict(students: number): Promise<DatabaseHandle> {
   const handle = await openDatabase({ kind: 'pglite-memory' });
   const pglite = handle.pglite!;
+  await migrateDatabase(handle);
+  await seedDemo(handle.db);
+  const schoolIds = (await handle.db.select({ id: schools.id }).from(schools)).map((row) => row.id);
+  await loadBenchStudents(pglite, schoolIds, Math.max(0, students - 1_670), 900_000, 'served');
+  await pglite.query(`
+    insert into enrollments (student_id, ensemble_id, school_year_id, instrument_id)
+    select s.id, (select e.id from ensembles e where e.school_id = s.school_id order by e.id limit 1),
+      (select id from school_years where current), 'trumpet'
+    from students s where s.status = 'active'
+    on conflict do nothing`);
+  await pglite.query(`
+    insert into instruments (asset_tag, instrument_id, home_school_id, status)
+    select 'BENCH-' || s.id, 'trumpet', s.school_id, 'on-loan'
+    from students s where s.status = 'active' and s.id % 10 = 0 and s.student_number::int >= 900000`);
+  await pglite.query(`
+    insert into loans (instrument_id, student_id, school_id, checked_out_on, due_on, condition_out)
+    select i.id, substring(i.asset_tag from 7)::int, i.home_school_id, '2026-09-01',
+      case when i.id % 3 = 0 then '2027-12-17'::date else '2027-06-11'::date end, 'good'
+    from instruments i where i.asset_tag like 'BENCH-%'`);
+  // Ten pass-offs a student (500,000 at 50,000), so each student's rung and rung dates are real.
+  await loadBenchPassOffs(handle, students * 10);
+  await handle.db.transaction((tx) => rebuildAttainment(tx));
+  await pglite.query('VACUUM (ANALYZE)');
+  // The summaries a district has between two reads of the Overview: none stale.
+  await topUpAttainment(handle.db);
+  return handle;
+}
+
+export async function benchYearStart(options: { students: number }): Promise<BenchFigure[]> {
+  const handle = await benchYearStartDistrict(options.students);
+  const pglite = handle.pglite!;
   try {
-    await migrateDatabase(handle);
-    await seedDemo(handle.db);
-    const schoolIds = (await handle.db.select({ id: schools.id }).from(schools)).map(
-      (row) => row.id,
-    );
-    await loadBenchStudents(pglite, schoolIds, Math.max(0, options.students - 1_670));
-    await pglite.query(`
-      insert into enrollments (student_id, ensemble_id, school_year_id, instrument_id)
-      select s.id, (select e.id from ensembles e where e.school_id = s.school_id order by e.id limit 1),
-        (select id from school_years where current), 'trumpet'
-      from students s where s.status = 'active'
-      on conflict do nothing`);
-    await pglite.query(`
-      insert into instruments (asset_tag, instrument_id, home_school_id, status)
-      select 'BENCH-' || s.id, 'trumpet', s.school_id, 'on-loan'
-      from students s where s.status = 'active' and s.id % 10 = 0 and s.student_number::int >= 900000`);
-    await pglite.query(`
-      insert into loans (instrument_id, student_id, school_id, checked_out_on, due_on, condition_out)
-      select i.id, substring(i.asset_tag from 7)::int, i.home_school_id, '2026-09-01',
-        case when i.id % 3 = 0 then '2027-12-17'::date else '2027-06-11'::date end, 'good'
-      from instruments i where i.asset_tag like 'BENCH-%'`);
-    // Ten pass-offs a student (500,000 at 50,000), so each student's rung and rung dates are real.
-    await loadBenchPassOffs(handle, options.students * 10);
-    await handle.db.transaction((tx) => rebuildAttainment(tx));
-    await pglite.query('VACUUM (ANALYZE)');
-    // The summaries a district has between two reads of the Overview: none stale.
-    await topUpAttainment(handle.db);
     const [{ active }] = (
       await pglite.query<{ active: number }>(
         `select count(*)::int as active from students where status = 'active'`,
