@@ -1,10 +1,6 @@
 import '../../core/screen-kit';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { MatButtonModule } from '@angular/material/button';
-import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatIconModule } from '@angular/material/icon';
-import { MatSelectModule } from '@angular/material/select';
-import { Router, RouterLink } from '@angular/router';
+import { Router } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import {
   ensembleKindLabels,
@@ -15,48 +11,40 @@ import {
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
+import { gridSource } from '../../core/grid/grid-source';
+import { column, orBlank } from '../../core/grid/grid-columns';
+import { choicesOf, FilterSelect } from '../../core/grid/filter-select/filter-select';
+import { ListPage } from '../../core/list-page/list-page';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { SchoolFilter } from '../../schools/school-filter/school-filter';
-
-/** The ensembles of the user's schools, filtered by school and kind. */
 import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 
+const ensembleColumns: ColDef<Ensemble>[] = [
+  column.field('name', 'Ensemble', { flex: 2, minWidth: 200 }, { sort: 'asc' }),
+  column.derived('school', 'School', 170, (row) => row.schoolName),
+  column.derived('kind', 'Kind', 160, (row) => row.kindLabel),
+  column.formatted('level', 'Level', 120, (value: string | null) => {
+    const level = String(value ?? '');
+    return level.charAt(0).toUpperCase() + level.slice(1);
+  }),
+  column.formatted('directorName', 'Director', 160, orBlank('—')),
+  column.field('meetingPeriod', 'Meets', 130),
+  column.amount('memberCount', 'Members', 110),
+];
+
+/** The ensembles of the user's schools, filtered by school and kind. */
 @Component({
   selector: 'tb-ensemble-list',
-  imports: [
-    ServerGrid,
-    GridSearch,
-    MatButtonModule,
-    MatFormFieldModule,
-    MatIconModule,
-    MatSelectModule,
-    RouterLink,
-    SchoolFilter,
-    YearPicker,
-  ],
+  imports: [ListPage, ServerGrid, GridSearch, FilterSelect, SchoolFilter, YearPicker],
   templateUrl: './ensemble-list.html',
-  styles: `
-    .filters {
-      display: flex;
-      flex-wrap: wrap;
-      gap: 12px;
-    }
-    .search {
-      width: 280px;
-    }
-    .filters mat-form-field:not(.search) {
-      width: 220px;
-    }
-  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class EnsembleList {
   private readonly router = inject(Router);
   protected readonly canWrite = inject(CurrentUser).can('roster:write');
   protected readonly schools = injectSchoolChoices();
-  protected readonly kinds = ensembleKinds;
-  protected readonly kindLabels = ensembleKindLabels;
+  protected readonly kindChoices = choicesOf(ensembleKinds, (kind) => ensembleKindLabels[kind]);
   protected readonly search = signal('');
   protected readonly schoolId = signal<number | null>(null);
   protected readonly kind = signal<string | null>(null);
@@ -67,40 +55,15 @@ export class EnsembleList {
     kind: this.kind(),
     schoolYearId: this.pastYear()?.id ?? null,
   }));
-  protected readonly sortFields = ensembleSortFields;
-  protected readonly columns: ColDef<Ensemble>[] = [
-    { field: 'name', headerName: 'Ensemble', flex: 2, minWidth: 200, sort: 'asc' },
+  protected readonly source = gridSource(
+    'ensembles',
+    'ensemble',
+    ensembleSortFields,
+    ensembleColumns,
     {
-      colId: 'school',
-      headerName: 'School',
-      width: 170,
-      valueGetter: ({ data }) => data?.schoolName,
+      emptyMessage: 'Clear the search or the filters, or add an ensemble for the school.',
     },
-    { colId: 'kind', headerName: 'Kind', width: 160, valueGetter: ({ data }) => data?.kindLabel },
-    {
-      field: 'level',
-      headerName: 'Level',
-      width: 120,
-      valueFormatter: ({ value }) => {
-        const level = String(value ?? '');
-        return level.charAt(0).toUpperCase() + level.slice(1);
-      },
-    },
-    {
-      field: 'directorName',
-      headerName: 'Director',
-      width: 160,
-      valueFormatter: ({ value }) => value ?? '—',
-    },
-    { field: 'meetingPeriod', headerName: 'Meets', width: 130 },
-    {
-      colId: 'memberCount',
-      field: 'memberCount',
-      headerName: 'Members',
-      width: 110,
-      type: 'rightAligned',
-    },
-  ];
+  );
 
   protected open(ensemble: Ensemble): void {
     void this.router.navigate(['/ensembles', ensemble.id]);

@@ -2,6 +2,7 @@ import { ChangeDetectionStrategy, Component, signal } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import type { ICellRendererAngularComp } from 'ag-grid-angular';
 import type { ICellRendererParams } from 'ag-grid-community';
+import type { ColumnExtras } from '../../core/grid/grid-columns';
 
 /** The icon a cell shows before its text, and the icon's tone. */
 export interface CellIcon {
@@ -81,4 +82,12 @@ export class IconTextCell<Row = unknown> implements ICellRendererAngularComp {
     this.icon.set(params.data ? params.iconOf(params.data) : null);
     this.text.set(String(params.valueFormatted ?? params.value ?? ''));
   }
+}
+
+/** The part of a column's definition that draws its cells as `IconTextCell`s, by the row's icon. */
+export function withIcon<Row>(iconOf: (row: Row) => CellIcon | null): ColumnExtras<Row> {
+  return {
+    cellRenderer: IconTextCell,
+    cellRendererParams: { iconOf } satisfies IconTextCellParams<Row>,
+  };
 }
