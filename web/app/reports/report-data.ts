@@ -1,5 +1,6 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import { HttpParams } from '@angular/common/http';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../core/state/api-data';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
@@ -28,9 +29,7 @@ export type SendResult = { outboxIds: number[]; runIds: number[] };
 
 /** Previews, sends and schedules reports, and lists the reports sent. */
 @Injectable({ providedIn: 'root' })
-export class ReportData {
-  private readonly http = inject(HttpClient);
-
+export class ReportData extends ApiData {
   preview(request: PreviewRequest) {
     const query: Record<string, string> = {
       kind: request.kind,
@@ -39,13 +38,11 @@ export class ReportData {
     };
     if (request.kind === 'director' && request.schoolId !== null)
       query['schoolId'] = String(request.schoolId);
-    return this.http
-      .get('/api/reports/preview', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(reportPreviewSchema));
+    return this.read('/api/reports/preview', reportPreviewSchema, query);
   }
 
   send(input: ReportSendInput): Observable<SendResult> {
-    return this.http.post('/api/reports/send', input).pipe(parsedWith(reportSendResultSchema));
+    return this.post('/api/reports/send', input, reportSendResultSchema);
   }
 
   runs(offset: number, limit: number): Observable<ListResponse<ReportRun>> {
@@ -63,13 +60,15 @@ export class ReportData {
   }
 
   createSchedule(input: ReportScheduleInput): Observable<ReportSchedule> {
-    return this.http.post('/api/reports/schedules', input).pipe(parsedWith(reportScheduleSchema));
+    return this.post('/api/reports/schedules', input, reportScheduleSchema);
   }
 
   setScheduleActive(schedule: ReportSchedule, active: boolean): Observable<ReportSchedule> {
-    return this.http
-      .patch(`/api/reports/schedules/${schedule.id}`, { active, version: schedule.version })
-      .pipe(parsedWith(reportScheduleSchema));
+    return this.patch(
+      `/api/reports/schedules/${schedule.id}`,
+      { active, version: schedule.version },
+      reportScheduleSchema,
+    );
   }
 
   deleteSchedule(id: number): Observable<unknown> {

@@ -1,4 +1,4 @@
-import { type HttpResourceRef } from '@angular/common/http';
+import type { HttpResourceRef } from '@angular/common/http';
 import { Injectable } from '@angular/core';
 import type { Observable } from 'rxjs';
 import type { ListResponse } from '@shared/api/list';
@@ -15,7 +15,7 @@ import { ApiData, type ListQuery } from '../core/state/api-data';
 @Injectable({ providedIn: 'root' })
 export class SchoolData extends ApiData {
   list(query: ListQuery = {}): Observable<ListResponse<School>> {
-    return this.page('/api/schools', schoolListSchema, query);
+    return this.read('/api/schools', schoolListSchema, query);
   }
 
   /** The school of `id()`, read again whenever it changes; idle while `id()` is undefined. */

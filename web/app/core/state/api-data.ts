@@ -5,7 +5,7 @@ import type { z } from 'zod';
 import { parsedWith } from '../parse';
 
 /** A list route's query: filters, search text, sort and page. */
-export type ListQuery = Record<string, string | number>;
+export type ListQuery = Record<string, string | number | boolean>;
 
 /** What `httpResource` is asked for: an address, with query parameters or not; none while idle. */
 type ResourceRequest = string | { url: string; params: ListQuery } | undefined;
@@ -18,8 +18,8 @@ type ResourceRequest = string | { url: string; params: ListQuery } | undefined;
 export abstract class ApiData {
   protected readonly http = inject(HttpClient);
 
-  /** A page of a list route (pickers, panels): `query` as its parameters. */
-  protected page<Schema extends z.ZodType>(
+  /** A GET of one record or a page of a list route (pickers, panels), `query` as parameters. */
+  protected read<Schema extends z.ZodType>(
     url: string,
     schema: Schema,
     query: ListQuery = {},
