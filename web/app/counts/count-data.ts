@@ -28,15 +28,15 @@ export class InventoryCounts extends ApiData {
   }
 
   start(schoolId: number): Observable<CountDetail> {
-    return this.post('/api/counts', { schoolId }, countDetailSchema);
+    return this.write('POST', '/api/counts', { schoolId }, countDetailSchema);
   }
 
   scan(id: number, assetTag: string): Observable<CountScan> {
-    return this.post(`/api/counts/${id}/scans`, { assetTag }, countScanSchema);
+    return this.write('POST', `/api/counts/${id}/scans`, { assetTag }, countScanSchema);
   }
 
   /** Closes the count; with `confirmMissing`, what was expected and not found is marked missing. */
   close(id: number, confirmMissing: boolean): Observable<CountDetail> {
-    return this.post(`/api/counts/${id}/close`, { confirmMissing }, countDetailSchema);
+    return this.write('POST', `/api/counts/${id}/close`, { confirmMissing }, countDetailSchema);
   }
 }

@@ -11,6 +11,6 @@ export class DistrictData extends ApiData {
   }
 
   update(patch: DistrictPatch): Observable<District> {
-    return this.patch('/api/district', patch, districtSchema);
+    return this.write('PATCH', '/api/district', patch, districtSchema);
   }
 }

@@ -49,10 +49,10 @@ export class EnsembleData extends ApiData {
   }
 
   create(input: EnsembleInput): Observable<Ensemble> {
-    return this.post('/api/ensembles', input, ensembleSchema);
+    return this.write('POST', '/api/ensembles', input, ensembleSchema);
   }
 
   update(id: number, patch: EnsemblePatch): Observable<Ensemble> {
-    return this.patch(`/api/ensembles/${id}`, patch, ensembleSchema);
+    return this.write('PATCH', `/api/ensembles/${id}`, patch, ensembleSchema);
   }
 }

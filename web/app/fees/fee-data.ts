@@ -50,15 +50,15 @@ export class FeeLedger extends ApiData {
   }
 
   refund(loanId: number, input: RefundInput): Observable<FeeRow> {
-    return this.post(`/api/fees/${loanId}/refunds`, input, feeRowSchema);
+    return this.write('POST', `/api/fees/${loanId}/refunds`, input, feeRowSchema);
   }
 
   recordPayment(loanId: number, amountCents: number, note: string): Observable<FeeRow> {
-    return this.post(`/api/fees/${loanId}/payments`, { amountCents, note }, feeRowSchema);
+    return this.write('POST', `/api/fees/${loanId}/payments`, { amountCents, note }, feeRowSchema);
   }
 
   remind(loanId: number): Observable<ReminderResult> {
-    return this.post(`/api/fees/${loanId}/reminder`, {}, reminderResultSchema);
+    return this.write('POST', `/api/fees/${loanId}/reminder`, {}, reminderResultSchema);
   }
 
   /** The reconciliation with the payment service, asked once `asked()` turns true. */

@@ -66,7 +66,7 @@ export class RosterImports extends ApiData {
   }
 
   commit(request: CommitRequest): Observable<ImportResult> {
-    return this.post('/api/imports/commit', request, importResultSchema);
+    return this.write('POST', '/api/imports/commit', request, importResultSchema);
   }
 
   history(
@@ -81,7 +81,7 @@ export class RosterImports extends ApiData {
 
   /** Takes a committed import back, all or nothing (the server refuses with what blocks it). */
   undo(id: number): Observable<ImportUndoResult> {
-    return this.post(`/api/imports/${id}/undo`, {}, importUndoResultSchema);
+    return this.write('POST', `/api/imports/${id}/undo`, {}, importUndoResultSchema);
   }
 
   /** Where an import's error report downloads from. */
@@ -94,7 +94,7 @@ export class RosterImports extends ApiData {
   }
 
   savePreset(name: string, mapping: ColumnMapping): Observable<ImportPreset> {
-    return this.post('/api/imports/presets', { name, mapping }, importPresetSchema);
+    return this.write('POST', '/api/imports/presets', { name, mapping }, importPresetSchema);
   }
 
   deletePreset(id: number): Observable<unknown> {

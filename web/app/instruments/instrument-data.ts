@@ -33,23 +33,23 @@ export class FleetInstruments extends ApiData {
   }
 
   create(input: InstrumentInput): Observable<Instrument> {
-    return this.post('/api/instruments', input, instrumentSchema);
+    return this.write('POST', '/api/instruments', input, instrumentSchema);
   }
 
   update(id: number, patch: InstrumentPatch): Observable<Instrument> {
-    return this.patch(`/api/instruments/${id}`, patch, instrumentSchema);
+    return this.write('PATCH', `/api/instruments/${id}`, patch, instrumentSchema);
   }
 
   /** Records that an instrument back from a loan was cleaned and sanitised; it is lendable again. */
   markCleaned(id: number, note = ''): Observable<Instrument> {
-    return this.post(`/api/instruments/${id}/cleaned`, { note }, instrumentSchema);
+    return this.write('POST', `/api/instruments/${id}/cleaned`, { note }, instrumentSchema);
   }
 
   /** Uploads one photo; the server checks what the bytes are. */
   addPhoto(id: number, file: File): Observable<InstrumentPhoto> {
     const form = new FormData();
     form.append('photo', file);
-    return this.post(`/api/instruments/${id}/photos`, form, instrumentPhotoSchema);
+    return this.write('POST', `/api/instruments/${id}/photos`, form, instrumentPhotoSchema);
   }
 
   /** Checks a fleet CSV (`dryRun`) or commits it; a commit is all or nothing. */

@@ -38,21 +38,21 @@ export class FleetLoans extends ApiData {
 
   /** Lends an instrument; the server e-mails the guardian a one-time agreement link. */
   checkOut(input: CheckoutInput): Observable<Loan> {
-    return this.post('/api/loans', input, loanSchema);
+    return this.write('POST', '/api/loans', input, loanSchema);
   }
 
   /** Takes a loan back: damage opens a repair ticket, a loss marks the instrument missing. */
   returnLoan(id: number, input: ReturnInput): Observable<Loan> {
-    return this.post(`/api/loans/${id}/return`, input, loanSchema);
+    return this.write('POST', `/api/loans/${id}/return`, input, loanSchema);
   }
 
   remind(id: number): Observable<ReminderResult> {
-    return this.post(`/api/loans/${id}/reminder`, {}, reminderResultSchema);
+    return this.write('POST', `/api/loans/${id}/reminder`, {}, reminderResultSchema);
   }
 
   /** Reminds the guardians of every overdue loan the user may see. */
   remindOverdue(): Observable<ReminderResult> {
-    return this.post('/api/loans/overdue-reminders', {}, reminderResultSchema);
+    return this.write('POST', '/api/loans/overdue-reminders', {}, reminderResultSchema);
   }
 
   /** Sends the guardian a new agreement link (the old one stops working). */

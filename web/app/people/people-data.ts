@@ -28,11 +28,11 @@ export class PeopleData extends ApiData {
   }
 
   create(input: PersonInput): Observable<PersonDetail> {
-    return this.post('/api/users', input, personDetailSchema);
+    return this.write('POST', '/api/users', input, personDetailSchema);
   }
 
   update(id: number, patch: PersonPatch): Observable<PersonDetail> {
-    return this.patch(`/api/users/${id}`, patch, personDetailSchema);
+    return this.write('PATCH', `/api/users/${id}`, patch, personDetailSchema);
   }
 
   audit(query: Record<string, string | number> = {}): Observable<ListResponse<AuditEntryRow>> {

@@ -16,7 +16,7 @@ export class ApiTokenData extends ApiData {
 
   /** Makes a token for the signed-in user; the answer is the only time it is shown. */
   create(input: ApiTokenInput): Observable<CreatedToken> {
-    return this.post('/api/tokens', input, createdTokenSchema);
+    return this.write('POST', '/api/tokens', input, createdTokenSchema);
   }
 
   revoke(id: number): Observable<unknown> {

@@ -12,10 +12,10 @@ export class FleetRepairs extends ApiData {
 
   /** Opens a ticket; the instrument goes into repair. */
   create(input: RepairInput): Observable<Repair> {
-    return this.post('/api/repairs', input, repairSchema);
+    return this.write('POST', '/api/repairs', input, repairSchema);
   }
 
   update(id: number, patch: RepairPatch): Observable<Repair> {
-    return this.patch(`/api/repairs/${id}`, patch, repairSchema);
+    return this.write('PATCH', `/api/repairs/${id}`, patch, repairSchema);
   }
 }

@@ -38,6 +38,6 @@ export class OutboxData extends ApiData {
   }
 
   resend(id: number): Observable<OutboxMessageDetail> {
-    return this.post(`/api/outbox/${id}/resend`, {}, outboxMessageDetailSchema);
+    return this.write('POST', `/api/outbox/${id}/resend`, {}, outboxMessageDetailSchema);
   }
 }

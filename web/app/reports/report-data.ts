@@ -1,4 +1,3 @@
-import { HttpParams } from '@angular/common/http';
 import { Injectable } from '@angular/core';
 import { ApiData } from '../core/state/api-data';
 import type { Observable } from 'rxjs';
@@ -14,7 +13,6 @@ import {
   type ReportScheduleInput,
   type ReportSendInput,
 } from '@shared/api/report';
-import { parsedWith } from '../core/parse';
 
 /** What a preview asks for: the kind, the school of a director report, and the period. */
 export interface PreviewRequest {
@@ -42,29 +40,27 @@ export class ReportData extends ApiData {
   }
 
   send(input: ReportSendInput): Observable<SendResult> {
-    return this.post('/api/reports/send', input, reportSendResultSchema);
+    return this.write('POST', '/api/reports/send', input, reportSendResultSchema);
   }
 
   runs(offset: number, limit: number): Observable<ListResponse<ReportRun>> {
-    return this.http
-      .get('/api/reports', {
-        params: new HttpParams({ fromObject: { sort: 'createdAt:desc', offset, limit } }),
-      })
-      .pipe(parsedWith(listResponseSchema(reportRunSchema)));
+    const query = { sort: 'createdAt:desc', offset, limit };
+    return this.read('/api/reports', listResponseSchema(reportRunSchema), query);
   }
 
   schedules(): Observable<ListResponse<ReportSchedule>> {
-    return this.http
-      .get('/api/reports/schedules', { params: new HttpParams({ fromObject: { limit: 200 } }) })
-      .pipe(parsedWith(listResponseSchema(reportScheduleSchema)));
+    return this.read('/api/reports/schedules', listResponseSchema(reportScheduleSchema), {
+      limit: 200,
+    });
   }
 
   createSchedule(input: ReportScheduleInput): Observable<ReportSchedule> {
-    return this.post('/api/reports/schedules', input, reportScheduleSchema);
+    return this.write('POST', '/api/reports/schedules', input, reportScheduleSchema);
   }
 
   setScheduleActive(schedule: ReportSchedule, active: boolean): Observable<ReportSchedule> {
-    return this.patch(
+    return this.write(
+      'PATCH',
       `/api/reports/schedules/${schedule.id}`,
       { active, version: schedule.version },
       reportScheduleSchema,

@@ -29,18 +29,18 @@ export class SchoolYearData extends ApiData {
   }
 
   create(input: SchoolYearInput): Observable<SchoolYear> {
-    return this.post('/api/school-years', input, schoolYearSchema);
+    return this.write('POST', '/api/school-years', input, schoolYearSchema);
   }
 
   update(id: number, patch: SchoolYearPatch): Observable<SchoolYear> {
-    return this.patch(`/api/school-years/${id}`, patch, schoolYearSchema);
+    return this.write('PATCH', `/api/school-years/${id}`, patch, schoolYearSchema);
   }
 
   preview(request: YearStartRequest): Observable<YearStartResult> {
-    return this.post('/api/school-years/start/preview', request, yearStartResultSchema);
+    return this.write('POST', '/api/school-years/start/preview', request, yearStartResultSchema);
   }
 
   start(request: YearStartRequest): Observable<YearStartResult> {
-    return this.post('/api/school-years/start', request, yearStartResultSchema);
+    return this.write('POST', '/api/school-years/start', request, yearStartResultSchema);
   }
 }

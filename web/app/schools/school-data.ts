@@ -27,10 +27,10 @@ export class SchoolData extends ApiData {
   }
 
   create(input: SchoolInput): Observable<School> {
-    return this.post('/api/schools', input, schoolSchema);
+    return this.write('POST', '/api/schools', input, schoolSchema);
   }
 
   update(id: number, patch: SchoolPatch): Observable<School> {
-    return this.patch(`/api/schools/${id}`, patch, schoolSchema);
+    return this.write('PATCH', `/api/schools/${id}`, patch, schoolSchema);
   }
 }

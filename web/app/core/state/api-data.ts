@@ -43,21 +43,13 @@ export abstract class ApiData {
     );
   }
 
-  /** A POST whose answer is parsed by `schema`. */
-  protected post<Schema extends z.ZodType>(
+  /** A write (POST, PATCH, PUT) whose answer is parsed by `schema`. */
+  protected write<Schema extends z.ZodType>(
+    method: 'POST' | 'PATCH' | 'PUT',
     url: string,
     body: unknown,
     schema: Schema,
   ): Observable<z.infer<Schema>> {
-    return this.http.post(url, body).pipe(parsedWith(schema));
-  }
-
-  /** A PATCH whose answer is parsed by `schema`. */
-  protected patch<Schema extends z.ZodType>(
-    url: string,
-    body: unknown,
-    schema: Schema,
-  ): Observable<z.infer<Schema>> {
-    return this.http.patch(url, body).pipe(parsedWith(schema));
+    return this.http.request(method, url, { body }).pipe(parsedWith(schema));
   }
 }

@@ -12,10 +12,10 @@ import {
 @Injectable({ providedIn: 'root' })
 export class EnrollmentData extends ApiData {
   create(input: EnrollmentInput): Observable<Enrollment> {
-    return this.post('/api/enrollments', input, enrollmentSchema);
+    return this.write('POST', '/api/enrollments', input, enrollmentSchema);
   }
 
   update(id: number, patch: EnrollmentPatch): Observable<Enrollment> {
-    return this.patch(`/api/enrollments/${id}`, patch, enrollmentSchema);
+    return this.write('PATCH', `/api/enrollments/${id}`, patch, enrollmentSchema);
   }
 }

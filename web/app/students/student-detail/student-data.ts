@@ -37,11 +37,11 @@ export class StudentData extends ApiData {
   }
 
   create(input: StudentInput): Observable<Student> {
-    return this.post('/api/students', input, studentSchema);
+    return this.write('POST', '/api/students', input, studentSchema);
   }
 
   update(id: number, patch: StudentPatch): Observable<Student> {
-    return this.patch(`/api/students/${id}`, patch, studentSchema);
+    return this.write('PATCH', `/api/students/${id}`, patch, studentSchema);
   }
 
   /** Moves the student to another school; the move is kept in their history. */
