@@ -1,5 +1,7 @@
 import '../../core/screen-kit';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatSelectModule } from '@angular/material/select';
 import { Router } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import {
@@ -13,7 +15,6 @@ import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
 import { gridSource } from '../../core/grid/grid-source';
 import { column, orBlank } from '../../core/grid/grid-columns';
-import { choicesOf, FilterSelect } from '../../core/grid/filter-select/filter-select';
 import { ListPage } from '../../core/list-page/list-page';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { SchoolFilter } from '../../schools/school-filter/school-filter';
@@ -36,20 +37,38 @@ const ensembleColumns: ColDef<Ensemble>[] = [
 /** The ensembles of the user's schools, filtered by school and kind. */
 @Component({
   selector: 'tb-ensemble-list',
-  imports: [ListPage, ServerGrid, GridSearch, FilterSelect, SchoolFilter, YearPicker],
+  imports: [
+    ListPage,
+    ServerGrid,
+    GridSearch,
+    MatFormFieldModule,
+    MatSelectModule,
+    SchoolFilter,
+    YearPicker,
+  ],
   templateUrl: './ensemble-list.html',
+  styles: `
+    mat-form-field {
+      width: 220px;
+    }
+  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class EnsembleList {
   private readonly router = inject(Router);
   protected readonly canWrite = inject(CurrentUser).can('roster:write');
   protected readonly schools = injectSchoolChoices();
-  protected readonly kindChoices = choicesOf(ensembleKinds, (kind) => ensembleKindLabels[kind]);
+  protected readonly kinds = ensembleKinds;
+  protected readonly kindLabels = ensembleKindLabels;
   protected readonly search = signal('');
   protected readonly schoolId = signal<number | null>(null);
   protected readonly kind = signal<string | null>(null);
   /** A past year chosen in the year picker (that year's members, read-only), or null for now. */
   protected readonly pastYear = signal<SchoolYear | null>(null);
+  protected readonly pastYearLead = computed(() => {
+    const year = this.pastYear();
+    return year ? `The ensembles with their members in ${year.name}.` : null;
+  });
   protected readonly filters = computed(() => ({
     schoolId: this.schoolId(),
     kind: this.kind(),

@@ -33,7 +33,7 @@ import { ListPage } from '../../core/list-page/list-page';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { SchoolFilter } from '../../schools/school-filter/school-filter';
 import { FleetInstruments } from '../instrument-data';
-import { withIcon } from '../icon-text-cell/icon-text-cell';
+import { lookColumn } from '../icon-text-cell/icon-text-cell';
 import { FleetImportDialog } from '../fleet-import/fleet-import-dialog';
 import { InstrumentFormDialog } from '../instrument-form/instrument-form-dialog';
 import {
@@ -58,13 +58,7 @@ const columns: ColDef<Instrument>[] = [
   // Searchable and on each instrument's page; the Columns menu shows it here.
   column.field('serial', 'Serial', 100, { hide: true }),
   column.formatted('condition', 'Condition', 100, labelled(conditionLabels)),
-  column.formatted(
-    'status',
-    'Status',
-    115,
-    (status: InstrumentStatus) => statusLooks[status]?.label ?? '',
-    withIcon((row) => statusLooks[row.status]),
-  ),
+  lookColumn('status', 'Status', 115, statusLooks),
   column.field('homeSchoolCode', 'School', 85),
   column.field('location', 'Location', { flex: 1, minWidth: 100 }),
   column.formatted('purchasedOn', 'Purchased', 112, dayText),

@@ -27,7 +27,7 @@ import { ServerGrid } from '../../core/grid/server-grid';
 import { gridSource } from '../../core/grid/grid-source';
 import { column } from '../../core/grid/grid-columns';
 import { ListPage } from '../../core/list-page/list-page';
-import { withIcon } from '../../instruments/icon-text-cell/icon-text-cell';
+import { lookColumn } from '../../instruments/icon-text-cell/icon-text-cell';
 import { dayText, money } from '../../instruments/instrument-labels';
 import { repairDialog } from '../repair-dialog/repair-dialog';
 import { repairStatusLooks } from '../repair-looks';
@@ -41,13 +41,7 @@ const columns: ColDef<Repair>[] = [
   column.derived('vendor', 'Done by', 130, (row) =>
     row.inHouse ? 'In-house' : (row.vendor ?? 'Vendor'),
   ),
-  column.formatted(
-    'status',
-    'Status',
-    150,
-    (status: RepairStatus) => repairStatusLooks[status]?.label ?? '',
-    withIcon((repair) => repairStatusLooks[repair.status]),
-  ),
+  lookColumn('status', 'Status', 150, repairStatusLooks),
   column.amount('estimateCents', 'Estimate', 95, (cents: number | null) => money(cents)),
   column.amount('finalCostCents', 'Final cost', 100, (cents: number | null) => money(cents)),
   column.formatted('sentOn', 'Sent', 110, dayText),

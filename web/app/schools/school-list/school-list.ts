@@ -47,8 +47,7 @@ const schoolColumns: ColDef<School>[] = [
     <tb-list-page
       heading="Schools"
       lead="Schools, their music students and ensembles. Open a school to see its details."
-      addLabel="Add school"
-      [addLink]="canWrite ? '/schools/new' : null"
+      [addItem]="canWrite ? 'school' : null"
     >
       <tb-server-grid [source]="source" [quickSearch]="search()" (rowOpened)="open($event)">
         <div tbGridFilters class="tb-list-filters">

@@ -66,7 +66,12 @@ export class StudentList {
   protected readonly schools = injectSchoolChoices();
   /** A past year chosen in the year picker (its students, read-only), or null for now. */
   protected readonly pastYear = signal<SchoolYear | null>(null);
-  protected readonly pastYearName = computed(() => this.pastYear()?.name ?? null);
+  protected readonly pastYearLead = computed(() => {
+    const name = this.pastYear()?.name;
+    return name
+      ? `The music students of ${name}, with that year's school, grade and ensembles.`
+      : null;
+  });
   protected readonly grades = gradeChoices;
   protected readonly statusChoices = statusChoices;
   protected readonly instrumentChoices = namedChoices(instruments);
