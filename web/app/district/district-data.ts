@@ -1,19 +1,16 @@
-import { HttpClient } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../core/state/api-data';
 import type { Observable } from 'rxjs';
 import { districtSchema, type District, type DistrictPatch } from '@shared/api/district';
-import { parsedWith } from '../core/parse';
 
 /** Reads and changes the district's settings through the API. */
 @Injectable({ providedIn: 'root' })
-export class DistrictData {
-  private readonly http = inject(HttpClient);
-
+export class DistrictData extends ApiData {
   get(): Observable<District> {
-    return this.http.get('/api/district').pipe(parsedWith(districtSchema));
+    return this.read('/api/district', districtSchema);
   }
 
   update(patch: DistrictPatch): Observable<District> {
-    return this.http.patch('/api/district', patch).pipe(parsedWith(districtSchema));
+    return this.write('PATCH', '/api/district', patch, districtSchema);
   }
 }

@@ -1,5 +1,6 @@
-import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import { HttpParams, type HttpResourceRef } from '@angular/common/http';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../core/state/api-data';
 import type { Observable } from 'rxjs';
 import {
   feeDetailSchema,
@@ -21,14 +22,10 @@ import { parsedWith } from '../core/parse';
 
 /** Usage fees through `/api/fees`: the ledger, refunds, payments by hand and the schedule. */
 @Injectable({ providedIn: 'root' })
-export class FeeLedger {
-  private readonly http = inject(HttpClient);
-
+export class FeeLedger extends ApiData {
   /** The fees matching `query()`, read again whenever it changes. */
   list(query: () => Record<string, string | number>): HttpResourceRef<FeeList | undefined> {
-    return httpResource(() => ({ url: '/api/fees', params: query() }), {
-      parse: (body) => feeListSchema.parse(body),
-    });
+    return this.resource(() => ({ url: '/api/fees', params: query() }), feeListSchema);
   }
 
   /** The fees matching `query()` grouped by `by()`; idle while `by()` is undefined. */
@@ -36,45 +33,40 @@ export class FeeLedger {
     by: () => FeeSummary['by'] | undefined,
     query: () => Record<string, string | number>,
   ): HttpResourceRef<FeeSummary | undefined> {
-    return httpResource(
-      () => {
-        const group = by();
-        return group === undefined
-          ? undefined
-          : { url: '/api/fees/summary', params: { ...query(), by: group } };
-      },
-      { parse: (body) => feeSummarySchema.parse(body) },
-    );
+    return this.resource(() => {
+      const group = by();
+      return group === undefined
+        ? undefined
+        : { url: '/api/fees/summary', params: { ...query(), by: group } };
+    }, feeSummarySchema);
   }
 
   /** The ledger of loan `loanId()`; idle while it is undefined. */
   detail(loanId: () => number | undefined): HttpResourceRef<FeeDetail | undefined> {
-    return httpResource(() => (loanId() === undefined ? undefined : `/api/fees/${loanId()}`), {
-      parse: (body) => feeDetailSchema.parse(body),
-    });
+    return this.resource(
+      () => (loanId() === undefined ? undefined : `/api/fees/${loanId()}`),
+      feeDetailSchema,
+    );
   }
 
   refund(loanId: number, input: RefundInput): Observable<FeeRow> {
-    return this.http.post(`/api/fees/${loanId}/refunds`, input).pipe(parsedWith(feeRowSchema));
+    return this.write('POST', `/api/fees/${loanId}/refunds`, input, feeRowSchema);
   }
 
   recordPayment(loanId: number, amountCents: number, note: string): Observable<FeeRow> {
-    return this.http
-      .post(`/api/fees/${loanId}/payments`, { amountCents, note })
-      .pipe(parsedWith(feeRowSchema));
+    return this.write('POST', `/api/fees/${loanId}/payments`, { amountCents, note }, feeRowSchema);
   }
 
   remind(loanId: number): Observable<ReminderResult> {
-    return this.http
-      .post(`/api/fees/${loanId}/reminder`, {})
-      .pipe(parsedWith(reminderResultSchema));
+    return this.write('POST', `/api/fees/${loanId}/reminder`, {}, reminderResultSchema);
   }
 
   /** The reconciliation with the payment service, asked once `asked()` turns true. */
   reconciliation(asked: () => boolean): HttpResourceRef<Reconciliation | undefined> {
-    return httpResource(() => (asked() ? '/api/fees/reconciliation' : undefined), {
-      parse: (body) => reconciliationSchema.parse(body),
-    });
+    return this.resource(
+      () => (asked() ? '/api/fees/reconciliation' : undefined),
+      reconciliationSchema,
+    );
   }
 
   saveSchedule(schedule: FeeSchedule): Observable<FeeSchedule> {

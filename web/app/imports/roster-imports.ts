@@ -1,5 +1,6 @@
-import { HttpClient, HttpEventType, HttpParams, type HttpEvent } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import { HttpEventType, type HttpEvent } from '@angular/common/http';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../core/state/api-data';
 import { filter, map, type Observable } from 'rxjs';
 import {
   importDetailSchema,
@@ -38,9 +39,7 @@ export interface PreviewRequest {
 
 /** Roster uploads, commits, the import history and saved mappings, through `/api/imports`. */
 @Injectable({ providedIn: 'root' })
-export class RosterImports {
-  private readonly http = inject(HttpClient);
-
+export class RosterImports extends ApiData {
   preview(request: PreviewRequest): Observable<PreviewProgress> {
     const form = new FormData();
     if (request.file) form.append('file', request.file, request.file.name);
@@ -67,24 +66,22 @@ export class RosterImports {
   }
 
   commit(request: CommitRequest): Observable<ImportResult> {
-    return this.http.post('/api/imports/commit', request).pipe(parsedWith(importResultSchema));
+    return this.write('POST', '/api/imports/commit', request, importResultSchema);
   }
 
   history(
     query: Record<string, string | number> = {},
   ): Observable<ListResponse<ImportHistoryEntry>> {
-    return this.http
-      .get('/api/imports', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(historySchema));
+    return this.read('/api/imports', historySchema, query);
   }
 
   detail(id: number): Observable<ImportDetail> {
-    return this.http.get(`/api/imports/${id}`).pipe(parsedWith(importDetailSchema));
+    return this.read(`/api/imports/${id}`, importDetailSchema);
   }
 
   /** Takes a committed import back, all or nothing (the server refuses with what blocks it). */
   undo(id: number): Observable<ImportUndoResult> {
-    return this.http.post(`/api/imports/${id}/undo`, {}).pipe(parsedWith(importUndoResultSchema));
+    return this.write('POST', `/api/imports/${id}/undo`, {}, importUndoResultSchema);
   }
 
   /** Where an import's error report downloads from. */
@@ -93,13 +90,11 @@ export class RosterImports {
   }
 
   presets(): Observable<ListResponse<ImportPreset>> {
-    return this.http.get('/api/imports/presets').pipe(parsedWith(presetListSchema));
+    return this.read('/api/imports/presets', presetListSchema);
   }
 
   savePreset(name: string, mapping: ColumnMapping): Observable<ImportPreset> {
-    return this.http
-      .post('/api/imports/presets', { name, mapping })
-      .pipe(parsedWith(importPresetSchema));
+    return this.write('POST', '/api/imports/presets', { name, mapping }, importPresetSchema);
   }
 
   deletePreset(id: number): Observable<unknown> {

@@ -1,5 +1,6 @@
-import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import type { HttpResourceRef } from '@angular/common/http';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../core/state/api-data';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
@@ -20,45 +21,35 @@ const instrumentListSchema = listResponseSchema(instrumentSchema);
 
 /** Reads and writes the district's instruments through `/api/instruments`. */
 @Injectable({ providedIn: 'root' })
-export class FleetInstruments {
-  private readonly http = inject(HttpClient);
-
+export class FleetInstruments extends ApiData {
   /** A page of the fleet, for pickers: `q` searches asset tag, serial, maker and model. */
   list(query: Record<string, string | number>): Observable<ListResponse<Instrument>> {
-    return this.http
-      .get('/api/instruments', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(instrumentListSchema));
+    return this.read('/api/instruments', instrumentListSchema, query);
   }
 
   /** The instrument of `id()` with its timeline, photos, current loan and open repairs. */
   record(id: () => number): HttpResourceRef<InstrumentDetail | undefined> {
-    return httpResource(() => `/api/instruments/${id()}`, {
-      parse: (body) => instrumentDetailSchema.parse(body),
-    });
+    return this.resource(() => `/api/instruments/${id()}`, instrumentDetailSchema);
   }
 
   create(input: InstrumentInput): Observable<Instrument> {
-    return this.http.post('/api/instruments', input).pipe(parsedWith(instrumentSchema));
+    return this.write('POST', '/api/instruments', input, instrumentSchema);
   }
 
   update(id: number, patch: InstrumentPatch): Observable<Instrument> {
-    return this.http.patch(`/api/instruments/${id}`, patch).pipe(parsedWith(instrumentSchema));
+    return this.write('PATCH', `/api/instruments/${id}`, patch, instrumentSchema);
   }
 
   /** Records that an instrument back from a loan was cleaned and sanitised; it is lendable again. */
   markCleaned(id: number, note = ''): Observable<Instrument> {
-    return this.http
-      .post(`/api/instruments/${id}/cleaned`, { note })
-      .pipe(parsedWith(instrumentSchema));
+    return this.write('POST', `/api/instruments/${id}/cleaned`, { note }, instrumentSchema);
   }
 
   /** Uploads one photo; the server checks what the bytes are. */
   addPhoto(id: number, file: File): Observable<InstrumentPhoto> {
     const form = new FormData();
     form.append('photo', file);
-    return this.http
-      .post(`/api/instruments/${id}/photos`, form)
-      .pipe(parsedWith(instrumentPhotoSchema));
+    return this.write('POST', `/api/instruments/${id}/photos`, form, instrumentPhotoSchema);
   }
 
   /** Checks a fleet CSV (`dryRun`) or commits it; a commit is all or nothing. */

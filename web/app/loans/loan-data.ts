@@ -1,5 +1,6 @@
-import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import type { HttpResourceRef } from '@angular/common/http';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../core/state/api-data';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
@@ -18,46 +19,40 @@ const loanListSchema = listResponseSchema(loanSchema);
 
 /** Loans of the fleet through `/api/loans`: check-out, return, reminders, agreements. */
 @Injectable({ providedIn: 'root' })
-export class FleetLoans {
-  private readonly http = inject(HttpClient);
-
+export class FleetLoans extends ApiData {
   /** The loans the caller may see, newest first: a student's own, staff's within their schools. */
   recent(limit: number): HttpResourceRef<ListResponse<Loan> | undefined> {
-    return httpResource(
+    return this.resource(
       () => ({ url: '/api/loans', params: { limit, sort: 'checkedOutOn:desc' } }),
-      { parse: (body) => loanListSchema.parse(body) },
+      loanListSchema,
     );
   }
 
   list(query: Record<string, string | number>): Observable<ListResponse<Loan>> {
-    return this.http
-      .get('/api/loans', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(loanListSchema));
+    return this.read('/api/loans', loanListSchema, query);
   }
 
   get(id: number): Observable<Loan> {
-    return this.http.get(`/api/loans/${id}`).pipe(parsedWith(loanSchema));
+    return this.read(`/api/loans/${id}`, loanSchema);
   }
 
   /** Lends an instrument; the server e-mails the guardian a one-time agreement link. */
   checkOut(input: CheckoutInput): Observable<Loan> {
-    return this.http.post('/api/loans', input).pipe(parsedWith(loanSchema));
+    return this.write('POST', '/api/loans', input, loanSchema);
   }
 
   /** Takes a loan back: damage opens a repair ticket, a loss marks the instrument missing. */
   returnLoan(id: number, input: ReturnInput): Observable<Loan> {
-    return this.http.post(`/api/loans/${id}/return`, input).pipe(parsedWith(loanSchema));
+    return this.write('POST', `/api/loans/${id}/return`, input, loanSchema);
   }
 
   remind(id: number): Observable<ReminderResult> {
-    return this.http.post(`/api/loans/${id}/reminder`, {}).pipe(parsedWith(reminderResultSchema));
+    return this.write('POST', `/api/loans/${id}/reminder`, {}, reminderResultSchema);
   }
 
   /** Reminds the guardians of every overdue loan the user may see. */
   remindOverdue(): Observable<ReminderResult> {
-    return this.http
-      .post('/api/loans/overdue-reminders', {})
-      .pipe(parsedWith(reminderResultSchema));
+    return this.write('POST', '/api/loans/overdue-reminders', {}, reminderResultSchema);
   }
 
   /** Sends the guardian a new agreement link (the old one stops working). */

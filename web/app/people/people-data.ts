@@ -1,5 +1,5 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../core/state/api-data';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
@@ -12,37 +12,30 @@ import {
   type PersonInput,
   type PersonPatch,
 } from '@shared/api/person';
-import { parsedWith } from '../core/parse';
 
 const personListSchema = listResponseSchema(personSchema);
 const auditListSchema = listResponseSchema(auditEntrySchema);
 
 /** Reads and changes who signs in, and reads the audit log, through the API. */
 @Injectable({ providedIn: 'root' })
-export class PeopleData {
-  private readonly http = inject(HttpClient);
-
+export class PeopleData extends ApiData {
   list(query: Record<string, string | number> = {}): Observable<ListResponse<Person>> {
-    return this.http
-      .get('/api/users', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(personListSchema));
+    return this.read('/api/users', personListSchema, query);
   }
 
   get(id: number): Observable<PersonDetail> {
-    return this.http.get(`/api/users/${id}`).pipe(parsedWith(personDetailSchema));
+    return this.read(`/api/users/${id}`, personDetailSchema);
   }
 
   create(input: PersonInput): Observable<PersonDetail> {
-    return this.http.post('/api/users', input).pipe(parsedWith(personDetailSchema));
+    return this.write('POST', '/api/users', input, personDetailSchema);
   }
 
   update(id: number, patch: PersonPatch): Observable<PersonDetail> {
-    return this.http.patch(`/api/users/${id}`, patch).pipe(parsedWith(personDetailSchema));
+    return this.write('PATCH', `/api/users/${id}`, patch, personDetailSchema);
   }
 
   audit(query: Record<string, string | number> = {}): Observable<ListResponse<AuditEntryRow>> {
-    return this.http
-      .get('/api/audit', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(auditListSchema));
+    return this.read('/api/audit', auditListSchema, query);
   }
 }

@@ -1,5 +1,6 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import { HttpParams } from '@angular/common/http';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../core/state/api-data';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
@@ -19,9 +20,7 @@ export interface OutboxQuery {
 
 /** Reads the outbox and sends a failed message again. */
 @Injectable({ providedIn: 'root' })
-export class OutboxData {
-  private readonly http = inject(HttpClient);
-
+export class OutboxData extends ApiData {
   list(query: OutboxQuery): Observable<ListResponse<OutboxMessage>> {
     const params: Record<string, string | number> = {
       sort: 'createdAt:desc',
@@ -35,12 +34,10 @@ export class OutboxData {
   }
 
   get(id: number): Observable<OutboxMessageDetail> {
-    return this.http.get(`/api/outbox/${id}`).pipe(parsedWith(outboxMessageDetailSchema));
+    return this.read(`/api/outbox/${id}`, outboxMessageDetailSchema);
   }
 
   resend(id: number): Observable<OutboxMessageDetail> {
-    return this.http
-      .post(`/api/outbox/${id}/resend`, {})
-      .pipe(parsedWith(outboxMessageDetailSchema));
+    return this.write('POST', `/api/outbox/${id}/resend`, {}, outboxMessageDetailSchema);
   }
 }

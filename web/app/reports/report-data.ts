@@ -1,5 +1,5 @@
-import { HttpClient, HttpParams } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../core/state/api-data';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
@@ -13,7 +13,6 @@ import {
   type ReportScheduleInput,
   type ReportSendInput,
 } from '@shared/api/report';
-import { parsedWith } from '../core/parse';
 
 /** What a preview asks for: the kind, the school of a director report, and the period. */
 export interface PreviewRequest {
@@ -28,9 +27,7 @@ export type SendResult = { outboxIds: number[]; runIds: number[] };
 
 /** Previews, sends and schedules reports, and lists the reports sent. */
 @Injectable({ providedIn: 'root' })
-export class ReportData {
-  private readonly http = inject(HttpClient);
-
+export class ReportData extends ApiData {
   preview(request: PreviewRequest) {
     const query: Record<string, string> = {
       kind: request.kind,
@@ -39,37 +36,35 @@ export class ReportData {
     };
     if (request.kind === 'director' && request.schoolId !== null)
       query['schoolId'] = String(request.schoolId);
-    return this.http
-      .get('/api/reports/preview', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(reportPreviewSchema));
+    return this.read('/api/reports/preview', reportPreviewSchema, query);
   }
 
   send(input: ReportSendInput): Observable<SendResult> {
-    return this.http.post('/api/reports/send', input).pipe(parsedWith(reportSendResultSchema));
+    return this.write('POST', '/api/reports/send', input, reportSendResultSchema);
   }
 
   runs(offset: number, limit: number): Observable<ListResponse<ReportRun>> {
-    return this.http
-      .get('/api/reports', {
-        params: new HttpParams({ fromObject: { sort: 'createdAt:desc', offset, limit } }),
-      })
-      .pipe(parsedWith(listResponseSchema(reportRunSchema)));
+    const query = { sort: 'createdAt:desc', offset, limit };
+    return this.read('/api/reports', listResponseSchema(reportRunSchema), query);
   }
 
   schedules(): Observable<ListResponse<ReportSchedule>> {
-    return this.http
-      .get('/api/reports/schedules', { params: new HttpParams({ fromObject: { limit: 200 } }) })
-      .pipe(parsedWith(listResponseSchema(reportScheduleSchema)));
+    return this.read('/api/reports/schedules', listResponseSchema(reportScheduleSchema), {
+      limit: 200,
+    });
   }
 
   createSchedule(input: ReportScheduleInput): Observable<ReportSchedule> {
-    return this.http.post('/api/reports/schedules', input).pipe(parsedWith(reportScheduleSchema));
+    return this.write('POST', '/api/reports/schedules', input, reportScheduleSchema);
   }
 
   setScheduleActive(schedule: ReportSchedule, active: boolean): Observable<ReportSchedule> {
-    return this.http
-      .patch(`/api/reports/schedules/${schedule.id}`, { active, version: schedule.version })
-      .pipe(parsedWith(reportScheduleSchema));
+    return this.write(
+      'PATCH',
+      `/api/reports/schedules/${schedule.id}`,
+      { active, version: schedule.version },
+      reportScheduleSchema,
+    );
   }
 
   deleteSchedule(id: number): Observable<unknown> {

@@ -1,5 +1,5 @@
-import { HttpClient } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../core/state/api-data';
 import type { Observable } from 'rxjs';
 import {
   schoolYearListSchema,
@@ -11,7 +11,6 @@ import {
   type SchoolYearPatch,
   type YearStartResult,
 } from '@shared/api/school-year';
-import { parsedWith } from '../core/parse';
 
 /** What the start form sends (the shared input before its defaults are applied). */
 export interface YearStartRequest {
@@ -24,30 +23,24 @@ export interface YearStartRequest {
 
 /** Reads, adds and edits school years, and previews and starts a new one, through the API. */
 @Injectable({ providedIn: 'root' })
-export class SchoolYearData {
-  private readonly http = inject(HttpClient);
-
+export class SchoolYearData extends ApiData {
   list(): Observable<SchoolYearList> {
-    return this.http.get('/api/school-years').pipe(parsedWith(schoolYearListSchema));
+    return this.read('/api/school-years', schoolYearListSchema);
   }
 
   create(input: SchoolYearInput): Observable<SchoolYear> {
-    return this.http.post('/api/school-years', input).pipe(parsedWith(schoolYearSchema));
+    return this.write('POST', '/api/school-years', input, schoolYearSchema);
   }
 
   update(id: number, patch: SchoolYearPatch): Observable<SchoolYear> {
-    return this.http.patch(`/api/school-years/${id}`, patch).pipe(parsedWith(schoolYearSchema));
+    return this.write('PATCH', `/api/school-years/${id}`, patch, schoolYearSchema);
   }
 
   preview(request: YearStartRequest): Observable<YearStartResult> {
-    return this.http
-      .post('/api/school-years/start/preview', request)
-      .pipe(parsedWith(yearStartResultSchema));
+    return this.write('POST', '/api/school-years/start/preview', request, yearStartResultSchema);
   }
 
   start(request: YearStartRequest): Observable<YearStartResult> {
-    return this.http
-      .post('/api/school-years/start', request)
-      .pipe(parsedWith(yearStartResultSchema));
+    return this.write('POST', '/api/school-years/start', request, yearStartResultSchema);
   }
 }

@@ -1,5 +1,5 @@
-import { HttpClient, HttpParams, httpResource, type HttpResourceRef } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import type { HttpResourceRef } from '@angular/common/http';
+import { Injectable } from '@angular/core';
 import type { Observable } from 'rxjs';
 import type { ListResponse } from '@shared/api/list';
 import {
@@ -9,31 +9,28 @@ import {
   type SchoolInput,
   type SchoolPatch,
 } from '@shared/api/school';
-import { parsedWith } from '../core/parse';
+import { ApiData, type ListQuery } from '../core/state/api-data';
 
 /** Reads and writes schools through the API. */
 @Injectable({ providedIn: 'root' })
-export class SchoolData {
-  private readonly http = inject(HttpClient);
-
-  list(query: Record<string, string | number> = {}): Observable<ListResponse<School>> {
-    return this.http
-      .get('/api/schools', { params: new HttpParams({ fromObject: query }) })
-      .pipe(parsedWith(schoolListSchema));
+export class SchoolData extends ApiData {
+  list(query: ListQuery = {}): Observable<ListResponse<School>> {
+    return this.read('/api/schools', schoolListSchema, query);
   }
 
   /** The school of `id()`, read again whenever it changes; idle while `id()` is undefined. */
   record(id: () => number | undefined): HttpResourceRef<School | undefined> {
-    return httpResource(() => (id() === undefined ? undefined : `/api/schools/${id()}`), {
-      parse: (body) => schoolSchema.parse(body),
-    });
+    return this.resource(
+      () => (id() === undefined ? undefined : `/api/schools/${id()}`),
+      schoolSchema,
+    );
   }
 
   create(input: SchoolInput): Observable<School> {
-    return this.http.post('/api/schools', input).pipe(parsedWith(schoolSchema));
+    return this.write('POST', '/api/schools', input, schoolSchema);
   }
 
   update(id: number, patch: SchoolPatch): Observable<School> {
-    return this.http.patch(`/api/schools/${id}`, patch).pipe(parsedWith(schoolSchema));
+    return this.write('PATCH', `/api/schools/${id}`, patch, schoolSchema);
   }
 }

@@ -41,6 +41,7 @@ import { columnStateOf, layoutOf } from './grid-layout';
 import { rowDetail } from './row-detail/row-detail';
 import { RowDetailSheet, type RowDetailSheetData } from './row-detail/row-detail-sheet';
 import { serverGridModules } from './grid-modules';
+import type { GridSource } from './grid-source';
 import { listParameters, nextCursor, sortParameter, type GridFilters } from './grid-query';
 import { gridHeaderHeight, gridRowHeight, gridTheme } from './grid-theme';
 import { formatCount } from '../format/formats';
@@ -86,26 +87,18 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   private readonly exporter = inject(GridExport);
   private readonly bottomSheet = inject(MatBottomSheet);
 
-  /** The list route, such as '/api/students'. */
-  readonly endpoint = input.required<string>();
-  /** The columns; each `colId` (or `field`) is the name the API sorts by. */
-  readonly columns = input.required<ColDef<Row>[]>();
-  /** The API's sort names; only these columns get a sortable header. */
-  readonly sortFields = input<readonly string[]>([]);
-  /** Names the remembered layout (`/api/grid-preferences/<gridId>`) and the exported file. */
-  readonly gridId = input.required<string>();
+  /** What the grid lists: its route, layout name, rows' name, columns and words (`gridSource()`). */
+  readonly source = input.required<GridSource<Row>>();
   /** Extra query parameters: the screen's field filters. */
   readonly filters = input<GridFilters>({});
   /** The search box's text, sent as `q`. */
   readonly quickSearch = input('');
-  /** What one row is, for the count: 'student'. */
-  readonly itemName = input('row');
   /** The plural, when it is not the name plus s. */
   readonly itemNamePlural = input('');
-  readonly emptyTitle = input('Nothing matches');
+  /** The empty state's title when it changes with the screen's view (else the source's). */
+  readonly emptyTitle = input('');
+  /** The empty state's line when it changes with the screen's view (else the source's). */
   readonly emptyMessage = input('');
-  /** The label of the grid's region for assistive technology. */
-  readonly label = input('Results');
   /** The words of the phone's detail sheet button that opens a row (else "Open the <item>"). */
   readonly openLabel = input('');
 
@@ -124,8 +117,8 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
   protected readonly visibleColumns = signal<string[]>([]);
 
   protected readonly columnDefs = computed(() => {
-    const sortable = new Set(this.sortFields());
-    return this.columns().map((column) => ({
+    const sortable = new Set(this.source().sortFields);
+    return this.source().columns.map((column) => ({
       ...column,
       sortable: sortable.has(column.colId ?? column.field ?? ''),
     }));
@@ -136,11 +129,13 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
     minWidth: 70,
     sortingOrder: ['asc', 'desc'],
   };
+  /** What the rows are, in the plural: 'students'. */
+  protected readonly pluralName = computed(
+    () => this.itemNamePlural() || `${this.source().itemName}s`,
+  );
   protected readonly countText = computed(() => {
     const total = this.total();
-    if (total === null) return 'Counting…';
-    const plural = this.itemNamePlural() || `${this.itemName()}s`;
-    return `${formatCount(total)} ${total === 1 ? this.itemName() : plural}`;
+    return total === null ? 'Counting…' : this.rowsText(total);
   });
   /** A short list gets a grid just tall enough for it; a long one fills the page. */
   protected readonly fittedHeight = computed(() => {
@@ -150,6 +145,10 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
     // Room below the rows for a horizontal scroll bar on narrow screens.
     return gridHeaderHeight + total * gridRowHeight + 18;
   });
+  protected readonly emptyTitleText = computed(() => this.emptyTitle() || this.source().emptyTitle);
+  protected readonly emptyMessageText = computed(
+    () => this.emptyMessage() || this.source().emptyMessage,
+  );
   protected readonly firstLoad = computed(() => this.total() === null && this.requests() > 0);
 
   private api: GridApi<Row> | null = null;
@@ -178,7 +177,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
 
   constructor() {
     effect(() => {
-      this.endpoint();
+      this.source();
       this.filters();
       this.quickSearch();
       untracked(() => this.scheduleRefresh());
@@ -194,16 +193,21 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
     });
   }
 
+  /** "1 student", "1,204 students": a count of rows in the source's words. */
+  private rowsText(count: number): string {
+    return `${formatCount(count)} ${count === 1 ? this.source().itemName : this.pluralName()}`;
+  }
+
   protected getRowId = (params: { data: Row }) => String(params.data.id);
 
   protected async onGridReady(event: GridReadyEvent<Row>): Promise<void> {
     this.api = event.api;
     this.refreshChoices();
     // The saved layout is applied once the grid is ready; one that cannot be read is null.
-    const layout = await firstValueFrom(this.layouts.load(this.gridId()));
+    const layout = await firstValueFrom(this.layouts.load(this.source().gridId));
     if (layout && this.api) {
       const known = new Set(this.choices().map((choice) => choice.colId));
-      const sortable = new Set(this.sortFields());
+      const sortable = new Set(this.source().sortFields);
       this.api.applyColumnState({
         state: columnStateOf(layout, known, sortable),
         applyOrder: true,
@@ -242,14 +246,14 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
       return;
     }
     const data: RowDetailSheetData = {
-      itemName: this.itemName(),
+      itemName: this.source().itemName,
       detail,
-      openLabel: this.openLabel() || `Open the ${this.itemName()}`,
+      openLabel: this.openLabel() || `Open the ${this.source().itemName}`,
     };
     this.bottomSheet
       .open<RowDetailSheet, RowDetailSheetData, boolean>(RowDetailSheet, {
         data,
-        ariaLabel: `${this.itemName()}: ${detail.title}`,
+        ariaLabel: `${this.source().itemName}: ${detail.title}`,
       })
       .afterDismissed()
       // The sheet's dismissal is an event for later; the grid goes on meanwhile.
@@ -287,9 +291,9 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
       const available = this.host.nativeElement.clientWidth - 2;
       const keep = new Set(
         windowClass === 'compact'
-          ? keyColumnIds(this.columns(), shown)
+          ? keyColumnIds(this.source().columns, shown)
           : available > 0
-            ? fittingColumnIds(this.columns(), state, available)
+            ? fittingColumnIds(this.source().columns, state, available)
             : shown,
       );
       this.wideState = state;
@@ -323,7 +327,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
       const date = new Date().toISOString().slice(0, 10);
       const count = await this.exporter.download(
         {
-          endpoint: this.endpoint(),
+          endpoint: this.source().endpoint,
           quickSearch: this.quickSearch(),
           filters: this.filters(),
           sort: sortParameter(this.sortModel()),
@@ -331,12 +335,9 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
           progress: (fetched, total) =>
             this.exportStatus.set(`Exporting ${formatCount(fetched)} of ${formatCount(total)}…`),
         },
-        `${this.gridId()}-${date}.csv`,
+        `${this.source().gridId}-${date}.csv`,
       );
-      const plural = this.itemNamePlural() || `${this.itemName()}s`;
-      this.exportStatus.set(
-        `Exported ${formatCount(count)} ${count === 1 ? this.itemName() : plural}.`,
-      );
+      this.exportStatus.set(`Exported ${this.rowsText(count)}.`);
     } catch (error) {
       this.exportStatus.set(errorMessage(error, 'The export failed. Try again.'));
     } finally {
@@ -385,7 +386,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
         if (after) query['after'] = after;
         this.requests.update((count) => count + 1);
         this.http
-          .get(this.endpoint(), { params: query, observe: 'response' })
+          .get(this.source().endpoint, { params: query, observe: 'response' })
           .pipe(
             map((response) => ({
               page: pageSchema.parse(response.body),
@@ -433,7 +434,7 @@ export class ServerGrid<Row extends { id: number } = { id: number }> {
     if (text === this.lastSavedLayout) return;
     this.lastSavedLayout = text;
     // A layout that cannot be saved is not worth interrupting the user for.
-    this.write.send(this.layouts.save(this.gridId(), layout), {
+    this.write.send(this.layouts.save(this.source().gridId, layout), {
       error: () => (this.lastSavedLayout = ''),
     });
   }

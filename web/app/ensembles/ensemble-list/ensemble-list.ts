@@ -1,10 +1,8 @@
 import '../../core/screen-kit';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
-import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
-import { MatIconModule } from '@angular/material/icon';
 import { MatSelectModule } from '@angular/material/select';
-import { Router, RouterLink } from '@angular/router';
+import { Router } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import {
   ensembleKindLabels,
@@ -15,37 +13,42 @@ import {
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
+import { gridSource } from '../../core/grid/grid-source';
+import { column, orBlank } from '../../core/grid/grid-columns';
+import { ListPage } from '../../core/list-page/list-page';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { SchoolFilter } from '../../schools/school-filter/school-filter';
-
-/** The ensembles of the user's schools, filtered by school and kind. */
 import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 
+const ensembleColumns: ColDef<Ensemble>[] = [
+  column.field('name', 'Ensemble', { flex: 2, minWidth: 200 }, { sort: 'asc' }),
+  column.derived('school', 'School', 170, (row) => row.schoolName),
+  column.derived('kind', 'Kind', 160, (row) => row.kindLabel),
+  column.formatted('level', 'Level', 120, (value: string | null) => {
+    const level = String(value ?? '');
+    return level.charAt(0).toUpperCase() + level.slice(1);
+  }),
+  column.formatted('directorName', 'Director', 160, orBlank('—')),
+  column.field('meetingPeriod', 'Meets', 130),
+  column.amount('memberCount', 'Members', 110),
+];
+
+/** The ensembles of the user's schools, filtered by school and kind. */
 @Component({
   selector: 'tb-ensemble-list',
   imports: [
+    ListPage,
     ServerGrid,
     GridSearch,
-    MatButtonModule,
     MatFormFieldModule,
-    MatIconModule,
     MatSelectModule,
-    RouterLink,
     SchoolFilter,
     YearPicker,
   ],
   templateUrl: './ensemble-list.html',
   styles: `
-    .filters {
-      display: flex;
-      flex-wrap: wrap;
-      gap: 12px;
-    }
-    .search {
-      width: 280px;
-    }
-    .filters mat-form-field:not(.search) {
+    mat-form-field {
       width: 220px;
     }
   `,
@@ -62,45 +65,24 @@ export class EnsembleList {
   protected readonly kind = signal<string | null>(null);
   /** A past year chosen in the year picker (that year's members, read-only), or null for now. */
   protected readonly pastYear = signal<SchoolYear | null>(null);
+  protected readonly pastYearLead = computed(() => {
+    const year = this.pastYear();
+    return year ? `The ensembles with their members in ${year.name}.` : null;
+  });
   protected readonly filters = computed(() => ({
     schoolId: this.schoolId(),
     kind: this.kind(),
     schoolYearId: this.pastYear()?.id ?? null,
   }));
-  protected readonly sortFields = ensembleSortFields;
-  protected readonly columns: ColDef<Ensemble>[] = [
-    { field: 'name', headerName: 'Ensemble', flex: 2, minWidth: 200, sort: 'asc' },
+  protected readonly source = gridSource(
+    'ensembles',
+    'ensemble',
+    ensembleSortFields,
+    ensembleColumns,
     {
-      colId: 'school',
-      headerName: 'School',
-      width: 170,
-      valueGetter: ({ data }) => data?.schoolName,
+      emptyMessage: 'Clear the search or the filters, or add an ensemble for the school.',
     },
-    { colId: 'kind', headerName: 'Kind', width: 160, valueGetter: ({ data }) => data?.kindLabel },
-    {
-      field: 'level',
-      headerName: 'Level',
-      width: 120,
-      valueFormatter: ({ value }) => {
-        const level = String(value ?? '');
-        return level.charAt(0).toUpperCase() + level.slice(1);
-      },
-    },
-    {
-      field: 'directorName',
-      headerName: 'Director',
-      width: 160,
-      valueFormatter: ({ value }) => value ?? '—',
-    },
-    { field: 'meetingPeriod', headerName: 'Meets', width: 130 },
-    {
-      colId: 'memberCount',
-      field: 'memberCount',
-      headerName: 'Members',
-      width: 110,
-      type: 'rightAligned',
-    },
-  ];
+  );
 
   protected open(ensemble: Ensemble): void {
     void this.router.navigate(['/ensembles', ensemble.id]);

@@ -1,24 +1,19 @@
 import '../../core/screen-kit';
 import { ChangeDetectionStrategy, Component, signal } from '@angular/core';
 import { MatTabsModule } from '@angular/material/tabs';
+import { ListPage } from '../../core/list-page/list-page';
 import { ImportHistory } from '../import-history/import-history';
 import { ImportWizard } from '../import-wizard/import-wizard';
 
 /** The Imports screen: a new roster import, and the history of past ones. */
 @Component({
   selector: 'tb-imports-page',
-  imports: [MatTabsModule, ImportHistory, ImportWizard],
+  imports: [ListPage, MatTabsModule, ImportHistory, ImportWizard],
   template: `
-    <div class="tb-page">
-      <header class="tb-page-header">
-        <div>
-          <h1>Imports</h1>
-          <p>
-            Bring the roster in from the student information system: upload, check every row, then
-            commit in one step.
-          </p>
-        </div>
-      </header>
+    <tb-list-page
+      heading="Imports"
+      lead="Bring the roster in from the student information system: upload, check every row, then commit in one step."
+    >
       <mat-tab-group animationDuration="0ms" mat-stretch-tabs="false">
         <mat-tab label="New import">
           <div class="tab"><tb-import-wizard (committed)="imported.set(imported() + 1)" /></div>
@@ -29,7 +24,7 @@ import { ImportWizard } from '../import-wizard/import-wizard';
           </ng-template>
         </mat-tab>
       </mat-tab-group>
-    </div>
+    </tb-list-page>
   `,
   styles: `
     .tab {

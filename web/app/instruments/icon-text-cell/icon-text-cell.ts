@@ -2,6 +2,8 @@ import { ChangeDetectionStrategy, Component, signal } from '@angular/core';
 import { MatIconModule } from '@angular/material/icon';
 import type { ICellRendererAngularComp } from 'ag-grid-angular';
 import type { ICellRendererParams } from 'ag-grid-community';
+import type { ColDef, ColDefField } from 'ag-grid-community';
+import { column, type ColumnExtras } from '../../core/grid/grid-columns';
 
 /** The icon a cell shows before its text, and the icon's tone. */
 export interface CellIcon {
@@ -81,4 +83,31 @@ export class IconTextCell<Row = unknown> implements ICellRendererAngularComp {
     this.icon.set(params.data ? params.iconOf(params.data) : null);
     this.text.set(String(params.valueFormatted ?? params.value ?? ''));
   }
+}
+
+/** The part of a column's definition that draws its cells as `IconTextCell`s, by the row's icon. */
+export function withIcon<Row>(iconOf: (row: Row) => CellIcon | null): ColumnExtras<Row> {
+  return {
+    cellRenderer: IconTextCell,
+    cellRendererParams: { iconOf } satisfies IconTextCellParams<Row>,
+  };
+}
+
+/**
+ * A status column: each value's words and icon from a table of looks (`statusLooks`), so the
+ * status reads in words with its icon beside them.
+ */
+export function lookColumn<Row, Value extends string>(
+  field: ColDefField<Row> & keyof Row,
+  headerName: string,
+  width: number,
+  looks: Record<Value, CellIcon & { label: string }>,
+): ColDef<Row> {
+  return column.formatted(
+    field,
+    headerName,
+    width,
+    (value: Value) => looks[value]?.label ?? '',
+    withIcon((row) => looks[row[field] as Value]),
+  );
 }

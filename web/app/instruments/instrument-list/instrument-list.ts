@@ -27,10 +27,13 @@ import { CurrentUser } from '../../core/auth/current-user';
 import { FilterSelect, choicesOf } from '../../core/grid/filter-select/filter-select';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
+import { gridSource } from '../../core/grid/grid-source';
+import { column, labelled } from '../../core/grid/grid-columns';
+import { ListPage } from '../../core/list-page/list-page';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { SchoolFilter } from '../../schools/school-filter/school-filter';
 import { FleetInstruments } from '../instrument-data';
-import { IconTextCell, type IconTextCellParams } from '../icon-text-cell/icon-text-cell';
+import { lookColumn } from '../icon-text-cell/icon-text-cell';
 import { FleetImportDialog } from '../fleet-import/fleet-import-dialog';
 import { InstrumentFormDialog } from '../instrument-form/instrument-form-dialog';
 import {
@@ -44,10 +47,29 @@ import {
 import { InstrumentViewBar } from './instrument-view-bar';
 import type { InstrumentViewFilters } from '../instrument-views';
 
+const columns: ColDef<Instrument>[] = [
+  column.field('assetTag', 'Asset tag', 110, { sort: 'asc' }),
+  column.derived('instrumentId', 'Instrument', 150, (row) =>
+    instrumentKindName(row.instrumentId, row.instrumentName),
+  ),
+  column.derived('maker', 'Maker / model', { flex: 1, minWidth: 150 }, (row) =>
+    [row.maker, row.model].filter(Boolean).join(' '),
+  ),
+  // Searchable and on each instrument's page; the Columns menu shows it here.
+  column.field('serial', 'Serial', 100, { hide: true }),
+  column.formatted('condition', 'Condition', 100, labelled(conditionLabels)),
+  lookColumn('status', 'Status', 115, statusLooks),
+  column.field('homeSchoolCode', 'School', 85),
+  column.field('location', 'Location', { flex: 1, minWidth: 100 }),
+  column.formatted('purchasedOn', 'Purchased', 112, dayText),
+  column.amount('purchaseCostCents', 'Cost', 85, (cents: number | null) => money(cents, true)),
+];
+
 /** The fleet: a server-paged grid with filters, saved views, and the fleet's own actions. */
 @Component({
   selector: 'tb-instrument-list',
   imports: [
+    ListPage,
     ServerGrid,
     GridSearch,
     FilterSelect,
@@ -105,57 +127,15 @@ export class InstrumentList {
     Object.values(this.viewFilters()).some((value) => value !== undefined),
   );
 
-  protected readonly sortFields = instrumentSortFields;
-  protected readonly columns: ColDef<Instrument>[] = [
-    { field: 'assetTag', headerName: 'Asset tag', width: 110, sort: 'asc' },
+  protected readonly source = gridSource(
+    'instruments',
+    'instrument',
+    instrumentSortFields,
+    columns,
     {
-      colId: 'instrumentId',
-      headerName: 'Instrument',
-      width: 150,
-      valueGetter: ({ data }) =>
-        data ? instrumentKindName(data.instrumentId, data.instrumentName) : '',
+      emptyMessage: 'Clear the search and filters, or add instruments with a fleet CSV.',
     },
-    {
-      colId: 'maker',
-      headerName: 'Maker / model',
-      flex: 1,
-      minWidth: 150,
-      valueGetter: ({ data }) => (data ? [data.maker, data.model].filter(Boolean).join(' ') : ''),
-    },
-    // Searchable and on each instrument's page; the Columns menu shows it here.
-    { field: 'serial', headerName: 'Serial', width: 100, hide: true },
-    {
-      field: 'condition',
-      headerName: 'Condition',
-      width: 100,
-      valueFormatter: ({ value }) => conditionLabels[value as InstrumentCondition] ?? '',
-    },
-    {
-      field: 'status',
-      headerName: 'Status',
-      width: 115,
-      valueFormatter: ({ value }) => statusLooks[value as InstrumentStatus]?.label ?? '',
-      cellRenderer: IconTextCell,
-      cellRendererParams: {
-        iconOf: (row) => statusLooks[row.status],
-      } satisfies IconTextCellParams<Instrument>,
-    },
-    { field: 'homeSchoolCode', headerName: 'School', width: 85 },
-    { field: 'location', headerName: 'Location', flex: 1, minWidth: 100 },
-    {
-      field: 'purchasedOn',
-      headerName: 'Purchased',
-      width: 112,
-      valueFormatter: ({ value }) => dayText(value as string | null),
-    },
-    {
-      field: 'purchaseCostCents',
-      headerName: 'Cost',
-      width: 85,
-      type: 'rightAligned',
-      valueFormatter: ({ value }) => money(value as number | null, true),
-    },
-  ];
+  );
 
   protected applyView(filters: InstrumentViewFilters): void {
     this.search.set(filters.q ?? '');

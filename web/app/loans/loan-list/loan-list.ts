@@ -18,12 +18,12 @@ import { loanSortFields, type Loan } from '@shared/api/loan';
 import { CurrentUser } from '../../core/auth/current-user';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
+import { gridSource } from '../../core/grid/grid-source';
+import { column } from '../../core/grid/grid-columns';
+import { ListPage } from '../../core/list-page/list-page';
 import { errorMessage } from '../../core/parse';
 import { askToConfirm } from '../../core/confirm-dialog/confirm-dialog';
-import {
-  IconTextCell,
-  type IconTextCellParams,
-} from '../../instruments/icon-text-cell/icon-text-cell';
+import { withIcon } from '../../instruments/icon-text-cell/icon-text-cell';
 import { dayText } from '../../instruments/instrument-labels';
 import { checkOutDialog } from '../checkout-dialog/checkout-dialog';
 import { FleetLoans } from '../loan-data';
@@ -31,10 +31,30 @@ import { LoanPanel } from '../loan-panel/loan-panel';
 import { loanTabs, type LoanTab } from './loan-tabs';
 import { createWrite } from '../../core/state/write';
 
+const columns: ColDef<Loan>[] = [
+  column.field('assetTag', 'Asset tag', 125),
+  column.field('instrumentName', 'Instrument', 150),
+  column.field('studentName', 'Student', { flex: 1, minWidth: 160 }),
+  column.field('schoolCode', 'School', 100),
+  column.formatted('checkedOutOn', 'Out since', 130, dayText, { sort: 'desc' }),
+  column.field('dueOn', 'Due', 205, {
+    valueFormatter: ({ value, data }) =>
+      `${dayText(value as string)}${data?.overdue ? ' (overdue)' : ''}`,
+    ...withIcon((loan) => (loan.overdue ? { icon: 'event_busy', tone: 'danger' } : null)),
+  }),
+  column.derived('agreement', 'Agreement', 150, (loan) => (loan.signed ? 'Signed' : 'Not signed'), {
+    ...withIcon((loan) =>
+      loan.signed ? { icon: 'draw', tone: 'ok' } : { icon: 'pending', tone: 'warn' },
+    ),
+  }),
+  column.formatted('returnedOn', 'Returned', 130, dayText, { hide: true }),
+];
+
 /** The loans of the user's schools, by tab, with check-out, returns and reminders. */
 @Component({
   selector: 'tb-loan-list',
   imports: [
+    ListPage,
     RouterLink,
     ServerGrid,
     GridSearch,
@@ -68,49 +88,7 @@ export class LoanList {
   protected readonly search = linkedSignal(() => this.initialSearch());
   protected readonly selected = signal<Loan | null>(null);
   protected readonly notice = signal('');
-  protected readonly sortFields = loanSortFields;
-  protected readonly columns: ColDef<Loan>[] = [
-    { field: 'assetTag', headerName: 'Asset tag', width: 125 },
-    { field: 'instrumentName', headerName: 'Instrument', width: 150 },
-    { field: 'studentName', headerName: 'Student', flex: 1, minWidth: 160 },
-    { field: 'schoolCode', headerName: 'School', width: 100 },
-    {
-      field: 'checkedOutOn',
-      headerName: 'Out since',
-      width: 130,
-      sort: 'desc',
-      valueFormatter: ({ value }) => dayText(value as string),
-    },
-    {
-      field: 'dueOn',
-      headerName: 'Due',
-      width: 205,
-      valueFormatter: ({ value, data }) =>
-        `${dayText(value as string)}${data?.overdue ? ' (overdue)' : ''}`,
-      cellRenderer: IconTextCell,
-      cellRendererParams: {
-        iconOf: (loan) => (loan.overdue ? { icon: 'event_busy', tone: 'danger' } : null),
-      } satisfies IconTextCellParams<Loan>,
-    },
-    {
-      colId: 'agreement',
-      headerName: 'Agreement',
-      width: 150,
-      valueGetter: ({ data }) => (data ? (data.signed ? 'Signed' : 'Not signed') : ''),
-      cellRenderer: IconTextCell,
-      cellRendererParams: {
-        iconOf: (loan) =>
-          loan.signed ? { icon: 'draw', tone: 'ok' } : { icon: 'pending', tone: 'warn' },
-      } satisfies IconTextCellParams<Loan>,
-    },
-    {
-      field: 'returnedOn',
-      headerName: 'Returned',
-      width: 130,
-      hide: true,
-      valueFormatter: ({ value }) => dayText(value as string | null),
-    },
-  ];
+  protected readonly source = gridSource('loans', 'loan', loanSortFields, columns);
 
   protected showTab(tab: LoanTab): void {
     this.selected.set(null);

@@ -5,6 +5,20 @@ import type { ColDef } from 'ag-grid-community';
 import { passOffSortFields, type PassOff } from '@shared/api/pass-off';
 import type { SchoolYear } from '@shared/api/school-year';
 import { ServerGrid } from '../../core/grid/server-grid';
+import { gridSource } from '../../core/grid/grid-source';
+import { column } from '../../core/grid/grid-columns';
+
+const columns: ColDef<PassOff>[] = [
+  column.field('heardOn', 'Heard on', 120, { sort: 'desc' }),
+  column.field('studentName', 'Student', { flex: 1, minWidth: 160 }),
+  column.field('requirementCode', 'Requirement', 150),
+  column.amount('tempo', 'Tempo', 100, (tempo: number | null) => (tempo ? `♩ = ${tempo}` : '')),
+  column.formatted('passed', 'Result', 100, (passed: boolean) => (passed ? 'Passed' : 'Not yet'), {
+    sortable: false,
+  }),
+  column.field('heardByName', 'Heard by', 170, { sortable: false }),
+  column.field('note', 'Note', { flex: 1, minWidth: 160 }, { sortable: false }),
+];
 
 /**
  * The pass-offs heard in a past school year, read-only: history is read, not changed, so there
@@ -19,16 +33,9 @@ import { ServerGrid } from '../../core/grid/server-grid';
       {{ year().endsOn }}), wherever they played then. Past years are history: read, not changed.
     </p>
     <tb-server-grid
-      endpoint="/api/pass-offs"
-      gridId="past-pass-offs"
-      label="Pass-offs of a past year"
-      itemName="pass-off"
+      [source]="source"
       openLabel="Open the student"
-      [columns]="columns"
-      [sortFields]="sortFields"
       [filters]="filters()"
-      emptyTitle="No pass-offs that year"
-      emptyMessage="Nothing was heard in your schools in that year."
       (rowOpened)="open($event)"
     />
   `,
@@ -48,28 +55,12 @@ export class PastPassOffs {
     from: this.year().startsOn,
     to: this.year().endsOn,
   }));
-  protected readonly sortFields = passOffSortFields;
-  protected readonly columns: ColDef<PassOff>[] = [
-    { field: 'heardOn', headerName: 'Heard on', width: 120, sort: 'desc' },
-    { field: 'studentName', headerName: 'Student', flex: 1, minWidth: 160 },
-    { field: 'requirementCode', headerName: 'Requirement', width: 150 },
-    {
-      field: 'tempo',
-      headerName: 'Tempo',
-      width: 100,
-      type: 'rightAligned',
-      valueFormatter: ({ value }) => (value ? `♩ = ${value}` : ''),
-    },
-    {
-      field: 'passed',
-      headerName: 'Result',
-      width: 100,
-      sortable: false,
-      valueFormatter: ({ value }) => (value ? 'Passed' : 'Not yet'),
-    },
-    { field: 'heardByName', headerName: 'Heard by', width: 170, sortable: false },
-    { field: 'note', headerName: 'Note', flex: 1, minWidth: 160, sortable: false },
-  ];
+  protected readonly source = gridSource('pass-offs', 'pass-off', passOffSortFields, columns, {
+    gridId: 'past-pass-offs',
+    label: 'Pass-offs of a past year',
+    emptyTitle: 'No pass-offs that year',
+    emptyMessage: 'Nothing was heard in your schools in that year.',
+  });
 
   protected open(passOff: PassOff): void {
     void this.router.navigate(['/students', passOff.studentId]);

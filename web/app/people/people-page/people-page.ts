@@ -3,6 +3,7 @@ import { ChangeDetectionStrategy, Component } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
 import { MatTabsModule } from '@angular/material/tabs';
+import { ListPage } from '../../core/list-page/list-page';
 import { AuditLog } from '../audit-log/audit-log';
 import { PersonList } from '../person-list/person-list';
 import { TokenList } from '../token-list/token-list';
@@ -13,25 +14,28 @@ import { TokenList } from '../token-list/token-list';
  */
 @Component({
   selector: 'tb-people-page',
-  imports: [MatButtonModule, MatIconModule, MatTabsModule, AuditLog, PersonList, TokenList],
+  imports: [
+    ListPage,
+    MatButtonModule,
+    MatIconModule,
+    MatTabsModule,
+    AuditLog,
+    PersonList,
+    TokenList,
+  ],
   template: `
-    <div class="tb-page">
-      <header class="tb-page-header">
-        <div>
-          <h1>People</h1>
-          <p>
-            Who signs in to Tuttiboard, their roles and schools, the API tokens scripts use, and who
-            changed what.
-          </p>
-        </div>
-        <a
-          mat-stroked-button
-          href="/api/backup"
-          download
-          title="The database with every instrument photo, recording and waiting upload, as one .tar.gz that tutti restore reads"
-          ><mat-icon svgIcon="download" />Download a backup</a
-        >
-      </header>
+    <tb-list-page
+      heading="People"
+      lead="Who signs in to Tuttiboard, their roles and schools, the API tokens scripts use, and who changed what."
+    >
+      <a
+        tbListActions
+        mat-stroked-button
+        href="/api/backup"
+        download
+        title="The database with every instrument photo, recording and waiting upload, as one .tar.gz that tutti restore reads"
+        ><mat-icon svgIcon="download" />Download a backup</a
+      >
       <mat-tab-group animationDuration="0ms" mat-stretch-tabs="false">
         <mat-tab label="People">
           <div class="tab"><tb-person-list /></div>
@@ -47,7 +51,7 @@ import { TokenList } from '../token-list/token-list';
           </ng-template>
         </mat-tab>
       </mat-tab-group>
-    </div>
+    </tb-list-page>
   `,
   styles: `
     .tab {

@@ -24,14 +24,30 @@ import {
 } from '@shared/api/repair';
 import { CurrentUser } from '../../core/auth/current-user';
 import { ServerGrid } from '../../core/grid/server-grid';
-import {
-  IconTextCell,
-  type IconTextCellParams,
-} from '../../instruments/icon-text-cell/icon-text-cell';
+import { gridSource } from '../../core/grid/grid-source';
+import { column } from '../../core/grid/grid-columns';
+import { ListPage } from '../../core/list-page/list-page';
+import { lookColumn } from '../../instruments/icon-text-cell/icon-text-cell';
 import { dayText, money } from '../../instruments/instrument-labels';
 import { repairDialog } from '../repair-dialog/repair-dialog';
 import { repairStatusLooks } from '../repair-looks';
 import { IconButton } from '../../core/icon-button/icon-button';
+
+const columns: ColDef<Repair>[] = [
+  column.field('assetTag', 'Asset tag', 115),
+  column.field('instrumentName', 'Instrument', 135),
+  column.field('homeSchoolCode', 'School', 85),
+  column.field('problem', 'Problem', { flex: 2, minWidth: 160 }),
+  column.derived('vendor', 'Done by', 130, (row) =>
+    row.inHouse ? 'In-house' : (row.vendor ?? 'Vendor'),
+  ),
+  lookColumn('status', 'Status', 150, repairStatusLooks),
+  column.amount('estimateCents', 'Estimate', 95, (cents: number | null) => money(cents)),
+  column.amount('finalCostCents', 'Final cost', 100, (cents: number | null) => money(cents)),
+  column.formatted('sentOn', 'Sent', 110, dayText),
+  column.formatted('returnedOn', 'Returned', 110, dayText),
+  column.formatted('createdAt', 'Opened', 110, dayText, { sort: 'desc', hide: true }),
+];
 
 type Showing = 'open' | 'all' | RepairStatus;
 
@@ -39,6 +55,7 @@ type Showing = 'open' | 'all' | RepairStatus;
 @Component({
   selector: 'tb-repair-list',
   imports: [
+    ListPage,
     IconButton,
     MatButtonModule,
     MatFormFieldModule,
@@ -63,9 +80,6 @@ type Showing = 'open' | 'all' | RepairStatus;
       }
     }
     .filters {
-      display: flex;
-      flex-wrap: wrap;
-      gap: 12px;
       align-items: center;
     }
     .showing {
@@ -103,64 +117,11 @@ export class RepairList {
       instrumentId: this.instrumentFilter(),
     };
   });
-  protected readonly sortFields = repairSortFields;
-  protected readonly columns: ColDef<Repair>[] = [
-    { field: 'assetTag', headerName: 'Asset tag', width: 115 },
-    { field: 'instrumentName', headerName: 'Instrument', width: 135 },
-    { field: 'homeSchoolCode', headerName: 'School', width: 85 },
-    { field: 'problem', headerName: 'Problem', flex: 2, minWidth: 160 },
-    {
-      colId: 'vendor',
-      headerName: 'Done by',
-      width: 130,
-      valueGetter: ({ data }) =>
-        data ? (data.inHouse ? 'In-house' : (data.vendor ?? 'Vendor')) : '',
-    },
-    {
-      field: 'status',
-      headerName: 'Status',
-      width: 150,
-      valueFormatter: ({ value }) => repairStatusLooks[value as RepairStatus]?.label ?? '',
-      cellRenderer: IconTextCell,
-      cellRendererParams: {
-        iconOf: (repair) => repairStatusLooks[repair.status],
-      } satisfies IconTextCellParams<Repair>,
-    },
-    {
-      field: 'estimateCents',
-      headerName: 'Estimate',
-      width: 95,
-      type: 'rightAligned',
-      valueFormatter: ({ value }) => money(value as number | null),
-    },
-    {
-      field: 'finalCostCents',
-      headerName: 'Final cost',
-      width: 100,
-      type: 'rightAligned',
-      valueFormatter: ({ value }) => money(value as number | null),
-    },
-    {
-      field: 'sentOn',
-      headerName: 'Sent',
-      width: 110,
-      valueFormatter: ({ value }) => dayText(value as string | null),
-    },
-    {
-      field: 'returnedOn',
-      headerName: 'Returned',
-      width: 110,
-      valueFormatter: ({ value }) => dayText(value as string | null),
-    },
-    {
-      field: 'createdAt',
-      headerName: 'Opened',
-      width: 110,
-      sort: 'desc',
-      hide: true,
-      valueFormatter: ({ value }) => dayText(value as string),
-    },
-  ];
+  protected readonly source = gridSource('repairs', 'ticket', repairSortFields, columns, {
+    label: 'Repair tickets',
+    emptyTitle: 'No repair tickets here',
+    emptyMessage: 'Show every ticket, or open one when an instrument needs work.',
+  });
 
   protected async openTicket(repair: Repair | null): Promise<void> {
     const saved = await repairDialog(this.dialog, { repair, editable: this.canWrite });

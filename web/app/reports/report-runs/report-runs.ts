@@ -31,7 +31,7 @@ const pageSize = 50;
           message="Preview a report and send it now, or add a schedule; each one sent is listed here."
         />
       } @else {
-        <table class="list" data-testid="report-runs">
+        <table class="tb-list-table list" data-testid="report-runs">
           <caption class="tb-visually-hidden">
             Reports sent, newest first
           </caption>
@@ -74,24 +74,9 @@ const pageSize = 50;
   `,
   styles: `
     .list {
-      width: 100%;
-      border-collapse: collapse;
-      background: var(--tb-surface);
-      border: 1px solid var(--tb-line);
       font-size: 0.9rem;
     }
-    th,
-    td {
-      text-align: left;
-      padding: 8px 12px;
-      border-bottom: 1px solid var(--tb-line);
-      vertical-align: top;
-    }
-    thead th {
-      font-weight: 600;
-    }
     tbody th {
-      font-weight: 500;
       white-space: nowrap;
     }
     td:first-child {

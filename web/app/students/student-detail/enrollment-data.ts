@@ -1,5 +1,5 @@
-import { HttpClient } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../../core/state/api-data';
 import type { Observable } from 'rxjs';
 import {
   enrollmentSchema,
@@ -7,18 +7,15 @@ import {
   type EnrollmentInput,
   type EnrollmentPatch,
 } from '@shared/api/enrollment';
-import { parsedWith } from '../../core/parse';
 
 /** Seats students in ensembles through `/api/enrollments`. */
 @Injectable({ providedIn: 'root' })
-export class EnrollmentData {
-  private readonly http = inject(HttpClient);
-
+export class EnrollmentData extends ApiData {
   create(input: EnrollmentInput): Observable<Enrollment> {
-    return this.http.post('/api/enrollments', input).pipe(parsedWith(enrollmentSchema));
+    return this.write('POST', '/api/enrollments', input, enrollmentSchema);
   }
 
   update(id: number, patch: EnrollmentPatch): Observable<Enrollment> {
-    return this.http.patch(`/api/enrollments/${id}`, patch).pipe(parsedWith(enrollmentSchema));
+    return this.write('PATCH', `/api/enrollments/${id}`, patch, enrollmentSchema);
   }
 }

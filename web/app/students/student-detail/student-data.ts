@@ -1,5 +1,6 @@
-import { HttpClient, httpResource, type HttpResourceRef } from '@angular/common/http';
-import { Injectable, inject } from '@angular/core';
+import type { HttpResourceRef } from '@angular/common/http';
+import { Injectable } from '@angular/core';
+import { ApiData } from '../../core/state/api-data';
 import { map, type Observable } from 'rxjs';
 import {
   studentDetailSchema,
@@ -15,9 +16,7 @@ import { parsedWith } from '../../core/parse';
 
 /** Reads and writes student records through `/api/students`. */
 @Injectable({ providedIn: 'root' })
-export class StudentData {
-  private readonly http = inject(HttpClient);
-
+export class StudentData extends ApiData {
   /**
    * Up to `limit` active students of the user's schools whose name or student id matches
    * `text`, as a picker offers them (the API answers only the user's own schools' students).
@@ -31,17 +30,18 @@ export class StudentData {
 
   /** The record of `id()` with its school, seats and moves; idle while `id()` is undefined. */
   record(id: () => number | undefined): HttpResourceRef<StudentDetail | undefined> {
-    return httpResource(() => (id() === undefined ? undefined : `/api/students/${id()}`), {
-      parse: (body) => studentDetailSchema.parse(body),
-    });
+    return this.resource(
+      () => (id() === undefined ? undefined : `/api/students/${id()}`),
+      studentDetailSchema,
+    );
   }
 
   create(input: StudentInput): Observable<Student> {
-    return this.http.post('/api/students', input).pipe(parsedWith(studentSchema));
+    return this.write('POST', '/api/students', input, studentSchema);
   }
 
   update(id: number, patch: StudentPatch): Observable<Student> {
-    return this.http.patch(`/api/students/${id}`, patch).pipe(parsedWith(studentSchema));
+    return this.write('PATCH', `/api/students/${id}`, patch, studentSchema);
   }
 
   /** Moves the student to another school; the move is kept in their history. */

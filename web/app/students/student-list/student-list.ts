@@ -9,8 +9,7 @@ import {
   signal,
 } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import { MatIconModule } from '@angular/material/icon';
-import { Router, RouterLink } from '@angular/router';
+import { Router } from '@angular/router';
 import type { ColDef } from 'ag-grid-community';
 import { instruments } from '@shared/music/instrument-data';
 import { studentSortFields, type Student, type StudentStatus } from '@shared/api/student';
@@ -18,36 +17,43 @@ import { CurrentUser } from '../../core/auth/current-user';
 import { FilterSelect, namedChoices } from '../../core/grid/filter-select/filter-select';
 import { GridSearch } from '../../core/grid/grid-search/grid-search';
 import { ServerGrid } from '../../core/grid/server-grid';
+import { gridSource } from '../../core/grid/grid-source';
+import { column, labelled, orBlank } from '../../core/grid/grid-columns';
+import { ListPage } from '../../core/list-page/list-page';
 import { injectSchoolChoices } from '../../schools/school-choices';
 import { SchoolFilter } from '../../schools/school-filter/school-filter';
 import type { SchoolYear } from '@shared/api/school-year';
 import { YearPicker } from '../../school-years/year-picker/year-picker';
 import { gradeChoices, statusChoices, statusLabels } from '../student-form/student-choices';
 
+const studentColumns: ColDef<Student>[] = [
+  column.field('studentNumber', 'Student ID', 115),
+  column.field('lastName', 'Last name', 135, { sort: 'asc', context: { key: true } }),
+  column.field('firstName', 'First name', 125, { context: { key: true } }),
+  column.formatted('preferredName', 'Preferred', 110, orBlank()),
+  column.amount('grade', 'Grade', 85, undefined, {
+    context: { key: true },
+    valueFormatter: ({ data }) => data?.gradeLabel ?? '',
+  }),
+  column.derived('school', 'School', 95, (row) => row.schoolCode),
+  column.field('ensembles', 'Ensembles', { flex: 2, minWidth: 150 }),
+  column.field('instruments', 'Instruments', { flex: 1, minWidth: 120 }),
+  column.formatted('status', 'Status', 105, labelled(statusLabels)),
+];
+
 /** The students of the user's schools: search, filters, and a way into each record. */
 @Component({
   selector: 'tb-student-list',
   imports: [
+    ListPage,
     ServerGrid,
     GridSearch,
     FilterSelect,
     SchoolFilter,
     MatButtonModule,
-    MatIconModule,
-    RouterLink,
     YearPicker,
   ],
   templateUrl: './student-list.html',
-  styles: `
-    .filters {
-      display: flex;
-      flex-wrap: wrap;
-      gap: 12px;
-    }
-    .search {
-      width: 300px;
-    }
-  `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class StudentList {
@@ -60,7 +66,12 @@ export class StudentList {
   protected readonly schools = injectSchoolChoices();
   /** A past year chosen in the year picker (its students, read-only), or null for now. */
   protected readonly pastYear = signal<SchoolYear | null>(null);
-  protected readonly pastYearName = computed(() => this.pastYear()?.name ?? null);
+  protected readonly pastYearLead = computed(() => {
+    const name = this.pastYear()?.name;
+    return name
+      ? `The music students of ${name}, with that year's school, grade and ensembles.`
+      : null;
+  });
   protected readonly grades = gradeChoices;
   protected readonly statusChoices = statusChoices;
   protected readonly instrumentChoices = namedChoices(instruments);
@@ -80,40 +91,9 @@ export class StudentList {
     instrumentId: this.pastYear() === null ? this.instrumentId() : null,
     schoolYearId: this.pastYear()?.id ?? null,
   }));
-  protected readonly sortFields = studentSortFields;
-  protected readonly columns: ColDef<Student>[] = [
-    { field: 'studentNumber', headerName: 'Student ID', width: 115 },
-    { field: 'lastName', headerName: 'Last name', width: 135, sort: 'asc', context: { key: true } },
-    { field: 'firstName', headerName: 'First name', width: 125, context: { key: true } },
-    {
-      field: 'preferredName',
-      headerName: 'Preferred',
-      width: 110,
-      valueFormatter: ({ value }) => value ?? '',
-    },
-    {
-      field: 'grade',
-      headerName: 'Grade',
-      width: 85,
-      type: 'rightAligned',
-      context: { key: true },
-      valueFormatter: ({ data }) => data?.gradeLabel ?? '',
-    },
-    {
-      colId: 'school',
-      headerName: 'School',
-      width: 95,
-      valueGetter: ({ data }) => data?.schoolCode,
-    },
-    { field: 'ensembles', headerName: 'Ensembles', flex: 2, minWidth: 150 },
-    { field: 'instruments', headerName: 'Instruments', flex: 1, minWidth: 120 },
-    {
-      field: 'status',
-      headerName: 'Status',
-      width: 105,
-      valueFormatter: ({ value }) => statusLabels[value as StudentStatus] ?? '',
-    },
-  ];
+  protected readonly source = gridSource('students', 'student', studentSortFields, studentColumns, {
+    emptyMessage: 'Clear the search or import a roster.',
+  });
 
   protected clearFilters(): void {
     this.search.set('');

@@ -30,9 +30,9 @@ export function choicesOf<T extends string>(
       <mat-select
         [value]="value()"
         (selectionChange)="value.set($event.value)"
-        [attr.data-testid]="testId()"
+        [attr.data-testid]="testId() ?? 'filter-' + label().toLowerCase()"
       >
-        @if (anyLabel(); as any) {
+        @if (anyLabel() ?? 'Any ' + label().toLowerCase(); as any) {
           <mat-option [value]="null">{{ any }}</mat-option>
         }
         @for (choice of choices(); track choice.value) {
@@ -52,12 +52,15 @@ export function choicesOf<T extends string>(
 export class FilterSelect<T> {
   /** The field's label, e.g. "School". */
   readonly label = input.required<string>();
-  /** The first choice, which clears the filter (value null), e.g. "All schools"; none when ''. */
-  readonly anyLabel = input('');
+  /**
+   * The first choice, which clears the filter (value null): "Any status" for the label "Status"
+   * unless named otherwise ("All schools"); none when ''.
+   */
+  readonly anyLabel = input<string | null>(null);
   readonly choices = input.required<readonly FilterChoice<T>[]>();
   /** The field's width as a CSS length ("130px"); its content's when none. */
   readonly width = input<string | null>(null);
-  /** The select's data-testid, for browser tests. */
+  /** The select's data-testid, for browser tests: "filter-status" for "Status" unless named. */
   readonly testId = input<string | null>(null);
   /** The chosen value, or null for every row. */
   readonly value = model<T | null>(null);

@@ -5,7 +5,7 @@ import { MatInputModule } from '@angular/material/input';
 
 /**
  * The search field at the head of a list screen's grid (`<div tbGridFilters>`); its text is the
- * grid's quick search. The screen sets the width on the element (`class="search"`).
+ * grid's quick search; its `width`, when given, is the field's.
  */
 @Component({
   selector: 'tb-grid-search',
@@ -33,9 +33,12 @@ import { MatInputModule } from '@angular/material/input';
       width: 100%;
     }
   `,
+  host: { '[style.width]': 'width()' },
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class GridSearch {
+  /** The field's width as a CSS length ("300px"); the whole row's when none. */
+  readonly width = input<string | null>(null);
   /** The field's label, e.g. "Search students". */
   readonly label = input.required<string>();
   /** What can be searched for, e.g. "Name or student ID". */
