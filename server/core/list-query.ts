@@ -1,6 +1,7 @@
 import { asc, desc, ilike, or, type AnyColumn, type SQL } from 'drizzle-orm';
+import type { PgSelect } from 'drizzle-orm/pg-core';
 import type { z } from 'zod';
-import { listQuerySchema, type ListQuery } from '@shared/api/list';
+import { listQuerySchema, type ListQuery, type ListResponse } from '@shared/api/list';
 import { badRequest } from './errors';
 import { parseInput } from './validate';
 
@@ -73,4 +74,26 @@ export function nextPageLink(originalUrl: string, cursor: string): string {
   url.searchParams.delete('offset');
   url.searchParams.set('after', cursor);
   return `<${url.pathname}${url.search}>; rel="next"`;
+}
+
+/**
+ * One page of a list and the count of all its rows, read side by side: `rows` is the filtered
+ * select in Drizzle's dynamic mode (`.$dynamic()`, "Dynamic query building"), which this orders
+ * and pages; `total` counts the same filter. Each row is turned into its API shape by `toItem`.
+ */
+export async function listPage<Query extends PgSelect, Item>(
+  list: ListQuery,
+  order: SQL[],
+  rows: Query,
+  total: PromiseLike<{ total: number }[]>,
+  toItem: (row: Awaited<Query>[number]) => Item,
+): Promise<ListResponse<Item>> {
+  const [page, [counted]] = await Promise.all([
+    rows
+      .orderBy(...order)
+      .limit(list.limit)
+      .offset(list.offset),
+    total,
+  ]);
+  return { rows: (page as Awaited<Query>).map(toItem), total: counted!.total };
 }

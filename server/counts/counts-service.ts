@@ -10,7 +10,7 @@ import {
   type ScanOutcome,
 } from '@shared/api/count';
 import { assertInScope, schoolScope, type Actor } from '../core/policy';
-import { orderFor, parseListQuery } from '../core/list-query';
+import { listPage, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { insertAudited } from '../core/versioned-update';
 import { notFound } from '../core/errors';
@@ -76,22 +76,18 @@ export async function listCounts(
     list.schoolId ? eq(counts.schoolId, list.schoolId) : undefined,
     list.state ? eq(counts.state, list.state) : undefined,
   );
-  const [rows, [total]] = await Promise.all([
-    selectCounts(db)
-      .where(where)
-      .orderBy(
-        ...orderFor(
-          list.sort,
-          { startedAt: counts.startedAt, schoolCode: schools.code, state: counts.state },
-          'startedAt:desc',
-          counts.id,
-        ),
-      )
-      .limit(list.limit)
-      .offset(list.offset),
+  return listPage(
+    list,
+    orderFor(
+      list.sort,
+      { startedAt: counts.startedAt, schoolCode: schools.code, state: counts.state },
+      'startedAt:desc',
+      counts.id,
+    ),
+    selectCounts(db).where(where).$dynamic(),
     db.select({ total: count() }).from(counts).where(where),
-  ]);
-  return { rows: rows.map(toCount), total: total!.total };
+    toCount,
+  );
 }
 
 async function findCount(db: Database, actor: Actor, id: number): Promise<Count> {

@@ -4,7 +4,7 @@ import type { ListResponse } from '@shared/api/list';
 import type { Database } from '../db/client';
 import { enrollments, ensembles, students } from '../db/schema/index';
 import { badRequest } from '../core/errors';
-import { matchesText, parseListQuery } from '../core/list-query';
+import { listPage, matchesText, parseListQuery } from '../core/list-query';
 import type { Actor } from '../core/policy';
 import { ensembleScope } from '../ensembles/ensembles-queries';
 import { selectEnrollments, toEnrollment } from './enrollment-row';
@@ -50,18 +50,16 @@ export async function listEnrollments(
     list.schoolYearId !== undefined ? eq(enrollments.schoolYearId, list.schoolYearId) : undefined,
     list.active !== undefined ? eq(enrollments.active, list.active) : undefined,
   );
-  const [records, [total]] = await Promise.all([
-    selectEnrollments(db)
-      .where(where)
-      .orderBy(...orderBy(list.sort))
-      .limit(list.limit)
-      .offset(list.offset),
+  return listPage(
+    list,
+    orderBy(list.sort),
+    selectEnrollments(db).where(where).$dynamic(),
     db
       .select({ total: count() })
       .from(enrollments)
       .innerJoin(students, eq(students.id, enrollments.studentId))
       .innerJoin(ensembles, eq(ensembles.id, enrollments.ensembleId))
       .where(where),
-  ]);
-  return { rows: records.map(toEnrollment), total: total!.total };
+    toEnrollment,
+  );
 }

@@ -4,7 +4,7 @@ import type { ListResponse } from '@shared/api/list';
 import type { Database } from '../db/client';
 import { ensembles, schools, users } from '../db/schema/index';
 import { badRequest } from '../core/errors';
-import { matchesText, parseListQuery } from '../core/list-query';
+import { listPage, matchesText, parseListQuery } from '../core/list-query';
 import { schoolScope, type Actor } from '../core/policy';
 import {
   ensembleColumns,
@@ -56,17 +56,17 @@ export async function listEnsembles(
     list.schoolId !== undefined ? eq(ensembles.schoolId, list.schoolId) : undefined,
     list.kind ? eq(ensembles.kind, list.kind) : undefined,
   );
-  const [records, [total]] = await Promise.all([
+  return listPage(
+    list,
+    orderBy(list.sort, members),
     db
       .select({ ...ensembleColumns, memberCount: members })
       .from(ensembles)
       .innerJoin(schools, eq(schools.id, ensembles.schoolId))
       .leftJoin(users, eq(users.id, ensembles.directorUserId))
       .where(where)
-      .orderBy(...orderBy(list.sort, members))
-      .limit(list.limit)
-      .offset(list.offset),
+      .$dynamic(),
     db.select({ total: count() }).from(ensembles).where(where),
-  ]);
-  return { rows: (records as EnsembleRecord[]).map(toEnsemble), total: total!.total };
+    (row) => toEnsemble(row as EnsembleRecord),
+  );
 }

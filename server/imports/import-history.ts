@@ -8,7 +8,7 @@ import {
 } from '@shared/api/import';
 import type { ListResponse } from '@shared/api/list';
 import { csvField } from '@shared/roster';
-import { matchesText, orderFor, parseListQuery } from '../core/list-query';
+import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';
 import type { Database } from '../db/client';
 import { rosterImports, users } from '../db/schema/index';
@@ -71,18 +71,18 @@ export async function listImports(
   if (list.committed) conditions.push(eq(rosterImports.committed, list.committed === 'true'));
   if (list.via) conditions.push(eq(rosterImports.via, list.via));
   const where = and(...conditions);
-  const [rows, [total]] = await Promise.all([
+  return listPage(
+    list,
+    orderFor(list.sort, sortable, 'createdAt:desc', rosterImports.id),
     db
       .select(historyColumns)
       .from(rosterImports)
       .leftJoin(users, eq(users.id, rosterImports.userId))
       .where(where)
-      .orderBy(...orderFor(list.sort, sortable, 'createdAt:desc', rosterImports.id))
-      .limit(list.limit)
-      .offset(list.offset),
+      .$dynamic(),
     db.select({ total: count() }).from(rosterImports).where(where),
-  ]);
-  return { rows: (rows as HistoryRow[]).map(toEntry), total: total!.total };
+    (row) => toEntry(row as HistoryRow),
+  );
 }
 
 async function importRow(db: Database, id: number) {

@@ -5,7 +5,7 @@ import { instruments as engineInstruments } from '@shared/music/index';
 import type { ListResponse } from '@shared/api/list';
 import { instrumentFiltersSchema, type Instrument } from '@shared/api/instrument';
 import { schoolScope, type Actor } from '../core/policy';
-import { matchesText, orderFor, parseListQuery } from '../core/list-query';
+import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';
 import {
   cleaningCautionFor,
@@ -113,22 +113,22 @@ export async function listInstruments(
     conditions.push(kinds.length ? inArray(instruments.instrumentId, kinds) : sql`false`);
   }
   const where = and(...conditions);
-  const [rows, [total]] = await Promise.all([
+  return listPage(
+    list,
+    orderFor(list.sort, sortable, 'assetTag:asc', instruments.id),
     db
       .select(instrumentColumns)
       .from(instruments)
       .innerJoin(schools, eq(schools.id, instruments.homeSchoolId))
       .where(where)
-      .orderBy(...orderFor(list.sort, sortable, 'assetTag:asc', instruments.id))
-      .limit(list.limit)
-      .offset(list.offset),
+      .$dynamic(),
     db
       .select({ total: count() })
       .from(instruments)
       .innerJoin(schools, eq(schools.id, instruments.homeSchoolId))
       .where(where),
-  ]);
-  return { rows: rows.map(toInstrument), total: total!.total };
+    toInstrument,
+  );
 }
 
 /** One instrument the actor may see; 404 otherwise. */

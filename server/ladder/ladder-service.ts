@@ -13,7 +13,7 @@ import {
   type LadderVersionSummary,
 } from '@shared/api/ladder';
 import type { ListResponse } from '@shared/api/list';
-import { matchesText, orderFor, parseListQuery } from '../core/list-query';
+import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { can, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, conflict, notFound } from '../core/errors';
@@ -56,18 +56,18 @@ export async function listVersions(
     list.status ? eq(ladderVersions.status, list.status) : undefined,
     matchesText(list.q, [ladderVersions.name]),
   );
-  const [rows, [total]] = await Promise.all([
+  return listPage(
+    list,
+    orderFor(list.sort, versionSortable, 'createdAt:desc', ladderVersions.id),
     db
       .select(versionSummaryColumns)
       .from(ladderVersions)
       .leftJoin(users, eq(users.id, ladderVersions.createdBy))
       .where(where)
-      .orderBy(...orderFor(list.sort, versionSortable, 'createdAt:desc', ladderVersions.id))
-      .limit(list.limit)
-      .offset(list.offset),
+      .$dynamic(),
     db.select({ total: count() }).from(ladderVersions).where(where),
-  ]);
-  return { rows: rows.map(toVersionSummary), total: total!.total };
+    toVersionSummary,
+  );
 }
 
 /** One version; a draft is 404 for those who may not edit the ladder. */

@@ -4,7 +4,7 @@ import { instruments, loans, schools, students } from '../db/schema/index';
 import type { ListResponse } from '@shared/api/list';
 import { loanFiltersSchema, type Loan } from '@shared/api/loan';
 import { can, type Actor } from '../core/policy';
-import { matchesText, orderFor, parseListQuery } from '../core/list-query';
+import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { notFound } from '../core/errors';
 import { cautionsFor, instrumentNameOf } from '../instruments/instrument-cautions';
 import { todayIso } from './school-calendar';
@@ -137,12 +137,10 @@ export async function listLoans(
   if (list.studentId) conditions.push(eq(loans.studentId, list.studentId));
   if (list.instrumentId) conditions.push(eq(loans.instrumentId, list.instrumentId));
   const where = and(...conditions);
-  const [rows, [total]] = await Promise.all([
-    selectLoans(db)
-      .where(where)
-      .orderBy(...orderFor(list.sort, sortable, 'checkedOutOn:desc', loans.id))
-      .limit(list.limit)
-      .offset(list.offset),
+  return listPage(
+    list,
+    orderFor(list.sort, sortable, 'checkedOutOn:desc', loans.id),
+    selectLoans(db).where(where).$dynamic(),
     db
       .select({ total: count() })
       .from(loans)
@@ -150,8 +148,8 @@ export async function listLoans(
       .innerJoin(students, eq(students.id, loans.studentId))
       .innerJoin(schools, eq(schools.id, loans.schoolId))
       .where(where),
-  ]);
-  return { rows: rows.map((row) => toLoan(row, actor, today)), total: total!.total };
+    (row) => toLoan(row, actor, today),
+  );
 }
 
 /** One loan row the actor may see; 404 otherwise. */

@@ -8,7 +8,7 @@ import {
   type OutboxMessageDetail,
 } from '@shared/api/outbox';
 import type { Actor } from '../core/policy';
-import { likePattern, orderFor, parseListQuery } from '../core/list-query';
+import { likePattern, listPage, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { HttpError, notFound } from '../core/errors';
 import { nudgeOutbox } from './outbox';
@@ -85,17 +85,13 @@ export async function listOutbox(
   if (list.relatedType) conditions.push(eq(outboxMessages.relatedType, list.relatedType));
   if (list.relatedId) conditions.push(eq(outboxMessages.relatedId, list.relatedId));
   const where = and(...conditions);
-  const [rows, [total]] = await Promise.all([
-    db
-      .select()
-      .from(outboxMessages)
-      .where(where)
-      .orderBy(...orderFor(list.sort, sortable, 'createdAt:desc', outboxMessages.id))
-      .limit(list.limit)
-      .offset(list.offset),
+  return listPage(
+    list,
+    orderFor(list.sort, sortable, 'createdAt:desc', outboxMessages.id),
+    db.select().from(outboxMessages).where(where).$dynamic(),
     db.select({ total: count() }).from(outboxMessages).where(where),
-  ]);
-  return { rows: rows.map(toMessage), total: total!.total };
+    toMessage,
+  );
 }
 
 async function visibleRow(db: Database, actor: Actor, id: number): Promise<OutboxRow> {

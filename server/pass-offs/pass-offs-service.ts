@@ -4,7 +4,7 @@ import { enrollments, passOffs, students } from '../db/schema/index';
 import type { ListResponse } from '@shared/api/list';
 import { passOffFiltersSchema, type PassOff, type PassOffPatch } from '@shared/api/pass-off';
 import { assertInScope, type Actor } from '../core/policy';
-import { matchesText, orderFor, parseListQuery } from '../core/list-query';
+import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { updateVersioned } from '../core/versioned-update';
@@ -61,20 +61,21 @@ export async function listPassOffs(
     matchesText(list.q, [students.lastName, students.firstName, passOffs.requirementCode]),
   );
   const where = and(...conditions);
-  const [rows, [total], context] = await Promise.all([
-    selectPassOffs(db)
-      .where(where)
-      .orderBy(...orderFor(list.sort, sortable, 'heardOn:desc', passOffs.id))
-      .limit(list.limit)
-      .offset(list.offset),
-    db
-      .select({ total: count() })
-      .from(passOffs)
-      .innerJoin(students, eq(students.id, passOffs.studentId))
-      .where(where),
+  const [page, context] = await Promise.all([
+    listPage(
+      list,
+      orderFor(list.sort, sortable, 'heardOn:desc', passOffs.id),
+      selectPassOffs(db).where(where).$dynamic(),
+      db
+        .select({ total: count() })
+        .from(passOffs)
+        .innerJoin(students, eq(students.id, passOffs.studentId))
+        .where(where),
+      (row) => row,
+    ),
     ladderContext(db),
   ]);
-  return { rows: rows.map((row) => toPassOff(row, context)), total: total!.total };
+  return { rows: page.rows.map((row) => toPassOff(row, context)), total: page.total };
 }
 
 /** One pass-off the actor may see; 404 otherwise. */

@@ -5,7 +5,7 @@ import { z } from 'zod';
 import { rowsOf, type Database } from '../db/client';
 import { auditLog, schools, users } from '../db/schema/index';
 import type { Actor } from '../core/policy';
-import { matchesText, orderFor, parseListQuery } from '../core/list-query';
+import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-query';
 import type { ListResponse } from '@shared/api/list';
 import type { AuditEntryRow } from '@shared/api/person';
 
@@ -94,7 +94,9 @@ export async function listAudit(
     matchesText(list.q, [auditLog.action, auditLog.entity, users.name, users.email, subject.name]),
   );
   const where = and(...conditions);
-  const [rows, [total]] = await Promise.all([
+  return listPage(
+    list,
+    orderFor(list.sort, { at: auditLog.at }, 'at:desc', auditLog.id),
     db
       .select({
         entry: auditLog,
@@ -106,18 +108,14 @@ export async function listAudit(
       .leftJoin(users, eq(users.id, auditLog.userId))
       .leftJoin(subject, aboutSubject)
       .where(where)
-      .orderBy(...orderFor(list.sort, { at: auditLog.at }, 'at:desc', auditLog.id))
-      .limit(list.limit)
-      .offset(list.offset),
+      .$dynamic(),
     db
       .select({ total: count() })
       .from(auditLog)
       .leftJoin(users, eq(users.id, auditLog.userId))
       .leftJoin(subject, aboutSubject)
       .where(where),
-  ]);
-  return {
-    rows: rows.map(({ entry, userName, userEmail, entityName }) => ({
+    ({ entry, userName, userEmail, entityName }) => ({
       id: entry.id,
       at: entry.at.toISOString(),
       userId: entry.userId,
@@ -129,7 +127,6 @@ export async function listAudit(
       entityName,
       before: entry.before,
       after: entry.after,
-    })),
-    total: total!.total,
-  };
+    }),
+  );
 }

@@ -14,7 +14,7 @@ import {
   type personPatchSchema,
 } from '@shared/api/person';
 import type { Actor } from '../core/policy';
-import { matchesText, orderFor, parseListQuery } from '../core/list-query';
+import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound, type FieldError } from '../core/errors';
 import { updateVersioned } from '../core/versioned-update';
@@ -102,17 +102,14 @@ export async function listPeople(db: Database, query: unknown): Promise<ListResp
     );
   }
   const where = and(...conditions);
-  const [rows, [total]] = await Promise.all([
-    db
-      .select()
-      .from(users)
-      .where(where)
-      .orderBy(...orderFor(list.sort, sortable, 'name:asc', users.id))
-      .limit(list.limit)
-      .offset(list.offset),
+  const page = await listPage(
+    list,
+    orderFor(list.sort, sortable, 'name:asc', users.id),
+    db.select().from(users).where(where).$dynamic(),
     db.select({ total: count() }).from(users).where(where),
-  ]);
-  return { rows: await peopleOf(db, rows), total: total!.total };
+    (row) => row,
+  );
+  return { rows: await peopleOf(db, page.rows), total: page.total };
 }
 
 /** One person with their schools, linked student and API tokens summed up. */

@@ -9,7 +9,7 @@ import {
   type RepairPatch,
 } from '@shared/api/repair';
 import { schoolScope, type Actor } from '../core/policy';
-import { matchesText, orderFor, parseListQuery } from '../core/list-query';
+import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { notFound } from '../core/errors';
 import { insertAudited, updateVersioned } from '../core/versioned-update';
@@ -105,19 +105,17 @@ export async function listRepairs(
   if (list.instrumentId) conditions.push(eq(repairTickets.instrumentId, list.instrumentId));
   if (list.homeSchoolId) conditions.push(eq(instruments.homeSchoolId, list.homeSchoolId));
   const where = and(...conditions);
-  const [rows, [total]] = await Promise.all([
-    selectRepairs(db)
-      .where(where)
-      .orderBy(...orderFor(list.sort, sortable, 'createdAt:desc', repairTickets.id))
-      .limit(list.limit)
-      .offset(list.offset),
+  return listPage(
+    list,
+    orderFor(list.sort, sortable, 'createdAt:desc', repairTickets.id),
+    selectRepairs(db).where(where).$dynamic(),
     db
       .select({ total: count() })
       .from(repairTickets)
       .innerJoin(instruments, eq(instruments.id, repairTickets.instrumentId))
       .where(where),
-  ]);
-  return { rows: rows.map(toRepair), total: total!.total };
+    toRepair,
+  );
 }
 
 /** One repair ticket the actor may see. */

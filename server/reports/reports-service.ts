@@ -13,7 +13,7 @@ import {
 } from '@shared/api/report';
 import { assertInScope, type Actor } from '../core/policy';
 import { forbidden, notFound } from '../core/errors';
-import { orderFor, parseListQuery } from '../core/list-query';
+import { listPage, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { parseInput } from '../core/validate';
 import { assembleDirectorReport, assembleDistrictReport } from './report-data';
@@ -139,18 +139,18 @@ export async function listReportRuns(
     list.schoolId ? eq(reportRuns.schoolId, list.schoolId) : undefined,
     list.scheduleId ? eq(reportRuns.scheduleId, list.scheduleId) : undefined,
   );
-  const [rows, [total]] = await Promise.all([
+  return listPage(
+    list,
+    orderFor(list.sort, sortable, 'createdAt:desc', reportRuns.id),
     db
       .select(runColumns)
       .from(reportRuns)
       .leftJoin(schools, eq(schools.id, reportRuns.schoolId))
       .where(where)
-      .orderBy(...orderFor(list.sort, sortable, 'createdAt:desc', reportRuns.id))
-      .limit(list.limit)
-      .offset(list.offset),
+      .$dynamic(),
     db.select({ total: count() }).from(reportRuns).where(where),
-  ]);
-  return { rows: rows.map(toRun), total: total!.total };
+    toRun,
+  );
 }
 
 /** One report run with the figures it carried. */

@@ -5,7 +5,7 @@ import type { ListResponse } from '@shared/api/list';
 import type { ReportSchedule, ReportScheduleInput, ReportSchedulePatch } from '@shared/api/report';
 import type { Actor } from '../core/policy';
 import { notFound } from '../core/errors';
-import { parseListQuery } from '../core/list-query';
+import { listPage, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { insertAudited, updateVersioned } from '../core/versioned-update';
 import { z } from 'zod';
@@ -34,16 +34,13 @@ export async function listSchedules(
   query: unknown,
 ): Promise<ListResponse<ReportSchedule>> {
   const list = parseListQuery(query, z.object({}));
-  const [rows, [total]] = await Promise.all([
-    db
-      .select()
-      .from(reportSchedules)
-      .orderBy(asc(reportSchedules.id))
-      .limit(list.limit)
-      .offset(list.offset),
+  return listPage(
+    list,
+    [asc(reportSchedules.id)],
+    db.select().from(reportSchedules).$dynamic(),
     db.select({ total: count() }).from(reportSchedules),
-  ]);
-  return { rows: rows.map(toSchedule), total: total!.total };
+    toSchedule,
+  );
 }
 
 /** One schedule. */

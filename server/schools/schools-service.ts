@@ -7,7 +7,7 @@ import type { ListResponse } from '@shared/api/list';
 import type { School, SchoolInput, SchoolPatch } from '@shared/api/school';
 import { schoolLevels } from '@shared/api/school';
 import { assertInScope, schoolScope, type Actor } from '../core/policy';
-import { matchesText, orderFor, parseListQuery } from '../core/list-query';
+import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { insertAudited, updateAudited } from '../core/versioned-update';
@@ -82,18 +82,18 @@ export async function listSchools(
   if (list.status === 'open') conditions.push(isNull(schools.closedOn));
   if (list.status === 'closed') conditions.push(isNotNull(schools.closedOn));
   const where = and(...conditions);
-  const [rows, [total]] = await Promise.all([
+  return listPage(
+    list,
+    orderFor(list.sort, sortable, 'name:asc', schools.id),
     db
       .select({ ...schoolColumns, studentCount, ensembleCount })
       .from(schools)
       .leftJoin(sendsTo, eq(sendsTo.id, schools.sendsToSchoolId))
       .where(where)
-      .orderBy(...orderFor(list.sort, sortable, 'name:asc', schools.id))
-      .limit(list.limit)
-      .offset(list.offset),
+      .$dynamic(),
     db.select({ total: count() }).from(schools).where(where),
-  ]);
-  return { rows: rows.map(toSchool), total: total!.total };
+    toSchool,
+  );
 }
 
 const schoolColumns = {
