@@ -61,6 +61,20 @@ export async function insertAudited<Table extends PgTable & { id: PgColumn }>(
 }
 
 /**
+ * Adds a record in one transaction and answers it as the actor reads it once committed: `write`
+ * inserts it (through `insertAudited`, with the checks and side rows that go with it) and
+ * answers the new row; `read` loads it by id outside the transaction.
+ */
+export async function createThenRead<Answer>(
+  db: Database,
+  write: (tx: Transaction) => Promise<{ id: number }>,
+  read: (id: number) => Promise<Answer>,
+): Promise<Answer> {
+  const { id } = await db.transaction(write);
+  return read(id);
+}
+
+/**
  * `updateVersioned` with history: reads the row as it was, updates it from the version the
  * editor started from, and records the change with the row before and after in the audit log,
  * in the caller's transaction. Answers both rows.

@@ -12,7 +12,7 @@ import {
 import { assertInScope, schoolScope, type Actor } from '../core/policy';
 import { listPage, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
-import { insertAudited } from '../core/versioned-update';
+import { createThenRead, insertAudited } from '../core/versioned-update';
 import { notFound } from '../core/errors';
 import { recordInstrumentEvents } from '../instruments/instrument-events';
 import { setInstrumentStatus, stateConflict } from '../instruments/instruments-service';
@@ -116,17 +116,11 @@ export async function startCount(
     throw stateConflict(
       `A count is already open at this school (count ${open.id}); finish it first.`,
     );
-  const id = await db.transaction(async (tx) => {
-    const row = await insertAudited(
-      tx,
-      actor,
-      counts,
-      { schoolId, startedBy: actor.userId },
-      'count',
-    );
-    return row.id;
-  });
-  return countDetail(db, actor, id);
+  return createThenRead(
+    db,
+    (tx) => insertAudited(tx, actor, counts, { schoolId, startedBy: actor.userId }, 'count'),
+    (id) => countDetail(db, actor, id),
+  );
 }
 
 /** Records one scanned or typed asset tag and what it matched. */

@@ -5,7 +5,7 @@ import { enrollments } from '../db/schema/index';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
-import { insertAudited, updateAudited } from '../core/versioned-update';
+import { createThenRead, insertAudited, updateAudited } from '../core/versioned-update';
 import { findVisibleEnsemble } from '../ensembles/ensembles-service';
 import { findVisibleStudent } from '../students/students-service';
 import { selectEnrollments, toEnrollment } from './enrollment-row';
@@ -35,55 +35,57 @@ export async function createEnrollment(
   actor: Actor,
   input: EnrollmentInput,
 ): Promise<Enrollment> {
-  const id = await db.transaction(async (tx) => {
-    const student = await findVisibleStudent(tx, actor, input.studentId);
-    const ensemble = await findVisibleEnsemble(tx, actor, input.ensembleId);
-    const name = `${student.firstName} ${student.lastName}`;
-    if (ensemble.schoolId !== student.schoolId) {
-      throw badRequest(
-        `${ensemble.name} is at ${ensemble.schoolName}, but ${name} is at ${student.schoolName}.`,
-        [{ field: 'ensembleId', message: `Choose an ensemble of ${student.schoolName}.` }],
+  return createThenRead(
+    db,
+    async (tx) => {
+      const student = await findVisibleStudent(tx, actor, input.studentId);
+      const ensemble = await findVisibleEnsemble(tx, actor, input.ensembleId);
+      const name = `${student.firstName} ${student.lastName}`;
+      if (ensemble.schoolId !== student.schoolId) {
+        throw badRequest(
+          `${ensemble.name} is at ${ensemble.schoolName}, but ${name} is at ${student.schoolName}.`,
+          [{ field: 'ensembleId', message: `Choose an ensemble of ${student.schoolName}.` }],
+        );
+      }
+      if (student.status !== 'active') {
+        throw badRequest(`${name} is withdrawn; make them active again before seating them.`, [
+          { field: 'studentId', message: 'This student is withdrawn.' },
+        ]);
+      }
+      const year = await currentSchoolYear(tx);
+      const [existing] = await tx
+        .select({ id: enrollments.id, active: enrollments.active })
+        .from(enrollments)
+        .where(
+          and(
+            eq(enrollments.studentId, student.id),
+            eq(enrollments.ensembleId, ensemble.id),
+            eq(enrollments.schoolYearId, year.id),
+          ),
+        );
+      if (existing) {
+        throw badRequest(
+          `${name} already has a seat in ${ensemble.name} for ${year.name} (enrollment ${existing.id}${existing.active ? '' : ', ended'}); change that seat instead.`,
+          [{ field: 'ensembleId', message: `Already seated in ${ensemble.name} this year.` }],
+        );
+      }
+      return insertAudited(
+        tx,
+        actor,
+        enrollments,
+        {
+          studentId: student.id,
+          ensembleId: ensemble.id,
+          schoolYearId: year.id,
+          instrumentId: input.instrumentId,
+          part: input.part,
+          chair: input.chair,
+        },
+        'enrollment',
       );
-    }
-    if (student.status !== 'active') {
-      throw badRequest(`${name} is withdrawn; make them active again before seating them.`, [
-        { field: 'studentId', message: 'This student is withdrawn.' },
-      ]);
-    }
-    const year = await currentSchoolYear(tx);
-    const [existing] = await tx
-      .select({ id: enrollments.id, active: enrollments.active })
-      .from(enrollments)
-      .where(
-        and(
-          eq(enrollments.studentId, student.id),
-          eq(enrollments.ensembleId, ensemble.id),
-          eq(enrollments.schoolYearId, year.id),
-        ),
-      );
-    if (existing) {
-      throw badRequest(
-        `${name} already has a seat in ${ensemble.name} for ${year.name} (enrollment ${existing.id}${existing.active ? '' : ', ended'}); change that seat instead.`,
-        [{ field: 'ensembleId', message: `Already seated in ${ensemble.name} this year.` }],
-      );
-    }
-    const row = await insertAudited(
-      tx,
-      actor,
-      enrollments,
-      {
-        studentId: student.id,
-        ensembleId: ensemble.id,
-        schoolYearId: year.id,
-        instrumentId: input.instrumentId,
-        part: input.part,
-        chair: input.chair,
-      },
-      'enrollment',
-    );
-    return row.id;
-  });
-  return getEnrollment(db, actor, id);
+    },
+    (id) => getEnrollment(db, actor, id),
+  );
 }
 
 /** Changes a seat's instrument, part, chair or active flag, refusing a stale version. */

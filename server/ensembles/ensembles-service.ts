@@ -11,7 +11,7 @@ import { enrollments, ensembles, schools, students, userSchools, users } from '.
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
-import { insertAudited, updateAudited } from '../core/versioned-update';
+import { createThenRead, insertAudited, updateAudited } from '../core/versioned-update';
 import { instrumentName, scorePosition } from '../enrollments/instrument-order';
 import { findCurrentSchoolYear } from '../enrollments/school-year';
 import { ensembleColumns, toEnsemble, type EnsembleRecord } from './ensemble-row';
@@ -133,24 +133,26 @@ export async function createEnsemble(
   input: EnsembleInput,
 ): Promise<EnsembleDetail> {
   assertInScope(actor, input.schoolId, 'That school');
-  const id = await db.transaction(async (tx) => {
-    const [school] = await tx
-      .select({ id: schools.id })
-      .from(schools)
-      .where(eq(schools.id, input.schoolId));
-    if (!school) {
-      throw badRequest('There is no such school.', [
-        { field: 'schoolId', message: 'Choose one of the district’s schools.' },
-      ]);
-    }
-    await assertNameFree(tx, input.schoolId, input.name);
-    if (input.directorUserId !== null) {
-      await assertDirectorFits(tx, input.schoolId, input.directorUserId);
-    }
-    const row = await insertAudited(tx, actor, ensembles, input, 'ensemble');
-    return row.id;
-  });
-  return getEnsemble(db, actor, id);
+  return createThenRead(
+    db,
+    async (tx) => {
+      const [school] = await tx
+        .select({ id: schools.id })
+        .from(schools)
+        .where(eq(schools.id, input.schoolId));
+      if (!school) {
+        throw badRequest('There is no such school.', [
+          { field: 'schoolId', message: 'Choose one of the district’s schools.' },
+        ]);
+      }
+      await assertNameFree(tx, input.schoolId, input.name);
+      if (input.directorUserId !== null) {
+        await assertDirectorFits(tx, input.schoolId, input.directorUserId);
+      }
+      return insertAudited(tx, actor, ensembles, input, 'ensemble');
+    },
+    (id) => getEnsemble(db, actor, id),
+  );
 }
 
 /** Changes an ensemble, refusing a stale version. */

@@ -11,7 +11,7 @@ import type {
 import { assertInScope, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, HttpError, notFound } from '../core/errors';
-import { insertAudited, updateAudited } from '../core/versioned-update';
+import { createThenRead, insertAudited, updateAudited } from '../core/versioned-update';
 import { findInstrument } from './instruments-queries';
 import { recordInstrumentEvents } from './instrument-events';
 
@@ -65,17 +65,20 @@ export async function createInstrument(
 ): Promise<Instrument> {
   await assertSchoolExists(db, actor, input.homeSchoolId);
   await assertAssetTagFree(db, input.assetTag);
-  const id = await db.transaction(async (tx) => {
-    const row = await insertAudited(tx, actor, instruments, input, 'instrument');
-    await recordInstrumentEvents(tx, {
-      instrumentId: row.id,
-      kind: 'purchase',
-      note: input.purchasedOn ? `Bought ${input.purchasedOn}` : 'Added to the fleet',
-      userId: actor.userId,
-    });
-    return row.id;
-  });
-  return findInstrument(db, actor, id);
+  return createThenRead(
+    db,
+    async (tx) => {
+      const row = await insertAudited(tx, actor, instruments, input, 'instrument');
+      await recordInstrumentEvents(tx, {
+        instrumentId: row.id,
+        kind: 'purchase',
+        note: input.purchasedOn ? `Bought ${input.purchasedOn}` : 'Added to the fleet',
+        userId: actor.userId,
+      });
+      return row;
+    },
+    (id) => findInstrument(db, actor, id),
+  );
 }
 
 /**

@@ -18,7 +18,7 @@ import { can, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, conflict, notFound } from '../core/errors';
 import { assertImpactSeen } from './ladder-impact';
-import { insertAudited, updateVersioned } from '../core/versioned-update';
+import { createThenRead, insertAudited, updateVersioned } from '../core/versioned-update';
 import { rebuildAttainment } from './attainment';
 import { refreshStatistics, summaryTables } from '../db/statistics';
 import {
@@ -90,23 +90,26 @@ export async function createDraft(
     : sourceId === null
       ? null
       : await loadLadder(db, sourceId);
-  const id = await db.transaction(async (tx) => {
-    const row = await insertAudited(
-      tx,
-      actor,
-      ladderVersions,
-      {
-        name: input.name ?? (source ? `${source.name} (draft)` : 'Scale ladder'),
-        status: 'draft',
-        createdBy: actor.userId,
-      },
-      'ladder-version',
-      (stored) => ({ ...stored, copiedFrom: input.starter ? 'starter' : sourceId }),
-    );
-    if (source) await writeLadderContent(tx, row.id, source);
-    return row.id;
-  });
-  return loadLadder(db, id);
+  return createThenRead(
+    db,
+    async (tx) => {
+      const row = await insertAudited(
+        tx,
+        actor,
+        ladderVersions,
+        {
+          name: input.name ?? (source ? `${source.name} (draft)` : 'Scale ladder'),
+          status: 'draft',
+          createdBy: actor.userId,
+        },
+        'ladder-version',
+        (stored) => ({ ...stored, copiedFrom: input.starter ? 'starter' : sourceId }),
+      );
+      if (source) await writeLadderContent(tx, row.id, source);
+      return row;
+    },
+    (id) => loadLadder(db, id),
+  );
 }
 
 /** Changes a draft: its name, and its rungs and benchmarks replaced whole. */

@@ -12,7 +12,7 @@ import { schoolScope, type Actor } from '../core/policy';
 import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { notFound } from '../core/errors';
-import { insertAudited, updateVersioned } from '../core/versioned-update';
+import { createThenRead, insertAudited, updateVersioned } from '../core/versioned-update';
 import { findInstrument } from '../instruments/instruments-queries';
 import { recordInstrumentEvents } from '../instruments/instrument-events';
 import { setInstrumentStatus, stateConflict } from '../instruments/instruments-service';
@@ -169,25 +169,28 @@ export async function createRepair(
   if (instrument.status === 'missing' || instrument.status === 'retired') {
     throw stateConflict(`${instrument.assetTag} is ${instrument.status}; it cannot go to repair.`);
   }
-  const id = await db.transaction(async (tx) => {
-    const ticket = await insertAudited(
-      tx,
-      actor,
-      repairTickets,
-      { ...input, inHouse: input.vendor === null, reportedBy: actor.userId },
-      'repair',
-    );
-    await followTickets(tx, input.instrumentId);
-    await recordInstrumentEvents(tx, {
-      instrumentId: input.instrumentId,
-      kind: 'repair-open',
-      note: input.problem,
-      userId: actor.userId,
-      repairId: ticket.id,
-    });
-    return ticket.id;
-  });
-  return findRepair(db, actor, id);
+  return createThenRead(
+    db,
+    async (tx) => {
+      const ticket = await insertAudited(
+        tx,
+        actor,
+        repairTickets,
+        { ...input, inHouse: input.vendor === null, reportedBy: actor.userId },
+        'repair',
+      );
+      await followTickets(tx, input.instrumentId);
+      await recordInstrumentEvents(tx, {
+        instrumentId: input.instrumentId,
+        kind: 'repair-open',
+        note: input.problem,
+        userId: actor.userId,
+        repairId: ticket.id,
+      });
+      return ticket;
+    },
+    (id) => findRepair(db, actor, id),
+  );
 }
 
 /** Changes a ticket, refusing a stale version; the instrument's status follows. */

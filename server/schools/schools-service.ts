@@ -10,7 +10,7 @@ import { assertInScope, schoolScope, type Actor } from '../core/policy';
 import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
-import { insertAudited, updateAudited } from '../core/versioned-update';
+import { createThenRead, insertAudited, updateAudited } from '../core/versioned-update';
 
 const schoolFilters = z.object({
   level: z.enum(schoolLevels).optional(),
@@ -142,11 +142,11 @@ export async function createSchool(
 ): Promise<School> {
   await assertCodeFree(db, input.code);
   await assertSendsTo(db, input.sendsToSchoolId);
-  const id = await db.transaction(async (tx) => {
-    const row = await insertAudited(tx, actor, schools, input, 'school');
-    return row.id;
-  });
-  return getSchool(db, actor, id);
+  return createThenRead(
+    db,
+    (tx) => insertAudited(tx, actor, schools, input, 'school'),
+    (id) => getSchool(db, actor, id),
+  );
 }
 
 /** Changes a school, refusing a stale version. */

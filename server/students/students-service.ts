@@ -19,7 +19,7 @@ import {
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
-import { insertAudited, updateAudited } from '../core/versioned-update';
+import { createThenRead, insertAudited, updateAudited } from '../core/versioned-update';
 import { instrumentName } from '../enrollments/instrument-order';
 import { findCurrentSchoolYear } from '../enrollments/school-year';
 import { seatSummaries } from './student-seats';
@@ -179,18 +179,20 @@ export async function createStudent(
       { field: 'schoolId', message: 'Choose one of the district’s schools.' },
     ]);
   }
-  const id = await db.transaction(async (tx) => {
-    await assertStudentNumberFree(tx, input.studentNumber);
-    const row = await insertAudited(
-      tx,
-      actor,
-      students,
-      { ...input, status: input.status ?? 'active' },
-      'student',
-    );
-    return row.id;
-  });
-  return getStudent(db, actor, id);
+  return createThenRead(
+    db,
+    async (tx) => {
+      await assertStudentNumberFree(tx, input.studentNumber);
+      return insertAudited(
+        tx,
+        actor,
+        students,
+        { ...input, status: input.status ?? 'active' },
+        'student',
+      );
+    },
+    (id) => getStudent(db, actor, id),
+  );
 }
 
 /**

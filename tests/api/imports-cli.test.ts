@@ -22,6 +22,19 @@ const contractKeys = [
   'errors',
   'committed',
 ];
+/** `tutti import <fixture> --json` against a data folder. */
+const importFixture = (folder: string, name: string) =>
+  tutti(folder, 'import', path.join(fixtures, name), '--json');
+/** The contract's answer for a clean file whose every row is new. */
+const allCreated = (rows: number, committed: boolean) => ({
+  rows,
+  created: rows,
+  updated: 0,
+  unchanged: 0,
+  withdrawn: 0,
+  errors: [],
+  committed,
+});
 let seeded: string;
 const folders: string[] = [];
 
@@ -81,20 +94,12 @@ describe('tutti import', () => {
     expect(noFile.code).toBe(2);
     expect(noFile.stdout).toBe('');
     expect(noFile.stderr).toContain('Usage: tutti import');
-    const unknownFlag = await tutti(
-      folder,
-      'import',
-      path.join(fixtures, 'canonical-clean.csv'),
-      '--commit-everything',
-    );
+    const clean = path.join(fixtures, 'canonical-clean.csv');
+    const unknownFlag = await tutti(folder, 'import', clean, '--commit-everything');
     expect(unknownFlag.code).toBe(2);
     expect(unknownFlag.stderr).toContain("Unknown option '--commit-everything'");
-    const missing = await tutti(
-      folder,
-      'import',
-      path.join(folder, 'no-such-roster.csv'),
-      '--json',
-    );
+    const noSuchFile = path.join(folder, 'no-such-roster.csv');
+    const missing = await tutti(folder, 'import', noSuchFile, '--json');
     expect(missing.code).toBe(2);
     expect(contract(missing.stdout)).toMatchObject({
       rows: 0,
@@ -108,26 +113,10 @@ describe('tutti import', () => {
     const file = path.join(fixtures, 'canonical-clean.csv');
     const dryRun = await tutti(folder, 'import', file, '--dry-run', '--json');
     expect(dryRun.code).toBe(0);
-    expect(contract(dryRun.stdout)).toEqual({
-      rows: 7,
-      created: 7,
-      updated: 0,
-      unchanged: 0,
-      withdrawn: 0,
-      errors: [],
-      committed: false,
-    });
+    expect(contract(dryRun.stdout)).toEqual(allCreated(7, false));
     const committed = await tutti(folder, 'import', file, '--json');
     expect(committed.code).toBe(0);
-    expect(contract(committed.stdout)).toEqual({
-      rows: 7,
-      created: 7,
-      updated: 0,
-      unchanged: 0,
-      withdrawn: 0,
-      errors: [],
-      committed: true,
-    });
+    expect(contract(committed.stdout)).toEqual(allCreated(7, true));
     const again = await tutti(folder, 'import', file);
     expect(again.code).toBe(0);
     expect(again.stdout).toContain('created 0, updated 0, unchanged 7, withdrawn 0');
@@ -162,12 +151,7 @@ describe('tutti import', () => {
       { host: '127.0.0.1' },
     );
     try {
-      const result = await tutti(
-        folder,
-        'import',
-        path.join(fixtures, 'oneroster-bundle'),
-        '--json',
-      );
+      const result = await importFixture(folder, 'oneroster-bundle');
       expect(result.code, result.stderr).toBe(0);
       expect(contract(result.stdout)).toMatchObject({ rows: 6, created: 6, committed: true });
       // The server's own database holds the import: the command did not open the folder itself.
@@ -192,20 +176,10 @@ describe('tutti import', () => {
 describe('tutti import of OneRoster bundles and the REST sync', () => {
   it('should import a 1.2 bundle, then a delta, and name an org that matches no school', async () => {
     const folder = demoFolder();
-    const bulk = await tutti(
-      folder,
-      'import',
-      path.join(fixtures, 'oneroster-1.2-bundle'),
-      '--json',
-    );
+    const bulk = await importFixture(folder, 'oneroster-1.2-bundle');
     expect(bulk.code, bulk.stderr).toBe(0);
     expect(contract(bulk.stdout)).toMatchObject({ rows: 5, created: 5, committed: true });
-    const delta = await tutti(
-      folder,
-      'import',
-      path.join(fixtures, 'oneroster-1.2-delta'),
-      '--json',
-    );
+    const delta = await importFixture(folder, 'oneroster-1.2-delta');
     expect(delta.code, delta.stderr).toBe(0);
     expect(contract(delta.stdout)).toMatchObject({
       rows: 2,

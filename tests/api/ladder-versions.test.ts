@@ -1,11 +1,12 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import { studentProgressSchema } from '@shared/api/analytics';
-import { currentRung, type PassOffRecord } from '@shared/ladder/index';
+import { currentRung } from '@shared/ladder/index';
 import { rowsOf } from '../../server/db/client';
 import { activeRuleLadder } from '../../server/ladder/ladder-queries';
 import { familyOf, studentInstruments } from '../../server/ladder/student-families';
 import { publishSeen } from '../support/ladder-publish';
+import { passOffsByStudent } from '../support/pass-off-records';
 import { useTestApp } from '../support/test-app';
 
 let ownStudentId: number;
@@ -121,23 +122,7 @@ describe('Ladder versions', () => {
     const db = app.database.db;
     const ladder = (await activeRuleLadder(db))!;
     const instruments = await studentInstruments(db);
-    const passOffs = rowsOf<{
-      student_id: number;
-      requirement_code: string;
-      tempo: number;
-      passed: boolean;
-    }>(await db.execute(sql`select student_id, requirement_code, tempo, passed from pass_offs`));
-    const byStudent = new Map<number, PassOffRecord[]>();
-    for (const row of passOffs) {
-      const list = byStudent.get(row.student_id) ?? [];
-      list.push({
-        requirementId: row.requirement_code,
-        tempo: row.tempo,
-        passed: row.passed,
-        heardOn: '2026-11-30',
-      });
-      byStudent.set(row.student_id, list);
-    }
+    const byStudent = await passOffsByStudent(db);
     const summary = rowsOf<{ student_id: number; rung: number; ladder_version_id: number }>(
       await db.execute(sql`select student_id, rung, ladder_version_id from student_attainment`),
     );

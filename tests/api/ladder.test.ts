@@ -1,10 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import { ladderSchema } from '@shared/api/ladder';
-import { currentRung, type PassOffRecord } from '@shared/ladder/index';
+import { currentRung } from '@shared/ladder/index';
 import { rowsOf } from '../../server/db/client';
 import { activeRuleLadder } from '../../server/ladder/ladder-queries';
 import { familyOf, studentInstruments } from '../../server/ladder/student-families';
+import { passOffsByStudent } from '../support/pass-off-records';
 import { demoEmail, useTestApp } from '../support/test-app';
 
 const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'student.hpms'] });
@@ -15,28 +16,7 @@ async function rungsByRules(): Promise<Map<number, number>> {
   const db = app.database.db;
   const ladder = (await activeRuleLadder(db))!;
   const instruments = await studentInstruments(db);
-  const passOffs = rowsOf<{
-    student_id: number;
-    requirement_code: string;
-    tempo: number;
-    passed: boolean;
-    heard_on: string;
-  }>(
-    await db.execute(
-      sql`select student_id, requirement_code, tempo, passed, to_char(heard_on, 'YYYY-MM-DD') as heard_on from pass_offs`,
-    ),
-  );
-  const byStudent = new Map<number, PassOffRecord[]>();
-  for (const row of passOffs) {
-    const list = byStudent.get(row.student_id) ?? [];
-    list.push({
-      requirementId: row.requirement_code,
-      tempo: row.tempo,
-      passed: row.passed,
-      heardOn: row.heard_on,
-    });
-    byStudent.set(row.student_id, list);
-  }
+  const byStudent = await passOffsByStudent(db);
   const students = rowsOf<{ id: number }>(await db.execute(sql`select id from students`));
   return new Map(
     students.map(({ id }) => [

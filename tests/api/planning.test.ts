@@ -18,6 +18,11 @@ let app: TestApp;
 let coordinator: ReturnType<TestApp['bearer']>;
 let director: ReturnType<TestApp['bearer']>;
 const ids: Record<string, number> = {};
+/** A horizon's per-school split for the two test schools, as [count, totalCents] each. */
+const bySchool = (alpha: [number, number], beta: [number, number]) => [
+  { schoolId: ids.alpha, schoolCode: 'ALPH', count: alpha[0], totalCents: alpha[1] },
+  { schoolId: ids.beta, schoolCode: 'BETA', count: beta[0], totalCents: beta[1] },
+];
 
 /**
  * A two-school district written out by hand. Service lives (common practice, no source):
@@ -219,28 +224,19 @@ describe('Replacement plan', () => {
         years: 1,
         count: 2,
         totalCents: 820000,
-        bySchool: [
-          { schoolId: ids.alpha, schoolCode: 'ALPH', count: 1, totalCents: 120000 },
-          { schoolId: ids.beta, schoolCode: 'BETA', count: 1, totalCents: 700000 },
-        ],
+        bySchool: bySchool([1, 120000], [1, 700000]),
       },
       {
         years: 3,
         count: 3,
         totalCents: 1070000,
-        bySchool: [
-          { schoolId: ids.alpha, schoolCode: 'ALPH', count: 1, totalCents: 120000 },
-          { schoolId: ids.beta, schoolCode: 'BETA', count: 2, totalCents: 950000 },
-        ],
+        bySchool: bySchool([1, 120000], [2, 950000]),
       },
       {
         years: 5,
         count: 4,
         totalCents: 1670000,
-        bySchool: [
-          { schoolId: ids.alpha, schoolCode: 'ALPH', count: 2, totalCents: 720000 },
-          { schoolId: ids.beta, schoolCode: 'BETA', count: 2, totalCents: 950000 },
-        ],
+        bySchool: bySchool([2, 720000], [2, 950000]),
       },
     ]);
   });

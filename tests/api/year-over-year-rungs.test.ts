@@ -1,9 +1,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
-import { currentRung, type PassOffRecord, type Rung } from '@shared/ladder/index';
+import { currentRung, type Rung } from '@shared/ladder/index';
 import { yearOverYearSchema, type RungByGrade } from '@shared/api/year-over-year';
 import { rowsOf } from '../../server/db/client';
 import { activeRuleLadder } from '../../server/ladder/ladder-queries';
+import { passOffsByStudent } from '../support/pass-off-records';
 import { plainMedian } from '../support/plain-median';
 import { rungCountDrift } from '../support/rung-counts';
 import { startTestApp, type StartedTestApp } from '../support/test-app';
@@ -44,28 +45,7 @@ async function plainFigure(
   players: Player[],
   day: string,
 ): Promise<Map<number, { median: number | null; students: number }>> {
-  const passOffs = rowsOf<{
-    student_id: number;
-    requirement_code: string;
-    tempo: number;
-    passed: boolean;
-    heard_on: string;
-  }>(
-    await app.database.db.execute(sql`
-      select student_id, requirement_code, tempo, passed, heard_on::text as heard_on
-      from pass_offs where heard_on <= ${day}::date`),
-  );
-  const byStudent = new Map<number, PassOffRecord[]>();
-  for (const row of passOffs) {
-    const records = byStudent.get(row.student_id) ?? [];
-    records.push({
-      requirementId: row.requirement_code,
-      tempo: row.tempo,
-      passed: row.passed,
-      heardOn: row.heard_on,
-    });
-    byStudent.set(row.student_id, records);
-  }
+  const byStudent = await passOffsByStudent(app.database.db, day);
   const byGrade = new Map<number, number[]>();
   for (const player of players) {
     const rung = currentRung(rungs, byStudent.get(player.student_id) ?? [], player.family);

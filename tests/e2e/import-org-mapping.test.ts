@@ -3,6 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
 import { useBrowserApp } from '../support/browser-app';
 import { chooseOption, saveScreenshot } from '../support/browser';
+import { bulkRosterManifest } from '../fixtures/rosters/oneroster-manifest';
 
 const e2e = useBrowserApp();
 
@@ -16,24 +17,7 @@ const crlf = (lines: string[]) => strToU8(`${lines.join('\r\n')}\r\n`);
  */
 const bundle = Buffer.from(
   zipSync({
-    'manifest.csv': crlf([
-      'propertyName,value',
-      'manifest.version,1.0',
-      'oneroster.version,1.1',
-      'file.academicSessions,bulk',
-      'file.categories,absent',
-      'file.classes,bulk',
-      'file.classResources,absent',
-      'file.courses,bulk',
-      'file.courseResources,absent',
-      'file.demographics,absent',
-      'file.enrollments,bulk',
-      'file.lineItems,absent',
-      'file.orgs,bulk',
-      'file.resources,absent',
-      'file.results,absent',
-      'file.users,bulk',
-    ]),
+    'manifest.csv': crlf(bulkRosterManifest),
     'orgs.csv': crlf([
       'sourcedId,status,dateLastModified,name,type,identifier,parentSourcedId',
       'org-d,,,Merrow Basin Unified,district,MBU,',
