@@ -10,6 +10,7 @@ import {
   primaryKey,
 } from 'drizzle-orm/pg-core';
 import { sql } from 'drizzle-orm';
+import { ensembleKinds } from '../../../shared/api/ensemble';
 import { identity, timestamps, version, moment, day, linkTo } from './columns';
 import { schoolYears, schools } from './schools';
 import { actedBy, users } from './people';
@@ -156,19 +157,7 @@ export const ensembles = pgTable(
     ...identity,
     schoolId: linkTo('school_id', () => schools.id),
     name: text('name').notNull(),
-    kind: text('kind', {
-      enum: [
-        'concert-band',
-        'symphonic-band',
-        'jazz-band',
-        'marching-band',
-        'string-orchestra',
-        'full-orchestra',
-        'percussion-ensemble',
-        'beginning-band',
-        'beginning-strings',
-      ],
-    }).notNull(),
+    kind: text('kind', { enum: ensembleKinds }).notNull(),
     level: text('level').notNull().default(''),
     directorUserId: actedBy('director_user_id'),
     meetingPeriod: text('meeting_period').notNull().default(''),
