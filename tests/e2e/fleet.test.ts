@@ -1,28 +1,17 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-import {
-  dialogReady,
-  launchBrowser,
-  localOnlyContext,
-  saveScreenshot,
-  signInAs,
-} from '../support/browser';
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { demoEmail, type SignedInClient } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
+import { dialogReady, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
+const e2e = useBrowserApp();
 let coordinator: SignedInClient;
 let hpmsId: number;
 
 beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-  coordinator = await app.signIn(demoEmail('coordinator'));
+  coordinator = await e2e.app.signIn(demoEmail('coordinator'));
   const schools = await coordinator.get('/api/schools?code=HPMS');
   hpmsId = schools.body.rows[0].id;
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
 });
 
 /** How long a check waits: grid pages, the outbox worker and the mail catcher are asynchronous. */
@@ -61,10 +50,10 @@ async function lendableClarinetAndStudent() {
 describe('Instrument fleet screens', () => {
   it('should lend a clarinet, have the guardian sign through the e-mailed link, take it back and clean it', async () => {
     const { instrument, student } = await lendableClarinetAndStudent();
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/instruments');
-    await page.waitForURL(`${app.url}/instruments`);
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/instruments');
+    await page.waitForURL(`${e2e.app.url}/instruments`);
     await expect
       .poll(() => page.getByTestId('grid-count').innerText(), patient)
       .toMatch(/^[\d,]+ instruments$/);
@@ -72,7 +61,7 @@ describe('Instrument fleet screens', () => {
     await saveScreenshot(page, 'instruments-grid');
 
     // Check out from the Loans screen.
-    await page.goto(`${app.url}/loans`);
+    await page.goto(`${e2e.app.url}/loans`);
     await page.getByTestId('check-out').click();
     await dialogReady(page);
     await page.getByTestId('instrument-picker').fill(instrument.assetTag);
@@ -108,7 +97,7 @@ describe('Instrument fleet screens', () => {
     let link = '';
     await expect
       .poll(() => {
-        const message = app.mail
+        const message = e2e.app.mail
           .messages()
           .find(
             (candidate) =>
@@ -121,9 +110,9 @@ describe('Instrument fleet screens', () => {
       .not.toBe('');
     // The guardian opens the link in a browser of their own, not signed in to the app. The link
     // carries the configured app address; the test app listens on a port of its own.
-    const guardian = await localOnlyContext(browser);
+    const guardian = await localOnlyContext(e2e.browser);
     const signing = await guardian.context.newPage();
-    await signing.goto(`${app.url}${new URL(link).pathname}`);
+    await signing.goto(`${e2e.app.url}${new URL(link).pathname}`);
     await expect.poll(() => signing.locator('h1').innerText()).toContain('Loan agreement for');
     await saveScreenshot(signing, 'loan-signing');
     await signing.locator('#signedName').fill('Avery Quillon');
@@ -136,7 +125,7 @@ describe('Instrument fleet screens', () => {
     await guardian.context.close();
 
     // Back in the app, the loan reads as signed.
-    await page.goto(`${app.url}/loans?q=${instrument.assetTag}`);
+    await page.goto(`${e2e.app.url}/loans?q=${instrument.assetTag}`);
     await expect.poll(() => page.getByTestId('grid-count').innerText(), patient).toBe('1 loan');
     await expect.poll(() => cellText(page, 0, 'agreement'), patient).toBe('Signed');
     await cell(page, 0, 'assetTag').click();
@@ -153,7 +142,7 @@ describe('Instrument fleet screens', () => {
     await expect
       .poll(() => page.getByTestId('loan-panel').innerText(), patient)
       .toContain('Returned');
-    await page.goto(`${app.url}/instruments/${instrument.id}`);
+    await page.goto(`${e2e.app.url}/instruments/${instrument.id}`);
     // An asset tag is one token: it does not break at its hyphen, even on a phone.
     await page.setViewportSize({ width: 360, height: 740 });
     const tag = page.getByTestId('instrument-title').locator('.tb-asset-tag');
@@ -205,10 +194,10 @@ describe('Instrument fleet screens', () => {
       `/api/instruments?status=available&homeSchoolId=${hpmsId}&limit=2&sort=assetTag:asc`,
     );
     const [first, second] = shelf.body.rows as { assetTag: string }[];
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'), '/counts');
-    await page.waitForURL(`${app.url}/counts`);
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'), '/counts');
+    await page.waitForURL(`${e2e.app.url}/counts`);
     await page.getByTestId('count-start').click();
     await page.waitForURL(/\/counts\/\d+$/);
     const box = page.getByTestId('count-scan');
@@ -236,10 +225,10 @@ describe('Instrument fleet screens', () => {
       `/api/instruments?status=available&instrumentId=trumpet&homeSchoolId=${hpmsId}&limit=1`,
     );
     const trumpet = shelf.body.rows[0] as { id: number; assetTag: string };
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('technician'), '/repairs');
-    await page.waitForURL(`${app.url}/repairs`);
+    await signInAs(page, e2e.app.url, demoEmail('technician'), '/repairs');
+    await page.waitForURL(`${e2e.app.url}/repairs`);
     await expect
       .poll(() => page.getByRole('note').first().innerText())
       .toContain('go to a qualified repair technician');
@@ -258,12 +247,12 @@ describe('Instrument fleet screens', () => {
   });
 
   it('should show a student only their own loans', async () => {
-    const student = await app.signIn(demoEmail('student.hpms'));
+    const student = await e2e.app.signIn(demoEmail('student.hpms'));
     const own = await student.get('/api/loans?limit=50');
     expect(own.body.total).toBeGreaterThan(0);
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('student.hpms'), '/loans');
+    await signInAs(page, e2e.app.url, demoEmail('student.hpms'), '/loans');
     await expect.poll(() => page.locator('h1').innerText(), patient).toBe('My instruments');
     await expect.poll(() => page.getByTestId('my-loan').count(), patient).toBe(own.body.total);
     expect(await page.getByTestId('my-loan').first().innerText()).toContain(
@@ -273,9 +262,9 @@ describe('Instrument fleet screens', () => {
   });
 
   it('should total the replacement plan by school and list shortages', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/planning');
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/planning');
     await expect.poll(() => page.getByTestId('horizon-total').innerText(), patient).toMatch(/^\$/);
     const plan = await coordinator.get('/api/planning/replacement');
     const fiveYears = plan.body.horizons.find((horizon: { years: number }) => horizon.years === 5);

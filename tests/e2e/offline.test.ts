@@ -1,9 +1,9 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { BrowserContext, Page } from 'playwright-core';
+import { demoEmail, type SignedInClient } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
 import {
   appInstalledByWorker,
-  launchBrowser,
   localOnlyContext,
   saveScreenshot,
   signInAs,
@@ -13,8 +13,7 @@ import type { Ladder, LadderRequirement } from '@shared/api/ladder';
 import type { PassOff } from '@shared/api/pass-off';
 import { findInstrument } from '@shared/music/index';
 
-let app: TestApp;
-let browser: Browser;
+const e2e = useBrowserApp();
 let director: SignedInClient;
 let ladder: Ladder;
 
@@ -108,7 +107,7 @@ async function ensembleTotal(sheet: Sheet): Promise<PassOff[]> {
 }
 
 async function phoneContext(): Promise<BrowserContext> {
-  return browser.newContext({
+  return e2e.browser.newContext({
     viewport: { width: 390, height: 844 },
     deviceScaleFactor: 2,
     isMobile: true,
@@ -119,13 +118,8 @@ async function phoneContext(): Promise<BrowserContext> {
 }
 
 beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-  director = await app.signIn(demoEmail('director.hpms'));
+  director = await e2e.app.signIn(demoEmail('director.hpms'));
   ladder = (await director.get('/api/ladder')).body as Ladder;
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
 });
 
 describe('With no network', () => {
@@ -134,10 +128,10 @@ describe('With no network', () => {
     async () => {
       const sheet = await sheetWithTenStudents();
       const before = await ensembleTotal(sheet);
-      const { context, outside } = await localOnlyContext(browser);
+      const { context, outside } = await localOnlyContext(e2e.browser);
       const page = await context.newPage();
-      await signInAs(page, app.url, demoEmail('director.hpms'));
-      const sheetUrl = `${app.url}/pass-offs?ensemble=${sheet.ensembleId}&rung=${sheet.rung}`;
+      await signInAs(page, e2e.app.url, demoEmail('director.hpms'));
+      const sheetUrl = `${e2e.app.url}/pass-offs?ensemble=${sheet.ensembleId}&rung=${sheet.rung}`;
       await page.goto(sheetUrl);
       await expect.poll(() => cell(page, 0, sheet.requirement.code).count(), patient).toBe(1);
       await controlledByServiceWorker(page);
@@ -198,11 +192,11 @@ describe('With no network', () => {
     async () => {
       const context = await phoneContext();
       const page = await context.newPage();
-      await signInAs(page, app.url, demoEmail('student.hpms'));
+      await signInAs(page, e2e.app.url, demoEmail('student.hpms'));
       await expect.poll(() => page.getByTestId('progress-rung').count(), patient).toBe(1);
       const rungText = await page.getByTestId('progress-rung').innerText();
       const ownPage = page.url();
-      await page.goto(`${app.url}/practice`);
+      await page.goto(`${e2e.app.url}/practice`);
       await expect.poll(() => page.locator('h1').innerText(), patient).toContain('Practice');
       await controlledByServiceWorker(page);
 
@@ -213,7 +207,7 @@ describe('With no network', () => {
         .poll(() => page.getByTestId('progress-rung').innerText(), patient)
         .toBe(rungText);
       await saveScreenshot(page, 'offline-student-page-phone');
-      await page.goto(`${app.url}/practice`);
+      await page.goto(`${e2e.app.url}/practice`);
       await expect.poll(() => page.locator('h1').innerText(), patient).toContain('Practice');
       await expect.poll(() => page.locator('tb-staff svg').count(), patient).toBeGreaterThan(0);
 
@@ -237,7 +231,7 @@ describe('With no network', () => {
         .locator('form[action="/auth/sign-out"] button[type=submit]')
         .dispatchEvent('click');
       await page.waitForURL((url) => !url.pathname.startsWith('/practice'));
-      await page.goto(`${app.url}/signed-out`);
+      await page.goto(`${e2e.app.url}/signed-out`);
       expect(await kept()).toBe(0);
       await context.close();
     },
@@ -245,9 +239,9 @@ describe('With no network', () => {
   );
 
   it('should say how many pass-offs are unsent and ask before signing out', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.qhms'));
+    await signInAs(page, e2e.app.url, demoEmail('director.qhms'));
     const me = (await page.evaluate(() =>
       fetch('/api/me').then((response) => response.json()),
     )) as {
@@ -278,25 +272,25 @@ describe('With no network', () => {
   it('should have every version-naming file checked with the server, and the hashed files kept', async () => {
     // Angular's service worker guide: ngsw.json and the worker script must not be served stale.
     for (const file of ['/ngsw.json', '/ngsw-worker.js', '/manifest.webmanifest', '/index.html']) {
-      const response = await app.anonymous.get(file);
+      const response = await e2e.app.anonymous.get(file);
       expect(response.status, file).toBe(200);
       expect(response.headers['cache-control'], file).toBe('no-cache');
     }
-    const manifest = JSON.parse((await app.anonymous.get('/manifest.webmanifest')).text) as {
+    const manifest = JSON.parse((await e2e.app.anonymous.get('/manifest.webmanifest')).text) as {
       icons: { src: string; sizes: string }[];
     };
     expect(manifest.icons.map((icon) => icon.sizes)).toEqual(
       expect.arrayContaining(['192x192', '512x512']),
     );
-    const worker = (await app.anonymous.get('/ngsw.json')).body as { hashTable: object };
+    const worker = (await e2e.app.anonymous.get('/ngsw.json')).body as { hashTable: object };
     const main = Object.keys(worker.hashTable).find((file) => /^\/main-\w+\.js$/.test(file))!;
     expect(main).toBeDefined();
     // RFC 8246: a file whose name carries its content's hash never changes, so it is immutable.
-    expect((await app.anonymous.get(main)).headers['cache-control']).toBe(
+    expect((await e2e.app.anonymous.get(main)).headers['cache-control']).toBe(
       'public, max-age=31536000, immutable',
     );
     // RFC 9110 §12.5.3: the browser's Accept-Encoding is answered with a coding it named.
-    const coded = await app.anonymous.get(main).set('Accept-Encoding', 'br');
+    const coded = await e2e.app.anonymous.get(main).set('Accept-Encoding', 'br');
     expect(coded.headers['content-encoding']).toBe('br');
     expect(coded.headers['vary']).toMatch(/accept-encoding/i);
   });

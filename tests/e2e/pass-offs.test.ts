@@ -1,10 +1,10 @@
 import { createHash } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { demoEmail, type SignedInClient } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
 import {
   chooseOption,
-  launchBrowser,
   localOnlyContext,
   embeddedBlock,
   saveScreenshot,
@@ -17,8 +17,7 @@ import type { PassOff } from '@shared/api/pass-off';
 import type { StudentProgress } from '@shared/api/analytics';
 import { findInstrument } from '@shared/music/index';
 
-let app: TestApp;
-let browser: Browser;
+const e2e = useBrowserApp();
 let director: SignedInClient;
 let ladder: Ladder;
 
@@ -115,7 +114,7 @@ function cell(page: Page, rowIndex: number, colId: string) {
 
 /** Opens Pass-offs and picks the ensemble and rung 1 with the selects. */
 async function openSheet(page: Page, candidate: Candidate) {
-  await page.goto(`${app.url}/pass-offs`);
+  await page.goto(`${e2e.app.url}/pass-offs`);
   await chooseOption(page, 'choose-ensemble', new RegExp(`^${candidate.ensembleName} ·`));
   await chooseOption(page, 'choose-rung', /^Rung 1 —/);
   await expect
@@ -141,27 +140,22 @@ async function passOffsWithKeys(studentId: number): Promise<PassOff[]> {
 }
 
 beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-  director = await app.signIn(demoEmail('director.hpms'));
+  director = await e2e.app.signIn(demoEmail('director.hpms'));
   ladder = (await director.get('/api/ladder')).body as Ladder;
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
 });
 
 describe('Pass-offs entry', () => {
   it('should record a row of pass-offs from the keyboard, keep them after a reload, and move the student up a rung', async () => {
     const [candidate] = await rungZeroStudents(1);
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
     const gridWarnings: string[] = [];
     page.on('console', (message) => {
       if (/AG Grid/i.test(message.text())) gridWarnings.push(message.text());
     });
-    await signInAs(page, app.url, demoEmail('director.hpms'));
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'));
     await page.locator('nav[aria-label="Main"] a.item', { hasText: 'Pass-offs' }).click();
-    await page.waitForURL(`${app.url}/pass-offs`);
+    await page.waitForURL(`${e2e.app.url}/pass-offs`);
     await expect
       .poll(
         () => page.getByRole('heading', { name: /Choose an ensemble and a rung/ }).count(),
@@ -221,7 +215,7 @@ describe('Pass-offs entry', () => {
         .toContain(`✓ Passed ♩${tempo}`);
     }
 
-    await page.goto(`${app.url}/students/${candidate!.studentId}`);
+    await page.goto(`${e2e.app.url}/students/${candidate!.studentId}`);
     await expect
       .poll(() => page.getByTestId('progress-rung').innerText(), patient)
       .toMatch(new RegExp(`^Rung ${progress.rung} of 7`));
@@ -239,9 +233,9 @@ describe('Pass-offs entry', () => {
     const [, candidate] = await rungZeroStudents(2);
     expect(candidate!.asked.length).toBeGreaterThanOrEqual(2);
     const before = await passOffsWithKeys(candidate!.studentId);
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'));
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'));
     await openSheet(page, candidate!);
     await focusRow(page, candidate!);
 
@@ -297,9 +291,9 @@ describe('Pass-offs entry', () => {
 
   it("should open a student's history with their pass-offs from the student column", async () => {
     const [candidate] = await rungZeroStudents(1);
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'));
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'));
     await openSheet(page, candidate!);
     await focusRow(page, candidate!);
     await page.keyboard.press('ArrowLeft');
@@ -319,13 +313,13 @@ describe('Pass-offs entry', () => {
     const [ensemble] = (await director.get('/api/ensembles?limit=1&sort=name:asc')).body.rows as {
       id: number;
     }[];
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'));
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'));
     // The links in the page as opened (the index page's own script adds the screen's, under the
     // server's Content-Security-Policy; HTML Living Standard, "Link type modulepreload").
     const preloads = async (address: string) => {
-      await page.goto(`${app.url}${address}`, { waitUntil: 'domcontentloaded' });
+      await page.goto(`${e2e.app.url}${address}`, { waitUntil: 'domcontentloaded' });
       return page.evaluate(() =>
         Array.from(document.querySelectorAll('link[rel=modulepreload]'), (link) =>
           link.getAttribute('href'),
@@ -335,12 +329,12 @@ describe('Pass-offs entry', () => {
     const named = await preloads(`/pass-offs?ensemble=${ensemble!.id}&rung=1`);
     // The screen's code is named beside the first bundle's; another screen's page names less.
     expect(named.length).toBeGreaterThan((await preloads('/overview')).length + 10);
-    for (const file of named) expect((await fetch(`${app.url}/${file}`)).status).toBe(200);
+    for (const file of named) expect((await fetch(`${e2e.app.url}/${file}`)).status).toBe(200);
     // The index page the service worker keeps is the same page, and its manifest names its hash.
-    const kept = await (await fetch(`${app.url}/index.html`)).text();
-    expect(await (await fetch(`${app.url}/pass-offs`)).text()).toBe(kept);
+    const kept = await (await fetch(`${e2e.app.url}/index.html`)).text();
+    expect(await (await fetch(`${e2e.app.url}/pass-offs`)).text()).toBe(kept);
     const hashTable = (
-      (await (await fetch(`${app.url}/ngsw.json`)).json()) as {
+      (await (await fetch(`${e2e.app.url}/ngsw.json`)).json()) as {
         hashTable: Record<string, string>;
       }
     ).hashTable;
@@ -353,7 +347,7 @@ describe('Pass-offs entry', () => {
     // signed-in navigation is served with: the reads then start as the route matches.
     await serveIndexAsWorkerKeepsIt(page);
     const reads = apiReadsOf(page);
-    await page.goto(`${app.url}/pass-offs?ensemble=${ensemble!.id}&rung=1`);
+    await page.goto(`${e2e.app.url}/pass-offs?ensemble=${ensemble!.id}&rung=1`);
     await expect
       .poll(() => page.locator('[role=row][row-index="0"]').count(), patient)
       .toBeGreaterThan(0);
@@ -372,16 +366,16 @@ describe('Pass-offs entry', () => {
     const [ensemble] = (await director.get('/api/ensembles?limit=1&sort=name:asc')).body.rows as {
       id: number;
     }[];
-    const address = `${app.url}/pass-offs?ensemble=${ensemble!.id}&rung=1`;
+    const address = `${e2e.app.url}/pass-offs?ensemble=${ensemble!.id}&rung=1`;
     // Signed out: the plain page, which a browser may keep and revalidate.
     const signedOut = await fetch(address);
     expect(await signedOut.text()).not.toMatch(embeddedBlock);
     expect(signedOut.headers.get('cache-control')).toBe('no-cache');
 
     // No service worker: it would answer the navigation with its own copy of the plain page.
-    const { context } = await localOnlyContext(browser, { serviceWorkers: 'block' });
+    const { context } = await localOnlyContext(e2e.browser, { serviceWorkers: 'block' });
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'));
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'));
     await page.goto('about:blank');
     const reads = apiReadsOf(page);
     const served = await page.goto(address);

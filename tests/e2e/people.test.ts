@@ -1,35 +1,25 @@
 import fs from 'node:fs';
 import * as tar from 'tar';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
+import { describe, expect, it } from 'vitest';
+import { demoEmail } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
 import {
   chooseOption,
   dialogReady,
-  launchBrowser,
   localOnlyContext,
   saveScreenshot,
   signInAs,
 } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 const newDirector = 'cosima.reedholt@merrowbasin.example';
 
 describe('People screen', () => {
   it('should let the coordinator download a backup of the database and its files', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/people');
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/people');
     await expect.poll(() => page.locator('h1').innerText()).toBe('People');
     const link = page.getByRole('link', { name: 'Download a backup' });
     const [download] = await Promise.all([page.waitForEvent('download'), link.click()]);
@@ -45,10 +35,10 @@ describe('People screen', () => {
   });
 
   it('should let the coordinator add a director for QHMS and make an API token shown once', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/people');
-    await page.waitForURL(`${app.url}/people`);
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/people');
+    await page.waitForURL(`${e2e.app.url}/people`);
     await expect.poll(() => page.locator('h1').innerText()).toBe('People');
     const table = page.getByTestId('people-table');
     await expect.poll(() => table.innerText()).toContain('Ines Tallowbrook');
@@ -70,7 +60,7 @@ describe('People screen', () => {
     await expect.poll(() => row.innerText()).toContain('Director');
     expect(await row.innerText()).toContain('QHMS');
     expect(await row.innerText()).toContain('Never');
-    const stored = await app.database.db.execute(
+    const stored = await e2e.app.database.db.execute(
       `select u.role, s.code from users u join user_schools us on us.user_id = u.id join schools s on s.id = us.school_id where u.email = '${newDirector}'` as never,
     );
     expect((stored as unknown as { rows: unknown[] }).rows).toEqual([
@@ -137,10 +127,10 @@ describe('People screen', () => {
   });
 
   it('should give a director their own API tokens page and no People screen', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.qhms'), '/account/tokens');
-    await page.waitForURL(`${app.url}/account/tokens`);
+    await signInAs(page, e2e.app.url, demoEmail('director.qhms'), '/account/tokens');
+    await page.waitForURL(`${e2e.app.url}/account/tokens`);
     const rail = page.locator('nav[aria-label="Main"] a.item');
     await expect.poll(() => rail.allInnerTexts()).toContain('API tokens');
     expect(await rail.allInnerTexts()).not.toContain('People');

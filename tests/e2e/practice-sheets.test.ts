@@ -1,26 +1,12 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import {
-  launchBrowser,
-  localOnlyContext,
-  saveScreenshot,
-  screenshotFolder,
-  signInAs,
-} from '../support/browser';
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { demoEmail } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
+import { localOnlyContext, saveScreenshot, screenshotFolder, signInAs } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 const requirement =
   'tonic=Bb&mode=major&pattern=cycle-broad&tempo=100&articulation=tongue-up-slur-down&octaves=1';
@@ -91,17 +77,17 @@ async function slursAgainstKeySignatures(page: Page) {
 
 describe('Practice sheets', () => {
   it('should write concert Bb major in each section’s own key, clef and notes', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     let continuedSlurs = 0;
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'), '/practice');
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'), '/practice');
     await page.waitForURL(/\/practice/);
     await expect
       .poll(() => page.locator('nav[aria-label="Main"] a.item').allInnerTexts())
       .toContain('Practice sheets');
 
     for (const section of sections) {
-      await page.goto(`${app.url}/practice?${requirement}&instrument=${section.instrument}`);
+      await page.goto(`${e2e.app.url}/practice?${requirement}&instrument=${section.instrument}`);
       const caption = page.getByTestId('sheet-caption');
       await expect.poll(() => caption.innerText()).toBe(`Concert B♭ major → ${section.written}`);
       // 28 beats at quarter = 100 last 16.8 seconds.
@@ -138,7 +124,7 @@ describe('Practice sheets', () => {
 
       // The brisk cycle: the same notes in quarters and eighths, 16 beats (9.6 s at 100).
       const brisk = requirement.replace('cycle-broad', 'cycle-brisk');
-      await page.goto(`${app.url}/practice?${brisk}&instrument=${section.instrument}`);
+      await page.goto(`${e2e.app.url}/practice?${brisk}&instrument=${section.instrument}`);
       await expect
         .poll(() => page.getByTestId('sheet-duration').innerText())
         .toBe('about 10 s at ♩ = 100');
@@ -156,9 +142,9 @@ describe('Practice sheets', () => {
   });
 
   it('should print a band set with one staff for every wind, brass and mallet part', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'), `/practice?${requirement}`);
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'), `/practice?${requirement}`);
     await page.getByTestId('open-band-set').click();
     await page.waitForURL(/view=band-set/);
     const parts = page.locator('[data-testid=band-set] article.part');
@@ -190,11 +176,11 @@ describe('Practice sheets', () => {
   });
 
   it('should list the practice plan and load a step into the sheet', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
     await signInAs(
       page,
-      app.url,
+      e2e.app.url,
       demoEmail('student.hpms'),
       `/practice?${requirement}&instrument=clarinet`,
     );
@@ -230,11 +216,11 @@ describe('Practice sheets', () => {
   });
 
   it('should play at concert pitch on a press of Play and stop again', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
     await signInAs(
       page,
-      app.url,
+      e2e.app.url,
       demoEmail('director.hpms'),
       `/practice?${requirement}&instrument=horn`,
     );
@@ -249,13 +235,13 @@ describe('Practice sheets', () => {
   });
 
   it('should explain when no octave of the pattern fits the instrument', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
     // The engine's school range for the trumpet is written F#3–C6 (Adler's range, narrowed at
     // the top); two octaves of its written D major need D3–D5 or D4–D6, and neither fits.
     await signInAs(
       page,
-      app.url,
+      e2e.app.url,
       demoEmail('director.hpms'),
       '/practice?tonic=C&mode=major&pattern=cycle-broad&tempo=100&octaves=2&instrument=trumpet',
     );
@@ -271,13 +257,13 @@ describe('Practice sheets', () => {
   });
 
   it('should place the pattern by the player’s level and print the name, date and requirement line', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
     // Two octaves of concert C for piccolo reach written C7 (common practice, no source): beyond
     // the middle-school range, within the instrument's full range.
     await signInAs(
       page,
-      app.url,
+      e2e.app.url,
       demoEmail('student.hpms'),
       '/practice?tonic=C&mode=major&pattern=cycle-broad&tempo=100&octaves=2&instrument=piccolo&level=middle',
     );
