@@ -1,19 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { AxeBuilder } from '@axe-core/playwright';
-import type { Browser, Page } from 'playwright-core';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, signInAs } from '../support/browser';
+import type { Page } from 'playwright-core';
+import { demoEmail } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
+import { localOnlyContext, signInAs } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 /** Waits until a screen has its heading and has finished loading its data. */
 async function settled(page: Page) {
@@ -55,7 +47,7 @@ async function seriousViolations(page: Page): Promise<string[]> {
 
 describe('Accessibility', () => {
   it('should show the coordinator every main screen with no serious or critical axe violation and no blocked script or style', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     // The server's Content-Security-Policy has no inline-script exception; the browser reports
     // anything it blocks as a securitypolicyviolation event (W3C Content Security Policy Level 3).
     await context.addInitScript(() => {
@@ -68,7 +60,7 @@ describe('Accessibility', () => {
       );
     });
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'));
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'));
     await settled(page);
     // Every screen the coordinator's rail offers: the screens that exist in this build.
     const screens = await page
@@ -82,7 +74,7 @@ describe('Accessibility', () => {
     const found: string[] = [];
     const blockedByPolicy: string[] = [];
     for (const screen of screens) {
-      await page.goto(`${app.url}${screen}`, { timeout: 30_000 });
+      await page.goto(`${e2e.app.url}${screen}`, { timeout: 30_000 });
       await settled(page);
       // Read before axe runs: axe's own rule code would be blocked by the policy too.
       const blocked = await page.evaluate(
@@ -98,9 +90,9 @@ describe('Accessibility', () => {
   }, 600_000);
 
   it('should show a student their own progress page with no serious or critical axe violation', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('student.hpms'));
+    await signInAs(page, e2e.app.url, demoEmail('student.hpms'));
     await page.waitForURL(/\/students\/\d+$/);
     await settled(page);
     const found = await seriousViolations(page);
@@ -109,9 +101,9 @@ describe('Accessibility', () => {
   });
 
   it('should let a keyboard user skip to the content, reach the navigation and see where focus is', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'));
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'));
     await settled(page);
     const focused = () =>
       page.evaluate(() => {
@@ -150,9 +142,9 @@ describe('Accessibility', () => {
   });
 
   it('should name the Add-instrument dialog, keep heading order, give the ladder editor an h1, and focus the new page’s heading after rail navigation', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/overview');
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/overview');
     await settled(page);
     // axe-core rules heading-order and page-has-heading-one (moderate, so not in the sweep above).
     const headings = async () =>
@@ -167,15 +159,15 @@ describe('Accessibility', () => {
     expect(await headings()).toEqual([]);
 
     // A ladder version that is not a draft opens the editor's error state; it still has its h1.
-    const coordinator = await app.signIn(demoEmail('coordinator'));
+    const coordinator = await e2e.app.signIn(demoEmail('coordinator'));
     const active = (await coordinator.get('/api/ladder')).body as { id: number };
-    await page.goto(`${app.url}/ladder/versions/${active.id}/edit`);
+    await page.goto(`${e2e.app.url}/ladder/versions/${active.id}/edit`);
     await page.locator('main tb-page-state').waitFor();
     expect(await headings()).toEqual([]);
     expect(await page.locator('main h1').innerText()).toBe('Edit a draft ladder');
 
     // axe-core rule aria-dialog-name (serious): the dialog is named by its heading.
-    await page.goto(`${app.url}/instruments`);
+    await page.goto(`${e2e.app.url}/instruments`);
     await settled(page);
     await page.getByRole('button', { name: 'Add instrument' }).click();
     await page.locator('mat-dialog-container').waitFor();
@@ -186,7 +178,7 @@ describe('Accessibility', () => {
 
     // After following a rail link, focus is on the new page's heading.
     await page.locator('nav[aria-label="Main"] a.item', { hasText: 'Students' }).click();
-    await page.waitForURL(`${app.url}/students`);
+    await page.waitForURL(`${e2e.app.url}/students`);
     await expect
       .poll(() =>
         page.evaluate(() => {

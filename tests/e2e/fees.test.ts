@@ -1,23 +1,17 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { demoEmail, startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { demoEmail, type SignedInClient } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
+import { localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
+const e2e = useBrowserApp();
 let director: SignedInClient;
 let coordinator: SignedInClient;
 
 beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
   [director, coordinator] = await Promise.all([
-    app.signIn(demoEmail('director.hpms')),
-    app.signIn(demoEmail('coordinator')),
+    e2e.app.signIn(demoEmail('director.hpms')),
+    e2e.app.signIn(demoEmail('coordinator')),
   ]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
 });
 
 // The mail worker, the webhook and the first load of the lazy Fees screen are asynchronous; the machine is shared.
@@ -52,7 +46,7 @@ describe('a guardian pays the usage fee online', () => {
     });
     expect(loan.status).toBe(201);
 
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
     // Guardians mostly read the e-mail on a phone.
     await page.setViewportSize({ width: 390, height: 844 });
@@ -60,7 +54,7 @@ describe('a guardian pays the usage fee online', () => {
     await expect
       .poll(
         () =>
-          app.mail
+          e2e.app.mail
             .messages()
             .some((message) =>
               message.subject.startsWith('Please sign the instrument loan agreement'),
@@ -68,7 +62,7 @@ describe('a guardian pays the usage fee online', () => {
         patient,
       )
       .toBe(true);
-    await page.goto(app.mail.httpUrl);
+    await page.goto(e2e.app.mail.httpUrl);
     const subject = page
       .getByRole('link', { name: /Please sign the instrument loan agreement/ })
       .first();
@@ -79,7 +73,7 @@ describe('a guardian pays the usage fee online', () => {
     expect(body).toContain('Pay the usage fee');
     // The e-mail's links carry APP_URL; the test server listens on its own port, so the path is opened there.
     const agreementPath = /\/agreements\/[A-Za-z0-9_-]+/.exec(body)![0];
-    await page.goto(`${app.url}${agreementPath}`);
+    await page.goto(`${e2e.app.url}${agreementPath}`);
     await page.getByLabel('Your full name (parent or guardian)').fill('Robin Example-Guardian');
     await page.getByLabel(/I have read this agreement/).check();
     await page.getByRole('button', { name: 'Sign the agreement' }).click();
@@ -89,23 +83,23 @@ describe('a guardian pays the usage fee online', () => {
 
     // The payment service's hosted page (the local fake).
     await page.getByLabel('Card number').waitFor(patient);
-    expect(new URL(page.url()).origin).toBe(app.payments.url);
+    expect(new URL(page.url()).origin).toBe(e2e.app.payments.url);
     await page.getByLabel('Card number').fill('4242 4242 4242 4242');
     await page.getByLabel('Expiry (MM / YY)').fill('12 / 34');
     await page.getByLabel('Security code').fill('123');
     await saveScreenshot(page, 'fees-hosted-payment-page');
     await page.getByRole('button', { name: /^Pay USD 45\.00$/ }).click();
     await page.waitForURL(
-      (url) => url.origin === app.url && url.pathname.endsWith('/done'),
+      (url) => url.origin === e2e.app.url && url.pathname.endsWith('/done'),
       patient,
     );
     await page.getByRole('heading', { name: /Thank you/ }).waitFor(patient);
     await saveScreenshot(page, 'fees-guardian-result');
 
     // The coordinator's Fees screen shows the payment once the service's event has arrived.
-    await app.payments.webhooksSettled();
+    await e2e.app.payments.webhooksSettled();
     const office = await context.newPage();
-    await signInAs(office, app.url, demoEmail('coordinator'), '/fees');
+    await signInAs(office, e2e.app.url, demoEmail('coordinator'), '/fees');
     await office.getByRole('heading', { name: 'Fees', level: 1 }).waitFor(patient);
     await office.getByLabel('Student or asset tag').fill('MB-E2E-PAY-1');
     await office.getByLabel('Student or asset tag').press('Enter');
@@ -126,16 +120,16 @@ describe('a guardian pays the usage fee online', () => {
 
 describe('the fee schedule and the loan agreement text live in District settings', () => {
   it('should edit both on the District settings screen and link there from the Fees and Loans screens', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/fees');
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/fees');
     await page.getByRole('heading', { name: 'Fees', level: 1 }).waitFor(patient);
     // The Fees screen no longer edits the schedule; it sends the coordinator to District settings.
     const feesLink = page.getByTestId('fee-schedule-link');
     await feesLink.waitFor(patient);
     expect(await page.getByTestId('save-schedule').count()).toBe(0);
     await feesLink.getByRole('link', { name: 'Edit in District settings' }).click();
-    await page.waitForURL(`${app.url}/district#fee-schedule`, patient);
+    await page.waitForURL(`${e2e.app.url}/district#fee-schedule`, patient);
 
     // Both sections are on the District settings screen.
     await page.getByRole('heading', { name: 'District settings', level: 1 }).waitFor(patient);
@@ -178,17 +172,17 @@ describe('the fee schedule and the loan agreement text live in District settings
     await saveScreenshot(page, 'district-settings-agreement-and-fees');
 
     // The Loans screen links the coordinator to the agreement text's new home.
-    await page.goto(`${app.url}/loans`);
+    await page.goto(`${e2e.app.url}/loans`);
     await page.getByTestId('agreement-text-link').click();
-    await page.waitForURL(`${app.url}/district#agreement-text`, patient);
+    await page.waitForURL(`${e2e.app.url}/district#agreement-text`, patient);
     await page.getByTestId('agreement-text').waitFor(patient);
 
     // A director still reads the schedule on the Fees screen, without editing it or the link.
     expect(outside).toEqual([]);
     await context.close();
-    const { context: directorContext } = await localOnlyContext(browser);
+    const { context: directorContext } = await localOnlyContext(e2e.browser);
     const directorPage = await directorContext.newPage();
-    await signInAs(directorPage, app.url, demoEmail('director.hpms'), '/fees');
+    await signInAs(directorPage, e2e.app.url, demoEmail('director.hpms'), '/fees');
     const readOnly = directorPage.getByTestId('fee-schedule');
     await readOnly.getByRole('heading', { name: 'Fee schedule' }).waitFor(patient);
     // The director reads the fee the coordinator just saved.

@@ -1,19 +1,10 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import { demoEmail } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
+import { localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 // "Pupil Number" is a header the column guess does not know; line 3 has a grade above 12.
 const roster = [
@@ -25,10 +16,10 @@ const roster = [
 
 describe('Roster import wizard', () => {
   it('should upload, fix the mapping, show the remaining error, skip it and commit', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/imports');
-    await page.waitForURL(`${app.url}/imports`);
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/imports');
+    await page.waitForURL(`${e2e.app.url}/imports`);
     await expect.poll(() => page.locator('h1').innerText()).toBe('Imports');
     expect(await page.locator('nav[aria-label="Main"] a.item').allInnerTexts()).toContain(
       'Imports',
@@ -112,14 +103,14 @@ describe('Roster import wizard', () => {
       );
     } else {
       const rows = rowsOf(
-        await app.database.db.execute(
+        await e2e.app.database.db.execute(
           `select 1 from students where student_number = 'E2E-0001'` as never,
         ),
       );
       expect(rows).toHaveLength(1);
     }
     const skipped = rowsOf(
-      await app.database.db.execute(
+      await e2e.app.database.db.execute(
         `select 1 from students where student_number = 'E2E-0002'` as never,
       ),
     );
@@ -149,7 +140,7 @@ describe('Roster import wizard', () => {
     await expect.poll(() => history.innerText()).toContain('Undone');
     expect(await page.getByTestId('undo-import').count()).toBe(0);
     const gone = rowsOf(
-      await app.database.db.execute(
+      await e2e.app.database.db.execute(
         `select 1 from students where student_number in ('E2E-0001', 'E2E-0003')` as never,
       ),
     );

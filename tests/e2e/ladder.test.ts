@@ -1,20 +1,11 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import { describe, expect, it } from 'vitest';
+import { demoEmail } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
+import { localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
 import type { Ladder, LadderRequirement } from '@shared/api/ladder';
 import { instrumentById } from '@shared/music/index';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 const patient = { timeout: 15_000 };
 
@@ -38,14 +29,14 @@ function practicePath(requirement: LadderRequirement, instrument: string): strin
 
 describe('Scale ladder screen', () => {
   it('should show the demo ladder with its rungs and link each scale to its practice sheet', async () => {
-    const director = await app.signIn(demoEmail('director.hpms'));
+    const director = await e2e.app.signIn(demoEmail('director.hpms'));
     const ladder = (await director.get('/api/ladder')).body as Ladder;
     expect(ladder.rungs).toHaveLength(7);
 
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'), '/ladder');
-    await page.waitForURL(`${app.url}/ladder`);
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'), '/ladder');
+    await page.waitForURL(`${e2e.app.url}/ladder`);
     await expect.poll(() => page.getByTestId('rung').count(), patient).toBe(7);
     expect(await page.locator('nav[aria-label="Main"] a.item').allInnerTexts()).toEqual(
       expect.arrayContaining(['Scale ladder', 'Pass-offs']),
@@ -92,15 +83,15 @@ describe('Scale ladder screen', () => {
   });
 
   it("should show a student their own rung and practice links for their instrument, and nobody else's page", async () => {
-    const student = await app.signIn(demoEmail('student.hpms'));
+    const student = await e2e.app.signIn(demoEmail('student.hpms'));
     const me = (await student.get('/api/me')).body as { studentId: number };
     const progress = (await student.get(`/api/analytics/students/${me.studentId}/progress`)).body;
     expect(progress.rungCount).toBe(7);
 
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('student.hpms'));
-    await page.waitForURL(`${app.url}/students/${me.studentId}`);
+    await signInAs(page, e2e.app.url, demoEmail('student.hpms'));
+    await page.waitForURL(`${e2e.app.url}/students/${me.studentId}`);
     const expected =
       progress.rung === 0 ? /^Not on a rung yet/ : new RegExp(`^Rung ${progress.rung} of 7`);
     await expect
@@ -132,7 +123,7 @@ describe('Scale ladder screen', () => {
     const instrumentName = instrumentById(progress.instrumentId).name.toLowerCase();
     expect(await page.locator('.for-me').innerText()).toContain(instrumentName);
 
-    await page.goto(`${app.url}/students/${me.studentId + 1}`);
+    await page.goto(`${e2e.app.url}/students/${me.studentId + 1}`);
     await expect.poll(() => page.getByTestId('progress-not-found').isVisible(), patient).toBe(true);
     expect(await page.getByTestId('progress-not-found').innerText()).toContain(
       'only your own progress page',
@@ -141,10 +132,10 @@ describe('Scale ladder screen', () => {
   });
 
   it('should let the coordinator edit a draft, show the server’s field messages, and publish it', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
     await page.setViewportSize({ width: 1440, height: 900 });
-    await signInAs(page, app.url, demoEmail('coordinator'), '/ladder');
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/ladder');
     await page.getByTestId('start-draft').click();
     await page.waitForURL(/\/ladder\/versions\/\d+\/edit$/);
     await expect.poll(() => page.getByTestId('rung-editor').count(), patient).toBe(7);
@@ -246,9 +237,9 @@ describe('Scale ladder screen', () => {
     ).replace(/[()]/g, '');
     await saveScreenshot(page, 'ladder-publish-impact');
     await dialog.getByTestId('confirm-impact').click();
-    await page.waitForURL(`${app.url}/ladder`);
+    await page.waitForURL(`${e2e.app.url}/ladder`);
 
-    const coordinator = await app.signIn(demoEmail('coordinator'));
+    const coordinator = await e2e.app.signIn(demoEmail('coordinator'));
     const ladder = (await coordinator.get('/api/ladder')).body as Ladder;
     expect(ladder.rungs[0]!.requirements[0]!.tempo).toBe(66);
     expect(ladder.name).toBe('Ladder 2027, rung 1 at 66');
@@ -265,7 +256,7 @@ describe('Scale ladder screen', () => {
     ).body.rows[0];
     expect(slow.tempo).toBeLessThan(66);
     expect(slow.standing).toBe('below-tempo');
-    await page.goto(`${app.url}/students/${slow.studentId}`);
+    await page.goto(`${e2e.app.url}/students/${slow.studentId}`);
     await expect
       .poll(() => page.locator('.notes').innerText(), patient)
       .toContain(slow.standingNote);
@@ -275,14 +266,14 @@ describe('Scale ladder screen', () => {
     // A student the impact named as moving down reads why on their page.
     const dropped = (await coordinator.get(`/api/students?q=${droppedNumber}`)).body.rows[0];
     expect(dropped.studentNumber).toBe(droppedNumber);
-    await page.goto(`${app.url}/students/${dropped.id}`);
+    await page.goto(`${e2e.app.url}/students/${dropped.id}`);
     await expect
       .poll(() => page.getByTestId('ladder-change').innerText(), patient)
       .toMatch(/^The ladder changed on .+ in rung 1 now asks for ♩ = 66 \(it was 60\)/);
     await saveScreenshot(page, 'student-ladder-change');
 
     // Roll back: the version before is put back in force, after its own impact.
-    await page.goto(`${app.url}/ladder`);
+    await page.goto(`${e2e.app.url}/ladder`);
     await page.getByTestId('roll-back').click();
     const back = page.getByRole('dialog');
     await expect

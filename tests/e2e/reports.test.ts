@@ -1,21 +1,13 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
 import { listResponseSchema } from '@shared/api/list';
 import { reportPreviewSchema, reportRunSchema } from '@shared/api/report';
 import { schoolSchema } from '@shared/api/school';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import { demoEmail } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
+import { localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 /** How long a check waits: previews are assembled on the server, mail goes out within seconds. */
 const patient = { timeout: 30_000, interval: 500 };
@@ -26,10 +18,10 @@ async function apiGet(page: Page, path: string): Promise<unknown> {
 
 describe('Reports', () => {
   it('should preview a director report, send it to the school directors, and show it sent in the mailbox and the outbox', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/reports');
-    await page.waitForURL(`${app.url}/reports`);
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/reports');
+    await page.waitForURL(`${e2e.app.url}/reports`);
     // A select with no options yet does not open: wait for the schools (the first is chosen).
     await expect.poll(() => page.getByTestId('report-school').innerText(), patient).toMatch(/ · /);
     await page.getByTestId('report-school').click();
@@ -77,7 +69,7 @@ describe('Reports', () => {
     await expect
       .poll(
         () =>
-          app.mail
+          e2e.app.mail
             .messages()
             .filter((message) => message.subject === testSubject)
             .flatMap((message) => message.to),
@@ -112,7 +104,7 @@ describe('Reports', () => {
     await expect
       .poll(
         () =>
-          app.mail
+          e2e.app.mail
             .messages()
             .filter((message) => message.subject === subject)
             .flatMap((message) => message.to)
@@ -121,13 +113,13 @@ describe('Reports', () => {
       )
       .toEqual([...run.recipients].sort());
     const mailbox = await context.newPage();
-    await mailbox.goto(app.mail.httpUrl);
+    await mailbox.goto(e2e.app.mail.httpUrl);
     expect(await mailbox.locator('body').innerText()).toContain(subject);
     await mailbox.close();
 
     // The Outbox screen shows each of them sent.
     await page.getByRole('link', { name: 'Outbox' }).first().click();
-    await page.waitForURL(`${app.url}/reports/outbox`);
+    await page.waitForURL(`${e2e.app.url}/reports/outbox`);
     // The test sent before is in the outbox too, its subject marked "Test:".
     const rows = page
       .getByTestId('outbox-list')
@@ -150,10 +142,10 @@ describe('Reports', () => {
   });
 
   it('should let a director send their own school report to themselves only', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'), '/reports');
-    await page.waitForURL(`${app.url}/reports`);
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'), '/reports');
+    await page.waitForURL(`${e2e.app.url}/reports`);
     await expect
       .poll(
         () => page.getByTestId('report-preview').locator('iframe').getAttribute('srcdoc'),
@@ -181,10 +173,10 @@ describe('Reports', () => {
   });
 
   it('should make, pause and delete a weekly schedule with its next run shown', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/reports/schedules');
-    await page.waitForURL(`${app.url}/reports/schedules`);
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/reports/schedules');
+    await page.waitForURL(`${e2e.app.url}/reports/schedules`);
     await expect
       .poll(() => page.locator('form[aria-labelledby=new-schedule] .summary').innerText(), patient)
       .toBe('Every Monday at 07:00, America/Los_Angeles.');

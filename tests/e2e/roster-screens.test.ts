@@ -1,23 +1,15 @@
 import fs from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import { describe, expect, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { demoEmail } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
+import { localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
 import { gridCsv } from '../../web/app/core/grid/grid-csv';
 import { columnCsv } from '../../web/app/core/grid/column-csv';
 import { columnStateOf, layoutOf } from '../../web/app/core/grid/grid-layout';
 import { listParameters, sortParameter } from '../../web/app/core/grid/grid-query';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 /** One cell of the grid's data rows (header rows carry no row-index). */
 function cell(page: Page, index: number, colId: string) {
@@ -51,15 +43,15 @@ const gradeNumber = (label: string) => (label === 'K' ? 0 : Number(label));
 
 describe('Students grid', () => {
   it('should show a director only the students of their school, searchable and sorted by grade', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'), '/students');
-    await page.waitForURL(`${app.url}/students`);
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'), '/students');
+    await page.waitForURL(`${e2e.app.url}/students`);
     await expect
       .poll(() => page.getByTestId('grid-count').innerText(), patient)
       .toMatch(/^[\d,]+ students$/);
 
-    const client = await app.signIn(demoEmail('director.hpms'));
+    const client = await e2e.app.signIn(demoEmail('director.hpms'));
     const all = await client.get('/api/students?status=active&limit=1');
     expect(await gridCount(page)).toBe(all.body.total);
     // The count arrives with the first page; the rows' cells fill in a frame later.
@@ -111,14 +103,14 @@ describe('Students grid', () => {
   });
 
   it('should fetch the next block of students by cursor as the coordinator scrolls down', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
     const asked: URL[] = [];
     page.on('request', (request) => {
       const url = new URL(request.url());
       if (url.pathname === '/api/students') asked.push(url);
     });
-    await signInAs(page, app.url, demoEmail('coordinator'), '/students');
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/students');
     await expect
       .poll(() => page.getByTestId('grid-count').innerText(), patient)
       .toMatch(/^[\d,]+ students$/);
@@ -142,7 +134,7 @@ describe('Students grid', () => {
         .sort((first, second) => first - second)[0];
     await expect.poll(drawnPast100, patient).toBeDefined();
     const index = (await drawnPast100())!;
-    const client = await app.signIn(demoEmail('coordinator'));
+    const client = await e2e.app.signIn(demoEmail('coordinator'));
     const same = await client.get(`/api/students?status=active&offset=${index}&limit=1`);
     await expect
       .poll(() => cellText(page, index, 'studentNumber'), patient)
@@ -151,9 +143,9 @@ describe('Students grid', () => {
   });
 
   it('should keep a changed preferred name after a reload of the student record', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'), '/students');
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'), '/students');
     await expect.poll(() => cellText(page, 0, 'lastName'), patient).not.toBe('');
     const lastName = await cellText(page, 0, 'lastName');
     await cell(page, 0, 'lastName').click();
@@ -178,23 +170,23 @@ describe('Students grid', () => {
     await page.evaluate(() => document.fonts.ready);
     await saveScreenshot(page, 'student-edit');
 
-    const client = await app.signIn(demoEmail('director.hpms'));
+    const client = await e2e.app.signIn(demoEmail('director.hpms'));
     expect((await client.get(`/api/students/${studentId}`)).body.preferredName).toBe('Wren');
     expect(outside).toEqual([]);
     await context.close();
   });
 
   it('should not let a director open a student of another school', async () => {
-    const coordinator = await app.signIn(demoEmail('coordinator'));
+    const coordinator = await e2e.app.signIn(demoEmail('coordinator'));
     const quarryHill = await coordinator.get('/api/schools?code=QHMS');
     const other = await coordinator.get(
       `/api/students?schoolId=${quarryHill.body.rows[0].id}&limit=1`,
     );
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
     await signInAs(
       page,
-      app.url,
+      e2e.app.url,
       demoEmail('director.hpms'),
       `/students/${other.body.rows[0].id}/edit`,
     );
@@ -208,13 +200,13 @@ describe('Students grid', () => {
 
 describe('Schools and ensembles grids', () => {
   it('should show the coordinator every school and export the view as CSV', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/schools');
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/schools');
     await expect
       .poll(() => page.getByTestId('grid-count').innerText(), patient)
       .toMatch(/^\d+ schools$/);
-    const client = await app.signIn(demoEmail('coordinator'));
+    const client = await e2e.app.signIn(demoEmail('coordinator'));
     const schools = await client.get('/api/schools?sort=name:asc&limit=100');
     expect(await gridCount(page)).toBe(schools.body.total);
     await expect
@@ -241,13 +233,13 @@ describe('Schools and ensembles grids', () => {
   });
 
   it('should open a school with its ensembles, and let the coordinator open the ensembles grid', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/ensembles');
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/ensembles');
     await expect
       .poll(() => page.getByTestId('grid-count').innerText(), patient)
       .toMatch(/^\d+ ensembles$/);
-    const client = await app.signIn(demoEmail('coordinator'));
+    const client = await e2e.app.signIn(demoEmail('coordinator'));
     const ensembles = await client.get('/api/ensembles?limit=1');
     expect(await gridCount(page)).toBe(ensembles.body.total);
 
@@ -262,7 +254,7 @@ describe('Schools and ensembles grids', () => {
     await saveScreenshot(page, 'ensembles-grid');
 
     const heronPoint = (await client.get('/api/schools?code=HPMS')).body.rows[0];
-    await page.goto(`${app.url}/schools/${heronPoint.id}`);
+    await page.goto(`${e2e.app.url}/schools/${heronPoint.id}`);
     await expect.poll(() => page.locator('h1').innerText(), patient).toBe('Heron Point Middle');
     const schoolEnsembles = await client.get(`/api/ensembles?schoolId=${heronPoint.id}&limit=100`);
     await expect
@@ -274,9 +266,9 @@ describe('Schools and ensembles grids', () => {
   });
 
   it('should remember a hidden column for the next visit', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.qhms'), '/schools');
+    await signInAs(page, e2e.app.url, demoEmail('director.qhms'), '/schools');
     await expect.poll(() => page.getByTestId('grid-count').innerText(), patient).toBe('1 school');
     await expect.poll(() => header(page, 'level').count(), patient).toBe(1);
     await page.getByTestId('grid-columns').click();
@@ -289,7 +281,7 @@ describe('Schools and ensembles grids', () => {
       .toBe('false');
     await page.keyboard.press('Escape');
     await expect.poll(() => header(page, 'level').count(), patient).toBe(0);
-    const client = await app.signIn(demoEmail('director.qhms'));
+    const client = await e2e.app.signIn(demoEmail('director.qhms'));
     await expect
       .poll(
         async () => (await client.get('/api/grid-preferences/schools')).body.state?.columns ?? [],

@@ -1,26 +1,17 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import { demoEmail } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
+import { localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 describe('School years screen', () => {
   it('should let the coordinator preview and start 2027-28 on the demo, with a backup offered first', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'), '/school-years');
-    await page.waitForURL(`${app.url}/school-years`);
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'), '/school-years');
+    await page.waitForURL(`${e2e.app.url}/school-years`);
     await expect.poll(() => page.locator('h1').innerText()).toBe('School years');
     const table = page.getByTestId('year-table');
     await expect.poll(() => table.innerText()).toContain('2026-27');
@@ -33,7 +24,7 @@ describe('School years screen', () => {
     const panel = page.getByTestId('start-preview-panel');
     await panel.waitFor();
     const [{ active }] = rowsOf<{ active: number }>(
-      await app.database.db.execute(
+      await e2e.app.database.db.execute(
         `select count(*)::int as active from students where status = 'active'` as never,
       ),
     );
@@ -55,18 +46,18 @@ describe('School years screen', () => {
     expect(await table.locator('tr[data-year="2026-27"]').innerText()).toContain('History');
     await saveScreenshot(page, 'school-years-started');
     const [year] = rowsOf<{ name: string }>(
-      await app.database.db.execute(`select name from school_years where current` as never),
+      await e2e.app.database.db.execute(`select name from school_years where current` as never),
     );
     expect(year!.name).toBe('2027-28');
 
     // A student who moved up: their record lists the year just ended.
     const [movedUp] = rowsOf<{ id: number; year: string }>(
-      await app.database.db.execute(
+      await e2e.app.database.db.execute(
         `select sy.student_id as id from student_years sy join school_years y on y.id = sy.school_year_id
          where y.name = '2026-27' and sy.outcome = 'moving-up' order by sy.student_id limit 1` as never,
       ),
     );
-    await page.goto(`${app.url}/students/${movedUp!.id}/edit`);
+    await page.goto(`${e2e.app.url}/students/${movedUp!.id}/edit`);
     const years = page.getByTestId('student-years');
     await years.waitFor({ timeout: 30_000 });
     expect(await years.innerText()).toContain('2026-27');
@@ -74,13 +65,13 @@ describe('School years screen', () => {
     await saveScreenshot(page, 'student-past-years');
 
     // The students grid of the year just ended: that year's schools and grades, read-only.
-    await page.goto(`${app.url}/students`);
+    await page.goto(`${e2e.app.url}/students`);
     await page.getByTestId('filter-year').click();
     await page.getByRole('option', { name: '2026-27', exact: true }).click();
     await page.getByTestId('past-year-note').waitFor();
     expect(await page.getByRole('link', { name: 'Add student' }).count()).toBe(0);
     const [{ kept }] = rowsOf<{ kept: number }>(
-      await app.database.db.execute(
+      await e2e.app.database.db.execute(
         `select count(*)::int as kept from student_years sy join school_years y on y.id = sy.school_year_id where y.name = '2026-27'` as never,
       ),
     );

@@ -1,18 +1,9 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
-import { launchBrowser, localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
+import { describe, expect, it } from 'vitest';
+import { demoEmail } from '../support/test-app';
+import { useBrowserApp } from '../support/browser-app';
+import { localOnlyContext, saveScreenshot, signInAs } from '../support/browser';
 
-let app: TestApp;
-let browser: Browser;
-
-beforeAll(async () => {
-  [app, browser] = await Promise.all([startTestApp({ serveWeb: true }), launchBrowser()]);
-});
-afterAll(async () => {
-  await browser?.close();
-  await app?.close();
-});
+const e2e = useBrowserApp();
 
 async function railLabels(page: import('playwright-core').Page) {
   return page.locator('nav[aria-label="Main"] a.item').allInnerTexts();
@@ -20,10 +11,10 @@ async function railLabels(page: import('playwright-core').Page) {
 
 describe('App shell', () => {
   it('should sign a director in and show their school, name and navigation', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('director.hpms'));
-    await page.waitForURL(`${app.url}/overview`);
+    await signInAs(page, e2e.app.url, demoEmail('director.hpms'));
+    await page.waitForURL(`${e2e.app.url}/overview`);
     await expect.poll(() => page.getByTestId('user-name').innerText()).toBe('Marcus Feldqvist');
     await expect
       .poll(() => page.getByTestId('overview-schools').innerText())
@@ -41,9 +32,9 @@ describe('App shell', () => {
   });
 
   it('should show the coordinator the whole district', async () => {
-    const { context, outside } = await localOnlyContext(browser);
+    const { context, outside } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('coordinator'));
+    await signInAs(page, e2e.app.url, demoEmail('coordinator'));
     await expect
       .poll(() => page.getByTestId('overview-schools').innerText())
       .toContain('Quarry Hill Middle');
@@ -54,9 +45,9 @@ describe('App shell', () => {
   });
 
   it('should not offer a student the district overview', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('student.hpms'));
+    await signInAs(page, e2e.app.url, demoEmail('student.hpms'));
     await expect.poll(() => page.getByTestId('user-role').innerText()).toBe('Student');
     expect(await railLabels(page)).not.toContain('Overview');
     expect(await railLabels(page)).not.toContain('Schools');
@@ -64,10 +55,10 @@ describe('App shell', () => {
   });
 
   it('should send a signed-out visitor to sign in and back to the page they asked for', async () => {
-    const { context } = await localOnlyContext(browser);
+    const { context } = await localOnlyContext(e2e.browser);
     const page = await context.newPage();
-    await signInAs(page, app.url, demoEmail('viewer.trhs'), '/schools');
-    await page.waitForURL(`${app.url}/schools`);
+    await signInAs(page, e2e.app.url, demoEmail('viewer.trhs'), '/schools');
+    await page.waitForURL(`${e2e.app.url}/schools`);
     await expect.poll(() => page.locator('h1').innerText()).toBe('Schools');
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.getByRole('button', { name: 'Yes, sign me out' }).click();
