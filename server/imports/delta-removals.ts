@@ -1,5 +1,6 @@
 import type { ImportPlan } from './import-plan';
 import type { SqlSession } from './sql-session';
+import { withdrawStudents } from './import-writes';
 
 /**
  * Carries out a OneRoster delta's removals inside the import's transaction: withdraws its
@@ -15,35 +16,16 @@ export async function applyDeltaRemovals(
   userId: number | null,
 ): Promise<{ withdrawn: number; endedSeats: number }> {
   const { studentIds, endedSeats } = plan.deltaRemovals;
-  let withdrawn = 0;
-  if (studentIds.length > 0) {
-    const [row] = await session.query<{ count: number }>(
-      `with gone as (
-         update students s set status = 'withdrawn', version = s.version + 1, updated_at = now()
-         where s.student_number = any($2::text[]) and s.status = 'active'
-         returning s.id, s.student_number, s.version
-       ), unseated as (
-         update enrollments en set active = false, version = en.version + 1, updated_at = now()
-         from gone where en.student_id = gone.id and en.school_year_id = $3::int and en.active
-         returning en.id, en.student_id, en.ensemble_id, en.version
-       ), journaled as (
-         insert into import_journal (kind, student_id, enrollment_id, ensemble_id, before, version_after)
-         select 'student-withdrawn', id, null, null, jsonb_build_object('status', 'active'), version
-         from gone
-         union all
-         select 'seat-ended', student_id, id, ensemble_id, jsonb_build_object('active', true), version
-         from unseated
-       ), audited as (
-         insert into audit_log (user_id, action, entity, entity_id, before, after)
-         select $1::int, 'withdraw', 'student', gone.id::text, jsonb_build_object('status', 'active'),
-           jsonb_build_object('status', 'withdrawn', 'student_number', gone.student_number)
-         from gone
-       )
-       select count(*)::int as count from gone`,
-      [userId, studentIds, schoolYearId],
-    );
-    withdrawn = row!.count;
-  }
+  const withdrawn =
+    studentIds.length > 0
+      ? await withdrawStudents(
+          session,
+          's.student_number = any($2::text[])',
+          studentIds,
+          schoolYearId,
+          userId,
+        )
+      : 0;
   let ended = 0;
   if (endedSeats.length > 0 && schoolYearId !== null) {
     const [row] = await session.query<{ count: number }>(

@@ -118,22 +118,16 @@ async function dependentWorkBlockers(session: SqlSession, importId: number): Pro
     [importId],
   );
   const { pass_offs, loans, takes, accounts, students_edited, seats_edited } = depends!;
-  if (pass_offs > 0)
-    blockers.push(
-      `${plural(pass_offs, 'pass-off has', 'pass-offs have')} since been recorded on students this import created.`,
-    );
-  if (loans > 0)
-    blockers.push(
-      `${plural(loans, 'loan has', 'loans have')} since been made to students this import created.`,
-    );
-  if (takes > 0)
-    blockers.push(
-      `${plural(takes, 'take has', 'takes have')} since been recorded by students this import created.`,
-    );
-  if (accounts > 0)
-    blockers.push(
-      `${plural(accounts, 'sign-in account has', 'sign-in accounts have')} since been made for students this import created.`,
-    );
+  // What was added since for students the import created: [count, one, many, how it came].
+  const sinceCreated: [number, string, string, string][] = [
+    [pass_offs, 'pass-off has', 'pass-offs have', 'been recorded on'],
+    [loans, 'loan has', 'loans have', 'been made to'],
+    [takes, 'take has', 'takes have', 'been recorded by'],
+    [accounts, 'sign-in account has', 'sign-in accounts have', 'been made for'],
+  ];
+  for (const [count, one, many, how] of sinceCreated)
+    if (count > 0)
+      blockers.push(`${plural(count, one, many)} since ${how} students this import created.`);
   if (students_edited > 0)
     blockers.push(
       `${plural(students_edited, 'student', 'students')} this import wrote ${students_edited === 1 ? 'has' : 'have'} been edited since.`,

@@ -297,11 +297,32 @@ export async function withdrawMissing(
   schoolYearId: number | null,
   userId: number | null,
 ) {
+  return withdrawStudents(
+    session,
+    `s.school_id = any($2::int[])
+         and not exists (select 1 from import_listed l where l.student_number = s.student_number)`,
+    schoolIds,
+    schoolYearId,
+    userId,
+  );
+}
+
+/**
+ * Withdraws the active students that `which` picks (a condition on `students s`, with `$2` the
+ * list it takes) and ends their seats of the year, each with a journal row (so undoing the import
+ * makes them active again) and an audit entry; answers how many students were withdrawn.
+ */
+export async function withdrawStudents(
+  session: SqlSession,
+  which: string,
+  list: unknown[],
+  schoolYearId: number | null,
+  userId: number | null,
+): Promise<number> {
   const [row] = await session.query<{ count: number }>(
     `with gone as (
        update students s set status = 'withdrawn', version = s.version + 1, updated_at = now()
-       where s.school_id = any($2::int[]) and s.status = 'active'
-         and not exists (select 1 from import_listed l where l.student_number = s.student_number)
+       where ${which} and s.status = 'active'
        returning s.id, s.student_number, s.version
      ), unseated as (
        update enrollments en set active = false, version = en.version + 1, updated_at = now()
@@ -312,15 +333,14 @@ export async function withdrawMissing(
        select 'student-withdrawn', id, null, null, jsonb_build_object('status', 'active'), version from gone
        union all
        select 'seat-ended', student_id, id, ensemble_id, jsonb_build_object('active', true), version from unseated
-     )
-     , audited as (
+     ), audited as (
        insert into audit_log (user_id, action, entity, entity_id, before, after)
        select $1::int, 'withdraw', 'student', gone.id::text, jsonb_build_object('status', 'active'),
          jsonb_build_object('status', 'withdrawn', 'student_number', gone.student_number)
        from gone
      )
      select count(*)::int as count from gone`,
-    [userId, schoolIds, schoolYearId],
+    [userId, list, schoolYearId],
   );
   return row!.count;
 }
