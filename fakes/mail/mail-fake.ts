@@ -1,5 +1,5 @@
 import { createServer, type Server } from 'node:http';
-import type { AddressInfo, Server as NetServer } from 'node:net';
+import { listen } from '../listen.js';
 import type { CaughtMessage } from './caught-message.js';
 import { createMailboxApp } from './mailbox-http.js';
 import { MailboxStore } from './mailbox-store.js';
@@ -29,16 +29,6 @@ export interface MailFake {
   clear(): void;
   /** Stops both servers. */
   close(): Promise<void>;
-}
-
-function listen(server: NetServer, port: number): Promise<number> {
-  return new Promise((resolve, reject) => {
-    server.once('error', reject);
-    server.listen(port, '127.0.0.1', () => {
-      server.off('error', reject);
-      resolve((server.address() as AddressInfo).port);
-    });
-  });
 }
 
 function closeHttp(server: Server): Promise<void> {

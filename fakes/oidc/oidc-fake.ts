@@ -1,5 +1,5 @@
-import { createServer, type Server } from 'node:http';
-import type { AddressInfo } from 'node:net';
+import { createServer } from 'node:http';
+import { listen } from '../listen.js';
 import express from 'express';
 import { demoAccounts, type FakeAccount } from './demo-accounts.js';
 import { createInteractionRoutes } from './interaction-routes.js';
@@ -38,16 +38,6 @@ export interface OidcFake {
 export const defaultClients: FakeClient[] = [
   { clientId: 'tuttiboard', clientSecret: 'tuttiboard-local-secret' },
 ];
-
-function listen(server: Server, port: number): Promise<number> {
-  return new Promise((resolve, reject) => {
-    server.once('error', reject);
-    server.listen(port, '127.0.0.1', () => {
-      server.off('error', reject);
-      resolve((server.address() as AddressInfo).port);
-    });
-  });
-}
 
 /**
  * Starts an OpenID Connect identity provider on 127.0.0.1 that stands in for the district's
