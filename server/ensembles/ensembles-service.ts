@@ -12,6 +12,7 @@ import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
 import { createThenRead, insertAudited, updateAudited } from '../core/versioned-update';
+import { assertDistrictSchool } from '../schools/school-exists';
 import { instrumentName, scorePosition } from '../enrollments/instrument-order';
 import { findCurrentSchoolYear } from '../enrollments/school-year';
 import { ensembleColumns, toEnsemble, type EnsembleRecord } from './ensemble-row';
@@ -136,15 +137,7 @@ export async function createEnsemble(
   return createThenRead(
     db,
     async (tx) => {
-      const [school] = await tx
-        .select({ id: schools.id })
-        .from(schools)
-        .where(eq(schools.id, input.schoolId));
-      if (!school) {
-        throw badRequest('There is no such school.', [
-          { field: 'schoolId', message: 'Choose one of the district’s schools.' },
-        ]);
-      }
+      await assertDistrictSchool(tx, input.schoolId, 'schoolId');
       await assertNameFree(tx, input.schoolId, input.name);
       if (input.directorUserId !== null) {
         await assertDirectorFits(tx, input.schoolId, input.directorUserId);

@@ -1,11 +1,12 @@
 import { and, eq, inArray, sql } from 'drizzle-orm';
 import type { StudentDetail, StudentMove } from '@shared/api/student';
 import type { Database, Transaction } from '../db/client';
-import { enrollments, ensembles, schoolMoves, schools, students } from '../db/schema/index';
+import { enrollments, ensembles, schoolMoves, students } from '../db/schema/index';
 import { recordAudit } from '../core/audit';
 import { badRequest } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
 import { updateVersioned } from '../core/versioned-update';
+import { assertDistrictSchool } from '../schools/school-exists';
 import { findVisibleStudent, getStudent } from './students-service';
 
 type VisibleStudent = Awaited<ReturnType<typeof findVisibleStudent>>;
@@ -22,15 +23,7 @@ async function assertDestination(
       [{ field: 'toSchoolId', message: 'Choose a different school.' }],
     );
   }
-  const [destination] = await tx
-    .select({ id: schools.id })
-    .from(schools)
-    .where(eq(schools.id, move.toSchoolId));
-  if (!destination) {
-    throw badRequest('There is no such school.', [
-      { field: 'toSchoolId', message: 'Choose one of the district’s schools.' },
-    ]);
-  }
+  await assertDistrictSchool(tx, move.toSchoolId, 'toSchoolId');
 }
 
 /** Ends (keeps, marks inactive) the student's active seats in a school's ensembles. */

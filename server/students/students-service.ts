@@ -20,6 +20,7 @@ import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { assertInScope, type Actor } from '../core/policy';
 import { createThenRead, insertAudited, updateAudited } from '../core/versioned-update';
+import { assertDistrictSchool } from '../schools/school-exists';
 import { instrumentName } from '../enrollments/instrument-order';
 import { findCurrentSchoolYear } from '../enrollments/school-year';
 import { seatSummaries } from './student-seats';
@@ -170,15 +171,7 @@ export async function createStudent(
   input: StudentInput,
 ): Promise<StudentDetail> {
   assertInScope(actor, input.schoolId, 'That school');
-  const [school] = await db
-    .select({ id: schools.id })
-    .from(schools)
-    .where(eq(schools.id, input.schoolId));
-  if (!school) {
-    throw badRequest('There is no such school.', [
-      { field: 'schoolId', message: 'Choose one of the district’s schools.' },
-    ]);
-  }
+  await assertDistrictSchool(db, input.schoolId, 'schoolId');
   return createThenRead(
     db,
     async (tx) => {
