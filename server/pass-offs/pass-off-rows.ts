@@ -1,4 +1,4 @@
-import { eq, inArray, sql, type SQL } from 'drizzle-orm';
+import { count, eq, inArray, sql, type SQL } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import type { PassOff, PassOffStanding, Recording } from '@shared/api/pass-off';
 import {
@@ -50,6 +50,15 @@ export function selectPassOffs(db: Queryable) {
     .innerJoin(students, eq(students.id, passOffs.studentId))
     .leftJoin(heardBy, eq(heardBy.id, passOffs.heardBy))
     .leftJoin(passOffRecordings, eq(passOffRecordings.id, passOffs.recordingId));
+}
+
+/** How many pass-offs a filter on `selectPassOffs` matches (it may name the student's columns). */
+export function countPassOffs(db: Queryable, where: SQL | undefined) {
+  return db
+    .select({ total: count() })
+    .from(passOffs)
+    .innerJoin(students, eq(students.id, passOffs.studentId))
+    .where(where);
 }
 
 type PassOffRow = Awaited<ReturnType<typeof selectPassOffs>>[number];

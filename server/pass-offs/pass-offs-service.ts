@@ -1,4 +1,4 @@
-import { and, count, desc, eq, exists, gte, lte, sql, type SQL } from 'drizzle-orm';
+import { and, desc, eq, exists, gte, lte, sql, type SQL } from 'drizzle-orm';
 import { oneByOne, type Database, type Transaction } from '../db/client';
 import { enrollments, passOffs, students } from '../db/schema/index';
 import type { ListResponse } from '@shared/api/list';
@@ -12,6 +12,7 @@ import { countWeeks, recomputeAttainment } from '../ladder/attainment';
 import {
   ladderContext,
   maySeeStudent,
+  countPassOffs,
   selectPassOffs,
   studentScopeCondition,
   toPassOff,
@@ -66,11 +67,7 @@ export async function listPassOffs(
       list,
       orderFor(list.sort, sortable, 'heardOn:desc', passOffs.id),
       selectPassOffs(db).where(where).$dynamic(),
-      db
-        .select({ total: count() })
-        .from(passOffs)
-        .innerJoin(students, eq(students.id, passOffs.studentId))
-        .where(where),
+      countPassOffs(db, where),
       (row) => row,
     ),
     ladderContext(db),
