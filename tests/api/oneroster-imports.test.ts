@@ -68,6 +68,16 @@ async function students(...numbers: string[]): Promise<StudentState[]> {
   );
 }
 
+/** A student as `students()` reads them: active with no preferred name unless `more` says otherwise. */
+function studentState(
+  student_number: string,
+  code: string,
+  seats: string[] | null,
+  more: Partial<StudentState> = {},
+): StudentState {
+  return { student_number, status: 'active', preferred_name: null, code, seats, ...more };
+}
+
 const app = useTestApp({ signIn: ['coordinator', ...allButCoordinator] }, 120_000);
 const { coordinator } = app.clients;
 
@@ -141,34 +151,12 @@ describe('OneRoster bundle imports', () => {
       committed: true,
     });
     expect(await students('mary.jones', 'teo+b@hp', 'Ines.H', 'li.wei', 'gone.student')).toEqual([
-      {
-        student_number: 'Ines.H',
-        status: 'active',
-        preferred_name: null,
-        code: 'QHMS',
-        seats: ['String Orchestra'],
-      },
-      {
-        student_number: 'li.wei',
-        status: 'active',
-        preferred_name: null,
-        code: 'HPMS',
-        seats: null,
-      },
-      {
-        student_number: 'mary.jones',
-        status: 'active',
+      studentState('Ines.H', 'QHMS', ['String Orchestra']),
+      studentState('li.wei', 'HPMS', null),
+      studentState('mary.jones', 'HPMS', ['Flute Choir', 'Symphonic Winds'], {
         preferred_name: 'Molly',
-        code: 'HPMS',
-        seats: ['Flute Choir', 'Symphonic Winds'],
-      },
-      {
-        student_number: 'teo+b@hp',
-        status: 'active',
-        preferred_name: null,
-        code: 'HPMS',
-        seats: ['Symphonic Winds'],
-      },
+      }),
+      studentState('teo+b@hp', 'HPMS', ['Symphonic Winds']),
     ]);
     const mappings = await coordinator.get('/api/oneroster/org-mappings');
     expect(
@@ -196,41 +184,11 @@ describe('OneRoster bundle imports', () => {
       committed: true,
     });
     expect(await students('mary.jones', 'teo+b@hp', 'Ines.H', 'li.wei', 'ada.k')).toEqual([
-      {
-        student_number: 'Ines.H',
-        status: 'active',
-        preferred_name: null,
-        code: 'QHMS',
-        seats: ['String Orchestra'],
-      },
-      {
-        student_number: 'ada.k',
-        status: 'active',
-        preferred_name: null,
-        code: 'HPMS',
-        seats: ['Symphonic Winds'],
-      },
-      {
-        student_number: 'li.wei',
-        status: 'active',
-        preferred_name: null,
-        code: 'HPMS',
-        seats: null,
-      },
-      {
-        student_number: 'mary.jones',
-        status: 'active',
-        preferred_name: 'Mae',
-        code: 'HPMS',
-        seats: ['Symphonic Winds'],
-      },
-      {
-        student_number: 'teo+b@hp',
-        status: 'withdrawn',
-        preferred_name: null,
-        code: 'HPMS',
-        seats: null,
-      },
+      studentState('Ines.H', 'QHMS', ['String Orchestra']),
+      studentState('ada.k', 'HPMS', ['Symphonic Winds']),
+      studentState('li.wei', 'HPMS', null),
+      studentState('mary.jones', 'HPMS', ['Symphonic Winds'], { preferred_name: 'Mae' }),
+      studentState('teo+b@hp', 'HPMS', null, { status: 'withdrawn' }),
     ]);
   });
 

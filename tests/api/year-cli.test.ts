@@ -52,6 +52,18 @@ const footprint = () =>
       )[0]!,
   );
 
+/** The arguments of `year start <name> --starts <first day> --ends <last day>`, then any flags. */
+const yearStart = (name: string, starts: string, ends: string, ...flags: string[]) => [
+  'year',
+  'start',
+  name,
+  '--starts',
+  starts,
+  '--ends',
+  ends,
+  ...flags,
+];
+
 const contractKeys = [
   'year',
   'students',
@@ -71,38 +83,17 @@ describe('tutti year start', () => {
     const before = await footprint();
     const cases: [string[], string][] = [
       [['year', 'start', '2027-28', '--starts', '2027-08-16'], '--ends'],
-      [['year', 'start', '2027-28', '--starts', '2027-08-16', '--ends', '2027-13-01'], '--ends'],
-      [
-        ['year', 'start', '2027-28', '--starts', '2028-06-09', '--ends', '2027-08-16'],
-        'first day comes before',
-      ],
+      [yearStart('2027-28', '2027-08-16', '2027-13-01'), '--ends'],
+      [yearStart('2027-28', '2028-06-09', '2027-08-16'), 'first day comes before'],
       [['year', 'start', '--starts', '2027-08-16', '--ends', '2028-06-09'], 'Name exactly one'],
       [
-        [
-          'year',
-          'start',
-          '2027-28',
-          '--starts',
-          '2027-08-16',
-          '--ends',
-          '2028-06-09',
-          '--promote-all',
-        ],
+        yearStart('2027-28', '2027-08-16', '2028-06-09', '--promote-all'),
         "Unknown option '--promote-all'",
       ],
       [['year', 'finish', '2027-28'], 'Unknown year command'],
-      [
-        ['year', 'start', '2026-27', '--starts', '2030-08-16', '--ends', '2031-06-09'],
-        'already exists',
-      ],
-      [
-        ['year', 'start', '2027-28', '--starts', '2027-06-01', '--ends', '2028-06-09'],
-        'overlaps 2026-27',
-      ],
-      [
-        ['year', 'start', '2024-25', '--starts', '2024-08-19', '--ends', '2025-06-13', '--json'],
-        'must start after',
-      ],
+      [yearStart('2026-27', '2030-08-16', '2031-06-09'), 'already exists'],
+      [yearStart('2027-28', '2027-06-01', '2028-06-09'), 'overlaps 2026-27'],
+      [yearStart('2024-25', '2024-08-19', '2025-06-13', '--json'), 'must start after'],
     ];
     for (const [args, reason] of cases) {
       const run = await runTutti(args, environment);
@@ -118,17 +109,7 @@ describe('tutti year start', () => {
       expectedStart(await readRosterBefore(handle), '2027-08-16'),
     );
     const run = await runTutti(
-      [
-        'year',
-        'start',
-        '2027-28',
-        '--starts',
-        '2027-08-16',
-        '--ends',
-        '2028-06-09',
-        '--dry-run',
-        '--json',
-      ],
+      yearStart('2027-28', '2027-08-16', '2028-06-09', '--dry-run', '--json'),
       environment,
     );
     expect(run.code, run.stderr).toBe(0);
@@ -173,7 +154,7 @@ describe('tutti year start', () => {
       expectedStart(await readRosterBefore(handle), '2027-08-16'),
     );
     const run = await runTutti(
-      ['year', 'start', '2027-28', '--starts', '2027-08-16', '--ends', '2028-06-09', '--json'],
+      yearStart('2027-28', '2027-08-16', '2028-06-09', '--json'),
       environment,
     );
     expect(run.code, run.stderr).toBe(0);
@@ -187,7 +168,7 @@ describe('tutti year start', () => {
     );
     expect(years).toEqual([{ name: '2027-28' }]);
     const again = await runTutti(
-      ['year', 'start', '2027-28', '--starts', '2027-08-16', '--ends', '2028-06-09', '--json'],
+      yearStart('2027-28', '2027-08-16', '2028-06-09', '--json'),
       environment,
     );
     expect(again.code).toBe(2);
@@ -196,32 +177,16 @@ describe('tutti year start', () => {
 
   it('should work through a running server, which holds the data folder', async () => {
     server = await startServerProcess(dataDir);
-    const bad = await runTutti(
-      ['year', 'start', '2028-29', '--starts', '2028-01-10', '--ends', '2028-12-01'],
-      environment,
-    );
+    const bad = await runTutti(yearStart('2028-29', '2028-01-10', '2028-12-01'), environment);
     expect(bad.code).toBe(2);
     expect(bad.stderr).toContain('overlaps 2027-28');
     const dry = await runTutti(
-      [
-        'year',
-        'start',
-        '2028-29',
-        '--starts',
-        '2028-08-14',
-        '--ends',
-        '2029-06-08',
-        '--dry-run',
-        '--json',
-      ],
+      yearStart('2028-29', '2028-08-14', '2029-06-08', '--dry-run', '--json'),
       environment,
     );
     expect(dry.code, dry.stderr).toBe(0);
     expect(JSON.parse(dry.stdout).committed).toBe(false);
-    const run = await runTutti(
-      ['year', 'start', '2028-29', '--starts', '2028-08-14', '--ends', '2029-06-08'],
-      environment,
-    );
+    const run = await runTutti(yearStart('2028-29', '2028-08-14', '2029-06-08'), environment);
     expect(run.code, run.stderr).toBe(0);
     expect(run.stdout).toContain('Committed: 2028-29 is the current year');
     await server.stop();
