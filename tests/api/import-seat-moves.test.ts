@@ -1,28 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
 import { describeSeatMoves } from '@shared/roster';
 import { useTestApp } from '../support/test-app';
+import { importSteps } from './imports-app';
 
 const header = 'student_id,first_name,last_name,grade,school_code,ensemble,instrument';
 
 function csvOf(...lines: string[]): Buffer {
   return Buffer.from(`${[header, ...lines].join('\r\n')}\r\n`);
-}
-
-async function previewAndCommit(file: Buffer, skipInvalid = false) {
-  const previewed = await request(app.url)
-    .post('/api/imports/preview')
-    .set({ Cookie: coordinator.cookie, Origin: app.url })
-    .attach('file', file, 'roster.csv');
-  expect(previewed.status).toBe(200);
-  const committed = await coordinator.post('/api/imports/commit', {
-    importToken: previewed.body.importToken,
-    withdrawMissing: false,
-    skipInvalid,
-  });
-  expect(committed.status).toBe(200);
-  return { plan: previewed.body.plan, result: committed.body };
 }
 
 /** The student's current-year seats: ensemble name → active. */
@@ -39,7 +24,7 @@ async function seatsOf(number: string): Promise<Record<string, boolean>> {
 }
 
 const app = useTestApp({ signIn: ['coordinator'] });
-const { coordinator } = app.clients;
+const { previewAndCommit } = importSteps(app, app.clients.coordinator);
 
 describe('Roster import seat moves', () => {
   it('should end the seat a student leaves and say so when a file moves her to another ensemble', async () => {
@@ -57,7 +42,10 @@ describe('Roster import seat moves', () => {
     });
 
     // The next file lists bands only: she moves from Sixth Grade Band to Concert Band.
-    const { plan, result } = await previewAndCommit(
+    const {
+      previewed: { plan },
+      committed: result,
+    } = await previewAndCommit(
       csvOf(
         'MV-2045,Ilse,Varga,6,HPMS,Concert Band,flute',
         'MV-2046,Pim,Oduya,6,HPMS,Sixth Grade Band,clarinet',
@@ -87,7 +75,9 @@ describe('Roster import seat moves', () => {
   });
 
   it('should leave every seat alone when the students rows name no ensemble', async () => {
-    const { plan } = await previewAndCommit(csvOf('MV-2047,Roan,Teller,7,HPMS,,'));
+    const {
+      previewed: { plan },
+    } = await previewAndCommit(csvOf('MV-2047,Roan,Teller,7,HPMS,,'));
     expect(plan).toMatchObject({ updated: 0, unchanged: 1 });
     expect(await seatsOf('MV-2047')).toEqual({ 'Concert Band': true });
   });
@@ -101,13 +91,13 @@ describe('Roster import seat moves', () => {
     );
     // Her orchestra row disagrees on her grade, so it is left out; the orchestra is still
     // spoken of by another student's row.
-    const { result } = await previewAndCommit(
+    const { committed: result } = await previewAndCommit(
       csvOf(
         'MV-2048,Tove,Ranneby,6,HPMS,Sixth Grade Band,oboe',
         'MV-2048,Tove,Ranneby,7,HPMS,String Orchestra,viola',
         'MV-2049,Esko,Larsi,6,HPMS,String Orchestra,cello',
       ),
-      true,
+      { skipInvalid: true },
     );
     expect(result).toMatchObject({ committed: true, created: 1 });
     expect(result.errors).toHaveLength(1);

@@ -1,7 +1,12 @@
 import { expect } from 'vitest';
 import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
-import { allButCoordinator, useTestApp, type SignedInClient } from '../support/test-app';
+import {
+  allButCoordinator,
+  useTestApp,
+  type SignedInClient,
+  type TestApp,
+} from '../support/test-app';
 
 export const header =
   'student_id,first_name,last_name,preferred_name,grade,school_code,ensemble,instrument,guardian_name,guardian_email';
@@ -17,6 +22,11 @@ export function csvOf(...lines: string[]): Buffer {
 export function useImportsApp() {
   const app = useTestApp({ signIn: ['coordinator', ...allButCoordinator] });
   const { coordinator } = app.clients;
+  return { app, coordinator, ...importSteps(app, coordinator) };
+}
+
+/** The steps of a roster import test on a running app, the file committed by `coordinator`. */
+export function importSteps(app: TestApp, coordinator: SignedInClient) {
   /** Uploads a roster as the wizard does: multipart, the file in the field `file`. */
   function preview(
     client: SignedInClient,
@@ -76,5 +86,5 @@ export function useImportsApp() {
     return row;
   }
 
-  return { app, coordinator, preview, previewAndCommit, query, tableCount, student };
+  return { preview, previewAndCommit, query, tableCount, student };
 }

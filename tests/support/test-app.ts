@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import type { AddressInfo } from 'node:net';
-import { afterAll, beforeAll, inject } from 'vitest';
+import { afterAll, beforeAll, expect, inject } from 'vitest';
 import request from 'supertest';
 import { createApp } from '../../server/app';
 import { loadConfig, type Config } from '../../server/config';
@@ -94,6 +94,23 @@ export const allButCoordinator = [
   'technician',
   'student.hpms',
 ] as const;
+
+/**
+ * Sends the requests `send` makes as each user of `allButCoordinator` and expects 403 to every
+ * one of them (server/core/policy.ts: these routes are the coordinator's alone).
+ */
+export async function expectCoordinatorOnly(
+  app: { clients: Record<(typeof allButCoordinator)[number], SignedInClient> },
+  send: (client: SignedInClient) => PromiseLike<{ status: number }>[],
+): Promise<void> {
+  for (const local of allButCoordinator) {
+    const answers = await Promise.all(send(app.clients[local]));
+    expect(
+      answers.map((answer) => answer.status),
+      local,
+    ).toEqual(answers.map(() => 403));
+  }
+}
 
 /** How a test file's app starts: `startTestApp` and `useTestApp` take the same options. */
 export interface TestAppOptions<Name extends string> {
