@@ -4,7 +4,12 @@ import { gunzipSync } from 'node:zlib';
 import { rowsOf } from '../../server/db/client';
 import { studentCountDrift } from '../support/student-counts';
 import { startTestApp, type SignedInClient, type TestApp } from '../support/test-app';
-import { expectedStart, readRosterBefore } from '../support/year-start-expectation';
+import {
+  carriedSeatPairs,
+  expectedStart,
+  readRosterBefore,
+  seatsOfYear,
+} from '../support/year-start-expectation';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -37,6 +42,10 @@ async function footprint() {
   return row!;
 }
 
+/** Adds a school year as the form does: `POST /api/school-years` with its name and first and last days. */
+const addYear = (client: SignedInClient, name: string, startsOn: string, endsOn: string) =>
+  client.post('/api/school-years', { name, startsOn, endsOn });
+
 describe('School years', () => {
   it('should list the years to every signed-in role with exactly one current', async () => {
     for (const client of [coordinator, director, student]) {
@@ -55,52 +64,20 @@ describe('School years', () => {
 
   it('should let only the coordinator add a year, not current, and refuse bad, overlapping or named-twice years', async () => {
     const before = await footprint();
-    expect(
-      (
-        await director.post('/api/school-years', {
-          name: '2024-25',
-          startsOn: '2024-08-19',
-          endsOn: '2025-06-13',
-        })
-      ).status,
-    ).toBe(403);
-    const badDates = await coordinator.post('/api/school-years', {
-      name: '2024-25',
-      startsOn: '2025-06-13',
-      endsOn: '2024-08-19',
-    });
+    expect((await addYear(director, '2024-25', '2024-08-19', '2025-06-13')).status).toBe(403);
+    const badDates = await addYear(coordinator, '2024-25', '2025-06-13', '2024-08-19');
     expect(badDates.status).toBe(400);
     expect(badDates.body.error.fieldErrors[0].field).toBe('endsOn');
-    expect(
-      (
-        await coordinator.post('/api/school-years', {
-          name: '2024-25',
-          startsOn: '2024-02-30',
-          endsOn: '2025-06-13',
-        })
-      ).status,
-    ).toBe(400);
-    const overlapping = await coordinator.post('/api/school-years', {
-      name: '2024-25',
-      startsOn: '2024-08-19',
-      endsOn: '2026-09-01',
-    });
+    expect((await addYear(coordinator, '2024-25', '2024-02-30', '2025-06-13')).status).toBe(400);
+    const overlapping = await addYear(coordinator, '2024-25', '2024-08-19', '2026-09-01');
     expect(overlapping.status).toBe(400);
     expect(overlapping.body.error.message).toContain('overlaps 2026-27');
-    const twice = await coordinator.post('/api/school-years', {
-      name: '2026-27',
-      startsOn: '2030-08-19',
-      endsOn: '2031-06-01',
-    });
+    const twice = await addYear(coordinator, '2026-27', '2030-08-19', '2031-06-01');
     expect(twice.status).toBe(400);
     expect(twice.body.error.message).toContain('already exists');
     expect(await footprint()).toEqual(before);
 
-    const created = await coordinator.post('/api/school-years', {
-      name: '2024-25',
-      startsOn: '2024-08-19',
-      endsOn: '2025-06-13',
-    });
+    const created = await addYear(coordinator, '2024-25', '2024-08-19', '2025-06-13');
     expect(created.status).toBe(201);
     expect(created.body).toMatchObject({ name: '2024-25', current: false, past: true });
     const renamed = await coordinator.patch(`/api/school-years/${created.body.id}`, {
@@ -339,14 +316,7 @@ describe('Starting a new school year', () => {
     );
     expect(history!.count).toBe(expected.counts.students);
     // Seats: the continuing students' seats are in the new year; the old year's are untouched.
-    const newSeats = await query<{ student_id: number; ensemble_id: number }>(
-      `select student_id, ensemble_id from enrollments en join school_years y on y.id = en.school_year_id where y.name = '2027-28' order by 1, 2`,
-    );
-    expect(newSeats).toEqual(
-      expected.carriedSeats
-        .map((seat) => ({ student_id: seat.studentId, ensemble_id: seat.ensembleId }))
-        .sort((a, b) => a.student_id - b.student_id || a.ensemble_id - b.ensemble_id),
-    );
+    expect(await seatsOfYear(app.database, '2027-28')).toEqual(carriedSeatPairs(expected));
     expect(
       await query(
         `select * from enrollments where school_year_id = ${before.currentYear.id} order by id`,

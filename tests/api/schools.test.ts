@@ -124,20 +124,13 @@ describe('Schools', () => {
       sendsToSchoolId: created.body.id,
     });
     expect(toItself.status).toBe(400);
-    const nowhere = await coordinator.post('/api/schools', {
-      code: 'NOWH',
-      name: 'Nowhere School',
-      level: 'other',
-      sendsToSchoolId: 999999,
-    });
-    expect(nowhere.status).toBe(400);
-    const grade13 = await coordinator.post('/api/schools', {
-      code: 'G13S',
-      name: 'Grade Thirteen',
-      level: 'high',
-      highestGrade: 13,
-    });
-    expect(grade13.status).toBe(400);
+    // A school sending its students nowhere known, and a grade past 12: both refused.
+    for (const body of [
+      { code: 'NOWH', name: 'Nowhere School', level: 'other', sendsToSchoolId: 999999 },
+      { code: 'G13S', name: 'Grade Thirteen', level: 'high', highestGrade: 13 },
+    ]) {
+      expect((await coordinator.post('/api/schools', body)).status, body.code).toBe(400);
+    }
     const unchanged = await coordinator.get(`/api/schools/${created.body.id}`);
     expect(unchanged.body.version).toBe(created.body.version);
     // A school another sends its students to is closed, not deleted.

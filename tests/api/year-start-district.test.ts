@@ -7,8 +7,10 @@ import { studentCountDrift } from '../support/student-counts';
 import { rungCountDrift } from '../support/rung-counts';
 import { startTestApp, type TestApp } from '../support/test-app';
 import {
+  carriedSeatPairs,
   expectedStart,
   readRosterBefore,
+  seatsOfYear,
   type RosterBefore,
 } from '../support/year-start-expectation';
 import { plainMedian } from '../support/plain-median';
@@ -196,14 +198,7 @@ describe('Starting a year in a 2,000-student district', () => {
       );
     });
     expect(wrong).toEqual([]);
-    const newSeats = await query<{ student_id: number; ensemble_id: number }>(
-      `select student_id, ensemble_id from enrollments en join school_years y on y.id = en.school_year_id where y.name = '2027-28' order by 1, 2`,
-    );
-    expect(newSeats).toEqual(
-      expected.carriedSeats
-        .map((seat) => ({ student_id: seat.studentId, ensemble_id: seat.ensembleId }))
-        .sort((a, b) => a.student_id - b.student_id || a.ensemble_id - b.ensemble_id),
-    );
+    expect(await seatsOfYear(app.database, '2027-28')).toEqual(carriedSeatPairs(expected));
     const history = await query<{
       student_id: number;
       outcome: string;

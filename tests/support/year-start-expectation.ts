@@ -109,3 +109,25 @@ export function expectedStart(before: RosterBefore, startsOn: string, emptyEnsem
     },
   };
 }
+
+/** A seat as (student, ensemble), the shape `seatsOfYear` reads and `carriedSeatPairs` plans. */
+export interface SeatPair {
+  student_id: number;
+  ensemble_id: number;
+}
+
+/** The seats of the school year named `yearName`, sorted by student then ensemble. */
+export async function seatsOfYear(database: DatabaseHandle, yearName: string): Promise<SeatPair[]> {
+  return rowsOf<SeatPair>(
+    await database.db.execute(
+      `select student_id, ensemble_id from enrollments en join school_years y on y.id = en.school_year_id where y.name = '${yearName}' order by 1, 2` as never,
+    ),
+  );
+}
+
+/** The seats the plain computation carries into the new year, in `seatsOfYear`'s order. */
+export function carriedSeatPairs(expected: ReturnType<typeof expectedStart>): SeatPair[] {
+  return expected.carriedSeats
+    .map((seat) => ({ student_id: seat.studentId, ensemble_id: seat.ensembleId }))
+    .sort((a, b) => a.student_id - b.student_id || a.ensemble_id - b.ensemble_id);
+}
