@@ -4,6 +4,10 @@ import { useTestApp } from '../support/test-app';
 const app = useTestApp({ signIn: ['coordinator', 'director.hpms', 'viewer.trhs'] });
 const { coordinator, 'director.hpms': director, 'viewer.trhs': viewer } = app.clients;
 
+/** Adds a school as the coordinator: `POST /api/schools` with its code, name and level, and any more fields. */
+const addSchool = (code: string, name: string, level: string, more: object = {}) =>
+  coordinator.post('/api/schools', { code, name, level, ...more });
+
 describe('Schools', () => {
   it('should list only the director’s own schools when a director asks', async () => {
     const response = await director.get('/api/schools');
@@ -47,11 +51,7 @@ describe('Schools', () => {
   });
 
   it('should answer 400 with field errors and change nothing when the input is bad', async () => {
-    const response = await coordinator.post('/api/schools', {
-      code: 'x',
-      name: '',
-      level: 'university',
-    });
+    const response = await addSchool('x', '', 'university');
     expect(response.status).toBe(400);
     const fields = response.body.error.fieldErrors.map((error: { field: string }) => error.field);
     expect(fields).toEqual(expect.arrayContaining(['code', 'name', 'level']));
@@ -59,11 +59,7 @@ describe('Schools', () => {
   });
 
   it('should answer 409 when an edit starts from a stale version', async () => {
-    const created = await coordinator.post('/api/schools', {
-      code: 'LKES',
-      name: 'Larkmoor Elementary',
-      level: 'elementary',
-    });
+    const created = await addSchool('LKES', 'Larkmoor Elementary', 'elementary');
     expect(created.status).toBe(201);
     const id = created.body.id;
     const first = await coordinator.patch(`/api/schools/${id}`, {
@@ -83,11 +79,7 @@ describe('Schools', () => {
   });
 
   it('should record who changed a school in the audit log', async () => {
-    const created = await coordinator.post('/api/schools', {
-      code: 'AUDT',
-      name: 'Audit Test School',
-      level: 'other',
-    });
+    const created = await addSchool('AUDT', 'Audit Test School', 'other');
     const result = await app.database.db.execute(
       `select a.action, u.email from audit_log a join users u on u.id = a.user_id where a.entity = 'school' and a.entity_id = '${Number(created.body.id)}'` as never,
     );
@@ -97,10 +89,7 @@ describe('Schools', () => {
   });
 
   it('should keep the grades served and the school students move up to, and refuse bad ones', async () => {
-    const created = await coordinator.post('/api/schools', {
-      code: 'KVES',
-      name: 'Kestrel Valley Elementary',
-      level: 'elementary',
+    const created = await addSchool('KVES', 'Kestrel Valley Elementary', 'elementary', {
       lowestGrade: 0,
       highestGrade: 5,
       sendsToSchoolId: app.schoolIds['HPMS'],
@@ -134,17 +123,8 @@ describe('Schools', () => {
     const unchanged = await coordinator.get(`/api/schools/${created.body.id}`);
     expect(unchanged.body.version).toBe(created.body.version);
     // A school another sends its students to is closed, not deleted.
-    const target = await coordinator.post('/api/schools', {
-      code: 'TGTM',
-      name: 'Target Middle',
-      level: 'middle',
-    });
-    await coordinator.post('/api/schools', {
-      code: 'FDRE',
-      name: 'Feeder Elementary',
-      level: 'elementary',
-      sendsToSchoolId: target.body.id,
-    });
+    const target = await addSchool('TGTM', 'Target Middle', 'middle');
+    await addSchool('FDRE', 'Feeder Elementary', 'elementary', { sendsToSchoolId: target.body.id });
     const deleted = await coordinator.delete(`/api/schools/${target.body.id}`);
     expect(deleted.status).toBe(400);
     expect(deleted.body.error.message).toContain(
@@ -153,11 +133,7 @@ describe('Schools', () => {
   });
 
   it('should close a school and open it again, and list open and closed schools apart', async () => {
-    const created = await coordinator.post('/api/schools', {
-      code: 'CLSD',
-      name: 'Closing Elementary',
-      level: 'elementary',
-    });
+    const created = await addSchool('CLSD', 'Closing Elementary', 'elementary');
     const closed = await coordinator.patch(`/api/schools/${created.body.id}`, {
       version: created.body.version,
       closedOn: '2026-06-12',
@@ -168,10 +144,7 @@ describe('Schools', () => {
     expect(open.body.rows.map((row: { code: string }) => row.code)).not.toContain('CLSD');
     const closedList = await coordinator.get('/api/schools?status=closed&limit=100');
     expect(closedList.body.rows.map((row: { code: string }) => row.code)).toEqual(['CLSD']);
-    const sendToClosed = await coordinator.post('/api/schools', {
-      code: 'FEED',
-      name: 'Feeder School',
-      level: 'elementary',
+    const sendToClosed = await addSchool('FEED', 'Feeder School', 'elementary', {
       sendsToSchoolId: created.body.id,
     });
     expect(sendToClosed.status).toBe(400);
