@@ -1,7 +1,7 @@
 import { sql } from 'drizzle-orm';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
-import { demoEmail, useTestApp, byRole, everyRole } from '../support/test-app';
+import { demoEmail, useTestApp, byRole, everyRole, type SignedInClient } from '../support/test-app';
 
 interface Seat {
   id: number;
@@ -45,6 +45,15 @@ beforeAll(async () => {
   });
   jazzLabId = jazzLab.body.id;
 });
+
+/** Seats a student as `client`: `POST /api/enrollments` with the student, ensemble and instrument, and any more fields. */
+const seatStudent = (
+  client: SignedInClient,
+  studentId: number,
+  ensembleId: number,
+  instrumentId: string,
+  more: object = {},
+) => client.post('/api/enrollments', { studentId, ensembleId, instrumentId, ...more });
 
 describe('Enrollments', () => {
   it('should list seats of the director’s school only, with filters', async () => {
@@ -103,20 +112,13 @@ describe('Enrollments', () => {
     ).toBe(403);
     expect((await viewer.delete(`/api/enrollments/${seat.id}`)).status).toBe(403);
     const trhsStudent = await activeStudentOf('TRHS');
-    const post = await viewer.post('/api/enrollments', {
-      studentId: trhsStudent.id,
-      ensembleId: seat.ensembleId,
-      instrumentId: 'flute',
-    });
+    const post = await seatStudent(viewer, trhsStudent.id, seat.ensembleId, 'flute');
     expect(post.status).toBe(403);
   });
 
   it('should seat a student for the current year, change the seat and answer 409 when stale', async () => {
     const hpmsStudent = await activeStudentOf('HPMS', 3);
-    const created = await director.post('/api/enrollments', {
-      studentId: hpmsStudent.id,
-      ensembleId: jazzLabId,
-      instrumentId: 'tenor-sax',
+    const created = await seatStudent(director, hpmsStudent.id, jazzLabId, 'tenor-sax', {
       part: 'Tenor 1',
       chair: 1,
     });
@@ -160,11 +162,7 @@ describe('Enrollments', () => {
     expect(ended.body.active).toBe(false);
     expect((await director.get(`/api/enrollments/${created.body.id}`)).body.chair).toBe(2);
 
-    const again = await director.post('/api/enrollments', {
-      studentId: hpmsStudent.id,
-      ensembleId: jazzLabId,
-      instrumentId: 'tenor-sax',
-    });
+    const again = await seatStudent(director, hpmsStudent.id, jazzLabId, 'tenor-sax');
     expect(again.status).toBe(400);
     expect(again.body.error.fieldErrors[0].field).toBe('ensembleId');
 
@@ -181,10 +179,7 @@ describe('Enrollments', () => {
   it('should answer 400 with the field and seat nobody when the instrument is not a known id', async () => {
     const before = await seatCount();
     const hpmsStudent = await activeStudentOf('HPMS', 4);
-    const response = await director.post('/api/enrollments', {
-      studentId: hpmsStudent.id,
-      ensembleId: jazzLabId,
-      instrumentId: 'kazoo',
+    const response = await seatStudent(director, hpmsStudent.id, jazzLabId, 'kazoo', {
       chair: 'first',
     });
     expect(response.status).toBe(400);
@@ -201,18 +196,10 @@ describe('Enrollments', () => {
   it('should refuse a seat across schools or outside the director’s schools', async () => {
     const before = await seatCount();
     const quarryStudent = await activeStudentOf('QHMS');
-    const acrossSchools = await coordinator.post('/api/enrollments', {
-      studentId: quarryStudent.id,
-      ensembleId: jazzLabId,
-      instrumentId: 'trumpet',
-    });
+    const acrossSchools = await seatStudent(coordinator, quarryStudent.id, jazzLabId, 'trumpet');
     expect(acrossSchools.status).toBe(400);
     expect(acrossSchools.body.error.fieldErrors[0].field).toBe('ensembleId');
-    const outside = await director.post('/api/enrollments', {
-      studentId: quarryStudent.id,
-      ensembleId: jazzLabId,
-      instrumentId: 'trumpet',
-    });
+    const outside = await seatStudent(director, quarryStudent.id, jazzLabId, 'trumpet');
     expect(outside.status).toBe(404);
     const quarrySeat = await coordinator.get(`/api/enrollments?studentId=${quarryStudent.id}`);
     const seat = quarrySeat.body.rows[0] as Seat;
@@ -231,11 +218,7 @@ describe('Enrollments', () => {
       status: 'withdrawn',
       version: hpmsStudent.version,
     });
-    const response = await director.post('/api/enrollments', {
-      studentId: hpmsStudent.id,
-      ensembleId: jazzLabId,
-      instrumentId: 'flute',
-    });
+    const response = await seatStudent(director, hpmsStudent.id, jazzLabId, 'flute');
     expect(response.status).toBe(400);
     expect(response.body.error.fieldErrors[0].field).toBe('studentId');
   });
