@@ -173,21 +173,19 @@ describe('Ensembles', () => {
     expect(bad.body.error.fieldErrors.map((error: { field: string }) => error.field)).toEqual(
       expect.arrayContaining(['name', 'kind']),
     );
-    const duplicate = await coordinator.post('/api/ensembles', {
-      schoolId: app.schoolIds['HPMS'],
-      name: 'Concert Band',
-      kind: 'concert-band',
-    });
-    expect(duplicate.status).toBe(400);
-    expect(duplicate.body.error.fieldErrors[0].field).toBe('name');
-    const wrongDirector = await coordinator.post('/api/ensembles', {
-      schoolId: app.schoolIds['HPMS'],
-      name: 'Flute Choir',
-      kind: 'concert-band',
-      directorUserId: userIds['director.qhms'],
-    });
-    expect(wrongDirector.status).toBe(400);
-    expect(wrongDirector.body.error.fieldErrors[0].field).toBe('directorUserId');
+    // A name the school already has, and a director of another school: each refused on its field.
+    const hpms = { schoolId: app.schoolIds['HPMS'], kind: 'concert-band' };
+    for (const [body, field] of [
+      [{ ...hpms, name: 'Concert Band' }, 'name'],
+      [
+        { ...hpms, name: 'Flute Choir', directorUserId: userIds['director.qhms'] },
+        'directorUserId',
+      ],
+    ] as const) {
+      const answer = await coordinator.post('/api/ensembles', body);
+      expect(answer.status, field).toBe(400);
+      expect(answer.body.error.fieldErrors[0].field).toBe(field);
+    }
     const elsewhere = await director.post('/api/ensembles', {
       schoolId: app.schoolIds['QHMS'],
       name: 'Flute Choir',
