@@ -18,6 +18,13 @@ import {
 } from '../../server/db/schema/index';
 
 /** The ids of the tiny invented district the report tests work on. */
+/** A body for `POST /api/reports/send`: the report's kind and schools over November 2026 (the month the report tests read), and any more fields. */
+export const novemberReport = (
+  kind: 'director' | 'district',
+  schoolIds: number[] | 'all-directors',
+  more: object = {},
+) => ({ kind, schoolIds, from: '2026-11-01', to: '2026-11-30', ...more });
+
 export interface TinyDistrict {
   schoolIds: { HPMS: number; QHMS: number };
   studentIds: Record<string, number>;

@@ -5,7 +5,7 @@ import { outboxMessages, reportRuns, reportSchedules } from '../../server/db/sch
 import { drainOutbox } from '../../server/mail/mail-worker';
 import { runDueSchedules } from '../../server/reports/report-scheduler';
 import { useTestApp } from '../support/test-app';
-import { seedTinyDistrict, type TinyDistrict } from './reports-district';
+import { novemberReport, seedTinyDistrict, type TinyDistrict } from './reports-district';
 
 let district: TinyDistrict;
 const restarted: MailFake[] = [];
@@ -164,12 +164,10 @@ describe('Reports while the mail relay is down', () => {
     await drainOutbox(services());
     const port = Number(new URL(app.mail.smtpUrl).port);
     await app.mail.close();
-    const sent = await coordinator.post('/api/reports/send', {
-      kind: 'director',
-      schoolIds: 'all-directors',
-      from: '2026-11-01',
-      to: '2026-11-30',
-    });
+    const sent = await coordinator.post(
+      '/api/reports/send',
+      novemberReport('director', 'all-directors'),
+    );
     expect(sent.status).toBe(202);
     expect(sent.body.outboxIds).toHaveLength(2);
     await drainOutbox(services());

@@ -5,7 +5,7 @@ import { ladderVersions, passOffs } from '../../server/db/schema/index';
 import { drainOutbox } from '../../server/mail/mail-worker';
 import { restoreNeutralisedCell } from '@shared/roster/roster-csv';
 import { useTestApp } from '../support/test-app';
-import { seedTinyDistrict, type TinyDistrict } from './reports-district';
+import { novemberReport, seedTinyDistrict, type TinyDistrict } from './reports-district';
 
 let district: TinyDistrict;
 
@@ -118,12 +118,7 @@ describe('Director report', () => {
   });
 
   it('should refuse sending when a viewer, a student or a director beyond their own report asks', async () => {
-    const body = {
-      kind: 'director',
-      schoolIds: [district.schoolIds.QHMS],
-      from: '2026-11-01',
-      to: '2026-11-30',
-    };
+    const body = novemberReport('director', [district.schoolIds.QHMS]);
     expect((await viewer.post('/api/reports/send', body)).status).toBe(403);
     expect((await student.post('/api/reports/send', body)).status).toBe(403);
     expect((await director.post('/api/reports/send', body)).status).toBe(404);
@@ -145,12 +140,10 @@ describe('Director report', () => {
   });
 
   it('should mail the report with both parts and attachments that read back to the same rows', async () => {
-    const sent = await coordinator.post('/api/reports/send', {
-      kind: 'director',
-      schoolIds: [district.schoolIds.HPMS],
-      from: '2026-11-01',
-      to: '2026-11-30',
-    });
+    const sent = await coordinator.post(
+      '/api/reports/send',
+      novemberReport('director', [district.schoolIds.HPMS]),
+    );
     expect(sent.status).toBe(202);
     expect(sent.body.outboxIds).toHaveLength(1);
     await drainOutbox(services());
@@ -211,12 +204,10 @@ describe('Director report', () => {
   });
 
   it('should send a director their own report only, to themselves', async () => {
-    const sent = await director.post('/api/reports/send', {
-      kind: 'director',
-      schoolIds: [district.schoolIds.HPMS],
-      from: '2026-11-01',
-      to: '2026-11-30',
-    });
+    const sent = await director.post(
+      '/api/reports/send',
+      novemberReport('director', [district.schoolIds.HPMS]),
+    );
     expect(sent.status).toBe(202);
     const message = await director.get(`/api/outbox/${sent.body.outboxIds[0]}`);
     expect(message.body.to).toEqual(['director.hpms@merrowbasin.example']);
@@ -269,12 +260,10 @@ describe('District summary', () => {
     });
     expect(first.body.data.previous).toBeNull();
 
-    const sent = await coordinator.post('/api/reports/send', {
-      kind: 'district',
-      schoolIds: 'all-directors',
-      from: '2026-11-01',
-      to: '2026-11-30',
-    });
+    const sent = await coordinator.post(
+      '/api/reports/send',
+      novemberReport('district', 'all-directors'),
+    );
     expect(sent.status).toBe(202);
     // One message for each director of the district.
     expect(sent.body.outboxIds).toHaveLength(2);
@@ -303,13 +292,10 @@ describe('District summary', () => {
 describe('A test send', () => {
   it('should send one report to the sender alone, its subject marked as a test, before it goes to the directors', async () => {
     const before = (await coordinator.get('/api/reports?kind=director')).body.total;
-    const sent = await coordinator.post('/api/reports/send', {
-      kind: 'director',
-      schoolIds: 'all-directors',
-      from: '2026-11-01',
-      to: '2026-11-30',
-      test: true,
-    });
+    const sent = await coordinator.post(
+      '/api/reports/send',
+      novemberReport('director', 'all-directors', { test: true }),
+    );
     expect(sent.status).toBe(202);
     expect(sent.body.outboxIds).toHaveLength(1);
     const message = await coordinator.get(`/api/outbox/${sent.body.outboxIds[0]}`);
@@ -317,25 +303,19 @@ describe('A test send', () => {
     expect(message.body.subject).toMatch(/^Test: .+: director report, 2026-11-01 to 2026-11-30$/);
     expect((await coordinator.get('/api/reports?kind=director')).body.total).toBe(before + 1);
     // A director's test goes to themselves, as their sends do.
-    const own = await director.post('/api/reports/send', {
-      kind: 'director',
-      schoolIds: [district.schoolIds.HPMS],
-      from: '2026-11-01',
-      to: '2026-11-30',
-      test: true,
-    });
+    const own = await director.post(
+      '/api/reports/send',
+      novemberReport('director', [district.schoolIds.HPMS], { test: true }),
+    );
     expect(own.status).toBe(202);
     const ownMessage = await director.get(`/api/outbox/${own.body.outboxIds[0]}`);
     expect(ownMessage.body.to).toEqual(['director.hpms@merrowbasin.example']);
     expect(ownMessage.body.subject).toMatch(/^Test: Heron Point Middle/);
     // Not a boolean: refused, nothing queued.
-    const bad = await coordinator.post('/api/reports/send', {
-      kind: 'director',
-      schoolIds: 'all-directors',
-      from: '2026-11-01',
-      to: '2026-11-30',
-      test: 'yes',
-    });
+    const bad = await coordinator.post(
+      '/api/reports/send',
+      novemberReport('director', 'all-directors', { test: 'yes' }),
+    );
     expect(bad.status).toBe(400);
   });
 });
