@@ -178,10 +178,16 @@ export function webPages(webRoot: string | null): WebPages {
     manifest: string | undefined;
     hashes: string[];
   } | null = null;
+  // Every response asks (the CSP header names the script's hash), so the build's index page is
+  // looked at again at most once a second rather than with a file-system call per request.
+  let checkedAt = -Infinity;
   const current = () => {
     if (webRoot === null) return null;
+    const now = Date.now();
+    if (now - checkedAt < 1000) return built;
+    checkedAt = now;
     const indexFile = path.join(webRoot, 'index.html');
-    if (!fs.existsSync(indexFile)) return null;
+    if (!fs.existsSync(indexFile)) return (built = null);
     const stamp = fs.statSync(indexFile).mtimeMs;
     if (built?.stamp === stamp) return built;
     const statsFile = path.join(webRoot, '..', 'stats.json');
