@@ -12,7 +12,7 @@ import { PageState } from '../state/page-state';
 /** How many rows a list table shows a page. */
 export const listTablePageSize = 50;
 
-/** What a list table says: its states, caption and column headings. */
+/** What a list table says: its test id, states and column headings. */
 export interface ListTableWords {
   /** The table's data-testid, for browser tests. */
   testId: string;
@@ -30,10 +30,10 @@ export interface ListTableWords {
  * A plain table of a list read a page at a time, newest first (the reports sent, the outbox):
  * its loading, error and empty states, the table with the caption the page projects (a hidden
  * one, `<caption class="tb-visually-hidden">`), its column headings, the rows the page projects
- * into its body, and the pager under it. The host takes no box of
- * its own (`display: contents`), so the page lays the table and the pager out as its own
- * children; a page may set `--tb-list-table-text` for the table's text size (0.875rem unless
- * set) and `--tb-pager-gap` for the room above the pager (8px unless set).
+ * into its body, and the pager under it. The host takes no box of its own (`display: contents`),
+ * so the page lays the table and the pager out as its own children; a page may set
+ * `--tb-list-table-text` for the table's text size (0.875rem unless set) and `--tb-pager-gap`
+ * for the room above the pager (8px unless set).
  */
 @Component({
   selector: 'tb-list-table',
