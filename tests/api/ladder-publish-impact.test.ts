@@ -9,6 +9,7 @@ import {
 import { studentProgressSchema } from '@shared/api/analytics';
 import { currentRung, type PassOffRecord } from '@shared/ladder/index';
 import { toRuleRungs } from '../../server/ladder/ladder-queries';
+import { newRequirement as blankRequirement } from '../../web/app/ladder/ladder-editor/draft-model';
 import { useTestApp } from '../support/test-app';
 
 let ownStudentId: number;
@@ -19,19 +20,9 @@ beforeAll(async () => {
   ownStudentId = (await student.get('/api/me')).body.studentId;
 });
 
-/** A requirement no demo rung asks for, for one family. */
+/** A requirement no demo rung asks for, for one family: the editor's new requirement in C. */
 function newRequirement(code: string, family: string): LadderRequirement {
-  return {
-    code,
-    tonic: 'C',
-    mode: 'major',
-    pattern: 'long-tones',
-    tempo: 60,
-    articulation: 'tongued',
-    octaves: 1,
-    optional: false,
-    families: [family as 'strings'],
-  };
+  return { ...blankRequirement(), code, tonic: 'C', families: [family as 'strings'] };
 }
 
 async function freshDraft(): Promise<Ladder> {

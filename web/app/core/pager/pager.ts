@@ -1,5 +1,11 @@
-import { ChangeDetectionStrategy, Component, input, model } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, input, model } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
+
+/** A page of a list as the API answers it: the rows shown and how many there are in all. */
+export interface ListPageRead {
+  rows: readonly unknown[];
+  total: number;
+}
 
 /**
  * The line under a table read a page at a time, newest first: which rows are shown of how many,
@@ -9,9 +15,14 @@ import { MatButtonModule } from '@angular/material/button';
   selector: 'tb-pager',
   imports: [MatButtonModule],
   template: `
-    <span class="tb-muted">{{ offset() + 1 }}–{{ offset() + shown() }} of {{ total() }}</span>
+    <span class="tb-muted">{{ offset() + 1 }}–{{ offset() + shown() }} of {{ page().total }}</span>
     <button mat-button type="button" [disabled]="offset() === 0" (click)="turn(-1)">Newer</button>
-    <button mat-button type="button" [disabled]="offset() + shown() >= total()" (click)="turn(1)">
+    <button
+      mat-button
+      type="button"
+      [disabled]="offset() + shown() >= page().total"
+      (click)="turn(1)"
+    >
       Older
     </button>
   `,
@@ -29,10 +40,9 @@ export class Pager {
   /** The first row's place in the whole list, from 0. */
   readonly offset = model.required<number>();
   readonly pageSize = input.required<number>();
-  /** How many rows this page shows. */
-  readonly shown = input.required<number>();
-  /** How many rows there are in all. */
-  readonly total = input.required<number>();
+  /** The page shown: its rows, and how many there are in all. */
+  readonly page = input.required<ListPageRead>();
+  protected readonly shown = computed(() => this.page().rows.length);
 
   protected turn(step: 1 | -1): void {
     this.offset.set(Math.max(0, this.offset() + step * this.pageSize()));

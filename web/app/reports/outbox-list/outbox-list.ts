@@ -13,13 +13,15 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatIconModule } from '@angular/material/icon';
 import { outboxStates, type OutboxMessage } from '@shared/api/outbox';
-import { Pager } from '../../core/pager/pager';
-import { PageState } from '../../core/state/page-state';
+import {
+  ListTable,
+  listTablePageSize,
+  type ListTableWords,
+} from '../../core/list-table/list-table';
 import { OutboxData } from '../outbox-data';
 import { OutboxState } from '../outbox-state/outbox-state';
 import { momentText } from '../report-period';
 
-const pageSize = 50;
 /** How often the list asks again while a message waits to go out. */
 export const outboxRefreshMilliseconds = 5000;
 
@@ -31,8 +33,7 @@ export const outboxRefreshMilliseconds = 5000;
     MatButtonModule,
     MatButtonToggleModule,
     MatIconModule,
-    PageState,
-    Pager,
+    ListTable,
     OutboxState,
   ],
   templateUrl: './outbox-list.html',
@@ -51,9 +52,8 @@ export class OutboxList {
   };
   protected readonly state = signal<OutboxMessage['state'] | null>(null);
   protected readonly offset = signal(0);
-  protected readonly pageSize = pageSize;
   protected readonly messages = rxResource({
-    params: () => ({ state: this.state(), offset: this.offset(), limit: pageSize }),
+    params: () => ({ state: this.state(), offset: this.offset(), limit: listTablePageSize }),
     stream: ({ params }) => this.outbox.list(params),
   });
   /** Whether a message on the page still waits to go out, so the list keeps refreshing. */
@@ -63,6 +63,19 @@ export class OutboxList {
     ),
   );
   protected readonly momentText = momentText;
+  /** The outbox as a table; the empty state names the state the list is filtered by. */
+  protected readonly table = computed<ListTableWords>(() => ({
+    testId: 'outbox-list',
+    what: 'the outbox',
+    failedMessage: 'The server did not answer. Check your connection and try again.',
+    headings: ['Subject', 'To', 'Kind', 'State', 'Attempts', 'Queued', 'Sent or next attempt'],
+    empty: {
+      icon: 'mail',
+      title: this.state() ? `No ${this.state()} messages` : 'The outbox is empty',
+      message:
+        'Reports, loan agreements and reminders appear here as soon as they are queued, with their delivery state.',
+    },
+  }));
 
   constructor() {
     const timer = setInterval(() => {
