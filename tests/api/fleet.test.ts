@@ -25,10 +25,10 @@ function upload(
   filename: string,
   contentType: string,
 ) {
-  return request(app.url)
-    .post(`/api/instruments/${instrumentId}/photos`)
-    .set({ Cookie: client.cookie, Origin: app.url })
-    .attach('photo', bytes, { filename, contentType });
+  return client.upload(`/api/instruments/${instrumentId}/photos`, 'photo', bytes, {
+    filename,
+    contentType,
+  });
 }
 
 function importCsv(client: SignedInClient, csv: string, dryRun: boolean) {

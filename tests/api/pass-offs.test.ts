@@ -1,7 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
-import request from 'supertest';
 import { passOffBatchResultSchema, passOffSchema } from '@shared/api/pass-off';
 import { listResponseSchema } from '@shared/api/list';
 import { rowsOf } from '../../server/db/client';
@@ -36,11 +35,7 @@ const upload = (
   path: string,
   bytes: Buffer,
   options: string | { filename: string; contentType?: string },
-) =>
-  request(app.url)
-    .post(path)
-    .set({ Cookie: client.cookie, Origin: app.url })
-    .attach('recording', bytes, options);
+) => client.upload(path, 'recording', bytes, options);
 
 const entry = (studentId: number, extra: Record<string, unknown> = {}) => ({
   studentId,

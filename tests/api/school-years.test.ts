@@ -200,10 +200,7 @@ describe('Starting a new school year', () => {
     const header =
       'student_id,first_name,last_name,preferred_name,grade,school_code,ensemble,instrument,guardian_name,guardian_email';
     const file = Buffer.from(`${header}\r\n990001,Wren,Marlowe,,7,HPMS,,,,\r\n`);
-    const uploaded = await request(app.url)
-      .post('/api/imports/preview')
-      .set({ Cookie: coordinator.cookie, Origin: app.url })
-      .attach('file', file, 'late.csv');
+    const uploaded = await coordinator.upload('/api/imports/preview', 'file', file, 'late.csv');
     expect(uploaded.status).toBe(200);
     const imported = await coordinator.post('/api/imports/commit', {
       importToken: uploaded.body.importToken,
@@ -389,10 +386,12 @@ describe('Starting a new school year', () => {
     const file = Buffer.from(
       `${header}\r\n990002,Ash,Penhallow,,9,TRHS,Concert Band,trumpet,,\r\n`,
     );
-    const uploaded = await request(app.url)
-      .post('/api/imports/preview')
-      .set({ Cookie: coordinator.cookie, Origin: app.url })
-      .attach('file', file, 'after-start.csv');
+    const uploaded = await coordinator.upload(
+      '/api/imports/preview',
+      'file',
+      file,
+      'after-start.csv',
+    );
     const imported = await coordinator.post('/api/imports/commit', {
       importToken: uploaded.body.importToken,
       withdrawMissing: false,

@@ -26,12 +26,7 @@ const keep = (
   bytes: Buffer = wave,
   filename = 'take.wav',
 ) => {
-  let call = request(app.url)
-    .post('/api/takes')
-    .set({ Cookie: client.cookie, Origin: app.url })
-    .attach('recording', bytes, filename);
-  for (const [name, value] of Object.entries(fields)) call = call.field(name, value);
-  return call;
+  return client.upload('/api/takes', 'recording', bytes, filename, fields);
 };
 const goodFields = () => ({
   requirementCode: 'r1-eb-major',
@@ -125,14 +120,8 @@ describe('Takes', () => {
 });
 
 describe('A director’s take kept as evidence', () => {
-  const heard = (client: SignedInClient, fields: Record<string, string>, bytes: Buffer = wave) => {
-    let call = request(app.url)
-      .post('/api/takes/heard')
-      .set({ Cookie: client.cookie, Origin: app.url })
-      .attach('recording', bytes, 'heard.wav');
-    for (const [name, value] of Object.entries(fields)) call = call.field(name, value);
-    return call;
-  };
+  const heard = (client: SignedInClient, fields: Record<string, string>, bytes: Buffer = wave) =>
+    client.upload('/api/takes/heard', 'recording', bytes, 'heard.wav', fields);
   const studentOf = async (email: string) =>
     rowsOf<{ student_id: number }>(
       await app.database.db.execute(sql`select student_id from users where email = ${email}`),
