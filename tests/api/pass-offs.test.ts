@@ -5,6 +5,7 @@ import { passOffBatchResultSchema, passOffSchema } from '@shared/api/pass-off';
 import { listResponseSchema } from '@shared/api/list';
 import { rowsOf } from '../../server/db/client';
 import { byRole, everyRole, useTestApp, type SignedInClient } from '../support/test-app';
+import { binary } from '../support/binary-body';
 
 let hpmsStudentId: number;
 let qhmsStudentId: number;
@@ -278,14 +279,7 @@ describe('Pass-off recordings', () => {
       ),
     );
     expect(stored!.stored_name).toMatch(/^[0-9a-f]{32}$/);
-    const heard = await student
-      .get(`/api/pass-offs/${passOffId}/recording`)
-      .buffer(true)
-      .parse((response, done) => {
-        const chunks: Buffer[] = [];
-        response.on('data', (chunk: Buffer) => chunks.push(chunk));
-        response.on('end', () => done(null, Buffer.concat(chunks)));
-      });
+    const heard = await binary(student.get(`/api/pass-offs/${passOffId}/recording`));
     expect(heard.status).toBe(200);
     expect(heard.headers['content-type']).toBe('audio/wav');
     expect(Buffer.compare(heard.body as Buffer, wave)).toBe(0);

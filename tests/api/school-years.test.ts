@@ -10,6 +10,7 @@ import {
   readRosterBefore,
   seatsOfYear,
 } from '../support/year-start-expectation';
+import { binary } from '../support/binary-body';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -142,15 +143,9 @@ describe('School years', () => {
 
 describe('Starting a new school year', () => {
   it('should offer the coordinator a backup to download before the start, one that gunzips', async () => {
-    const backup = await request(app.url)
-      .get('/api/backup')
-      .set({ Cookie: coordinator.cookie })
-      .buffer(true)
-      .parse((response, done) => {
-        const chunks: Buffer[] = [];
-        response.on('data', (chunk: Buffer) => chunks.push(chunk));
-        response.on('end', () => done(null, Buffer.concat(chunks)));
-      });
+    const backup = await binary(
+      request(app.url).get('/api/backup').set({ Cookie: coordinator.cookie }),
+    );
     if (process.env['TEST_DATABASE_URL']) {
       // On a PostgreSQL server the backup is pg_dump's, and the answer says so.
       expect(backup.status).toBe(409);
