@@ -63,11 +63,16 @@ export interface RosterData {
 const changed = '2026-08-10T12:00:00.000Z';
 const ref = (type: string, sourcedId: string): Ref => ({ sourcedId, type });
 
+/** The fields every OneRoster record carries (its base class): id, status and last change. */
+const base = (sourcedId: string): Base => ({
+  sourcedId,
+  status: 'active',
+  dateLastModified: changed,
+});
+
 function school(id: string, name: string, identifier: string): Org {
   return {
-    sourcedId: id,
-    status: 'active',
-    dateLastModified: changed,
+    ...base(id),
     name,
     type: 'school',
     identifier,
@@ -84,9 +89,7 @@ function student(
   orgId: string,
 ): User {
   return {
-    sourcedId: id,
-    status: 'active',
-    dateLastModified: changed,
+    ...base(id),
     enabledUser: true,
     username: identifier,
     givenName,
@@ -102,9 +105,7 @@ function student(
 
 function roomClass(id: string, title: string, orgId: string): RoomClass {
   return {
-    sourcedId: id,
-    status: 'active',
-    dateLastModified: changed,
+    ...base(id),
     title,
     classCode: id.toUpperCase(),
     classType: 'scheduled',
@@ -115,9 +116,7 @@ function roomClass(id: string, title: string, orgId: string): RoomClass {
 
 function seat(id: string, userId: string, classId: string, orgId: string): Enrollment {
   return {
-    sourcedId: id,
-    status: 'active',
-    dateLastModified: changed,
+    ...base(id),
     role: 'student',
     primary: false,
     user: ref('user', userId),
@@ -131,9 +130,7 @@ export function demoRoster(): RosterData {
   return {
     orgs: [
       {
-        sourcedId: 'org-mbu',
-        status: 'active',
-        dateLastModified: changed,
+        ...base('org-mbu'),
         name: 'Merrow Basin Unified',
         type: 'district',
         identifier: 'MBU',

@@ -9,7 +9,7 @@ import {
   type CountScan,
   type ScanOutcome,
 } from '@shared/api/count';
-import { assertInScope, schoolScope, type Actor } from '../core/policy';
+import { schoolScope, type Actor } from '../core/policy';
 import { listPage, orderFor, parseListQuery } from '../core/list-query';
 import { recordAudit } from '../core/audit';
 import { createThenRead, insertAudited } from '../core/versioned-update';
@@ -17,6 +17,7 @@ import { notFound } from '../core/errors';
 import { recordInstrumentEvents } from '../instruments/instrument-events';
 import { setInstrumentStatus, stateConflict } from '../instruments/instruments-service';
 import { instrumentNameOf } from '../instruments/instrument-cautions';
+import { assertSchoolInScope } from '../schools/school-exists';
 
 const scanCount = sql<number>`(select count(*)::int from count_scans cs where cs.count_id = "counts"."id")`;
 
@@ -102,12 +103,7 @@ export async function startCount(
   actor: Actor,
   schoolId: number,
 ): Promise<CountDetail> {
-  assertInScope(actor, schoolId, 'That school');
-  const [school] = await db
-    .select({ id: schools.id })
-    .from(schools)
-    .where(eq(schools.id, schoolId));
-  if (!school) throw notFound('That school');
+  await assertSchoolInScope(db, actor, schoolId);
   const [open] = await db
     .select({ id: counts.id })
     .from(counts)

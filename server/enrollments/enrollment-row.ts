@@ -5,6 +5,20 @@ import { enrollments, ensembles, schoolYears, schools, students } from '../db/sc
 import { instrumentName } from './instrument-order';
 import { studentNameColumns } from '../students/student-row';
 
+/**
+ * A seat as both the enrollment answers and a student's own page show it: its year, the music
+ * engine's instrument id, part, chair, whether it is active and its version.
+ */
+export const seatColumns = {
+  schoolYearId: enrollments.schoolYearId,
+  schoolYearName: schoolYears.name,
+  instrumentId: enrollments.instrumentId,
+  part: enrollments.part,
+  chair: enrollments.chair,
+  active: enrollments.active,
+  version: enrollments.version,
+};
+
 /** The columns every enrollment answer selects: the seat, its student, ensemble and year. */
 export const enrollmentColumns = {
   id: enrollments.id,
@@ -15,13 +29,7 @@ export const enrollmentColumns = {
   ensembleName: ensembles.name,
   schoolId: ensembles.schoolId,
   schoolCode: schools.code,
-  schoolYearId: enrollments.schoolYearId,
-  schoolYearName: schoolYears.name,
-  instrumentId: enrollments.instrumentId,
-  part: enrollments.part,
-  chair: enrollments.chair,
-  active: enrollments.active,
-  version: enrollments.version,
+  ...seatColumns,
   updatedAt: enrollments.updatedAt,
 };
 

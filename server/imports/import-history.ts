@@ -1,4 +1,5 @@
 import { and, count, desc, eq, sql, type SQL } from 'drizzle-orm';
+import type { PgColumn } from 'drizzle-orm/pg-core';
 import { z } from 'zod';
 import {
   planListLimit,
@@ -37,6 +38,14 @@ const historyColumns = {
   undoneAt: rosterImports.undoneAt,
 };
 
+/** The imports with who ran them: {@link historyColumns} and the `extra` columns a caller adds. */
+function selectImports<Extra extends Record<string, PgColumn>>(db: Database, extra: Extra) {
+  return db
+    .select({ ...historyColumns, ...extra })
+    .from(rosterImports)
+    .leftJoin(users, eq(users.id, rosterImports.userId));
+}
+
 const sortable = {
   createdAt: rosterImports.createdAt,
   fileName: rosterImports.fileName,
@@ -74,22 +83,14 @@ export async function listImports(
   return listPage(
     list,
     orderFor(list.sort, sortable, 'createdAt:desc', rosterImports.id),
-    db
-      .select(historyColumns)
-      .from(rosterImports)
-      .leftJoin(users, eq(users.id, rosterImports.userId))
-      .where(where)
-      .$dynamic(),
+    selectImports(db, {}).where(where).$dynamic(),
     db.select({ total: count() }).from(rosterImports).where(where),
     (row) => toEntry(row as HistoryRow),
   );
 }
 
 async function importRow(db: Database, id: number) {
-  const [row] = await db
-    .select({ ...historyColumns, errors: rosterImports.errors })
-    .from(rosterImports)
-    .leftJoin(users, eq(users.id, rosterImports.userId))
+  const [row] = await selectImports(db, { errors: rosterImports.errors })
     .where(eq(rosterImports.id, id))
     .orderBy(desc(rosterImports.id));
   if (!row) throw notFound('That import');

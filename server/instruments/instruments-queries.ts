@@ -35,6 +35,14 @@ export const instrumentColumns = {
   updatedAt: instruments.updatedAt,
 };
 
+/** The instruments with their home schools, selecting {@link instrumentColumns}. */
+function selectInstruments(db: Database | Transaction) {
+  return db
+    .select(instrumentColumns)
+    .from(instruments)
+    .innerJoin(schools, eq(schools.id, instruments.homeSchoolId));
+}
+
 type InstrumentRow = Omit<typeof instruments.$inferSelect, 'createdAt'> & {
   homeSchoolCode: string;
 };
@@ -116,12 +124,7 @@ export async function listInstruments(
   return listPage(
     list,
     orderFor(list.sort, sortable, 'assetTag:asc', instruments.id),
-    db
-      .select(instrumentColumns)
-      .from(instruments)
-      .innerJoin(schools, eq(schools.id, instruments.homeSchoolId))
-      .where(where)
-      .$dynamic(),
+    selectInstruments(db).where(where).$dynamic(),
     db
       .select({ total: count() })
       .from(instruments)
@@ -137,11 +140,9 @@ export async function findInstrument(
   actor: Actor,
   id: number,
 ): Promise<Instrument> {
-  const [row] = await db
-    .select(instrumentColumns)
-    .from(instruments)
-    .innerJoin(schools, eq(schools.id, instruments.homeSchoolId))
-    .where(and(eq(instruments.id, id), instrumentScope(actor)));
+  const [row] = await selectInstruments(db).where(
+    and(eq(instruments.id, id), instrumentScope(actor)),
+  );
   if (!row) throw notFound('That instrument');
   return toInstrument(row);
 }

@@ -1,6 +1,6 @@
 import { eq, sql } from 'drizzle-orm';
 import type { Database, Transaction } from '../db/client';
-import { instruments, schools } from '../db/schema/index';
+import { instruments } from '../db/schema/index';
 import type {
   Instrument,
   InstrumentCondition,
@@ -8,11 +8,12 @@ import type {
   InstrumentPatch,
   InstrumentStatus,
 } from '@shared/api/instrument';
-import { assertInScope, type Actor } from '../core/policy';
+import type { Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
-import { badRequest, HttpError, notFound } from '../core/errors';
+import { badRequest, HttpError } from '../core/errors';
 import { createThenRead, insertAudited, updateAudited } from '../core/versioned-update';
 import { findInstrument } from './instruments-queries';
+import { assertSchoolInScope } from '../schools/school-exists';
 import { recordInstrumentEvents } from './instrument-events';
 
 /** 409 with a message that says why, rather than the stale-version text. */
@@ -48,22 +49,13 @@ async function assertAssetTagFree(db: Database | Transaction, assetTag: string, 
   }
 }
 
-async function assertSchoolExists(db: Database | Transaction, actor: Actor, schoolId: number) {
-  assertInScope(actor, schoolId, 'That school');
-  const [school] = await db
-    .select({ id: schools.id })
-    .from(schools)
-    .where(eq(schools.id, schoolId));
-  if (!school) throw notFound('That school');
-}
-
 /** Adds an instrument to the fleet, with a purchase entry on its timeline. */
 export async function createInstrument(
   db: Database,
   actor: Actor,
   input: InstrumentInput,
 ): Promise<Instrument> {
-  await assertSchoolExists(db, actor, input.homeSchoolId);
+  await assertSchoolInScope(db, actor, input.homeSchoolId);
   await assertAssetTagFree(db, input.assetTag);
   return createThenRead(
     db,
@@ -93,7 +85,8 @@ export async function updateInstrument(
 ): Promise<Instrument> {
   const current = await findInstrument(db, actor, id);
   const { version, ...changes } = patch;
-  if (changes.homeSchoolId !== undefined) await assertSchoolExists(db, actor, changes.homeSchoolId);
+  if (changes.homeSchoolId !== undefined)
+    await assertSchoolInScope(db, actor, changes.homeSchoolId);
   if (changes.assetTag) await assertAssetTagFree(db, changes.assetTag, id);
   if (changes.status && changes.status !== current.status) {
     if (current.status === 'on-loan' || current.status === 'in-repair') {

@@ -4,7 +4,7 @@ import { intArray, rowsOf } from '../db/client';
 import { activeRuleLadder, type Queryable } from './ladder-queries';
 import { familyOf, studentInstruments } from './student-families';
 
-export { countWeeks, type WeekCountChange } from './pass-off-weeks';
+export { countWeeks, weekChange, type WeekCountChange } from './pass-off-weeks';
 
 interface StandingRow {
   student_id: number;

@@ -131,13 +131,17 @@ export function toRuleRungs(rungs: readonly LadderRung[]): Rung[] {
   }));
 }
 
-/** One ladder version with everything in it; 404 when unknown. */
-export async function loadLadder(db: Queryable, versionId: number): Promise<Ladder> {
-  const [summary] = await db
+/** The ladder versions with who made them, selecting {@link versionSummaryColumns}. */
+export function selectVersionSummaries(db: Queryable) {
+  return db
     .select(versionSummaryColumns)
     .from(ladderVersions)
-    .leftJoin(users, eq(users.id, ladderVersions.createdBy))
-    .where(eq(ladderVersions.id, versionId));
+    .leftJoin(users, eq(users.id, ladderVersions.createdBy));
+}
+
+/** One ladder version with everything in it; 404 when unknown. */
+export async function loadLadder(db: Queryable, versionId: number): Promise<Ladder> {
+  const [summary] = await selectVersionSummaries(db).where(eq(ladderVersions.id, versionId));
   if (!summary) throw notFound('That ladder version');
   const rungs = await loadRungs(db, versionId);
   const benchmarks = await loadBenchmarks(db, versionId);

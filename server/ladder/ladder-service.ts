@@ -2,7 +2,7 @@ import { and, count, eq, ne } from 'drizzle-orm';
 import { demoLadderRungs as starterLadderRungs } from '../seed/demo-ladder-rungs';
 import { z } from 'zod';
 import type { Database } from '../db/client';
-import { ladderVersions, users } from '../db/schema/index';
+import { ladderVersions } from '../db/schema/index';
 import {
   ladderVersionStatuses,
   type Ladder,
@@ -25,7 +25,7 @@ import {
   activeVersionId,
   loadLadder,
   toVersionSummary,
-  versionSummaryColumns,
+  selectVersionSummaries,
   writeLadderContent,
 } from './ladder-queries';
 
@@ -59,12 +59,7 @@ export async function listVersions(
   return listPage(
     list,
     orderFor(list.sort, versionSortable, 'createdAt:desc', ladderVersions.id),
-    db
-      .select(versionSummaryColumns)
-      .from(ladderVersions)
-      .leftJoin(users, eq(users.id, ladderVersions.createdBy))
-      .where(where)
-      .$dynamic(),
+    selectVersionSummaries(db).where(where).$dynamic(),
     db.select({ total: count() }).from(ladderVersions).where(where),
     toVersionSummary,
   );

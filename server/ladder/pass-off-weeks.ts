@@ -10,6 +10,15 @@ export interface WeekCountChange {
   delta: 1 | -1;
 }
 
+/** The change a pass-off row (or the row before an edit) makes to its week's counts. */
+export function weekChange(
+  passOff: Omit<WeekCountChange, 'delta'>,
+  delta: WeekCountChange['delta'],
+): WeekCountChange {
+  const { heardOn, schoolId, grade, passed } = passOff;
+  return { heardOn, schoolId, grade, passed, delta };
+}
+
 /** Keeps `pass_off_weeks` current as pass-offs are written, in the writer's transaction. */
 export async function countWeeks(
   db: Queryable,

@@ -8,7 +8,7 @@ import { listPage, matchesText, orderFor, parseListQuery } from '../core/list-qu
 import { recordAudit } from '../core/audit';
 import { badRequest, notFound } from '../core/errors';
 import { updateVersioned } from '../core/versioned-update';
-import { countWeeks, recomputeAttainment } from '../ladder/attainment';
+import { countWeeks, recomputeAttainment, weekChange } from '../ladder/attainment';
 import {
   ladderContext,
   maySeeStudent,
@@ -118,22 +118,7 @@ export async function updatePassOff(
   return db.transaction(async (tx) => {
     const before = await loadForWrite(tx, actor, id);
     const after = await updateVersioned(tx, passOffs, id, version, changes, 'That pass-off');
-    await countWeeks(tx, [
-      {
-        heardOn: before.heardOn,
-        schoolId: before.schoolId,
-        grade: before.grade,
-        passed: before.passed,
-        delta: -1,
-      },
-      {
-        heardOn: after.heardOn,
-        schoolId: after.schoolId,
-        grade: after.grade,
-        passed: after.passed,
-        delta: 1,
-      },
-    ]);
+    await countWeeks(tx, [weekChange(before, -1), weekChange(after, 1)]);
     await recomputeAttainment(tx, [after.studentId]);
     await recordAudit(tx, actor, {
       action: 'update',
@@ -159,15 +144,7 @@ export async function deletePassOff(
       sql`delete from pass_off_recordings r where r.pass_off_id = ${id} returning r.stored_name`,
     );
     await tx.delete(passOffs).where(eq(passOffs.id, id));
-    await countWeeks(tx, [
-      {
-        heardOn: before.heardOn,
-        schoolId: before.schoolId,
-        grade: before.grade,
-        passed: before.passed,
-        delta: -1,
-      },
-    ]);
+    await countWeeks(tx, [weekChange(before, -1)]);
     await recomputeAttainment(tx, [before.studentId]);
     await recordAudit(tx, actor, { action: 'delete', entity: 'pass-off', entityId: id, before });
     return (removed as unknown as { rows: { stored_name: string }[] }).rows.map(

@@ -6,7 +6,7 @@ import type { PassOff, PassOffBatchResult, PassOffInput } from '@shared/api/pass
 import { assertInScope, type Actor } from '../core/policy';
 import { recordAudit } from '../core/audit';
 import { badRequest, conflict, notFound } from '../core/errors';
-import { countWeeks, recomputeAttainment } from '../ladder/attainment';
+import { countWeeks, recomputeAttainment, weekChange } from '../ladder/attainment';
 import { activeVersionId } from '../ladder/ladder-queries';
 import { ladderContext, selectPassOffs, toPassOff } from './pass-off-rows';
 import { studentNameColumns } from '../students/student-row';
@@ -189,13 +189,7 @@ async function insertPassOffs(
     : [];
   await countWeeks(
     tx,
-    inserted.map((row) => ({
-      heardOn: row.heardOn,
-      schoolId: row.schoolId,
-      grade: row.grade,
-      passed: row.passed,
-      delta: 1 as const,
-    })),
+    inserted.map((row) => weekChange(row, 1)),
   );
   await recomputeAttainment(
     tx,

@@ -1,5 +1,6 @@
 import { idParameter } from '@shared/api/input-rules';
 import { and, count, eq, inArray, sql, type SQL } from 'drizzle-orm';
+import type { PgColumn } from 'drizzle-orm/pg-core';
 import { z } from 'zod';
 import type { Database } from '../db/client';
 import { reportRuns, schools } from '../db/schema/index';
@@ -121,6 +122,14 @@ const runColumns = {
   createdAt: reportRuns.createdAt,
 };
 
+/** The report runs with their schools: {@link runColumns} and the `extra` columns a caller adds. */
+function selectRuns<Extra extends Record<string, PgColumn>>(db: Database, extra: Extra) {
+  return db
+    .select({ ...runColumns, ...extra })
+    .from(reportRuns)
+    .leftJoin(schools, eq(schools.id, reportRuns.schoolId));
+}
+
 const toRun = (row: Omit<ReportRun, 'createdAt'> & { createdAt: Date }): ReportRun => ({
   ...row,
   createdAt: row.createdAt.toISOString(),
@@ -142,12 +151,7 @@ export async function listReportRuns(
   return listPage(
     list,
     orderFor(list.sort, sortable, 'createdAt:desc', reportRuns.id),
-    db
-      .select(runColumns)
-      .from(reportRuns)
-      .leftJoin(schools, eq(schools.id, reportRuns.schoolId))
-      .where(where)
-      .$dynamic(),
+    selectRuns(db, {}).where(where).$dynamic(),
     db.select({ total: count() }).from(reportRuns).where(where),
     toRun,
   );
@@ -159,11 +163,9 @@ export async function getReportRun(
   actor: Actor,
   id: number,
 ): Promise<ReportRun & { figures: unknown }> {
-  const [row] = await db
-    .select({ ...runColumns, figures: reportRuns.figures })
-    .from(reportRuns)
-    .leftJoin(schools, eq(schools.id, reportRuns.schoolId))
-    .where(and(eq(reportRuns.id, id), visibleRuns(actor)));
+  const [row] = await selectRuns(db, { figures: reportRuns.figures }).where(
+    and(eq(reportRuns.id, id), visibleRuns(actor)),
+  );
   if (!row) throw notFound('That report');
   return toRun(row) as ReportRun & { figures: unknown };
 }

@@ -247,6 +247,15 @@ export async function seedDemoLadder(
       });
     });
   }
+  await insertPassOffRows(tx, rows);
+  await rebuildAttainment(tx);
+}
+
+/**
+ * Lands the demo's pass-offs, 5,000 rows a statement, each batch one JSON parameter unpacked by
+ * PostgreSQL's `json_to_recordset` ("JSON Functions and Operators").
+ */
+export async function insertPassOffRows(tx: Transaction, rows: object[]): Promise<void> {
   await insertInBatches(rows, 5000, (batch) =>
     tx.execute(sql`
       insert into pass_offs (student_id, school_id, grade, ladder_version_id, requirement_id, requirement_code, heard_on, tempo, passed, heard_by, note)
@@ -254,5 +263,4 @@ export async function seedDemoLadder(
       from json_to_recordset(${JSON.stringify(batch)}::json) as x("studentId" int, "schoolId" int, grade smallint, "ladderVersionId" int,
         "requirementId" int, "requirementCode" text, "heardOn" date, tempo smallint, passed boolean, "heardBy" int, note text)`),
   );
-  await rebuildAttainment(tx);
 }

@@ -7,7 +7,7 @@ import { rebuildAttainment } from '../ladder/attainment';
 import { activeRuleLadder } from '../ladder/ladder-queries';
 import { familyOf } from '../ladder/student-families';
 import { demoSchools, firstNames, lastNames, type DemoSchoolCode } from './demo-people';
-import { targetsByGrade, weekday } from './demo-ladder';
+import { insertPassOffRows, targetsByGrade, weekday } from './demo-ladder';
 import {
   bandInstruments,
   ensemblesByLevel,
@@ -394,12 +394,6 @@ async function seedLastYearPassOffs(
       });
     });
   }
-  await insertInBatches(rows, 5000, (batch) =>
-    tx.execute(sql`
-      insert into pass_offs (student_id, school_id, grade, ladder_version_id, requirement_id, requirement_code, heard_on, tempo, passed, heard_by, note)
-      select x."studentId", x."schoolId", x.grade, x."ladderVersionId", x."requirementId", x."requirementCode", x."heardOn", x.tempo, x.passed, x."heardBy", x.note
-      from json_to_recordset(${JSON.stringify(batch)}::json) as x("studentId" int, "schoolId" int, grade smallint, "ladderVersionId" int,
-        "requirementId" int, "requirementCode" text, "heardOn" date, tempo smallint, passed boolean, "heardBy" int, note text)`),
-  );
+  await insertPassOffRows(tx, rows);
   return rungs;
 }

@@ -22,6 +22,7 @@ import { assertInScope, type Actor } from '../core/policy';
 import { createThenRead, insertAudited, updateAudited } from '../core/versioned-update';
 import { assertDistrictSchool } from '../schools/school-exists';
 import { instrumentName } from '../enrollments/instrument-order';
+import { seatColumns } from '../enrollments/enrollment-row';
 import { findCurrentSchoolYear } from '../enrollments/school-year';
 import { seatSummaries } from './student-seats';
 import { studentColumns, toStudent, type StudentRecord } from './student-row';
@@ -62,13 +63,7 @@ async function currentSeats(
       id: enrollments.id,
       ensembleId: enrollments.ensembleId,
       ensembleName: ensembles.name,
-      schoolYearId: enrollments.schoolYearId,
-      schoolYearName: schoolYears.name,
-      instrumentId: enrollments.instrumentId,
-      part: enrollments.part,
-      chair: enrollments.chair,
-      active: enrollments.active,
-      version: enrollments.version,
+      ...seatColumns,
     })
     .from(enrollments)
     .innerJoin(ensembles, eq(ensembles.id, enrollments.ensembleId))

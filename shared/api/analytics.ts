@@ -1,5 +1,5 @@
 import * as z from 'zod';
-import { schoolRefFields, studentLinkFields, studentNameFields } from './fields';
+import { schoolRefFields, schoolRowFields, studentLinkFields, studentNameFields } from './fields';
 import { calendarDate, idParameter, plainText } from './input-rules';
 import { requirementSchema } from './ladder';
 import { passOffSchema, recordingSchema } from './pass-off';
@@ -64,6 +64,15 @@ export type StudentProgress = z.infer<typeof studentProgressSchema>;
 
 const countsByRung = z.array(z.number().int());
 
+/** How many of a group's students are at or above the benchmark, of how many, and the drill. */
+const benchmarkShareFields = {
+  atOrAbove: z.number().int(),
+  students: z.number().int(),
+  /** 0–1; null when the group has no students. */
+  share: z.number().nullable(),
+  drill: drillSchema,
+};
+
 /** `GET /api/analytics/overview`: the ladder figures of the Overview, each with its drill. */
 export const overviewSchema = z.object({
   /** The day the figures are read on (ISO date) and the filters applied. */
@@ -84,9 +93,7 @@ export const overviewSchema = z.object({
     ),
     bySchool: z.array(
       z.object({
-        schoolId: z.number().int(),
-        code: z.string(),
-        name: z.string(),
+        ...schoolRowFields,
         counts: countsByRung,
         drill: drillSchema,
       }),
@@ -103,22 +110,13 @@ export const overviewSchema = z.object({
         /** The benchmark rung and its date: the latest date not after today, else the first. */
         rung: z.number().int(),
         byDate: z.string(),
-        atOrAbove: z.number().int(),
-        students: z.number().int(),
-        /** 0–1; null when the grade has no students. */
-        share: z.number().nullable(),
-        drill: drillSchema,
+        ...benchmarkShareFields,
       }),
     ),
     bySchool: z.array(
       z.object({
-        schoolId: z.number().int(),
-        code: z.string(),
-        name: z.string(),
-        atOrAbove: z.number().int(),
-        students: z.number().int(),
-        share: z.number().nullable(),
-        drill: drillSchema,
+        ...schoolRowFields,
+        ...benchmarkShareFields,
       }),
     ),
   }),

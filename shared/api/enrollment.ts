@@ -1,6 +1,6 @@
 import * as z from 'zod';
 import { schoolRefFields, seatFields, studentFullNameFields, versionedFields } from './fields';
-import { idParameter, plainText, recordId, versionNumber } from './input-rules';
+import { idParameter, plainText, recordId, patchSchemaOf } from './input-rules';
 import { instruments } from '../music/index';
 
 const instrumentIds = new Set(instruments.map((instrument) => instrument.id));
@@ -57,15 +57,10 @@ export const enrollmentInputSchema = z.strictObject({
 export type EnrollmentInput = z.infer<typeof enrollmentInputSchema>;
 
 /** `PATCH /api/enrollments/:id`: instrument, part, chair or active, plus the version. */
-export const enrollmentPatchSchema = z
-  .strictObject({
-    instrumentId,
-    part: plainText().max(40),
-    chair,
-    active: z.boolean(),
-  })
-  .partial()
-  .extend({ version: versionNumber });
+export const enrollmentPatchSchema = patchSchemaOf({
+  ...enrollmentInputSchema.omit({ studentId: true, ensembleId: true }).shape,
+  active: z.boolean(),
+});
 export type EnrollmentPatch = z.infer<typeof enrollmentPatchSchema>;
 
 /** The field filters of `GET /api/enrollments`; `active` is 'true' or 'false'. */

@@ -1,6 +1,6 @@
 import * as z from 'zod';
 import { schoolFields, seatFields, studentFullNameFields, versionedFields } from './fields';
-import { idParameter, plainText, recordId, versionNumber } from './input-rules';
+import { idParameter, plainText, recordId, patchSchemaOf } from './input-rules';
 import { schoolSummarySchema } from './me';
 
 /** The kinds of ensemble a school runs. */
@@ -89,16 +89,9 @@ export type EnsembleInput = z.infer<typeof ensembleInputSchema>;
  * What `PATCH /api/ensembles/:id` sends: any fields but the school, plus the version the editor
  * started from.
  */
-export const ensemblePatchSchema = z
-  .strictObject({
-    name: ensembleInputSchema.shape.name,
-    kind: ensembleInputSchema.shape.kind,
-    level: plainText().max(40),
-    meetingPeriod: plainText().max(60),
-    directorUserId: recordId().nullable(),
-  })
-  .partial()
-  .extend({ version: versionNumber });
+export const ensemblePatchSchema = patchSchemaOf(
+  ensembleInputSchema.omit({ schoolId: true }).shape,
+);
 export type EnsemblePatch = z.infer<typeof ensemblePatchSchema>;
 
 /** The field filters of `GET /api/ensembles` (besides q, sort, offset, limit). */

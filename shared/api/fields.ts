@@ -12,6 +12,9 @@ export const schoolRefFields = { schoolId: z.number().int(), schoolCode: z.strin
 /** The school a row belongs to, by id, short code and name. */
 export const schoolFields = { ...schoolRefFields, schoolName: z.string() };
 
+/** The school a breakdown row (by school) is about: its id, short code and name. */
+export const schoolRowFields = { schoolId: z.number().int(), code: z.string(), name: z.string() };
+
 /** The school an instrument lives at. */
 export const homeSchoolFields = { homeSchoolId: z.number().int(), homeSchoolCode: z.string() };
 

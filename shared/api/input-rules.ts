@@ -26,6 +26,25 @@ export const idParameter = z.coerce
 /** The version a change starts from (optimistic concurrency). */
 export const versionNumber = z.number().int().min(0).max(int4Max);
 
+/** A create schema's field as a change sends it: the same rule without the create's default. */
+type WithoutDefault<Field> = Field extends z.ZodDefault<infer Inner> ? Inner : Field;
+
+/**
+ * The PATCH body of a record, built from the fields its create body checks: each field keeps its
+ * rule but drops its `.default()` (zod's `removeDefault()`, so an absent field stays absent rather
+ * than being reset), every field is optional (`.partial()`), unknown keys are refused
+ * (`z.strictObject`), and the version the editor started from is required.
+ */
+export function patchSchemaOf<Shape extends z.ZodRawShape>(shape: Shape) {
+  const fields = Object.fromEntries(
+    Object.entries(shape).map(([key, field]) => [
+      key,
+      field instanceof z.ZodDefault ? field.removeDefault() : field,
+    ]),
+  ) as { [Key in keyof Shape]: WithoutDefault<Shape[Key]> };
+  return z.strictObject(fields).partial().extend({ version: versionNumber });
+}
+
 /** The first and last years a date we keep may fall in. */
 export const earliestYear = 1900;
 export const latestYear = 2199;

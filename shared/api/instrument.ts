@@ -1,6 +1,6 @@
 import * as z from 'zod';
 import { homeSchoolFields, studentLinkFields, versionedFields } from './fields';
-import { calendarDate, idParameter, plainText, recordId, versionNumber } from './input-rules';
+import { calendarDate, idParameter, plainText, recordId, patchSchemaOf } from './input-rules';
 import { instruments } from '../music/index';
 
 /** Condition grades of a district instrument, best first (common practice, no source). */
@@ -149,24 +149,10 @@ export const instrumentInputSchema = z.strictObject({
 export type InstrumentInput = z.infer<typeof instrumentInputSchema>;
 
 /** What a PATCH sends: any fields, a hand-set status, and the version the editor started from. */
-export const instrumentPatchSchema = z
-  .strictObject({
-    assetTag: instrumentInputSchema.shape.assetTag,
-    instrumentId: instrumentInputSchema.shape.instrumentId,
-    maker: plainText().max(120),
-    model: plainText().max(120),
-    serial: plainText().max(120),
-    purchasedOn: dateText.nullable(),
-    purchaseCostCents: z.number().int().min(0).max(100_000_000).nullable(),
-    fundingSource: plainText().max(120),
-    condition: z.enum(instrumentConditions),
-    status: z.enum(manualInstrumentStatuses),
-    homeSchoolId: recordId(),
-    location: plainText().max(200),
-    notes: plainText().max(4000),
-  })
-  .partial()
-  .extend({ version: versionNumber });
+export const instrumentPatchSchema = patchSchemaOf({
+  ...instrumentInputSchema.shape,
+  status: z.enum(manualInstrumentStatuses),
+});
 export type InstrumentPatch = z.infer<typeof instrumentPatchSchema>;
 
 /** The field filters of `GET /api/instruments`, besides q, sort, offset and limit. */

@@ -1,16 +1,6 @@
 import * as z from 'zod';
 import { calendarDate, plainText, versionNumber } from './input-rules';
-import {
-  articulations,
-  checkKey,
-  instrumentFamilies,
-  modes,
-  patternIds,
-  type Articulation,
-  type InstrumentFamily,
-  type Mode,
-  type PatternId,
-} from '../music/index';
+import { articulations, checkKey, instrumentFamilies, modes, patternIds } from '../music/index';
 
 /** Where a ladder version is in its life: edited, in force (or once in force), or retired. */
 export const ladderVersionStatuses = ['draft', 'published', 'archived'] as const;
@@ -39,8 +29,8 @@ export const requirementSchema = z
         'A code is lower-case letters, digits and dashes, e.g. r1-bb-major.',
       ),
     tonic: tonicSchema,
-    mode: z.enum(modes as [Mode, ...Mode[]], { message: `Mode is one of ${modes.join(', ')}.` }),
-    pattern: z.enum(patternIds as [PatternId, ...PatternId[]], {
+    mode: z.enum(modes, { message: `Mode is one of ${modes.join(', ')}.` }),
+    pattern: z.enum(patternIds, {
       message: `Pattern is one of ${patternIds.join(', ')}.`,
     }),
     tempo: z
@@ -48,7 +38,7 @@ export const requirementSchema = z
       .int('Tempo is a whole number of quarter notes a minute.')
       .min(requirementTempoRange.lowest, `Tempo is at least ${requirementTempoRange.lowest}.`)
       .max(requirementTempoRange.highest, `Tempo is at most ${requirementTempoRange.highest}.`),
-    articulation: z.enum(articulations as [Articulation, ...Articulation[]], {
+    articulation: z.enum(articulations, {
       message: `Articulation is one of ${articulations.join(', ')}.`,
     }),
     octaves: z.union([z.literal(1), z.literal(2)], { message: 'Octaves is 1 or 2.' }),
@@ -56,7 +46,7 @@ export const requirementSchema = z
     /** The instrument families it applies to; null means every family. */
     families: z
       .array(
-        z.enum(instrumentFamilies as [InstrumentFamily, ...InstrumentFamily[]], {
+        z.enum(instrumentFamilies, {
           message: `A family is one of ${instrumentFamilies.join(', ')}.`,
         }),
       )

@@ -1,5 +1,5 @@
 import * as z from 'zod';
-import { homeSchoolFields } from './fields';
+import { homeSchoolFields, schoolFields } from './fields';
 import { idParameter } from './input-rules';
 
 /** One instrument in the replacement plan, valued by straight-line depreciation. */
@@ -84,9 +84,7 @@ export const shortageReportSchema = z.object({
   districtProvided: z.array(z.string()),
   schools: z.array(
     z.object({
-      schoolId: z.number().int(),
-      schoolCode: z.string(),
-      schoolName: z.string(),
+      ...schoolFields,
       lines: z.array(shortageLineSchema),
     }),
   ),

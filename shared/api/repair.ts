@@ -1,6 +1,6 @@
 import * as z from 'zod';
 import { homeSchoolFields } from './fields';
-import { calendarDate, idParameter, plainText, recordId, versionNumber } from './input-rules';
+import { calendarDate, idParameter, plainText, recordId, patchSchemaOf } from './input-rules';
 
 /** A repair ticket's path: open, sent to a vendor, back, closed. */
 export const repairStatuses = ['open', 'sent', 'returned', 'closed'] as const;
@@ -31,32 +31,28 @@ export const repairSchema = z.object({
 });
 export type Repair = z.infer<typeof repairSchema>;
 
+/** A repair's cost in cents, up to a million dollars; null when not known yet. */
+const costCents = z.number().int().min(0).max(100_000_000).nullable();
+
 /** What a technician sends to open a ticket. */
 export const repairInputSchema = z.strictObject({
   instrumentId: recordId(),
   problem: plainText().min(3).max(2000),
   vendor: plainText().max(120).nullable().default(null),
   inHouse: z.boolean().default(true),
-  estimateCents: z.number().int().min(0).max(100_000_000).nullable().default(null),
+  estimateCents: costCents.default(null),
   notes: plainText().max(4000).default(''),
 });
 export type RepairInput = z.infer<typeof repairInputSchema>;
 
 /** What a PATCH sends: any fields, plus the version the editor started from. */
-export const repairPatchSchema = z
-  .strictObject({
-    problem: plainText().min(3).max(2000),
-    vendor: plainText().max(120).nullable(),
-    inHouse: z.boolean(),
-    estimateCents: z.number().int().min(0).max(100_000_000).nullable(),
-    finalCostCents: z.number().int().min(0).max(100_000_000).nullable(),
-    sentOn: dateText.nullable(),
-    returnedOn: dateText.nullable(),
-    status: z.enum(repairStatuses),
-    notes: plainText().max(4000),
-  })
-  .partial()
-  .extend({ version: versionNumber });
+export const repairPatchSchema = patchSchemaOf({
+  ...repairInputSchema.omit({ instrumentId: true }).shape,
+  finalCostCents: costCents,
+  sentOn: dateText.nullable(),
+  returnedOn: dateText.nullable(),
+  status: z.enum(repairStatuses),
+});
 export type RepairPatch = z.infer<typeof repairPatchSchema>;
 
 /** The field filters of `GET /api/repairs`. */

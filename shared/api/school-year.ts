@@ -1,4 +1,5 @@
 import * as z from 'zod';
+import { schoolRowFields } from './fields';
 
 /** A calendar day as the API writes it. */
 const day = z
@@ -115,9 +116,7 @@ export const yearStartResultSchema = yearStartCountsSchema.extend({
   basis: z.number().int(),
   schools: z.array(
     yearStartCountsSchema.extend({
-      schoolId: z.number().int(),
-      code: z.string(),
-      name: z.string(),
+      ...schoolRowFields,
       sendsTo: z.string().nullable(),
     }),
   ),

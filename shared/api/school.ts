@@ -1,5 +1,5 @@
 import * as z from 'zod';
-import { plainText, versionNumber } from './input-rules';
+import { plainText, patchSchemaOf } from './input-rules';
 import { listResponseSchema } from './list';
 
 export const schoolLevels = ['elementary', 'middle', 'high', 'k-8', 'other'] as const;
@@ -72,20 +72,10 @@ export const schoolInputSchema = schoolFields.refine(gradesInOrder, gradesInOrde
 export type SchoolInput = z.infer<typeof schoolInputSchema>;
 
 /** What a PATCH sends: any fields, plus the version the editor started from. */
-export const schoolPatchSchema = z
-  .strictObject({
-    code: schoolFields.shape.code,
-    name: schoolFields.shape.name,
-    level: schoolFields.shape.level,
-    address: schoolFields.shape.address.removeDefault(),
-    lowestGrade: gradeSchema,
-    highestGrade: gradeSchema,
-    sendsToSchoolId: schoolFields.shape.sendsToSchoolId.removeDefault(),
-    closedOn: schoolFields.shape.closedOn.removeDefault(),
-  })
-  .partial()
-  .extend({ version: versionNumber })
-  .refine(gradesInOrder, gradesInOrderMessage);
+export const schoolPatchSchema = patchSchemaOf(schoolFields.shape).refine(
+  gradesInOrder,
+  gradesInOrderMessage,
+);
 export type SchoolPatch = z.infer<typeof schoolPatchSchema>;
 
 /** How a grade is written: K for kindergarten, else its number. */

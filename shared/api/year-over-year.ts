@@ -1,5 +1,5 @@
 import * as z from 'zod';
-import { studentNameFields } from './fields';
+import { schoolRowFields, studentNameFields } from './fields';
 import { calendarDate, idParameter } from './input-rules';
 
 /** Filters of `GET /api/analytics/year-over-year`. */
@@ -57,9 +57,7 @@ export const yearOverYearSchema = z.object({
   retention: z.object({
     total: retentionCount,
     /** By the school the students played at last year. */
-    bySchool: z.array(
-      retentionCount.extend({ schoolId: z.number().int(), code: z.string(), name: z.string() }),
-    ),
+    bySchool: z.array(retentionCount.extend(schoolRowFields)),
     /** By last year's grade: grade → grade + 1; `changesSchool` where most moved up a school. */
     byTransition: z.array(
       retentionCount.extend({

@@ -1,15 +1,8 @@
 import type { Interval } from './interval';
 
-/** The sections of a school band and orchestra. */
-export type InstrumentFamily = 'woodwind' | 'brass' | 'percussion' | 'strings';
-
-/** Every instrument family, in score order. */
-export const instrumentFamilies: readonly InstrumentFamily[] = [
-  'woodwind',
-  'brass',
-  'percussion',
-  'strings',
-];
+/** The sections of a school band and orchestra, in score order. */
+export const instrumentFamilies = ['woodwind', 'brass', 'percussion', 'strings'] as const;
+export type InstrumentFamily = (typeof instrumentFamilies)[number];
 
 /** A range of written notes, lowest and highest included. */
 export interface NoteRange {

@@ -1,22 +1,20 @@
 import { parseNote, type Letter } from './pitch';
 
-/** The kinds of scale a requirement can ask for. */
-export type Mode = 'major' | 'natural-minor' | 'harmonic-minor' | 'melodic-minor' | 'chromatic';
+/** The kinds of scale a requirement can ask for, in the order a ladder usually meets them. */
+export const modes = [
+  'major',
+  'natural-minor',
+  'harmonic-minor',
+  'melodic-minor',
+  'chromatic',
+] as const;
+export type Mode = (typeof modes)[number];
 
 /** A key: its tonic (a letter with '#', '##', 'b' or 'bb') and its mode. */
 export interface Key {
   tonic: string;
   mode: Mode;
 }
-
-/** Every mode, in the order a ladder usually meets them. */
-export const modes: readonly Mode[] = [
-  'major',
-  'natural-minor',
-  'harmonic-minor',
-  'melodic-minor',
-  'chromatic',
-];
 
 /**
  * The line of fifths from Cb to A#: each note a perfect fifth above the one before it. A key

@@ -2,16 +2,9 @@ import type { Key } from './keys';
 import { midi, spellAtMidi } from './pitch';
 import { arpeggio, scale, type Direction } from './scales';
 
-/** The practice patterns a requirement can ask for. */
-export type PatternId = 'long-tones' | 'arpeggio-long' | 'cycle-broad' | 'cycle-brisk';
-
-/** Every practice pattern, simplest first. */
-export const patternIds: readonly PatternId[] = [
-  'long-tones',
-  'arpeggio-long',
-  'cycle-broad',
-  'cycle-brisk',
-];
+/** The practice patterns a requirement can ask for, simplest first. */
+export const patternIds = ['long-tones', 'arpeggio-long', 'cycle-broad', 'cycle-brisk'] as const;
+export type PatternId = (typeof patternIds)[number];
 
 /** One note of a pattern's outline, before articulation: its pitch, length and place. */
 export interface OutlineNote {

@@ -6,10 +6,8 @@ import { midi, spellAtMidi } from './pitch';
 import { writtenKey } from './transposition';
 
 /** How the notes of a pattern are started: each tongued, slurred, or tongued up and slurred down. */
-export type Articulation = 'tongued' | 'slurred' | 'tongue-up-slur-down';
-
-/** Every articulation, simplest first. */
-export const articulations: readonly Articulation[] = ['tongued', 'slurred', 'tongue-up-slur-down'];
+export const articulations = ['tongued', 'slurred', 'tongue-up-slur-down'] as const;
+export type Articulation = (typeof articulations)[number];
 
 /** Whether notes are given as they sound (concert) or as the player reads them (written). */
 export type PatternPitch = 'concert' | 'written';

@@ -9,6 +9,7 @@ import { openDatabase, rowsOf } from '../../server/db/client';
 import { runTutti } from '../support/cli';
 import { startServerProcess, type ServerProcess } from '../support/server-process';
 import { demoEmail } from '../support/test-app';
+import { binary } from '../support/binary-body';
 
 // A 1×1 PNG: the 8-byte signature 89 50 4E 47 0D 0A 1A 0A (PNG specification, "PNG signature"), IHDR, IDAT, IEND.
 const onePixelPng = Buffer.from(
@@ -172,40 +173,24 @@ describe('tutti backup while the server runs, and tutti restore', () => {
 
     const again = await startServerProcess(restored);
     servers.push(again);
-    const photoBack = await request(again.url)
-      .get(photo.body.url)
-      .set('Authorization', `Bearer ${technician}`)
-      .buffer(true)
-      .parse((response, callback) => {
-        const chunks: Buffer[] = [];
-        response.on('data', (chunk: Buffer) => chunks.push(chunk));
-        response.on('end', () => callback(null, Buffer.concat(chunks)));
-      });
+    const photoBack = await binary(
+      request(again.url).get(photo.body.url).set('Authorization', `Bearer ${technician}`),
+    );
     expect(photoBack.status).toBe(200);
     expect(Buffer.compare(photoBack.body as Buffer, onePixelPng)).toBe(0);
-    const recordingBack = await request(again.url)
-      .get(`/api/pass-offs/${passOff.id}/recording`)
-      .set('Authorization', `Bearer ${director}`)
-      .buffer(true)
-      .parse((response, callback) => {
-        const chunks: Buffer[] = [];
-        response.on('data', (chunk: Buffer) => chunks.push(chunk));
-        response.on('end', () => callback(null, Buffer.concat(chunks)));
-      });
+    const recordingBack = await binary(
+      request(again.url)
+        .get(`/api/pass-offs/${passOff.id}/recording`)
+        .set('Authorization', `Bearer ${director}`),
+    );
     expect(recordingBack.status).toBe(200);
     expect(Buffer.compare(recordingBack.body as Buffer, wave)).toBe(0);
 
     // A coordinator downloads the same kind of archive from the app; nobody else may.
     const coordinator = await tokenFor(again, 'coordinator');
-    const download = await request(again.url)
-      .get('/api/backup')
-      .set('Authorization', `Bearer ${coordinator}`)
-      .buffer(true)
-      .parse((response, callback) => {
-        const chunks: Buffer[] = [];
-        response.on('data', (chunk: Buffer) => chunks.push(chunk));
-        response.on('end', () => callback(null, Buffer.concat(chunks)));
-      });
+    const download = await binary(
+      request(again.url).get('/api/backup').set('Authorization', `Bearer ${coordinator}`),
+    );
     expect(download.status).toBe(200);
     expect(download.headers['content-type']).toContain('application/gzip');
     expect(download.headers['content-disposition']).toMatch(

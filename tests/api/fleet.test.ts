@@ -3,20 +3,13 @@ import request from 'supertest';
 import { instrumentDetailSchema, instrumentSchema } from '@shared/api/instrument';
 import { listResponseSchema } from '@shared/api/list';
 import { useTestApp, type SignedInClient, byRole, everyRole } from '../support/test-app';
+import { binary } from '../support/binary-body';
 
 // A 1×1 PNG: the 8-byte signature 89 50 4E 47 0D 0A 1A 0A (PNG specification, "PNG signature"), IHDR, IDAT, IEND.
 const onePixelPng = Buffer.from(
   'iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mNkYPhfDwAChwGA60e6kgAAAABJRU5ErkJggg==',
   'base64',
 );
-
-function binary(test: request.Test) {
-  return test.buffer(true).parse((response, callback) => {
-    const chunks: Buffer[] = [];
-    response.on('data', (chunk: Buffer) => chunks.push(chunk));
-    response.on('end', () => callback(null, Buffer.concat(chunks)));
-  });
-}
 
 function upload(
   client: SignedInClient,
@@ -25,10 +18,10 @@ function upload(
   filename: string,
   contentType: string,
 ) {
-  return request(app.url)
-    .post(`/api/instruments/${instrumentId}/photos`)
-    .set({ Cookie: client.cookie, Origin: app.url })
-    .attach('photo', bytes, { filename, contentType });
+  return client.upload(`/api/instruments/${instrumentId}/photos`, 'photo', bytes, {
+    filename,
+    contentType,
+  });
 }
 
 function importCsv(client: SignedInClient, csv: string, dryRun: boolean) {

@@ -1,5 +1,4 @@
 import { expect } from 'vitest';
-import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
 import {
   allButCoordinator,
@@ -34,12 +33,7 @@ export function importSteps(app: TestApp, coordinator: SignedInClient) {
     fields: Record<string, string> = {},
     fileName = 'roster.csv',
   ) {
-    let call = request(app.url)
-      .post('/api/imports/preview')
-      .set({ Cookie: client.cookie, Origin: app.url })
-      .attach('file', file, fileName);
-    for (const [name, value] of Object.entries(fields)) call = call.field(name, value);
-    return call;
+    return client.upload('/api/imports/preview', 'file', file, fileName, fields);
   }
 
   async function previewAndCommit(

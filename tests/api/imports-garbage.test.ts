@@ -1,5 +1,4 @@
 import fc from 'fast-check';
-import request from 'supertest';
 import { describe, expect, it } from 'vitest';
 import { rowsOf } from '../../server/db/client';
 import { useTestApp } from '../support/test-app';
@@ -48,12 +47,13 @@ describe('Roster import preview with garbage', () => {
         mappingField,
         fc.string({ maxLength: 40 }),
         async (bytes, mapping, fileName) => {
-          let call = request(app.url)
-            .post('/api/imports/preview')
-            .set({ Cookie: coordinator.cookie, Origin: app.url })
-            .attach('file', Buffer.from(bytes), fileName.replace(/["\r\n\\]/g, '') || 'x.csv');
-          if (mapping !== undefined) call = call.field('mapping', mapping);
-          const answer = await call;
+          const answer = await coordinator.upload(
+            '/api/imports/preview',
+            'file',
+            Buffer.from(bytes),
+            fileName.replace(/["\r\n\\]/g, '') || 'x.csv',
+            mapping === undefined ? {} : { mapping },
+          );
           expect([200, 400]).toContain(answer.status);
         },
       ),

@@ -1,4 +1,3 @@
-import request from 'supertest';
 import { describe, expect, it } from 'vitest';
 import { toRosterCsv } from '@shared/roster';
 import { inventedRoster } from '../bench/roster-import';
@@ -8,11 +7,7 @@ const app = useTestApp({ signIn: ['coordinator'] });
 const { coordinator } = app.clients;
 
 function preview(file: Buffer) {
-  return request(app.url)
-    .post('/api/imports/preview')
-    .set('Cookie', coordinator.cookie)
-    .set('Origin', app.url)
-    .attach('file', file, 'roster.csv');
+  return coordinator.upload('/api/imports/preview', 'file', file, 'roster.csv');
 }
 
 /**

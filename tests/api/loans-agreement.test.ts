@@ -4,6 +4,7 @@ import { sql } from 'drizzle-orm';
 import request from 'supertest';
 import { rowsOf } from '../../server/db/client';
 import { useTestApp, type SignedInClient } from '../support/test-app';
+import { binary } from '../support/binary-body';
 
 let hpmsId: number;
 let tagNumber = 0;
@@ -116,14 +117,7 @@ describe('Loan agreements', () => {
       sql`select signed_name from loans where id = ${loan.id}`,
     );
     expect(after!.signed_name).toBe('Robin Example-Guardian');
-    const pdf = await director
-      .get(`/api/loans/${loan.id}/agreement.pdf`)
-      .buffer(true)
-      .parse((response, callback) => {
-        const chunks: Buffer[] = [];
-        response.on('data', (chunk: Buffer) => chunks.push(chunk));
-        response.on('end', () => callback(null, Buffer.concat(chunks)));
-      });
+    const pdf = await binary(director.get(`/api/loans/${loan.id}/agreement.pdf`));
     expect(pdf.status).toBe(200);
     expect((pdf.body as Buffer).subarray(0, 5).toString('latin1')).toBe('%PDF-');
   });

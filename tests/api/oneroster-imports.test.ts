@@ -25,10 +25,7 @@ function bundle(folder: string, change: Record<string, (text: string) => string>
 }
 
 function preview(file: Buffer, fileName = 'export.zip') {
-  return request(app.url)
-    .post('/api/imports/preview')
-    .set({ Cookie: coordinator.cookie, Origin: app.url })
-    .attach('file', file, fileName);
+  return coordinator.upload('/api/imports/preview', 'file', file, fileName);
 }
 
 async function commit(file: Buffer, options: { skipInvalid?: boolean } = {}) {

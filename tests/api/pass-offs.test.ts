@@ -1,11 +1,11 @@
 import { randomUUID } from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
-import request from 'supertest';
 import { passOffBatchResultSchema, passOffSchema } from '@shared/api/pass-off';
 import { listResponseSchema } from '@shared/api/list';
 import { rowsOf } from '../../server/db/client';
 import { byRole, everyRole, useTestApp, type SignedInClient } from '../support/test-app';
+import { binary } from '../support/binary-body';
 
 let hpmsStudentId: number;
 let qhmsStudentId: number;
@@ -36,11 +36,7 @@ const upload = (
   path: string,
   bytes: Buffer,
   options: string | { filename: string; contentType?: string },
-) =>
-  request(app.url)
-    .post(path)
-    .set({ Cookie: client.cookie, Origin: app.url })
-    .attach('recording', bytes, options);
+) => client.upload(path, 'recording', bytes, options);
 
 const entry = (studentId: number, extra: Record<string, unknown> = {}) => ({
   studentId,
@@ -283,14 +279,7 @@ describe('Pass-off recordings', () => {
       ),
     );
     expect(stored!.stored_name).toMatch(/^[0-9a-f]{32}$/);
-    const heard = await student
-      .get(`/api/pass-offs/${passOffId}/recording`)
-      .buffer(true)
-      .parse((response, done) => {
-        const chunks: Buffer[] = [];
-        response.on('data', (chunk: Buffer) => chunks.push(chunk));
-        response.on('end', () => done(null, Buffer.concat(chunks)));
-      });
+    const heard = await binary(student.get(`/api/pass-offs/${passOffId}/recording`));
     expect(heard.status).toBe(200);
     expect(heard.headers['content-type']).toBe('audio/wav');
     expect(Buffer.compare(heard.body as Buffer, wave)).toBe(0);

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { sql } from 'drizzle-orm';
 import { payOnHostedPage, sessionIdOf, until, usePaymentsApp } from './payments-app';
+import { binary } from '../support/binary-body';
 
 const { app, coordinator, director, technician, query, lend, startPaying, fee } = usePaymentsApp();
 
@@ -101,14 +102,7 @@ describe('the business office', () => {
     const csv = await coordinator.get('/api/fees/export.csv');
     expect(csv.status).toBe(200);
     expect(csv.text.split('\r\n')[0]).toContain('Waiver reason');
-    const xlsx = await coordinator
-      .get('/api/fees/export.xlsx')
-      .buffer(true)
-      .parse((response, done) => {
-        const chunks: Buffer[] = [];
-        response.on('data', (chunk: Buffer) => chunks.push(chunk));
-        response.on('end', () => done(null, Buffer.concat(chunks)));
-      });
+    const xlsx = await binary(coordinator.get('/api/fees/export.xlsx'));
     // An XLSX file is a ZIP archive (ECMA-376 Part 2): it starts with the local file header "PK\x03\x04".
     expect((xlsx.body as Buffer).subarray(0, 4)).toEqual(Buffer.from([0x50, 0x4b, 0x03, 0x04]));
   });

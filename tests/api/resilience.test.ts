@@ -1,11 +1,7 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
+import { describe, expect, it } from 'vitest';
+import { demoEmail, useTestApp } from '../support/test-app';
 
-let app: TestApp;
-beforeAll(async () => {
-  app = await startTestApp();
-});
-afterAll(() => app?.close());
+const app = useTestApp();
 
 describe('When the identity provider is down', () => {
   it('should show a clear sign-in error page while tokens keep working', async () => {

@@ -10,6 +10,7 @@ import {
   readRosterBefore,
   seatsOfYear,
 } from '../support/year-start-expectation';
+import { binary } from '../support/binary-body';
 
 let app: TestApp;
 let coordinator: SignedInClient;
@@ -142,15 +143,9 @@ describe('School years', () => {
 
 describe('Starting a new school year', () => {
   it('should offer the coordinator a backup to download before the start, one that gunzips', async () => {
-    const backup = await request(app.url)
-      .get('/api/backup')
-      .set({ Cookie: coordinator.cookie })
-      .buffer(true)
-      .parse((response, done) => {
-        const chunks: Buffer[] = [];
-        response.on('data', (chunk: Buffer) => chunks.push(chunk));
-        response.on('end', () => done(null, Buffer.concat(chunks)));
-      });
+    const backup = await binary(
+      request(app.url).get('/api/backup').set({ Cookie: coordinator.cookie }),
+    );
     if (process.env['TEST_DATABASE_URL']) {
       // On a PostgreSQL server the backup is pg_dump's, and the answer says so.
       expect(backup.status).toBe(409);
@@ -200,10 +195,7 @@ describe('Starting a new school year', () => {
     const header =
       'student_id,first_name,last_name,preferred_name,grade,school_code,ensemble,instrument,guardian_name,guardian_email';
     const file = Buffer.from(`${header}\r\n990001,Wren,Marlowe,,7,HPMS,,,,\r\n`);
-    const uploaded = await request(app.url)
-      .post('/api/imports/preview')
-      .set({ Cookie: coordinator.cookie, Origin: app.url })
-      .attach('file', file, 'late.csv');
+    const uploaded = await coordinator.upload('/api/imports/preview', 'file', file, 'late.csv');
     expect(uploaded.status).toBe(200);
     const imported = await coordinator.post('/api/imports/commit', {
       importToken: uploaded.body.importToken,
@@ -389,10 +381,12 @@ describe('Starting a new school year', () => {
     const file = Buffer.from(
       `${header}\r\n990002,Ash,Penhallow,,9,TRHS,Concert Band,trumpet,,\r\n`,
     );
-    const uploaded = await request(app.url)
-      .post('/api/imports/preview')
-      .set({ Cookie: coordinator.cookie, Origin: app.url })
-      .attach('file', file, 'after-start.csv');
+    const uploaded = await coordinator.upload(
+      '/api/imports/preview',
+      'file',
+      file,
+      'after-start.csv',
+    );
     const imported = await coordinator.post('/api/imports/commit', {
       importToken: uploaded.body.importToken,
       withdrawMissing: false,

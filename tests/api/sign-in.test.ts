@@ -1,12 +1,8 @@
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { CookieJar, walkSignIn } from '../../fakes/oidc/index';
-import { demoEmail, startTestApp, type TestApp } from '../support/test-app';
+import { demoEmail, useTestApp } from '../support/test-app';
 
-let app: TestApp;
-beforeAll(async () => {
-  app = await startTestApp();
-});
-afterAll(() => app?.close());
+const app = useTestApp();
 
 describe('Sign-in through the identity provider', () => {
   it('should answer 401 on /api/me when nobody is signed in', async () => {

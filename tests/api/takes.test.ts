@@ -10,6 +10,7 @@ import { recordingPath } from '../../server/pass-offs/recordings-store';
 import { removeExpiredTakes } from '../../server/takes/takes-service';
 import { synthTake, wavBytes } from '../support/synth-take';
 import { byRole, demoEmail, everyRole, useTestApp, type SignedInClient } from '../support/test-app';
+import { binary } from '../support/binary-body';
 
 // A short take of concert Eb major long tones for a flute, with its analysis.
 const notes = pattern('arpeggio-long', { tonic: 'Eb', mode: 'major' }, { instrument: 'flute' });
@@ -26,12 +27,7 @@ const keep = (
   bytes: Buffer = wave,
   filename = 'take.wav',
 ) => {
-  let call = request(app.url)
-    .post('/api/takes')
-    .set({ Cookie: client.cookie, Origin: app.url })
-    .attach('recording', bytes, filename);
-  for (const [name, value] of Object.entries(fields)) call = call.field(name, value);
-  return call;
+  return client.upload('/api/takes', 'recording', bytes, filename, fields);
 };
 const goodFields = () => ({
   requirementCode: 'r1-eb-major',
@@ -77,14 +73,7 @@ describe('Takes', () => {
     expect(sent.body.sentAt).not.toBeNull();
     const listed = (await director.get('/api/takes')).body as { id: number; studentName: string }[];
     expect(listed.map((t) => t.id)).toEqual([takeId]);
-    const heard = await director
-      .get(`/api/takes/${takeId}/recording`)
-      .buffer(true)
-      .parse((res, done) => {
-        const chunks: Buffer[] = [];
-        res.on('data', (chunk: Buffer) => chunks.push(chunk));
-        res.on('end', () => done(null, Buffer.concat(chunks)));
-      });
+    const heard = await binary(director.get(`/api/takes/${takeId}/recording`));
     expect(heard.status).toBe(200);
     expect(heard.headers['content-type']).toBe('audio/wav');
     expect(Buffer.compare(heard.body as Buffer, wave)).toBe(0);
@@ -125,14 +114,8 @@ describe('Takes', () => {
 });
 
 describe('A director’s take kept as evidence', () => {
-  const heard = (client: SignedInClient, fields: Record<string, string>, bytes: Buffer = wave) => {
-    let call = request(app.url)
-      .post('/api/takes/heard')
-      .set({ Cookie: client.cookie, Origin: app.url })
-      .attach('recording', bytes, 'heard.wav');
-    for (const [name, value] of Object.entries(fields)) call = call.field(name, value);
-    return call;
-  };
+  const heard = (client: SignedInClient, fields: Record<string, string>, bytes: Buffer = wave) =>
+    client.upload('/api/takes/heard', 'recording', bytes, 'heard.wav', fields);
   const studentOf = async (email: string) =>
     rowsOf<{ student_id: number }>(
       await app.database.db.execute(sql`select student_id from users where email = ${email}`),

@@ -26,6 +26,17 @@ export interface SignedInClient {
   post(path: string, body?: object): request.Test;
   patch(path: string, body?: object): request.Test;
   delete(path: string): request.Test;
+  /**
+   * A multipart/form-data POST (RFC 7578) as a browser's form sends it: the file's bytes in
+   * `field`, named as `file` says (supertest's `.attach`), then the other form fields.
+   */
+  upload(
+    path: string,
+    field: string,
+    bytes: Buffer,
+    file: string | { filename: string; contentType?: string },
+    fields?: Record<string, string>,
+  ): request.Test;
 }
 
 /** A running app on an ephemeral port with its own database, identity provider and mail catcher. */
@@ -179,6 +190,7 @@ export function useTestApp<const Name extends string = never>(
     post: (target, body) => running().clients[name].post(target, body),
     patch: (target, body) => running().clients[name].patch(target, body),
     delete: (target) => running().clients[name].delete(target),
+    upload: (...upload) => running().clients[name].upload(...upload),
   });
   const clients = Object.fromEntries(
     (options.signIn ?? []).map((name) => [name, clientOf(name)]),
@@ -265,6 +277,13 @@ async function startApp(options: {
           .set(headers)
           .send(body ?? {}),
       delete: (target: string) => agent.delete(target).set(headers),
+      upload: (
+        ...[target, field, bytes, file, fields = {}]: Parameters<SignedInClient['upload']>
+      ) => {
+        let call = agent.post(target).set(headers).attach(field, bytes, file);
+        for (const [name, value] of Object.entries(fields)) call = call.field(name, value);
+        return call;
+      },
     };
   };
 
