@@ -11,9 +11,10 @@ import {
   type ComponentRef,
   type ElementRef,
 } from '@angular/core';
-import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { takeUntilDestroyed, toSignal } from '@angular/core/rxjs-interop';
+import { BreakpointObserver } from '@angular/cdk/layout';
 import { NavigationEnd, Router, RouterOutlet } from '@angular/router';
-import { filter } from 'rxjs';
+import { filter, map } from 'rxjs';
 import { MatIcon } from '@angular/material/icon';
 import { roleLabels } from '@shared/api/roles';
 import { CurrentUser } from '../auth/current-user';
@@ -25,13 +26,17 @@ import { navigationGroups, visibleItems } from './navigation';
 import type { NavigationDrawer } from './navigation-drawer';
 import { NavigationList, type NavigationGroup } from './navigation-list';
 
+/** Where the rail shows instead of the drawer: Material Design 3's expanded window class. */
+const railQuery = '(min-width: 840px)';
+
 /**
  * The frame of every signed-in page: the navigation and the top bar. Its layout follows
  * Material Design 3's window size classes (m3.material.io, "Applying layout: window size
  * classes") in shell.scss: below 840 px (compact and medium) the navigation is a modal drawer
  * behind a menu button; from 840 px an icon rail, so a tablet held sideways keeps its width for
- * the page; from 1,200 px the labelled rail. The layout is CSS alone, and the drawer's code is
- * fetched on the first tap of the menu button, so wide screens never download it.
+ * the page; from 1,200 px the labelled rail. The layout is CSS; the rail's links are created only
+ * where the rail shows, and the drawer's code is fetched on the first tap of the menu button, so
+ * wide screens never download it.
  */
 @Component({
   selector: 'tb-shell',
@@ -47,6 +52,16 @@ export class Shell {
   private readonly router = inject(Router);
   private readonly drawerHost = viewChild.required('drawerHost', { read: ViewContainerRef });
   private drawer: Promise<ComponentRef<NavigationDrawer>> | null = null;
+  private readonly breakpoints = inject(BreakpointObserver);
+  /**
+   * Whether the window is wide enough for the rail (the 840 px of shell.scss). Below it the rail
+   * is hidden, so its links are not created at all: on a phone's first render that is a few dozen
+   * links, icons and active-link checks of work that would show nothing.
+   */
+  protected readonly railShown = toSignal(
+    this.breakpoints.observe(railQuery).pipe(map((state) => state.matches)),
+    { initialValue: this.breakpoints.isMatched(railQuery) },
+  );
   /** Whether the drawer is open (narrow windows only). */
   protected readonly drawerOpen = signal(false);
   /** Whether the navigation under way came from the rail, so its page's heading takes focus. */

@@ -1,6 +1,7 @@
 import {
   ChangeDetectionStrategy,
   Component,
+  afterNextRender,
   computed,
   inject,
   input,
@@ -131,6 +132,22 @@ export class TouchEntry {
       return { requirement, asked, view: cell, tempo, takeSent, ...this.stateOf(cell) };
     });
   });
+
+  /**
+   * How many of the cards are created: the first alone on the component's first render, so the
+   * screen's first frame waits for one card rather than the whole rung; all of them from the
+   * task after that frame (see the constructor).
+   */
+  private readonly cardCount = signal(1);
+  protected readonly shownCards = computed(() => this.cards().slice(0, this.cardCount()));
+
+  constructor() {
+    // A task queued from a requestAnimationFrame callback runs after that frame is rendered
+    // (HTML Living Standard, "update the rendering"), so the first card is painted first.
+    afterNextRender(() =>
+      requestAnimationFrame(() => setTimeout(() => this.cardCount.set(Infinity))),
+    );
+  }
 
   /** What is left to send across the whole queue, always in view. */
   protected readonly queueLine = computed(() => {
