@@ -64,8 +64,6 @@ import { FleetLoans } from '../loan-data';
     </div>
   `,
   styles: `
-    @use '../../../theme/icon-label';
-
     .loan {
       margin-bottom: 12px;
       max-width: 44rem;
@@ -79,10 +77,15 @@ import { FleetLoans } from '../loan-data';
       }
     }
     .late {
+      display: inline-flex;
+      align-items: center;
+      gap: 4px;
       margin-left: 8px;
       font-weight: 600;
       color: var(--tb-danger);
-      @include icon-label.icon-label {
+      mat-icon {
+        width: 18px;
+        height: 18px;
         fill: var(--tb-danger);
       }
     }
