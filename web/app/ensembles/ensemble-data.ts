@@ -1,6 +1,6 @@
 import type { HttpResourceRef } from '@angular/common/http';
 import { Injectable } from '@angular/core';
-import { ApiData } from '../core/state/api-data';
+import { RecordData } from '../core/state/record-data';
 import type { Observable } from 'rxjs';
 import {
   ensembleDetailSchema,
@@ -16,7 +16,16 @@ export const ensembleListSchema = listResponseSchema(ensembleSchema);
 
 /** Reads and writes ensembles through `/api/ensembles`. */
 @Injectable({ providedIn: 'root' })
-export class EnsembleData extends ApiData {
+export class EnsembleData extends RecordData<
+  Ensemble,
+  EnsembleInput,
+  EnsemblePatch,
+  EnsembleDetail
+> {
+  constructor() {
+    super('/api/ensembles', ensembleSchema, ensembleDetailSchema);
+  }
+
   /** The ensembles `query()` selects, read again whenever it changes. */
   listed(
     query: () => Record<string, string | number>,
@@ -36,23 +45,7 @@ export class EnsembleData extends ApiData {
     }, ensembleListSchema);
   }
 
-  /** The ensemble of `id()`, with its members; idle while `id()` is undefined. */
-  record(id: () => number | undefined): HttpResourceRef<EnsembleDetail | undefined> {
-    return this.resource(
-      () => (id() === undefined ? undefined : `/api/ensembles/${id()}`),
-      ensembleDetailSchema,
-    );
-  }
-
   get(id: number): Observable<EnsembleDetail> {
     return this.read(`/api/ensembles/${id}`, ensembleDetailSchema);
-  }
-
-  create(input: EnsembleInput): Observable<Ensemble> {
-    return this.write('POST', '/api/ensembles', input, ensembleSchema);
-  }
-
-  update(id: number, patch: EnsemblePatch): Observable<Ensemble> {
-    return this.write('PATCH', `/api/ensembles/${id}`, patch, ensembleSchema);
   }
 }

@@ -1,22 +1,9 @@
 import type { Routes } from '@angular/router';
-import { capabilityGuard } from '../core/auth/signed-in-guard';
+import { recordPageRoutes } from '../core/routing/record-page-routes';
 
-export const ensemblesRoutes: Routes = [
-  {
-    path: '',
-    loadComponent: () => import('./ensemble-list/ensemble-list').then((m) => m.EnsembleList),
-    title: 'Ensembles · Tuttiboard',
-  },
-  {
-    path: 'new',
-    canActivate: [capabilityGuard],
-    data: { capability: 'roster:write', id: 'new' },
-    loadComponent: () => import('./ensemble-detail/ensemble-detail').then((m) => m.EnsembleDetail),
-    title: 'Add an ensemble · Tuttiboard',
-  },
-  {
-    path: ':id',
-    loadComponent: () => import('./ensemble-detail/ensemble-detail').then((m) => m.EnsembleDetail),
-    title: 'Ensemble · Tuttiboard',
-  },
-];
+export const ensemblesRoutes: Routes = recordPageRoutes({
+  list: ['Ensembles', () => import('./ensemble-list/ensemble-list').then((m) => m.EnsembleList)],
+  detail: () => import('./ensemble-detail/ensemble-detail').then((m) => m.EnsembleDetail),
+  create: ['Add an ensemble', 'roster:write'],
+  record: [':id', 'Ensemble'],
+});

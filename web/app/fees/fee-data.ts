@@ -5,12 +5,14 @@ import type { Observable } from 'rxjs';
 import {
   feeDetailSchema,
   feeListSchema,
+  feeQuoteSchema,
   feeRowSchema,
   feeScheduleSchema,
   feeSummarySchema,
   reconciliationSchema,
   type FeeDetail,
   type FeeList,
+  type FeeQuote,
   type FeeRow,
   type FeeSchedule,
   type FeeSummary,
@@ -18,7 +20,6 @@ import {
   type RefundInput,
 } from '@shared/api/fee';
 import { reminderResultSchema, type ReminderResult } from '@shared/api/loan';
-import { parsedWith } from '../core/parse';
 
 /** Usage fees through `/api/fees`: the ledger, refunds, payments by hand and the schedule. */
 @Injectable({ providedIn: 'root' })
@@ -69,8 +70,23 @@ export class FeeLedger extends ApiData {
     );
   }
 
+  /** The district's usage-fee schedule. */
+  schedule(): HttpResourceRef<FeeSchedule | undefined> {
+    return this.resource(() => '/api/fees/schedule', feeScheduleSchema);
+  }
+
   saveSchedule(schedule: FeeSchedule): Observable<FeeSchedule> {
-    return this.http.put('/api/fees/schedule', schedule).pipe(parsedWith(feeScheduleSchema));
+    return this.write('PUT', '/api/fees/schedule', schedule, feeScheduleSchema);
+  }
+
+  /** The fee the schedule gives for the pair `chosen()` names; idle while it is undefined. */
+  quote(
+    chosen: () => { instrumentId: number; studentId: number } | undefined,
+  ): HttpResourceRef<FeeQuote | undefined> {
+    return this.resource(() => {
+      const params = chosen();
+      return params ? { url: '/api/fees/quote', params } : undefined;
+    }, feeQuoteSchema);
   }
 
   exportUrl(format: 'csv' | 'xlsx', query: Record<string, string | number>): string {

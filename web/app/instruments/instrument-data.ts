@@ -1,6 +1,5 @@
-import type { HttpResourceRef } from '@angular/common/http';
 import { Injectable } from '@angular/core';
-import { ApiData } from '../core/state/api-data';
+import { RecordData } from '../core/state/record-data';
 import type { Observable } from 'rxjs';
 import { listResponseSchema, type ListResponse } from '@shared/api/list';
 import {
@@ -21,23 +20,19 @@ const instrumentListSchema = listResponseSchema(instrumentSchema);
 
 /** Reads and writes the district's instruments through `/api/instruments`. */
 @Injectable({ providedIn: 'root' })
-export class FleetInstruments extends ApiData {
+export class FleetInstruments extends RecordData<
+  Instrument,
+  InstrumentInput,
+  InstrumentPatch,
+  InstrumentDetail
+> {
+  constructor() {
+    super('/api/instruments', instrumentSchema, instrumentDetailSchema);
+  }
+
   /** A page of the fleet, for pickers: `q` searches asset tag, serial, maker and model. */
   list(query: Record<string, string | number>): Observable<ListResponse<Instrument>> {
     return this.read('/api/instruments', instrumentListSchema, query);
-  }
-
-  /** The instrument of `id()` with its timeline, photos, current loan and open repairs. */
-  record(id: () => number): HttpResourceRef<InstrumentDetail | undefined> {
-    return this.resource(() => `/api/instruments/${id()}`, instrumentDetailSchema);
-  }
-
-  create(input: InstrumentInput): Observable<Instrument> {
-    return this.write('POST', '/api/instruments', input, instrumentSchema);
-  }
-
-  update(id: number, patch: InstrumentPatch): Observable<Instrument> {
-    return this.write('PATCH', `/api/instruments/${id}`, patch, instrumentSchema);
   }
 
   /** Records that an instrument back from a loan was cleaned and sanitised; it is lendable again. */

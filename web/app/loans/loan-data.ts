@@ -13,7 +13,6 @@ import {
   type ReminderResult,
   type ReturnInput,
 } from '@shared/api/loan';
-import { parsedWith } from '../core/parse';
 
 const loanListSchema = listResponseSchema(loanSchema);
 
@@ -65,10 +64,13 @@ export class FleetLoans extends ApiData {
     return `/api/loans/${id}/agreement.pdf`;
   }
 
+  /** The agreement text in force, with its version. */
+  agreementText(): HttpResourceRef<AgreementText | undefined> {
+    return this.resource(() => '/api/loans/agreement-text', agreementTextSchema);
+  }
+
   /** Replaces the agreement text; loans already signed keep the text they were signed with. */
   saveAgreementText(text: string): Observable<AgreementText> {
-    return this.http
-      .put('/api/loans/agreement-text', { text })
-      .pipe(parsedWith(agreementTextSchema));
+    return this.write('PUT', '/api/loans/agreement-text', { text }, agreementTextSchema);
   }
 }

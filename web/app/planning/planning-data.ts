@@ -1,4 +1,4 @@
-import { httpResource, type HttpResourceRef } from '@angular/common/http';
+import type { HttpResourceRef } from '@angular/common/http';
 import { Injectable } from '@angular/core';
 import {
   replacementPlanSchema,
@@ -6,21 +6,18 @@ import {
   type ReplacementPlan,
   type ShortageReport,
 } from '@shared/api/planning';
+import { ApiData } from '../core/state/api-data';
 
 /** The fleet's plans through `/api/planning`: replacement by depreciation, and shortages. */
 @Injectable({ providedIn: 'root' })
-export class FleetPlanning {
+export class FleetPlanning extends ApiData {
   /** The replacement plan, read once per call (in an injection context). */
   replacement(): HttpResourceRef<ReplacementPlan | undefined> {
-    return httpResource(() => '/api/planning/replacement', {
-      parse: (body) => replacementPlanSchema.parse(body),
-    });
+    return this.resource(() => '/api/planning/replacement', replacementPlanSchema);
   }
 
   /** The shortages and transfers, read once per call (in an injection context). */
   shortages(): HttpResourceRef<ShortageReport | undefined> {
-    return httpResource(() => '/api/planning/shortages', {
-      parse: (body) => shortageReportSchema.parse(body),
-    });
+    return this.resource(() => '/api/planning/shortages', shortageReportSchema);
   }
 }

@@ -1,4 +1,3 @@
-import type { HttpResourceRef } from '@angular/common/http';
 import { Injectable } from '@angular/core';
 import type { Observable } from 'rxjs';
 import type { ListResponse } from '@shared/api/list';
@@ -9,28 +8,17 @@ import {
   type SchoolInput,
   type SchoolPatch,
 } from '@shared/api/school';
-import { ApiData, type ListQuery } from '../core/state/api-data';
+import type { ListQuery } from '../core/state/api-data';
+import { RecordData } from '../core/state/record-data';
 
 /** Reads and writes schools through the API. */
 @Injectable({ providedIn: 'root' })
-export class SchoolData extends ApiData {
+export class SchoolData extends RecordData<School, SchoolInput, SchoolPatch> {
+  constructor() {
+    super('/api/schools', schoolSchema, schoolSchema);
+  }
+
   list(query: ListQuery = {}): Observable<ListResponse<School>> {
     return this.read('/api/schools', schoolListSchema, query);
-  }
-
-  /** The school of `id()`, read again whenever it changes; idle while `id()` is undefined. */
-  record(id: () => number | undefined): HttpResourceRef<School | undefined> {
-    return this.resource(
-      () => (id() === undefined ? undefined : `/api/schools/${id()}`),
-      schoolSchema,
-    );
-  }
-
-  create(input: SchoolInput): Observable<School> {
-    return this.write('POST', '/api/schools', input, schoolSchema);
-  }
-
-  update(id: number, patch: SchoolPatch): Observable<School> {
-    return this.write('PATCH', `/api/schools/${id}`, patch, schoolSchema);
   }
 }

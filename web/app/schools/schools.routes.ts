@@ -1,22 +1,9 @@
 import type { Routes } from '@angular/router';
-import { capabilityGuard } from '../core/auth/signed-in-guard';
+import { recordPageRoutes } from '../core/routing/record-page-routes';
 
-export const schoolsRoutes: Routes = [
-  {
-    path: '',
-    loadComponent: () => import('./school-list/school-list').then((m) => m.SchoolList),
-    title: 'Schools · Tuttiboard',
-  },
-  {
-    path: 'new',
-    canActivate: [capabilityGuard],
-    data: { capability: 'schools:write', id: 'new' },
-    loadComponent: () => import('./school-detail/school-detail').then((m) => m.SchoolDetail),
-    title: 'Add a school · Tuttiboard',
-  },
-  {
-    path: ':id',
-    loadComponent: () => import('./school-detail/school-detail').then((m) => m.SchoolDetail),
-    title: 'School · Tuttiboard',
-  },
-];
+export const schoolsRoutes: Routes = recordPageRoutes({
+  list: ['Schools', () => import('./school-list/school-list').then((m) => m.SchoolList)],
+  detail: () => import('./school-detail/school-detail').then((m) => m.SchoolDetail),
+  create: ['Add a school', 'schools:write'],
+  record: [':id', 'School'],
+});

@@ -1,26 +1,13 @@
 import type { Routes } from '@angular/router';
-import { capabilityGuard } from '../core/auth/signed-in-guard';
+import { recordPageRoutes } from '../core/routing/record-page-routes';
 
 /**
  * The roster's student pages. `/students/:id` itself is the student's progress page; the
  * record is edited at `/students/:id/edit`.
  */
-export const studentsRoutes: Routes = [
-  {
-    path: '',
-    loadComponent: () => import('./student-list/student-list').then((m) => m.StudentList),
-    title: 'Students · Tuttiboard',
-  },
-  {
-    path: 'new',
-    canActivate: [capabilityGuard],
-    data: { capability: 'roster:write', id: 'new' },
-    loadComponent: () => import('./student-detail/student-detail').then((m) => m.StudentDetail),
-    title: 'Add a student · Tuttiboard',
-  },
-  {
-    path: ':id/edit',
-    loadComponent: () => import('./student-detail/student-detail').then((m) => m.StudentDetail),
-    title: 'Student record · Tuttiboard',
-  },
-];
+export const studentsRoutes: Routes = recordPageRoutes({
+  list: ['Students', () => import('./student-list/student-list').then((m) => m.StudentList)],
+  detail: () => import('./student-detail/student-detail').then((m) => m.StudentDetail),
+  create: ['Add a student', 'roster:write'],
+  record: [':id/edit', 'Student record'],
+});

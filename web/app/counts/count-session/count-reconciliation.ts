@@ -118,28 +118,13 @@ interface Group {
         font-size: 0.9rem;
       }
     }
-    .ok {
-      border-top-color: var(--tb-ok);
-      mat-icon {
-        fill: var(--tb-ok);
-      }
-    }
-    .warn {
-      border-top-color: var(--tb-warn);
-      mat-icon {
-        fill: var(--tb-warn);
-      }
-    }
-    .danger {
-      border-top-color: var(--tb-danger);
-      mat-icon {
-        fill: var(--tb-danger);
-      }
-    }
-    .info {
-      border-top-color: var(--tb-teal);
-      mat-icon {
-        fill: var(--tb-teal);
+    // One rule per tone: the card's top rule and its icon in the tone's colour.
+    @each $tone, $colour in (ok: --tb-ok, warn: --tb-warn, danger: --tb-danger, info: --tb-teal) {
+      .#{$tone} {
+        border-top-color: var(#{$colour});
+        mat-icon {
+          fill: var(#{$colour});
+        }
       }
     }
   `,

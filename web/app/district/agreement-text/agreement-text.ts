@@ -1,9 +1,8 @@
-import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, effect, inject, signal } from '@angular/core';
 import { FormControl } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import { agreementTextInputSchema, agreementTextSchema } from '@shared/api/loan';
+import { agreementTextInputSchema } from '@shared/api/loan';
 import { Field } from '../../core/forms/field';
 import { schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
@@ -28,9 +27,7 @@ export class AgreementTextEditor {
 
   protected readonly day = dayText;
   protected readonly errorMessage = errorMessage;
-  protected readonly current = httpResource(() => '/api/loans/agreement-text', {
-    parse: (body) => agreementTextSchema.parse(body),
-  });
+  protected readonly current = this.loans.agreementText();
   protected readonly saving = this.write.saving;
   protected readonly notice = signal('');
   protected readonly failure = signal('');

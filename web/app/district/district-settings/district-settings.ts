@@ -28,6 +28,7 @@ import { SaveRow } from '../../core/forms/save-row';
 import { fieldMessage, schemaValidator } from '../../core/forms/record-form';
 import { errorMessage } from '../../core/parse';
 import { PageState } from '../../core/state/page-state';
+import { ConflictNotice } from '../../core/record-page/conflict-notice';
 import { AgreementTextEditor } from '../agreement-text/agreement-text';
 import { DistrictData } from '../district-data';
 import { FeeScheduleEditor } from '../fee-schedule/fee-schedule';
@@ -42,6 +43,7 @@ import { usualTimeZones } from '../../core/district/time-zones';
   selector: 'tb-district-settings',
   imports: [
     AgreementTextEditor,
+    ConflictNotice,
     FeeScheduleEditor,
     Field,
     MatButtonModule,

@@ -1,8 +1,7 @@
-import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatIconModule } from '@angular/material/icon';
-import { feeScheduleSchema, type FeeSchedule } from '@shared/api/fee';
+import type { FeeSchedule } from '@shared/api/fee';
 import { CurrentUser } from '../../core/auth/current-user';
 import { errorMessage } from '../../core/parse';
 import { centsOf, money } from '../../instruments/instrument-labels';
@@ -33,9 +32,7 @@ export class FeeScheduleEditor {
   protected readonly families = families;
   protected readonly isCoordinator = this.user.can('fees:manage');
   protected readonly errorMessage = errorMessage;
-  protected readonly schedule = httpResource(() => '/api/fees/schedule', {
-    parse: (body) => feeScheduleSchema.parse(body),
-  });
+  protected readonly schedule = this.fees.schedule();
   protected readonly scheduleNotice = signal('');
 
   protected editSchedule(change: (schedule: FeeSchedule) => FeeSchedule): void {

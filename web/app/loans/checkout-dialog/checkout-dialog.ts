@@ -1,4 +1,3 @@
-import { httpResource } from '@angular/common/http';
 import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCheckboxModule } from '@angular/material/checkbox';
@@ -11,7 +10,6 @@ import {
 } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import type { Instrument, InstrumentCondition } from '@shared/api/instrument';
-import { feeQuoteSchema } from '@shared/api/fee';
 import type { CheckoutInput, Loan } from '@shared/api/loan';
 import type { Student } from '@shared/api/student';
 import { CurrentUser } from '../../core/auth/current-user';
@@ -19,6 +17,7 @@ import { errorMessage } from '../../core/parse';
 import { InstrumentPicker } from '../../instruments/instrument-picker/instrument-picker';
 import { centsOf, conditionChoices, dayText } from '../../instruments/instrument-labels';
 import { Field } from '../../core/forms/field';
+import { FeeLedger } from '../../fees/fee-data';
 import { FleetLoans } from '../loan-data';
 import { accessoriesFor } from './accessories';
 import { StudentPicker } from './student-picker';
@@ -93,18 +92,13 @@ export class CheckoutDialog {
     accessoriesFor(this.instrument()?.instrumentId ?? null),
   );
   /** The fee the district's schedule gives for the chosen instrument and student. */
-  protected readonly quote = httpResource(
-    () => {
-      const instrument = this.instrument();
-      const student = this.student();
-      if (!instrument || !student) return undefined;
-      return {
-        url: '/api/fees/quote',
-        params: { instrumentId: instrument.id, studentId: student.id },
-      };
-    },
-    { parse: (body) => feeQuoteSchema.parse(body) },
-  );
+  protected readonly quote = inject(FeeLedger).quote(() => {
+    const instrument = this.instrument();
+    const student = this.student();
+    return instrument && student
+      ? { instrumentId: instrument.id, studentId: student.id }
+      : undefined;
+  });
   /** The scheduled fee in cents; null where no schedule line covers the instrument. */
   protected readonly scheduledCents = computed(() =>
     this.quote.hasValue() ? this.quote.value().feeCents : null,

@@ -64,6 +64,8 @@ import { FleetLoans } from '../loan-data';
     </div>
   `,
   styles: `
+    @use '../../../theme/icon-label';
+
     .loan {
       margin-bottom: 12px;
       max-width: 44rem;
@@ -77,15 +79,10 @@ import { FleetLoans } from '../loan-data';
       }
     }
     .late {
-      display: inline-flex;
-      align-items: center;
-      gap: 4px;
       margin-left: 8px;
       font-weight: 600;
       color: var(--tb-danger);
-      mat-icon {
-        width: 18px;
-        height: 18px;
+      @include icon-label.icon-label {
         fill: var(--tb-danger);
       }
     }

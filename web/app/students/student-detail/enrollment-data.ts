@@ -1,6 +1,5 @@
 import { Injectable } from '@angular/core';
-import { ApiData } from '../../core/state/api-data';
-import type { Observable } from 'rxjs';
+import { RecordWrites } from '../../core/state/record-data';
 import {
   enrollmentSchema,
   type Enrollment,
@@ -10,12 +9,8 @@ import {
 
 /** Seats students in ensembles through `/api/enrollments`. */
 @Injectable({ providedIn: 'root' })
-export class EnrollmentData extends ApiData {
-  create(input: EnrollmentInput): Observable<Enrollment> {
-    return this.write('POST', '/api/enrollments', input, enrollmentSchema);
-  }
-
-  update(id: number, patch: EnrollmentPatch): Observable<Enrollment> {
-    return this.write('PATCH', `/api/enrollments/${id}`, patch, enrollmentSchema);
+export class EnrollmentData extends RecordWrites<Enrollment, EnrollmentInput, EnrollmentPatch> {
+  constructor() {
+    super('/api/enrollments', enrollmentSchema);
   }
 }
