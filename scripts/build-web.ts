@@ -1,4 +1,5 @@
 import { spawnSync, type SpawnSyncReturns } from 'node:child_process';
+import path from 'node:path';
 import { writePrecompressed } from '../server/core/precompressed-files';
 import { webRoot } from '../server/project-paths';
 
@@ -26,8 +27,10 @@ export function buildWeb(
     env: { ...process.env, ...webBuildEnvironment },
   });
   const project = args.find((arg) => !arg.startsWith('-')) ?? 'tuttiboard';
+  // `--output-path=<folder>` moves the build (Angular CLI: the browser files go to its `browser/`).
+  const outputPath = args.find((arg) => arg.startsWith('--output-path='))?.split('=')[1];
   if (result.status === 0 && project === 'tuttiboard') {
-    const written = writePrecompressed(webRoot);
+    const written = writePrecompressed(outputPath ? path.resolve(outputPath, 'browser') : webRoot);
     if (output === 'inherit')
       process.stdout.write(
         `Brotli copies of ${written.files} scripts and stylesheets: ${Math.round(written.raw / 1000)} kB → ${Math.round(written.brotli / 1000)} kB.\n`,
