@@ -44,6 +44,7 @@ import { reportsRoutes } from './reports/reports-routes';
 import { startBackgroundWork } from './reports/background-work';
 import { webRoot } from './project-paths';
 import { webPages, type WebPages } from './core/web-preloads';
+import { precompressedFiles } from './core/precompressed-files';
 import { embeddedReads, sendWithEmbeddedReads, sessionActor } from './core/embedded-reads';
 import { can } from './core/policy';
 import { districtLogoRoute, districtRoutes, requireDistrict } from './district/district-routes';
@@ -227,6 +228,7 @@ function webApp({ db, logger }: Services, pages: WebPages): Router {
     if (html === undefined) return next();
     response.set('Cache-Control', 'no-cache').type('html').send(html);
   });
+  web.use(precompressedFiles(webRoot));
   web.use(express.static(webRoot, { index: false, maxAge: '1h', setHeaders: webCacheHeaders }));
   web.get('/{*splat}', async (request, response) => {
     response.set('Cache-Control', 'no-cache');
@@ -312,11 +314,12 @@ const alwaysRevalidated = new Set([
 
 /**
  * The build's own file names carry a hash of their content (Angular's `outputHashing: "all"`:
- * `main-3SDGA755.js`, `chunk-….js`, `styles-….css`, `media/…-….woff2`), so a name never
- * changes content: a year's lifetime and `immutable` (RFC 8246) spare the repeat visit's
- * revalidation round trips.
+ * `main-3SDGA755.js`, `styles-….css`, `media/…-….woff2` from esbuild, and `chunk-6zhjmF-q.js`
+ * from the chunk optimizer's rolldown pass, whose hashes are eight base64url characters), so a
+ * name never changes content: a year's lifetime and `immutable` (RFC 8246) spare the repeat
+ * visit's revalidation round trips.
  */
-export const hashedFileName = /-[A-Z0-9]{8}\.(?:js|css|woff2?|ttf|svg|png)$/;
+export const hashedFileName = /-[A-Za-z0-9_-]{8}\.(?:js|css|woff2?|ttf|svg|png)$/;
 
 function webCacheHeaders(response: express.Response, filePath: string): void {
   const name = path.basename(filePath);

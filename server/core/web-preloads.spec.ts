@@ -2,6 +2,7 @@ import crypto from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import {
   namedScripts,
+  outputOf,
   screenPreloads,
   staticImports,
   withIndexHash,
@@ -53,6 +54,40 @@ describe('web preloads', () => {
     ]);
     // A module the build did not make an entry of adds nothing.
     expect(screenPreloads(metafile, ['web/app/missing.ts'], named)).toEqual([]);
+  });
+
+  it('should find a module bundled into a chunk with no entry point, as the chunk optimizer writes them', () => {
+    // The shape @angular/build's chunk optimizer writes (its `rolldownToEsbuildMetafile`): only
+    // the app's own entries keep `entryPoint`; a lazy screen merged with its shared code is found
+    // by the source modules in `inputs`. A stylesheet listing the same path is not a script.
+    const optimized: BuildMetafile = {
+      outputs: {
+        'main-BBBBBBBB.js': {
+          entryPoint: 'web/main.ts',
+          inputs: { 'web/main.ts': { bytesInOutput: 10 } },
+          imports: [{ path: 'chunk-SCREEN02.js', kind: 'dynamic-import' }],
+        },
+        'styles-CCCCCCCC.css': { inputs: { 'web/app/screen.ts': { bytesInOutput: 1 } } },
+        'chunk-SCREEN02.js': {
+          inputs: {
+            'web/app/screen.ts': { bytesInOutput: 40 },
+            'node_modules/store/index.js': { bytesInOutput: 20 },
+          },
+          imports: [{ path: 'chunk-KIT00001.js', kind: 'import-statement' }],
+        },
+        'chunk-KIT00001.js': { inputs: { 'web/app/kit.ts': { bytesInOutput: 5 } }, imports: [] },
+      },
+    };
+    expect(outputOf(optimized, 'web/main.ts')).toBe('main-BBBBBBBB.js');
+    expect(outputOf(optimized, 'web/app/screen.ts')).toBe('chunk-SCREEN02.js');
+    expect(outputOf(optimized, 'web/app/missing.ts')).toBeUndefined();
+    expect(
+      screenPreloads(
+        optimized,
+        ['web/main.ts', 'node_modules/store/index.js', 'web/app/screen.ts'],
+        new Set(['main-BBBBBBBB.js']),
+      ),
+    ).toEqual(['chunk-SCREEN02.js', 'chunk-KIT00001.js']);
   });
 
   it('should read the scripts an index page names and add the preloader after them', () => {

@@ -7,13 +7,31 @@ import type { Capability } from './policy';
 /**
  * The part of the build's metafile read here (esbuild's "metafile" format, which Angular's
  * application builder writes as `stats.json` with `statsJson`): each output file, the source
- * module it is the entry of, and the files it imports.
+ * module it is the entry of, the source modules bundled into it, and the files it imports.
  */
 export interface BuildMetafile {
   outputs: Record<
     string,
-    { entryPoint?: string; imports?: readonly { path: string; kind: string }[] }
+    {
+      entryPoint?: string;
+      inputs?: Readonly<Record<string, unknown>>;
+      imports?: readonly { path: string; kind: string }[];
+    }
   >;
+}
+
+/**
+ * The script file that holds a source module: the output whose entry it is, else the one it was
+ * bundled into. After the builder's chunk optimizer (`NG_BUILD_OPTIMIZE_CHUNKS`) a lazy chunk
+ * has no `entryPoint` any more (its second pass names only the app's own entries), but each
+ * output still lists its `inputs`, as in esbuild's metafile.
+ */
+export function outputOf(metafile: BuildMetafile, module: string): string | undefined {
+  const scripts = Object.entries(metafile.outputs).filter(([file]) => file.endsWith('.js'));
+  return (
+    scripts.find(([, output]) => output.entryPoint === module)?.[0] ??
+    scripts.find(([, output]) => output.inputs && module in output.inputs)?.[0]
+  );
 }
 
 /**
@@ -80,9 +98,7 @@ export function screenPreloads(
 ): string[] {
   const files: string[] = [];
   for (const module of modules) {
-    const output = Object.keys(metafile.outputs).find(
-      (file) => metafile.outputs[file]!.entryPoint === module,
-    );
+    const output = outputOf(metafile, module);
     if (!output) continue;
     for (const file of staticImports(metafile, output))
       if (!named.has(path.posix.basename(file)) && !files.includes(file)) files.push(file);

@@ -1,7 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { gzipSync } from 'node:zlib';
-import { spawnSync } from 'node:child_process';
+import { buildWeb } from '../../scripts/build-web';
 import { figure, type BenchFigure } from './bench-figure';
 
 /** The files a browser loads before the first route: main, its preloaded chunks and styles. */
@@ -26,7 +26,7 @@ export function sizes(files: string[]): { raw: number; gzip: number } {
 }
 
 function build(project: string) {
-  const result = spawnSync('npx', ['ng', 'build', project], { encoding: 'utf8' });
+  const result = buildWeb([project], 'capture');
   if (result.status !== 0)
     throw new Error(`ng build ${project} failed:\n${result.stdout}\n${result.stderr}`);
 }

@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import type { AddressInfo } from 'node:net';
-import { spawnSync } from 'node:child_process';
+import { buildWeb } from '../../scripts/build-web';
 import type { Browser, BrowserContext, CDPSession, Page } from 'playwright-core';
 import { startOidcFake } from '../../fakes/oidc/oidc-fake';
 import { createApp } from '../../server/app';
@@ -49,7 +49,7 @@ const emailOfDirector = 'director.hpms@merrowbasin.example';
 /** The demo district served with the production build, and an identity provider to sign in. */
 async function serveDemo() {
   if (!fs.existsSync('dist/web/browser/index.html')) {
-    const built = spawnSync('npx', ['ng', 'build'], { encoding: 'utf8' });
+    const built = buildWeb([], 'capture');
     if (built.status !== 0) throw new Error(`ng build failed:\n${built.stdout}\n${built.stderr}`);
   }
   const database = await openDatabase({ kind: 'pglite-memory' });
